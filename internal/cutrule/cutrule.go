@@ -1,0 +1,279 @@
+// Package cutrule parses cut specs and finds the cut each one picks on a
+// curve.
+//
+// The specs:
+//
+//	score=V    the cut at score V: the deepest cut that flags no case
+//	           safer than V (the smallest data score >= V; the largest
+//	           <= V when lower scores are riskier)
+//	top=N      the deepest cut that flags at most N validation rows
+//	top=P%     the deepest cut that flags at most P percent of the rows
+//	hit=R      the strictest cut whose recall (hit share) is >= R
+//	wrong=F    the deepest cut whose false discovery rate (wrong-alert
+//	           share) is <= F
+//	base       the deepest cut whose alert rate does not exceed the base rate
+//	queue=K    the deepest cut whose queue per shift is <= K (needs a volume)
+//	cost       the cut of least cost, the strictest among equals (needs costs)
+//
+// score= and top= concern the ranked list and count rows, never weight.
+// The other rules use the projected production figures (package
+// projection), which equal the validation figures when the production base
+// rate is the validation one. Which cases a cut flags follows the cut rule
+// in the doc of package scores. Comparisons allow a relative slack of
+// 1e-12, so that rounding in the projection never decides a tie.
+package cutrule
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+
+	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/projection"
+	"github.com/sill-tool/sill/internal/scores"
+)
+
+// Kind says which rule a spec is.
+type Kind int
+
+// The kinds of rule, in the order of the package doc.
+const (
+	Score Kind = iota
+	Top
+	Hit
+	Wrong
+	Base
+	Queue
+	Cost
+)
+
+var kindNames = [...]string{Score: "score", Top: "top", Hit: "hit", Wrong: "wrong", Base: "base", Queue: "queue", Cost: "cost"}
+
+// Rule is a parsed cut spec.
+type Rule struct {
+	Kind    Kind
+	Value   float64 // the number after '='; unused by base and cost
+	Percent bool    // top=P%: Value is a percentage
+}
+
+// Errors returned by Parse and Find.
+var (
+	ErrMalformed   = errors.New("malformed cut spec")
+	ErrNeedsVolume = errors.New("needs a volume per shift (--volume)")
+	ErrNeedsCosts  = errors.New("needs at least one cost (--cost-false-alert, --cost-miss or --cost-hit)")
+)
+
+// slack is the relative tolerance of every comparison with a rule's value.
+const slack = 1e-12
+
+// Parse reads a spec such as "hit=0.8", "top=5%" or "base".
+func Parse(text string) (Rule, error) {
+	spec := strings.TrimSpace(text)
+	name, value, hasValue := strings.Cut(spec, "=")
+	name = strings.ToLower(strings.TrimSpace(name))
+	value = strings.TrimSpace(value)
+	bad := func(why string) (Rule, error) {
+		return Rule{}, fmt.Errorf("%w %q: %s", ErrMalformed, text, why)
+	}
+	kind := -1
+	for k, n := range kindNames {
+		if n == name {
+			kind = k
+		}
+	}
+	if kind < 0 {
+		return bad("expected one of score=V, top=N, top=P%, hit=R, wrong=F, base, queue=K, cost")
+	}
+	r := Rule{Kind: Kind(kind)}
+	if r.Kind == Base || r.Kind == Cost {
+		if hasValue {
+			return bad(name + " takes no value")
+		}
+		return r, nil
+	}
+	if !hasValue || value == "" {
+		return bad(name + " needs a value after '='")
+	}
+	if r.Kind == Top && strings.HasSuffix(value, "%") {
+		r.Percent = true
+		value = strings.TrimSpace(strings.TrimSuffix(value, "%"))
+	}
+	v, err := strconv.ParseFloat(value, 64)
+	if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
+		return bad(fmt.Sprintf("%q is not a finite number", value))
+	}
+	r.Value = v
+	switch {
+	case (r.Kind == Hit || r.Kind == Wrong) && !(v >= 0 && v <= 1):
+		return bad("expected a share in [0,1]")
+	case r.Kind == Top && r.Percent && !(v > 0 && v <= 100):
+		return bad("expected a percentage in (0,100]")
+	case r.Kind == Top && !r.Percent && !(v >= 1 && v == math.Trunc(v)):
+		return bad("expected a whole number of rows, at least 1")
+	case r.Kind == Queue && !(v >= 0):
+		return bad("expected a queue size of at least 0")
+	}
+	return r, nil
+}
+
+// String returns the spec in the form Parse reads.
+func (r Rule) String() string {
+	name := kindNames[r.Kind]
+	switch r.Kind {
+	case Base, Cost:
+		return name
+	case Top:
+		if r.Percent {
+			return name + "=" + strconv.FormatFloat(r.Value, 'g', -1, 64) + "%"
+		}
+	}
+	return name + "=" + strconv.FormatFloat(r.Value, 'g', -1, 64)
+}
+
+// Defaults returns the usual starting points (rules of thumb from common
+// practice, no source): match the base rate, catch 80% of true cases,
+// accept about one wrong alert in three; then queue=capacity when a
+// capacity and a volume are given, and cost when costs are given.
+func Defaults(a projection.Assumptions) []Rule {
+	rules := []Rule{{Kind: Base}, {Kind: Hit, Value: 0.8}, {Kind: Wrong, Value: 0.333}}
+	if a.Capacity > 0 && a.Volume > 0 {
+		rules = append(rules, Rule{Kind: Queue, Value: a.Capacity})
+	}
+	if a.Costs != nil {
+		rules = append(rules, Rule{Kind: Cost})
+	}
+	return rules
+}
+
+// Outcome is the cut a rule picks. When Met is false, Point is the zero
+// value and Reason says why no cut meets the rule.
+type Outcome struct {
+	Rule      Rule
+	Met       bool
+	Reason    string
+	Point     curve.Point
+	Projected projection.Figures
+}
+
+// Find applies rules to every cut of c under a.
+func Find(rules []Rule, c *curve.Curve, a projection.Assumptions) ([]Outcome, error) {
+	f, err := NewFinder(rules, c.Set, a)
+	if err != nil {
+		return nil, err
+	}
+	c.Points(f.Visit)
+	return f.Outcomes(), nil
+}
+
+// Finder applies rules to a stream of points, strictest first, in memory
+// independent of the number of cuts.
+type Finder struct {
+	rules []Rule
+	set   *scores.Set
+	a     projection.Assumptions
+	found []bool
+	best  []Outcome
+
+	// The strictest point and its figures, for the reasons of unmet rules.
+	seen         bool
+	first        curve.Point
+	firstFigures projection.Figures
+}
+
+// NewFinder checks that the assumptions suit the rules and returns a
+// Finder for points of set.
+func NewFinder(rules []Rule, set *scores.Set, a projection.Assumptions) (*Finder, error) {
+	for _, r := range rules {
+		if r.Kind == Queue && !(a.Volume > 0) {
+			return nil, fmt.Errorf("cut %s %w", r, ErrNeedsVolume)
+		}
+		if r.Kind == Cost && a.Costs == nil {
+			return nil, fmt.Errorf("cut %s %w", r, ErrNeedsCosts)
+		}
+	}
+	f := &Finder{rules: rules, set: set, a: a, found: make([]bool, len(rules)), best: make([]Outcome, len(rules))}
+	for i, r := range rules {
+		f.best[i].Rule = r
+	}
+	return f, nil
+}
+
+// Visit considers the next point; points must come strictest first.
+func (f *Finder) Visit(p curve.Point) {
+	fig := projection.Project(p, f.a)
+	if !f.seen {
+		f.seen, f.first, f.firstFigures = true, p, fig
+	}
+	for i, r := range f.rules {
+		keep := false
+		switch r.Kind {
+		case Score:
+			keep = !f.set.Riskier(r.Value, p.Score) // p.Score is at or riskier than V
+		case Top:
+			limit := r.Value
+			if r.Percent {
+				limit = r.Value / 100 * float64(f.set.Len())
+			}
+			keep = float64(p.Rows) <= limit*(1+slack)
+		case Hit:
+			keep = !f.found[i] && p.Recall() >= r.Value-slack
+		case Wrong:
+			keep = fig.FalseDiscoveryRate() <= r.Value+slack
+		case Base:
+			keep = fig.AlertRate <= f.a.BaseRate*(1+slack)
+		case Queue:
+			keep = fig.QueuePerShift <= r.Value*(1+slack)
+		case Cost:
+			keep = !f.found[i] || fig.CostPerCase < f.best[i].Projected.CostPerCase
+		}
+		if keep {
+			f.found[i] = true
+			f.best[i] = Outcome{Rule: r, Met: true, Point: p, Projected: fig}
+		}
+	}
+}
+
+// Outcomes returns one outcome per rule, in the order given.
+func (f *Finder) Outcomes() []Outcome {
+	out := make([]Outcome, len(f.rules))
+	for i, r := range f.rules {
+		if f.found[i] {
+			out[i] = f.best[i]
+			continue
+		}
+		out[i] = Outcome{Rule: r, Reason: f.reason(r)}
+	}
+	return out
+}
+
+// reason explains why no cut meets r.
+func (f *Finder) reason(r Rule) string {
+	if !f.seen {
+		return "the set has no rows"
+	}
+	p, fig := f.first, f.firstFigures
+	pct := func(v float64) string { return strconv.FormatFloat(100*v, 'f', 1, 64) + "%" }
+	switch r.Kind {
+	case Score:
+		return fmt.Sprintf("no score is at or beyond %v; the riskiest is %v", r.Value, p.Score)
+	case Top:
+		return fmt.Sprintf("the strictest cut already flags %d rows (tied at score %v)", p.Rows, p.Score)
+	case Hit:
+		if !(p.Positives() > 0) {
+			return "the validation set has no true cases, so hit share is undefined"
+		}
+		return fmt.Sprintf("no cut reaches hit share %v", r.Value)
+	case Wrong:
+		if !(p.Positives() > 0) {
+			return "the validation set has no true cases, so every alert is wrong"
+		}
+		return fmt.Sprintf("every cut has a wrong-alert share above %v; the strictest has %s", r.Value, pct(fig.FalseDiscoveryRate()))
+	case Base:
+		return fmt.Sprintf("the strictest cut already flags %s, above the base rate %s", pct(fig.AlertRate), pct(f.a.BaseRate))
+	case Queue:
+		return fmt.Sprintf("the strictest cut already queues %.1f alerts per shift, above %v", fig.QueuePerShift, r.Value)
+	}
+	return "no cut meets the rule"
+}

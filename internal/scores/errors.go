@@ -1,0 +1,61 @@
+package scores
+
+import (
+	"errors"
+	"fmt"
+)
+
+// Sentinel errors carried inside a *ParseError; test for them with errors.Is.
+var (
+	ErrEmpty         = errors.New("empty input, expected a header line")
+	ErrNoRows        = errors.New("no data rows after the header")
+	ErrMissingColumn = errors.New("column not found")
+	ErrRagged        = errors.New("wrong number of fields")
+	ErrBadScore      = errors.New("invalid score")
+	ErrBadLabel      = errors.New("unrecognised label")
+	ErrBadWeight     = errors.New("invalid weight")
+	ErrCorruptGzip   = errors.New("corrupt gzip data")
+	ErrBadJSON       = errors.New("malformed JSON")
+)
+
+// ParseError reports bad input at a place in a file. Line is 1-based and
+// counts physical lines of the decompressed input, the header being line 1;
+// it is 0 when the error concerns the file as a whole. Column is the column
+// (or JSON key) name, empty when the error concerns the whole row.
+type ParseError struct {
+	File   string
+	Line   int
+	Column string
+	Err    error
+}
+
+func (e *ParseError) Error() string {
+	msg := e.File
+	if e.Line > 0 {
+		msg += fmt.Sprintf(":%d", e.Line)
+	}
+	if e.Column != "" {
+		msg += fmt.Sprintf(": column %q", e.Column)
+	}
+	return msg + ": " + e.Err.Error()
+}
+
+func (e *ParseError) Unwrap() error { return e.Err }
+
+// valueError wraps a sentinel with the offending value, as in
+// `unrecognised label "maybe"`.
+type valueError struct {
+	sentinel error
+	value    string
+	hint     string
+}
+
+func (e *valueError) Error() string {
+	msg := fmt.Sprintf("%v %q", e.sentinel, e.value)
+	if e.hint != "" {
+		msg += ", " + e.hint
+	}
+	return msg
+}
+
+func (e *valueError) Unwrap() error { return e.sentinel }

@@ -1,0 +1,577 @@
+package scores
+
+import (
+	"bufio"
+	"bytes"
+	"compress/gzip"
+	"crypto/sha256"
+	"encoding/csv"
+	"encoding/hex"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"strconv"
+	"strings"
+)
+
+// Input formats for Options.Input.
+const (
+	InputAuto  = ""      // JSON Lines when the first non-blank character is '{', else delimited text
+	InputCSV   = "csv"   // delimited text with a header line
+	InputJSONL = "jsonl" // one JSON object per line
+)
+
+// Default column names, tried in order when a column is not named.
+var (
+	DefaultScoreColumns = []string{"score", "probability", "prob", "p", "pred", "prediction"}
+	DefaultLabelColumns = []string{"label", "y", "target", "outcome", "actual"}
+)
+
+// progressEvery is how many rows pass between calls of Options.Progress.
+const progressEvery = 1 << 16
+
+// maxDroppedReasons bounds Set.DroppedReasons.
+const maxDroppedReasons = 5
+
+// Options says how to read a table. The zero value reads CSV, TSV or JSON
+// Lines with the default column names and label values.
+type Options struct {
+	Input     string // InputAuto, InputCSV or InputJSONL
+	Delimiter rune   // 0 detects ',', '\t', ';' or '|' from the header line
+
+	ScoreColumn   string // "" tries DefaultScoreColumns
+	LabelColumn   string // "" tries DefaultLabelColumns
+	WeightColumn  string // "" means unweighted
+	SegmentColumn string // "" means no segments
+	IDColumn      string // "" means no ids
+
+	// NoLabels allows a table without a label column: every label reads as
+	// false. Used for fresh production scores whose outcomes are unknown.
+	NoLabels bool
+
+	// Positive, when set, is the only label value read as a true case;
+	// every other value is a false case. When empty the labels
+	// 1/true/yes/y/t/positive/pos and 0/false/no/n/f/negative/neg are
+	// recognised, case-insensitively, and anything else is an error.
+	Positive string
+
+	LowerIsRiskier bool
+
+	// DropInvalid skips rows whose score is missing or not a finite number
+	// instead of failing; the Set counts them.
+	DropInvalid bool
+
+	// Progress, when set, is called every so often with the rows read so far.
+	Progress func(rows int)
+}
+
+// Read reads a whole table from r and returns it ranked (see Set). source
+// names the input in errors. Gzip-compressed input is recognised by its
+// magic bytes and a leading UTF-8 byte-order mark is skipped. All input
+// errors are *ParseError values.
+func Read(r io.Reader, source string, opt Options) (*Set, error) {
+	digest := sha256.New()
+	hashed := io.TeeReader(r, digest)
+	in, err := openInput(hashed, source)
+	if err != nil {
+		return nil, err
+	}
+	b := &builder{opt: opt, source: source}
+	if err := b.readAll(in); err != nil {
+		return nil, err
+	}
+	// Read what the parser left (such as bytes after a gzip stream) so
+	// that the digest covers the whole input.
+	if _, err := io.Copy(io.Discard, hashed); err != nil {
+		return nil, &ParseError{File: source, Err: fmt.Errorf("read: %w", err)}
+	}
+	return b.finish(hex.EncodeToString(digest.Sum(nil)))
+}
+
+// openInput returns a buffered reader of the decompressed bytes with any
+// byte-order mark skipped.
+func openInput(r io.Reader, source string) (*bufio.Reader, error) {
+	buffered := bufio.NewReaderSize(r, 1<<20)
+	magic, _ := buffered.Peek(2)
+	if len(magic) == 2 && magic[0] == 0x1f && magic[1] == 0x8b {
+		z, err := gzip.NewReader(buffered)
+		if err != nil {
+			return nil, &ParseError{File: source, Err: fmt.Errorf("%w: %v", ErrCorruptGzip, err)}
+		}
+		buffered = bufio.NewReaderSize(z, 1<<20)
+	}
+	if bom, _ := buffered.Peek(3); bytes.Equal(bom, []byte("\xef\xbb\xbf")) {
+		buffered.Discard(3)
+	}
+	return buffered, nil
+}
+
+// builder collects rows column-wise.
+type builder struct {
+	opt    Options
+	source string
+
+	header                                           []string // column names as found
+	scoreCol, labelCol, weightCol, segmentCol, idCol int
+
+	scores   []float64
+	labels   []bool
+	weights  []float64
+	ids      []string
+	segments []int32
+	segIndex map[string]int32
+	segNames []string
+
+	dropped        int
+	droppedReasons []string
+}
+
+func (b *builder) readAll(in *bufio.Reader) error {
+	format := b.opt.Input
+	if format == InputAuto {
+		format = sniff(in)
+	}
+	var err error
+	switch format {
+	case InputJSONL:
+		err = b.readJSONL(in)
+	case InputCSV:
+		err = b.readDelimited(in)
+	default:
+		return &ParseError{File: b.source, Err: fmt.Errorf("unknown input format %q, expected csv or jsonl", format)}
+	}
+	if err != nil {
+		return err
+	}
+	if len(b.scores) == 0 && b.dropped == 0 {
+		return &ParseError{File: b.source, Err: ErrNoRows}
+	}
+	return nil
+}
+
+// sniff guesses the format from the first non-blank byte.
+func sniff(in *bufio.Reader) string {
+	for n := 1; ; n++ {
+		peek, err := in.Peek(n)
+		if len(peek) < n {
+			return InputCSV
+		}
+		c := peek[n-1]
+		if c == ' ' || c == '\t' || c == '\r' || c == '\n' {
+			if err != nil || n >= 4096 {
+				return InputCSV
+			}
+			continue
+		}
+		if c == '{' {
+			return InputJSONL
+		}
+		return InputCSV
+	}
+}
+
+// resolve finds the wanted columns in the header.
+func (b *builder) resolve(header []string, line int) error {
+	b.header = header
+	find := func(name string, defaults []string, required bool, what string) (int, error) {
+		if name != "" {
+			for i, h := range header {
+				if h == name {
+					return i, nil
+				}
+			}
+			return -1, &ParseError{File: b.source, Line: line, Column: name, Err: fmt.Errorf("%w in header %s", ErrMissingColumn, quoteList(header))}
+		}
+		for _, d := range defaults {
+			for i, h := range header {
+				if strings.EqualFold(h, d) {
+					return i, nil
+				}
+			}
+		}
+		if required {
+			return -1, &ParseError{File: b.source, Line: line, Err: fmt.Errorf("%w: no %s column among %s, expected one of %s (or name it with --%s)", ErrMissingColumn, what, quoteList(header), quoteList(defaults), what)}
+		}
+		return -1, nil
+	}
+	var err error
+	if b.scoreCol, err = find(b.opt.ScoreColumn, DefaultScoreColumns, true, "score"); err != nil {
+		return err
+	}
+	if b.labelCol, err = find(b.opt.LabelColumn, DefaultLabelColumns, !b.opt.NoLabels, "label"); err != nil {
+		return err
+	}
+	if b.weightCol, err = find(b.opt.WeightColumn, nil, false, "weight"); err != nil {
+		return err
+	}
+	if b.segmentCol, err = find(b.opt.SegmentColumn, nil, false, "segment"); err != nil {
+		return err
+	}
+	if b.idCol, err = find(b.opt.IDColumn, nil, false, "id"); err != nil {
+		return err
+	}
+	if b.weightCol >= 0 {
+		b.weights = []float64{}
+	}
+	if b.segmentCol >= 0 {
+		b.segments = []int32{}
+		b.segIndex = map[string]int32{}
+	}
+	if b.idCol >= 0 {
+		b.ids = []string{}
+	}
+	return nil
+}
+
+// wanted returns the indices of the columns in use.
+func (b *builder) wanted() []int {
+	var cols []int
+	for _, c := range []int{b.scoreCol, b.labelCol, b.weightCol, b.segmentCol, b.idCol} {
+		if c >= 0 {
+			cols = append(cols, c)
+		}
+	}
+	return cols
+}
+
+func quoteList(names []string) string {
+	quoted := make([]string, len(names))
+	for i, n := range names {
+		quoted[i] = strconv.Quote(n)
+	}
+	return "[" + strings.Join(quoted, ", ") + "]"
+}
+
+// add parses one row; cell returns the text of a column index.
+func (b *builder) add(line int, cell func(col int) string) error {
+	scoreText := cell(b.scoreCol)
+	score, err := parseScore(scoreText)
+	if err != nil {
+		if b.opt.DropInvalid {
+			b.dropped++
+			if len(b.droppedReasons) < maxDroppedReasons {
+				b.droppedReasons = append(b.droppedReasons, (&ParseError{File: b.source, Line: line, Column: b.header[b.scoreCol], Err: err}).Error())
+			}
+			return nil
+		}
+		return &ParseError{File: b.source, Line: line, Column: b.header[b.scoreCol], Err: err}
+	}
+	positive := false
+	if b.labelCol >= 0 {
+		if positive, err = b.parseLabel(cell(b.labelCol)); err != nil {
+			return &ParseError{File: b.source, Line: line, Column: b.header[b.labelCol], Err: err}
+		}
+	}
+	if b.weightCol >= 0 {
+		w, err := parseWeight(cell(b.weightCol))
+		if err != nil {
+			return &ParseError{File: b.source, Line: line, Column: b.header[b.weightCol], Err: err}
+		}
+		b.weights = append(b.weights, w)
+	}
+	if b.segmentCol >= 0 {
+		name := cell(b.segmentCol)
+		code, ok := b.segIndex[name]
+		if !ok {
+			code = int32(len(b.segNames))
+			b.segIndex[name] = code
+			b.segNames = append(b.segNames, name)
+		}
+		b.segments = append(b.segments, code)
+	}
+	if b.idCol >= 0 {
+		b.ids = append(b.ids, cell(b.idCol))
+	}
+	b.scores = append(b.scores, score)
+	b.labels = append(b.labels, positive)
+	if b.opt.Progress != nil && len(b.scores)%progressEvery == 0 {
+		b.opt.Progress(len(b.scores))
+	}
+	return nil
+}
+
+func (b *builder) finish(digest string) (*Set, error) {
+	s := &Set{
+		Scores:         b.scores,
+		Labels:         b.labels,
+		Weights:        b.weights,
+		IDs:            b.ids,
+		SegmentOf:      b.segments,
+		SegmentNames:   b.segNames,
+		LowerIsRiskier: b.opt.LowerIsRiskier,
+		Source:         b.source,
+		SHA256:         digest,
+		ScoreColumn:    b.header[b.scoreCol],
+		Dropped:        b.dropped,
+		DroppedReasons: b.droppedReasons,
+	}
+	if b.labelCol >= 0 {
+		s.LabelColumn = b.header[b.labelCol]
+	}
+	if b.weightCol >= 0 {
+		s.WeightColumn = b.header[b.weightCol]
+	}
+	if b.segmentCol >= 0 {
+		s.SegmentColumn = b.header[b.segmentCol]
+	}
+	if b.idCol >= 0 {
+		s.IDColumn = b.header[b.idCol]
+	}
+	if b.opt.Progress != nil {
+		b.opt.Progress(len(b.scores))
+	}
+	s.rank()
+	return s, nil
+}
+
+func parseScore(text string) (float64, error) {
+	text = strings.TrimSpace(text)
+	if text == "" {
+		return 0, &valueError{sentinel: ErrBadScore, value: text, hint: "expected a number, found an empty cell"}
+	}
+	v, err := strconv.ParseFloat(text, 64)
+	if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
+		return 0, &valueError{sentinel: ErrBadScore, value: text, hint: "expected a finite number"}
+	}
+	if v == 0 {
+		v = 0 // fold -0 into +0
+	}
+	return v, nil
+}
+
+func parseWeight(text string) (float64, error) {
+	text = strings.TrimSpace(text)
+	v, err := strconv.ParseFloat(text, 64)
+	if err != nil || math.IsNaN(v) || math.IsInf(v, 0) || v < 0 {
+		return 0, &valueError{sentinel: ErrBadWeight, value: text, hint: "expected a finite number >= 0"}
+	}
+	return v, nil
+}
+
+var positiveWords = map[string]bool{"1": true, "true": true, "yes": true, "y": true, "t": true, "positive": true, "pos": true}
+var negativeWords = map[string]bool{"0": true, "false": true, "no": true, "n": true, "f": true, "negative": true, "neg": true}
+
+func (b *builder) parseLabel(text string) (bool, error) {
+	text = strings.TrimSpace(text)
+	if b.opt.Positive != "" {
+		return text == b.opt.Positive, nil
+	}
+	word := strings.ToLower(text)
+	switch {
+	case positiveWords[word]:
+		return true, nil
+	case negativeWords[word]:
+		return false, nil
+	}
+	// Numeric spellings such as 1.0 or 0.0, as written by float columns.
+	if v, err := strconv.ParseFloat(word, 64); err == nil && (v == 0 || v == 1) {
+		return v == 1, nil
+	}
+	return false, &valueError{sentinel: ErrBadLabel, value: text, hint: "expected 1/true/yes/positive or 0/false/no/negative (or set --positive)"}
+}
+
+// readDelimited reads CSV or TSV with a header line.
+func (b *builder) readDelimited(in *bufio.Reader) error {
+	delim := b.opt.Delimiter
+	if delim == 0 {
+		headerLine, err := in.Peek(in.Buffered())
+		if len(headerLine) == 0 {
+			headerLine, err = in.Peek(1)
+		}
+		if len(headerLine) == 0 {
+			if err != nil && err != io.EOF {
+				return b.readError(0, err)
+			}
+			return &ParseError{File: b.source, Err: ErrEmpty}
+		}
+		if i := bytes.IndexByte(headerLine, '\n'); i >= 0 {
+			headerLine = headerLine[:i]
+		}
+		delim = detectDelimiter(headerLine)
+	}
+	r := csv.NewReader(in)
+	r.Comma = delim
+	r.FieldsPerRecord = -1
+	r.ReuseRecord = true
+	header, err := r.Read()
+	if err == io.EOF {
+		return &ParseError{File: b.source, Err: ErrEmpty}
+	}
+	if err != nil {
+		return b.csvError(err)
+	}
+	header = trimAll(append([]string(nil), header...))
+	if len(header) == 1 && header[0] == "" {
+		return &ParseError{File: b.source, Line: 1, Err: ErrEmpty}
+	}
+	if err := b.resolve(header, 1); err != nil {
+		return err
+	}
+	for {
+		record, err := r.Read()
+		if err == io.EOF {
+			return nil
+		}
+		if err != nil {
+			return b.csvError(err)
+		}
+		line, _ := r.FieldPos(0)
+		if len(record) == 1 && strings.TrimSpace(record[0]) == "" {
+			continue // a blank line
+		}
+		if len(record) != len(header) {
+			return &ParseError{File: b.source, Line: line, Err: fmt.Errorf("%w: row has %d, header has %d", ErrRagged, len(record), len(header))}
+		}
+		if err := b.add(line, func(col int) string { return record[col] }); err != nil {
+			return err
+		}
+	}
+}
+
+func trimAll(fields []string) []string {
+	for i, f := range fields {
+		fields[i] = strings.TrimSpace(f)
+	}
+	return fields
+}
+
+// detectDelimiter picks the separator that occurs most in the header line.
+func detectDelimiter(header []byte) rune {
+	best, bestCount := ',', 0
+	for _, d := range []rune{',', '\t', ';', '|'} {
+		if n := bytes.Count(header, []byte(string(d))); n > bestCount {
+			best, bestCount = d, n
+		}
+	}
+	return best
+}
+
+func (b *builder) csvError(err error) error {
+	var pe *csv.ParseError
+	if errors.As(err, &pe) {
+		if errors.Is(pe.Err, csv.ErrFieldCount) {
+			return &ParseError{File: b.source, Line: pe.Line, Err: ErrRagged}
+		}
+		return &ParseError{File: b.source, Line: pe.Line, Err: pe.Err}
+	}
+	return b.readError(0, err)
+}
+
+// readError wraps an error from the underlying stream, recognising broken
+// gzip data.
+func (b *builder) readError(line int, err error) error {
+	if errors.Is(err, gzip.ErrChecksum) || errors.Is(err, gzip.ErrHeader) || errors.Is(err, io.ErrUnexpectedEOF) {
+		return &ParseError{File: b.source, Line: line, Err: fmt.Errorf("%w: %v", ErrCorruptGzip, err)}
+	}
+	return &ParseError{File: b.source, Line: line, Err: fmt.Errorf("read: %w", err)}
+}
+
+// readJSONL reads one JSON object per line. The columns are taken from the
+// keys of the first object.
+func (b *builder) readJSONL(in *bufio.Reader) error {
+	line := 0
+	var keys []string
+	for {
+		text, err := in.ReadBytes('\n')
+		if len(text) > 0 {
+			line++
+			if trimmed := bytes.TrimSpace(text); len(trimmed) > 0 {
+				values, order, perr := decodeObject(trimmed)
+				if perr != nil {
+					return &ParseError{File: b.source, Line: line, Err: fmt.Errorf("%w: %v", ErrBadJSON, perr)}
+				}
+				if keys == nil {
+					keys = order
+					if err := b.resolve(keys, line); err != nil {
+						return err
+					}
+				}
+				for _, col := range b.wanted() {
+					if _, ok := values[keys[col]]; !ok {
+						return &ParseError{File: b.source, Line: line, Column: keys[col], Err: fmt.Errorf("%w: key missing from this object", ErrMissingColumn)}
+					}
+				}
+				if err := b.add(line, func(col int) string { return values[keys[col]] }); err != nil {
+					return err
+				}
+			}
+		}
+		if err == io.EOF {
+			if keys == nil {
+				return &ParseError{File: b.source, Err: ErrEmpty}
+			}
+			return nil
+		}
+		if err != nil {
+			return b.readError(line, err)
+		}
+	}
+}
+
+// decodeObject decodes one JSON object into the text of its scalar values
+// (null becomes ""), with the keys in document order.
+func decodeObject(data []byte) (map[string]string, []string, error) {
+	dec := json.NewDecoder(bytes.NewReader(data))
+	dec.UseNumber()
+	tok, err := dec.Token()
+	if err != nil {
+		return nil, nil, err
+	}
+	if tok != json.Delim('{') {
+		return nil, nil, fmt.Errorf("expected an object")
+	}
+	values := map[string]string{}
+	var order []string
+	for dec.More() {
+		tok, err := dec.Token()
+		if err != nil {
+			return nil, nil, err
+		}
+		key, _ := tok.(string)
+		var raw json.RawMessage
+		if err := dec.Decode(&raw); err != nil {
+			return nil, nil, err
+		}
+		text, err := scalarText(raw)
+		if err != nil {
+			return nil, nil, fmt.Errorf("key %q: %v", key, err)
+		}
+		if _, dup := values[key]; !dup {
+			order = append(order, key)
+		}
+		values[key] = text
+	}
+	if _, err := dec.Token(); err != nil {
+		return nil, nil, err
+	}
+	if dec.More() {
+		return nil, nil, fmt.Errorf("trailing data after the object")
+	}
+	if _, err := dec.Token(); err != io.EOF {
+		return nil, nil, fmt.Errorf("trailing data after the object")
+	}
+	return values, order, nil
+}
+
+func scalarText(raw json.RawMessage) (string, error) {
+	dec := json.NewDecoder(bytes.NewReader(raw))
+	dec.UseNumber()
+	var v any
+	if err := dec.Decode(&v); err != nil {
+		return "", err
+	}
+	switch v := v.(type) {
+	case nil:
+		return "", nil
+	case string:
+		return v, nil
+	case bool:
+		return strconv.FormatBool(v), nil
+	case json.Number:
+		return v.String(), nil
+	default:
+		return "", fmt.Errorf("expected a string, number, boolean or null")
+	}
+}

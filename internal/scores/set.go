@@ -1,0 +1,146 @@
+package scores
+
+import (
+	"fmt"
+	"math"
+)
+
+// Set is a scored validation set held column-wise and ranked riskiest
+// first: row 0 is the case that every cut flags first. Rows tied at one
+// score keep the order in which they were read.
+//
+// Scores and Labels always have one entry per row. Weights, IDs and
+// SegmentOf are nil when the input had no such column.
+type Set struct {
+	Scores  []float64
+	Labels  []bool    // true for a true (positive) case
+	Weights []float64 // frequency weights; nil means every row weighs 1
+
+	IDs          []string // case identifiers; nil without an id column
+	SegmentOf    []int32  // index into SegmentNames; nil without a segment column
+	SegmentNames []string
+
+	// LowerIsRiskier reports whether small scores mean positive; see the
+	// package doc for how it turns the cut rule round.
+	LowerIsRiskier bool
+
+	Source        string // the file name as given, "-" for standard input
+	SHA256        string // hex digest of the bytes read, before decompression
+	ScoreColumn   string
+	LabelColumn   string
+	WeightColumn  string
+	SegmentColumn string
+	IDColumn      string
+
+	Dropped        int      // rows skipped by DropInvalid
+	DroppedReasons []string // the first few reasons, for reporting
+}
+
+// New builds a ranked Set from parallel columns. weights may be nil. It
+// panics when the slices differ in length, and returns an error for a
+// non-finite score or a negative or non-finite weight. New takes ownership
+// of the slices and reorders them.
+func New(scores []float64, labels []bool, weights []float64, lowerIsRiskier bool) (*Set, error) {
+	if len(scores) != len(labels) || (weights != nil && len(weights) != len(scores)) {
+		panic(fmt.Sprintf("scores: New got %d scores, %d labels and %d weights", len(scores), len(labels), len(weights)))
+	}
+	for i, s := range scores {
+		if math.IsNaN(s) || math.IsInf(s, 0) {
+			return nil, fmt.Errorf("row %d: %w %v, expected a finite number", i+1, ErrBadScore, s)
+		}
+		if weights != nil {
+			if w := weights[i]; w < 0 || math.IsNaN(w) || math.IsInf(w, 0) {
+				return nil, fmt.Errorf("row %d: %w %v, expected a finite number >= 0", i+1, ErrBadWeight, w)
+			}
+		}
+	}
+	s := &Set{Scores: scores, Labels: labels, Weights: weights, LowerIsRiskier: lowerIsRiskier}
+	s.rank()
+	return s, nil
+}
+
+// Len returns the number of rows, zero-weight rows included.
+func (s *Set) Len() int { return len(s.Scores) }
+
+// Weight returns the weight of row i: 1 when the set has no weights.
+func (s *Set) Weight(i int) float64 {
+	if s.Weights == nil {
+		return 1
+	}
+	return s.Weights[i]
+}
+
+// Weighted reports whether the set carries a weight column.
+func (s *Set) Weighted() bool { return s.Weights != nil }
+
+// Segment returns the segment name of row i, or "" without a segment column.
+func (s *Set) Segment(i int) string {
+	if s.SegmentOf == nil {
+		return ""
+	}
+	return s.SegmentNames[s.SegmentOf[i]]
+}
+
+// ID returns the id of row i, or "" without an id column.
+func (s *Set) ID(i int) string {
+	if s.IDs == nil {
+		return ""
+	}
+	return s.IDs[i]
+}
+
+// Totals returns the weighted number of true and false cases.
+func (s *Set) Totals() (positives, negatives float64) {
+	for i, positive := range s.Labels {
+		if positive {
+			positives += s.Weight(i)
+		} else {
+			negatives += s.Weight(i)
+		}
+	}
+	return positives, negatives
+}
+
+// Riskier reports whether score a lies strictly on the risky side of b.
+func (s *Set) Riskier(a, b float64) bool {
+	if s.LowerIsRiskier {
+		return a < b
+	}
+	return a > b
+}
+
+// Flags reports whether a case with the given score is flagged at cut,
+// following the cut rule in the package doc.
+func (s *Set) Flags(cut, score float64) bool {
+	if s.LowerIsRiskier {
+		return score <= cut
+	}
+	return score >= cut
+}
+
+// rank sorts every column riskiest first, keeping the read order of ties.
+func (s *Set) rank() {
+	order := rankOrder(s.Scores, s.LowerIsRiskier)
+	if order == nil {
+		return
+	}
+	s.Scores = permute(s.Scores, order)
+	s.Labels = permute(s.Labels, order)
+	if s.Weights != nil {
+		s.Weights = permute(s.Weights, order)
+	}
+	if s.IDs != nil {
+		s.IDs = permute(s.IDs, order)
+	}
+	if s.SegmentOf != nil {
+		s.SegmentOf = permute(s.SegmentOf, order)
+	}
+}
+
+func permute[T any](column []T, order []uint32) []T {
+	out := make([]T, len(column))
+	for i, from := range order {
+		out[i] = column[from]
+	}
+	return out
+}
