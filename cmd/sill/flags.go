@@ -1,0 +1,146 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"strings"
+
+	"github.com/spf13/pflag"
+
+	"github.com/sill-tool/sill/internal/demo"
+	"github.com/sill-tool/sill/internal/projection"
+	"github.com/sill-tool/sill/internal/scores"
+)
+
+// inputFlags are the flags that say how to read a score table.
+type inputFlags struct {
+	opt   scores.Options
+	input string
+	delim string
+}
+
+func (f *inputFlags) register(fs *pflag.FlagSet) {
+	fs.StringVar(&f.opt.ScoreColumn, "score", "", "score column (default: first of "+strings.Join(scores.DefaultScoreColumns, ", ")+")")
+	fs.StringVar(&f.opt.LabelColumn, "label", "", "label column (default: first of "+strings.Join(scores.DefaultLabelColumns, ", ")+")")
+	fs.StringVar(&f.opt.WeightColumn, "weight", "", "optional column of non-negative case weights")
+	fs.StringVar(&f.opt.SegmentColumn, "segment", "", "optional group column")
+	fs.StringVar(&f.opt.IDColumn, "id", "", "optional case id column")
+	fs.StringVar(&f.opt.Positive, "positive", "", "the only label value that means a true case (default: 1/true/yes/positive vs 0/false/no/negative)")
+	fs.BoolVar(&f.opt.LowerIsRiskier, "lower-is-riskier", false, "a small score means a likely true case")
+	fs.BoolVar(&f.opt.DropInvalid, "drop-invalid", false, "skip rows with a missing or non-finite score, and count them")
+	fs.StringVar(&f.input, "input", "", "input format: csv or jsonl (default: detected)")
+	fs.StringVar(&f.delim, "delim", "", `field delimiter for csv, e.g. "," or "\t" (default: detected from the header)`)
+}
+
+// load reads the table at path ("-" for standard input); progress may be nil.
+func (f *inputFlags) load(path string, stdin io.Reader, progress func(rows int)) (*scores.Set, error) {
+	opt := f.opt
+	opt.Progress = progress
+	switch strings.ToLower(f.input) {
+	case "":
+	case "csv", "tsv":
+		opt.Input = scores.InputCSV
+	case "jsonl", "ndjson":
+		opt.Input = scores.InputJSONL
+	default:
+		return nil, fmt.Errorf("--input %q: expected csv or jsonl", f.input)
+	}
+	switch f.delim {
+	case "":
+	case `\t`, "tab":
+		opt.Delimiter = '\t'
+	default:
+		r := []rune(f.delim)
+		if len(r) != 1 || r[0] == '"' || r[0] == '\n' || r[0] == '\r' {
+			return nil, fmt.Errorf("--delim %q: expected one character such as , or ; or \\t", f.delim)
+		}
+		opt.Delimiter = r[0]
+	}
+	if path == "-" {
+		return scores.Read(stdin, "-", opt)
+	}
+	file, err := os.Open(path)
+	if err != nil {
+		return nil, fmt.Errorf("read scores: %w", err)
+	}
+	defer file.Close()
+	if info, err := file.Stat(); err == nil && info.IsDir() {
+		return nil, fmt.Errorf("read scores: %s is a directory, expected a file", path)
+	}
+	return scores.Read(file, path, opt)
+}
+
+// loadDemo reads the built-in demo data with the same options.
+func (f *inputFlags) loadDemo() (*scores.Set, error) {
+	opt := f.opt
+	if opt.SegmentColumn == "" {
+		opt.SegmentColumn = "yard"
+	}
+	if opt.IDColumn == "" {
+		opt.IDColumn = "id"
+	}
+	return scores.Read(strings.NewReader(string(demo.CSV(demo.DefaultRows, demo.DefaultSeed))), demo.Source, opt)
+}
+
+// assumptionFlags are the operating assumptions shared by every command
+// that projects figures to production.
+type assumptionFlags struct {
+	volume, baseRate, capacity float64
+	costFalseAlert, costMiss   float64
+	costHit, confidence        float64
+	fs                         *pflag.FlagSet
+}
+
+func (f *assumptionFlags) register(fs *pflag.FlagSet) {
+	f.fs = fs
+	fs.Float64Var(&f.volume, "volume", 0, "cases scored per shift in production")
+	fs.Float64Var(&f.baseRate, "base-rate", 0, "production base rate (default: the validation base rate)")
+	fs.Float64Var(&f.capacity, "capacity", 0, "alerts one shift can work (needs --volume)")
+	fs.Float64Var(&f.costFalseAlert, "cost-false-alert", 0, "cost of working a wrong alert")
+	fs.Float64Var(&f.costMiss, "cost-miss", 0, "cost of missing a true case")
+	fs.Float64Var(&f.costHit, "cost-hit", 0, "cost of a caught true case (negative: a benefit)")
+	fs.Float64Var(&f.confidence, "confidence", projection.DefaultConfidence, "confidence level of every interval")
+}
+
+// assumptions builds the operating assumptions, taking the base rate from
+// the validation set unless --base-rate is given.
+func (f *assumptionFlags) assumptions(set *scores.Set) (projection.Assumptions, error) {
+	positives, negatives := set.Totals()
+	a := projection.Assumptions{
+		BaseRate:   positives / (positives + negatives),
+		Volume:     f.volume,
+		Capacity:   f.capacity,
+		Confidence: f.confidence,
+	}
+	changed := func(name string) bool { return f.fs != nil && f.fs.Changed(name) }
+	if changed("base-rate") {
+		a.BaseRate = f.baseRate
+	} else if math.IsNaN(a.BaseRate) {
+		a.BaseRate = 0
+	}
+	if changed("volume") && !(f.volume > 0) {
+		return a, fmt.Errorf("--volume %v: expected a positive number of cases per shift", f.volume)
+	}
+	if changed("capacity") {
+		if !(f.capacity > 0) {
+			return a, fmt.Errorf("--capacity %v: expected a positive number of alerts per shift", f.capacity)
+		}
+		if !(f.volume > 0) {
+			return a, fmt.Errorf("--capacity needs --volume: the queue per shift is projected from the volume")
+		}
+	}
+	if changed("cost-false-alert") || changed("cost-miss") || changed("cost-hit") {
+		a.Costs = &projection.Costs{FalseAlert: f.costFalseAlert, Miss: f.costMiss, Hit: f.costHit}
+	}
+	if err := a.Validate(); err != nil {
+		return a, flagError(err)
+	}
+	return a, nil
+}
+
+// flagError rewords an assumption error for the command line.
+func flagError(err error) error {
+	return fmt.Errorf("%w (check --base-rate, --volume, --capacity, the costs and --confidence)", err)
+}

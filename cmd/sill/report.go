@@ -1,0 +1,134 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"os"
+
+	"github.com/spf13/cobra"
+	"github.com/spf13/pflag"
+
+	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/demo"
+	"github.com/sill-tool/sill/internal/report"
+	"github.com/sill-tool/sill/internal/scores"
+)
+
+type reportOptions struct {
+	input     inputFlags
+	assume    assumptionFlags
+	format    string
+	withCurve bool
+	cuts      []string
+}
+
+func newReportCmd() *cobra.Command {
+	var o reportOptions
+	cmd := &cobra.Command{
+		Use:   "report FILE",
+		Short: "Print the figures of a scored validation set at its starting points or chosen cuts",
+		Long: `report reads a validation set (CSV, TSV or JSON Lines, optionally gzip
+compressed; "-" reads standard input) and prints its summary and the figures
+of each cut: hit share, wrong-alert share, queue and cost per shift.
+
+Cut specs for --cut (repeatable):
+  score=V   the cut at score V            top=N, top=P%  flag at most N rows / P%
+  hit=R     catch at least share R         wrong=F        wrong-alert share at most F
+  base      flag as many as the base rate  queue=K        at most K alerts per shift
+  cost      least cost per shift
+Without --cut: base, hit=0.8 and wrong=0.333, plus queue=capacity and cost
+when --capacity or costs are given.`,
+		Example: `  sill demo --out bearings.csv
+  sill report bearings.csv --volume 1500 --capacity 90
+  sill report bearings.csv --cut hit=0.9 --cut top=2% --format json`,
+		Args: cobra.ExactArgs(1),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			set, err := o.input.load(args[0], cmd.InOrStdin(), nil)
+			if err != nil {
+				return err
+			}
+			return o.run(set, cmd.OutOrStdout(), cmd.ErrOrStderr())
+		},
+	}
+	fs := cmd.Flags()
+	o.input.register(fs)
+	o.assume.register(fs)
+	fs.StringVar(&o.format, "format", "text", "output: text, json, markdown, or csv (the curve alone)")
+	fs.BoolVar(&o.withCurve, "curve", false, "add the full per-cut table")
+	fs.StringArrayVar(&o.cuts, "cut", nil, "cut spec to report (repeatable), e.g. hit=0.8")
+	return cmd
+}
+
+// run computes the report of set and writes it; nothing is written to
+// stdout when an error is returned before output starts.
+func (o *reportOptions) run(set *scores.Set, stdout, stderr io.Writer) error {
+	switch o.format {
+	case "text", "json", "markdown", "csv":
+	default:
+		return fmt.Errorf("--format %q: expected text, json, markdown or csv", o.format)
+	}
+	a, err := o.assume.assumptions(set)
+	if err != nil {
+		return err
+	}
+	rules := cutrule.Defaults(a)
+	if len(o.cuts) > 0 {
+		rules = rules[:0]
+		for _, text := range o.cuts {
+			r, err := cutrule.Parse(text)
+			if err != nil {
+				return fmt.Errorf("--cut: %w", err)
+			}
+			rules = append(rules, r)
+		}
+	}
+	finder, err := cutrule.NewFinder(rules, set, a)
+	if err != nil {
+		return fmt.Errorf("--cut %w", err)
+	}
+	points := func(visit func(curve.Point)) { curve.Walk(set, visit) }
+	if o.format == "csv" {
+		return report.WriteCurveCSV(stdout, points)
+	}
+	sum := curve.Walk(set, finder.Visit)
+	r := report.New(set, sum, a, finder.Outcomes())
+	if o.format != "json" {
+		for _, w := range r.Warnings {
+			fmt.Fprintln(stderr, "sill: warning: "+w)
+		}
+	}
+	if !o.withCurve {
+		points = nil
+	}
+	switch o.format {
+	case "json":
+		return report.WriteJSON(stdout, r, points)
+	case "markdown":
+		err = report.WriteMarkdown(stdout, r)
+	default:
+		err = report.WriteText(stdout, r)
+	}
+	if err == nil && points != nil {
+		fmt.Fprintln(stdout)
+		err = report.WriteCurveCSV(stdout, points)
+	}
+	return err
+}
+
+// runDefault runs when sill is called with no command: the report of the
+// built-in demo data.
+func runDefault(cmd *cobra.Command) error {
+	var o reportOptions
+	o.format = "text"
+	fs := pflag.NewFlagSet("demo", pflag.ContinueOnError)
+	o.assume.register(fs)
+	if err := fs.Parse(demo.Assumptions); err != nil {
+		return err
+	}
+	set, err := o.input.loadDemo()
+	if err != nil {
+		return err
+	}
+	return o.run(set, cmd.OutOrStdout(), os.Stderr)
+}

@@ -1,0 +1,34 @@
+package main
+
+import (
+	"github.com/spf13/cobra"
+)
+
+func newRootCmd() *cobra.Command {
+	root := &cobra.Command{
+		Use:   "sill",
+		Short: "Choose, justify and hand over the operating cut of a binary classifier",
+		Long: `sill shows every cut of a scored validation set in the units an operation
+thinks in: hit share (recall), wrong-alert share (false discovery rate),
+alerts per shift and cost, with their uncertainty, projected to production's
+base rate and volume.
+
+Run with no arguments to explore the built-in demo data.`,
+		Version:       versionString(),
+		SilenceUsage:  true,
+		SilenceErrors: true,
+		Args:          cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, args []string) error {
+			return runDefault(cmd)
+		},
+	}
+	root.AddCommand(newReportCmd(), newDemoCmd())
+	return root
+}
+
+func versionString() string {
+	if commit == "" {
+		return version
+	}
+	return version + " (" + commit + ")"
+}

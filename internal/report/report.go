@@ -1,0 +1,212 @@
+// Package report renders the figures of a validation set and its chosen
+// cuts as text, JSON, Markdown or CSV.
+package report
+
+import (
+	"math"
+
+	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/evidence"
+	"github.com/sill-tool/sill/internal/projection"
+	"github.com/sill-tool/sill/internal/scores"
+)
+
+// Report is everything a report shows but the full curve, which is
+// streamed (see WriteJSON). Its JSON form is a contract that scripts read:
+// keys keep their names and meanings, and new keys may be added.
+type Report struct {
+	Source           string      `json:"source"`
+	Rows             int         `json:"rows"`
+	DroppedRows      int         `json:"dropped_rows"`
+	Positives        float64     `json:"positives"`
+	Negatives        float64     `json:"negatives"`
+	BaseRate         number      `json:"base_rate"`
+	Weighted         bool        `json:"weighted"`
+	LowerIsRiskier   bool        `json:"lower_is_riskier"`
+	ROCAUC           number      `json:"roc_auc"`
+	AveragePrecision number      `json:"average_precision"`
+	Brier            number      `json:"brier"`
+	LogLoss          number      `json:"log_loss"`
+	Assumptions      assumptions `json:"assumptions"`
+	Cuts             []cut       `json:"cuts"`
+	Warnings         []string    `json:"warnings"`
+	Caution          string      `json:"caution"`
+
+	// baseRateGiven reports whether the production base rate differs from
+	// the validation one, for the text forms.
+	baseRateGiven bool
+	cutsEvidence  []evidence.Cut
+}
+
+type assumptions struct {
+	BaseRate       number `json:"base_rate"`
+	Volume         number `json:"volume_per_shift"`
+	CostFalseAlert number `json:"cost_false_alert"`
+	CostMiss       number `json:"cost_miss"`
+	CostHit        number `json:"cost_hit"`
+	Capacity       number `json:"capacity"`
+	Confidence     number `json:"confidence"`
+}
+
+type cut struct {
+	Spec               string    `json:"spec"`
+	Met                bool      `json:"met"`
+	Reason             *string   `json:"reason"`
+	Score              number    `json:"score"`
+	Flagged            float64   `json:"flagged"`
+	FlaggedShare       float64   `json:"flagged_share"`
+	TP                 float64   `json:"tp"`
+	FP                 float64   `json:"fp"`
+	FN                 float64   `json:"fn"`
+	TN                 float64   `json:"tn"`
+	Recall             number    `json:"recall"`
+	RecallCI           *interval `json:"recall_ci"`
+	Precision          number    `json:"precision"`
+	PrecisionCI        *interval `json:"precision_ci"`
+	FalseDiscoveryRate number    `json:"false_discovery_rate"`
+	FalsePositiveRate  number    `json:"false_positive_rate"`
+	Projected          projected `json:"projected"`
+}
+
+type projected struct {
+	AlertRate     number `json:"alert_rate"`
+	Precision     number `json:"precision"`
+	QueuePerShift number `json:"queue_per_shift"`
+	CostPerShift  number `json:"cost_per_shift"`
+}
+
+type point struct {
+	Score             float64 `json:"score"`
+	Flagged           float64 `json:"flagged"`
+	TP                float64 `json:"tp"`
+	FP                float64 `json:"fp"`
+	FN                float64 `json:"fn"`
+	TN                float64 `json:"tn"`
+	Recall            number  `json:"recall"`
+	Precision         number  `json:"precision"`
+	FalsePositiveRate number  `json:"false_positive_rate"`
+}
+
+// New gathers a report of set, whose summary is sum, under a, with one
+// outcome per requested cut.
+func New(set *scores.Set, sum curve.Summary, a projection.Assumptions, outcomes []cutrule.Outcome) *Report {
+	r := &Report{
+		Source:           set.Source,
+		Rows:             sum.Rows,
+		DroppedRows:      set.Dropped,
+		Positives:        sum.Positives,
+		Negatives:        sum.Negatives,
+		BaseRate:         number(sum.BaseRate),
+		Weighted:         sum.Weighted,
+		LowerIsRiskier:   set.LowerIsRiskier,
+		ROCAUC:           number(sum.ROCAUC),
+		AveragePrecision: number(sum.AveragePrecision),
+		Brier:            number(sum.Brier),
+		LogLoss:          number(sum.LogLoss),
+		Assumptions: assumptions{
+			BaseRate:       number(a.BaseRate),
+			Volume:         given(a.Volume),
+			Capacity:       given(a.Capacity),
+			CostFalseAlert: null,
+			CostMiss:       null,
+			CostHit:        null,
+			Confidence:     number(a.Confidence),
+		},
+		Warnings:      Warnings(set, sum),
+		Caution:       evidence.Caution,
+		baseRateGiven: a.BaseRate != sum.BaseRate,
+	}
+	if c := a.Costs; c != nil {
+		r.Assumptions.CostFalseAlert = number(c.FalseAlert)
+		r.Assumptions.CostMiss = number(c.Miss)
+		r.Assumptions.CostHit = number(c.Hit)
+	}
+	for _, o := range outcomes {
+		r.Cuts = append(r.Cuts, newCut(o, a))
+		if o.Met {
+			r.cutsEvidence = append(r.cutsEvidence, evidence.Of(o.Point, a))
+		} else {
+			r.cutsEvidence = append(r.cutsEvidence, evidence.Cut{})
+		}
+	}
+	return r
+}
+
+// Warnings lists what a reader of any output should know about the data.
+func Warnings(set *scores.Set, sum curve.Summary) []string {
+	var w []string
+	if set.Dropped > 0 {
+		w = append(w, plural(set.Dropped, "row was", "rows were")+" dropped for an invalid score")
+	}
+	switch {
+	case sum.Rows == 0:
+	case !(sum.Positives > 0):
+		w = append(w, "the validation set has no true cases: hit share, AUC and average precision are undefined")
+	case !(sum.Negatives > 0):
+		w = append(w, "the validation set has no false cases: false positive rate and AUC are undefined")
+	}
+	return w
+}
+
+func newCut(o cutrule.Outcome, a projection.Assumptions) cut {
+	c := cut{Spec: o.Rule.String(), Met: o.Met}
+	if !o.Met {
+		reason := o.Reason
+		c.Reason = &reason
+		c.Score, c.Recall, c.Precision, c.FalseDiscoveryRate, c.FalsePositiveRate = null, null, null, null, null
+		c.Projected = projected{null, null, null, null}
+		return c
+	}
+	e := evidence.Of(o.Point, a)
+	c.Score = number(e.Score)
+	c.Flagged, c.FlaggedShare = e.Flagged, e.FlaggedShare
+	c.TP, c.FP, c.FN, c.TN = e.TP, e.FP, e.FN, e.TN
+	c.Recall, c.RecallCI = number(e.Recall), newInterval(e.RecallCI)
+	c.Precision, c.PrecisionCI = number(e.Precision), newInterval(e.PrecisionCI)
+	c.FalseDiscoveryRate = number(e.FalseDiscoveryRate)
+	c.FalsePositiveRate = number(e.FalsePositiveRate)
+	c.Projected = projected{
+		AlertRate:     number(e.Projected.AlertRate),
+		Precision:     number(e.Projected.Precision),
+		QueuePerShift: number(e.Projected.QueuePerShift),
+		CostPerShift:  number(e.Projected.CostPerShift),
+	}
+	return c
+}
+
+func newPoint(p curve.Point) point {
+	return point{
+		Score: p.Score, Flagged: p.Flagged(), TP: p.TP, FP: p.FP, FN: p.FN, TN: p.TN,
+		Recall: number(p.Recall()), Precision: number(p.Precision()), FalsePositiveRate: number(p.FalsePositiveRate()),
+	}
+}
+
+// number is a float that reads as JSON null when it is NaN or infinite.
+type number float64
+
+var null = number(math.NaN())
+
+func (n number) MarshalJSON() ([]byte, error) {
+	if !evidence.Defined(float64(n)) {
+		return []byte("null"), nil
+	}
+	return formatJSONFloat(float64(n)), nil
+}
+
+// given returns v, or null when v is 0 (an assumption not given).
+func given(v float64) number {
+	if v == 0 {
+		return null
+	}
+	return number(v)
+}
+
+type interval [2]number
+
+func newInterval(ci [2]float64) *interval {
+	if !evidence.Defined(ci[0]) || !evidence.Defined(ci[1]) {
+		return nil
+	}
+	return &interval{number(ci[0]), number(ci[1])}
+}
