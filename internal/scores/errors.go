@@ -16,6 +16,7 @@ var (
 	ErrBadWeight     = errors.New("invalid weight")
 	ErrCorruptGzip   = errors.New("corrupt gzip data")
 	ErrBadJSON       = errors.New("malformed JSON")
+	ErrBadTime       = errors.New("invalid time")
 )
 
 // ParseError reports bad input at a place in a file. Line is 1-based and

@@ -14,6 +14,7 @@ import (
 	"math"
 	"strconv"
 	"strings"
+	"time"
 )
 
 // Input formats for Options.Input.
@@ -46,6 +47,19 @@ type Options struct {
 	WeightColumn  string // "" means unweighted
 	SegmentColumn string // "" means no segments
 	IDColumn      string // "" means no ids
+
+	// TimeColumn names an optional column of case times, read into
+	// Set.Times. TimeLayout is its layout in the form of package time
+	// ("" means RFC 3339); a layout without a zone reads its times in
+	// TimeLocation (nil means UTC).
+	TimeColumn   string
+	TimeLayout   string
+	TimeLocation *time.Location
+
+	// CompareColumn names an optional second score column, a second model
+	// scored on the same cases, read into Set.CompareScores. It follows the
+	// score column's rules (finite numbers; DropInvalid drops the row).
+	CompareColumn string
 
 	// NoLabels allows a table without a label column: every label reads as
 	// false. Used for fresh production scores whose outcomes are unknown.
@@ -115,6 +129,7 @@ type builder struct {
 
 	header                                           []string // column names as found
 	scoreCol, labelCol, weightCol, segmentCol, idCol int
+	timeCol, compareCol                              int
 
 	scores   []float64
 	labels   []bool
@@ -123,6 +138,8 @@ type builder struct {
 	segments []int32
 	segIndex map[string]int32
 	segNames []string
+	times    []int64
+	compare  []float64
 
 	dropped        int
 	droppedReasons []string
@@ -212,6 +229,18 @@ func (b *builder) resolve(header []string, line int) error {
 	if b.idCol, err = find(b.opt.IDColumn, nil, false, "id"); err != nil {
 		return err
 	}
+	if b.timeCol, err = find(b.opt.TimeColumn, nil, false, "time"); err != nil {
+		return err
+	}
+	if b.compareCol, err = find(b.opt.CompareColumn, nil, false, "score"); err != nil {
+		return err
+	}
+	if b.timeCol >= 0 {
+		b.times = []int64{}
+	}
+	if b.compareCol >= 0 {
+		b.compare = []float64{}
+	}
 	if b.weightCol >= 0 {
 		b.weights = []float64{}
 	}
@@ -228,7 +257,7 @@ func (b *builder) resolve(header []string, line int) error {
 // wanted returns the indices of the columns in use.
 func (b *builder) wanted() []int {
 	var cols []int
-	for _, c := range []int{b.scoreCol, b.labelCol, b.weightCol, b.segmentCol, b.idCol} {
+	for _, c := range []int{b.scoreCol, b.labelCol, b.weightCol, b.segmentCol, b.idCol, b.timeCol, b.compareCol} {
 		if c >= 0 {
 			cols = append(cols, c)
 		}
@@ -258,6 +287,25 @@ func (b *builder) add(line int, cell func(col int) string) error {
 		}
 		return &ParseError{File: b.source, Line: line, Column: b.header[b.scoreCol], Err: err}
 	}
+	var compare float64
+	if b.compareCol >= 0 {
+		if compare, err = parseScore(cell(b.compareCol)); err != nil {
+			if b.opt.DropInvalid {
+				b.dropped++
+				if len(b.droppedReasons) < maxDroppedReasons {
+					b.droppedReasons = append(b.droppedReasons, (&ParseError{File: b.source, Line: line, Column: b.header[b.compareCol], Err: err}).Error())
+				}
+				return nil
+			}
+			return &ParseError{File: b.source, Line: line, Column: b.header[b.compareCol], Err: err}
+		}
+	}
+	var when int64
+	if b.timeCol >= 0 {
+		if when, err = parseTime(cell(b.timeCol), b.opt.TimeLayout, b.opt.TimeLocation); err != nil {
+			return &ParseError{File: b.source, Line: line, Column: b.header[b.timeCol], Err: err}
+		}
+	}
 	positive := false
 	if b.labelCol >= 0 {
 		if positive, err = b.parseLabel(cell(b.labelCol)); err != nil {
@@ -284,6 +332,12 @@ func (b *builder) add(line int, cell func(col int) string) error {
 	if b.idCol >= 0 {
 		b.ids = append(b.ids, cell(b.idCol))
 	}
+	if b.timeCol >= 0 {
+		b.times = append(b.times, when)
+	}
+	if b.compareCol >= 0 {
+		b.compare = append(b.compare, compare)
+	}
 	b.scores = append(b.scores, score)
 	b.labels = append(b.labels, positive)
 	if b.opt.Progress != nil && len(b.scores)%progressEvery == 0 {
@@ -300,6 +354,8 @@ func (b *builder) finish(digest string) (*Set, error) {
 		IDs:            b.ids,
 		SegmentOf:      b.segments,
 		SegmentNames:   b.segNames,
+		Times:          b.times,
+		CompareScores:  b.compare,
 		LowerIsRiskier: b.opt.LowerIsRiskier,
 		Source:         b.source,
 		SHA256:         digest,
@@ -318,6 +374,12 @@ func (b *builder) finish(digest string) (*Set, error) {
 	}
 	if b.idCol >= 0 {
 		s.IDColumn = b.header[b.idCol]
+	}
+	if b.timeCol >= 0 {
+		s.TimeColumn = b.header[b.timeCol]
+	}
+	if b.compareCol >= 0 {
+		s.CompareColumn = b.header[b.compareCol]
 	}
 	if b.opt.Progress != nil {
 		b.opt.Progress(len(b.scores))
@@ -339,6 +401,27 @@ func parseScore(text string) (float64, error) {
 		v = 0 // fold -0 into +0
 	}
 	return v, nil
+}
+
+// parseTime reads a case time as unix seconds: RFC 3339 when layout is
+// empty, else the layout of package time, read in loc (nil means UTC) when
+// it carries no zone.
+func parseTime(text, layout string, loc *time.Location) (int64, error) {
+	text = strings.TrimSpace(text)
+	hint := "expected a time in RFC 3339 form such as 2026-09-01T06:30:00Z"
+	if layout == "" {
+		layout = time.RFC3339
+	} else {
+		hint = "expected a time in the layout " + strconv.Quote(layout)
+	}
+	if loc == nil {
+		loc = time.UTC
+	}
+	t, err := time.ParseInLocation(layout, text, loc)
+	if err != nil {
+		return 0, &valueError{sentinel: ErrBadTime, value: text, hint: hint}
+	}
+	return t.Unix(), nil
 }
 
 func parseWeight(text string) (float64, error) {

@@ -20,6 +20,15 @@ type Set struct {
 	SegmentOf    []int32  // index into SegmentNames; nil without a segment column
 	SegmentNames []string
 
+	// Times holds each case's time in unix seconds; nil without a time
+	// column (Options.TimeColumn).
+	Times []int64
+
+	// CompareScores holds a second model's score of each case, riskier in
+	// the same direction as Scores; nil without a compare column
+	// (Options.CompareColumn). The rows are ranked by Scores, not by these.
+	CompareScores []float64
+
 	// LowerIsRiskier reports whether small scores mean positive; see the
 	// package doc for how it turns the cut rule round.
 	LowerIsRiskier bool
@@ -31,6 +40,8 @@ type Set struct {
 	WeightColumn  string
 	SegmentColumn string
 	IDColumn      string
+	TimeColumn    string
+	CompareColumn string
 
 	Dropped        int      // rows skipped by DropInvalid
 	DroppedReasons []string // the first few reasons, for reporting
@@ -134,6 +145,12 @@ func (s *Set) rank() {
 	}
 	if s.SegmentOf != nil {
 		s.SegmentOf = permute(s.SegmentOf, order)
+	}
+	if s.Times != nil {
+		s.Times = permute(s.Times, order)
+	}
+	if s.CompareScores != nil {
+		s.CompareScores = permute(s.CompareScores, order)
 	}
 }
 
