@@ -1,0 +1,223 @@
+// Package compare lays out candidate cuts side by side: one column per
+// candidate, one row per figure, each figure with its difference from a
+// reference candidate. It builds the cells of the explorer's comparison
+// strip and of the review screen; it does no rendering of its own.
+//
+// The figures are those of package evidence, in this order: the cut score,
+// cases flagged, hit share (recall) with its interval and "x of y" true
+// cases found, wrong-alert share (false discovery rate) with its interval,
+// false positive rate, projected alert rate, projected wrong-alert share
+// (only when the production base rate differs from the validation one),
+// queue per shift and its standing against capacity (when a volume, and a
+// capacity, are given) and cost per shift (when a volume and costs are
+// given). Which cases a cut flags follows the cut rule in the doc of
+// package scores.
+package compare
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+
+	"github.com/sill-tool/sill/internal/evidence"
+	"github.com/sill-tool/sill/internal/projection"
+	"github.com/sill-tool/sill/internal/report"
+)
+
+// Column is one candidate: a name, the cut spec it came from ("" for a cut
+// picked by hand) and the figures of its cut.
+type Column struct {
+	Name string
+	Rule string
+	Cut  evidence.Cut
+}
+
+// Better says which direction of a figure is the better one, so that a
+// renderer can mark a difference as a gain or a loss.
+type Better int
+
+// The directions of Better.
+const (
+	Neither Better = iota // a trade-off, not a gain or a loss (e.g. cases flagged)
+	Higher                // more is better (hit share)
+	Lower                 // less is better (wrong-alert share, cost)
+)
+
+// Row is one figure across every column. Cells and Values hold one entry
+// per column; Diffs and Deltas hold the difference of each column from the
+// reference column (column minus reference). The reference column's Diff
+// is "" and its Delta is 0; a difference involving an undefined figure is
+// "n/a" and NaN. Detail rows (an interval, a count of true cases found)
+// carry no differences: their Diffs are all "" and Deltas NaN.
+type Row struct {
+	Figure string // the label, e.g. "hit share (recall)"
+	Detail bool   // a sub-row of the figure above it
+	Better Better
+
+	Cells  []string
+	Values []float64 // NaN where the figure is undefined or not a number
+	Diffs  []string
+	Deltas []float64
+}
+
+// Table is the comparison of a list of candidates.
+type Table struct {
+	Names     []string // column headings, the candidate names
+	Rules     []string // each candidate's rule, "" when picked by hand
+	Reference int      // index of the reference column
+	Rows      []Row
+}
+
+// Options say which figures apply. The assumptions decide the projected
+// rows; BaseRateChanged adds the projected wrong-alert share;
+// LowerIsRiskier only changes the label of the cut row.
+type Options struct {
+	Assumptions     projection.Assumptions
+	BaseRateChanged bool
+	LowerIsRiskier  bool
+}
+
+// New returns the comparison of columns against columns[reference]. With no
+// columns it returns a Table with no names and no rows, whatever the
+// reference. It panics when reference is outside [0, len(columns)) for a
+// non-empty list. Undefined figures (see evidence.Cut) read "n/a".
+func New(columns []Column, reference int, opt Options) Table {
+	if len(columns) == 0 {
+		return Table{}
+	}
+	if reference < 0 || reference >= len(columns) {
+		panic(fmt.Sprintf("compare: reference %d outside the %d columns", reference, len(columns)))
+	}
+	t := Table{Reference: reference}
+	for _, c := range columns {
+		t.Names = append(t.Names, c.Name)
+		t.Rules = append(t.Rules, c.Rule)
+	}
+	a := opt.Assumptions
+	conf := strconv.FormatFloat(100*a.Confidence, 'g', -1, 64) + "% interval"
+	comparison := ">="
+	if opt.LowerIsRiskier {
+		comparison = "<="
+	}
+
+	// main adds a figure with differences; value gives the number and
+	// cell formats it, diff formats a difference.
+	main := func(figure string, better Better, value func(evidence.Cut) float64, cell func(float64) string, diff func(float64) string) {
+		row := Row{Figure: figure, Better: better}
+		ref := value(columns[reference].Cut)
+		for i, c := range columns {
+			v := value(c.Cut)
+			row.Values = append(row.Values, v)
+			row.Cells = append(row.Cells, cell(v))
+			switch {
+			case i == reference:
+				row.Diffs = append(row.Diffs, "")
+				row.Deltas = append(row.Deltas, 0)
+			case !evidence.Defined(v) || !evidence.Defined(ref):
+				row.Diffs = append(row.Diffs, "n/a")
+				row.Deltas = append(row.Deltas, math.NaN())
+			default:
+				row.Diffs = append(row.Diffs, diff(v-ref))
+				row.Deltas = append(row.Deltas, v-ref)
+			}
+		}
+		t.Rows = append(t.Rows, row)
+	}
+	// detail adds a sub-row without differences.
+	detail := func(figure string, cell func(evidence.Cut) string) {
+		row := Row{Figure: figure, Detail: true}
+		for _, c := range columns {
+			row.Cells = append(row.Cells, cell(c.Cut))
+			row.Values = append(row.Values, math.NaN())
+			row.Diffs = append(row.Diffs, "")
+			row.Deltas = append(row.Deltas, math.NaN())
+		}
+		t.Rows = append(t.Rows, row)
+	}
+
+	main("cut (flag score "+comparison+")", Neither, func(c evidence.Cut) float64 { return c.Score }, report.Score, ScoreDiff)
+	main("cases flagged", Neither, func(c evidence.Cut) float64 { return c.Flagged }, report.Count, CountDiff)
+	detail("  share of all cases", func(c evidence.Cut) string { return report.Percent(c.FlaggedShare) })
+	main("hit share (recall)", Higher, func(c evidence.Cut) float64 { return c.Recall }, report.Percent, PointsDiff)
+	detail("  "+conf, func(c evidence.Cut) string { return report.Range(c.RecallCI) })
+	detail("  true cases found", func(c evidence.Cut) string { return report.Count(c.TP) + " of " + report.Count(c.TP+c.FN) })
+	main("wrong-alert share (FDR)", Lower, func(c evidence.Cut) float64 { return c.FalseDiscoveryRate }, report.Percent, PointsDiff)
+	detail("  "+conf, func(c evidence.Cut) string { return report.Range(c.FalseDiscoveryCI) })
+	main("false positive rate", Lower, func(c evidence.Cut) float64 { return c.FalsePositiveRate }, report.Percent, PointsDiff)
+	main("projected alert rate", Neither, func(c evidence.Cut) float64 { return c.Projected.AlertRate }, report.Percent, PointsDiff)
+	if opt.BaseRateChanged {
+		main("projected wrong-alert share", Lower, func(c evidence.Cut) float64 { return c.Projected.FalseDiscoveryRate() }, report.Percent, PointsDiff)
+	}
+	if a.Volume > 0 {
+		main("queue per shift", Neither, func(c evidence.Cut) float64 { return c.Projected.QueuePerShift }, queueCell, CountDiff)
+		if a.Capacity > 0 {
+			detail("  against capacity "+report.Count(a.Capacity), func(c evidence.Cut) string {
+				return report.Against(c.Projected.QueuePerShift, a.Capacity)
+			})
+		}
+		if a.Costs != nil {
+			main("cost per shift", Lower, func(c evidence.Cut) float64 { return c.Projected.CostPerShift }, report.Money, MoneyDiff)
+		}
+	}
+	return t
+}
+
+// queueCell rounds a projected queue to one decimal below 100 alerts.
+func queueCell(v float64) string {
+	if !evidence.Defined(v) {
+		return "n/a"
+	}
+	if math.Abs(v) >= 100 {
+		return strconv.FormatFloat(v, 'f', 0, 64)
+	}
+	return strconv.FormatFloat(v, 'f', 1, 64)
+}
+
+// sign prefixes a formatted magnitude with + or -, and writes a zero
+// difference as "same".
+func sign(d float64, magnitude string) string {
+	switch {
+	case d > 0:
+		return "+" + magnitude
+	case d < 0:
+		return "-" + magnitude
+	}
+	return "same"
+}
+
+// PointsDiff formats a difference of two shares in percentage points, as
+// "+3.2 pt". A difference that rounds to 0.0 keeps its sign.
+func PointsDiff(d float64) string {
+	if !evidence.Defined(d) {
+		return "n/a"
+	}
+	return sign(d, strconv.FormatFloat(100*math.Abs(d), 'f', 1, 64)+" pt")
+}
+
+// CountDiff formats a difference of two counts: whole numbers plainly,
+// others with one decimal below 100.
+func CountDiff(d float64) string {
+	if !evidence.Defined(d) {
+		return "n/a"
+	}
+	if d == math.Trunc(d) {
+		return sign(d, report.Count(math.Abs(d)))
+	}
+	return sign(d, queueCell(math.Abs(d)))
+}
+
+// MoneyDiff formats a difference of two costs as report.Money does.
+func MoneyDiff(d float64) string {
+	if !evidence.Defined(d) {
+		return "n/a"
+	}
+	return sign(d, report.Money(math.Abs(d)))
+}
+
+// ScoreDiff formats a difference of two cut scores to 4 significant digits.
+func ScoreDiff(d float64) string {
+	if !evidence.Defined(d) {
+		return "n/a"
+	}
+	return sign(d, strconv.FormatFloat(math.Abs(d), 'g', 4, 64))
+}

@@ -1,0 +1,248 @@
+package compare
+
+import (
+	"fmt"
+	"math"
+	"strings"
+	"testing"
+
+	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/evidence"
+	"github.com/sill-tool/sill/internal/projection"
+	"github.com/sill-tool/sill/internal/scores"
+)
+
+// tolerance is the one float tolerance of these tests.
+const tolerance = 1e-9
+
+// near reports whether got and want agree within tolerance, NaN equal to NaN.
+func near(got, want float64) bool {
+	if math.IsNaN(got) || math.IsNaN(want) {
+		return math.IsNaN(got) && math.IsNaN(want)
+	}
+	return math.Abs(got-want) <= tolerance
+}
+
+// sixRows is the hand-worked set of these tests, riskiest first:
+//
+//	score 0.9 true · 0.8 false · 0.8 true (tied) · 0.7 false · 0.6 true · 0.5 false
+//
+// so 3 true and 3 false cases and a validation base rate of 0.5.
+func sixRows(t *testing.T, weights []float64) *curve.Curve {
+	t.Helper()
+	set, err := scores.New(
+		[]float64{0.9, 0.8, 0.8, 0.7, 0.6, 0.5},
+		[]bool{true, false, true, false, true, false},
+		weights, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return curve.New(set)
+}
+
+var sixAssumptions = projection.Assumptions{
+	BaseRate: 0.5, Volume: 100, Capacity: 40, Confidence: 0.95,
+	Costs: &projection.Costs{FalseAlert: 10, Miss: 100},
+}
+
+func row(t *testing.T, table Table, figure string) Row {
+	t.Helper()
+	for _, r := range table.Rows {
+		if strings.TrimSpace(r.Figure) == figure {
+			return r
+		}
+	}
+	t.Fatalf("no row %q in %v", figure, figures(table))
+	return Row{}
+}
+
+func figures(table Table) []string {
+	var out []string
+	for _, r := range table.Rows {
+		out = append(out, r.Figure)
+	}
+	return out
+}
+
+func TestNewHandWorked(t *testing.T) {
+	c := sixRows(t, nil)
+	a := sixAssumptions
+	columns := []Column{
+		{Name: "strict", Rule: "top=1", Cut: evidence.Of(c.At(0), a)},
+		{Name: "pin 2", Cut: evidence.Of(c.At(1), a)},
+	}
+	table := New(columns, 0, Options{Assumptions: a})
+	if got, want := strings.Join(table.Names, ","), "strict,pin 2"; got != want {
+		t.Errorf("names %q, want %q", got, want)
+	}
+	if table.Rules[0] != "top=1" || table.Rules[1] != "" {
+		t.Errorf("rules %q", table.Rules)
+	}
+	// Every value below is worked by hand from sixRows.
+	// Cut 0 (score 0.9): TP 1, FP 0, FN 2, TN 3.
+	// Cut 1 (score 0.8, the tie group of two): TP 2, FP 1, FN 1, TN 2.
+	// Projection at p = 0.5, volume 100:
+	//   cut 0: alert rate 1/3*0.5 + 0*0.5 = 1/6, queue 16.7, 40-16.7 = 23 under;
+	//          cost per case 0.5*(2/3)*100 = 33.33, per shift 3333
+	//   cut 1: alert rate 2/3*0.5 + 1/3*0.5 = 0.5, queue 50, 10 over;
+	//          cost per case 0.5*(1/3)*10 + 0.5*(1/3)*100 = 18.33, per shift 1833
+	cases := []struct {
+		figure       string
+		cells, diffs [2]string
+		values       [2]float64
+		delta        float64
+	}{
+		{"cut (flag score >=)", [2]string{"0.9", "0.8"}, [2]string{"", "-0.1"}, [2]float64{0.9, 0.8}, -0.1},
+		{"cases flagged", [2]string{"1", "3"}, [2]string{"", "+2"}, [2]float64{1, 3}, 2},
+		{"share of all cases", [2]string{"16.7%", "50.0%"}, [2]string{"", ""}, [2]float64{math.NaN(), math.NaN()}, math.NaN()},
+		{"hit share (recall)", [2]string{"33.3%", "66.7%"}, [2]string{"", "+33.3 pt"}, [2]float64{1.0 / 3, 2.0 / 3}, 1.0 / 3},
+		{"true cases found", [2]string{"1 of 3", "2 of 3"}, [2]string{"", ""}, [2]float64{math.NaN(), math.NaN()}, math.NaN()},
+		{"wrong-alert share (FDR)", [2]string{"0.0%", "33.3%"}, [2]string{"", "+33.3 pt"}, [2]float64{0, 1.0 / 3}, 1.0 / 3},
+		{"false positive rate", [2]string{"0.0%", "33.3%"}, [2]string{"", "+33.3 pt"}, [2]float64{0, 1.0 / 3}, 1.0 / 3},
+		{"projected alert rate", [2]string{"16.7%", "50.0%"}, [2]string{"", "+33.3 pt"}, [2]float64{1.0 / 6, 0.5}, 1.0 / 3},
+		{"queue per shift", [2]string{"16.7", "50.0"}, [2]string{"", "+33.3"}, [2]float64{100.0 / 6, 50}, 50 - 100.0/6},
+		{"against capacity 40", [2]string{"23 under", "10 over"}, [2]string{"", ""}, [2]float64{math.NaN(), math.NaN()}, math.NaN()},
+		{"cost per shift", [2]string{"3333", "1833"}, [2]string{"", "-1500"}, [2]float64{10000.0 / 3, 5500.0 / 3}, -1500},
+	}
+	for _, tc := range cases {
+		r := row(t, table, tc.figure)
+		for i := range 2 {
+			if r.Cells[i] != tc.cells[i] {
+				t.Errorf("%s column %d: cell %q, want %q", tc.figure, i, r.Cells[i], tc.cells[i])
+			}
+			if r.Diffs[i] != tc.diffs[i] {
+				t.Errorf("%s column %d: diff %q, want %q", tc.figure, i, r.Diffs[i], tc.diffs[i])
+			}
+			if !near(r.Values[i], tc.values[i]) {
+				t.Errorf("%s column %d: value %v, want %v", tc.figure, i, r.Values[i], tc.values[i])
+			}
+		}
+		if !near(r.Deltas[1], tc.delta) {
+			t.Errorf("%s: delta %v, want %v", tc.figure, r.Deltas[1], tc.delta)
+		}
+		if !r.Detail && r.Deltas[0] != 0 {
+			t.Errorf("%s: reference delta %v, want 0", tc.figure, r.Deltas[0])
+		}
+	}
+	if r := row(t, table, "hit share (recall)"); r.Better != Higher {
+		t.Errorf("hit share better %v, want Higher", r.Better)
+	}
+	if r := row(t, table, "cost per shift"); r.Better != Lower {
+		t.Errorf("cost better %v, want Lower", r.Better)
+	}
+	for _, r := range table.Rows {
+		if strings.Contains(r.Figure, "projected wrong-alert") {
+			t.Errorf("projected wrong-alert share shown although the base rate is the validation one")
+		}
+	}
+}
+
+// TestNewReferenceElsewhere takes the second column as reference: the
+// differences turn round.
+func TestNewReferenceElsewhere(t *testing.T) {
+	c := sixRows(t, nil)
+	a := sixAssumptions
+	table := New([]Column{{Name: "a", Cut: evidence.Of(c.At(0), a)}, {Name: "b", Cut: evidence.Of(c.At(1), a)}}, 1, Options{Assumptions: a})
+	r := row(t, table, "hit share (recall)")
+	if r.Diffs[0] != "-33.3 pt" || r.Diffs[1] != "" {
+		t.Errorf("diffs %q, want [-33.3 pt, \"\"] (1/3 - 2/3 by hand)", r.Diffs)
+	}
+}
+
+// TestNewWeighted doubles the weight of the top row: it then counts as two
+// true cases out of four (hand-worked).
+func TestNewWeighted(t *testing.T) {
+	c := sixRows(t, []float64{2, 1, 1, 1, 1, 1})
+	a := projection.Assumptions{BaseRate: 4.0 / 7, Confidence: 0.95}
+	table := New([]Column{{Name: "top", Cut: evidence.Of(c.At(0), a)}}, 0, Options{Assumptions: a})
+	if got := row(t, table, "true cases found").Cells[0]; got != "2 of 4" {
+		t.Errorf("true cases found %q, want \"2 of 4\"", got)
+	}
+	if got := row(t, table, "hit share (recall)").Cells[0]; got != "50.0%" {
+		t.Errorf("hit share %q, want 50.0%% (2 of 4)", got)
+	}
+	for _, r := range table.Rows {
+		if strings.HasPrefix(r.Figure, "queue") || strings.HasPrefix(r.Figure, "cost") {
+			t.Errorf("row %q shown without a volume", r.Figure)
+		}
+	}
+}
+
+// TestNewOneClass has no true case: hit share and its difference are
+// undefined, and say so.
+func TestNewOneClass(t *testing.T) {
+	set, err := scores.New([]float64{0.9, 0.5}, []bool{false, false}, nil, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	c := curve.New(set)
+	a := projection.Assumptions{BaseRate: 0, Confidence: 0.95}
+	table := New([]Column{{Name: "a", Cut: evidence.Of(c.At(0), a)}, {Name: "b", Cut: evidence.Of(c.At(1), a)}}, 0, Options{Assumptions: a})
+	r := row(t, table, "hit share (recall)")
+	if r.Cells[0] != "n/a" || r.Diffs[1] != "n/a" || !math.IsNaN(r.Deltas[1]) {
+		t.Errorf("one class: cells %q diffs %q deltas %v, want n/a and NaN", r.Cells, r.Diffs, r.Deltas)
+	}
+	// Every alert is wrong: FDR 1 at both cuts, so the difference is "same".
+	if r := row(t, table, "wrong-alert share (FDR)"); r.Cells[1] != "100.0%" || r.Diffs[1] != "same" {
+		t.Errorf("FDR cells %q diffs %q, want 100.0%% and same", r.Cells, r.Diffs)
+	}
+}
+
+func TestNewEmptyAndBaseRate(t *testing.T) {
+	if table := New(nil, 3, Options{}); len(table.Rows) != 0 || len(table.Names) != 0 {
+		t.Errorf("no columns: %+v, want an empty table", table)
+	}
+	c := sixRows(t, nil)
+	a := projection.Assumptions{BaseRate: 0.1, Confidence: 0.9}
+	table := New([]Column{{Name: "a", Cut: evidence.Of(c.At(1), a)}}, 0, Options{Assumptions: a, BaseRateChanged: true, LowerIsRiskier: true})
+	// At p = 0.1: alert rate 2/3*0.1 + 1/3*0.9 = 0.3667, precision
+	// 0.0667/0.3667 = 0.1818, wrong-alert share 81.8% (by hand).
+	if got := row(t, table, "projected wrong-alert share").Cells[0]; got != "81.8%" {
+		t.Errorf("projected wrong-alert share %q, want 81.8%%", got)
+	}
+	row(t, table, "cut (flag score <=)")
+	row(t, table, "90% interval")
+}
+
+func TestNewPanicsOnBadReference(t *testing.T) {
+	defer func() {
+		if r := recover(); r == nil || !strings.HasPrefix(fmt.Sprint(r), "compare:") {
+			t.Errorf("recover %v, want a panic starting with compare:", r)
+		}
+	}()
+	New([]Column{{Name: "a"}}, 1, Options{})
+}
+
+func TestDiffs(t *testing.T) {
+	cases := []struct{ got, want string }{
+		{PointsDiff(0.0321), "+3.2 pt"},
+		{PointsDiff(-0.0004), "-0.0 pt"}, // keeps its sign although it rounds to 0
+		{PointsDiff(0), "same"},
+		{PointsDiff(math.NaN()), "n/a"},
+		{CountDiff(-250.4), "-250"},
+		{CountDiff(3), "+3"},
+		{CountDiff(12.25), "+12.2"}, // 'f' rounding of 12.25 gives 12.2 (binary 12.25 is exact; round half to even)
+		{MoneyDiff(-1500), "-1500"},
+		{MoneyDiff(12.5), "+12.50"},
+		{ScoreDiff(0.8 - 0.9), "-0.1"},
+		{ScoreDiff(0.000123456), "+0.0001235"},
+	}
+	for i, tc := range cases {
+		if tc.got != tc.want {
+			t.Errorf("case %d: %q, want %q", i, tc.got, tc.want)
+		}
+	}
+}
+
+func ExampleNew() {
+	set, _ := scores.New([]float64{0.9, 0.8, 0.8, 0.7}, []bool{true, true, false, false}, nil, false)
+	c := curve.New(set)
+	a := projection.Assumptions{BaseRate: 0.5, Confidence: 0.95}
+	table := New([]Column{
+		{Name: "strict", Cut: evidence.Of(c.At(0), a)},
+		{Name: "loose", Cut: evidence.Of(c.At(1), a)},
+	}, 0, Options{Assumptions: a})
+	r := table.Rows[3] // hit share
+	fmt.Println(r.Figure, r.Cells, r.Diffs[1])
+	// Output: hit share (recall) [50.0% 100.0%] +50.0 pt
+}
