@@ -1,0 +1,185 @@
+package segment_test
+
+import (
+	"math"
+	"strings"
+	"testing"
+
+	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/scores"
+	"github.com/sill-tool/sill/internal/segment"
+)
+
+// tolerance is the one float tolerance of this package's tests.
+const tolerance = 1e-8
+
+// close reports whether a and b agree within tolerance, NaN equal to NaN.
+func close(a, b float64) bool {
+	if math.IsNaN(a) || math.IsNaN(b) {
+		return math.IsNaN(a) && math.IsNaN(b)
+	}
+	return math.Abs(a-b) <= tolerance
+}
+
+func read(t *testing.T, csv string) (*scores.Set, *curve.Curve) {
+	t.Helper()
+	set, err := scores.Read(strings.NewReader(csv), "t.csv", scores.Options{SegmentColumn: "seg", WeightColumn: weightColumn(csv)})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return set, curve.New(set)
+}
+
+func weightColumn(csv string) string {
+	if strings.HasPrefix(csv, "score,label,seg,w") {
+		return "w"
+	}
+	return ""
+}
+
+// pointAt returns the curve point whose cut is score.
+func pointAt(t *testing.T, c *curve.Curve, score float64) curve.Point {
+	t.Helper()
+	for i := range c.Len() {
+		if p := c.At(i); p.Score == score {
+			return p
+		}
+	}
+	t.Fatalf("no cut at %v", score)
+	return curve.Point{}
+}
+
+// Eight rows, a tie at 0.8 across classes and groups.
+const small = "score,label,seg\n" +
+	"0.9,1,A\n0.8,1,B\n0.8,0,A\n0.7,0,B\n0.6,1,A\n0.5,0,A\n0.4,1,B\n0.3,0,B\n"
+
+// wilsonOneOfTwo is the 95% Wilson interval of 1 success in 2 trials,
+// worked by hand from Wilson's formula with z = 1.959964: centre
+// (0.5 + z²/4)/(1 + z²/2) = 0.5, half-width z/(1+z²/2)·sqrt(1/8 + z²/16)
+// = 0.40546879; the commonly quoted (0.0945, 0.9055).
+var wilsonOneOfTwo = [2]float64{0.5 - 0.40546879, 0.5 + 0.40546879}
+
+func TestAtHandWorked(t *testing.T) {
+	set, c := read(t, small)
+	// Cut 0.8 flags the first three rows: 0.9/1/A, 0.8/1/B, 0.8/0/A.
+	b := segment.At(set, pointAt(t, c, 0.8), 0.95)
+	cases := []struct {
+		got                           segment.Figures
+		name                          string
+		rows                          int
+		positives, tp, fp, share, rec float64
+		prec                          float64
+	}{
+		// Overall: 4 true cases, 2 caught, 1 wrong alert, 3 of 8 flagged.
+		{b.Overall, "", 8, 4, 2, 1, 3.0 / 8, 0.5, 2.0 / 3},
+		// A: 0.9/1, 0.8/0 flagged; 0.6/1, 0.5/0 not.
+		{b.Segments[0], "A", 4, 2, 1, 1, 0.5, 0.5, 0.5},
+		// B: 0.8/1 flagged; 0.7/0, 0.4/1, 0.3/0 not.
+		{b.Segments[1], "B", 4, 2, 1, 0, 0.25, 0.5, 1},
+	}
+	for _, want := range cases {
+		f := want.got
+		if f.Segment != want.name || f.Rows != want.rows || !close(f.Positives, want.positives) || !close(f.TP, want.tp) ||
+			!close(f.FP, want.fp) || !close(f.FlaggedShare, want.share) || !close(f.Recall, want.rec) || !close(f.Precision, want.prec) {
+			t.Errorf("%q: got %+v", want.name, f)
+		}
+	}
+	if a := b.Segments[0]; !close(a.RecallCI[0], wilsonOneOfTwo[0]) || !close(a.RecallCI[1], wilsonOneOfTwo[1]) {
+		t.Errorf("A recall interval %v, want %v", a.RecallCI, wilsonOneOfTwo)
+	}
+	if b.Outliers() != 0 {
+		t.Errorf("small groups cannot be outliers, got %d", b.Outliers())
+	}
+}
+
+// TestOutlier builds three groups of true cases only: A and B have 400 of
+// 500 caught (80%), C 20 of 100 (20%). Overall 820/1100 = 74.5%, whose 95%
+// Wilson interval is about 71.9–77.0%; A's and B's (about 76.3–83.3%)
+// overlap it, C's (about 13.3–28.9%) lies wholly below. Hand-worked.
+func TestOutlier(t *testing.T) {
+	var csv strings.Builder
+	csv.WriteString("score,label,seg\n")
+	for _, g := range []struct {
+		name           string
+		caught, missed int
+	}{{"A", 400, 100}, {"B", 400, 100}, {"C", 20, 80}} {
+		for range g.caught {
+			csv.WriteString("0.9,1," + g.name + "\n")
+		}
+		for range g.missed {
+			csv.WriteString("0.1,1," + g.name + "\n")
+		}
+	}
+	set, c := read(t, csv.String())
+	b := segment.At(set, pointAt(t, c, 0.9), 0.95)
+	if !close(b.Overall.Recall, 820.0/1100) {
+		t.Fatalf("overall recall %v", b.Overall.Recall)
+	}
+	want := map[string]bool{"A": false, "B": false, "C": true}
+	for _, f := range b.Segments {
+		if f.Outlier != want[f.Segment] {
+			t.Errorf("%s: outlier %v, recall %v interval %v against overall %v", f.Segment, f.Outlier, f.Recall, f.RecallCI, b.Overall.RecallCI)
+		}
+	}
+	b.Sort(segment.ByGap)
+	if b.Segments[0].Segment != "C" {
+		t.Errorf("by gap: first %q, want C", b.Segments[0].Segment)
+	}
+	b.Sort(segment.BySize)
+	if got := b.Segments[0].Segment + b.Segments[1].Segment + b.Segments[2].Segment; got != "ABC" {
+		t.Errorf("by size (ties by name): %s, want ABC", got)
+	}
+}
+
+// TestWeightEqualsRepeat: a weight of 2 gives the same figures as the row
+// written twice.
+func TestWeightEqualsRepeat(t *testing.T) {
+	weighted := "score,label,seg,w\n0.9,1,A,2\n0.7,0,A,1\n0.6,1,B,1\n0.5,0,B,2\n"
+	repeated := "score,label,seg\n0.9,1,A\n0.9,1,A\n0.7,0,A\n0.6,1,B\n0.5,0,B\n0.5,0,B\n"
+	sw, cw := read(t, weighted)
+	sr, cr := read(t, repeated)
+	bw := segment.At(sw, pointAt(t, cw, 0.6), 0.9)
+	br := segment.At(sr, pointAt(t, cr, 0.6), 0.9)
+	for i := range bw.Segments {
+		w, r := bw.Segments[i], br.Segments[i]
+		if !close(w.Recall, r.Recall) || !close(w.Precision, r.Precision) || !close(w.RecallCI[0], r.RecallCI[0]) ||
+			!close(w.PrecisionCI[1], r.PrecisionCI[1]) || !close(w.FlaggedShare, r.FlaggedShare) {
+			t.Errorf("%s: weighted %+v, repeated %+v", w.Segment, w, r)
+		}
+	}
+}
+
+// TestUndefined covers one class only, nothing flagged, no segment column
+// and an empty set.
+func TestUndefined(t *testing.T) {
+	set, c := read(t, "score,label,seg\n0.9,0,A\n0.2,0,B\n")
+	b := segment.At(set, c.At(0), 0.95)
+	if a := b.Segments[0]; !math.IsNaN(a.Recall) || !math.IsNaN(a.RecallCI[0]) || a.Outlier || !close(a.Precision, 0) {
+		t.Errorf("no true case: %+v", a)
+	}
+	if bb := b.Segments[1]; !math.IsNaN(bb.Precision) || bb.Outlier {
+		t.Errorf("nothing flagged: %+v", bb)
+	}
+	plain, err := scores.New([]float64{0.3, 0.6}, []bool{true, false}, nil, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if b := segment.At(plain, curve.New(plain).At(0), 0.95); b.Segments != nil || b.Overall.Rows != 2 {
+		t.Errorf("no segment column: %+v", b)
+	}
+	empty, _ := scores.New(nil, nil, nil, false)
+	if b := segment.At(empty, curve.Point{}, 0.95); b.Overall.Rows != 0 || !math.IsNaN(b.Overall.Recall) {
+		t.Errorf("empty: %+v", b)
+	}
+}
+
+func TestParseOrder(t *testing.T) {
+	for text, want := range map[string]segment.Order{"size": segment.BySize, "gap": segment.ByGap, "name": segment.ByName} {
+		if got, err := segment.ParseOrder(text); err != nil || got != want {
+			t.Errorf("%q: %v %v", text, got, err)
+		}
+	}
+	if _, err := segment.ParseOrder("biggest"); err == nil {
+		t.Error("unknown order accepted")
+	}
+}
