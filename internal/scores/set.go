@@ -129,8 +129,18 @@ func (s *Set) Flags(cut, score float64) bool {
 	return score >= cut
 }
 
+// smallRankRows is the size below which rank sorts a permutation: the
+// in-place sort's digit tables would cost more than they save.
+const smallRankRows = 1024
+
 // rank sorts every column riskiest first, keeping the read order of ties.
+// Without ids and segments it sorts the columns in place (see rankInPlace);
+// otherwise it sorts a permutation and applies it to every column.
 func (s *Set) rank() {
+	if s.IDs == nil && s.SegmentOf == nil && len(s.Scores) >= smallRankRows {
+		rankInPlace(s.Scores, s.Labels, s.Weights, s.LowerIsRiskier)
+		return
+	}
 	order := rankOrder(s.Scores, s.LowerIsRiskier)
 	if order == nil {
 		return
