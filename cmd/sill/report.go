@@ -21,6 +21,7 @@ type reportOptions struct {
 	format    string
 	withCurve bool
 	cuts      []string
+	beyond    beyondFlags // segments, shift peaks, stability, calibration, two models: beyond.go
 }
 
 func newReportCmd() *cobra.Command {
@@ -44,6 +45,9 @@ when --capacity or costs are given.`,
   sill report bearings.csv --cut hit=0.9 --cut top=2% --format json`,
 		Args: cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
+			if err := o.beyond.prepare(&o.input); err != nil {
+				return err
+			}
 			set, err := o.input.load(args[0], cmd.InOrStdin(), nil)
 			if err != nil {
 				return err
@@ -57,6 +61,7 @@ when --capacity or costs are given.`,
 	fs.StringVar(&o.format, "format", "text", "output: text, json, markdown, or csv (the curve alone)")
 	fs.BoolVar(&o.withCurve, "curve", false, "add the full per-cut table")
 	fs.StringArrayVar(&o.cuts, "cut", nil, "cut spec to report (repeatable), e.g. hit=0.8")
+	o.beyond.register(fs)
 	return cmd
 }
 
@@ -70,6 +75,9 @@ func (o *reportOptions) run(set *scores.Set, stdout, stderr io.Writer) error {
 	}
 	a, err := o.assume.assumptions(set)
 	if err != nil {
+		return err
+	}
+	if err := o.beyond.check(); err != nil {
 		return err
 	}
 	rules := cutrule.Defaults(a)
@@ -92,7 +100,11 @@ func (o *reportOptions) run(set *scores.Set, stdout, stderr io.Writer) error {
 		return report.WriteCurveCSV(stdout, points)
 	}
 	sum := curve.Walk(set, finder.Visit)
-	r := report.New(set, sum, a, finder.Outcomes())
+	outcomes := finder.Outcomes()
+	r := report.New(set, sum, a, outcomes)
+	if err := o.beyond.apply(r, set, sum, a, rules, outcomes); err != nil {
+		return err
+	}
 	if o.format != "json" {
 		for _, w := range r.Warnings {
 			fmt.Fprintln(stderr, "sill: warning: "+w)

@@ -37,6 +37,7 @@ type Report struct {
 	// the validation one, for the text forms.
 	baseRateGiven bool
 	cutsEvidence  []evidence.Cut
+	sections      []section // added by the Add methods in beyond.go
 }
 
 type assumptions struct {
@@ -67,6 +68,8 @@ type cut struct {
 	FalseDiscoveryRate number    `json:"false_discovery_rate"`
 	FalsePositiveRate  number    `json:"false_positive_rate"`
 	Projected          projected `json:"projected"`
+
+	Segments []segmentFigures `json:"segments,omitempty"` // with a segment column; see beyond.go
 }
 
 type projected struct {

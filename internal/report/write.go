@@ -152,6 +152,7 @@ func WriteText(w io.Writer, r *Report) error {
 			fmt.Fprintf(&b, "\n%s unmet: %s", c.Spec, *c.Reason)
 		}
 	}
+	r.writeSections(&b)
 	for _, warning := range r.Warnings {
 		fmt.Fprintf(&b, "\nwarning: %s", warning)
 	}
@@ -182,6 +183,7 @@ func WriteMarkdown(w io.Writer, r *Report) error {
 			fmt.Fprintf(&b, "\n- `%s` unmet: %s", c.Spec, mdEscape(*c.Reason))
 		}
 	}
+	r.writeSectionsMarkdown(&b)
 	for _, warning := range r.Warnings {
 		fmt.Fprintf(&b, "\n- **Warning:** %s", mdEscape(warning))
 	}
