@@ -134,10 +134,10 @@ func (s *Set) Flags(cut, score float64) bool {
 const smallRankRows = 1024
 
 // rank sorts every column riskiest first, keeping the read order of ties.
-// Without ids and segments it sorts the columns in place (see rankInPlace);
+// Without other columns than scores, labels and weights it sorts them in place (see rankInPlace);
 // otherwise it sorts a permutation and applies it to every column.
 func (s *Set) rank() {
-	if s.IDs == nil && s.SegmentOf == nil && len(s.Scores) >= smallRankRows {
+	if s.onlySortedColumns() && len(s.Scores) >= smallRankRows {
 		rankInPlace(s.Scores, s.Labels, s.Weights, s.LowerIsRiskier)
 		return
 	}
@@ -162,6 +162,13 @@ func (s *Set) rank() {
 	if s.CompareScores != nil {
 		s.CompareScores = permute(s.CompareScores, order)
 	}
+}
+
+// onlySortedColumns reports whether the set has no column besides scores,
+// labels and weights, the ones rankInPlace carries. A new column must be
+// added here as well as to the permutation in rank.
+func (s *Set) onlySortedColumns() bool {
+	return s.IDs == nil && s.SegmentOf == nil && s.Times == nil && s.CompareScores == nil
 }
 
 func permute[T any](column []T, order []uint32) []T {
