@@ -1,0 +1,263 @@
+// Package calibration asks whether a model's scores can be read as
+// probabilities: a reliability table of mean score against observed rate,
+// the expected calibration error, the cost-optimal threshold that
+// calibrated probabilities imply, and the net benefit of decision-curve
+// analysis.
+//
+// Everything here needs probabilities: every score in [0,1] with higher
+// scores riskier (curve.Summary.Probabilities). Which cases a cut flags
+// follows the cut rule in the doc of package scores. Weights are frequency
+// weights (see the scores package doc): a weight of 2 counts as the row
+// written twice.
+package calibration
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+
+	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/projection"
+	"github.com/sill-tool/sill/internal/scores"
+)
+
+// Binning says how Reliability places its bin edges.
+type Binning int
+
+// The binnings Reliability knows.
+const (
+	// FixedWidth splits [0,1] into bins of equal width.
+	FixedWidth Binning = iota
+	// Quantile puts the edges at the quantiles of the scores, so that bins
+	// hold about equal numbers of rows.
+	Quantile
+)
+
+// ParseBinning reads "width" or "quantile".
+func ParseBinning(text string) (Binning, error) {
+	switch text {
+	case "width", "fixed":
+		return FixedWidth, nil
+	case "quantile":
+		return Quantile, nil
+	}
+	return 0, fmt.Errorf("%w %q, expected width or quantile", ErrBinning, text)
+}
+
+// Errors of this package.
+var (
+	ErrNotProbabilities = errors.New("scores are not probabilities: they need to lie in [0,1] with higher scores riskier")
+	ErrBins             = errors.New("number of bins must be at least 1")
+	ErrBinning          = errors.New("unknown binning")
+)
+
+// Bin is one row of a reliability table: the cases whose score lies in
+// (Lower, Upper], the first bin also taking a score equal to its Lower.
+// MeanScore and ObservedRate are NaN in a bin of no weight.
+type Bin struct {
+	Lower, Upper float64
+	MeanScore    float64 // weighted mean score
+	ObservedRate float64 // weighted share of true cases
+	Count        int     // rows, whatever their weight
+	Weight       float64 // summed weight
+}
+
+// Table is a reliability table.
+type Table struct {
+	Binning Binning
+	Bins    []Bin
+	// ECE is the expected calibration error: the weight-averaged absolute
+	// gap between a bin's observed rate and its mean score (Naeini, Cooper
+	// and Hauskrecht 2015 name it so). NaN when the set weighs nothing.
+	ECE float64
+}
+
+// Reliability returns the reliability table of set in bins bins.
+//
+// Fixed-width edges are k/bins computed as numpy's linspace does (k times
+// 1/bins), the last edge 1. Quantile edges are the quantiles of the rows'
+// scores (rows, not weight) at k/bins, interpolated linearly between order
+// statistics as numpy's percentile does by default. A score on an inner
+// edge falls in the lower bin. These choices match scikit-learn's
+// calibration_curve, whose output is Bins with a Count above zero. With
+// tied quantile edges some bins are empty; they are kept, with Count 0.
+//
+// An empty set returns a table of empty bins and ECE NaN. One class only is
+// no error (every observed rate is then 0 or 1). It returns
+// ErrNotProbabilities when set's scores are not probabilities and ErrBins
+// when bins < 1.
+func Reliability(set *scores.Set, bins int, binning Binning) (Table, error) {
+	if bins < 1 {
+		return Table{}, fmt.Errorf("%w, got %d", ErrBins, bins)
+	}
+	if !Probabilities(set) {
+		return Table{}, ErrNotProbabilities
+	}
+	edges := make([]float64, bins+1)
+	switch binning {
+	case Quantile:
+		ascending := make([]float64, set.Len())
+		for i, s := range set.Scores {
+			ascending[set.Len()-1-i] = s // ranked riskiest first, so descending
+		}
+		for k := range edges {
+			// As numpy: linspace(0, 1, bins+1) * 100, divided back by 100.
+			q := float64(k) * (1 / float64(bins))
+			if k == bins {
+				q = 1
+			}
+			q = float64(q*100) / 100
+			edges[k] = percentile(ascending, q)
+		}
+		if set.Len() == 0 {
+			for k := range edges {
+				edges[k] = float64(k) * (1 / float64(bins))
+			}
+		}
+	default:
+		step := 1 / float64(bins)
+		for k := range edges {
+			edges[k] = float64(k) * step
+		}
+		edges[bins] = 1
+	}
+	t := Table{Binning: binning, Bins: make([]Bin, bins)}
+	sums := make([]float64, bins)
+	trues := make([]float64, bins)
+	inner := edges[1:bins]
+	for i, s := range set.Scores {
+		b := sort.SearchFloat64s(inner, s) // the number of inner edges < s
+		w := set.Weight(i)
+		t.Bins[b].Count++
+		t.Bins[b].Weight += w
+		sums[b] += w * s
+		if set.Labels[i] {
+			trues[b] += w
+		}
+	}
+	total, gap := 0.0, 0.0
+	for b := range t.Bins {
+		bin := &t.Bins[b]
+		bin.Lower, bin.Upper = edges[b], edges[b+1]
+		bin.MeanScore, bin.ObservedRate = math.NaN(), math.NaN()
+		if bin.Weight > 0 {
+			bin.MeanScore = sums[b] / bin.Weight
+			bin.ObservedRate = trues[b] / bin.Weight
+			gap += bin.Weight * math.Abs(bin.ObservedRate-bin.MeanScore)
+		}
+		total += bin.Weight
+	}
+	t.ECE = math.NaN()
+	if total > 0 {
+		t.ECE = gap / total
+	}
+	return t, nil
+}
+
+// Probabilities reports whether set's scores can be read as probabilities
+// of a true case: every score in [0,1] and higher scores riskier. An empty
+// set counts as probabilities.
+func Probabilities(set *scores.Set) bool {
+	if set.LowerIsRiskier {
+		return false
+	}
+	for _, s := range set.Scores {
+		if s < 0 || s > 1 {
+			return false
+		}
+	}
+	return true
+}
+
+// percentile returns the q-quantile of ascending values by linear
+// interpolation between order statistics (numpy's default), NaN when
+// there are none.
+func percentile(ascending []float64, q float64) float64 {
+	n := len(ascending)
+	if n == 0 {
+		return math.NaN()
+	}
+	h := q * float64(n-1)
+	j := int(math.Floor(h))
+	if j >= n-1 {
+		return ascending[n-1]
+	}
+	t := h - float64(j)
+	a, b := ascending[j], ascending[j+1]
+	// numpy's lerp, which is exact at both ends.
+	if t >= 0.5 {
+		return b - (b-a)*(1-t)
+	}
+	return a + (b-a)*t
+}
+
+// CostThreshold returns the probability above which flagging a case costs
+// less on average than leaving it, for calibrated probabilities (Elkan
+// 2001, "The foundations of cost-sensitive learning", theorem 1): a case
+// of probability p is flagged when p*Hit + (1-p)*FalseAlert <= p*Miss, so
+// the threshold is FalseAlert / (FalseAlert + Miss - Hit), which is
+// FalseAlert / (FalseAlert + Miss) when a hit costs nothing. A case left
+// unflagged and false costs 0.
+//
+// It returns NaN when FalseAlert + Miss - Hit <= 0, where no threshold
+// separates the two choices. A result below 0 means flag every case, above
+// 1 flag none.
+func CostThreshold(c projection.Costs) float64 {
+	den := c.FalseAlert + c.Miss - c.Hit
+	if !(den > 0) {
+		return math.NaN()
+	}
+	return c.FalseAlert / den
+}
+
+// ShiftThreshold carries a probability threshold over to the scale of
+// scores calibrated at another base rate: a score s calibrated where the
+// base rate was validationBase reads in production (base rate
+// productionBase) as the probability whose odds are odds(s) *
+// odds(productionBase) / odds(validationBase) (Elkan 2001, theorem 2, from
+// memory; the usual prior-shift correction). ShiftThreshold returns the
+// score at which that production probability equals threshold, so a case
+// is flagged when its score is >= the result. Equal base rates return
+// threshold unchanged. It returns NaN when a base rate is 0 or 1 or the
+// threshold lies outside [0,1].
+func ShiftThreshold(threshold, validationBase, productionBase float64) float64 {
+	if validationBase == productionBase {
+		return threshold
+	}
+	if !(threshold >= 0 && threshold <= 1) || !inside(validationBase) || !inside(productionBase) {
+		return math.NaN()
+	}
+	if threshold == 0 || threshold == 1 {
+		return threshold
+	}
+	odds := threshold / (1 - threshold) * (validationBase / (1 - validationBase)) / (productionBase / (1 - productionBase))
+	return odds / (1 + odds)
+}
+
+func inside(p float64) bool { return p > 0 && p < 1 }
+
+// NetBenefit returns the net benefit of flagging at point p when the
+// threshold probability is threshold (Vickers and Elkin 2006, "Decision
+// curve analysis: a novel method for evaluating prediction models"):
+// TP/n - FP/n * threshold/(1-threshold), n the set's total weight. It is
+// the true cases caught per case scored, less the wrong alerts weighed by
+// the odds at which a reader is indifferent. NaN when the set weighs
+// nothing or threshold is outside [0,1).
+func NetBenefit(p curve.Point, threshold float64) float64 {
+	n := p.TP + p.FP + p.FN + p.TN
+	if !(n > 0) || !(threshold >= 0 && threshold < 1) {
+		return math.NaN()
+	}
+	return p.TP/n - p.FP/n*threshold/(1-threshold)
+}
+
+// NetBenefitAll returns the net benefit of flagging every case at the
+// threshold probability, the reference line of a decision curve:
+// base - (1-base) * threshold/(1-threshold). NaN where NetBenefit is.
+func NetBenefitAll(base, threshold float64) float64 {
+	if math.IsNaN(base) || !(threshold >= 0 && threshold < 1) {
+		return math.NaN()
+	}
+	return base - (1-base)*threshold/(1-threshold)
+}

@@ -1,0 +1,265 @@
+package calibration_test
+
+import (
+	"encoding/json"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/sill-tool/sill/internal/calibration"
+	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/projection"
+	"github.com/sill-tool/sill/internal/scores"
+)
+
+// tolerance is the one float tolerance of this package's tests.
+const tolerance = 1e-12
+
+// close reports whether a and b agree within tolerance, NaN equal to NaN.
+func close(a, b float64) bool {
+	if math.IsNaN(a) || math.IsNaN(b) {
+		return math.IsNaN(a) && math.IsNaN(b)
+	}
+	return math.Abs(a-b) <= tolerance
+}
+
+func readSet(t *testing.T, path string, opt scores.Options) *scores.Set {
+	t.Helper()
+	f, err := os.Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	set, err := scores.Read(f, path, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return set
+}
+
+// TestAgainstScikitLearn compares the reliability table with
+// scikit-learn 1.2.1's calibration_curve (Debian's python3-sklearn), whose
+// output testdata/reference6/make_calibration.py committed to
+// calibration.json together with the bin counts and ECE computed from the
+// same bins.
+func TestAgainstScikitLearn(t *testing.T) {
+	const dir = "../../testdata/reference6"
+	raw, err := os.ReadFile(filepath.Join(dir, "calibration.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var ref struct {
+		Datasets map[string]struct {
+			File   string `json:"file"`
+			Curves []struct {
+				Bins     int       `json:"n_bins"`
+				Strategy string    `json:"strategy"`
+				Edges    []float64 `json:"edges"`
+				True     []float64 `json:"prob_true"`
+				Pred     []float64 `json:"prob_pred"`
+				Counts   []int     `json:"counts"`
+				ECE      float64   `json:"ece"`
+			} `json:"curves"`
+		} `json:"datasets"`
+	}
+	if err := json.Unmarshal(raw, &ref); err != nil {
+		t.Fatal(err)
+	}
+	compared := 0
+	for name, ds := range ref.Datasets {
+		set := readSet(t, filepath.Join(dir, ds.File), scores.Options{})
+		for _, c := range ds.Curves {
+			binning := calibration.FixedWidth
+			if c.Strategy == "quantile" {
+				binning = calibration.Quantile
+			}
+			table, err := calibration.Reliability(set, c.Bins, binning)
+			if err != nil {
+				t.Fatal(err)
+			}
+			what := name + " " + c.Strategy
+			for k, bin := range table.Bins {
+				if !close(bin.Lower, c.Edges[k]) || !close(bin.Upper, c.Edges[k+1]) {
+					t.Errorf("%s bin %d: edges %v..%v, reference %v..%v", what, k, bin.Lower, bin.Upper, c.Edges[k], c.Edges[k+1])
+				}
+			}
+			var filled []calibration.Bin
+			for _, bin := range table.Bins {
+				if bin.Count > 0 {
+					filled = append(filled, bin)
+				}
+			}
+			if len(filled) != len(c.True) {
+				t.Errorf("%s: %d non-empty bins, reference %d", what, len(filled), len(c.True))
+				continue
+			}
+			for k, bin := range filled {
+				compared++
+				if !close(bin.ObservedRate, c.True[k]) || !close(bin.MeanScore, c.Pred[k]) || bin.Count != c.Counts[k] {
+					t.Errorf("%s bin %d: observed %v mean %v count %d; reference %v %v %d", what, k, bin.ObservedRate, bin.MeanScore, bin.Count, c.True[k], c.Pred[k], c.Counts[k])
+				}
+			}
+			if !close(table.ECE, c.ECE) {
+				t.Errorf("%s: ECE %v, reference %v", what, table.ECE, c.ECE)
+			}
+		}
+	}
+	if compared < 20 {
+		t.Fatalf("compared only %d bins", compared)
+	}
+}
+
+// TestReliabilityHandWorked: four rows in two fixed-width bins.
+// Bin [0,0.5]: scores 0.2 (false) and 0.5 (true, on the inner edge so in
+// the lower bin): mean 0.35, observed 0.5, gap 0.15. Bin (0.5,1]: 0.9
+// (true, weight 2) and 0.6 (false): mean (1.8+0.6)/3 = 0.8, observed 2/3,
+// gap 0.8-2/3 = 2/15. ECE = (2*0.15 + 3*2/15)/5 = 0.7/5 = 0.14.
+func TestReliabilityHandWorked(t *testing.T) {
+	set, err := scores.New([]float64{0.2, 0.5, 0.9, 0.6}, []bool{false, true, true, false}, []float64{1, 1, 2, 1}, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	table, err := calibration.Reliability(set, 2, calibration.FixedWidth)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := []calibration.Bin{
+		{Lower: 0, Upper: 0.5, MeanScore: 0.35, ObservedRate: 0.5, Count: 2, Weight: 2},
+		{Lower: 0.5, Upper: 1, MeanScore: 0.8, ObservedRate: 2.0 / 3, Count: 2, Weight: 3},
+	}
+	for k, w := range want {
+		g := table.Bins[k]
+		if !close(g.Lower, w.Lower) || !close(g.Upper, w.Upper) || !close(g.MeanScore, w.MeanScore) || !close(g.ObservedRate, w.ObservedRate) || g.Count != w.Count || !close(g.Weight, w.Weight) {
+			t.Errorf("bin %d: %+v, want %+v", k, g, w)
+		}
+	}
+	if !close(table.ECE, 0.14) {
+		t.Errorf("ECE %v, want 0.14", table.ECE)
+	}
+}
+
+// TestReliabilityEdgeCases: empty bins, empty set, one class, errors, and
+// weight 2 equal to a repeated row.
+func TestReliabilityEdgeCases(t *testing.T) {
+	oneClass, _ := scores.New([]float64{0.1, 0.15}, []bool{false, false}, nil, false)
+	table, err := calibration.Reliability(oneClass, 4, calibration.FixedWidth)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Both rows in [0,0.25]: mean 0.125, observed 0, ECE 0.125.
+	if table.Bins[0].Count != 2 || !close(table.Bins[0].ObservedRate, 0) || !math.IsNaN(table.Bins[1].MeanScore) || !close(table.ECE, 0.125) {
+		t.Errorf("one class: %+v", table)
+	}
+	empty, _ := scores.New(nil, nil, nil, false)
+	for _, b := range []calibration.Binning{calibration.FixedWidth, calibration.Quantile} {
+		table, err = calibration.Reliability(empty, 3, b)
+		if err != nil || len(table.Bins) != 3 || !math.IsNaN(table.ECE) {
+			t.Errorf("empty %v: %+v %v", b, table, err)
+		}
+	}
+	logits, _ := scores.New([]float64{-1, 2}, []bool{false, true}, nil, false)
+	if _, err := calibration.Reliability(logits, 5, calibration.FixedWidth); err != calibration.ErrNotProbabilities {
+		t.Errorf("logits: %v", err)
+	}
+	lower, _ := scores.New([]float64{0.1, 0.2}, []bool{false, true}, nil, true)
+	if _, err := calibration.Reliability(lower, 5, calibration.FixedWidth); err != calibration.ErrNotProbabilities {
+		t.Errorf("lower is riskier: %v", err)
+	}
+	if _, err := calibration.Reliability(oneClass, 0, calibration.FixedWidth); err == nil {
+		t.Error("0 bins accepted")
+	}
+	weighted, _ := scores.New([]float64{0.3, 0.7, 0.7}, []bool{true, false, true}, []float64{2, 1, 1}, false)
+	repeated, _ := scores.New([]float64{0.3, 0.3, 0.7, 0.7}, []bool{true, true, false, true}, nil, false)
+	tw, _ := calibration.Reliability(weighted, 5, calibration.FixedWidth)
+	tr, _ := calibration.Reliability(repeated, 5, calibration.FixedWidth)
+	for k := range tw.Bins {
+		if !close(tw.Bins[k].MeanScore, tr.Bins[k].MeanScore) || !close(tw.Bins[k].ObservedRate, tr.Bins[k].ObservedRate) {
+			t.Errorf("bin %d: weighted %+v repeated %+v", k, tw.Bins[k], tr.Bins[k])
+		}
+	}
+	if !close(tw.ECE, tr.ECE) {
+		t.Errorf("ECE weighted %v repeated %v", tw.ECE, tr.ECE)
+	}
+}
+
+// TestCostThreshold: Elkan 2001 (theorem 1, from memory) gives the
+// threshold c10/(c10+c01) when right answers cost nothing. Hand-worked:
+// false alert 120, miss 1200: 120/1320 = 1/11. False alert 1, miss 4:
+// 1/5. With a hit costing 100 (an inspection that also repairs), the
+// threshold is 120/(120+1200-100) = 120/1220.
+func TestCostThreshold(t *testing.T) {
+	cases := []struct {
+		costs projection.Costs
+		want  float64
+	}{
+		{projection.Costs{FalseAlert: 120, Miss: 1200}, 1.0 / 11},
+		{projection.Costs{FalseAlert: 1, Miss: 4}, 0.2},
+		{projection.Costs{FalseAlert: 120, Miss: 1200, Hit: 100}, 120.0 / 1220},
+		{projection.Costs{FalseAlert: 5, Miss: 0, Hit: 10}, math.NaN()}, // no threshold separates the choices
+		{projection.Costs{}, math.NaN()},
+	}
+	for _, c := range cases {
+		if got := calibration.CostThreshold(c.costs); !close(got, c.want) {
+			t.Errorf("%+v: %v, want %v", c.costs, got, c.want)
+		}
+	}
+}
+
+// TestShiftThreshold: threshold 0.5 at validation base rate 0.5 moved to a
+// production base rate of 0.2. Production odds of a score s are odds(s) *
+// (0.25/1); odds 1 needs odds(s) = 4, s = 0.8 (hand-worked). Equal rates
+// change nothing, and the result flags exactly where the production
+// probability reaches the threshold (property, seeded values below).
+func TestShiftThreshold(t *testing.T) {
+	if got := calibration.ShiftThreshold(0.5, 0.5, 0.2); !close(got, 0.8) {
+		t.Errorf("got %v, want 0.8", got)
+	}
+	if got := calibration.ShiftThreshold(0.3, 0.1, 0.1); !close(got, 0.3) {
+		t.Errorf("equal base rates: %v", got)
+	}
+	if got := calibration.ShiftThreshold(0.3, 0, 0.1); !math.IsNaN(got) {
+		t.Errorf("base rate 0: %v", got)
+	}
+	for _, c := range [][3]float64{{0.1, 0.05, 0.2}, {0.7, 0.3, 0.01}, {0.25, 0.6, 0.4}} {
+		s := calibration.ShiftThreshold(c[0], c[1], c[2])
+		odds := s / (1 - s) * (c[2] / (1 - c[2])) / (c[1] / (1 - c[1]))
+		if p := odds / (1 + odds); math.Abs(p-c[0]) > 1e-9 {
+			t.Errorf("%v: score %v reads as %v in production", c, s, p)
+		}
+	}
+}
+
+// TestNetBenefit: the formula of Vickers and Elkin 2006 (from memory),
+// TP/n - FP/n * pt/(1-pt), on hand-worked counts. 100 cases, 10 caught,
+// 20 wrong alerts, pt 0.2: 0.1 - 0.2*0.25 = 0.05. Treat-all with base 0.15
+// at pt 0.2: 0.15 - 0.85*0.25 = -0.0625. At pt 0, net benefit is the share
+// caught.
+func TestNetBenefit(t *testing.T) {
+	p := curve.Point{TP: 10, FP: 20, FN: 5, TN: 65}
+	if got := calibration.NetBenefit(p, 0.2); !close(got, 0.05) {
+		t.Errorf("got %v, want 0.05", got)
+	}
+	if got := calibration.NetBenefit(p, 0); !close(got, 0.1) {
+		t.Errorf("pt 0: %v", got)
+	}
+	if got := calibration.NetBenefit(p, 1); !math.IsNaN(got) {
+		t.Errorf("pt 1: %v", got)
+	}
+	if got := calibration.NetBenefit(curve.Point{}, 0.2); !math.IsNaN(got) {
+		t.Errorf("empty: %v", got)
+	}
+	if got := calibration.NetBenefitAll(0.15, 0.2); !close(got, -0.0625) {
+		t.Errorf("treat all: %v", got)
+	}
+}
+
+func TestParseBinning(t *testing.T) {
+	if b, err := calibration.ParseBinning("quantile"); err != nil || b != calibration.Quantile {
+		t.Error(b, err)
+	}
+	if _, err := calibration.ParseBinning("equal"); err == nil || !strings.Contains(err.Error(), "width or quantile") {
+		t.Error(err)
+	}
+}
