@@ -13,6 +13,15 @@ import (
 // the write as a crash at that point would.
 var beforeRename func(tmpPath string) error
 
+// HookBeforeRename is a test seam for other packages: it installs hook to
+// run where beforeRename does, so a test can simulate a crash between the
+// write and the rename, and returns a function that removes it. Tests
+// only; it is not safe for concurrent use.
+func HookBeforeRename(hook func(tmpPath string) error) (restore func()) {
+	beforeRename = hook
+	return func() { beforeRename = nil }
+}
+
 // Write writes data to path through a temporary file in the same folder:
 // write, fsync, rename, then fsync the folder. On any error the target is
 // untouched and the temporary file is removed.

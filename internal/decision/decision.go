@@ -1,0 +1,168 @@
+// Package decision holds the decision file: the chosen cut of a scored
+// validation set, the candidates it was chosen among and their evidence,
+// saved as one YAML document (format sill-cut/1) for the lead who signs it
+// off, the deployment that reads its threshold and the monitoring that
+// checks fresh scores against it.
+//
+// Which cases a cut flags follows the cut rule in the doc of package
+// scores: a case is flagged when its score is >= the candidate's score, or
+// <= it when lower scores are riskier; ties at the cut are flagged.
+//
+// Undefined figures (NaN, such as precision where nothing is flagged) are
+// written as null and read back as NaN. Assumptions that were not given
+// (zero volume or capacity, nil costs) are written as null as well.
+//
+// Use New to build a File from the engine's types, Write to save it and
+// Read or ReadFile to load one.
+package decision
+
+import (
+	"fmt"
+	"math"
+	"time"
+
+	"github.com/sill-tool/sill/internal/evidence"
+	"github.com/sill-tool/sill/internal/projection"
+	"github.com/sill-tool/sill/internal/scores"
+)
+
+// Format is the value of the format key this package writes and reads.
+const Format = "sill-cut/1"
+
+// File is one decision file.
+type File struct {
+	Format      string    // always Format
+	Created     time.Time // when the file was made, written in RFC 3339
+	ToolVersion string
+	Data        Data
+	Assumptions projection.Assumptions
+	Chosen      string // Name of the chosen candidate
+	Candidates  []Candidate
+	Note        string // "" is written as null
+	Caution     string // the standing caution, evidence.Caution
+}
+
+// Data describes the validation set the cut was chosen on.
+type Data struct {
+	Path           string  // as given to the command
+	SHA256         string  // hex digest of the bytes read
+	Rows           int     // rows, zero-weight rows included
+	Positives      float64 // weighted true cases
+	Negatives      float64 // weighted false cases; key "negatives", optional on read
+	ScoreColumn    string
+	LabelColumn    string
+	WeightColumn   string // "" is written as null; optional on read
+	LowerIsRiskier bool
+	Histogram      Histogram // key score_histogram
+}
+
+// Candidate is one cut the modeller pinned, with its figures on the
+// validation set and projected to production.
+type Candidate struct {
+	Name string
+	Rule string       // the cut spec it came from; "" is written as null
+	Cut  evidence.Cut // Cut.Score is the candidate's score
+	Note string       // "" is written as null
+}
+
+// ChosenCandidate returns the chosen candidate, or false when Chosen names
+// none (Read and New never return such a File).
+func (f *File) ChosenCandidate() (Candidate, bool) {
+	for _, c := range f.Candidates {
+		if c.Name == f.Chosen {
+			return c, true
+		}
+	}
+	return Candidate{}, false
+}
+
+// New builds the File of a validation set, its assumptions and the
+// candidates pinned on it. chosen names the chosen candidate; "" chooses
+// the first. The score histogram is computed from set (see NewHistogram)
+// and Created is the current time in UTC, to the second.
+//
+// It returns an error wrapping ErrInvalid when there is no candidate, a
+// name is empty or repeated, a candidate score is not finite, chosen names
+// no candidate or the assumptions are out of range.
+func New(set *scores.Set, a projection.Assumptions, candidates []Candidate, chosen, toolVersion string) (*File, error) {
+	positives, negatives := set.Totals()
+	f := &File{
+		Format:      Format,
+		Created:     time.Now().UTC().Truncate(time.Second),
+		ToolVersion: toolVersion,
+		Data: Data{
+			Path:           set.Source,
+			SHA256:         set.SHA256,
+			Rows:           set.Len(),
+			Positives:      positives,
+			Negatives:      negatives,
+			ScoreColumn:    set.ScoreColumn,
+			LabelColumn:    set.LabelColumn,
+			WeightColumn:   set.WeightColumn,
+			LowerIsRiskier: set.LowerIsRiskier,
+			Histogram:      NewHistogram(set),
+		},
+		Assumptions: a,
+		Chosen:      chosen,
+		Candidates:  append([]Candidate(nil), candidates...),
+		Caution:     evidence.Caution,
+	}
+	if f.Chosen == "" && len(candidates) > 0 {
+		f.Chosen = candidates[0].Name
+	}
+	if err := f.Validate(); err != nil {
+		return nil, err
+	}
+	return f, nil
+}
+
+// Validate reports the first rule of the format that f breaks, as a
+// *ParseError with an empty File and Line 0: the format, the assumptions'
+// ranges, at least one candidate, unique non-empty names, finite candidate
+// scores, a Chosen that names a candidate and a well-formed histogram.
+func (f *File) Validate() error {
+	bad := func(path string, format string, args ...any) error {
+		return &ParseError{Path: path, Err: fmt.Errorf("%w: "+format, append([]any{ErrInvalid}, args...)...)}
+	}
+	if f.Format != Format {
+		return &ParseError{Path: "format", Err: fmt.Errorf("%w %q, expected %q", ErrFormat, f.Format, Format)}
+	}
+	if err := f.Assumptions.Validate(); err != nil {
+		return &ParseError{Path: "assumptions", Err: fmt.Errorf("%w: %v", ErrInvalid, err)}
+	}
+	if err := f.Data.Histogram.validate(); err != nil {
+		return err
+	}
+	if len(f.Candidates) == 0 {
+		return bad("candidates", "expected at least one candidate")
+	}
+	seen := map[string]bool{}
+	for i, c := range f.Candidates {
+		path := fmt.Sprintf("candidates[%d]", i)
+		if c.Name == "" {
+			return bad(path+".name", "expected a non-empty name")
+		}
+		if seen[c.Name] {
+			return bad(path+".name", "%q is used by an earlier candidate, expected unique names", c.Name)
+		}
+		seen[c.Name] = true
+		if math.IsNaN(c.Cut.Score) || math.IsInf(c.Cut.Score, 0) {
+			return &ParseError{Path: path + ".score", Err: fmt.Errorf("%w, found %v", ErrNotFinite, c.Cut.Score)}
+		}
+	}
+	if !seen[f.Chosen] {
+		return &ParseError{Path: "chosen", Err: fmt.Errorf("%w: %q, expected one of %s", ErrUnknownChosen, f.Chosen, f.names())}
+	}
+	return nil
+}
+
+func (f *File) names() string {
+	out := "["
+	for i, c := range f.Candidates {
+		if i > 0 {
+			out += ", "
+		}
+		out += fmt.Sprintf("%q", c.Name)
+	}
+	return out + "]"
+}

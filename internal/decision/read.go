@@ -1,0 +1,540 @@
+package decision
+
+import (
+	"bytes"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"regexp"
+	"sort"
+	"strconv"
+	"strings"
+	"time"
+
+	"go.yaml.in/yaml/v3"
+
+	"github.com/sill-tool/sill/internal/projection"
+)
+
+// MaxSize is the largest decision file Read accepts, in bytes.
+const MaxSize = 16 << 20
+
+// ReadFile reads the decision file at path; see Read.
+func ReadFile(path string) (*File, error) {
+	file, err := os.Open(path)
+	if err != nil {
+		return nil, fmt.Errorf("read decision file: %w", err)
+	}
+	defer file.Close()
+	if info, err := file.Stat(); err == nil && info.IsDir() {
+		return nil, fmt.Errorf("read decision file: %s is a directory, expected a file", path)
+	}
+	return Read(file, path)
+}
+
+// Read reads one decision file from r; source names it in errors.
+//
+// Reading is strict. Every error is a *ParseError naming the key path and
+// wrapping one of the sentinels: ErrSyntax for YAML that does not parse or
+// holds more than one document, ErrFormat for a format other than Format,
+// ErrMissingKey, ErrUnknownKey, ErrType for a value of the wrong kind (a
+// string must be a YAML string: quote numbers used as names),
+// ErrNotFinite for a number that must be finite and is null, .nan or
+// .inf, ErrUnknownChosen, and ErrInvalid for other values out of range.
+//
+// The keys the issue of the format lists are required; candidates[].rule,
+// candidates[].note and note may be absent (read as null). The keys this
+// package adds are optional and derived when absent: data.negatives
+// (NaN), data.weight_column (""), validation.rows (flagged, rounded),
+// validation.flagged_share, validation.false_discovery_rate and
+// validation.false_discovery_ci (from precision) and
+// projected.cost_per_case (cost_per_shift over the volume, else NaN).
+//
+// Read never panics, whatever the input.
+func Read(r io.Reader, source string) (f *File, err error) {
+	defer func() {
+		if p := recover(); p != nil {
+			f, err = nil, &ParseError{File: source, Err: fmt.Errorf("%w: the YAML parser failed (%v)", ErrSyntax, p)}
+		}
+	}()
+	data, err := io.ReadAll(io.LimitReader(r, MaxSize+1))
+	if err != nil {
+		return nil, &ParseError{File: source, Err: fmt.Errorf("read: %w", err)}
+	}
+	if len(data) > MaxSize {
+		return nil, &ParseError{File: source, Err: fmt.Errorf("%w: larger than %d bytes, expected a small YAML file", ErrInvalid, MaxSize)}
+	}
+	dec := yaml.NewDecoder(bytes.NewReader(data))
+	var doc yaml.Node
+	if err := dec.Decode(&doc); err != nil {
+		if errors.Is(err, io.EOF) {
+			return nil, &ParseError{File: source, Err: fmt.Errorf("%w: empty file, expected a decision file (format: %s)", ErrSyntax, Format)}
+		}
+		return nil, syntaxError(source, err)
+	}
+	var extra yaml.Node
+	if err := dec.Decode(&extra); !errors.Is(err, io.EOF) {
+		if err != nil {
+			return nil, syntaxError(source, err)
+		}
+		return nil, &ParseError{File: source, Line: extra.Line, Err: fmt.Errorf("%w: a second YAML document, expected one", ErrSyntax)}
+	}
+	rd := &reader{file: source, lines: map[string]int{}}
+	f = rd.file_(&doc)
+	if rd.err != nil {
+		return nil, rd.err
+	}
+	if err := f.Validate(); err != nil {
+		var pe *ParseError
+		if errors.As(err, &pe) {
+			pe.File = source
+			pe.Line = rd.lineOf(pe.Path)
+		}
+		return nil, err
+	}
+	return f, nil
+}
+
+var yamlLine = regexp.MustCompile(`^yaml: line (\d+): `)
+
+func syntaxError(source string, err error) error {
+	msg := err.Error()
+	line := 0
+	if m := yamlLine.FindStringSubmatch(msg); m != nil {
+		line, _ = strconv.Atoi(m[1])
+		msg = msg[len(m[0]):]
+	}
+	msg = strings.TrimPrefix(msg, "yaml: ")
+	return &ParseError{File: source, Line: line, Err: fmt.Errorf("%w: %s", ErrSyntax, msg)}
+}
+
+// reader walks the YAML tree, keeping the first error; once it has one,
+// every getter returns a zero value.
+type reader struct {
+	file  string
+	err   error
+	lines map[string]int // key path -> line of its value
+}
+
+func (r *reader) fail(n *yaml.Node, path string, err error) {
+	if r.err == nil {
+		line := 0
+		if n != nil {
+			line = n.Line
+		}
+		r.err = &ParseError{File: r.file, Line: line, Path: path, Err: err}
+	}
+}
+
+func (r *reader) lineOf(path string) int {
+	for path != "" {
+		if line, ok := r.lines[path]; ok {
+			return line
+		}
+		i := strings.LastIndexAny(path, ".[")
+		if i < 0 {
+			break
+		}
+		path = path[:i]
+	}
+	return 0
+}
+
+// deref follows an alias to the node it names.
+func deref(n *yaml.Node) *yaml.Node {
+	for i := 0; n != nil && n.Kind == yaml.AliasNode && i < 8; i++ {
+		n = n.Alias
+	}
+	return n
+}
+
+// describe names what a node holds, for "found ..." in errors.
+func describe(n *yaml.Node) string {
+	switch n.Kind {
+	case yaml.MappingNode:
+		return "a mapping"
+	case yaml.SequenceNode:
+		return "a list"
+	case yaml.ScalarNode:
+		v := n.Value
+		if len(v) > 40 {
+			v = v[:40] + "…"
+		}
+		switch n.ShortTag() {
+		case "!!null":
+			return "null"
+		case "!!str":
+			return strconv.Quote(v)
+		}
+		return v
+	}
+	return "nothing"
+}
+
+// fields reads a mapping with the given required and optional keys.
+func (r *reader) fields(n *yaml.Node, path string, required, optional []string) map[string]*yaml.Node {
+	n = deref(n)
+	if r.err != nil || n == nil {
+		return map[string]*yaml.Node{}
+	}
+	if n.Kind != yaml.MappingNode {
+		r.fail(n, path, fmt.Errorf("%w: expected a mapping, found %s", ErrType, describe(n)))
+		return map[string]*yaml.Node{}
+	}
+	allowed := map[string]bool{}
+	for _, k := range append(append([]string(nil), required...), optional...) {
+		allowed[k] = true
+	}
+	out := map[string]*yaml.Node{}
+	for i := 0; i+1 < len(n.Content); i += 2 {
+		key, value := deref(n.Content[i]), n.Content[i+1]
+		if key == nil || key.Kind != yaml.ScalarNode {
+			r.fail(n.Content[i], path, fmt.Errorf("%w: a key that is not a name", ErrType))
+			return out
+		}
+		keyPath := join(path, key.Value)
+		if !allowed[key.Value] {
+			names := append(append([]string(nil), required...), optional...)
+			sort.Strings(names)
+			r.fail(key, keyPath, fmt.Errorf("%w, expected one of %s", ErrUnknownKey, strings.Join(names, ", ")))
+			return out
+		}
+		if _, dup := out[key.Value]; dup {
+			r.fail(key, keyPath, fmt.Errorf("%w: the key appears twice", ErrInvalid))
+			return out
+		}
+		out[key.Value] = value
+		r.lines[keyPath] = key.Line
+	}
+	for _, k := range required {
+		if _, ok := out[k]; !ok {
+			r.fail(n, join(path, k), ErrMissingKey)
+			return out
+		}
+	}
+	return out
+}
+
+func join(path, key string) string {
+	if path == "" {
+		return key
+	}
+	return path + "." + key
+}
+
+func isNull(n *yaml.Node) bool {
+	n = deref(n)
+	return n == nil || (n.Kind == yaml.ScalarNode && n.ShortTag() == "!!null")
+}
+
+func (r *reader) str(n *yaml.Node, path string) string {
+	n = deref(n)
+	if r.err != nil || n == nil {
+		return ""
+	}
+	if n.Kind != yaml.ScalarNode || n.ShortTag() != "!!str" {
+		r.fail(n, path, fmt.Errorf("%w: expected a string, found %s (quote it if it is meant as text)", ErrType, describe(n)))
+		return ""
+	}
+	return n.Value
+}
+
+// optionalStr reads a string or null ("").
+func (r *reader) optionalStr(n *yaml.Node, path string) string {
+	if isNull(n) {
+		return ""
+	}
+	return r.str(n, path)
+}
+
+func (r *reader) boolean(n *yaml.Node, path string) bool {
+	n = deref(n)
+	if r.err != nil || n == nil {
+		return false
+	}
+	var b bool
+	if n.Kind != yaml.ScalarNode || n.ShortTag() != "!!bool" || n.Decode(&b) != nil {
+		r.fail(n, path, fmt.Errorf("%w: expected true or false, found %s", ErrType, describe(n)))
+	}
+	return b
+}
+
+// number reads a number that may be null (NaN) when nullable is set; any
+// other non-finite value is an error.
+func (r *reader) number(n *yaml.Node, path string, nullable bool) float64 {
+	n = deref(n)
+	if r.err != nil || n == nil {
+		return math.NaN()
+	}
+	if nullable && isNull(n) {
+		return math.NaN()
+	}
+	tag := n.ShortTag()
+	if n.Kind == yaml.ScalarNode && tag == "!!null" {
+		r.fail(n, path, fmt.Errorf("%w, found null", ErrNotFinite))
+		return math.NaN()
+	}
+	var v float64
+	if n.Kind != yaml.ScalarNode || (tag != "!!int" && tag != "!!float") || n.Decode(&v) != nil {
+		r.fail(n, path, fmt.Errorf("%w: expected a number, found %s", ErrType, describe(n)))
+		return math.NaN()
+	}
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		r.fail(n, path, fmt.Errorf("%w, found %s", ErrNotFinite, n.Value))
+		return math.NaN()
+	}
+	return v
+}
+
+// count reads a finite number >= 0.
+func (r *reader) count(n *yaml.Node, path string) float64 {
+	v := r.number(n, path, false)
+	if r.err == nil && v < 0 {
+		r.fail(deref(n), path, fmt.Errorf("%w: %v, expected a count >= 0", ErrInvalid, v))
+	}
+	return v
+}
+
+// share reads a number in [0,1] or null (NaN).
+func (r *reader) share(n *yaml.Node, path string) float64 {
+	v := r.number(n, path, true)
+	if r.err == nil && !math.IsNaN(v) && !(v >= 0 && v <= 1) {
+		r.fail(deref(n), path, fmt.Errorf("%w: %v, expected a share in [0,1] or null", ErrInvalid, v))
+	}
+	return v
+}
+
+func (r *reader) integer(n *yaml.Node, path string) int {
+	n = deref(n)
+	if r.err != nil || n == nil {
+		return 0
+	}
+	var v int
+	if n.Kind != yaml.ScalarNode || n.ShortTag() != "!!int" || n.Decode(&v) != nil || v < 0 {
+		r.fail(n, path, fmt.Errorf("%w: expected a whole number >= 0, found %s", ErrType, describe(n)))
+		return 0
+	}
+	return v
+}
+
+func (r *reader) list(n *yaml.Node, path string) []*yaml.Node {
+	n = deref(n)
+	if r.err != nil || n == nil {
+		return nil
+	}
+	if n.Kind != yaml.SequenceNode {
+		r.fail(n, path, fmt.Errorf("%w: expected a list, found %s", ErrType, describe(n)))
+		return nil
+	}
+	return n.Content
+}
+
+func (r *reader) numbers(n *yaml.Node, path string) []float64 {
+	items := r.list(n, path)
+	out := make([]float64, 0, len(items))
+	for i, item := range items {
+		out = append(out, r.number(item, fmt.Sprintf("%s[%d]", path, i), false))
+	}
+	return out
+}
+
+// interval reads [lower, upper] of shares or nulls, or a null interval.
+func (r *reader) interval(n *yaml.Node, path string) [2]float64 {
+	if isNull(n) {
+		return [2]float64{math.NaN(), math.NaN()}
+	}
+	items := r.list(n, path)
+	if r.err == nil && len(items) != 2 {
+		r.fail(deref(n), path, fmt.Errorf("%w: %d values, expected [lower, upper]", ErrInvalid, len(items)))
+	}
+	if r.err != nil {
+		return [2]float64{math.NaN(), math.NaN()}
+	}
+	ci := [2]float64{r.share(items[0], path+"[0]"), r.share(items[1], path+"[1]")}
+	if r.err == nil && ci[0] > ci[1] {
+		r.fail(deref(n), path, fmt.Errorf("%w: lower end %v above upper end %v", ErrInvalid, ci[0], ci[1]))
+	}
+	return ci
+}
+
+func (r *reader) file_(doc *yaml.Node) *File {
+	root := doc
+	if doc.Kind == yaml.DocumentNode {
+		if len(doc.Content) != 1 {
+			r.fail(doc, "", fmt.Errorf("%w: an empty document, expected a decision file (format: %s)", ErrSyntax, Format))
+			return nil
+		}
+		root = doc.Content[0]
+	}
+	f := &File{}
+	// The format comes first, so that another kind of file is named as
+	// such rather than by its first unknown key.
+	if m := deref(root); m != nil && m.Kind == yaml.MappingNode {
+		for i := 0; i+1 < len(m.Content); i += 2 {
+			if k := deref(m.Content[i]); k != nil && k.Kind == yaml.ScalarNode && k.Value == "format" {
+				f.Format = r.str(m.Content[i+1], "format")
+				if r.err == nil && f.Format != Format {
+					r.fail(m.Content[i+1], "format", fmt.Errorf("%w %q, expected %q", ErrFormat, f.Format, Format))
+				}
+			}
+		}
+	} else if m != nil {
+		r.fail(m, "", fmt.Errorf("%w: expected a mapping of keys, found %s; not a decision file (format: %s)", ErrType, describe(m), Format))
+	}
+	top := r.fields(root, "", []string{"format", "created", "tool_version", "data", "assumptions", "chosen", "candidates", "caution"}, []string{"note"})
+	created := deref(top["created"])
+	if r.err == nil {
+		var err error
+		if created.Kind != yaml.ScalarNode || (created.ShortTag() != "!!str" && created.ShortTag() != "!!timestamp") {
+			err = fmt.Errorf("%w: expected an RFC 3339 timestamp, found %s", ErrType, describe(created))
+		} else if f.Created, err = time.Parse(time.RFC3339, created.Value); err != nil {
+			err = fmt.Errorf("%w: %q, expected an RFC 3339 timestamp such as 2026-09-01T06:00:00Z", ErrInvalid, created.Value)
+		}
+		if err != nil {
+			r.fail(created, "created", err)
+		}
+	}
+	f.ToolVersion = r.str(top["tool_version"], "tool_version")
+	f.Data = r.data(top["data"])
+	f.Assumptions = r.assumptions(top["assumptions"])
+	f.Chosen = r.str(top["chosen"], "chosen")
+	items := r.list(top["candidates"], "candidates")
+	for i, item := range items {
+		f.Candidates = append(f.Candidates, r.candidate(item, fmt.Sprintf("candidates[%d]", i), f.Assumptions))
+	}
+	if r.err == nil && len(items) == 0 {
+		r.fail(deref(top["candidates"]), "candidates", fmt.Errorf("%w: an empty list, expected at least one candidate", ErrInvalid))
+	}
+	f.Note = r.optionalStr(top["note"], "note")
+	f.Caution = r.str(top["caution"], "caution")
+	return f
+}
+
+func (r *reader) data(n *yaml.Node) Data {
+	m := r.fields(n, "data",
+		[]string{"path", "sha256", "rows", "positives", "score_column", "label_column", "lower_is_riskier", "score_histogram"},
+		[]string{"negatives", "weight_column"})
+	d := Data{
+		Path:           r.str(m["path"], "data.path"),
+		SHA256:         r.str(m["sha256"], "data.sha256"),
+		Rows:           r.integer(m["rows"], "data.rows"),
+		Positives:      r.count(m["positives"], "data.positives"),
+		Negatives:      math.NaN(),
+		ScoreColumn:    r.str(m["score_column"], "data.score_column"),
+		LabelColumn:    r.str(m["label_column"], "data.label_column"),
+		WeightColumn:   r.optionalStr(m["weight_column"], "data.weight_column"),
+		LowerIsRiskier: r.boolean(m["lower_is_riskier"], "data.lower_is_riskier"),
+	}
+	if v, ok := m["negatives"]; ok && !isNull(v) {
+		d.Negatives = r.count(v, "data.negatives")
+	}
+	h := r.fields(m["score_histogram"], "data.score_histogram", []string{"edges", "counts"}, nil)
+	d.Histogram = Histogram{
+		Edges:  r.numbers(h["edges"], "data.score_histogram.edges"),
+		Counts: r.numbers(h["counts"], "data.score_histogram.counts"),
+	}
+	return d
+}
+
+func (r *reader) assumptions(n *yaml.Node) projection.Assumptions {
+	m := r.fields(n, "assumptions", []string{"base_rate", "volume_per_shift", "cost_false_alert", "cost_miss", "cost_hit", "capacity", "confidence"}, nil)
+	a := projection.Assumptions{
+		BaseRate:   r.number(m["base_rate"], "assumptions.base_rate", false),
+		Confidence: r.number(m["confidence"], "assumptions.confidence", false),
+	}
+	positive := func(key string) float64 {
+		if isNull(m[key]) {
+			return 0
+		}
+		v := r.number(m[key], "assumptions."+key, false)
+		if r.err == nil && !(v > 0) {
+			r.fail(deref(m[key]), "assumptions."+key, fmt.Errorf("%w: %v, expected a positive number or null", ErrInvalid, v))
+		}
+		return v
+	}
+	a.Volume = positive("volume_per_shift")
+	a.Capacity = positive("capacity")
+	var costs [3]float64
+	anyCost := false
+	for i, key := range []string{"cost_false_alert", "cost_miss", "cost_hit"} {
+		if !isNull(m[key]) {
+			costs[i] = r.number(m[key], "assumptions."+key, false)
+			anyCost = true
+		}
+	}
+	if anyCost {
+		a.Costs = &projection.Costs{FalseAlert: costs[0], Miss: costs[1], Hit: costs[2]}
+	}
+	if r.err == nil && !(a.BaseRate >= 0 && a.BaseRate <= 1) {
+		r.fail(deref(m["base_rate"]), "assumptions.base_rate", fmt.Errorf("%w: %v, expected a share in [0,1]", ErrInvalid, a.BaseRate))
+	}
+	if r.err == nil && !(a.Confidence > 0 && a.Confidence < 1) {
+		r.fail(deref(m["confidence"]), "assumptions.confidence", fmt.Errorf("%w: %v, expected a level in (0,1) such as 0.95", ErrInvalid, a.Confidence))
+	}
+	return a
+}
+
+func (r *reader) candidate(n *yaml.Node, path string, a projection.Assumptions) Candidate {
+	m := r.fields(n, path, []string{"name", "score", "validation", "projected"}, []string{"rule", "note"})
+	c := Candidate{
+		Name: r.str(m["name"], path+".name"),
+		Rule: r.optionalStr(m["rule"], path+".rule"),
+		Note: r.optionalStr(m["note"], path+".note"),
+	}
+	e := &c.Cut
+	e.Score = r.number(m["score"], path+".score", false)
+
+	vp := path + ".validation"
+	v := r.fields(m["validation"], vp,
+		[]string{"flagged", "tp", "fp", "fn", "tn", "recall", "recall_ci", "precision", "precision_ci", "false_positive_rate"},
+		[]string{"rows", "flagged_share", "false_discovery_rate", "false_discovery_ci"})
+	e.Flagged = r.count(v["flagged"], vp+".flagged")
+	e.TP = r.count(v["tp"], vp+".tp")
+	e.FP = r.count(v["fp"], vp+".fp")
+	e.FN = r.count(v["fn"], vp+".fn")
+	e.TN = r.count(v["tn"], vp+".tn")
+	e.Recall = r.share(v["recall"], vp+".recall")
+	e.RecallCI = r.interval(v["recall_ci"], vp+".recall_ci")
+	e.Precision = r.share(v["precision"], vp+".precision")
+	e.PrecisionCI = r.interval(v["precision_ci"], vp+".precision_ci")
+	e.FalsePositiveRate = r.share(v["false_positive_rate"], vp+".false_positive_rate")
+	if node, ok := v["rows"]; ok {
+		e.Rows = r.integer(node, vp+".rows")
+	} else {
+		e.Rows = int(math.Round(e.Flagged))
+	}
+	if node, ok := v["flagged_share"]; ok {
+		e.FlaggedShare = r.share(node, vp+".flagged_share")
+	} else if total := e.TP + e.FP + e.FN + e.TN; total > 0 {
+		e.FlaggedShare = e.Flagged / total
+	} else {
+		e.FlaggedShare = math.NaN()
+	}
+	if node, ok := v["false_discovery_rate"]; ok {
+		e.FalseDiscoveryRate = r.share(node, vp+".false_discovery_rate")
+	} else {
+		e.FalseDiscoveryRate = 1 - e.Precision
+	}
+	if node, ok := v["false_discovery_ci"]; ok {
+		e.FalseDiscoveryCI = r.interval(node, vp+".false_discovery_ci")
+	} else {
+		e.FalseDiscoveryCI = [2]float64{1 - e.PrecisionCI[1], 1 - e.PrecisionCI[0]}
+	}
+
+	pp := path + ".projected"
+	p := r.fields(m["projected"], pp, []string{"alert_rate", "precision", "queue_per_shift", "cost_per_shift"}, []string{"cost_per_case"})
+	e.Projected.AlertRate = r.share(p["alert_rate"], pp+".alert_rate")
+	e.Projected.Precision = r.share(p["precision"], pp+".precision")
+	e.Projected.QueuePerShift = r.number(p["queue_per_shift"], pp+".queue_per_shift", true)
+	e.Projected.CostPerShift = r.number(p["cost_per_shift"], pp+".cost_per_shift", true)
+	if node, ok := p["cost_per_case"]; ok {
+		e.Projected.CostPerCase = r.number(node, pp+".cost_per_case", true)
+	} else if a.Volume > 0 {
+		e.Projected.CostPerCase = e.Projected.CostPerShift / a.Volume
+	} else {
+		e.Projected.CostPerCase = math.NaN()
+	}
+	return c
+}

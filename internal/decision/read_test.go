@@ -1,0 +1,151 @@
+package decision
+
+import (
+	"bytes"
+	"errors"
+	"regexp"
+	"strings"
+	"testing"
+)
+
+// replaceNth replaces the n-th (0-based) match of pattern in text; the
+// test fails when there is no such match, so a broken case cannot pass by
+// leaving the file valid.
+func replaceNth(t *testing.T, text, pattern string, n int, replacement string) string {
+	t.Helper()
+	matches := regexp.MustCompile(pattern).FindAllStringIndex(text, -1)
+	if n >= len(matches) {
+		t.Fatalf("pattern %q has %d matches, want a match number %d", pattern, len(matches), n)
+	}
+	m := matches[n]
+	return text[:m[0]] + replacement + text[m[1]:]
+}
+
+func TestReadRejectsBrokenKeys(t *testing.T) {
+	valid, err := Marshal(demoFile(t))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := Read(bytes.NewReader(valid), "cut.yaml"); err != nil {
+		t.Fatalf("the unbroken file: %v", err)
+	}
+	text := string(valid)
+	for _, tc := range []struct {
+		name     string
+		broken   string
+		sentinel error
+		path     string
+	}{
+		{"other format", replaceNth(t, text, `format: sill-cut/1`, 0, `format: sill-cut/2`), ErrFormat, "format"},
+		{"format not text", replaceNth(t, text, `format: sill-cut/1`, 0, `format: 1`), ErrType, "format"},
+		{"missing chosen", replaceNth(t, text, `chosen: "base"\n`, 0, ``), ErrMissingKey, "chosen"},
+		{"missing data", replaceNth(t, text, `(?s)data:.*?\nassumptions:`, 0, `assumptions:`), ErrMissingKey, "data"},
+		{"missing tp", replaceNth(t, text, `\n      tp: \d+`, 1, ``), ErrMissingKey, "candidates[1].validation.tp"},
+		{"missing score", replaceNth(t, text, `\n    score: [^\n]*`, 0, ``), ErrMissingKey, "candidates[0].score"},
+		{"unknown top key", replaceNth(t, text, `\nnote:`, 0, "\nchosen_by: lead\nnote:"), ErrUnknownKey, "chosen_by"},
+		{"unknown candidate key", replaceNth(t, text, `\n    rule:`, 1, "\n    threshold: 0.5\n    rule:"), ErrUnknownKey, "candidates[1].threshold"},
+		{"rows as text", replaceNth(t, text, `rows: 2000`, 0, `rows: "2000"`), ErrType, "data.rows"},
+		{"rows fractional", replaceNth(t, text, `rows: 2000`, 0, `rows: 2000.5`), ErrType, "data.rows"},
+		{"bool not bool", replaceNth(t, text, `lower_is_riskier: false`, 0, `lower_is_riskier: maybe`), ErrType, "data.lower_is_riskier"},
+		{"score nan", replaceNth(t, text, `score: [0-9.]+`, 1, `score: .nan`), ErrNotFinite, "candidates[1].score"},
+		{"score inf", replaceNth(t, text, `score: [0-9.]+`, 0, `score: -.inf`), ErrNotFinite, "candidates[0].score"},
+		{"score null", replaceNth(t, text, `score: [0-9.]+`, 0, `score: null`), ErrNotFinite, "candidates[0].score"},
+		{"score text", replaceNth(t, text, `score: [0-9.]+`, 0, `score: high`), ErrType, "candidates[0].score"},
+		{"score list", replaceNth(t, text, `score: [0-9.]+`, 0, `score: [0.5]`), ErrType, "candidates[0].score"},
+		{"chosen names none", replaceNth(t, text, `chosen: "base"`, 0, `chosen: "hit=0.9"`), ErrUnknownChosen, "chosen"},
+		{"no candidates", replaceNth(t, text, `(?s)candidates:\n.*?\nnote:`, 0, "candidates: []\nnote:"), ErrInvalid, "candidates"},
+		{"candidates not a list", replaceNth(t, text, `(?s)candidates:\n.*?\nnote:`, 0, "candidates: base\nnote:"), ErrType, "candidates"},
+		{"repeated name", replaceNth(t, text, `name: "base"`, 0, `name: "hit=0.8"`), ErrInvalid, "candidates[1].name"},
+		{"name a number", replaceNth(t, text, `name: "base"`, 0, `name: 12`), ErrType, "candidates[1].name"},
+		{"negative count", replaceNth(t, text, `tp: \d+`, 0, `tp: -1`), ErrInvalid, "candidates[0].validation.tp"},
+		{"recall above 1", replaceNth(t, text, `recall: [0-9.]+`, 0, `recall: 1.5`), ErrInvalid, "candidates[0].validation.recall"},
+		{"interval of one", replaceNth(t, text, `recall_ci: \[[^\]]*\]`, 0, `recall_ci: [0.1]`), ErrInvalid, "candidates[0].validation.recall_ci"},
+		{"interval reversed", replaceNth(t, text, `recall_ci: \[[^\]]*\]`, 1, `recall_ci: [0.9, 0.1]`), ErrInvalid, "candidates[1].validation.recall_ci"},
+		{"bad created", replaceNth(t, text, `created: "[^"]*"`, 0, `created: "yesterday"`), ErrInvalid, "created"},
+		{"base rate above 1", replaceNth(t, text, `base_rate: [0-9.]+`, 0, `base_rate: 2`), ErrInvalid, "assumptions.base_rate"},
+		{"confidence 1", replaceNth(t, text, `confidence: [0-9.]+`, 0, `confidence: 1`), ErrInvalid, "assumptions.confidence"},
+		{"volume 0", replaceNth(t, text, `volume_per_shift: \d+`, 0, `volume_per_shift: 0`), ErrInvalid, "assumptions.volume_per_shift"},
+		{"cost text", replaceNth(t, text, `cost_miss: \d+`, 0, `cost_miss: lots`), ErrType, "assumptions.cost_miss"},
+		{"edges unordered", replaceNth(t, text, `edges: \[0, `, 0, `edges: [0.5, `), ErrInvalid, "data.score_histogram.edges[1]"},
+		{"edge nan", replaceNth(t, text, `edges: \[0, `, 0, `edges: [.nan, `), ErrNotFinite, "data.score_histogram.edges[0]"},
+		{"counts short", replaceNth(t, text, `counts: \[\d+, `, 0, `counts: [`), ErrInvalid, "data.score_histogram.edges"},
+		{"duplicate key", replaceNth(t, text, `\nnote:`, 0, "\ncaution: again\nnote:"), ErrInvalid, "caution"},
+		{"not a mapping", "- format\n- sill-cut/1\n", ErrType, ""},
+		{"empty", "", ErrSyntax, ""},
+		{"only a comment", "# nothing here\n", ErrSyntax, ""},
+		{"malformed yaml", "format: [sill-cut/1\n", ErrSyntax, ""},
+		{"tab indent", replaceNth(t, text, `\n  path:`, 0, "\n\tpath:"), ErrSyntax, ""},
+		{"two documents", text + "---\nformat: sill-cut/1\n", ErrSyntax, ""},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			f, err := Read(strings.NewReader(tc.broken), "cut.yaml")
+			if err == nil {
+				t.Fatalf("no error; read %+v", f)
+			}
+			var pe *ParseError
+			if !errors.Is(err, tc.sentinel) || !errors.As(err, &pe) || pe.Path != tc.path {
+				t.Fatalf("error %q, want %v at path %q", err, tc.sentinel, tc.path)
+			}
+			msg := err.Error()
+			t.Log(msg)
+			if strings.Contains(msg, "\n") || !strings.HasPrefix(msg, "cut.yaml") {
+				t.Errorf("message %q, want one line starting with the file name", msg)
+			}
+			if tc.path != "" && !strings.Contains(msg, ": "+tc.path+": ") {
+				t.Errorf("message %q does not name the path %s", msg, tc.path)
+			}
+		})
+	}
+}
+
+func TestReadErrorLine(t *testing.T) {
+	valid, _ := Marshal(demoFile(t))
+	lines := strings.Split(string(valid), "\n")
+	want := 0
+	for i, l := range lines {
+		if strings.HasPrefix(l, "chosen:") {
+			lines[i] = `chosen: "nobody"`
+			want = i + 1
+		}
+	}
+	_, err := Read(strings.NewReader(strings.Join(lines, "\n")), "cut.yaml")
+	var pe *ParseError
+	if !errors.As(err, &pe) || pe.Line != want {
+		t.Fatalf("error %v, want line %d", err, want)
+	}
+	if got, wantPrefix := err.Error(), "cut.yaml:"; !strings.HasPrefix(got, wantPrefix) || !strings.Contains(got, `chosen: chosen names no candidate: "nobody", expected one of ["hit=0.8", "base"]`) {
+		t.Errorf("message %q", got)
+	}
+}
+
+func TestReadOptionalKeysDerived(t *testing.T) {
+	f := demoFile(t)
+	valid, _ := Marshal(f)
+	text := string(valid)
+	text = regexp.MustCompile(`\n      rows: [^\n]*`).ReplaceAllString(text, "") // validation.rows, not data.rows
+	for _, key := range []string{"flagged_share", "false_discovery_rate", "false_discovery_ci", "cost_per_case", "negatives", "weight_column", "note", "rule"} {
+		text = regexp.MustCompile(`\n *`+key+`: [^\n]*`).ReplaceAllString(text, "")
+	}
+	if strings.Contains(text, "flagged_share") || strings.Contains(text, "rule:") {
+		t.Fatal("the optional keys were not removed")
+	}
+	back, err := Read(strings.NewReader(text), "cut.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, c := range back.Candidates {
+		w := f.Candidates[i].Cut
+		g := c.Cut
+		if g.Rows != w.Rows || !same(g.FlaggedShare, w.FlaggedShare) || !same(g.FalseDiscoveryRate, w.FalseDiscoveryRate) ||
+			!same(g.FalseDiscoveryCI[0], w.FalseDiscoveryCI[0]) || !same(g.FalseDiscoveryCI[1], w.FalseDiscoveryCI[1]) ||
+			!same(g.Projected.CostPerCase, w.Projected.CostPerCase) {
+			t.Errorf("candidate %d derived %+v, want %+v", i, g, w)
+		}
+		if c.Rule != "" || c.Note != "" {
+			t.Errorf("candidate %d rule %q note %q, want empty", i, c.Rule, c.Note)
+		}
+	}
+	if back.Note != "" || back.Data.WeightColumn != "" || !same(back.Data.Negatives, nan()) {
+		t.Errorf("note %q weight column %q negatives %v", back.Note, back.Data.WeightColumn, back.Data.Negatives)
+	}
+}

@@ -1,0 +1,246 @@
+package decision
+
+import (
+	"bytes"
+	"errors"
+	"fmt"
+	"io/fs"
+	"math"
+	"os"
+	"strconv"
+	"strings"
+	"time"
+
+	"go.yaml.in/yaml/v3"
+
+	"github.com/sill-tool/sill/internal/atomicfile"
+	"github.com/sill-tool/sill/internal/evidence"
+)
+
+// Write saves f at path atomically (see package atomicfile): readers of
+// path see the old file or the new one, never a mix.
+//
+// Unless force is set it refuses to replace an existing file that is not
+// a readable decision file (ErrNotDecisionFile) or whose data.sha256
+// differs from f's (ErrDifferentData); a decision file on the same data is
+// replaced. It returns an error without writing when f fails Validate.
+func Write(path string, f *File, force bool) error {
+	if err := f.Validate(); err != nil {
+		return fmt.Errorf("write %s: %w", path, err)
+	}
+	data, err := Marshal(f)
+	if err != nil {
+		return fmt.Errorf("write %s: %w", path, err)
+	}
+	if !force {
+		old, err := os.ReadFile(path)
+		switch {
+		case errors.Is(err, fs.ErrNotExist):
+		case err != nil:
+			return fmt.Errorf("write %s: %w", path, err)
+		default:
+			existing, err := Read(bytes.NewReader(old), path)
+			if err != nil {
+				return fmt.Errorf("write %s: %w (%v)", path, ErrNotDecisionFile, err)
+			}
+			if existing.Data.SHA256 != f.Data.SHA256 {
+				return fmt.Errorf("write %s: %w (its data.sha256 is %s, this data's is %s)", path, ErrDifferentData, short(existing.Data.SHA256), short(f.Data.SHA256))
+			}
+		}
+	}
+	return atomicfile.Write(path, data, 0o644)
+}
+
+func short(digest string) string {
+	if len(digest) > 12 {
+		return digest[:12] + "…"
+	}
+	if digest == "" {
+		return "empty"
+	}
+	return digest
+}
+
+// Marshal returns the YAML document of f. Keys come in the order of the
+// format; numbers are written in the shortest form that reads back to the
+// same float64, always with a decimal point before any exponent so that
+// YAML 1.1 readers also see numbers.
+func Marshal(f *File) ([]byte, error) {
+	cand := &yaml.Node{Kind: yaml.SequenceNode}
+	for _, c := range f.Candidates {
+		cand.Content = append(cand.Content, candidateNode(c, f.Data.LowerIsRiskier))
+	}
+	a := f.Assumptions
+	costs := [3]float64{math.NaN(), math.NaN(), math.NaN()}
+	if a.Costs != nil {
+		costs = [3]float64{a.Costs.FalseAlert, a.Costs.Miss, a.Costs.Hit}
+	}
+	d := f.Data
+	doc := mapping(
+		"format", str(f.Format),
+		"created", quoted(f.Created.UTC().Format(time.RFC3339)),
+		"tool_version", quoted(f.ToolVersion),
+		"data", mapping(
+			"path", quoted(d.Path),
+			"sha256", quoted(d.SHA256),
+			"rows", num(float64(d.Rows)),
+			"positives", num(d.Positives),
+			"negatives", num(d.Negatives),
+			"score_column", quoted(d.ScoreColumn),
+			"label_column", quoted(d.LabelColumn),
+			"weight_column", optionalStr(d.WeightColumn),
+			"lower_is_riskier", boolean(d.LowerIsRiskier),
+			"score_histogram", mapping(
+				"edges", flowList(d.Histogram.Edges...),
+				"counts", flowList(d.Histogram.Counts...),
+			),
+		),
+		"assumptions", mapping(
+			"base_rate", num(a.BaseRate),
+			"volume_per_shift", given(a.Volume),
+			"cost_false_alert", num(costs[0]),
+			"cost_miss", num(costs[1]),
+			"cost_hit", num(costs[2]),
+			"capacity", given(a.Capacity),
+			"confidence", num(a.Confidence),
+		),
+		"chosen", quoted(f.Chosen),
+		"candidates", cand,
+		"note", optionalStr(f.Note),
+		"caution", str(f.Caution),
+	)
+	doc.HeadComment = "sill decision file. The chosen cut flags a case when its score is " + flagSign(d.LowerIsRiskier) +
+		" the chosen candidate's score;\nthe figures are the evidence it was chosen on. Read it with: sill review FILE"
+	var buf bytes.Buffer
+	enc := yaml.NewEncoder(&buf)
+	enc.SetIndent(2)
+	if err := enc.Encode(doc); err != nil {
+		return nil, fmt.Errorf("encode: %w", err)
+	}
+	if err := enc.Close(); err != nil {
+		return nil, fmt.Errorf("encode: %w", err)
+	}
+	return buf.Bytes(), nil
+}
+
+func flagSign(lowerIsRiskier bool) string {
+	if lowerIsRiskier {
+		return "<="
+	}
+	return ">="
+}
+
+func candidateNode(c Candidate, lowerIsRiskier bool) *yaml.Node {
+	e := c.Cut
+	score := num(e.Score)
+	score.LineComment = "flag when score " + flagSign(lowerIsRiskier) + " this"
+	return mapping(
+		"name", quoted(c.Name),
+		"rule", optionalStr(c.Rule),
+		"score", score,
+		"validation", mapping(
+			"rows", num(float64(e.Rows)),
+			"flagged", num(e.Flagged),
+			"flagged_share", num(e.FlaggedShare),
+			"tp", num(e.TP),
+			"fp", num(e.FP),
+			"fn", num(e.FN),
+			"tn", num(e.TN),
+			"recall", num(e.Recall),
+			"recall_ci", flowList(e.RecallCI[:]...),
+			"precision", num(e.Precision),
+			"precision_ci", flowList(e.PrecisionCI[:]...),
+			"false_discovery_rate", num(e.FalseDiscoveryRate),
+			"false_discovery_ci", flowList(e.FalseDiscoveryCI[:]...),
+			"false_positive_rate", num(e.FalsePositiveRate),
+		),
+		"projected", mapping(
+			"alert_rate", num(e.Projected.AlertRate),
+			"precision", num(e.Projected.Precision),
+			"queue_per_shift", num(e.Projected.QueuePerShift),
+			"cost_per_shift", num(e.Projected.CostPerShift),
+			"cost_per_case", num(e.Projected.CostPerCase),
+		),
+		"note", optionalStr(c.Note),
+	)
+}
+
+func mapping(pairs ...any) *yaml.Node {
+	n := &yaml.Node{Kind: yaml.MappingNode}
+	for i := 0; i < len(pairs); i += 2 {
+		n.Content = append(n.Content, str(pairs[i].(string)), pairs[i+1].(*yaml.Node))
+	}
+	return n
+}
+
+func str(s string) *yaml.Node {
+	return &yaml.Node{Kind: yaml.ScalarNode, Tag: "!!str", Value: s}
+}
+
+// quoted is a string that always reads back as a string, even when it
+// looks like a number, a boolean or a date.
+func quoted(s string) *yaml.Node {
+	n := str(s)
+	n.Style = yaml.DoubleQuotedStyle
+	return n
+}
+
+func optionalStr(s string) *yaml.Node {
+	if s == "" {
+		return null()
+	}
+	return quoted(s)
+}
+
+func null() *yaml.Node { return &yaml.Node{Kind: yaml.ScalarNode, Tag: "!!null", Value: "null"} }
+
+func boolean(b bool) *yaml.Node {
+	return &yaml.Node{Kind: yaml.ScalarNode, Tag: "!!bool", Value: strconv.FormatBool(b)}
+}
+
+// num writes v, or null when v is NaN or infinite.
+func num(v float64) *yaml.Node {
+	if !evidence.Defined(v) {
+		return null()
+	}
+	tag := "!!float"
+	text := FormatNumber(v)
+	if !strings.ContainsAny(text, ".e") {
+		tag = "!!int"
+	}
+	return &yaml.Node{Kind: yaml.ScalarNode, Tag: tag, Value: text}
+}
+
+// given writes an assumption that is 0 when not given.
+func given(v float64) *yaml.Node {
+	if v == 0 {
+		return null()
+	}
+	return num(v)
+}
+
+func flowList(values ...float64) *yaml.Node {
+	n := &yaml.Node{Kind: yaml.SequenceNode, Style: yaml.FlowStyle}
+	for _, v := range values {
+		n.Content = append(n.Content, num(v))
+	}
+	return n
+}
+
+// FormatNumber returns the shortest decimal text that reads back as v:
+// plain digits when that is short (0.000125, 6000), otherwise an exponent
+// with a decimal point in the mantissa (1.5e-09, 2.0e+21).
+func FormatNumber(v float64) string {
+	if v == 0 {
+		return "0"
+	}
+	if abs := math.Abs(v); abs >= 1e-6 && abs < 1e15 {
+		return strconv.FormatFloat(v, 'f', -1, 64)
+	}
+	text := strconv.FormatFloat(v, 'e', -1, 64)
+	mantissa, exponent, _ := strings.Cut(text, "e")
+	if !strings.Contains(mantissa, ".") {
+		mantissa += ".0"
+	}
+	return mantissa + "e" + exponent
+}
