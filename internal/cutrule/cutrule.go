@@ -226,7 +226,10 @@ func (f *Finder) Visit(p curve.Point) {
 		case Queue:
 			keep = fig.QueuePerShift <= r.Value*(1+slack)
 		case Cost:
-			keep = !f.found[i] || fig.CostPerCase < f.best[i].Projected.CostPerCase
+			// Strictly less by more than the slack, so that the strictest
+			// of equal costs stays; an undefined cost never wins.
+			best := f.best[i].Projected.CostPerCase
+			keep = !math.IsNaN(fig.CostPerCase) && (!f.found[i] || fig.CostPerCase < best-slack*math.Abs(best))
 		}
 		if keep {
 			f.found[i] = true
@@ -259,6 +262,9 @@ func (f *Finder) reason(r Rule) string {
 	case Score:
 		return fmt.Sprintf("no score is at or beyond %v; the riskiest is %v", r.Value, p.Score)
 	case Top:
+		if p.Rows == 1 {
+			return fmt.Sprintf("the strictest cut already flags 1 row (score %v)", p.Score)
+		}
 		return fmt.Sprintf("the strictest cut already flags %d rows (tied at score %v)", p.Rows, p.Score)
 	case Hit:
 		if !(p.Positives() > 0) {
@@ -274,6 +280,8 @@ func (f *Finder) reason(r Rule) string {
 		return fmt.Sprintf("the strictest cut already flags %s, above the base rate %s", pct(fig.AlertRate), pct(f.a.BaseRate))
 	case Queue:
 		return fmt.Sprintf("the strictest cut already queues %.1f alerts per shift, above %v", fig.QueuePerShift, r.Value)
+	case Cost:
+		return "the projected cost is undefined: the validation set lacks a class that the production base rate needs"
 	}
 	return "no cut meets the rule"
 }

@@ -1,0 +1,487 @@
+package cutrule_test
+
+import (
+	"errors"
+	"math"
+	"slices"
+	"strings"
+	"testing"
+
+	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/projection"
+	"github.com/sill-tool/sill/internal/scores"
+)
+
+// tolerance is the largest absolute difference accepted between a figure
+// and its hand-worked value; NaN equals NaN (see near).
+const tolerance = 1e-12
+
+func near(got, want float64) bool {
+	if math.IsNaN(got) || math.IsNaN(want) {
+		return math.IsNaN(got) && math.IsNaN(want)
+	}
+	return math.Abs(got-want) <= tolerance
+}
+
+func TestParseAccepts(t *testing.T) {
+	cases := []struct {
+		text      string
+		want      cutrule.Rule
+		canonical string
+	}{
+		{"score=0.5", cutrule.Rule{Kind: cutrule.Score, Value: 0.5}, "score=0.5"},
+		{"score=-2.5", cutrule.Rule{Kind: cutrule.Score, Value: -2.5}, "score=-2.5"},
+		{"score=1e3", cutrule.Rule{Kind: cutrule.Score, Value: 1000}, "score=1000"},
+		{" HIT = 0.8 ", cutrule.Rule{Kind: cutrule.Hit, Value: 0.8}, "hit=0.8"},
+		{"hit=0", cutrule.Rule{Kind: cutrule.Hit, Value: 0}, "hit=0"},
+		{"hit=1", cutrule.Rule{Kind: cutrule.Hit, Value: 1}, "hit=1"},
+		{"wrong=0.333", cutrule.Rule{Kind: cutrule.Wrong, Value: 0.333}, "wrong=0.333"},
+		{"wrong=0", cutrule.Rule{Kind: cutrule.Wrong}, "wrong=0"},
+		{"top=10", cutrule.Rule{Kind: cutrule.Top, Value: 10}, "top=10"},
+		{"top=1", cutrule.Rule{Kind: cutrule.Top, Value: 1}, "top=1"},
+		{"top=5%", cutrule.Rule{Kind: cutrule.Top, Value: 5, Percent: true}, "top=5%"},
+		{"top=0.5 %", cutrule.Rule{Kind: cutrule.Top, Value: 0.5, Percent: true}, "top=0.5%"},
+		{"top=100%", cutrule.Rule{Kind: cutrule.Top, Value: 100, Percent: true}, "top=100%"},
+		{"base", cutrule.Rule{Kind: cutrule.Base}, "base"},
+		{"Cost", cutrule.Rule{Kind: cutrule.Cost}, "cost"},
+		{"queue=90", cutrule.Rule{Kind: cutrule.Queue, Value: 90}, "queue=90"},
+		{"queue=0", cutrule.Rule{Kind: cutrule.Queue}, "queue=0"},
+		{"queue=12.5", cutrule.Rule{Kind: cutrule.Queue, Value: 12.5}, "queue=12.5"},
+	}
+	for _, tc := range cases {
+		got, err := cutrule.Parse(tc.text)
+		if err != nil {
+			t.Errorf("Parse(%q): %v", tc.text, err)
+			continue
+		}
+		if got != tc.want {
+			t.Errorf("Parse(%q) = %+v, want %+v", tc.text, got, tc.want)
+		}
+		if s := got.String(); s != tc.canonical {
+			t.Errorf("Parse(%q).String() = %q, want %q", tc.text, s, tc.canonical)
+		}
+		again, err := cutrule.Parse(got.String())
+		if err != nil || again != got {
+			t.Errorf("round trip of %q: %+v, %v", got.String(), again, err)
+		}
+	}
+}
+
+func TestParseRejects(t *testing.T) {
+	cases := []struct {
+		text, why string
+	}{
+		{"hit=1.2", "expected a share in [0,1]"},
+		{"hit=-0.1", "expected a share in [0,1]"},
+		{"wrong=2", "expected a share in [0,1]"},
+		{"wrong=-0", ""}, // -0 is 0: accepted; see below
+		{"top=0", "expected a whole number of rows, at least 1"},
+		{"top=2.5", "expected a whole number of rows, at least 1"},
+		{"top=-1", "expected a whole number of rows, at least 1"},
+		{"top=150%", "expected a percentage in (0,100]"},
+		{"top=0%", "expected a percentage in (0,100]"},
+		{"top=%", `"" is not a finite number`},
+		{"queue=-1", "expected a queue size of at least 0"},
+		{"base=3", "base takes no value"},
+		{"cost=1", "cost takes no value"},
+		{"hit", "hit needs a value after '='"},
+		{"hit=", "hit needs a value after '='"},
+		{"hit=abc", `"abc" is not a finite number`},
+		{"hit=NaN", `"NaN" is not a finite number`},
+		{"score=Inf", `"Inf" is not a finite number`},
+		{"recall=0.8", "expected one of score=V, top=N, top=P%, hit=R, wrong=F, base, queue=K, cost"},
+		{"", "expected one of score=V, top=N, top=P%, hit=R, wrong=F, base, queue=K, cost"},
+		{"=0.5", "expected one of score=V, top=N, top=P%, hit=R, wrong=F, base, queue=K, cost"},
+	}
+	for _, tc := range cases {
+		_, err := cutrule.Parse(tc.text)
+		if tc.why == "" {
+			if err != nil {
+				t.Errorf("Parse(%q): %v, want it accepted", tc.text, err)
+			}
+			continue
+		}
+		if !errors.Is(err, cutrule.ErrMalformed) {
+			t.Errorf("Parse(%q) = %v, want ErrMalformed", tc.text, err)
+			continue
+		}
+		// The message quotes the spec as given and says what was expected.
+		want := `malformed cut spec "` + tc.text + `": ` + tc.why
+		if err.Error() != want {
+			t.Errorf("Parse(%q) message\n got %s\nwant %s", tc.text, err, want)
+		}
+	}
+}
+
+// The hand-built example of this file: ten cases ranked riskiest first,
+// P = 4 true (T), N = 6 false (F), validation base rate 0.4.
+//
+//	cut  score  rows  tp fp fn tn  recall  FDR    flagged share  fpr
+//	c0   0.95    1    1  0  3  6   0.25    0      0.1            0
+//	c1   0.90    2    2  0  2  6   0.50    0      0.2            0
+//	c2   0.80    3    2  1  2  5   0.50    1/3    0.3            1/6
+//	c3   0.70    5    3  2  1  4   0.75    0.4    0.5            2/6   (tie: 0.70 T and 0.70 F)
+//	c4   0.60    6    3  3  1  3   0.75    0.5    0.6            3/6
+//	c5   0.50    7    4  3  0  3   1       3/7    0.7            3/6
+//	c6   0.40    8    4  4  0  2   1       0.5    0.8            4/6
+//	c7   0.30    9    4  5  0  1   1       5/9    0.9            5/6
+//	c8   0.20   10    4  6  0  0   1       0.6    1              1
+var (
+	handScores = []float64{0.30, 0.95, 0.70, 0.20, 0.90, 0.60, 0.70, 0.40, 0.80, 0.50}
+	handLabels = []bool{false, true, false, false, true, false, true, false, false, true}
+)
+
+func handCurve(t *testing.T, weights []float64, lowerIsRiskier bool, values []float64) *curve.Curve {
+	t.Helper()
+	if values == nil {
+		values = handScores
+	}
+	set, err := scores.New(slices.Clone(values), slices.Clone(handLabels), slices.Clone(weights), lowerIsRiskier)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return curve.New(set)
+}
+
+// validationBase is the assumptions with the validation base rate and no
+// volume or costs.
+var validationBase = projection.Assumptions{BaseRate: 0.4, Confidence: 0.95}
+
+type want struct {
+	spec  string
+	score float64 // the cut picked; NaN means unmet
+	why   string  // the reason when unmet
+}
+
+func checkOutcomes(t *testing.T, c *curve.Curve, a projection.Assumptions, wants []want) {
+	t.Helper()
+	rules := make([]cutrule.Rule, len(wants))
+	for i, w := range wants {
+		r, err := cutrule.Parse(w.spec)
+		if err != nil {
+			t.Fatal(err)
+		}
+		rules[i] = r
+	}
+	outcomes, err := cutrule.Find(rules, c, a)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(outcomes) != len(wants) {
+		t.Fatalf("%d outcomes for %d rules", len(outcomes), len(wants))
+	}
+	for i, w := range wants {
+		o := outcomes[i]
+		if o.Rule != rules[i] {
+			t.Errorf("%s: outcome %d is for %v", w.spec, i, o.Rule)
+		}
+		if math.IsNaN(w.score) {
+			if o.Met {
+				t.Errorf("%s: met at score %v, want unmet (%s)", w.spec, o.Point.Score, w.why)
+				continue
+			}
+			if o.Reason != w.why {
+				t.Errorf("%s: reason\n got %s\nwant %s", w.spec, o.Reason, w.why)
+			}
+			if o.Point != (curve.Point{}) {
+				t.Errorf("%s: unmet outcome carries a point %+v", w.spec, o.Point)
+			}
+			continue
+		}
+		if !o.Met {
+			t.Errorf("%s: unmet (%s), want score %v", w.spec, o.Reason, w.score)
+			continue
+		}
+		if o.Point.Score != w.score || o.Reason != "" {
+			t.Errorf("%s: score %v reason %q, want %v", w.spec, o.Point.Score, o.Reason, w.score)
+		}
+		if fig := projection.Project(o.Point, a); !near(fig.AlertRate, o.Projected.AlertRate) {
+			t.Errorf("%s: projected figures %+v do not match the point's %+v", w.spec, o.Projected, fig)
+		}
+	}
+}
+
+var unmet = math.NaN()
+
+// TestFindHandExample applies every rule to the hand-built example; each
+// answer is worked out from the table above.
+func TestFindHandExample(t *testing.T) {
+	c := handCurve(t, nil, false, nil)
+	checkOutcomes(t, c, validationBase, []want{
+		// The three starting points, rules of thumb from common practice
+		// (no source):
+		// base: flagged share <= 0.4 holds at c0-c2 (0.1, 0.2, 0.3), not
+		// at c3 (0.5): the deepest is c2.
+		{"base", 0.80, ""},
+		// hit=0.8: recall first reaches 0.8 at c5 (1.0).
+		{"hit=0.8", 0.50, ""},
+		// wrong=0.333: c2's FDR is 1/3 = 0.3333... > 0.333, and every cut
+		// from c3 on is above it too, so the deepest is c1 (FDR 0).
+		{"wrong=0.333", 0.90, ""},
+
+		// wrong=0.34 admits c2 (1/3) but nothing deeper (0.4 and up).
+		{"wrong=0.34", 0.80, ""},
+		// wrong=0.45: c4 (0.5) fails but c5 (3/7 = 0.4286) holds again:
+		// the deepest cut that meets the rule, not the first to break it.
+		{"wrong=0.45", 0.50, ""},
+		{"wrong=0", 0.90, ""},
+		{"wrong=1", 0.20, ""},
+
+		// hit: the strictest cut whose recall is >= R.
+		{"hit=0", 0.95, ""},
+		{"hit=0.25", 0.95, ""},
+		{"hit=0.5", 0.90, ""},
+		{"hit=0.6", 0.70, ""},
+		{"hit=0.75", 0.70, ""},
+		{"hit=1", 0.50, ""},
+
+		// score=V: the smallest data score >= V.
+		{"score=0.8", 0.80, ""},
+		{"score=0.75", 0.80, ""}, // between 0.70 and 0.80
+		{"score=0.7", 0.70, ""},  // the tie group at 0.70, both rows flagged
+		{"score=0.1", 0.20, ""},  // below every score: the loosest cut
+		{"score=0.96", unmet, "no score is at or beyond 0.96; the riskiest is 0.95"},
+
+		// top=N counts rows; the tie at 0.70 moves two rows at once.
+		{"top=1", 0.95, ""},
+		{"top=3", 0.80, ""},
+		{"top=4", 0.80, ""}, // c3 flags 5 rows
+		{"top=5", 0.70, ""},
+		{"top=100", 0.20, ""},
+		{"top=50%", 0.70, ""}, // 5 of 10 rows
+		{"top=45%", 0.80, ""}, // 4.5 rows: at most 4, so c2 (3 rows)
+		{"top=30%", 0.80, ""}, // 3 rows exactly
+		{"top=5%", unmet, "the strictest cut already flags 1 row (score 0.95)"},
+	})
+}
+
+// TestFindTopCountsRows checks that top= counts validation rows, never
+// weight: the first row weighs 10 of 13, yet top=2 still flags 2 rows.
+func TestFindTopCountsRows(t *testing.T) {
+	set, err := scores.New([]float64{0.9, 0.8, 0.7, 0.6}, []bool{true, false, false, true}, []float64{10, 1, 1, 1}, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	c := curve.New(set)
+	a := projection.Assumptions{BaseRate: 11.0 / 13, Confidence: 0.95}
+	checkOutcomes(t, c, a, []want{
+		{"top=2", 0.8, ""},
+		{"top=50%", 0.8, ""}, // 2 of 4 rows; by weight 0.9 alone would be 77%
+		{"top=25%", 0.9, ""},
+	})
+
+	// A strictest tie group larger than N: top= flags nothing and is unmet.
+	set, err = scores.New([]float64{0.9, 0.9, 0.9, 0.1}, []bool{true, false, true, false}, nil, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	checkOutcomes(t, curve.New(set), projection.Assumptions{BaseRate: 0.5, Confidence: 0.95}, []want{
+		{"top=2", unmet, "the strictest cut already flags 3 rows (tied at score 0.9)"},
+		{"top=3", 0.9, ""},
+	})
+}
+
+// TestFindProjected checks the operating rules under a production base
+// rate of 0.1 with 100 cases per shift. By hand, alert rate = r*0.1 +
+// fpr*0.9 and queue = 100 * alert rate:
+//
+//	c0: 0.025 + 0      = 0.025  queue  2.5  precision 1
+//	c1: 0.05  + 0      = 0.05   queue  5    precision 1
+//	c2: 0.05  + 0.15   = 0.2    queue 20    precision 0.25
+//	c3: 0.075 + 0.3    = 0.375  queue 37.5  precision 0.2
+//	c5: 0.1   + 0.45   = 0.55   queue 55
+func TestFindProjected(t *testing.T) {
+	c := handCurve(t, nil, false, nil)
+	a := projection.Assumptions{BaseRate: 0.1, Volume: 100, Confidence: 0.95}
+	checkOutcomes(t, c, a, []want{
+		{"base", 0.90, ""},        // 0.05 <= 0.1 < 0.2
+		{"wrong=0.333", 0.90, ""}, // c2's projected FDR is 0.75
+		{"wrong=0.8", 0.70, ""},   // c3's projected FDR 0.8 is within (slack), c4 0.857 is not
+		{"hit=0.8", 0.50, ""},     // recall does not depend on the base rate
+		{"queue=20", 0.80, ""},
+		{"queue=37.5", 0.70, ""}, // exactly at the limit
+		{"queue=37", 0.80, ""},
+		{"queue=2.5", 0.95, ""},
+		{"queue=2", unmet, "the strictest cut already queues 2.5 alerts per shift, above 2"},
+		{"score=0.75", 0.80, ""}, // the ranked list does not depend on the base rate
+		{"top=3", 0.80, ""},
+	})
+	a.BaseRate = 0.01
+	checkOutcomes(t, c, a, []want{
+		// c0's alert rate 0.0025 is within 0.01; c1's 0.005 too; c2's
+		// 0.0050 + 0.165 is not.
+		{"base", 0.90, ""},
+	})
+	a.BaseRate = 0.001
+	checkOutcomes(t, c, a, []want{
+		// c0: 0.25*0.001 = 0.00025 <= 0.001, c1: 0.0005, c2: 0.0005 + 0.1665.
+		{"base", 0.90, ""},
+	})
+	// With no volume the projected queue is undefined; queue= is refused.
+	_, err := cutrule.Find([]cutrule.Rule{{Kind: cutrule.Queue, Value: 10}}, c, validationBase)
+	if !errors.Is(err, cutrule.ErrNeedsVolume) || err.Error() != "cut queue=10 needs a volume per shift (--volume)" {
+		t.Errorf("queue without volume: %v", err)
+	}
+}
+
+// TestFindBaseUnmet checks base's reason when even the strictest cut
+// flags more than the base rate: at base rate 0.01 with the only false
+// case on top, the strictest cut's alert rate is fpr 1 * 0.99 = 99%.
+func TestFindBaseUnmet(t *testing.T) {
+	set, err := scores.New([]float64{0.9, 0.8}, []bool{false, true}, nil, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	c := curve.New(set)
+	checkOutcomes(t, c, projection.Assumptions{BaseRate: 0.01, Confidence: 0.95}, []want{
+		{"base", unmet, "the strictest cut already flags 99.0%, above the base rate 1.0%"},
+		{"wrong=0.1", unmet, "every cut has a wrong-alert share above 0.1; the strictest has 100.0%"},
+		{"hit=1", 0.8, ""},
+	})
+}
+
+// TestFindCost checks cost on the hand example with volume 100 and the
+// validation base rate. Cost per case = (2*fp + 3*fn) / 10 with a wrong
+// alert costing 2 and a miss 3:
+//
+//	c0 (0,3) 0.9  c1 (0,2) 0.6  c2 (1,2) 0.8  c3 (2,1) 0.7  c4 (3,1) 0.9
+//	c5 (3,0) 0.6  c6 (4,0) 0.8  c7 (5,0) 1.0  c8 (6,0) 1.2
+//
+// c1 and c5 tie at 0.6; cost takes the strictest, c1. The two costs come
+// from different terms (0.2*3 and 0.3*2), which differ in the last bit, so
+// the tie is only seen with the package's slack.
+func TestFindCost(t *testing.T) {
+	c := handCurve(t, nil, false, nil)
+	a := validationBase
+	a.Volume = 100
+	a.Costs = &projection.Costs{FalseAlert: 2, Miss: 3}
+	outcomes, err := cutrule.Find([]cutrule.Rule{{Kind: cutrule.Cost}}, c, a)
+	if err != nil {
+		t.Fatal(err)
+	}
+	o := outcomes[0]
+	if !o.Met || o.Point.Score != 0.90 {
+		t.Fatalf("cost: met %v at %v, want the strictest of the tie, 0.90", o.Met, o.Point.Score)
+	}
+	if !near(o.Projected.CostPerShift, 60) || !near(o.Projected.CostPerCase, 0.6) {
+		t.Errorf("cost per shift %v per case %v, want 60 and 0.6", o.Projected.CostPerShift, o.Projected.CostPerCase)
+	}
+
+	// A benefit for each hit (-4) moves the least cost deeper:
+	// cost = (-4*tp + 2*fp + 3*fn) / 10: c1 -0.2, c3 -0.5, c5 -1.0,
+	// c6 -0.8: c5.
+	a.Costs = &projection.Costs{FalseAlert: 2, Miss: 3, Hit: -4}
+	checkOutcomes(t, c, a, []want{{"cost", 0.50, ""}})
+
+	// Cost works without a volume: the cut of least cost per case.
+	a.Volume = 0
+	checkOutcomes(t, c, a, []want{{"cost", 0.50, ""}})
+
+	// Without any cost it is refused.
+	_, err = cutrule.Find([]cutrule.Rule{{Kind: cutrule.Cost}}, c, validationBase)
+	if !errors.Is(err, cutrule.ErrNeedsCosts) || err.Error() != "cut cost needs at least one cost (--cost-false-alert, --cost-miss or --cost-hit)" {
+		t.Errorf("cost without costs: %v", err)
+	}
+}
+
+// TestFindLowerIsRiskier runs the hand example with every score replaced
+// by 1-score and the direction flipped: the same cuts are picked, at the
+// mirrored scores, and score=V takes the largest data score <= V.
+func TestFindLowerIsRiskier(t *testing.T) {
+	mirrored := []float64{0.70, 0.05, 0.30, 0.80, 0.10, 0.40, 0.30, 0.60, 0.20, 0.50}
+	c := handCurve(t, nil, true, mirrored)
+	checkOutcomes(t, c, validationBase, []want{
+		{"base", 0.20, ""},
+		{"hit=0.8", 0.50, ""},
+		{"wrong=0.333", 0.10, ""},
+		{"score=0.25", 0.20, ""}, // the largest data score <= 0.25
+		{"score=0.3", 0.30, ""},
+		{"score=0.9", 0.80, ""},
+		{"score=0.01", unmet, "no score is at or beyond 0.01; the riskiest is 0.05"},
+		{"top=4", 0.20, ""},
+	})
+}
+
+// TestFindOneClassAndEmpty checks the reasons given when a class is
+// missing or the set is empty.
+func TestFindOneClassAndEmpty(t *testing.T) {
+	set, err := scores.New([]float64{0.9, 0.4}, []bool{false, false}, nil, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	checkOutcomes(t, curve.New(set), projection.Assumptions{BaseRate: 0, Confidence: 0.95}, []want{
+		{"hit=0.5", unmet, "the validation set has no true cases, so hit share is undefined"},
+		{"wrong=0.5", unmet, "the validation set has no true cases, so every alert is wrong"},
+		{"score=0.5", 0.9, ""},
+		{"top=1", 0.9, ""},
+	})
+
+	// With a production base rate above 0 the missing true cases leave
+	// the projected cost undefined at every cut: cost is unmet.
+	a := projection.Assumptions{BaseRate: 0.5, Confidence: 0.95, Costs: &projection.Costs{FalseAlert: 1, Miss: 1}}
+	checkOutcomes(t, curve.New(set), a, []want{
+		{"cost", unmet, "the projected cost is undefined: the validation set lacks a class that the production base rate needs"},
+	})
+
+	empty, err := scores.New(nil, nil, nil, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	checkOutcomes(t, curve.New(empty), projection.Assumptions{BaseRate: 0, Confidence: 0.95}, []want{
+		{"base", unmet, "the set has no rows"},
+		{"hit=0.8", unmet, "the set has no rows"},
+		{"top=5", unmet, "the set has no rows"},
+	})
+}
+
+// TestDefaults checks the starting points: base, hit=0.8, wrong=0.333
+// (rules of thumb from common practice, no source), then queue=capacity
+// with a capacity and a volume, then cost with costs.
+func TestDefaults(t *testing.T) {
+	specs := func(rules []cutrule.Rule) string {
+		var s []string
+		for _, r := range rules {
+			s = append(s, r.String())
+		}
+		return strings.Join(s, " ")
+	}
+	cases := []struct {
+		a    projection.Assumptions
+		want string
+	}{
+		{projection.Assumptions{}, "base hit=0.8 wrong=0.333"},
+		{projection.Assumptions{Capacity: 90}, "base hit=0.8 wrong=0.333"}, // no volume: no queue
+		{projection.Assumptions{Capacity: 90, Volume: 1500}, "base hit=0.8 wrong=0.333 queue=90"},
+		{projection.Assumptions{Costs: &projection.Costs{Miss: 1}}, "base hit=0.8 wrong=0.333 cost"},
+		{projection.Assumptions{Capacity: 90, Volume: 1500, Costs: &projection.Costs{}}, "base hit=0.8 wrong=0.333 queue=90 cost"},
+	}
+	for _, tc := range cases {
+		if got := specs(cutrule.Defaults(tc.a)); got != tc.want {
+			t.Errorf("Defaults(%+v) = %s, want %s", tc.a, got, tc.want)
+		}
+	}
+}
+
+// TestFinderStreams checks that a Finder fed by curve.Walk gives the same
+// outcomes as Find on the stored curve.
+func TestFinderStreams(t *testing.T) {
+	c := handCurve(t, nil, false, nil)
+	a := validationBase
+	a.Volume, a.Costs = 100, &projection.Costs{FalseAlert: 1, Miss: 5}
+	rules := []cutrule.Rule{{Kind: cutrule.Base}, {Kind: cutrule.Hit, Value: 0.6}, {Kind: cutrule.Cost}, {Kind: cutrule.Queue, Value: 45}}
+	stored, err := cutrule.Find(rules, c, a)
+	if err != nil {
+		t.Fatal(err)
+	}
+	f, err := cutrule.NewFinder(rules, c.Set, a)
+	if err != nil {
+		t.Fatal(err)
+	}
+	curve.Walk(c.Set, f.Visit)
+	for i, o := range f.Outcomes() {
+		if o.Point != stored[i].Point || o.Met != stored[i].Met {
+			t.Errorf("%v: streamed %+v, stored %+v", rules[i], o.Point, stored[i].Point)
+		}
+	}
+}
