@@ -1,8 +1,11 @@
 package main
 
 import (
+	"fmt"
+
 	"github.com/spf13/pflag"
 
+	"github.com/sill-tool/sill/internal/calibration"
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/projection"
@@ -14,11 +17,15 @@ import (
 // beyondFlags are report's flags for the figures beyond the averages:
 // segments, shift peaks, stability, calibration and two models.
 type beyondFlags struct {
-	segmentOrder string
+	segmentOrder       string
+	calibrationBins    int
+	calibrationBinning string
 }
 
 func (f *beyondFlags) register(fs *pflag.FlagSet) {
 	fs.StringVar(&f.segmentOrder, "segment-order", "size", "order of the segments under each cut: size, gap (furthest from overall first) or name")
+	fs.IntVar(&f.calibrationBins, "calibration-bins", 10, "bins of the reliability table (scores in [0,1] only)")
+	fs.StringVar(&f.calibrationBinning, "calibration-binning", "width", "reliability bins: width (equal width) or quantile (equal rows)")
 }
 
 // prepare sets the reading options these flags need before the set is read.
@@ -32,9 +39,17 @@ func (f *beyondFlags) check() error {
 	if f.segmentOrder == "" {
 		f.segmentOrder = "size"
 	}
-	_, err := segment.ParseOrder(f.segmentOrder)
-	if err != nil {
+	if f.calibrationBins == 0 && f.calibrationBinning == "" {
+		f.calibrationBins, f.calibrationBinning = 10, "width"
+	}
+	if _, err := segment.ParseOrder(f.segmentOrder); err != nil {
 		return flagValueError("--segment-order", err)
+	}
+	if _, err := calibration.ParseBinning(f.calibrationBinning); err != nil {
+		return flagValueError("--calibration-binning", err)
+	}
+	if f.calibrationBins < 1 || f.calibrationBins > 1000 {
+		return fmt.Errorf("--calibration-bins %d: expected a number of bins from 1 to 1000", f.calibrationBins)
 	}
 	return nil
 }
@@ -46,6 +61,13 @@ func (f *beyondFlags) apply(r *report.Report, set *scores.Set, sum curve.Summary
 		return flagValueError("--segment-order", err)
 	}
 	r.AddSegments(set, outcomes, order)
+	binning, err := calibration.ParseBinning(f.calibrationBinning)
+	if err != nil {
+		return flagValueError("--calibration-binning", err)
+	}
+	if err := r.AddCalibration(set, outcomes, f.calibrationBins, binning, a); err != nil {
+		return fmt.Errorf("--calibration-bins: %w", err)
+	}
 	return nil
 }
 

@@ -3,9 +3,11 @@ package report_test
 import (
 	"bytes"
 	"encoding/json"
+	"math"
 	"strings"
 	"testing"
 
+	"github.com/sill-tool/sill/internal/calibration"
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/projection"
@@ -83,5 +85,43 @@ func TestSegmentsInJSONAndText(t *testing.T) {
 	}
 	if !strings.Contains(text.String(), "segments (seg) at score=0.8, cut 0.8") {
 		t.Errorf("text lacks the segment section:\n%s", text.String())
+	}
+}
+
+func TestCalibrationInJSON(t *testing.T) {
+	r, set, outcomes, a := beyondReport(t, "score=0.8", "score=5")
+	a.Costs = &projection.Costs{FalseAlert: 1, Miss: 4}
+	if err := r.AddCalibration(set, outcomes, 2, calibration.FixedWidth, a); err != nil {
+		t.Fatal(err)
+	}
+	out := decode(t, r)
+	cal := out["calibration"].(map[string]any)
+	bins := cal["bins"].([]any)
+	// Two bins: [0,0.5] holds 0.5,0.4,0.3 (1 true of 3, mean 0.4); (0.5,1]
+	// holds 0.9,0.8,0.8,0.7,0.6 (3 true of 5, mean 0.76). ECE =
+	// (3*|1/3-0.4| + 5*|0.6-0.76|)/8 = (0.2+0.8)/8 = 0.125. Hand-worked.
+	if len(bins) != 2 || bins[0].(map[string]any)["count"] != 3.0 {
+		t.Fatalf("bins %v", bins)
+	}
+	for _, key := range []string{"lower", "upper", "mean_score", "observed_rate", "count"} {
+		if _, ok := bins[1].(map[string]any)[key]; !ok {
+			t.Errorf("bin lacks %q", key)
+		}
+	}
+	if ece := cal["ece"].(float64); math.Abs(ece-0.125) > 1e-12 {
+		t.Errorf("ece %v, want 0.125", ece)
+	}
+	// Elkan: 1/(1+4) = 0.2, at the validation base rate 0.5 as production's.
+	if ct := cal["cost_threshold"].(float64); math.Abs(ct-0.2) > 1e-12 {
+		t.Errorf("cost threshold %v, want 0.2", ct)
+	}
+	cuts := out["cuts"].([]any)
+	// Net benefit at cut 0.8: TP 2, FP 1 of 8 cases, pt 0.8 (odds 4):
+	// 2/8 - 1/8*4 = -0.25. Hand-worked.
+	if nb := cuts[0].(map[string]any)["net_benefit"].(float64); math.Abs(nb+0.25) > 1e-12 {
+		t.Errorf("net benefit %v, want -0.25", nb)
+	}
+	if nb, ok := cuts[1].(map[string]any)["net_benefit"]; !ok || nb != nil {
+		t.Errorf("unmet cut net benefit %v %v, want null", nb, ok)
 	}
 }

@@ -33,11 +33,15 @@ type Report struct {
 	Warnings         []string    `json:"warnings"`
 	Caution          string      `json:"caution"`
 
+	// Added by the Add methods in beyond.go.
+	Calibration *calibrationFigures `json:"calibration,omitempty"`
+
 	// baseRateGiven reports whether the production base rate differs from
 	// the validation one, for the text forms.
 	baseRateGiven bool
 	cutsEvidence  []evidence.Cut
 	sections      []section // added by the Add methods in beyond.go
+	beyond        beyondState
 }
 
 type assumptions struct {
@@ -69,7 +73,8 @@ type cut struct {
 	FalsePositiveRate  number    `json:"false_positive_rate"`
 	Projected          projected `json:"projected"`
 
-	Segments []segmentFigures `json:"segments,omitempty"` // with a segment column; see beyond.go
+	Segments   []segmentFigures `json:"segments,omitempty"` // with a segment column; see beyond.go
+	NetBenefit *number          `json:"net_benefit"`        // null unless AddCalibration ran on probabilities
 }
 
 type projected struct {
