@@ -14,6 +14,9 @@
 //	base       the deepest cut whose alert rate does not exceed the base rate
 //	queue=K    the deepest cut whose queue per shift is <= K (needs a volume)
 //	cost       the cut of least cost, the strictest among equals (needs costs)
+//	queue90=K  the deepest cut at which 9 shifts in 10 of the validation
+//	           period queue at most K alerts (needs case times and a shift
+//	           schedule, WithShifts; see package shift)
 //
 // score= and top= concern the ranked list and count rows, never weight.
 // The other rules use the projected production figures (package
@@ -33,6 +36,7 @@ import (
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
+	"github.com/sill-tool/sill/internal/shift"
 )
 
 // Kind says which rule a spec is.
@@ -47,9 +51,10 @@ const (
 	Base
 	Queue
 	Cost
+	Queue90
 )
 
-var kindNames = [...]string{Score: "score", Top: "top", Hit: "hit", Wrong: "wrong", Base: "base", Queue: "queue", Cost: "cost"}
+var kindNames = [...]string{Score: "score", Top: "top", Hit: "hit", Wrong: "wrong", Base: "base", Queue: "queue", Cost: "cost", Queue90: "queue90"}
 
 // Rule is a parsed cut spec.
 type Rule struct {
@@ -63,6 +68,7 @@ var (
 	ErrMalformed   = errors.New("malformed cut spec")
 	ErrNeedsVolume = errors.New("needs a volume per shift (--volume)")
 	ErrNeedsCosts  = errors.New("needs at least one cost (--cost-false-alert, --cost-miss or --cost-hit)")
+	ErrNeedsShifts = errors.New("needs case times and a shift schedule (--time and --shifts)")
 )
 
 // slack is the relative tolerance of every comparison with a rule's value.
@@ -84,7 +90,7 @@ func Parse(text string) (Rule, error) {
 		}
 	}
 	if kind < 0 {
-		return bad("expected one of score=V, top=N, top=P%, hit=R, wrong=F, base, queue=K, cost")
+		return bad("expected one of score=V, top=N, top=P%, hit=R, wrong=F, base, queue=K, queue90=K, cost")
 	}
 	r := Rule{Kind: Kind(kind)}
 	if r.Kind == Base || r.Kind == Cost {
@@ -112,7 +118,7 @@ func Parse(text string) (Rule, error) {
 		return bad("expected a percentage in (0,100]")
 	case r.Kind == Top && !r.Percent && !(v >= 1 && v == math.Trunc(v)):
 		return bad("expected a whole number of rows, at least 1")
-	case r.Kind == Queue && !(v >= 0):
+	case (r.Kind == Queue || r.Kind == Queue90) && !(v >= 0):
 		return bad("expected a queue size of at least 0")
 	}
 	return r, nil
@@ -180,11 +186,48 @@ type Finder struct {
 	seen         bool
 	first        curve.Point
 	firstFigures projection.Figures
+
+	// For queue90=K: the shifts of the set's rows, and per rule a counter
+	// of the shift queues (nil for other rules).
+	shifts    *shift.Assignment
+	scale     shift.Scale
+	counters  []*shift.Counter
+	firstP90  []float64
+	rowsAdded int
+}
+
+// Option adjusts a Finder.
+type Option func(*Finder)
+
+// WithShifts gives a Finder the shifts of the set's rows and the scale of
+// their queues, which queue90=K needs.
+func WithShifts(a shift.Assignment, scale shift.Scale) Option {
+	return func(f *Finder) { f.shifts, f.scale = &a, scale }
 }
 
 // NewFinder checks that the assumptions suit the rules and returns a
 // Finder for points of set.
-func NewFinder(rules []Rule, set *scores.Set, a projection.Assumptions) (*Finder, error) {
+func NewFinder(rules []Rule, set *scores.Set, a projection.Assumptions, opts ...Option) (*Finder, error) {
+	f := &Finder{rules: rules, set: set, a: a, found: make([]bool, len(rules)), best: make([]Outcome, len(rules))}
+	for _, o := range opts {
+		o(f)
+	}
+	for i, r := range rules {
+		if r.Kind != Queue90 {
+			continue
+		}
+		if f.shifts == nil {
+			return nil, fmt.Errorf("cut %s %w", r, ErrNeedsShifts)
+		}
+		if len(f.shifts.Of) != set.Len() {
+			panic(fmt.Sprintf("cutrule: shifts of %d rows for a set of %d", len(f.shifts.Of), set.Len()))
+		}
+		if f.counters == nil {
+			f.counters = make([]*shift.Counter, len(rules))
+			f.firstP90 = make([]float64, len(rules))
+		}
+		f.counters[i] = f.shifts.NewCounter(f.scale, r.Value)
+	}
 	for _, r := range rules {
 		if r.Kind == Queue && !(a.Volume > 0) {
 			return nil, fmt.Errorf("cut %s %w", r, ErrNeedsVolume)
@@ -193,7 +236,6 @@ func NewFinder(rules []Rule, set *scores.Set, a projection.Assumptions) (*Finder
 			return nil, fmt.Errorf("cut %s %w", r, ErrNeedsCosts)
 		}
 	}
-	f := &Finder{rules: rules, set: set, a: a, found: make([]bool, len(rules)), best: make([]Outcome, len(rules))}
 	for i, r := range rules {
 		f.best[i].Rule = r
 	}
@@ -203,8 +245,22 @@ func NewFinder(rules []Rule, set *scores.Set, a projection.Assumptions) (*Finder
 // Visit considers the next point; points must come strictest first.
 func (f *Finder) Visit(p curve.Point) {
 	fig := projection.Project(p, f.a)
+	if f.counters != nil {
+		for ; f.rowsAdded < p.Rows; f.rowsAdded++ {
+			for _, c := range f.counters {
+				if c != nil {
+					c.Add(f.rowsAdded, f.set.Labels[f.rowsAdded], f.set.Weight(f.rowsAdded))
+				}
+			}
+		}
+	}
 	if !f.seen {
 		f.seen, f.first, f.firstFigures = true, p, fig
+		for i, c := range f.counters {
+			if c != nil {
+				f.firstP90[i] = c.P90()
+			}
+		}
 	}
 	for i, r := range f.rules {
 		keep := false
@@ -230,6 +286,8 @@ func (f *Finder) Visit(p curve.Point) {
 			// of equal costs stays; an undefined cost never wins.
 			best := f.best[i].Projected.CostPerCase
 			keep = !math.IsNaN(fig.CostPerCase) && (!f.found[i] || fig.CostPerCase < best-slack*math.Abs(best))
+		case Queue90:
+			keep = f.counters[i].Within()
 		}
 		if keep {
 			f.found[i] = true
@@ -247,6 +305,9 @@ func (f *Finder) Outcomes() []Outcome {
 			continue
 		}
 		out[i] = Outcome{Rule: r, Reason: f.reason(r)}
+		if r.Kind == Queue90 && f.seen {
+			out[i].Reason = fmt.Sprintf("at the strictest cut 9 shifts in 10 already queue up to %.1f alerts, above %v", f.firstP90[i], r.Value)
+		}
 	}
 	return out
 }

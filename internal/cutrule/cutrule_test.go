@@ -90,9 +90,9 @@ func TestParseRejects(t *testing.T) {
 		{"hit=abc", `"abc" is not a finite number`},
 		{"hit=NaN", `"NaN" is not a finite number`},
 		{"score=Inf", `"Inf" is not a finite number`},
-		{"recall=0.8", "expected one of score=V, top=N, top=P%, hit=R, wrong=F, base, queue=K, cost"},
-		{"", "expected one of score=V, top=N, top=P%, hit=R, wrong=F, base, queue=K, cost"},
-		{"=0.5", "expected one of score=V, top=N, top=P%, hit=R, wrong=F, base, queue=K, cost"},
+		{"recall=0.8", "expected one of score=V, top=N, top=P%, hit=R, wrong=F, base, queue=K, queue90=K, cost"},
+		{"", "expected one of score=V, top=N, top=P%, hit=R, wrong=F, base, queue=K, queue90=K, cost"},
+		{"=0.5", "expected one of score=V, top=N, top=P%, hit=R, wrong=F, base, queue=K, queue90=K, cost"},
 	}
 	for _, tc := range cases {
 		_, err := cutrule.Parse(tc.text)

@@ -1,0 +1,71 @@
+package cutrule_test
+
+import (
+	"errors"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/projection"
+	"github.com/sill-tool/sill/internal/scores"
+	"github.com/sill-tool/sill/internal/shift"
+)
+
+// TestQueue90HandWorked: shifts at 00:00 and 12:00 UTC over two days (four
+// shifts), ten rows with scores 10..1 (ranked as given). As the cut
+// loosens row by row the shift queues grow: after 3 rows (3,0,0,0), after
+// 6 (3,1,0,2), after 9 (3,1,2,3), after 10 (3,1,2,4). The nearest-rank
+// 90th percentile of four shifts is the largest, so it stays 3 until the
+// tenth row. Hand-worked: queue90=3 gives the cut at score 2 (9 rows),
+// queue90=2 the cut at score 9 (2 rows), queue90=0.5 is unmet because the
+// strictest cut already has a shift of 1.
+func TestQueue90HandWorked(t *testing.T) {
+	sc := []float64{10, 9, 8, 7, 6, 5, 4, 3, 2, 1}
+	labels := []bool{true, false, true, false, true, false, false, true, false, false}
+	set, err := scores.New(sc, labels, nil, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	base := time.Date(2026, 9, 1, 0, 0, 0, 0, time.UTC).Unix()
+	for _, h := range []int64{1, 2, 3, 13, 37, 38, 25, 26, 40, 47} {
+		set.Times = append(set.Times, base+h*3600)
+	}
+	sched, _ := shift.ParseSchedule("00:00,12:00", time.UTC)
+	assigned, err := shift.Assign(set, sched)
+	if err != nil {
+		t.Fatal(err)
+	}
+	a := projection.Assumptions{BaseRate: 0.4, Confidence: 0.95}
+	rules := []cutrule.Rule{{Kind: cutrule.Queue90, Value: 3}, {Kind: cutrule.Queue90, Value: 2}, {Kind: cutrule.Queue90, Value: 0.5}}
+	f, err := cutrule.NewFinder(rules, set, a, cutrule.WithShifts(assigned, shift.ScaleFor(set, assigned, a)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	curve.Walk(set, f.Visit)
+	out := f.Outcomes()
+	if !out[0].Met || out[0].Point.Score != 2 || out[0].Point.Rows != 9 {
+		t.Errorf("queue90=3: %+v", out[0])
+	}
+	if !out[1].Met || out[1].Point.Score != 9 {
+		t.Errorf("queue90=2: %+v", out[1])
+	}
+	if out[2].Met || !strings.Contains(out[2].Reason, "up to 1.0 alerts, above 0.5") {
+		t.Errorf("queue90=0.5: %+v", out[2])
+	}
+}
+
+func TestQueue90ParseAndNeeds(t *testing.T) {
+	r, err := cutrule.Parse("queue90=40")
+	if err != nil || r.Kind != cutrule.Queue90 || r.Value != 40 || r.String() != "queue90=40" {
+		t.Fatalf("%+v %v", r, err)
+	}
+	if _, err := cutrule.Parse("queue90=-1"); !errors.Is(err, cutrule.ErrMalformed) {
+		t.Errorf("negative: %v", err)
+	}
+	set, _ := scores.New([]float64{1, 2}, []bool{true, false}, nil, false)
+	if _, err := cutrule.NewFinder([]cutrule.Rule{r}, set, projection.Assumptions{Confidence: 0.95}); !errors.Is(err, cutrule.ErrNeedsShifts) {
+		t.Errorf("without shifts: %v", err)
+	}
+}
