@@ -128,9 +128,13 @@ func (o *reportOptions) run(set *scores.Set, stdout, stderr io.Writer) error {
 	return err
 }
 
-// runDefault runs when sill is called with no command: the report of the
-// built-in demo data.
+// runDefault runs when sill is called with no command: the explorer on the
+// built-in demo data when standard input and output are terminals, else
+// the report of the same data.
 func runDefault(cmd *cobra.Command) error {
+	if isTerminal() && cmd.OutOrStdout() == os.Stdout {
+		return exploreDemo()
+	}
 	var o reportOptions
 	o.format = "text"
 	fs := pflag.NewFlagSet("demo", pflag.ContinueOnError)

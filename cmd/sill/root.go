@@ -23,6 +23,7 @@ Run with no arguments to explore the built-in demo data.`,
 		},
 	}
 	root.AddCommand(newReportCmd(), newDemoCmd())
+	root.AddCommand(newExploreCmd())
 	return root
 }
 

@@ -1,0 +1,56 @@
+package tui
+
+import (
+	"flag"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/charmbracelet/x/ansi"
+)
+
+var update = flag.Bool("update", false, "rewrite the golden files under testdata")
+
+// checkGolden compares got with testdata/<Test>/<name>.golden, rewriting
+// the file under -update.
+func checkGolden(t *testing.T, name, got string) {
+	t.Helper()
+	top := strings.SplitN(t.Name(), "/", 2)[0]
+	path := filepath.Join("testdata", top, name+".golden")
+	if *update {
+		if err := os.MkdirAll(filepath.Dir(path), 0o755); err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(path, []byte(got), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return
+	}
+	want, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatalf("%v (run go test -update to create it)", err)
+	}
+	if string(want) != got {
+		t.Errorf("%s differs from the golden file; got:\n%s\nwant:\n%s", path, got, want)
+	}
+}
+
+// checkFrame asserts that frame is exactly width×height cells with no
+// escape codes left, then compares it with its golden file.
+func checkFrame(t *testing.T, name, frame string, width, height int) {
+	t.Helper()
+	if strings.Contains(frame, "\x1b") {
+		t.Errorf("frame holds escape codes with colour off")
+	}
+	lines := strings.Split(frame, "\n")
+	if len(lines) != height {
+		t.Errorf("frame has %d lines, want %d", len(lines), height)
+	}
+	for i, line := range lines {
+		if w := ansi.StringWidth(line); w != width {
+			t.Errorf("line %d is %d cells wide, want %d: %q", i+1, w, width, line)
+		}
+	}
+	checkGolden(t, name, frame+"\n")
+}

@@ -1,0 +1,86 @@
+package tui
+
+import "github.com/charmbracelet/bubbles/key"
+
+// KeyMap is every key the explorer takes, grouped as the help shows them.
+// Bindings that do not apply at the moment (a starting point the
+// assumptions do not allow, strip keys with no candidate pinned) are
+// disabled and drop out of the help.
+type KeyMap struct {
+	// Moving the cut
+	Up, Down         key.Binding // one cut stricter / looser
+	PageUp, PageDown key.Binding // a page of the ranked list
+	Top, Bottom      key.Binding // the strictest / loosest cut
+
+	// Starting points, in the order of cutrule.Defaults
+	BaseRate, Hit, Wrong, Capacity, LeastCost key.Binding
+
+	// Views and panes
+	CurveView key.Binding // cycle the chart between its views
+	Focus     key.Binding // move the keys between the ranked list and the strip
+
+	// Candidates
+	Pin       key.Binding // pin the cursor's cut
+	Left      key.Binding // select the candidate to the left
+	Right     key.Binding // select the candidate to the right
+	Jump      key.Binding // move the cursor to the selected candidate
+	Remove    key.Binding // unpin the selected candidate
+	MoveLeft  key.Binding // move the selected candidate one place left
+	MoveRight key.Binding // move the selected candidate one place right
+	Rename    key.Binding // rename the selected candidate
+	Choose    key.Binding // make the selected candidate the chosen one (the reference)
+
+	// Files, forms and help
+	Assumptions key.Binding // open the assumptions form
+	Write       key.Binding // write the decision file
+	Help        key.Binding // show or hide every key
+	Quit        key.Binding
+
+	// Inside forms and questions
+	NextField, PrevField key.Binding
+	Accept, Cancel       key.Binding
+	Yes, No              key.Binding
+}
+
+// DefaultKeyMap returns the explorer's keys. tui/KEYS.md lists them.
+func DefaultKeyMap() KeyMap {
+	return KeyMap{
+		Up:       key.NewBinding(key.WithKeys("up", "k"), key.WithHelp("↑/k", "stricter cut (one score up)")),
+		Down:     key.NewBinding(key.WithKeys("down", "j"), key.WithHelp("↓/j", "looser cut (one score down)")),
+		PageUp:   key.NewBinding(key.WithKeys("pgup", "ctrl+u"), key.WithHelp("pgup/ctrl+u", "a page stricter")),
+		PageDown: key.NewBinding(key.WithKeys("pgdown", "ctrl+d"), key.WithHelp("pgdn/ctrl+d", "a page looser")),
+		Top:      key.NewBinding(key.WithKeys("home", "g"), key.WithHelp("home/g", "strictest cut")),
+		Bottom:   key.NewBinding(key.WithKeys("end", "G"), key.WithHelp("end/G", "loosest cut (flag all)")),
+
+		BaseRate:  key.NewBinding(key.WithKeys("1"), key.WithHelp("1", "start: flag as many as the base rate")),
+		Hit:       key.NewBinding(key.WithKeys("2"), key.WithHelp("2", "start: hit share 80%")),
+		Wrong:     key.NewBinding(key.WithKeys("3"), key.WithHelp("3", "start: wrong-alert share 1/3")),
+		Capacity:  key.NewBinding(key.WithKeys("4"), key.WithHelp("4", "start: queue at capacity")),
+		LeastCost: key.NewBinding(key.WithKeys("5"), key.WithHelp("5", "start: least cost")),
+
+		CurveView: key.NewBinding(key.WithKeys("v"), key.WithHelp("v", "next chart view")),
+		Focus:     key.NewBinding(key.WithKeys("tab"), key.WithHelp("tab", "keys to list / strip")),
+
+		Pin:       key.NewBinding(key.WithKeys("p"), key.WithHelp("p", "pin this cut")),
+		Left:      key.NewBinding(key.WithKeys("left", "h"), key.WithHelp("←/h", "previous candidate")),
+		Right:     key.NewBinding(key.WithKeys("right", "l"), key.WithHelp("→/l", "next candidate")),
+		Jump:      key.NewBinding(key.WithKeys("enter"), key.WithHelp("enter", "cursor to candidate")),
+		Remove:    key.NewBinding(key.WithKeys("x", "delete"), key.WithHelp("x/del", "unpin candidate")),
+		MoveLeft:  key.NewBinding(key.WithKeys("<", ","), key.WithHelp("</,", "move candidate left")),
+		MoveRight: key.NewBinding(key.WithKeys(">", "."), key.WithHelp(">/.", "move candidate right")),
+		Rename:    key.NewBinding(key.WithKeys("r"), key.WithHelp("r", "rename candidate")),
+		Choose:    key.NewBinding(key.WithKeys("c"), key.WithHelp("c", "choose (reference)")),
+
+		Assumptions: key.NewBinding(key.WithKeys("a"), key.WithHelp("a", "edit assumptions")),
+		Write:       key.NewBinding(key.WithKeys("w"), key.WithHelp("w", "write decision file")),
+		Help:        key.NewBinding(key.WithKeys("?"), key.WithHelp("?", "help")),
+		Quit:        key.NewBinding(key.WithKeys("q", "ctrl+c"), key.WithHelp("q", "quit")),
+
+		NextField: key.NewBinding(key.WithKeys("tab", "down"), key.WithHelp("tab/↓", "next field")),
+		PrevField: key.NewBinding(key.WithKeys("shift+tab", "up"), key.WithHelp("shift+tab/↑", "previous field")),
+		Accept:    key.NewBinding(key.WithKeys("enter"), key.WithHelp("enter", "apply")),
+		Cancel:    key.NewBinding(key.WithKeys("esc"), key.WithHelp("esc", "cancel")),
+		Yes:       key.NewBinding(key.WithKeys("y"), key.WithHelp("y", "yes, replace")),
+		No:        key.NewBinding(key.WithKeys("n", "esc"), key.WithHelp("n/esc", "no, keep it")),
+	}
+}

@@ -1,0 +1,223 @@
+package tui
+
+import (
+	"fmt"
+	"strconv"
+	"strings"
+
+	"github.com/charmbracelet/bubbles/key"
+	tea "github.com/charmbracelet/bubbletea"
+
+	"github.com/sill-tool/sill/internal/report"
+)
+
+// listPane is the ranked list: cases riskiest first, the flagged ones above
+// a cut line, the cursor's tie group highlighted. It draws only the rows
+// in view, so its cost does not grow with the set.
+type listPane struct {
+	s      *session
+	ctx    *context
+	width  int // outer size, border included
+	height int
+	offset int // first ranked row in view
+}
+
+func newListPane(s *session, ctx *context) listPane { return listPane{s: s, ctx: ctx} }
+
+// SetSize sets the outer size and keeps the cut line in view.
+func (p *listPane) SetSize(width, height int) {
+	p.width, p.height = width, height
+	p.follow()
+}
+
+// rowsInView is how many ranked rows fit beside the heading and cut line.
+func (p listPane) rowsInView() int {
+	return max(p.height-p.ctx.styles.Pane.GetVerticalFrameSize()-2, 1)
+}
+
+// follow scrolls so that the cut line and a few rows under it are in view.
+func (p *listPane) follow() {
+	if p.s.curve == nil || p.s.curve.Len() == 0 {
+		return
+	}
+	n := p.rowsInView()
+	end := p.s.point().Rows // rows above the cut line
+	margin := min(3, n/4)
+	if end-p.offset > n-margin {
+		p.offset = end - (n - margin)
+	}
+	if end-p.offset < 1 {
+		p.offset = end - 1
+	}
+	p.offset = max(min(p.offset, p.s.set.Len()-n+1), 0)
+}
+
+// Update moves the cursor for the movement keys.
+func (p listPane) Update(msg tea.Msg) (listPane, tea.Cmd) {
+	m, ok := msg.(tea.KeyMsg)
+	if !ok || p.s.curve == nil || p.s.curve.Len() == 0 {
+		return p, nil
+	}
+	keys, c := p.ctx.keys, p.s.curve
+	last := c.Len() - 1
+	switch {
+	case key.Matches(m, keys.Up):
+		p.s.cursor = max(p.s.cursor-1, 0)
+	case key.Matches(m, keys.Down):
+		p.s.cursor = min(p.s.cursor+1, last)
+	case key.Matches(m, keys.PageUp):
+		p.s.cursor = c.CutOfRow(max(c.FirstRow(p.s.cursor)-p.rowsInView(), 0))
+	case key.Matches(m, keys.PageDown):
+		p.s.cursor = c.CutOfRow(min(p.s.point().Rows-1+p.rowsInView(), p.s.set.Len()-1))
+	case key.Matches(m, keys.Top):
+		p.s.cursor = 0
+	case key.Matches(m, keys.Bottom):
+		p.s.cursor = last
+	default:
+		return p, nil
+	}
+	p.follow()
+	return p, nil
+}
+
+// ShortHelp lists the pane's most used keys.
+func (p listPane) ShortHelp() []key.Binding {
+	return []key.Binding{p.ctx.keys.Up, p.ctx.keys.Down, p.ctx.keys.Pin}
+}
+
+// FullHelp lists every key of the pane, in groups.
+func (p listPane) FullHelp() [][]key.Binding {
+	k := p.ctx.keys
+	return [][]key.Binding{{k.Up, k.Down, k.PageUp, k.PageDown, k.Top, k.Bottom}}
+}
+
+// View draws the pane at its size.
+func (p listPane) View(focused bool) string {
+	st := p.ctx.styles
+	box, edge := st.Pane, st.PaneEdge
+	if focused {
+		box, edge = st.FocusedPane, st.FocusedEdge
+	}
+	innerW := p.width - box.GetHorizontalFrameSize()
+	title := "ranked list"
+	if p.s.curve != nil {
+		title = fmt.Sprintf("ranked list · %d cases, riskiest first", p.s.set.Len())
+	}
+	return framed(box, edge, st.Title, title, p.body(innerW), p.width, p.height)
+}
+
+// columns are the widths of the list's columns at an inner width.
+type listColumns struct{ rank, score, id, segment int }
+
+func (p listPane) columns(innerW int) listColumns {
+	c := listColumns{rank: max(len(strconv.Itoa(p.s.set.Len())), 4), score: 7}
+	// gutter 1, rank, space, score, space, mark 1, space, hit 6, spaces
+	rest := innerW - (1 + c.rank + 1 + c.score + 1 + 1 + 1 + 6 + 1)
+	if p.s.set.IDs != nil {
+		c.id = min(max(rest, 0), 12)
+		rest -= c.id + 1
+	}
+	if p.s.set.SegmentOf != nil && rest >= 6 {
+		c.segment = min(rest, 14)
+	}
+	return c
+}
+
+func (p listPane) body(innerW int) string {
+	s, st := p.s, p.ctx.styles
+	if s.curve == nil || s.curve.Len() == 0 {
+		return st.Muted.Render("no cases")
+	}
+	cols := p.columns(innerW)
+	var b strings.Builder
+	head := " " + pad("rank", cols.rank, true) + " " + pad("score", cols.score, false) + " " + "T"
+	if cols.id > 0 {
+		head += " " + pad("id", cols.id, false)
+	}
+	if cols.segment > 0 {
+		head += " " + pad("segment", cols.segment, false)
+	}
+	head += " " + pad("hit", 6, true)
+	b.WriteString(st.ColumnHead.Render(fitLine(head, innerW)))
+
+	n := p.rowsInView()
+	point := s.point()
+	end := point.Rows
+	groupStart := s.curve.FirstRow(s.cursor)
+	shown := 0
+	for r := p.offset; r < s.set.Len() && shown < n+1; r++ {
+		if r == end {
+			b.WriteString("\n" + st.CutLine.Render(fitLine(p.cutLine(point.Score, end), innerW)))
+			shown++
+			if shown >= n+1 {
+				break
+			}
+		}
+		b.WriteString("\n" + p.row(r, cols, innerW, r < end, r >= groupStart && r < end))
+		shown++
+	}
+	if end == s.set.Len() && shown < n+1 {
+		b.WriteString("\n" + st.CutLine.Render(fitLine(p.cutLine(point.Score, end), innerW)))
+	}
+	return b.String()
+}
+
+// cutLine is the line drawn under the last flagged row.
+func (p listPane) cutLine(score float64, flagged int) string {
+	sign := ">="
+	if p.s.set.LowerIsRiskier {
+		sign = "<="
+	}
+	return fmt.Sprintf("━━ cut %s %s ━ %d flagged above ", sign, report.Score(score), flagged) + strings.Repeat("━", 40)
+}
+
+// row draws ranked row r: a gutter bar when flagged, the rank, the score,
+// ● for a true case and · for a false one, id, segment and the hit share
+// the cut at this row's score would have.
+func (p listPane) row(r int, cols listColumns, innerW int, flagged, inGroup bool) string {
+	s, st := p.s, p.ctx.styles
+	gutter := " "
+	if flagged {
+		gutter = "▌"
+	}
+	if inGroup {
+		gutter = "▶"
+	}
+	mark := "·"
+	if s.set.Labels[r] {
+		mark = "●"
+	}
+	hit := s.curve.At(s.curve.CutOfRow(r)).Recall()
+	line := gutter + pad(strconv.Itoa(r+1), cols.rank, true) + " " + pad(report.Score(s.set.Scores[r]), cols.score, false) + " " + mark
+	if cols.id > 0 {
+		line += " " + pad(s.set.ID(r), cols.id, false)
+	}
+	if cols.segment > 0 {
+		line += " " + pad(s.set.Segment(r), cols.segment, false)
+	}
+	line += " " + pad(report.Percent(hit), 6, true)
+	line = fitLine(line, innerW)
+	switch {
+	case inGroup:
+		return st.CurrentCut.Render(line)
+	case flagged:
+		return st.Flagged.Render(line)
+	}
+	return st.Unflagged.Render(line)
+}
+
+// pad fits text to width, right-aligned when right is set.
+func pad(text string, width int, right bool) string {
+	if width <= 0 {
+		return ""
+	}
+	r := []rune(text)
+	if len(r) > width {
+		return string(r[:width-1]) + "…"
+	}
+	space := strings.Repeat(" ", width-len(r))
+	if right {
+		return space + text
+	}
+	return text + space
+}

@@ -1,0 +1,637 @@
+// Package tui is the explorer: a keyboard-driven screen to walk the cuts of
+// a scored validation set, pin candidates, compare them side by side and
+// write the chosen cut to a decision file.
+//
+// The root Model holds the focused pane, a stack of overlays (help, the
+// assumptions form, renaming, the question before replacing a file), the
+// shared context (size, styles, keys), the session every pane reads and
+// one field per pane. Which cases a cut flags follows the cut rule in the
+// doc of package scores.
+package tui
+
+import (
+	"errors"
+	"fmt"
+	"strings"
+	"sync/atomic"
+	"time"
+
+	"github.com/charmbracelet/bubbles/key"
+	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/lipgloss"
+
+	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/decision"
+	"github.com/sill-tool/sill/internal/projection"
+	"github.com/sill-tool/sill/internal/report"
+	"github.com/sill-tool/sill/internal/scores"
+)
+
+// Config is what the explorer needs from the command line.
+type Config struct {
+	// Load reads the scores; it runs in the background and may call
+	// progress with the rows read so far.
+	Load func(progress func(rows int)) (*scores.Set, error)
+	// Assume returns the starting assumptions for the loaded set.
+	Assume func(set *scores.Set) (projection.Assumptions, error)
+	// Out is the decision file the write key saves to.
+	Out string
+	// ToolVersion is written into the decision file.
+	ToolVersion string
+	// Styles and Keys; zero values take PlainStyles and DefaultKeyMap.
+	Styles *Styles
+	Keys   *KeyMap
+}
+
+// focus says which pane the keys go to.
+type focus int
+
+const (
+	focusList  focus = iota // the ranked list and the cut keys
+	focusStrip              // the comparison strip
+)
+
+// overlayKind is one layer drawn over the panes; the top one takes the keys.
+type overlayKind int
+
+const (
+	overlayHelp    overlayKind = iota // every key, grouped
+	overlayForm                       // the assumptions form
+	overlayRename                     // renaming a candidate
+	overlayReplace                    // the question before replacing a file made from other data
+)
+
+// context is what every pane shares: the screen size, styles and keys.
+type context struct {
+	width, height int
+	styles        Styles
+	keys          KeyMap
+}
+
+// Messages, named for what happened.
+type (
+	// loadTickMsg asks the loading screen to show the rows read so far.
+	loadTickMsg struct{}
+	// scoresLoadedMsg carries the loaded set, its curve and assumptions.
+	scoresLoadedMsg struct {
+		set    *scores.Set
+		curve  *curve.Curve
+		assume projection.Assumptions
+		starts []cutrule.Outcome
+	}
+	// startsFoundMsg carries the starting points under new assumptions.
+	startsFoundMsg struct {
+		assume projection.Assumptions
+		starts []cutrule.Outcome
+		err    error
+	}
+	// errMsg is a load error: the explorer shows nothing more and quits.
+	errMsg struct{ err error }
+	// fileWrittenMsg says the decision file was written.
+	fileWrittenMsg struct {
+		path       string
+		candidates int
+		chosen     string
+	}
+	// writeFailedMsg says the decision file was not written.
+	writeFailedMsg struct{ err error }
+)
+
+// Model is the explorer's root model.
+type Model struct {
+	cfg      Config
+	ctx      *context
+	s        *session
+	focus    focus
+	overlays []overlayKind
+
+	loading  bool
+	rowsRead *atomic.Int64
+	err      error
+	status   string
+	written  string // the path last written, "" before any write
+
+	list    listPane
+	chart   curvePane
+	figures figuresPane
+	strip   Strip
+	help    helpPane
+	form    formPane
+	rename  renamePane
+	replace replacePane
+}
+
+// New returns the explorer for cfg; the scores load when the program starts.
+func New(cfg Config) Model {
+	ctx := &context{styles: PlainStyles(), keys: DefaultKeyMap()}
+	if cfg.Styles != nil {
+		ctx.styles = *cfg.Styles
+	}
+	if cfg.Keys != nil {
+		ctx.keys = *cfg.Keys
+	}
+	if cfg.Out == "" {
+		cfg.Out = "cut.yaml"
+	}
+	s := &session{}
+	m := Model{
+		cfg: cfg, ctx: ctx, s: s, loading: true, rowsRead: new(atomic.Int64),
+		list:    newListPane(s, ctx),
+		chart:   newCurvePane(s, ctx),
+		figures: newFiguresPane(s, ctx),
+		strip:   NewStrip(ctx.styles, ctx.keys),
+		help:    helpPane{ctx: ctx},
+		form:    newFormPane(ctx),
+		rename:  newRenamePane(ctx),
+		replace: replacePane{ctx: ctx},
+	}
+	return m
+}
+
+// Err returns the load error that ended the explorer, if any.
+func (m Model) Err() error { return m.err }
+
+// Written returns the path of the decision file last written, or "".
+func (m Model) Written() string { return m.written }
+
+// Cursor returns the cursor's cut index and its score; ok is false before
+// the scores are loaded.
+func (m Model) Cursor() (index int, score float64, ok bool) {
+	if m.s.curve == nil || m.s.curve.Len() == 0 {
+		return 0, 0, false
+	}
+	return m.s.cursor, m.s.point().Score, true
+}
+
+// Pins returns the names of the pinned candidates, in strip order.
+func (m Model) Pins() []string {
+	out := make([]string, len(m.s.pins))
+	for i, p := range m.s.pins {
+		out[i] = p.name
+	}
+	return out
+}
+
+// Init starts loading.
+func (m Model) Init() tea.Cmd {
+	return tea.Batch(m.loadCmd(), tickCmd())
+}
+
+func tickCmd() tea.Cmd {
+	return tea.Tick(100*time.Millisecond, func(time.Time) tea.Msg { return loadTickMsg{} })
+}
+
+// loadCmd reads the scores, computes the curve once and finds the
+// starting points.
+func (m Model) loadCmd() tea.Cmd {
+	load, assume, counter := m.cfg.Load, m.cfg.Assume, m.rowsRead
+	return func() tea.Msg {
+		set, err := load(func(rows int) { counter.Store(int64(rows)) })
+		if err != nil {
+			return errMsg{err}
+		}
+		if set.Len() == 0 {
+			return errMsg{fmt.Errorf("%s: no rows to explore", set.Source)}
+		}
+		a, err := assume(set)
+		if err != nil {
+			return errMsg{err}
+		}
+		c := curve.New(set)
+		starts, err := cutrule.Find(cutrule.Defaults(a), c, a)
+		if err != nil {
+			return errMsg{err}
+		}
+		return scoresLoadedMsg{set: set, curve: c, assume: a, starts: starts}
+	}
+}
+
+// findStartsCmd finds the starting points under new assumptions.
+func (m Model) findStartsCmd(a projection.Assumptions) tea.Cmd {
+	c := m.s.curve
+	return func() tea.Msg {
+		starts, err := cutrule.Find(cutrule.Defaults(a), c, a)
+		return startsFoundMsg{assume: a, starts: starts, err: err}
+	}
+}
+
+// Update handles one message.
+func (m Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
+	switch msg := msg.(type) {
+	case tea.WindowSizeMsg:
+		m.ctx.width, m.ctx.height = msg.Width, msg.Height
+		m.resize()
+		return m, nil
+	case loadTickMsg:
+		if m.loading {
+			return m, tickCmd()
+		}
+		return m, nil
+	case errMsg:
+		m.loading = false
+		m.err = msg.err
+		return m, tea.Quit
+	case scoresLoadedMsg:
+		m.loading = false
+		m.s.set, m.s.curve, m.s.assume, m.s.starts = msg.set, msg.curve, msg.assume, msg.starts
+		m.s.cursor = 0
+		for _, o := range msg.starts {
+			if o.Met {
+				m.s.cursor = o.Point.Index
+				break
+			}
+		}
+		m.form.load(msg.assume, msg.curve.Summary.BaseRate)
+		m.refresh()
+		return m, nil
+	case startsFoundMsg:
+		if msg.err != nil {
+			m.status = "assumptions: " + msg.err.Error()
+			return m, nil
+		}
+		m.s.starts = msg.starts
+		m.refresh()
+		return m, nil
+	case fileWrittenMsg:
+		m.written = msg.path
+		m.status = fmt.Sprintf("wrote %s: %d candidates, chosen %q", msg.path, msg.candidates, msg.chosen)
+		return m, nil
+	case writeFailedMsg:
+		if errors.Is(msg.err, decision.ErrDifferentData) || errors.Is(msg.err, decision.ErrNotDecisionFile) {
+			m.replace.reason = msg.err.Error()
+			m.replace.path = m.cfg.Out
+			m.push(overlayReplace)
+			return m, nil
+		}
+		m.status = "not written: " + msg.err.Error()
+		return m, nil
+	case tea.KeyMsg:
+		return m.key(msg)
+	}
+	return m, nil
+}
+
+// key handles a key press: ctrl+c always quits, an overlay takes the rest
+// first, then the global keys, then the focused pane.
+func (m Model) key(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
+	k := m.ctx.keys
+	if msg.String() == "ctrl+c" {
+		return m, tea.Quit
+	}
+	if len(m.overlays) > 0 {
+		return m.overlayKey(msg)
+	}
+	if key.Matches(msg, k.Quit) {
+		return m, tea.Quit
+	}
+	if m.loading || m.s.curve == nil {
+		return m, nil
+	}
+	m.status = ""
+	switch {
+	case key.Matches(msg, k.Help):
+		m.push(overlayHelp)
+		return m, nil
+	case key.Matches(msg, k.Focus):
+		if m.focus == focusList && len(m.s.pins) > 0 {
+			m.focus = focusStrip
+		} else {
+			m.focus = focusList
+		}
+		m.refresh()
+		return m, nil
+	case key.Matches(msg, k.Pin):
+		name, made := m.s.pinCursor()
+		if made {
+			m.status = fmt.Sprintf("pinned %q", name)
+		} else {
+			m.status = fmt.Sprintf("this cut is already pinned as %q", name)
+		}
+		m.refresh()
+		return m, nil
+	case key.Matches(msg, k.Assumptions):
+		m.form.load(m.s.assume, m.s.curve.Summary.BaseRate)
+		m.push(overlayForm)
+		return m, nil
+	case key.Matches(msg, k.Write):
+		return m, m.write(false)
+	case key.Matches(msg, k.CurveView):
+		m.chart, _ = m.chart.Update(msg)
+		return m, nil
+	}
+	if m.focus == focusStrip {
+		return m.stripKey(msg)
+	}
+	before := m.s.cursor
+	m.figures, _ = m.figures.Update(msg)
+	if m.s.cursor == before {
+		m.list, _ = m.list.Update(msg)
+	}
+	m.list.follow()
+	return m, nil
+}
+
+// stripKey handles the keys of the comparison strip.
+func (m Model) stripKey(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
+	k, s := m.ctx.keys, m.s
+	switch {
+	case key.Matches(msg, k.Jump):
+		s.cursor = s.pins[s.selected].cut
+		m.list.follow()
+	case key.Matches(msg, k.Remove):
+		name := s.pins[s.selected].name
+		s.removeSelected()
+		m.status = fmt.Sprintf("unpinned %q", name)
+		if len(s.pins) == 0 {
+			m.focus = focusList
+		}
+	case key.Matches(msg, k.MoveLeft):
+		s.moveSelected(-1)
+	case key.Matches(msg, k.MoveRight):
+		s.moveSelected(1)
+	case key.Matches(msg, k.Choose):
+		s.reference = s.selected
+		m.status = fmt.Sprintf("%q is the chosen cut; the others are compared with it", s.pins[s.selected].name)
+	case key.Matches(msg, k.Rename):
+		m.rename.start(s.pins[s.selected].name)
+		m.push(overlayRename)
+	default:
+		m.strip.SetSelected(s.selected)
+		m.strip, _ = m.strip.Update(msg)
+		s.selected = m.strip.Selected()
+		// The list keys still move the cursor while the strip has the keys.
+		m.list, _ = m.list.Update(msg)
+		m.figures, _ = m.figures.Update(msg)
+		m.list.follow()
+	}
+	m.refresh()
+	return m, nil
+}
+
+// overlayKey gives a key to the top overlay.
+func (m Model) overlayKey(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
+	k := m.ctx.keys
+	switch m.overlays[len(m.overlays)-1] {
+	case overlayHelp:
+		if key.Matches(msg, k.Help) || key.Matches(msg, k.Cancel) || key.Matches(msg, k.Quit) {
+			m.pop()
+		}
+		return m, nil
+	case overlayForm:
+		var done bool
+		var a projection.Assumptions
+		var cmd tea.Cmd
+		m.form, a, done, cmd = m.form.Update(msg)
+		if done {
+			m.pop()
+			if m.form.applied {
+				m.s.assume = a
+				m.status = "assumptions changed: every figure and pin recomputed"
+				m.refresh()
+				return m, m.findStartsCmd(a)
+			}
+		}
+		return m, cmd
+	case overlayRename:
+		var name string
+		var done bool
+		var cmd tea.Cmd
+		m.rename, name, done, cmd = m.rename.Update(msg)
+		if done && m.rename.cancelled {
+			m.pop()
+			return m, nil
+		}
+		if done {
+			if err := m.s.rename(name); err != nil {
+				m.rename.err = err.Error()
+				return m, nil
+			}
+			m.pop()
+			m.refresh()
+		}
+		return m, cmd
+	case overlayReplace:
+		switch {
+		case key.Matches(msg, k.Yes):
+			m.pop()
+			return m, m.write(true)
+		case key.Matches(msg, k.No):
+			m.pop()
+			m.status = "not written: " + m.cfg.Out + " kept as it was"
+		}
+		return m, nil
+	}
+	return m, nil
+}
+
+func (m *Model) push(o overlayKind) { m.overlays = append(m.overlays, o) }
+func (m *Model) pop()               { m.overlays = m.overlays[:len(m.overlays)-1] }
+
+// write saves the pinned candidates, pinning the cursor's cut first when
+// nothing is pinned; force replaces a file made from other data.
+func (m *Model) write(force bool) tea.Cmd {
+	s := m.s
+	if len(s.pins) == 0 {
+		s.pinCursor()
+		m.refresh()
+	}
+	candidates := make([]decision.Candidate, len(s.pins))
+	for i, p := range s.pins {
+		candidates[i] = decision.Candidate{Name: p.name, Rule: p.rule, Cut: s.evidenceAt(p.cut)}
+	}
+	chosen := s.pins[s.reference].name
+	file, err := decision.New(s.set, s.assume, candidates, chosen, m.cfg.ToolVersion)
+	if err != nil {
+		m.status = "not written: " + err.Error()
+		return nil
+	}
+	path := m.cfg.Out
+	return func() tea.Msg {
+		if err := decision.Write(path, file, force); err != nil {
+			return writeFailedMsg{err}
+		}
+		return fileWrittenMsg{path: path, candidates: len(candidates), chosen: chosen}
+	}
+}
+
+// refresh brings the keys, the strip and the layout up to date with the
+// session.
+func (m *Model) refresh() {
+	k := &m.ctx.keys
+	s := m.s
+	starts := []*key.Binding{&k.BaseRate, &k.Hit, &k.Wrong, &k.Capacity, &k.LeastCost}
+	for _, b := range starts {
+		b.SetEnabled(false)
+	}
+	for i, o := range s.starts {
+		switch o.Rule.Kind {
+		case cutrule.Base:
+			k.BaseRate.SetEnabled(true)
+		case cutrule.Hit:
+			k.Hit.SetEnabled(true)
+		case cutrule.Wrong:
+			k.Wrong.SetEnabled(true)
+		case cutrule.Queue:
+			k.Capacity.SetEnabled(true)
+			k.Capacity.SetHelp(keyName(i), "start: queue at capacity ("+o.Rule.String()+")")
+		case cutrule.Cost:
+			k.LeastCost.SetEnabled(true)
+			k.LeastCost.SetKeys(keyName(i))
+			k.LeastCost.SetHelp(keyName(i), "start: least cost")
+		}
+	}
+	strip := m.focus == focusStrip && len(s.pins) > 0
+	for _, b := range []*key.Binding{&k.Left, &k.Right, &k.Jump, &k.Remove, &k.MoveLeft, &k.MoveRight, &k.Rename, &k.Choose} {
+		b.SetEnabled(strip)
+	}
+	if len(s.pins) == 0 {
+		m.focus = focusList
+	}
+	m.strip.keys = *k
+	if s.curve != nil {
+		m.strip.SetTable(s.table())
+		m.strip.SetSelected(s.selected)
+	}
+	m.resize()
+}
+
+func keyName(i int) string { return string(rune('1' + i)) }
+
+// screen returns the layout at the current size and state.
+func (m Model) screen() screenLayout {
+	frame := frameSize{W: m.ctx.styles.Pane.GetHorizontalFrameSize(), H: m.ctx.styles.Pane.GetVerticalFrameSize()}
+	return layout(m.ctx.width, m.ctx.height, layoutState{
+		pinned:       len(m.s.pins) > 0,
+		stripFocused: m.focus == focusStrip,
+		stripLines:   m.strip.Lines(),
+		figureLines:  figureLines,
+	}, frame)
+}
+
+// resize passes the layout's sizes down to the panes.
+func (m *Model) resize() {
+	l := m.screen()
+	if l.tooSmall {
+		return
+	}
+	m.list.SetSize(l.list.W, l.list.H)
+	m.chart.SetSize(l.curve.W, l.curve.H)
+	m.figures.SetSize(l.figures.W, l.figures.H)
+	m.strip.SetSize(l.strip.W, l.strip.H)
+}
+
+// View draws the screen at exactly the terminal's size.
+func (m Model) View() string {
+	w, h := m.ctx.width, m.ctx.height
+	if w <= 0 || h <= 0 {
+		return ""
+	}
+	st := m.ctx.styles
+	if m.err != nil {
+		return ""
+	}
+	l := m.screen()
+	if l.tooSmall {
+		notice := fmt.Sprintf("sill needs a terminal of at least %d×%d;\nthis one is %d×%d.\nEnlarge it, or press q to quit.", minWidth, minHeight, w, h)
+		return lipgloss.Place(w, h, lipgloss.Center, lipgloss.Center, notice)
+	}
+	if m.loading || m.s.curve == nil {
+		text := fmt.Sprintf("reading scores… %d rows so far", m.rowsRead.Load())
+		return lipgloss.Place(w, h, lipgloss.Center, lipgloss.Center, st.Muted.Render(text))
+	}
+	right := m.figures.View()
+	if l.curve.H > 0 {
+		right = m.chart.View() + "\n" + right
+	}
+	body := lipgloss.JoinHorizontal(lipgloss.Top, m.list.View(m.focus == focusList), right)
+	parts := []string{m.header(w), body}
+	if l.strip.H > 0 {
+		parts = append(parts, m.strip.View(m.focus == focusStrip))
+	}
+	parts = append(parts, m.footer(w))
+	frame := strings.Join(parts, "\n")
+	if len(m.overlays) > 0 {
+		frame = overlay(frame, m.overlayView(), w, h)
+	}
+	return fit(frame, w, h)
+}
+
+// overlayView draws the top overlay.
+func (m Model) overlayView() string {
+	switch m.overlays[len(m.overlays)-1] {
+	case overlayHelp:
+		return m.help.View(m.helpGroups())
+	case overlayForm:
+		return m.form.View()
+	case overlayRename:
+		return m.rename.View()
+	case overlayReplace:
+		return m.replace.View()
+	}
+	return ""
+}
+
+// header is the top line: the data on the left, the assumptions on the right.
+func (m Model) header(width int) string {
+	s, st := m.s, m.ctx.styles
+	sum := s.curve.Summary
+	left := fmt.Sprintf("sill · %s · %d rows · %s true (%s) · AUC %s", s.set.Source, sum.Rows,
+		report.Count(sum.Positives), report.Percent(sum.BaseRate), report.Fixed(sum.ROCAUC, 3))
+	a := s.assume
+	parts := []string{"base rate " + report.Percent(a.BaseRate)}
+	if a.Volume > 0 {
+		parts = append(parts, report.Count(a.Volume)+"/shift")
+	}
+	if a.Capacity > 0 {
+		parts = append(parts, "capacity "+report.Count(a.Capacity))
+	}
+	if c := a.Costs; c != nil {
+		parts = append(parts, "costs "+report.Money(c.FalseAlert)+"/"+report.Money(c.Miss)+"/"+report.Money(c.Hit))
+	}
+	right := "production: " + strings.Join(parts, " · ")
+	// The assumptions keep at least half the line; the source name gives
+	// way first.
+	rightW := min(len([]rune(right)), width/2)
+	return st.Header.Render(fitLine(left, width-rightW-2)) + "  " + st.Muted.Render(fitLine(right, rightW))
+}
+
+// footer is the bottom line: what just happened, then the keys that matter
+// most here.
+func (m Model) footer(width int) string {
+	st := m.ctx.styles
+	k := m.ctx.keys
+	var bindings []key.Binding
+	if m.focus == focusStrip {
+		bindings = append(bindings, m.strip.ShortHelp()...)
+		bindings = append(bindings, k.Remove, k.Focus)
+	} else {
+		bindings = append(bindings, k.Up, k.Down)
+		bindings = append(bindings, key.NewBinding(key.WithKeys("1"), key.WithHelp("1-"+keyName(len(m.s.starts)-1), "starting points")))
+		bindings = append(bindings, k.Pin)
+		if len(m.s.pins) > 0 {
+			bindings = append(bindings, k.Focus)
+		}
+	}
+	bindings = append(bindings, k.Assumptions, k.Write, k.Help, k.Quit)
+	var hints []string
+	for _, b := range bindings {
+		if !b.Enabled() {
+			continue
+		}
+		hints = append(hints, st.Key.Render(b.Help().Key)+" "+st.Footer.Render(shortDesc(b.Help().Desc)))
+	}
+	line := strings.Join(hints, st.Footer.Render(" · "))
+	if m.status != "" {
+		line = st.Status.Render(m.status) + st.Footer.Render("  │ ") + line
+	}
+	return fitLine(line, width)
+}
+
+// shortDesc trims a help text to its first words for the footer.
+func shortDesc(desc string) string {
+	if i := strings.Index(desc, " ("); i > 0 {
+		desc = desc[:i]
+	}
+	return desc
+}

@@ -1,0 +1,400 @@
+package tui
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+
+	"github.com/charmbracelet/bubbles/key"
+	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/x/ansi"
+
+	"github.com/sill-tool/sill/internal/projection"
+	"github.com/sill-tool/sill/internal/report"
+)
+
+// helpGroup is one titled group of keys in the help.
+type helpGroup struct {
+	title    string
+	bindings []key.Binding
+}
+
+// helpGroups gathers every key, grouped, from the panes and the root. The
+// strip's keys are listed even when the strip does not have the keys, so
+// that they can be found.
+func (m Model) helpGroups() []helpGroup {
+	k := DefaultKeyMap()
+	cur := m.ctx.keys
+	var starts []key.Binding
+	for _, b := range []key.Binding{cur.BaseRate, cur.Hit, cur.Wrong, cur.Capacity, cur.LeastCost} {
+		if b.Enabled() {
+			starts = append(starts, b)
+		}
+	}
+	return []helpGroup{
+		{"move the cut", m.list.FullHelp()[0]},
+		{"starting points", starts},
+		{"candidates", []key.Binding{k.Pin, k.Focus, k.Left, k.Right, k.Jump, k.Choose, k.Rename, k.Remove, k.MoveLeft, k.MoveRight}},
+		{"screen and file", []key.Binding{k.CurveView, k.Assumptions, k.Write, k.Help, k.Quit}},
+	}
+}
+
+// helpPane draws every key, grouped, in two columns.
+type helpPane struct{ ctx *context }
+
+// View draws the help box for groups.
+func (p helpPane) View(groups []helpGroup) string {
+	st := p.ctx.styles
+	render := func(g helpGroup) []string {
+		lines := []string{st.Title.Render(g.title)}
+		for _, b := range g.bindings {
+			lines = append(lines, st.Key.Render(pad(b.Help().Key, 12, false))+" "+b.Help().Desc)
+		}
+		return lines
+	}
+	var left, right []string
+	for i, g := range groups {
+		lines := append(render(g), "")
+		if i%2 == 0 {
+			left = append(left, lines...)
+		} else {
+			right = append(right, lines...)
+		}
+	}
+	leftW := 0
+	for _, l := range left {
+		leftW = max(leftW, ansi.StringWidth(l))
+	}
+	var rows []string
+	for i := 0; i < max(len(left), len(right)); i++ {
+		l, r := "", ""
+		if i < len(left) {
+			l = left[i]
+		}
+		if i < len(right) {
+			r = right[i]
+		}
+		rows = append(rows, fitLine(l, leftW)+"   "+r)
+	}
+	rows = append(rows, st.Muted.Render("the candidate keys act in the strip: tab gives it the keys · ? or esc closes"))
+	body := strings.Join(rows, "\n")
+	return p.box("keys", body)
+}
+
+// box frames an overlay body, sized to fit it within the screen.
+func (p helpPane) box(title, body string) string {
+	return overlayBox(p.ctx, title, body)
+}
+
+// overlayBox frames body in the overlay style at its natural size, no
+// larger than the screen.
+func overlayBox(ctx *context, title, body string) string {
+	st := ctx.styles
+	w, h := 0, 0
+	for _, l := range strings.Split(body, "\n") {
+		w = max(w, ansi.StringWidth(l))
+		h++
+	}
+	w = max(w, ansi.StringWidth(title)+4)
+	width := min(w+st.Overlay.GetHorizontalFrameSize(), ctx.width)
+	height := min(h+st.Overlay.GetVerticalFrameSize(), ctx.height)
+	return framed(st.Overlay, st.OverlayEdge, st.Title, title, body, width, height)
+}
+
+// formField is one line of the assumptions form.
+type formField struct {
+	label string
+	hint  string
+	input textField
+	err   string
+}
+
+// The fields of the assumptions form, in order.
+const (
+	fieldBaseRate = iota
+	fieldVolume
+	fieldCapacity
+	fieldCostFalseAlert
+	fieldCostMiss
+	fieldCostHit
+	fieldConfidence
+	fieldCount
+)
+
+// formPane is the assumptions form. Entries are checked when applied; a
+// refused entry stays open with its reason beside it.
+type formPane struct {
+	ctx                *context
+	fields             []formField
+	focused            int
+	applied            bool
+	validationBaseRate float64
+}
+
+func newFormPane(ctx *context) formPane {
+	p := formPane{ctx: ctx}
+	specs := []struct{ label, hint string }{
+		{"base rate", "share of true cases in production, e.g. 0.07 or 7%; empty: the validation rate"},
+		{"volume per shift", "cases scored per shift; empty: not given"},
+		{"capacity per shift", "alerts one shift can work; needs a volume; empty: not given"},
+		{"cost of a wrong alert", "money per wrongly flagged case; empty costs: not given"},
+		{"cost of a miss", "money per true case not flagged"},
+		{"cost of a hit", "money per true case flagged; negative for a benefit"},
+		{"confidence", "level of every interval, e.g. 0.95"},
+	}
+	for _, s := range specs {
+		in := newTextField(24)
+		p.fields = append(p.fields, formField{label: s.label, hint: s.hint, input: in})
+	}
+	return p
+}
+
+// load fills the form from a.
+func (p *formPane) load(a projection.Assumptions, validationBaseRate float64) {
+	p.validationBaseRate = validationBaseRate
+	p.applied = false
+	text := func(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+	given := func(v float64) string {
+		if v == 0 {
+			return ""
+		}
+		return text(v)
+	}
+	values := make([]string, fieldCount)
+	values[fieldBaseRate] = text(a.BaseRate)
+	values[fieldVolume] = given(a.Volume)
+	values[fieldCapacity] = given(a.Capacity)
+	if c := a.Costs; c != nil {
+		values[fieldCostFalseAlert] = text(c.FalseAlert)
+		values[fieldCostMiss] = text(c.Miss)
+		values[fieldCostHit] = text(c.Hit)
+	}
+	values[fieldConfidence] = text(a.Confidence)
+	for i := range p.fields {
+		p.fields[i].input.SetValue(values[i])
+		p.fields[i].err = ""
+	}
+	p.focus(0)
+}
+
+func (p *formPane) focus(i int) {
+	p.focused = (i + fieldCount) % fieldCount
+	for j := range p.fields {
+		if j == p.focused {
+			p.fields[j].input.Focus()
+		} else {
+			p.fields[j].input.Blur()
+		}
+	}
+}
+
+// Update handles a key; done is true when the form closes, and then
+// p.applied says whether a holds accepted assumptions.
+func (p formPane) Update(msg tea.Msg) (formPane, projection.Assumptions, bool, tea.Cmd) {
+	k := p.ctx.keys
+	if m, ok := msg.(tea.KeyMsg); ok {
+		switch {
+		case key.Matches(m, k.Cancel):
+			p.applied = false
+			return p, projection.Assumptions{}, true, nil
+		case key.Matches(m, k.Accept):
+			a, ok := p.parse()
+			if !ok {
+				return p, a, false, nil
+			}
+			p.applied = true
+			return p, a, true, nil
+		case key.Matches(m, k.NextField):
+			p.focus(p.focused + 1)
+			return p, projection.Assumptions{}, false, nil
+		case key.Matches(m, k.PrevField):
+			p.focus(p.focused - 1)
+			return p, projection.Assumptions{}, false, nil
+		}
+	}
+	var cmd tea.Cmd
+	p.fields[p.focused].input, cmd = p.fields[p.focused].input.Update(msg)
+	p.fields[p.focused].err = ""
+	return p, projection.Assumptions{}, false, cmd
+}
+
+// parse reads every field, marks the refused ones with their reason and
+// reports whether all were accepted.
+func (p *formPane) parse() (projection.Assumptions, bool) {
+	ok := true
+	refuse := func(i int, reason string) {
+		p.fields[i].err = reason
+		if ok {
+			p.focus(i)
+		}
+		ok = false
+	}
+	number := func(i int) (float64, bool, bool) { // value, given, valid
+		text := strings.TrimSpace(p.fields[i].input.Value())
+		if text == "" {
+			return 0, false, true
+		}
+		percent := strings.HasSuffix(text, "%")
+		text = strings.TrimSpace(strings.TrimSuffix(text, "%"))
+		v, err := strconv.ParseFloat(strings.ReplaceAll(text, "_", ""), 64)
+		if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
+			refuse(i, fmt.Sprintf("%q is not a number", p.fields[i].input.Value()))
+			return 0, true, false
+		}
+		if percent {
+			v /= 100
+		}
+		return v, true, true
+	}
+	for i := range p.fields {
+		p.fields[i].err = ""
+	}
+	a := projection.Assumptions{}
+	if v, given, valid := number(fieldBaseRate); valid {
+		switch {
+		case !given:
+			a.BaseRate = p.validationBaseRate
+		case v < 0 || v > 1:
+			refuse(fieldBaseRate, "expected a share from 0 to 1 (or 0% to 100%)")
+		default:
+			a.BaseRate = v
+		}
+	}
+	if v, given, valid := number(fieldVolume); valid && given {
+		if v <= 0 {
+			refuse(fieldVolume, "expected more than 0 cases, or empty")
+		} else {
+			a.Volume = v
+		}
+	}
+	if v, given, valid := number(fieldCapacity); valid && given {
+		switch {
+		case v <= 0:
+			refuse(fieldCapacity, "expected more than 0 alerts, or empty")
+		case a.Volume == 0:
+			refuse(fieldCapacity, "needs a volume per shift: the queue is projected from it")
+		default:
+			a.Capacity = v
+		}
+	}
+	var costs projection.Costs
+	anyCost := false
+	for i, dst := range map[int]*float64{fieldCostFalseAlert: &costs.FalseAlert, fieldCostMiss: &costs.Miss, fieldCostHit: &costs.Hit} {
+		if v, given, valid := number(i); valid && given {
+			*dst = v
+			anyCost = true
+		}
+	}
+	if anyCost {
+		a.Costs = &costs
+	}
+	if v, given, valid := number(fieldConfidence); valid {
+		switch {
+		case !given:
+			a.Confidence = projection.DefaultConfidence
+		case !(v > 0 && v < 1):
+			refuse(fieldConfidence, "expected a level between 0 and 1, such as 0.95")
+		default:
+			a.Confidence = v
+		}
+	}
+	if ok {
+		if err := a.Validate(); err != nil {
+			refuse(fieldBaseRate, err.Error())
+		}
+	}
+	return a, ok
+}
+
+// View draws the form.
+func (p formPane) View() string {
+	st := p.ctx.styles
+	var lines []string
+	for i, f := range p.fields {
+		label := pad(f.label, 22, false)
+		value := f.input.View()
+		line := label + " " + fitLine(value, 15)
+		if i == p.focused {
+			line = st.Selected.Render("▸") + line
+		} else {
+			line = " " + line
+		}
+		if f.err != "" {
+			line += " " + st.Warning.Render("✗ "+f.err)
+		}
+		lines = append(lines, line)
+	}
+	lines = append(lines, "", st.Muted.Render(p.fields[p.focused].hint))
+	lines = append(lines, st.Muted.Render("validation base rate "+report.Percent(p.validationBaseRate)+" · tab/↓ next · enter applies · esc cancels"))
+	return overlayBox(p.ctx, "assumptions", strings.Join(lines, "\n"))
+}
+
+// renamePane asks for a candidate's new name.
+type renamePane struct {
+	ctx       *context
+	input     textField
+	err       string
+	cancelled bool // esc closed the box without renaming
+}
+
+func newRenamePane(ctx *context) renamePane {
+	in := newTextField(40)
+	return renamePane{ctx: ctx, input: in}
+}
+
+func (p *renamePane) start(name string) {
+	p.input.SetValue(name)
+	p.input.Focus()
+	p.err = ""
+	p.cancelled = false
+}
+
+// Update handles a key: done with the new name on enter, done with
+// cancelled set on esc.
+func (p renamePane) Update(msg tea.Msg) (renamePane, string, bool, tea.Cmd) {
+	k := p.ctx.keys
+	if m, ok := msg.(tea.KeyMsg); ok {
+		switch {
+		case key.Matches(m, k.Cancel):
+			p.cancelled = true
+			return p, "", true, nil
+		case key.Matches(m, k.Accept):
+			return p, strings.TrimSpace(p.input.Value()), true, nil
+		}
+	}
+	var cmd tea.Cmd
+	p.input, cmd = p.input.Update(msg)
+	p.err = ""
+	return p, "", false, cmd
+}
+
+// View draws the rename box.
+func (p renamePane) View() string {
+	st := p.ctx.styles
+	lines := []string{"new name: " + fitLine(p.input.View(), 31)}
+	if p.err != "" {
+		lines = append(lines, st.Warning.Render("✗ "+p.err))
+	}
+	lines = append(lines, st.Muted.Render("enter renames · esc keeps the name"))
+	return overlayBox(p.ctx, "rename candidate", strings.Join(lines, "\n"))
+}
+
+// replacePane asks before replacing a file made from other data.
+type replacePane struct {
+	ctx    *context
+	path   string
+	reason string
+}
+
+// View draws the question.
+func (p replacePane) View() string {
+	st := p.ctx.styles
+	lines := []string{
+		st.Warning.Render(p.path + " already exists and was not made from this data."),
+		st.Muted.Render(p.reason),
+		"",
+		"Replace it with this decision? " + st.Key.Render("y") + " replaces · " + st.Key.Render("n") + "/esc keeps it",
+	}
+	return overlayBox(p.ctx, "replace "+p.path+"?", strings.Join(lines, "\n"))
+}

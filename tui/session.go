@@ -1,0 +1,166 @@
+package tui
+
+import (
+	"fmt"
+	"strconv"
+
+	"github.com/sill-tool/sill/internal/compare"
+	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/evidence"
+	"github.com/sill-tool/sill/internal/projection"
+	"github.com/sill-tool/sill/internal/scores"
+)
+
+// session is the state every pane reads: the data, the assumptions, the
+// cursor's cut and the pinned candidates. The root model owns it and the
+// panes hold a pointer to it.
+type session struct {
+	set    *scores.Set
+	curve  *curve.Curve
+	assume projection.Assumptions
+
+	// cursor is the cut under the cursor, an index into curve (0 is the
+	// strictest cut).
+	cursor int
+
+	// starts are the starting points (cutrule.Defaults) under assume, in
+	// the order of the keys 1 to 5.
+	starts []cutrule.Outcome
+
+	pins      []pin
+	selected  int // the candidate the strip's keys act on
+	reference int // the chosen candidate, which the others are compared with
+	pinned    int // how many pins were ever made, for automatic names
+}
+
+// pin is a candidate: a named cut, with the rule it came from if any.
+type pin struct {
+	name string
+	rule string // "" for a cut picked by hand
+	cut  int    // index into the curve
+}
+
+// point returns the cursor's point.
+func (s *session) point() curve.Point { return s.curve.At(s.cursor) }
+
+// evidenceAt returns the figures of cut i under the current assumptions.
+func (s *session) evidenceAt(i int) evidence.Cut { return evidence.Of(s.curve.At(i), s.assume) }
+
+// baseRateChanged reports whether production's base rate is not the
+// validation one, so that projected shares differ from validation shares.
+func (s *session) baseRateChanged() bool {
+	return s.assume.BaseRate != s.curve.Summary.BaseRate
+}
+
+// rulesAt lists the starting points that pick cut i.
+func (s *session) rulesAt(i int) []string {
+	var out []string
+	for _, o := range s.starts {
+		if o.Met && o.Point.Index == i {
+			out = append(out, o.Rule.String())
+		}
+	}
+	return out
+}
+
+// pinCursor pins the cursor's cut, named after the first starting point it
+// sits on or else "cut N" in the order pinned. A cut already pinned is
+// selected instead. It returns the name and whether a new pin was made.
+func (s *session) pinCursor() (string, bool) {
+	for i, p := range s.pins {
+		if p.cut == s.cursor {
+			s.selected = i
+			return p.name, false
+		}
+	}
+	s.pinned++
+	p := pin{cut: s.cursor}
+	if rules := s.rulesAt(s.cursor); len(rules) > 0 {
+		p.rule = rules[0]
+		p.name = rules[0]
+	}
+	if p.name == "" || s.nameTaken(p.name) {
+		p.name = "cut " + strconv.Itoa(s.pinned)
+		for s.nameTaken(p.name) {
+			s.pinned++
+			p.name = "cut " + strconv.Itoa(s.pinned)
+		}
+	}
+	s.pins = append(s.pins, p)
+	s.selected = len(s.pins) - 1
+	return p.name, true
+}
+
+func (s *session) nameTaken(name string) bool {
+	for _, p := range s.pins {
+		if p.name == name {
+			return true
+		}
+	}
+	return false
+}
+
+// removeSelected unpins the selected candidate.
+func (s *session) removeSelected() {
+	if len(s.pins) == 0 {
+		return
+	}
+	i := s.selected
+	s.pins = append(s.pins[:i], s.pins[i+1:]...)
+	switch {
+	case len(s.pins) == 0:
+		s.reference, s.selected = 0, 0
+		return
+	case s.reference == i:
+		s.reference = 0
+	case s.reference > i:
+		s.reference--
+	}
+	s.selected = min(i, len(s.pins)-1)
+}
+
+// moveSelected moves the selected candidate by step places, keeping the
+// reference on the same candidate.
+func (s *session) moveSelected(step int) {
+	i, j := s.selected, s.selected+step
+	if len(s.pins) == 0 || j < 0 || j >= len(s.pins) {
+		return
+	}
+	s.pins[i], s.pins[j] = s.pins[j], s.pins[i]
+	switch s.reference {
+	case i:
+		s.reference = j
+	case j:
+		s.reference = i
+	}
+	s.selected = j
+}
+
+// rename gives the selected candidate a new name; names must be unique
+// and not empty.
+func (s *session) rename(name string) error {
+	if name == "" {
+		return fmt.Errorf("a candidate needs a name")
+	}
+	for i, p := range s.pins {
+		if i != s.selected && p.name == name {
+			return fmt.Errorf("%q is taken by another candidate", name)
+		}
+	}
+	s.pins[s.selected].name = name
+	return nil
+}
+
+// table returns the comparison of the pinned candidates.
+func (s *session) table() compare.Table {
+	columns := make([]compare.Column, len(s.pins))
+	for i, p := range s.pins {
+		columns[i] = compare.Column{Name: p.name, Rule: p.rule, Cut: s.evidenceAt(p.cut)}
+	}
+	return compare.New(columns, s.reference, compare.Options{
+		Assumptions:     s.assume,
+		BaseRateChanged: s.baseRateChanged(),
+		LowerIsRiskier:  s.set.LowerIsRiskier,
+	})
+}
