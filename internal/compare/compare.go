@@ -149,7 +149,7 @@ func New(columns []Column, reference int, opt Options) Table {
 		main("projected wrong-alert share", Lower, func(c evidence.Cut) float64 { return c.Projected.FalseDiscoveryRate() }, report.Percent, PointsDiff)
 	}
 	if a.Volume > 0 {
-		main("queue per shift", Neither, func(c evidence.Cut) float64 { return c.Projected.QueuePerShift }, queueCell, CountDiff)
+		main("queue per shift", Neither, func(c evidence.Cut) float64 { return c.Projected.QueuePerShift }, report.Queue, QueueDiff)
 		if a.Capacity > 0 {
 			detail("  against capacity "+report.Count(a.Capacity), func(c evidence.Cut) string {
 				return report.Against(c.Projected.QueuePerShift, a.Capacity)
@@ -160,17 +160,6 @@ func New(columns []Column, reference int, opt Options) Table {
 		}
 	}
 	return t
-}
-
-// queueCell rounds a projected queue to one decimal below 100 alerts.
-func queueCell(v float64) string {
-	if !evidence.Defined(v) {
-		return "n/a"
-	}
-	if math.Abs(v) >= 100 {
-		return strconv.FormatFloat(v, 'f', 0, 64)
-	}
-	return strconv.FormatFloat(v, 'f', 1, 64)
 }
 
 // sign prefixes a formatted magnitude with + or -, and writes a zero
@@ -194,16 +183,21 @@ func PointsDiff(d float64) string {
 	return sign(d, strconv.FormatFloat(100*math.Abs(d), 'f', 1, 64)+" pt")
 }
 
-// CountDiff formats a difference of two counts: whole numbers plainly,
-// others with one decimal below 100.
+// CountDiff formats a difference of two counts as report.Count does.
 func CountDiff(d float64) string {
 	if !evidence.Defined(d) {
 		return "n/a"
 	}
-	if d == math.Trunc(d) {
-		return sign(d, report.Count(math.Abs(d)))
+	return sign(d, report.Count(math.Abs(d)))
+}
+
+// QueueDiff formats a difference of two projected queues with one
+// decimal, as report.Queue does.
+func QueueDiff(d float64) string {
+	if !evidence.Defined(d) {
+		return "n/a"
 	}
-	return sign(d, queueCell(math.Abs(d)))
+	return sign(d, report.Queue(math.Abs(d)))
 }
 
 // MoneyDiff formats a difference of two costs as report.Money does.

@@ -82,7 +82,7 @@ func TestNewHandWorked(t *testing.T) {
 	// Cut 0 (score 0.9): TP 1, FP 0, FN 2, TN 3.
 	// Cut 1 (score 0.8, the tie group of two): TP 2, FP 1, FN 1, TN 2.
 	// Projection at p = 0.5, volume 100:
-	//   cut 0: alert rate 1/3*0.5 + 0*0.5 = 1/6, queue 16.7, 40-16.7 = 23 under;
+	//   cut 0: alert rate 1/3*0.5 + 0*0.5 = 1/6, queue 16.7, 40-16.67 = 23.3 under;
 	//          cost per case 0.5*(2/3)*100 = 33.33, per shift 3333
 	//   cut 1: alert rate 2/3*0.5 + 1/3*0.5 = 0.5, queue 50, 10 over;
 	//          cost per case 0.5*(1/3)*10 + 0.5*(1/3)*100 = 18.33, per shift 1833
@@ -101,7 +101,7 @@ func TestNewHandWorked(t *testing.T) {
 		{"false positive rate", [2]string{"0.0%", "33.3%"}, [2]string{"", "+33.3 pt"}, [2]float64{0, 1.0 / 3}, 1.0 / 3},
 		{"projected alert rate", [2]string{"16.7%", "50.0%"}, [2]string{"", "+33.3 pt"}, [2]float64{1.0 / 6, 0.5}, 1.0 / 3},
 		{"queue per shift", [2]string{"16.7", "50.0"}, [2]string{"", "+33.3"}, [2]float64{100.0 / 6, 50}, 50 - 100.0/6},
-		{"against capacity 40", [2]string{"23 under", "10 over"}, [2]string{"", ""}, [2]float64{math.NaN(), math.NaN()}, math.NaN()},
+		{"against capacity 40", [2]string{"23.3 under", "10.0 over"}, [2]string{"", ""}, [2]float64{math.NaN(), math.NaN()}, math.NaN()},
 		{"cost per shift", [2]string{"3333", "1833"}, [2]string{"", "-1500"}, [2]float64{10000.0 / 3, 5500.0 / 3}, -1500},
 	}
 	for _, tc := range cases {
@@ -219,9 +219,11 @@ func TestDiffs(t *testing.T) {
 		{PointsDiff(-0.0004), "-0.0 pt"}, // keeps its sign although it rounds to 0
 		{PointsDiff(0), "same"},
 		{PointsDiff(math.NaN()), "n/a"},
-		{CountDiff(-250.4), "-250"},
+		{CountDiff(-250.4), "-250"}, // report.Count: no decimals from 100 up
 		{CountDiff(3), "+3"},
-		{CountDiff(12.25), "+12.2"}, // 'f' rounding of 12.25 gives 12.2 (binary 12.25 is exact; round half to even)
+		{CountDiff(2.5), "+2.50"},   // report.Count: two decimals for a weighted count below 100
+		{QueueDiff(12.25), "+12.2"}, // 'f' rounding of the exact binary 12.25 is half to even
+		{QueueDiff(-250.44), "-250.4"},
 		{MoneyDiff(-1500), "-1500"},
 		{MoneyDiff(12.5), "+12.50"},
 		{ScoreDiff(0.8 - 0.9), "-0.1"},
