@@ -1,0 +1,358 @@
+// Package bootstrap measures how far a cut would move if the validation set
+// were drawn again: a seeded, stratified bootstrap that resamples the true
+// cases and the false cases separately, re-applies each cut rule to every
+// replicate, and reports percentiles of where the cut lands and of the
+// hit-share and wrong-alert curves.
+//
+// Stratified means each replicate has exactly as many true-case rows and
+// false-case rows as the set: rows are drawn with replacement, uniformly
+// within their class, and carry their weights along (see the scores
+// package doc on weights). Which cases a cut flags follows the cut rule in
+// the doc of package scores. Percentiles interpolate linearly between
+// order statistics (numpy's default).
+//
+// Replicate b draws from its own generator, seeded with (Seed, b), so the
+// result depends on Seed and Replicates only, never on the number of
+// workers or their timing.
+package bootstrap
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"runtime"
+	"sort"
+	"sync"
+	"sync/atomic"
+
+	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/projection"
+	"github.com/sill-tool/sill/internal/scores"
+)
+
+// Low and High are the percentiles reported: together a 90% band.
+const (
+	Low  = 0.05
+	High = 0.95
+)
+
+// Options control a bootstrap run.
+type Options struct {
+	Replicates int    // number of resampled sets, at least 1
+	Seed       uint64 // the same seed and Replicates give the same result
+	Workers    int    // goroutines; 0 means runtime.GOMAXPROCS(0)
+
+	// BandCuts is how many of the set's cuts, spread evenly over the
+	// ranked rows, carry a band of hit share and wrong-alert share; 0
+	// means no band.
+	BandCuts int
+
+	// Progress, when set, is called with the number of replicates done so
+	// far, from the workers but never two calls at once.
+	Progress func(done int)
+
+	// FinderOptions, when set, returns extra options for the cut finder
+	// of a replicate; origin[i] is the set row that replicate row i was
+	// drawn from.
+	FinderOptions func(origin []int) []cutrule.Option
+}
+
+// Errors of Run.
+var (
+	ErrReplicates = errors.New("bootstrap needs at least 1 replicate")
+	ErrNoClass    = errors.New("bootstrap needs at least one true case and one false case")
+)
+
+// Spread is where one rule's cut lands across the replicates. Score and
+// FlaggedShare hold the Low and High percentiles over the replicates in
+// which the rule was met; they are NaN when it never was.
+type Spread struct {
+	Rule         cutrule.Rule
+	Met          int // replicates in which the rule was met
+	Score        [2]float64
+	FlaggedShare [2]float64
+}
+
+// BandPoint is the band at one of the set's cuts: the Low and High
+// percentiles of the replicates' recall and false discovery rate at the
+// same cut score. A percentile is NaN when the rate was undefined in over
+// half the replicates.
+type BandPoint struct {
+	Cut                int     // cut number on the set's curve
+	Score              float64 // the cut
+	Recall             [2]float64
+	FalseDiscoveryRate [2]float64
+}
+
+// Result is the outcome of a bootstrap run.
+type Result struct {
+	Replicates int
+	Seed       uint64
+	Spreads    []Spread // one per rule, in the order given
+	Band       []BandPoint
+}
+
+// Run resamples set opt.Replicates times and applies rules under a to each
+// replicate. set must be ranked (every scores.Set is). It returns
+// ErrNoClass when set lacks a class with weight in its rows' draws (no
+// true-case row or no false-case row), ErrReplicates for fewer than 1
+// replicate, the Finder's error for rules that do not suit a, and ctx's
+// error when cancelled.
+func Run(ctx context.Context, set *scores.Set, rules []cutrule.Rule, a projection.Assumptions, opt Options) (Result, error) {
+	if opt.Replicates < 1 {
+		return Result{}, fmt.Errorf("%w, got %d", ErrReplicates, opt.Replicates)
+	}
+	var positiveRows, negativeRows []int
+	for i, positive := range set.Labels {
+		if positive {
+			positiveRows = append(positiveRows, i)
+		} else {
+			negativeRows = append(negativeRows, i)
+		}
+	}
+	if len(positiveRows) == 0 || len(negativeRows) == 0 {
+		return Result{}, ErrNoClass
+	}
+	if _, err := cutrule.NewFinder(rules, set, a); err != nil {
+		return Result{}, err
+	}
+	workers := opt.Workers
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	workers = min(workers, opt.Replicates)
+	band := bandCuts(set, opt.BandCuts)
+
+	scoresAt := make([][]float64, len(rules)) // [rule][replicate], NaN when unmet
+	sharesAt := make([][]float64, len(rules))
+	for i := range rules {
+		scoresAt[i] = make([]float64, opt.Replicates)
+		sharesAt[i] = make([]float64, opt.Replicates)
+	}
+	recallAt := make([][]float64, len(band)) // [band cut][replicate]
+	fdrAt := make([][]float64, len(band))
+	for j := range band {
+		recallAt[j] = make([]float64, opt.Replicates)
+		fdrAt[j] = make([]float64, opt.Replicates)
+	}
+
+	var (
+		next     atomic.Int64
+		done     atomic.Int64
+		progress sync.Mutex
+		failure  error
+		failOnce sync.Once
+		wg       sync.WaitGroup
+	)
+	for range workers {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			r := newReplicator(set, positiveRows, negativeRows)
+			for {
+				b := int(next.Add(1) - 1)
+				if b >= opt.Replicates || ctx.Err() != nil {
+					return
+				}
+				rep := r.draw(opt.Seed, uint64(b))
+				var extra []cutrule.Option
+				if opt.FinderOptions != nil {
+					extra = opt.FinderOptions(r.origin)
+				}
+				finder, err := cutrule.NewFinder(rules, rep, a, extra...)
+				if err != nil {
+					failOnce.Do(func() { failure = err })
+					return
+				}
+				curve.Walk(rep, finder.Visit)
+				for i, o := range finder.Outcomes() {
+					scoresAt[i][b], sharesAt[i][b] = math.NaN(), math.NaN()
+					if o.Met {
+						scoresAt[i][b], sharesAt[i][b] = o.Point.Score, o.Point.FlaggedShare()
+					}
+				}
+				r.band(band, b, recallAt, fdrAt)
+				if opt.Progress != nil {
+					n := int(done.Add(1))
+					progress.Lock()
+					opt.Progress(n)
+					progress.Unlock()
+				}
+			}
+		}()
+	}
+	wg.Wait()
+	if err := ctx.Err(); err != nil {
+		return Result{}, err
+	}
+	if failure != nil {
+		return Result{}, failure
+	}
+	res := Result{Replicates: opt.Replicates, Seed: opt.Seed}
+	for i, rule := range rules {
+		s := Spread{Rule: rule}
+		s.Score, s.Met = percentiles(scoresAt[i], 0)
+		s.FlaggedShare, _ = percentiles(sharesAt[i], 0)
+		res.Spreads = append(res.Spreads, s)
+	}
+	for j, cut := range band {
+		p := BandPoint{Cut: cut.index, Score: cut.score}
+		p.Recall, _ = percentiles(recallAt[j], opt.Replicates/2)
+		p.FalseDiscoveryRate, _ = percentiles(fdrAt[j], opt.Replicates/2)
+		res.Band = append(res.Band, p)
+	}
+	return res, nil
+}
+
+// percentiles returns the Low and High percentiles of the defined values
+// and how many there were; both are NaN when there are no more than
+// atLeast of them (or none).
+func percentiles(values []float64, atLeast int) ([2]float64, int) {
+	defined := make([]float64, 0, len(values))
+	for _, v := range values {
+		if !math.IsNaN(v) {
+			defined = append(defined, v)
+		}
+	}
+	if len(defined) == 0 || len(defined) <= atLeast {
+		return [2]float64{math.NaN(), math.NaN()}, len(defined)
+	}
+	sort.Float64s(defined)
+	return [2]float64{Percentile(defined, Low), Percentile(defined, High)}, len(defined)
+}
+
+// Percentile returns the q-quantile of ascending values, interpolating
+// linearly between order statistics: position q*(n-1), numpy's default.
+// It returns NaN for no values and panics when q is outside [0,1].
+func Percentile(ascending []float64, q float64) float64 {
+	if !(q >= 0 && q <= 1) {
+		panic(fmt.Sprintf("bootstrap: percentile %v outside [0,1]", q))
+	}
+	n := len(ascending)
+	if n == 0 {
+		return math.NaN()
+	}
+	h := q * float64(n-1)
+	j := int(math.Floor(h))
+	if j >= n-1 {
+		return ascending[n-1]
+	}
+	t := h - float64(j)
+	return ascending[j] + t*(ascending[j+1]-ascending[j])
+}
+
+type bandCut struct {
+	index int
+	score float64
+	rows  int // rows flagged at the cut in the set
+}
+
+// bandCuts picks up to k cuts spread evenly over the ranked rows.
+func bandCuts(set *scores.Set, k int) []bandCut {
+	n := set.Len()
+	if k <= 0 || n == 0 {
+		return nil
+	}
+	c := curve.New(set)
+	var out []bandCut
+	last := -1
+	for j := 1; j <= k; j++ {
+		row := max(int(math.Ceil(float64(j)*float64(n)/float64(k)))-1, 0)
+		cut := c.CutOfRow(row)
+		if cut == last {
+			continue
+		}
+		last = cut
+		p := c.At(cut)
+		out = append(out, bandCut{index: cut, score: p.Score, rows: p.Rows})
+	}
+	return out
+}
+
+// replicator draws replicates of one set, reusing its buffers.
+type replicator struct {
+	set                        *scores.Set
+	positiveRows, negativeRows []int
+	counts                     []int32
+	origin                     []int
+	rep                        scores.Set
+}
+
+func newReplicator(set *scores.Set, positiveRows, negativeRows []int) *replicator {
+	n := set.Len()
+	r := &replicator{set: set, positiveRows: positiveRows, negativeRows: negativeRows, counts: make([]int32, n), origin: make([]int, 0, n)}
+	r.rep = scores.Set{
+		Scores:         make([]float64, 0, n),
+		Labels:         make([]bool, 0, n),
+		LowerIsRiskier: set.LowerIsRiskier,
+	}
+	if set.Weights != nil {
+		r.rep.Weights = make([]float64, 0, n)
+	}
+	return r
+}
+
+// draw builds replicate b: rows in the set's ranked order, each repeated
+// as often as it was drawn.
+func (r *replicator) draw(seed, b uint64) *scores.Set {
+	rng := rand.New(rand.NewPCG(seed, b))
+	clear(r.counts)
+	for range r.positiveRows {
+		r.counts[r.positiveRows[rng.IntN(len(r.positiveRows))]]++
+	}
+	for range r.negativeRows {
+		r.counts[r.negativeRows[rng.IntN(len(r.negativeRows))]]++
+	}
+	rep := &r.rep
+	rep.Scores, rep.Labels, r.origin = rep.Scores[:0], rep.Labels[:0], r.origin[:0]
+	if rep.Weights != nil {
+		rep.Weights = rep.Weights[:0]
+	}
+	for i, m := range r.counts {
+		for range m {
+			rep.Scores = append(rep.Scores, r.set.Scores[i])
+			rep.Labels = append(rep.Labels, r.set.Labels[i])
+			if rep.Weights != nil {
+				rep.Weights = append(rep.Weights, r.set.Weights[i])
+			}
+			r.origin = append(r.origin, i)
+		}
+	}
+	return rep
+}
+
+// band records the replicate's recall and false discovery rate at the
+// band cuts: the replicate's rows drawn from set rows before cut.rows.
+func (r *replicator) band(cuts []bandCut, b int, recallAt, fdrAt [][]float64) {
+	if len(cuts) == 0 {
+		return
+	}
+	var positives float64
+	for i, m := range r.counts {
+		if r.set.Labels[i] {
+			positives += float64(m) * r.set.Weight(i)
+		}
+	}
+	var tp, fp float64
+	row := 0
+	for j, cut := range cuts {
+		for ; row < cut.rows; row++ {
+			w := float64(r.counts[row]) * r.set.Weight(row)
+			if r.set.Labels[row] {
+				tp += w
+			} else {
+				fp += w
+			}
+		}
+		recallAt[j][b], fdrAt[j][b] = math.NaN(), math.NaN()
+		if positives > 0 {
+			recallAt[j][b] = tp / positives
+		}
+		if tp+fp > 0 {
+			fdrAt[j][b] = fp / (tp + fp)
+		}
+	}
+}

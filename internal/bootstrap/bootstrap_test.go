@@ -1,0 +1,211 @@
+package bootstrap_test
+
+import (
+	"context"
+	"errors"
+	"math"
+	"math/rand/v2"
+	"testing"
+
+	"github.com/sill-tool/sill/internal/bootstrap"
+	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/projection"
+	"github.com/sill-tool/sill/internal/scores"
+)
+
+// tolerance is the one float tolerance of this package's tests.
+const tolerance = 1e-12
+
+// close reports whether a and b agree within tolerance, NaN equal to NaN.
+func close(a, b float64) bool {
+	if math.IsNaN(a) || math.IsNaN(b) {
+		return math.IsNaN(a) && math.IsNaN(b)
+	}
+	return math.Abs(a-b) <= tolerance
+}
+
+// normalSet draws positives from N(shift,1) and negatives from N(0,1).
+func normalSet(t testing.TB, rng *rand.Rand, positives, negatives int, shift float64) *scores.Set {
+	t.Helper()
+	sc := make([]float64, 0, positives+negatives)
+	labels := make([]bool, 0, positives+negatives)
+	for range positives {
+		sc, labels = append(sc, rng.NormFloat64()+shift), append(labels, true)
+	}
+	for range negatives {
+		sc, labels = append(sc, rng.NormFloat64()), append(labels, false)
+	}
+	set, err := scores.New(sc, labels, nil, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return set
+}
+
+func rules(t testing.TB, specs ...string) []cutrule.Rule {
+	t.Helper()
+	var out []cutrule.Rule
+	for _, s := range specs {
+		r, err := cutrule.Parse(s)
+		if err != nil {
+			t.Fatal(err)
+		}
+		out = append(out, r)
+	}
+	return out
+}
+
+var assume = projection.Assumptions{BaseRate: 0.5, Confidence: 0.95}
+
+// TestPercentile: numpy's default, hand-worked. Of (1,2,3,4): q 0.05 sits
+// at position 0.15, 1 + 0.15 = 1.15; q 0.95 at 2.85, 3.85; q 0.5 at 1.5,
+// 2.5. One value is every percentile; none is NaN.
+func TestPercentile(t *testing.T) {
+	v := []float64{1, 2, 3, 4}
+	for q, want := range map[float64]float64{0.05: 1.15, 0.95: 3.85, 0.5: 2.5, 0: 1, 1: 4} {
+		if got := bootstrap.Percentile(v, q); math.Abs(got-want) > 1e-12 {
+			t.Errorf("q %v: %v, want %v", q, got, want)
+		}
+	}
+	if got := bootstrap.Percentile([]float64{7}, 0.95); got != 7 {
+		t.Errorf("one value: %v", got)
+	}
+	if got := bootstrap.Percentile(nil, 0.5); !math.IsNaN(got) {
+		t.Errorf("none: %v", got)
+	}
+}
+
+// TestReproducible: the same seed gives the same result whatever the
+// number of workers; another seed gives another.
+func TestReproducible(t *testing.T) {
+	set := normalSet(t, rand.New(rand.NewPCG(1, 2)), 60, 140, 1.2)
+	rs := rules(t, "hit=0.8", "wrong=0.4", "top=10%", "base")
+	run := func(seed uint64, workers int) bootstrap.Result {
+		res, err := bootstrap.Run(context.Background(), set, rs, assume, bootstrap.Options{Replicates: 150, Seed: seed, Workers: workers, BandCuts: 20})
+		if err != nil {
+			t.Fatal(err)
+		}
+		return res
+	}
+	one, two, again, other := run(42, 1), run(42, 2), run(42, 2), run(43, 2)
+	same := func(a, b bootstrap.Result) bool {
+		for i := range a.Spreads {
+			x, y := a.Spreads[i], b.Spreads[i]
+			if x.Met != y.Met || !close(x.Score[0], y.Score[0]) || !close(x.Score[1], y.Score[1]) || !close(x.FlaggedShare[0], y.FlaggedShare[0]) || !close(x.FlaggedShare[1], y.FlaggedShare[1]) {
+				return false
+			}
+		}
+		for j := range a.Band {
+			if !close(a.Band[j].Recall[0], b.Band[j].Recall[0]) || !close(a.Band[j].FalseDiscoveryRate[1], b.Band[j].FalseDiscoveryRate[1]) {
+				return false
+			}
+		}
+		return len(a.Band) == len(b.Band)
+	}
+	if !same(one, two) || !same(two, again) {
+		t.Error("same seed, different result")
+	}
+	if same(one, other) {
+		t.Error("another seed gave the very same result")
+	}
+	if len(one.Band) != 20 {
+		t.Errorf("band of %d cuts, want 20", len(one.Band))
+	}
+	for _, s := range one.Spreads {
+		if s.Met != 150 || !(s.Score[0] <= s.Score[1]) || !(s.FlaggedShare[0] <= s.FlaggedShare[1]) {
+			t.Errorf("%s: %+v", s.Rule, s)
+		}
+	}
+	// The band is ordered: looser cuts catch more.
+	for j := 1; j < len(one.Band); j++ {
+		if one.Band[j].Recall[1] < one.Band[j-1].Recall[1] {
+			t.Errorf("band recall falls at cut %d", j)
+		}
+	}
+}
+
+// TestCoverage: a simulation that the 5th-95th percentile band of the
+// hit=0.8 cut covers the population's cut about 90% of the time. True
+// cases are N(1,1), false cases N(0,1); the population cut for a hit share
+// of 0.8 is the 20th percentile of N(1,1), 1 + Φ⁻¹(0.2), and the flagged
+// share there, with classes at one half, is 0.4 + 0.5·(1 - Φ(cut)).
+// Seeded: 200 sets of 100 + 100 rows, 200 replicates each.
+func TestCoverage(t *testing.T) {
+	if testing.Short() {
+		t.Skip("simulation")
+	}
+	phi := func(x float64) float64 { return 0.5 * (1 + math.Erf(x/math.Sqrt2)) }
+	trueCut := 1 + math.Sqrt2*math.Erfinv(2*0.2-1)
+	trueShare := 0.4 + 0.5*(1-phi(trueCut))
+	rng := rand.New(rand.NewPCG(2026, 12))
+	const sets = 200
+	coveredCut, coveredShare := 0, 0
+	for s := range sets {
+		set := normalSet(t, rng, 100, 100, 1)
+		res, err := bootstrap.Run(context.Background(), set, rules(t, "hit=0.8"), assume, bootstrap.Options{Replicates: 200, Seed: uint64(s)})
+		if err != nil {
+			t.Fatal(err)
+		}
+		sp := res.Spreads[0]
+		if sp.Score[0] <= trueCut && trueCut <= sp.Score[1] {
+			coveredCut++
+		}
+		if sp.FlaggedShare[0] <= trueShare && trueShare <= sp.FlaggedShare[1] {
+			coveredShare++
+		}
+	}
+	// Binomial sd of a 90% coverage over 200 sets is about 2.1 points; the
+	// bounds are roughly three of them.
+	for name, covered := range map[string]int{"cut score": coveredCut, "flagged share": coveredShare} {
+		rate := float64(covered) / sets
+		t.Logf("%s coverage %.3f (nominal 0.90)", name, rate)
+		if rate < 0.83 || rate > 0.97 {
+			t.Errorf("%s: coverage %.3f, expected near 0.90", name, rate)
+		}
+	}
+}
+
+func TestErrorsAndProgress(t *testing.T) {
+	oneClass, _ := scores.New([]float64{0.1, 0.2}, []bool{true, true}, nil, false)
+	if _, err := bootstrap.Run(context.Background(), oneClass, rules(t, "hit=0.5"), assume, bootstrap.Options{Replicates: 10}); !errors.Is(err, bootstrap.ErrNoClass) {
+		t.Errorf("one class: %v", err)
+	}
+	empty, _ := scores.New(nil, nil, nil, false)
+	if _, err := bootstrap.Run(context.Background(), empty, nil, assume, bootstrap.Options{Replicates: 10}); !errors.Is(err, bootstrap.ErrNoClass) {
+		t.Errorf("empty: %v", err)
+	}
+	set := normalSet(t, rand.New(rand.NewPCG(3, 3)), 20, 20, 1)
+	if _, err := bootstrap.Run(context.Background(), set, nil, assume, bootstrap.Options{}); !errors.Is(err, bootstrap.ErrReplicates) {
+		t.Errorf("no replicates: %v", err)
+	}
+	if _, err := bootstrap.Run(context.Background(), set, rules(t, "queue=5"), assume, bootstrap.Options{Replicates: 3}); !errors.Is(err, cutrule.ErrNeedsVolume) {
+		t.Errorf("queue without volume: %v", err)
+	}
+	calls, last := 0, 0
+	_, err := bootstrap.Run(context.Background(), set, rules(t, "hit=0.5"), assume, bootstrap.Options{Replicates: 30, Workers: 2, Progress: func(done int) { calls++; last = max(last, done) }})
+	if err != nil || calls != 30 || last != 30 {
+		t.Errorf("progress: %d calls, last %d, %v", calls, last, err)
+	}
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	if _, err := bootstrap.Run(ctx, set, rules(t, "hit=0.5"), assume, bootstrap.Options{Replicates: 30}); !errors.Is(err, context.Canceled) {
+		t.Errorf("cancelled: %v", err)
+	}
+	// A rule never met has NaN percentiles and Met 0.
+	res, err := bootstrap.Run(context.Background(), set, rules(t, "score=100"), assume, bootstrap.Options{Replicates: 5})
+	if err != nil || res.Spreads[0].Met != 0 || !math.IsNaN(res.Spreads[0].Score[0]) {
+		t.Errorf("unmet: %+v %v", res.Spreads, err)
+	}
+}
+
+// BenchmarkDemoSize resamples a set of the demo's size (6000 rows) with
+// the three default rules, on every core.
+func BenchmarkDemoSize(b *testing.B) {
+	set := normalSet(b, rand.New(rand.NewPCG(5, 5)), 430, 5570, 1.9)
+	rs := rules(b, "base", "hit=0.8", "wrong=0.333")
+	for b.Loop() {
+		if _, err := bootstrap.Run(context.Background(), set, rs, assume, bootstrap.Options{Replicates: 200, Seed: 1, BandCuts: 100}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
