@@ -93,7 +93,13 @@ func figuresTable(r *Report) table {
 		row := []string{name}
 		for i, c := range r.Cuts {
 			if !c.Met {
-				row = append(row, "unmet")
+				// "unmet" once, at the top of the column; the reason
+				// follows the table.
+				if len(t.rows) == 0 {
+					row = append(row, "unmet")
+				} else {
+					row = append(row, "–")
+				}
 				continue
 			}
 			row = append(row, value(c, r.cutsEvidence[i]))
@@ -113,13 +119,15 @@ func figuresTable(r *Report) table {
 		add("projected wrong-alert share", func(c cut, e evidence.Cut) string { return Percent(e.Projected.FalseDiscoveryRate()) })
 	}
 	if evidence.Defined(float64(r.Assumptions.Volume)) {
-		add("queue per shift", func(c cut, e evidence.Cut) string { return Count(e.Projected.QueuePerShift) })
+		add("queue per shift", func(c cut, e evidence.Cut) string { return Queue(e.Projected.QueuePerShift) })
 		if cap := float64(r.Assumptions.Capacity); evidence.Defined(cap) {
-			add("  against capacity "+Count(cap), func(c cut, e evidence.Cut) string { return Against(e.Projected.QueuePerShift, cap) })
+			add("  against capacity "+asGiven(cap), func(c cut, e evidence.Cut) string { return Against(e.Projected.QueuePerShift, cap) })
 		}
 		if evidence.Defined(float64(r.Assumptions.CostFalseAlert)) {
 			add("cost per shift", func(c cut, e evidence.Cut) string { return Money(e.Projected.CostPerShift) })
 		}
+	} else if evidence.Defined(float64(r.Assumptions.CostFalseAlert)) {
+		add("cost per case", func(c cut, e evidence.Cut) string { return Money(e.Projected.CostPerCase) })
 	}
 	return t
 }
@@ -156,8 +164,9 @@ func WriteText(w io.Writer, r *Report) error {
 	for _, warning := range r.Warnings {
 		fmt.Fprintf(&b, "\nwarning: %s", warning)
 	}
-	fmt.Fprintf(&b, "\n\ncaution: %s\n", r.Caution)
-	_, err := io.WriteString(w, b.String())
+	// One blank line before the caution, whatever came last.
+	text := strings.TrimRight(b.String(), "\n") + "\n\ncaution: " + r.Caution + "\n"
+	_, err := io.WriteString(w, text)
 	return err
 }
 
@@ -175,7 +184,10 @@ func WriteMarkdown(w io.Writer, r *Report) error {
 	b.WriteString("| " + strings.Join(mdEscapeAll(t.header), " | ") + " |\n")
 	b.WriteString("|" + strings.Repeat(" --- |", len(t.header)) + "\n")
 	for _, row := range t.rows {
-		row[0] = strings.TrimSpace(row[0])
+		// Markdown drops leading spaces: mark the sub-rows instead.
+		if strings.HasPrefix(row[0], "  ") {
+			row[0] = "↳ " + strings.TrimSpace(row[0])
+		}
 		b.WriteString("| " + strings.Join(mdEscapeAll(row), " | ") + " |\n")
 	}
 	for _, c := range r.Cuts {
@@ -187,8 +199,8 @@ func WriteMarkdown(w io.Writer, r *Report) error {
 	for _, warning := range r.Warnings {
 		fmt.Fprintf(&b, "\n- **Warning:** %s", mdEscape(warning))
 	}
-	fmt.Fprintf(&b, "\n\n> **Caution.** %s\n", r.Caution)
-	_, err := io.WriteString(w, b.String())
+	text := strings.TrimRight(b.String(), "\n") + "\n\n> **Caution.** " + r.Caution + "\n"
+	_, err := io.WriteString(w, text)
 	return err
 }
 
@@ -199,10 +211,10 @@ func (r *Report) assumptionLine() string {
 		parts[0] += " (the validation rate)"
 	}
 	if evidence.Defined(float64(a.Volume)) {
-		parts = append(parts, Count(float64(a.Volume))+" cases per shift")
+		parts = append(parts, asGiven(float64(a.Volume))+" cases per shift")
 	}
 	if evidence.Defined(float64(a.Capacity)) {
-		parts = append(parts, "capacity "+Count(float64(a.Capacity))+" alerts per shift")
+		parts = append(parts, "capacity "+asGiven(float64(a.Capacity))+" alerts per shift")
 	}
 	if evidence.Defined(float64(a.CostFalseAlert)) {
 		parts = append(parts, fmt.Sprintf("costs: wrong alert %s, miss %s, hit %s", Money(float64(a.CostFalseAlert)), Money(float64(a.CostMiss)), Money(float64(a.CostHit))))
@@ -260,10 +272,17 @@ func plural(n int, one, many string) string {
 }
 
 // Percent formats a share as a percentage with one decimal, "n/a" when
-// undefined.
+// undefined. A share that is not 0 (or 1) but rounds to it reads "<0.1%"
+// (or ">99.9%"), so that a rounded figure never looks exact.
 func Percent(v float64) string {
 	if !evidence.Defined(v) {
 		return "n/a"
+	}
+	switch {
+	case v > 0 && v < 0.0005:
+		return "<0.1%"
+	case v < 1 && v >= 0.9995:
+		return ">99.9%"
 	}
 	return strconv.FormatFloat(100*v, 'f', 1, 64) + "%"
 }
@@ -276,30 +295,52 @@ func Range(ci [2]float64) string {
 	return strconv.FormatFloat(100*ci[0], 'f', 1, 64) + "–" + strconv.FormatFloat(100*ci[1], 'f', 1, 64) + "%"
 }
 
-// Count formats a count: whole numbers plainly, weighted counts with up to
-// two decimals.
+// Count formats a count: whole numbers plainly, weighted counts below 100
+// with two decimals, larger ones rounded to whole numbers.
 func Count(v float64) string {
 	if !evidence.Defined(v) {
 		return "n/a"
 	}
-	if v == math.Trunc(v) && math.Abs(v) < 1e15 {
-		return strconv.FormatFloat(v, 'f', 0, 64)
-	}
 	if math.Abs(v) >= 100 {
-		return strconv.FormatFloat(v, 'f', 0, 64)
+		return wholeOrTwo(v, 0)
 	}
-	return strconv.FormatFloat(v, 'f', 2, 64)
+	return wholeOrTwo(v, 2)
 }
 
-// Money formats a cost with no decimals past the hundreds.
+// wholeOrTwo formats v with the given decimals, dropping ".00" so that an
+// amount that rounds to a whole number (such as 60.00000000000001, the sum
+// of rounded shares) reads as one, and never writing "-0".
+func wholeOrTwo(v float64, decimals int) string {
+	text := strings.TrimSuffix(strconv.FormatFloat(v, 'f', decimals, 64), ".00")
+	if text == "-0" {
+		return "0"
+	}
+	return text
+}
+
+// asGiven formats an assumption the way a person types it: 1500, 37.5.
+func asGiven(v float64) string { return strconv.FormatFloat(v, 'f', -1, 64) }
+
+// Money formats a cost: amounts of 100 or more and whole amounts with no
+// decimals, smaller fractional amounts with two.
 func Money(v float64) string {
 	if !evidence.Defined(v) {
 		return "n/a"
 	}
 	if math.Abs(v) >= 100 {
-		return strconv.FormatFloat(v, 'f', 0, 64)
+		return wholeOrTwo(v, 0)
 	}
-	return strconv.FormatFloat(v, 'f', 2, 64)
+	return wholeOrTwo(v, 2)
+}
+
+// Queue formats a projected number of alerts per shift, an expectation
+// rather than a count, always with one decimal so that a column of queues
+// reads alike.
+func Queue(v float64) string {
+	if !evidence.Defined(v) {
+		return "n/a"
+	}
+	return strconv.FormatFloat(v, 'f', 1, 64)
 }
 
 // Fixed formats v with the given decimals, "n/a" when undefined.
@@ -318,17 +359,20 @@ func Score(v float64) string {
 	return strconv.FormatFloat(v, 'g', -1, 64)
 }
 
-// Against says how a queue stands against capacity, as "12 under" or
-// "30 over".
+// Against says how a queue stands against capacity, as "12.5 under" or
+// "30.0 over", in the queue's own one decimal; a difference that rounds
+// to 0.0 is "at capacity".
 func Against(queue, capacity float64) string {
 	if !evidence.Defined(queue) {
 		return "n/a"
 	}
-	switch d := queue - capacity; {
+	d := queue - capacity
+	switch rounded := math.Round(10*math.Abs(d)) / 10; {
+	case rounded == 0:
+		return "at capacity"
 	case d > 0:
-		return Count(math.Round(d)) + " over"
-	case d < 0:
-		return Count(math.Round(-d)) + " under"
+		return Queue(rounded) + " over"
+	default:
+		return Queue(rounded) + " under"
 	}
-	return "at capacity"
 }
