@@ -22,6 +22,7 @@ type reportOptions struct {
 	withCurve bool
 	cuts      []string
 	beyond    beyondFlags // segments, shift peaks, stability, calibration, two models: beyond.go
+	save      saveFlags   // --save, --choose, --force: save.go
 }
 
 func newReportCmd() *cobra.Command {
@@ -42,7 +43,8 @@ Without --cut: base, hit=0.8 and wrong=0.333, plus queue=capacity and cost
 when --capacity or costs are given.`,
 		Example: `  sill demo --out bearings.csv
   sill report bearings.csv --volume 1500 --capacity 90
-  sill report bearings.csv --cut hit=0.9 --cut top=2% --format json`,
+  sill report bearings.csv --cut hit=0.9 --cut top=2% --format json
+  sill report bearings.csv --cut hit=0.8 --cut base --save cut.yaml --choose base`,
 		Args: cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if err := o.beyond.prepare(&o.input); err != nil {
@@ -62,6 +64,7 @@ when --capacity or costs are given.`,
 	fs.BoolVar(&o.withCurve, "curve", false, "add the full per-cut table")
 	fs.StringArrayVar(&o.cuts, "cut", nil, "cut spec to report (repeatable), e.g. hit=0.8")
 	o.beyond.register(fs)
+	o.save.register(fs)
 	return cmd
 }
 
@@ -97,10 +100,16 @@ func (o *reportOptions) run(set *scores.Set, stdout, stderr io.Writer) error {
 	}
 	points := func(visit func(curve.Point)) { curve.Walk(set, visit) }
 	if o.format == "csv" {
+		if o.save.path != "" {
+			return fmt.Errorf("--save needs the figures of the cuts; it does not go with --format csv")
+		}
 		return report.WriteCurveCSV(stdout, points)
 	}
 	sum := curve.Walk(set, finder.Visit)
 	outcomes := finder.Outcomes()
+	if err := o.save.write(set, a, outcomes, stderr); err != nil {
+		return err
+	}
 	r := report.New(set, sum, a, outcomes)
 	if err := o.beyond.apply(r, set, sum, a, rules, outcomes); err != nil {
 		return err

@@ -1,0 +1,102 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"strings"
+
+	"github.com/spf13/pflag"
+
+	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/decision"
+	"github.com/sill-tool/sill/internal/evidence"
+	"github.com/sill-tool/sill/internal/projection"
+	"github.com/sill-tool/sill/internal/report"
+	"github.com/sill-tool/sill/internal/scores"
+)
+
+// saveFlags are report's flags that save the cuts as a decision file.
+type saveFlags struct {
+	path   string
+	choose string
+	force  bool
+}
+
+func (s *saveFlags) register(fs *pflag.FlagSet) {
+	fs.StringVar(&s.path, "save", "", "save the cuts with their evidence to this decision file (YAML, see sill review)")
+	fs.StringVar(&s.choose, "choose", "", "with --save: the cut to mark as chosen, by its spec (default: the first --cut)")
+	fs.BoolVar(&s.force, "force", false, "with --save: replace a file made from other data, or one that is not a decision file")
+}
+
+// check rejects --choose and --force without --save.
+func (s *saveFlags) check() error {
+	if s.path == "" && (s.choose != "" || s.force) {
+		return errors.New("--choose and --force go with --save FILE.yaml")
+	}
+	return nil
+}
+
+// write saves the outcomes as candidates, named by their specs, when
+// --save is given; every outcome must be met.
+func (s *saveFlags) write(set *scores.Set, a projection.Assumptions, outcomes []cutrule.Outcome, stderr io.Writer) error {
+	if err := s.check(); err != nil || s.path == "" {
+		return err
+	}
+	var candidates []decision.Candidate
+	var names []string
+	for _, o := range outcomes {
+		name := o.Rule.String()
+		if !o.Met {
+			return fmt.Errorf("--save: cut %s is not met (%s); change or drop it to save", name, o.Reason)
+		}
+		for _, n := range names {
+			if n == name {
+				return fmt.Errorf("--save: cut %s is given twice; each saved cut needs its own spec", name)
+			}
+		}
+		names = append(names, name)
+		candidates = append(candidates, decision.Candidate{Name: name, Rule: name, Cut: evidence.Of(o.Point, a)})
+	}
+	chosen := s.choose
+	if chosen != "" {
+		if r, err := cutrule.Parse(chosen); err == nil {
+			chosen = r.String() // --choose hit=.8 names hit=0.8
+		}
+		found := false
+		for _, n := range names {
+			found = found || n == chosen
+		}
+		if !found {
+			return fmt.Errorf("--choose %q: expected one of the saved cuts %s", s.choose, strings.Join(names, ", "))
+		}
+	}
+	f, err := decision.New(set, a, candidates, chosen, versionString())
+	if err != nil {
+		return fmt.Errorf("--save: %w", err)
+	}
+	err = decision.Write(s.path, f, s.force)
+	switch {
+	case errors.Is(err, decision.ErrDifferentData):
+		return fmt.Errorf("%w; add --force to replace it, or save to another file", err)
+	case errors.Is(err, decision.ErrNotDecisionFile):
+		return fmt.Errorf("%w; add --force to replace it, or save to another file", err)
+	case err != nil:
+		return err
+	}
+	c, _ := f.ChosenCandidate()
+	sign := ">="
+	if set.LowerIsRiskier {
+		sign = "<="
+	}
+	fmt.Fprintf(stderr, "sill: saved %d %s to %s; chosen %s: flag when score %s %s\n",
+		len(candidates), pluralWord(len(candidates), "cut", "cuts"), s.path, c.Name, sign, report.Score(c.Cut.Score))
+	return nil
+}
+
+func pluralWord(n int, one, many string) string {
+	if n == 1 {
+		return one
+	}
+	return many
+}
