@@ -69,7 +69,7 @@ func (f *inputFlags) load(path string, stdin io.Reader, progress func(rows int))
 	if info, err := file.Stat(); err == nil && info.IsDir() {
 		return nil, fmt.Errorf("read scores: %s is a directory, expected a file", path)
 	}
-	return scores.Read(file, path, opt)
+	return scores.Load(file, path, opt) // the block reader; it hands what it cannot take to scores.Read
 }
 
 // loadDemo reads the built-in demo data with the same options.

@@ -109,6 +109,12 @@ func Walk(set *scores.Set, visit func(Point)) Summary {
 	for start := 0; start < n; {
 		score := scoresList[start]
 		var groupTP, groupFP float64
+		// The log terms are the same for every row of the group.
+		var logP, logNotP float64
+		if sum.Probabilities {
+			p := min(max(score, logLossClip), 1-logLossClip)
+			logP, logNotP = math.Log(p), math.Log(1-p)
+		}
 		end := start
 		for ; end < n && scoresList[end] == score; end++ {
 			w := set.Weight(end)
@@ -126,8 +132,7 @@ func Walk(set *scores.Set, visit func(Point)) Summary {
 					y = 1
 				}
 				brier += w * (score - y) * (score - y)
-				p := min(max(score, logLossClip), 1-logLossClip)
-				logLoss -= w * (y*math.Log(p) + (1-y)*math.Log(1-p))
+				logLoss -= w * (y*logP + (1-y)*logNotP)
 			}
 			totalWeight += w
 		}

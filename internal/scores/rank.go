@@ -2,8 +2,10 @@ package scores
 
 import (
 	"math"
+	"math/bits"
 	"runtime"
 	"sync"
+	"sync/atomic"
 )
 
 // riskKey maps a score to a key whose ascending order is riskiest first.
@@ -86,12 +88,15 @@ func rankOrder(scores []float64, lowerIsRiskier bool) []uint32 {
 	return order
 }
 
-// Digits of the in-place radix sort: 11 bits, so six passes cover a key.
+// The in-place sort first spreads the keys into buckets by their top
+// bucketBits varying bits (one pass over the whole set), then sorts each
+// bucket, which mostly fits in the processor's cache, by its remaining bits
+// with a byte-wise least-significant-digit radix sort.
 const (
-	digitBits  = 11
-	digitCount = 1 << digitBits
-	digitMask  = digitCount - 1
-	digitPass  = (64 + digitBits - 1) / digitBits
+	bucketBits  = 12
+	bucketCount = 1 << bucketBits
+	// smallBucket is the size below which a bucket is sorted by insertion.
+	smallBucket = 48
 )
 
 // parallelSortRows is the size from which rankInPlace uses two goroutines.
@@ -108,152 +113,227 @@ func rankInPlace(scores []float64, labels []bool, weights []float64, lowerIsRisk
 	if n < 2 {
 		return
 	}
-	sorted := true
-	previous := riskKey(scores[0], lowerIsRiskier)
-	for _, s := range scores[1:] {
-		k := riskKey(s, lowerIsRiskier)
-		if k < previous {
-			sorted = false
-			break
-		}
-		previous = k
-	}
-	if sorted {
-		return
-	}
 	workers := 1
 	if n >= parallelSortRows && runtime.GOMAXPROCS(0) > 1 {
 		workers = 2
 	}
-	// Encode the keys in place and count every digit of every key at once.
-	hist := make([][digitPass][digitCount]int, workers)
 	parts := splitRange(n, workers)
 	var wg sync.WaitGroup
+	// Encode the keys in place, noting the smallest and largest key and
+	// whether they are in order already.
+	type span struct {
+		low, high uint64
+		sorted    bool
+	}
+	spans := make([]span, workers)
+	for w := range workers {
+		wg.Add(1)
+		go func(w int) {
+			defer wg.Done()
+			sp := span{low: math.MaxUint64, sorted: true}
+			previous := uint64(0)
+			for i := parts[w]; i < parts[w+1]; i++ {
+				k := riskKey(scores[i], lowerIsRiskier)
+				scores[i] = math.Float64frombits(k)
+				sp.low, sp.high = min(sp.low, k), max(sp.high, k)
+				if k < previous {
+					sp.sorted = false
+				}
+				previous = k
+			}
+			spans[w] = sp
+		}(w)
+	}
+	wg.Wait()
+	low, high, sorted := uint64(math.MaxUint64), uint64(0), true
+	for w, sp := range spans {
+		low, high = min(low, sp.low), max(high, sp.high)
+		sorted = sorted && sp.sorted
+		if w > 0 && math.Float64bits(scores[parts[w]-1]) > math.Float64bits(scores[parts[w]]) {
+			sorted = false
+		}
+	}
+	if sorted || low == high {
+		decodeKeys(scores, lowerIsRiskier)
+		return
+	}
+	// The bucket digit: the top bucketBits bits below the prefix all keys share.
+	varying := 64 - bits.LeadingZeros64(low^high)
+	shift := uint(max(0, varying-bucketBits))
+
+	// Spread the keys into buckets, from scores into keys.
+	hist := make([][bucketCount]int, workers)
 	for w := range workers {
 		wg.Add(1)
 		go func(w int) {
 			defer wg.Done()
 			h := &hist[w]
 			for i := parts[w]; i < parts[w+1]; i++ {
-				k := riskKey(scores[i], lowerIsRiskier)
-				scores[i] = math.Float64frombits(k)
-				for p := range digitPass {
-					h[p][(k>>(p*digitBits))&digitMask]++
+				h[(math.Float64bits(scores[i])>>shift)&(bucketCount-1)]++
+			}
+		}(w)
+	}
+	wg.Wait()
+	// next[w][d]: where worker w writes its next key of bucket d, so that
+	// each worker's keys follow those of the workers before it.
+	next := make([][bucketCount]int, workers)
+	var bucketStart [bucketCount + 1]int
+	offset := 0
+	for d := range bucketCount {
+		bucketStart[d] = offset
+		for w := range workers {
+			next[w][d] = offset
+			offset += hist[w][d]
+		}
+	}
+	bucketStart[bucketCount] = n
+	keys := make([]float64, n)
+	labs := make([]bool, n)
+	var wts []float64
+	if weights != nil {
+		wts = make([]float64, n)
+	}
+	for w := range workers {
+		wg.Add(1)
+		go func(w int) {
+			defer wg.Done()
+			at := &next[w]
+			for i := parts[w]; i < parts[w+1]; i++ {
+				k := scores[i]
+				d := (math.Float64bits(k) >> shift) & (bucketCount - 1)
+				j := at[d]
+				keys[j] = k
+				labs[j] = labels[i]
+				if wts != nil {
+					wts[j] = weights[i]
 				}
+				at[d] = j + 1
 			}
 		}(w)
 	}
 	wg.Wait()
 
-	// The passes to run: skip a digit that every key shares.
-	var active []int
-	for p := range digitPass {
-		d := (math.Float64bits(scores[0]) >> (p * digitBits)) & digitMask
-		total := 0
-		for w := range workers {
-			total += hist[w][p][d]
-		}
-		if total != n {
-			active = append(active, p)
-		}
-	}
-	keys, keysTmp := scores, make([]float64, n)
-	labs, labsTmp := labels, make([]bool, n)
-	var wts, wtsTmp []float64
-	if weights != nil {
-		wts, wtsTmp = weights, make([]float64, n)
-	}
-	// partHist[w][d]: keys of digit d in part w of the current arrangement.
-	partHist := make([][digitCount]int, workers)
-	if len(active) > 0 {
-		for w := range workers {
-			partHist[w] = hist[w][active[0]]
-		}
-	}
-	// nextHist[w][part][d]: digits of the next pass among the keys that
-	// worker w writes into part; summed over w it is the next partHist.
-	nextHist := make([][][digitCount]int, workers)
-	for w := range nextHist {
-		nextHist[w] = make([][digitCount]int, workers)
-	}
-	for a, p := range active {
-		shift := uint(p * digitBits)
-		nextShift, hasNext := uint(0), a+1 < len(active)
-		if hasNext {
-			nextShift = uint(active[a+1] * digitBits)
-		}
-		// offsets[w][d]: where worker w writes its first key of digit d, so
-		// that each worker's keys follow those of the workers before it.
-		offsets := make([][digitCount]int, workers)
-		offset := 0
-		for d := range digitCount {
-			for w := range workers {
-				offsets[w][d] = offset
-				offset += partHist[w][d]
-			}
-		}
-		for w := range workers {
-			wg.Add(1)
-			go func(w int) {
-				defer wg.Done()
-				next := &offsets[w]
-				counts := nextHist[w]
-				for part := range counts {
-					counts[part] = [digitCount]int{}
-				}
-				boundary := parts[1] // only used with two workers
-				for i := parts[w]; i < parts[w+1]; i++ {
-					k := keys[i]
-					bits := math.Float64bits(k)
-					d := (bits >> shift) & digitMask
-					at := next[d]
-					keysTmp[at] = k
-					labsTmp[at] = labs[i]
-					if wts != nil {
-						wtsTmp[at] = wts[i]
-					}
-					next[d] = at + 1
-					if hasNext {
-						part := 0
-						if workers > 1 && at >= boundary {
-							part = 1
-						}
-						counts[part][(bits>>nextShift)&digitMask]++
-					}
-				}
-			}(w)
-		}
-		wg.Wait()
-		keys, keysTmp = keysTmp, keys
-		labs, labsTmp = labsTmp, labs
-		wts, wtsTmp = wtsTmp, wts
-		if hasNext {
-			for part := range workers {
-				partHist[part] = [digitCount]int{}
-				for w := range workers {
-					for d := range digitCount {
-						partHist[part][d] += nextHist[w][part][d]
-					}
-				}
-			}
-		}
-	}
-	// Decode into the caller's slices.
-	for w := range workers {
+	// Sort each bucket by the bits below the bucket digit, using the
+	// caller's slices as scratch, and decode the keys back into them.
+	var claimed atomic.Int64
+	for range workers {
 		wg.Add(1)
-		go func(w int) {
+		go func() {
 			defer wg.Done()
-			for i := parts[w]; i < parts[w+1]; i++ {
-				scores[i] = scoreOfKey(math.Float64bits(keys[i]), lowerIsRiskier)
+			var counts [8][256]int
+			for {
+				d := int(claimed.Add(1) - 1)
+				if d >= bucketCount {
+					return
+				}
+				lo, hi := bucketStart[d], bucketStart[d+1]
+				if hi == lo {
+					continue
+				}
+				c := bucketColumns{keys[lo:hi], labs[lo:hi], nil}
+				scratch := bucketColumns{scores[lo:hi], labels[lo:hi], nil}
+				if wts != nil {
+					c.weights, scratch.weights = wts[lo:hi], weights[lo:hi]
+				}
+				sortBucket(c, scratch, shift, &counts)
+				for i, k := range c.keys {
+					scratch.keys[i] = scoreOfKey(math.Float64bits(k), lowerIsRiskier)
+				}
+				copy(scratch.labels, c.labels)
+				if wts != nil {
+					copy(scratch.weights, c.weights)
+				}
 			}
-		}(w)
+		}()
 	}
 	wg.Wait()
-	if &labs[0] != &labels[0] {
-		copy(labels, labs)
+}
+
+// bucketColumns is one bucket of keys and the columns carried with them.
+type bucketColumns struct {
+	keys    []float64 // key bits
+	labels  []bool
+	weights []float64 // nil when unweighted
+}
+
+// sortBucket sorts c stably by the key bits below shift, using scratch (of
+// the same length) as room; the result is in c.
+func sortBucket(c, scratch bucketColumns, shift uint, counts *[8][256]int) {
+	n := len(c.keys)
+	if n < smallBucket {
+		insertionSort(c)
+		return
 	}
-	if weights != nil && &wts[0] != &weights[0] {
-		copy(weights, wts)
+	passes := int(shift+7) / 8
+	for p := range passes {
+		counts[p] = [256]int{}
+	}
+	for _, k := range c.keys {
+		bits := math.Float64bits(k)
+		for p := range passes {
+			counts[p][byte(bits>>(8*p))]++
+		}
+	}
+	from, to := c, scratch
+	for p := range passes {
+		digitShift := uint(8 * p)
+		h := &counts[p]
+		if h[byte(math.Float64bits(from.keys[0])>>digitShift)] == n {
+			continue // every key has this byte
+		}
+		offset := 0
+		for d, count := range h {
+			h[d] = offset
+			offset += count
+		}
+		for i, k := range from.keys {
+			d := byte(math.Float64bits(k) >> digitShift)
+			j := h[d]
+			to.keys[j] = k
+			to.labels[j] = from.labels[i]
+			if from.weights != nil {
+				to.weights[j] = from.weights[i]
+			}
+			h[d] = j + 1
+		}
+		from, to = to, from
+	}
+	if &from.keys[0] != &c.keys[0] {
+		copy(c.keys, from.keys)
+		copy(c.labels, from.labels)
+		if c.weights != nil {
+			copy(c.weights, from.weights)
+		}
+	}
+}
+
+// insertionSort sorts a short bucket stably by key.
+func insertionSort(c bucketColumns) {
+	for i := 1; i < len(c.keys); i++ {
+		k, label := c.keys[i], c.labels[i]
+		var weight float64
+		if c.weights != nil {
+			weight = c.weights[i]
+		}
+		j := i
+		for ; j > 0 && math.Float64bits(c.keys[j-1]) > math.Float64bits(k); j-- {
+			c.keys[j] = c.keys[j-1]
+			c.labels[j] = c.labels[j-1]
+			if c.weights != nil {
+				c.weights[j] = c.weights[j-1]
+			}
+		}
+		c.keys[j], c.labels[j] = k, label
+		if c.weights != nil {
+			c.weights[j] = weight
+		}
+	}
+}
+
+// decodeKeys turns keys held in scores back into scores.
+func decodeKeys(scores []float64, lowerIsRiskier bool) {
+	for i, k := range scores {
+		scores[i] = scoreOfKey(math.Float64bits(k), lowerIsRiskier)
 	}
 }
 

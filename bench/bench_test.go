@@ -1,0 +1,100 @@
+package bench
+
+import (
+	"bytes"
+	"sync"
+	"testing"
+
+	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/scores"
+)
+
+// benchRows is the size of the in-memory table of the benchmarks; the
+// 10-million-row figures come from run.sh.
+const benchRows = 1_000_000
+
+var (
+	tableOnce sync.Once
+	table     []byte
+)
+
+// benchTable returns the synthetic table of benchRows rows, made once.
+func benchTable(b *testing.B) []byte {
+	tableOnce.Do(func() {
+		var buf bytes.Buffer
+		if err := WriteTable(&buf, benchRows, 0.08, 1); err != nil {
+			panic(err)
+		}
+		table = buf.Bytes()
+	})
+	b.SetBytes(int64(len(table)))
+	return table
+}
+
+// BenchmarkLoad reads the table with the block reader (scores.Load), the
+// sort included.
+func BenchmarkLoad(b *testing.B) {
+	data := benchTable(b)
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := scores.Load(bytes.NewReader(data), "bench.csv", scores.Options{}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// BenchmarkRead reads the table with the line reader (scores.Read), the
+// reference path, for comparison.
+func BenchmarkRead(b *testing.B) {
+	data := benchTable(b)
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := scores.Read(bytes.NewReader(data), "bench.csv", scores.Options{}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// BenchmarkSort ranks the table's columns (scores.New sorts them in place).
+func BenchmarkSort(b *testing.B) {
+	set, err := scores.Load(bytes.NewReader(benchTable(b)), "bench.csv", scores.Options{})
+	if err != nil {
+		b.Fatal(err)
+	}
+	// Read order, as the file gives it: undo the ranking by a fixed shuffle.
+	n := set.Len()
+	shuffledScores := make([]float64, n)
+	shuffledLabels := make([]bool, n)
+	for i := range n {
+		j := (i * 7919) % n // 7919 is prime and does not divide 10^6
+		shuffledScores[j], shuffledLabels[j] = set.Scores[i], set.Labels[i]
+	}
+	b.SetBytes(int64(n) * 9)
+	scoresCopy := make([]float64, n)
+	labelsCopy := make([]bool, n)
+	b.ReportAllocs()
+	for b.Loop() {
+		copy(scoresCopy, shuffledScores)
+		copy(labelsCopy, shuffledLabels)
+		if _, err := scores.New(scoresCopy, labelsCopy, nil, false); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// BenchmarkSweep walks every cut of the ranked table once (curve.Walk).
+func BenchmarkSweep(b *testing.B) {
+	set, err := scores.Load(bytes.NewReader(benchTable(b)), "bench.csv", scores.Options{})
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.SetBytes(int64(set.Len()) * 9)
+	b.ReportAllocs()
+	cuts := 0
+	for b.Loop() {
+		curve.Walk(set, func(curve.Point) { cuts++ })
+	}
+}
+
+// An explorer keystroke (update plus view at 10M rows) is benchmarked in
+// package tui, next to the model it drives.

@@ -1,0 +1,468 @@
+package scores
+
+import (
+	"bytes"
+	"crypto/sha256"
+	"encoding/csv"
+	"encoding/hex"
+	"errors"
+	"fmt"
+	"io"
+	"runtime"
+	"runtime/debug"
+	"sync"
+)
+
+// Load reads a table exactly as Read does, from an input that can seek
+// back to where it started, such as an open file. It returns the same Set
+// and the same errors as Read for the same bytes, only faster: it reads the
+// decompressed text in large blocks, parses the blocks on every core and
+// parses plain numbers from the bytes without allocating.
+//
+// Load handles delimited text with score, label and weight columns itself,
+// dropped rows included. For anything else it seeks back and calls Read:
+// JSON Lines, segment, id, time or second score columns, a header or a
+// first line it cannot take at a glance, a quoted field that does not close
+// on its own line, and errors in reading or decompressing the input.
+func Load(r io.ReadSeeker, source string, opt Options) (*Set, error) {
+	start, err := r.Seek(0, io.SeekCurrent)
+	if err != nil {
+		return Read(r, source, opt)
+	}
+	set, err := loadBlocks(r, source, opt)
+	if !errors.Is(err, errDecline) {
+		return set, err
+	}
+	if _, err := r.Seek(start, io.SeekStart); err != nil {
+		return nil, &ParseError{File: source, Err: fmt.Errorf("read: %w", err)}
+	}
+	return Read(r, source, opt)
+}
+
+// errDecline tells Load to read the input with Read instead.
+var errDecline = errors.New("scores: input left to the line reader")
+
+// blockSize is the size of the blocks of text parsed at once.
+var blockSize = 2 << 20 // a variable so that tests can cross block edges often
+
+// returnMemoryRows is the size from which Load hands the memory of its
+// parsed blocks back to the system before the set is sorted, so that the
+// sort's second copy does not come on top of it.
+const returnMemoryRows = 1 << 20
+
+// block is a run of whole lines and, once parsed, what they held.
+type block struct {
+	data []byte
+	done chan struct{}
+
+	scores   []float64
+	labels   []bool
+	weights  []float64
+	newlines int        // line feeds in data
+	dropped  int        // rows skipped by DropInvalid
+	reasons  []rowEvent // the first few of them
+	event    *rowEvent  // the first error, or a reason to decline
+}
+
+// rowEvent is something found at a line of a block; line counts from 0 at
+// the block's first line.
+type rowEvent struct {
+	line    int
+	column  string
+	err     error
+	decline bool
+}
+
+// loadBlocks is Load without the fallback; it returns errDecline for input
+// that Read must take.
+func loadBlocks(r io.Reader, source string, opt Options) (*Set, error) {
+	if opt.Input != InputAuto && opt.Input != InputCSV {
+		return nil, errDecline
+	}
+	digest := sha256.New()
+	hashed := io.TeeReader(r, digest)
+	in, err := openInput(hashed, source)
+	if err != nil {
+		return nil, errDecline
+	}
+	headerLine, err := in.ReadSlice('\n')
+	if err != nil && err != io.EOF {
+		return nil, errDecline // a read error, or a header longer than the buffer
+	}
+	headerLine = append([]byte(nil), headerLine...)
+	if len(bytes.TrimSpace(headerLine)) == 0 || isSpaceByte(headerLine[0]) || (opt.Input == InputAuto && headerLine[0] == '{') {
+		return nil, errDecline
+	}
+	delim := opt.Delimiter
+	if delim == 0 {
+		delim = detectDelimiter(bytes.TrimSuffix(headerLine, []byte("\n")))
+	}
+	if delim >= 0x80 || delim == '"' || delim == '\r' || delim == '\n' || delim == 0 {
+		return nil, errDecline
+	}
+	headerReader := csv.NewReader(bytes.NewReader(headerLine))
+	headerReader.Comma = delim
+	headerReader.FieldsPerRecord = -1
+	header, err := headerReader.Read()
+	if err != nil {
+		return nil, errDecline
+	}
+	header = trimAll(header)
+	if len(header) == 1 && header[0] == "" {
+		return nil, errDecline
+	}
+	b := &builder{opt: opt, source: source}
+	if err := b.resolve(header, 1); err != nil {
+		return nil, err
+	}
+	if b.segmentCol >= 0 || b.idCol >= 0 || b.timeCol >= 0 || b.compareCol >= 0 {
+		return nil, errDecline
+	}
+	p := &blockParser{b: b, delim: byte(delim), fields: len(header)}
+
+	blocks, readErr, stop := p.produce(in)
+	var (
+		parsed []*block
+		rows   int
+		line   = 2 // the first data line
+		failed error
+	)
+	for blk := range blocks {
+		<-blk.done
+		if failed != nil {
+			continue // drain
+		}
+		if ev := blk.event; ev != nil {
+			close(stop)
+			if ev.decline {
+				failed = errDecline
+			} else {
+				failed = &ParseError{File: source, Line: line + ev.line, Column: ev.column, Err: ev.err}
+			}
+			continue
+		}
+		b.dropped += blk.dropped
+		for _, ev := range blk.reasons {
+			if len(b.droppedReasons) < maxDroppedReasons {
+				b.droppedReasons = append(b.droppedReasons, (&ParseError{File: source, Line: line + ev.line, Column: ev.column, Err: ev.err}).Error())
+			}
+		}
+		line += blk.newlines
+		rows += len(blk.scores)
+		parsed = append(parsed, blk)
+		if opt.Progress != nil {
+			opt.Progress(rows)
+		}
+	}
+	if failed != nil {
+		return nil, failed
+	}
+	if *readErr != nil {
+		return nil, errDecline
+	}
+	if _, err := io.Copy(io.Discard, hashed); err != nil {
+		return nil, errDecline
+	}
+	if rows == 0 && b.dropped == 0 {
+		return nil, &ParseError{File: source, Err: ErrNoRows}
+	}
+
+	if rows > 0 { // with no rows the columns stay as Read leaves them
+		b.scores = make([]float64, 0, rows)
+		b.labels = make([]bool, 0, rows)
+		if b.weightCol >= 0 {
+			b.weights = make([]float64, 0, rows)
+		}
+	}
+	for i, blk := range parsed {
+		b.scores = append(b.scores, blk.scores...)
+		b.labels = append(b.labels, blk.labels...)
+		if b.weights != nil {
+			b.weights = append(b.weights, blk.weights...)
+		}
+		parsed[i] = nil
+	}
+	if rows >= returnMemoryRows {
+		debug.FreeOSMemory()
+	}
+	return b.finish(hex.EncodeToString(digest.Sum(nil)))
+}
+
+func isSpaceByte(c byte) bool { return c == ' ' || c == '\t' || c == '\r' || c == '\n' }
+
+// blockParser parses blocks of lines for one builder; its methods may run
+// on several goroutines at once and only read the builder.
+type blockParser struct {
+	b      *builder
+	delim  byte
+	fields int // fields in the header
+}
+
+// produce reads in as blocks of whole lines and parses them on every core.
+// It returns the blocks in input order; each is parsed once its done
+// channel is closed. Closing stop ends the reading early. After the
+// channel closes, *readErr holds the error that ended the reading, if any
+// besides the end of the input.
+func (p *blockParser) produce(in io.Reader) (<-chan *block, *error, chan struct{}) {
+	workers := max(1, runtime.GOMAXPROCS(0))
+	ordered := make(chan *block, workers+1)
+	work := make(chan *block, workers+1)
+	stop := make(chan struct{})
+	readErr := new(error)
+	// free holds parsed blocks' buffers for reuse, so that reading makes
+	// no garbage.
+	free := make(chan []byte, 2*workers+2)
+	var wg sync.WaitGroup
+	for range workers {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for blk := range work {
+				p.parse(blk)
+				buf := blk.data[:cap(blk.data)]
+				blk.data = nil
+				close(blk.done)
+				select {
+				case free <- buf:
+				default:
+				}
+			}
+		}()
+	}
+	go func() {
+		defer close(ordered)
+		defer func() { close(work); wg.Wait() }()
+		var carry []byte
+		for {
+			var buf []byte
+			select {
+			case buf = <-free:
+			default:
+			}
+			if want := max(blockSize, 2*len(carry)); cap(buf) < want {
+				buf = make([]byte, want)
+			}
+			buf = buf[:cap(buf)]
+			n := copy(buf, carry)
+			m, err := io.ReadFull(in, buf[n:])
+			buf = buf[:n+m]
+			end := err == io.EOF || err == io.ErrUnexpectedEOF
+			if err != nil && !end {
+				*readErr = err
+				return
+			}
+			data := buf
+			if !end {
+				cut := bytes.LastIndexByte(buf, '\n')
+				if cut < 0 {
+					carry = append(carry[:0], buf...) // a line longer than a block
+					continue
+				}
+				data = buf[:cut+1]
+				carry = append(carry[:0], buf[cut+1:]...)
+			}
+			if len(data) > 0 {
+				blk := &block{data: data, done: make(chan struct{})}
+				select {
+				case ordered <- blk:
+				case <-stop:
+					return
+				}
+				work <- blk
+			}
+			if end {
+				return
+			}
+		}
+	}()
+	return ordered, readErr, stop
+}
+
+// parse parses the lines of blk into its columns, stopping at the first
+// error or at a line that Read must take.
+func (p *blockParser) parse(blk *block) {
+	b := p.b
+	data := blk.data
+	rowsAtMost := bytes.Count(data, []byte{'\n'}) + 1
+	blk.scores = make([]float64, 0, rowsAtMost)
+	blk.labels = make([]bool, 0, rowsAtMost)
+	if b.weightCol >= 0 {
+		blk.weights = make([]float64, 0, rowsAtMost)
+	}
+	var cells [3][]byte // score, label, weight
+	for line := 0; len(data) > 0; line++ {
+		row := data
+		if nl := bytes.IndexByte(data, '\n'); nl >= 0 {
+			row, data = data[:nl], data[nl+1:]
+			blk.newlines++
+		} else {
+			data = nil
+		}
+		if n := len(row); n > 0 && row[n-1] == '\r' {
+			row = row[:n-1]
+		}
+		if bytes.IndexByte(row, '"') >= 0 {
+			if ev := p.quotedRow(blk, line, row); ev != nil {
+				blk.event = ev
+				return
+			}
+			continue
+		}
+		// Split the row, keeping the cells in use.
+		field, start := 0, 0
+		cells = [3][]byte{}
+		for i := 0; i <= len(row); i++ {
+			if i < len(row) && row[i] != p.delim {
+				continue
+			}
+			if field == b.scoreCol {
+				cells[0] = row[start:i]
+			}
+			if field == b.labelCol {
+				cells[1] = row[start:i]
+			}
+			if field == b.weightCol {
+				cells[2] = row[start:i]
+			}
+			field++
+			start = i + 1
+		}
+		if field == 1 && len(bytes.TrimSpace(row)) == 0 {
+			continue // a blank line
+		}
+		if field != p.fields {
+			blk.event = &rowEvent{line: line, err: fmt.Errorf("%w: row has %d, header has %d", ErrRagged, field, p.fields)}
+			return
+		}
+		if ev := p.addRow(blk, line, cells); ev != nil {
+			blk.event = ev
+			return
+		}
+	}
+}
+
+// quotedRow parses a row holding a quote with encoding/csv, as Read does;
+// a row that does not parse on its own is left to Read.
+func (p *blockParser) quotedRow(blk *block, line int, row []byte) *rowEvent {
+	r := csv.NewReader(bytes.NewReader(row))
+	r.Comma = rune(p.delim)
+	r.FieldsPerRecord = -1
+	record, err := r.Read()
+	if err != nil {
+		return &rowEvent{decline: true}
+	}
+	if _, err := r.Read(); err != io.EOF {
+		return &rowEvent{decline: true}
+	}
+	if len(record) == 1 && len(bytes.TrimSpace([]byte(record[0]))) == 0 {
+		return nil // a blank line
+	}
+	if len(record) != p.fields {
+		return &rowEvent{line: line, err: fmt.Errorf("%w: row has %d, header has %d", ErrRagged, len(record), p.fields)}
+	}
+	var cells [3][]byte
+	cells[0] = []byte(record[p.b.scoreCol])
+	if p.b.labelCol >= 0 {
+		cells[1] = []byte(record[p.b.labelCol])
+	}
+	if p.b.weightCol >= 0 {
+		cells[2] = []byte(record[p.b.weightCol])
+	}
+	return p.addRow(blk, line, cells)
+}
+
+// addRow reads the cells of one row as builder.add does.
+func (p *blockParser) addRow(blk *block, line int, cells [3][]byte) *rowEvent {
+	b := p.b
+	score, ok := plainFloat(cells[0])
+	if ok && score == 0 {
+		score = 0 // fold -0 into +0, as parseScore does
+	}
+	if !ok {
+		var err error
+		if score, err = parseScore(string(cells[0])); err != nil {
+			if b.opt.DropInvalid {
+				blk.dropped++
+				if len(blk.reasons) < maxDroppedReasons {
+					blk.reasons = append(blk.reasons, rowEvent{line: line, column: b.header[b.scoreCol], err: err})
+				}
+				return nil
+			}
+			return &rowEvent{line: line, column: b.header[b.scoreCol], err: err}
+		}
+	}
+	positive := false
+	if b.labelCol >= 0 {
+		cell := cells[1]
+		switch {
+		case b.opt.Positive == "" && len(cell) == 1 && cell[0] == '1':
+			positive = true
+		case b.opt.Positive == "" && len(cell) == 1 && cell[0] == '0':
+		default:
+			var err error
+			if positive, err = b.parseLabel(string(cell)); err != nil {
+				return &rowEvent{line: line, column: b.header[b.labelCol], err: err}
+			}
+		}
+	}
+	if b.weightCol >= 0 {
+		w, ok := plainFloat(cells[2])
+		if !ok || w < 0 {
+			var err error
+			if w, err = parseWeight(string(cells[2])); err != nil {
+				return &rowEvent{line: line, column: b.header[b.weightCol], err: err}
+			}
+		}
+		blk.weights = append(blk.weights, w)
+	}
+	blk.scores = append(blk.scores, score)
+	blk.labels = append(blk.labels, positive)
+	return nil
+}
+
+// pow10 holds the powers of ten that float64 represents exactly.
+var pow10 = [...]float64{1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10,
+	1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22}
+
+// plainFloat reads a number written as an optional sign, digits and an
+// optional fraction, nothing else, with at most 15 digits in all. Such a
+// number is an integer below 2^53 divided by a power of ten at most 1e22,
+// both exact in float64, so the one correctly rounded division gives the
+// same float64 as strconv.ParseFloat. ok is false for every other form
+// (spaces, exponents, more digits, words), which the caller then reads with
+// strconv.
+func plainFloat(text []byte) (value float64, ok bool) {
+	i, negative := 0, false
+	if len(text) > 0 && (text[0] == '-' || text[0] == '+') {
+		negative = text[0] == '-'
+		i = 1
+	}
+	var mantissa uint64
+	digits, fraction := 0, -1
+	for ; i < len(text); i++ {
+		c := text[i]
+		switch {
+		case c >= '0' && c <= '9':
+			mantissa = mantissa*10 + uint64(c-'0')
+			digits++
+			if fraction >= 0 {
+				fraction++
+			}
+		case c == '.' && fraction < 0:
+			fraction = 0
+		default:
+			return 0, false
+		}
+	}
+	if digits == 0 || digits > 15 {
+		return 0, false
+	}
+	value = float64(mantissa)
+	if fraction > 0 {
+		value /= pow10[fraction]
+	}
+	if negative {
+		value = -value
+	}
+	return value, true
+}

@@ -1,0 +1,300 @@
+package scores
+
+import (
+	"bytes"
+	"compress/gzip"
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"reflect"
+	"strconv"
+	"strings"
+	"testing"
+)
+
+// TestPlainFloatMatchesStrconv checks the hand-written number reader
+// against strconv.ParseFloat, the reference, on seeded random plain
+// numbers and on forms it must leave to strconv.
+func TestPlainFloatMatchesStrconv(t *testing.T) {
+	rng := rand.New(rand.NewPCG(1, 2))
+	check := func(text string) {
+		t.Helper()
+		got, ok := plainFloat([]byte(text))
+		want, err := strconv.ParseFloat(text, 64)
+		if !ok {
+			return // left to strconv; nothing to compare
+		}
+		if err != nil || math.Float64bits(got) != math.Float64bits(want) {
+			t.Fatalf("plainFloat(%q) = %v, strconv gives %v (%v)", text, got, want, err)
+		}
+	}
+	for range 200000 {
+		digits := 1 + rng.IntN(16)
+		var sb strings.Builder
+		if rng.IntN(5) == 0 {
+			sb.WriteByte("+-"[rng.IntN(2)])
+		}
+		point := rng.IntN(digits + 1)
+		for d := range digits {
+			if d == point && rng.IntN(2) == 0 {
+				sb.WriteByte('.')
+			}
+			sb.WriteByte(byte('0' + rng.IntN(10)))
+		}
+		check(sb.String())
+		check(strconv.FormatFloat(rng.Float64(), 'f', rng.IntN(10), 64))
+	}
+	for _, text := range []string{"0", "-0", "+0", "1.", ".5", "-.5", "0.1", "0.123456", "999999999999999", "0.000000000000001", "123456789012345"} {
+		check(text)
+	}
+	for _, text := range []string{"", ".", "-", "+", "1e5", " 1", "1 ", "1.2.3", "inf", "NaN", "0x1p-2", "1_000", "1234567890123456", "--1", "1,5"} {
+		if _, ok := plainFloat([]byte(text)); ok {
+			t.Errorf("plainFloat(%q) took a form it must leave to strconv", text)
+		}
+	}
+}
+
+// loadBoth reads data with Read, the reference path, and with Load.
+func loadBoth(t *testing.T, data []byte, opt Options) (want, got *Set, wantErr, gotErr error) {
+	t.Helper()
+	want, wantErr = Read(bytes.NewReader(data), "t.csv", opt)
+	got, gotErr = Load(bytes.NewReader(data), "t.csv", opt)
+	return
+}
+
+func sameResult(t *testing.T, name string, data []byte, opt Options) {
+	t.Helper()
+	want, got, wantErr, gotErr := loadBoth(t, data, opt)
+	if (wantErr == nil) != (gotErr == nil) || (wantErr != nil && wantErr.Error() != gotErr.Error()) {
+		t.Fatalf("%s: Read error %v, Load error %v\ninput %q", name, wantErr, gotErr, clip(data))
+	}
+	if wantErr != nil {
+		return
+	}
+	if !reflect.DeepEqual(want, got) {
+		t.Fatalf("%s: sets differ\nRead %+v\nLoad %+v\ninput %q", name, brief(want), brief(got), clip(data))
+	}
+}
+
+func clip(data []byte) []byte {
+	if len(data) > 400 {
+		return data[:400]
+	}
+	return data
+}
+
+func brief(s *Set) string {
+	n := min(len(s.Scores), 8)
+	return fmt.Sprintf("rows %d scores %v labels %v weights %v dropped %d %q sha %s", len(s.Scores), s.Scores[:n], s.Labels[:n], s.Weights[:min(len(s.Weights), n)], s.Dropped, s.DroppedReasons, s.SHA256[:8])
+}
+
+// randomTable writes a seeded random table with the oddities that delimited
+// files carry: ties, weights, CRLF, a byte-order mark, quoted cells, blank
+// and space-only lines, unusual number forms and label words, and, when
+// bad is set, an occasional bad row (bad score, label or weight, a ragged
+// row, a quote that stays open).
+func randomTable(rng *rand.Rand, rows int, weighted, bad bool) []byte {
+	var sb strings.Builder
+	delim := []string{",", "\t", ";", "|"}[rng.IntN(4)]
+	newline := "\n"
+	if rng.IntN(3) == 0 {
+		newline = "\r\n"
+	}
+	if rng.IntN(4) == 0 {
+		sb.WriteString("\xef\xbb\xbf")
+	}
+	header := []string{"id_unused", "score", "label"}
+	if weighted {
+		header = append(header, "weight")
+	}
+	if rng.IntN(3) == 0 {
+		header = []string{"score", "label"}
+		if weighted {
+			header = append(header, "weight")
+		}
+	}
+	sb.WriteString(strings.Join(header, delim) + newline)
+	coarse := rng.IntN(2) == 0
+	for r := range rows {
+		switch rng.IntN(60) {
+		case 0:
+			sb.WriteString(newline) // blank line
+			continue
+		case 1:
+			sb.WriteString("   " + newline)
+			continue
+		}
+		var score string
+		switch {
+		case coarse:
+			score = strconv.FormatFloat(float64(rng.IntN(20))/10, 'f', -1, 64)
+		default:
+			score = strconv.FormatFloat(rng.Float64(), 'f', 6, 64)
+		}
+		switch rng.IntN(40) {
+		case 0:
+			score = " " + score + " "
+		case 1:
+			score = strconv.FormatFloat(rng.Float64(), 'e', 3, 64)
+		case 2:
+			score = "-0"
+		case 3:
+			score = strconv.FormatFloat(rng.Float64(), 'g', -1, 64) // up to 17 digits
+		case 4:
+			score = `"` + score + `"`
+		}
+		label := []string{"0", "1", "0", "0", "1"}[rng.IntN(5)]
+		switch rng.IntN(40) {
+		case 0:
+			label = "yes"
+		case 1:
+			label = " 0 "
+		case 2:
+			label = "1.0"
+		case 3:
+			label = `"1"`
+		}
+		cells := []string{}
+		for _, h := range header {
+			switch h {
+			case "id_unused":
+				cells = append(cells, fmt.Sprintf("case-%d", r))
+				if rng.IntN(30) == 0 {
+					cells[len(cells)-1] = `"case, quoted ""` + strconv.Itoa(r) + `"""`
+				}
+			case "score":
+				cells = append(cells, score)
+			case "label":
+				cells = append(cells, label)
+			case "weight":
+				cells = append(cells, strconv.Itoa(rng.IntN(4)))
+			}
+		}
+		if bad && rng.IntN(rows) == 0 {
+			switch rng.IntN(6) {
+			case 0:
+				cells[len(cells)-2+boolInt(!weighted)-boolInt(weighted)] = "abc"
+			case 1:
+				cells = cells[:len(cells)-1]
+			case 2:
+				cells = append(cells, "extra")
+			case 3:
+				cells[0] = `"open` + newline + `still open"`
+			case 4:
+				for i, h := range header {
+					if h == "label" {
+						cells[i] = "maybe"
+					}
+					if h == "weight" {
+						cells[i] = "-2"
+					}
+				}
+			case 5:
+				for i, h := range header {
+					if h == "score" {
+						cells[i] = ""
+					}
+				}
+			}
+		}
+		sb.WriteString(strings.Join(cells, delim))
+		if r < rows-1 || rng.IntN(2) == 0 {
+			sb.WriteString(newline)
+		}
+	}
+	return []byte(sb.String())
+}
+
+func boolInt(b bool) int {
+	if b {
+		return 1
+	}
+	return 0
+}
+
+// TestLoadMatchesRead checks Load against Read, the reference path, on
+// seeded random tables: the same Set to the last bit, or the same error
+// message with the same line, with blocks small enough that rows cross
+// block edges.
+func TestLoadMatchesRead(t *testing.T) {
+	defer func(size int) { blockSize = size }(blockSize)
+	rng := rand.New(rand.NewPCG(3, 4))
+	handled := 0 // trials the block reader took itself rather than leave to Read
+	for trial := range 400 {
+		blockSize = []int{16, 64, 1000, 1 << 20}[trial%4]
+		rows := []int{1, 5, 200, 3000}[rng.IntN(4)]
+		weighted := rng.IntN(3) == 0
+		bad := rng.IntN(2) == 0
+		data := randomTable(rng, rows, weighted, bad)
+		opt := Options{LowerIsRiskier: rng.IntN(4) == 0, DropInvalid: rng.IntN(3) == 0}
+		if weighted {
+			opt.WeightColumn = "weight"
+		}
+		if rng.IntN(6) == 0 {
+			opt.Positive = "1"
+		}
+		name := fmt.Sprintf("trial %d (block %d, rows %d)", trial, blockSize, rows)
+		sameResult(t, name, data, opt)
+		if _, err := loadBlocks(bytes.NewReader(data), "t.csv", opt); err != errDecline {
+			handled++
+		}
+		if trial%10 == 0 {
+			var z bytes.Buffer
+			w := gzip.NewWriter(&z)
+			w.Write(data)
+			w.Close()
+			sameResult(t, name+" gzip", z.Bytes(), opt)
+		}
+	}
+	// The tables are built so that most stay on the block reader; were it
+	// to decline them all, the comparison above would test nothing.
+	if handled < 200 {
+		t.Errorf("the block reader took only %d of 400 tables itself", handled)
+	}
+	t.Logf("the block reader took %d of 400 tables itself", handled)
+}
+
+// TestLoadCases checks Load against Read on hand-picked inputs, each with
+// the line the error must name worked out by hand.
+func TestLoadCases(t *testing.T) {
+	defer func(size int) { blockSize = size }(blockSize)
+	cases := []struct {
+		name  string
+		input string
+		opt   Options
+		want  string // the error, "" for none; written out by hand
+	}{
+		{"plain", "score,label\n0.5,1\n0.2,0\n", Options{}, ""},
+		{"no newline at the end, CR", "score,label\r\n0.5,1\r\n0.2,0\r", Options{}, ""},
+		{"bad score line 3", "score,label\n0.5,1\nx,0\n", Options{}, `t.csv:3: column "score": invalid score "x", expected a finite number`},
+		{"bad label after blank lines", "score,label\n\n0.5,1\n\n0.2,maybe\n", Options{}, `t.csv:5: column "label": unrecognised label "maybe", expected 1/true/yes/positive or 0/false/no/negative (or set --positive)`},
+		{"ragged", "score,label\n0.5,1\n0.2\n", Options{}, `t.csv:3: wrong number of fields: row has 1, header has 2`},
+		{"only header", "score,label\n", Options{}, `t.csv: no data rows after the header`},
+		{"empty", "", Options{}, `t.csv: empty input, expected a header line`},
+		{"json lines", "{\"score\":0.5,\"label\":1}\n", Options{}, ""},
+		{"multi-line quoted id", "id,score,label\n\"a\nb\",0.5,1\n", Options{}, ""},
+		{"open quote", "score,label\n\"0.5,1\n", Options{}, `t.csv:2: extraneous or missing " in quoted-field`},
+		{"dropped rows", "score,label\n,1\nnan,0\n0.4,1\n", Options{DropInvalid: true}, ""},
+		{"segment column goes to Read", "score,label,g\n0.5,1,a\n0.4,0,b\n", Options{SegmentColumn: "g"}, ""},
+		{"score and label the same column", "v\n1\n0\n", Options{ScoreColumn: "v", LabelColumn: "v"}, ""},
+	}
+	for _, size := range []int{8, 1 << 20} {
+		blockSize = size
+		for _, c := range cases {
+			want, got, wantErr, gotErr := loadBoth(t, []byte(c.input), c.opt)
+			msg := ""
+			if gotErr != nil {
+				msg = gotErr.Error()
+			}
+			if msg != c.want {
+				t.Errorf("%s (block %d): Load error %q, want %q", c.name, size, msg, c.want)
+			}
+			if (wantErr == nil) != (gotErr == nil) || (wantErr != nil && wantErr.Error() != msg) {
+				t.Errorf("%s (block %d): Read error %v, Load error %v", c.name, size, wantErr, gotErr)
+			}
+			if wantErr == nil && !reflect.DeepEqual(want, got) {
+				t.Errorf("%s (block %d): sets differ\nRead %+v\nLoad %+v", c.name, size, brief(want), brief(got))
+			}
+		}
+	}
+}
