@@ -2,7 +2,6 @@ package main
 
 import (
 	"fmt"
-	"os"
 
 	"github.com/spf13/cobra"
 
@@ -36,7 +35,7 @@ label. The same --rows and --seed always give the same file.`,
 			if err := atomicfile.Write(out, data, 0o644); err != nil {
 				return err
 			}
-			fmt.Fprintf(os.Stderr, "sill: wrote %d rows to %s\n", rows, out)
+			fmt.Fprintf(cmd.ErrOrStderr(), "sill: wrote %d rows to %s\n", rows, out)
 			return nil
 		},
 	}

@@ -5,6 +5,7 @@ package main
 import (
 	"errors"
 	"fmt"
+	"io"
 	"os"
 )
 
@@ -24,14 +25,18 @@ type exitError struct {
 func (e *exitError) Error() string { return e.message }
 
 func main() {
-	os.Exit(run(os.Args[1:]))
+	os.Exit(run(os.Args[1:], os.Stdin, os.Stdout, os.Stderr))
 }
 
-// run executes the command line and returns the exit status: 0 for
-// success, 1 where a check found drift, 2 for any error.
-func run(args []string) int {
+// run executes the command line with the given standard streams and
+// returns the exit status: 0 for success, 1 where a check found drift, 2
+// for any error. Errors are one line on stderr.
+func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	root := newRootCmd()
 	root.SetArgs(args)
+	root.SetIn(stdin)
+	root.SetOut(stdout)
+	root.SetErr(stderr)
 	err := root.Execute()
 	if err == nil {
 		return 0
@@ -39,10 +44,10 @@ func run(args []string) int {
 	var exit *exitError
 	if errors.As(err, &exit) {
 		if exit.message != "" {
-			fmt.Fprintln(os.Stderr, "sill: "+exit.message)
+			fmt.Fprintln(stderr, "sill: "+exit.message)
 		}
 		return exit.code
 	}
-	fmt.Fprintln(os.Stderr, "sill: "+err.Error())
+	fmt.Fprintln(stderr, "sill: "+err.Error())
 	return 2
 }

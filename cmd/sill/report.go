@@ -83,7 +83,7 @@ func (o *reportOptions) run(set *scores.Set, stdout, stderr io.Writer) error {
 	if err := o.beyond.check(); err != nil {
 		return err
 	}
-	rules := cutrule.Defaults(a)
+	rules := o.beyond.defaultRules(cutrule.Defaults(a), a)
 	if len(o.cuts) > 0 {
 		rules = rules[:0]
 		for _, text := range o.cuts {
@@ -94,7 +94,11 @@ func (o *reportOptions) run(set *scores.Set, stdout, stderr io.Writer) error {
 			rules = append(rules, r)
 		}
 	}
-	finder, err := cutrule.NewFinder(rules, set, a)
+	shiftOptions, err := o.beyond.finderOptions(set, a)
+	if err != nil {
+		return err
+	}
+	finder, err := cutrule.NewFinder(rules, set, a, shiftOptions...)
 	if err != nil {
 		return fmt.Errorf("--cut %w", err)
 	}
@@ -114,10 +118,9 @@ func (o *reportOptions) run(set *scores.Set, stdout, stderr io.Writer) error {
 	if err := o.beyond.apply(r, set, sum, a, rules, outcomes); err != nil {
 		return err
 	}
-	if o.format != "json" {
-		for _, w := range r.Warnings {
-			fmt.Fprintln(stderr, "sill: warning: "+w)
-		}
+	// Warnings go to stderr whatever the format; JSON also carries them.
+	for _, w := range r.Warnings {
+		fmt.Fprintln(stderr, "sill: warning: "+w)
 	}
 	if !o.withCurve {
 		points = nil

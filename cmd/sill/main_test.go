@@ -1,0 +1,364 @@
+package main
+
+import (
+	"bytes"
+	"compress/gzip"
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// sillResult is what one run of the command line left behind.
+type sillResult struct {
+	code           int
+	stdout, stderr string
+}
+
+// runSill runs the command line in-process with the given standard input.
+func runSill(t *testing.T, stdin string, args ...string) sillResult {
+	t.Helper()
+	var stdout, stderr bytes.Buffer
+	code := run(args, strings.NewReader(stdin), &stdout, &stderr)
+	return sillResult{code, stdout.String(), stderr.String()}
+}
+
+// writeFile writes data to name in a fresh temporary directory and
+// returns its path.
+func writeFile(t *testing.T, dir, name string, data []byte) string {
+	t.Helper()
+	path := filepath.Join(dir, name)
+	if err := os.WriteFile(path, data, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return path
+}
+
+func gzipBytes(t *testing.T, text string) []byte {
+	t.Helper()
+	var buf bytes.Buffer
+	w := gzip.NewWriter(&buf)
+	w.Write([]byte(text))
+	if err := w.Close(); err != nil {
+		t.Fatal(err)
+	}
+	return buf.Bytes()
+}
+
+// goodTable has both classes, ties and a segment column.
+const goodTable = "id,score,label,yard\n" +
+	"AX-1,0.91,1,north\nAX-2,0.85,0,north\nAX-3,0.85,1,quay\nAX-4,0.60,0,quay\n" +
+	"AX-5,0.42,1,north\nAX-6,0.30,0,north\nAX-7,0.12,0,quay\nAX-8,0.05,0,north\n"
+
+// TestRunBadInput checks every bad input of issue 2: exit status 2, one
+// line on stderr naming what is wrong (the file and line where there is
+// one), and nothing on stdout.
+func TestRunBadInput(t *testing.T) {
+	dir := t.TempDir()
+	good := writeFile(t, dir, "good.csv", []byte(goodTable))
+	path := func(name, content string) string { return writeFile(t, dir, name, []byte(content)) }
+	cases := []struct {
+		name string
+		args []string
+		want string // the whole stderr line, without its newline
+	}{
+		{"missing file", []string{"report", filepath.Join(dir, "absent.csv")},
+			"sill: read scores: open " + filepath.Join(dir, "absent.csv") + ": no such file or directory"},
+		{"a directory", []string{"report", dir},
+			"sill: read scores: " + dir + " is a directory, expected a file"},
+		{"empty file", []string{"report", path("empty.csv", "")},
+			"sill: " + filepath.Join(dir, "empty.csv") + ": empty input, expected a header line"},
+		{"header only", []string{"report", path("header.csv", "score,label\n")},
+			"sill: " + filepath.Join(dir, "header.csv") + ": no data rows after the header"},
+		{"ragged row", []string{"report", path("ragged.csv", "score,label\n0.5,1\n0.4,0,7\n")},
+			"sill: " + filepath.Join(dir, "ragged.csv") + ":3: wrong number of fields: row has 3, header has 2"},
+		{"bad label", []string{"report", path("label.csv", "score,label\n0.5,1\n0.4,maybe\n")},
+			"sill: " + filepath.Join(dir, "label.csv") + `:3: column "label": unrecognised label "maybe", expected 1/true/yes/positive or 0/false/no/negative (or set --positive)`},
+		{"NaN score", []string{"report", path("nan.csv", "score,label\nNaN,1\n0.4,0\n")},
+			"sill: " + filepath.Join(dir, "nan.csv") + `:2: column "score": invalid score "NaN", expected a finite number`},
+		{"negative weight", []string{"report", path("weight.csv", "score,label,w\n0.5,1,1\n0.4,0,-2\n"), "--weight", "w"},
+			"sill: " + filepath.Join(dir, "weight.csv") + `:3: column "w": invalid weight "-2", expected a finite number >= 0`},
+		{"named column absent", []string{"report", good, "--score", "prob"},
+			"sill: " + good + `:1: column "prob": column not found in header ["id", "score", "label", "yard"]`},
+		{"corrupt gzip", []string{"report", path("broken.csv.gz", "\x1f\x8bnot really gzip")},
+			"sill: " + filepath.Join(dir, "broken.csv.gz") + ": corrupt gzip data: gzip: invalid header"},
+		{"malformed cut", []string{"report", good, "--cut", "hit=2"},
+			`sill: --cut: malformed cut spec "hit=2": expected a share in [0,1]`},
+		{"unknown cut", []string{"report", good, "--cut", "recall=0.8"},
+			`sill: --cut: malformed cut spec "recall=0.8": expected one of score=V, top=N, top=P%, hit=R, wrong=F, base, queue=K, queue90=K, cost`},
+		{"queue without volume", []string{"report", good, "--cut", "queue=10"},
+			"sill: --cut cut queue=10 needs a volume per shift (--volume)"},
+		{"cost without costs", []string{"report", good, "--cut", "cost"},
+			"sill: --cut cut cost needs at least one cost (--cost-false-alert, --cost-miss or --cost-hit)"},
+		{"capacity without volume", []string{"report", good, "--capacity", "90"},
+			"sill: --capacity needs --volume: the queue per shift is projected from the volume"},
+		{"bad format", []string{"report", good, "--format", "xml"},
+			`sill: --format "xml": expected text, json, markdown or csv`},
+		{"bad input format", []string{"report", good, "--input", "xml"},
+			`sill: --input "xml": expected csv or jsonl`},
+		{"bad delimiter", []string{"report", good, "--delim", "ab"},
+			`sill: --delim "ab": expected one character such as , or ; or \t`},
+		{"base rate above 1", []string{"report", good, "--base-rate", "2"},
+			"sill: invalid assumption: base rate 2, expected a share in [0,1] (check --base-rate, --volume, --capacity, the costs and --confidence)"},
+		{"confidence 95", []string{"report", good, "--confidence", "95"},
+			"sill: invalid assumption: confidence 95, expected a level in (0,1) such as 0.95 (check --base-rate, --volume, --capacity, the costs and --confidence)"},
+		{"negative volume", []string{"report", good, "--volume", "-5"},
+			"sill: --volume -5: expected a positive number of cases per shift"},
+		{"no file", []string{"report"},
+			"sill: accepts 1 arg(s), received 0"},
+		{"bad demo rows", []string{"demo", "--rows", "0"},
+			"sill: --rows 0: expected at least 1"},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			got := runSill(t, "", tc.args...)
+			if got.code != 2 {
+				t.Errorf("exit status %d, want 2", got.code)
+			}
+			if got.stdout != "" {
+				t.Errorf("stdout not empty:\n%s", got.stdout)
+			}
+			if got.stderr != tc.want+"\n" {
+				t.Errorf("stderr\n got %q\nwant %q", got.stderr, tc.want+"\n")
+			}
+		})
+	}
+}
+
+// TestRunBadStdin checks a bad table on standard input: the error names "-".
+func TestRunBadStdin(t *testing.T) {
+	got := runSill(t, "score,label\n0.2,1\n0.1\n", "report", "-")
+	if want := "sill: -:3: wrong number of fields: row has 1, header has 2\n"; got.code != 2 || got.stdout != "" || got.stderr != want {
+		t.Errorf("exit %d, stdout %q, stderr %q; want 2, nothing, %q", got.code, got.stdout, got.stderr, want)
+	}
+}
+
+// TestRunGoodInput checks that a good table in every input form and every
+// output format exits 0 with output on stdout and nothing on stderr.
+func TestRunGoodInput(t *testing.T) {
+	dir := t.TempDir()
+	tsv := strings.NewReplacer(",", "\t").Replace(goodTable)
+	var jsonl strings.Builder
+	for i, line := range strings.Split(strings.TrimSpace(goodTable), "\n")[1:] {
+		f := strings.Split(line, ",")
+		jsonl.WriteString(`{"id": "` + f[0] + `", "score": ` + f[1] + `, "label": ` + map[string]string{"1": "true", "0": "false"}[f[2]] + `, "yard": "` + f[3] + `"}`)
+		if i%2 == 0 {
+			jsonl.WriteString("\r")
+		}
+		jsonl.WriteString("\n")
+	}
+	inputs := map[string]string{
+		"csv":     writeFile(t, dir, "good.csv", []byte(goodTable)),
+		"bom":     writeFile(t, dir, "bom.csv", []byte("\ufeff"+strings.ReplaceAll(goodTable, "\n", "\r\n"))),
+		"tsv":     writeFile(t, dir, "good.tsv", []byte(tsv)),
+		"jsonl":   writeFile(t, dir, "good.jsonl", []byte(jsonl.String())),
+		"gzip":    writeFile(t, dir, "good.data", gzipBytes(t, goodTable)),
+		"gz-json": writeFile(t, dir, "good.jsonl.gz", gzipBytes(t, jsonl.String())),
+	}
+	var firstJSON map[string]any
+	for name, file := range inputs {
+		for _, format := range []string{"text", "json", "markdown", "csv"} {
+			for _, withCurve := range []bool{false, true} {
+				args := []string{"report", file, "--format", format, "--segment", "yard", "--id", "id"}
+				if withCurve {
+					args = append(args, "--curve")
+				}
+				got := runSill(t, "", args...)
+				if got.code != 0 || got.stderr != "" || got.stdout == "" {
+					t.Errorf("%s %v: exit %d, stderr %q, %d bytes out", name, args[2:], got.code, got.stderr, len(got.stdout))
+					continue
+				}
+				switch format {
+				case "json":
+					var out map[string]any
+					if err := json.Unmarshal([]byte(got.stdout), &out); err != nil {
+						t.Errorf("%s: JSON does not decode: %v", name, err)
+						continue
+					}
+					if _, has := out["curve"]; has != withCurve {
+						t.Errorf("%s: curve present %v with --curve %v", name, has, withCurve)
+					}
+					if out["rows"] != 8.0 || out["positives"] != 3.0 {
+						t.Errorf("%s: rows %v positives %v, want 8 and 3", name, out["rows"], out["positives"])
+					}
+					// Every input form gives the same figures.
+					delete(out, "source")
+					if !withCurve {
+						if firstJSON == nil {
+							firstJSON = out
+						} else if a, b := mustJSON(t, firstJSON), mustJSON(t, out); a != b {
+							t.Errorf("%s: JSON differs from another input form:\n%s\n%s", name, a, b)
+						}
+					}
+				case "csv":
+					// The curve alone: a header and one line per distinct
+					// score (7 in goodTable).
+					if lines := strings.Count(got.stdout, "\n"); lines != 8 {
+						t.Errorf("%s: CSV curve has %d lines, want 8", name, lines)
+					}
+				case "text":
+					if !strings.Contains(got.stdout, "caution:") || !strings.Contains(got.stdout, "hit share (recall)") {
+						t.Errorf("%s: text report lacks the table or the caution:\n%s", name, got.stdout)
+					}
+				}
+			}
+		}
+	}
+	// Standard input.
+	got := runSill(t, goodTable, "report", "-", "--format", "json")
+	if got.code != 0 || got.stderr != "" || !strings.Contains(got.stdout, `"source": "-"`) {
+		t.Errorf("stdin: exit %d stderr %q\n%s", got.code, got.stderr, got.stdout)
+	}
+}
+
+func mustJSON(t *testing.T, v any) string {
+	t.Helper()
+	b, err := json.Marshal(v)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return string(b)
+}
+
+// TestRunOneClass checks that a set with one class is no error: exit 0, a
+// warning on stderr, and the undefined figures null in JSON.
+func TestRunOneClass(t *testing.T) {
+	file := writeFile(t, t.TempDir(), "quiet.csv", []byte("score,label\n0.8,0\n0.3,0\n0.3,no\n"))
+	for _, format := range []string{"json", "text"} {
+		got := runSill(t, "", "report", file, "--format", format)
+		if got.code != 0 {
+			t.Fatalf("%s: exit %d, stderr %s", format, got.code, got.stderr)
+		}
+		want := "sill: warning: the validation set has no true cases: hit share, AUC and average precision are undefined\n"
+		if got.stderr != want {
+			t.Errorf("%s: stderr %q, want %q", format, got.stderr, want)
+		}
+		if format != "json" {
+			continue
+		}
+		var out map[string]any
+		if err := json.Unmarshal([]byte(got.stdout), &out); err != nil {
+			t.Fatal(err)
+		}
+		if out["roc_auc"] != nil || out["average_precision"] != nil || out["positives"] != 0.0 || out["negatives"] != 3.0 {
+			t.Errorf("roc_auc %v average_precision %v positives %v negatives %v", out["roc_auc"], out["average_precision"], out["positives"], out["negatives"])
+		}
+		for _, raw := range out["cuts"].([]any) {
+			c := raw.(map[string]any)
+			if c["recall"] != nil || c["recall_ci"] != nil {
+				t.Errorf("cut %v: recall %v interval %v, want null", c["spec"], c["recall"], c["recall_ci"])
+			}
+		}
+	}
+}
+
+// TestRunDropInvalid checks that --drop-invalid turns bad scores into a
+// count and a warning instead of an error.
+func TestRunDropInvalid(t *testing.T) {
+	file := writeFile(t, t.TempDir(), "gaps.csv", []byte("score,label\n0.9,1\nNaN,0\n0.2,0\n,1\n0.5,1\n0.1,0\n"))
+	got := runSill(t, "", "report", file, "--drop-invalid", "--format", "json")
+	if got.code != 0 || got.stderr != "sill: warning: 2 rows were dropped for an invalid score\n" {
+		t.Fatalf("exit %d, stderr %q", got.code, got.stderr)
+	}
+	var out map[string]any
+	if err := json.Unmarshal([]byte(got.stdout), &out); err != nil {
+		t.Fatal(err)
+	}
+	if out["rows"] != 4.0 || out["dropped_rows"] != 2.0 {
+		t.Errorf("rows %v dropped %v, want 4 and 2", out["rows"], out["dropped_rows"])
+	}
+}
+
+// TestRunCuts checks the --cut flags end to end on goodTable: ranked
+// 0.91 T, 0.85 T, 0.85 F, 0.60 F, 0.42 T, 0.30 F, 0.12 F, 0.05 F, so by
+// hand top=3 flags the first three rows (cut 0.85), hit=1 needs cut 0.42,
+// and score=0.5 is the smallest data score >= 0.5, 0.60.
+func TestRunCuts(t *testing.T) {
+	file := writeFile(t, t.TempDir(), "good.csv", []byte(goodTable))
+	got := runSill(t, "", "report", file, "--format", "json", "--cut", "top=3", "--cut", "hit=1", "--cut", "score=0.5", "--cut", "score=0.95")
+	if got.code != 0 {
+		t.Fatalf("exit %d: %s", got.code, got.stderr)
+	}
+	var out struct {
+		Cuts []struct {
+			Spec   string   `json:"spec"`
+			Met    bool     `json:"met"`
+			Score  *float64 `json:"score"`
+			Reason *string  `json:"reason"`
+		} `json:"cuts"`
+	}
+	if err := json.Unmarshal([]byte(got.stdout), &out); err != nil {
+		t.Fatal(err)
+	}
+	want := []struct {
+		spec  string
+		score float64
+	}{{"top=3", 0.85}, {"hit=1", 0.42}, {"score=0.5", 0.60}, {"score=0.95", -1}}
+	if len(out.Cuts) != len(want) {
+		t.Fatalf("%d cuts, want %d", len(out.Cuts), len(want))
+	}
+	for i, w := range want {
+		c := out.Cuts[i]
+		if c.Spec != w.spec {
+			t.Errorf("cut %d spec %q, want %q", i, c.Spec, w.spec)
+		}
+		if w.score < 0 {
+			if c.Met || c.Score != nil || c.Reason == nil || *c.Reason == "" {
+				t.Errorf("%s: want unmet with a reason, got met %v score %v", c.Spec, c.Met, c.Score)
+			}
+			continue
+		}
+		if !c.Met || c.Score == nil || *c.Score != w.score {
+			t.Errorf("%s: met %v score %v, want %v", c.Spec, c.Met, c.Score, w.score)
+		}
+	}
+}
+
+// TestRunDemo checks that the demo data is the same for the same rows and
+// seed, differs for another seed, and that --out writes the file.
+func TestRunDemo(t *testing.T) {
+	first := runSill(t, "", "demo", "--rows", "50", "--seed", "3")
+	second := runSill(t, "", "demo", "--rows", "50", "--seed", "3")
+	other := runSill(t, "", "demo", "--rows", "50", "--seed", "4")
+	if first.code != 0 || first.stderr != "" {
+		t.Fatalf("exit %d, stderr %q", first.code, first.stderr)
+	}
+	if first.stdout != second.stdout {
+		t.Error("the same rows and seed gave different data")
+	}
+	if first.stdout == other.stdout {
+		t.Error("seeds 3 and 4 gave the same data")
+	}
+	lines := strings.Split(strings.TrimSuffix(first.stdout, "\n"), "\n")
+	if len(lines) != 51 || lines[0] != "id,yard,read_at,score,label" {
+		t.Errorf("%d lines, header %q; want 51 and id,yard,read_at,score,label", len(lines), lines[0])
+	}
+
+	out := filepath.Join(t.TempDir(), "bearings.csv")
+	got := runSill(t, "", "demo", "--rows", "50", "--seed", "3", "--out", out)
+	if got.code != 0 || got.stdout != "" || got.stderr != "sill: wrote 50 rows to "+out+"\n" {
+		t.Errorf("--out: exit %d stdout %q stderr %q", got.code, got.stdout, got.stderr)
+	}
+	if data, err := os.ReadFile(out); err != nil || string(data) != first.stdout {
+		t.Errorf("--out file differs from standard output (%v)", err)
+	}
+
+	// The demo file reads back as a report.
+	got = runSill(t, "", "report", out, "--format", "json")
+	if got.code != 0 || !strings.Contains(got.stdout, `"rows": 50`) {
+		t.Errorf("report of the demo file: exit %d stderr %q", got.code, got.stderr)
+	}
+}
+
+// TestRunNoArguments checks that sill alone, away from a terminal, prints
+// the report of the built-in data.
+func TestRunNoArguments(t *testing.T) {
+	got := runSill(t, "")
+	if got.code != 0 {
+		t.Fatalf("exit %d: %s", got.code, got.stderr)
+	}
+	if !strings.Contains(got.stdout, "Veldmoor Freight") || !strings.Contains(got.stdout, "queue per shift") {
+		t.Errorf("no report of the built-in data:\n%s", got.stdout)
+	}
+}
