@@ -10,7 +10,6 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 
 	"github.com/sill-tool/sill/internal/cutrule"
-	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/report"
 )
 
@@ -91,7 +90,7 @@ func (p figuresPane) body() string {
 	var lines []string
 	add := func(format string, args ...any) { lines = append(lines, fmt.Sprintf(format, args...)) }
 
-	add("%s %s  %s", st.Label.Render("flag score "+sign), st.Figure.Render(report.Score(e.Score)),
+	add("%s %s %s", st.Label.Render("flag score "+sign), st.Figure.Render(report.Score(e.Score)),
 		st.Muted.Render(fmt.Sprintf("· %s flagged (%s)", report.Count(e.Flagged), report.Percent(e.FlaggedShare))))
 	add("%s %s  %s", st.Label.Render("hit share"), st.Figure.Render(report.Percent(e.Recall)),
 		st.Muted.Render(conf+" "+report.Range(e.RecallCI)))
@@ -103,10 +102,10 @@ func (p figuresPane) body() string {
 		reading += " · in production " + report.Percent(e.Projected.FalseDiscoveryRate())
 	}
 	add("  %s", st.Muted.Render(reading))
-	add("%s %s  %s", st.Label.Render("false positive rate"), report.Percent(e.FalsePositiveRate),
+	add("%s %s %s", st.Label.Render("false positive rate"), report.Percent(e.FalsePositiveRate),
 		st.Muted.Render("· projected alert rate "+report.Percent(e.Projected.AlertRate)))
 	if a.Volume > 0 {
-		queue := st.Label.Render("queue per shift") + " " + st.Figure.Render(queueText(e.Projected.QueuePerShift))
+		queue := st.Label.Render("queue per shift") + " " + st.Figure.Render(report.Queue(e.Projected.QueuePerShift))
 		if a.Capacity > 0 {
 			against := report.Against(e.Projected.QueuePerShift, a.Capacity)
 			style := st.Muted
@@ -154,17 +153,6 @@ func (p figuresPane) startLine() string {
 		}
 	}
 	return strings.Join(parts, " ")
-}
-
-// queueText rounds a projected queue to one decimal below 100 alerts.
-func queueText(v float64) string {
-	if !evidence.Defined(v) {
-		return "n/a"
-	}
-	if v >= 100 {
-		return strconv.FormatFloat(v, 'f', 0, 64)
-	}
-	return strconv.FormatFloat(v, 'f', 1, 64)
 }
 
 // Reading puts a wrong-alert share in words, as "about 1 in 3 alerts is

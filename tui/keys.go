@@ -45,18 +45,18 @@ type KeyMap struct {
 // DefaultKeyMap returns the explorer's keys. tui/KEYS.md lists them.
 func DefaultKeyMap() KeyMap {
 	return KeyMap{
-		Up:       key.NewBinding(key.WithKeys("up", "k"), key.WithHelp("↑/k", "stricter cut (one score up)")),
-		Down:     key.NewBinding(key.WithKeys("down", "j"), key.WithHelp("↓/j", "looser cut (one score down)")),
+		Up:       key.NewBinding(key.WithKeys("up", "k"), key.WithHelp("↑/k", "stricter cut, one score up")),
+		Down:     key.NewBinding(key.WithKeys("down", "j"), key.WithHelp("↓/j", "looser cut, one score down")),
 		PageUp:   key.NewBinding(key.WithKeys("pgup", "ctrl+u"), key.WithHelp("pgup/ctrl+u", "a page stricter")),
 		PageDown: key.NewBinding(key.WithKeys("pgdown", "ctrl+d"), key.WithHelp("pgdn/ctrl+d", "a page looser")),
 		Top:      key.NewBinding(key.WithKeys("home", "g"), key.WithHelp("home/g", "strictest cut")),
-		Bottom:   key.NewBinding(key.WithKeys("end", "G"), key.WithHelp("end/G", "loosest cut (flag all)")),
+		Bottom:   key.NewBinding(key.WithKeys("end", "G"), key.WithHelp("end/G", "loosest cut, flag all")),
 
-		BaseRate:  key.NewBinding(key.WithKeys("1"), key.WithHelp("1", "start: flag as many as the base rate")),
-		Hit:       key.NewBinding(key.WithKeys("2"), key.WithHelp("2", "start: hit share 80%")),
-		Wrong:     key.NewBinding(key.WithKeys("3"), key.WithHelp("3", "start: wrong-alert share 1/3")),
-		Capacity:  key.NewBinding(key.WithKeys("4"), key.WithHelp("4", "start: queue at capacity")),
-		LeastCost: key.NewBinding(key.WithKeys("5"), key.WithHelp("5", "start: least cost")),
+		BaseRate:  key.NewBinding(key.WithKeys("1"), key.WithHelp("1", "flag as many as the base rate")),
+		Hit:       key.NewBinding(key.WithKeys("2"), key.WithHelp("2", "hit share 80%")),
+		Wrong:     key.NewBinding(key.WithKeys("3"), key.WithHelp("3", "wrong-alert share 1/3")),
+		Capacity:  key.NewBinding(key.WithKeys("4"), key.WithHelp("4", "queue at capacity")),
+		LeastCost: key.NewBinding(key.WithKeys("5"), key.WithHelp("5", "least cost")),
 
 		CurveView: key.NewBinding(key.WithKeys("v"), key.WithHelp("v", "next chart view")),
 		Focus:     key.NewBinding(key.WithKeys("tab"), key.WithHelp("tab", "keys to list / strip")),

@@ -267,6 +267,18 @@ func (m Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		m.status = "not written: " + msg.err.Error()
 		return m, nil
 	case tea.KeyMsg:
+		// Keys typed ahead over a slow link can arrive as one message of
+		// several runes; take them one at a time.
+		if msg.Type == tea.KeyRunes && len(msg.Runes) > 1 && !msg.Paste {
+			var cmds []tea.Cmd
+			var next tea.Model = m
+			for _, r := range msg.Runes {
+				var cmd tea.Cmd
+				next, cmd = next.(Model).key(tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune{r}})
+				cmds = append(cmds, cmd)
+			}
+			return next, tea.Batch(cmds...)
+		}
 		return m.key(msg)
 	}
 	return m, nil
@@ -474,11 +486,11 @@ func (m *Model) refresh() {
 			k.Wrong.SetEnabled(true)
 		case cutrule.Queue:
 			k.Capacity.SetEnabled(true)
-			k.Capacity.SetHelp(keyName(i), "start: queue at capacity ("+o.Rule.String()+")")
+			k.Capacity.SetHelp(keyName(i), "queue at capacity ("+report.Count(o.Rule.Value)+")")
 		case cutrule.Cost:
 			k.LeastCost.SetEnabled(true)
 			k.LeastCost.SetKeys(keyName(i))
-			k.LeastCost.SetHelp(keyName(i), "start: least cost")
+			k.LeastCost.SetHelp(keyName(i), "least cost")
 		}
 	}
 	strip := m.focus == focusStrip && len(s.pins) > 0
@@ -576,62 +588,67 @@ func (m Model) overlayView() string {
 func (m Model) header(width int) string {
 	s, st := m.s, m.ctx.styles
 	sum := s.curve.Summary
-	left := fmt.Sprintf("sill · %s · %d rows · %s true (%s) · AUC %s", s.set.Source, sum.Rows,
+	left := fmt.Sprintf("%s · %d rows · %s true (%s) · AUC %s", s.set.Source, sum.Rows,
 		report.Count(sum.Positives), report.Percent(sum.BaseRate), report.Fixed(sum.ROCAUC, 3))
 	a := s.assume
-	parts := []string{"base rate " + report.Percent(a.BaseRate)}
+	parts := []string{"base " + report.Percent(a.BaseRate)}
 	if a.Volume > 0 {
 		parts = append(parts, report.Count(a.Volume)+"/shift")
 	}
 	if a.Capacity > 0 {
-		parts = append(parts, "capacity "+report.Count(a.Capacity))
+		parts = append(parts, "cap "+report.Count(a.Capacity))
 	}
 	if c := a.Costs; c != nil {
-		parts = append(parts, "costs "+report.Money(c.FalseAlert)+"/"+report.Money(c.Miss)+"/"+report.Money(c.Hit))
+		parts = append(parts, "wrong "+report.Money(c.FalseAlert)+" miss "+report.Money(c.Miss))
+		if c.Hit != 0 {
+			parts[len(parts)-1] += " hit " + report.Money(c.Hit)
+		}
 	}
-	right := "production: " + strings.Join(parts, " · ")
+	right := "assumed: " + strings.Join(parts, " · ")
 	// The assumptions keep at least half the line; the source name gives
 	// way first.
-	rightW := min(len([]rune(right)), width/2)
+	rightW := min(len([]rune(right)), width*3/5)
 	return st.Header.Render(fitLine(left, width-rightW-2)) + "  " + st.Muted.Render(fitLine(right, rightW))
 }
 
 // footer is the bottom line: what just happened, then the keys that matter
-// most here.
+// most here, in a few words each.
 func (m Model) footer(width int) string {
 	st := m.ctx.styles
 	k := m.ctx.keys
-	var bindings []key.Binding
+	type hint struct {
+		b    key.Binding
+		what string
+	}
+	var hints []hint
 	if m.focus == focusStrip {
-		bindings = append(bindings, m.strip.ShortHelp()...)
-		bindings = append(bindings, k.Remove, k.Focus)
+		hints = append(hints, hint{k.Left, "select"}, hint{k.Jump, "go to"}, hint{k.Choose, "choose"},
+			hint{k.Rename, "rename"}, hint{k.Remove, "unpin"}, hint{k.Focus, "list"})
 	} else {
-		bindings = append(bindings, k.Up, k.Down)
-		bindings = append(bindings, key.NewBinding(key.WithKeys("1"), key.WithHelp("1-"+keyName(len(m.s.starts)-1), "starting points")))
-		bindings = append(bindings, k.Pin)
+		hints = append(hints, hint{k.Up, "stricter"}, hint{k.Down, "looser"})
+		if n := len(m.s.starts); n > 0 {
+			hints = append(hints, hint{key.NewBinding(key.WithKeys("1"), key.WithHelp("1-"+keyName(n-1), "")), "starting points"})
+		}
+		hints = append(hints, hint{k.Pin, "pin"})
 		if len(m.s.pins) > 0 {
-			bindings = append(bindings, k.Focus)
+			hints = append(hints, hint{k.Focus, "strip"})
 		}
 	}
-	bindings = append(bindings, k.Assumptions, k.Write, k.Help, k.Quit)
-	var hints []string
-	for _, b := range bindings {
-		if !b.Enabled() {
+	hints = append(hints, hint{k.Assumptions, "assumptions"}, hint{k.Write, "write"}, hint{k.Help, "all keys"}, hint{k.Quit, "quit"})
+	var parts []string
+	for _, h := range hints {
+		if !h.b.Enabled() {
 			continue
 		}
-		hints = append(hints, st.Key.Render(b.Help().Key)+" "+st.Footer.Render(shortDesc(b.Help().Desc)))
+		name := h.b.Help().Key
+		if h.b.Help().Key == k.Left.Help().Key {
+			name = "←→"
+		}
+		parts = append(parts, st.Key.Render(name)+" "+st.Footer.Render(h.what))
 	}
-	line := strings.Join(hints, st.Footer.Render(" · "))
+	line := strings.Join(parts, st.Footer.Render(" · "))
 	if m.status != "" {
 		line = st.Status.Render(m.status) + st.Footer.Render("  │ ") + line
 	}
 	return fitLine(line, width)
-}
-
-// shortDesc trims a help text to its first words for the footer.
-func shortDesc(desc string) string {
-	if i := strings.Index(desc, " ("); i > 0 {
-		desc = desc[:i]
-	}
-	return desc
 }

@@ -47,9 +47,13 @@ type helpPane struct{ ctx *context }
 func (p helpPane) View(groups []helpGroup) string {
 	st := p.ctx.styles
 	render := func(g helpGroup) []string {
+		keyW := 0
+		for _, b := range g.bindings {
+			keyW = max(keyW, ansi.StringWidth(b.Help().Key))
+		}
 		lines := []string{st.Title.Render(g.title)}
 		for _, b := range g.bindings {
-			lines = append(lines, st.Key.Render(pad(b.Help().Key, 12, false))+" "+b.Help().Desc)
+			lines = append(lines, st.Key.Render(pad(b.Help().Key, keyW, false))+"  "+b.Help().Desc)
 		}
 		return lines
 	}
@@ -77,7 +81,7 @@ func (p helpPane) View(groups []helpGroup) string {
 		}
 		rows = append(rows, fitLine(l, leftW)+"   "+r)
 	}
-	rows = append(rows, st.Muted.Render("the candidate keys act in the strip: tab gives it the keys · ? or esc closes"))
+	rows = append(rows, st.Muted.Render("candidate keys act in the strip (tab) · ? or esc closes"))
 	body := strings.Join(rows, "\n")
 	return p.box("keys", body)
 }
@@ -135,12 +139,12 @@ type formPane struct {
 func newFormPane(ctx *context) formPane {
 	p := formPane{ctx: ctx}
 	specs := []struct{ label, hint string }{
-		{"base rate", "share of true cases in production, e.g. 0.07 or 7%; empty: the validation rate"},
+		{"base rate", "production share of true cases: 0.07 or 7%"},
 		{"volume per shift", "cases scored per shift; empty: not given"},
-		{"capacity per shift", "alerts one shift can work; needs a volume; empty: not given"},
-		{"cost of a wrong alert", "money per wrongly flagged case; empty costs: not given"},
-		{"cost of a miss", "money per true case not flagged"},
-		{"cost of a hit", "money per true case flagged; negative for a benefit"},
+		{"capacity per shift", "alerts a shift can work; needs a volume"},
+		{"cost of a wrong alert", "per wrong alert; all costs empty: none"},
+		{"cost of a miss", "per true case not flagged"},
+		{"cost of a hit", "per true case flagged; negative: a benefit"},
 		{"confidence", "level of every interval, e.g. 0.95"},
 	}
 	for _, s := range specs {
@@ -162,7 +166,9 @@ func (p *formPane) load(a projection.Assumptions, validationBaseRate float64) {
 		return text(v)
 	}
 	values := make([]string, fieldCount)
-	values[fieldBaseRate] = text(a.BaseRate)
+	if a.BaseRate != validationBaseRate {
+		values[fieldBaseRate] = text(a.BaseRate)
+	}
 	values[fieldVolume] = given(a.Volume)
 	values[fieldCapacity] = given(a.Capacity)
 	if c := a.Costs; c != nil {
@@ -314,7 +320,10 @@ func (p formPane) View() string {
 	for i, f := range p.fields {
 		label := pad(f.label, 22, false)
 		value := f.input.View()
-		line := label + " " + fitLine(value, 15)
+		if i == fieldBaseRate && f.input.Value() == "" {
+			value += st.Muted.Render("validation " + report.Percent(p.validationBaseRate))
+		}
+		line := label + " " + fitLine(value, 17)
 		if i == p.focused {
 			line = st.Selected.Render("▸") + line
 		} else {
@@ -326,7 +335,7 @@ func (p formPane) View() string {
 		lines = append(lines, line)
 	}
 	lines = append(lines, "", st.Muted.Render(p.fields[p.focused].hint))
-	lines = append(lines, st.Muted.Render("validation base rate "+report.Percent(p.validationBaseRate)+" · tab/↓ next · enter applies · esc cancels"))
+	lines = append(lines, st.Muted.Render("tab/↓ next · enter applies · esc cancels"))
 	return overlayBox(p.ctx, "assumptions", strings.Join(lines, "\n"))
 }
 
@@ -390,11 +399,33 @@ type replacePane struct {
 // View draws the question.
 func (p replacePane) View() string {
 	st := p.ctx.styles
-	lines := []string{
-		st.Warning.Render(p.path + " already exists and was not made from this data."),
-		st.Muted.Render(p.reason),
-		"",
-		"Replace it with this decision? " + st.Key.Render("y") + " replaces · " + st.Key.Render("n") + "/esc keeps it",
+	lines := []string{st.Warning.Render(p.path + " already exists and was not made from this data.")}
+	for _, l := range wrapWords(p.reason, 60) {
+		lines = append(lines, st.Muted.Render(l))
 	}
+	lines = append(lines, "",
+		"Replace it with this decision? "+st.Key.Render("y")+" replaces · "+st.Key.Render("n")+"/esc keeps it")
 	return overlayBox(p.ctx, "replace "+p.path+"?", strings.Join(lines, "\n"))
+}
+
+// wrapWords breaks text into lines of at most width columns at spaces; a
+// word longer than width stays whole on its own line.
+func wrapWords(text string, width int) []string {
+	var lines []string
+	line := ""
+	for _, word := range strings.Fields(text) {
+		switch {
+		case line == "":
+			line = word
+		case ansi.StringWidth(line)+1+ansi.StringWidth(word) <= width:
+			line += " " + word
+		default:
+			lines = append(lines, line)
+			line = word
+		}
+	}
+	if line != "" {
+		lines = append(lines, line)
+	}
+	return lines
 }
