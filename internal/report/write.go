@@ -165,7 +165,7 @@ func WriteText(w io.Writer, r *Report) error {
 		fmt.Fprintf(&b, "\nwarning: %s", warning)
 	}
 	// One blank line before the caution, whatever came last.
-	text := strings.TrimRight(b.String(), "\n") + "\n\ncaution: " + r.Caution + "\n"
+	text := singleBlankLines(strings.TrimRight(b.String(), "\n")) + "\n\ncaution: " + r.Caution + "\n"
 	_, err := io.WriteString(w, text)
 	return err
 }
@@ -199,9 +199,18 @@ func WriteMarkdown(w io.Writer, r *Report) error {
 	for _, warning := range r.Warnings {
 		fmt.Fprintf(&b, "\n- **Warning:** %s", mdEscape(warning))
 	}
-	text := strings.TrimRight(b.String(), "\n") + "\n\n> **Caution.** " + r.Caution + "\n"
+	text := singleBlankLines(strings.TrimRight(b.String(), "\n")) + "\n\n> **Caution.** " + r.Caution + "\n"
 	_, err := io.WriteString(w, text)
 	return err
+}
+
+// singleBlankLines folds runs of blank lines into one, so that sections
+// that each start with a blank line never leave two between them.
+func singleBlankLines(text string) string {
+	for strings.Contains(text, "\n\n\n") {
+		text = strings.ReplaceAll(text, "\n\n\n", "\n\n")
+	}
+	return text
 }
 
 func (r *Report) assumptionLine() string {
