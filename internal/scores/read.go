@@ -469,6 +469,7 @@ func (b *builder) readDelimited(in *bufio.Reader) error {
 			}
 			return &ParseError{File: b.source, Err: ErrEmpty}
 		}
+		headerLine = bytes.TrimLeft(headerLine, "\r\n") // blank lines before the header
 		if i := bytes.IndexByte(headerLine, '\n'); i >= 0 {
 			headerLine = headerLine[:i]
 		}
@@ -489,7 +490,8 @@ func (b *builder) readDelimited(in *bufio.Reader) error {
 	if len(header) == 1 && header[0] == "" {
 		return &ParseError{File: b.source, Line: 1, Err: ErrEmpty}
 	}
-	if err := b.resolve(header, 1); err != nil {
+	headerLine, _ := r.FieldPos(0) // 1 unless blank lines come first
+	if err := b.resolve(header, headerLine); err != nil {
 		return err
 	}
 	for {

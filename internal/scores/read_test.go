@@ -68,6 +68,12 @@ func TestReadErrors(t *testing.T) {
 			message:  `f.csv:1: column "w": column not found in header ["score", "label"]`,
 		},
 		{
+			name:     "missing column in a header after blank lines",
+			input:    "\n\r\nx,label\n0.1,1\n",
+			sentinel: scores.ErrMissingColumn,
+			message:  `f.csv:3: column not found: no score column among ["x", "label"], expected one of ["score", "probability", "prob", "p", "pred", "prediction"] (or name it with --score)`,
+		},
+		{
 			name:     "ragged row, too many fields",
 			input:    "score,label\n0.1,1\n0.2,0,3\n",
 			sentinel: scores.ErrRagged,
@@ -402,6 +408,7 @@ func TestReadFormats(t *testing.T) {
 		{"no final newline", "f.csv", []byte("score,label\n0.2,0\n0.9,1\n0.4,1"), scores.Options{}},
 		{"spaces around cells", "f.csv", []byte(" score , label \n 0.2 , 0 \n0.9,1\n0.4 ,1\n"), scores.Options{}},
 		{"tsv", "f.tsv", []byte("score\tlabel\n0.2\t0\n0.9\t1\n0.4\t1\n"), scores.Options{}},
+		{"tsv after blank lines", "f.tsv", []byte("\r\n\nscore\tlabel\n0.2\t0\n0.9\t1\n0.4\t1\n"), scores.Options{}},
 		{"semicolon", "f.csv", []byte("score;label\n0.2;0\n0.9;1\n0.4;1\n"), scores.Options{}},
 		{"pipe", "f.txt", []byte("score|label\n0.2|0\n0.9|1\n0.4|1\n"), scores.Options{}},
 		// The header holds two commas inside one name and one semicolon,
