@@ -1,10 +1,13 @@
 package main
 
 import (
+	"context"
 	"fmt"
+	"time"
 
 	"github.com/spf13/pflag"
 
+	"github.com/sill-tool/sill/internal/bootstrap"
 	"github.com/sill-tool/sill/internal/calibration"
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
@@ -12,6 +15,7 @@ import (
 	"github.com/sill-tool/sill/internal/report"
 	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/segment"
+	"github.com/sill-tool/sill/internal/shift"
 )
 
 // beyondFlags are report's flags for the figures beyond the averages:
@@ -20,16 +24,58 @@ type beyondFlags struct {
 	segmentOrder       string
 	calibrationBins    int
 	calibrationBinning string
+
+	timeColumn string
+	timeLayout string
+	timeZone   string
+	shifts     string
+
+	replicates int
+	seed       uint64
+
+	// Set by prepare and finderOptions.
+	location *time.Location
+	assigned *shift.Assignment
+	scale    shift.Scale
 }
 
 func (f *beyondFlags) register(fs *pflag.FlagSet) {
 	fs.StringVar(&f.segmentOrder, "segment-order", "size", "order of the segments under each cut: size, gap (furthest from overall first) or name")
 	fs.IntVar(&f.calibrationBins, "calibration-bins", 10, "bins of the reliability table (scores in [0,1] only)")
 	fs.StringVar(&f.calibrationBinning, "calibration-binning", "width", "reliability bins: width (equal width) or quantile (equal rows)")
+	fs.StringVar(&f.timeColumn, "time", "", "column of case times, for the queue of each real shift (needs --shifts)")
+	fs.StringVar(&f.timeLayout, "time-layout", "", `layout of --time in Go's reference-time form, e.g. "2006-01-02 15:04" (default: RFC 3339)`)
+	fs.StringVar(&f.timeZone, "tz", "UTC", "time zone of the shift schedule and of times without a zone, e.g. Europe/Amsterdam")
+	fs.StringVar(&f.shifts, "shifts", "", "local start times of the crew shifts, e.g. 06:00,14:00,22:00")
+	fs.IntVar(&f.replicates, "bootstrap", 0, "resample the set this many times to show how far each cut moves (0: off)")
+	fs.Uint64Var(&f.seed, "seed", 1, "seed of --bootstrap; the same seed gives the same figures")
 }
 
-// prepare sets the reading options these flags need before the set is read.
+// prepare checks the time flags and sets the reading options they need
+// before the set is read.
 func (f *beyondFlags) prepare(in *inputFlags) error {
+	if f.timeZone == "" {
+		f.timeZone = "UTC"
+	}
+	loc, err := time.LoadLocation(f.timeZone)
+	if err != nil {
+		return fmt.Errorf("--tz %q: expected a time-zone name such as UTC or Europe/Amsterdam", f.timeZone)
+	}
+	f.location = loc
+	switch {
+	case f.timeColumn == "" && f.shifts != "":
+		return fmt.Errorf("--shifts needs --time: the column of case times to place in shifts")
+	case f.timeColumn != "" && f.shifts == "":
+		return fmt.Errorf("--time needs --shifts: the local start times of the crew shifts, e.g. 06:00,14:00,22:00")
+	case f.timeColumn == "" && f.timeLayout != "":
+		return fmt.Errorf("--time-layout needs --time")
+	}
+	if f.shifts != "" {
+		if _, err := shift.ParseSchedule(f.shifts, loc); err != nil {
+			return fmt.Errorf("--shifts: %w", err)
+		}
+	}
+	in.opt.TimeColumn, in.opt.TimeLayout, in.opt.TimeLocation = f.timeColumn, f.timeLayout, loc
 	return nil
 }
 
@@ -43,42 +89,87 @@ func (f *beyondFlags) check() error {
 		f.calibrationBins, f.calibrationBinning = 10, "width"
 	}
 	if _, err := segment.ParseOrder(f.segmentOrder); err != nil {
-		return flagValueError("--segment-order", err)
+		return valueFlagError("--segment-order", err)
 	}
 	if _, err := calibration.ParseBinning(f.calibrationBinning); err != nil {
-		return flagValueError("--calibration-binning", err)
+		return valueFlagError("--calibration-binning", err)
 	}
 	if f.calibrationBins < 1 || f.calibrationBins > 1000 {
 		return fmt.Errorf("--calibration-bins %d: expected a number of bins from 1 to 1000", f.calibrationBins)
 	}
+	if f.replicates < 0 || f.replicates > 100000 {
+		return fmt.Errorf("--bootstrap %d: expected a number of resampled sets from 1 to 100000 (0: off)", f.replicates)
+	}
 	return nil
+}
+
+// defaultRules adds queue90=capacity to the default rules when case times
+// and a capacity are given.
+func (f *beyondFlags) defaultRules(rules []cutrule.Rule, a projection.Assumptions) []cutrule.Rule {
+	if f.timeColumn != "" && a.Capacity > 0 {
+		rules = append(rules, cutrule.Rule{Kind: cutrule.Queue90, Value: a.Capacity})
+	}
+	return rules
+}
+
+// finderOptions places the rows in shifts when case times are given and
+// returns the cut finder's options for queue90=K.
+func (f *beyondFlags) finderOptions(set *scores.Set, a projection.Assumptions) ([]cutrule.Option, error) {
+	if f.timeColumn == "" {
+		return nil, nil
+	}
+	sched, err := shift.ParseSchedule(f.shifts, f.location)
+	if err != nil {
+		return nil, fmt.Errorf("--shifts: %w", err)
+	}
+	assigned, err := shift.Assign(set, sched)
+	if err != nil {
+		return nil, fmt.Errorf("--time %s: %w", f.timeColumn, err)
+	}
+	f.assigned, f.scale = &assigned, shift.ScaleFor(set, assigned, a)
+	return []cutrule.Option{cutrule.WithShifts(assigned, f.scale)}, nil
 }
 
 // apply adds the figures beyond the averages to r.
 func (f *beyondFlags) apply(r *report.Report, set *scores.Set, sum curve.Summary, a projection.Assumptions, rules []cutrule.Rule, outcomes []cutrule.Outcome) error {
 	order, err := segment.ParseOrder(f.segmentOrder)
 	if err != nil {
-		return flagValueError("--segment-order", err)
+		return valueFlagError("--segment-order", err)
 	}
 	r.AddSegments(set, outcomes, order)
 	binning, err := calibration.ParseBinning(f.calibrationBinning)
 	if err != nil {
-		return flagValueError("--calibration-binning", err)
+		return valueFlagError("--calibration-binning", err)
 	}
 	if err := r.AddCalibration(set, outcomes, f.calibrationBins, binning, a); err != nil {
 		return fmt.Errorf("--calibration-bins: %w", err)
 	}
+	if f.assigned != nil {
+		r.AddShiftPeaks(set, outcomes, *f.assigned, f.scale)
+	}
+	if f.replicates > 0 {
+		opt := bootstrap.Options{Replicates: f.replicates, Seed: f.seed, BandCuts: 50}
+		if f.assigned != nil {
+			opt.FinderOptions = []cutrule.Option{cutrule.WithShifts(*f.assigned, f.scale)}
+		}
+		res, err := bootstrap.Run(context.Background(), set, rules, a, opt)
+		if err != nil {
+			return fmt.Errorf("--bootstrap: %w", err)
+		}
+		r.AddStability(res)
+	}
 	return nil
 }
 
-func flagValueError(flag string, err error) error {
-	return &valueFlagError{flag: flag, err: err}
+func valueFlagError(flag string, err error) error {
+	return &flagValueError{flag: flag, err: err}
 }
 
-type valueFlagError struct {
+// flagValueError is a flag whose value a package rejected.
+type flagValueError struct {
 	flag string
 	err  error
 }
 
-func (e *valueFlagError) Error() string { return e.flag + ": " + e.err.Error() }
-func (e *valueFlagError) Unwrap() error { return e.err }
+func (e *flagValueError) Error() string { return e.flag + ": " + e.err.Error() }
+func (e *flagValueError) Unwrap() error { return e.err }

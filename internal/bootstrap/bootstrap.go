@@ -54,10 +54,10 @@ type Options struct {
 	// far, from the workers but never two calls at once.
 	Progress func(done int)
 
-	// FinderOptions, when set, returns extra options for the cut finder
-	// of a replicate; origin[i] is the set row that replicate row i was
-	// drawn from.
-	FinderOptions func(origin []int) []cutrule.Option
+	// FinderOptions are passed to the cut finder of the set itself, to
+	// check the rules (queue90=K needs cutrule.WithShifts); replicates do
+	// not use them, since queue90=K is not resampled (see Spread).
+	FinderOptions []cutrule.Option
 }
 
 // Errors of Run.
@@ -67,13 +67,19 @@ var (
 )
 
 // Spread is where one rule's cut lands across the replicates. Score and
-// FlaggedShare hold the Low and High percentiles over the replicates in
+// FlaggedShare (and Recall) hold the Low and High percentiles over the replicates in
 // which the rule was met; they are NaN when it never was.
+//
+// queue90=K is not resampled and has Skipped set: drawing rows with
+// replacement piles repeated cases into the same shifts, which widens the
+// spread between shifts and would push the cut towards stricter values.
 type Spread struct {
 	Rule         cutrule.Rule
 	Met          int // replicates in which the rule was met
 	Score        [2]float64
 	FlaggedShare [2]float64
+	Recall       [2]float64 // hit share at the replicate's cut
+	Skipped      string     // why the rule was not resampled; "" when it was
 }
 
 // BandPoint is the band at one of the set's cuts: the Low and High
@@ -116,8 +122,15 @@ func Run(ctx context.Context, set *scores.Set, rules []cutrule.Rule, a projectio
 	if len(positiveRows) == 0 || len(negativeRows) == 0 {
 		return Result{}, ErrNoClass
 	}
-	if _, err := cutrule.NewFinder(rules, set, a); err != nil {
+	if _, err := cutrule.NewFinder(rules, set, a, opt.FinderOptions...); err != nil {
 		return Result{}, err
+	}
+	all := rules
+	rules = nil
+	for _, r := range all {
+		if r.Kind != cutrule.Queue90 {
+			rules = append(rules, r)
+		}
 	}
 	workers := opt.Workers
 	if workers <= 0 {
@@ -128,9 +141,11 @@ func Run(ctx context.Context, set *scores.Set, rules []cutrule.Rule, a projectio
 
 	scoresAt := make([][]float64, len(rules)) // [rule][replicate], NaN when unmet
 	sharesAt := make([][]float64, len(rules))
+	recallsAt := make([][]float64, len(rules))
 	for i := range rules {
 		scoresAt[i] = make([]float64, opt.Replicates)
 		sharesAt[i] = make([]float64, opt.Replicates)
+		recallsAt[i] = make([]float64, opt.Replicates)
 	}
 	recallAt := make([][]float64, len(band)) // [band cut][replicate]
 	fdrAt := make([][]float64, len(band))
@@ -158,20 +173,16 @@ func Run(ctx context.Context, set *scores.Set, rules []cutrule.Rule, a projectio
 					return
 				}
 				rep := r.draw(opt.Seed, uint64(b))
-				var extra []cutrule.Option
-				if opt.FinderOptions != nil {
-					extra = opt.FinderOptions(r.origin)
-				}
-				finder, err := cutrule.NewFinder(rules, rep, a, extra...)
+				finder, err := cutrule.NewFinder(rules, rep, a)
 				if err != nil {
 					failOnce.Do(func() { failure = err })
 					return
 				}
 				curve.Walk(rep, finder.Visit)
 				for i, o := range finder.Outcomes() {
-					scoresAt[i][b], sharesAt[i][b] = math.NaN(), math.NaN()
+					scoresAt[i][b], sharesAt[i][b], recallsAt[i][b] = math.NaN(), math.NaN(), math.NaN()
 					if o.Met {
-						scoresAt[i][b], sharesAt[i][b] = o.Point.Score, o.Point.FlaggedShare()
+						scoresAt[i][b], sharesAt[i][b], recallsAt[i][b] = o.Point.Score, o.Point.FlaggedShare(), o.Point.Recall()
 					}
 				}
 				r.band(band, b, recallAt, fdrAt)
@@ -192,11 +203,20 @@ func Run(ctx context.Context, set *scores.Set, rules []cutrule.Rule, a projectio
 		return Result{}, failure
 	}
 	res := Result{Replicates: opt.Replicates, Seed: opt.Seed}
-	for i, rule := range rules {
+	i := 0
+	for _, rule := range all {
 		s := Spread{Rule: rule}
+		if rule.Kind == cutrule.Queue90 {
+			s.Skipped = "not resampled: drawing cases with replacement piles repeats into the same shifts and overstates the spread between shifts"
+			s.Score, s.FlaggedShare, s.Recall = [2]float64{math.NaN(), math.NaN()}, [2]float64{math.NaN(), math.NaN()}, [2]float64{math.NaN(), math.NaN()}
+			res.Spreads = append(res.Spreads, s)
+			continue
+		}
 		s.Score, s.Met = percentiles(scoresAt[i], 0)
 		s.FlaggedShare, _ = percentiles(sharesAt[i], 0)
+		s.Recall, _ = percentiles(recallsAt[i], 0)
 		res.Spreads = append(res.Spreads, s)
+		i++
 	}
 	for j, cut := range band {
 		p := BandPoint{Cut: cut.index, Score: cut.score}
@@ -277,13 +297,12 @@ type replicator struct {
 	set                        *scores.Set
 	positiveRows, negativeRows []int
 	counts                     []int32
-	origin                     []int
 	rep                        scores.Set
 }
 
 func newReplicator(set *scores.Set, positiveRows, negativeRows []int) *replicator {
 	n := set.Len()
-	r := &replicator{set: set, positiveRows: positiveRows, negativeRows: negativeRows, counts: make([]int32, n), origin: make([]int, 0, n)}
+	r := &replicator{set: set, positiveRows: positiveRows, negativeRows: negativeRows, counts: make([]int32, n)}
 	r.rep = scores.Set{
 		Scores:         make([]float64, 0, n),
 		Labels:         make([]bool, 0, n),
@@ -307,7 +326,7 @@ func (r *replicator) draw(seed, b uint64) *scores.Set {
 		r.counts[r.negativeRows[rng.IntN(len(r.negativeRows))]]++
 	}
 	rep := &r.rep
-	rep.Scores, rep.Labels, r.origin = rep.Scores[:0], rep.Labels[:0], r.origin[:0]
+	rep.Scores, rep.Labels = rep.Scores[:0], rep.Labels[:0]
 	if rep.Weights != nil {
 		rep.Weights = rep.Weights[:0]
 	}
@@ -318,7 +337,6 @@ func (r *replicator) draw(seed, b uint64) *scores.Set {
 			if rep.Weights != nil {
 				rep.Weights = append(rep.Weights, r.set.Weights[i])
 			}
-			r.origin = append(r.origin, i)
 		}
 	}
 	return rep
@@ -355,4 +373,50 @@ func (r *replicator) band(cuts []bandCut, b int, recallAt, fdrAt [][]float64) {
 			fdrAt[j][b] = fp / (tp + fp)
 		}
 	}
+}
+
+// Describe says in plain words how far a rule's cut moves across the
+// replicates. Rules pin one figure (hit=R the hit share, base or queue=K
+// the workload), so it judges by whichever of the flagged share (the
+// workload) and the hit share moves more, as the ratio of its 95th to its
+// 5th percentile: "steady" under 1.25, "fairly steady" under 1.6, else
+// "unsteady". A rule met in under 95% of the replicates is "often unmet"
+// whatever its spread.
+func Describe(s Spread, replicates int) string {
+	switch {
+	case s.Skipped != "":
+		return s.Skipped
+	case s.Met == 0:
+		return "never met in the resampled sets"
+	case float64(s.Met) < 0.95*float64(replicates):
+		return fmt.Sprintf("often unmet: met in %d of %d resampled sets", s.Met, replicates)
+	}
+	what, ratio := "", 0.0
+	for _, f := range []struct {
+		name   string
+		lo, hi float64
+	}{{"workload", s.FlaggedShare[0], s.FlaggedShare[1]}, {"hit share", s.Recall[0], s.Recall[1]}} {
+		switch {
+		case math.IsNaN(f.lo) || math.IsNaN(f.hi):
+			continue
+		case f.lo <= 0 && f.hi > 0:
+			return "unsteady: in some resampled sets the " + f.name + " is nil"
+		case f.lo <= 0:
+			continue
+		}
+		if r := f.hi / f.lo; r > ratio {
+			what, ratio = f.name, r
+		}
+	}
+	switch {
+	case what == "":
+		return "spread undefined"
+	case ratio == 1:
+		return "steady: neither workload nor hit share moves"
+	case ratio < 1.25:
+		return fmt.Sprintf("steady: the %s varies by a factor of %.2f between the 5th and 95th percentile", what, ratio)
+	case ratio < 1.6:
+		return fmt.Sprintf("fairly steady: the %s varies by a factor of %.2f between the 5th and 95th percentile", what, ratio)
+	}
+	return fmt.Sprintf("unsteady: the %s varies by a factor of %.2f between the 5th and 95th percentile", what, ratio)
 }

@@ -6,11 +6,13 @@ import (
 	"math"
 	"math/rand/v2"
 	"testing"
+	"time"
 
 	"github.com/sill-tool/sill/internal/bootstrap"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
+	"github.com/sill-tool/sill/internal/shift"
 )
 
 // tolerance is the one float tolerance of this package's tests.
@@ -207,5 +209,55 @@ func BenchmarkDemoSize(b *testing.B) {
 		if _, err := bootstrap.Run(context.Background(), set, rs, assume, bootstrap.Options{Replicates: 200, Seed: 1, BandCuts: 100}); err != nil {
 			b.Fatal(err)
 		}
+	}
+}
+
+// TestDescribe: the plain words follow the larger ratio of the
+// percentiles of flagged share and hit share, hand-picked around the 1.25
+// and 1.6 boundaries.
+func TestDescribe(t *testing.T) {
+	steadyRecall := [2]float64{0.8, 0.8}
+	nan := [2]float64{math.NaN(), math.NaN()}
+	cases := []struct {
+		s    bootstrap.Spread
+		want string
+	}{
+		{bootstrap.Spread{Met: 100, FlaggedShare: [2]float64{0.10, 0.12}, Recall: steadyRecall}, "steady: the workload varies by a factor of 1.20 between the 5th and 95th percentile"},
+		{bootstrap.Spread{Met: 100, FlaggedShare: [2]float64{0.10, 0.15}, Recall: steadyRecall}, "fairly steady: the workload varies by a factor of 1.50 between the 5th and 95th percentile"},
+		{bootstrap.Spread{Met: 100, FlaggedShare: [2]float64{0.10, 0.20}, Recall: steadyRecall}, "unsteady: the workload varies by a factor of 2.00 between the 5th and 95th percentile"},
+		{bootstrap.Spread{Met: 100, FlaggedShare: [2]float64{0.10, 0.10}, Recall: [2]float64{0.4, 0.7}}, "unsteady: the hit share varies by a factor of 1.75 between the 5th and 95th percentile"},
+		{bootstrap.Spread{Met: 100, FlaggedShare: [2]float64{0.10, 0.10}, Recall: steadyRecall}, "steady: neither workload nor hit share moves"},
+		{bootstrap.Spread{Met: 100, FlaggedShare: [2]float64{0, 0.10}, Recall: steadyRecall}, "unsteady: in some resampled sets the workload is nil"},
+		{bootstrap.Spread{Met: 90, FlaggedShare: [2]float64{0.10, 0.11}, Recall: steadyRecall}, "often unmet: met in 90 of 100 resampled sets"},
+		{bootstrap.Spread{Met: 0, FlaggedShare: nan, Recall: nan}, "never met in the resampled sets"},
+		{bootstrap.Spread{Met: 100, FlaggedShare: nan, Recall: nan}, "spread undefined"},
+	}
+	for _, c := range cases {
+		if got := bootstrap.Describe(c.s, 100); got != c.want {
+			t.Errorf("%+v: %q, want %q", c.s, got, c.want)
+		}
+	}
+}
+
+// TestQueue90Skipped: queue90=K needs shifts to be checked and is reported
+// as not resampled, while the other rules beside it are.
+func TestQueue90Skipped(t *testing.T) {
+	set := normalSet(t, rand.New(rand.NewPCG(4, 4)), 30, 30, 1)
+	rs := rules(t, "hit=0.5", "queue90=3")
+	if _, err := bootstrap.Run(context.Background(), set, rs, assume, bootstrap.Options{Replicates: 5}); !errors.Is(err, cutrule.ErrNeedsShifts) {
+		t.Fatalf("queue90 without shifts: %v", err)
+	}
+	set.Times = make([]int64, set.Len()) // every case in one shift
+	sched, _ := shift.ParseSchedule("06:00", time.UTC)
+	assigned, err := shift.Assign(set, sched)
+	if err != nil {
+		t.Fatal(err)
+	}
+	res, err := bootstrap.Run(context.Background(), set, rs, assume, bootstrap.Options{Replicates: 20, FinderOptions: []cutrule.Option{cutrule.WithShifts(assigned, shift.Scale{Positive: 1, Negative: 1})}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res.Spreads[0].Met != 20 || res.Spreads[0].Skipped != "" || res.Spreads[1].Skipped == "" || !math.IsNaN(res.Spreads[1].Score[0]) {
+		t.Errorf("spreads %+v", res.Spreads)
 	}
 }

@@ -2,14 +2,19 @@ package report
 
 import (
 	"fmt"
+	"strconv"
 	"strings"
+	"time"
 
+	"github.com/sill-tool/sill/internal/bootstrap"
 	"github.com/sill-tool/sill/internal/calibration"
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/segment"
+	"github.com/sill-tool/sill/internal/shift"
 )
 
 // This file holds the figures beyond the averages (issue 6): segments,
@@ -167,7 +172,8 @@ func (r *Report) AddCalibration(set *scores.Set, outcomes []cutrule.Outcome, bin
 		if r.baseRateGiven {
 			line += " (probability " + Fixed(p, 3) + " at the production base rate)"
 		}
-		notes = append(notes, line, "empirical least-cost cut "+Score(float64(cf.LeastCostCut)))
+		notes = append(notes, line, "empirical least-cost cut "+Score(float64(cf.LeastCostCut))+
+			"; with --bootstrap a warning says when the two differ by more than where the least-cost cut lands in resampled sets")
 		r.beyond.costThreshold = float64(cf.CostThreshold)
 	}
 	for i, o := range outcomes {
@@ -189,4 +195,164 @@ func tableOf(header ...string) table { return table{header: header} }
 // beyondState is what the Add methods share between them.
 type beyondState struct {
 	costThreshold float64 // Elkan's threshold on the score scale, 0 when not computed
+}
+
+type shiftFigures struct {
+	Mean              number `json:"mean"`
+	P90               number `json:"p90"`
+	Max               number `json:"max"`
+	BusiestShift      string `json:"busiest_shift"` // local start, RFC 3339
+	OverCapacityShare number `json:"over_capacity_share"`
+}
+
+type shiftSchedule struct {
+	Schedule   string `json:"schedule"`
+	TimeZone   string `json:"time_zone"`
+	Shifts     int    `json:"shifts"`
+	FirstShift string `json:"first_shift"`
+	LastShift  string `json:"last_shift"`
+	// Scaled reports whether queues are scaled to the production volume
+	// (see package shift); AlertsPerTrueCase and AlertsPerFalseCase are
+	// the scale.
+	Scaled             bool    `json:"scaled"`
+	AlertsPerTrueCase  float64 `json:"alerts_per_true_case"`
+	AlertsPerFalseCase float64 `json:"alerts_per_false_case"`
+}
+
+// AddShiftPeaks adds, under each met cut, the queues of the real shifts of
+// the validation period (package shift): mean, 90th percentile, maximum and
+// the share of shifts over capacity, scaled as scale says. assigned must
+// come from set.
+func (r *Report) AddShiftPeaks(set *scores.Set, outcomes []cutrule.Outcome, assigned shift.Assignment, scale shift.Scale) {
+	capacity := float64(r.Assumptions.Capacity)
+	if !evidence.Defined(capacity) {
+		capacity = 0
+	}
+	scaled := evidence.Defined(float64(r.Assumptions.Volume))
+	r.ShiftSchedule = &shiftSchedule{
+		Schedule: assigned.Schedule.String(), TimeZone: assigned.Schedule.Location.String(), Shifts: assigned.Count,
+		Scaled: scaled, AlertsPerTrueCase: scale.Positive, AlertsPerFalseCase: scale.Negative,
+	}
+	if assigned.Count > 0 {
+		r.ShiftSchedule.FirstShift = assigned.Start(0).Format(time.RFC3339)
+		r.ShiftSchedule.LastShift = assigned.Start(assigned.Count - 1).Format(time.RFC3339)
+	}
+	t := tableOf("cut", "mean", "9 in 10 shifts at most", "busiest", "busiest shift")
+	if capacity > 0 {
+		t.header = append(t.header, "shifts over "+Count(capacity))
+	}
+	for i, o := range outcomes {
+		if i >= len(r.Cuts) {
+			continue
+		}
+		if !o.Met {
+			undefinedP90, undefinedMax := null, null
+			r.Cuts[i].Projected.QueuePerShiftP90, r.Cuts[i].Projected.QueuePerShiftMax = &undefinedP90, &undefinedMax
+			continue
+		}
+		p := assigned.At(set, o.Point.Rows, scale, capacity)
+		f := &shiftFigures{Mean: number(p.Mean), P90: number(p.P90), Max: number(p.Max), OverCapacityShare: number(p.OverCapacity)}
+		if p.Busiest >= 0 {
+			f.BusiestShift = assigned.Start(p.Busiest).Format(time.RFC3339)
+		}
+		r.Cuts[i].Shifts = f
+		p90, peak := f.P90, f.Max
+		r.Cuts[i].Projected.QueuePerShiftP90, r.Cuts[i].Projected.QueuePerShiftMax = &p90, &peak
+		row := []string{r.Cuts[i].Spec, Fixed(p.Mean, 1), Fixed(p.P90, 1), Fixed(p.Max, 1), busiestLabel(assigned, p.Busiest)}
+		if capacity > 0 {
+			row = append(row, Percent(p.OverCapacity))
+		}
+		t.rows = append(t.rows, row)
+	}
+	notes := []string{fmt.Sprintf("%s shifts starting %s (%s), from %s to %s", Count(float64(assigned.Count)), assigned.Schedule.String(),
+		assigned.Schedule.Location.String(), r.ShiftSchedule.FirstShift, r.ShiftSchedule.LastShift)}
+	if scaled {
+		notes = append(notes, fmt.Sprintf("scaled to %s cases per shift: the validation set is taken as an even sample of the period, so each flagged true case counts %.3g alerts and each false one %.3g",
+			Count(float64(r.Assumptions.Volume)), scale.Positive, scale.Negative))
+	} else {
+		notes = append(notes, "the validation set's own counts per shift (give --volume to scale them to production)")
+	}
+	r.sections = append(r.sections, section{title: "queue per real shift of the validation period", table: t, notes: notes})
+}
+
+func busiestLabel(a shift.Assignment, i int) string {
+	if i < 0 {
+		return "n/a"
+	}
+	return a.Start(i).Format("Mon 2006-01-02 15:04")
+}
+
+// significant formats v with four significant digits, "n/a" when
+// undefined: for percentiles of scores, which interpolate between them.
+func significant(v float64) string {
+	if !evidence.Defined(v) {
+		return "n/a"
+	}
+	return strconv.FormatFloat(v, 'g', 4, 64)
+}
+
+type stability struct {
+	ScoreP05        number `json:"score_p05"`
+	ScoreP95        number `json:"score_p95"`
+	FlaggedShareP05 number `json:"flagged_share_p05"`
+	FlaggedShareP95 number `json:"flagged_share_p95"`
+	RecallP05       number `json:"recall_p05"`
+	RecallP95       number `json:"recall_p95"`
+	Met             int    `json:"met_in"` // replicates in which the rule was met
+	Summary         string `json:"summary"`
+}
+
+type bootstrapFigures struct {
+	Replicates int         `json:"replicates"`
+	Seed       uint64      `json:"seed"`
+	Stratified bool        `json:"stratified"`
+	Band       []bandPoint `json:"band"`
+}
+
+type bandPoint struct {
+	Score                 float64 `json:"score"`
+	RecallP05             number  `json:"recall_p05"`
+	RecallP95             number  `json:"recall_p95"`
+	FalseDiscoveryRateP05 number  `json:"false_discovery_rate_p05"`
+	FalseDiscoveryRateP95 number  `json:"false_discovery_rate_p95"`
+}
+
+// AddStability adds, under each cut, where its rule lands across the
+// bootstrap replicates of res (package bootstrap), whose spreads are one
+// per cut in the order of r's cuts; and the band of hit share and
+// wrong-alert share. When the calibration figures hold a cost threshold
+// and the cost rule is among the cuts, a threshold outside the cost cut's
+// 5th-95th percentile range gives a warning.
+func (r *Report) AddStability(res bootstrap.Result) {
+	r.Bootstrap = &bootstrapFigures{Replicates: res.Replicates, Seed: res.Seed, Stratified: true, Band: []bandPoint{}}
+	for _, p := range res.Band {
+		r.Bootstrap.Band = append(r.Bootstrap.Band, bandPoint{Score: p.Score,
+			RecallP05: number(p.Recall[0]), RecallP95: number(p.Recall[1]),
+			FalseDiscoveryRateP05: number(p.FalseDiscoveryRate[0]), FalseDiscoveryRateP95: number(p.FalseDiscoveryRate[1])})
+	}
+	t := tableOf("cut", "score", "cut lands 5–95%", "flagged share 5–95%", "hit share 5–95%", "in plain words")
+	for i, s := range res.Spreads {
+		if i >= len(r.Cuts) {
+			break
+		}
+		c := &r.Cuts[i]
+		words := bootstrap.Describe(s, res.Replicates)
+		if s.Skipped != "" {
+			c.Stability = &stability{ScoreP05: null, ScoreP95: null, FlaggedShareP05: null, FlaggedShareP95: null, RecallP05: null, RecallP95: null, Summary: words}
+			t.rows = append(t.rows, []string{c.Spec, Score(float64(c.Score)), "n/a", "n/a", "n/a", words})
+			continue
+		}
+		c.Stability = &stability{ScoreP05: number(s.Score[0]), ScoreP95: number(s.Score[1]),
+			FlaggedShareP05: number(s.FlaggedShare[0]), FlaggedShareP95: number(s.FlaggedShare[1]),
+			RecallP05: number(s.Recall[0]), RecallP95: number(s.Recall[1]), Met: s.Met, Summary: words}
+		t.rows = append(t.rows, []string{c.Spec, Score(float64(c.Score)), significant(s.Score[0]) + " to " + significant(s.Score[1]), Range(s.FlaggedShare), Range(s.Recall), words})
+		if s.Rule.Kind == cutrule.Cost && r.Calibration != nil && evidence.Defined(float64(r.Calibration.CostThreshold)) && evidence.Defined(s.Score[0]) {
+			if ct := float64(r.Calibration.CostThreshold); ct < s.Score[0] || ct > s.Score[1] {
+				r.Warnings = append(r.Warnings, fmt.Sprintf("the cost threshold that calibrated probabilities imply (%s) lies outside the range where the least-cost cut lands in resampled sets (%s to %s): the scores are probably not calibrated, so do not read them as probabilities for costing",
+					Fixed(ct, 3), Score(s.Score[0]), Score(s.Score[1])))
+			}
+		}
+	}
+	notes := []string{fmt.Sprintf("%d resampled sets (seed %d), true and false cases resampled separately; the 5th and 95th percentiles bound a 90%% range", res.Replicates, res.Seed)}
+	r.sections = append(r.sections, section{title: "how stable each cut is (bootstrap)", table: t, notes: notes})
 }

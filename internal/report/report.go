@@ -34,7 +34,9 @@ type Report struct {
 	Caution          string      `json:"caution"`
 
 	// Added by the Add methods in beyond.go.
-	Calibration *calibrationFigures `json:"calibration,omitempty"`
+	Calibration   *calibrationFigures `json:"calibration,omitempty"`
+	ShiftSchedule *shiftSchedule      `json:"shift_schedule,omitempty"`
+	Bootstrap     *bootstrapFigures   `json:"bootstrap,omitempty"`
 
 	// baseRateGiven reports whether the production base rate differs from
 	// the validation one, for the text forms.
@@ -75,6 +77,8 @@ type cut struct {
 
 	Segments   []segmentFigures `json:"segments,omitempty"` // with a segment column; see beyond.go
 	NetBenefit *number          `json:"net_benefit"`        // null unless AddCalibration ran on probabilities
+	Shifts     *shiftFigures    `json:"queue_by_shift,omitempty"`
+	Stability  *stability       `json:"stability,omitempty"`
 }
 
 type projected struct {
@@ -82,6 +86,10 @@ type projected struct {
 	Precision     number `json:"precision"`
 	QueuePerShift number `json:"queue_per_shift"`
 	CostPerShift  number `json:"cost_per_shift"`
+
+	// With case times (AddShiftPeaks in beyond.go).
+	QueuePerShiftP90 *number `json:"queue_per_shift_p90,omitempty"`
+	QueuePerShiftMax *number `json:"queue_per_shift_max,omitempty"`
 }
 
 type point struct {
@@ -163,7 +171,7 @@ func newCut(o cutrule.Outcome, a projection.Assumptions) cut {
 		reason := o.Reason
 		c.Reason = &reason
 		c.Score, c.Recall, c.Precision, c.FalseDiscoveryRate, c.FalsePositiveRate = null, null, null, null, null
-		c.Projected = projected{null, null, null, null}
+		c.Projected = projected{AlertRate: null, Precision: null, QueuePerShift: null, CostPerShift: null}
 		return c
 	}
 	e := evidence.Of(o.Point, a)

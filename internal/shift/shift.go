@@ -165,17 +165,6 @@ func Assign(set *scores.Set, s Schedule) (Assignment, error) {
 // Start returns the local start time of shift i of the period.
 func (a Assignment) Start(i int) time.Time { return a.Schedule.start(a.first + int64(i)) }
 
-// Resample returns the assignment of a set whose row i is row origin[i] of
-// the assigned set, as a bootstrap replicate is.
-func (a Assignment) Resample(origin []int) Assignment {
-	out := a
-	out.Of = make([]int32, len(origin))
-	for i, o := range origin {
-		out.Of[i] = a.Of[o]
-	}
-	return out
-}
-
 // Scale converts a flagged case's weight into alerts in a production
 // shift; see the package doc.
 type Scale struct {
