@@ -289,43 +289,42 @@ func (p *blockParser) parse(blk *block) {
 	if b.weightCol >= 0 {
 		blk.weights = make([]float64, 0, rowsAtMost)
 	}
+	blk.newlines = rowsAtMost - 1
+	quotes := bytes.IndexByte(data, '"') >= 0
+	delim := p.delim
 	var cells [3][]byte // score, label, weight
 	for line := 0; len(data) > 0; line++ {
-		row := data
-		if nl := bytes.IndexByte(data, '\n'); nl >= 0 {
-			row, data = data[:nl], data[nl+1:]
-			blk.newlines++
+		// One pass over the row finds its end and its cells.
+		field, start, end := 0, 0, 0
+		cells = [3][]byte{}
+		for ; end < len(data); end++ {
+			c := data[end]
+			if c == '\n' {
+				break
+			}
+			if c == delim {
+				p.keep(&cells, field, data[start:end])
+				field++
+				start = end + 1
+			}
+		}
+		row := data[:end]
+		if end < len(data) {
+			data = data[end+1:]
 		} else {
 			data = nil
 		}
 		if n := len(row); n > 0 && row[n-1] == '\r' {
 			row = row[:n-1]
 		}
-		if bytes.IndexByte(row, '"') >= 0 {
+		p.keep(&cells, field, row[start:])
+		field++
+		if quotes && bytes.IndexByte(row, '"') >= 0 {
 			if ev := p.quotedRow(blk, line, row); ev != nil {
 				blk.event = ev
 				return
 			}
 			continue
-		}
-		// Split the row, keeping the cells in use.
-		field, start := 0, 0
-		cells = [3][]byte{}
-		for i := 0; i <= len(row); i++ {
-			if i < len(row) && row[i] != p.delim {
-				continue
-			}
-			if field == b.scoreCol {
-				cells[0] = row[start:i]
-			}
-			if field == b.labelCol {
-				cells[1] = row[start:i]
-			}
-			if field == b.weightCol {
-				cells[2] = row[start:i]
-			}
-			field++
-			start = i + 1
 		}
 		if field == 1 && len(bytes.TrimSpace(row)) == 0 {
 			continue // a blank line
@@ -338,6 +337,20 @@ func (p *blockParser) parse(blk *block) {
 			blk.event = ev
 			return
 		}
+	}
+}
+
+// keep puts the text of a field into cells when it is a column in use.
+func (p *blockParser) keep(cells *[3][]byte, field int, text []byte) {
+	b := p.b
+	if field == b.scoreCol {
+		cells[0] = text
+	}
+	if field == b.labelCol {
+		cells[1] = text
+	}
+	if field == b.weightCol {
+		cells[2] = text
 	}
 }
 
