@@ -1,0 +1,350 @@
+package drift
+
+import (
+	"bytes"
+	"encoding/json"
+	"math"
+	"math/rand/v2"
+	"strings"
+	"testing"
+
+	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/decision"
+	"github.com/sill-tool/sill/internal/evidence"
+	"github.com/sill-tool/sill/internal/projection"
+	"github.com/sill-tool/sill/internal/scores"
+)
+
+// tolerance is the one float tolerance of these tests.
+const tolerance = 1e-9
+
+// same reports whether a and b agree within tolerance, NaN matching NaN.
+func same(a, b float64) bool {
+	if math.IsNaN(a) || math.IsNaN(b) {
+		return math.IsNaN(a) && math.IsNaN(b)
+	}
+	return math.Abs(a-b) <= tolerance*math.Max(1, math.Abs(b))
+}
+
+func TestPopulationStability(t *testing.T) {
+	nan := math.NaN()
+	for _, tc := range []struct {
+		name             string
+		expected, actual []float64
+		want             float64
+		whereFrom        string
+	}{
+		{"two bins", []float64{50, 50}, []float64{60, 40}, 0.040546510810816436,
+			"by hand: 0.1*ln(0.6/0.5) + (-0.1)*ln(0.4/0.5) = 0.1*0.18232 + 0.1*0.22314"},
+		{"four bins", []float64{25, 25, 25, 25}, []float64{40, 30, 20, 10}, 0.22821740957339182,
+			"by hand: 0.15 ln 1.6 + 0.05 ln 1.2 - 0.05 ln 0.8 - 0.15 ln 0.4 = 0.07050 + 0.00912 + 0.01116 + 0.13744"},
+		{"weighted counts scale away", []float64{2.5, 2.5, 2.5, 2.5}, []float64{0.8, 0.6, 0.4, 0.2}, 0.22821740957339182,
+			"only shares count: the four-bin case with other totals"},
+		{"symmetric in its bins", []float64{25, 25, 25, 25}, []float64{10, 20, 30, 40}, 0.22821740957339182,
+			"the four-bin case with the bins reversed"},
+		{"empty bin floored", []float64{5, 5}, []float64{7, 0}, 4.60431846666895,
+			"by hand with the 1e-4 floor: (1-0.5) ln(1/0.5) + (1e-4-0.5) ln(1e-4/0.5) = 0.34657 + 4.25774"},
+		{"identical", []float64{3, 1, 6}, []float64{3, 1, 6}, 0, "no change, no index"},
+		{"no bins", []float64{}, []float64{}, nan, "doc: NaN without bins"},
+		{"empty actual", []float64{1, 2}, []float64{0, 0}, nan, "doc: NaN when a total is 0"},
+	} {
+		if got := PopulationStability(tc.expected, tc.actual); !same(got, tc.want) {
+			t.Errorf("%s: PSI %v, want %v (%s)", tc.name, got, tc.want, tc.whereFrom)
+		}
+	}
+}
+
+func TestPSINoise(t *testing.T) {
+	// By the formula: 19 * (1/4000 + 1/6000) = 19 * 0.000416667.
+	if got := PSINoise(20, 4000, 6000); !same(got, 19*(1.0/4000+1.0/6000)) {
+		t.Errorf("PSINoise %v", got)
+	}
+	if got := PSINoise(1, 10, 10); !math.IsNaN(got) {
+		t.Errorf("one bin: %v, want NaN", got)
+	}
+}
+
+func TestCompare(t *testing.T) {
+	// Hand-worked: 30 of 100 against 0.2. q = (0.2*100+1)/102 = 0.2058824,
+	// se = sqrt(q(1-q)/100) = 0.0404345, z = 0.1/se = 2.47314, p = erfc(z/sqrt2).
+	for _, tc := range []struct {
+		name                        string
+		successes, trials, expected float64
+		variance, tolerance         float64
+		z, p                        float64
+		drift, defined              bool
+	}{
+		{"one sample", 30, 100, 0.2, 0, 0, 2.473136089341247, 0.013393313038997712, false, true},
+		{"validation variance widens", 30, 100, 0.2, 0.0004, 0, 2.216783762561764, 0.026637871619533023, false, true},
+		{"twice the gap drifts", 40, 100, 0.2, 0, 0, 4.946272178682494, 7.564816800405639e-07, true, true},
+		{"tolerance half the gap", 30, 100, 0.2, 0, 0.05, 1.2365680446706235, 0.2162474894889226, false, true},
+		{"within tolerance", 30, 100, 0.2, 0, 0.1, 0, 1, false, true},
+		{"lower side", 10, 100, 0.2, 0, 0, 2.473136089341247, 0.013393313038997712, false, true},
+		{"no trials", 0, 0, 0.2, 0, 0, math.NaN(), math.NaN(), false, false},
+		{"undefined expected", 3, 10, math.NaN(), 0, 0, math.NaN(), math.NaN(), false, false},
+	} {
+		got := Compare(tc.successes, tc.trials, tc.expected, tc.variance, tc.tolerance, 0.95)
+		if !same(got.Z, tc.z) || !same(got.PValue, tc.p) || got.Drift != tc.drift || got.Defined != tc.defined {
+			t.Errorf("%s: z %v p %v drift %v defined %v, want %v %v %v %v", tc.name, got.Z, got.PValue, got.Drift, got.Defined, tc.z, tc.p, tc.drift, tc.defined)
+		}
+	}
+	// "lower side": 10 of 100 is the same distance below; z is taken on
+	// |difference|, so the figures match the 30-of-100 case.
+}
+
+// bearings draws n rows after the demo's process: a true case with
+// probability base; a standard normal latent, plus 1.9 for a true case,
+// plus shift for every case; score 1/(1+exp(-(1.3*latent-3.2))) rounded
+// to 3 decimals, so that scores tie.
+func bearings(seed uint64, n int, base, shift float64) (scoresOut []float64, labels []bool) {
+	rng := rand.New(rand.NewPCG(seed, 99))
+	for i := 0; i < n; i++ {
+		positive := rng.Float64() < base
+		latent := rng.NormFloat64() + shift
+		if positive {
+			latent += 1.9
+		}
+		s := 1 / (1 + math.Exp(-(1.3*latent - 3.2)))
+		scoresOut = append(scoresOut, math.Round(s*1000)/1000)
+		labels = append(labels, positive)
+	}
+	return scoresOut, labels
+}
+
+func bearingSet(t *testing.T, seed uint64, n int, base, shift float64) *scores.Set {
+	t.Helper()
+	sc, labels := bearings(seed, n, base, shift)
+	set, err := scores.New(sc, labels, nil, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return set
+}
+
+// decisionOf saves the hit=0.8 cut of set, as sill report --save does.
+func decisionOf(t *testing.T, set *scores.Set) *decision.File {
+	t.Helper()
+	positives, negatives := set.Totals()
+	a := projection.Assumptions{BaseRate: positives / (positives + negatives), Volume: 1500, Confidence: 0.95}
+	rules := []cutrule.Rule{{Kind: cutrule.Hit, Value: 0.8}}
+	finder, err := cutrule.NewFinder(rules, set, a)
+	if err != nil {
+		t.Fatal(err)
+	}
+	curve.Walk(set, finder.Visit)
+	o := finder.Outcomes()[0]
+	f, err := decision.New(set, a, []decision.Candidate{{Name: "hit=0.8", Rule: "hit=0.8", Cut: evidence.Of(o.Point, a)}}, "", "test")
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Through the file's own reader, as sill check sees it.
+	data, err := decision.Marshal(f)
+	if err != nil {
+		t.Fatal(err)
+	}
+	back, err := decision.Read(bytes.NewReader(data), "cut.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	return back
+}
+
+func TestCheckScenarios(t *testing.T) {
+	validation := bearingSet(t, 1, 6000, 0.07, 0)
+	file := decisionOf(t, validation)
+	for _, tc := range []struct {
+		name     string
+		set      *scores.Set
+		labelled bool
+		drift    bool
+		psiBelow float64 // PSI must be below this
+		psiAbove float64 // and above this
+		findings []string
+	}{
+		{"the validation set itself", validation, true, false, 1e-12, -1, nil},
+		{"a fresh draw of the same process", bearingSet(t, 2, 4000, 0.07, 0), true, false, PSIModerate, -1, nil},
+		{"a fresh draw without labels", bearingSet(t, 3, 4000, 0.07, 0), false, false, PSIModerate, -1,
+			[]string{"no label column, so recall and precision were not checked"}},
+		{"base rate tripled", bearingSet(t, 4, 4000, 0.21, 0), true, true, math.Inf(1), -1,
+			[]string{"alert rate drifted", "points higher", "precision drifted"}},
+		{"scores shifted up", bearingSet(t, 5, 4000, 0.07, 0.8), true, true, math.Inf(1), PSILarge,
+			[]string{"alert rate drifted", "score distribution drifted: PSI"}},
+		{"scores shifted up, no labels", bearingSet(t, 6, 4000, 0.07, 0.8), false, true, math.Inf(1), PSILarge,
+			[]string{"alert rate drifted", "score distribution drifted"}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			res, err := Check(file, tc.set, Options{Labelled: tc.labelled})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if res.Drift != tc.drift {
+				t.Errorf("drift %v, want %v; findings %q", res.Drift, tc.drift, res.Findings)
+			}
+			if !(res.PSI < tc.psiBelow) || !(res.PSI > tc.psiAbove) {
+				t.Errorf("PSI %v, want in (%v, %v)", res.PSI, tc.psiAbove, tc.psiBelow)
+			}
+			all := strings.Join(res.Findings, "\n")
+			for _, want := range tc.findings {
+				if !strings.Contains(all, want) {
+					t.Errorf("findings %q lack %q", res.Findings, want)
+				}
+			}
+			if !tc.labelled && (res.Recall.Defined || res.Precision.Defined) {
+				t.Error("recall or precision tested without labels")
+			}
+		})
+	}
+}
+
+func TestCheckOnValidationMatchesFile(t *testing.T) {
+	validation := bearingSet(t, 1, 3000, 0.07, 0)
+	file := decisionOf(t, validation)
+	res, err := Check(file, validation, Options{Labelled: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	c, _ := file.ChosenCandidate()
+	// On its own validation data every observed share is the file's.
+	if !same(res.AlertRate.Observed, c.Cut.FlaggedShare) || !same(res.Recall.Observed, c.Cut.Recall) ||
+		!same(res.Precision.Observed, c.Cut.Precision) || res.PSI != 0 {
+		t.Errorf("observed %v %v %v psi %v, file %v %v %v", res.AlertRate.Observed, res.Recall.Observed, res.Precision.Observed, res.PSI,
+			c.Cut.FlaggedShare, c.Cut.Recall, c.Cut.Precision)
+	}
+	if res.AlertRate.PValue < 0.999 || res.Recall.PValue < 0.999 || res.Precision.PValue < 0.999 { // precision: the projection rounds differently
+		t.Errorf("p-values %v %v %v, want 1", res.AlertRate.PValue, res.Recall.PValue, res.Precision.PValue)
+	}
+}
+
+func TestCheckLowerIsRiskierAndTolerance(t *testing.T) {
+	sc, labels := bearings(7, 4000, 0.07, 0)
+	for i := range sc {
+		sc[i] = -sc[i]
+	}
+	validation, _ := scores.New(sc, labels, nil, true)
+	file := decisionOf(t, validation)
+	if !file.Data.LowerIsRiskier {
+		t.Fatal("the file lost the direction")
+	}
+	sc2, labels2 := bearings(8, 4000, 0.14, 0)
+	for i := range sc2 {
+		sc2[i] = -sc2[i]
+	}
+	// Read in the other direction on purpose: the file's direction rules.
+	fresh, _ := scores.New(sc2, labels2, nil, false)
+	res, err := Check(file, fresh, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !res.AlertRate.Drift || res.AlertRate.Difference <= 0 {
+		t.Fatalf("doubled base rate, lower riskier: alert rate %+v", res.AlertRate)
+	}
+	// A tolerance wider than the gap silences it.
+	wide, _ := Check(file, fresh, Options{Tolerance: math.Abs(res.AlertRate.Difference) + 0.01})
+	if wide.AlertRate.Drift || wide.AlertRate.PValue != 1 {
+		t.Errorf("within tolerance: %+v", wide.AlertRate)
+	}
+	if _, err := Check(file, fresh, Options{Tolerance: -0.1}); err == nil {
+		t.Error("a negative tolerance was accepted")
+	}
+	empty, _ := scores.New([]float64{0.5}, []bool{false}, []float64{0}, false)
+	if _, err := Check(file, empty, Options{}); err == nil {
+		t.Error("data of no weight were accepted")
+	}
+}
+
+// TestFalseAlarmRate draws validation and new data from one process, many
+// times, and counts how often each test drifts: it must stay near Level.
+// With 2000 replicates at a true rate of 1% the count lies in [7, 36]
+// with probability 0.999 (exact binomial quantiles 0.0005 and 0.9995 of
+// Binomial(2000, 0.01), worked out once with a short script).
+func TestFalseAlarmRate(t *testing.T) {
+	const replicates = 2000
+	for _, tc := range []struct {
+		name               string
+		nValidation, nNew  int
+		base, recall, rate float64 // true base rate, recall and false positive rate at the cut
+		productionBase     float64 // 0: take the base rate from validation
+	}{
+		{"base rate from validation", 6000, 4000, 0.07, 0.8, 0.18, 0},
+		{"base rate given", 6000, 4000, 0.07, 0.8, 0.18, 0.07},
+		{"production base rate differs and is known", 6000, 4000, 0.07, 0.8, 0.18, 0.15},
+		{"small sets, rare alerts", 800, 300, 0.1, 0.7, 0.05, 0},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			rng := rand.New(rand.NewPCG(2026, 9))
+			binomial := func(n int, p float64) float64 {
+				k := 0
+				for i := 0; i < n; i++ {
+					if rng.Float64() < p {
+						k++
+					}
+				}
+				return float64(k)
+			}
+			var alerts, recalls, precisions int
+			for rep := 0; rep < replicates; rep++ {
+				positives := binomial(tc.nValidation, tc.base)
+				negatives := float64(tc.nValidation) - positives
+				tp, fp := binomial(int(positives), tc.recall), binomial(int(negatives), tc.rate)
+				p := curve.Point{TP: tp, FP: fp, FN: positives - tp, TN: negatives - fp}
+				a := projection.Assumptions{BaseRate: positives / float64(tc.nValidation), Confidence: 0.95}
+				newBase := tc.base
+				if tc.productionBase > 0 {
+					a.BaseRate, newBase = tc.productionBase, tc.productionBase
+				}
+				cand := decision.Candidate{Name: "c", Cut: evidence.Of(p, a)}
+				file := &decision.File{Assumptions: a, Chosen: "c", Candidates: []decision.Candidate{cand}}
+				newPositives := binomial(tc.nNew, newBase)
+				newTP := binomial(int(newPositives), tc.recall)
+				newFP := binomial(tc.nNew-int(newPositives), tc.rate)
+				res := check(file, cand, tally{rows: tc.nNew, weight: float64(tc.nNew), flagged: newTP + newFP, positives: newPositives, tp: newTP}, Options{Labelled: true})
+				if res.AlertRate.Drift {
+					alerts++
+				}
+				if res.Recall.Drift {
+					recalls++
+				}
+				if res.Precision.Drift {
+					precisions++
+				}
+			}
+			t.Logf("drifts in %d replicates: alert rate %d, recall %d, precision %d", replicates, alerts, recalls, precisions)
+			for name, n := range map[string]int{"alert rate": alerts, "recall": recalls, "precision": precisions} {
+				if n < 7 || n > 36 {
+					t.Errorf("%s drifted in %d of %d replicates, want 7 to 36 (about 1%%)", name, n, replicates)
+				}
+			}
+		})
+	}
+}
+
+func TestWriteJSONKeys(t *testing.T) {
+	validation := bearingSet(t, 1, 2000, 0.07, 0)
+	file := decisionOf(t, validation)
+	res, err := Check(file, bearingSet(t, 9, 2000, 0.07, 0), Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var buf bytes.Buffer
+	if err := WriteJSON(&buf, res, "cut.yaml", "new.csv"); err != nil {
+		t.Fatal(err)
+	}
+	var got map[string]any
+	if err := json.Unmarshal(buf.Bytes(), &got); err != nil {
+		t.Fatal(err)
+	}
+	for _, key := range []string{"alert_rate_observed", "alert_rate_projected", "alert_rate_ci", "psi", "status", "findings"} {
+		if got[key] == nil {
+			t.Errorf("key %s missing or null", key)
+		}
+	}
+	for _, key := range []string{"recall_observed", "precision_observed"} {
+		if v, ok := got[key]; !ok || v != nil {
+			t.Errorf("key %s = %v, want null without labels", key, v)
+		}
+	}
+	if got["status"] != "ok" {
+		t.Errorf("status %v", got["status"])
+	}
+}
