@@ -8,8 +8,10 @@ import (
 
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/x/ansi"
 
 	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/report"
 )
 
@@ -72,6 +74,9 @@ func (p figuresPane) FullHelp() [][]key.Binding { return [][]key.Binding{p.start
 func (p figuresPane) View() string {
 	st := p.ctx.styles
 	title := "this cut"
+	if p.s.curve != nil {
+		title += " · " + assumptionsText(p.s.assume)
+	}
 	if p.s.curve == nil || p.s.curve.Len() == 0 {
 		return framed(st.Pane, st.PaneEdge, st.Title, title, "", p.width, p.height)
 	}
@@ -103,7 +108,7 @@ func (p figuresPane) body() string {
 	}
 	add("  %s", st.Muted.Render(reading))
 	add("%s %s %s", st.Label.Render("false positive rate"), report.Percent(e.FalsePositiveRate),
-		st.Muted.Render("· projected alert rate "+report.Percent(e.Projected.AlertRate)))
+		st.Muted.Render("· alert rate "+report.Percent(e.Projected.AlertRate)))
 	if a.Volume > 0 {
 		queue := st.Label.Render("queue per shift") + " " + st.Figure.Render(report.Queue(e.Projected.QueuePerShift))
 		if a.Capacity > 0 {
@@ -112,7 +117,7 @@ func (p figuresPane) body() string {
 			if e.Projected.QueuePerShift > a.Capacity {
 				style = st.Warning
 			}
-			queue += " " + style.Render("· capacity "+report.Count(a.Capacity)+": "+against)
+			queue += " " + style.Render("("+against+" cap "+report.Count(a.Capacity)+")")
 		}
 		lines = append(lines, queue)
 	} else {
@@ -120,39 +125,74 @@ func (p figuresPane) body() string {
 	}
 	switch {
 	case a.Costs != nil && a.Volume > 0:
-		add("%s %s", st.Label.Render("cost per shift"), st.Figure.Render(report.Money(e.Projected.CostPerShift)))
+		add("%s %s %s", st.Label.Render("cost per shift"), st.Figure.Render(report.Money(e.Projected.CostPerShift)), st.Muted.Render(costsText(a.Costs)))
 	case a.Costs != nil:
 		add("%s %s %s", st.Label.Render("cost per case"), st.Figure.Render(report.Money(e.Projected.CostPerCase)), st.Muted.Render("(a volume gives it per shift)"))
 	default:
 		add("%s", st.Muted.Render("cost per shift: needs costs (a to set them)"))
 	}
-	add("%s", st.Muted.Render(fmt.Sprintf("validation: %s rows · TP %s FP %s FN %s TN %s",
-		strconv.Itoa(e.Rows), report.Count(e.TP), report.Count(e.FP), report.Count(e.FN), report.Count(e.TN))))
-	lines = append(lines, p.startLine())
+	add("%s", st.Muted.Render(fmt.Sprintf("validation TP %s FP %s FN %s TN %s",
+		report.Count(e.TP), report.Count(e.FP), report.Count(e.FN), report.Count(e.TN))))
+	lines = append(lines, p.startLine(p.width-st.Pane.GetHorizontalFrameSize()))
 	return strings.Join(lines, "\n")
 }
 
 // startLine lists the starting points by key, marking the ones the cursor
-// is on and striking out the ones no cut meets.
-func (p figuresPane) startLine() string {
+// is on and those no cut meets. When the names do not fit in width it
+// names only the ones the cursor is on.
+func (p figuresPane) startLine(width int) string {
 	s, st := p.s, p.ctx.styles
-	label := "start"
-	if len(s.rulesAt(s.cursor)) == 0 {
-		label = "start (none here)"
-	}
-	parts := []string{st.Label.Render(label)}
-	for i, o := range s.starts {
-		text := strconv.Itoa(i+1) + " " + o.Rule.String()
-		switch {
-		case !o.Met:
-			parts = append(parts, st.Muted.Render(text+" unmet"))
-		case o.Point.Index == s.cursor:
-			parts = append(parts, st.OnRule.Render("["+text+"]"))
-		default:
-			parts = append(parts, st.Key.Render(strconv.Itoa(i+1))+" "+o.Rule.String())
+	on := len(s.rulesAt(s.cursor)) > 0
+	build := func(names bool) string {
+		label := "start"
+		if !on {
+			label = "start (none here)"
 		}
+		parts := []string{st.Label.Render(label)}
+		for i, o := range s.starts {
+			n := strconv.Itoa(i + 1)
+			switch {
+			case o.Met && o.Point.Index == s.cursor:
+				parts = append(parts, st.OnRule.Render("["+n+" "+o.Rule.String()+"]"))
+			case !o.Met:
+				parts = append(parts, st.Muted.Render(n+" "+o.Rule.String()+" unmet"))
+			case names:
+				parts = append(parts, st.Key.Render(n)+" "+o.Rule.String())
+			default:
+				parts = append(parts, st.Key.Render(n))
+			}
+		}
+		return strings.Join(parts, " ")
 	}
-	return strings.Join(parts, " ")
+	if line := build(true); ansi.StringWidth(line) <= width {
+		return line
+	}
+	return build(false)
+}
+
+// assumptionsText is the assumptions in a few words: the base rate, the
+// volume and the capacity.
+func assumptionsText(a projection.Assumptions) string {
+	parts := []string{"base " + report.Percent(a.BaseRate)}
+	if a.Volume > 0 {
+		parts = append(parts, report.Count(a.Volume)+"/shift")
+	}
+	if a.Capacity > 0 {
+		parts = append(parts, "cap "+report.Count(a.Capacity))
+	}
+	return strings.Join(parts, " · ")
+}
+
+// costsText is the costs in a few words.
+func costsText(c *projection.Costs) string {
+	if c == nil {
+		return ""
+	}
+	text := "(wrong " + report.Money(c.FalseAlert) + ", miss " + report.Money(c.Miss)
+	if c.Hit != 0 {
+		text += ", hit " + report.Money(c.Hit)
+	}
+	return text + ")"
 }
 
 // Reading puts a wrong-alert share in words, as "about 1 in 3 alerts is

@@ -40,6 +40,14 @@ func checkGolden(t *testing.T, name, got string) {
 // escape codes left, then compares it with its golden file.
 func checkFrame(t *testing.T, name, frame string, width, height int) {
 	t.Helper()
+	checkSize(t, frame, width, height)
+	checkGolden(t, name, frame+"\n")
+}
+
+// checkSize asserts that frame is exactly width×height cells with no
+// escape codes left.
+func checkSize(t *testing.T, frame string, width, height int) {
+	t.Helper()
 	if strings.Contains(frame, "\x1b") {
 		t.Errorf("frame holds escape codes with colour off")
 	}
@@ -52,5 +60,4 @@ func checkFrame(t *testing.T, name, frame string, width, height int) {
 			t.Errorf("line %d is %d cells wide, want %d: %q", i+1, w, width, line)
 		}
 	}
-	checkGolden(t, name, frame+"\n")
 }

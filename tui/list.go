@@ -101,7 +101,7 @@ func (p listPane) View(focused bool) string {
 	innerW := p.width - box.GetHorizontalFrameSize()
 	title := "ranked list"
 	if p.s.curve != nil {
-		title = fmt.Sprintf("ranked list · %d cases, riskiest first", p.s.set.Len())
+		title = "ranked list, riskiest first"
 	}
 	return framed(box, edge, st.Title, title, p.body(innerW), p.width, p.height)
 }
@@ -168,7 +168,7 @@ func (p listPane) cutLine(score float64, flagged int) string {
 	if p.s.set.LowerIsRiskier {
 		sign = "<="
 	}
-	return fmt.Sprintf("━━ cut %s %s ━ %d flagged above ", sign, report.Score(score), flagged) + strings.Repeat("━", 40)
+	return fmt.Sprintf("━━ cut %s %s ━ %d flagged ", sign, report.Score(score), flagged) + strings.Repeat("━", 40)
 }
 
 // row draws ranked row r: a gutter bar when flagged, the rank, the score,

@@ -19,6 +19,7 @@ import (
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/lipgloss"
+	"github.com/charmbracelet/x/ansi"
 
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
@@ -584,30 +585,18 @@ func (m Model) overlayView() string {
 	return ""
 }
 
-// header is the top line: the data on the left, the assumptions on the right.
+// header is the top line: the data's name on the left, its size and
+// ranking figures on the right, which keep their room first.
 func (m Model) header(width int) string {
 	s, st := m.s, m.ctx.styles
 	sum := s.curve.Summary
-	left := fmt.Sprintf("%s · %d rows · %s true (%s) · AUC %s", s.set.Source, sum.Rows,
+	left := "sill · " + s.set.Source
+	right := fmt.Sprintf("%d rows · %s true (%s) · ROC AUC %s", sum.Rows,
 		report.Count(sum.Positives), report.Percent(sum.BaseRate), report.Fixed(sum.ROCAUC, 3))
-	a := s.assume
-	parts := []string{"base " + report.Percent(a.BaseRate)}
-	if a.Volume > 0 {
-		parts = append(parts, report.Count(a.Volume)+"/shift")
+	if s.set.Weighted() {
+		right += " · weighted"
 	}
-	if a.Capacity > 0 {
-		parts = append(parts, "cap "+report.Count(a.Capacity))
-	}
-	if c := a.Costs; c != nil {
-		parts = append(parts, "wrong "+report.Money(c.FalseAlert)+" miss "+report.Money(c.Miss))
-		if c.Hit != 0 {
-			parts[len(parts)-1] += " hit " + report.Money(c.Hit)
-		}
-	}
-	right := "assumed: " + strings.Join(parts, " · ")
-	// The assumptions keep at least half the line; the source name gives
-	// way first.
-	rightW := min(len([]rune(right)), width*3/5)
+	rightW := min(ansi.StringWidth(right), width*3/4)
 	return st.Header.Render(fitLine(left, width-rightW-2)) + "  " + st.Muted.Render(fitLine(right, rightW))
 }
 

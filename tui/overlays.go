@@ -267,9 +267,13 @@ func (p *formPane) parse() (projection.Assumptions, bool) {
 			a.BaseRate = v
 		}
 	}
-	if v, given, valid := number(fieldVolume); valid && given {
+	volumeValid := true
+	if v, given, valid := number(fieldVolume); !valid {
+		volumeValid = false
+	} else if given {
 		if v <= 0 {
-			refuse(fieldVolume, "expected more than 0 cases, or empty")
+			volumeValid = false
+			refuse(fieldVolume, "expected more than 0 cases per shift, or empty for none")
 		} else {
 			a.Volume = v
 		}
@@ -278,8 +282,10 @@ func (p *formPane) parse() (projection.Assumptions, bool) {
 		switch {
 		case v <= 0:
 			refuse(fieldCapacity, "expected more than 0 alerts, or empty")
-		case a.Volume == 0:
+		case a.Volume == 0 && volumeValid:
 			refuse(fieldCapacity, "needs a volume per shift: the queue is projected from it")
+		case a.Volume == 0:
+			// The volume is refused already; judge the capacity once it is fixed.
 		default:
 			a.Capacity = v
 		}
@@ -329,10 +335,10 @@ func (p formPane) View() string {
 		} else {
 			line = " " + line
 		}
-		if f.err != "" {
-			line += " " + st.Warning.Render("✗ "+f.err)
-		}
 		lines = append(lines, line)
+		if f.err != "" {
+			lines = append(lines, "   "+st.Warning.Render("✗ "+f.err))
+		}
 	}
 	lines = append(lines, "", st.Muted.Render(p.fields[p.focused].hint))
 	lines = append(lines, st.Muted.Render("tab/↓ next · enter applies · esc cancels"))

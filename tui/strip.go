@@ -96,9 +96,9 @@ func (s Strip) View(focused bool) string {
 	if innerH < 3 {
 		return framed(box, edge, st.Title, title, s.chips(), s.width, s.height)
 	}
-	body, first, last := s.grid(innerW)
-	if first > 0 || last < n-1 {
-		title += " · showing " + strconv.Itoa(first+1) + "–" + strconv.Itoa(last+1)
+	body, shown := s.grid(innerW, innerH)
+	if shown < n {
+		title += " · " + strconv.Itoa(shown) + " in view, ←→ for the rest"
 	}
 	return framed(box, edge, st.Title, title, body, s.width, s.height)
 }
@@ -131,9 +131,42 @@ func (s Strip) heading(i int, name string) string {
 	return " " + text
 }
 
-// grid draws the table, with as many columns as fit around the selected
-// one, and returns the first and last column drawn.
-func (s Strip) grid(innerW int) (string, int, int) {
+// detailOrder is the order in which detail rows give way when the strip is
+// short of lines: the share of all cases first, the capacity reading last.
+var detailOrder = []string{"share of all cases", "interval", "true cases found", "against capacity"}
+
+// rowsThatFit returns the rows of t to draw in lines lines: every figure,
+// dropping detail rows in detailOrder until they fit.
+func rowsThatFit(rows []compare.Row, lines int) []compare.Row {
+	keep := make([]bool, len(rows))
+	count := len(rows)
+	for i := range keep {
+		keep[i] = true
+	}
+	for _, what := range detailOrder {
+		for i, r := range rows {
+			if count <= lines {
+				break
+			}
+			if keep[i] && r.Detail && strings.Contains(r.Figure, what) {
+				keep[i] = false
+				count--
+			}
+		}
+	}
+	out := make([]compare.Row, 0, count)
+	for i, r := range rows {
+		if keep[i] {
+			out = append(out, r)
+		}
+	}
+	return out
+}
+
+// grid draws the table in innerW×innerH: the reference column, then as
+// many others as fit around the selected one. It returns the number of
+// columns drawn.
+func (s Strip) grid(innerW, innerH int) (string, int) {
 	st, t := s.styles, s.table
 	labelW := 0
 	for _, r := range t.Rows {
@@ -156,30 +189,52 @@ func (s Strip) grid(innerW int) (string, int, int) {
 		w = max(w, ansi.StringWidth(t.Names[c])+3, ansi.StringWidth(t.Rules[c])+2, 12)
 		return min(w, 26) + 2
 	}
-	// Columns in view: start at the selected one and widen to both sides.
-	room := innerW - labelW
-	first, last := s.selected, s.selected
-	used := colW(s.selected)
-	for {
-		grew := false
-		if last+1 < len(t.Names) && used+colW(last+1) <= room {
-			last++
-			used += colW(last)
-			grew = true
+	// Columns in view: the reference first, always, so that every
+	// difference on screen is against a column on screen; then the others
+	// in strip order, widening from the selected one to both sides.
+	others := make([]int, 0, len(t.Names))
+	for c := range t.Names {
+		if c != t.Reference {
+			others = append(others, c)
 		}
-		if first > 0 && used+colW(first-1) <= room {
-			first--
-			used += colW(first)
-			grew = true
+	}
+	shown := []int{t.Reference}
+	if len(others) > 0 {
+		room := innerW - labelW - colW(t.Reference)
+		at := 0
+		for i, c := range others {
+			if c == s.selected {
+				at = i
+			}
 		}
-		if !grew {
-			break
+		first, last, used := at, at, colW(others[at])
+		if used > room {
+			last = at - 1 // not even the selected one fits beside the reference
+		}
+		for last >= first {
+			grew := false
+			if last+1 < len(others) && used+colW(others[last+1]) <= room {
+				last++
+				used += colW(others[last])
+				grew = true
+			}
+			if first > 0 && used+colW(others[first-1]) <= room {
+				first--
+				used += colW(others[first])
+				grew = true
+			}
+			if !grew {
+				break
+			}
+		}
+		if last >= first {
+			shown = append(shown, others[first:last+1]...)
 		}
 	}
 	var lines []string
 	names := pad("", labelW, false)
 	rules := pad("candidate · rule", labelW, false)
-	for c := first; c <= last; c++ {
+	for _, c := range shown {
 		names += "  " + fitLine(s.heading(c, t.Names[c]), colW(c)-2)
 		rule := t.Rules[c]
 		if rule == "" {
@@ -188,13 +243,13 @@ func (s Strip) grid(innerW int) (string, int, int) {
 		rules += "  " + pad("  "+rule, colW(c)-2, false)
 	}
 	lines = append(lines, names, st.Muted.Render(rules))
-	for _, r := range t.Rows {
+	for _, r := range rowsThatFit(t.Rows, innerH-2) {
 		label := pad(r.Figure, labelW, false)
 		if r.Detail {
 			label = st.Muted.Render(label)
 		}
 		line := label
-		for c := first; c <= last; c++ {
+		for _, c := range shown {
 			w := colW(c) - 2
 			value := r.Cells[c]
 			diff := r.Diffs[c]
@@ -211,7 +266,7 @@ func (s Strip) grid(innerW int) (string, int, int) {
 		}
 		lines = append(lines, line)
 	}
-	return strings.Join(lines, "\n"), first, last
+	return strings.Join(lines, "\n"), len(shown)
 }
 
 // diffStyle styles a difference as a gain or a loss by the row's direction.

@@ -1,0 +1,123 @@
+package tui
+
+import (
+	"path/filepath"
+	"testing"
+
+	tea "github.com/charmbracelet/bubbletea"
+
+	"github.com/sill-tool/sill/internal/scores"
+)
+
+// TestView draws the whole screen on the built-in demo data at fixed sizes
+// with colour off. Each case names its size and state.
+func TestView(t *testing.T) {
+	set := demoSet(t)
+	cases := []struct {
+		name          string
+		width, height int
+		keys          []string
+		text          string // typed after keys
+		after         []string
+	}{
+		{name: "first-80x24", width: 80, height: 24},
+		{name: "first-100x30", width: 100, height: 30},
+		{name: "first-140x44", width: 140, height: 44},
+		{name: "cursor-down-3-80x24", width: 80, height: 24, keys: []string{"j", "j", "j"}},
+		{name: "cursor-up-1-80x24", width: 80, height: 24, keys: []string{"k"}},
+		{name: "cursor-top-80x24", width: 80, height: 24, keys: []string{"g"}},
+		{name: "cursor-bottom-80x24", width: 80, height: 24, keys: []string{"G"}},
+		{name: "start-1-base-80x24", width: 80, height: 24, keys: []string{"G", "1"}},
+		{name: "start-2-hit-80x24", width: 80, height: 24, keys: []string{"2"}},
+		{name: "start-3-wrong-80x24", width: 80, height: 24, keys: []string{"3"}},
+		{name: "start-4-capacity-80x24", width: 80, height: 24, keys: []string{"4"}},
+		{name: "start-5-cost-80x24", width: 80, height: 24, keys: []string{"5"}},
+		{name: "chart-all-80x24", width: 80, height: 24, keys: []string{"v"}},
+		{name: "chart-roc-100x30", width: 100, height: 30, keys: []string{"v", "v"}},
+		{name: "two-pins-80x24", width: 80, height: 24, keys: []string{"2", "p", "4", "p"}},
+		{name: "two-pins-strip-80x24", width: 80, height: 24, keys: []string{"2", "p", "4", "p", "tab"}},
+		{name: "two-pins-strip-120x44", width: 120, height: 44, keys: []string{"2", "p", "4", "p"}},
+		{name: "form-bad-value-80x24", width: 80, height: 24, keys: []string{"a", "tab", "ctrl+u"}, text: "-40", after: []string{"enter"}},
+		{name: "help-80x24", width: 80, height: 24, keys: []string{"?"}},
+		{name: "help-72x20", width: 72, height: 20, keys: []string{"?"}},
+		{name: "minimum-72x20", width: 72, height: 20},
+		{name: "too-small-71x20", width: 71, height: 20},
+		{name: "too-small-80x19", width: 80, height: 19},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			m := loaded(t, set, demoAssumptions, filepath.Join(t.TempDir(), "cut.yaml"), tc.width, tc.height)
+			m = keys(m, tc.keys...)
+			m = typeText(m, tc.text)
+			m = keys(m, tc.after...)
+			checkFrame(t, tc.name, m.View(), tc.width, tc.height)
+		})
+	}
+}
+
+// TestViewSaved writes the file and shows the confirmation.
+func TestViewSaved(t *testing.T) {
+	dir := t.TempDir()
+	m := loaded(t, demoSet(t), demoAssumptions, filepath.Join(dir, "cut.yaml"), 80, 24)
+	m = keys(m, "2", "p", "w")
+	if m.Written() == "" {
+		t.Fatalf("not written: %s", m.status)
+	}
+	// The path is a temporary folder; show it as the flag would name it.
+	m.status = "wrote cut.yaml: 1 candidates, chosen \"hit=0.8\""
+	checkFrame(t, "saved-80x24", m.View(), 80, 24)
+}
+
+// TestViewLoading draws the screen while the scores are read.
+func TestViewLoading(t *testing.T) {
+	m := New(Config{Load: func(func(int)) (*scores.Set, error) { return nil, nil }, Assume: demoAssumptions})
+	m = send(m, tea.WindowSizeMsg{Width: 80, Height: 24})
+	m.rowsRead.Store(131072)
+	checkFrame(t, "loading-80x24", m.View(), 80, 24)
+}
+
+// TestViewResize shrinks and grows the terminal: each frame fits.
+func TestViewResize(t *testing.T) {
+	m := loaded(t, demoSet(t), demoAssumptions, filepath.Join(t.TempDir(), "cut.yaml"), 100, 30)
+	m = keys(m, "2", "p", "4", "p")
+	for _, size := range [][2]int{{80, 24}, {60, 15}, {72, 20}, {150, 50}, {81, 25}} {
+		m = send(m, tea.WindowSizeMsg{Width: size[0], Height: size[1]})
+		frame := m.View()
+		checkSize(t, frame, size[0], size[1])
+	}
+	checkFrame(t, "grown-81x25", m.View(), 81, 25)
+}
+
+// TestPaneViews draws panes on their own.
+func TestPaneViews(t *testing.T) {
+	m := loaded(t, tenRows(t), tenAssumptions, filepath.Join(t.TempDir(), "cut.yaml"), 100, 30)
+	m = keys(m, "p", "2", "p", "j", "p")
+	ctx := m.ctx
+
+	strip := NewStrip(ctx.styles, ctx.keys)
+	strip.SetTable(m.s.table())
+	strip.SetSelected(1)
+	strip.SetSize(76, strip.Lines()+2)
+	checkFrame(t, "strip-76x"+itoa(strip.Lines()+2), strip.View(true), 76, strip.Lines()+2)
+	strip.SetSize(76, 3)
+	checkFrame(t, "strip-76x3-collapsed", strip.View(false), 76, 3)
+	empty := NewStrip(ctx.styles, ctx.keys)
+	empty.SetSize(60, 3)
+	checkFrame(t, "strip-60x3-empty", empty.View(false), 60, 3)
+
+	figures := newFiguresPane(m.s, ctx)
+	figures.SetSize(48, figureLines+2)
+	checkFrame(t, "figures-48x12-cut-0.5", figures.View(), 48, figureLines+2)
+
+	list := newListPane(m.s, ctx)
+	list.SetSize(40, 14)
+	checkFrame(t, "list-40x14-cut-0.5", list.View(true), 40, 14)
+
+	chart := newCurvePane(m.s, ctx)
+	chart.SetSize(50, 12)
+	checkFrame(t, "chart-50x12-cut-0.5", chart.View(), 50, 12)
+}
+
+func itoa(n int) string {
+	return string(rune('0'+n/10)) + string(rune('0'+n%10))
+}
