@@ -1,0 +1,237 @@
+// Package modelpair compares two models scored on the same validation
+// cases: the paired test of their ROC AUC difference of DeLong, DeLong and
+// Clarke-Pearson (1988, "Comparing the areas under two or more correlated
+// receiver operating characteristic curves: a nonparametric approach"),
+// and the second model's own ranked set, so that the same cut rule can be
+// applied to both.
+//
+// Both models' scores run in the same direction: with LowerIsRiskier a
+// small score is riskier for both. Ties count half, as in the AUC of
+// package curve. Weights are frequency weights (see the scores package
+// doc): a weight of 2 gives the same test as the row written twice, and
+// zero-weight rows drop out.
+package modelpair
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+
+	"github.com/sill-tool/sill/internal/scores"
+)
+
+// Errors of this package.
+var (
+	ErrNoSecondModel = errors.New("the set has no second score column")
+	ErrNoClass       = errors.New("the paired AUC test needs true and false cases")
+)
+
+// Test is the outcome of DeLong's paired test.
+type Test struct {
+	AUC        [2]float64 // the first and the second model's ROC AUC
+	Difference float64    // AUC[0] - AUC[1]
+	// Variance and Covariance are DeLong's estimates of the AUCs'
+	// variances and their covariance.
+	Variance   [2]float64
+	Covariance float64
+	// StdError is the standard error of Difference; Z is Difference over
+	// it and P the two-sided p-value from the standard normal. Z and P
+	// are NaN when StdError is 0 (for example the same scores twice) or
+	// undefined (a class of weight 1 or less).
+	StdError float64
+	Z, P     float64
+}
+
+// Compare runs DeLong's paired test on the set's two score columns
+// (Scores and CompareScores). It returns ErrNoSecondModel without a second
+// column and ErrNoClass when either class weighs nothing.
+func Compare(set *scores.Set) (Test, error) {
+	if set.CompareScores == nil {
+		return Test{}, ErrNoSecondModel
+	}
+	return Paired(set.Scores, set.CompareScores, set.Labels, set.Weights, set.LowerIsRiskier)
+}
+
+// Paired runs DeLong's paired test on two models' scores a and b of the
+// same cases, in any order. weights may be nil (every row weighs 1). It
+// panics when the slices differ in length and returns ErrNoClass when
+// either class weighs nothing.
+//
+// For each true case i its placement in model r is V10 = the weighted
+// share of false cases that it outranks (ties half), and for each false
+// case j V01 = the weighted share of true cases that outrank it. The AUC
+// is the weighted mean of either; S10 and S01 are the weighted covariance
+// matrices of the placements over the true and the false cases (divided by
+// the class weight less 1), and the covariance of the two AUCs is S10/m +
+// S01/n with m and n the class weights.
+func Paired(a, b []float64, labels []bool, weights []float64, lowerIsRiskier bool) (Test, error) {
+	if len(a) != len(b) || len(a) != len(labels) || (weights != nil && len(weights) != len(a)) {
+		panic(fmt.Sprintf("modelpair: Paired got %d, %d scores, %d labels and %d weights", len(a), len(b), len(labels), len(weights)))
+	}
+	weight := func(i int) float64 {
+		if weights == nil {
+			return 1
+		}
+		return weights[i]
+	}
+	var positives, negatives []int
+	var m, n float64
+	for i, positive := range labels {
+		w := weight(i)
+		if w <= 0 {
+			continue
+		}
+		if positive {
+			positives, m = append(positives, i), m+w
+		} else {
+			negatives, n = append(negatives, i), n+w
+		}
+	}
+	if len(positives) == 0 || len(negatives) == 0 {
+		return Test{}, ErrNoClass
+	}
+	var v10, v01 [2][]float64
+	var t Test
+	for r, model := range [2][]float64{a, b} {
+		risk := func(i int) float64 {
+			if lowerIsRiskier {
+				return -model[i]
+			}
+			return model[i]
+		}
+		v10[r] = placements(positives, negatives, risk, weight, false)
+		v01[r] = placements(negatives, positives, risk, weight, true)
+		auc := 0.0
+		for k, i := range positives {
+			auc += weight(i) * v10[r][k]
+		}
+		t.AUC[r] = auc / m
+	}
+	t.Difference = t.AUC[0] - t.AUC[1]
+	s10 := covariance(v10, positives, weight, t.AUC, m)
+	s01 := covariance(v01, negatives, weight, t.AUC, n)
+	for r := range 2 {
+		t.Variance[r] = s10[r][r]/m + s01[r][r]/n
+	}
+	t.Covariance = s10[0][1]/m + s01[0][1]/n
+	variance := t.Variance[0] + t.Variance[1] - 2*t.Covariance
+	t.StdError = math.Sqrt(max(variance, 0))
+	t.Z, t.P = math.NaN(), math.NaN()
+	if t.StdError > 0 {
+		t.Z = t.Difference / t.StdError
+		t.P = math.Erfc(math.Abs(t.Z) / math.Sqrt2)
+	}
+	return t, nil
+}
+
+// placements returns, for each row of own, the weighted share of the rows
+// of other that it beats, ties counting half: a true case beats the false
+// cases below it (above is false), a false case is beaten by the true
+// cases above it (above is true).
+func placements(own, other []int, risk func(int) float64, weight func(int) float64, above bool) []float64 {
+	sorted := make([]float64, len(other))
+	for k, j := range other {
+		sorted[k] = risk(j)
+	}
+	order := make([]int, len(other))
+	for k := range order {
+		order[k] = k
+	}
+	sort.Slice(order, func(x, y int) bool { return sorted[order[x]] < sorted[order[y]] })
+	values := make([]float64, len(other))
+	cumulative := make([]float64, len(other)+1) // weight of the first k values in ascending order
+	total := 0.0
+	for k, o := range order {
+		values[k] = sorted[o]
+		cumulative[k+1] = cumulative[k] + weight(other[o])
+	}
+	total = cumulative[len(other)]
+	out := make([]float64, len(own))
+	for k, i := range own {
+		x := risk(i)
+		lo := sort.SearchFloat64s(values, x)                                      // first >= x
+		hi := sort.Search(len(values), func(q int) bool { return values[q] > x }) // first > x
+		below, tied := cumulative[lo], cumulative[hi]-cumulative[lo]
+		if above {
+			out[k] = (total - cumulative[hi] + tied/2) / total
+		} else {
+			out[k] = (below + tied/2) / total
+		}
+	}
+	return out
+}
+
+// covariance returns the weighted 2x2 covariance matrix of the two models'
+// placements over rows, about the AUCs, divided by the class weight less 1
+// (NaN when that is not positive).
+func covariance(v [2][]float64, rows []int, weight func(int) float64, auc [2]float64, classWeight float64) [2][2]float64 {
+	var s [2][2]float64
+	for k, i := range rows {
+		w := weight(i)
+		for x := range 2 {
+			for y := range 2 {
+				s[x][y] += w * (v[x][k] - auc[x]) * (v[y][k] - auc[y])
+			}
+		}
+	}
+	den := classWeight - 1
+	for x := range 2 {
+		for y := range 2 {
+			if den > 0 {
+				s[x][y] /= den
+			} else {
+				s[x][y] = math.NaN()
+			}
+		}
+	}
+	return s
+}
+
+// Second returns the set ranked by its second score column, every other
+// column carried along (times and segments included), so that the cut
+// rules can be applied to the second model. It returns ErrNoSecondModel
+// without a second column. Rows tied on the second score keep the set's
+// order.
+func Second(set *scores.Set) (*scores.Set, error) {
+	if set.CompareScores == nil {
+		return nil, ErrNoSecondModel
+	}
+	order := make([]int, set.Len())
+	for i := range order {
+		order[i] = i
+	}
+	riskier := func(x, y float64) bool {
+		if set.LowerIsRiskier {
+			return x < y
+		}
+		return x > y
+	}
+	sort.SliceStable(order, func(x, y int) bool { return riskier(set.CompareScores[order[x]], set.CompareScores[order[y]]) })
+	out := *set
+	out.Scores = pick(set.CompareScores, order)
+	out.CompareScores = pick(set.Scores, order)
+	out.Labels = pick(set.Labels, order)
+	out.ScoreColumn, out.CompareColumn = set.CompareColumn, set.ScoreColumn
+	if set.Weights != nil {
+		out.Weights = pick(set.Weights, order)
+	}
+	if set.IDs != nil {
+		out.IDs = pick(set.IDs, order)
+	}
+	if set.SegmentOf != nil {
+		out.SegmentOf = pick(set.SegmentOf, order)
+	}
+	if set.Times != nil {
+		out.Times = pick(set.Times, order)
+	}
+	return &out, nil
+}
+
+func pick[T any](column []T, order []int) []T {
+	out := make([]T, len(order))
+	for i, from := range order {
+		out[i] = column[from]
+	}
+	return out
+}

@@ -1,0 +1,215 @@
+package modelpair_test
+
+import (
+	"encoding/json"
+	"errors"
+	"math"
+	"math/rand/v2"
+	"os"
+	"path/filepath"
+	"testing"
+
+	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/modelpair"
+	"github.com/sill-tool/sill/internal/scores"
+)
+
+// tolerance is the one float tolerance of this package's tests.
+const tolerance = 1e-12
+
+// close reports whether a and b agree within tolerance (relative for large
+// values), NaN equal to NaN.
+func close(a, b float64) bool {
+	if math.IsNaN(a) || math.IsNaN(b) {
+		return math.IsNaN(a) && math.IsNaN(b)
+	}
+	return math.Abs(a-b) <= tolerance*max(1, math.Abs(b))
+}
+
+// TestAgainstPROC compares the test with the R package pROC 1.18.0
+// (Debian's r-cran-proc, R 4.2.2): auc, var(method = "delong"),
+// cov(method = "delong") and roc.test(method = "delong", paired = TRUE),
+// written by testdata/reference6/make_delong.R to delong.json.
+func TestAgainstPROC(t *testing.T) {
+	const dir = "../../testdata/reference6"
+	raw, err := os.ReadFile(filepath.Join(dir, "delong.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var generic struct {
+		Datasets map[string]map[string]any `json:"datasets"`
+	}
+	if err := json.Unmarshal(raw, &generic); err != nil {
+		t.Fatal(err)
+	}
+	if len(generic.Datasets) != 2 {
+		t.Fatalf("%d datasets", len(generic.Datasets))
+	}
+	for name, d := range generic.Datasets {
+		f, err := os.Open(filepath.Join(dir, d["file"].(string)))
+		if err != nil {
+			t.Fatal(err)
+		}
+		set, err := scores.Read(f, name, scores.Options{ScoreColumn: "a", CompareColumn: "b"})
+		f.Close()
+		if err != nil {
+			t.Fatal(err)
+		}
+		got, err := modelpair.Compare(set)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, c := range []struct {
+			key string
+			got float64
+		}{
+			{"auc_a", got.AUC[0]}, {"auc_b", got.AUC[1]}, {"var_a", got.Variance[0]}, {"var_b", got.Variance[1]},
+			{"cov_ab", got.Covariance}, {"z", got.Z}, {"p", got.P},
+		} {
+			want := d[c.key].(float64)
+			// p is tiny in one set; compare it relatively.
+			ok := close(c.got, want)
+			if c.key == "p" {
+				ok = math.Abs(c.got-want) <= 1e-9*want
+			}
+			if !ok {
+				t.Errorf("%s %s: sill %v, pROC %v", name, c.key, c.got, want)
+			}
+		}
+		// The AUC agrees with package curve's.
+		if sum := curve.Walk(set, nil); !close(sum.ROCAUC, got.AUC[0]) {
+			t.Errorf("%s: AUC %v, curve %v", name, got.AUC[0], sum.ROCAUC)
+		}
+	}
+}
+
+// TestHandWorked: two true cases (scores a 0.9, 0.4; b 0.6, 0.6) and two
+// false cases (a 0.5, 0.1; b 0.6, 0.2).
+//
+// Model a: placements of the true cases V10 = (1, 0.5), of the false
+// cases V01 = (0.5, 1); AUC 0.75. Model b: the true cases both tie the
+// first false case and beat the second, V10 = (0.75, 0.75); V01 = (0.5,
+// 1); AUC 0.75. Difference 0.
+// S10 (divisor 1): var_a = (0.25² + 0.25²) = 0.125, var_b = 0, cov = 0.
+// S01: deviations a (-0.25, 0.25), b (-0.25, 0.25): var_a = var_b = cov
+// = 0.125. So Var(AUC_a) = 0.125/2 + 0.125/2 = 0.125, Var(AUC_b) = 0 +
+// 0.0625 = 0.0625, Cov = 0 + 0.0625 = 0.0625; the variance of the
+// difference 0.125 + 0.0625 - 0.125 = 0.0625, standard error 0.25, z 0,
+// p 1.
+func TestHandWorked(t *testing.T) {
+	a := []float64{0.9, 0.4, 0.5, 0.1}
+	b := []float64{0.6, 0.6, 0.6, 0.2}
+	labels := []bool{true, true, false, false}
+	got, err := modelpair.Paired(a, b, labels, nil, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := modelpair.Test{AUC: [2]float64{0.75, 0.75}, Variance: [2]float64{0.125, 0.0625}, Covariance: 0.0625, StdError: 0.25, Z: 0, P: 1}
+	if !close(got.AUC[0], want.AUC[0]) || !close(got.AUC[1], want.AUC[1]) || !close(got.Variance[0], want.Variance[0]) ||
+		!close(got.Variance[1], want.Variance[1]) || !close(got.Covariance, want.Covariance) || !close(got.StdError, want.StdError) ||
+		!close(got.Z, want.Z) || !close(got.P, want.P) {
+		t.Errorf("got %+v\nwant %+v", got, want)
+	}
+	// Negating both models and flipping the direction changes nothing.
+	neg := func(v []float64) []float64 {
+		out := make([]float64, len(v))
+		for i, x := range v {
+			out[i] = -x
+		}
+		return out
+	}
+	flipped, _ := modelpair.Paired(neg(a), neg(b), labels, nil, true)
+	if !close(flipped.Variance[0], got.Variance[0]) || !close(flipped.AUC[1], got.AUC[1]) {
+		t.Errorf("flipped %+v", flipped)
+	}
+}
+
+// TestWeightEqualsRepeat: a weight of 2 gives the same test as the row
+// written twice, and a zero weight drops the row (seeded random data).
+func TestWeightEqualsRepeat(t *testing.T) {
+	rng := rand.New(rand.NewPCG(88, 1))
+	var a, b, wa []float64
+	var labels, repLabels []bool
+	var repA, repB []float64
+	for range 60 {
+		y := rng.Float64() < 0.4
+		x := math.Round((rng.NormFloat64()+boolF(y))*4) / 4
+		z := math.Round((rng.NormFloat64()+0.5*boolF(y))*4) / 4
+		w := float64(rng.IntN(3))
+		a, b, labels, wa = append(a, x), append(b, z), append(labels, y), append(wa, w)
+		for range int(w) {
+			repA, repB, repLabels = append(repA, x), append(repB, z), append(repLabels, y)
+		}
+	}
+	weighted, err := modelpair.Paired(a, b, labels, wa, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	repeated, err := modelpair.Paired(repA, repB, repLabels, nil, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !close(weighted.AUC[0], repeated.AUC[0]) || !close(weighted.Variance[1], repeated.Variance[1]) || !close(weighted.Covariance, repeated.Covariance) || !close(weighted.Z, repeated.Z) {
+		t.Errorf("weighted %+v\nrepeated %+v", weighted, repeated)
+	}
+}
+
+func boolF(b bool) float64 {
+	if b {
+		return 1
+	}
+	return 0
+}
+
+func TestUndefined(t *testing.T) {
+	if _, err := modelpair.Paired([]float64{1, 2}, []float64{1, 2}, []bool{true, true}, nil, false); !errors.Is(err, modelpair.ErrNoClass) {
+		t.Errorf("one class: %v", err)
+	}
+	if _, err := modelpair.Paired(nil, nil, nil, nil, false); !errors.Is(err, modelpair.ErrNoClass) {
+		t.Errorf("empty: %v", err)
+	}
+	// The same scores twice: difference 0 with no variance, z and p NaN.
+	same, err := modelpair.Paired([]float64{3, 1, 2, 0}, []float64{3, 1, 2, 0}, []bool{true, true, false, false}, nil, false)
+	if err != nil || same.Difference != 0 || !math.IsNaN(same.Z) || !math.IsNaN(same.P) {
+		t.Errorf("same scores: %+v %v", same, err)
+	}
+	// One row per class: the variances are undefined.
+	single, err := modelpair.Paired([]float64{2, 1}, []float64{1, 2}, []bool{true, false}, nil, false)
+	if err != nil || !math.IsNaN(single.Variance[0]) || !math.IsNaN(single.Z) {
+		t.Errorf("one row per class: %+v %v", single, err)
+	}
+	plain, _ := scores.New([]float64{1, 2}, []bool{true, false}, nil, false)
+	if _, err := modelpair.Compare(plain); !errors.Is(err, modelpair.ErrNoSecondModel) {
+		t.Errorf("no second model: %v", err)
+	}
+	if _, err := modelpair.Second(plain); !errors.Is(err, modelpair.ErrNoSecondModel) {
+		t.Errorf("second of none: %v", err)
+	}
+}
+
+// TestSecond: the second model's set is ranked by its scores and carries
+// every column; its curve's AUC is the test's second AUC.
+func TestSecond(t *testing.T) {
+	set, err := scores.New([]float64{0.9, 0.8, 0.3, 0.1}, []bool{true, false, true, false}, []float64{1, 2, 1, 1}, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	set.CompareScores = []float64{0.2, 0.7, 0.7, 0.4}
+	set.Times = []int64{10, 20, 30, 40}
+	second, err := modelpair.Second(set)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Ranked by b: 0.7 (row 1), 0.7 (row 2, tie keeps order), 0.4 (row 3), 0.2 (row 0).
+	wantTimes := []int64{20, 30, 40, 10}
+	wantScores := []float64{0.7, 0.7, 0.4, 0.2}
+	for i := range wantTimes {
+		if second.Times[i] != wantTimes[i] || second.Scores[i] != wantScores[i] {
+			t.Errorf("row %d: %v %v", i, second.Scores[i], second.Times[i])
+		}
+	}
+	test, _ := modelpair.Compare(set)
+	if sum := curve.Walk(second, nil); !close(sum.ROCAUC, test.AUC[1]) {
+		t.Errorf("AUC of second %v, test %v", sum.ROCAUC, test.AUC[1])
+	}
+}
