@@ -319,6 +319,15 @@ func (f *Finder) reason(r Rule) string {
 	}
 	p, fig := f.first, f.firstFigures
 	pct := func(v float64) string { return strconv.FormatFloat(100*v, 'f', 1, 64) + "%" }
+	// undefined explains a projected figure that is NaN: the validation
+	// set lacks the class that the production base rate needs.
+	undefined := func(what string) string {
+		missing := "true"
+		if p.Positives() > 0 {
+			missing = "false"
+		}
+		return fmt.Sprintf("the projected %s is undefined: the validation set has no %s cases, which the production base rate %s needs", what, missing, pct(f.a.BaseRate))
+	}
 	switch r.Kind {
 	case Score:
 		return fmt.Sprintf("no score is at or beyond %v; the riskiest is %v", r.Value, p.Score)
@@ -336,13 +345,22 @@ func (f *Finder) reason(r Rule) string {
 		if !(p.Positives() > 0) {
 			return "the validation set has no true cases, so every alert is wrong"
 		}
+		if math.IsNaN(fig.FalseDiscoveryRate()) {
+			return undefined("wrong-alert share")
+		}
 		return fmt.Sprintf("every cut has a wrong-alert share above %v; the strictest has %s", r.Value, pct(fig.FalseDiscoveryRate()))
 	case Base:
+		if math.IsNaN(fig.AlertRate) {
+			return undefined("alert rate")
+		}
 		return fmt.Sprintf("the strictest cut already flags %s, above the base rate %s", pct(fig.AlertRate), pct(f.a.BaseRate))
 	case Queue:
+		if math.IsNaN(fig.QueuePerShift) {
+			return undefined("queue")
+		}
 		return fmt.Sprintf("the strictest cut already queues %.1f alerts per shift, above %v", fig.QueuePerShift, r.Value)
 	case Cost:
-		return "the projected cost is undefined: the validation set lacks a class that the production base rate needs"
+		return undefined("cost")
 	}
 	return "no cut meets the rule"
 }

@@ -421,7 +421,22 @@ func TestFindOneClassAndEmpty(t *testing.T) {
 	// the projected cost undefined at every cut: cost is unmet.
 	a := projection.Assumptions{BaseRate: 0.5, Confidence: 0.95, Costs: &projection.Costs{FalseAlert: 1, Miss: 1}}
 	checkOutcomes(t, curve.New(set), a, []want{
-		{"cost", unmet, "the projected cost is undefined: the validation set lacks a class that the production base rate needs"},
+		{"cost", unmet, "the projected cost is undefined: the validation set has no true cases, which the production base rate 50.0% needs"},
+	})
+
+	// Only true cases and a production base rate of 0: every projected
+	// figure needs the false positive rate, which is undefined.
+	set, err = scores.New([]float64{0.5}, []bool{true}, nil, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	a = projection.Assumptions{BaseRate: 0, Volume: 10, Confidence: 0.95, Costs: &projection.Costs{Miss: 1}}
+	checkOutcomes(t, curve.New(set), a, []want{
+		{"base", unmet, "the projected alert rate is undefined: the validation set has no false cases, which the production base rate 0.0% needs"},
+		{"wrong=0.333", unmet, "the projected wrong-alert share is undefined: the validation set has no false cases, which the production base rate 0.0% needs"},
+		{"queue=1", unmet, "the projected queue is undefined: the validation set has no false cases, which the production base rate 0.0% needs"},
+		{"cost", unmet, "the projected cost is undefined: the validation set has no false cases, which the production base rate 0.0% needs"},
+		{"hit=0.8", 0.5, ""}, // recall needs no base rate
 	})
 
 	empty, err := scores.New(nil, nil, nil, false)
