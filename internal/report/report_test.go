@@ -155,6 +155,15 @@ var scenarios = []scenario{
 		table: "score,label\n0.9,0\n0.4,0\n0.4,0\n0.1,0\n",
 	},
 	{
+		// One true case and nothing else, projected to a base rate of 0:
+		// every projected figure needs the undefined false positive rate.
+		name:  "single-true-case",
+		table: "score,label\n0.5,1\n",
+		a: func(set *scores.Set) projection.Assumptions {
+			return projection.Assumptions{BaseRate: 0, Volume: 10, Capacity: 1, Confidence: 0.95, Costs: &projection.Costs{Miss: 1}}
+		},
+	},
+	{
 		// Dropped rows are counted and warned about.
 		name:  "dropped-rows",
 		table: "score,label\n0.9,1\nNaN,0\n0.4,0\n,1\n0.2,0\n0.7,1\n",

@@ -143,7 +143,7 @@ func (r *Report) comparison() string {
 func WriteText(w io.Writer, r *Report) error {
 	var b strings.Builder
 	fmt.Fprintf(&b, "sill report: %s\n\n", r.Source)
-	fmt.Fprintf(&b, "%s · %s true cases (base rate %s)", plural(r.Rows, "row", "rows"), Count(r.Positives), Percent(float64(r.BaseRate)))
+	fmt.Fprintf(&b, "%s · %s (base rate %s)", plural(r.Rows, "row", "rows"), amount(r.Positives, "true case", "true cases"), Percent(float64(r.BaseRate)))
 	if r.Weighted {
 		fmt.Fprintf(&b, " · weighted")
 	}
@@ -174,7 +174,7 @@ func WriteText(w io.Writer, r *Report) error {
 func WriteMarkdown(w io.Writer, r *Report) error {
 	var b strings.Builder
 	fmt.Fprintf(&b, "## Operating cuts: %s\n\n", mdEscape(r.Source))
-	fmt.Fprintf(&b, "- %s, %s true cases (base rate %s)%s\n", plural(r.Rows, "row", "rows"), Count(r.Positives), Percent(float64(r.BaseRate)), map[bool]string{true: ", weighted", false: ""}[r.Weighted])
+	fmt.Fprintf(&b, "- %s, %s (base rate %s)%s\n", plural(r.Rows, "row", "rows"), amount(r.Positives, "true case", "true cases"), Percent(float64(r.BaseRate)), map[bool]string{true: ", weighted", false: ""}[r.Weighted])
 	fmt.Fprintf(&b, "- ROC AUC %s, average precision %s", Fixed(float64(r.ROCAUC), 3), Fixed(float64(r.AveragePrecision), 3))
 	if evidence.Defined(float64(r.Brier)) {
 		fmt.Fprintf(&b, ", Brier score %s, log loss %s", Fixed(float64(r.Brier), 4), Fixed(float64(r.LogLoss), 4))
@@ -220,10 +220,10 @@ func (r *Report) assumptionLine() string {
 		parts[0] += " (the validation rate)"
 	}
 	if evidence.Defined(float64(a.Volume)) {
-		parts = append(parts, asGiven(float64(a.Volume))+" cases per shift")
+		parts = append(parts, asGiven(float64(a.Volume))+" "+noun(float64(a.Volume), "case", "cases")+" per shift")
 	}
 	if evidence.Defined(float64(a.Capacity)) {
-		parts = append(parts, "capacity "+asGiven(float64(a.Capacity))+" alerts per shift")
+		parts = append(parts, "capacity "+asGiven(float64(a.Capacity))+" "+noun(float64(a.Capacity), "alert", "alerts")+" per shift")
 	}
 	if evidence.Defined(float64(a.CostFalseAlert)) {
 		parts = append(parts, fmt.Sprintf("costs: wrong alert %s, miss %s, hit %s", Money(float64(a.CostFalseAlert)), Money(float64(a.CostMiss)), Money(float64(a.CostHit))))
@@ -325,6 +325,18 @@ func wholeOrTwo(v float64, decimals int) string {
 		return "0"
 	}
 	return text
+}
+
+// amount writes a (possibly weighted) count with its noun: "1 true
+// case", "4.50 true cases".
+func amount(v float64, one, many string) string { return Count(v) + " " + noun(v, one, many) }
+
+// noun is one when v is exactly 1, else many.
+func noun(v float64, one, many string) string {
+	if v == 1 {
+		return one
+	}
+	return many
 }
 
 // asGiven formats an assumption the way a person types it: 1500, 37.5.
