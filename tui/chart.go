@@ -38,6 +38,17 @@ type curvePane struct {
 	plotLeft   int      // column of the first data cell in cacheLines
 	plotRows   int      // lines of cacheLines that hold data (above the x axis)
 	xMax       float64  // the right end of the x axis
+
+	// painted is the last drawing, reused while the mark stays in the same
+	// column; shared by copies of the pane.
+	painted *paintedChart
+}
+
+type paintedChart struct {
+	key    chartKey
+	x      int
+	beyond bool
+	text   string
 }
 
 type chartKey struct {
@@ -46,7 +57,9 @@ type chartKey struct {
 	view          chartView
 }
 
-func newCurvePane(s *session, ctx *context) curvePane { return curvePane{s: s, ctx: ctx} }
+func newCurvePane(s *session, ctx *context) curvePane {
+	return curvePane{s: s, ctx: ctx, painted: &paintedChart{x: -2}}
+}
 
 // SetSize sets the outer size; the plot is redrawn on the next View.
 func (p *curvePane) SetSize(width, height int) { p.width, p.height = width, height }
@@ -89,12 +102,15 @@ func (p *curvePane) View() string {
 		p.cacheKey = key
 	}
 	x, beyond := p.markerX()
-	var b strings.Builder
-	for i, line := range p.cacheLines {
-		if i > 0 {
-			b.WriteString("\n")
+	if p.painted.key != key || p.painted.x != x || p.painted.beyond != beyond {
+		var b strings.Builder
+		for i, line := range p.cacheLines {
+			if i > 0 {
+				b.WriteString("\n")
+			}
+			b.WriteString(p.paint(line, i, x))
 		}
-		b.WriteString(p.paint(line, i, x))
+		*p.painted = paintedChart{key: key, x: x, beyond: beyond, text: b.String()}
 	}
 	point := p.s.point()
 	where := fmt.Sprintf("┃ this cut: %s flagged", report.Percent(point.FlaggedShare()))
@@ -104,7 +120,7 @@ func (p *curvePane) View() string {
 	if beyond {
 		where += " (beyond the right edge →)"
 	}
-	body := st.Muted.Render(where) + "\n" + b.String()
+	body := st.Muted.Render(where) + "\n" + p.painted.text
 	return framed(st.Pane, st.PaneEdge, st.Title, p.title(), body, p.width, p.height)
 }
 

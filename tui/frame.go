@@ -38,32 +38,54 @@ func fitLine(line string, width int) string {
 
 // framed draws body inside box at exactly width×height cells, with title
 // set into the top border in the title style and the border drawn in edge.
-// The border and padding come from box.
+// The border characters and padding come from box; the lines are put
+// together here rather than by box.Render, which would wrap and measure
+// every line again on each keystroke.
 func framed(box, edge, titleStyle lipgloss.Style, title, body string, width, height int) string {
 	if width <= 0 || height <= 0 {
 		return ""
 	}
+	b := box.GetBorderStyle()
+	top, right, bottom, left := box.GetBorderTopSize() > 0, box.GetBorderRightSize() > 0, box.GetBorderBottomSize() > 0, box.GetBorderLeftSize() > 0
 	innerW := width - box.GetHorizontalFrameSize()
 	innerH := height - box.GetVerticalFrameSize()
 	if innerW <= 0 || innerH <= 0 {
 		return fit("", width, height)
 	}
-	content := box.BorderTop(false).
-		Width(width - box.GetHorizontalBorderSize()).
-		Height(height - box.GetVerticalBorderSize()).
-		Render(fit(body, innerW, innerH))
-	if box.GetBorderTopSize() == 0 {
-		return content
+	padTop, padRight, padBottom, padLeft := box.GetPadding()
+	leftEdge, rightEdge := "", ""
+	if left {
+		leftEdge = edge.Render(b.Left)
 	}
-	b := box.GetBorderStyle()
-	room := width - ansi.StringWidth(b.TopLeft) - ansi.StringWidth(b.TopRight) - 1
-	label := ""
-	if title != "" && room > 2 {
-		label = ansi.Truncate(" "+title+" ", room, "…")
+	if right {
+		rightEdge = edge.Render(b.Right)
 	}
-	fill := max(room-ansi.StringWidth(label), 0)
-	top := edge.Render(b.TopLeft+b.Top) + titleStyle.Render(label) + edge.Render(strings.Repeat(b.Top, fill)+b.TopRight)
-	return top + "\n" + content
+	blank := strings.Repeat(" ", innerW)
+	leftPad, rightPad := strings.Repeat(" ", padLeft), strings.Repeat(" ", padRight)
+	lines := make([]string, 0, height)
+	if top {
+		room := width - ansi.StringWidth(b.TopLeft) - ansi.StringWidth(b.TopRight) - 1
+		label := ""
+		if title != "" && room > 2 {
+			label = ansi.Truncate(" "+title+" ", room, "…")
+		}
+		fill := max(room-ansi.StringWidth(label), 0)
+		lines = append(lines, edge.Render(b.TopLeft+b.Top)+titleStyle.Render(label)+edge.Render(strings.Repeat(b.Top, fill)+b.TopRight))
+	}
+	for range padTop {
+		lines = append(lines, leftEdge+leftPad+blank+rightPad+rightEdge)
+	}
+	for _, line := range strings.Split(fit(body, innerW, innerH), "\n") {
+		lines = append(lines, leftEdge+leftPad+line+rightPad+rightEdge)
+	}
+	for range padBottom {
+		lines = append(lines, leftEdge+leftPad+blank+rightPad+rightEdge)
+	}
+	if bottom {
+		fill := width - ansi.StringWidth(b.BottomLeft) - ansi.StringWidth(b.BottomRight)
+		lines = append(lines, edge.Render(b.BottomLeft+strings.Repeat(b.Bottom, max(fill, 0))+b.BottomRight))
+	}
+	return strings.Join(lines, "\n")
 }
 
 // overlay draws box over base, centred, keeping base's size. Both are

@@ -28,13 +28,31 @@ type Strip struct {
 	selected int
 	width    int
 	height   int
+
+	generation int         // counts SetTable calls, so the cache knows the table
+	cache      *stripCache // the last drawing, shared by copies of the strip
+}
+
+// stripCache keeps the last drawing: the strip only changes when its table,
+// selection, size or focus does, not when the cursor moves.
+type stripCache struct {
+	key  stripKey
+	view string
+}
+
+type stripKey struct {
+	generation, selected, width, height int
+	focused                             bool
 }
 
 // NewStrip returns an empty strip drawn with styles and driven by keys.
-func NewStrip(styles Styles, keys KeyMap) Strip { return Strip{styles: styles, keys: keys} }
+func NewStrip(styles Styles, keys KeyMap) Strip {
+	return Strip{styles: styles, keys: keys, cache: &stripCache{key: stripKey{generation: -1}}}
+}
 
 // SetTable sets the comparison to draw, keeping the selection in range.
 func (s *Strip) SetTable(t compare.Table) {
+	s.generation++
 	s.table = t
 	s.selected = min(max(s.selected, 0), max(len(t.Names)-1, 0))
 }
@@ -81,6 +99,19 @@ func (s Strip) FullHelp() [][]key.Binding {
 // View draws the strip at its size; focused draws the frame that shows it
 // has the keys.
 func (s Strip) View(focused bool) string {
+	key := stripKey{s.generation, s.selected, s.width, s.height, focused}
+	if s.cache != nil && s.cache.key == key {
+		return s.cache.view
+	}
+	view := s.draw(focused)
+	if s.cache != nil {
+		s.cache.key, s.cache.view = key, view
+	}
+	return view
+}
+
+// draw draws the strip without the cache.
+func (s Strip) draw(focused bool) string {
 	st := s.styles
 	box, edge := st.Pane, st.PaneEdge
 	if focused {

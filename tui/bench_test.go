@@ -1,0 +1,71 @@
+package tui
+
+import (
+	"math"
+	"math/rand/v2"
+	"path/filepath"
+	"testing"
+
+	"github.com/sill-tool/sill/internal/scores"
+)
+
+// millionRows invents a set of one million rows: scores rounded to four
+// decimals (so that cases tie), about 5% true cases.
+func millionRows(b *testing.B) *scores.Set {
+	b.Helper()
+	rng := rand.New(rand.NewPCG(1, 2))
+	const n = 1_000_000
+	values := make([]float64, n)
+	labels := make([]bool, n)
+	for i := range values {
+		labels[i] = rng.Float64() < 0.05
+		latent := rng.NormFloat64()
+		if labels[i] {
+			latent += 1.5
+		}
+		values[i] = math.Round(1e4/(1+math.Exp(-(latent-2)))) / 1e4
+	}
+	set, err := scores.New(values, labels, nil, false)
+	if err != nil {
+		b.Fatal(err)
+	}
+	return set
+}
+
+// BenchmarkKeystroke measures one keystroke's Update and the View that
+// follows at one million rows, the cursor stepping down and up.
+func BenchmarkKeystroke(b *testing.B) {
+	m := loaded(b, millionRows(b), demoAssumptions, filepath.Join(b.TempDir(), "cut.yaml"), 120, 40)
+	m = keys(m, "2", "p", "4", "p", "5", "p")
+	m.View()
+	down, up := keyMsg("j"), keyMsg("k")
+	b.ResetTimer()
+	for i := range b.N {
+		msg := down
+		if i%2 == 1 {
+			msg = up
+		}
+		next, _ := m.Update(msg)
+		m = next.(Model)
+		_ = m.View()
+	}
+}
+
+// BenchmarkKeystrokeStrip is the same with the strip holding the keys and
+// the selection moving, which rebuilds the comparison table.
+func BenchmarkKeystrokeStrip(b *testing.B) {
+	m := loaded(b, millionRows(b), demoAssumptions, filepath.Join(b.TempDir(), "cut.yaml"), 120, 40)
+	m = keys(m, "2", "p", "4", "p", "5", "p", "tab")
+	m.View()
+	left, right := keyMsg("left"), keyMsg("right")
+	b.ResetTimer()
+	for i := range b.N {
+		msg := left
+		if i%2 == 1 {
+			msg = right
+		}
+		next, _ := m.Update(msg)
+		m = next.(Model)
+		_ = m.View()
+	}
+}
