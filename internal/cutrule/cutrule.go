@@ -322,11 +322,14 @@ func (f *Finder) reason(r Rule) string {
 	// undefined explains a projected figure that is NaN: the validation
 	// set lacks the class that the production base rate needs.
 	undefined := func(what string) string {
-		missing := "true"
-		if p.Positives() > 0 {
-			missing = "false"
+		noTrue, noFalse := !(p.Positives() > 0), !(p.Negatives() > 0)
+		switch {
+		case noTrue && noFalse:
+			return fmt.Sprintf("the projected %s is undefined: no case in the validation set has any weight", what)
+		case noFalse:
+			return fmt.Sprintf("the projected %s is undefined: the validation set has no false cases, which the production base rate %s needs", what, pct(f.a.BaseRate))
 		}
-		return fmt.Sprintf("the projected %s is undefined: the validation set has no %s cases, which the production base rate %s needs", what, missing, pct(f.a.BaseRate))
+		return fmt.Sprintf("the projected %s is undefined: the validation set has no true cases, which the production base rate %s needs", what, pct(f.a.BaseRate))
 	}
 	switch r.Kind {
 	case Score:

@@ -439,6 +439,16 @@ func TestFindOneClassAndEmpty(t *testing.T) {
 		{"hit=0.8", 0.5, ""}, // recall needs no base rate
 	})
 
+	// Every row weighs 0: nothing is defined, and the reason says so.
+	set, err = scores.New([]float64{0.5, 0.4}, []bool{true, false}, []float64{0, 0}, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	checkOutcomes(t, curve.New(set), projection.Assumptions{BaseRate: 0, Confidence: 0.95}, []want{
+		{"base", unmet, "the projected alert rate is undefined: no case in the validation set has any weight"},
+		{"top=1", 0.5, ""}, // top= counts rows, whatever they weigh
+	})
+
 	empty, err := scores.New(nil, nil, nil, false)
 	if err != nil {
 		t.Fatal(err)
