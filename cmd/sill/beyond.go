@@ -11,6 +11,7 @@ import (
 	"github.com/sill-tool/sill/internal/calibration"
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/modelpair"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/report"
 	"github.com/sill-tool/sill/internal/scores"
@@ -158,6 +159,35 @@ func (f *beyondFlags) apply(r *report.Report, set *scores.Set, sum curve.Summary
 		}
 		r.AddStability(res)
 	}
+	if set.CompareScores != nil {
+		if err := f.compare(r, set, a, rules, outcomes); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// compare adds the second model's cuts and DeLong's paired test.
+func (f *beyondFlags) compare(r *report.Report, set *scores.Set, a projection.Assumptions, rules []cutrule.Rule, outcomes []cutrule.Outcome) error {
+	test, testErr := modelpair.Compare(set)
+	second, err := modelpair.Second(set)
+	if err != nil {
+		return err
+	}
+	var opts []cutrule.Option
+	if f.assigned != nil {
+		assigned, err := shift.Assign(second, f.assigned.Schedule)
+		if err != nil {
+			return fmt.Errorf("--time %s: %w", f.timeColumn, err)
+		}
+		opts = append(opts, cutrule.WithShifts(assigned, shift.ScaleFor(second, assigned, a)))
+	}
+	finder, err := cutrule.NewFinder(rules, second, a, opts...)
+	if err != nil {
+		return fmt.Errorf("--cut %w", err)
+	}
+	curve.Walk(second, finder.Visit)
+	r.AddComparison(set.ScoreColumn, set.CompareColumn, test, testErr, outcomes, finder.Outcomes(), a)
 	return nil
 }
 

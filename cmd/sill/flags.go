@@ -19,10 +19,14 @@ type inputFlags struct {
 	opt   scores.Options
 	input string
 	delim string
+
+	// scoreColumns holds --score: one column, or two to compare two models
+	// (the second becomes opt.CompareColumn); empty leaves opt as it is.
+	scoreColumns []string
 }
 
 func (f *inputFlags) register(fs *pflag.FlagSet) {
-	fs.StringVar(&f.opt.ScoreColumn, "score", "", "score column (default: first of "+strings.Join(scores.DefaultScoreColumns, ", ")+")")
+	fs.StringArrayVar(&f.scoreColumns, "score", nil, "score column (default: first of "+strings.Join(scores.DefaultScoreColumns, ", ")+"); give it twice to compare two models on the same cases")
 	fs.StringVar(&f.opt.LabelColumn, "label", "", "label column (default: first of "+strings.Join(scores.DefaultLabelColumns, ", ")+")")
 	fs.StringVar(&f.opt.WeightColumn, "weight", "", "optional column of non-negative case weights")
 	fs.StringVar(&f.opt.SegmentColumn, "segment", "", "optional group column")
@@ -38,6 +42,9 @@ func (f *inputFlags) register(fs *pflag.FlagSet) {
 func (f *inputFlags) load(path string, stdin io.Reader, progress func(rows int)) (*scores.Set, error) {
 	opt := f.opt
 	opt.Progress = progress
+	if err := f.scoreOptions(&opt); err != nil {
+		return nil, err
+	}
 	switch strings.ToLower(f.input) {
 	case "":
 	case "csv", "tsv":
@@ -72,9 +79,29 @@ func (f *inputFlags) load(path string, stdin io.Reader, progress func(rows int))
 	return scores.Load(file, path, opt) // the block reader; it hands what it cannot take to scores.Read
 }
 
+// scoreOptions sets the score columns named by --score.
+func (f *inputFlags) scoreOptions(opt *scores.Options) error {
+	switch len(f.scoreColumns) {
+	case 0:
+	case 1:
+		opt.ScoreColumn = f.scoreColumns[0]
+	case 2:
+		opt.ScoreColumn, opt.CompareColumn = f.scoreColumns[0], f.scoreColumns[1]
+		if opt.ScoreColumn == opt.CompareColumn {
+			return fmt.Errorf("--score %s given twice: name two different columns to compare two models", opt.ScoreColumn)
+		}
+	default:
+		return fmt.Errorf("--score given %d times: name one score column, or two to compare two models", len(f.scoreColumns))
+	}
+	return nil
+}
+
 // loadDemo reads the built-in demo data with the same options.
 func (f *inputFlags) loadDemo() (*scores.Set, error) {
 	opt := f.opt
+	if err := f.scoreOptions(&opt); err != nil {
+		return nil, err
+	}
 	if opt.SegmentColumn == "" {
 		opt.SegmentColumn = "yard"
 	}

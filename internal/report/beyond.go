@@ -11,6 +11,7 @@ import (
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/evidence"
+	"github.com/sill-tool/sill/internal/modelpair"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/segment"
@@ -355,4 +356,90 @@ func (r *Report) AddStability(res bootstrap.Result) {
 	}
 	notes := []string{fmt.Sprintf("%d resampled sets (seed %d), true and false cases resampled separately; the 5th and 95th percentiles bound a 90%% range", res.Replicates, res.Seed)}
 	r.sections = append(r.sections, section{title: "how stable each cut is (bootstrap)", table: t, notes: notes})
+}
+
+type comparison struct {
+	ScoreA        string `json:"score_a"`
+	ScoreB        string `json:"score_b"`
+	AUCA          number `json:"auc_a"`
+	AUCB          number `json:"auc_b"`
+	AUCDifference number `json:"auc_difference"` // auc_a - auc_b
+	DeLongSE      number `json:"delong_se"`
+	DeLongZ       number `json:"delong_z"`
+	DeLongP       number `json:"delong_p"`
+}
+
+// secondModelCut is the cut that the same rule picks for the second model.
+type secondModelCut struct {
+	Met           bool      `json:"met"`
+	Reason        *string   `json:"reason"`
+	Score         number    `json:"score"`
+	Flagged       float64   `json:"flagged"`
+	FlaggedShare  number    `json:"flagged_share"`
+	Recall        number    `json:"recall"`
+	RecallCI      *interval `json:"recall_ci"`
+	Precision     number    `json:"precision"`
+	PrecisionCI   *interval `json:"precision_ci"`
+	QueuePerShift number    `json:"queue_per_shift"`
+	CostPerShift  number    `json:"cost_per_shift"`
+}
+
+// AddComparison adds the comparison of two models scored on the same
+// cases: DeLong's paired AUC test (package modelpair) at the top, and
+// under each cut the cut that the same rule picks for the second model.
+// second holds one outcome per cut of r, found on the second model's
+// ranked set (modelpair.Second) under a; test comes from
+// modelpair.Compare. Its error, when not nil, is reported as a warning
+// (one class only, for example) and the test's figures are null.
+func (r *Report) AddComparison(scoreA, scoreB string, test modelpair.Test, testErr error, outcomes, second []cutrule.Outcome, a projection.Assumptions) {
+	c := &comparison{ScoreA: scoreA, ScoreB: scoreB, AUCA: null, AUCB: null, AUCDifference: null, DeLongSE: null, DeLongZ: null, DeLongP: null}
+	if testErr == nil {
+		c.AUCA, c.AUCB, c.AUCDifference = number(test.AUC[0]), number(test.AUC[1]), number(test.Difference)
+		c.DeLongSE, c.DeLongZ, c.DeLongP = number(test.StdError), number(test.Z), number(test.P)
+	} else {
+		r.Warnings = append(r.Warnings, "no paired AUC test: "+testErr.Error())
+	}
+	r.Comparison = c
+	t := tableOf("cut", scoreA+" cut", "flagged", "hit share", "wrong-alert share", scoreB+" cut", "flagged", "hit share", "wrong-alert share")
+	for i, o := range second {
+		if i >= len(r.Cuts) || i >= len(outcomes) {
+			break
+		}
+		s := &secondModelCut{Met: o.Met, Score: null, FlaggedShare: null, Recall: null, Precision: null, QueuePerShift: null, CostPerShift: null}
+		row := []string{r.Cuts[i].Spec}
+		if first := outcomes[i]; first.Met {
+			e := evidence.Of(first.Point, a)
+			row = append(row, Score(e.Score), Percent(e.FlaggedShare), Percent(e.Recall), Percent(e.FalseDiscoveryRate))
+		} else {
+			row = append(row, "unmet", "", "", "")
+		}
+		if o.Met {
+			e := evidence.Of(o.Point, a)
+			s.Score, s.Flagged, s.FlaggedShare = number(e.Score), e.Flagged, number(e.FlaggedShare)
+			s.Recall, s.RecallCI = number(e.Recall), newInterval(e.RecallCI)
+			s.Precision, s.PrecisionCI = number(e.Precision), newInterval(e.PrecisionCI)
+			s.QueuePerShift, s.CostPerShift = number(e.Projected.QueuePerShift), number(e.Projected.CostPerShift)
+			row = append(row, Score(e.Score), Percent(e.FlaggedShare), Percent(e.Recall), Percent(e.FalseDiscoveryRate))
+		} else {
+			reason := o.Reason
+			s.Reason = &reason
+			row = append(row, "unmet", "", "", "")
+		}
+		r.Cuts[i].Second = s
+		t.rows = append(t.rows, row)
+	}
+	notes := []string{}
+	if testErr == nil {
+		notes = append(notes, fmt.Sprintf("ROC AUC %s %s, %s %s: difference %s, standard error %s (DeLong et al. 1988, paired), z %s, p %s",
+			scoreA, Fixed(test.AUC[0], 3), scoreB, Fixed(test.AUC[1], 3), Fixed(test.Difference, 3), Fixed(test.StdError, 4), Fixed(test.Z, 2), significant(test.P)))
+		switch {
+		case !evidence.Defined(test.P):
+			notes = append(notes, "the test is undefined here (no spread between the models, or too few cases of a class)")
+		case test.P < 0.05:
+			notes = append(notes, "on these cases the two AUCs differ by more than chance would explain at the 5% level")
+		default:
+			notes = append(notes, "on these cases the AUC difference is within what chance would explain at the 5% level")
+		}
+	}
+	r.sections = append(r.sections, section{title: "two models on the same cases: " + scoreA + " and " + scoreB, table: t, notes: notes})
 }

@@ -10,6 +10,7 @@ import (
 	"github.com/sill-tool/sill/internal/calibration"
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/modelpair"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/report"
 	"github.com/sill-tool/sill/internal/scores"
@@ -123,5 +124,22 @@ func TestCalibrationInJSON(t *testing.T) {
 	}
 	if nb, ok := cuts[1].(map[string]any)["net_benefit"]; !ok || nb != nil {
 		t.Errorf("unmet cut net benefit %v %v, want null", nb, ok)
+	}
+}
+
+func TestComparisonWithoutTest(t *testing.T) {
+	r, _, outcomes, a := beyondReport(t, "score=0.8")
+	r.AddComparison("a", "b", modelpair.Test{}, modelpair.ErrNoClass, outcomes, outcomes, a)
+	out := decode(t, r)
+	c := out["comparison"].(map[string]any)
+	if c["score_a"] != "a" || c["auc_a"] != nil || c["delong_p"] != nil {
+		t.Errorf("comparison %v", c)
+	}
+	if w := out["warnings"].([]any); len(w) == 0 || !strings.Contains(w[len(w)-1].(string), "no paired AUC test") {
+		t.Errorf("warnings %v", w)
+	}
+	second := out["cuts"].([]any)[0].(map[string]any)["second_model"].(map[string]any)
+	if second["met"] != true || second["score"] != 0.8 {
+		t.Errorf("second model %v", second)
 	}
 }

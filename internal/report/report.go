@@ -37,6 +37,7 @@ type Report struct {
 	Calibration   *calibrationFigures `json:"calibration,omitempty"`
 	ShiftSchedule *shiftSchedule      `json:"shift_schedule,omitempty"`
 	Bootstrap     *bootstrapFigures   `json:"bootstrap,omitempty"`
+	Comparison    *comparison         `json:"comparison,omitempty"`
 
 	// baseRateGiven reports whether the production base rate differs from
 	// the validation one, for the text forms.
@@ -79,6 +80,7 @@ type cut struct {
 	NetBenefit *number          `json:"net_benefit"`        // null unless AddCalibration ran on probabilities
 	Shifts     *shiftFigures    `json:"queue_by_shift,omitempty"`
 	Stability  *stability       `json:"stability,omitempty"`
+	Second     *secondModelCut  `json:"second_model,omitempty"`
 }
 
 type projected struct {
@@ -157,6 +159,8 @@ func Warnings(set *scores.Set, sum curve.Summary) []string {
 	}
 	switch {
 	case sum.Rows == 0:
+	case !(sum.Positives+sum.Negatives > 0):
+		w = append(w, "every row weighs 0: no rate or summary figure is defined")
 	case !(sum.Positives > 0):
 		w = append(w, "the validation set has no true cases: hit share, AUC and average precision are undefined")
 	case !(sum.Negatives > 0):

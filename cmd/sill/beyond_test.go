@@ -1,0 +1,113 @@
+package main
+
+import (
+	"encoding/json"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// timedTable has case times over two days, two models' scores and a yard.
+const timedTable = "id,score,other,label,yard,read_at\n" +
+	"AX-1,0.91,0.70,1,north,2026-09-01T06:30:00Z\n" +
+	"AX-2,0.85,0.20,0,north,2026-09-01T07:00:00Z\n" +
+	"AX-3,0.85,0.90,1,quay,2026-09-01T15:00:00Z\n" +
+	"AX-4,0.60,0.40,0,quay,2026-09-01T23:30:00Z\n" +
+	"AX-5,0.42,0.60,1,north,2026-09-02T02:00:00Z\n" +
+	"AX-6,0.30,0.10,0,north,2026-09-02T08:00:00Z\n" +
+	"AX-7,0.12,0.30,0,quay,2026-09-02T16:00:00Z\n" +
+	"AX-8,0.05,0.05,0,north,2026-09-02T21:59:00Z\n"
+
+// TestReportBeyondFlagErrors: every misuse of the new flags exits 2 with
+// one line on stderr and nothing on stdout.
+func TestReportBeyondFlagErrors(t *testing.T) {
+	path := writeFile(t, t.TempDir(), "timed.csv", []byte(timedTable))
+	cases := []struct {
+		args []string
+		want string
+	}{
+		{[]string{"--time", "read_at"}, "--time needs --shifts"},
+		{[]string{"--shifts", "06:00"}, "--shifts needs --time"},
+		{[]string{"--time", "read_at", "--shifts", "6am"}, "--shifts: malformed shift schedule"},
+		{[]string{"--time", "read_at", "--shifts", "06:00", "--tz", "Mars/Olympus"}, `--tz "Mars/Olympus"`},
+		{[]string{"--time", "yard", "--shifts", "06:00"}, `column "yard": invalid time "north"`},
+		{[]string{"--cut", "queue90=2"}, "needs case times and a shift schedule"},
+		{[]string{"--bootstrap", "-3"}, "--bootstrap -3"},
+		{[]string{"--calibration-binning", "even"}, "--calibration-binning"},
+		{[]string{"--segment", "yard", "--segment-order", "biggest"}, "--segment-order"},
+		{[]string{"--score", "score", "--score", "score"}, "given twice"},
+		{[]string{"--score", "a", "--score", "b", "--score", "c"}, "given 3 times"},
+	}
+	for _, c := range cases {
+		res := runSill(t, "", append([]string{"report", path}, c.args...)...)
+		if res.code != 2 || res.stdout != "" || strings.Count(res.stderr, "\n") != 1 || !strings.Contains(res.stderr, c.want) {
+			t.Errorf("%v: code %d, stdout %q, stderr %q; want %q", c.args, res.code, res.stdout, res.stderr, c.want)
+		}
+	}
+}
+
+// TestReportBeyondJSON: the keys of issue 6 appear in the JSON report.
+func TestReportBeyondJSON(t *testing.T) {
+	path := writeFile(t, t.TempDir(), "timed.csv", []byte(timedTable))
+	args := []string{"report", path, "--format", "json", "--segment", "yard", "--time", "read_at", "--shifts", "06:00,14:00,22:00",
+		"--score", "score", "--score", "other", "--bootstrap", "50", "--seed", "7", "--cut", "top=3", "--cut", "queue90=2"}
+	res := runSill(t, "", args...)
+	if res.code != 0 {
+		t.Fatalf("code %d: %s", res.code, res.stderr)
+	}
+	var out map[string]any
+	if err := json.Unmarshal([]byte(res.stdout), &out); err != nil {
+		t.Fatal(err)
+	}
+	for _, key := range []string{"calibration", "comparison", "shift_schedule", "bootstrap"} {
+		if out[key] == nil {
+			t.Errorf("no top-level %q", key)
+		}
+	}
+	cut := out["cuts"].([]any)[0].(map[string]any)
+	for _, key := range []string{"segments", "stability", "net_benefit", "queue_by_shift", "second_model"} {
+		if cut[key] == nil {
+			t.Errorf("cut lacks %q: %v", key, cut)
+		}
+	}
+	projected := cut["projected"].(map[string]any)
+	// top=3 flags AX-1, AX-2, AX-3: shifts of 1 Sep 06:00 (two alerts) and
+	// 14:00 (one). The period has five shifts, 1 Sep 06:00 to 2 Sep 14:00
+	// (AX-8 at 21:59 is still in the 14:00 shift), so the 90th percentile
+	// by nearest rank (the ceil(4.5) = 5th of 5) and the maximum are 2.
+	if projected["queue_per_shift_p90"] != 2.0 || projected["queue_per_shift_max"] != 2.0 {
+		t.Errorf("projected %v", projected)
+	}
+	if n := out["shift_schedule"].(map[string]any)["shifts"]; n != 5.0 {
+		t.Errorf("shifts %v, want 5", n)
+	}
+	// The same seed gives the same bytes.
+	again := runSill(t, "", args...)
+	if again.stdout != res.stdout {
+		t.Error("the same --seed gave another report")
+	}
+	text := runSill(t, "", append(args[:2], args[4:]...)...)
+	for _, want := range []string{"queue per real shift", "how stable each cut is", "two models on the same cases: score and other", "segments (yard)", "calibration: reliability table"} {
+		if !strings.Contains(text.stdout, want) {
+			t.Errorf("text lacks %q", want)
+		}
+	}
+}
+
+// TestReportTimeLayout reads times in a layout without a zone, in --tz.
+func TestReportTimeLayout(t *testing.T) {
+	table := "score,label,when\n0.9,1,01.09.2026 06:30\n0.2,0,01.09.2026 21:00\n0.7,0,02.09.2026 05:00\n"
+	path := writeFile(t, t.TempDir(), filepath.Base("layout.csv"), []byte(table))
+	res := runSill(t, "", "report", path, "--format", "json", "--time", "when", "--time-layout", "02.01.2006 15:04", "--tz", "Europe/Amsterdam", "--shifts", "06:00,18:00", "--cut", "top=1")
+	if res.code != 0 {
+		t.Fatalf("code %d: %s", res.code, res.stderr)
+	}
+	var out map[string]any
+	json.Unmarshal([]byte(res.stdout), &out)
+	s := out["shift_schedule"].(map[string]any)
+	// Local 06:30, 21:00 and 05:00 next day: shifts 1 Sep 06:00, 1 Sep 18:00
+	// (the 05:00 case belongs to it too), so two shifts.
+	if s["shifts"] != 2.0 || s["time_zone"] != "Europe/Amsterdam" || s["first_shift"] != "2026-09-01T06:00:00+02:00" {
+		t.Errorf("schedule %v", s)
+	}
+}
