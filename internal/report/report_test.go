@@ -629,3 +629,29 @@ func TestFormatters(t *testing.T) {
 		}
 	}
 }
+
+// TestWarnings checks the warning of each degenerate set.
+func TestWarnings(t *testing.T) {
+	cases := []struct {
+		name    string
+		values  []float64
+		labels  []bool
+		weights []float64
+		want    []string
+	}{
+		{"both classes", []float64{0.9, 0.1}, []bool{true, false}, nil, nil},
+		{"empty", nil, nil, nil, nil},
+		{"no true case", []float64{0.9}, []bool{false}, nil, []string{"the validation set has no true cases: hit share, AUC and average precision are undefined"}},
+		{"no false case", []float64{0.9}, []bool{true}, nil, []string{"the validation set has no false cases: false positive rate and AUC are undefined"}},
+		{"no weight", []float64{0.9, 0.1}, []bool{true, false}, []float64{0, 0}, []string{"every row weighs 0: no rate or summary figure is defined"}},
+	}
+	for _, tc := range cases {
+		set, err := scores.New(tc.values, tc.labels, tc.weights, false)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got := report.Warnings(set, curve.Walk(set, nil)); !slices.Equal(got, tc.want) {
+			t.Errorf("%s: %q, want %q", tc.name, got, tc.want)
+		}
+	}
+}
