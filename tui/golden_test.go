@@ -10,7 +10,19 @@ import (
 	"github.com/charmbracelet/x/ansi"
 )
 
-var update = flag.Bool("update", false, "rewrite the golden files under testdata")
+// The -update flag rewrites the golden files. The golden package that
+// teatest imports registers a flag of that name too; share it.
+func init() {
+	if flag.Lookup("update") == nil {
+		flag.Bool("update", false, "rewrite the golden files under testdata")
+	}
+}
+
+// updating reports whether -update was given.
+func updating() bool {
+	f := flag.Lookup("update")
+	return f != nil && f.Value.String() == "true"
+}
 
 // checkGolden compares got with testdata/<Test>/<name>.golden, rewriting
 // the file under -update.
@@ -18,7 +30,7 @@ func checkGolden(t *testing.T, name, got string) {
 	t.Helper()
 	top := strings.SplitN(t.Name(), "/", 2)[0]
 	path := filepath.Join("testdata", top, name+".golden")
-	if *update {
+	if updating() {
 		if err := os.MkdirAll(filepath.Dir(path), 0o755); err != nil {
 			t.Fatal(err)
 		}
