@@ -25,6 +25,7 @@ Run with no arguments to explore the built-in demo data.`,
 	root.AddCommand(newReportCmd(), newDemoCmd())
 	root.AddCommand(newExploreCmd())
 	root.AddCommand(newCheckCmd())
+	root.AddCommand(newReviewCmd())
 	return root
 }
 

@@ -348,3 +348,38 @@ func TestWriteJSONKeys(t *testing.T) {
 		t.Errorf("status %v", got["status"])
 	}
 }
+
+// TestFalseAlarmRateEndToEnd runs the whole chain on many pairs of data
+// sets drawn from one process: choose hit=0.8 on the validation set, save
+// and read the file, check a fresh set. The cut is chosen on the data it
+// is then judged against, so this also catches a selection effect the
+// count-level simulation cannot. 400 replicates at 1% drift 11 times or
+// fewer with probability 0.999 (exact Binomial(400, 0.01) quantile).
+func TestFalseAlarmRateEndToEnd(t *testing.T) {
+	if testing.Short() {
+		t.Skip("400 replicates of the whole chain")
+	}
+	const replicates = 400
+	var alerts, recalls, precisions int
+	for i := 0; i < replicates; i++ {
+		file := decisionOf(t, bearingSet(t, uint64(1000+i), 6000, 0.07, 0))
+		res, err := Check(file, bearingSet(t, uint64(5000+i), 4000, 0.07, 0), Options{Labelled: true})
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, c := range []struct {
+			drift bool
+			n     *int
+		}{{res.AlertRate.Drift, &alerts}, {res.Recall.Drift, &recalls}, {res.Precision.Drift, &precisions}} {
+			if c.drift {
+				*c.n++
+			}
+		}
+	}
+	t.Logf("drifts in %d replicates: alert rate %d, recall %d, precision %d", replicates, alerts, recalls, precisions)
+	for name, n := range map[string]int{"alert rate": alerts, "recall": recalls, "precision": precisions} {
+		if n > 11 {
+			t.Errorf("%s drifted in %d of %d replicates, want at most 11 (about 1%%)", name, n, replicates)
+		}
+	}
+}
