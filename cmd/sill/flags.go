@@ -23,6 +23,10 @@ type inputFlags struct {
 	// scoreColumns holds --score: one column, or two to compare two models
 	// (the second becomes opt.CompareColumn); empty leaves opt as it is.
 	scoreColumns []string
+
+	// counts reads the input as a counts table (score, positives,
+	// negatives), such as `sill sql` queries produce.
+	counts bool
 }
 
 func (f *inputFlags) register(fs *pflag.FlagSet) {
@@ -36,6 +40,7 @@ func (f *inputFlags) register(fs *pflag.FlagSet) {
 	fs.BoolVar(&f.opt.DropInvalid, "drop-invalid", false, "skip rows with a missing or non-finite score, and count them")
 	fs.StringVar(&f.input, "input", "", "input format: csv or jsonl (default: detected)")
 	fs.StringVar(&f.delim, "delim", "", `field delimiter for csv, e.g. "," or "\t" (default: detected from the header)`)
+	fs.BoolVar(&f.counts, "counts", false, "the input is a counts table: score, positives, negatives (and --segment), one row per score, as `sill sql` makes it")
 }
 
 // load reads the table at path ("-" for standard input); progress may be nil.
@@ -65,8 +70,12 @@ func (f *inputFlags) load(path string, stdin io.Reader, progress func(rows int))
 		}
 		opt.Delimiter = r[0]
 	}
+	read := scores.Read
+	if f.counts {
+		read = scores.ReadCounts
+	}
 	if path == "-" {
-		return scores.Read(stdin, "-", opt)
+		return read(stdin, "-", opt)
 	}
 	file, err := os.Open(path)
 	if err != nil {
@@ -75,6 +84,9 @@ func (f *inputFlags) load(path string, stdin io.Reader, progress func(rows int))
 	defer file.Close()
 	if info, err := file.Stat(); err == nil && info.IsDir() {
 		return nil, fmt.Errorf("read scores: %s is a directory, expected a file", path)
+	}
+	if f.counts {
+		return read(file, path, opt)
 	}
 	return scores.Load(file, path, opt) // the block reader; it hands what it cannot take to scores.Read
 }

@@ -18,9 +18,22 @@ import (
 type Point struct {
 	Index int     // cut number, 0 is the strictest
 	Score float64 // the cut
-	Rows  int     // validation rows flagged, whatever their weight
+	Rows  int     // validation rows flagged, whatever their weight: rows [0, Rows) of the ranked set
+
+	// Cases is the number of validation cases flagged: Rows, except for a
+	// counts table (scores.Set.Counts), whose rows stand for their counts.
+	// Points made by hand may leave it 0; see FlaggedCases.
+	Cases int
 
 	TP, FP, FN, TN float64 // weighted counts
+}
+
+// FlaggedCases returns Cases, or Rows when Cases is not set.
+func (p Point) FlaggedCases() int {
+	if p.Cases > 0 {
+		return p.Cases
+	}
+	return p.Rows
 }
 
 // Flagged returns the weighted number of flagged cases.
@@ -88,11 +101,11 @@ const logLossClip = 1e-15
 func Walk(set *scores.Set, visit func(Point)) Summary {
 	positives, negatives := set.Totals()
 	sum := Summary{
-		Rows:          set.Len(),
+		Rows:          set.Cases(),
 		Positives:     positives,
 		Negatives:     negatives,
 		BaseRate:      ratio(positives, positives+negatives),
-		Weighted:      set.Weighted(),
+		Weighted:      set.Weighted() && !set.Counts,
 		Probabilities: !set.LowerIsRiskier && set.Len() > 0,
 	}
 	var (
@@ -147,7 +160,11 @@ func Walk(set *scores.Set, visit func(Point)) Summary {
 			previousRecall = recall
 		}
 		if visit != nil {
-			visit(Point{Index: cutIndex, Score: score, Rows: end, TP: tp, FP: fp, FN: positives - tp, TN: negatives - fp})
+			cases := end
+			if set.Counts {
+				cases = int(tp + fp)
+			}
+			visit(Point{Index: cutIndex, Score: score, Rows: end, Cases: cases, TP: tp, FP: fp, FN: positives - tp, TN: negatives - fp})
 		}
 		cutIndex++
 		start = end

@@ -16,6 +16,11 @@ type Set struct {
 	Labels  []bool    // true for a true (positive) case
 	Weights []float64 // frequency weights; nil means every row weighs 1
 
+	// Counts reports that the set comes from a counts table (ReadCounts):
+	// each row stands for Weights[i] cases of one label at one score, and
+	// figures that count rows count those cases instead (see Cases).
+	Counts bool
+
 	IDs          []string // case identifiers; nil without an id column
 	SegmentOf    []int32  // index into SegmentNames; nil without a segment column
 	SegmentNames []string

@@ -1,0 +1,223 @@
+package scores
+
+import (
+	"crypto/sha256"
+	"encoding/csv"
+	"encoding/hex"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"strconv"
+	"strings"
+)
+
+// Column names of a counts table, matched without regard to case.
+const (
+	PositivesColumn    = "positives"
+	NegativesColumn    = "negatives"
+	UnrecognisedColumn = "unrecognised" // optional
+)
+
+// ErrBadCount is the sentinel of a count that is not a whole number >= 0,
+// and of cases whose label was neither positive nor negative.
+var ErrBadCount = errors.New("invalid count")
+
+// maxCount is the largest count read: float64 holds every whole number up
+// to it, so sums of counts stay exact.
+const maxCount = 1 << 53
+
+// ReadCounts reads a counts table: delimited text with a header line and
+// one row per score (and segment, when Options.SegmentColumn is set) giving
+// how many true and false cases have that score. The score column is found
+// as Read finds it; the counts are the columns "positives" and "negatives",
+// and an optional column "unrecognised" counts cases whose label was
+// neither, which is an error when it is not zero, as such a label is in
+// Read. Counts must be whole numbers >= 0 (12 and 12.0 are both read).
+// A score may appear on several rows; its counts add up.
+//
+// The Set holds one row per score and label with a non-zero count, weighted
+// by that count and marked Counts, so that every figure of the curve, the
+// cut rules and the intervals comes out as from the raw rows the table
+// counts, in memory proportional to the rows of the table. The read order
+// of a score's rows is positives first, then negatives.
+//
+// Options.Input, Delimiter, ScoreColumn, SegmentColumn, LowerIsRiskier and
+// DropInvalid apply; a dropped score drops the cases of its row, which
+// Set.Dropped counts. Options.LabelColumn, WeightColumn, IDColumn, Positive
+// and NoLabels must be empty: a counts table has no such columns. Errors
+// are *ParseError values with 1-based physical lines, as in Read.
+func ReadCounts(r io.Reader, source string, opt Options) (*Set, error) {
+	switch {
+	case opt.LabelColumn != "" || opt.WeightColumn != "" || opt.IDColumn != "" || opt.TimeColumn != "" || opt.CompareColumn != "":
+		return nil, &ParseError{File: source, Err: errors.New("a counts table has score, positives and negatives columns (and a segment column): label, weight, id, time and compare columns do not apply")}
+	case opt.Positive != "" || opt.NoLabels:
+		return nil, &ParseError{File: source, Err: errors.New("a counts table counts the labels already: --positive does not apply")}
+	case opt.Input == InputJSONL:
+		return nil, &ParseError{File: source, Err: errors.New("a counts table is read as delimited text, not JSON Lines")}
+	}
+	digest := sha256.New()
+	hashed := io.TeeReader(r, digest)
+	in, err := openInput(hashed, source)
+	if err != nil {
+		return nil, err
+	}
+	b := &builder{opt: opt, source: source}
+	delim := opt.Delimiter
+	if delim == 0 {
+		headerLine, _ := in.Peek(in.Buffered())
+		if len(headerLine) == 0 {
+			headerLine, _ = in.Peek(1)
+		}
+		if i := strings.IndexByte(string(headerLine), '\n'); i >= 0 {
+			headerLine = headerLine[:i]
+		}
+		delim = detectDelimiter(headerLine)
+	}
+	cr := csv.NewReader(in)
+	cr.Comma = delim
+	cr.FieldsPerRecord = -1
+	cr.ReuseRecord = true
+	header, err := cr.Read()
+	if err == io.EOF {
+		return nil, &ParseError{File: source, Err: ErrEmpty}
+	}
+	if err != nil {
+		return nil, b.csvError(err)
+	}
+	header = trimAll(append([]string(nil), header...))
+	if len(header) == 1 && header[0] == "" {
+		return nil, &ParseError{File: source, Line: 1, Err: ErrEmpty}
+	}
+	// The score and segment columns as Read finds them; the counts by name.
+	b.opt.NoLabels = true
+	if err := b.resolve(header, 1); err != nil {
+		return nil, err
+	}
+	positivesCol, negativesCol, unrecognisedCol := -1, -1, -1
+	for i, h := range header {
+		switch {
+		case strings.EqualFold(h, PositivesColumn):
+			positivesCol = i
+		case strings.EqualFold(h, NegativesColumn):
+			negativesCol = i
+		case strings.EqualFold(h, UnrecognisedColumn):
+			unrecognisedCol = i
+		}
+	}
+	for _, need := range []struct {
+		col  int
+		name string
+	}{{positivesCol, PositivesColumn}, {negativesCol, NegativesColumn}} {
+		if need.col < 0 {
+			return nil, &ParseError{File: source, Line: 1, Column: need.name, Err: fmt.Errorf("%w in header %s, expected score, %s and %s columns", ErrMissingColumn, quoteList(header), PositivesColumn, NegativesColumn)}
+		}
+	}
+	count := func(record []string, col, line int) (float64, error) {
+		text := strings.TrimSpace(record[col])
+		v, err := strconv.ParseFloat(text, 64)
+		if err != nil || !(v >= 0 && v <= maxCount) || v != math.Trunc(v) {
+			return 0, &ParseError{File: source, Line: line, Column: header[col], Err: &valueError{sentinel: ErrBadCount, value: text, hint: "expected a whole number of cases >= 0"}}
+		}
+		return v, nil
+	}
+	for {
+		record, err := cr.Read()
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			return nil, b.csvError(err)
+		}
+		line, _ := cr.FieldPos(0)
+		if len(record) == 1 && strings.TrimSpace(record[0]) == "" {
+			continue // a blank line
+		}
+		if len(record) != len(header) {
+			return nil, &ParseError{File: source, Line: line, Err: fmt.Errorf("%w: row has %d, header has %d", ErrRagged, len(record), len(header))}
+		}
+		positives, err := count(record, positivesCol, line)
+		if err != nil {
+			return nil, err
+		}
+		negatives, err := count(record, negativesCol, line)
+		if err != nil {
+			return nil, err
+		}
+		if unrecognisedCol >= 0 {
+			other, err := count(record, unrecognisedCol, line)
+			if err != nil {
+				return nil, err
+			}
+			if other > 0 {
+				return nil, &ParseError{File: source, Line: line, Column: header[unrecognisedCol], Err: fmt.Errorf("%w: %v cases have a label that is neither a true nor a false case, expected none (set --positive in the query)", ErrBadCount, other)}
+			}
+		}
+		score, err := parseScore(record[b.scoreCol])
+		if err != nil {
+			pe := &ParseError{File: source, Line: line, Column: header[b.scoreCol], Err: err}
+			if !opt.DropInvalid {
+				return nil, pe
+			}
+			b.dropped += int(positives + negatives)
+			if len(b.droppedReasons) < maxDroppedReasons {
+				b.droppedReasons = append(b.droppedReasons, pe.Error())
+			}
+			continue
+		}
+		segment := int32(-1)
+		if b.segmentCol >= 0 {
+			name := record[b.segmentCol]
+			code, ok := b.segIndex[name]
+			if !ok {
+				code = int32(len(b.segNames))
+				b.segIndex[name] = code
+				b.segNames = append(b.segNames, name)
+			}
+			segment = code
+		}
+		for _, part := range [2]struct {
+			positive bool
+			cases    float64
+		}{{true, positives}, {false, negatives}} {
+			if part.cases == 0 {
+				continue
+			}
+			b.scores = append(b.scores, score)
+			b.labels = append(b.labels, part.positive)
+			b.weights = append(b.weights, part.cases)
+			if segment >= 0 {
+				b.segments = append(b.segments, segment)
+			}
+		}
+	}
+	if _, err := io.Copy(io.Discard, hashed); err != nil {
+		return nil, &ParseError{File: source, Err: fmt.Errorf("read: %w", err)}
+	}
+	if len(b.scores) == 0 && b.dropped == 0 {
+		return nil, &ParseError{File: source, Err: ErrNoRows}
+	}
+	if b.weights == nil {
+		b.weights = []float64{}
+	}
+	set, err := b.finish(hex.EncodeToString(digest.Sum(nil)))
+	if err != nil {
+		return nil, err
+	}
+	set.Counts = true
+	set.LabelColumn = header[positivesCol] + "/" + header[negativesCol]
+	return set, nil
+}
+
+// Cases returns the number of validation cases: Len() for a set of rows,
+// the summed counts for a counts table (see Counts).
+func (s *Set) Cases() int {
+	if !s.Counts {
+		return s.Len()
+	}
+	total := 0.0
+	for _, w := range s.Weights {
+		total += w
+	}
+	return int(total)
+}
