@@ -244,9 +244,9 @@ func (p *blockParser) produce(in io.Reader) (<-chan *block, *error, chan struct{
 			}
 			buf = buf[:cap(buf)]
 			n := copy(buf, carry)
-			m, err := io.ReadFull(in, buf[n:])
+			m, err := fill(in, buf[n:])
 			buf = buf[:n+m]
-			end := err == io.EOF || err == io.ErrUnexpectedEOF
+			end := err == io.EOF
 			if err != nil && !end {
 				*readErr = err
 				return
@@ -478,4 +478,20 @@ func plainFloat(text []byte) (value float64, ok bool) {
 		value = -value
 	}
 	return value, true
+}
+
+// fill reads into buf until it is full or the reader fails, and returns
+// io.EOF at the end of the input. Unlike io.ReadFull it passes on an
+// io.ErrUnexpectedEOF of the reader itself, which is how a truncated gzip
+// stream ends, instead of taking it for the end of the input.
+func fill(r io.Reader, buf []byte) (int, error) {
+	n := 0
+	for n < len(buf) {
+		m, err := r.Read(buf[n:])
+		n += m
+		if err != nil {
+			return n, err
+		}
+	}
+	return n, nil
 }

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"errors"
 	"math"
+	"reflect"
 	"testing"
 
 	"github.com/sill-tool/sill/internal/scores"
@@ -41,13 +42,24 @@ func fuzzOptions(mode uint8) scores.Options {
 // FuzzRead checks that no input makes the reader panic, that every error
 // is a *ParseError, and that every set it returns is well formed: columns
 // of one length, finite scores, non-negative finite weights, ranked
-// riskiest first. The seeds live in testdata/fuzz/FuzzRead (CSV, TSV,
-// JSON Lines, gzip and garbage); `go test` runs them, and
-// `go test -fuzz=FuzzRead ./internal/scores/` explores further.
+// riskiest first. It also checks that Load, the block reader, gives the
+// same set or the same error as Read. The seeds live in
+// testdata/fuzz/FuzzRead (CSV, TSV, JSON Lines, gzip and garbage);
+// `go test` runs them, and `go test -fuzz=FuzzRead ./internal/scores/`
+// explores further.
 func FuzzRead(f *testing.F) {
 	f.Fuzz(func(t *testing.T, data []byte, mode uint8) {
 		opt := fuzzOptions(mode)
 		set, err := scores.Read(bytes.NewReader(data), "fuzz.csv", opt)
+		loaded, loadErr := scores.Load(bytes.NewReader(data), "fuzz.csv", opt)
+		switch {
+		case (err == nil) != (loadErr == nil):
+			t.Fatalf("Read error %v, Load error %v", err, loadErr)
+		case err != nil && err.Error() != loadErr.Error():
+			t.Fatalf("Read error\n%v\nLoad error\n%v", err, loadErr)
+		case err == nil && !reflect.DeepEqual(set, loaded):
+			t.Fatalf("Read and Load differ:\n%+v\n%+v", set, loaded)
+		}
 		if err != nil {
 			var pe *scores.ParseError
 			if !errors.As(err, &pe) {

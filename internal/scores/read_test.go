@@ -277,6 +277,13 @@ func TestReadGzipBroken(t *testing.T) {
 		text.WriteString(strings.Repeat("0", i%7) + "0." + strings.Repeat("7", 1+i%13) + ",1\n")
 	}
 	whole := gzipped(t, text.String())
+	// A stream cut at a flush point decompresses to whole lines, so only
+	// the missing end of the stream says that rows are lost.
+	var flushed bytes.Buffer
+	zw := gzip.NewWriter(&flushed)
+	zw.Write([]byte(text.String()[:strings.Index(text.String(), "\n")+1] + "0.5,1\n0.25,0\n"))
+	zw.Flush()
+	atLineEnd := slices.Clone(flushed.Bytes())
 	corruptTail := slices.Clone(whole)
 	corruptTail[len(corruptTail)-5] ^= 0xff // the stored CRC-32 no longer matches
 	cases := []struct {
@@ -287,12 +294,17 @@ func TestReadGzipBroken(t *testing.T) {
 		{"cut in the middle", whole[:len(whole)/2]},
 		{"cut before the trailer", whole[:len(whole)-4]},
 		{"checksum mismatch", corruptTail},
+		{"cut at a line end", atLineEnd},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
 			_, err := scores.Read(bytes.NewReader(tc.data), "f.csv.gz", scores.Options{})
 			if !errors.Is(err, scores.ErrCorruptGzip) {
 				t.Fatalf("got %v, want ErrCorruptGzip", err)
+			}
+			// Load, the block reader used for files, must agree.
+			if _, loadErr := scores.Load(bytes.NewReader(tc.data), "f.csv.gz", scores.Options{}); loadErr == nil || loadErr.Error() != err.Error() {
+				t.Errorf("Load: %v, want %v", loadErr, err)
 			}
 			var pe *scores.ParseError
 			if !errors.As(err, &pe) || pe.File != "f.csv.gz" {
