@@ -53,10 +53,13 @@ type Styles struct {
 // every style renders as plain text.
 func DefaultStyles(r *lipgloss.Renderer) Styles {
 	border := lipgloss.RoundedBorder()
-	accent := lipgloss.AdaptiveColor{Light: "#2b5d8a", Dark: "#7fb2e0"}
-	muted := lipgloss.AdaptiveColor{Light: "#6b6b6b", Dark: "#8c8c8c"}
-	warn := lipgloss.AdaptiveColor{Light: "#a33a1f", Dark: "#ef8a62"}
-	good := lipgloss.AdaptiveColor{Light: "#2f6b3a", Dark: "#8fc99a"}
+	// The sixteen terminal colours follow the user's theme, light or dark,
+	// without asking the terminal for its background: that question goes
+	// unanswered over some links and would hold up the first frame.
+	accent := lipgloss.Color("6") // cyan
+	muted := lipgloss.Color("8")  // bright black, grey in most themes
+	warn := lipgloss.Color("1")   // red
+	good := lipgloss.Color("2")   // green
 	return Styles{
 		Pane:        r.NewStyle().Border(border).BorderForeground(muted),
 		FocusedPane: r.NewStyle().Border(lipgloss.ThickBorder()).BorderForeground(accent),
