@@ -23,6 +23,7 @@ import (
 // segments, shift peaks, stability, calibration and two models.
 type beyondFlags struct {
 	segmentOrder       string
+	segmentsShown      int
 	calibrationBins    int
 	calibrationBinning string
 
@@ -42,6 +43,7 @@ type beyondFlags struct {
 
 func (f *beyondFlags) register(fs *pflag.FlagSet) {
 	fs.StringVar(&f.segmentOrder, "segment-order", "size", "order of the segments under each cut: size, gap (furthest from overall first) or name")
+	fs.IntVar(&f.segmentsShown, "segments-shown", 20, "segments shown under each cut in text and Markdown (0: all; JSON lists all)")
 	fs.IntVar(&f.calibrationBins, "calibration-bins", 10, "bins of the reliability table (scores in [0,1] only)")
 	fs.StringVar(&f.calibrationBinning, "calibration-binning", "width", "reliability bins: width (equal width) or quantile (equal rows)")
 	fs.StringVar(&f.timeColumn, "time", "", "column of case times, for the queue of each real shift (needs --shifts)")
@@ -137,7 +139,7 @@ func (f *beyondFlags) apply(r *report.Report, set *scores.Set, sum curve.Summary
 	if err != nil {
 		return valueFlagError("--segment-order", err)
 	}
-	r.AddSegments(set, outcomes, order)
+	r.AddSegments(set, outcomes, order, f.segmentsShown)
 	binning, err := calibration.ParseBinning(f.calibrationBinning)
 	if err != nil {
 		return valueFlagError("--calibration-binning", err)

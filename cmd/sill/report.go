@@ -38,13 +38,20 @@ Cut specs for --cut (repeatable):
   score=V   the cut at score V            top=N, top=P%  flag at most N rows / P%
   hit=R     catch at least share R         wrong=F        wrong-alert share at most F
   base      flag as many as the base rate  queue=K        at most K alerts per shift
-  cost      least cost per shift
+  cost      least cost per shift           queue90=K      9 shifts in 10 at most K alerts
 Without --cut: base, hit=0.8 and wrong=0.333, plus queue=capacity and cost
-when --capacity or costs are given.`,
+when --capacity or costs are given, and queue90=capacity with --time.
+
+Beyond the averages: --segment COL breaks each cut down by group; --time COL
+with --shifts (and --tz) counts the queue of every real shift; --bootstrap B
+(--seed S) shows how far each cut moves when the set is drawn again; scores
+in [0,1] get a reliability table and net benefit; --score a --score b
+compares two models on the same cases (DeLong's paired AUC test).`,
 		Example: `  sill demo --out bearings.csv
   sill report bearings.csv --volume 1500 --capacity 90
   sill report bearings.csv --cut hit=0.9 --cut top=2% --format json
-  sill report bearings.csv --cut hit=0.8 --cut base --save cut.yaml --choose base`,
+  sill report bearings.csv --cut hit=0.8 --cut base --save cut.yaml --choose base
+  sill report bearings.csv --segment yard --time read_at --shifts 06:00,14:00,22:00 --tz Europe/Amsterdam --volume 1500 --capacity 90 --bootstrap 500`,
 		Args: cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if err := o.beyond.prepare(&o.input); err != nil {

@@ -47,9 +47,10 @@ type segmentFigures struct {
 
 // AddSegments adds, under each met cut, the figures of every group of
 // set's segment column (package segment), arranged in order. outcomes are
-// the ones r was made from, in the same order. A set without a segment
-// column adds nothing.
-func (r *Report) AddSegments(set *scores.Set, outcomes []cutrule.Outcome, order segment.Order) {
+// the ones r was made from, in the same order. The text forms show the
+// first shown groups (every group when shown <= 0) and count the rest;
+// JSON lists them all. A set without a segment column adds nothing.
+func (r *Report) AddSegments(set *scores.Set, outcomes []cutrule.Outcome, order segment.Order, shown int) {
 	if set.SegmentOf == nil {
 		return
 	}
@@ -62,7 +63,8 @@ func (r *Report) AddSegments(set *scores.Set, outcomes []cutrule.Outcome, order 
 		b.Sort(order)
 		list := make([]segmentFigures, 0, len(b.Segments))
 		t := table{header: []string{"segment", "rows", "true cases", "flagged", "hit share", "interval", "precision", "interval", "note"}}
-		for _, f := range b.Segments {
+		hidden, hiddenOutside := 0, 0
+		for k, f := range b.Segments {
 			list = append(list, segmentFigures{
 				Segment: f.Segment, Rows: f.Rows, Positives: f.Positives, Flagged: f.Flagged,
 				FlaggedShare: number(f.FlaggedShare),
@@ -70,6 +72,13 @@ func (r *Report) AddSegments(set *scores.Set, outcomes []cutrule.Outcome, order 
 				Precision: number(f.Precision), PrecisionCI: newInterval(f.PrecisionCI),
 				Outlier: f.Outlier,
 			})
+			if shown > 0 && k >= shown {
+				hidden++
+				if f.Outlier {
+					hiddenOutside++
+				}
+				continue
+			}
 			mark := ""
 			if f.Outlier {
 				mark = "outside"
@@ -82,6 +91,13 @@ func (r *Report) AddSegments(set *scores.Set, outcomes []cutrule.Outcome, order 
 			Percent(b.Overall.Recall), Range(b.Overall.RecallCI), Percent(b.Overall.Precision), Range(b.Overall.PrecisionCI))}
 		if n := b.Outliers(); n > 0 {
 			notes = append(notes, fmt.Sprintf("%s marked \"outside\": hit-share or precision interval wholly outside the overall one", plural(n, "segment", "segments")))
+		}
+		if hidden > 0 {
+			word := "segments"
+			if hidden == 1 {
+				word = "segment"
+			}
+			notes = append(notes, fmt.Sprintf("%d more %s not shown (%d of them outside); --segments-shown 0 shows all, --format json lists all", hidden, word, hiddenOutside))
 		}
 		r.sections = append(r.sections, section{
 			title: fmt.Sprintf("segments (%s) at %s, cut %s", set.SegmentColumn, r.Cuts[i].Spec, Score(o.Point.Score)),

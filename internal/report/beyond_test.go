@@ -61,7 +61,7 @@ func decode(t *testing.T, r *report.Report) map[string]any {
 
 func TestSegmentsInJSONAndText(t *testing.T) {
 	r, set, outcomes, _ := beyondReport(t, "score=0.8", "score=5")
-	r.AddSegments(set, outcomes, segment.ByName)
+	r.AddSegments(set, outcomes, segment.ByName, 0)
 	cuts := decode(t, r)["cuts"].([]any)
 	segs := cuts[0].(map[string]any)["segments"].([]any)
 	if len(segs) != 2 {
@@ -86,6 +86,17 @@ func TestSegmentsInJSONAndText(t *testing.T) {
 	}
 	if !strings.Contains(text.String(), "segments (seg) at score=0.8, cut 0.8") {
 		t.Errorf("text lacks the segment section:\n%s", text.String())
+	}
+	// Showing one segment names the other as not shown.
+	r2, set2, outcomes2, _ := beyondReport(t, "score=0.8")
+	r2.AddSegments(set2, outcomes2, segment.ByName, 1)
+	text.Reset()
+	report.WriteText(&text, r2)
+	if !strings.Contains(text.String(), "1 more segment not shown (0 of them outside)") || strings.Contains(text.String(), "\nB ") {
+		t.Errorf("limited text:\n%s", text.String())
+	}
+	if segs := decode(t, r2)["cuts"].([]any)[0].(map[string]any)["segments"].([]any); len(segs) != 2 {
+		t.Errorf("JSON lists %d segments, want all 2", len(segs))
 	}
 }
 
