@@ -547,11 +547,11 @@ func (m Model) View() string {
 	l := m.screen()
 	if l.tooSmall {
 		notice := fmt.Sprintf("sill needs a terminal of at least %d×%d;\nthis one is %d×%d.\nEnlarge it, or press q to quit.", minWidth, minHeight, w, h)
-		return lipgloss.Place(w, h, lipgloss.Center, lipgloss.Center, notice)
+		return fit(lipgloss.Place(w, h, lipgloss.Center, lipgloss.Center, notice), w, h)
 	}
 	if m.loading || m.s.curve == nil {
 		text := fmt.Sprintf("reading scores… %d rows so far", m.rowsRead.Load())
-		return lipgloss.Place(w, h, lipgloss.Center, lipgloss.Center, st.Muted.Render(text))
+		return fit(lipgloss.Place(w, h, lipgloss.Center, lipgloss.Center, st.Muted.Render(text)), w, h)
 	}
 	right := m.figures.View()
 	if l.curve.H > 0 {

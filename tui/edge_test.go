@@ -1,0 +1,62 @@
+package tui
+
+import (
+	"path/filepath"
+	"strings"
+	"testing"
+
+	tea "github.com/charmbracelet/bubbletea"
+
+	"github.com/sill-tool/sill/internal/projection"
+	"github.com/sill-tool/sill/internal/scores"
+)
+
+// TestOddSets drives every key over sets at the edges: one row, one class
+// only, every row tied, lower scores riskier, zero weights. Nothing may
+// panic and every frame must keep its size.
+func TestOddSets(t *testing.T) {
+	build := func(values []float64, labels []bool, weights []float64, lower bool) *scores.Set {
+		set, err := scores.New(values, labels, weights, lower)
+		if err != nil {
+			t.Fatal(err)
+		}
+		set.Source = "odd.csv"
+		return set
+	}
+	sets := map[string]*scores.Set{
+		"one-row":       build([]float64{0.5}, []bool{true}, nil, false),
+		"no-true-case":  build([]float64{0.9, 0.5, 0.1}, []bool{false, false, false}, nil, false),
+		"no-false-case": build([]float64{0.9, 0.5, 0.1}, []bool{true, true, true}, nil, false),
+		"all-tied":      build([]float64{0.5, 0.5, 0.5, 0.5}, []bool{true, false, true, false}, nil, false),
+		"lower-riskier": build([]float64{-3, -1, 0, 2, 5}, []bool{true, true, false, true, false}, nil, true),
+		"zero-weights":  build([]float64{0.9, 0.7, 0.3}, []bool{true, false, true}, []float64{0, 2, 0}, false),
+		"wide-scores":   build([]float64{123456.789012, 1e-9, -42.5}, []bool{true, false, false}, nil, false),
+	}
+	assume := func(set *scores.Set) (projection.Assumptions, error) {
+		positives, negatives := set.Totals()
+		base := 0.0
+		if positives+negatives > 0 {
+			base = positives / (positives + negatives)
+		}
+		return projection.Assumptions{BaseRate: base, Volume: 50, Capacity: 5, Confidence: 0.9,
+			Costs: &projection.Costs{FalseAlert: 1, Miss: 10, Hit: -2}}, nil
+	}
+	script := []string{"j", "k", "G", "g", "pgdown", "pgup", "1", "2", "3", "4", "5", "v", "p", "j", "p", "v",
+		"tab", "left", "right", "enter", "c", ">", "<", "r", "esc", "x", "tab", "p", "a", "tab", "enter", "?", "?", "w"}
+	for name, set := range sets {
+		t.Run(name, func(t *testing.T) {
+			for _, size := range [][2]int{{80, 24}, {72, 20}, {130, 40}} {
+				m := loaded(t, set, assume, filepath.Join(t.TempDir(), "cut.yaml"), size[0], size[1])
+				for _, k := range script {
+					m = keys(m, k)
+					checkSize(t, m.View(), size[0], size[1])
+				}
+				if name == "lower-riskier" && !strings.Contains(m.View(), "<=") {
+					t.Errorf("lower scores riskier, but the screen never says <=")
+				}
+				m = send(m, tea.WindowSizeMsg{Width: 40, Height: 10})
+				checkSize(t, m.View(), 40, 10)
+			}
+		})
+	}
+}

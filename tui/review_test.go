@@ -1,0 +1,264 @@
+package tui
+
+import (
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"testing"
+	"time"
+
+	tea "github.com/charmbracelet/bubbletea"
+
+	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/decision"
+	"github.com/sill-tool/sill/internal/evidence"
+)
+
+// reviewFile saves four cuts of the demo data, as sill report --save does,
+// at path, with a fixed creation time.
+func reviewFile(t *testing.T, path string) *decision.File {
+	t.Helper()
+	set := demoSet(t)
+	a, _ := demoAssumptions(set)
+	rules := []cutrule.Rule{{Kind: cutrule.Hit, Value: 0.8}, {Kind: cutrule.Base}, {Kind: cutrule.Queue, Value: 90}, {Kind: cutrule.Cost}}
+	finder, err := cutrule.NewFinder(rules, set, a)
+	if err != nil {
+		t.Fatal(err)
+	}
+	curve.Walk(set, finder.Visit)
+	var candidates []decision.Candidate
+	for _, o := range finder.Outcomes() {
+		candidates = append(candidates, decision.Candidate{Name: o.Rule.String(), Rule: o.Rule.String(), Cut: evidence.Of(o.Point, a)})
+	}
+	f, err := decision.New(set, a, candidates, "queue=90", "dev")
+	if err != nil {
+		t.Fatal(err)
+	}
+	f.Created = time.Date(2026, 9, 29, 14, 5, 0, 0, time.UTC)
+	f.Candidates[2].Note = "one crew shift works it"
+	if err := decision.Write(path, f, false); err != nil {
+		t.Fatal(err)
+	}
+	back, err := decision.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return back
+}
+
+// sendReview passes one message to Update and runs a write command it
+// returns, feeding its message back.
+func sendReview(t *testing.T, r Review, msg tea.Msg) (Review, tea.Cmd) {
+	t.Helper()
+	next, cmd := r.Update(msg)
+	r = next.(Review)
+	if cmd != nil {
+		switch out := cmd().(type) {
+		case reviewWrittenMsg, reviewWriteFailedMsg:
+			next, _ = r.Update(out)
+			return next.(Review), nil
+		}
+	}
+	return r, cmd
+}
+
+func keyPress(s string) tea.KeyMsg {
+	switch s {
+	case "enter":
+		return tea.KeyMsg{Type: tea.KeyEnter}
+	case "esc":
+		return tea.KeyMsg{Type: tea.KeyEsc}
+	case "right":
+		return tea.KeyMsg{Type: tea.KeyRight}
+	case "left":
+		return tea.KeyMsg{Type: tea.KeyLeft}
+	}
+	return tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune(s)}
+}
+
+func typeText(t *testing.T, r Review, text string) Review {
+	for _, c := range text {
+		if c == ' ' {
+			r, _ = sendReview(t, r, tea.KeyMsg{Type: tea.KeySpace})
+			continue
+		}
+		r, _ = sendReview(t, r, keyPress(string(c)))
+	}
+	return r
+}
+
+func newTestReview(t *testing.T, width, height int) (Review, string) {
+	t.Helper()
+	path := filepath.Join(t.TempDir(), "cut.yaml")
+	f := reviewFile(t, path)
+	r := NewReview(ReviewConfig{File: f, Path: "cut.yaml"})
+	r.path = path // write to the temporary file, show the short name in frames
+	r, _ = sendReview(t, r, tea.WindowSizeMsg{Width: width, Height: height})
+	return r, path
+}
+
+// view draws r with the temporary folder taken out of the path.
+func view(r Review, path string) string {
+	return strings.ReplaceAll(r.View(), path, "cut.yaml")
+}
+
+func TestReviewView(t *testing.T) {
+	for _, size := range [][2]int{{120, 32}, {80, 24}, {60, 16}} {
+		w, h := size[0], size[1]
+		r, path := newTestReview(t, w, h)
+		name := func(state string) string { return "review-" + strconv.Itoa(w) + "x" + strconv.Itoa(h) + "-" + state }
+		checkFrame(t, name("opened"), view(r, path), w, h)
+		if w != 120 {
+			continue
+		}
+		r, _ = sendReview(t, r, keyPress("right"))
+		checkFrame(t, name("selected-cost"), view(r, path), w, h)
+		r, _ = sendReview(t, r, keyPress("c"))
+		checkFrame(t, name("chose-cost"), view(r, path), w, h)
+		r, _ = sendReview(t, r, keyPress("n"))
+		r = typeText(t, r, "cheapest; lead prefers it")
+		checkFrame(t, name("editing-note"), view(r, path), w, h)
+		r, _ = sendReview(t, r, keyPress("enter"))
+		r, _ = sendReview(t, r, keyPress("?"))
+		checkFrame(t, name("help"), view(r, path), w, h)
+		r, _ = sendReview(t, r, keyPress("esc"))
+		r, _ = sendReview(t, r, keyPress("q"))
+		checkFrame(t, name("quit-unsaved"), view(r, path), w, h)
+	}
+	r, path := newTestReview(t, 50, 12)
+	checkFrame(t, "review-50x12-too-small", view(r, path), 50, 12)
+}
+
+func TestReviewChooseNoteWrite(t *testing.T) {
+	r, path := newTestReview(t, 120, 32)
+	before, _ := os.ReadFile(path)
+	original, _ := decision.ReadFile(path)
+
+	// Select the last candidate (cost), choose it, note on it and on the file.
+	r, _ = sendReview(t, r, keyPress("right"))
+	r, _ = sendReview(t, r, keyPress("right")) // already the last: stays
+	r, _ = sendReview(t, r, keyPress("c"))
+	r, _ = sendReview(t, r, keyPress("n"))
+	r = typeText(t, r, "cheapest")
+	r, _ = sendReview(t, r, keyPress("enter"))
+	r, _ = sendReview(t, r, keyPress("N"))
+	r = typeText(t, r, "signed off at the October review")
+	r, _ = sendReview(t, r, keyPress("enter"))
+	// A note opened and left with esc changes nothing.
+	r, _ = sendReview(t, r, keyPress("left"))
+	r, _ = sendReview(t, r, keyPress("n"))
+	r = typeText(t, r, " and more")
+	r, _ = sendReview(t, r, keyPress("esc"))
+	if !r.Changed() {
+		t.Fatal("no change recorded")
+	}
+	if got, _ := os.ReadFile(path); string(got) != string(before) {
+		t.Fatal("the file changed before w")
+	}
+
+	r, _ = sendReview(t, r, keyPress("w"))
+	if r.Changed() || !r.Written() || !strings.Contains(r.status, "written to") {
+		t.Fatalf("after w: changed %v written %v status %q", r.Changed(), r.Written(), r.status)
+	}
+	back, err := decision.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if back.Chosen != "cost" || back.Note != "signed off at the October review" ||
+		back.Candidates[3].Note != "cheapest" || back.Candidates[2].Note != "one crew shift works it" {
+		t.Errorf("written: chosen %q note %q notes %q / %q", back.Chosen, back.Note, back.Candidates[3].Note, back.Candidates[2].Note)
+	}
+	// The evidence is untouched.
+	for i := range original.Candidates {
+		if back.Candidates[i].Cut != original.Candidates[i].Cut && !sameCut(back.Candidates[i].Cut, original.Candidates[i].Cut) {
+			t.Errorf("candidate %d figures changed", i)
+		}
+	}
+	if back.Data.SHA256 != original.Data.SHA256 || !back.Created.Equal(original.Created) {
+		t.Error("the data or creation time changed")
+	}
+	// Nothing changed now: q quits at once.
+	if _, cmd := r.Update(keyPress("q")); cmd == nil {
+		t.Error("q with nothing to write did not quit")
+	}
+}
+
+// sameCut compares two cuts figure by figure, NaN equal to NaN.
+func sameCut(a, b evidence.Cut) bool {
+	fa := []float64{a.Score, a.Flagged, a.TP, a.FP, a.FN, a.TN, a.Recall, a.Precision, a.FalsePositiveRate, a.Projected.AlertRate, a.Projected.CostPerShift}
+	fb := []float64{b.Score, b.Flagged, b.TP, b.FP, b.FN, b.TN, b.Recall, b.Precision, b.FalsePositiveRate, b.Projected.AlertRate, b.Projected.CostPerShift}
+	for i := range fa {
+		if fa[i] != fb[i] && !(fa[i] != fa[i] && fb[i] != fb[i]) {
+			return false
+		}
+	}
+	return a.Rows == b.Rows
+}
+
+func TestReviewQuitAsks(t *testing.T) {
+	r, path := newTestReview(t, 100, 30)
+	r, _ = sendReview(t, r, keyPress("right"))
+	r, _ = sendReview(t, r, keyPress("c"))
+	r, cmd := sendReview(t, r, keyPress("q"))
+	if cmd != nil || len(r.overlays) != 1 || r.overlays[0] != reviewQuit {
+		t.Fatalf("q with changes: cmd %v overlays %v", cmd != nil, r.overlays)
+	}
+	r, _ = sendReview(t, r, keyPress("esc"))
+	if len(r.overlays) != 0 {
+		t.Fatal("esc did not close the question")
+	}
+	r, _ = sendReview(t, r, keyPress("q"))
+	_, cmd = r.Update(keyPress("q"))
+	if cmd == nil {
+		t.Fatal("q q did not quit")
+	}
+	if back, _ := decision.ReadFile(path); back.Chosen != "queue=90" {
+		t.Errorf("quitting without writing wrote the file: chosen %q", back.Chosen)
+	}
+}
+
+func TestReviewWriteRefusedForOtherData(t *testing.T) {
+	r, path := newTestReview(t, 100, 30)
+	// Someone replaces the file on disk with a decision on other data.
+	other, _ := decision.ReadFile(path)
+	other.Data.SHA256 = strings.Repeat("0", 64)
+	if err := decision.Write(path, other, true); err != nil {
+		t.Fatal(err)
+	}
+	r, _ = sendReview(t, r, keyPress("c"))
+	r, _ = sendReview(t, r, keyPress("w"))
+	if len(r.overlays) != 1 || r.overlays[0] != reviewReplace {
+		t.Fatalf("overlays %v, want the replace question", r.overlays)
+	}
+	r, _ = sendReview(t, r, keyPress("n"))
+	if back, _ := decision.ReadFile(path); back.Data.SHA256 != other.Data.SHA256 {
+		t.Fatal("n replaced the file")
+	}
+	r, _ = sendReview(t, r, keyPress("w"))
+	r, _ = sendReview(t, r, keyPress("y"))
+	if back, _ := decision.ReadFile(path); back.Data.SHA256 == other.Data.SHA256 || !r.Written() {
+		t.Fatal("y did not replace the file")
+	}
+}
+
+func TestLayoutReview(t *testing.T) {
+	frame := frameSize{W: 2, H: 2}
+	for _, tc := range []struct {
+		w, h, stripLines int
+		want             reviewLayout
+	}{
+		// 30 lines: header 2, strip 16 (14 lines + frame, all it needs),
+		// notes 5, the rest blank above the footer at line 29.
+		{100, 30, 14, reviewLayout{header: rect{0, 0, 100, 2}, strip: rect{0, 2, 100, 16}, notes: rect{0, 18, 100, 5}, footer: rect{0, 29, 100, 1}}},
+		// 16 lines: the strip gets what is left, 16-2-1-5 = 8.
+		{60, 16, 14, reviewLayout{header: rect{0, 0, 60, 2}, strip: rect{0, 2, 60, 8}, notes: rect{0, 10, 60, 5}, footer: rect{0, 15, 60, 1}}},
+		{59, 30, 14, reviewLayout{tooSmall: true}},
+		{100, 15, 14, reviewLayout{tooSmall: true}},
+	} {
+		if got := layoutReview(tc.w, tc.h, tc.stripLines, frame); got != tc.want {
+			t.Errorf("%dx%d: %+v, want %+v", tc.w, tc.h, got, tc.want)
+		}
+	}
+}
