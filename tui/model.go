@@ -110,8 +110,9 @@ type Model struct {
 	loading  bool
 	rowsRead *atomic.Int64
 	err      error
-	status   string
-	written  string // the path last written, "" before any write
+	status    string
+	written   string // the path last written, "" before any write
+	unwritten bool   // candidates or assumptions changed since the last write
 
 	list    listPane
 	chart   curvePane
@@ -244,6 +245,9 @@ func (m Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 			}
 		}
 		m.form.load(msg.assume, msg.curve.Summary.BaseRate)
+		if warnings := report.Warnings(msg.set, msg.curve.Summary); len(warnings) > 0 {
+			m.status = "warning: " + strings.Join(warnings, "; ")
+		}
 		m.refresh()
 		return m, nil
 	case startsFoundMsg:
@@ -256,6 +260,7 @@ func (m Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		return m, nil
 	case fileWrittenMsg:
 		m.written = msg.path
+		m.unwritten = false
 		m.status = fmt.Sprintf("wrote %s: %d candidates, chosen %q", msg.path, msg.candidates, msg.chosen)
 		return m, nil
 	case writeFailedMsg:
@@ -317,6 +322,7 @@ func (m Model) key(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 	case key.Matches(msg, k.Pin):
 		name, made := m.s.pinCursor()
 		if made {
+			m.unwritten = true
 			m.status = fmt.Sprintf("pinned %q", name)
 		} else {
 			m.status = fmt.Sprintf("this cut is already pinned as %q", name)
@@ -348,6 +354,11 @@ func (m Model) key(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 // stripKey handles the keys of the comparison strip.
 func (m Model) stripKey(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 	k, s := m.ctx.keys, m.s
+	for _, b := range []key.Binding{k.Remove, k.MoveLeft, k.MoveRight, k.Choose} {
+		if key.Matches(msg, b) {
+			m.unwritten = true
+		}
+	}
 	switch {
 	case key.Matches(msg, k.Jump):
 		s.cursor = s.pins[s.selected].cut
@@ -400,6 +411,7 @@ func (m Model) overlayKey(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 			m.pop()
 			if m.form.applied {
 				m.s.assume = a
+				m.unwritten = true
 				m.status = "assumptions changed: every figure and pin recomputed"
 				m.refresh()
 				return m, m.findStartsCmd(a)
@@ -421,6 +433,7 @@ func (m Model) overlayKey(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 				return m, nil
 			}
 			m.pop()
+			m.unwritten = true
 			m.refresh()
 		}
 		return m, cmd
@@ -636,6 +649,9 @@ func (m Model) footer(width int) string {
 		parts = append(parts, st.Key.Render(name)+" "+st.Footer.Render(h.what))
 	}
 	line := strings.Join(parts, st.Footer.Render(" · "))
+	if m.unwritten && len(m.s.pins) > 0 {
+		line = st.Warning.Render("not written") + st.Footer.Render(" · ") + line
+	}
 	if m.status != "" {
 		line = st.Status.Render(m.status) + st.Footer.Render("  │ ") + line
 	}
