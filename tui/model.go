@@ -107,9 +107,9 @@ type Model struct {
 	focus    focus
 	overlays []overlayKind
 
-	loading  bool
-	rowsRead *atomic.Int64
-	err      error
+	loading   bool
+	rowsRead  *atomic.Int64
+	err       error
 	status    string
 	written   string // the path last written, "" before any write
 	unwritten bool   // candidates or assumptions changed since the last write
