@@ -35,6 +35,11 @@ type beyondFlags struct {
 	replicates int
 	seed       uint64
 
+	compareFile  string // a second model's scores of the same cases, joined on --id
+	compareScore string // its score column: the second --score, or the default names
+	input        *inputFlags
+	joined       *scores.Set // set with the compare file's scores, by finderOptions
+
 	// Set by prepare and finderOptions.
 	location *time.Location
 	assigned *shift.Assignment
@@ -52,6 +57,7 @@ func (f *beyondFlags) register(fs *pflag.FlagSet) {
 	fs.StringVar(&f.shifts, "shifts", "", "local start times of the crew shifts, e.g. 06:00,14:00,22:00")
 	fs.IntVar(&f.replicates, "bootstrap", 0, "resample the set this many times to show how far each cut moves (0: off)")
 	fs.Uint64Var(&f.seed, "seed", 1, "seed of --bootstrap; the same seed gives the same figures")
+	fs.StringVar(&f.compareFile, "compare", "", "a second model's scores of the same cases, joined on --id (its score column: the second --score)")
 }
 
 // prepare checks the time flags and sets the reading options they need
@@ -79,7 +85,43 @@ func (f *beyondFlags) prepare(in *inputFlags) error {
 		}
 	}
 	in.opt.TimeColumn, in.opt.TimeLayout, in.opt.TimeLocation = f.timeColumn, f.timeLayout, loc
+	f.input = in
+	if f.compareFile != "" {
+		switch {
+		case f.compareFile == "-":
+			return fmt.Errorf("--compare -: name a file; standard input is for the first one")
+		case in.opt.IDColumn == "":
+			return fmt.Errorf("--compare needs --id: the column that names each case in both files")
+		}
+		if len(in.scoreColumns) == 2 {
+			f.compareScore = in.scoreColumns[1]
+			in.scoreColumns = in.scoreColumns[:1]
+		}
+	}
 	return nil
+}
+
+// loadCompare reads the second model's file with the first one's reading
+// options, labels optional, and joins it to set on the ids.
+func (f *beyondFlags) loadCompare(set *scores.Set) (*scores.Set, error) {
+	other := *f.input
+	other.opt.SegmentColumn, other.opt.WeightColumn, other.opt.TimeColumn, other.opt.CompareColumn = "", "", "", ""
+	other.opt.NoLabels = true
+	other.scoreColumns = nil
+	if f.compareScore != "" {
+		other.scoreColumns = []string{f.compareScore}
+	} else {
+		other.opt.ScoreColumn = ""
+	}
+	second, err := other.load(f.compareFile, nil, nil)
+	if err != nil {
+		return nil, fmt.Errorf("--compare: %w", err)
+	}
+	joined, err := modelpair.Join(set, second)
+	if err != nil {
+		return nil, fmt.Errorf("--compare: %w", err)
+	}
+	return joined, nil
 }
 
 // check reports a bad flag value before anything is computed. A zero
@@ -115,9 +157,17 @@ func (f *beyondFlags) defaultRules(rules []cutrule.Rule, a projection.Assumption
 	return rules
 }
 
-// finderOptions places the rows in shifts when case times are given and
-// returns the cut finder's options for queue90=K.
+// finderOptions reads and joins the --compare file, places the rows in
+// shifts when case times are given and returns the cut finder's options
+// for queue90=K. It runs before anything is written.
 func (f *beyondFlags) finderOptions(set *scores.Set, a projection.Assumptions) ([]cutrule.Option, error) {
+	if f.compareFile != "" {
+		joined, err := f.loadCompare(set)
+		if err != nil {
+			return nil, err
+		}
+		f.joined = joined
+	}
 	if f.timeColumn == "" {
 		return nil, nil
 	}
@@ -160,6 +210,9 @@ func (f *beyondFlags) apply(r *report.Report, set *scores.Set, sum curve.Summary
 			return fmt.Errorf("--bootstrap: %w", err)
 		}
 		r.AddStability(res)
+	}
+	if f.joined != nil {
+		set = f.joined
 	}
 	if set.CompareScores != nil {
 		if err := f.compare(r, set, a, rules, outcomes); err != nil {

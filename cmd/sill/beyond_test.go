@@ -111,3 +111,39 @@ func TestReportTimeLayout(t *testing.T) {
 		t.Errorf("schedule %v", s)
 	}
 }
+
+// TestReportCompareFile joins a second model's file on --id; the result
+// equals the comparison of two columns of one file.
+func TestReportCompareFile(t *testing.T) {
+	dir := t.TempDir()
+	first := writeFile(t, dir, "a.csv", []byte(timedTable))
+	second := writeFile(t, dir, "b.csv", []byte("id,model_b\nAX-8,0.05\nAX-7,0.30\nAX-6,0.10\nAX-5,0.60\nAX-4,0.40\nAX-3,0.90\nAX-2,0.20\nAX-1,0.70\nAX-9,0.5\n"))
+	joined := runSill(t, "", "report", first, "--format", "json", "--id", "id", "--compare", second, "--score", "score", "--score", "model_b")
+	columns := runSill(t, "", "report", first, "--format", "json", "--score", "score", "--score", "other")
+	if joined.code != 0 || columns.code != 0 {
+		t.Fatalf("codes %d %d: %s %s", joined.code, columns.code, joined.stderr, columns.stderr)
+	}
+	var a, b map[string]any
+	json.Unmarshal([]byte(joined.stdout), &a)
+	json.Unmarshal([]byte(columns.stdout), &b)
+	ca, cb := a["comparison"].(map[string]any), b["comparison"].(map[string]any)
+	for _, key := range []string{"auc_a", "auc_b", "delong_z", "delong_p"} {
+		if ca[key] != cb[key] {
+			t.Errorf("%s: joined %v, one file %v", key, ca[key], cb[key])
+		}
+	}
+	for _, c := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"--compare", second}, "--compare needs --id"},
+		{[]string{"--compare", "-", "--id", "id"}, "--compare -"},
+		{[]string{"--compare", first, "--id", "yard"}, "duplicate id"},
+		{[]string{"--compare", filepath.Join(dir, "none.csv"), "--id", "id"}, "--compare: read scores"},
+	} {
+		res := runSill(t, "", append([]string{"report", first}, c.args...)...)
+		if res.code != 2 || res.stdout != "" || !strings.Contains(res.stderr, c.want) {
+			t.Errorf("%v: code %d stderr %q, want %q", c.args, res.code, res.stderr, c.want)
+		}
+	}
+}

@@ -235,3 +235,54 @@ func pick[T any](column []T, order []int) []T {
 	}
 	return out
 }
+
+// Errors of Join.
+var (
+	ErrNoIDs       = errors.New("joining two files needs an id column in both (--id)")
+	ErrDuplicateID = errors.New("duplicate id")
+	ErrUnmatchedID = errors.New("id missing from the second file")
+	ErrLabelClash  = errors.New("the two files disagree on a case's label")
+)
+
+// Join returns set with the second model's scores taken from other, a set
+// of the same cases scored by another model, matched on their ids: the
+// result's CompareScores[i] is other's score of the case whose id is
+// set.IDs[i]. Every case of set must be in other (other may hold more);
+// an id may appear once in each. When other has a label column its labels
+// must agree with set's. Both sets must run in the same direction; Join
+// takes set's. The result shares set's columns but CompareScores.
+func Join(set, other *scores.Set) (*scores.Set, error) {
+	if set.IDs == nil || other.IDs == nil {
+		return nil, ErrNoIDs
+	}
+	index := make(map[string]int, other.Len())
+	for i, id := range other.IDs {
+		if _, dup := index[id]; dup {
+			return nil, fmt.Errorf("%s: %w %q", other.Source, ErrDuplicateID, id)
+		}
+		index[id] = i
+	}
+	seen := make(map[string]bool, set.Len())
+	compare := make([]float64, set.Len())
+	for i, id := range set.IDs {
+		if seen[id] {
+			return nil, fmt.Errorf("%s: %w %q", set.Source, ErrDuplicateID, id)
+		}
+		seen[id] = true
+		j, ok := index[id]
+		if !ok {
+			return nil, fmt.Errorf("%w: %q of %s is not in %s", ErrUnmatchedID, id, set.Source, other.Source)
+		}
+		if other.LabelColumn != "" && other.Labels[j] != set.Labels[i] {
+			return nil, fmt.Errorf("%w: id %q is %v in %s and %v in %s", ErrLabelClash, id, set.Labels[i], set.Source, other.Labels[j], other.Source)
+		}
+		compare[i] = other.Scores[j]
+	}
+	out := *set
+	out.CompareScores = compare
+	out.CompareColumn = other.ScoreColumn
+	if out.CompareColumn == set.ScoreColumn {
+		out.CompareColumn = other.Source + ":" + other.ScoreColumn
+	}
+	return &out, nil
+}

@@ -7,6 +7,7 @@ import (
 	"math/rand/v2"
 	"os"
 	"path/filepath"
+	"strings"
 	"testing"
 
 	"github.com/sill-tool/sill/internal/curve"
@@ -211,5 +212,57 @@ func TestSecond(t *testing.T) {
 	test, _ := modelpair.Compare(set)
 	if sum := curve.Walk(second, nil); !close(sum.ROCAUC, test.AUC[1]) {
 		t.Errorf("AUC of second %v, test %v", sum.ROCAUC, test.AUC[1])
+	}
+}
+
+func readString(t *testing.T, name, text string, opt scores.Options) *scores.Set {
+	t.Helper()
+	set, err := scores.Read(strings.NewReader(text), name, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return set
+}
+
+// TestJoin: the second file's scores land on the matching ids whatever
+// their order; the joined test equals the one on two columns of one file.
+func TestJoin(t *testing.T) {
+	one := "id,score,label\nA,0.9,1\nB,0.4,1\nC,0.5,0\nD,0.1,0\n"
+	two := "id,score\nD,0.2\nC,0.6\nE,0.99\nB,0.6\nA,0.6\n"
+	both := "id,score,other,label\nA,0.9,0.6,1\nB,0.4,0.6,1\nC,0.5,0.6,0\nD,0.1,0.2,0\n"
+	opt := scores.Options{IDColumn: "id"}
+	first := readString(t, "one.csv", one, opt)
+	second := readString(t, "two.csv", two, scores.Options{IDColumn: "id", NoLabels: true})
+	joined, err := modelpair.Join(first, second)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if joined.CompareColumn != "two.csv:score" {
+		t.Errorf("compare column %q", joined.CompareColumn)
+	}
+	got, _ := modelpair.Compare(joined)
+	want, _ := modelpair.Compare(readString(t, "both.csv", both, scores.Options{CompareColumn: "other"}))
+	if !close(got.AUC[1], want.AUC[1]) || !close(got.Covariance, want.Covariance) || !close(got.StdError, want.StdError) {
+		t.Errorf("joined %+v\none file %+v", got, want)
+	}
+	cases := []struct {
+		name, a, b string
+		err        error
+	}{
+		{"missing id", one, "id,score\nA,1\nB,1\nC,1\n", modelpair.ErrUnmatchedID},
+		{"duplicate in second", one, "id,score\nA,1\nA,2\nB,1\nC,1\nD,1\n", modelpair.ErrDuplicateID},
+		{"duplicate in first", "id,score,label\nA,1,1\nA,2,0\n", "id,score\nA,1\n", modelpair.ErrDuplicateID},
+		{"label clash", one, "id,score,label\nA,1,0\nB,1,1\nC,1,0\nD,1,0\n", modelpair.ErrLabelClash},
+	}
+	for _, c := range cases {
+		a := readString(t, "a.csv", c.a, opt)
+		b := readString(t, "b.csv", c.b, scores.Options{IDColumn: "id", NoLabels: !strings.Contains(c.b, "label")})
+		if _, err := modelpair.Join(a, b); !errors.Is(err, c.err) {
+			t.Errorf("%s: %v, want %v", c.name, err, c.err)
+		}
+	}
+	noIDs := readString(t, "n.csv", "score,label\n1,1\n", scores.Options{})
+	if _, err := modelpair.Join(noIDs, second); !errors.Is(err, modelpair.ErrNoIDs) {
+		t.Errorf("no ids: %v", err)
 	}
 }
