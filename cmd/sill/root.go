@@ -26,6 +26,7 @@ Run with no arguments to explore the built-in demo data.`,
 	root.AddCommand(newExploreCmd())
 	root.AddCommand(newCheckCmd())
 	root.AddCommand(newReviewCmd())
+	root.AddCommand(newSQLCmd())
 	return root
 }
 
