@@ -45,8 +45,9 @@ when --capacity or costs are given, and queue90=capacity with --time.
 Beyond the averages: --segment COL breaks each cut down by group; --time COL
 with --shifts (and --tz) counts the queue of every real shift; --bootstrap B
 (--seed S) shows how far each cut moves when the set is drawn again; scores
-in [0,1] get a reliability table and net benefit; --score a --score b
-compares two models on the same cases (DeLong's paired AUC test).`,
+in [0,1] get a reliability table and net benefit; --score a --score b (or
+--compare FILE joined on --id) compares two models on the same cases
+(DeLong's paired AUC test).`,
 		Example: `  sill demo --out bearings.csv
   sill report bearings.csv --volume 1500 --capacity 90
   sill report bearings.csv --cut hit=0.9 --cut top=2% --format json
