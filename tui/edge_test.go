@@ -45,7 +45,7 @@ func TestOddSets(t *testing.T) {
 		"tab", "left", "right", "enter", "c", ">", "<", "r", "esc", "x", "tab", "p", "a", "tab", "enter", "?", "?", "w"}
 	for name, set := range sets {
 		t.Run(name, func(t *testing.T) {
-			for _, size := range [][2]int{{80, 24}, {72, 20}, {130, 40}} {
+			for _, size := range [][2]int{{80, 24}, {80, 22}, {130, 40}} {
 				m := loaded(t, set, assume, filepath.Join(t.TempDir(), "cut.yaml"), size[0], size[1])
 				for _, k := range script {
 					m = keys(m, k)

@@ -1,9 +1,10 @@
 package tui
 
 // Minimum terminal size the explorer draws in; below it only a notice.
+// 80 columns hold every figure line unclipped; 22 lines hold the help.
 const (
-	minWidth  = 72
-	minHeight = 20
+	minWidth  = 80
+	minHeight = 22
 )
 
 // rect is a pane's place on screen in cells, borders included.
@@ -32,7 +33,7 @@ type screenLayout struct {
 }
 
 // minCurveLines is the smallest chart worth drawing.
-const minCurveLines = 4
+const minCurveLines = 3
 
 // layout places the panes in a width×height terminal. The ranked list takes
 // the left of the body, the chart and the figures of the cursor's cut the

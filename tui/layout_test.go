@@ -66,8 +66,9 @@ func TestLayout(t *testing.T) {
 		{"80x24-pinned", 80, 24, layoutState{pinned: true, figureLines: 11, stripLines: 14}},
 		{"80x24-strip-focused", 80, 24, layoutState{pinned: true, stripFocused: true, figureLines: 11, stripLines: 14}},
 		{"120x44-pinned", 120, 44, layoutState{pinned: true, figureLines: 11, stripLines: 14}},
-		{"71x24-too-narrow", 71, 24, layoutState{figureLines: 11}},
-		{"80x19-too-short", 80, 19, layoutState{figureLines: 11}},
+		{"79x24-too-narrow", 79, 24, layoutState{figureLines: 11}},
+		{"80x21-too-short", 80, 21, layoutState{figureLines: 11}},
+		{"80x22-minimum", 80, 22, layoutState{pinned: true, figureLines: 10, stripLines: 15}},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {

@@ -57,13 +57,19 @@ func (p helpPane) View(groups []helpGroup) string {
 		}
 		return lines
 	}
+	// Two columns, each group going to the shorter one so far.
 	var left, right []string
-	for i, g := range groups {
-		lines := append(render(g), "")
-		if i%2 == 0 {
-			left = append(left, lines...)
-		} else {
-			right = append(right, lines...)
+	for _, g := range groups {
+		lines := render(g)
+		switch {
+		case len(left) == 0:
+			left = lines
+		case len(right) == 0:
+			right = lines
+		case len(left) <= len(right):
+			left = append(append(left, ""), lines...)
+		default:
+			right = append(append(right, ""), lines...)
 		}
 	}
 	leftW := 0

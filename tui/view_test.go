@@ -39,10 +39,11 @@ func TestView(t *testing.T) {
 		{name: "two-pins-strip-120x44", width: 120, height: 44, keys: []string{"2", "p", "4", "p"}},
 		{name: "form-bad-value-80x24", width: 80, height: 24, keys: []string{"a", "tab", "ctrl+u"}, text: "-40", after: []string{"enter"}},
 		{name: "help-80x24", width: 80, height: 24, keys: []string{"?"}},
-		{name: "help-72x20", width: 72, height: 20, keys: []string{"?"}},
-		{name: "minimum-72x20", width: 72, height: 20},
-		{name: "too-small-71x20", width: 71, height: 20},
-		{name: "too-small-80x19", width: 80, height: 19},
+		{name: "help-80x22", width: 80, height: 22, keys: []string{"?"}},
+		{name: "minimum-80x22", width: 80, height: 22},
+		{name: "minimum-80x22-pinned", width: 80, height: 22, keys: []string{"2", "p"}},
+		{name: "too-small-79x24", width: 79, height: 24},
+		{name: "too-small-80x21", width: 80, height: 21},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
@@ -80,7 +81,7 @@ func TestViewLoading(t *testing.T) {
 func TestViewResize(t *testing.T) {
 	m := loaded(t, demoSet(t), demoAssumptions, filepath.Join(t.TempDir(), "cut.yaml"), 100, 30)
 	m = keys(m, "2", "p", "4", "p")
-	for _, size := range [][2]int{{80, 24}, {60, 15}, {72, 20}, {150, 50}, {81, 25}} {
+	for _, size := range [][2]int{{80, 24}, {60, 15}, {80, 22}, {150, 50}, {81, 25}} {
 		m = send(m, tea.WindowSizeMsg{Width: size[0], Height: size[1]})
 		frame := m.View()
 		checkSize(t, frame, size[0], size[1])
