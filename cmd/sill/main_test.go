@@ -46,6 +46,20 @@ func gzipBytes(t *testing.T, text string) []byte {
 	return buf.Bytes()
 }
 
+// truncatedGzip is a gzip stream of whole rows cut before its end, so that
+// the rows read up to the cut are valid and only the missing end of the
+// stream is wrong.
+func truncatedGzip(t *testing.T) []byte {
+	t.Helper()
+	var buf bytes.Buffer
+	w := gzip.NewWriter(&buf)
+	w.Write([]byte(goodTable))
+	if err := w.Flush(); err != nil {
+		t.Fatal(err)
+	}
+	return buf.Bytes()
+}
+
 // goodTable has both classes, ties and a segment column.
 const goodTable = "id,score,label,yard\n" +
 	"AX-1,0.91,1,north\nAX-2,0.85,0,north\nAX-3,0.85,1,quay\nAX-4,0.60,0,quay\n" +
@@ -83,6 +97,8 @@ func TestRunBadInput(t *testing.T) {
 			"sill: " + good + `:1: column "prob": column not found in header ["id", "score", "label", "yard"]`},
 		{"corrupt gzip", []string{"report", path("broken.csv.gz", "\x1f\x8bnot really gzip")},
 			"sill: " + filepath.Join(dir, "broken.csv.gz") + ": corrupt gzip data: gzip: invalid header"},
+		{"truncated gzip", []string{"report", writeFile(t, dir, "cut.csv.gz", truncatedGzip(t))},
+			"sill: " + filepath.Join(dir, "cut.csv.gz") + ": corrupt gzip data: unexpected EOF"},
 		{"malformed cut", []string{"report", good, "--cut", "hit=2"},
 			`sill: --cut: malformed cut spec "hit=2": expected a share in [0,1]`},
 		{"unknown cut", []string{"report", good, "--cut", "recall=0.8"},
