@@ -109,12 +109,13 @@ func (p listPane) View(focused bool) string {
 // columns are the widths of the list's columns at an inner width.
 type listColumns struct{ rank, score, id, segment int }
 
-func (p listPane) columns(innerW int) listColumns {
+// columns fits the columns to innerW; idWidth is the widest id in view.
+func (p listPane) columns(innerW, idWidth int) listColumns {
 	c := listColumns{rank: max(len(strconv.Itoa(p.s.set.Len())), 4), score: 7}
 	// gutter 1, rank, space, score, space, mark 1, space, hit 6, spaces
 	rest := innerW - (1 + c.rank + 1 + c.score + 1 + 1 + 1 + 6 + 1)
 	if p.s.set.IDs != nil {
-		c.id = min(max(rest, 0), 12)
+		c.id = min(max(rest, 0), max(idWidth, 2), 16)
 		rest -= c.id + 1
 	}
 	if p.s.set.SegmentOf != nil && rest >= 6 {
@@ -128,7 +129,13 @@ func (p listPane) body(innerW int) string {
 	if s.curve == nil || s.curve.Len() == 0 {
 		return st.Muted.Render("no cases")
 	}
-	cols := p.columns(innerW)
+	idWidth := 0
+	if s.set.IDs != nil {
+		for r := p.offset; r < min(p.offset+p.rowsInView(), s.set.Len()); r++ {
+			idWidth = max(idWidth, len([]rune(s.set.IDs[r])))
+		}
+	}
+	cols := p.columns(innerW, idWidth)
 	var b strings.Builder
 	head := " " + pad("rank", cols.rank, true) + " " + pad("score", cols.score, false) + " " + "T"
 	if cols.id > 0 {
