@@ -249,6 +249,11 @@ func checkReadable(t *testing.T, text string) {
 			t.Errorf("output contains %q:\n%s", bad, text)
 		}
 	}
+	for _, line := range strings.Split(text, "\n") {
+		if strings.HasSuffix(line, " ") {
+			t.Errorf("line ends with a space: %q", line)
+		}
+	}
 	if !strings.Contains(text, "it does not make one") || !strings.HasSuffix(text, "licensed practice.\n") {
 		t.Errorf("output does not end with the caution:\n%s", text)
 	}

@@ -245,15 +245,16 @@ func writeGrid(b *strings.Builder, t table) {
 		measure(row)
 	}
 	line := func(row []string) {
+		var l strings.Builder
 		for i, cell := range row {
 			pad := strings.Repeat(" ", widths[i]-len([]rune(cell)))
 			if i == 0 {
-				b.WriteString(cell + pad)
+				l.WriteString(cell + pad)
 			} else {
-				b.WriteString("  " + pad + cell)
+				l.WriteString("  " + pad + cell)
 			}
 		}
-		b.WriteString("\n")
+		b.WriteString(strings.TrimRight(l.String(), " ") + "\n") // no trailing spaces after an empty last cell
 	}
 	line(t.header)
 	for _, row := range t.rows {
