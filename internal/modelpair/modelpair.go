@@ -13,10 +13,13 @@
 package modelpair
 
 import (
+	"cmp"
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"sort"
+	"sync"
 
 	"github.com/sill-tool/sill/internal/scores"
 )
@@ -93,15 +96,22 @@ func Paired(a, b []float64, labels []bool, weights []float64, lowerIsRiskier boo
 	}
 	var v10, v01 [2][]float64
 	var t Test
+	sign := 1.0
+	if lowerIsRiskier {
+		sign = -1
+	}
+	// The two models' placements are independent: one goroutine each.
+	var wg sync.WaitGroup
 	for r, model := range [2][]float64{a, b} {
-		risk := func(i int) float64 {
-			if lowerIsRiskier {
-				return -model[i]
-			}
-			return model[i]
-		}
-		v10[r] = placements(positives, negatives, risk, weight, false)
-		v01[r] = placements(negatives, positives, risk, weight, true)
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			v10[r] = placements(positives, negatives, model, sign, weight, false)
+			v01[r] = placements(negatives, positives, model, sign, weight, true)
+		}()
+	}
+	wg.Wait()
+	for r := range 2 {
 		auc := 0.0
 		for k, i := range positives {
 			auc += weight(i) * v10[r][k]
@@ -128,30 +138,26 @@ func Paired(a, b []float64, labels []bool, weights []float64, lowerIsRiskier boo
 // placements returns, for each row of own, the weighted share of the rows
 // of other that it beats, ties counting half: a true case beats the false
 // cases below it (above is false), a false case is beaten by the true
-// cases above it (above is true).
-func placements(own, other []int, risk func(int) float64, weight func(int) float64, above bool) []float64 {
-	sorted := make([]float64, len(other))
+// cases above it (above is true). Risk is sign times the score.
+func placements(own, other []int, score []float64, sign float64, weight func(int) float64, above bool) []float64 {
+	type valued struct{ value, weight float64 }
+	sorted := make([]valued, len(other))
 	for k, j := range other {
-		sorted[k] = risk(j)
+		sorted[k] = valued{sign * score[j], weight(j)}
 	}
-	order := make([]int, len(other))
-	for k := range order {
-		order[k] = k
+	slices.SortFunc(sorted, func(x, y valued) int { return cmp.Compare(x.value, y.value) })
+	values := make([]float64, len(sorted))
+	cumulative := make([]float64, len(sorted)+1) // weight of the first k values in ascending order
+	for k, v := range sorted {
+		values[k] = v.value
+		cumulative[k+1] = cumulative[k] + v.weight
 	}
-	sort.Slice(order, func(x, y int) bool { return sorted[order[x]] < sorted[order[y]] })
-	values := make([]float64, len(other))
-	cumulative := make([]float64, len(other)+1) // weight of the first k values in ascending order
-	total := 0.0
-	for k, o := range order {
-		values[k] = sorted[o]
-		cumulative[k+1] = cumulative[k] + weight(other[o])
-	}
-	total = cumulative[len(other)]
+	total := cumulative[len(sorted)]
 	out := make([]float64, len(own))
 	for k, i := range own {
-		x := risk(i)
-		lo := sort.SearchFloat64s(values, x)                                      // first >= x
-		hi := sort.Search(len(values), func(q int) bool { return values[q] > x }) // first > x
+		x := sign * score[i]
+		lo := sort.SearchFloat64s(values, x)                              // first >= x
+		hi := sort.SearchFloat64s(values, math.Nextafter(x, math.Inf(1))) // first > x
 		below, tied := cumulative[lo], cumulative[hi]-cumulative[lo]
 		if above {
 			out[k] = (total - cumulative[hi] + tied/2) / total

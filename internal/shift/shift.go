@@ -93,10 +93,11 @@ func (s Schedule) String() string {
 // key numbers the shifts of all time: day number (days from 1970-01-01 by
 // the local calendar) times the shifts per day, plus the shift's place.
 func (s Schedule) key(unix int64) int64 {
-	local := time.Unix(unix, 0).In(s.Location)
-	minute := local.Hour()*60 + local.Minute()
+	_, offset := time.Unix(unix, 0).In(s.Location).Zone()
+	wall := unix + int64(offset) // seconds since 1970-01-01 00:00 on the local wall clock
+	day := floorDiv(wall, 86400)
+	minute := int((wall - day*86400) / 60)
 	place := len(s.Starts) - 1
-	day := civilDay(local.Year(), local.Month(), local.Day())
 	if minute < s.Starts[0] {
 		day-- // before the first start: the previous day's last shift
 	} else {
@@ -107,8 +108,12 @@ func (s Schedule) key(unix int64) int64 {
 	return day*int64(len(s.Starts)) + int64(place)
 }
 
-func civilDay(y int, m time.Month, d int) int64 {
-	return time.Date(y, m, d, 0, 0, 0, 0, time.UTC).Unix() / 86400
+func floorDiv(a, b int64) int64 {
+	q := a / b
+	if (a%b != 0) && ((a < 0) != (b < 0)) {
+		q--
+	}
+	return q
 }
 
 // start returns the local start time of the shift with the given key.
