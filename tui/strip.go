@@ -204,10 +204,17 @@ func (s Strip) grid(innerW, innerH int) (string, int) {
 		labelW = max(labelW, ansi.StringWidth(r.Figure))
 	}
 	labelW = min(labelW, 27)
+	// A figure's value is right-aligned with its difference after it; a
+	// detail (which has no difference) may spread over both.
 	valueW := make([]int, len(t.Names))
 	diffW := make([]int, len(t.Names))
+	detailW := make([]int, len(t.Names))
 	for c := range t.Names {
 		for _, r := range t.Rows {
+			if r.Detail {
+				detailW[c] = max(detailW[c], ansi.StringWidth(r.Cells[c]))
+				continue
+			}
 			valueW[c] = max(valueW[c], ansi.StringWidth(r.Cells[c]))
 			diffW[c] = max(diffW[c], ansi.StringWidth(r.Diffs[c]))
 		}
@@ -216,8 +223,7 @@ func (s Strip) grid(innerW, innerH int) (string, int) {
 		}
 	}
 	colW := func(c int) int {
-		w := valueW[c] + 1 + diffW[c]
-		w = max(w, ansi.StringWidth(t.Names[c])+3, ansi.StringWidth(t.Rules[c])+2, 12)
+		w := max(valueW[c]+1+diffW[c], detailW[c], ansi.StringWidth(t.Names[c])+3, ansi.StringWidth(t.Rules[c])+2, 10)
 		return min(w, 26) + 2
 	}
 	// Columns in view: the reference first, always, so that every
@@ -290,7 +296,10 @@ func (s Strip) grid(innerW, innerH int) (string, int) {
 			cell := pad(value, valueW[c], true)
 			text := cell + " " + pad(diff, max(w-valueW[c]-1, 0), false)
 			if r.Detail {
-				line += "  " + st.Muted.Render(fitLine(pad(value, valueW[c], true), w))
+				if ansi.StringWidth(value) < valueW[c] {
+					value = pad(value, valueW[c], true)
+				}
+				line += "  " + st.Muted.Render(fitLine(value, w))
 				continue
 			}
 			line += "  " + st.Figure.Render(ansi.Truncate(cell, w, "…")) + s.diffStyle(r, c).Render(fitLine(text[len(cell):], max(w-ansi.StringWidth(cell), 0)))
