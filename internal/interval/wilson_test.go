@@ -44,9 +44,10 @@ func TestZ(t *testing.T) {
 
 // TestWilsonPublished checks Wilson against Newcombe RG (1998), "Two-sided
 // confidence intervals for the single proportion: comparison of seven
-// methods", Statistics in Medicine 17:857-872, Table II, method 3 (score
-// interval without continuity correction), 95%, four decimals (values from
-// memory; they agree with our hand evaluation of the formula).
+// methods", Statistics in Medicine 17:857-872: the worked examples of its
+// tables for the score interval without continuity correction, 95%, four
+// decimals. The values are from memory, not read from the paper; they
+// agree to four decimals with our own evaluation of Wilson's formula.
 func TestWilsonPublished(t *testing.T) {
 	cases := []struct {
 		successes, trials float64

@@ -49,12 +49,12 @@ func TestProjectPredictiveValues(t *testing.T) {
 			ppv:      231.0 / 263,
 		},
 		{
-			// The same scan at prevalence 0.25, by hand:
+			// The same scan at prevalence 0.25, computed by hand (the
+			// paper's point is that predictive values move with prevalence;
+			// this particular figure is ours, not quoted from it):
 			// sensitivity 231/258 = 0.89535, specificity 54/86 = 0.62791;
 			// PPV = 0.89535*0.25 / (0.89535*0.25 + 0.37209*0.75)
-			//     = 0.22384 / 0.50291 = 0.4451. (We recall the paper making
-			// this point, that the PPV falls to about 0.45 when the
-			// prevalence drops to 0.25; from memory.)
+			//     = 0.22384 / 0.50291 = 0.4451.
 			name:     "Altman and Bland liver scan at prevalence 0.25",
 			point:    curve.Point{TP: 231, FP: 32, FN: 27, TN: 54},
 			baseRate: 0.25,
