@@ -58,7 +58,8 @@ type Review struct {
 	ctx      *context
 	keys     reviewKeys
 	file     *decision.File
-	path     string
+	path     string // as shown
+	saveTo   string // where w writes: path, except in tests
 	selected int
 
 	strip    Strip
@@ -106,7 +107,7 @@ func NewReview(cfg ReviewConfig) Review {
 	}
 	working := *cfg.File
 	working.Candidates = append([]decision.Candidate(nil), cfg.File.Candidates...)
-	r := Review{ctx: ctx, keys: newReviewKeys(ctx.keys), file: &working, path: cfg.Path, note: newTextField(noteLimit), noteFor: -1}
+	r := Review{ctx: ctx, keys: newReviewKeys(ctx.keys), file: &working, path: cfg.Path, saveTo: cfg.Path, note: newTextField(noteLimit), noteFor: -1}
 	r.strip = NewStrip(ctx.styles, r.keys.KeyMap)
 	r.selected = r.chosen()
 	r.refresh()
@@ -289,12 +290,12 @@ func (r Review) overlayKey(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 func (r Review) write(force bool) tea.Cmd {
 	f := *r.file
 	f.Candidates = append([]decision.Candidate(nil), r.file.Candidates...)
-	path := r.path
+	path, shown := r.saveTo, r.path
 	return func() tea.Msg {
 		if err := decision.Write(path, &f, force); err != nil {
 			return reviewWriteFailedMsg{err}
 		}
-		return reviewWrittenMsg{path}
+		return reviewWrittenMsg{shown}
 	}
 }
 
@@ -318,20 +319,20 @@ type reviewLayout struct {
 const notesLines = 3
 
 // layoutReview places the parts in a width×height terminal: the header on
-// top, the strip with every figure it has room for, the notes pane below
-// it and the key hints at the bottom. The strip takes what the notes leave
-// and never more than it needs (stripLines of content).
+// top, the strip with every figure it has room for (stripLines of content
+// at most), the notes pane in the rest and the key hints at the bottom.
+// The notes pane gets at least notesLines of content; the strip gives way
+// first, dropping detail rows.
 func layoutReview(width, height, stripLines int, frame frameSize) reviewLayout {
 	if width < reviewMinWidth || height < reviewMinHeight {
 		return reviewLayout{tooSmall: true}
 	}
-	notesH := notesLines + frame.H
-	room := height - 2 - 1 - notesH
-	stripH := min(room, stripLines+frame.H)
+	body := height - 2 - 1
+	stripH := min(body-(notesLines+frame.H), stripLines+frame.H)
 	return reviewLayout{
 		header: rect{0, 0, width, 2},
 		strip:  rect{0, 2, width, stripH},
-		notes:  rect{0, 2 + stripH, width, notesH},
+		notes:  rect{0, 2 + stripH, width, body - stripH},
 		footer: rect{0, height - 1, width, 1},
 	}
 }
@@ -358,11 +359,7 @@ func (r Review) View() string {
 		notice := fmt.Sprintf("sill review needs a terminal of at least %d×%d;\nthis one is %d×%d.\nEnlarge it, or press q to quit.", reviewMinWidth, reviewMinHeight, w, h)
 		return lipgloss.Place(w, h, lipgloss.Center, lipgloss.Center, notice)
 	}
-	parts := []string{r.header(w), r.strip.View(true), r.notesView(l.notes), r.footer(w)}
-	if gap := l.footer.Y - (l.notes.Y + l.notes.H); gap > 0 {
-		parts = append(parts[:3], strings.Repeat("\n", gap-1), parts[3])
-	}
-	frame := strings.Join(parts, "\n")
+	frame := strings.Join([]string{r.header(w), r.strip.View(true), r.notesView(l.notes), r.footer(w)}, "\n")
 	if len(r.overlays) > 0 {
 		frame = overlay(frame, r.overlayView(), w, h)
 	}
@@ -378,7 +375,7 @@ func (r Review) header(width int) string {
 		left += " (changed)"
 	}
 	right := fmt.Sprintf("chosen on %s · %s rows · %s true", d.Path, report.Count(float64(d.Rows)), report.Count(d.Positives))
-	rightW := min(ansi.StringWidth(right), width/2)
+	rightW := max(min(ansi.StringWidth(right), width-ansi.StringWidth(left)-2), width/3)
 	first := st.Header.Render(fitLine(left, width-rightW-2)) + "  " + st.Muted.Render(fitLine(right, rightW))
 	parts := []string{"base rate " + report.Percent(a.BaseRate)}
 	if a.Volume > 0 {
@@ -405,18 +402,24 @@ func (r Review) notesView(at rect) string {
 	if f.Data.LowerIsRiskier {
 		sign = "<="
 	}
-	text := func(note string) string {
-		if note == "" {
-			return st.Muted.Render("none")
+	innerW := at.W - st.Pane.GetHorizontalFrameSize()
+	// note wraps a labelled note to the pane's width.
+	note := func(label, text string) []string {
+		if text == "" {
+			return []string{st.Label.Render(label) + st.Muted.Render("none")}
 		}
-		return note
+		wrapped := wrapWords(label+text, innerW)
+		wrapped[0] = st.Label.Render(label) + strings.TrimPrefix(wrapped[0], label)
+		return wrapped
 	}
-	lines := []string{
-		st.Label.Render("note on "+selected.Name+": ") + text(selected.Note),
-		st.Label.Render("file note: ") + text(f.Note),
-		st.Muted.Render(fmt.Sprintf("deployment reads: flag a case when its score %s %s (%s) · file written %s by sill %s",
-			sign, report.Score(chosen.Cut.Score), chosen.Name, f.Created.UTC().Format("2006-01-02 15:04"), f.ToolVersion)),
+	deploy := st.Muted.Render(fmt.Sprintf("deployment reads: flag a case when its score %s %s (%s) · file written %s by sill %s",
+		sign, report.Score(chosen.Cut.Score), chosen.Name, f.Created.UTC().Format("2006-01-02 15:04"), f.ToolVersion))
+	lines := append(note("note on "+selected.Name+": ", selected.Note), note("file note: ", f.Note)...)
+	innerH := at.H - st.Pane.GetVerticalFrameSize()
+	if len(lines) >= innerH {
+		lines = lines[:max(innerH-1, 0)]
 	}
+	lines = append(lines, deploy)
 	return framed(st.Pane, st.PaneEdge, st.Title, "notes", strings.Join(lines, "\n"), at.W, at.H)
 }
 

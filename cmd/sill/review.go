@@ -7,11 +7,15 @@ import (
 	"os"
 	"strings"
 
+	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/lipgloss"
+	"github.com/muesli/termenv"
 	"github.com/spf13/cobra"
 
 	"github.com/sill-tool/sill/internal/compare"
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/report"
+	"github.com/sill-tool/sill/tui"
 )
 
 func newReviewCmd() *cobra.Command {
@@ -266,7 +270,23 @@ func mdText(s string) string {
 	return strings.NewReplacer("|", `\|`, "*", `\*`, "_", `\_`, "`", "\\`", "\n", " ").Replace(s)
 }
 
-// runReviewScreen is set in review_screen.go.
-var runReviewScreen = func(file *decision.File, path string) error {
-	return fmt.Errorf("the review screen is not built yet; use --format text or markdown")
+// runReviewScreen opens the review screen on file until the user quits.
+func runReviewScreen(file *decision.File, path string) error {
+	renderer := lipgloss.NewRenderer(os.Stdout)
+	if os.Getenv("NO_COLOR") != "" {
+		renderer.SetColorProfile(termenv.Ascii)
+	}
+	styles := tui.DefaultStyles(renderer)
+	final, err := tea.NewProgram(tui.NewReview(tui.ReviewConfig{File: file, Path: path, Styles: &styles}), tea.WithAltScreen()).Run()
+	if err != nil {
+		return fmt.Errorf("review: %w", err)
+	}
+	r := final.(tui.Review)
+	switch {
+	case r.Written() && !r.Changed():
+		fmt.Fprintf(os.Stderr, "sill: wrote %s; chosen %s\n", path, r.File().Chosen)
+	case r.Changed():
+		fmt.Fprintf(os.Stderr, "sill: %s left as it was; the changes on screen were not written\n", path)
+	}
+	return nil
 }
