@@ -62,11 +62,13 @@ func TestProjectPredictiveValues(t *testing.T) {
 			note:     "about 0.445",
 		},
 		{
-			// A common teaching illustration of clinical epidemiology (for
-			// example the chapter on diagnosis in Fletcher, Fletcher and
-			// Fletcher, "Clinical Epidemiology: The Essentials"; from
-			// memory, no page checked): sensitivity 0.9 and specificity 0.9
-			// at prevalence 1% give a PPV of only about 8%. By hand:
+			// A common teaching illustration of how the predictive value
+			// depends on prevalence, the subject of the chapter on diagnosis
+			// in Fletcher RH, Fletcher SW, Fletcher GS (2014), "Clinical
+			// Epidemiology: The Essentials", 5th ed. (from memory; we do not
+			// claim these exact numbers are printed there): sensitivity 0.9
+			// and specificity 0.9 at prevalence 1% give a PPV of only about
+			// 8%. The value is our own hand computation:
 			// 0.9*0.01 / (0.9*0.01 + 0.1*0.99) = 0.009 / 0.108 = 1/12
 			// = 0.0833.
 			name:     "sensitivity 0.9, specificity 0.9, prevalence 1%",
