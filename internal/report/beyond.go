@@ -366,7 +366,7 @@ func (r *Report) AddStability(res bootstrap.Result) {
 		if s.Rule.Kind == cutrule.Cost && r.Calibration != nil && evidence.Defined(float64(r.Calibration.CostThreshold)) && evidence.Defined(s.Score[0]) {
 			if ct := float64(r.Calibration.CostThreshold); ct < s.Score[0] || ct > s.Score[1] {
 				r.Warnings = append(r.Warnings, fmt.Sprintf("the cost threshold that calibrated probabilities imply (%s) lies outside the range where the least-cost cut lands in resampled sets (%s to %s): the scores are probably not calibrated, so do not read them as probabilities for costing",
-					Fixed(ct, 3), Score(s.Score[0]), Score(s.Score[1])))
+					Fixed(ct, 3), significant(s.Score[0]), significant(s.Score[1])))
 			}
 		}
 	}
