@@ -104,7 +104,10 @@ func (p figuresPane) body() string {
 		st.Muted.Render(conf+" "+report.Range(e.FalseDiscoveryCI)))
 	reading := Reading(e.FalseDiscoveryRate)
 	if s.baseRateChanged() {
-		reading += " · in production " + report.Percent(e.Projected.FalseDiscoveryRate())
+		// What the desk will see is the share at production's base rate.
+		production := e.Projected.FalseDiscoveryRate()
+		short := strings.NewReplacer(" alerts are wrong", " wrong", " alerts is wrong", " wrong", " alerts is right", " right").Replace(Reading(production))
+		reading = "in production " + report.Percent(production) + " (" + short + ")"
 	}
 	add("  %s", st.Muted.Render(reading))
 	add("%s %s %s", st.Label.Render("false positive rate"), report.Percent(e.FalsePositiveRate),

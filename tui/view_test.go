@@ -38,6 +38,7 @@ func TestView(t *testing.T) {
 		{name: "two-pins-strip-80x24", width: 80, height: 24, keys: []string{"2", "p", "4", "p", "tab"}},
 		{name: "two-pins-strip-120x44", width: 120, height: 44, keys: []string{"2", "p", "4", "p"}},
 		{name: "form-bad-value-80x24", width: 80, height: 24, keys: []string{"a", "tab", "ctrl+u"}, text: "-40", after: []string{"enter"}},
+		{name: "base-rate-5pct-80x24", width: 80, height: 24, keys: []string{"5", "a", "ctrl+u"}, text: "5%", after: []string{"enter"}},
 		{name: "help-80x24", width: 80, height: 24, keys: []string{"?"}},
 		{name: "help-80x22", width: 80, height: 22, keys: []string{"?"}},
 		{name: "minimum-80x22", width: 80, height: 22},
