@@ -7,6 +7,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/sill-tool/sill/internal/bootstrap"
 	"github.com/sill-tool/sill/internal/calibration"
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
@@ -152,5 +153,35 @@ func TestComparisonWithoutTest(t *testing.T) {
 	second := out["cuts"].([]any)[0].(map[string]any)["second_model"].(map[string]any)
 	if second["met"] != true || second["score"] != 0.8 {
 		t.Errorf("second model %v", second)
+	}
+}
+
+// TestStabilityWarnsOnCostThreshold: a cost threshold (1/(1+4) = 0.2)
+// outside the least-cost cut's bootstrap range (0.5 to 0.8) warns; one
+// inside does not.
+func TestStabilityWarnsOnCostThreshold(t *testing.T) {
+	for _, c := range []struct {
+		lo, hi float64
+		warns  bool
+	}{{0.5, 0.8, true}, {0.1, 0.8, false}} {
+		// The cut is score=0.8 (the helper has no costs); the spread is
+		// labelled as the cost rule's, which is what the warning looks at.
+		r, set, outcomes, a := beyondReport(t, "score=0.8")
+		a.Costs = &projection.Costs{FalseAlert: 1, Miss: 4}
+		if err := r.AddCalibration(set, outcomes, 2, calibration.FixedWidth, a); err != nil {
+			t.Fatal(err)
+		}
+		before := len(r.Warnings)
+		r.AddStability(bootstrap.Result{Replicates: 10, Seed: 3, Spreads: []bootstrap.Spread{{
+			Rule: cutrule.Rule{Kind: cutrule.Cost}, Met: 10, Score: [2]float64{c.lo, c.hi},
+			FlaggedShare: [2]float64{0.2, 0.3}, Recall: [2]float64{0.5, 0.7},
+		}}})
+		if warned := len(r.Warnings) > before; warned != c.warns {
+			t.Errorf("range %v-%v: warned %v, want %v (%v)", c.lo, c.hi, warned, c.warns, r.Warnings)
+		}
+		st := decode(t, r)["cuts"].([]any)[0].(map[string]any)["stability"].(map[string]any)
+		if st["score_p05"] != c.lo || st["flagged_share_p95"] != 0.3 || st["met_in"] != 10.0 {
+			t.Errorf("stability %v", st)
+		}
 	}
 }
