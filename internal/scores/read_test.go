@@ -614,3 +614,15 @@ func equalAny(a, b any) bool {
 	}
 	panic("equalAny: unsupported type")
 }
+
+// TestReadProgress checks that Progress hears the final number of rows.
+func TestReadProgress(t *testing.T) {
+	var seen []int
+	set, err := scores.Read(strings.NewReader("score,label\n0.1,1\n0.2,0\nx,1\n"), "f.csv", scores.Options{DropInvalid: true, Progress: func(rows int) { seen = append(seen, rows) }})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(seen) == 0 || seen[len(seen)-1] != set.Len() || set.Len() != 2 {
+		t.Errorf("progress %v for %d rows, want it to end at 2", seen, set.Len())
+	}
+}
