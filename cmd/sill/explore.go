@@ -41,6 +41,9 @@ candidates and the assumptions to --out; ? lists every key.`,
 			if path == "-" {
 				return fmt.Errorf("explore takes its keys from the terminal, so it cannot read scores from standard input; save them to a file first")
 			}
+			if !isTerminal() || cmd.OutOrStdout() != os.Stdout {
+				return fmt.Errorf("explore needs a terminal on standard input and output; for printed figures use: sill report %s", path)
+			}
 			load := func(progress func(int)) (*scores.Set, error) {
 				return o.input.load(path, nil, progress)
 			}
