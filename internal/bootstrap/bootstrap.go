@@ -420,3 +420,31 @@ func Describe(s Spread, replicates int) string {
 	}
 	return fmt.Sprintf("unsteady: the %s varies by a factor of %.2f between the 5th and 95th percentile", what, ratio)
 }
+
+// BandAt returns the band point nearest to cut number cut of the set's
+// curve: the band cut at the same place or, between two, the stricter
+// one, whose figures hold at least as strict a cut. It reports false when
+// the result has no band.
+func (r Result) BandAt(cut int) (BandPoint, bool) {
+	if len(r.Band) == 0 {
+		return BandPoint{}, false
+	}
+	i := sort.Search(len(r.Band), func(k int) bool { return r.Band[k].Cut > cut })
+	if i == 0 {
+		return r.Band[0], true
+	}
+	return r.Band[i-1], true
+}
+
+// DescribeBand says in plain words how wide the uncertainty is at a band
+// point: the 5th to 95th percentile of the hit share and of the
+// wrong-alert share across the resampled sets, as percentages.
+func DescribeBand(p BandPoint) string {
+	within := func(name string, v [2]float64) string {
+		if math.IsNaN(v[0]) || math.IsNaN(v[1]) {
+			return "the " + name + " is undefined"
+		}
+		return fmt.Sprintf("the %s lies within %.1f–%.1f%%", name, 100*v[0], 100*v[1])
+	}
+	return "in 9 resampled sets of 10 " + within("hit share", p.Recall) + " and " + within("wrong-alert share", p.FalseDiscoveryRate)
+}

@@ -261,3 +261,20 @@ func TestQueue90Skipped(t *testing.T) {
 		t.Errorf("spreads %+v", res.Spreads)
 	}
 }
+
+// TestBandAt: the band point at or just stricter than a cut, by hand.
+func TestBandAt(t *testing.T) {
+	res := bootstrap.Result{Band: []bootstrap.BandPoint{{Cut: 2}, {Cut: 5}, {Cut: 9}}}
+	for cut, want := range map[int]int{0: 2, 2: 2, 3: 2, 5: 5, 8: 5, 9: 9, 40: 9} {
+		if p, ok := res.BandAt(cut); !ok || p.Cut != want {
+			t.Errorf("cut %d: band cut %d, want %d", cut, p.Cut, want)
+		}
+	}
+	if _, ok := (bootstrap.Result{}).BandAt(3); ok {
+		t.Error("no band, yet a point")
+	}
+	got := bootstrap.DescribeBand(bootstrap.BandPoint{Recall: [2]float64{0.762, 0.825}, FalseDiscoveryRate: [2]float64{math.NaN(), math.NaN()}})
+	if want := "in 9 resampled sets of 10 the hit share lies within 76.2–82.5% and the wrong-alert share is undefined"; got != want {
+		t.Errorf("%q", got)
+	}
+}
