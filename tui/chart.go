@@ -48,6 +48,7 @@ type paintedChart struct {
 	key    chartKey
 	x      int
 	beyond bool
+	pins   string // the pins' columns, as a key
 	text   string
 }
 
@@ -101,16 +102,23 @@ func (p *curvePane) View() string {
 		p.draw(innerW, innerH-1)
 		p.cacheKey = key
 	}
-	x, beyond := p.markerX()
-	if p.painted.key != key || p.painted.x != x || p.painted.beyond != beyond {
+	x, beyond := p.markerX(p.s.point())
+	pins := make([]int, 0, len(p.s.pins))
+	for _, pin := range p.s.pins {
+		if px, out := p.markerX(p.s.curve.At(pin.cut)); !out {
+			pins = append(pins, px)
+		}
+	}
+	pinsKey := fmt.Sprint(pins)
+	if p.painted.key != key || p.painted.x != x || p.painted.beyond != beyond || p.painted.pins != pinsKey {
 		var b strings.Builder
 		for i, line := range p.cacheLines {
 			if i > 0 {
 				b.WriteString("\n")
 			}
-			b.WriteString(p.paint(line, i, x))
+			b.WriteString(p.paint(line, i, x, pins))
 		}
-		*p.painted = paintedChart{key: key, x: x, beyond: beyond, text: b.String()}
+		*p.painted = paintedChart{key: key, x: x, beyond: beyond, pins: pinsKey, text: b.String()}
 	}
 	point := p.s.point()
 	where := fmt.Sprintf("┃ this cut: %s flagged", report.Percent(point.FlaggedShare()))
@@ -120,18 +128,20 @@ func (p *curvePane) View() string {
 	if beyond {
 		where += " (beyond the right edge →)"
 	}
+	if len(p.s.pins) > 0 && p.plotRows < len(p.cacheLines) {
+		where += " · ◇ pinned"
+	}
 	body := st.Muted.Render(where) + "\n" + p.painted.text
 	return framed(st.Pane, st.PaneEdge, st.Title, p.title(), body, p.width, p.height)
 }
 
-// markerX is the data column of the cursor's cut, and whether the cut lies
-// beyond the plotted range (then the mark sits at the right edge).
-func (p *curvePane) markerX() (int, bool) {
+// markerX is the data column of a cut's point, and whether the cut lies
+// beyond the plotted range (then the column is the right edge).
+func (p *curvePane) markerX(point curve.Point) (int, bool) {
 	width := len(p.cacheLines[0]) - p.plotLeft
 	if width <= 0 {
 		return -1, false
 	}
-	point := p.s.point()
 	v := point.FlaggedShare()
 	if p.view == viewROC {
 		v = point.FalsePositiveRate()
@@ -146,11 +156,19 @@ func (p *curvePane) markerX() (int, bool) {
 	return x, false
 }
 
-// paint draws one cached line with the mark at data column x, and styles
-// each run of characters by what it shows.
-func (p *curvePane) paint(line []rune, row, x int) string {
+// paint draws one cached line with the cursor's mark at data column x and
+// the pins' marks on the x axis, and styles each run of characters by what
+// it shows.
+func (p *curvePane) paint(line []rune, row, x int, pins []int) string {
 	st := p.ctx.styles
 	cells := append([]rune(nil), line...)
+	if row == p.plotRows {
+		for _, px := range pins {
+			if c := p.plotLeft + px; c < len(cells) {
+				cells[c] = '◇'
+			}
+		}
+	}
 	if x >= 0 && p.plotLeft+x < len(cells) {
 		c := p.plotLeft + x
 		switch {
@@ -186,7 +204,7 @@ func (p *curvePane) paint(line []rune, row, x int) string {
 			kind = 4
 		case r == '·':
 			kind = 2
-		case r == '┃' || r == '▲':
+		case r == '┃' || r == '▲' || r == '◇':
 			kind = 3
 		case r != ' ':
 			kind = 1
