@@ -63,6 +63,9 @@ decision file.`,
 				return err
 			}
 			fs := cmd.Flags()
+			if len(input.scoreColumns) > 1 {
+				return fmt.Errorf("--score given %d times: check applies the file's cut to one score column", len(input.scoreColumns))
+			}
 			if fs.Changed("lower-is-riskier") && input.opt.LowerIsRiskier != file.Data.LowerIsRiskier {
 				return fmt.Errorf("--lower-is-riskier=%v contradicts %s, whose cut was chosen with lower_is_riskier: %v", input.opt.LowerIsRiskier, args[0], file.Data.LowerIsRiskier)
 			}

@@ -36,7 +36,7 @@ func TestCheck(t *testing.T) {
 		{"a fresh draw without labels", bearingsCSV(3, 4000, 0.07, 0, false), nil, 0, "ok", 0.1, -1, "no label column"},
 		{"base rate tripled", bearingsCSV(4, 4000, 0.21, 0, true), nil, 1, "drift", 10, -1, "alert rate drifted"},
 		{"scores shifted", bearingsCSV(5, 4000, 0.07, 0.8, false), nil, 1, "drift", 10, 0.25, "score distribution drifted"},
-		{"base rate up a little, within tolerance", bearingsCSV(6, 4000, 0.085, 0, false), []string{"--tolerance", "0.05"}, 0, "ok", 0.1, -1, ""},
+		{"base rate up a little within tolerance", bearingsCSV(6, 4000, 0.085, 0, false), []string{"--tolerance", "0.05"}, 0, "ok", 0.1, -1, ""},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			path := validation
@@ -78,6 +78,7 @@ func TestCheck(t *testing.T) {
 			if text.code != tc.code || !strings.Contains(text.stdout, "status: "+tc.status) {
 				t.Errorf("text: exit %d, output %s", text.code, text.stdout)
 			}
+			checkGolden(t, strings.ReplaceAll(tc.name, " ", "-")+"-text", strings.ReplaceAll(text.stdout, dir+string(filepath.Separator), ""))
 		})
 	}
 }

@@ -54,6 +54,7 @@ type Result struct {
 	Rows           int     // new rows, zero-weight rows included
 	Weight         float64 // total weight of the new rows
 	Flagged        float64 // weight the cut flags
+	Weighted       bool    // the new set has a weight column
 	Labelled       bool
 	Tolerance      float64
 	Confidence     float64 // of the observed shares' intervals, from the file
@@ -82,7 +83,7 @@ func Check(f *decision.File, set *scores.Set, opt Options) (*Result, error) {
 	if !ok {
 		return nil, fmt.Errorf("%w (%q)", ErrNoCandidate, f.Chosen)
 	}
-	counts := tally{rows: set.Len()}
+	counts := tally{rows: set.Len(), weighted: set.Weighted()}
 	for i, s := range set.Scores {
 		w := set.Weight(i)
 		flagged := s >= chosen.Cut.Score
@@ -113,6 +114,7 @@ func Check(f *decision.File, set *scores.Set, opt Options) (*Result, error) {
 // their histogram on the file's bins (nil without one).
 type tally struct {
 	rows                           int
+	weighted                       bool
 	weight, flagged, positives, tp float64
 	bins                           []float64
 }
@@ -122,7 +124,7 @@ func check(f *decision.File, chosen decision.Candidate, t tally, opt Options) *R
 	a := f.Assumptions
 	res := &Result{
 		Chosen: chosen.Name, Cut: chosen.Cut.Score, LowerIsRiskier: f.Data.LowerIsRiskier,
-		Rows: t.rows, Weight: t.weight, Flagged: t.flagged, Labelled: opt.Labelled, Tolerance: opt.Tolerance, Confidence: a.Confidence,
+		Rows: t.rows, Weight: t.weight, Flagged: t.flagged, Weighted: t.weighted, Labelled: opt.Labelled, Tolerance: opt.Tolerance, Confidence: a.Confidence,
 		PSI: math.NaN(), PSINoise: math.NaN(),
 	}
 	tp, positives := t.tp, t.positives

@@ -128,12 +128,16 @@ func WriteText(w io.Writer, r *Result, decisionFile, scoresFile string) error {
 	}
 	fmt.Fprintf(&b, "Check of %s against %s\n", scoresFile, decisionFile)
 	fmt.Fprintf(&b, "chosen cut   %s: flag when score %s %s\n", r.Chosen, sign, strconv.FormatFloat(r.Cut, 'g', -1, 64))
-	fmt.Fprintf(&b, "new data     %s rows, %s; the cut flags %s (weighted)\n", count(float64(r.Rows)), labels, count(r.Flagged))
+	flagged := count(r.Flagged) + " of them"
+	if r.Weighted {
+		flagged = count(r.Flagged) + " of weight " + count(r.Weight)
+	}
+	fmt.Fprintf(&b, "new data     %s rows, %s; the cut flags %s\n", count(float64(r.Rows)), labels, flagged)
 	tolerance := "none"
 	if r.Tolerance > 0 {
 		tolerance = points(r.Tolerance) + " points"
 	}
-	fmt.Fprintf(&b, "tests        two-sample z tests at the %g%% level (noise alone trips one about once in %d runs); tolerance %s\n\n",
+	fmt.Fprintf(&b, "tests        two-sample z tests at the %g%% level (on noise alone each trips about once in %d runs); tolerance %s\n\n",
 		100*Level, int(math.Round(1/Level)), tolerance)
 
 	rows := [][]string{{"check", "observed", "interval", "expected", "difference", "p-value", "verdict"}}
@@ -171,9 +175,12 @@ func WriteText(w io.Writer, r *Result, decisionFile, scoresFile string) error {
 	fmt.Fprintf(&b, "\nPSI bands (common practice): below %v stable, %v to %v moderate, above %v large; only large counts as drift.\n",
 		PSIModerate, PSIModerate, PSILarge, PSILarge)
 	if r.Drift {
-		b.WriteString("\nstatus: drift - production no longer behaves like the validation set in:\n")
+		b.WriteString("\nstatus: drift - production no longer behaves like the validation set\n")
 	} else {
 		b.WriteString("\nstatus: ok - production still behaves like the validation set on these checks\n")
+	}
+	if len(r.Findings) > 0 {
+		b.WriteString("findings:\n")
 	}
 	for _, f := range r.Findings {
 		b.WriteString("  - " + f + "\n")
