@@ -8,7 +8,9 @@
 // clock, so a shift that crosses midnight belongs to the day it starts,
 // and a shift that spans a daylight-saving change is an hour longer or
 // shorter in real time. Every shift from the one holding the earliest case
-// to the one holding the latest counts, including shifts with no cases.
+// to the one holding the latest counts, including shifts with no cases;
+// the first and the last shift are usually covered only in part, which
+// over a period of many shifts matters little.
 //
 // Which cases a cut flags follows the cut rule in the doc of package
 // scores: the flagged cases of a cut are the first rows of the ranked set.
