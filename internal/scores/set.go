@@ -64,6 +64,9 @@ func New(scores []float64, labels []bool, weights []float64, lowerIsRiskier bool
 		if math.IsNaN(s) || math.IsInf(s, 0) {
 			return nil, fmt.Errorf("row %d: %w %v, expected a finite number", i+1, ErrBadScore, s)
 		}
+		if s == 0 {
+			scores[i] = 0 // fold -0 into +0, as the reader does
+		}
 		if weights != nil {
 			if w := weights[i]; w < 0 || math.IsNaN(w) || math.IsInf(w, 0) {
 				return nil, fmt.Errorf("row %d: %w %v, expected a finite number >= 0", i+1, ErrBadWeight, w)
