@@ -113,6 +113,7 @@ type Model struct {
 	status    string
 	written   string // the path last written, "" before any write
 	unwritten bool   // candidates or assumptions changed since the last write
+	tableSig  string // what the strip's table was built from
 
 	list    listPane
 	chart   curvePane
@@ -516,7 +517,12 @@ func (m *Model) refresh() {
 	}
 	m.strip.keys = *k
 	if s.curve != nil {
-		m.strip.SetTable(s.table())
+		// Rebuild the comparison only when what it shows has changed; a
+		// new selection alone only moves the strip's mark.
+		if sig := s.tableSignature(); sig != m.tableSig {
+			m.strip.SetTable(s.table())
+			m.tableSig = sig
+		}
 		m.strip.SetSelected(s.selected)
 	}
 	m.resize()

@@ -152,6 +152,16 @@ func (s *session) rename(name string) error {
 	return nil
 }
 
+// tableSignature is a key of everything table depends on.
+func (s *session) tableSignature() string {
+	a := s.assume
+	costs := "none"
+	if a.Costs != nil {
+		costs = fmt.Sprint(*a.Costs)
+	}
+	return fmt.Sprint(s.pins, s.reference, a.BaseRate, a.Volume, a.Capacity, a.Confidence, costs)
+}
+
 // table returns the comparison of the pinned candidates.
 func (s *session) table() compare.Table {
 	columns := make([]compare.Column, len(s.pins))
