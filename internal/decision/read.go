@@ -46,7 +46,9 @@ func ReadFile(path string) (*File, error) {
 //
 // The keys the issue of the format lists are required; candidates[].rule,
 // candidates[].note and note may be absent (read as null). The keys this
-// package adds are optional and derived when absent: data.negatives
+// package adds are optional. chosen_score, a copy of the chosen
+// candidate's score for deployment configs, must agree with it when
+// present. The others are derived when absent: data.negatives
 // (NaN), data.weight_column (""), validation.rows (flagged, rounded),
 // validation.flagged_share, validation.false_discovery_rate and
 // validation.false_discovery_ci (from precision) and
@@ -383,7 +385,7 @@ func (r *reader) file_(doc *yaml.Node) *File {
 	} else if m != nil {
 		r.fail(m, "", fmt.Errorf("%w: expected a mapping of keys, found %s; not a decision file (format: %s)", ErrType, describe(m), Format))
 	}
-	top := r.fields(root, "", []string{"format", "created", "tool_version", "data", "assumptions", "chosen", "candidates", "caution"}, []string{"note"})
+	top := r.fields(root, "", []string{"format", "created", "tool_version", "data", "assumptions", "chosen", "candidates", "caution"}, []string{"note", "chosen_score"})
 	created := deref(top["created"])
 	if r.err == nil {
 		var err error
@@ -409,6 +411,16 @@ func (r *reader) file_(doc *yaml.Node) *File {
 	}
 	f.Note = r.optionalStr(top["note"], "note")
 	f.Caution = r.str(top["caution"], "caution")
+	if node, ok := top["chosen_score"]; ok && r.err == nil {
+		// A copy for deployment configs; it must agree with the candidate,
+		// so that a hand edit of one without the other is caught.
+		score := r.number(node, "chosen_score", false)
+		for i, c := range f.Candidates {
+			if r.err == nil && c.Name == f.Chosen && c.Cut.Score != score {
+				r.fail(deref(node), "chosen_score", fmt.Errorf("%w: %v, but the chosen candidate %q (candidates[%d]) has score %v; make them agree", ErrInvalid, score, c.Name, i, c.Cut.Score))
+			}
+		}
+	}
 	return f
 }
 

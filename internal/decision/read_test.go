@@ -47,11 +47,11 @@ func TestReadRejectsBrokenKeys(t *testing.T) {
 		{"rows as text", replaceNth(t, text, `rows: 2000`, 0, `rows: "2000"`), ErrType, "data.rows"},
 		{"rows fractional", replaceNth(t, text, `rows: 2000`, 0, `rows: 2000.5`), ErrType, "data.rows"},
 		{"bool not bool", replaceNth(t, text, `lower_is_riskier: false`, 0, `lower_is_riskier: maybe`), ErrType, "data.lower_is_riskier"},
-		{"score nan", replaceNth(t, text, `score: [0-9.]+`, 1, `score: .nan`), ErrNotFinite, "candidates[1].score"},
-		{"score inf", replaceNth(t, text, `score: [0-9.]+`, 0, `score: -.inf`), ErrNotFinite, "candidates[0].score"},
-		{"score null", replaceNth(t, text, `score: [0-9.]+`, 0, `score: null`), ErrNotFinite, "candidates[0].score"},
-		{"score text", replaceNth(t, text, `score: [0-9.]+`, 0, `score: high`), ErrType, "candidates[0].score"},
-		{"score list", replaceNth(t, text, `score: [0-9.]+`, 0, `score: [0.5]`), ErrType, "candidates[0].score"},
+		{"score nan", replaceNth(t, text, `\n    score: [0-9.]+`, 1, "\n    score: .nan"), ErrNotFinite, "candidates[1].score"},
+		{"score inf", replaceNth(t, text, `\n    score: [0-9.]+`, 0, "\n    score: -.inf"), ErrNotFinite, "candidates[0].score"},
+		{"score null", replaceNth(t, text, `\n    score: [0-9.]+`, 0, "\n    score: null"), ErrNotFinite, "candidates[0].score"},
+		{"score text", replaceNth(t, text, `\n    score: [0-9.]+`, 0, "\n    score: high"), ErrType, "candidates[0].score"},
+		{"score list", replaceNth(t, text, `\n    score: [0-9.]+`, 0, "\n    score: [0.5]"), ErrType, "candidates[0].score"},
 		{"chosen names none", replaceNth(t, text, `chosen: "base"`, 0, `chosen: "hit=0.9"`), ErrUnknownChosen, "chosen"},
 		{"no candidates", replaceNth(t, text, `(?s)candidates:\n.*?\nnote:`, 0, "candidates: []\nnote:"), ErrInvalid, "candidates"},
 		{"candidates not a list", replaceNth(t, text, `(?s)candidates:\n.*?\nnote:`, 0, "candidates: base\nnote:"), ErrType, "candidates"},
@@ -69,6 +69,9 @@ func TestReadRejectsBrokenKeys(t *testing.T) {
 		{"edges unordered", replaceNth(t, text, `edges: \[0, `, 0, `edges: [0.5, `), ErrInvalid, "data.score_histogram.edges[1]"},
 		{"edge nan", replaceNth(t, text, `edges: \[0, `, 0, `edges: [.nan, `), ErrNotFinite, "data.score_histogram.edges[0]"},
 		{"counts short", replaceNth(t, text, `counts: \[\d+, `, 0, `counts: [`), ErrInvalid, "data.score_histogram.edges"},
+		{"chosen score disagrees", replaceNth(t, text, `chosen_score: [0-9.]+`, 0, `chosen_score: 0.5`), ErrInvalid, "chosen_score"},
+		{"chosen moved, score not", replaceNth(t, text, `chosen: "base"`, 0, `chosen: "hit=0.8"`), ErrInvalid, "chosen_score"},
+		{"chosen score text", replaceNth(t, text, `chosen_score: [0-9.]+`, 0, `chosen_score: "0.5"`), ErrType, "chosen_score"},
 		{"duplicate key", replaceNth(t, text, `\nnote:`, 0, "\ncaution: again\nnote:"), ErrInvalid, "caution"},
 		{"not a mapping", "- format\n- sill-cut/1\n", ErrType, ""},
 		{"empty", "", ErrSyntax, ""},
@@ -123,7 +126,7 @@ func TestReadOptionalKeysDerived(t *testing.T) {
 	valid, _ := Marshal(f)
 	text := string(valid)
 	text = regexp.MustCompile(`\n      rows: [^\n]*`).ReplaceAllString(text, "") // validation.rows, not data.rows
-	for _, key := range []string{"flagged_share", "false_discovery_rate", "false_discovery_ci", "cost_per_case", "negatives", "weight_column", "note", "rule"} {
+	for _, key := range []string{"chosen_score", "flagged_share", "false_discovery_rate", "false_discovery_ci", "cost_per_case", "negatives", "weight_column", "note", "rule"} {
 		text = regexp.MustCompile(`\n *`+key+`: [^\n]*`).ReplaceAllString(text, "")
 	}
 	if strings.Contains(text, "flagged_share") || strings.Contains(text, "rule:") {

@@ -105,6 +105,7 @@ func Marshal(f *File) ([]byte, error) {
 			"confidence", num(a.Confidence),
 		),
 		"chosen", quoted(f.Chosen),
+		"chosen_score", chosenScore(f),
 		"candidates", cand,
 		"note", optionalStr(f.Note),
 		"caution", str(f.Caution),
@@ -121,6 +122,18 @@ func Marshal(f *File) ([]byte, error) {
 		return nil, fmt.Errorf("encode: %w", err)
 	}
 	return buf.Bytes(), nil
+}
+
+// chosenScore is the chosen candidate's score, repeated at the top for
+// deployment configs that read one key.
+func chosenScore(f *File) *yaml.Node {
+	c, ok := f.ChosenCandidate()
+	if !ok {
+		return null()
+	}
+	n := num(c.Cut.Score)
+	n.LineComment = "the chosen candidate's score: flag when score " + flagSign(f.Data.LowerIsRiskier) + " this"
+	return n
 }
 
 func flagSign(lowerIsRiskier bool) string {

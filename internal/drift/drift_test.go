@@ -3,6 +3,7 @@ package drift
 import (
 	"bytes"
 	"encoding/json"
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"strings"
@@ -382,4 +383,11 @@ func TestFalseAlarmRateEndToEnd(t *testing.T) {
 			t.Errorf("%s drifted in %d of %d replicates, want at most 11 (about 1%%)", name, n, replicates)
 		}
 	}
+}
+
+func ExamplePopulationStability() {
+	// Validation shares 25% in each of four bins; production 40/30/20/10.
+	psi := PopulationStability([]float64{25, 25, 25, 25}, []float64{40, 30, 20, 10})
+	fmt.Printf("PSI %.3f\n", psi)
+	// Output: PSI 0.228
 }
