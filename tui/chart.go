@@ -200,17 +200,14 @@ func (p *curvePane) paint(line []rune, row, x int, pins []int) string {
 	for i, r := range cells {
 		kind := 0
 		switch {
+		case i >= p.plotLeft && (r == '┃' || r == '▲' || r == '◇'):
+			kind = 3
 		case i < p.plotLeft || row >= p.plotRows:
 			kind = 4
 		case r == '·':
 			kind = 2
-		case r == '┃' || r == '▲' || r == '◇':
-			kind = 3
 		case r != ' ':
 			kind = 1
-		}
-		if r == '▲' {
-			kind = 3
 		}
 		if kind != runKind {
 			flush(i)

@@ -2,6 +2,7 @@ package tui
 
 import (
 	"path/filepath"
+	"strconv"
 	"testing"
 
 	tea "github.com/charmbracelet/bubbletea"
@@ -100,7 +101,7 @@ func TestPaneViews(t *testing.T) {
 	strip.SetTable(m.s.table())
 	strip.SetSelected(1)
 	strip.SetSize(76, strip.Lines()+2)
-	checkFrame(t, "strip-76x"+itoa(strip.Lines()+2), strip.View(true), 76, strip.Lines()+2)
+	checkFrame(t, "strip-76x"+strconv.Itoa(strip.Lines()+2), strip.View(true), 76, strip.Lines()+2)
 	strip.SetSize(76, 3)
 	checkFrame(t, "strip-76x3-collapsed", strip.View(false), 76, 3)
 	empty := NewStrip(ctx.styles, ctx.keys)
@@ -118,8 +119,4 @@ func TestPaneViews(t *testing.T) {
 	chart := newCurvePane(m.s, ctx)
 	chart.SetSize(50, 12)
 	checkFrame(t, "chart-50x12-cut-0.5", chart.View(), 50, 12)
-}
-
-func itoa(n int) string {
-	return string(rune('0'+n/10)) + string(rune('0'+n%10))
 }
