@@ -1,6 +1,7 @@
 package tui
 
 import (
+	"os"
 	"path/filepath"
 	"strconv"
 	"testing"
@@ -58,16 +59,24 @@ func TestView(t *testing.T) {
 	}
 }
 
-// TestViewSaved writes the file and shows the confirmation.
+// TestViewSaved writes the file from a fresh working folder and shows the
+// confirmation; the folder then holds the file and nothing else (the
+// temporary file of the atomic write is gone).
 func TestViewSaved(t *testing.T) {
 	dir := t.TempDir()
-	m := loaded(t, demoSet(t), demoAssumptions, filepath.Join(dir, "cut.yaml"), 80, 24)
+	t.Chdir(dir)
+	m := loaded(t, demoSet(t), demoAssumptions, "cut.yaml", 80, 24)
 	m = keys(m, "2", "p", "w")
-	if m.Written() == "" {
+	if m.Written() != "cut.yaml" {
 		t.Fatalf("not written: %s", m.status)
 	}
-	// The path is a temporary folder; show it as the flag would name it.
-	m.status = "wrote cut.yaml: 1 candidates, chosen \"hit=0.8\""
+	entries, err := os.ReadDir(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(entries) != 1 || entries[0].Name() != "cut.yaml" {
+		t.Errorf("folder holds %v, want only cut.yaml", entries)
+	}
 	checkFrame(t, "saved-80x24", m.View(), 80, 24)
 }
 
