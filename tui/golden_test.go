@@ -18,6 +18,10 @@ func init() {
 	}
 }
 
+// testdataDir is the absolute testdata folder, found before any test
+// changes the working folder.
+var testdataDir, _ = filepath.Abs("testdata")
+
 // updating reports whether -update was given.
 func updating() bool {
 	f := flag.Lookup("update")
@@ -29,7 +33,7 @@ func updating() bool {
 func checkGolden(t *testing.T, name, got string) {
 	t.Helper()
 	top := strings.SplitN(t.Name(), "/", 2)[0]
-	path := filepath.Join("testdata", top, name+".golden")
+	path := filepath.Join(testdataDir, top, name+".golden")
 	if updating() {
 		if err := os.MkdirAll(filepath.Dir(path), 0o755); err != nil {
 			t.Fatal(err)

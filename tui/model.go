@@ -262,7 +262,11 @@ func (m Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 	case fileWrittenMsg:
 		m.written = msg.path
 		m.unwritten = false
-		m.status = fmt.Sprintf("wrote %s: %d candidates, chosen %q", msg.path, msg.candidates, msg.chosen)
+		noun := "candidates"
+		if msg.candidates == 1 {
+			noun = "candidate"
+		}
+		m.status = fmt.Sprintf("wrote %s: %d %s, chosen %q", msg.path, msg.candidates, noun, msg.chosen)
 		return m, nil
 	case writeFailedMsg:
 		if errors.Is(msg.err, decision.ErrDifferentData) || errors.Is(msg.err, decision.ErrNotDecisionFile) {
