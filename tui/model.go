@@ -388,7 +388,13 @@ func (m Model) stripKey(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 	default:
 		m.strip.SetSelected(s.selected)
 		m.strip, _ = m.strip.Update(msg)
-		s.selected = m.strip.Selected()
+		if m.strip.Selected() != s.selected {
+			// Selecting a candidate puts the cursor on its cut.
+			s.selected = m.strip.Selected()
+			s.cursor = s.pins[s.selected].cut
+			m.list.follow()
+			break
+		}
 		// The list keys still move the cursor while the strip has the keys.
 		m.list, _ = m.list.Update(msg)
 		m.figures, _ = m.figures.Update(msg)

@@ -173,8 +173,13 @@ func TestPinAndStrip(t *testing.T) {
 	if m.focus != focusStrip {
 		t.Fatalf("tab did not give the strip the keys")
 	}
-	// The newest pin is selected; move left to "cut 2" and jump there.
-	m = keys(m, "left", "enter")
+	// The newest pin is selected; selecting "cut 2" to its left puts the
+	// cursor on its cut, and enter brings it back after a move.
+	m = keys(m, "left")
+	if got := cursorScore(t, m); got != 0.5 {
+		t.Errorf("selecting cut 2: cursor at %v, want 0.5", got)
+	}
+	m = keys(m, "g", "enter")
 	if got := cursorScore(t, m); got != 0.5 {
 		t.Errorf("enter on cut 2: cursor at %v, want 0.5", got)
 	}
