@@ -317,9 +317,12 @@ func (m Model) key(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 		m.push(overlayHelp)
 		return m, nil
 	case key.Matches(msg, k.Focus):
-		if m.focus == focusList && len(m.s.pins) > 0 {
+		switch {
+		case m.focus == focusList && len(m.s.pins) > 0:
 			m.focus = focusStrip
-		} else {
+		case m.focus == focusList:
+			m.status = "nothing pinned yet: p pins the cursor's cut"
+		default:
 			m.focus = focusList
 		}
 		m.refresh()
