@@ -138,12 +138,13 @@ func shortDigest(d string) string {
 // reviewNotes lists the file's note and the candidates' notes.
 func reviewNotes(f *decision.File) [][2]string {
 	var notes [][2]string
+	oneLine := func(s string) string { return strings.Join(strings.Fields(s), " ") } // a hand-edited note may hold line breaks
 	if f.Note != "" {
-		notes = append(notes, [2]string{"file", f.Note})
+		notes = append(notes, [2]string{"file", oneLine(f.Note)})
 	}
 	for _, c := range f.Candidates {
 		if c.Note != "" {
-			notes = append(notes, [2]string{c.Name, c.Note})
+			notes = append(notes, [2]string{c.Name, oneLine(c.Note)})
 		}
 	}
 	return notes

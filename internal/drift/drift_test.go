@@ -113,7 +113,7 @@ func bearings(seed uint64, n int, base, shift float64) (scoresOut []float64, lab
 	return scoresOut, labels
 }
 
-func bearingSet(t *testing.T, seed uint64, n int, base, shift float64) *scores.Set {
+func bearingSet(t testing.TB, seed uint64, n int, base, shift float64) *scores.Set {
 	t.Helper()
 	sc, labels := bearings(seed, n, base, shift)
 	set, err := scores.New(sc, labels, nil, false)
@@ -124,7 +124,7 @@ func bearingSet(t *testing.T, seed uint64, n int, base, shift float64) *scores.S
 }
 
 // decisionOf saves the hit=0.8 cut of set, as sill report --save does.
-func decisionOf(t *testing.T, set *scores.Set) *decision.File {
+func decisionOf(t testing.TB, set *scores.Set) *decision.File {
 	t.Helper()
 	positives, negatives := set.Totals()
 	a := projection.Assumptions{BaseRate: positives / (positives + negatives), Volume: 1500, Confidence: 0.95}
@@ -390,4 +390,17 @@ func ExamplePopulationStability() {
 	psi := PopulationStability([]float64{25, 25, 25, 25}, []float64{40, 30, 20, 10})
 	fmt.Printf("PSI %.3f\n", psi)
 	// Output: PSI 0.228
+}
+
+// BenchmarkCheck checks a million fresh rows against a decision file: one
+// pass over the rows and a binary search of the 20 bins per row.
+func BenchmarkCheck(b *testing.B) {
+	file := decisionOf(b, bearingSet(b, 1, 6000, 0.07, 0))
+	fresh := bearingSet(b, 2, 1_000_000, 0.07, 0)
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		if _, err := Check(file, fresh, Options{Labelled: true}); err != nil {
+			b.Fatal(err)
+		}
+	}
 }
