@@ -78,7 +78,7 @@ func oddFile() *File {
 		Format:      Format,
 		Created:     time.Date(2026, 9, 14, 6, 0, 0, 0, time.UTC),
 		ToolVersion: "dev",
-		Data: Data{Path: "nightly 2026-09.csv.gz", SHA256: "00ff", Rows: 3, Positives: 0, Negatives: 2.5,
+		Data: Data{Path: "nightly 2026-09.csv.gz", SHA256: "", Rows: 3, Positives: 0, Negatives: 2.5,
 			ScoreColumn: "risk", LabelColumn: "y", WeightColumn: "w", LowerIsRiskier: true,
 			Histogram: Histogram{Edges: []float64{-2.5e-300, 1e-7, 3e21}, Counts: []float64{0.5, 2}}},
 		Assumptions: projection.Assumptions{BaseRate: 0, Confidence: 0.9},

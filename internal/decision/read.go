@@ -439,6 +439,9 @@ func (r *reader) data(n *yaml.Node) Data {
 		WeightColumn:   r.optionalStr(m["weight_column"], "data.weight_column"),
 		LowerIsRiskier: r.boolean(m["lower_is_riskier"], "data.lower_is_riskier"),
 	}
+	if r.err == nil && !isDigest(d.SHA256) {
+		r.fail(deref(m["sha256"]), "data.sha256", fmt.Errorf("%w: %q, expected 64 hexadecimal digits (or empty for data not read from a file)", ErrInvalid, d.SHA256))
+	}
 	if v, ok := m["negatives"]; ok && !isNull(v) {
 		d.Negatives = r.count(v, "data.negatives")
 	}
@@ -448,6 +451,22 @@ func (r *reader) data(n *yaml.Node) Data {
 		Counts: r.numbers(h["counts"], "data.score_histogram.counts"),
 	}
 	return d
+}
+
+// isDigest reports whether s is a hex SHA-256 digest or empty.
+func isDigest(s string) bool {
+	if s == "" {
+		return true
+	}
+	if len(s) != 64 {
+		return false
+	}
+	for _, c := range s {
+		if !(c >= '0' && c <= '9' || c >= 'a' && c <= 'f' || c >= 'A' && c <= 'F') {
+			return false
+		}
+	}
+	return true
 }
 
 func (r *reader) assumptions(n *yaml.Node) projection.Assumptions {

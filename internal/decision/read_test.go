@@ -44,6 +44,7 @@ func TestReadRejectsBrokenKeys(t *testing.T) {
 		{"missing score", replaceNth(t, text, `\n    score: [^\n]*`, 0, ``), ErrMissingKey, "candidates[0].score"},
 		{"unknown top key", replaceNth(t, text, `\nnote:`, 0, "\nchosen_by: lead\nnote:"), ErrUnknownKey, "chosen_by"},
 		{"unknown candidate key", replaceNth(t, text, `\n    rule:`, 1, "\n    threshold: 0.5\n    rule:"), ErrUnknownKey, "candidates[1].threshold"},
+		{"digest cut short", replaceNth(t, text, `sha256: "[0-9a-f]{64}"`, 0, `sha256: "051e0bf4"`), ErrInvalid, "data.sha256"},
 		{"rows as text", replaceNth(t, text, `rows: 2000`, 0, `rows: "2000"`), ErrType, "data.rows"},
 		{"rows fractional", replaceNth(t, text, `rows: 2000`, 0, `rows: 2000.5`), ErrType, "data.rows"},
 		{"bool not bool", replaceNth(t, text, `lower_is_riskier: false`, 0, `lower_is_riskier: maybe`), ErrType, "data.lower_is_riskier"},

@@ -404,3 +404,41 @@ func BenchmarkCheck(b *testing.B) {
 		}
 	}
 }
+
+func TestCheckOneClassNewData(t *testing.T) {
+	file := decisionOf(t, bearingSet(t, 1, 4000, 0.07, 0))
+	// Labelled fresh data with no true case at all: recall is undefined and
+	// not tested; every alert is wrong, so precision drifts to 0.
+	sc, _ := bearings(21, 2000, 0, 0)
+	set, _ := scores.New(sc, make([]bool, len(sc)), nil, false)
+	res, err := Check(file, set, Options{Labelled: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res.Recall.Defined || !math.IsNaN(res.Recall.Observed) {
+		t.Errorf("recall %+v, want undefined", res.Recall)
+	}
+	if !res.Precision.Defined || res.Precision.Observed != 0 || !res.Precision.Drift {
+		t.Errorf("precision %+v, want 0 and drift", res.Precision)
+	}
+	if !strings.Contains(strings.Join(res.Findings, "\n"), "no true cases, so recall was not checked") {
+		t.Errorf("findings %q", res.Findings)
+	}
+	// Weighted fresh data: a weight of 2 counts as the row twice.
+	weights := make([]float64, len(sc))
+	var doubled []float64
+	for i := range weights {
+		weights[i] = float64(1 + i%2)
+		doubled = append(doubled, sc[i])
+		if i%2 == 1 {
+			doubled = append(doubled, sc[i])
+		}
+	}
+	w, _ := scores.New(append([]float64(nil), sc...), make([]bool, len(sc)), weights, false)
+	d, _ := scores.New(doubled, make([]bool, len(doubled)), nil, false)
+	rw, _ := Check(file, w, Options{})
+	rd, _ := Check(file, d, Options{})
+	if !same(rw.AlertRate.Observed, rd.AlertRate.Observed) || !same(rw.AlertRate.PValue, rd.AlertRate.PValue) || !same(rw.PSI, rd.PSI) {
+		t.Errorf("weighted %v %v %v, doubled %v %v %v", rw.AlertRate.Observed, rw.AlertRate.PValue, rw.PSI, rd.AlertRate.Observed, rd.AlertRate.PValue, rd.PSI)
+	}
+}
