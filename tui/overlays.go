@@ -87,7 +87,9 @@ func (p helpPane) View(groups []helpGroup) string {
 		}
 		rows = append(rows, fitLine(l, leftW)+"   "+r)
 	}
-	rows = append(rows, st.Muted.Render("candidate keys act in the strip (tab) · ? or esc closes"))
+	rows = append(rows,
+		st.Muted.Render("marks: ● true case · ▌ flagged · ▶ the cut's tie group · ◆ chosen · ◇ pinned"),
+		st.Muted.Render("candidate keys act in the strip (tab) · ? or esc closes"))
 	body := strings.Join(rows, "\n")
 	return p.box("keys", body)
 }
