@@ -38,7 +38,7 @@ func (f *inputFlags) register(fs *pflag.FlagSet) {
 	fs.StringVar(&f.opt.Positive, "positive", "", "the only label value that means a true case (default: 1/true/yes/positive vs 0/false/no/negative)")
 	fs.BoolVar(&f.opt.LowerIsRiskier, "lower-is-riskier", false, "a small score means a likely true case")
 	fs.BoolVar(&f.opt.DropInvalid, "drop-invalid", false, "skip rows with a missing or non-finite score, and count them")
-	fs.StringVar(&f.input, "input", "", "input format: csv or jsonl (default: detected)")
+	fs.StringVar(&f.input, "input", "", "input format: csv, jsonl or parquet (default: detected)")
 	fs.StringVar(&f.delim, "delim", "", `field delimiter for csv, e.g. "," or "\t" (default: detected from the header)`)
 	fs.BoolVar(&f.counts, "counts", false, "the input is a counts table: score, positives, negatives (and --segment), one row per score, as `sill sql` makes it")
 }
@@ -56,8 +56,10 @@ func (f *inputFlags) load(path string, stdin io.Reader, progress func(rows int))
 		opt.Input = scores.InputCSV
 	case "jsonl", "ndjson":
 		opt.Input = scores.InputJSONL
+	case "parquet":
+		opt.Input = scores.InputParquet
 	default:
-		return nil, fmt.Errorf("--input %q: expected csv or jsonl", f.input)
+		return nil, fmt.Errorf("--input %q: expected csv, jsonl or parquet", f.input)
 	}
 	switch f.delim {
 	case "":
@@ -75,6 +77,9 @@ func (f *inputFlags) load(path string, stdin io.Reader, progress func(rows int))
 		read = scores.ReadCounts
 	}
 	if path == "-" {
+		if set, handled, err := readParquet(path, stdin, nil, opt); handled {
+			return set, err
+		}
 		return read(stdin, "-", opt)
 	}
 	file, err := os.Open(path)
@@ -87,6 +92,9 @@ func (f *inputFlags) load(path string, stdin io.Reader, progress func(rows int))
 	}
 	if f.counts {
 		return read(file, path, opt)
+	}
+	if set, handled, err := readParquet(path, nil, file, opt); handled {
+		return set, err
 	}
 	return scores.Load(file, path, opt) // the block reader; it hands what it cannot take to scores.Read
 }

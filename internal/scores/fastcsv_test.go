@@ -85,7 +85,7 @@ func clip(data []byte) []byte {
 
 func brief(s *Set) string {
 	n := min(len(s.Scores), 8)
-	return fmt.Sprintf("rows %d scores %v labels %v weights %v dropped %d %q sha %s", len(s.Scores), s.Scores[:n], s.Labels[:n], s.Weights[:min(len(s.Weights), n)], s.Dropped, s.DroppedReasons, s.SHA256[:8])
+	return fmt.Sprintf("rows %d scores %v labels %v weights %v dropped %d %q sha %s", len(s.Scores), s.Scores[:n], s.Labels[:n], s.Weights[:min(len(s.Weights), n)], s.Dropped, s.DroppedReasons, s.SHA256[:min(len(s.SHA256), 8)])
 }
 
 // randomTable writes a seeded random table with the oddities that delimited

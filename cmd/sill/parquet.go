@@ -1,0 +1,43 @@
+package main
+
+import (
+	"bytes"
+	"fmt"
+	"io"
+	"os"
+
+	"github.com/sill-tool/sill/internal/scores"
+)
+
+// readParquet reads a Parquet file, or Parquet on standard input (which is
+// read into memory first, as Parquet is read from its end), when --input
+// parquet says so or the file begins with Parquet's magic bytes. handled
+// is false when the input is not Parquet.
+func readParquet(path string, stdin io.Reader, file *os.File, opt scores.Options) (set *scores.Set, handled bool, err error) {
+	if file == nil {
+		if opt.Input != scores.InputParquet {
+			return nil, false, nil
+		}
+		data, err := io.ReadAll(stdin)
+		if err != nil {
+			return nil, true, fmt.Errorf("read scores: %w", err)
+		}
+		set, err := scores.ReadParquet(bytes.NewReader(data), int64(len(data)), path, parquetOptions(opt))
+		return set, true, err
+	}
+	magic := make([]byte, len(scores.ParquetMagic))
+	if _, err := file.ReadAt(magic, 0); (err != nil || !bytes.Equal(magic, scores.ParquetMagic)) && opt.Input != scores.InputParquet {
+		return nil, false, nil
+	}
+	info, err := file.Stat()
+	if err != nil {
+		return nil, true, fmt.Errorf("read scores: %w", err)
+	}
+	set, err = scores.ReadParquet(file, info.Size(), path, parquetOptions(opt))
+	return set, true, err
+}
+
+func parquetOptions(opt scores.Options) scores.Options {
+	opt.Input = scores.InputParquet
+	return opt
+}

@@ -1,0 +1,192 @@
+package scores
+
+import (
+	"bytes"
+	"fmt"
+
+	"math/rand/v2"
+	"os"
+	"reflect"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/parquet-go/parquet-go"
+)
+
+// parquetRow is a row of the test files the Go library writes: the score
+// as double, float and integer columns, the label as boolean, integer,
+// double and text columns, with nulls.
+type parquetRow struct {
+	Score      *float64 `parquet:"score,optional"`
+	ScoreFloat float32  `parquet:"score_float"`
+	ScoreInt   int64    `parquet:"score_int"`
+	Failed     *bool    `parquet:"failed,optional"`
+	FailedInt  int32    `parquet:"failed_int"`
+	FailedDbl  float64  `parquet:"failed_double"`
+	Outcome    string   `parquet:"outcome"`
+	Weight     float64  `parquet:"weight"`
+	Yard       string   `parquet:"yard"`
+	Wagon      string   `parquet:"wagon"`
+}
+
+func writeParquet(t *testing.T, rows []parquetRow, rowGroup int) []byte {
+	t.Helper()
+	var buf bytes.Buffer
+	w := parquet.NewGenericWriter[parquetRow](&buf, parquet.MaxRowsPerRowGroup(int64(rowGroup)))
+	if _, err := w.Write(rows); err != nil {
+		t.Fatal(err)
+	}
+	if err := w.Close(); err != nil {
+		t.Fatal(err)
+	}
+	return buf.Bytes()
+}
+
+// asCSV writes the same rows as text, a null as an empty cell, so that
+// Read gives the reference set.
+func asCSV(rows []parquetRow) string {
+	var b strings.Builder
+	b.WriteString("score,score_float,score_int,failed,failed_int,failed_double,outcome,weight,yard,wagon\n")
+	for _, r := range rows {
+		score, failed := "", ""
+		if r.Score != nil {
+			score = strconv.FormatFloat(*r.Score, 'g', -1, 64)
+		}
+		if r.Failed != nil {
+			failed = strconv.FormatBool(*r.Failed)
+		}
+		fmt.Fprintf(&b, "%s,%s,%d,%s,%d,%s,%s,%s,%s,%s\n", score, strconv.FormatFloat(float64(r.ScoreFloat), 'g', -1, 32), r.ScoreInt,
+			failed, r.FailedInt, strconv.FormatFloat(r.FailedDbl, 'g', -1, 64), r.Outcome, strconv.FormatFloat(r.Weight, 'g', -1, 64), r.Yard, r.Wagon)
+	}
+	return b.String()
+}
+
+func randomParquetRows(rng *rand.Rand, n int, nulls bool) []parquetRow {
+	rows := make([]parquetRow, n)
+	for i := range rows {
+		score := float64(rng.IntN(1000)) / 1000
+		positive := rng.IntN(5) == 0
+		r := parquetRow{
+			Score: &score, ScoreFloat: float32(score), ScoreInt: int64(rng.IntN(20)),
+			Failed: &positive, Outcome: map[bool]string{true: "failed", false: "ok"}[positive],
+			Weight: float64(rng.IntN(4)), Yard: []string{"Harrowgate", "Coldmere", "Brindle"}[rng.IntN(3)],
+			Wagon: fmt.Sprintf("VF-%05d", i),
+		}
+		if positive {
+			r.FailedInt, r.FailedDbl = 1, 1
+		}
+		if nulls && rng.IntN(50) == 0 {
+			r.Score = nil
+		}
+		if nulls && rng.IntN(80) == 0 {
+			r.Failed = nil
+		}
+		rows[i] = r
+	}
+	return rows
+}
+
+// TestReadParquetMatchesRead checks ReadParquet against Read on the same
+// rows written as Parquet (by github.com/parquet-go/parquet-go, several row
+// groups) and as CSV: the same Set but for the digest and the format, or
+// the same error but for the line, which for Parquet is the row (the CSV
+// line less one, the header).
+func TestReadParquetMatchesRead(t *testing.T) {
+	rng := rand.New(rand.NewPCG(21, 22))
+	options := []Options{
+		{ScoreColumn: "score", LabelColumn: "failed"},
+		{ScoreColumn: "score", LabelColumn: "failed", DropInvalid: true, WeightColumn: "weight", SegmentColumn: "yard", IDColumn: "wagon"},
+		{ScoreColumn: "score_float", LabelColumn: "failed_int"},
+		{ScoreColumn: "score_int", LabelColumn: "failed_double", LowerIsRiskier: true},
+		{ScoreColumn: "score_float", LabelColumn: "outcome", Positive: "failed"},
+		{ScoreColumn: "score_int", LabelColumn: "outcome"}, // "ok" is no label word: an error
+	}
+	for trial := range 24 {
+		rows := randomParquetRows(rng, 1+rng.IntN(600), trial%2 == 1)
+		data := writeParquet(t, rows, 1+rng.IntN(200))
+		text := asCSV(rows)
+		for _, opt := range options {
+			want, wantErr := Read(strings.NewReader(text), "t", opt)
+			got, gotErr := ReadParquet(bytes.NewReader(data), int64(len(data)), "t", opt)
+			if (wantErr == nil) != (gotErr == nil) {
+				t.Fatalf("trial %d %+v: Read error %v, ReadParquet error %v", trial, opt, wantErr, gotErr)
+			}
+			if wantErr != nil {
+				pe := wantErr.(*ParseError)
+				pe.Line--
+				if pe.Error() != gotErr.Error() {
+					t.Fatalf("trial %d %+v: errors differ\nRead (row) %v\nParquet    %v", trial, opt, pe, gotErr)
+				}
+				continue
+			}
+			for i := range want.DroppedReasons {
+				want.DroppedReasons[i] = shiftLine(want.DroppedReasons[i])
+			}
+			want.SHA256, got.SHA256 = "", ""
+			if !reflect.DeepEqual(want, got) {
+				t.Fatalf("trial %d %+v: sets differ\nRead    %+v\nParquet %+v", trial, opt, brief(want), brief(got))
+			}
+		}
+	}
+}
+
+// shiftLine turns "t:N: ..." into "t:N-1: ...".
+func shiftLine(reason string) string {
+	rest := strings.TrimPrefix(reason, "t:")
+	colon := strings.IndexByte(rest, ':')
+	n, _ := strconv.Atoi(rest[:colon])
+	return "t:" + strconv.Itoa(n-1) + rest[colon:]
+}
+
+// TestReadParquetOtherWriter reads a file written by another Parquet
+// implementation (testdata/parquet/README.md says which and how) and
+// checks it against the same rows as CSV, written out by hand beside it.
+func TestReadParquetOtherWriter(t *testing.T) {
+	data, err := os.ReadFile("testdata/parquet/other-writer.parquet")
+	if err != nil {
+		t.Fatal(err)
+	}
+	text, err := os.ReadFile("testdata/parquet/other-writer.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, opt := range []Options{
+		{LabelColumn: "failed", DropInvalid: true, SegmentColumn: "yard", IDColumn: "wagon", WeightColumn: "checks"},
+		{LabelColumn: "failed", DropInvalid: true, ScoreColumn: "score_decimal"},
+		{LabelColumn: "failed_int", DropInvalid: true, ScoreColumn: "score_float"},
+	} {
+		want, err := Read(bytes.NewReader(text), "t", opt)
+		if err != nil {
+			t.Fatal(err)
+		}
+		got, err := ReadParquet(bytes.NewReader(data), int64(len(data)), "t", opt)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for i := range want.DroppedReasons {
+			want.DroppedReasons[i] = shiftLine(want.DroppedReasons[i])
+		}
+		want.SHA256, got.SHA256 = "", ""
+		if !reflect.DeepEqual(want, got) {
+			t.Fatalf("%+v: sets differ\nCSV     %+v\nParquet %+v", opt, brief(want), brief(got))
+		}
+	}
+	// Without DropInvalid the null score is an error at its row.
+	_, err = ReadParquet(bytes.NewReader(data), int64(len(data)), "t", Options{LabelColumn: "failed"})
+	if want := `t:8: column "score": invalid score "", expected a number, found an empty cell`; err == nil || err.Error() != want {
+		t.Errorf("null score: %v, want %s", err, want)
+	}
+}
+
+func TestReadParquetErrors(t *testing.T) {
+	if _, err := ReadParquet(bytes.NewReader([]byte("PAR1 not really")), 15, "t", Options{}); err == nil || !strings.HasPrefix(err.Error(), "t: unreadable parquet: ") {
+		t.Errorf("garbage: %v", err)
+	}
+	rows := randomParquetRows(rand.New(rand.NewPCG(1, 1)), 3, false)
+	data := writeParquet(t, rows, 10)
+	_, err := ReadParquet(bytes.NewReader(data), int64(len(data)), "t", Options{ScoreColumn: "nope"})
+	if err == nil || !strings.Contains(err.Error(), `column "nope": column not found in header ["score", "score_float"`) {
+		t.Errorf("missing column: %v", err)
+	}
+}
