@@ -35,6 +35,7 @@ type KeyMap struct {
 	Write       key.Binding // write the decision file
 	Help        key.Binding // show or hide every key
 	Quit        key.Binding
+	Interrupt   key.Binding // quits from anywhere, forms included
 
 	// Inside forms and questions
 	NextField, PrevField key.Binding
@@ -75,6 +76,7 @@ func DefaultKeyMap() KeyMap {
 		Write:       key.NewBinding(key.WithKeys("w"), key.WithHelp("w", "write decision file")),
 		Help:        key.NewBinding(key.WithKeys("?"), key.WithHelp("?", "help")),
 		Quit:        key.NewBinding(key.WithKeys("q", "ctrl+c"), key.WithHelp("q", "quit")),
+		Interrupt:   key.NewBinding(key.WithKeys("ctrl+c"), key.WithHelp("ctrl+c", "quit, from forms too")),
 
 		NextField: key.NewBinding(key.WithKeys("tab", "down"), key.WithHelp("tab/↓", "next field")),
 		PrevField: key.NewBinding(key.WithKeys("shift+tab", "up"), key.WithHelp("shift+tab/↑", "previous field")),

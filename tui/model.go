@@ -252,6 +252,9 @@ func (m Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		m.refresh()
 		return m, nil
 	case startsFoundMsg:
+		if !sameAssumptions(msg.assume, m.s.assume) {
+			return m, nil // found for assumptions changed since
+		}
 		if msg.err != nil {
 			m.status = "assumptions: " + msg.err.Error()
 			return m, nil
@@ -299,7 +302,7 @@ func (m Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 // first, then the global keys, then the focused pane.
 func (m Model) key(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 	k := m.ctx.keys
-	if msg.String() == "ctrl+c" {
+	if key.Matches(msg, k.Interrupt) {
 		return m, tea.Quit
 	}
 	if len(m.overlays) > 0 {
@@ -542,6 +545,17 @@ func (m *Model) refresh() {
 }
 
 func keyName(i int) string { return string(rune('1' + i)) }
+
+// sameAssumptions reports whether a and b are the same assumptions, costs
+// compared by value.
+func sameAssumptions(a, b projection.Assumptions) bool {
+	costsA, costsB := a.Costs, b.Costs
+	a.Costs, b.Costs = nil, nil
+	if a != b || (costsA == nil) != (costsB == nil) {
+		return false
+	}
+	return costsA == nil || *costsA == *costsB
+}
 
 // screen returns the layout at the current size and state.
 func (m Model) screen() screenLayout {

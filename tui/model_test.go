@@ -421,6 +421,18 @@ func TestQuitKeys(t *testing.T) {
 	}
 }
 
+// TestStaleStartingPoints: starting points found for assumptions that have
+// changed since are dropped.
+func TestStaleStartingPoints(t *testing.T) {
+	m := tenModel(t)
+	stale := startsFoundMsg{assume: projection.Assumptions{BaseRate: 0.9, Confidence: 0.95}}
+	before := len(m.s.starts)
+	m = send(m, stale)
+	if len(m.s.starts) != before {
+		t.Errorf("stale starting points replaced the current ones")
+	}
+}
+
 func TestReading(t *testing.T) {
 	cases := []struct {
 		share float64

@@ -36,7 +36,7 @@ func (m Model) helpGroups() []helpGroup {
 		{"move the cut", m.list.FullHelp()[0]},
 		{"starting points", starts},
 		{"candidates", []key.Binding{k.Pin, k.Focus, k.Left, k.Right, k.Jump, k.Choose, k.Rename, k.Remove, k.MoveLeft, k.MoveRight}},
-		{"screen and file", []key.Binding{k.CurveView, k.Assumptions, k.Write, k.Help, k.Quit}},
+		{"screen and file", []key.Binding{k.CurveView, k.Assumptions, k.Write, k.Help, k.Quit, k.Interrupt}},
 	}
 }
 
