@@ -112,7 +112,7 @@ func TestRunBadInput(t *testing.T) {
 		{"bad format", []string{"report", good, "--format", "xml"},
 			`sill: --format "xml": expected text, json, markdown or csv`},
 		{"bad input format", []string{"report", good, "--input", "xml"},
-			`sill: --input "xml": expected csv or jsonl`},
+			`sill: --input "xml": expected csv, jsonl or parquet`},
 		{"bad delimiter", []string{"report", good, "--delim", "ab"},
 			`sill: --delim "ab": expected one character such as , or ; or \t`},
 		{"base rate above 1", []string{"report", good, "--base-rate", "2"},
