@@ -158,6 +158,15 @@ func (m Model) Err() error { return m.err }
 // Written returns the path of the decision file last written, or "".
 func (m Model) Written() string { return m.written }
 
+// Unwritten returns how many candidates are pinned when the candidates or
+// assumptions have changed since the last write, and 0 otherwise.
+func (m Model) Unwritten() int {
+	if !m.unwritten {
+		return 0
+	}
+	return len(m.s.pins)
+}
+
 // Cursor returns the cursor's cut index and its score; ok is false before
 // the scores are loaded.
 func (m Model) Cursor() (index int, score float64, ok bool) {

@@ -318,8 +318,14 @@ func TestWrite(t *testing.T) {
 	dir := t.TempDir()
 	out := filepath.Join(dir, "cut.yaml")
 	m := loaded(t, tenRows(t), tenAssumptions, out, 100, 30)
+	if m.Unwritten() != 0 {
+		t.Errorf("fresh screen: %d unwritten", m.Unwritten())
+	}
 	// Nothing pinned: w pins the cursor's cut (base, 0.8) and writes it.
 	m = keys(m, "w")
+	if m.Unwritten() != 0 {
+		t.Errorf("after writing: %d unwritten", m.Unwritten())
+	}
 	if m.Written() != out {
 		t.Fatalf("written %q, status %q", m.Written(), m.status)
 	}
@@ -331,7 +337,11 @@ func TestWrite(t *testing.T) {
 		t.Errorf("file chose %q among %d, score %v; want base at 0.8", f.Chosen, len(f.Candidates), f.Candidates[0].Cut.Score)
 	}
 	// Pin a second, choose it, write again: the same data replaces quietly.
-	m = keys(m, "2", "p", "tab", "c", "w")
+	m = keys(m, "2", "p")
+	if m.Unwritten() != 2 {
+		t.Errorf("after a new pin: %d unwritten, want 2", m.Unwritten())
+	}
+	m = keys(m, "tab", "c", "w")
 	f, err = decision.ReadFile(out)
 	if err != nil {
 		t.Fatal(err)

@@ -95,5 +95,8 @@ func runExplorer(load func(func(int)) (*scores.Set, error), assume func(*scores.
 	if path := m.Written(); path != "" {
 		fmt.Fprintf(os.Stderr, "sill: the decision is in %s\n", path)
 	}
+	if n := m.Unwritten(); n > 0 {
+		fmt.Fprintf(os.Stderr, "sill: %d pinned candidates or changed assumptions were not written (w writes them to %s)\n", n, out)
+	}
 	return nil
 }
