@@ -7,6 +7,7 @@ import (
 
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/x/ansi"
 
 	"github.com/sill-tool/sill/internal/report"
 )
@@ -195,22 +196,29 @@ func (p listPane) row(r int, cols listColumns, innerW int, flagged, inGroup bool
 		mark = "●"
 	}
 	hit := s.curve.At(s.curve.CutOfRow(r)).Recall()
-	line := gutter + pad(strconv.Itoa(r+1), cols.rank, true) + " " + pad(report.Score(s.set.Scores[r]), cols.score, false) + " " + mark
+	head := gutter + pad(strconv.Itoa(r+1), cols.rank, true) + " " + pad(report.Score(s.set.Scores[r]), cols.score, false) + " "
+	tail := ""
 	if cols.id > 0 {
-		line += " " + pad(s.set.ID(r), cols.id, false)
+		tail += " " + pad(s.set.ID(r), cols.id, false)
 	}
 	if cols.segment > 0 {
-		line += " " + pad(s.set.Segment(r), cols.segment, false)
+		tail += " " + pad(s.set.Segment(r), cols.segment, false)
 	}
-	line += " " + pad(report.Percent(hit), 6, true)
-	line = fitLine(line, innerW)
+	tail += " " + pad(report.Percent(hit), 6, true)
+	tail = fitLine(tail, max(innerW-ansi.StringWidth(head)-1, 0))
+	style := st.Unflagged
 	switch {
 	case inGroup:
-		return st.CurrentCut.Render(line)
+		style = st.CurrentCut
 	case flagged:
-		return st.Flagged.Render(line)
+		style = st.Flagged
 	}
-	return st.Unflagged.Render(line)
+	// A true case's mark gets its own style on top of the row's.
+	markStyle := style
+	if s.set.Labels[r] {
+		markStyle = st.TrueCase.Inherit(style)
+	}
+	return style.Render(head) + markStyle.Render(mark) + style.Render(tail)
 }
 
 // pad fits text to width, right-aligned when right is set.

@@ -1,12 +1,17 @@
 package tui
 
 import (
+	"io"
 	"os"
 	"path/filepath"
 	"strconv"
+	"strings"
 	"testing"
 
 	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/lipgloss"
+	"github.com/charmbracelet/x/ansi"
+	"github.com/muesli/termenv"
 
 	"github.com/sill-tool/sill/internal/scores"
 )
@@ -128,4 +133,33 @@ func TestPaneViews(t *testing.T) {
 	chart := newCurvePane(m.s, ctx)
 	chart.SetSize(50, 12)
 	checkFrame(t, "chart-50x12-cut-0.5", chart.View(), 50, 12)
+}
+
+// TestViewColour draws with colour on: every line keeps the frame's width
+// (escape codes take no cells) and colour codes are present.
+func TestViewColour(t *testing.T) {
+	r := lipgloss.NewRenderer(io.Discard)
+	r.SetColorProfile(termenv.TrueColor)
+	styles := DefaultStyles(r)
+	set := demoSet(t)
+	m := New(Config{Load: func(func(int)) (*scores.Set, error) { return set, nil }, Assume: demoAssumptions,
+		Out: filepath.Join(t.TempDir(), "cut.yaml"), Styles: &styles})
+	m = send(m, tea.WindowSizeMsg{Width: 100, Height: 30})
+	m = send(m, m.loadCmd()())
+	for _, step := range [][]string{nil, {"2", "p", "4", "p"}, {"tab"}, {"?"}, {"esc", "a"}} {
+		m = keys(m, step...)
+		frame := m.View()
+		if !strings.Contains(frame, "\x1b[") {
+			t.Errorf("after %v: no colour codes with colour on", step)
+		}
+		lines := strings.Split(frame, "\n")
+		if len(lines) != 30 {
+			t.Errorf("after %v: %d lines, want 30", step, len(lines))
+		}
+		for i, line := range lines {
+			if w := ansi.StringWidth(line); w != 100 {
+				t.Errorf("after %v: line %d is %d cells, want 100", step, i+1, w)
+			}
+		}
+	}
 }
