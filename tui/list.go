@@ -213,12 +213,11 @@ func (p listPane) row(r int, cols listColumns, innerW int, flagged, inGroup bool
 	case flagged:
 		style = st.Flagged
 	}
-	// A true case's mark gets its own style on top of the row's.
-	markStyle := style
-	if s.set.Labels[r] {
-		markStyle = st.TrueCase.Inherit(style)
+	if !s.set.Labels[r] {
+		return style.Render(head + mark + tail)
 	}
-	return style.Render(head) + markStyle.Render(mark) + style.Render(tail)
+	// A true case's mark gets its own style on top of the row's.
+	return style.Render(head) + st.TrueCase.Inherit(style).Render(mark) + style.Render(tail)
 }
 
 // pad fits text to width, right-aligned when right is set.
