@@ -2,6 +2,7 @@ package decision
 
 import (
 	"bytes"
+	"errors"
 	"testing"
 )
 
@@ -14,6 +15,9 @@ import (
 func FuzzRead(f *testing.F) {
 	f.Fuzz(func(t *testing.T, data []byte) {
 		file, err := Read(bytes.NewReader(data), "fuzz.yaml")
+		if errors.Is(err, errPanic) {
+			t.Fatalf("Read recovered from a panic: %v", err)
+		}
 		if err != nil {
 			return
 		}
