@@ -59,6 +59,11 @@ type Result struct {
 	Tolerance      float64
 	Confidence     float64 // of the observed shares' intervals, from the file
 
+	BaseRate           float64 // the production base rate the file projects to
+	BaseRateValidation bool    // it is the validation set's own rate
+	ValidationRows     int     // rows of the validation set
+	ValidationPath     string  // the validation set as the file names it
+
 	AlertRate Test
 	Recall    Test // Defined false without labels or true cases
 	Precision Test // Defined false without labels or flagged cases
@@ -139,6 +144,8 @@ func check(f *decision.File, chosen decision.Candidate, t tally, opt Options) *R
 		math.Abs(base-valPositives/(valPositives+valNegatives)) <= 1e-9
 	r, fpr := shrunk(v.TP, valPositives), shrunk(v.FP, valNegatives)
 	alertVariance := weighted(base*base, shrunkVariance(v.TP, valPositives)) + weighted((1-base)*(1-base), shrunkVariance(v.FP, valNegatives))
+	res.BaseRate, res.BaseRateValidation = base, baseFromValidation
+	res.ValidationRows, res.ValidationPath = f.Data.Rows, f.Data.Path
 	if baseFromValidation {
 		alertVariance += base * (1 - base) * (r - fpr) * (r - fpr) / (valPositives + valNegatives)
 	}

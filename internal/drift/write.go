@@ -48,6 +48,7 @@ type jsonResult struct {
 	Rows               int        `json:"rows"`
 	Labelled           bool       `json:"labelled"`
 	Level              float64    `json:"level"`
+	BaseRate           number     `json:"projected_base_rate"`
 	Tolerance          float64    `json:"tolerance"`
 	AlertRateObserved  number     `json:"alert_rate_observed"`
 	AlertRateProjected number     `json:"alert_rate_projected"`
@@ -94,7 +95,7 @@ func WriteJSON(w io.Writer, r *Result, decisionFile, scoresFile string) error {
 	}
 	out := jsonResult{
 		DecisionFile: decisionFile, Scores: scoresFile, Chosen: r.Chosen, Cut: number(r.Cut), LowerIsRiskier: r.LowerIsRiskier,
-		Rows: r.Rows, Labelled: r.Labelled, Level: Level, Tolerance: r.Tolerance,
+		Rows: r.Rows, Labelled: r.Labelled, Level: Level, BaseRate: number(r.BaseRate), Tolerance: r.Tolerance,
 		AlertRateObserved: number(r.AlertRate.Observed), AlertRateProjected: number(r.AlertRate.Expected),
 		AlertRateCI: pair(r.AlertRate.ObservedCI), AlertRatePValue: pv(r.AlertRate),
 		PSI: number(r.PSI), PSINoise: number(r.PSINoise),
@@ -128,6 +129,11 @@ func WriteText(w io.Writer, r *Result, decisionFile, scoresFile string) error {
 	}
 	fmt.Fprintf(&b, "Check of %s against %s\n", scoresFile, decisionFile)
 	fmt.Fprintf(&b, "chosen cut   %s: flag when score %s %s\n", r.Chosen, sign, strconv.FormatFloat(r.Cut, 'g', -1, 64))
+	rate := "a base rate given when it was saved"
+	if r.BaseRateValidation {
+		rate = "the validation base rate"
+	}
+	fmt.Fprintf(&b, "expected     from %s (%s rows), projected at %s, %s\n", r.ValidationPath, count(float64(r.ValidationRows)), rate, percent(r.BaseRate))
 	flagged := count(r.Flagged) + " of them"
 	if r.Weighted {
 		flagged = count(r.Flagged) + " of weight " + count(r.Weight)
