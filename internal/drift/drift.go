@@ -79,7 +79,11 @@ type Result struct {
 
 // Check applies the chosen cut of f to set and runs the checks of the
 // package doc. f must have passed decision's Validate (Read and New
-// ensure it). set may be in any order.
+// ensure it). set may be in any order; its weights are frequency weights.
+// A set of no weight gives ErrNoRows and a tolerance outside [0,1)
+// ErrTolerance. With labels but no true case in set, recall is not tested
+// (Recall.Defined is false, and a finding says so); likewise precision
+// when the cut flags nothing.
 func Check(f *decision.File, set *scores.Set, opt Options) (*Result, error) {
 	if math.IsNaN(opt.Tolerance) || opt.Tolerance < 0 || opt.Tolerance >= 1 {
 		return nil, fmt.Errorf("%w %v: expected an absolute margin on shares in [0,1), such as 0.02", ErrTolerance, opt.Tolerance)
