@@ -25,7 +25,8 @@ func newCheckCmd() *cobra.Command {
 --save or the explorer) to fresh scores and asks whether production still
 behaves like the validation set the cut was chosen on. The scores are read
 like report's (CSV, TSV or JSON Lines, optionally gzip compressed; "-" reads
-standard input); the label column is optional here.
+standard input, as it does for the decision file); the label column is
+optional here.
 
 The checks:
   alert rate   the share the cut flags, with its Wilson interval, against the
@@ -58,7 +59,16 @@ decision file.`,
 			if math.IsNaN(tolerance) || tolerance < 0 || tolerance >= 1 {
 				return fmt.Errorf("--tolerance %v: expected a margin on shares in [0,1), such as 0.02 for two points", tolerance)
 			}
-			file, err := decision.ReadFile(args[0])
+			var file *decision.File
+			var err error
+			switch {
+			case args[0] == "-" && args[1] == "-":
+				return fmt.Errorf("the decision file and the new scores cannot both come from standard input")
+			case args[0] == "-":
+				file, err = decision.Read(cmd.InOrStdin(), "-")
+			default:
+				file, err = decision.ReadFile(args[0])
+			}
 			if err != nil {
 				return err
 			}

@@ -93,6 +93,10 @@ func TestCheckErrors(t *testing.T) {
 	good, _ := os.ReadFile(cutPath)
 	broken := writeFile(t, dir, "broken.yaml", []byte(strings.Replace(string(good), "chosen: \"hit=0.8\"", "chosen: \"hit=0.9\"", 1)))
 	notYAML := writeFile(t, dir, "not.yaml", []byte("format: [\n"))
+	// The decision file from standard input.
+	if r := runSill(t, string(good), "check", "-", validation); r.code != 0 || !strings.Contains(r.stdout, "against -") {
+		t.Errorf("decision file on stdin: exit %d, %s %s", r.code, r.stderr, r.stdout)
+	}
 	for _, tc := range []struct {
 		name string
 		args []string
@@ -107,6 +111,7 @@ func TestCheckErrors(t *testing.T) {
 		{"bad format", []string{"check", cutPath, validation, "--format", "xml"}, `--format "xml"`},
 		{"direction contradicts", []string{"check", cutPath, validation, "--lower-is-riskier"}, "contradicts"},
 		{"one argument", []string{"check", cutPath}, "accepts 2 arg"},
+		{"both from standard input", []string{"check", "-", "-"}, "cannot both come from standard input"},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			r := runSill(t, "", tc.args...)
