@@ -42,7 +42,16 @@ also what it does when standard output is not a terminal.`,
 			default:
 				return fmt.Errorf("--format %q: expected text or markdown", format)
 			}
-			file, err := decision.ReadFile(args[0])
+			var file *decision.File
+			var err error
+			if args[0] == "-" {
+				file, err = decision.Read(cmd.InOrStdin(), "-")
+				if format == "" {
+					format = "text" // the screen writes back to a file
+				}
+			} else {
+				file, err = decision.ReadFile(args[0])
+			}
 			if err != nil {
 				return err
 			}

@@ -78,6 +78,11 @@ func TestReviewPrint(t *testing.T) {
 			checkGolden(t, "demo-four-cuts-"+format, strings.ReplaceAll(r.stdout, cutPath, "cut.yaml"))
 		})
 	}
+	// From standard input.
+	data, _ := os.ReadFile(cutPath)
+	if r := runSill(t, string(data), "review", "-"); r.code != 0 || !strings.Contains(r.stdout, "Review of -") {
+		t.Errorf("review from stdin: exit %d, %s", r.code, r.stderr)
+	}
 	// Not a terminal and no --format: the text form.
 	if r := runSill(t, "", "review", cutPath); r.code != 0 || !strings.Contains(r.stdout, "queue=90 (chosen)") {
 		t.Errorf("review without --format off a terminal: exit %d, %q", r.code, r.stdout)
