@@ -265,12 +265,39 @@ func (b *builder) wanted() []int {
 	return cols
 }
 
+// Limits of quoteList, so that a garbled header (a binary file read as
+// text) gives an error of a few lines, not a screenful.
+const (
+	quoteListNames = 12  // names shown at most
+	quoteListWidth = 200 // characters of the list at most, before "…"
+)
+
+// quoteList quotes names as a bracketed list. Past quoteListNames names or
+// quoteListWidth characters it stops and says how many more there are.
 func quoteList(names []string) string {
-	quoted := make([]string, len(names))
+	var b strings.Builder
+	b.WriteString("[")
 	for i, n := range names {
-		quoted[i] = strconv.Quote(n)
+		q := strconv.Quote(n)
+		sep := ""
+		if i > 0 {
+			sep = ", "
+		}
+		if i == quoteListNames || len([]rune(b.String()))+len(sep)+len([]rune(q)) > quoteListWidth {
+			if i == 0 {
+				// One name longer than the whole list may be: cut it.
+				b.WriteString(string([]rune(q)[:quoteListWidth-1]) + "…")
+				if len(names) > 1 {
+					fmt.Fprintf(&b, " and %d more", len(names)-1)
+				}
+				return b.String() + "]"
+			}
+			fmt.Fprintf(&b, ", … and %d more", len(names)-i)
+			return b.String() + "]"
+		}
+		b.WriteString(sep + q)
 	}
-	return "[" + strings.Join(quoted, ", ") + "]"
+	return b.String() + "]"
 }
 
 // add parses one row; cell returns the text of a column index.
