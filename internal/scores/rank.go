@@ -220,7 +220,6 @@ func rankInPlace(scores []float64, labels []bool, weights []float64, lowerIsRisk
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			var counts [8][256]int
 			for {
 				d := int(claimed.Add(1) - 1)
 				if d >= bucketCount {
@@ -235,13 +234,9 @@ func rankInPlace(scores []float64, labels []bool, weights []float64, lowerIsRisk
 				if wts != nil {
 					c.weights, scratch.weights = wts[lo:hi], weights[lo:hi]
 				}
-				sortBucket(c, scratch, shift, &counts)
-				for i, k := range c.keys {
+				sortInto(c, scratch, shift)
+				for i, k := range scratch.keys {
 					scratch.keys[i] = scoreOfKey(math.Float64bits(k), lowerIsRiskier)
-				}
-				copy(scratch.labels, c.labels)
-				if wts != nil {
-					copy(scratch.weights, c.weights)
 				}
 			}
 		}()
@@ -256,54 +251,129 @@ type bucketColumns struct {
 	weights []float64 // nil when unweighted
 }
 
-// sortBucket sorts c stably by the key bits below shift, using scratch (of
-// the same length) as room; the result is in c.
-func sortBucket(c, scratch bucketColumns, shift uint, counts *[8][256]int) {
-	n := len(c.keys)
-	if n < smallBucket {
-		insertionSort(c)
+// sortInto sorts from stably by the key bits below bits (the bits above
+// are the same in every key) and leaves the result in to, which has the
+// same length; from's contents are lost. It is a most-significant-digit
+// radix sort, a byte a level, that ends in insertion sorts of short runs.
+func sortInto(from, to bucketColumns, bits uint) {
+	for {
+		n := len(from.keys)
+		if n < smallBucket || bits == 0 {
+			if bits > 0 {
+				insertionSort(from)
+			}
+			from.copyTo(to)
+			return
+		}
+		var next bool
+		if bits, next = narrow(from, bits); !next {
+			from.copyTo(to) // every key is the same
+			return
+		}
+		digitBits := min(8, bits)
+		shift := bits - digitBits
+		var offsets [257]int
+		scatter(from, to, shift, digitBits, &offsets)
+		for d := range 1 << digitBits {
+			if lo, hi := offsets[d], offsets[d+1]; hi-lo > 1 {
+				sortHere(to.slice(lo, hi), from.slice(lo, hi), shift)
+			}
+		}
 		return
 	}
-	passes := int(shift+7) / 8
-	for p := range passes {
-		counts[p] = [256]int{}
+}
+
+// sortHere is sortInto with the result left in a; scratch is room of the
+// same length.
+func sortHere(a, scratch bucketColumns, bits uint) {
+	n := len(a.keys)
+	if n < smallBucket || bits == 0 {
+		if bits > 0 {
+			insertionSort(a)
+		}
+		return
 	}
-	for _, k := range c.keys {
-		bits := math.Float64bits(k)
-		for p := range passes {
-			counts[p][byte(bits>>(8*p))]++
-		}
+	bits, next := narrow(a, bits)
+	if !next {
+		return
 	}
-	from, to := c, scratch
-	for p := range passes {
-		digitShift := uint(8 * p)
-		h := &counts[p]
-		if h[byte(math.Float64bits(from.keys[0])>>digitShift)] == n {
-			continue // every key has this byte
-		}
-		offset := 0
-		for d, count := range h {
-			h[d] = offset
-			offset += count
-		}
-		for i, k := range from.keys {
-			d := byte(math.Float64bits(k) >> digitShift)
-			j := h[d]
-			to.keys[j] = k
-			to.labels[j] = from.labels[i]
-			if from.weights != nil {
-				to.weights[j] = from.weights[i]
+	digitBits := min(8, bits)
+	shift := bits - digitBits
+	var offsets [257]int
+	scatter(a, scratch, shift, digitBits, &offsets)
+	for d := range 1 << digitBits {
+		lo, hi := offsets[d], offsets[d+1]
+		switch {
+		case hi-lo == 1:
+			a.keys[lo], a.labels[lo] = scratch.keys[lo], scratch.labels[lo]
+			if a.weights != nil {
+				a.weights[lo] = scratch.weights[lo]
 			}
-			h[d] = j + 1
+		case hi > lo:
+			sortInto(scratch.slice(lo, hi), a.slice(lo, hi), shift)
 		}
-		from, to = to, from
 	}
-	if &from.keys[0] != &c.keys[0] {
-		copy(c.keys, from.keys)
-		copy(c.labels, from.labels)
-		if c.weights != nil {
-			copy(c.weights, from.weights)
+}
+
+// narrow returns how many low bits still vary among the keys of c, at
+// most width; next is false when every key is the same.
+func narrow(c bucketColumns, width uint) (uint, bool) {
+	first := math.Float64bits(c.keys[0])
+	var differ uint64
+	for _, k := range c.keys[1:] {
+		differ |= math.Float64bits(k) ^ first
+	}
+	differ &= 1<<width - 1
+	if differ == 0 {
+		return 0, false
+	}
+	return uint(64 - bits.LeadingZeros64(differ)), true
+}
+
+// scatter moves from into to, stably by the digit of digitBits bits at
+// shift; offsets[d] is where digit d starts in to, offsets[1<<digitBits]
+// the end.
+func scatter(from, to bucketColumns, shift, digitBits uint, offsets *[257]int) {
+	mask := uint64(1)<<digitBits - 1
+	var counts [256]int
+	for _, k := range from.keys {
+		counts[(math.Float64bits(k)>>shift)&mask]++
+	}
+	offset := 0
+	for d := range 1 << digitBits {
+		offsets[d] = offset
+		offset += counts[d]
+	}
+	offsets[1<<digitBits] = offset
+	next := counts
+	for d := range 1 << digitBits {
+		next[d] = offsets[d]
+	}
+	for i, k := range from.keys {
+		d := (math.Float64bits(k) >> shift) & mask
+		j := next[d]
+		to.keys[j] = k
+		to.labels[j] = from.labels[i]
+		if from.weights != nil {
+			to.weights[j] = from.weights[i]
 		}
+		next[d] = j + 1
+	}
+}
+
+func (c bucketColumns) slice(lo, hi int) bucketColumns {
+	s := bucketColumns{keys: c.keys[lo:hi], labels: c.labels[lo:hi]}
+	if c.weights != nil {
+		s.weights = c.weights[lo:hi]
+	}
+	return s
+}
+
+func (c bucketColumns) copyTo(to bucketColumns) {
+	copy(to.keys, c.keys)
+	copy(to.labels, c.labels)
+	if c.weights != nil {
+		copy(to.weights, c.weights)
 	}
 }
 

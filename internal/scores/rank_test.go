@@ -13,7 +13,7 @@ func TestRankInPlaceMatchesPermutation(t *testing.T) {
 	rng := rand.New(rand.NewPCG(5, 7))
 	for _, n := range []int{2, 3, 100, 1500, parallelSortRows + 17, 200000} {
 		for _, lower := range []bool{false, true} {
-			for _, kind := range []string{"fine", "coarse", "mixed-sign", "sorted"} {
+			for _, kind := range []string{"fine", "coarse", "mixed-sign", "sorted", "low-bits", "clustered"} {
 				scores := make([]float64, n)
 				labels := make([]bool, n)
 				weights := make([]float64, n)
@@ -27,6 +27,13 @@ func TestRankInPlaceMatchesPermutation(t *testing.T) {
 						scores[i] = math.Copysign(float64(rng.IntN(1000)), rng.Float64()-0.5) * 1e-3
 						if rng.IntN(20) == 0 {
 							scores[i] = math.Copysign(0, -1)
+						}
+					case "low-bits": // keys that differ only in their last 20 bits
+						scores[i] = 0.5 + float64(rng.IntN(1<<20))*0x1p-53
+					case "clustered": // a third of the rows on one score, the rest spread
+						scores[i] = rng.Float64()
+						if rng.IntN(3) == 0 {
+							scores[i] = 0.25
 						}
 					case "sorted":
 						scores[i] = float64(n - i)
