@@ -260,3 +260,52 @@ func TestLayoutReview(t *testing.T) {
 		}
 	}
 }
+
+// drawReviewLayout draws each rectangle of l as a labelled ASCII box.
+func drawReviewLayout(l reviewLayout, width, height int) string {
+	if l.tooSmall {
+		return "too small\n"
+	}
+	grid := make([][]rune, height)
+	for y := range grid {
+		grid[y] = []rune(strings.Repeat(" ", width))
+	}
+	box := func(r rect, label string) {
+		for x := r.X; x < r.X+r.W; x++ {
+			grid[r.Y][x], grid[r.Y+r.H-1][x] = '-', '-'
+		}
+		for y := r.Y; y < r.Y+r.H; y++ {
+			grid[y][r.X], grid[y][r.X+r.W-1] = '|', '|'
+		}
+		for _, c := range [][2]int{{r.X, r.Y}, {r.X + r.W - 1, r.Y}, {r.X, r.Y + r.H - 1}, {r.X + r.W - 1, r.Y + r.H - 1}} {
+			grid[c[1]][c[0]] = '+'
+		}
+		if r.H == 1 {
+			for x := r.X; x < r.X+r.W; x++ {
+				grid[r.Y][x] = '='
+			}
+		}
+		for i, ch := range label {
+			if x := r.X + 2 + i; x < r.X+r.W-1 {
+				grid[r.Y+r.H/2][x] = ch
+			}
+		}
+	}
+	box(l.header, "header")
+	box(l.strip, "strip")
+	box(l.notes, "notes")
+	box(l.footer, "footer")
+	var b strings.Builder
+	for _, row := range grid {
+		b.WriteString(string(row) + "\n")
+	}
+	return b.String()
+}
+
+func TestLayoutReviewDrawn(t *testing.T) {
+	frame := frameSize{W: 2, H: 2}
+	for _, tc := range []struct{ w, h, stripLines int }{{60, 16, 16}, {80, 24, 16}, {80, 40, 16}, {40, 20, 16}} {
+		name := strconv.Itoa(tc.w) + "x" + strconv.Itoa(tc.h) + "-strip-" + strconv.Itoa(tc.stripLines) + "-lines"
+		checkGolden(t, name, drawReviewLayout(layoutReview(tc.w, tc.h, tc.stripLines, frame), tc.w, tc.h))
+	}
+}
