@@ -135,7 +135,7 @@ func rawCases(n int, seed uint64) []rawCase {
 // reference is the raw rows read by sill with their scores rounded in Go
 // the way the query rounds them, the yard "west" left out as the query's
 // condition leaves it out.
-func reference(t *testing.T, cases []rawCase, digits int) *scores.Set {
+func reference(t *testing.T, cases []rawCase, digits int, positive string) *scores.Set {
 	t.Helper()
 	var b strings.Builder
 	b.WriteString("score,label,yard\n")
@@ -147,7 +147,7 @@ func reference(t *testing.T, cases []rawCase, digits int) *scores.Set {
 		rounded := math.Floor(c.score*scale+0.5) / scale
 		fmt.Fprintf(&b, "%s,%s,%s\n", strconv.FormatFloat(rounded, 'g', -1, 64), c.label, c.yard)
 	}
-	set, err := scores.Read(strings.NewReader(b.String()), "raw.csv", scores.Options{SegmentColumn: "yard"})
+	set, err := scores.Read(strings.NewReader(b.String()), "raw.csv", scores.Options{SegmentColumn: "yard", Positive: positive})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -212,7 +212,8 @@ func insertSQL(table string, cases []rawCase, scoreType string) string {
 
 // TestCountsQueryOnSQLite loads a raw table into SQLite (the sqlite3
 // command line), runs the printed query, and checks that the counts table
-// it returns gives the curve of the raw rows rounded to 3 digits.
+// it returns gives the curve of the raw rows rounded to 3 digits, with the
+// label words and with --positive.
 func TestCountsQueryOnSQLite(t *testing.T) {
 	sqlite, err := exec.LookPath("sqlite3")
 	if err != nil {
@@ -241,7 +242,20 @@ func TestCountsQueryOnSQLite(t *testing.T) {
 	if err != nil {
 		t.Fatalf("%v\nquery output begins %q", err, out[:min(len(out), 300)])
 	}
-	sameCurve(t, "sqlite", reference(t, cases, 3), set)
+	sameCurve(t, "sqlite", reference(t, cases, 3, ""), set)
+
+	// With --positive only that text is a true case: " Yes", "1" and the
+	// rest count as false cases here.
+	q := testQuery()
+	q.Positive = "TRUE"
+	if query, err = q.SQL(); err != nil {
+		t.Fatal(err)
+	}
+	out = run(query, "-csv", "-header")
+	if set, err = scores.ReadCounts(bytes.NewReader(out), "sqlite.csv", scores.Options{SegmentColumn: yardColumn}); err != nil {
+		t.Fatal(err)
+	}
+	sameCurve(t, "sqlite --positive", reference(t, cases, 3, "TRUE"), set)
 }
 
 // TestCountsQueryOnPostgres does the same on PostgreSQL through psql. It
@@ -285,6 +299,6 @@ func TestCountsQueryOnPostgres(t *testing.T) {
 		if err != nil {
 			t.Fatalf("%s: %v\nquery output begins %q", scoreType, err, out[:min(len(out), 300)])
 		}
-		sameCurve(t, "postgres "+scoreType, reference(t, cases, 3), set)
+		sameCurve(t, "postgres "+scoreType, reference(t, cases, 3, ""), set)
 	}
 }
