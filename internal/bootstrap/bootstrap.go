@@ -20,6 +20,7 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"github.com/sill-tool/sill/internal/quantile"
 	"math"
 	"math/rand/v2"
 	"runtime"
@@ -241,27 +242,7 @@ func percentiles(values []float64, atLeast int) ([2]float64, int) {
 		return [2]float64{math.NaN(), math.NaN()}, len(defined)
 	}
 	sort.Float64s(defined)
-	return [2]float64{Percentile(defined, Low), Percentile(defined, High)}, len(defined)
-}
-
-// Percentile returns the q-quantile of ascending values, interpolating
-// linearly between order statistics: position q*(n-1), numpy's default.
-// It returns NaN for no values and panics when q is outside [0,1].
-func Percentile(ascending []float64, q float64) float64 {
-	if !(q >= 0 && q <= 1) {
-		panic(fmt.Sprintf("bootstrap: percentile %v outside [0,1]", q))
-	}
-	n := len(ascending)
-	if n == 0 {
-		return math.NaN()
-	}
-	h := q * float64(n-1)
-	j := int(math.Floor(h))
-	if j >= n-1 {
-		return ascending[n-1]
-	}
-	t := h - float64(j)
-	return ascending[j] + t*(ascending[j+1]-ascending[j])
+	return [2]float64{quantile.Linear(defined, Low), quantile.Linear(defined, High)}, len(defined)
 }
 
 type bandCut struct {

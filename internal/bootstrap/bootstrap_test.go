@@ -59,24 +59,6 @@ func rules(t testing.TB, specs ...string) []cutrule.Rule {
 
 var assume = projection.Assumptions{BaseRate: 0.5, Confidence: 0.95}
 
-// TestPercentile: numpy's default, hand-worked. Of (1,2,3,4): q 0.05 sits
-// at position 0.15, 1 + 0.15 = 1.15; q 0.95 at 2.85, 3.85; q 0.5 at 1.5,
-// 2.5. One value is every percentile; none is NaN.
-func TestPercentile(t *testing.T) {
-	v := []float64{1, 2, 3, 4}
-	for q, want := range map[float64]float64{0.05: 1.15, 0.95: 3.85, 0.5: 2.5, 0: 1, 1: 4} {
-		if got := bootstrap.Percentile(v, q); math.Abs(got-want) > 1e-12 {
-			t.Errorf("q %v: %v, want %v", q, got, want)
-		}
-	}
-	if got := bootstrap.Percentile([]float64{7}, 0.95); got != 7 {
-		t.Errorf("one value: %v", got)
-	}
-	if got := bootstrap.Percentile(nil, 0.5); !math.IsNaN(got) {
-		t.Errorf("none: %v", got)
-	}
-}
-
 // TestReproducible: the same seed gives the same result whatever the
 // number of workers; another seed gives another.
 func TestReproducible(t *testing.T) {

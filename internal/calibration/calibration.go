@@ -14,6 +14,7 @@ package calibration
 import (
 	"errors"
 	"fmt"
+	"github.com/sill-tool/sill/internal/quantile"
 	"math"
 	"sort"
 
@@ -108,7 +109,7 @@ func Reliability(set *scores.Set, bins int, binning Binning) (Table, error) {
 				q = 1
 			}
 			q = float64(q*100) / 100
-			edges[k] = percentile(ascending, q)
+			edges[k] = quantile.Linear(ascending, q)
 		}
 		if set.Len() == 0 {
 			for k := range edges {
@@ -168,28 +169,6 @@ func Probabilities(set *scores.Set) bool {
 		}
 	}
 	return true
-}
-
-// percentile returns the q-quantile of ascending values by linear
-// interpolation between order statistics (numpy's default), NaN when
-// there are none.
-func percentile(ascending []float64, q float64) float64 {
-	n := len(ascending)
-	if n == 0 {
-		return math.NaN()
-	}
-	h := q * float64(n-1)
-	j := int(math.Floor(h))
-	if j >= n-1 {
-		return ascending[n-1]
-	}
-	t := h - float64(j)
-	a, b := ascending[j], ascending[j+1]
-	// numpy's lerp, which is exact at both ends.
-	if t >= 0.5 {
-		return b - (b-a)*(1-t)
-	}
-	return a + (b-a)*t
 }
 
 // CostThreshold returns the probability above which flagging a case costs
