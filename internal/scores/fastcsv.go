@@ -292,8 +292,16 @@ func (p *blockParser) parse(blk *block) {
 	blk.newlines = rowsAtMost - 1
 	quotes := bytes.IndexByte(data, '"') >= 0
 	delim := p.delim
+	// The commonest table, score then a 0/1 label, has a path of its own.
+	twoColumns := p.fields == 2 && b.scoreCol == 0 && b.labelCol == 1 && b.opt.Positive == ""
 	var cells [3][]byte // score, label, weight
 	for line := 0; len(data) > 0; line++ {
+		if twoColumns {
+			if rest, ok := p.plainRow(blk, data); ok {
+				data = rest
+				continue
+			}
+		}
 		// One pass over the row finds its end and its cells.
 		field, start, end := 0, 0, 0
 		cells = [3][]byte{}
@@ -338,6 +346,51 @@ func (p *blockParser) parse(blk *block) {
 			return
 		}
 	}
+}
+
+// plainRow reads one row of the form digits[.digits] delimiter 0|1, then
+// an optional carriage return and a line feed or the end of the block, in
+// a single pass over its bytes. ok is false, and nothing is read, for a
+// row of any other form, which the general path then reads.
+func (p *blockParser) plainRow(blk *block, data []byte) (rest []byte, ok bool) {
+	var mantissa uint64
+	digits, fraction, i := 0, -1, 0
+	for ; i < len(data); i++ {
+		c := data[i]
+		if c >= '0' && c <= '9' {
+			mantissa = mantissa*10 + uint64(c-'0')
+			digits++
+			if fraction >= 0 {
+				fraction++
+			}
+			continue
+		}
+		if c == '.' && fraction < 0 {
+			fraction = 0
+			continue
+		}
+		break
+	}
+	if digits == 0 || digits > 15 || i+1 >= len(data) || data[i] != p.delim || (data[i+1] != '0' && data[i+1] != '1') {
+		return nil, false
+	}
+	end := i + 2
+	if end < len(data) && data[end] == '\r' {
+		end++
+	}
+	if end < len(data) {
+		if data[end] != '\n' {
+			return nil, false
+		}
+		end++
+	}
+	score := float64(mantissa)
+	if fraction > 0 {
+		score /= pow10[fraction] // exact as in plainFloat
+	}
+	blk.scores = append(blk.scores, score)
+	blk.labels = append(blk.labels, data[i+1] == '1')
+	return data[end:], true
 }
 
 // keep puts the text of a field into cells when it is a column in use.
