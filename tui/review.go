@@ -3,7 +3,6 @@ package tui
 import (
 	"errors"
 	"fmt"
-	"math"
 	"strings"
 
 	"github.com/charmbracelet/bubbles/key"
@@ -140,9 +139,7 @@ func (r Review) table() compare.Table {
 	for i, c := range f.Candidates {
 		columns[i] = compare.Column{Name: c.Name, Rule: c.Rule, Cut: c.Cut}
 	}
-	total := f.Data.Positives + f.Data.Negatives
-	changed := !(total > 0) || math.Abs(f.Assumptions.BaseRate-f.Data.Positives/total) > 1e-12
-	return compare.New(columns, r.chosen(), compare.Options{Assumptions: f.Assumptions, BaseRateChanged: changed, LowerIsRiskier: f.Data.LowerIsRiskier})
+	return compare.New(columns, r.chosen(), compare.Options{Assumptions: f.Assumptions, BaseRateChanged: f.BaseRateChanged(), LowerIsRiskier: f.Data.LowerIsRiskier})
 }
 
 // refresh brings the strip up to date with the file and the selection.

@@ -76,6 +76,18 @@ func (f *File) ChosenCandidate() (Candidate, bool) {
 	return Candidate{}, false
 }
 
+// BaseRateChanged reports whether the production base rate in the
+// assumptions differs from the validation set's own, so that projected
+// figures differ from the validation ones. A set of no weight counts as
+// changed.
+func (f *File) BaseRateChanged() bool {
+	total := f.Data.Positives + f.Data.Negatives
+	if !(total > 0) {
+		return true
+	}
+	return math.Abs(f.Assumptions.BaseRate-f.Data.Positives/total) > 1e-12
+}
+
 // New builds the File of a validation set, its assumptions and the
 // candidates pinned on it. chosen names the chosen candidate; "" chooses
 // the first. The score histogram is computed from set (see NewHistogram)

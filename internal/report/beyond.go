@@ -121,14 +121,14 @@ func (r *Report) writeSections(b *strings.Builder) {
 // writeSectionsMarkdown writes the added sections as Markdown tables.
 func (r *Report) writeSectionsMarkdown(b *strings.Builder) {
 	for _, s := range r.sections {
-		fmt.Fprintf(b, "\n\n### %s\n\n", mdEscape(s.title))
+		fmt.Fprintf(b, "\n\n### %s\n\n", MarkdownEscape(s.title))
 		b.WriteString("| " + strings.Join(mdEscapeAll(s.table.header), " | ") + " |\n")
 		b.WriteString("|" + strings.Repeat(" --- |", len(s.table.header)) + "\n")
 		for _, row := range s.table.rows {
 			b.WriteString("| " + strings.Join(mdEscapeAll(row), " | ") + " |\n")
 		}
 		for _, n := range s.notes {
-			b.WriteString("\n- " + mdEscape(n))
+			b.WriteString("\n- " + MarkdownEscape(n))
 		}
 	}
 }

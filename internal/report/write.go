@@ -173,7 +173,7 @@ func WriteText(w io.Writer, r *Report) error {
 // WriteMarkdown writes r for pasting into a review document.
 func WriteMarkdown(w io.Writer, r *Report) error {
 	var b strings.Builder
-	fmt.Fprintf(&b, "## Operating cuts: %s\n\n", mdEscape(r.Source))
+	fmt.Fprintf(&b, "## Operating cuts: %s\n\n", MarkdownEscape(r.Source))
 	fmt.Fprintf(&b, "- %s, %s (base rate %s)%s\n", plural(r.Rows, "row", "rows"), amount(r.Positives, "true case", "true cases"), Percent(float64(r.BaseRate)), map[bool]string{true: ", weighted", false: ""}[r.Weighted])
 	fmt.Fprintf(&b, "- ROC AUC %s, average precision %s", Fixed(float64(r.ROCAUC), 3), Fixed(float64(r.AveragePrecision), 3))
 	if evidence.Defined(float64(r.Brier)) {
@@ -192,12 +192,12 @@ func WriteMarkdown(w io.Writer, r *Report) error {
 	}
 	for _, c := range r.Cuts {
 		if !c.Met {
-			fmt.Fprintf(&b, "\n- `%s` unmet: %s", c.Spec, mdEscape(*c.Reason))
+			fmt.Fprintf(&b, "\n- `%s` unmet: %s", c.Spec, MarkdownEscape(*c.Reason))
 		}
 	}
 	r.writeSectionsMarkdown(&b)
 	for _, warning := range r.Warnings {
-		fmt.Fprintf(&b, "\n- **Warning:** %s", mdEscape(warning))
+		fmt.Fprintf(&b, "\n- **Warning:** %s", MarkdownEscape(warning))
 	}
 	text := singleBlankLines(strings.TrimRight(b.String(), "\n")) + "\n\n> **Caution.** " + r.Caution + "\n"
 	_, err := io.WriteString(w, text)
@@ -234,17 +234,21 @@ func (r *Report) assumptionLine() string {
 
 // writeGrid writes t with columns padded to their widest cell.
 func writeGrid(b *strings.Builder, t table) {
-	widths := make([]int, len(t.header))
-	measure := func(row []string) {
+	b.WriteString(Grid(t.header, t.rows))
+}
+
+// Grid lays out a heading and rows as text columns padded to their widest
+// cell: the first column left-aligned, the others right-aligned, two
+// spaces apart, with no trailing spaces.
+func Grid(header []string, rows [][]string) string {
+	widths := make([]int, len(header))
+	for _, row := range append([][]string{header}, rows...) {
 		for i, cell := range row {
 			widths[i] = max(widths[i], len([]rune(cell)))
 		}
 	}
-	measure(t.header)
-	for _, row := range t.rows {
-		measure(row)
-	}
-	line := func(row []string) {
+	var b strings.Builder
+	for _, row := range append([][]string{header}, rows...) {
 		var l strings.Builder
 		for i, cell := range row {
 			pad := strings.Repeat(" ", widths[i]-len([]rune(cell)))
@@ -256,20 +260,19 @@ func writeGrid(b *strings.Builder, t table) {
 		}
 		b.WriteString(strings.TrimRight(l.String(), " ") + "\n") // no trailing spaces after an empty last cell
 	}
-	line(t.header)
-	for _, row := range t.rows {
-		line(row)
-	}
+	return b.String()
 }
 
-func mdEscape(s string) string {
-	return strings.NewReplacer("|", `\|`, "*", `\*`, "_", `\_`, "`", "\\`").Replace(s)
+// MarkdownEscape escapes the characters that Markdown tables and emphasis
+// read, and folds line breaks into spaces.
+func MarkdownEscape(s string) string {
+	return strings.NewReplacer("|", `\|`, "*", `\*`, "_", `\_`, "`", "\\`", "\n", " ").Replace(s)
 }
 
 func mdEscapeAll(cells []string) []string {
 	out := make([]string, len(cells))
 	for i, c := range cells {
-		out[i] = mdEscape(c)
+		out[i] = MarkdownEscape(c)
 	}
 	return out
 }

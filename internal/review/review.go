@@ -1,0 +1,199 @@
+// Package review prints the candidates of a decision file side by side,
+// for a lead who signs off a cut without the data.
+package review
+
+import (
+	"fmt"
+	"io"
+	"strings"
+
+	"github.com/sill-tool/sill/internal/compare"
+	"github.com/sill-tool/sill/internal/decision"
+	"github.com/sill-tool/sill/internal/report"
+)
+
+// table lays out the file's candidates against the chosen one,
+// which comes first; the others keep the file's order.
+func table(f *decision.File) compare.Table {
+	var columns []compare.Column
+	for _, c := range f.Candidates {
+		column := compare.Column{Name: c.Name, Rule: c.Rule, Cut: c.Cut}
+		if c.Name == f.Chosen {
+			columns = append([]compare.Column{column}, columns...)
+		} else {
+			columns = append(columns, column)
+		}
+	}
+	return compare.New(columns, 0, compare.Options{
+		Assumptions:     f.Assumptions,
+		BaseRateChanged: f.BaseRateChanged(),
+		LowerIsRiskier:  f.Data.LowerIsRiskier,
+	})
+}
+
+// facts are the lines above the table: what the file says about the
+// data, the assumptions and the chosen cut.
+func facts(f *decision.File) [][2]string {
+	d, a := f.Data, f.Assumptions
+	sign := ">="
+	if d.LowerIsRiskier {
+		sign = "<="
+	}
+	chosen, _ := f.ChosenCandidate()
+	data := fmt.Sprintf("%s · %s rows, %s true cases · sha256 %s", d.Path, report.Count(float64(d.Rows)), report.Count(d.Positives), shortDigest(d.SHA256))
+	columns := fmt.Sprintf("score %q, label %q", d.ScoreColumn, d.LabelColumn)
+	if d.WeightColumn != "" {
+		columns += fmt.Sprintf(", weight %q", d.WeightColumn)
+	}
+	assume := []string{"base rate " + report.Percent(a.BaseRate)}
+	if !f.BaseRateChanged() {
+		assume[0] += " (the validation rate)"
+	}
+	if a.Volume > 0 {
+		assume = append(assume, report.Count(a.Volume)+" cases per shift")
+	}
+	if a.Capacity > 0 {
+		assume = append(assume, "capacity "+report.Count(a.Capacity)+" alerts per shift")
+	}
+	if c := a.Costs; c != nil {
+		assume = append(assume, fmt.Sprintf("costs: wrong alert %s, miss %s, hit %s", report.Money(c.FalseAlert), report.Money(c.Miss), report.Money(c.Hit)))
+	}
+	assume = append(assume, fmt.Sprintf("intervals at %g%%", 100*a.Confidence))
+	return [][2]string{
+		{"data", data},
+		{"columns", columns},
+		{"assumptions", strings.Join(assume, " · ")},
+		{"chosen", fmt.Sprintf("%s: flag a case when its score %s %s", chosen.Name, sign, report.Score(chosen.Cut.Score))},
+		{"written", f.Created.UTC().Format("2006-01-02 15:04 MST") + " by sill " + f.ToolVersion},
+	}
+}
+
+func shortDigest(d string) string {
+	if len(d) > 12 {
+		return d[:12]
+	}
+	return d
+}
+
+// allNotes lists the file's note and the candidates' notes.
+func allNotes(f *decision.File) [][2]string {
+	var notes [][2]string
+	oneLine := func(s string) string { return strings.Join(strings.Fields(s), " ") } // a hand-edited note may hold line breaks
+	if f.Note != "" {
+		notes = append(notes, [2]string{"file", oneLine(f.Note)})
+	}
+	for _, c := range f.Candidates {
+		if c.Note != "" {
+			notes = append(notes, [2]string{c.Name, oneLine(c.Note)})
+		}
+	}
+	return notes
+}
+
+// grid returns the table's heading and rows as cells: the figure,
+// then each candidate's value and (except the chosen one) its difference.
+func grid(t compare.Table) (header []string, rows [][]string) {
+	header = []string{"figure"}
+	for c, name := range t.Names {
+		if c == t.Reference {
+			header = append(header, name+" (chosen)")
+			continue
+		}
+		header = append(header, name, "vs chosen")
+	}
+	ruleRow := []string{"rule"}
+	rulesDiffer := false
+	for c, rule := range t.Rules {
+		rulesDiffer = rulesDiffer || rule != t.Names[c]
+		if rule == "" {
+			rule = "by hand"
+		}
+		ruleRow = append(ruleRow, rule)
+		if c != t.Reference {
+			ruleRow = append(ruleRow, "")
+		}
+	}
+	if rulesDiffer { // names are the rules when saved by sill report
+		rows = append(rows, ruleRow)
+	}
+	for _, r := range t.Rows {
+		row := []string{r.Figure}
+		for c := range t.Names {
+			row = append(row, r.Cells[c])
+			if c != t.Reference {
+				row = append(row, r.Diffs[c])
+			}
+		}
+		rows = append(rows, row)
+	}
+	return header, rows
+}
+
+// WriteText writes the side-by-side comparison of f's candidates, the
+// chosen one first, for a terminal or a plain-text sign-off. path names the
+// file in the heading.
+func WriteText(w io.Writer, f *decision.File, path string) error {
+	var b strings.Builder
+	noun := "candidates"
+	if len(f.Candidates) == 1 {
+		noun = "candidate"
+	}
+	fmt.Fprintf(&b, "Review of %s: %d %s\n\n", path, len(f.Candidates), noun)
+	for _, fact := range facts(f) {
+		fmt.Fprintf(&b, "%-12s %s\n", fact[0], fact[1])
+	}
+	b.WriteString("\n")
+	header, rows := grid(table(f))
+	b.WriteString(report.Grid(header, rows))
+	if notes := allNotes(f); len(notes) > 0 {
+		b.WriteString("\nnotes\n")
+		for _, n := range notes {
+			fmt.Fprintf(&b, "  %s: %s\n", n[0], n[1])
+		}
+	}
+	b.WriteString("\n" + f.Caution + "\n")
+	_, err := io.WriteString(w, b.String())
+	return err
+}
+
+// WriteMarkdown writes the same comparison as WriteText as Markdown, with
+// a sign-off block, for pasting into a review document.
+func WriteMarkdown(w io.Writer, f *decision.File, path string) error {
+	var b strings.Builder
+	fmt.Fprintf(&b, "# Cut review: %s\n\n", report.MarkdownEscape(path))
+	for _, fact := range facts(f) {
+		fmt.Fprintf(&b, "- **%s:** %s\n", fact[0], report.MarkdownEscape(fact[1]))
+	}
+	b.WriteString("\n")
+	header, rows := grid(table(f))
+	row := func(cells []string) {
+		escaped := make([]string, len(cells))
+		for i, c := range cells {
+			escaped[i] = report.MarkdownEscape(c)
+		}
+		b.WriteString("| " + strings.Join(escaped, " | ") + " |\n")
+	}
+	row(header)
+	align := []string{"---"}
+	for range header[1:] {
+		align = append(align, "---:")
+	}
+	b.WriteString("| " + strings.Join(align, " | ") + " |\n")
+	for _, r := range rows {
+		if strings.HasPrefix(r[0], "  ") { // a detail row, whose indent Markdown drops
+			r = append([]string{"· " + strings.TrimSpace(r[0])}, r[1:]...)
+		}
+		row(r)
+	}
+	if notes := allNotes(f); len(notes) > 0 {
+		b.WriteString("\n## Notes\n\n")
+		for _, n := range notes {
+			fmt.Fprintf(&b, "- **%s:** %s\n", report.MarkdownEscape(n[0]), report.MarkdownEscape(n[1]))
+		}
+	}
+	b.WriteString("\n## Sign-off\n\n")
+	b.WriteString("- Reviewed by: \n- Date: \n- Decision: \n")
+	b.WriteString("\n> **Caution.** " + report.MarkdownEscape(f.Caution) + "\n")
+	_, err := io.WriteString(w, b.String())
+	return err
+}
