@@ -14,9 +14,10 @@ import (
 
 func newCheckCmd() *cobra.Command {
 	var (
-		input     inputFlags
-		format    string
-		tolerance float64
+		input        inputFlags
+		format       string
+		tolerance    float64
+		ignoreLabels bool
 	)
 	cmd := &cobra.Command{
 		Use:   "check FILE.yaml NEW_SCORES",
@@ -26,7 +27,8 @@ func newCheckCmd() *cobra.Command {
 behaves like the validation set the cut was chosen on. The scores are read
 like report's (CSV, TSV or JSON Lines, optionally gzip compressed; "-" reads
 standard input, as it does for the decision file); the label column is
-optional here.
+optional here, and --ignore-labels skips one whose outcomes are not known
+yet (blank cells).
 
 The checks:
   alert rate   the share the cut flags, with its Wilson interval, against the
@@ -81,6 +83,7 @@ decision file.`,
 			}
 			input.opt.LowerIsRiskier = file.Data.LowerIsRiskier
 			input.opt.NoLabels = true // outcomes are often not known yet
+			input.opt.IgnoreLabels = ignoreLabels
 			if !fs.Changed("score") && !isDefaultName(file.Data.ScoreColumn, scores.DefaultScoreColumns) {
 				input.opt.ScoreColumn = file.Data.ScoreColumn
 			}
@@ -112,6 +115,7 @@ decision file.`,
 	fs := cmd.Flags()
 	input.register(fs)
 	fs.StringVar(&format, "format", "text", "output: text or json")
+	fs.BoolVar(&ignoreLabels, "ignore-labels", false, "check the alert rate and scores only, even where a label column is present")
 	fs.Float64Var(&tolerance, "tolerance", 0, "practical margin on every share, e.g. 0.02 for two percentage points")
 	return cmd
 }

@@ -246,7 +246,7 @@ func (r *Result) findings() {
 			notes = append(notes, "the cut flags nothing in the new data, so precision was not checked")
 		}
 	} else {
-		notes = append(notes, "the new data have no label column, so recall and precision were not checked")
+		notes = append(notes, "no labels were read from the new data (no label column, or --ignore-labels), so recall and precision were not checked")
 	}
 	r.Drift = len(drift) > 0
 	r.Findings = append(drift, notes...)

@@ -166,7 +166,7 @@ func TestCheckScenarios(t *testing.T) {
 		{"the validation set itself", validation, true, false, 1e-12, -1, nil},
 		{"a fresh draw of the same process", bearingSet(t, 2, 4000, 0.07, 0), true, false, PSIModerate, -1, nil},
 		{"a fresh draw without labels", bearingSet(t, 3, 4000, 0.07, 0), false, false, PSIModerate, -1,
-			[]string{"no label column, so recall and precision were not checked"}},
+			[]string{"so recall and precision were not checked"}},
 		{"base rate tripled", bearingSet(t, 4, 4000, 0.21, 0), true, true, math.Inf(1), -1,
 			[]string{"alert rate drifted", "points higher", "precision drifted"}},
 		{"scores shifted up", bearingSet(t, 5, 4000, 0.07, 0.8), true, true, math.Inf(1), PSILarge,

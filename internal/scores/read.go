@@ -65,6 +65,11 @@ type Options struct {
 	// false. Used for fresh production scores whose outcomes are unknown.
 	NoLabels bool
 
+	// IgnoreLabels reads no label column even where one is present: every
+	// label reads as false and Set.LabelColumn is "". For production scores
+	// whose outcome column is still blank.
+	IgnoreLabels bool
+
 	// Positive, when set, is the only label value read as a true case;
 	// every other value is a false case. When empty the labels
 	// 1/true/yes/y/t/positive/pos and 0/false/no/n/f/negative/neg are
@@ -217,7 +222,9 @@ func (b *builder) resolve(header []string, line int) error {
 	if b.scoreCol, err = find(b.opt.ScoreColumn, DefaultScoreColumns, true, "score"); err != nil {
 		return err
 	}
-	if b.labelCol, err = find(b.opt.LabelColumn, DefaultLabelColumns, !b.opt.NoLabels, "label"); err != nil {
+	if b.opt.IgnoreLabels {
+		b.labelCol = -1
+	} else if b.labelCol, err = find(b.opt.LabelColumn, DefaultLabelColumns, !b.opt.NoLabels, "label"); err != nil {
 		return err
 	}
 	if b.weightCol, err = find(b.opt.WeightColumn, nil, false, "weight"); err != nil {
