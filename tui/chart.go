@@ -7,8 +7,10 @@ import (
 
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/x/ansi"
 	"github.com/guptarohit/asciigraph"
 
+	"github.com/sill-tool/sill/internal/bootstrap"
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/report"
 )
@@ -56,6 +58,8 @@ type chartKey struct {
 	curve         *curve.Curve
 	width, height int
 	view          chartView
+	stability     *bootstrap.Result // the band, nil without one
+	second        *curve.Curve      // the second model's curve, nil without one
 }
 
 func newCurvePane(s *session, ctx *context) curvePane {
@@ -79,14 +83,43 @@ func (p curvePane) ShortHelp() []key.Binding { return []key.Binding{p.ctx.keys.C
 // FullHelp lists the pane's keys in groups.
 func (p curvePane) FullHelp() [][]key.Binding { return [][]key.Binding{{p.ctx.keys.CurveView}} }
 
+// title names each series beside its own mark, so that the chart reads
+// on a monochrome terminal; the longest form that fits the pane's top
+// border is taken.
 func (p curvePane) title() string {
-	switch p.view {
-	case viewAll:
-		return "hit share ─ and wrong-alert share · by cases flagged, all"
-	case viewROC:
-		return "ROC: hit share by false positive rate"
+	room := p.width - 6
+	second := p.s.secondCurve != nil
+	band := p.s.stability != nil && p.view != viewROC
+	if p.view == viewROC {
+		titles := []string{"ROC: hit share ─ by false positive rate", "ROC: hit share ─"}
+		if second {
+			titles = []string{"ROC: hit share by false positive rate, A ─ B +++", "ROC: A ─, B +"}
+		}
+		if ansi.StringWidth(titles[0]) <= room {
+			return titles[0]
+		}
+		return titles[1]
 	}
-	return "hit share ─ and wrong-alert share · by cases flagged"
+	series := []string{"hit share ─, wrong-alert share ···", "hit ─, wrong-alert ···"}
+	if second {
+		series = []string{"A: hit ─ wrong ···, B: hit +++ wrong ×××", "A ─ ···, B + ×"}
+	}
+	extra := ""
+	if band {
+		extra = ", ░ 9 in 10 redraws"
+	}
+	axis := " · by cases flagged"
+	if p.view == viewAll {
+		axis += ", all"
+	}
+	for _, s := range series {
+		for _, t := range []string{s + extra + axis, s + extra} {
+			if ansi.StringWidth(t) <= room {
+				return t
+			}
+		}
+	}
+	return series[len(series)-1] + extra
 }
 
 // View draws the chart with the cursor's cut marked.
@@ -97,7 +130,7 @@ func (p *curvePane) View() string {
 	if p.s.curve == nil || p.s.curve.Len() == 0 || innerW < 12 || innerH < 2 {
 		return framed(st.Pane, st.PaneEdge, st.Title, p.title(), "", p.width, p.height)
 	}
-	key := chartKey{p.s.curve, p.width, p.height, p.view}
+	key := chartKey{p.s.curve, p.width, p.height, p.view, p.s.stability, p.s.secondCurve}
 	if key != p.cacheKey {
 		p.draw(innerW, innerH-1)
 		p.cacheKey = key
@@ -194,6 +227,10 @@ func (p *curvePane) paint(line []rune, row, x int, pins []int) string {
 			text = st.Marker.Render(text)
 		case 4:
 			text = st.Axis.Render(text)
+		case 5:
+			text = st.Band.Render(text)
+		case 6:
+			text = st.SecondLine.Render(text)
 		}
 		b.WriteString(text)
 	}
@@ -206,6 +243,10 @@ func (p *curvePane) paint(line []rune, row, x int, pins []int) string {
 			kind = 4
 		case r == '·':
 			kind = 2
+		case r == '░':
+			kind = 5
+		case r == '+' || r == '×':
+			kind = 6
 		case r != ' ':
 			kind = 1
 		}
@@ -236,6 +277,12 @@ func (p *curvePane) draw(innerW, lines int) {
 		p.xMax = min(1, max(0.1, 4*c.Summary.BaseRate))
 	}
 	first, second := make([]float64, width), make([]float64, width)
+	other := p.s.secondCurve
+	var otherHit, otherWrong []float64
+	if other != nil {
+		otherHit, otherWrong = make([]float64, width), make([]float64, width)
+	}
+	cuts := make([]int, width) // the cut of each column, for the band
 	for j := range width {
 		at := p.xMax * float64(j) / float64(width-1)
 		var point curve.Point
@@ -243,20 +290,42 @@ func (p *curvePane) draw(innerW, lines int) {
 			point = c.At(cutAtFalsePositiveRate(c, at))
 			first[j] = zeroIfNaN(point.Recall())
 			second[j] = math.NaN()
+			if other != nil {
+				otherHit[j] = zeroIfNaN(other.At(cutAtFalsePositiveRate(other, at)).Recall())
+			}
 			continue
 		}
 		row := min(max(int(math.Round(at*float64(n)))-1, 0), n-1)
-		point = c.At(c.CutOfRow(row))
+		cuts[j] = c.CutOfRow(row)
+		point = c.At(cuts[j])
 		first[j] = zeroIfNaN(point.Recall())
 		second[j] = zeroIfNaN(point.FalseDiscoveryRate())
+		if other != nil {
+			q := other.At(other.CutOfRow(row))
+			otherHit[j], otherWrong[j] = zeroIfNaN(q.Recall()), zeroIfNaN(q.FalseDiscoveryRate())
+		}
 	}
-	data := [][]float64{first, second}
-	if p.view == viewROC {
-		data = data[:1]
+	// The second model goes under the first, so the first stays whole
+	// where they cross.
+	var data [][]float64
+	chars := []asciigraph.CharSet{}
+	if other != nil {
+		data = append(data, otherHit)
+		chars = append(chars, asciigraph.CreateCharSet("+"))
+		if p.view != viewROC {
+			data = append(data, otherWrong)
+			chars = append(chars, asciigraph.CreateCharSet("×"))
+		}
+	}
+	data = append(data, first)
+	chars = append(chars, asciigraph.DefaultCharSet)
+	if p.view != viewROC {
+		data = append(data, second)
+		chars = append(chars, asciigraph.CreateCharSet("·"))
 	}
 	options := []asciigraph.Option{
 		asciigraph.Height(height), asciigraph.LowerBound(0), asciigraph.UpperBound(1),
-		asciigraph.SeriesChars(asciigraph.DefaultCharSet, asciigraph.CreateCharSet("·")),
+		asciigraph.SeriesChars(chars...),
 		asciigraph.YAxisValueFormatter(func(v float64) string { return fmt.Sprintf("%3.0f%%", 100*v) }),
 	}
 	if withAxis {
@@ -289,6 +358,33 @@ func (p *curvePane) draw(innerW, lines int) {
 			l = append(l, ' ')
 		}
 		p.cacheLines[i] = l
+	}
+	if res := p.s.stability; res != nil && p.view != viewROC {
+		p.fillBand(res, cuts, height)
+	}
+}
+
+// fillBand shades the empty cells between the 5th and 95th percentiles of
+// the resampled hit share and wrong-alert share in every column. With
+// bounds 0 and 1 the plot puts value v on data line height -
+// round(v*height), line 0 at the top.
+func (p *curvePane) fillBand(res *bootstrap.Result, cuts []int, height int) {
+	line := func(v float64) int { return height - int(math.Round(v*float64(height))) }
+	for j, cut := range cuts {
+		band, ok := res.BandAt(cut)
+		if !ok {
+			return
+		}
+		for _, r := range [][2]float64{band.Recall, band.FalseDiscoveryRate} {
+			if math.IsNaN(r[0]) || math.IsNaN(r[1]) {
+				continue
+			}
+			for y := max(line(r[1]), 0); y <= min(line(r[0]), p.plotRows-1); y++ {
+				if cells := p.cacheLines[y]; p.plotLeft+j < len(cells) && cells[p.plotLeft+j] == ' ' {
+					cells[p.plotLeft+j] = '░'
+				}
+			}
+		}
 	}
 }
 

@@ -10,13 +10,46 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/x/ansi"
 
+	"github.com/sill-tool/sill/internal/bootstrap"
+	"github.com/sill-tool/sill/internal/calibration"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/report"
+	"github.com/sill-tool/sill/internal/shift"
 )
 
-// figureLines is how many content lines the figures pane draws.
+// figureLines is how many content lines the figures pane draws before
+// the figures beyond the averages (see lines).
 const figureLines = 10
+
+// stabilityLines is how many lines the bootstrap's figures take beyond
+// the ranges it adds to the hit-share and wrong-alert lines.
+const stabilityLines = 2
+
+// lines is how many content lines the figures pane draws for the loaded
+// data: figureLines, one for the real shifts' queues, one for the net
+// benefit of probabilities, one for a second model and stabilityLines
+// while resampling or after.
+func (p figuresPane) lines() int {
+	s := p.s
+	n := figureLines
+	if s.curve == nil {
+		return n
+	}
+	if s.assigned != nil && s.assume.Volume > 0 {
+		n++
+	}
+	if s.reliability != nil {
+		n++
+	}
+	if s.second != nil {
+		n++
+	}
+	if s.resampling.running || s.stability != nil {
+		n += stabilityLines
+	}
+	return n
+}
 
 // figuresPane shows the figures of the cursor's cut: hit share and
 // wrong-alert share with their intervals and plain readings, the projected
@@ -59,6 +92,8 @@ func (p figuresPane) startKeys() []key.Binding {
 			out = append(out, k.Capacity)
 		case cutrule.Cost:
 			out = append(out, k.LeastCost)
+		case cutrule.Queue90:
+			out = append(out, k.Peak)
 		}
 	}
 	return out
@@ -99,7 +134,12 @@ func (p figuresPane) body() string {
 		st.Muted.Render(fmt.Sprintf("· %s flagged (%s)", report.Count(e.Flagged), report.Percent(e.FlaggedShare))))
 	add("%s %s  %s", st.Label.Render("hit share"), st.Figure.Render(report.Percent(e.Recall)),
 		st.Muted.Render(conf+" "+report.Range(e.RecallCI)))
-	add("  %s", st.Muted.Render(report.Count(e.TP)+" of "+report.Count(e.TP+e.FN)+" true cases found"))
+	band, banded := p.band()
+	found := report.Count(e.TP) + " of " + report.Count(e.TP+e.FN) + " true cases found"
+	if banded {
+		found = report.Count(e.TP) + " of " + report.Count(e.TP+e.FN) + " found · redraws " + report.Range(band.Recall)
+	}
+	add("  %s", st.Muted.Render(found))
 	add("%s %s  %s", st.Label.Render("wrong-alert share"), st.Figure.Render(report.Percent(e.FalseDiscoveryRate)),
 		st.Muted.Render(conf+" "+report.Range(e.FalseDiscoveryCI)))
 	reading := Reading(e.FalseDiscoveryRate)
@@ -108,6 +148,11 @@ func (p figuresPane) body() string {
 		production := e.Projected.FalseDiscoveryRate()
 		short := strings.NewReplacer(" alerts are wrong", " wrong", " alerts is wrong", " wrong", " alerts is right", " right").Replace(Reading(production))
 		reading = "in production " + report.Percent(production) + " (" + short + ")"
+	}
+	if banded {
+		reading = strings.Replace(reading, " alerts are wrong", " wrong", 1)
+		reading = strings.Replace(reading, " alerts is wrong", " wrong", 1)
+		reading += " · redraws " + report.Range(band.FalseDiscoveryRate)
 	}
 	add("  %s", st.Muted.Render(reading))
 	add("%s %s %s", st.Label.Render("false positive rate"), report.Percent(e.FalsePositiveRate),
@@ -123,6 +168,9 @@ func (p figuresPane) body() string {
 			queue += " " + style.Render("("+against+" cap "+report.Count(a.Capacity)+")")
 		}
 		lines = append(lines, queue)
+		if peaks, ok := s.peaksAtCut(s.cursor); ok {
+			lines = append(lines, p.peaksLine(peaks))
+		}
 	} else {
 		add("%s", st.Muted.Render("queue per shift: needs a volume (a to set it)"))
 	}
@@ -134,10 +182,122 @@ func (p figuresPane) body() string {
 	default:
 		add("%s", st.Muted.Render("cost per shift: needs costs (a to set them)"))
 	}
+	if s.reliability != nil {
+		point := s.point()
+		add("%s %s %s", st.Label.Render("net benefit"), st.Figure.Render(report.Fixed(calibration.NetBenefit(point, point.Score), 4)),
+			st.Muted.Render("a case · flag all "+report.Fixed(calibration.NetBenefitAll(s.curve.Summary.BaseRate, point.Score), 4)))
+	}
+	if s.second != nil {
+		lines = append(lines, p.secondLine())
+	}
 	add("%s", st.Muted.Render(fmt.Sprintf("validation TP %s FP %s FN %s TN %s",
 		report.Count(e.TP), report.Count(e.FP), report.Count(e.FN), report.Count(e.TN))))
 	lines = append(lines, p.startLine(p.width-st.Pane.GetHorizontalFrameSize()))
+	if s.resampling.running || s.stability != nil {
+		lines = append(lines, p.stabilityLines(p.width-st.Pane.GetHorizontalFrameSize())...)
+	}
 	return strings.Join(lines, "\n")
+}
+
+// peaksLine is the queue of the real shifts of the validation period at
+// the cursor's cut: the 90th percentile, the busiest shift and the share
+// of shifts over capacity.
+func (p figuresPane) peaksLine(peaks shift.Peaks) string {
+	s, st := p.s, p.ctx.styles
+	width := p.width - st.Pane.GetHorizontalFrameSize()
+	over := ""
+	if s.assume.Capacity > 0 {
+		style := st.Muted
+		if peaks.OverCapacity > 0.1 {
+			style = st.Warning
+		}
+		over = style.Render(" · " + report.Percent(peaks.OverCapacity) + " over cap")
+	}
+	for _, busiest := range []string{" (" + s.busiest(peaks.Busiest) + ")", ""} {
+		line := "  " + st.Label.Render("9 in 10 shifts ≤") + " " + st.Figure.Render(report.Queue(peaks.P90)) +
+			st.Muted.Render(" · busiest "+report.Queue(peaks.Max)+busiest) + over
+		if ansi.StringWidth(line) <= width {
+			return line
+		}
+	}
+	whole := func(v float64) string { return report.Fixed(v, 0) }
+	if s.assume.Capacity > 0 {
+		over = st.Muted.Render(", ") + strings.TrimPrefix(over, st.Muted.Render(" · "))
+	}
+	return "  " + st.Label.Render("shifts: 9/10 ≤") + st.Figure.Render(whole(peaks.P90)) + st.Muted.Render(", max "+whole(peaks.Max)) +
+		strings.Replace(over, " over cap", " over", 1)
+}
+
+// secondLine is the second model at the same workload as the cursor's
+// cut: as many rows flagged, or the nearest stricter cut.
+func (p figuresPane) secondLine() string {
+	s, st := p.s, p.ctx.styles
+	q, ok := s.secondAtWorkload(s.cursor)
+	if !ok {
+		return st.Muted.Render("model B: no cases")
+	}
+	return st.Label.Render("model B, same workload") + " " + st.Muted.Render("hit ") + st.Figure.Render(report.Percent(q.Recall())) +
+		st.Muted.Render(" · wrong ") + st.Figure.Render(report.Percent(q.FalseDiscoveryRate()))
+}
+
+// stabilityLines are the bootstrap's figures for the cursor's cut: while
+// it runs, its progress; after, the band of hit share and wrong-alert
+// share at this score and, on a starting point, where its cut lands, in
+// numbers and plain words.
+func (p figuresPane) stabilityLines(width int) []string {
+	s, st := p.s, p.ctx.styles
+	out := make([]string, 0, stabilityLines)
+	if s.resampling.running {
+		done := int(s.resampling.done.Load())
+		out = append(out, st.Label.Render("resampling")+" "+st.Figure.Render(fmt.Sprintf("%d of %d", done, s.resampling.total))+" "+st.Muted.Render("(b stops)"),
+			st.Muted.Render(progressBar(done, s.resampling.total, max(width-2, 4))))
+		return out
+	}
+	res := s.stability
+	var sentences []string
+	if sp, on := s.spreadAt(s.cursor); on {
+		verdict, _, _ := strings.Cut(bootstrap.Describe(sp, res.Replicates), ":")
+		from, to := significant(sp.Score[0]), significant(sp.Score[1])
+		sentences = []string{
+			fmt.Sprintf("%s could land anywhere from score %s to %s on another validation set of this size: %s", ruleWords(sp.Rule), from, to, verdict),
+			fmt.Sprintf("%s: score %s to %s on another set of this size, %s", ruleWords(sp.Rule), from, to, verdict),
+		}
+	} else {
+		sentences = []string{
+			fmt.Sprintf("redraws: %d resampled sets of this size; on a starting point (keys 1-%d) this says where its cut could land", res.Replicates, len(s.starts)),
+			fmt.Sprintf("redraws: %d resampled sets; keys 1-%d say where each starting point could land", res.Replicates, len(s.starts)),
+		}
+	}
+	lines := wrapWords(sentences[0], width)
+	if len(lines) > stabilityLines {
+		lines = wrapWords(sentences[1], width)
+	}
+	for _, l := range lines {
+		out = append(out, st.Muted.Render(l))
+	}
+	if len(out) > stabilityLines {
+		out = out[:stabilityLines]
+		out[stabilityLines-1] = ansi.Truncate(out[stabilityLines-1]+" …", width, "…")
+	}
+	return out
+}
+
+// band returns the bootstrap's band at the cursor's cut, if it has run.
+func (p figuresPane) band() (bootstrap.BandPoint, bool) {
+	if p.s.stability == nil || p.s.resampling.running {
+		return bootstrap.BandPoint{}, false
+	}
+	return p.s.stability.BandAt(p.s.cursor)
+}
+
+// progressBar draws done of total as a bar of width cells that reads
+// without colour.
+func progressBar(done, total, width int) string {
+	if total <= 0 {
+		return ""
+	}
+	filled := min(width*done/total, width)
+	return strings.Repeat("█", filled) + strings.Repeat("░", width-filled)
 }
 
 // startLine lists the starting points by key, marking the ones the cursor

@@ -14,10 +14,19 @@ type KeyMap struct {
 
 	// Starting points, in the order of cutrule.Defaults
 	BaseRate, Hit, Wrong, Capacity, LeastCost key.Binding
+	// Peak is queue90 at the capacity, after the others, with case times.
+	Peak key.Binding
 
 	// Views and panes
 	CurveView key.Binding // cycle the chart between its views
 	Focus     key.Binding // move the keys between the ranked list and the strip
+
+	// Beyond the averages
+	Segments     key.Binding // show or hide the breakdown by segment
+	SegmentOrder key.Binding // in the breakdown: the next order (size, gap, name)
+	Stability    key.Binding // resample the set (the bootstrap), or stop resampling
+	Calibration  key.Binding // show or hide whether the scores read as probabilities
+	Models       key.Binding // show or hide the two models' cuts side by side
 
 	// Candidates
 	Pin       key.Binding // pin the cursor's cut
@@ -58,9 +67,16 @@ func DefaultKeyMap() KeyMap {
 		Wrong:     key.NewBinding(key.WithKeys("3"), key.WithHelp("3", "wrong-alert share 1/3")),
 		Capacity:  key.NewBinding(key.WithKeys("4"), key.WithHelp("4", "queue at capacity")),
 		LeastCost: key.NewBinding(key.WithKeys("5"), key.WithHelp("5", "least cost")),
+		Peak:      key.NewBinding(key.WithKeys("6"), key.WithHelp("6", "9 shifts in 10 at capacity")),
 
 		CurveView: key.NewBinding(key.WithKeys("v"), key.WithHelp("v", "next chart view")),
 		Focus:     key.NewBinding(key.WithKeys("tab"), key.WithHelp("tab", "keys to list / strip")),
+
+		Segments:     key.NewBinding(key.WithKeys("s"), key.WithHelp("s", "segments at this cut")),
+		SegmentOrder: key.NewBinding(key.WithKeys("o"), key.WithHelp("o", "segments: next order")),
+		Stability:    key.NewBinding(key.WithKeys("b"), key.WithHelp("b", "resample: how stable (stop)")),
+		Calibration:  key.NewBinding(key.WithKeys("e"), key.WithHelp("e", "are scores probabilities")),
+		Models:       key.NewBinding(key.WithKeys("m"), key.WithHelp("m", "two models side by side")),
 
 		Pin:       key.NewBinding(key.WithKeys("p"), key.WithHelp("p", "pin this cut")),
 		Left:      key.NewBinding(key.WithKeys("left", "h"), key.WithHelp("←/h", "previous candidate")),

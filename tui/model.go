@@ -21,12 +21,15 @@ import (
 	"github.com/charmbracelet/lipgloss"
 	"github.com/charmbracelet/x/ansi"
 
+	"github.com/sill-tool/sill/internal/calibration"
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/report"
 	"github.com/sill-tool/sill/internal/scores"
+	"github.com/sill-tool/sill/internal/segment"
+	"github.com/sill-tool/sill/internal/shift"
 )
 
 // Config is what the explorer needs from the command line.
@@ -43,6 +46,21 @@ type Config struct {
 	// Styles and Keys; zero values take PlainStyles and DefaultKeyMap.
 	Styles *Styles
 	Keys   *KeyMap
+
+	// Shifts is the crew shift schedule. With it and case times in the
+	// set, the queue figure shows the real shifts of the validation period
+	// and queue90 at the capacity is a starting point.
+	Shifts *shift.Schedule
+	// Replicates and Seed are the bootstrap's, run on demand; 0
+	// replicates means 200.
+	Replicates int
+	Seed       uint64
+	// CalibrationBins and CalibrationBinning shape the reliability table;
+	// 0 bins means 10.
+	CalibrationBins    int
+	CalibrationBinning calibration.Binning
+	// SegmentOrder is the first order of the segments overlay.
+	SegmentOrder segment.Order
 }
 
 // focus says which pane the keys go to.
@@ -57,10 +75,13 @@ const (
 type overlayKind int
 
 const (
-	overlayHelp    overlayKind = iota // every key, grouped
-	overlayForm                       // the assumptions form
-	overlayRename                     // renaming a candidate
-	overlayReplace                    // the question before replacing a file made from other data
+	overlayHelp        overlayKind = iota // every key, grouped
+	overlayForm                           // the assumptions form
+	overlayRename                         // renaming a candidate
+	overlayReplace                        // the question before replacing a file made from other data
+	overlaySegments                       // the breakdown by segment at the cursor's cut
+	overlayCalibration                    // the reliability table and the cost threshold
+	overlayModels                         // the two models' cuts side by side
 )
 
 // context is what every pane shares: the screen size, styles and keys.
@@ -80,12 +101,16 @@ type (
 		curve  *curve.Curve
 		assume projection.Assumptions
 		starts []cutrule.Outcome
+		extras extras
 	}
-	// startsFoundMsg carries the starting points under new assumptions.
+	// startsFoundMsg carries the starting points under new assumptions,
+	// the second model's too, and the shift queues' scale.
 	startsFoundMsg struct {
-		assume projection.Assumptions
-		starts []cutrule.Outcome
-		err    error
+		assume       projection.Assumptions
+		starts       []cutrule.Outcome
+		secondStarts []cutrule.Outcome
+		scale        shift.Scale
+		err          error
 	}
 	// errMsg is a load error: the explorer shows nothing more and quits.
 	errMsg struct{ err error }
@@ -115,14 +140,17 @@ type Model struct {
 	unwritten bool   // candidates or assumptions changed since the last write
 	tableSig  string // what the strip's table was built from
 
-	list    listPane
-	chart   curvePane
-	figures figuresPane
-	strip   Strip
-	help    helpPane
-	form    formPane
-	rename  renamePane
-	replace replacePane
+	list        listPane
+	chart       curvePane
+	figures     figuresPane
+	strip       Strip
+	help        helpPane
+	form        formPane
+	rename      renamePane
+	replace     replacePane
+	segments    segmentsPane
+	calibration calibrationPane
+	models      modelsPane
 }
 
 // New returns the explorer for cfg; the scores load when the program starts.
@@ -137,17 +165,20 @@ func New(cfg Config) Model {
 	if cfg.Out == "" {
 		cfg.Out = "cut.yaml"
 	}
-	s := &session{}
+	s := &session{beyond: beyond{resampling: newResampling()}}
 	m := Model{
 		cfg: cfg, ctx: ctx, s: s, loading: true, rowsRead: new(atomic.Int64),
-		list:    newListPane(s, ctx),
-		chart:   newCurvePane(s, ctx),
-		figures: newFiguresPane(s, ctx),
-		strip:   NewStrip(ctx.styles, ctx.keys),
-		help:    helpPane{ctx: ctx},
-		form:    newFormPane(ctx),
-		rename:  newRenamePane(ctx),
-		replace: replacePane{ctx: ctx},
+		list:        newListPane(s, ctx),
+		chart:       newCurvePane(s, ctx),
+		figures:     newFiguresPane(s, ctx),
+		strip:       NewStrip(ctx.styles, ctx.keys),
+		help:        helpPane{ctx: ctx},
+		form:        newFormPane(ctx),
+		rename:      newRenamePane(ctx),
+		replace:     replacePane{ctx: ctx},
+		segments:    newSegmentsPane(s, ctx, cfg.SegmentOrder),
+		calibration: calibrationPane{s: s, ctx: ctx},
+		models:      modelsPane{s: s, ctx: ctx},
 	}
 	return m
 }
@@ -197,7 +228,7 @@ func tickCmd() tea.Cmd {
 // loadCmd reads the scores, computes the curve once and finds the
 // starting points.
 func (m Model) loadCmd() tea.Cmd {
-	load, assume, counter := m.cfg.Load, m.cfg.Assume, m.rowsRead
+	cfg, load, assume, counter := m.cfg, m.cfg.Load, m.cfg.Assume, m.rowsRead
 	return func() tea.Msg {
 		set, err := load(func(rows int) { counter.Store(int64(rows)) })
 		if err != nil {
@@ -211,20 +242,32 @@ func (m Model) loadCmd() tea.Cmd {
 			return errMsg{err}
 		}
 		c := curve.New(set)
-		starts, err := cutrule.Find(cutrule.Defaults(a), c, a)
+		x, err := loadExtras(cfg, set, c, a)
 		if err != nil {
 			return errMsg{err}
 		}
-		return scoresLoadedMsg{set: set, curve: c, assume: a, starts: starts}
+		starts, _, err := findStarts(c, a, x.assigned)
+		if err != nil {
+			return errMsg{err}
+		}
+		return scoresLoadedMsg{set: set, curve: c, assume: a, starts: starts, extras: x}
 	}
 }
 
 // findStartsCmd finds the starting points under new assumptions.
 func (m Model) findStartsCmd(a projection.Assumptions) tea.Cmd {
-	c := m.s.curve
+	c, assigned := m.s.curve, m.s.assigned
+	second, secondAssigned := m.s.secondCurve, m.s.secondAssigned
 	return func() tea.Msg {
-		starts, err := cutrule.Find(cutrule.Defaults(a), c, a)
-		return startsFoundMsg{assume: a, starts: starts, err: err}
+		starts, scale, err := findStarts(c, a, assigned)
+		if err != nil {
+			return startsFoundMsg{assume: a, err: err}
+		}
+		msg := startsFoundMsg{assume: a, starts: starts, scale: scale}
+		if second != nil {
+			msg.secondStarts, _, msg.err = findStarts(second, a, secondAssigned)
+		}
+		return msg
 	}
 }
 
@@ -247,6 +290,7 @@ func (m Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 	case scoresLoadedMsg:
 		m.loading = false
 		m.s.set, m.s.curve, m.s.assume, m.s.starts = msg.set, msg.curve, msg.assume, msg.starts
+		m.s.beyond.apply(msg.set, msg.extras)
 		m.s.cursor = 0
 		for _, o := range msg.starts {
 			if o.Met {
@@ -268,9 +312,12 @@ func (m Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 			m.status = "assumptions: " + msg.err.Error()
 			return m, nil
 		}
-		m.s.starts = msg.starts
+		m.s.starts, m.s.secondStarts = msg.starts, msg.secondStarts
+		m.s.setScale(msg.scale)
 		m.refresh()
 		return m, nil
+	case resampleTickMsg, resampledMsg:
+		return m.resampleUpdate(msg)
 	case fileWrittenMsg:
 		m.written = msg.path
 		m.unwritten = false
@@ -358,6 +405,18 @@ func (m Model) key(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 	case key.Matches(msg, k.CurveView):
 		m.chart, _ = m.chart.Update(msg)
 		return m, nil
+	case key.Matches(msg, k.Segments):
+		m.segments.open()
+		m.push(overlaySegments)
+		return m, nil
+	case key.Matches(msg, k.Calibration):
+		m.push(overlayCalibration)
+		return m, nil
+	case key.Matches(msg, k.Models):
+		m.push(overlayModels)
+		return m, nil
+	case key.Matches(msg, k.Stability):
+		return m.resampleKey()
 	}
 	if m.focus == focusStrip {
 		return m.stripKey(msg)
@@ -428,6 +487,31 @@ func (m Model) overlayKey(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 			m.pop()
 		}
 		return m, nil
+	case overlaySegments:
+		if key.Matches(msg, k.Segments) || key.Matches(msg, k.Cancel) || key.Matches(msg, k.Quit) {
+			m.pop()
+			return m, nil
+		}
+		before := m.s.cursor
+		m.segments, _ = m.segments.Update(msg)
+		if m.s.cursor != before {
+			m.list.follow()
+		}
+		return m, nil
+	case overlayCalibration:
+		if key.Matches(msg, k.Calibration) || key.Matches(msg, k.Cancel) || key.Matches(msg, k.Quit) {
+			m.pop()
+			return m, nil
+		}
+		if key.Matches(msg, k.Up) || key.Matches(msg, k.Down) {
+			m.list, _ = m.list.Update(msg)
+		}
+		return m, nil
+	case overlayModels:
+		if key.Matches(msg, k.Models) || key.Matches(msg, k.Cancel) || key.Matches(msg, k.Quit) {
+			m.pop()
+		}
+		return m, nil
 	case overlayForm:
 		var done bool
 		var a projection.Assumptions
@@ -439,6 +523,9 @@ func (m Model) overlayKey(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 				m.s.assume = a
 				m.unwritten = true
 				m.status = "assumptions changed: every figure and pin recomputed"
+				if m.dropStability() {
+					m.status += "; b resamples again under them"
+				}
 				m.refresh()
 				return m, m.findStartsCmd(a)
 			}
@@ -512,7 +599,7 @@ func (m *Model) write(force bool) tea.Cmd {
 func (m *Model) refresh() {
 	k := &m.ctx.keys
 	s := m.s
-	starts := []*key.Binding{&k.BaseRate, &k.Hit, &k.Wrong, &k.Capacity, &k.LeastCost}
+	starts := []*key.Binding{&k.BaseRate, &k.Hit, &k.Wrong, &k.Capacity, &k.LeastCost, &k.Peak}
 	for _, b := range starts {
 		b.SetEnabled(false)
 	}
@@ -531,7 +618,18 @@ func (m *Model) refresh() {
 			k.LeastCost.SetEnabled(true)
 			k.LeastCost.SetKeys(keyName(i))
 			k.LeastCost.SetHelp(keyName(i), "least cost")
+		case cutrule.Queue90:
+			k.Peak.SetEnabled(true)
+			k.Peak.SetKeys(keyName(i))
+			k.Peak.SetHelp(keyName(i), "9 shifts in 10 at capacity ("+report.Count(o.Rule.Value)+")")
 		}
+	}
+	if s.set != nil {
+		k.Segments.SetEnabled(s.segments != nil)
+		k.SegmentOrder.SetEnabled(s.segments != nil)
+		k.Models.SetEnabled(s.second != nil)
+		k.Stability.SetEnabled(true)
+		k.Calibration.SetEnabled(true)
 	}
 	strip := m.focus == focusStrip && len(s.pins) > 0
 	for _, b := range []*key.Binding{&k.Left, &k.Right, &k.Jump, &k.Remove, &k.MoveLeft, &k.MoveRight, &k.Rename, &k.Choose} {
@@ -573,7 +671,7 @@ func (m Model) screen() screenLayout {
 		pinned:       len(m.s.pins) > 0,
 		stripFocused: m.focus == focusStrip,
 		stripLines:   m.strip.Lines(),
-		figureLines:  figureLines,
+		figureLines:  m.figures.lines(),
 	}, frame)
 }
 
@@ -636,6 +734,12 @@ func (m Model) overlayView() string {
 		return m.rename.View()
 	case overlayReplace:
 		return m.replace.View()
+	case overlaySegments:
+		return m.segments.View()
+	case overlayCalibration:
+		return m.calibration.View()
+	case overlayModels:
+		return m.models.View()
 	}
 	return ""
 }
@@ -679,6 +783,10 @@ func (m Model) footer(width int) string {
 		}
 	}
 	hints = append(hints, hint{k.Assumptions, "assumptions"}, hint{k.Write, "write"}, hint{k.Help, "all keys"}, hint{k.Quit, "quit"})
+	if m.focus == focusList {
+		// Shown where the line has room after the keys that matter most.
+		hints = append(hints, hint{k.Segments, "segments"}, hint{k.Stability, "stability"}, hint{k.Calibration, "calibration"}, hint{k.Models, "two models"})
+	}
 	var parts []string
 	for _, h := range hints {
 		if !h.b.Enabled() {

@@ -32,6 +32,8 @@ type session struct {
 	selected  int // the candidate the strip's keys act on
 	reference int // the chosen candidate, which the others are compared with
 	pinned    int // how many pins were ever made, for automatic names
+
+	beyond // segments, shift peaks, stability, calibration, a second model: beyond.go
 }
 
 // pin is a candidate: a named cut, with the rule it came from if any.

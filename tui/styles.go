@@ -42,10 +42,12 @@ type Styles struct {
 	Reference lipgloss.Style // the chosen (reference) candidate's heading
 	Selected  lipgloss.Style // the selected candidate or form field
 
-	HitLine   lipgloss.Style // the hit share series on the curve
-	WrongLine lipgloss.Style // the wrong-alert share series on the curve
-	Marker    lipgloss.Style // the cursor's mark on the curve
-	Axis      lipgloss.Style // chart axes and labels
+	HitLine    lipgloss.Style // the hit share series on the curve
+	WrongLine  lipgloss.Style // the wrong-alert share series on the curve
+	Marker     lipgloss.Style // the cursor's mark on the curve
+	Axis       lipgloss.Style // chart axes and labels
+	Band       lipgloss.Style // the bootstrap's band around the curves
+	SecondLine lipgloss.Style // the second model's series
 }
 
 // DefaultStyles returns the explorer's styles for renderer r. With an ASCII
@@ -90,10 +92,12 @@ func DefaultStyles(r *lipgloss.Renderer) Styles {
 		Reference: r.NewStyle().Bold(true).Underline(true),
 		Selected:  r.NewStyle().Reverse(true),
 
-		HitLine:   r.NewStyle().Foreground(accent),
-		WrongLine: r.NewStyle().Foreground(warn),
-		Marker:    r.NewStyle().Bold(true),
-		Axis:      r.NewStyle().Foreground(muted),
+		HitLine:    r.NewStyle().Foreground(accent),
+		WrongLine:  r.NewStyle().Foreground(warn),
+		Marker:     r.NewStyle().Bold(true),
+		Axis:       r.NewStyle().Foreground(muted),
+		Band:       r.NewStyle().Foreground(muted),
+		SecondLine: r.NewStyle().Foreground(lipgloss.Color("5")), // magenta
 	}
 }
 

@@ -123,8 +123,8 @@ func TestPaneViews(t *testing.T) {
 	checkFrame(t, "strip-60x3-empty", empty.View(false), 60, 3)
 
 	figures := newFiguresPane(m.s, ctx)
-	figures.SetSize(48, figureLines+2)
-	checkFrame(t, "figures-48x12-cut-0.5", figures.View(), 48, figureLines+2)
+	figures.SetSize(48, figures.lines()+2)
+	checkFrame(t, "figures-48x"+strconv.Itoa(figures.lines()+2)+"-cut-0.5", figures.View(), 48, figures.lines()+2)
 
 	list := newListPane(m.s, ctx)
 	list.SetSize(40, 14)

@@ -11,9 +11,11 @@ import (
 	"github.com/spf13/cobra"
 	"github.com/spf13/pflag"
 
+	"github.com/sill-tool/sill/internal/calibration"
 	"github.com/sill-tool/sill/internal/demo"
-	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
+	"github.com/sill-tool/sill/internal/segment"
+	"github.com/sill-tool/sill/internal/shift"
 	"github.com/sill-tool/sill/tui"
 )
 
@@ -21,6 +23,58 @@ type exploreOptions struct {
 	input  inputFlags
 	assume assumptionFlags
 	out    string
+	beyond beyondFlags // the flags of report's figures beyond the averages that the screen uses
+}
+
+// registerBeyond registers the flags of beyondFlags that the explorer
+// takes: segments' order, case times and shifts, the bootstrap run by the
+// b key, the reliability table's bins and a second model's file.
+func (o *exploreOptions) registerBeyond(fs *pflag.FlagSet) {
+	f := &o.beyond
+	fs.StringVar(&f.segmentOrder, "segment-order", "size", "first order of the segments overlay (s): size, gap or name")
+	fs.IntVar(&f.calibrationBins, "calibration-bins", 10, "bins of the reliability table (e; scores in [0,1] only)")
+	fs.StringVar(&f.calibrationBinning, "calibration-binning", "width", "reliability bins: width (equal width) or quantile (equal rows)")
+	fs.StringVar(&f.timeColumn, "time", "", "column of case times, for the queue of each real shift (needs --shifts)")
+	fs.StringVar(&f.timeLayout, "time-layout", "", `layout of --time in Go's reference-time form, e.g. "2006-01-02 15:04" (default: RFC 3339)`)
+	fs.StringVar(&f.timeZone, "tz", "UTC", "time zone of the shift schedule and of times without a zone")
+	fs.StringVar(&f.shifts, "shifts", "", "local start times of the crew shifts, e.g. 06:00,14:00,22:00")
+	fs.IntVar(&f.replicates, "bootstrap", 0, "resampled sets when b asks how stable the cuts are (0: 200)")
+	fs.Uint64Var(&f.seed, "seed", 1, "seed of the resampling; the same seed gives the same figures")
+	fs.StringVar(&f.compareFile, "compare", "", "a second model's scores of the same cases, joined on --id (its score column: the second --score)")
+}
+
+// config returns the explorer's settings from the flags, checked.
+func (o *exploreOptions) config() (tui.Config, error) {
+	f := &o.beyond
+	if err := f.check(); err != nil {
+		return tui.Config{}, err
+	}
+	cfg := tui.Config{Replicates: f.replicates, Seed: f.seed, CalibrationBins: f.calibrationBins}
+	var err error
+	if cfg.SegmentOrder, err = segment.ParseOrder(f.segmentOrder); err != nil {
+		return cfg, valueFlagError("--segment-order", err)
+	}
+	if cfg.CalibrationBinning, err = calibration.ParseBinning(f.calibrationBinning); err != nil {
+		return cfg, valueFlagError("--calibration-binning", err)
+	}
+	if f.shifts != "" {
+		sched, err := shift.ParseSchedule(f.shifts, f.location)
+		if err != nil {
+			return cfg, fmt.Errorf("--shifts: %w", err)
+		}
+		cfg.Shifts = &sched
+	}
+	return cfg, nil
+}
+
+// load reads the scores at path and, with --compare, joins the second
+// model's file to them.
+func (o *exploreOptions) load(path string, progress func(int)) (*scores.Set, error) {
+	set, err := o.input.load(path, nil, progress)
+	if err != nil || o.beyond.compareFile == "" {
+		return set, err
+	}
+	return o.beyond.loadCompare(set)
 }
 
 func newExploreCmd() *cobra.Command {
@@ -44,30 +98,51 @@ candidates and the assumptions to --out; ? lists every key.`,
 			if !isTerminal() || cmd.OutOrStdout() != os.Stdout {
 				return fmt.Errorf("explore needs a terminal on standard input and output; for printed figures use: sill report %s", path)
 			}
-			load := func(progress func(int)) (*scores.Set, error) {
-				return o.input.load(path, nil, progress)
+			if err := o.beyond.prepare(&o.input); err != nil {
+				return err
 			}
-			return runExplorer(load, o.assume.assumptions, o.out)
+			cfg, err := o.config()
+			if err != nil {
+				return err
+			}
+			cfg.Load = func(progress func(int)) (*scores.Set, error) { return o.load(path, progress) }
+			cfg.Assume, cfg.Out = o.assume.assumptions, o.out
+			return runExplorer(cfg)
 		},
 	}
 	fs := cmd.Flags()
 	o.input.register(fs)
 	o.assume.register(fs)
 	fs.StringVar(&o.out, "out", "cut.yaml", "decision file the write key saves")
+	o.registerBeyond(fs)
 	return cmd
 }
 
+// demoShifts are the flags that place the demo's readings in the depot's
+// three crew shifts.
+var demoShifts = []string{"--time=read_at", "--shifts=06:00,14:00,22:00", "--tz=UTC"}
+
 // exploreDemo opens the explorer on the built-in demo data with the demo
-// assumptions.
+// assumptions, its yards as segments and its readings in the three crew
+// shifts.
 func exploreDemo() error {
 	var o exploreOptions
 	fs := pflag.NewFlagSet("demo", pflag.ContinueOnError)
 	o.assume.register(fs)
-	if err := fs.Parse(demo.Assumptions); err != nil {
+	o.registerBeyond(fs)
+	if err := fs.Parse(append(append([]string(nil), demo.Assumptions...), demoShifts...)); err != nil {
 		return err
 	}
-	load := func(progress func(int)) (*scores.Set, error) { return o.input.loadDemo() }
-	return runExplorer(load, o.assume.assumptions, "cut.yaml")
+	if err := o.beyond.prepare(&o.input); err != nil {
+		return err
+	}
+	cfg, err := o.config()
+	if err != nil {
+		return err
+	}
+	cfg.Load = func(progress func(int)) (*scores.Set, error) { return o.input.loadDemo() }
+	cfg.Assume, cfg.Out = o.assume.assumptions, "cut.yaml"
+	return runExplorer(cfg)
 }
 
 // isTerminal reports whether both standard input and output are terminals.
@@ -75,15 +150,18 @@ func isTerminal() bool {
 	return isatty.IsTerminal(os.Stdin.Fd()) && isatty.IsTerminal(os.Stdout.Fd())
 }
 
-// runExplorer runs the screen until the user quits. A load error ends the
-// screen and is returned, so that sill prints it and exits with status 2.
-func runExplorer(load func(func(int)) (*scores.Set, error), assume func(*scores.Set) (projection.Assumptions, error), out string) error {
+// runExplorer runs the screen of cfg until the user quits. A load error
+// ends the screen and is returned, so that sill prints it and exits with
+// status 2.
+func runExplorer(cfg tui.Config) error {
 	renderer := lipgloss.NewRenderer(os.Stdout)
 	if os.Getenv("NO_COLOR") != "" {
 		renderer.SetColorProfile(termenv.Ascii)
 	}
 	styles := tui.DefaultStyles(renderer)
-	model := tui.New(tui.Config{Load: load, Assume: assume, Out: out, ToolVersion: versionString(), Styles: &styles})
+	cfg.ToolVersion, cfg.Styles = versionString(), &styles
+	out := cfg.Out
+	model := tui.New(cfg)
 	final, err := tea.NewProgram(model, tea.WithAltScreen()).Run()
 	if err != nil {
 		return fmt.Errorf("explore: %w", err)

@@ -1,0 +1,174 @@
+package tui
+
+import (
+	"fmt"
+	"strconv"
+	"strings"
+
+	"github.com/sill-tool/sill/internal/calibration"
+	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/evidence"
+	"github.com/sill-tool/sill/internal/report"
+)
+
+// calibrationPane is the overlay that asks whether the scores read as
+// probabilities: the reliability table with the expected calibration
+// error, the cost threshold that calibrated probabilities imply (Elkan
+// 2001) beside the empirical least-cost cut, a warning when the two differ
+// by more than where the least-cost cut lands in resampled sets, and the
+// net benefit at the cursor's cut (Vickers and Elkin 2006).
+type calibrationPane struct {
+	s   *session
+	ctx *context
+}
+
+// View draws the overlay.
+func (p calibrationPane) View() string {
+	s, st := p.s, p.ctx.styles
+	t := s.reliability
+	if t == nil {
+		lines := wrapWords("The scores are not probabilities: they need to lie in [0,1] with higher scores riskier. "+
+			"So there is no reliability table, no cost threshold from probabilities and no net benefit; "+
+			"the least-cost cut (a starting point, with costs) does not need them.", 64)
+		lines = append(lines, "", st.Muted.Render("e or esc closes"))
+		return overlayBox(p.ctx, "are the scores probabilities?", strings.Join(lines, "\n"))
+	}
+	binning := "of equal width"
+	if t.Binning == calibration.Quantile {
+		binning = "of about equal rows"
+	}
+	var lines []string
+	head := pad("scores", 13, false) + pad("rows", 8, true) + pad("mean score", 12, true) + pad("observed", 10, true) + pad("gap", 8, true)
+	lines = append(lines, st.ColumnHead.Render(head))
+	for _, b := range t.Bins {
+		gap := b.ObservedRate - b.MeanScore
+		line := pad(report.Fixed(b.Lower, 2)+"–"+report.Fixed(b.Upper, 2), 13, false) + pad(strconv.Itoa(b.Count), 8, true) +
+			pad(report.Fixed(b.MeanScore, 3), 12, true) + pad(report.Fixed(b.ObservedRate, 3), 10, true) + pad(signed(gap, 3), 8, true)
+		lines = append(lines, line)
+	}
+	lines = append(lines, st.Label.Render("expected calibration error")+" "+st.Figure.Render(report.Fixed(t.ECE, 4))+
+		st.Muted.Render(" (the gaps, weighted by cases)"))
+	lines = append(lines, p.costLines()...)
+	point := s.point()
+	lines = append(lines, st.Label.Render("net benefit here")+" "+st.Figure.Render(report.Fixed(calibration.NetBenefit(point, point.Score), 4))+
+		st.Muted.Render(" a case at threshold "+report.Score(point.Score)+" · flag all "+
+			report.Fixed(calibration.NetBenefitAll(s.curve.Summary.BaseRate, point.Score), 4)+" · none 0"))
+	lines = append(lines, st.Muted.Render("↑↓ move the cut · e or esc closes"))
+	return overlayBox(p.ctx, "are the scores probabilities? · "+strconv.Itoa(len(t.Bins))+" bins "+binning, strings.Join(lines, "\n"))
+}
+
+// costLines put the cost threshold of calibrated probabilities beside the
+// least-cost cut, with the bootstrap's judgement of their difference.
+func (p calibrationPane) costLines() []string {
+	s, st := p.s, p.ctx.styles
+	a := s.assume
+	if a.Costs == nil {
+		return []string{st.Muted.Render("cost threshold: needs costs (a to set them)")}
+	}
+	probability := calibration.CostThreshold(*a.Costs)
+	threshold := calibration.ShiftThreshold(probability, s.curve.Summary.BaseRate, a.BaseRate)
+	line := st.Label.Render("cost threshold (Elkan 2001)") + " " + st.Figure.Render(report.Fixed(threshold, 3)) +
+		st.Muted.Render(" if the scores are calibrated")
+	if s.baseRateChanged() {
+		line += st.Muted.Render(" (probability " + report.Fixed(probability, 3) + " at production's base rate)")
+	}
+	out := []string{line}
+	var least *cutrule.Outcome
+	for i, o := range s.starts {
+		if o.Rule.Kind == cutrule.Cost && o.Met {
+			least = &s.starts[i]
+		}
+	}
+	if least == nil {
+		return append(out, st.Muted.Render("least-cost cut: none met"))
+	}
+	line = st.Label.Render("least-cost cut") + " " + st.Figure.Render(report.Score(least.Point.Score))
+	spread, ok := s.costSpread()
+	switch {
+	case !evidence.Defined(threshold):
+		out = append(out, line)
+	case !ok:
+		out = append(out, line+st.Muted.Render(fmt.Sprintf(" · %s from it; b resamples to judge", signed(least.Point.Score-threshold, 3))))
+	case threshold < spread.Score[0] || threshold > spread.Score[1]:
+		out = append(out, line+st.Muted.Render(" · lands "+significant(spread.Score[0])+" to "+significant(spread.Score[1])+" in resampled sets"),
+			st.Warning.Render("⚠ the threshold lies outside that range: the scores are probably not"),
+			st.Warning.Render("  calibrated, so do not cost from them as probabilities"))
+	default:
+		out = append(out, line+st.Muted.Render(" · lands "+significant(spread.Score[0])+" to "+significant(spread.Score[1])+
+			" in resampled sets, the threshold within: they agree"))
+	}
+	return out
+}
+
+// signed formats v with a sign and decimals, "n/a" when undefined.
+func signed(v float64, decimals int) string {
+	if !evidence.Defined(v) {
+		return "n/a"
+	}
+	text := strconv.FormatFloat(v, 'f', decimals, 64)
+	if v >= 0 {
+		text = "+" + text
+	}
+	return text
+}
+
+// modelsPane is the overlay of the two models on the same cases: their
+// ROC AUCs with DeLong's paired test, and for each starting point both
+// models' cuts side by side.
+type modelsPane struct {
+	s   *session
+	ctx *context
+}
+
+// View draws the overlay.
+func (p modelsPane) View() string {
+	s, st := p.s, p.ctx.styles
+	if s.second == nil {
+		return overlayBox(p.ctx, "two models", "no second model: give --score twice, or --compare FILE with --id\n"+st.Muted.Render("m or esc closes"))
+	}
+	a := s.assume
+	lines := []string{
+		fmt.Sprintf("A %s: ROC AUC %s   B %s: ROC AUC %s", s.set.ScoreColumn, report.Fixed(s.curve.Summary.ROCAUC, 3),
+			s.set.CompareColumn, report.Fixed(s.secondCurve.Summary.ROCAUC, 3)),
+	}
+	if s.pairErr != nil {
+		lines = append(lines, st.Muted.Render("paired test: "+s.pairErr.Error()))
+	} else {
+		lines = append(lines, st.Muted.Render(fmt.Sprintf("A − B %s, standard error %s, z %s, p %s (DeLong et al. 1988, paired)",
+			signed(s.pair.Difference, 3), report.Fixed(s.pair.StdError, 3), report.Fixed(s.pair.Z, 2), report.Fixed(s.pair.P, 3))))
+	}
+	head := pad("starting point", 16, false) + pad("", 2, false) + pad("cut", 8, true) + pad("flagged", 9, true) + pad("hit", 8, true) +
+		pad("wrong", 8, true) + pad("queue", 8, true) + pad("cost", 10, true)
+	lines = append(lines, "", st.ColumnHead.Render(head))
+	row := func(name, model string, met bool, e evidence.Cut) string {
+		if !met {
+			return pad(name, 16, false) + pad(model, 2, false) + st.Muted.Render(pad("not met", 8, true))
+		}
+		queue, cost := "n/a", "n/a"
+		if a.Volume > 0 {
+			queue = report.Queue(e.Projected.QueuePerShift)
+			if a.Costs != nil {
+				cost = report.Money(e.Projected.CostPerShift)
+			}
+		}
+		return pad(name, 16, false) + pad(model, 2, false) + pad(report.Score(e.Score), 8, true) + pad(report.Percent(e.FlaggedShare), 9, true) +
+			pad(report.Percent(e.Recall), 8, true) + pad(report.Percent(e.FalseDiscoveryRate), 8, true) + pad(queue, 8, true) + pad(cost, 10, true)
+	}
+	for i, o := range s.starts {
+		name := o.Rule.String()
+		if o.Met && o.Point.Index == s.cursor {
+			name = "▶ " + name
+		}
+		lines = append(lines, row(name, "A", o.Met, evidence.Of(o.Point, a)))
+		if i < len(s.secondStarts) {
+			b := s.secondStarts[i]
+			lines = append(lines, row("", "B", b.Met, evidence.Of(b.Point, a)))
+		}
+	}
+	if q, ok := s.secondAtWorkload(s.cursor); ok {
+		lines = append(lines, "", st.Label.Render("at this cut's workload")+" "+st.Muted.Render(fmt.Sprintf("A hit %s wrong %s · B hit %s wrong %s",
+			report.Percent(s.point().Recall()), report.Percent(s.point().FalseDiscoveryRate()), report.Percent(q.Recall()), report.Percent(q.FalseDiscoveryRate()))))
+	}
+	lines = append(lines, st.Muted.Render("figures projected under the assumptions · ▶ the cursor's · m or esc closes"))
+	return overlayBox(p.ctx, "two models on the same cases", strings.Join(lines, "\n"))
+}

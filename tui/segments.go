@@ -1,0 +1,189 @@
+package tui
+
+import (
+	"fmt"
+	"strconv"
+	"strings"
+
+	"github.com/charmbracelet/bubbles/key"
+	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/x/ansi"
+
+	"github.com/sill-tool/sill/internal/report"
+	"github.com/sill-tool/sill/internal/segment"
+)
+
+// segmentsPane is the overlay of the breakdown by segment at the cursor's
+// cut: rows, true cases, flagged share, hit share and precision with their
+// intervals, and "outside" on a group whose interval lies wholly outside
+// the overall one. The cut keys still move the cut under it; the page keys
+// scroll the groups and o changes their order. The sorted breakdown is
+// kept until the cut, the order or the confidence changes, so a scroll
+// costs only the drawing.
+type segmentsPane struct {
+	s      *session
+	ctx    *context
+	order  segment.Order
+	offset int // first group in view
+
+	sorted *sortedGroups // shared by copies of the pane
+}
+
+// sortedGroups is the last sorted breakdown and what it was made for.
+type sortedGroups struct {
+	ok         bool
+	cut        int
+	order      segment.Order
+	confidence float64
+	breakdown  segment.Breakdown
+}
+
+func newSegmentsPane(s *session, ctx *context, order segment.Order) segmentsPane {
+	return segmentsPane{s: s, ctx: ctx, order: order, sorted: &sortedGroups{}}
+}
+
+// open shows the groups from the top.
+func (p *segmentsPane) open() { p.offset = 0 }
+
+// breakdown returns the sorted breakdown at the cursor's cut.
+func (p segmentsPane) breakdown() segment.Breakdown {
+	s, c := p.s, p.sorted
+	if !c.ok || c.cut != s.cursor || c.order != p.order || c.confidence != s.assume.Confidence {
+		b, _ := s.breakdownAt(s.cursor)
+		b.Segments = append([]segment.Figures(nil), b.Segments...)
+		b.Sort(p.order)
+		*c = sortedGroups{ok: true, cut: s.cursor, order: p.order, confidence: s.assume.Confidence, breakdown: b}
+	}
+	return c.breakdown
+}
+
+// rowsInView is how many groups fit in the overlay at the screen's size
+// beside its frame, the count line, the heading, the overall row and the
+// lines of notes and keys.
+func (p segmentsPane) rowsInView() int {
+	return max(p.ctx.height-p.ctx.styles.Overlay.GetVerticalFrameSize()-5, 1)
+}
+
+// Update moves the cut with the cut keys, scrolls with the page keys and
+// changes the order with o.
+func (p segmentsPane) Update(msg tea.Msg) (segmentsPane, tea.Cmd) {
+	m, ok := msg.(tea.KeyMsg)
+	if !ok || p.s.curve == nil {
+		return p, nil
+	}
+	k, s := p.ctx.keys, p.s
+	groups := len(p.breakdown().Segments)
+	page := p.rowsInView()
+	switch {
+	case key.Matches(m, k.Up):
+		s.cursor = max(s.cursor-1, 0)
+	case key.Matches(m, k.Down):
+		s.cursor = min(s.cursor+1, s.curve.Len()-1)
+	case key.Matches(m, k.PageDown):
+		p.offset += page
+	case key.Matches(m, k.PageUp):
+		p.offset -= page
+	case key.Matches(m, k.Top):
+		p.offset = 0
+	case key.Matches(m, k.Bottom):
+		p.offset = groups - page
+	case key.Matches(m, k.SegmentOrder):
+		p.order = (p.order + 1) % 3
+		p.offset = 0
+	}
+	p.offset = max(min(p.offset, groups-page), 0)
+	return p, nil
+}
+
+func orderName(o segment.Order) string {
+	switch o {
+	case segment.ByGap:
+		return "gap from overall"
+	case segment.ByName:
+		return "name"
+	}
+	return "size"
+}
+
+// View draws the overlay at nearly the screen's size.
+func (p segmentsPane) View() string {
+	s, st := p.s, p.ctx.styles
+	b := p.breakdown()
+	longest := len("(overall)")
+	for _, f := range b.Segments {
+		longest = max(longest, ansi.StringWidth(f.Segment))
+	}
+	natural := 7 + 7 + 8 + 7 + 1 + 12 + 7 + 1 + 12 + 8 + min(longest, 28) + 1
+	width := min(p.ctx.width-2, natural+st.Overlay.GetHorizontalFrameSize())
+	innerW := width - st.Overlay.GetHorizontalFrameSize()
+	sign := ">="
+	if s.set.LowerIsRiskier {
+		sign = "<="
+	}
+	title := fmt.Sprintf("segments (%s) at cut %s %s · by %s", s.set.SegmentColumn, sign, report.Score(s.point().Score), orderName(p.order))
+
+	// Columns: the name takes what the figures leave.
+	wide := innerW >= natural
+	rangeW := 9
+	interval := func(ci [2]float64) string { return shortRange(ci) }
+	if wide {
+		rangeW = 12
+		interval = report.Range
+	}
+	fixed := 7 + 7 + 8 + 7 + 1 + rangeW + 7 + 1 + rangeW + 8
+	nameW := max(innerW-fixed, 8)
+	row := func(f segment.Figures) string {
+		note := ""
+		if f.Outlier {
+			note = "outside"
+		}
+		return pad(f.Segment, nameW, false) + pad(strconv.Itoa(f.Rows), 7, true) + pad(report.Count(f.Positives), 7, true) +
+			pad(report.Percent(f.FlaggedShare), 8, true) + pad(report.Percent(f.Recall), 7, true) + " " + pad(interval(f.RecallCI), rangeW, false) +
+			pad(report.Percent(f.Precision), 7, true) + " " + pad(interval(f.PrecisionCI), rangeW, false) + " " + note
+	}
+	head := pad("segment", nameW, false) + pad("rows", 7, true) + pad("true", 7, true) + pad("flagged", 8, true) +
+		pad("hit", 7, true) + " " + pad("interval", rangeW, false) + pad("prec.", 7, true) + " " + pad("interval", rangeW, false)
+	overall := b.Overall
+	overall.Segment = "(overall)"
+	lines := []string{
+		st.Muted.Render(fmt.Sprintf("%d groups · %d outside · %s intervals · flagged: the group's share of its cases", len(b.Segments), b.Outliers(),
+			strconv.FormatFloat(100*s.assume.Confidence, 'g', -1, 64)+"%")),
+		st.ColumnHead.Render(fitLine(head, innerW)),
+		st.Figure.Render(fitLine(row(overall), innerW)),
+	}
+	n := p.rowsInView()
+	end := min(p.offset+n, len(b.Segments))
+	for _, f := range b.Segments[p.offset:end] {
+		text := fitLine(row(f), innerW)
+		if f.Outlier {
+			text = st.Warning.Render(text)
+		}
+		lines = append(lines, text)
+	}
+	keys := "↑↓ move the cut · o order · s/esc closes"
+	if len(b.Segments) > n {
+		// Scrolling: keep the box's height as the groups scroll by.
+		for range n - (end - p.offset) {
+			lines = append(lines, "")
+		}
+		keys = fmt.Sprintf("%d–%d of %d · pgup/pgdn, g/G scroll · ", p.offset+1, end, len(b.Segments)) + keys
+	}
+	lines = append(lines,
+		st.Muted.Render("outside: hit-share or precision interval wholly outside the overall one"),
+		st.Muted.Render(keys))
+	for i, l := range lines {
+		if ansi.StringWidth(l) > innerW {
+			lines[i] = fitLine(l, innerW)
+		}
+	}
+	return framed(st.Overlay, st.OverlayEdge, st.Title, title, strings.Join(lines, "\n"), width,
+		min(len(lines)+st.Overlay.GetVerticalFrameSize(), p.ctx.height))
+}
+
+// shortRange is an interval in whole percent, as "61–79%".
+func shortRange(ci [2]float64) string {
+	if ci[0] != ci[0] || ci[1] != ci[1] {
+		return "n/a"
+	}
+	return strconv.FormatFloat(100*ci[0], 'f', 0, 64) + "–" + strconv.FormatFloat(100*ci[1], 'f', 0, 64) + "%"
+}

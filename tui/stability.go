@@ -1,0 +1,152 @@
+package tui
+
+import (
+	gocontext "context"
+	"errors"
+	"fmt"
+	"sync/atomic"
+	"time"
+
+	"github.com/charmbracelet/bubbles/key"
+	tea "github.com/charmbracelet/bubbletea"
+
+	"github.com/sill-tool/sill/internal/bootstrap"
+	"github.com/sill-tool/sill/internal/cutrule"
+)
+
+// defaultReplicates is the bootstrap's size when Config gives none: enough
+// for the 5th and 95th percentiles to settle to about a point, quick on
+// the demo.
+const defaultReplicates = 200
+
+// bandCuts is how many cuts, spread over the ranked rows, carry the band.
+const bandCuts = 120
+
+// resampling is the bootstrap run on demand: it runs in a tea.Cmd on every
+// core, reports progress through done, and stops when cancel is called.
+// run counts the runs, so that a result of a stopped or outdated run is
+// dropped.
+type resampling struct {
+	running  bool
+	run      int
+	total    int
+	done     *atomic.Int64
+	cancel   gocontext.CancelFunc
+	finished time.Duration
+}
+
+func newResampling() resampling { return resampling{done: new(atomic.Int64)} }
+
+type (
+	// resampleTickMsg asks the screen to show the resampling's progress.
+	resampleTickMsg struct{ run int }
+	// resampledMsg carries a finished (or failed, or stopped) bootstrap.
+	resampledMsg struct {
+		run     int
+		result  bootstrap.Result
+		err     error
+		elapsed time.Duration
+	}
+)
+
+func resampleTick(run int) tea.Cmd {
+	return tea.Tick(150*time.Millisecond, func(time.Time) tea.Msg { return resampleTickMsg{run: run} })
+}
+
+// resampleKey starts the bootstrap, or stops the one running.
+func (m Model) resampleKey() (tea.Model, tea.Cmd) {
+	r := &m.s.resampling
+	if r.running {
+		r.cancel()
+		r.running = false
+		r.run++
+		m.status = "resampling stopped"
+		m.resize()
+		return m, nil
+	}
+	replicates := m.cfg.Replicates
+	if replicates <= 0 {
+		replicates = defaultReplicates
+	}
+	rules := make([]cutrule.Rule, len(m.s.starts))
+	for i, o := range m.s.starts {
+		rules[i] = o.Rule
+	}
+	opt := bootstrap.Options{Replicates: replicates, Seed: m.cfg.Seed, BandCuts: bandCuts}
+	if m.s.assigned != nil {
+		opt.FinderOptions = []cutrule.Option{cutrule.WithShifts(*m.s.assigned, m.s.scale)}
+	}
+	ctx, cancel := gocontext.WithCancel(gocontext.Background())
+	r.run++
+	r.running, r.total, r.cancel = true, replicates, cancel
+	r.done.Store(0)
+	done, run := r.done, r.run
+	opt.Progress = func(n int) { done.Store(int64(n)) }
+	set, a := m.s.set, m.s.assume
+	m.status = fmt.Sprintf("resampling the set %d times on every core; b stops", replicates)
+	m.resize()
+	work := func() tea.Msg {
+		start := time.Now()
+		res, err := bootstrap.Run(ctx, set, rules, a, opt)
+		return resampledMsg{run: run, result: res, err: err, elapsed: time.Since(start)}
+	}
+	return m, tea.Batch(work, resampleTick(run))
+}
+
+// resampleUpdate handles the bootstrap's progress and result.
+func (m Model) resampleUpdate(msg tea.Msg) (tea.Model, tea.Cmd) {
+	r := &m.s.resampling
+	switch msg := msg.(type) {
+	case resampleTickMsg:
+		if r.running && msg.run == r.run {
+			return m, resampleTick(msg.run)
+		}
+	case resampledMsg:
+		if msg.run != r.run {
+			return m, nil // stopped, or the assumptions changed since
+		}
+		r.running = false
+		r.cancel()
+		switch {
+		case errors.Is(msg.err, gocontext.Canceled):
+			m.status = "resampling stopped"
+		case msg.err != nil:
+			m.status = "resampling: " + msg.err.Error()
+		default:
+			res := msg.result
+			m.s.stability = &res
+			r.finished = msg.elapsed
+			m.status = fmt.Sprintf("resampled %d times (seed %d): the band is on the chart, the spread in the figures", res.Replicates, res.Seed)
+		}
+		m.resize()
+	}
+	return m, nil
+}
+
+// dropStability stops a running bootstrap and forgets a finished one, as
+// the assumptions they ran under have changed. It reports whether there
+// was one.
+func (m *Model) dropStability() bool {
+	had := m.s.resampling.running || m.s.stability != nil
+	if m.s.resampling.running {
+		m.s.resampling.cancel()
+		m.s.resampling.running = false
+	}
+	m.s.resampling.run++
+	m.s.stability = nil
+	return had
+}
+
+// beyondKeys are the keys of the figures beyond the averages that apply
+// to the loaded data, for the help. The segments overlay lists its own
+// keys (the order key among them) at its foot.
+func (m Model) beyondKeys() []key.Binding {
+	k := m.ctx.keys
+	var out []key.Binding
+	for _, b := range []key.Binding{k.Segments, k.Stability, k.Calibration, k.Models} {
+		if b.Enabled() {
+			out = append(out, b)
+		}
+	}
+	return out
+}
