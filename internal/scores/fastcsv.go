@@ -29,7 +29,22 @@ func Load(r io.ReadSeeker, source string, opt Options) (*Set, error) {
 	if err != nil {
 		return Read(r, source, opt)
 	}
-	set, err := loadBlocks(r, source, opt)
+	// The size of plain text tells how many rows to make room for.
+	size := int64(-1)
+	if end, err := r.Seek(0, io.SeekEnd); err == nil {
+		size = end - start
+	}
+	var magic [2]byte
+	if _, err := r.Seek(start, io.SeekStart); err != nil {
+		return nil, &ParseError{File: source, Err: fmt.Errorf("read: %w", err)}
+	}
+	if n, _ := io.ReadFull(r, magic[:]); n == 2 && magic == [2]byte{0x1f, 0x8b} {
+		size = -1 // gzip: the size says little about the rows
+	}
+	if _, err := r.Seek(start, io.SeekStart); err != nil {
+		return nil, &ParseError{File: source, Err: fmt.Errorf("read: %w", err)}
+	}
+	set, err := loadBlocks(r, source, opt, size)
 	if !errors.Is(err, errDecline) {
 		return set, err
 	}
@@ -58,6 +73,7 @@ type block struct {
 	scores   []float64
 	labels   []bool
 	weights  []float64
+	size     int        // bytes in data
 	newlines int        // line feeds in data
 	dropped  int        // rows skipped by DropInvalid
 	reasons  []rowEvent // the first few of them
@@ -74,8 +90,9 @@ type rowEvent struct {
 }
 
 // loadBlocks is Load without the fallback; it returns errDecline for input
-// that Read must take.
-func loadBlocks(r io.Reader, source string, opt Options) (*Set, error) {
+// that Read must take. size is the number of bytes of plain text to read,
+// -1 when unknown.
+func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, error) {
 	if opt.Input != InputAuto && opt.Input != InputCSV {
 		return nil, errDecline
 	}
@@ -118,7 +135,7 @@ func loadBlocks(r io.Reader, source string, opt Options) (*Set, error) {
 	if b.segmentCol >= 0 || b.idCol >= 0 || b.timeCol >= 0 || b.compareCol >= 0 {
 		return nil, errDecline
 	}
-	p := &blockParser{b: b, delim: byte(delim), fields: len(header)}
+	p := &blockParser{b: b, delim: byte(delim), fields: len(header), spare: make(chan blockColumns, 8)}
 
 	blocks, readErr, stop := p.produce(in)
 	var (
@@ -149,7 +166,30 @@ func loadBlocks(r io.Reader, source string, opt Options) (*Set, error) {
 		}
 		line += blk.newlines
 		rows += len(blk.scores)
-		parsed = append(parsed, blk)
+		if size > 0 && len(blk.scores) > 0 {
+			// Copy the rows into place now, while later blocks are parsed,
+			// making room at the first rows for as many as the size says.
+			if b.scores == nil {
+				estimate := int(float64(size)*float64(len(blk.scores))/float64(blk.size)*1.02) + 1024
+				b.scores = make([]float64, 0, estimate)
+				b.labels = make([]bool, 0, estimate)
+				if b.weightCol >= 0 {
+					b.weights = make([]float64, 0, estimate)
+				}
+			}
+			b.scores = append(b.scores, blk.scores...)
+			b.labels = append(b.labels, blk.labels...)
+			if b.weights != nil {
+				b.weights = append(b.weights, blk.weights...)
+			}
+			select {
+			case p.spare <- blockColumns{blk.scores[:0], blk.labels[:0], blkWeights(blk)}:
+			default:
+			}
+			blk.scores, blk.labels, blk.weights = nil, nil, nil
+		} else {
+			parsed = append(parsed, blk)
+		}
 		if opt.Progress != nil {
 			opt.Progress(rows)
 		}
@@ -167,7 +207,7 @@ func loadBlocks(r io.Reader, source string, opt Options) (*Set, error) {
 		return nil, &ParseError{File: source, Err: ErrNoRows}
 	}
 
-	if rows > 0 { // with no rows the columns stay as Read leaves them
+	if rows > 0 && b.scores == nil { // with no rows the columns stay as Read leaves them
 		b.scores = make([]float64, 0, rows)
 		b.labels = make([]bool, 0, rows)
 		if b.weightCol >= 0 {
@@ -175,6 +215,9 @@ func loadBlocks(r io.Reader, source string, opt Options) (*Set, error) {
 		}
 	}
 	for i, blk := range parsed {
+		if len(blk.scores) == 0 {
+			continue
+		}
 		b.scores = append(b.scores, blk.scores...)
 		b.labels = append(b.labels, blk.labels...)
 		if b.weights != nil {
@@ -195,7 +238,22 @@ func isSpaceByte(c byte) bool { return c == ' ' || c == '\t' || c == '\r' || c =
 type blockParser struct {
 	b      *builder
 	delim  byte
-	fields int // fields in the header
+	fields int               // fields in the header
+	spare  chan blockColumns // parsed columns already copied into place, for reuse
+}
+
+// blockColumns are the columns parsed from one block.
+type blockColumns struct {
+	scores  []float64
+	labels  []bool
+	weights []float64
+}
+
+func blkWeights(blk *block) []float64 {
+	if blk.weights == nil {
+		return nil
+	}
+	return blk.weights[:0]
 }
 
 // produce reads in as blocks of whole lines and parses them on every core.
@@ -284,10 +342,20 @@ func (p *blockParser) parse(blk *block) {
 	b := p.b
 	data := blk.data
 	rowsAtMost := bytes.Count(data, []byte{'\n'}) + 1
-	blk.scores = make([]float64, 0, rowsAtMost)
-	blk.labels = make([]bool, 0, rowsAtMost)
-	if b.weightCol >= 0 {
-		blk.weights = make([]float64, 0, rowsAtMost)
+	blk.size = len(data)
+	var spare blockColumns
+	select {
+	case spare = <-p.spare:
+	default:
+	}
+	if cap(spare.scores) >= rowsAtMost && (b.weightCol < 0 || cap(spare.weights) >= rowsAtMost) {
+		blk.scores, blk.labels, blk.weights = spare.scores, spare.labels, spare.weights
+	} else {
+		blk.scores = make([]float64, 0, rowsAtMost)
+		blk.labels = make([]bool, 0, rowsAtMost)
+		if b.weightCol >= 0 {
+			blk.weights = make([]float64, 0, rowsAtMost)
+		}
 	}
 	blk.newlines = rowsAtMost - 1
 	quotes := bytes.IndexByte(data, '"') >= 0

@@ -235,7 +235,7 @@ func TestLoadMatchesRead(t *testing.T) {
 		}
 		name := fmt.Sprintf("trial %d (block %d, rows %d)", trial, blockSize, rows)
 		sameResult(t, name, data, opt)
-		if _, err := loadBlocks(bytes.NewReader(data), "t.csv", opt); err != errDecline {
+		if _, err := loadBlocks(bytes.NewReader(data), "t.csv", opt, int64(len(data))); err != errDecline {
 			handled++
 		}
 		if trial%10 == 0 {
