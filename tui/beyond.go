@@ -2,6 +2,7 @@ package tui
 
 import (
 	"fmt"
+	"math"
 	"strconv"
 
 	"github.com/sill-tool/sill/internal/bootstrap"
@@ -215,18 +216,29 @@ func (s *session) busiest(i int) string {
 }
 
 // spreadAt returns the bootstrap spread of the first starting point that
-// picks cut i, if the bootstrap has run and resampled it.
+// picks cut i, if the bootstrap has run; a rule it did not resample
+// (queue90) comes with Skipped set, and only when no other rule there was
+// resampled.
 func (s *session) spreadAt(i int) (bootstrap.Spread, bool) {
 	if s.stability == nil {
 		return bootstrap.Spread{}, false
 	}
+	var skipped *bootstrap.Spread
 	for k, o := range s.starts {
 		if !o.Met || o.Point.Index != i || k >= len(s.stability.Spreads) {
 			continue
 		}
-		if sp := s.stability.Spreads[k]; sp.Skipped == "" && sp.Met > 0 && sp.Rule == o.Rule {
+		sp := s.stability.Spreads[k]
+		switch {
+		case sp.Rule != o.Rule:
+		case sp.Skipped != "" && skipped == nil:
+			skipped = &sp
+		case sp.Skipped == "" && sp.Met > 0:
 			return sp, true
 		}
+	}
+	if skipped != nil {
+		return *skipped, true
 	}
 	return bootstrap.Spread{}, false
 }
@@ -278,11 +290,14 @@ func ruleWords(r cutrule.Rule) string {
 	return "the " + r.String() + " point"
 }
 
-// significant formats a percentile of scores with four significant
-// digits, which interpolate between data scores.
+// significant formats a percentile of scores, which interpolates between
+// data scores, with three significant digits (whole numbers from 1000).
 func significant(v float64) string {
-	if v != v {
+	switch {
+	case math.IsNaN(v):
 		return "n/a"
+	case math.Abs(v) >= 1000:
+		return strconv.FormatFloat(v, 'f', 0, 64)
 	}
-	return strconv.FormatFloat(v, 'g', 4, 64)
+	return strconv.FormatFloat(v, 'g', 3, 64)
 }

@@ -1,7 +1,11 @@
 package tui
 
 import (
+	"fmt"
+	"math"
+	"math/rand/v2"
 	"path/filepath"
+	"sort"
 	"strings"
 	"testing"
 	"time"
@@ -78,4 +82,127 @@ func resample(t testing.TB, m Model) Model {
 	}
 	next, _ = m.Update(msg)
 	return next.(Model)
+}
+
+// twoModels is the demo with a second model's scores: a noisier reading of
+// the same log-odds, seeded, so that the first model ranks better.
+func twoModels(t testing.TB) *scores.Set {
+	t.Helper()
+	set := demoSet(t)
+	rng := rand.New(rand.NewPCG(11, 12))
+	set.CompareScores = make([]float64, set.Len())
+	for i, s := range set.Scores {
+		s = min(max(s, 1e-6), 1-1e-6)
+		logit := 0.8*math.Log(s/(1-s)) + 0.9*rng.NormFloat64()
+		set.CompareScores[i] = math.Round(1000/(1+math.Exp(-logit))) / 1000
+	}
+	set.CompareColumn = "score_b"
+	return set
+}
+
+// manySegments is a seeded set of 2000 rows in 40 depots, one of which
+// catches far fewer of its true cases than the rest.
+func manySegments(t testing.TB) *scores.Set {
+	t.Helper()
+	rng := rand.New(rand.NewPCG(21, 22))
+	n := 2000
+	values, labels := make([]float64, n), make([]bool, n)
+	depot := make([]int32, n)
+	for i := range n {
+		depot[i] = int32(rng.IntN(40))
+		labels[i] = rng.Float64() < 0.1
+		latent := rng.NormFloat64()
+		if labels[i] && depot[i] != 7 {
+			latent += 2
+		}
+		values[i] = math.Round(1000/(1+math.Exp(-(latent-2)))) / 1000
+	}
+	read := make([]int, n) // the read order, to carry the depots along the ranking
+	for i := range read {
+		read[i] = i
+	}
+	set, err := scores.New(values, labels, nil, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// scores.New ranks by score, keeping ties in read order: rank the
+	// depots the same way.
+	sort.SliceStable(read, func(a, b int) bool { return values[read[a]] > values[read[b]] })
+	set.SegmentOf = make([]int32, n)
+	for r, i := range read {
+		set.SegmentOf[r] = depot[i]
+	}
+	set.SegmentNames = make([]string, 40)
+	for i := range set.SegmentNames {
+		set.SegmentNames[i] = fmt.Sprintf("depot-%02d", i)
+	}
+	set.SegmentColumn, set.Source = "depot", "depots.csv"
+	return set
+}
+
+// TestBeyondView draws the screens of issue 6 at fixed sizes with colour
+// off: the demo as sill with no arguments opens it (yards, reading times,
+// three crew shifts), its overlays, the bootstrap's band and spread, and
+// two models.
+func TestBeyondView(t *testing.T) {
+	demoTimed := demoTimedSet(t)
+	two := twoModels(t)
+	depots := manySegments(t)
+	scaled := tenRows(t)
+	for i := range scaled.Scores {
+		scaled.Scores[i] *= 10 // not probabilities
+	}
+	cases := []struct {
+		name          string
+		set           *scores.Set
+		width, height int
+		keys          []string
+		resample      bool     // run the bootstrap after keys, then press after
+		after         []string // keys after the bootstrap
+	}{
+		{name: "demo-100x30", set: demoTimed, width: 100, height: 30},
+		{name: "demo-80x24-queue90", set: demoTimed, width: 80, height: 24, keys: []string{"6"}},
+		{name: "segments-80x24", set: demoTimed, width: 80, height: 24, keys: []string{"s"}},
+		{name: "segments-100x30-by-gap-two-down", set: demoTimed, width: 100, height: 30, keys: []string{"s", "o", "j", "j"}},
+		{name: "segments-many-80x24-page-down", set: depots, width: 80, height: 24, keys: []string{"2", "s", "pgdown"}},
+		{name: "segments-many-120x40-by-gap", set: depots, width: 120, height: 40, keys: []string{"2", "s", "o"}},
+		{name: "calibration-80x24", set: demoTimed, width: 80, height: 24, keys: []string{"e"}},
+		{name: "calibration-100x30-resampled-cost", set: demoTimed, width: 100, height: 30, resample: true, after: []string{"5", "e"}},
+		{name: "calibration-80x24-not-probabilities", set: scaled, width: 80, height: 24, keys: []string{"e"}},
+		{name: "resampling-80x24", set: demoTimed, width: 80, height: 24, keys: []string{"b"}},
+		{name: "stability-100x30-hit", set: demoTimed, width: 100, height: 30, resample: true, after: []string{"2"}},
+		{name: "stability-80x24-base", set: demoTimed, width: 80, height: 24, resample: true},
+		{name: "stability-100x30-queue90", set: demoTimed, width: 100, height: 30, resample: true, after: []string{"6"}},
+		{name: "stability-100x30-all-chart", set: demoTimed, width: 100, height: 30, resample: true, after: []string{"v", "j"}},
+		{name: "two-models-100x30", set: two, width: 100, height: 30},
+		{name: "two-models-100x30-roc", set: two, width: 100, height: 30, keys: []string{"v", "v"}},
+		{name: "two-models-100x30-overlay", set: two, width: 100, height: 30, keys: []string{"2", "m"}},
+		{name: "help-80x24-demo", set: demoTimed, width: 80, height: 24, keys: []string{"?"}},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			set := tc.set
+			cfg := Config{Load: func(func(int)) (*scores.Set, error) { return set, nil }, Assume: demoAssumptions, Replicates: 100, Seed: 1}
+			if set.Times != nil {
+				cfg.Shifts = threeShifts(t)
+			}
+			if set == scaled {
+				cfg.Assume = tenAssumptions
+			}
+			m := loadedWith(t, cfg, tc.width, tc.height)
+			if tc.keys != nil && tc.keys[len(tc.keys)-1] == "b" {
+				// Press b without running the work: the frame shows the
+				// progress at its start.
+				next, _ := m.Update(keyMsg("b"))
+				m = next.(Model)
+			} else {
+				m = keys(m, tc.keys...)
+			}
+			if tc.resample {
+				m = resample(t, m)
+				m = keys(m, tc.after...)
+			}
+			checkFrame(t, tc.name, m.View(), tc.width, tc.height)
+		})
+	}
 }

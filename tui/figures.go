@@ -255,7 +255,12 @@ func (p figuresPane) stabilityLines(width int) []string {
 	}
 	res := s.stability
 	var sentences []string
-	if sp, on := s.spreadAt(s.cursor); on {
+	if sp, on := s.spreadAt(s.cursor); on && sp.Skipped != "" {
+		sentences = []string{
+			fmt.Sprintf("%s is not resampled: drawing cases again piles repeats into the same shifts", ruleWords(sp.Rule)),
+			fmt.Sprintf("%s is not resampled (repeats pile into shifts)", ruleWords(sp.Rule)),
+		}
+	} else if on {
 		verdict, _, _ := strings.Cut(bootstrap.Describe(sp, res.Replicates), ":")
 		from, to := significant(sp.Score[0]), significant(sp.Score[1])
 		sentences = []string{

@@ -89,9 +89,13 @@ func framed(box, edge, titleStyle lipgloss.Style, title, body string, width, hei
 }
 
 // overlay draws box over base, centred, keeping base's size. Both are
-// lines of equal width.
+// lines of equal width; a line of base that is not width wide comes out
+// as wide as it went in, so fit the result when that matters (View does).
 func overlay(base, box string, width, height int) string {
-	baseLines := strings.Split(fit(base, width, height), "\n")
+	baseLines := strings.Split(base, "\n")
+	for len(baseLines) < height {
+		baseLines = append(baseLines, "")
+	}
 	boxLines := strings.Split(box, "\n")
 	boxW := 0
 	for _, l := range boxLines {

@@ -706,6 +706,12 @@ func (m Model) View() string {
 		text := fmt.Sprintf("reading scores… %d rows so far", m.rowsRead.Load())
 		return fit(lipgloss.Place(w, h, lipgloss.Center, lipgloss.Center, st.Muted.Render(text)), w, h)
 	}
+	if len(m.overlays) > 0 && m.overlays[len(m.overlays)-1] == overlaySegments {
+		// The breakdown takes the whole body: the panes under it would
+		// show only at its edges, so they are not drawn.
+		base := m.header(w) + strings.Repeat("\n", h-1) + m.footer(w)
+		return fit(overlay(base, m.overlayView(), w, h), w, h)
+	}
 	right := m.figures.View()
 	if l.curve.H > 0 {
 		right = m.chart.View() + "\n" + right

@@ -134,8 +134,8 @@ func (p modelsPane) View() string {
 	if s.pairErr != nil {
 		lines = append(lines, st.Muted.Render("paired test: "+s.pairErr.Error()))
 	} else {
-		lines = append(lines, st.Muted.Render(fmt.Sprintf("A − B %s, standard error %s, z %s, p %s (DeLong et al. 1988, paired)",
-			signed(s.pair.Difference, 3), report.Fixed(s.pair.StdError, 3), report.Fixed(s.pair.Z, 2), report.Fixed(s.pair.P, 3))))
+		lines = append(lines, st.Muted.Render(fmt.Sprintf("A − B %s (SE %s), z %s, p %s: DeLong's paired test",
+			signed(s.pair.Difference, 3), report.Fixed(s.pair.StdError, 3), report.Fixed(s.pair.Z, 2), pValue(s.pair.P))))
 	}
 	head := pad("starting point", 16, false) + pad("", 2, false) + pad("cut", 8, true) + pad("flagged", 9, true) + pad("hit", 8, true) +
 		pad("wrong", 8, true) + pad("queue", 8, true) + pad("cost", 10, true)
@@ -171,4 +171,12 @@ func (p modelsPane) View() string {
 	}
 	lines = append(lines, st.Muted.Render("figures projected under the assumptions · ▶ the cursor's · m or esc closes"))
 	return overlayBox(p.ctx, "two models on the same cases", strings.Join(lines, "\n"))
+}
+
+// pValue formats a p-value with three decimals, "<0.001" below that.
+func pValue(p float64) string {
+	if evidence.Defined(p) && p < 0.001 {
+		return "<0.001"
+	}
+	return report.Fixed(p, 3)
 }

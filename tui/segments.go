@@ -57,11 +57,11 @@ func (p segmentsPane) breakdown() segment.Breakdown {
 	return c.breakdown
 }
 
-// rowsInView is how many groups fit in the overlay at the screen's size
-// beside its frame, the count line, the heading, the overall row and the
-// lines of notes and keys.
+// rowsInView is how many groups fit in the overlay between the screen's
+// header and footer, beside its frame, the count line, the heading, the
+// overall row and the lines of notes and keys.
 func (p segmentsPane) rowsInView() int {
-	return max(p.ctx.height-p.ctx.styles.Overlay.GetVerticalFrameSize()-5, 1)
+	return max(p.ctx.height-2-p.ctx.styles.Overlay.GetVerticalFrameSize()-5, 1)
 }
 
 // Update moves the cut with the cut keys, scrolls with the page keys and
@@ -146,38 +146,34 @@ func (p segmentsPane) View() string {
 	overall := b.Overall
 	overall.Segment = "(overall)"
 	lines := []string{
-		st.Muted.Render(fmt.Sprintf("%d groups · %d outside · %s intervals · flagged: the group's share of its cases", len(b.Segments), b.Outliers(),
+		st.Muted.Render(fmt.Sprintf("%d groups · %d outside · %s intervals · flagged: share of the group", len(b.Segments), b.Outliers(),
 			strconv.FormatFloat(100*s.assume.Confidence, 'g', -1, 64)+"%")),
-		st.ColumnHead.Render(fitLine(head, innerW)),
-		st.Figure.Render(fitLine(row(overall), innerW)),
+		st.ColumnHead.Render(head),
+		st.Figure.Render(row(overall)),
 	}
 	n := p.rowsInView()
 	end := min(p.offset+n, len(b.Segments))
 	for _, f := range b.Segments[p.offset:end] {
-		text := fitLine(row(f), innerW)
+		text := row(f)
 		if f.Outlier {
 			text = st.Warning.Render(text)
 		}
 		lines = append(lines, text)
 	}
-	keys := "↑↓ move the cut · o order · s/esc closes"
+	keys := "↑↓ cut · o order · s/esc closes"
 	if len(b.Segments) > n {
 		// Scrolling: keep the box's height as the groups scroll by.
 		for range n - (end - p.offset) {
 			lines = append(lines, "")
 		}
-		keys = fmt.Sprintf("%d–%d of %d · pgup/pgdn, g/G scroll · ", p.offset+1, end, len(b.Segments)) + keys
+		keys = fmt.Sprintf("%d–%d of %d · pgup/pgdn g/G scroll · ", p.offset+1, end, len(b.Segments)) + keys
 	}
 	lines = append(lines,
 		st.Muted.Render("outside: hit-share or precision interval wholly outside the overall one"),
 		st.Muted.Render(keys))
-	for i, l := range lines {
-		if ansi.StringWidth(l) > innerW {
-			lines[i] = fitLine(l, innerW)
-		}
-	}
+	// framed fits every line to the box's inner width.
 	return framed(st.Overlay, st.OverlayEdge, st.Title, title, strings.Join(lines, "\n"), width,
-		min(len(lines)+st.Overlay.GetVerticalFrameSize(), p.ctx.height))
+		min(len(lines)+st.Overlay.GetVerticalFrameSize(), p.ctx.height-2))
 }
 
 // shortRange is an interval in whole percent, as "61–79%".

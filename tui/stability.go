@@ -27,12 +27,11 @@ const bandCuts = 120
 // run counts the runs, so that a result of a stopped or outdated run is
 // dropped.
 type resampling struct {
-	running  bool
-	run      int
-	total    int
-	done     *atomic.Int64
-	cancel   gocontext.CancelFunc
-	finished time.Duration
+	running bool
+	run     int
+	total   int
+	done    *atomic.Int64
+	cancel  gocontext.CancelFunc
 }
 
 func newResampling() resampling { return resampling{done: new(atomic.Int64)} }
@@ -42,10 +41,9 @@ type (
 	resampleTickMsg struct{ run int }
 	// resampledMsg carries a finished (or failed, or stopped) bootstrap.
 	resampledMsg struct {
-		run     int
-		result  bootstrap.Result
-		err     error
-		elapsed time.Duration
+		run    int
+		result bootstrap.Result
+		err    error
 	}
 )
 
@@ -86,9 +84,8 @@ func (m Model) resampleKey() (tea.Model, tea.Cmd) {
 	m.status = fmt.Sprintf("resampling the set %d times on every core; b stops", replicates)
 	m.resize()
 	work := func() tea.Msg {
-		start := time.Now()
 		res, err := bootstrap.Run(ctx, set, rules, a, opt)
-		return resampledMsg{run: run, result: res, err: err, elapsed: time.Since(start)}
+		return resampledMsg{run: run, result: res, err: err}
 	}
 	return m, tea.Batch(work, resampleTick(run))
 }
@@ -115,7 +112,6 @@ func (m Model) resampleUpdate(msg tea.Msg) (tea.Model, tea.Cmd) {
 		default:
 			res := msg.result
 			m.s.stability = &res
-			r.finished = msg.elapsed
 			m.status = fmt.Sprintf("resampled %d times (seed %d): the band is on the chart, the spread in the figures", res.Replicates, res.Seed)
 		}
 		m.resize()
