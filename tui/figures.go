@@ -261,11 +261,10 @@ func (p figuresPane) stabilityLines(width int) []string {
 			fmt.Sprintf("%s is not resampled (repeats pile into shifts)", ruleWords(sp.Rule)),
 		}
 	} else if on {
-		verdict, _, _ := strings.Cut(bootstrap.Describe(sp, res.Replicates), ":")
 		from, to := significant(sp.Score[0]), significant(sp.Score[1])
 		sentences = []string{
-			fmt.Sprintf("%s could land anywhere from score %s to %s on another validation set of this size: %s", ruleWords(sp.Rule), from, to, verdict),
-			fmt.Sprintf("%s: score %s to %s on another set of this size, %s", ruleWords(sp.Rule), from, to, verdict),
+			fmt.Sprintf("%s could land anywhere from score %s to %s on another validation set of this size", ruleWords(sp.Rule), from, to),
+			fmt.Sprintf("%s: score %s to %s on another set of this size", ruleWords(sp.Rule), from, to),
 		}
 	} else {
 		sentences = []string{
@@ -332,10 +331,18 @@ func (p figuresPane) startLine(width int) string {
 		}
 		return strings.Join(parts, " ")
 	}
-	if line := build(true); ansi.StringWidth(line) <= width {
-		return line
+	line := build(true)
+	if ansi.StringWidth(line) > width {
+		line = build(false)
 	}
-	return build(false)
+	// After a bootstrap, how steady the cursor's starting point is.
+	if sp, ok := s.spreadAt(s.cursor); ok && sp.Skipped == "" {
+		verdict, _, _ := strings.Cut(bootstrap.Describe(sp, s.stability.Replicates), ":")
+		if with := line + st.Muted.Render(" · "+verdict); ansi.StringWidth(with) <= width {
+			line = with
+		}
+	}
+	return line
 }
 
 // assumptionsText is the assumptions in a few words: the base rate, the

@@ -95,15 +95,17 @@ candidates and the assumptions to --out; ? lists every key.`,
 			if path == "-" {
 				return fmt.Errorf("explore takes its keys from the terminal, so it cannot read scores from standard input; save them to a file first")
 			}
-			if !isTerminal() || cmd.OutOrStdout() != os.Stdout {
-				return fmt.Errorf("explore needs a terminal on standard input and output; for printed figures use: sill report %s", path)
-			}
+			// Flag mistakes first, so that they are told even without a
+			// terminal.
 			if err := o.beyond.prepare(&o.input); err != nil {
 				return err
 			}
 			cfg, err := o.config()
 			if err != nil {
 				return err
+			}
+			if !isTerminal() || cmd.OutOrStdout() != os.Stdout {
+				return fmt.Errorf("explore needs a terminal on standard input and output; for printed figures use: sill report %s", path)
 			}
 			cfg.Load = func(progress func(int)) (*scores.Set, error) { return o.load(path, progress) }
 			cfg.Assume, cfg.Out = o.assume.assumptions, o.out
@@ -126,23 +128,32 @@ var demoShifts = []string{"--time=read_at", "--shifts=06:00,14:00,22:00", "--tz=
 // assumptions, its yards as segments and its readings in the three crew
 // shifts.
 func exploreDemo() error {
-	var o exploreOptions
+	cfg, err := demoConfig()
+	if err != nil {
+		return err
+	}
+	return runExplorer(cfg)
+}
+
+// demoConfig is the explorer's configuration for the built-in demo data.
+func demoConfig() (tui.Config, error) {
+	o := &exploreOptions{}
 	fs := pflag.NewFlagSet("demo", pflag.ContinueOnError)
 	o.assume.register(fs)
 	o.registerBeyond(fs)
 	if err := fs.Parse(append(append([]string(nil), demo.Assumptions...), demoShifts...)); err != nil {
-		return err
+		return tui.Config{}, err
 	}
 	if err := o.beyond.prepare(&o.input); err != nil {
-		return err
+		return tui.Config{}, err
 	}
 	cfg, err := o.config()
 	if err != nil {
-		return err
+		return cfg, err
 	}
 	cfg.Load = func(progress func(int)) (*scores.Set, error) { return o.input.loadDemo() }
 	cfg.Assume, cfg.Out = o.assume.assumptions, "cut.yaml"
-	return runExplorer(cfg)
+	return cfg, nil
 }
 
 // isTerminal reports whether both standard input and output are terminals.

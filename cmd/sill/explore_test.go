@@ -18,6 +18,16 @@ func TestExploreWithoutTerminal(t *testing.T) {
 		{[]string{"explore", "-"}, "cannot read scores from standard input"},
 		{[]string{"explore"}, "accepts 1 arg"},
 		{[]string{"explore", path, "--volume", "x"}, "invalid argument"},
+		// The flags of the figures beyond the averages are checked before
+		// the terminal.
+		{[]string{"explore", path, "--shifts", "06:00,14:00"}, "--shifts needs --time"},
+		{[]string{"explore", path, "--time", "at"}, "--time needs --shifts"},
+		{[]string{"explore", path, "--time", "at", "--shifts", "25:00"}, "--shifts"},
+		{[]string{"explore", path, "--compare", "other.csv"}, "--compare needs --id"},
+		{[]string{"explore", path, "--segment-order", "colour"}, "--segment-order"},
+		{[]string{"explore", path, "--bootstrap", "-3"}, "--bootstrap -3"},
+		{[]string{"explore", path, "--time", "at", "--shifts", "06:00", "--tz", "Nowhere/Atlantis"}, "--tz"},
+		{[]string{"explore", path, "--segment", "yard", "--time", "read_at", "--shifts", "06:00,14:00,22:00", "--bootstrap", "500", "--seed", "3"}, "sill report " + path},
 	}
 	for _, tc := range cases {
 		r := runSill(t, "", tc.args...)
@@ -27,5 +37,29 @@ func TestExploreWithoutTerminal(t *testing.T) {
 		if r.stdout != "" {
 			t.Errorf("sill %s wrote to stdout: %q", strings.Join(tc.args, " "), r.stdout)
 		}
+	}
+}
+
+// TestDemoConfig: sill with no arguments opens the demo with its yards as
+// segments, its reading times in the three crew shifts and the demo
+// assumptions.
+func TestDemoConfig(t *testing.T) {
+	cfg, err := demoConfig()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if cfg.Shifts == nil || cfg.Shifts.String() != "06:00,14:00,22:00" || cfg.Out != "cut.yaml" {
+		t.Fatalf("shifts %v, out %q", cfg.Shifts, cfg.Out)
+	}
+	set, err := cfg.Load(nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if set.Times == nil || set.TimeColumn != "read_at" || set.SegmentColumn != "yard" || set.IDColumn != "id" {
+		t.Errorf("demo set: times %v, time %q, segment %q, id %q", set.Times != nil, set.TimeColumn, set.SegmentColumn, set.IDColumn)
+	}
+	a, err := cfg.Assume(set)
+	if err != nil || a.Volume != 1500 || a.Capacity != 90 || a.Costs == nil {
+		t.Errorf("demo assumptions %+v, %v", a, err)
 	}
 }

@@ -1,0 +1,280 @@
+package tui
+
+import (
+	"math"
+	"strings"
+	"testing"
+
+	tea "github.com/charmbracelet/bubbletea"
+
+	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/report"
+	"github.com/sill-tool/sill/internal/scores"
+	"github.com/sill-tool/sill/internal/segment"
+	"github.com/sill-tool/sill/internal/shift"
+)
+
+// top returns the top overlay, or -1 without one.
+func top(m Model) overlayKind {
+	if len(m.overlays) == 0 {
+		return -1
+	}
+	return m.overlays[len(m.overlays)-1]
+}
+
+// TestSegmentsOverlay: s opens the breakdown, the cut keys still move the
+// cut under it, o cycles the order, the page keys scroll, esc closes; the
+// figures are those of package segment at the cursor's cut.
+func TestSegmentsOverlay(t *testing.T) {
+	set := manySegments(t)
+	m := loadedWith(t, Config{Load: func(func(int)) (*scores.Set, error) { return set, nil }, Assume: demoAssumptions}, 80, 24)
+	m = keys(m, "2", "s")
+	if top(m) != overlaySegments {
+		t.Fatalf("s opened %v", m.overlays)
+	}
+	before := m.s.cursor
+	m = keys(m, "j")
+	if m.s.cursor != before+1 || top(m) != overlaySegments {
+		t.Errorf("j under the breakdown: cursor %d, want %d, overlays %v", m.s.cursor, before+1, m.overlays)
+	}
+	// The breakdown is At's at the cursor's cut (the reference), sorted
+	// by size: most rows first.
+	want := segment.At(set, m.s.point(), m.s.assume.Confidence)
+	want.Sort(segment.BySize)
+	got := m.segments.breakdown()
+	if len(got.Segments) != 40 || got.Segments[0].Segment != want.Segments[0].Segment || !near(got.Overall.Recall, want.Overall.Recall) {
+		t.Errorf("breakdown %+v, want %+v", got.Segments[0], want.Segments[0])
+	}
+	for i := range got.Segments {
+		if i > 0 && got.Segments[i].Rows > got.Segments[i-1].Rows {
+			t.Fatalf("by size: %d rows after %d", got.Segments[i].Rows, got.Segments[i-1].Rows)
+		}
+		if !near(got.Segments[i].TP, want.Segments[i].TP) || got.Segments[i].Outlier != want.Segments[i].Outlier {
+			t.Fatalf("group %s: %+v, want %+v", got.Segments[i].Segment, got.Segments[i], want.Segments[i])
+		}
+	}
+	page := m.segments.rowsInView()
+	m = keys(m, "pgdown")
+	if m.segments.offset != page {
+		t.Errorf("pgdown: offset %d, want %d", m.segments.offset, page)
+	}
+	m = keys(m, "G")
+	if m.segments.offset != 40-page {
+		t.Errorf("G: offset %d, want %d (the last page)", m.segments.offset, 40-page)
+	}
+	m = keys(m, "o")
+	if m.segments.order != segment.ByGap || m.segments.offset != 0 {
+		t.Errorf("o: order %v offset %d, want by gap from the top", m.segments.order, m.segments.offset)
+	}
+	got = m.segments.breakdown()
+	for i := 1; i < len(got.Segments); i++ {
+		if got.Segments[i].Gap(got.Overall) > got.Segments[i-1].Gap(got.Overall) {
+			t.Fatalf("by gap: %v after %v", got.Segments[i].Gap(got.Overall), got.Segments[i-1].Gap(got.Overall))
+		}
+	}
+	m = keys(m, "o", "o")
+	if m.segments.order != segment.BySize {
+		t.Errorf("o three times: order %v, want by size again", m.segments.order)
+	}
+	m = keys(m, "esc")
+	if len(m.overlays) != 0 {
+		t.Errorf("esc left %v", m.overlays)
+	}
+}
+
+// TestSegmentsKeyWithoutSegments: without a segment column s does nothing
+// and the help does not list it.
+func TestSegmentsKeyWithoutSegments(t *testing.T) {
+	m := tenModel(t)
+	m = keys(m, "s")
+	if len(m.overlays) != 0 {
+		t.Errorf("s opened %v without segments", m.overlays)
+	}
+	for _, b := range m.beyondKeys() {
+		if b.Help().Key == "s" || b.Help().Key == "m" {
+			t.Errorf("help lists %q without the data for it", b.Help().Key)
+		}
+	}
+}
+
+// TestShiftPeaks: with the demo's times and three shifts, the peaks at the
+// cursor are those of package shift at its rows (the reference), key 6 is
+// queue90 at the capacity and lands on the deepest cut whose 90th
+// percentile is at most the capacity, and doubling the volume doubles the
+// queues (the scale is the volume over the set's cases per shift).
+func TestShiftPeaks(t *testing.T) {
+	m := demoBeyond(t, 100, 30)
+	// 28 days of three shifts from 2026-09-01 00:00 UTC (the demo's doc),
+	// and the shift from 22:00 the evening before, which holds the first
+	// night's readings: 85.
+	if m.s.assigned == nil || m.s.assigned.Count != 85 {
+		t.Fatalf("assigned %v shifts", m.s.assigned != nil && m.s.assigned.Count == 85)
+	}
+	last := m.s.starts[len(m.s.starts)-1]
+	if last.Rule != (cutrule.Rule{Kind: cutrule.Queue90, Value: 90}) || !last.Met || !m.ctx.keys.Peak.Enabled() {
+		t.Fatalf("last starting point %v met %v, key enabled %v", last.Rule, last.Met, m.ctx.keys.Peak.Enabled())
+	}
+	m = keys(m, "6")
+	if m.s.cursor != last.Point.Index {
+		t.Fatalf("6: cursor %d, want %d", m.s.cursor, last.Point.Index)
+	}
+	scale := shift.ScaleFor(m.s.set, *m.s.assigned, m.s.assume)
+	at := func(cut int) shift.Peaks { return m.s.assigned.At(m.s.set, m.s.curve.At(cut).Rows, scale, 90) }
+	got, _ := m.s.peaksAtCut(m.s.cursor)
+	want := at(m.s.cursor)
+	if !near(got.P90, want.P90) || !near(got.Max, want.Max) || got.Busiest != want.Busiest || !near(got.OverCapacity, want.OverCapacity) {
+		t.Errorf("peaks %+v, want %+v", got, want)
+	}
+	if want.P90 > 90 || at(m.s.cursor+1).P90 <= 90 {
+		t.Errorf("queue90=90 at cut %d: p90 %v, one looser %v", m.s.cursor, want.P90, at(m.s.cursor+1).P90)
+	}
+	if !strings.Contains(m.View(), "9 in 10 shifts ≤ "+report.Queue(want.P90)) {
+		t.Errorf("the figures do not show the 90th percentile %v:\n%s", want.P90, m.View())
+	}
+	// Double the volume in the form: every queue doubles.
+	m = keys(m, "a", "tab", "ctrl+u")
+	m = typeText(m, "3000")
+	m = keys(m, "enter")
+	if m.s.assume.Volume != 3000 {
+		t.Fatalf("volume %v: %s", m.s.assume.Volume, m.status)
+	}
+	doubled, _ := m.s.peaksAtCut(m.s.cursor)
+	if math.Abs(doubled.P90-2*want.P90) > 1e-9*want.P90 || math.Abs(doubled.Max-2*want.Max) > 1e-9*want.Max {
+		t.Errorf("volume doubled: p90 %v max %v, want %v and %v", doubled.P90, doubled.Max, 2*want.P90, 2*want.Max)
+	}
+}
+
+// TestResampling: b starts the bootstrap and shows its progress; b again
+// stops it and a late result of the stopped run is dropped; a finished run
+// gives the band and the spread of the cursor's starting point; changing
+// the assumptions forgets it.
+func TestResampling(t *testing.T) {
+	m := demoBeyond(t, 100, 30)
+	next, cmd := m.Update(keyMsg("b"))
+	m = next.(Model)
+	if !m.s.resampling.running || cmd == nil || !strings.Contains(m.View(), "resampling 0 of 100") {
+		t.Fatalf("b: running %v, cmd %v", m.s.resampling.running, cmd != nil)
+	}
+	stale := m.s.resampling.run
+	m = keys(m, "b")
+	if m.s.resampling.running || m.status != "resampling stopped" {
+		t.Errorf("b again: running %v, status %q", m.s.resampling.running, m.status)
+	}
+	next, _ = m.Update(resampledMsg{run: stale})
+	m = next.(Model)
+	if m.s.stability != nil {
+		t.Errorf("a stopped run's result was taken")
+	}
+	next, _ = m.Update(resampleTickMsg{run: stale})
+	m = next.(Model)
+
+	m = resample(t, m)
+	if m.s.stability == nil || m.s.stability.Replicates != 100 || m.s.stability.Seed != 1 || len(m.s.stability.Band) == 0 {
+		t.Fatalf("resampled: %+v", m.s.stability)
+	}
+	m = keys(m, "2")
+	sp, ok := m.s.spreadAt(m.s.cursor)
+	if !ok || sp.Rule.Kind != cutrule.Hit || !(sp.Score[0] <= sp.Score[1]) {
+		t.Fatalf("spread at hit=0.8: %+v %v", sp, ok)
+	}
+	view := m.View()
+	for _, want := range []string{"the 80% hit-share point could land anywhere from", significant(sp.Score[0]) + " to " + significant(sp.Score[1]), "░"} {
+		if !strings.Contains(view, want) {
+			t.Errorf("the screen lacks %q:\n%s", want, view)
+		}
+	}
+	m = keys(m, "a", "enter")
+	if m.s.stability != nil || !strings.Contains(m.status, "b resamples again") {
+		t.Errorf("after new assumptions: stability %v, status %q", m.s.stability != nil, m.status)
+	}
+}
+
+// TestNetBenefit: the figures show the net benefit at the cursor's cut
+// with its score as the threshold probability. Hand-worked on the ten
+// rows: at 0.9 one true case of 10 and no false one, 1/10 = 0.1000; at
+// 0.8 two true and one false, 2/10 - 1/10 * 0.8/0.2 = -0.2000; at 0.5
+// three and three, 0.3 - 0.3 * 1 = 0.0000, with flag all 0.3 - 0.7 = -0.4.
+func TestNetBenefit(t *testing.T) {
+	m := tenModel(t)
+	for _, tc := range []struct {
+		keys []string
+		want string
+	}{
+		{[]string{"g"}, "net benefit 0.1000"},
+		{[]string{"g", "j"}, "net benefit -0.2000"},
+		{[]string{"g", "j", "j", "j", "j"}, "net benefit 0.0000 a case · flag all -0.4000"},
+	} {
+		got := keys(m, tc.keys...)
+		if body := got.figures.body(); !strings.Contains(body, tc.want) {
+			t.Errorf("after %v: figures lack %q:\n%s", tc.keys, tc.want, body)
+		}
+	}
+}
+
+// TestCalibrationOverlay: e opens the reliability table, with the cost
+// threshold of Elkan 2001 for the ten rows' costs, 10/(10+100) = 0.091
+// (worked by hand), and closes with e.
+func TestCalibrationOverlay(t *testing.T) {
+	m := tenModel(t)
+	m = keys(m, "e")
+	if top(m) != overlayCalibration {
+		t.Fatalf("e opened %v", m.overlays)
+	}
+	view := m.View()
+	for _, want := range []string{"cost threshold (Elkan 2001) 0.091", "expected calibration error", "least-cost cut"} {
+		if !strings.Contains(view, want) {
+			t.Errorf("the overlay lacks %q:\n%s", want, view)
+		}
+	}
+	before := m.s.cursor
+	m = keys(m, "j")
+	if top(m) != overlayCalibration || m.s.cursor != before+1 {
+		t.Errorf("j under the overlay: cursor %d overlays %v", m.s.cursor, m.overlays)
+	}
+	m = keys(m, "e")
+	if len(m.overlays) != 0 {
+		t.Errorf("e again left %v", m.overlays)
+	}
+}
+
+// TestTwoModels: a second score column gives the second model's starting
+// points under the same rules, the models overlay, and both curves named
+// in the chart's title.
+func TestTwoModels(t *testing.T) {
+	set := twoModels(t)
+	m := loadedWith(t, Config{Load: func(func(int)) (*scores.Set, error) { return set, nil }, Assume: demoAssumptions}, 100, 30)
+	if m.s.second == nil || len(m.s.secondStarts) != len(m.s.starts) || !m.ctx.keys.Models.Enabled() {
+		t.Fatalf("second %v, starts %d and %d", m.s.second != nil, len(m.s.secondStarts), len(m.s.starts))
+	}
+	for i, o := range m.s.secondStarts {
+		if o.Rule != m.s.starts[i].Rule {
+			t.Errorf("second model's rule %d is %v, want %v", i, o.Rule, m.s.starts[i].Rule)
+		}
+		if o.Rule.Kind == cutrule.Hit && !(o.Point.Recall() >= 0.8) {
+			t.Errorf("second model at hit=0.8 has recall %v", o.Point.Recall())
+		}
+	}
+	if m.s.pairErr != nil || !(m.s.pair.AUC[0] > m.s.pair.AUC[1]) { // the second is the noisier reading
+		t.Errorf("paired test %+v, %v", m.s.pair, m.s.pairErr)
+	}
+	if title := m.chart.title(); !strings.Contains(title, "─") || !strings.Contains(title, "+++") {
+		t.Errorf("chart title %q does not name both models' marks", title)
+	}
+	m = keys(m, "m")
+	if top(m) != overlayModels || !strings.Contains(m.View(), "DeLong") {
+		t.Errorf("m: overlays %v", m.overlays)
+	}
+	m = send(m, tea.KeyMsg{Type: tea.KeyEsc})
+	if len(m.overlays) != 0 {
+		t.Errorf("esc left %v", m.overlays)
+	}
+}
+
+// TestChartTitleMarks: on a monochrome screen the title names each series
+// beside its own mark, as the plot draws them.
+func TestChartTitleMarks(t *testing.T) {
+	m := tenModel(t)
+	if title := m.chart.title(); !strings.Contains(title, "hit share ─") || !strings.Contains(title, "wrong-alert share ···") {
+		t.Errorf("title %q", title)
+	}
+}
