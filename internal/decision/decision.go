@@ -105,7 +105,7 @@ func New(set *scores.Set, a projection.Assumptions, candidates []Candidate, chos
 		Data: Data{
 			Path:           set.Source,
 			SHA256:         set.SHA256,
-			Rows:           set.Len(),
+			Rows:           set.Cases(), // cases: the summed counts of a counts table
 			Positives:      positives,
 			Negatives:      negatives,
 			ScoreColumn:    set.ScoreColumn,
