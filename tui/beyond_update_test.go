@@ -1,11 +1,16 @@
 package tui
 
 import (
+	"io"
 	"math"
+	"path/filepath"
 	"strings"
 	"testing"
 
 	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/lipgloss"
+	"github.com/charmbracelet/x/ansi"
+	"github.com/muesli/termenv"
 
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/report"
@@ -172,6 +177,11 @@ func TestResampling(t *testing.T) {
 	if m.s.stability == nil || m.s.stability.Replicates != 100 || m.s.stability.Seed != 1 || len(m.s.stability.Band) == 0 {
 		t.Fatalf("resampled: %+v", m.s.stability)
 	}
+	result := m.s.stability
+	m = keys(m, "b")
+	if m.s.resampling.running || m.s.stability != result || !strings.Contains(m.status, "resampled already") {
+		t.Errorf("b after a run: running %v, status %q", m.s.resampling.running, m.status)
+	}
 	m = keys(m, "2")
 	sp, ok := m.s.spreadAt(m.s.cursor)
 	if !ok || sp.Rule.Kind != cutrule.Hit || !(sp.Score[0] <= sp.Score[1]) {
@@ -276,5 +286,52 @@ func TestChartTitleMarks(t *testing.T) {
 	m := tenModel(t)
 	if title := m.chart.title(); !strings.Contains(title, "hit share ─") || !strings.Contains(title, "wrong-alert share ···") {
 		t.Errorf("title %q", title)
+	}
+}
+
+// TestFlowResample runs the explorer as a program: b resamples in the
+// background, the screen says when it is done, and the final model holds
+// the result under the seed given.
+func TestFlowResample(t *testing.T) {
+	set := demoTimedSet(t)
+	tm := startProgram(t, Config{Load: func(func(int)) (*scores.Set, error) { return set, nil }, Assume: demoAssumptions,
+		Out: filepath.Join(t.TempDir(), "cut.yaml"), Shifts: threeShifts(t), Replicates: 60, Seed: 9}, 100, 30)
+	tm.Type("2b")
+	waitText(t, tm, "resampled 60 times")
+	tm.Type("q")
+	m := finalModel(t, tm)
+	if m.s.stability == nil || m.s.stability.Replicates != 60 || m.s.stability.Seed != 9 || m.s.resampling.running {
+		t.Fatalf("stability %+v, running %v", m.s.stability, m.s.resampling.running)
+	}
+	if _, ok := m.s.spreadAt(m.s.cursor); !ok {
+		t.Errorf("no spread at the hit=0.8 cut")
+	}
+}
+
+// TestBeyondColour draws the new overlays and the band with colour on:
+// every line keeps the frame's width.
+func TestBeyondColour(t *testing.T) {
+	r := lipgloss.NewRenderer(io.Discard)
+	r.SetColorProfile(termenv.TrueColor)
+	styles := DefaultStyles(r)
+	set := demoTimedSet(t)
+	m := loadedWith(t, Config{Load: func(func(int)) (*scores.Set, error) { return set, nil }, Assume: demoAssumptions,
+		Shifts: threeShifts(t), Replicates: 40, Seed: 1, Styles: &styles}, 100, 30)
+	m = resample(t, m)
+	for _, step := range [][]string{nil, {"s"}, {"o", "esc", "e"}, {"esc", "6"}} {
+		m = keys(m, step...)
+		frame := m.View()
+		if !strings.Contains(frame, "\x1b[") {
+			t.Errorf("after %v: no colour codes with colour on", step)
+		}
+		lines := strings.Split(frame, "\n")
+		if len(lines) != 30 {
+			t.Errorf("after %v: %d lines, want 30", step, len(lines))
+		}
+		for i, line := range lines {
+			if w := ansi.StringWidth(line); w != 100 {
+				t.Errorf("after %v: line %d is %d cells, want 100", step, i+1, w)
+			}
+		}
 	}
 }

@@ -51,7 +51,8 @@ func resampleTick(run int) tea.Cmd {
 	return tea.Tick(150*time.Millisecond, func(time.Time) tea.Msg { return resampleTickMsg{run: run} })
 }
 
-// resampleKey starts the bootstrap, or stops the one running.
+// resampleKey starts the bootstrap, or stops the one running; after one
+// has finished under the current assumptions it says so instead.
 func (m Model) resampleKey() (tea.Model, tea.Cmd) {
 	r := &m.s.resampling
 	if r.running {
@@ -60,6 +61,11 @@ func (m Model) resampleKey() (tea.Model, tea.Cmd) {
 		r.run++
 		m.status = "resampling stopped"
 		m.resize()
+		return m, nil
+	}
+	if res := m.s.stability; res != nil {
+		// The same seed and size give the same figures again.
+		m.status = fmt.Sprintf("resampled already: %d sets, seed %d (the same seed gives the same figures; --bootstrap and --seed change them)", res.Replicates, res.Seed)
 		return m, nil
 	}
 	replicates := m.cfg.Replicates
