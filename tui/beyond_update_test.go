@@ -133,7 +133,7 @@ func TestShiftPeaks(t *testing.T) {
 	if want.P90 > 90 || at(m.s.cursor+1).P90 <= 90 {
 		t.Errorf("queue90=90 at cut %d: p90 %v, one looser %v", m.s.cursor, want.P90, at(m.s.cursor+1).P90)
 	}
-	if !strings.Contains(m.View(), "9 in 10 shifts ≤ "+report.Queue(want.P90)) {
+	if !strings.Contains(m.View(), "9 in 10 ≤ "+report.Fixed(want.P90, 0)+" · busiest "+report.Fixed(want.Max, 0)) {
 		t.Errorf("the figures do not show the 90th percentile %v:\n%s", want.P90, m.View())
 	}
 	// Double the volume in the form: every queue doubles.

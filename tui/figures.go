@@ -205,27 +205,32 @@ func (p figuresPane) body() string {
 func (p figuresPane) peaksLine(peaks shift.Peaks) string {
 	s, st := p.s, p.ctx.styles
 	width := p.width - st.Pane.GetHorizontalFrameSize()
-	over := ""
-	if s.assume.Capacity > 0 {
-		style := st.Muted
-		if peaks.OverCapacity > 0.1 {
-			style = st.Warning
-		}
-		over = style.Render(" · " + report.Percent(peaks.OverCapacity) + " over cap")
+	overStyle := st.Muted
+	if peaks.OverCapacity > 0.1 {
+		overStyle = st.Warning
 	}
-	for _, busiest := range []string{" (" + s.busiest(peaks.Busiest) + ")", ""} {
-		line := "  " + st.Label.Render("9 in 10 shifts ≤") + " " + st.Figure.Render(report.Queue(peaks.P90)) +
-			st.Muted.Render(" · busiest "+report.Queue(peaks.Max)+busiest) + over
-		if ansi.StringWidth(line) <= width {
-			return line
-		}
+	overLong, overShort := "", ""
+	if s.assume.Capacity > 0 {
+		overLong = " · " + report.Percent(peaks.OverCapacity) + " over cap"
+		overShort = ", " + report.Fixed(100*peaks.OverCapacity, 0) + "% over"
 	}
 	whole := func(v float64) string { return report.Fixed(v, 0) }
-	if s.assume.Capacity > 0 {
-		over = st.Muted.Render(", ") + strings.TrimPrefix(over, st.Muted.Render(" · "))
+	when := " (" + s.busiest(peaks.Busiest) + ")"
+	// The longest form that fits, down to the shortest.
+	forms := [][4]string{
+		{"9 in 10 shifts ≤", report.Queue(peaks.P90), " · busiest " + report.Queue(peaks.Max) + when, overLong},
+		{"9 in 10 ≤", whole(peaks.P90), " · busiest " + whole(peaks.Max) + when, overShort},
+		{"9 in 10 shifts ≤", report.Queue(peaks.P90), " · busiest " + report.Queue(peaks.Max), overLong},
+		{"shifts: 9/10 ≤", whole(peaks.P90), ", max " + whole(peaks.Max), overShort},
 	}
-	return "  " + st.Label.Render("shifts: 9/10 ≤") + st.Figure.Render(whole(peaks.P90)) + st.Muted.Render(", max "+whole(peaks.Max)) +
-		strings.Replace(over, " over cap", " over", 1)
+	var line string
+	for _, f := range forms {
+		line = "  " + st.Label.Render(f[0]) + " " + st.Figure.Render(f[1]) + st.Muted.Render(f[2]) + overStyle.Render(f[3])
+		if ansi.StringWidth(line) <= width {
+			break
+		}
+	}
+	return line
 }
 
 // secondLine is the second model at the same workload as the cursor's
@@ -236,7 +241,7 @@ func (p figuresPane) secondLine() string {
 	if !ok {
 		return st.Muted.Render("model B: no cases")
 	}
-	return st.Label.Render("model B, same workload") + " " + st.Muted.Render("hit ") + st.Figure.Render(report.Percent(q.Recall())) +
+	return st.Label.Render("B at this workload") + " " + st.Muted.Render("hit ") + st.Figure.Render(report.Percent(q.Recall())) +
 		st.Muted.Render(" · wrong ") + st.Figure.Render(report.Percent(q.FalseDiscoveryRate()))
 }
 
