@@ -88,6 +88,9 @@ func (f *inputFlags) load(path string, stdin io.Reader, progress func(rows int))
 	}
 	defer file.Close()
 	if info, err := file.Stat(); err == nil && info.IsDir() {
+		if set, handled, err := readParquetFolder(path, opt); handled {
+			return set, err
+		}
 		return nil, fmt.Errorf("read scores: %s is a directory, expected a file", path)
 	}
 	if f.counts {

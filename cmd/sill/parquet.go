@@ -5,6 +5,8 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"path/filepath"
+	"strings"
 
 	"github.com/sill-tool/sill/internal/scores"
 )
@@ -40,4 +42,38 @@ func readParquet(path string, stdin io.Reader, file *os.File, opt scores.Options
 func parquetOptions(opt scores.Options) scores.Options {
 	opt.Input = scores.InputParquet
 	return opt
+}
+
+// readParquetFolder reads a folder of Parquet part files, as Spark writes
+// a table: every *.parquet file in it, in name order, skipping names that
+// begin with _ or . (such as _SUCCESS). handled is false when the folder
+// holds no such file.
+func readParquetFolder(dir string, opt scores.Options) (set *scores.Set, handled bool, err error) {
+	entries, err := os.ReadDir(dir)
+	if err != nil {
+		return nil, false, nil
+	}
+	var files []scores.ParquetFile
+	for _, e := range entries { // ReadDir sorts by name
+		name := e.Name()
+		if e.IsDir() || !strings.HasSuffix(name, ".parquet") || strings.HasPrefix(name, "_") || strings.HasPrefix(name, ".") {
+			continue
+		}
+		path := filepath.Join(dir, name)
+		f, err := os.Open(path)
+		if err != nil {
+			return nil, true, fmt.Errorf("read scores: %w", err)
+		}
+		defer f.Close()
+		info, err := f.Stat()
+		if err != nil {
+			return nil, true, fmt.Errorf("read scores: %w", err)
+		}
+		files = append(files, scores.ParquetFile{Data: f, Size: info.Size(), Name: path})
+	}
+	if len(files) == 0 {
+		return nil, false, nil
+	}
+	set, err = scores.ReadParquetFiles(files, dir, parquetOptions(opt))
+	return set, true, err
 }

@@ -42,19 +42,57 @@ var ErrBadParquet = errors.New("unreadable parquet")
 // Errors are *ParseError values; their Line is the 1-based row of the
 // data (there is no header line), 0 when the error concerns the file.
 func ReadParquet(r io.ReaderAt, size int64, source string, opt Options) (*Set, error) {
+	return ReadParquetFiles([]ParquetFile{{Data: r, Size: size, Name: source}}, source, opt)
+}
+
+// ParquetFile is one file of a Parquet data set.
+type ParquetFile struct {
+	Data io.ReaderAt
+	Size int64
+	Name string // names the file in errors
+}
+
+// ReadParquetFiles reads the files of one Parquet data set, such as the
+// part files Spark writes into a folder, as one set, in the order given;
+// source names the whole set (Set.Source). Every file must have the
+// columns of the first, in the same order. Errors name the file and its
+// 1-based row; the digest covers the files' bytes one after the other.
+// See ReadParquet for the columns.
+func ReadParquetFiles(files []ParquetFile, source string, opt Options) (*Set, error) {
+	if opt.TimeColumn != "" || opt.CompareColumn != "" {
+		return nil, &ParseError{File: source, Err: fmt.Errorf("%w: time and second score columns are read from CSV and JSON Lines only", ErrBadParquet)}
+	}
+	if len(files) == 0 {
+		return nil, &ParseError{File: source, Err: fmt.Errorf("%w: no parquet files", ErrBadParquet)}
+	}
+	b := &builder{opt: opt, source: source}
+	digest := sha256.New()
+	for i, pf := range files {
+		if err := b.readParquetFile(pf, i == 0, digest); err != nil {
+			return nil, err
+		}
+	}
+	b.source = source
+	if len(b.scores) == 0 && b.dropped == 0 {
+		return nil, &ParseError{File: source, Err: ErrNoRows}
+	}
+	return b.finish(hex.EncodeToString(digest.Sum(nil)))
+}
+
+// readParquetFile adds the rows of one file; the first file's columns
+// settle the builder's.
+func (b *builder) readParquetFile(pf ParquetFile, first bool, digest io.Writer) error {
+	source := pf.Name
+	b.source = source
 	fail := func(format string, args ...any) error {
 		return &ParseError{File: source, Err: fmt.Errorf("%w: "+format, append([]any{ErrBadParquet}, args...)...)}
 	}
-	if opt.TimeColumn != "" || opt.CompareColumn != "" {
-		return nil, fail("time and second score columns are read from CSV and JSON Lines only")
-	}
-	file, err := parquet.OpenFile(r, size)
+	file, err := parquet.OpenFile(pf.Data, pf.Size)
 	if err != nil {
-		return nil, fail("%v", err)
+		return fail("%v", err)
 	}
-	digest := sha256.New()
-	if _, err := io.Copy(digest, io.NewSectionReader(r, 0, size)); err != nil {
-		return nil, &ParseError{File: source, Err: fmt.Errorf("read: %w", err)}
+	if _, err := io.Copy(digest, io.NewSectionReader(pf.Data, 0, pf.Size)); err != nil {
+		return &ParseError{File: source, Err: fmt.Errorf("read: %w", err)}
 	}
 
 	// The leaf columns, named by their paths, are the header.
@@ -64,9 +102,12 @@ func ReadParquet(r io.ReaderAt, size int64, source string, opt Options) (*Set, e
 	for i, p := range paths {
 		header[i] = strings.Join(p, ".")
 	}
-	b := &builder{opt: opt, source: source}
-	if err := b.resolve(header, 0); err != nil {
-		return nil, err
+	if first {
+		if err := b.resolve(header, 0); err != nil {
+			return err
+		}
+	} else if strings.Join(header, "\x00") != strings.Join(b.header, "\x00") {
+		return fail("columns %s, expected those of the first file, %s", quoteList(header), quoteList(b.header))
 	}
 	type wanted struct {
 		col  int // index into header, -1 when not in use
@@ -80,10 +121,10 @@ func ReadParquet(r io.ReaderAt, size int64, source string, opt Options) (*Set, e
 		}
 		leaf, ok := schema.Lookup(paths[c.col]...)
 		if !ok {
-			return nil, fail("column %q is in the schema but cannot be looked up", header[c.col])
+			return fail("column %q is in the schema but cannot be looked up", header[c.col])
 		}
 		if leaf.MaxRepetitionLevel > 0 {
-			return nil, &ParseError{File: source, Column: header[c.col], Err: fmt.Errorf("%w: a repeated column, expected one %s per row", ErrBadParquet, c.kind)}
+			return &ParseError{File: source, Column: header[c.col], Err: fmt.Errorf("%w: a repeated column, expected one %s per row", ErrBadParquet, c.kind)}
 		}
 		leaves[i] = leaf
 	}
@@ -98,22 +139,19 @@ func ReadParquet(r io.ReaderAt, size int64, source string, opt Options) (*Set, e
 				continue
 			}
 			if values[i], err = readColumn(chunks[leaves[i].ColumnIndex], n); err != nil {
-				return nil, &ParseError{File: source, Column: header[c.col], Err: fmt.Errorf("%w: %v", ErrBadParquet, err)}
+				return &ParseError{File: source, Column: header[c.col], Err: fmt.Errorf("%w: %v", ErrBadParquet, err)}
 			}
 		}
 		for i := range n {
 			line := row + i + 1
 			at := func(col int) parquet.Value { return values[col][i] }
 			if err := b.addParquet(line, leaves, at); err != nil {
-				return nil, err
+				return err
 			}
 		}
 		row += n
 	}
-	if len(b.scores) == 0 && b.dropped == 0 {
-		return nil, &ParseError{File: source, Err: ErrNoRows}
-	}
-	return b.finish(hex.EncodeToString(digest.Sum(nil)))
+	return nil
 }
 
 // readColumn reads the n values of one column chunk, nulls included.

@@ -190,3 +190,73 @@ func TestReadParquetErrors(t *testing.T) {
 		t.Errorf("missing column: %v", err)
 	}
 }
+
+// TestReadParquetFiles reads a set split into two part files, as Spark
+// writes a folder, and checks it against Read on the rows as one CSV; an
+// error names the part file and its row, and a part with other columns is
+// refused.
+func TestReadParquetFiles(t *testing.T) {
+	rng := rand.New(rand.NewPCG(31, 32))
+	rows := randomParquetRows(rng, 300, true)
+	first, second := writeParquet(t, rows[:120], 50), writeParquet(t, rows[120:], 50)
+	files := []ParquetFile{
+		{Data: bytes.NewReader(first), Size: int64(len(first)), Name: "part-0.parquet"},
+		{Data: bytes.NewReader(second), Size: int64(len(second)), Name: "part-1.parquet"},
+	}
+	opt := Options{ScoreColumn: "score", LabelColumn: "outcome", Positive: "failed", DropInvalid: true, SegmentColumn: "yard"}
+	want, err := Read(strings.NewReader(asCSV(rows)), "scored", opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	got, err := ReadParquetFiles(files, "scored", opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want.SHA256, got.SHA256 = "", ""
+	want.DroppedReasons, got.DroppedReasons = nil, nil
+	if !reflect.DeepEqual(want, got) {
+		t.Fatalf("sets differ\nRead    %+v\nParquet %+v", brief(want), brief(got))
+	}
+	// Row 5 of the second part has no score, and the first part none
+	// missing; without DropInvalid that is the error.
+	broken := append([]parquetRow(nil), rows[120:]...)
+	broken[4].Score = nil
+	data := writeParquet(t, broken, 50)
+	files[1] = ParquetFile{Data: bytes.NewReader(data), Size: int64(len(data)), Name: "part-1.parquet"}
+	opt.DropInvalid = false
+	for i := range broken[:4] {
+		if broken[i].Score == nil {
+			t.Skip("the seed put an earlier null score in the second part")
+		}
+	}
+	firstOK := writeParquet(t, withScores(rows[:120]), 50)
+	files[0] = ParquetFile{Data: bytes.NewReader(firstOK), Size: int64(len(firstOK)), Name: "part-0.parquet"}
+	_, err = ReadParquetFiles(files, "scored", opt)
+	if want := `part-1.parquet:5: column "score": invalid score "", expected a number, found an empty cell`; err == nil || err.Error() != want {
+		t.Errorf("error %v, want %s", err, want)
+	}
+	// A part with other columns.
+	type otherRow struct {
+		Score float64 `parquet:"score"`
+	}
+	var buf bytes.Buffer
+	w := parquet.NewGenericWriter[otherRow](&buf)
+	w.Write([]otherRow{{0.5}})
+	w.Close()
+	files[1] = ParquetFile{Data: bytes.NewReader(buf.Bytes()), Size: int64(buf.Len()), Name: "part-1.parquet"}
+	if _, err := ReadParquetFiles(files, "scored", opt); err == nil || !strings.HasPrefix(err.Error(), `part-1.parquet: unreadable parquet: columns ["score"], expected those of the first file`) {
+		t.Errorf("other columns: %v", err)
+	}
+}
+
+// withScores returns rows with every null score set to 0.5.
+func withScores(rows []parquetRow) []parquetRow {
+	out := append([]parquetRow(nil), rows...)
+	for i := range out {
+		if out[i].Score == nil {
+			half := 0.5
+			out[i].Score = &half
+		}
+	}
+	return out
+}

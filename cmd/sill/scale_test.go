@@ -1,0 +1,72 @@
+package main
+
+import (
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// TestReportParquetFolderAndCounts runs report on the DuckDB-written
+// Parquet file of internal/scores, on a Spark-style folder holding it twice
+// (two parts and a _SUCCESS marker), and on the counts table of the same
+// rows, and checks the row counts and ROC AUC in JSON. The file's 8 scored
+// rows, worked out by hand from testdata/parquet/other-writer.csv: 4 true,
+// 4 false; ROC AUC 0.78125: of the 16 true-false pairs the true 0.91 and
+// 0.75 outrank all 4 falses, 0.57 outranks 3 and ties 1 (half), 0.0625
+// outranks only 0.003: (4 + 4 + 3.5 + 1) / 16.
+func TestReportParquetFolderAndCounts(t *testing.T) {
+	data, err := os.ReadFile("../../internal/scores/testdata/parquet/other-writer.parquet")
+	if err != nil {
+		t.Fatal(err)
+	}
+	dir := t.TempDir()
+	file := writeFile(t, dir, "cases.parquet", data)
+	folder := filepath.Join(dir, "table")
+	os.Mkdir(folder, 0o755)
+	writeFile(t, folder, "part-00000.parquet", data)
+	writeFile(t, folder, "part-00001.parquet", data)
+	writeFile(t, folder, "_SUCCESS", nil)
+	// The same 8 scored rows as a counts table.
+	counts := writeFile(t, dir, "counts.csv", []byte("score,positives,negatives\n0.91,1,0\n0.12,0,1\n0.57,1,1\n0.003,0,1\n0.75,1,0\n0.3333,0,1\n0.0625,1,0\n"))
+	cases := []struct {
+		name      string
+		args      []string
+		rows      int
+		positives float64
+	}{
+		{"file", []string{"report", file, "--label", "failed", "--drop-invalid", "--format", "json"}, 8, 4},
+		{"folder", []string{"report", folder, "--label", "failed", "--drop-invalid", "--format", "json"}, 16, 8},
+		{"counts", []string{"report", counts, "--counts", "--format", "json"}, 8, 4},
+	}
+	for _, c := range cases {
+		res := runSill(t, "", c.args...)
+		if res.code != 0 {
+			t.Fatalf("%s: exit %d: %s", c.name, res.code, res.stderr)
+		}
+		var got struct {
+			Rows      int     `json:"rows"`
+			Positives float64 `json:"positives"`
+			ROCAUC    float64 `json:"roc_auc"`
+		}
+		if err := json.Unmarshal([]byte(res.stdout), &got); err != nil {
+			t.Fatalf("%s: %v", c.name, err)
+		}
+		if got.Rows != c.rows || got.Positives != c.positives || got.ROCAUC != 0.78125 {
+			t.Errorf("%s: rows %d, positives %v, ROC AUC %v; want %d, %v, 0.78125", c.name, got.Rows, got.Positives, got.ROCAUC, c.rows, c.positives)
+		}
+	}
+}
+
+// TestSQLCommand checks the wiring of sill sql: the query on standard
+// output, and a missing flag refused.
+func TestSQLCommand(t *testing.T) {
+	res := runSill(t, "", "sql", "--table", "analytics.scored", "--score", "p", "--label", "failed", "--digits", "2")
+	if res.code != 0 || !strings.Contains(res.stdout, `FLOOR("p" * 100 + 0.5) / 100 AS score`) || !strings.Contains(res.stdout, `FROM "analytics"."scored"`) {
+		t.Errorf("exit %d\n%s%s", res.code, res.stdout, res.stderr)
+	}
+	if res := runSill(t, "", "sql", "--table", "t", "--score", "p"); res.code == 0 || !strings.Contains(res.stderr, "label") {
+		t.Errorf("without --label: exit %d, %q", res.code, res.stderr)
+	}
+}
