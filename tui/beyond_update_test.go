@@ -13,6 +13,7 @@ import (
 	"github.com/muesli/termenv"
 
 	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/report"
 	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/segment"
@@ -333,5 +334,67 @@ func TestBeyondColour(t *testing.T) {
 				t.Errorf("after %v: line %d is %d cells, want 100", step, i+1, w)
 			}
 		}
+	}
+}
+
+// TestOddSetsBeyond drives the keys of issue 6 over sets at the edges,
+// each with a segment, times in the three shifts and a second model: one
+// row, one class only, every row tied, lower scores riskier, zero weights.
+// Nothing may panic, every frame keeps its size, and a bootstrap the data
+// cannot support says why.
+func TestOddSetsBeyond(t *testing.T) {
+	build := func(values []float64, labels []bool, weights []float64, lower bool) *scores.Set {
+		set, err := scores.New(values, labels, weights, lower)
+		if err != nil {
+			t.Fatal(err)
+		}
+		set.Source = "odd.csv"
+		set.SegmentNames, set.SegmentColumn = []string{"east", "west"}, "yard"
+		set.SegmentOf = make([]int32, set.Len())
+		set.Times = make([]int64, set.Len())
+		set.CompareScores = make([]float64, set.Len())
+		for i := range set.SegmentOf {
+			set.SegmentOf[i] = int32(i % 2)
+			set.Times[i] = 1788220800 + int64(i)*20000 // from 2026-09-01 00:00 UTC, about 5.5 hours apart
+			set.CompareScores[i] = set.Scores[set.Len()-1-i]
+		}
+		set.CompareColumn = "other"
+		return set
+	}
+	sets := map[string]*scores.Set{
+		"one-row":       build([]float64{0.5}, []bool{true}, nil, false),
+		"no-true-case":  build([]float64{0.9, 0.5, 0.1}, []bool{false, false, false}, nil, false),
+		"no-false-case": build([]float64{0.9, 0.5, 0.1}, []bool{true, true, true}, nil, false),
+		"all-tied":      build([]float64{0.5, 0.5, 0.5, 0.5}, []bool{true, false, true, false}, nil, false),
+		"lower-riskier": build([]float64{-3, -1, 0, 2, 5}, []bool{true, true, false, true, false}, nil, true),
+		"zero-weights":  build([]float64{0.9, 0.7, 0.3}, []bool{true, false, true}, []float64{0, 2, 0}, false),
+	}
+	assume := func(set *scores.Set) (projection.Assumptions, error) {
+		positives, negatives := set.Totals()
+		base := 0.0
+		if positives+negatives > 0 {
+			base = positives / (positives + negatives)
+		}
+		return projection.Assumptions{BaseRate: base, Volume: 50, Capacity: 5, Confidence: 0.9,
+			Costs: &projection.Costs{FalseAlert: 1, Miss: 10, Hit: -2}}, nil
+	}
+	script := []string{"s", "j", "o", "pgdown", "G", "esc", "e", "j", "esc", "m", "esc", "6", "v", "v", "v", "?", "?"}
+	for name, set := range sets {
+		t.Run(name, func(t *testing.T) {
+			for _, size := range [][2]int{{80, 24}, {80, 22}, {130, 40}} {
+				m := loadedWith(t, Config{Load: func(func(int)) (*scores.Set, error) { return set, nil }, Assume: assume,
+					Shifts: threeShifts(t), Replicates: 20, Seed: 1}, size[0], size[1])
+				m = resample(t, m)
+				if m.s.stability == nil && !strings.HasPrefix(m.status, "resampling: ") {
+					t.Errorf("no bootstrap and no reason: %q", m.status)
+				}
+				for _, k := range script {
+					m = keys(m, k)
+					checkSize(t, m.View(), size[0], size[1])
+				}
+				m = send(m, tea.WindowSizeMsg{Width: 40, Height: 10})
+				checkSize(t, m.View(), 40, 10)
+			}
+		})
 	}
 }
