@@ -80,6 +80,9 @@ func (f *inputFlags) load(path string, stdin io.Reader, progress func(rows int))
 		if set, handled, err := readParquet(path, stdin, nil, opt); handled {
 			return set, err
 		}
+		if seekable := seekableStdin(stdin); seekable != nil && !f.counts {
+			return scores.Load(seekable, "-", opt) // standard input redirected from a file
+		}
 		return read(stdin, "-", opt)
 	}
 	file, err := os.Open(path)

@@ -77,3 +77,20 @@ func readParquetFolder(dir string, opt scores.Options) (set *scores.Set, handled
 	set, err = scores.ReadParquetFiles(files, dir, parquetOptions(opt))
 	return set, true, err
 }
+
+// seekableStdin returns standard input as a file that can seek, as when it
+// is redirected from a file, so that the block reader can take it; nil for
+// a pipe or a terminal.
+func seekableStdin(stdin io.Reader) io.ReadSeeker {
+	file, ok := stdin.(*os.File)
+	if !ok {
+		return nil
+	}
+	if info, err := file.Stat(); err != nil || !info.Mode().IsRegular() {
+		return nil
+	}
+	if _, err := file.Seek(0, io.SeekCurrent); err != nil {
+		return nil
+	}
+	return file
+}
