@@ -155,7 +155,7 @@ func (p listPane) body(innerW int) string {
 	shown := 0
 	for r := p.offset; r < s.set.Len() && shown < n+1; r++ {
 		if r == end {
-			b.WriteString("\n" + st.CutLine.Render(fitLine(p.cutLine(point.Score, end), innerW)))
+			b.WriteString("\n" + st.CutLine.Render(fitLine(p.cutLine(point.Score, point.FlaggedCases()), innerW)))
 			shown++
 			if shown >= n+1 {
 				break
@@ -165,7 +165,7 @@ func (p listPane) body(innerW int) string {
 		shown++
 	}
 	if end == s.set.Len() && shown < n+1 {
-		b.WriteString("\n" + st.CutLine.Render(fitLine(p.cutLine(point.Score, end), innerW)))
+		b.WriteString("\n" + st.CutLine.Render(fitLine(p.cutLine(point.Score, point.FlaggedCases()), innerW)))
 	}
 	return b.String()
 }
