@@ -14,9 +14,10 @@ import (
 // groups, not the size of the set.
 //
 // Its breakdowns equal At's up to rounding in the weighted sums (counts
-// are added and taken away as the cut moves back and forth; a move
-// farther than the flagged rows themselves starts again from none
-// flagged, so errors do not build up over long walks).
+// are added and taken away as the cut moves back and forth; a move that
+// is farther than none or every row flagged starts again from there, so
+// errors do not build up over long walks and a jump costs at most half
+// the set).
 type Running struct {
 	set    *scores.Set
 	groups []tally // every row counted, none flagged yet
@@ -73,11 +74,20 @@ func (r *Running) flagged(t tally, tp, fp float64) tally {
 
 // move brings the flagged counts to the first rows ranked rows.
 func (r *Running) move(rows int) {
-	if rows < r.rows-rows || rows == 0 {
+	n := r.set.Len()
+	distance := max(rows-r.rows, r.rows-rows)
+	switch {
+	case rows == 0 || rows < distance:
 		// Nearer to none flagged than to the last cut: start again.
 		clear(r.tp)
 		clear(r.fp)
 		r.allTP, r.allFP, r.rows = 0, 0, 0
+	case rows == n || n-rows < distance:
+		// Nearer to every row flagged: start from there.
+		for code, g := range r.groups {
+			r.tp[code], r.fp[code] = g.positives, g.negatives
+		}
+		r.allTP, r.allFP, r.rows = r.total.positives, r.total.negatives, n
 	}
 	sign, from, to := 1.0, r.rows, rows
 	if rows < r.rows {

@@ -37,7 +37,7 @@ func TestRunningMatchesAt(t *testing.T) {
 	}
 	c := curve.New(set)
 	r := segment.NewRunning(set)
-	walk := []int{0, 1, 2, 1, c.Len() - 1, c.Len() / 2, c.Len()/2 + 1, 3, 0, c.Len() - 1, 5}
+	walk := []int{0, 1, 2, 1, c.Len() - 1, c.Len() / 2, c.Len()/2 + 1, 3, c.Len() - 3, c.Len() - 2, 0, c.Len() - 1, 5}
 	for k := 0; k < 200; k++ {
 		walk = append(walk, rng.IntN(c.Len()))
 	}

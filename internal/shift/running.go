@@ -13,14 +13,16 @@ import (
 // moves them by the rows between that cut and the next, so a step costs
 // the rows of one tie group and a sort of the shifts, not the size of the
 // set. Its peaks equal At's up to rounding in the scaled sums (a move
-// farther than the flagged rows themselves starts again from none
-// flagged, so errors do not build up over long walks).
+// that is farther than none or every row flagged starts again from there,
+// so errors do not build up over long walks and a jump costs at most half
+// the set).
 type Running struct {
 	set    *scores.Set
 	a      Assignment
 	scale  Scale
 	queues []float64
 	sorted []float64
+	full   []float64 // the queues with every row flagged
 	rows   int
 }
 
@@ -31,7 +33,19 @@ func NewRunning(set *scores.Set, a Assignment, scale Scale) *Running {
 	if len(a.Of) != set.Len() {
 		panic(fmt.Sprintf("shift: %d rows assigned for a set of %d", len(a.Of), set.Len()))
 	}
-	return &Running{set: set, a: a, scale: scale, queues: make([]float64, a.Count), sorted: make([]float64, a.Count)}
+	r := &Running{set: set, a: a, scale: scale, queues: make([]float64, a.Count), sorted: make([]float64, a.Count), full: make([]float64, a.Count)}
+	for i := range set.Len() {
+		r.full[a.Of[i]] += r.alerts(i)
+	}
+	return r
+}
+
+// alerts is what ranked row i adds to its shift's queue.
+func (r *Running) alerts(i int) float64 {
+	if r.set.Labels[i] {
+		return r.set.Weight(i) * r.scale.Positive
+	}
+	return r.set.Weight(i) * r.scale.Negative
 }
 
 // At returns the peaks when the first rows ranked rows are flagged, as
@@ -70,20 +84,22 @@ func (r *Running) At(rows int, capacity float64) Peaks {
 
 // move brings the queues to the first rows ranked rows flagged.
 func (r *Running) move(rows int) {
-	if rows < r.rows-rows || rows == 0 {
+	n := r.set.Len()
+	distance := max(rows-r.rows, r.rows-rows)
+	switch {
+	case rows == 0 || rows < distance:
 		clear(r.queues)
 		r.rows = 0
+	case rows == n || n-rows < distance:
+		copy(r.queues, r.full)
+		r.rows = n
 	}
 	sign, from, to := 1.0, r.rows, rows
 	if rows < r.rows {
 		sign, from, to = -1, rows, r.rows
 	}
 	for i := from; i < to; i++ {
-		w := r.set.Weight(i) * r.scale.Negative
-		if r.set.Labels[i] {
-			w = r.set.Weight(i) * r.scale.Positive
-		}
-		r.queues[r.a.Of[i]] += sign * w
+		r.queues[r.a.Of[i]] += sign * r.alerts(i)
 	}
 	r.rows = rows
 }

@@ -35,7 +35,7 @@ func TestRunningMatchesAt(t *testing.T) {
 	}
 	scale := shift.Scale{Positive: 1.7, Negative: 0.6}
 	r := shift.NewRunning(set, a, scale)
-	walk := []int{0, 1, 5, 4, n, n / 2, n/2 + 3, 2, 0, n}
+	walk := []int{0, 1, 5, 4, n, n / 2, n/2 + 3, 2, n - 2, n - 1, 0, n}
 	for range 200 {
 		walk = append(walk, rng.IntN(n+1))
 	}
