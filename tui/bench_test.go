@@ -67,6 +67,27 @@ func BenchmarkKeystroke(b *testing.B) {
 	b.Run("rows=1000000/shifts/segments-open", func(b *testing.B) { benchmarkKeystroke(b, millionRowsBeyond(b), []string{"s"}) })
 }
 
+// BenchmarkKeystrokeJump is the widest move, the strictest cut and the
+// loosest in turn, at one million rows with the real shifts' peaks in the
+// figures (the breakdown by segment follows the same way).
+func BenchmarkKeystrokeJump(b *testing.B) {
+	set := millionRowsBeyond(b)
+	m := loadedWith(b, Config{Load: func(func(int)) (*scores.Set, error) { return set, nil }, Assume: demoAssumptions, Shifts: threeShifts(b)}, 120, 40)
+	m = keys(m, "2")
+	m.View()
+	top, bottom := keyMsg("g"), keyMsg("G")
+	b.ResetTimer()
+	for i := range b.N {
+		msg := top
+		if i%2 == 1 {
+			msg = bottom
+		}
+		next, _ := m.Update(msg)
+		m = next.(Model)
+		_ = m.View()
+	}
+}
+
 func benchmarkKeystroke(b *testing.B, set *scores.Set, open []string) {
 	var m Model
 	if set.Times != nil {

@@ -2,9 +2,11 @@ package tui
 
 import (
 	"fmt"
+	"math"
 	"strconv"
 	"strings"
 
+	"github.com/sill-tool/sill/internal/bootstrap"
 	"github.com/sill-tool/sill/internal/calibration"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/evidence"
@@ -61,43 +63,70 @@ func (p calibrationPane) View() string {
 // least-cost cut, with the bootstrap's judgement of their difference.
 func (p calibrationPane) costLines() []string {
 	s, st := p.s, p.ctx.styles
-	a := s.assume
-	if a.Costs == nil {
+	c, ok := s.costCheck()
+	if !ok {
 		return []string{st.Muted.Render("cost threshold: needs costs (a to set them)")}
 	}
-	probability := calibration.CostThreshold(*a.Costs)
-	threshold := calibration.ShiftThreshold(probability, s.curve.Summary.BaseRate, a.BaseRate)
-	line := st.Label.Render("cost threshold (Elkan 2001)") + " " + st.Figure.Render(report.Fixed(threshold, 3)) +
+	line := st.Label.Render("cost threshold (Elkan 2001)") + " " + st.Figure.Render(report.Fixed(c.threshold, 3)) +
 		st.Muted.Render(" if the scores are calibrated")
 	if s.baseRateChanged() {
-		line += st.Muted.Render(" (probability " + report.Fixed(probability, 3) + " at production's base rate)")
+		line += st.Muted.Render(" (probability " + report.Fixed(c.probability, 3) + " at production's base rate)")
 	}
 	out := []string{line}
-	var least *cutrule.Outcome
-	for i, o := range s.starts {
-		if o.Rule.Kind == cutrule.Cost && o.Met {
-			least = &s.starts[i]
-		}
-	}
-	if least == nil {
+	if c.least == nil {
 		return append(out, st.Muted.Render("least-cost cut: none met"))
 	}
-	line = st.Label.Render("least-cost cut") + " " + st.Figure.Render(report.Score(least.Point.Score))
-	spread, ok := s.costSpread()
+	line = st.Label.Render("least-cost cut") + " " + st.Figure.Render(report.Score(c.least.Point.Score))
+	lands := " · lands " + significant(c.spread.Score[0]) + " to " + significant(c.spread.Score[1]) + " in resampled sets"
 	switch {
-	case !evidence.Defined(threshold):
+	case !evidence.Defined(c.threshold):
 		out = append(out, line)
-	case !ok:
-		out = append(out, line+st.Muted.Render(fmt.Sprintf(" · %s from it; b resamples to judge", signed(least.Point.Score-threshold, 3))))
-	case threshold < spread.Score[0] || threshold > spread.Score[1]:
-		out = append(out, line+st.Muted.Render(" · lands "+significant(spread.Score[0])+" to "+significant(spread.Score[1])+" in resampled sets"),
+	case !c.judged:
+		side := "above"
+		if c.least.Point.Score < c.threshold {
+			side = "below"
+		}
+		out = append(out, line+st.Muted.Render(fmt.Sprintf(" · %s %s the threshold; b resamples to judge",
+			report.Fixed(math.Abs(c.least.Point.Score-c.threshold), 3), side)))
+	case c.outside:
+		out = append(out, line+st.Muted.Render(lands),
 			st.Warning.Render("⚠ the threshold lies outside that range: the scores are probably not"),
 			st.Warning.Render("  calibrated, so do not cost from them as probabilities"))
 	default:
-		out = append(out, line+st.Muted.Render(" · lands "+significant(spread.Score[0])+" to "+significant(spread.Score[1])+
-			" in resampled sets, the threshold within: they agree"))
+		out = append(out, line+st.Muted.Render(lands+", the threshold within: they agree"))
 	}
 	return out
+}
+
+// costCheck is the cost threshold of calibrated probabilities beside the
+// least-cost cut.
+type costCheck struct {
+	probability float64          // Elkan's threshold as a probability at production's base rate
+	threshold   float64          // the same on the validation scores' scale
+	least       *cutrule.Outcome // the least-cost starting point, nil when unmet
+	spread      bootstrap.Spread // where the least-cost cut lands in resampled sets
+	judged      bool             // the bootstrap has run and resampled the least-cost cut
+	outside     bool             // judged, and the threshold lies outside the spread
+}
+
+// costCheck compares the cost threshold with the least-cost cut; ok is
+// false without costs or when the scores are not probabilities.
+func (s *session) costCheck() (costCheck, bool) {
+	a := s.assume
+	if a.Costs == nil || s.reliability == nil {
+		return costCheck{}, false
+	}
+	c := costCheck{probability: calibration.CostThreshold(*a.Costs)}
+	c.threshold = calibration.ShiftThreshold(c.probability, s.curve.Summary.BaseRate, a.BaseRate)
+	for i, o := range s.starts {
+		if o.Rule.Kind == cutrule.Cost && o.Met {
+			c.least = &s.starts[i]
+		}
+	}
+	c.spread, c.judged = s.costSpread()
+	c.judged = c.judged && c.least != nil && evidence.Defined(c.threshold) && evidence.Defined(c.spread.Score[0])
+	c.outside = c.judged && (c.threshold < c.spread.Score[0] || c.threshold > c.spread.Score[1])
+	return c, true
 }
 
 // signed formats v with a sign and decimals, "n/a" when undefined.
