@@ -359,12 +359,14 @@ func (m Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 func (m Model) key(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 	k := m.ctx.keys
 	if key.Matches(msg, k.Interrupt) {
+		m.stopResampling()
 		return m, tea.Quit
 	}
 	if len(m.overlays) > 0 {
 		return m.overlayKey(msg)
 	}
 	if key.Matches(msg, k.Quit) {
+		m.stopResampling()
 		return m, tea.Quit
 	}
 	if m.loading || m.s.curve == nil {

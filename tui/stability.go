@@ -56,9 +56,7 @@ func resampleTick(run int) tea.Cmd {
 func (m Model) resampleKey() (tea.Model, tea.Cmd) {
 	r := &m.s.resampling
 	if r.running {
-		r.cancel()
-		r.running = false
-		r.run++
+		m.stopResampling()
 		m.status = "resampling stopped"
 		m.resize()
 		return m, nil
@@ -128,15 +126,21 @@ func (m Model) resampleUpdate(msg tea.Msg) (tea.Model, tea.Cmd) {
 	return m, nil
 }
 
+// stopResampling stops a running bootstrap, as the explorer quits.
+func (m *Model) stopResampling() {
+	if m.s.resampling.running {
+		m.s.resampling.cancel()
+		m.s.resampling.running = false
+		m.s.resampling.run++
+	}
+}
+
 // dropStability stops a running bootstrap and forgets a finished one, as
 // the assumptions they ran under have changed. It reports whether there
 // was one.
 func (m *Model) dropStability() bool {
 	had := m.s.resampling.running || m.s.stability != nil
-	if m.s.resampling.running {
-		m.s.resampling.cancel()
-		m.s.resampling.running = false
-	}
+	m.stopResampling()
 	m.s.resampling.run++
 	m.s.stability = nil
 	return had
