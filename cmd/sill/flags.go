@@ -80,10 +80,13 @@ func (f *inputFlags) load(path string, stdin io.Reader, progress func(rows int))
 		if set, handled, err := readParquet(path, stdin, nil, opt); handled {
 			return set, err
 		}
-		if seekable := seekableStdin(stdin); seekable != nil && !f.counts {
+		if f.counts {
+			return read(stdin, "-", opt)
+		}
+		if seekable := seekableStdin(stdin); seekable != nil {
 			return scores.Load(seekable, "-", opt) // standard input redirected from a file
 		}
-		return read(stdin, "-", opt)
+		return loadPiped(stdin, opt)
 	}
 	file, err := os.Open(path)
 	if err != nil {

@@ -2,10 +2,16 @@ package main
 
 import (
 	"encoding/json"
+	"errors"
+	"fmt"
+	"io"
 	"os"
 	"path/filepath"
+	"reflect"
 	"strings"
 	"testing"
+
+	"github.com/sill-tool/sill/internal/scores"
 )
 
 // TestReportParquetFolderAndCounts runs report on the DuckDB-written
@@ -68,5 +74,28 @@ func TestSQLCommand(t *testing.T) {
 	}
 	if res := runSill(t, "", "sql", "--table", "t", "--score", "p"); res.code == 0 || !strings.Contains(res.stderr, "label") {
 		t.Errorf("without --label: exit %d, %q", res.code, res.stderr)
+	}
+}
+
+// TestLoadPiped checks that standard input from a pipe, copied aside and
+// read by the block reader, gives what the line reader gives: the same set,
+// the same error for a bad row, and the same error when the stream itself
+// fails part way.
+func TestLoadPiped(t *testing.T) {
+	good := "score,label\n0.9,1\n0.4,0\n0.4,1\n0.1,0\n"
+	bad := "score,label\n0.9,1\n0.4,maybe\n"
+	for _, text := range []string{good, bad} {
+		want, wantErr := scores.Read(strings.NewReader(text), "-", scores.Options{})
+		got, gotErr := loadPiped(strings.NewReader(text), scores.Options{})
+		if fmt.Sprint(wantErr) != fmt.Sprint(gotErr) || (wantErr == nil && !reflect.DeepEqual(want, got)) {
+			t.Errorf("%q: line reader %v %v, piped %v %v", text, want, wantErr, got, gotErr)
+		}
+	}
+	broken := errors.New("connection reset")
+	stream := func() io.Reader { return io.MultiReader(strings.NewReader(good), errorReader{broken}) }
+	_, wantErr := scores.Read(stream(), "-", scores.Options{})
+	_, gotErr := loadPiped(stream(), scores.Options{})
+	if wantErr == nil || fmt.Sprint(wantErr) != fmt.Sprint(gotErr) || !errors.Is(gotErr, broken) {
+		t.Errorf("failing stream: line reader %v, piped %v", wantErr, gotErr)
 	}
 }
