@@ -113,7 +113,10 @@ func (p segmentsPane) View() string {
 	for _, f := range b.Segments {
 		longest = max(longest, ansi.StringWidth(f.Segment))
 	}
-	natural := 7 + 7 + 8 + 7 + 1 + 12 + 7 + 1 + 12 + 8 + min(longest, 28) + 1
+	// The figures' columns at full width: rows, true, flagged, hit and its
+	// interval, precision and its interval, gap, note.
+	const gapW = 7
+	natural := 7 + 7 + 8 + 7 + 1 + 12 + 7 + 1 + 12 + gapW + 8 + min(longest, 28) + 1
 	width := min(p.ctx.width-2, natural+st.Overlay.GetHorizontalFrameSize())
 	innerW := width - st.Overlay.GetHorizontalFrameSize()
 	sign := ">="
@@ -130,19 +133,34 @@ func (p segmentsPane) View() string {
 		rangeW = 12
 		interval = report.Range
 	}
+	// The gap from the overall figures (the larger of hit share's and
+	// precision's, in points) shows where there is room, and sorted by it.
+	gap := wide || p.order == segment.ByGap
 	fixed := 7 + 7 + 8 + 7 + 1 + rangeW + 7 + 1 + rangeW + 8
+	if gap {
+		fixed += gapW
+	}
 	nameW := max(innerW-fixed, 8)
 	row := func(f segment.Figures) string {
 		note := ""
 		if f.Outlier {
 			note = "outside"
 		}
+		gapText := ""
+		if gap && f.Segment != "(overall)" {
+			gapText = pad(report.Fixed(100*f.Gap(b.Overall), 1)+"pt", gapW, true)
+		} else if gap {
+			gapText = pad("", gapW, true)
+		}
 		return pad(f.Segment, nameW, false) + pad(strconv.Itoa(f.Rows), 7, true) + pad(report.Count(f.Positives), 7, true) +
 			pad(report.Percent(f.FlaggedShare), 8, true) + pad(report.Percent(f.Recall), 7, true) + " " + pad(interval(f.RecallCI), rangeW, false) +
-			pad(report.Percent(f.Precision), 7, true) + " " + pad(interval(f.PrecisionCI), rangeW, false) + " " + note
+			pad(report.Percent(f.Precision), 7, true) + " " + pad(interval(f.PrecisionCI), rangeW, false) + gapText + " " + note
 	}
 	head := pad("segment", nameW, false) + pad("rows", 7, true) + pad("true", 7, true) + pad("flagged", 8, true) +
 		pad("hit", 7, true) + " " + pad("interval", rangeW, false) + pad("prec.", 7, true) + " " + pad("interval", rangeW, false)
+	if gap {
+		head += pad("gap", gapW, true)
+	}
 	overall := b.Overall
 	overall.Segment = "(overall)"
 	lines := []string{
