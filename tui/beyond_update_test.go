@@ -13,6 +13,7 @@ import (
 	"github.com/muesli/termenv"
 
 	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/report"
 	"github.com/sill-tool/sill/internal/scores"
@@ -396,5 +397,22 @@ func TestOddSetsBeyond(t *testing.T) {
 				checkSize(t, m.View(), 40, 10)
 			}
 		})
+	}
+}
+
+// TestWriteQueue90: a candidate pinned on the queue90 starting point is
+// written with its rule and read back.
+func TestWriteQueue90(t *testing.T) {
+	m := demoBeyond(t, 100, 30)
+	m = keys(m, "6", "p", "w")
+	if m.Written() == "" {
+		t.Fatalf("not written: %s", m.status)
+	}
+	f, err := decision.ReadFile(m.Written())
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(f.Candidates) != 1 || f.Candidates[0].Rule != "queue90=90" || f.Chosen != "queue90=90" {
+		t.Errorf("candidates %+v, chosen %q", f.Candidates, f.Chosen)
 	}
 }
