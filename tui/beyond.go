@@ -197,13 +197,13 @@ func (s *session) peaksAtCut(i int) (shift.Peaks, bool) {
 	return c.peaks, true
 }
 
-// setScale takes the shift queues' scale under new assumptions.
-func (s *session) setScale(scale shift.Scale) {
-	if s.assigned == nil || scale == s.scale {
+// setScale takes the shift queues' scale under new assumptions and peaks,
+// the queues at that scale (made when the scale changed).
+func (s *session) setScale(scale shift.Scale, peaks *shift.Running) {
+	if s.assigned == nil || scale == s.scale || peaks == nil {
 		return
 	}
-	s.scale = scale
-	s.peaks = shift.NewRunning(s.set, *s.assigned, scale)
+	s.scale, s.peaks = scale, peaks
 	s.peaksAt.ok = false
 }
 

@@ -110,6 +110,7 @@ type (
 		starts       []cutrule.Outcome
 		secondStarts []cutrule.Outcome
 		scale        shift.Scale
+		peaks        *shift.Running // the shift queues at scale; nil without shifts or when the scale is unchanged
 		err          error
 	}
 	// errMsg is a load error: the explorer shows nothing more and quits.
@@ -256,7 +257,7 @@ func (m Model) loadCmd() tea.Cmd {
 
 // findStartsCmd finds the starting points under new assumptions.
 func (m Model) findStartsCmd(a projection.Assumptions) tea.Cmd {
-	c, assigned := m.s.curve, m.s.assigned
+	c, assigned, oldScale := m.s.curve, m.s.assigned, m.s.scale
 	second, secondAssigned := m.s.secondCurve, m.s.secondAssigned
 	return func() tea.Msg {
 		starts, scale, err := findStarts(c, a, assigned)
@@ -264,6 +265,9 @@ func (m Model) findStartsCmd(a projection.Assumptions) tea.Cmd {
 			return startsFoundMsg{assume: a, err: err}
 		}
 		msg := startsFoundMsg{assume: a, starts: starts, scale: scale}
+		if assigned != nil && scale != oldScale {
+			msg.peaks = shift.NewRunning(c.Set, *assigned, scale) // a pass over the set, off the screen's loop
+		}
 		if second != nil {
 			msg.secondStarts, _, msg.err = findStarts(second, a, secondAssigned)
 		}
@@ -313,7 +317,7 @@ func (m Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 			return m, nil
 		}
 		m.s.starts, m.s.secondStarts = msg.starts, msg.secondStarts
-		m.s.setScale(msg.scale)
+		m.s.setScale(msg.scale, msg.peaks)
 		m.refresh()
 		return m, nil
 	case resampleTickMsg, resampledMsg:
