@@ -377,4 +377,8 @@ func TestRunNoArguments(t *testing.T) {
 	if !strings.Contains(got.stdout, "Veldmoor Freight") || !strings.Contains(got.stdout, "queue per shift") {
 		t.Errorf("no report of the built-in data:\n%s", got.stdout)
 	}
+	// As on the screen, the demo's readings fall in its three crew shifts.
+	if !strings.Contains(got.stdout, "queue per real shift") || !strings.Contains(got.stdout, "queue90=90") {
+		t.Errorf("the report of the built-in data lacks the real shifts:\n%s", got.stdout)
+	}
 }

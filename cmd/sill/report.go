@@ -159,7 +159,11 @@ func runDefault(cmd *cobra.Command) error {
 	o.format = "text"
 	fs := pflag.NewFlagSet("demo", pflag.ContinueOnError)
 	o.assume.register(fs)
-	if err := fs.Parse(demo.Assumptions); err != nil {
+	o.beyond.register(fs)
+	if err := fs.Parse(append(append([]string(nil), demo.Assumptions...), demoShifts...)); err != nil {
+		return err
+	}
+	if err := o.beyond.prepare(&o.input); err != nil {
 		return err
 	}
 	set, err := o.input.loadDemo()
