@@ -8,6 +8,8 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"runtime/debug"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -73,8 +75,14 @@ func ReadParquetFiles(files []ParquetFile, source string, opt Options) (*Set, er
 		}
 	}
 	b.source = source
-	if len(b.scores) == 0 && b.dropped == 0 {
-		return nil, &ParseError{File: source, Err: ErrNoRows}
+	if len(b.scores) == 0 {
+		if b.dropped == 0 {
+			return nil, &ParseError{File: source, Err: ErrNoRows}
+		}
+		b.scores, b.labels = nil, nil // as Read leaves them
+	}
+	if len(b.scores) >= returnMemoryRows {
+		debug.FreeOSMemory() // the decoded row groups, before the sort's copy
 	}
 	return b.finish(hex.EncodeToString(digest.Sum(nil)))
 }
@@ -109,11 +117,7 @@ func (b *builder) readParquetFile(pf ParquetFile, first bool, digest io.Writer) 
 	} else if strings.Join(header, "\x00") != strings.Join(b.header, "\x00") {
 		return fail("columns %s, expected those of the first file, %s", quoteList(header), quoteList(b.header))
 	}
-	type wanted struct {
-		col  int // index into header, -1 when not in use
-		kind string
-	}
-	columns := []wanted{{b.scoreCol, "score"}, {b.labelCol, "label"}, {b.weightCol, "weight"}, {b.segmentCol, "segment"}, {b.idCol, "id"}}
+	columns := []wantedColumn{{b.scoreCol, "score"}, {b.labelCol, "label"}, {b.weightCol, "weight"}, {b.segmentCol, "segment"}, {b.idCol, "id"}}
 	leaves := make([]parquet.LeafColumn, len(columns))
 	for i, c := range columns {
 		if c.col < 0 {
@@ -129,23 +133,25 @@ func (b *builder) readParquetFile(pf ParquetFile, first bool, digest io.Writer) 
 		leaves[i] = leaf
 	}
 
+	// Make room for the file's rows at once rather than growing by appends.
+	rows := int(file.NumRows())
+	b.scores = slices.Grow(b.scores, rows)
+	b.labels = slices.Grow(b.labels, rows)
+	if b.weightCol >= 0 {
+		b.weights = slices.Grow(b.weights, rows)
+	}
+	if b.segmentCol >= 0 {
+		b.segments = slices.Grow(b.segments, rows)
+	}
 	row := 0 // rows before the current row group
 	for _, group := range file.RowGroups() {
 		n := int(group.NumRows())
-		chunks := group.ColumnChunks()
-		values := make([][]parquet.Value, len(columns))
-		for i, c := range columns {
-			if c.col < 0 {
-				continue
-			}
-			if values[i], err = readColumn(chunks[leaves[i].ColumnIndex], n); err != nil {
-				return &ParseError{File: source, Column: header[c.col], Err: fmt.Errorf("%w: %v", ErrBadParquet, err)}
-			}
+		g, err := b.decodeRowGroup(group, n, columns, leaves)
+		if err != nil {
+			return err
 		}
 		for i := range n {
-			line := row + i + 1
-			at := func(col int) parquet.Value { return values[col][i] }
-			if err := b.addParquet(line, leaves, at); err != nil {
+			if err := b.addDecoded(row+i+1, g, i); err != nil {
 				return err
 			}
 		}
@@ -154,49 +160,131 @@ func (b *builder) readParquetFile(pf ParquetFile, first bool, digest io.Writer) 
 	return nil
 }
 
-// readColumn reads the n values of one column chunk, nulls included.
-func readColumn(chunk parquet.ColumnChunk, n int) ([]parquet.Value, error) {
-	out := make([]parquet.Value, 0, n)
+// wantedColumn is a column the set needs: col indexes the header, -1 when
+// the column is not in use.
+type wantedColumn struct {
+	col  int
+	kind string
+}
+
+// decodedGroup holds the columns in use of one row group, converted as
+// they are read; a value that does not convert leaves its error instead.
+type decodedGroup struct {
+	scores, weights         []float64
+	labels                  []bool
+	segments, ids           []string
+	scoreErr, labelErr      map[int]error
+	weightErr               map[int]error
+	hasWeights, hasSegments bool
+}
+
+// decodeRowGroup reads and converts the columns of a row group; columns
+// and leaves are score, label, weight, segment and id, col -1 when unused.
+func (b *builder) decodeRowGroup(group parquet.RowGroup, n int, columns []wantedColumn, leaves []parquet.LeafColumn) (*decodedGroup, error) {
+	g := &decodedGroup{scores: make([]float64, n)}
+	chunks := group.ColumnChunks()
+	note := func(m *map[int]error, row int, err error) {
+		if *m == nil {
+			*m = map[int]error{}
+		}
+		(*m)[row] = err
+	}
+	for i, c := range columns {
+		if c.col < 0 {
+			continue
+		}
+		leaf := leaves[i]
+		kind := kindOf(leaf)
+		var visit func(row int, v parquet.Value)
+		switch i {
+		case 0:
+			visit = func(row int, v parquet.Value) {
+				x, err := parquetNumber(v, kind, parseScore)
+				if err != nil {
+					note(&g.scoreErr, row, err)
+				}
+				g.scores[row] = x
+			}
+		case 1:
+			g.labels = make([]bool, n)
+			visit = func(row int, v parquet.Value) {
+				positive, err := b.parquetLabel(v, kind)
+				if err != nil {
+					note(&g.labelErr, row, err)
+				}
+				g.labels[row] = positive
+			}
+		case 2:
+			g.weights, g.hasWeights = make([]float64, n), true
+			visit = func(row int, v parquet.Value) {
+				w, err := parquetNumber(v, kind, parseWeight)
+				if err != nil {
+					note(&g.weightErr, row, err)
+				}
+				g.weights[row] = w
+			}
+		case 3:
+			g.segments, g.hasSegments = make([]string, n), true
+			visit = func(row int, v parquet.Value) { g.segments[row] = parquetText(v, kind) }
+		case 4:
+			g.ids = make([]string, n)
+			visit = func(row int, v parquet.Value) { g.ids[row] = parquetText(v, kind) }
+		}
+		if err := eachValue(chunks[leaf.ColumnIndex], n, visit); err != nil {
+			return nil, &ParseError{File: b.source, Column: b.header[c.col], Err: fmt.Errorf("%w: %v", ErrBadParquet, err)}
+		}
+	}
+	return g, nil
+}
+
+// eachValue calls visit with every value of a column chunk, nulls
+// included, in row order; the chunk must hold n values.
+func eachValue(chunk parquet.ColumnChunk, n int, visit func(row int, v parquet.Value)) error {
 	pages := chunk.Pages()
 	defer pages.Close()
 	buf := make([]parquet.Value, 1024)
+	row := 0
 	for {
 		page, err := pages.ReadPage()
 		if err == io.EOF {
 			break
 		}
 		if err != nil {
-			return nil, err
+			return err
 		}
 		reader := page.Values()
 		for {
 			k, err := reader.ReadValues(buf)
 			for _, v := range buf[:k] {
-				out = append(out, v.Clone())
+				if row >= n {
+					parquet.Release(page)
+					return fmt.Errorf("more values than the %d rows of the row group", n)
+				}
+				visit(row, v)
+				row++
 			}
 			if err == io.EOF {
 				break
 			}
 			if err != nil {
 				parquet.Release(page)
-				return nil, err
+				return err
 			}
 		}
 		parquet.Release(page)
 	}
-	if len(out) != n {
-		return nil, fmt.Errorf("%d values in a row group of %d rows", len(out), n)
+	if row != n {
+		return fmt.Errorf("%d values in a row group of %d rows", row, n)
 	}
-	return out, nil
+	return nil
 }
 
-// addParquet reads one row as builder.add reads one of text; at returns
-// the value of columns[i] (score, label, weight, segment, id).
-func (b *builder) addParquet(line int, leaves []parquet.LeafColumn, at func(int) parquet.Value) error {
-	column := func(col int) string { return b.header[col] }
-	score, err := parquetNumber(at(0), leaves[0], parseScore)
-	if err != nil {
-		pe := &ParseError{File: b.source, Line: line, Column: column(b.scoreCol), Err: err}
+// addDecoded adds row i of a decoded row group as builder.add adds a row
+// of text: the score first (dropped with DropInvalid), then the label and
+// the weight. line is the row's 1-based number in the file.
+func (b *builder) addDecoded(line int, g *decodedGroup, i int) error {
+	if err, bad := g.scoreErr[i]; bad {
+		pe := &ParseError{File: b.source, Line: line, Column: b.header[b.scoreCol], Err: err}
 		if b.opt.DropInvalid {
 			b.dropped++
 			if len(b.droppedReasons) < maxDroppedReasons {
@@ -207,20 +295,20 @@ func (b *builder) addParquet(line int, leaves []parquet.LeafColumn, at func(int)
 		return pe
 	}
 	positive := false
-	if b.labelCol >= 0 {
-		if positive, err = b.parquetLabel(at(1), leaves[1]); err != nil {
-			return &ParseError{File: b.source, Line: line, Column: column(b.labelCol), Err: err}
+	if g.labels != nil {
+		if err, bad := g.labelErr[i]; bad {
+			return &ParseError{File: b.source, Line: line, Column: b.header[b.labelCol], Err: err}
 		}
+		positive = g.labels[i]
 	}
-	if b.weightCol >= 0 {
-		w, err := parquetNumber(at(2), leaves[2], parseWeight)
-		if err != nil {
-			return &ParseError{File: b.source, Line: line, Column: column(b.weightCol), Err: err}
+	if g.hasWeights {
+		if err, bad := g.weightErr[i]; bad {
+			return &ParseError{File: b.source, Line: line, Column: b.header[b.weightCol], Err: err}
 		}
-		b.weights = append(b.weights, w)
+		b.weights = append(b.weights, g.weights[i])
 	}
-	if b.segmentCol >= 0 {
-		name := parquetText(at(3), leaves[3])
+	if g.hasSegments {
+		name := g.segments[i]
 		code, ok := b.segIndex[name]
 		if !ok {
 			code = int32(len(b.segNames))
@@ -229,10 +317,10 @@ func (b *builder) addParquet(line int, leaves []parquet.LeafColumn, at func(int)
 		}
 		b.segments = append(b.segments, code)
 	}
-	if b.idCol >= 0 {
-		b.ids = append(b.ids, parquetText(at(4), leaves[4]))
+	if g.ids != nil {
+		b.ids = append(b.ids, g.ids[i])
 	}
-	b.scores = append(b.scores, score)
+	b.scores = append(b.scores, g.scores[i])
 	b.labels = append(b.labels, positive)
 	if b.opt.Progress != nil && len(b.scores)%progressEvery == 0 {
 		b.opt.Progress(len(b.scores))
@@ -243,13 +331,13 @@ func (b *builder) addParquet(line int, leaves []parquet.LeafColumn, at func(int)
 // parquetNumber reads a score or weight; parse is parseScore or
 // parseWeight, which also judges numbers from numeric columns, so that the
 // checks and messages are those of text.
-func parquetNumber(v parquet.Value, leaf parquet.LeafColumn, parse func(string) (float64, error)) (float64, error) {
+func parquetNumber(v parquet.Value, kind numberKind, parse func(string) (float64, error)) (float64, error) {
 	if v.IsNull() {
 		return parse("")
 	}
 	switch v.Kind() {
 	case parquet.Float, parquet.Double, parquet.Int32, parquet.Int64:
-		x, ok := numericValue(v, leaf)
+		x, ok := numericValue(v, kind)
 		if !ok {
 			return parse(v.String())
 		}
@@ -267,23 +355,34 @@ func parquetNumber(v parquet.Value, leaf parquet.LeafColumn, parse func(string) 
 	return 0, &valueError{sentinel: ErrBadParquet, value: v.Kind().String(), hint: "expected a number or text column"}
 }
 
-// numericValue returns a numeric value as float64, applying the scale of a
-// decimal column and the sign of an unsigned one.
-func numericValue(v parquet.Value, leaf parquet.LeafColumn) (float64, bool) {
-	var lt *format.LogicalType
-	if leaf.Node != nil {
-		lt = leaf.Node.Type().LogicalType()
+// numberKind is what a numeric column's logical type says about its
+// values: the scale of a decimal, and whether an integer is unsigned.
+type numberKind struct {
+	scale    int
+	unsigned bool
+}
+
+// kindOf reads the numberKind of a leaf column once.
+func kindOf(leaf parquet.LeafColumn) numberKind {
+	var k numberKind
+	if leaf.Node == nil {
+		return k
 	}
-	var unsigned bool
-	scale := 0
-	if lt != nil {
+	if lt := leaf.Node.Type().LogicalType(); lt != nil {
 		switch t := lt.Value.(type) {
 		case *format.DecimalType:
-			scale = int(t.Scale)
+			k.scale = int(t.Scale)
 		case *format.IntType:
-			unsigned = !t.IsSigned
+			k.unsigned = !t.IsSigned
 		}
 	}
+	return k
+}
+
+// numericValue returns a numeric value as float64, applying the scale of a
+// decimal column and the sign of an unsigned one.
+func numericValue(v parquet.Value, kind numberKind) (float64, bool) {
+	scale, unsigned := kind.scale, kind.unsigned
 	var x float64
 	switch v.Kind() {
 	case parquet.Float:
@@ -341,7 +440,7 @@ func decimalValue(v parquet.Value, scale int, unsigned bool) (float64, bool) {
 
 // parquetLabel reads a label: booleans as they are, numbers 1 and 0, text
 // as Read reads it.
-func (b *builder) parquetLabel(v parquet.Value, leaf parquet.LeafColumn) (bool, error) {
+func (b *builder) parquetLabel(v parquet.Value, kind numberKind) (bool, error) {
 	if v.IsNull() {
 		return b.parseLabel("")
 	}
@@ -354,7 +453,7 @@ func (b *builder) parquetLabel(v parquet.Value, leaf parquet.LeafColumn) (bool, 
 	case parquet.ByteArray, parquet.FixedLenByteArray:
 		return b.parseLabel(string(v.ByteArray()))
 	}
-	x, ok := numericValue(v, leaf)
+	x, ok := numericValue(v, kind)
 	if !ok {
 		return b.parseLabel(v.String())
 	}
@@ -362,7 +461,7 @@ func (b *builder) parquetLabel(v parquet.Value, leaf parquet.LeafColumn) (bool, 
 }
 
 // parquetText returns a segment or id value as text; null is "".
-func parquetText(v parquet.Value, leaf parquet.LeafColumn) string {
+func parquetText(v parquet.Value, kind numberKind) string {
 	if v.IsNull() {
 		return ""
 	}
@@ -372,7 +471,7 @@ func parquetText(v parquet.Value, leaf parquet.LeafColumn) string {
 	case parquet.Boolean:
 		return strconv.FormatBool(v.Boolean())
 	}
-	if x, ok := numericValue(v, leaf); ok {
+	if x, ok := numericValue(v, kind); ok {
 		return strconv.FormatFloat(x, 'g', -1, 64)
 	}
 	return v.String()
