@@ -1,0 +1,28 @@
+package shift_test
+
+import (
+	"fmt"
+	"time"
+
+	"github.com/sill-tool/sill/internal/scores"
+	"github.com/sill-tool/sill/internal/shift"
+)
+
+func ExampleRunning() {
+	sched, _ := shift.ParseSchedule("06:00,14:00,22:00", time.UTC)
+	set, _ := scores.New([]float64{0.9, 0.8, 0.7}, []bool{true, false, false}, nil, false)
+	for _, text := range []string{"2026-09-01T23:10:00Z", "2026-09-02T03:40:00Z", "2026-09-02T09:00:00Z"} {
+		t, _ := time.Parse(time.RFC3339, text)
+		set.Times = append(set.Times, t.Unix())
+	}
+	a, _ := shift.Assign(set, sched)
+	r := shift.NewRunning(set, a, shift.Scale{Positive: 1, Negative: 1})
+	for _, rows := range []int{1, 3, 2} { // as a cursor moves: one case flagged, all three, two
+		p := r.At(rows, 1)
+		fmt.Printf("%d flagged: busiest %v, %v of the shifts over a capacity of 1\n", rows, p.Max, p.OverCapacity)
+	}
+	// Output:
+	// 1 flagged: busiest 1, 0 of the shifts over a capacity of 1
+	// 3 flagged: busiest 2, 0.5 of the shifts over a capacity of 1
+	// 2 flagged: busiest 2, 0.5 of the shifts over a capacity of 1
+}
