@@ -13,6 +13,7 @@ import (
 	"github.com/sill-tool/sill/internal/bootstrap"
 	"github.com/sill-tool/sill/internal/calibration"
 	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/report"
 	"github.com/sill-tool/sill/internal/shift"
@@ -271,15 +272,21 @@ func (p figuresPane) stabilityLines(width int) []string {
 			fmt.Sprintf("%s could land anywhere from score %s to %s on another validation set of this size", ruleWords(sp.Rule), from, to),
 			fmt.Sprintf("%s: score %s to %s on another set of this size", ruleWords(sp.Rule), from, to),
 		}
-	} else {
+	} else if band, ok := res.BandAt(s.cursor); ok && evidence.Defined(band.Recall[0]) && evidence.Defined(band.FalseDiscoveryRate[0]) {
+		caught, wrong := shortRange(band.Recall), shortRange(band.FalseDiscoveryRate)
 		sentences = []string{
-			fmt.Sprintf("redraws: %d resampled sets of this size; on a starting point (keys 1-%d) this says where its cut could land", res.Replicates, len(s.starts)),
-			fmt.Sprintf("redraws: %d resampled sets; keys 1-%d say where each starting point could land", res.Replicates, len(s.starts)),
+			fmt.Sprintf("on another validation set of this size this score would catch %s of the true cases, with %s of its alerts wrong, 9 times in 10", caught, wrong),
+			fmt.Sprintf("on another set of this size this score would catch %s of true cases, %s of alerts wrong, 9 times in 10", caught, wrong),
+			fmt.Sprintf("another set of this size: %s caught, %s wrong (9 in 10)", caught, wrong),
 		}
+	} else {
+		sentences = []string{fmt.Sprintf("%d resampled sets; keys 1-%d say where each starting point could land", res.Replicates, len(s.starts))}
 	}
-	lines := wrapWords(sentences[0], width)
-	if len(lines) > stabilityLines {
-		lines = wrapWords(sentences[1], width)
+	var lines []string
+	for _, sentence := range sentences {
+		if lines = wrapWords(sentence, width); len(lines) <= stabilityLines {
+			break
+		}
 	}
 	for _, l := range lines {
 		out = append(out, st.Muted.Render(l))
