@@ -84,11 +84,19 @@ func newExploreCmd() *cobra.Command {
 		Short: "Walk the cuts of a scored validation set on screen, pin candidates and write the chosen cut",
 		Long: `explore opens a keyboard-driven screen on a validation set (the same files
 and flags as report): the ranked list with the cut under the cursor, the
-curve, the figures of the cursor's cut, the starting points on keys 1-5, and
+curve, the figures of the cursor's cut, the starting points on keys 1-6, and
 a comparison strip of the cuts you pin. w writes the chosen cut, the pinned
-candidates and the assumptions to --out; ? lists every key.`,
+candidates and the assumptions to --out; ? lists every key.
+
+Beyond the averages: with --segment, s breaks the cursor's cut down by group;
+with --time and --shifts the queue figure adds the real shifts' peaks and
+queue90 at the capacity is a starting point; b resamples the set (--bootstrap,
+--seed) to show how far the cuts move; e asks whether the scores read as
+probabilities; with --score a --score b (or --compare FILE --id COL), m puts
+both models' cuts side by side.`,
 		Example: `  sill explore bearings.csv --volume 1500 --capacity 90
-  sill explore scores.jsonl --cost-false-alert 120 --cost-miss 1200 --out cut.yaml`,
+  sill explore scores.jsonl --cost-false-alert 120 --cost-miss 1200 --out cut.yaml
+  sill explore bearings.csv --segment yard --time read_at --shifts 06:00,14:00,22:00 --volume 1500 --capacity 90`,
 		Args: cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			path := args[0]
