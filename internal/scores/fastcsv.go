@@ -19,9 +19,9 @@ import (
 // decompressed text in large blocks, parses the blocks on every core and
 // parses plain numbers from the bytes without allocating.
 //
-// Load handles delimited text with score, label and weight columns itself,
-// dropped rows included. For anything else it seeks back and calls Read:
-// JSON Lines, segment, id, time or second score columns, a header or a
+// Load handles delimited text with score, label, weight and segment
+// columns itself, dropped rows included. For anything else it seeks back
+// and calls Read: JSON Lines, id, time or second score columns, a header or a
 // first line it cannot take at a glance, a quoted field that does not close
 // on its own line, and errors in reading or decompressing the input.
 func Load(r io.ReadSeeker, source string, opt Options) (*Set, error) {
@@ -73,11 +73,14 @@ type block struct {
 	scores   []float64
 	labels   []bool
 	weights  []float64
-	size     int        // bytes in data
-	newlines int        // line feeds in data
-	dropped  int        // rows skipped by DropInvalid
-	reasons  []rowEvent // the first few of them
-	event    *rowEvent  // the first error, or a reason to decline
+	segments []int32          // codes into segNames, the block's own numbering
+	segNames []string         // segment names in the order they first appear in the block
+	segIndex map[string]int32 // code of each name in segNames
+	size     int              // bytes in data
+	newlines int              // line feeds in data
+	dropped  int              // rows skipped by DropInvalid
+	reasons  []rowEvent       // the first few of them
+	event    *rowEvent        // the first error, or a reason to decline
 }
 
 // rowEvent is something found at a line of a block; line counts from 0 at
@@ -132,7 +135,7 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 	if err := b.resolve(header, 1); err != nil {
 		return nil, err
 	}
-	if b.segmentCol >= 0 || b.idCol >= 0 || b.timeCol >= 0 || b.compareCol >= 0 {
+	if b.idCol >= 0 || b.timeCol >= 0 || b.compareCol >= 0 {
 		return nil, errDecline
 	}
 	p := &blockParser{b: b, delim: byte(delim), fields: len(header), spare: make(chan blockColumns, 8)}
@@ -166,6 +169,23 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 		}
 		line += blk.newlines
 		rows += len(blk.scores)
+		if b.segmentCol >= 0 {
+			// The block's own segment codes become the set's, numbered in
+			// the order the names first appear, as Read numbers them.
+			remap := make([]int32, len(blk.segNames))
+			for local, name := range blk.segNames {
+				code, ok := b.segIndex[name]
+				if !ok {
+					code = int32(len(b.segNames))
+					b.segIndex[name] = code
+					b.segNames = append(b.segNames, name)
+				}
+				remap[local] = code
+			}
+			for i, local := range blk.segments {
+				blk.segments[i] = remap[local]
+			}
+		}
 		if size > 0 && len(blk.scores) > 0 {
 			// Copy the rows into place now, while later blocks are parsed,
 			// making room at the first rows for as many as the size says.
@@ -176,17 +196,23 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 				if b.weightCol >= 0 {
 					b.weights = make([]float64, 0, estimate)
 				}
+				if b.segmentCol >= 0 {
+					b.segments = make([]int32, 0, estimate)
+				}
 			}
 			b.scores = append(b.scores, blk.scores...)
 			b.labels = append(b.labels, blk.labels...)
 			if b.weights != nil {
 				b.weights = append(b.weights, blk.weights...)
 			}
+			if b.segmentCol >= 0 {
+				b.segments = append(b.segments, blk.segments...)
+			}
 			select {
 			case p.spare <- blockColumns{blk.scores[:0], blk.labels[:0], blkWeights(blk)}:
 			default:
 			}
-			blk.scores, blk.labels, blk.weights = nil, nil, nil
+			blk.scores, blk.labels, blk.weights, blk.segments = nil, nil, nil, nil
 		} else {
 			parsed = append(parsed, blk)
 		}
@@ -213,6 +239,9 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 		if b.weightCol >= 0 {
 			b.weights = make([]float64, 0, rows)
 		}
+		if b.segmentCol >= 0 {
+			b.segments = make([]int32, 0, rows)
+		}
 	}
 	for i, blk := range parsed {
 		if len(blk.scores) == 0 {
@@ -222,6 +251,9 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 		b.labels = append(b.labels, blk.labels...)
 		if b.weights != nil {
 			b.weights = append(b.weights, blk.weights...)
+		}
+		if b.segmentCol >= 0 {
+			b.segments = append(b.segments, blk.segments...)
 		}
 		parsed[i] = nil
 	}
@@ -348,6 +380,9 @@ func (p *blockParser) parse(blk *block) {
 	case spare = <-p.spare:
 	default:
 	}
+	if b.segmentCol >= 0 {
+		blk.segments = make([]int32, 0, rowsAtMost)
+	}
 	if cap(spare.scores) >= rowsAtMost && (b.weightCol < 0 || cap(spare.weights) >= rowsAtMost) {
 		blk.scores, blk.labels, blk.weights = spare.scores, spare.labels, spare.weights
 	} else {
@@ -362,7 +397,7 @@ func (p *blockParser) parse(blk *block) {
 	delim := p.delim
 	// The commonest table, score then a 0/1 label, has a path of its own.
 	twoColumns := p.fields == 2 && b.scoreCol == 0 && b.labelCol == 1 && b.opt.Positive == ""
-	var cells [3][]byte // score, label, weight
+	var cells [4][]byte // score, label, weight, segment
 	for line := 0; len(data) > 0; line++ {
 		if twoColumns {
 			if rest, ok := p.plainRow(blk, data); ok {
@@ -372,7 +407,7 @@ func (p *blockParser) parse(blk *block) {
 		}
 		// One pass over the row finds its end and its cells.
 		field, start, end := 0, 0, 0
-		cells = [3][]byte{}
+		cells = [4][]byte{}
 		for ; end < len(data); end++ {
 			c := data[end]
 			if c == '\n' {
@@ -462,7 +497,7 @@ func (p *blockParser) plainRow(blk *block, data []byte) (rest []byte, ok bool) {
 }
 
 // keep puts the text of a field into cells when it is a column in use.
-func (p *blockParser) keep(cells *[3][]byte, field int, text []byte) {
+func (p *blockParser) keep(cells *[4][]byte, field int, text []byte) {
 	b := p.b
 	if field == b.scoreCol {
 		cells[0] = text
@@ -472,6 +507,9 @@ func (p *blockParser) keep(cells *[3][]byte, field int, text []byte) {
 	}
 	if field == b.weightCol {
 		cells[2] = text
+	}
+	if field == b.segmentCol {
+		cells[3] = text
 	}
 }
 
@@ -494,7 +532,7 @@ func (p *blockParser) quotedRow(blk *block, line int, row []byte) *rowEvent {
 	if len(record) != p.fields {
 		return &rowEvent{line: line, err: fmt.Errorf("%w: row has %d, header has %d", ErrRagged, len(record), p.fields)}
 	}
-	var cells [3][]byte
+	var cells [4][]byte
 	cells[0] = []byte(record[p.b.scoreCol])
 	if p.b.labelCol >= 0 {
 		cells[1] = []byte(record[p.b.labelCol])
@@ -502,11 +540,14 @@ func (p *blockParser) quotedRow(blk *block, line int, row []byte) *rowEvent {
 	if p.b.weightCol >= 0 {
 		cells[2] = []byte(record[p.b.weightCol])
 	}
+	if p.b.segmentCol >= 0 {
+		cells[3] = []byte(record[p.b.segmentCol])
+	}
 	return p.addRow(blk, line, cells)
 }
 
 // addRow reads the cells of one row as builder.add does.
-func (p *blockParser) addRow(blk *block, line int, cells [3][]byte) *rowEvent {
+func (p *blockParser) addRow(blk *block, line int, cells [4][]byte) *rowEvent {
 	b := p.b
 	score, ok := plainFloat(cells[0])
 	if ok && score == 0 {
@@ -548,6 +589,19 @@ func (p *blockParser) addRow(blk *block, line int, cells [3][]byte) *rowEvent {
 			}
 		}
 		blk.weights = append(blk.weights, w)
+	}
+	if b.segmentCol >= 0 {
+		code, ok := blk.segIndex[string(cells[3])]
+		if !ok {
+			if blk.segIndex == nil {
+				blk.segIndex = map[string]int32{}
+			}
+			name := string(cells[3])
+			code = int32(len(blk.segNames))
+			blk.segIndex[name] = code
+			blk.segNames = append(blk.segNames, name)
+		}
+		blk.segments = append(blk.segments, code)
 	}
 	blk.scores = append(blk.scores, score)
 	blk.labels = append(blk.labels, positive)

@@ -108,6 +108,9 @@ func randomTable(rng *rand.Rand, rows int, weighted, bad bool) []byte {
 		header = append(header, "weight")
 	}
 	if rng.IntN(3) == 0 {
+		header = append(header, "yard")
+	}
+	if rng.IntN(3) == 0 {
 		header = []string{"score", "label"}
 		if weighted {
 			header = append(header, "weight")
@@ -168,6 +171,8 @@ func randomTable(rng *rand.Rand, rows int, weighted, bad bool) []byte {
 				cells = append(cells, label)
 			case "weight":
 				cells = append(cells, strconv.Itoa(rng.IntN(4)))
+			case "yard":
+				cells = append(cells, []string{"north", "east", " south ", "", `"west, far"`, "north"}[rng.IntN(6)])
 			}
 		}
 		if bad && rng.IntN(rows) == 0 {
@@ -233,6 +238,9 @@ func TestLoadMatchesRead(t *testing.T) {
 		if rng.IntN(6) == 0 {
 			opt.Positive = "1"
 		}
+		if strings.Contains(string(data[:min(len(data), 60)]), "yard") {
+			opt.SegmentColumn = "yard"
+		}
 		name := fmt.Sprintf("trial %d (block %d, rows %d)", trial, blockSize, rows)
 		sameResult(t, name, data, opt)
 		if _, err := loadBlocks(bytes.NewReader(data), "t.csv", opt, int64(len(data))); err != errDecline {
@@ -275,7 +283,7 @@ func TestLoadCases(t *testing.T) {
 		{"multi-line quoted id", "id,score,label\n\"a\nb\",0.5,1\n", Options{}, ""},
 		{"open quote", "score,label\n\"0.5,1\n", Options{}, `t.csv:2: extraneous or missing " in quoted-field`},
 		{"dropped rows", "score,label\n,1\nnan,0\n0.4,1\n", Options{DropInvalid: true}, ""},
-		{"segment column goes to Read", "score,label,g\n0.5,1,a\n0.4,0,b\n", Options{SegmentColumn: "g"}, ""},
+		{"segment column", "score,label,g\n0.5,1,a\n0.4,0,b\n", Options{SegmentColumn: "g"}, ""},
 		{"score and label the same column", "v\n1\n0\n", Options{ScoreColumn: "v", LabelColumn: "v"}, ""},
 	}
 	for _, size := range []int{8, 1 << 20} {

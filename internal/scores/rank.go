@@ -103,12 +103,12 @@ const (
 const parallelSortRows = 1 << 16
 
 // rankInPlace sorts scores riskiest first, carrying labels and (when not
-// nil) weights along, keeping the read order of ties. It sorts the keys
+// nil) weights and segments along, keeping the read order of ties. It sorts the keys
 // themselves rather than a permutation: the scores slice holds the keys
 // during the sort and gets its scores back, decoded from them, at the end,
 // so the extra memory is one more copy of the columns being sorted and no
 // index. Minus zero comes back as plus zero.
-func rankInPlace(scores []float64, labels []bool, weights []float64, lowerIsRiskier bool) {
+func rankInPlace(scores []float64, labels []bool, weights []float64, segments []int32, lowerIsRiskier bool) {
 	n := len(scores)
 	if n < 2 {
 		return
@@ -193,6 +193,10 @@ func rankInPlace(scores []float64, labels []bool, weights []float64, lowerIsRisk
 	if weights != nil {
 		wts = make([]float64, n)
 	}
+	var segs []int32
+	if segments != nil {
+		segs = make([]int32, n)
+	}
 	for w := range workers {
 		wg.Add(1)
 		go func(w int) {
@@ -206,6 +210,9 @@ func rankInPlace(scores []float64, labels []bool, weights []float64, lowerIsRisk
 				labs[j] = labels[i]
 				if wts != nil {
 					wts[j] = weights[i]
+				}
+				if segs != nil {
+					segs[j] = segments[i]
 				}
 				at[d] = j + 1
 			}
@@ -229,10 +236,13 @@ func rankInPlace(scores []float64, labels []bool, weights []float64, lowerIsRisk
 				if hi == lo {
 					continue
 				}
-				c := bucketColumns{keys[lo:hi], labs[lo:hi], nil}
-				scratch := bucketColumns{scores[lo:hi], labels[lo:hi], nil}
+				c := bucketColumns{keys: keys[lo:hi], labels: labs[lo:hi]}
+				scratch := bucketColumns{keys: scores[lo:hi], labels: labels[lo:hi]}
 				if wts != nil {
 					c.weights, scratch.weights = wts[lo:hi], weights[lo:hi]
+				}
+				if segs != nil {
+					c.segments, scratch.segments = segs[lo:hi], segments[lo:hi]
 				}
 				sortInto(c, scratch, shift)
 				for i, k := range scratch.keys {
@@ -246,9 +256,10 @@ func rankInPlace(scores []float64, labels []bool, weights []float64, lowerIsRisk
 
 // bucketColumns is one bucket of keys and the columns carried with them.
 type bucketColumns struct {
-	keys    []float64 // key bits
-	labels  []bool
-	weights []float64 // nil when unweighted
+	keys     []float64 // key bits
+	labels   []bool
+	weights  []float64 // nil when unweighted
+	segments []int32   // nil without segments
 }
 
 // sortInto sorts from stably by the key bits below bits (the bits above
@@ -309,6 +320,9 @@ func sortHere(a, scratch bucketColumns, bits uint) {
 			if a.weights != nil {
 				a.weights[lo] = scratch.weights[lo]
 			}
+			if a.segments != nil {
+				a.segments[lo] = scratch.segments[lo]
+			}
 		case hi > lo:
 			sortInto(scratch.slice(lo, hi), a.slice(lo, hi), shift)
 		}
@@ -357,6 +371,9 @@ func scatter(from, to bucketColumns, shift, digitBits uint, offsets *[257]int) {
 		if from.weights != nil {
 			to.weights[j] = from.weights[i]
 		}
+		if from.segments != nil {
+			to.segments[j] = from.segments[i]
+		}
 		next[d] = j + 1
 	}
 }
@@ -366,6 +383,9 @@ func (c bucketColumns) slice(lo, hi int) bucketColumns {
 	if c.weights != nil {
 		s.weights = c.weights[lo:hi]
 	}
+	if c.segments != nil {
+		s.segments = c.segments[lo:hi]
+	}
 	return s
 }
 
@@ -374,6 +394,9 @@ func (c bucketColumns) copyTo(to bucketColumns) {
 	copy(to.labels, c.labels)
 	if c.weights != nil {
 		copy(to.weights, c.weights)
+	}
+	if c.segments != nil {
+		copy(to.segments, c.segments)
 	}
 }
 
@@ -385,6 +408,10 @@ func insertionSort(c bucketColumns) {
 		if c.weights != nil {
 			weight = c.weights[i]
 		}
+		var segment int32
+		if c.segments != nil {
+			segment = c.segments[i]
+		}
 		j := i
 		for ; j > 0 && math.Float64bits(c.keys[j-1]) > math.Float64bits(k); j-- {
 			c.keys[j] = c.keys[j-1]
@@ -392,10 +419,16 @@ func insertionSort(c bucketColumns) {
 			if c.weights != nil {
 				c.weights[j] = c.weights[j-1]
 			}
+			if c.segments != nil {
+				c.segments[j] = c.segments[j-1]
+			}
 		}
 		c.keys[j], c.labels[j] = k, label
 		if c.weights != nil {
 			c.weights[j] = weight
+		}
+		if c.segments != nil {
+			c.segments[j] = segment
 		}
 	}
 }

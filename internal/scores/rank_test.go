@@ -8,7 +8,8 @@ import (
 
 // TestRankInPlaceMatchesPermutation checks the in-place key sort against the
 // permutation sort on seeded random columns: ties, negative scores, minus
-// zero, weights, both directions, sizes around the parallel threshold.
+// zero, weights and segments, both directions, sizes around the parallel
+// threshold.
 func TestRankInPlaceMatchesPermutation(t *testing.T) {
 	rng := rand.New(rand.NewPCG(5, 7))
 	for _, n := range []int{2, 3, 100, 1500, parallelSortRows + 17, 200000} {
@@ -44,13 +45,19 @@ func TestRankInPlaceMatchesPermutation(t *testing.T) {
 					labels[i] = rng.IntN(4) == 0
 					weights[i] = float64(rng.IntN(5))
 				}
+				segments := make([]int32, n)
+				for i := range segments {
+					segments[i] = int32(rng.IntN(7))
+				}
 				order := rankOrder(scores, lower)
-				wantScores, wantLabels, wantWeights := scores, labels, weights
+				wantScores, wantLabels, wantWeights, wantSegments := scores, labels, weights, segments
 				if order != nil {
 					wantScores = permute(scores, order)
 					wantLabels = permute(labels, order)
 					wantWeights = permute(weights, order)
+					wantSegments = permute(segments, order)
 				}
+				wantSegments = append([]int32(nil), wantSegments...)
 				wantScores = append([]float64(nil), wantScores...)
 				wantLabels = append([]bool(nil), wantLabels...)
 				wantWeights = append([]float64(nil), wantWeights...)
@@ -62,9 +69,10 @@ func TestRankInPlaceMatchesPermutation(t *testing.T) {
 				gotScores := append([]float64(nil), scores...)
 				gotLabels := append([]bool(nil), labels...)
 				gotWeights := append([]float64(nil), weights...)
-				rankInPlace(gotScores, gotLabels, gotWeights, lower)
+				gotSegments := append([]int32(nil), segments...)
+				rankInPlace(gotScores, gotLabels, gotWeights, gotSegments, lower)
 				for i := range gotScores {
-					if math.Float64bits(gotScores[i]) != math.Float64bits(wantScores[i]) || gotLabels[i] != wantLabels[i] || gotWeights[i] != wantWeights[i] {
+					if math.Float64bits(gotScores[i]) != math.Float64bits(wantScores[i]) || gotLabels[i] != wantLabels[i] || gotWeights[i] != wantWeights[i] || gotSegments[i] != wantSegments[i] {
 						t.Fatalf("n=%d lower=%v %s: row %d: got (%v,%v,%v), want (%v,%v,%v)", n, lower, kind, i,
 							gotScores[i], gotLabels[i], gotWeights[i], wantScores[i], wantLabels[i], wantWeights[i])
 					}
@@ -72,7 +80,7 @@ func TestRankInPlaceMatchesPermutation(t *testing.T) {
 				// Without weights the labels still travel with their scores.
 				gotScores = append(gotScores[:0], scores...)
 				gotLabels = append(gotLabels[:0], labels...)
-				rankInPlace(gotScores, gotLabels, nil, lower)
+				rankInPlace(gotScores, gotLabels, nil, nil, lower)
 				for i := range gotScores {
 					if math.Float64bits(gotScores[i]) != math.Float64bits(wantScores[i]) || gotLabels[i] != wantLabels[i] {
 						t.Fatalf("n=%d lower=%v %s unweighted: row %d differs", n, lower, kind, i)

@@ -142,11 +142,11 @@ func (s *Set) Flags(cut, score float64) bool {
 const smallRankRows = 1024
 
 // rank sorts every column riskiest first, keeping the read order of ties.
-// Without other columns than scores, labels and weights it sorts them in place (see rankInPlace);
+// Without other columns than scores, labels, weights and segments it sorts them in place (see rankInPlace);
 // otherwise it sorts a permutation and applies it to every column.
 func (s *Set) rank() {
 	if s.onlySortedColumns() && len(s.Scores) >= smallRankRows {
-		rankInPlace(s.Scores, s.Labels, s.Weights, s.LowerIsRiskier)
+		rankInPlace(s.Scores, s.Labels, s.Weights, s.SegmentOf, s.LowerIsRiskier)
 		return
 	}
 	order := rankOrder(s.Scores, s.LowerIsRiskier)
@@ -173,10 +173,10 @@ func (s *Set) rank() {
 }
 
 // onlySortedColumns reports whether the set has no column besides scores,
-// labels and weights, the ones rankInPlace carries. A new column must be
-// added here as well as to the permutation in rank.
+// labels, weights and segments, the ones rankInPlace carries. A new column
+// must be added here as well as to the permutation in rank.
 func (s *Set) onlySortedColumns() bool {
-	return s.IDs == nil && s.SegmentOf == nil && s.Times == nil && s.CompareScores == nil
+	return s.IDs == nil && s.Times == nil && s.CompareScores == nil
 }
 
 func permute[T any](column []T, order []uint32) []T {
