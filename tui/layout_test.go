@@ -69,6 +69,13 @@ func TestLayout(t *testing.T) {
 		{"79x24-too-narrow", 79, 24, layoutState{figureLines: 11}},
 		{"80x21-too-short", 80, 21, layoutState{figureLines: 11}},
 		{"80x22-minimum", 80, 22, layoutState{pinned: true, figureLines: 10, stripLines: 15}},
+		// The figures beyond the averages take lines from the chart: the
+		// demo with shift peaks, net benefit and the resampled spread has
+		// 14; at 80x24 the chart keeps 6 lines, and gives way once a pin
+		// takes the strip's line. With a second model there are 16.
+		{"80x24-figures-14", 80, 24, layoutState{figureLines: 14, stripLines: 14}},
+		{"80x24-figures-14-pinned", 80, 24, layoutState{pinned: true, figureLines: 14, stripLines: 14}},
+		{"100x30-figures-16", 100, 30, layoutState{figureLines: 16, stripLines: 14}},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
