@@ -68,21 +68,34 @@ func (p helpPane) View(groups []helpGroup) string {
 		}
 		return lines
 	}
-	// Two columns, each group going to the shorter one so far.
-	var left, right []string
-	for _, g := range groups {
-		lines := render(g)
-		switch {
-		case len(left) == 0:
-			left = lines
-		case len(right) == 0:
-			right = lines
-		case len(left) <= len(right):
-			left = append(append(left, ""), lines...)
-		default:
-			right = append(append(right, ""), lines...)
+	// Two columns, the groups in order within each, split so that the
+	// taller column is as short as it can be (the first such split, with
+	// the first group on the left).
+	rendered := make([][]string, len(groups))
+	for i, g := range groups {
+		rendered[i] = render(g)
+	}
+	split := func(mask int) (left, right []string) {
+		for i, lines := range rendered {
+			col := &left
+			if mask&(1<<i) != 0 {
+				col = &right
+			}
+			if len(*col) > 0 {
+				*col = append(*col, "")
+			}
+			*col = append(*col, lines...)
+		}
+		return left, right
+	}
+	best, bestH := 0, -1
+	for mask := 0; mask < 1<<len(groups); mask += 2 { // bit 0 clear: the first group on the left
+		l, r := split(mask)
+		if h := max(len(l), len(r)); bestH < 0 || h < bestH {
+			best, bestH = mask, h
 		}
 	}
+	left, right := split(best)
 	leftW := 0
 	for _, l := range left {
 		leftW = max(leftW, ansi.StringWidth(l))
