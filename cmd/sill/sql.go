@@ -24,7 +24,13 @@ Labels are read as sill reads them: 1/true/yes/y/t/positive/pos against
 0/false/no/n/f/negative/neg, in any case, or --positive names the one true
 value. Identifiers are quoted, so names with spaces, capitals or quotes are
 safe; --where is used as written. sill runs nothing: the query is printed on
-standard output.`,
+standard output.
+
+The query is plain SQL with identifiers in double quotes, as the SQL
+standard has them; sill's tests run it on SQLite and PostgreSQL, and it was
+run by hand on DuckDB. An engine whose text type is not called VARCHAR takes
+--text-type (STRING, say); one that quotes identifiers otherwise needs its
+own setting for that or a hand edit.`,
 		Example: `  sill sql --table analytics.bearing_scores --score p_fail --label failed > counts.sql
   sill sql --table scored --score score --label outcome --positive failed --segment yard --where "scored_on >= '2026-01-01'"
   sill report counts.csv --counts --volume 1500`,
@@ -46,6 +52,7 @@ standard output.`,
 	fs.StringVar(&q.Segment, "segment", "", "optional group column, kept in the counts table")
 	fs.StringVar(&q.Where, "where", "", "optional SQL condition on the rows, used as written")
 	fs.StringVar(&q.Positive, "positive", "", "the only label value that means a true case (default: the usual label words)")
+	fs.StringVar(&q.TextType, "text-type", "", "the engine's text type for the label cast (default VARCHAR(255)), e.g. STRING")
 	for _, name := range []string{"table", "score", "label"} {
 		_ = cmd.MarkFlagRequired(name)
 	}

@@ -55,6 +55,7 @@ func TestSQLErrors(t *testing.T) {
 		{Query{Table: "t", Label: "l"}, "--score: empty name"},
 		{Query{Table: "t", Score: "s", Label: "l", Digits: 13}, "--digits 13: digits out of range, expected 0 to 12, or -1 to keep every score as it is"},
 		{Query{Table: "t.", Score: "s", Label: "l"}, `--table: empty name in "t.": a dot must separate two names`},
+		{Query{Table: "t", Score: "s", Label: "l", TextType: "TEXT); DROP TABLE t; --"}, `--text-type "TEXT); DROP TABLE t; --": not a type name, expected one such as VARCHAR(255) or STRING`},
 	}
 	for _, c := range cases {
 		if _, err := c.q.SQL(); err == nil || err.Error() != c.want {
@@ -70,6 +71,7 @@ func TestSQLGolden(t *testing.T) {
 		"default-words-4-digits":  {Table: "analytics.bearing_scores", Score: "p_fail", Label: "failed", Digits: 4},
 		"positive-segment-where":  {Table: "scored", Score: "Score", Label: "outcome", Digits: 2, Segment: "yard", Where: "scored_on >= '2026-01-01'", Positive: "failed"},
 		"unrounded-awkward-names": {Table: `odd "name"`, Score: "p fail", Label: "it's", Digits: -1},
+		"text-type-string":        {Table: "lake.scores", Score: "score", Label: "label", Digits: 4, TextType: "STRING"},
 	}
 	for name, q := range cases {
 		got, err := q.SQL()
