@@ -8,6 +8,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"runtime"
 	"runtime/debug"
 	"slices"
 	"strconv"
@@ -143,15 +144,42 @@ func (b *builder) readParquetFile(pf ParquetFile, first bool, digest io.Writer) 
 	if b.segmentCol >= 0 {
 		b.segments = slices.Grow(b.segments, rows)
 	}
-	row := 0 // rows before the current row group
-	for _, group := range file.RowGroups() {
-		n := int(group.NumRows())
-		g, err := b.decodeRowGroup(group, n, columns, leaves)
-		if err != nil {
-			return err
+	// Row groups are decoded on every core, a few ahead, and added in
+	// order; decoding only reads the builder.
+	groups := file.RowGroups()
+	type decoded struct {
+		g    *decodedGroup
+		err  error
+		done chan struct{}
+	}
+	ahead := max(1, runtime.GOMAXPROCS(0))
+	pending := make(chan *decoded, ahead)
+	stop := make(chan struct{})
+	defer close(stop)
+	go func() {
+		defer close(pending)
+		for _, group := range groups {
+			d := &decoded{done: make(chan struct{})}
+			select {
+			case pending <- d:
+			case <-stop:
+				return
+			}
+			go func(group parquet.RowGroup) {
+				defer close(d.done)
+				d.g, d.err = b.decodeRowGroup(group, int(group.NumRows()), columns, leaves)
+			}(group)
 		}
+	}()
+	row := 0 // rows before the current row group
+	for d := range pending {
+		<-d.done
+		if d.err != nil {
+			return d.err
+		}
+		n := len(d.g.scores)
 		for i := range n {
-			if err := b.addDecoded(row+i+1, g, i); err != nil {
+			if err := b.addDecoded(row+i+1, d.g, i); err != nil {
 				return err
 			}
 		}
@@ -456,6 +484,9 @@ func (b *builder) parquetLabel(v parquet.Value, kind numberKind) (bool, error) {
 	x, ok := numericValue(v, kind)
 	if !ok {
 		return b.parseLabel(v.String())
+	}
+	if b.opt.Positive == "" && (x == 0 || x == 1) {
+		return x == 1, nil // what parseLabel gives for "0" and "1"
 	}
 	return b.parseLabel(strconv.FormatFloat(x, 'g', -1, 64))
 }
