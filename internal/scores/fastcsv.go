@@ -19,9 +19,9 @@ import (
 // decompressed text in large blocks, parses the blocks on every core and
 // parses plain numbers from the bytes without allocating.
 //
-// Load handles delimited text with score, label, weight and segment
+// Load handles delimited text with score, label, weight, segment and id
 // columns itself, dropped rows included. For anything else it seeks back
-// and calls Read: JSON Lines, id, time or second score columns, a header or a
+// and calls Read: JSON Lines, time or second score columns, a header or a
 // first line it cannot take at a glance, a quoted field that does not close
 // on its own line, and errors in reading or decompressing the input.
 func Load(r io.ReadSeeker, source string, opt Options) (*Set, error) {
@@ -74,6 +74,7 @@ type block struct {
 	labels   []bool
 	weights  []float64
 	segments []int32          // codes into segNames, the block's own numbering
+	ids      []string         // case ids
 	segNames []string         // segment names in the order they first appear in the block
 	segIndex map[string]int32 // code of each name in segNames
 	size     int              // bytes in data
@@ -135,7 +136,7 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 	if err := b.resolve(header, 1); err != nil {
 		return nil, err
 	}
-	if b.idCol >= 0 || b.timeCol >= 0 || b.compareCol >= 0 {
+	if b.timeCol >= 0 || b.compareCol >= 0 {
 		return nil, errDecline
 	}
 	p := &blockParser{b: b, delim: byte(delim), fields: len(header), spare: make(chan blockColumns, 8)}
@@ -199,6 +200,9 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 				if b.segmentCol >= 0 {
 					b.segments = make([]int32, 0, estimate)
 				}
+				if b.idCol >= 0 {
+					b.ids = make([]string, 0, estimate)
+				}
 			}
 			b.scores = append(b.scores, blk.scores...)
 			b.labels = append(b.labels, blk.labels...)
@@ -208,11 +212,14 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 			if b.segmentCol >= 0 {
 				b.segments = append(b.segments, blk.segments...)
 			}
+			if b.idCol >= 0 {
+				b.ids = append(b.ids, blk.ids...)
+			}
 			select {
 			case p.spare <- blockColumns{blk.scores[:0], blk.labels[:0], blkWeights(blk)}:
 			default:
 			}
-			blk.scores, blk.labels, blk.weights, blk.segments = nil, nil, nil, nil
+			blk.scores, blk.labels, blk.weights, blk.segments, blk.ids = nil, nil, nil, nil, nil
 		} else {
 			parsed = append(parsed, blk)
 		}
@@ -242,6 +249,9 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 		if b.segmentCol >= 0 {
 			b.segments = make([]int32, 0, rows)
 		}
+		if b.idCol >= 0 {
+			b.ids = make([]string, 0, rows)
+		}
 	}
 	for i, blk := range parsed {
 		if len(blk.scores) == 0 {
@@ -254,6 +264,9 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 		}
 		if b.segmentCol >= 0 {
 			b.segments = append(b.segments, blk.segments...)
+		}
+		if b.idCol >= 0 {
+			b.ids = append(b.ids, blk.ids...)
 		}
 		parsed[i] = nil
 	}
@@ -383,6 +396,9 @@ func (p *blockParser) parse(blk *block) {
 	if b.segmentCol >= 0 {
 		blk.segments = make([]int32, 0, rowsAtMost)
 	}
+	if b.idCol >= 0 {
+		blk.ids = make([]string, 0, rowsAtMost)
+	}
 	if cap(spare.scores) >= rowsAtMost && (b.weightCol < 0 || cap(spare.weights) >= rowsAtMost) {
 		blk.scores, blk.labels, blk.weights = spare.scores, spare.labels, spare.weights
 	} else {
@@ -397,7 +413,7 @@ func (p *blockParser) parse(blk *block) {
 	delim := p.delim
 	// The commonest table, score then a 0/1 label, has a path of its own.
 	twoColumns := p.fields == 2 && b.scoreCol == 0 && b.labelCol == 1 && b.opt.Positive == ""
-	var cells [4][]byte // score, label, weight, segment
+	var cells [5][]byte // score, label, weight, segment, id
 	for line := 0; len(data) > 0; line++ {
 		if twoColumns {
 			if rest, ok := p.plainRow(blk, data); ok {
@@ -407,7 +423,7 @@ func (p *blockParser) parse(blk *block) {
 		}
 		// One pass over the row finds its end and its cells.
 		field, start, end := 0, 0, 0
-		cells = [4][]byte{}
+		cells = [5][]byte{}
 		for ; end < len(data); end++ {
 			c := data[end]
 			if c == '\n' {
@@ -497,7 +513,7 @@ func (p *blockParser) plainRow(blk *block, data []byte) (rest []byte, ok bool) {
 }
 
 // keep puts the text of a field into cells when it is a column in use.
-func (p *blockParser) keep(cells *[4][]byte, field int, text []byte) {
+func (p *blockParser) keep(cells *[5][]byte, field int, text []byte) {
 	b := p.b
 	if field == b.scoreCol {
 		cells[0] = text
@@ -510,6 +526,9 @@ func (p *blockParser) keep(cells *[4][]byte, field int, text []byte) {
 	}
 	if field == b.segmentCol {
 		cells[3] = text
+	}
+	if field == b.idCol {
+		cells[4] = text
 	}
 }
 
@@ -532,7 +551,7 @@ func (p *blockParser) quotedRow(blk *block, line int, row []byte) *rowEvent {
 	if len(record) != p.fields {
 		return &rowEvent{line: line, err: fmt.Errorf("%w: row has %d, header has %d", ErrRagged, len(record), p.fields)}
 	}
-	var cells [4][]byte
+	var cells [5][]byte
 	cells[0] = []byte(record[p.b.scoreCol])
 	if p.b.labelCol >= 0 {
 		cells[1] = []byte(record[p.b.labelCol])
@@ -543,11 +562,14 @@ func (p *blockParser) quotedRow(blk *block, line int, row []byte) *rowEvent {
 	if p.b.segmentCol >= 0 {
 		cells[3] = []byte(record[p.b.segmentCol])
 	}
+	if p.b.idCol >= 0 {
+		cells[4] = []byte(record[p.b.idCol])
+	}
 	return p.addRow(blk, line, cells)
 }
 
 // addRow reads the cells of one row as builder.add does.
-func (p *blockParser) addRow(blk *block, line int, cells [4][]byte) *rowEvent {
+func (p *blockParser) addRow(blk *block, line int, cells [5][]byte) *rowEvent {
 	b := p.b
 	score, ok := plainFloat(cells[0])
 	if ok && score == 0 {
@@ -602,6 +624,9 @@ func (p *blockParser) addRow(blk *block, line int, cells [4][]byte) *rowEvent {
 			blk.segNames = append(blk.segNames, name)
 		}
 		blk.segments = append(blk.segments, code)
+	}
+	if b.idCol >= 0 {
+		blk.ids = append(blk.ids, string(cells[4]))
 	}
 	blk.scores = append(blk.scores, score)
 	blk.labels = append(blk.labels, positive)

@@ -241,6 +241,9 @@ func TestLoadMatchesRead(t *testing.T) {
 		if strings.Contains(string(data[:min(len(data), 60)]), "yard") {
 			opt.SegmentColumn = "yard"
 		}
+		if strings.Contains(string(data[:min(len(data), 60)]), "id_unused") && rng.IntN(2) == 0 {
+			opt.IDColumn = "id_unused"
+		}
 		name := fmt.Sprintf("trial %d (block %d, rows %d)", trial, blockSize, rows)
 		sameResult(t, name, data, opt)
 		if _, err := loadBlocks(bytes.NewReader(data), "t.csv", opt, int64(len(data))); err != errDecline {
