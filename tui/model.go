@@ -787,35 +787,49 @@ func (m Model) footer(width int) string {
 	} else {
 		hints = append(hints, hint{k.Up, "stricter"}, hint{k.Down, "looser"})
 		if n := len(m.s.starts); n > 0 {
-			hints = append(hints, hint{key.NewBinding(key.WithKeys("1"), key.WithHelp("1-"+keyName(n-1), "")), "starting points"})
+			hints = append(hints, hint{key.NewBinding(key.WithKeys("1"), key.WithHelp("1-"+keyName(n-1), "")), "starts"})
 		}
 		hints = append(hints, hint{k.Pin, "pin"})
 		if len(m.s.pins) > 0 {
 			hints = append(hints, hint{k.Focus, "strip"})
 		}
 	}
-	hints = append(hints, hint{k.Assumptions, "assumptions"}, hint{k.Write, "write"}, hint{k.Help, "all keys"}, hint{k.Quit, "quit"})
+	hints = append(hints, hint{k.Write, "write"}, hint{k.Assumptions, "assumptions"})
 	if m.focus == focusList {
 		// Shown where the line has room after the keys that matter most.
 		hints = append(hints, hint{k.Segments, "segments"}, hint{k.Stability, "stability"}, hint{k.Calibration, "calibration"}, hint{k.Models, "two models"})
 	}
+	render := func(h hint) string {
+		name := h.b.Help().Key
+		if name == k.Left.Help().Key {
+			name = "←→"
+		}
+		return st.Key.Render(name) + " " + st.Footer.Render(h.what)
+	}
+	separator := st.Footer.Render(" · ")
+	lead := ""
+	if m.status != "" {
+		lead = st.Status.Render(m.status) + st.Footer.Render("  │ ")
+	}
+	if m.unwritten && len(m.s.pins) > 0 {
+		lead += st.Warning.Render("not written") + separator
+	}
+	// The way to every key and the way out always show; the other hints
+	// follow in order of importance while they fit.
+	tail := render(hint{k.Help, "all keys"}) + separator + render(hint{k.Quit, "quit"})
+	room := width - ansi.StringWidth(lead) - ansi.StringWidth(tail)
 	var parts []string
 	for _, h := range hints {
 		if !h.b.Enabled() {
 			continue
 		}
-		name := h.b.Help().Key
-		if h.b.Help().Key == k.Left.Help().Key {
-			name = "←→"
+		part := render(h)
+		if ansi.StringWidth(part)+ansi.StringWidth(separator) > room {
+			break
 		}
-		parts = append(parts, st.Key.Render(name)+" "+st.Footer.Render(h.what))
+		room -= ansi.StringWidth(part) + ansi.StringWidth(separator)
+		parts = append(parts, part)
 	}
-	line := strings.Join(parts, st.Footer.Render(" · "))
-	if m.unwritten && len(m.s.pins) > 0 {
-		line = st.Warning.Render("not written") + st.Footer.Render(" · ") + line
-	}
-	if m.status != "" {
-		line = st.Status.Render(m.status) + st.Footer.Render("  │ ") + line
-	}
+	line := lead + strings.Join(append(parts, tail), separator)
 	return fitLine(line, width)
 }
