@@ -19,10 +19,9 @@ import (
 // decompressed text in large blocks, parses the blocks on every core and
 // parses plain numbers from the bytes without allocating.
 //
-// Load handles delimited text with score, label, weight, segment and id
-// columns itself, dropped rows included. For anything else it seeks back
-// and calls Read: JSON Lines, time or second score columns, a header or a
-// first line it cannot take at a glance, a quoted field that does not close
+// Load handles delimited text with every column Read takes, dropped rows
+// included. For anything else it seeks back and calls Read: JSON Lines, a
+// header or a first line it cannot take at a glance, a quoted field that does not close
 // on its own line, and errors in reading or decompressing the input.
 func Load(r io.ReadSeeker, source string, opt Options) (*Set, error) {
 	start, err := r.Seek(0, io.SeekCurrent)
@@ -75,6 +74,8 @@ type block struct {
 	weights  []float64
 	segments []int32          // codes into segNames, the block's own numbering
 	ids      []string         // case ids
+	times    []int64          // case times, unix seconds
+	compare  []float64        // second model's scores
 	segNames []string         // segment names in the order they first appear in the block
 	segIndex map[string]int32 // code of each name in segNames
 	size     int              // bytes in data
@@ -135,9 +136,6 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 	b := &builder{opt: opt, source: source}
 	if err := b.resolve(header, 1); err != nil {
 		return nil, err
-	}
-	if b.timeCol >= 0 || b.compareCol >= 0 {
-		return nil, errDecline
 	}
 	p := &blockParser{b: b, delim: byte(delim), fields: len(header), spare: make(chan blockColumns, 8)}
 
@@ -203,6 +201,12 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 				if b.idCol >= 0 {
 					b.ids = make([]string, 0, estimate)
 				}
+				if b.timeCol >= 0 {
+					b.times = make([]int64, 0, estimate)
+				}
+				if b.compareCol >= 0 {
+					b.compare = make([]float64, 0, estimate)
+				}
 			}
 			b.scores = append(b.scores, blk.scores...)
 			b.labels = append(b.labels, blk.labels...)
@@ -215,11 +219,17 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 			if b.idCol >= 0 {
 				b.ids = append(b.ids, blk.ids...)
 			}
+			if b.timeCol >= 0 {
+				b.times = append(b.times, blk.times...)
+			}
+			if b.compareCol >= 0 {
+				b.compare = append(b.compare, blk.compare...)
+			}
 			select {
 			case p.spare <- blockColumns{blk.scores[:0], blk.labels[:0], blkWeights(blk)}:
 			default:
 			}
-			blk.scores, blk.labels, blk.weights, blk.segments, blk.ids = nil, nil, nil, nil, nil
+			blk.scores, blk.labels, blk.weights, blk.segments, blk.ids, blk.times, blk.compare = nil, nil, nil, nil, nil, nil, nil
 		} else {
 			parsed = append(parsed, blk)
 		}
@@ -252,6 +262,12 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 		if b.idCol >= 0 {
 			b.ids = make([]string, 0, rows)
 		}
+		if b.timeCol >= 0 {
+			b.times = make([]int64, 0, rows)
+		}
+		if b.compareCol >= 0 {
+			b.compare = make([]float64, 0, rows)
+		}
 	}
 	for i, blk := range parsed {
 		if len(blk.scores) == 0 {
@@ -267,6 +283,12 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 		}
 		if b.idCol >= 0 {
 			b.ids = append(b.ids, blk.ids...)
+		}
+		if b.timeCol >= 0 {
+			b.times = append(b.times, blk.times...)
+		}
+		if b.compareCol >= 0 {
+			b.compare = append(b.compare, blk.compare...)
 		}
 		parsed[i] = nil
 	}
@@ -399,6 +421,12 @@ func (p *blockParser) parse(blk *block) {
 	if b.idCol >= 0 {
 		blk.ids = make([]string, 0, rowsAtMost)
 	}
+	if b.timeCol >= 0 {
+		blk.times = make([]int64, 0, rowsAtMost)
+	}
+	if b.compareCol >= 0 {
+		blk.compare = make([]float64, 0, rowsAtMost)
+	}
 	if cap(spare.scores) >= rowsAtMost && (b.weightCol < 0 || cap(spare.weights) >= rowsAtMost) {
 		blk.scores, blk.labels, blk.weights = spare.scores, spare.labels, spare.weights
 	} else {
@@ -413,7 +441,7 @@ func (p *blockParser) parse(blk *block) {
 	delim := p.delim
 	// The commonest table, score then a 0/1 label, has a path of its own.
 	twoColumns := p.fields == 2 && b.scoreCol == 0 && b.labelCol == 1 && b.opt.Positive == ""
-	var cells [5][]byte // score, label, weight, segment, id
+	var cells [7][]byte // score, label, weight, segment, id, time, compare
 	for line := 0; len(data) > 0; line++ {
 		if twoColumns {
 			if rest, ok := p.plainRow(blk, data); ok {
@@ -423,7 +451,7 @@ func (p *blockParser) parse(blk *block) {
 		}
 		// One pass over the row finds its end and its cells.
 		field, start, end := 0, 0, 0
-		cells = [5][]byte{}
+		cells = [7][]byte{}
 		for ; end < len(data); end++ {
 			c := data[end]
 			if c == '\n' {
@@ -513,7 +541,7 @@ func (p *blockParser) plainRow(blk *block, data []byte) (rest []byte, ok bool) {
 }
 
 // keep puts the text of a field into cells when it is a column in use.
-func (p *blockParser) keep(cells *[5][]byte, field int, text []byte) {
+func (p *blockParser) keep(cells *[7][]byte, field int, text []byte) {
 	b := p.b
 	if field == b.scoreCol {
 		cells[0] = text
@@ -529,6 +557,12 @@ func (p *blockParser) keep(cells *[5][]byte, field int, text []byte) {
 	}
 	if field == b.idCol {
 		cells[4] = text
+	}
+	if field == b.timeCol {
+		cells[5] = text
+	}
+	if field == b.compareCol {
+		cells[6] = text
 	}
 }
 
@@ -551,7 +585,7 @@ func (p *blockParser) quotedRow(blk *block, line int, row []byte) *rowEvent {
 	if len(record) != p.fields {
 		return &rowEvent{line: line, err: fmt.Errorf("%w: row has %d, header has %d", ErrRagged, len(record), p.fields)}
 	}
-	var cells [5][]byte
+	var cells [7][]byte
 	cells[0] = []byte(record[p.b.scoreCol])
 	if p.b.labelCol >= 0 {
 		cells[1] = []byte(record[p.b.labelCol])
@@ -565,11 +599,17 @@ func (p *blockParser) quotedRow(blk *block, line int, row []byte) *rowEvent {
 	if p.b.idCol >= 0 {
 		cells[4] = []byte(record[p.b.idCol])
 	}
+	if p.b.timeCol >= 0 {
+		cells[5] = []byte(record[p.b.timeCol])
+	}
+	if p.b.compareCol >= 0 {
+		cells[6] = []byte(record[p.b.compareCol])
+	}
 	return p.addRow(blk, line, cells)
 }
 
 // addRow reads the cells of one row as builder.add does.
-func (p *blockParser) addRow(blk *block, line int, cells [5][]byte) *rowEvent {
+func (p *blockParser) addRow(blk *block, line int, cells [7][]byte) *rowEvent {
 	b := p.b
 	score, ok := plainFloat(cells[0])
 	if ok && score == 0 {
@@ -586,6 +626,33 @@ func (p *blockParser) addRow(blk *block, line int, cells [5][]byte) *rowEvent {
 				return nil
 			}
 			return &rowEvent{line: line, column: b.header[b.scoreCol], err: err}
+		}
+	}
+	var compare float64
+	if b.compareCol >= 0 {
+		var ok bool
+		if compare, ok = plainFloat(cells[6]); ok && compare == 0 {
+			compare = 0 // fold -0 into +0, as parseScore does
+		}
+		if !ok {
+			var err error
+			if compare, err = parseScore(string(cells[6])); err != nil {
+				if b.opt.DropInvalid {
+					blk.dropped++
+					if len(blk.reasons) < maxDroppedReasons {
+						blk.reasons = append(blk.reasons, rowEvent{line: line, column: b.header[b.compareCol], err: err})
+					}
+					return nil
+				}
+				return &rowEvent{line: line, column: b.header[b.compareCol], err: err}
+			}
+		}
+	}
+	var when int64
+	if b.timeCol >= 0 {
+		var err error
+		if when, err = parseTime(string(cells[5]), b.opt.TimeLayout, b.opt.TimeLocation); err != nil {
+			return &rowEvent{line: line, column: b.header[b.timeCol], err: err}
 		}
 	}
 	positive := false
@@ -627,6 +694,12 @@ func (p *blockParser) addRow(blk *block, line int, cells [5][]byte) *rowEvent {
 	}
 	if b.idCol >= 0 {
 		blk.ids = append(blk.ids, string(cells[4]))
+	}
+	if b.timeCol >= 0 {
+		blk.times = append(blk.times, when)
+	}
+	if b.compareCol >= 0 {
+		blk.compare = append(blk.compare, compare)
 	}
 	blk.scores = append(blk.scores, score)
 	blk.labels = append(blk.labels, positive)

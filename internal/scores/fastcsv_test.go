@@ -110,6 +110,9 @@ func randomTable(rng *rand.Rand, rows int, weighted, bad bool) []byte {
 	if rng.IntN(3) == 0 {
 		header = append(header, "yard")
 	}
+	if rng.IntN(4) == 0 {
+		header = append(header, "at", "other")
+	}
 	if rng.IntN(3) == 0 {
 		header = []string{"score", "label"}
 		if weighted {
@@ -171,6 +174,18 @@ func randomTable(rng *rand.Rand, rows int, weighted, bad bool) []byte {
 				cells = append(cells, label)
 			case "weight":
 				cells = append(cells, strconv.Itoa(rng.IntN(4)))
+			case "at":
+				at := []string{"2026-09-01T06:30:00Z", "2026-09-01T07:30:00+01:00", " 2026-09-02T22:15:30Z ", "2026-09-03T00:00:00Z"}[rng.IntN(4)]
+				if bad && rng.IntN(rows) == 0 {
+					at = "yesterday"
+				}
+				cells = append(cells, at)
+			case "other":
+				other := strconv.FormatFloat(rng.Float64(), 'f', 4, 64)
+				if bad && rng.IntN(rows) == 0 {
+					other = "n/a"
+				}
+				cells = append(cells, other)
 			case "yard":
 				cells = append(cells, []string{"north", "east", " south ", "", `"west, far"`, "north"}[rng.IntN(6)])
 			}
@@ -243,6 +258,9 @@ func TestLoadMatchesRead(t *testing.T) {
 		}
 		if strings.Contains(string(data[:min(len(data), 60)]), "id_unused") && rng.IntN(2) == 0 {
 			opt.IDColumn = "id_unused"
+		}
+		if strings.Contains(string(data[:min(len(data), 80)]), "other") {
+			opt.TimeColumn, opt.CompareColumn = "at", "other"
 		}
 		name := fmt.Sprintf("trial %d (block %d, rows %d)", trial, blockSize, rows)
 		sameResult(t, name, data, opt)
