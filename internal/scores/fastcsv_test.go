@@ -327,3 +327,21 @@ func TestLoadCases(t *testing.T) {
 		}
 	}
 }
+
+// TestLoadKnowsEveryOption fails when Options gains a field, so that
+// whoever adds one decides how the block reader treats it (reads it, or
+// leaves such input to Read) before Load can silently ignore it.
+func TestLoadKnowsEveryOption(t *testing.T) {
+	known := map[string]bool{
+		"Input": true, "Delimiter": true, "ScoreColumn": true, "LabelColumn": true, "WeightColumn": true,
+		"SegmentColumn": true, "IDColumn": true, "TimeColumn": true, "TimeLayout": true, "TimeLocation": true,
+		"CompareColumn": true, "NoLabels": true, "Positive": true, "LowerIsRiskier": true, "DropInvalid": true,
+		"Progress": true,
+	}
+	typ := reflect.TypeOf(Options{})
+	for i := range typ.NumField() {
+		if name := typ.Field(i).Name; !known[name] {
+			t.Errorf("Options.%s is new: make the block reader (fastcsv.go) read it or decline input that uses it, then add it here", name)
+		}
+	}
+}
