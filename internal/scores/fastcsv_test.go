@@ -336,7 +336,8 @@ func TestLoadKnowsEveryOption(t *testing.T) {
 		"Input": true, "Delimiter": true, "ScoreColumn": true, "LabelColumn": true, "WeightColumn": true,
 		"SegmentColumn": true, "IDColumn": true, "TimeColumn": true, "TimeLayout": true, "TimeLocation": true,
 		"CompareColumn": true, "NoLabels": true, "Positive": true, "LowerIsRiskier": true, "DropInvalid": true,
-		"Progress": true,
+		"Progress":     true,
+		"IgnoreLabels": true, // resolve leaves no label column, which the block reader follows
 	}
 	typ := reflect.TypeOf(Options{})
 	for i := range typ.NumField() {
