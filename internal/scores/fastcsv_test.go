@@ -306,6 +306,7 @@ func TestLoadCases(t *testing.T) {
 		{"dropped rows", "score,label\n,1\nnan,0\n0.4,1\n", Options{DropInvalid: true}, ""},
 		{"segment column", "score,label,g\n0.5,1,a\n0.4,0,b\n", Options{SegmentColumn: "g"}, ""},
 		{"score and label the same column", "v\n1\n0\n", Options{ScoreColumn: "v", LabelColumn: "v"}, ""},
+		{"labels ignored", "score,label\n0.5,\n0.2,1\n0.7,maybe\n", Options{IgnoreLabels: true}, ""},
 	}
 	for _, size := range []int{8, 1 << 20} {
 		blockSize = size
