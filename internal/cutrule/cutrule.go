@@ -178,6 +178,7 @@ func Find(rules []Rule, c *curve.Curve, a projection.Assumptions) ([]Outcome, er
 type Finder struct {
 	rules []Rule
 	set   *scores.Set
+	cases int // set.Cases(), which sums the counts of a counts table
 	a     projection.Assumptions
 	found []bool
 	best  []Outcome
@@ -208,7 +209,7 @@ func WithShifts(a shift.Assignment, scale shift.Scale) Option {
 // NewFinder checks that the assumptions suit the rules and returns a
 // Finder for points of set.
 func NewFinder(rules []Rule, set *scores.Set, a projection.Assumptions, opts ...Option) (*Finder, error) {
-	f := &Finder{rules: rules, set: set, a: a, found: make([]bool, len(rules)), best: make([]Outcome, len(rules))}
+	f := &Finder{rules: rules, set: set, cases: set.Cases(), a: a, found: make([]bool, len(rules)), best: make([]Outcome, len(rules))}
 	for _, o := range opts {
 		o(f)
 	}
@@ -270,7 +271,7 @@ func (f *Finder) Visit(p curve.Point) {
 		case Top:
 			limit := r.Value
 			if r.Percent {
-				limit = r.Value / 100 * float64(f.set.Cases())
+				limit = r.Value / 100 * float64(f.cases)
 			}
 			keep = float64(p.FlaggedCases()) <= limit*(1+slack)
 		case Hit:
