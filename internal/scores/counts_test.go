@@ -10,6 +10,8 @@ import (
 	"testing"
 
 	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
 )
 
@@ -122,6 +124,27 @@ func TestCountsEqualRawRows(t *testing.T) {
 			math.Float64bits(wantSum.AveragePrecision) != math.Float64bits(gotSum.AveragePrecision) && !math.IsNaN(wantSum.AveragePrecision) ||
 			!closeEnough(wantSum.Brier, gotSum.Brier) || !closeEnough(wantSum.LogLoss, gotSum.LogLoss) {
 			t.Fatalf("trial %d: summaries differ\nrows   %+v\ncounts %+v", trial, wantSum, gotSum)
+		}
+		// The cut rules pick the same cuts, top= counting cases.
+		rules := []cutrule.Rule{{Kind: cutrule.Top, Value: 10, Percent: true}, {Kind: cutrule.Top, Value: float64(1 + n/3)}, {Kind: cutrule.Hit, Value: 0.5}}
+		a := projection.Assumptions{BaseRate: wantSum.BaseRate, Confidence: 0.95}
+		if math.IsNaN(a.BaseRate) {
+			a.BaseRate = 0
+		}
+		pick := func(set *scores.Set) string {
+			f, err := cutrule.NewFinder(rules, set, a)
+			if err != nil {
+				t.Fatal(err)
+			}
+			curve.Walk(set, f.Visit)
+			var picked []string
+			for _, o := range f.Outcomes() {
+				picked = append(picked, fmt.Sprint(o.Met, o.Point.Score, o.Point.FlaggedCases(), o.Point.TP))
+			}
+			return strings.Join(picked, "; ")
+		}
+		if w, g := pick(rows), pick(counted); w != g {
+			t.Fatalf("trial %d: raw rows pick %s, counts pick %s", trial, w, g)
 		}
 		if withSegment {
 			// The same groups with the same weighted totals.
