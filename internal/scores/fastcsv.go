@@ -608,44 +608,43 @@ func (p *blockParser) quotedRow(blk *block, line int, row []byte) *rowEvent {
 	return p.addRow(blk, line, cells)
 }
 
+// scoreCell parses a score cell as parseScore does, trying the fast
+// parser first.
+func scoreCell(cell []byte) (float64, error) {
+	if v, ok := plainFloat(cell); ok {
+		if v == 0 {
+			v = 0 // fold -0 into +0, as parseScore does
+		}
+		return v, nil
+	}
+	return parseScore(string(cell))
+}
+
+// invalidScore handles a bad score cell in column col: the row is dropped
+// and counted under DropInvalid (nil is returned), else it is an error.
+func (p *blockParser) invalidScore(blk *block, line, col int, err error) *rowEvent {
+	event := rowEvent{line: line, column: p.b.header[col], err: err}
+	if !p.b.opt.DropInvalid {
+		return &event
+	}
+	blk.dropped++
+	if len(blk.reasons) < maxDroppedReasons {
+		blk.reasons = append(blk.reasons, event)
+	}
+	return nil
+}
+
 // addRow reads the cells of one row as builder.add does.
 func (p *blockParser) addRow(blk *block, line int, cells [7][]byte) *rowEvent {
 	b := p.b
-	score, ok := plainFloat(cells[0])
-	if ok && score == 0 {
-		score = 0 // fold -0 into +0, as parseScore does
-	}
-	if !ok {
-		var err error
-		if score, err = parseScore(string(cells[0])); err != nil {
-			if b.opt.DropInvalid {
-				blk.dropped++
-				if len(blk.reasons) < maxDroppedReasons {
-					blk.reasons = append(blk.reasons, rowEvent{line: line, column: b.header[b.scoreCol], err: err})
-				}
-				return nil
-			}
-			return &rowEvent{line: line, column: b.header[b.scoreCol], err: err}
-		}
+	score, err := scoreCell(cells[0])
+	if err != nil {
+		return p.invalidScore(blk, line, b.scoreCol, err)
 	}
 	var compare float64
 	if b.compareCol >= 0 {
-		var ok bool
-		if compare, ok = plainFloat(cells[6]); ok && compare == 0 {
-			compare = 0 // fold -0 into +0, as parseScore does
-		}
-		if !ok {
-			var err error
-			if compare, err = parseScore(string(cells[6])); err != nil {
-				if b.opt.DropInvalid {
-					blk.dropped++
-					if len(blk.reasons) < maxDroppedReasons {
-						blk.reasons = append(blk.reasons, rowEvent{line: line, column: b.header[b.compareCol], err: err})
-					}
-					return nil
-				}
-				return &rowEvent{line: line, column: b.header[b.compareCol], err: err}
-			}
+		if compare, err = scoreCell(cells[6]); err != nil {
+			return p.invalidScore(blk, line, b.compareCol, err)
 		}
 	}
 	var when int64
