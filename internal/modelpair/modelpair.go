@@ -203,43 +203,7 @@ func Second(set *scores.Set) (*scores.Set, error) {
 	if set.CompareScores == nil {
 		return nil, ErrNoSecondModel
 	}
-	order := make([]int, set.Len())
-	for i := range order {
-		order[i] = i
-	}
-	riskier := func(x, y float64) bool {
-		if set.LowerIsRiskier {
-			return x < y
-		}
-		return x > y
-	}
-	sort.SliceStable(order, func(x, y int) bool { return riskier(set.CompareScores[order[x]], set.CompareScores[order[y]]) })
-	out := *set
-	out.Scores = pick(set.CompareScores, order)
-	out.CompareScores = pick(set.Scores, order)
-	out.Labels = pick(set.Labels, order)
-	out.ScoreColumn, out.CompareColumn = set.CompareColumn, set.ScoreColumn
-	if set.Weights != nil {
-		out.Weights = pick(set.Weights, order)
-	}
-	if set.IDs != nil {
-		out.IDs = pick(set.IDs, order)
-	}
-	if set.SegmentOf != nil {
-		out.SegmentOf = pick(set.SegmentOf, order)
-	}
-	if set.Times != nil {
-		out.Times = pick(set.Times, order)
-	}
-	return &out, nil
-}
-
-func pick[T any](column []T, order []int) []T {
-	out := make([]T, len(order))
-	for i, from := range order {
-		out[i] = column[from]
-	}
-	return out
+	return set.SwapScores(), nil
 }
 
 // Errors of Join.

@@ -172,6 +172,25 @@ func (s *Set) rank() {
 	}
 }
 
+// SwapScores returns a copy of s ranked by its second score column:
+// CompareScores becomes Scores and Scores becomes CompareScores (their
+// column names likewise), every other column is carried along, and rows
+// tied on the second score keep s's order. s itself is left as it was. It
+// returns nil when s has no second score column.
+func (s *Set) SwapScores() *Set {
+	if s.CompareScores == nil {
+		return nil
+	}
+	out := *s
+	out.Scores, out.CompareScores = s.CompareScores, s.Scores
+	out.ScoreColumn, out.CompareColumn = s.CompareColumn, s.ScoreColumn
+	// With a second score column rank permutes into new slices (see
+	// onlySortedColumns), so the columns shared with s are never sorted
+	// in place.
+	out.rank()
+	return &out
+}
+
 // onlySortedColumns reports whether the set has no column besides scores,
 // labels, weights and segments, the ones rankInPlace carries. A new column
 // must be added here as well as to the permutation in rank.
