@@ -52,7 +52,7 @@ type KeyMap struct {
 	Yes, No              key.Binding
 }
 
-// DefaultKeyMap returns the explorer's keys. tui/KEYS.md lists them.
+// DefaultKeyMap returns the explorer's keys. README.md lists them (section "The explorer").
 func DefaultKeyMap() KeyMap {
 	return KeyMap{
 		Up:       key.NewBinding(key.WithKeys("up", "k"), key.WithHelp("↑/k", "stricter cut, one score up")),
