@@ -54,12 +54,12 @@ func (r *Running) At(p curve.Point, confidence float64) Breakdown {
 		panic(fmt.Sprintf("segment: point flags %d rows of a set of %d", p.Rows, r.set.Len()))
 	}
 	r.move(p.Rows)
-	b := Breakdown{Overall: r.flagged(r.total, r.allTP, r.allFP).figures("", confidence)}
+	b := Breakdown{Overall: r.flagged(r.total, r.allTP, r.allFP).figures("", confidence, r.set.Counts)}
 	for code, g := range r.groups {
 		if g.rows == 0 {
 			continue
 		}
-		f := r.flagged(g, r.tp[code], r.fp[code]).figures(r.set.SegmentNames[code], confidence)
+		f := r.flagged(g, r.tp[code], r.fp[code]).figures(r.set.SegmentNames[code], confidence, r.set.Counts)
 		f.Outlier = apart(f.RecallCI, b.Overall.RecallCI) || apart(f.PrecisionCI, b.Overall.PrecisionCI)
 		b.Segments = append(b.Segments, f)
 	}

@@ -26,7 +26,7 @@ import (
 // are both ends of their intervals.
 type Figures struct {
 	Segment   string
-	Rows      int     // rows in the group, whatever their weight
+	Rows      int     // rows in the group, whatever their weight; cases for a counts table
 	Positives float64 // weighted true cases in the group
 	Negatives float64 // weighted false cases in the group
 
@@ -115,12 +115,12 @@ func At(set *scores.Set, p curve.Point, confidence float64) Breakdown {
 			groups[set.SegmentOf[i]].add(set.Labels[i], flagged, w)
 		}
 	}
-	b.Overall = total.figures("", confidence)
+	b.Overall = total.figures("", confidence, set.Counts)
 	for code, g := range groups {
 		if g.rows == 0 {
 			continue
 		}
-		f := g.figures(set.SegmentNames[code], confidence)
+		f := g.figures(set.SegmentNames[code], confidence, set.Counts)
 		f.Outlier = apart(f.RecallCI, b.Overall.RecallCI) || apart(f.PrecisionCI, b.Overall.PrecisionCI)
 		b.Segments = append(b.Segments, f)
 	}
@@ -178,10 +178,14 @@ func (t *tally) add(positive, flagged bool, w float64) {
 	}
 }
 
-func (t tally) figures(name string, confidence float64) Figures {
+func (t tally) figures(name string, confidence float64, counts bool) Figures {
+	rows := t.rows
+	if counts { // a counts table's rows stand for their cases
+		rows = int(t.positives + t.negatives)
+	}
 	f := Figures{
 		Segment:      name,
-		Rows:         t.rows,
+		Rows:         rows,
 		Positives:    t.positives,
 		Negatives:    t.negatives,
 		TP:           t.truePositive,
