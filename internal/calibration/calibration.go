@@ -60,7 +60,7 @@ type Bin struct {
 	Lower, Upper float64
 	MeanScore    float64 // weighted mean score
 	ObservedRate float64 // weighted share of true cases
-	Count        int     // rows, whatever their weight
+	Count        int     // rows, whatever their weight; cases for a counts table
 	Weight       float64 // summed weight
 }
 
@@ -78,8 +78,9 @@ type Table struct {
 //
 // Fixed-width edges are k/bins computed as numpy's linspace does (k times
 // 1/bins), the last edge 1. Quantile edges are the quantiles of the rows'
-// scores (rows, not weight) at k/bins, interpolated linearly between order
-// statistics as numpy's percentile does by default. A score on an inner
+// scores (rows, not weight, and so the table rows of a counts table) at
+// k/bins, interpolated linearly between order statistics as numpy's
+// percentile does by default. A score on an inner
 // edge falls in the lower bin. These choices match scikit-learn's
 // calibration_curve, whose output is Bins with a Count above zero. With
 // tied quantile edges some bins are empty; they are kept, with Count 0.
@@ -130,7 +131,11 @@ func Reliability(set *scores.Set, bins int, binning Binning) (Table, error) {
 	for i, s := range set.Scores {
 		b := sort.SearchFloat64s(inner, s) // the number of inner edges < s
 		w := set.Weight(i)
-		t.Bins[b].Count++
+		if set.Counts {
+			t.Bins[b].Count += int(w) // a counts table's row stands for its cases
+		} else {
+			t.Bins[b].Count++
+		}
 		t.Bins[b].Weight += w
 		sums[b] += w * s
 		if set.Labels[i] {
