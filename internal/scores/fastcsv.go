@@ -439,8 +439,11 @@ func (p *blockParser) parse(blk *block) {
 	blk.newlines = rowsAtMost - 1
 	quotes := bytes.IndexByte(data, '"') >= 0
 	delim := p.delim
-	// The commonest table, score then a 0/1 label, has a path of its own.
-	twoColumns := p.fields == 2 && b.scoreCol == 0 && b.labelCol == 1 && b.opt.Positive == ""
+	// The commonest table, score then a 0/1 label, has a path of its own;
+	// it reads no other column, so it is off when one of the two is also
+	// named as a weight, segment, id, time or second score column.
+	twoColumns := p.fields == 2 && b.scoreCol == 0 && b.labelCol == 1 && b.opt.Positive == "" &&
+		b.weightCol < 0 && b.segmentCol < 0 && b.idCol < 0 && b.timeCol < 0 && b.compareCol < 0
 	var cells [7][]byte // score, label, weight, segment, id, time, compare
 	for line := 0; len(data) > 0; line++ {
 		if twoColumns {

@@ -307,6 +307,12 @@ func TestLoadCases(t *testing.T) {
 		{"segment column", "score,label,g\n0.5,1,a\n0.4,0,b\n", Options{SegmentColumn: "g"}, ""},
 		{"score and label the same column", "v\n1\n0\n", Options{ScoreColumn: "v", LabelColumn: "v"}, ""},
 		{"labels ignored", "score,label\n0.5,\n0.2,1\n0.7,maybe\n", Options{IgnoreLabels: true}, ""},
+		// A column of the two-column table named again as another column:
+		// the fast path for score,label rows must not skip it (it once
+		// left the weights short and Load panicked).
+		{"weight column is the label column", "score,label\n0.5,1\n0.25,0\n0.75,1\n", Options{WeightColumn: "label"}, ""},
+		{"segment column is the label column", "score,label\n0.5,1\n0.25,0\n", Options{SegmentColumn: "label"}, ""},
+		{"id and time-free second score on the score column", "score,label\n0.5,1\n0.25,0\n", Options{IDColumn: "score", CompareColumn: "score"}, ""},
 	}
 	for _, size := range []int{8, 1 << 20} {
 		blockSize = size
