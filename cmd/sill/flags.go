@@ -40,7 +40,7 @@ func (f *inputFlags) register(fs *pflag.FlagSet) {
 	fs.BoolVar(&f.opt.DropInvalid, "drop-invalid", false, "skip rows with a missing or non-finite score, and count them")
 	fs.StringVar(&f.input, "input", "", "input format: csv, jsonl or parquet (default: detected)")
 	fs.StringVar(&f.delim, "delim", "", `field delimiter for csv, e.g. "," or "\t" (default: detected from the header)`)
-	fs.BoolVar(&f.counts, "counts", false, "the input is a counts table: score, positives, negatives (and --segment), one row per score, as `sill sql` makes it")
+	fs.BoolVar(&f.counts, "counts", false, "the input is a counts table: score, positives, negatives (and --segment), one row per score, as sill sql makes it")
 }
 
 // load reads the table at path ("-" for standard input); progress may be nil.

@@ -108,7 +108,7 @@ func (o *reportOptions) run(set *scores.Set, stdout, stderr io.Writer) error {
 	}
 	finder, err := cutrule.NewFinder(rules, set, a, shiftOptions...)
 	if err != nil {
-		return fmt.Errorf("--cut %w", err)
+		return err // "cut queue=90 needs a volume per shift (--volume)"
 	}
 	points := func(visit func(curve.Point)) { curve.Walk(set, visit) }
 	if o.format == "csv" {

@@ -62,7 +62,7 @@ func (r *Report) AddSegments(set *scores.Set, outcomes []cutrule.Outcome, order 
 		b := segment.At(set, o.Point, conf)
 		b.Sort(order)
 		list := make([]segmentFigures, 0, len(b.Segments))
-		t := table{header: []string{"segment", "rows", "true cases", "flagged", "hit share", "interval", "precision", "interval", "note"}}
+		t := table{header: []string{"segment", "rows", "true cases", "flagged", "hit share", "interval", "precision", "interval", "note"}, wordsLast: true}
 		hidden, hiddenOutside := 0, 0
 		for k, f := range b.Segments {
 			list = append(list, segmentFigures{
@@ -190,7 +190,7 @@ func (r *Report) AddCalibration(set *scores.Set, outcomes []cutrule.Outcome, bin
 			line += " (probability " + Fixed(p, 3) + " at the production base rate)"
 		}
 		notes = append(notes, line, "empirical least-cost cut "+Score(float64(cf.LeastCostCut))+
-			"; with --bootstrap a warning says when the two differ by more than where the least-cost cut lands in resampled sets")
+			" on the validation set; with --bootstrap, a warning says when the cost threshold lies outside the range where the least-cost cut lands in resampled sets")
 		r.beyond.costThreshold = float64(cf.CostThreshold)
 	}
 	for i, o := range outcomes {
@@ -348,6 +348,7 @@ func (r *Report) AddStability(res bootstrap.Result) {
 			FalseDiscoveryRateP05: number(p.FalseDiscoveryRate[0]), FalseDiscoveryRateP95: number(p.FalseDiscoveryRate[1])})
 	}
 	t := tableOf("cut", "score", "cut lands 5–95%", "flagged share 5–95%", "hit share 5–95%", "in plain words")
+	t.wordsLast = true
 	for i, s := range res.Spreads {
 		if i >= len(r.Cuts) {
 			break

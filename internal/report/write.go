@@ -80,6 +80,9 @@ func formatJSONFloat(v float64) []byte {
 type table struct {
 	header []string
 	rows   [][]string
+	// wordsLast left-aligns the last column, which holds words rather
+	// than figures (a note, a sentence in plain words).
+	wordsLast bool
 }
 
 // figuresTable lays out the met and unmet cuts of r side by side.
@@ -110,7 +113,7 @@ func figuresTable(r *Report) table {
 	add("cases flagged", func(c cut, e evidence.Cut) string { return Count(e.Flagged) + " (" + Percent(e.FlaggedShare) + ")" })
 	add("hit share (recall)", func(c cut, e evidence.Cut) string { return Percent(e.Recall) })
 	add("  "+conf+" interval", func(c cut, e evidence.Cut) string { return Range(e.RecallCI) })
-	add("  true cases caught", func(c cut, e evidence.Cut) string { return Count(e.TP) + " of " + Count(e.TP+e.FN) })
+	add("  true cases found", func(c cut, e evidence.Cut) string { return Count(e.TP) + " of " + Count(e.TP+e.FN) })
 	add("wrong-alert share (FDR)", func(c cut, e evidence.Cut) string { return Percent(e.FalseDiscoveryRate) })
 	add("  "+conf+" interval", func(c cut, e evidence.Cut) string { return Range(e.FalseDiscoveryCI) })
 	add("false positive rate", func(c cut, e evidence.Cut) string { return Percent(e.FalsePositiveRate) })
@@ -234,13 +237,18 @@ func (r *Report) assumptionLine() string {
 
 // writeGrid writes t with columns padded to their widest cell.
 func writeGrid(b *strings.Builder, t table) {
-	b.WriteString(Grid(t.header, t.rows))
+	b.WriteString(grid(t.header, t.rows, t.wordsLast))
 }
 
 // Grid lays out a heading and rows as text columns padded to their widest
 // cell: the first column left-aligned, the others right-aligned, two
 // spaces apart, with no trailing spaces.
 func Grid(header []string, rows [][]string) string {
+	return grid(header, rows, false)
+}
+
+// grid is Grid, with the last column left-aligned when wordsLast is set.
+func grid(header []string, rows [][]string, wordsLast bool) string {
 	widths := make([]int, len(header))
 	for _, row := range append([][]string{header}, rows...) {
 		for i, cell := range row {
@@ -254,6 +262,8 @@ func Grid(header []string, rows [][]string) string {
 			pad := strings.Repeat(" ", widths[i]-len([]rune(cell)))
 			if i == 0 {
 				l.WriteString(cell + pad)
+			} else if wordsLast && i == len(header)-1 {
+				l.WriteString("  " + cell + pad)
 			} else {
 				l.WriteString("  " + pad + cell)
 			}
