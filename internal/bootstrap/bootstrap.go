@@ -14,6 +14,13 @@
 // Replicate b draws from its own generator, seeded with (Seed, b), so the
 // result depends on Seed and Replicates only, never on the number of
 // workers or their timing.
+//
+// A counts table (scores.Set.Counts) is resampled by case, not by table
+// row: each replicate draws as many true cases and false cases as the
+// table counts, each case equally likely, in the same ranked order as the
+// raw rows the table aggregates. With the same seed it therefore gives the
+// very same result as the unweighted raw rows (the band cuts too are
+// spread over the cases).
 package bootstrap
 
 import (
@@ -122,6 +129,13 @@ func Run(ctx context.Context, set *scores.Set, rules []cutrule.Rule, a projectio
 	}
 	if len(positiveRows) == 0 || len(negativeRows) == 0 {
 		return Result{}, ErrNoClass
+	}
+	if set.Counts {
+		// A counts table is drawn by case (see the package doc): each class
+		// needs a whole case.
+		if positives, negatives := set.Totals(); !(positives >= 1) || !(negatives >= 1) {
+			return Result{}, ErrNoClass
+		}
 	}
 	if _, err := cutrule.NewFinder(rules, set, a, opt.FinderOptions...); err != nil {
 		return Result{}, err
@@ -260,8 +274,25 @@ func bandCuts(set *scores.Set, k int) []bandCut {
 	c := curve.New(set)
 	var out []bandCut
 	last := -1
+	// For a counts table the cuts are spread over its cases: casesBefore
+	// holds the cases of the rows before each row.
+	var casesBefore []float64
+	if set.Counts {
+		casesBefore = make([]float64, n+1)
+		for i := range n {
+			casesBefore[i+1] = casesBefore[i] + set.Weight(i)
+		}
+		n = int(casesBefore[n])
+		if n == 0 {
+			return nil
+		}
+	}
 	for j := 1; j <= k; j++ {
 		row := max(int(math.Ceil(float64(j)*float64(n)/float64(k)))-1, 0)
+		if casesBefore != nil {
+			// The table row holding case number row, counted from 0.
+			row = sort.Search(len(casesBefore)-1, func(i int) bool { return casesBefore[i+1] > float64(row) })
+		}
 		cut := c.CutOfRow(row)
 		if cut == last {
 			continue
@@ -279,6 +310,11 @@ type replicator struct {
 	positiveRows, negativeRows []int
 	counts                     []int32
 	rep                        scores.Set
+
+	// For a counts table: the cases of each class, and the cases of that
+	// class in the class's rows before each of them (positiveRows order).
+	positiveCases, negativeCases   int
+	positiveBefore, negativeBefore []float64
 }
 
 func newReplicator(set *scores.Set, positiveRows, negativeRows []int) *replicator {
@@ -292,7 +328,29 @@ func newReplicator(set *scores.Set, positiveRows, negativeRows []int) *replicato
 	if set.Weights != nil {
 		r.rep.Weights = make([]float64, 0, n)
 	}
+	if set.Counts {
+		r.rep.Counts = true
+		r.positiveBefore, r.positiveCases = casesBefore(set, positiveRows)
+		r.negativeBefore, r.negativeCases = casesBefore(set, negativeRows)
+	}
 	return r
+}
+
+// casesBefore returns the cases of a counts table's rows before each of
+// rows, and their total.
+func casesBefore(set *scores.Set, rows []int) ([]float64, int) {
+	before := make([]float64, len(rows)+1)
+	for k, i := range rows {
+		before[k+1] = before[k] + set.Weight(i)
+	}
+	return before, int(before[len(rows)])
+}
+
+// drawCase returns the row of rows that holds case number c of a counts
+// table's class, counted from 0 in ranked order.
+func drawCase(rows []int, before []float64, c int) int {
+	k := sort.Search(len(rows), func(k int) bool { return before[k+1] > float64(c) })
+	return rows[k]
 }
 
 // draw builds replicate b: rows in the set's ranked order, each repeated
@@ -300,6 +358,9 @@ func newReplicator(set *scores.Set, positiveRows, negativeRows []int) *replicato
 func (r *replicator) draw(seed, b uint64) *scores.Set {
 	rng := rand.New(rand.NewPCG(seed, b))
 	clear(r.counts)
+	if r.set.Counts {
+		return r.drawCases(rng)
+	}
 	for range r.positiveRows {
 		r.counts[r.positiveRows[rng.IntN(len(r.positiveRows))]]++
 	}
@@ -323,23 +384,50 @@ func (r *replicator) draw(seed, b uint64) *scores.Set {
 	return rep
 }
 
+// drawCases builds a replicate of a counts table: as many cases of each
+// class as it counts, drawn uniformly, one row per drawn score and label
+// weighted by how often it was drawn.
+func (r *replicator) drawCases(rng *rand.Rand) *scores.Set {
+	for range r.positiveCases {
+		r.counts[drawCase(r.positiveRows, r.positiveBefore, rng.IntN(r.positiveCases))]++
+	}
+	for range r.negativeCases {
+		r.counts[drawCase(r.negativeRows, r.negativeBefore, rng.IntN(r.negativeCases))]++
+	}
+	rep := &r.rep
+	rep.Scores, rep.Labels, rep.Weights = rep.Scores[:0], rep.Labels[:0], rep.Weights[:0]
+	for i, m := range r.counts {
+		if m > 0 {
+			rep.Scores = append(rep.Scores, r.set.Scores[i])
+			rep.Labels = append(rep.Labels, r.set.Labels[i])
+			rep.Weights = append(rep.Weights, float64(m))
+		}
+	}
+	return rep
+}
+
 // band records the replicate's recall and false discovery rate at the
 // band cuts: the replicate's rows drawn from set rows before cut.rows.
 func (r *replicator) band(cuts []bandCut, b int, recallAt, fdrAt [][]float64) {
 	if len(cuts) == 0 {
 		return
 	}
+	// A drawn row of a counts table weighs one case per draw.
+	weight := r.set.Weight
+	if r.set.Counts {
+		weight = func(int) float64 { return 1 }
+	}
 	var positives float64
 	for i, m := range r.counts {
 		if r.set.Labels[i] {
-			positives += float64(m) * r.set.Weight(i)
+			positives += float64(m) * weight(i)
 		}
 	}
 	var tp, fp float64
 	row := 0
 	for j, cut := range cuts {
 		for ; row < cut.rows; row++ {
-			w := float64(r.counts[row]) * r.set.Weight(row)
+			w := float64(r.counts[row]) * weight(row)
 			if r.set.Labels[row] {
 				tp += w
 			} else {

@@ -3,8 +3,10 @@ package bootstrap_test
 import (
 	"context"
 	"errors"
+	"fmt"
 	"math"
 	"math/rand/v2"
+	"strings"
 	"testing"
 	"time"
 
@@ -258,5 +260,71 @@ func TestBandAt(t *testing.T) {
 	got := bootstrap.DescribeBand(bootstrap.BandPoint{Recall: [2]float64{0.762, 0.825}, FalseDiscoveryRate: [2]float64{math.NaN(), math.NaN()}})
 	if want := "in 9 resampled sets of 10 the hit share lies within 76.2–82.5% and the wrong-alert share is undefined"; got != want {
 		t.Errorf("%q", got)
+	}
+}
+
+// TestCountsTableAsRawRows: a counts table is resampled by case, so with
+// the same seed it gives exactly the result of the raw rows it counts
+// (ties, both classes at one score and a score of one class included).
+// The reference is the raw rows themselves, run through the same Run.
+func TestCountsTableAsRawRows(t *testing.T) {
+	rng := rand.New(rand.NewPCG(7, 8))
+	var raw strings.Builder
+	raw.WriteString("score,label\n")
+	type key struct {
+		score    string
+		positive bool
+	}
+	counted := map[key]int{}
+	for range 300 {
+		score := fmt.Sprintf("%.2f", float64(rng.IntN(40))/40) // 40 scores: heavy ties
+		positive := rng.Float64() < 0.3+0.5*float64(len(score)%2)
+		if positive {
+			raw.WriteString(score + ",1\n")
+		} else {
+			raw.WriteString(score + ",0\n")
+		}
+		counted[key{score, positive}]++
+	}
+	table := map[string][2]int{}
+	for k, n := range counted {
+		c := table[k.score]
+		if k.positive {
+			c[0] += n
+		} else {
+			c[1] += n
+		}
+		table[k.score] = c
+	}
+	var counts strings.Builder
+	counts.WriteString("score,positives,negatives\n")
+	for score, c := range table {
+		fmt.Fprintf(&counts, "%s,%d,%d\n", score, c[0], c[1])
+	}
+	for _, lower := range []bool{false, true} {
+		opt := scores.Options{LowerIsRiskier: lower}
+		rawSet, err := scores.Read(strings.NewReader(raw.String()), "raw.csv", opt)
+		if err != nil {
+			t.Fatal(err)
+		}
+		countsSet, err := scores.ReadCounts(strings.NewReader(counts.String()), "counts.csv", opt)
+		if err != nil {
+			t.Fatal(err)
+		}
+		rs := rules(t, "hit=0.8", "wrong=0.4", "top=10%", "top=30", "base", "score=0.5")
+		for _, workers := range []int{1, 2} {
+			o := bootstrap.Options{Replicates: 60, Seed: 9, Workers: workers, BandCuts: 15}
+			want, err := bootstrap.Run(context.Background(), rawSet, rs, assume, o)
+			if err != nil {
+				t.Fatal(err)
+			}
+			got, err := bootstrap.Run(context.Background(), countsSet, rs, assume, o)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if fmt.Sprint(want) != fmt.Sprint(got) { // printed, so that NaN equals NaN
+				t.Errorf("lower %v, workers %d: counts table\n%+v\nraw rows\n%+v", lower, workers, got, want)
+			}
+		}
 	}
 }
