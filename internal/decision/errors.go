@@ -20,7 +20,7 @@ var (
 	ErrUnknownKey    = errors.New("unknown key")
 	ErrType          = errors.New("wrong type")
 	ErrNotFinite     = errors.New("expected a finite number")
-	ErrUnknownChosen = errors.New("chosen names no candidate")
+	ErrUnknownChosen = errors.New("names no candidate")
 	ErrInvalid       = errors.New("invalid value")
 )
 

@@ -418,6 +418,7 @@ func (r *reader) file_(doc *yaml.Node) *File {
 	}
 	f.Note = r.optionalStr(top["note"], "note")
 	f.Caution = r.str(top["caution"], "caution")
+	r.consistent(f)
 	if node, ok := top["chosen_score"]; ok && r.err == nil {
 		// A copy for deployment configs; it must agree with the candidate,
 		// so that a hand edit of one without the other is caught.
@@ -429,6 +430,52 @@ func (r *reader) file_(doc *yaml.Node) *File {
 		}
 	}
 	return f
+}
+
+// consistent fails on a repeated candidate name, and on validation
+// counts that do not add up: tp + fn must be the data's positives, fp + tn
+// its negatives (when the file has them) and tp + fp the cases flagged, to
+// within countTolerance of the larger side (weighted counts are sums of
+// floats). A hand edit of one figure without the others is caught here,
+// with the line of the figure.
+func (r *reader) consistent(f *File) {
+	seen := map[string]int{}
+	for i, c := range f.Candidates {
+		if r.err != nil {
+			return
+		}
+		path := fmt.Sprintf("candidates[%d]", i)
+		if j, ok := seen[c.Name]; ok {
+			r.failAt(path+".name", fmt.Errorf("%w: %q is also the name of candidates[%d], expected unique names", ErrInvalid, c.Name, j))
+			return
+		}
+		seen[c.Name] = i
+		e, vp := c.Cut, path+".validation"
+		switch {
+		case !sameCount(e.TP+e.FN, f.Data.Positives):
+			r.failAt(vp+".tp", fmt.Errorf("%w: tp %v + fn %v = %v, expected data.positives %v; were the counts edited by hand?", ErrInvalid, e.TP, e.FN, e.TP+e.FN, f.Data.Positives))
+		case !math.IsNaN(f.Data.Negatives) && !sameCount(e.FP+e.TN, f.Data.Negatives):
+			r.failAt(vp+".fp", fmt.Errorf("%w: fp %v + tn %v = %v, expected data.negatives %v; were the counts edited by hand?", ErrInvalid, e.FP, e.TN, e.FP+e.TN, f.Data.Negatives))
+		case !sameCount(e.TP+e.FP, e.Flagged):
+			r.failAt(vp+".flagged", fmt.Errorf("%w: %v, expected tp + fp = %v; were the counts edited by hand?", ErrInvalid, e.Flagged, e.TP+e.FP))
+		}
+	}
+}
+
+// countTolerance is the relative slack of sameCount.
+const countTolerance = 1e-9
+
+// sameCount reports whether two (possibly weighted) counts agree to
+// within countTolerance of the larger.
+func sameCount(a, b float64) bool {
+	return math.Abs(a-b) <= countTolerance*math.Max(1, math.Max(math.Abs(a), math.Abs(b)))
+}
+
+// failAt fails at the line recorded for path (or its nearest parent).
+func (r *reader) failAt(path string, err error) {
+	if r.err == nil {
+		r.err = &ParseError{File: r.file, Line: r.lineOf(path), Path: path, Err: err}
+	}
 }
 
 func (r *reader) data(n *yaml.Node) Data {

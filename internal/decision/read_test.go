@@ -57,6 +57,14 @@ func TestReadRejectsBrokenKeys(t *testing.T) {
 		{"no candidates", replaceNth(t, text, `(?s)candidates:\n.*?\nnote:`, 0, "candidates: []\nnote:"), ErrInvalid, "candidates"},
 		{"candidates not a list", replaceNth(t, text, `(?s)candidates:\n.*?\nnote:`, 0, "candidates: base\nnote:"), ErrType, "candidates"},
 		{"repeated name", replaceNth(t, text, `name: "base"`, 0, `name: "hit=0.8"`), ErrInvalid, "candidates[1].name"},
+		{"repeated chosen name", replaceNth(t, text, `name: "hit=0.8"`, 0, `name: "base"`), ErrInvalid, "candidates[1].name"},
+		// A hand edit of one count leaves the four counts disagreeing with
+		// the data's totals (tp + fn = positives, fp + tn = negatives) or
+		// with the cases flagged (tp + fp); 99999 is more than the file's
+		// 2000 rows, so no valid file has it.
+		{"tp edited", replaceNth(t, text, `\n      tp: \d+`, 1, "\n      tp: 99999"), ErrInvalid, "candidates[1].validation.tp"},
+		{"fp edited", replaceNth(t, text, `\n      fp: \d+`, 0, "\n      fp: 99999"), ErrInvalid, "candidates[0].validation.fp"},
+		{"flagged edited", replaceNth(t, text, `\n      flagged: \d+`, 0, "\n      flagged: 99999"), ErrInvalid, "candidates[0].validation.flagged"},
 		{"name a number", replaceNth(t, text, `name: "base"`, 0, `name: 12`), ErrType, "candidates[1].name"},
 		{"negative count", replaceNth(t, text, `tp: \d+`, 0, `tp: -1`), ErrInvalid, "candidates[0].validation.tp"},
 		{"recall above 1", replaceNth(t, text, `recall: [0-9.]+`, 0, `recall: 1.5`), ErrInvalid, "candidates[0].validation.recall"},
@@ -117,7 +125,7 @@ func TestReadErrorLine(t *testing.T) {
 	if !errors.As(err, &pe) || pe.Line != want {
 		t.Fatalf("error %v, want line %d", err, want)
 	}
-	if got, wantPrefix := err.Error(), "cut.yaml:"; !strings.HasPrefix(got, wantPrefix) || !strings.Contains(got, `chosen: chosen names no candidate: "nobody", expected one of ["hit=0.8", "base"]`) {
+	if got, wantPrefix := err.Error(), "cut.yaml:"; !strings.HasPrefix(got, wantPrefix) || !strings.Contains(got, `chosen: names no candidate: "nobody", expected one of ["hit=0.8", "base"]`) {
 		t.Errorf("message %q", got)
 	}
 }

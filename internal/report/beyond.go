@@ -447,7 +447,7 @@ func (r *Report) AddComparison(scoreA, scoreB string, test modelpair.Test, testE
 	}
 	notes := []string{}
 	if testErr == nil {
-		notes = append(notes, fmt.Sprintf("ROC AUC %s %s, %s %s: difference %s, standard error %s (DeLong et al. 1988, paired), z %s, p %s",
+		notes = append(notes, fmt.Sprintf("ROC AUC of %s %s, of %s %s: difference %s, standard error %s (DeLong et al. 1988, paired), z %s, p %s",
 			scoreA, Fixed(test.AUC[0], 3), scoreB, Fixed(test.AUC[1], 3), Fixed(test.Difference, 3), Fixed(test.StdError, 4), Fixed(test.Z, 2), significant(test.P)))
 		switch {
 		case !evidence.Defined(test.P):
