@@ -463,3 +463,39 @@ func compareSummaries(t *testing.T, name string, got, want curve.Summary) {
 		t.Errorf("%s: rows %d, want %d", name, got.Rows, want.Rows)
 	}
 }
+
+// TestLoosestCutExact: at the loosest cut every case is flagged, so FN and
+// TN are exactly 0 and recall and the false positive rate exactly 1, even
+// with weights such as 0.1 whose sums round (worked by hand: the loosest
+// cut flags all weight, and nothing is left). Once the totals were summed
+// row by row and the sweep tie group by tie group, which left residues
+// such as TN = -1.8e-15 and a false positive rate of 1.0000000000000002.
+// Seeded: heavy ties, tenths as weights, zero weights included.
+func TestLoosestCutExact(t *testing.T) {
+	rng := rand.New(rand.NewPCG(11, 12))
+	for trial := range 200 {
+		n := 1 + rng.IntN(60)
+		values := make([]float64, n)
+		labels := make([]bool, n)
+		weights := make([]float64, n)
+		for i := range n {
+			values[i] = float64(rng.IntN(5))
+			labels[i] = rng.IntN(2) == 0
+			weights[i] = float64(rng.IntN(10)) / 10
+		}
+		for _, lower := range []bool{false, true} {
+			set := mustSet(t, slices.Clone(values), slices.Clone(labels), slices.Clone(weights), lower)
+			points, sum := pointsOf(set)
+			last := points[len(points)-1]
+			if last.FN != 0 || last.TN != 0 {
+				t.Fatalf("trial %d (lower %v): loosest cut FN %v TN %v, want 0 and 0", trial, lower, last.FN, last.TN)
+			}
+			if sum.Positives > 0 && last.Recall() != 1 {
+				t.Fatalf("trial %d: loosest recall %v", trial, last.Recall())
+			}
+			if sum.Negatives > 0 && last.FalsePositiveRate() != 1 {
+				t.Fatalf("trial %d: loosest false positive rate %v", trial, last.FalsePositiveRate())
+			}
+		}
+	}
+}

@@ -108,14 +108,35 @@ func (s *Set) ID(i int) string {
 	return s.IDs[i]
 }
 
-// Totals returns the weighted number of true and false cases.
+// Totals returns the weighted number of true and false cases. Weights are
+// summed tie group by tie group in ranked order, as a sweep of the cuts
+// adds them up (package curve), so that the loosest cut's cumulative
+// counts equal the totals exactly and leave no rounding residue in its
+// false negatives and true negatives.
 func (s *Set) Totals() (positives, negatives float64) {
-	for i, positive := range s.Labels {
-		if positive {
-			positives += s.Weight(i)
-		} else {
-			negatives += s.Weight(i)
+	if s.Weights == nil {
+		for _, positive := range s.Labels {
+			if positive {
+				positives++
+			} else {
+				negatives++
+			}
 		}
+		return positives, negatives
+	}
+	for start, n := 0, len(s.Scores); start < n; {
+		var groupPositives, groupNegatives float64
+		end := start
+		for ; end < n && s.Scores[end] == s.Scores[start]; end++ {
+			if s.Labels[end] {
+				groupPositives += s.Weights[end]
+			} else {
+				groupNegatives += s.Weights[end]
+			}
+		}
+		positives += groupPositives
+		negatives += groupNegatives
+		start = end
 	}
 	return positives, negatives
 }
