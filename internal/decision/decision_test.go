@@ -83,6 +83,7 @@ func oddFile() *File {
 			Histogram: Histogram{Edges: []float64{-2.5e-300, 1e-7, 3e21}, Counts: []float64{0.5, 2}}},
 		Assumptions: projection.Assumptions{BaseRate: 0, Confidence: 0.9},
 		Chosen:      "0.5",
+		Caution:     evidence.Caution, // Marshal writes the standing caution whatever Caution holds; TestWriteStandingCaution
 		Candidates: []Candidate{{
 			Name: "0.5",
 			Cut: evidence.Cut{Score: -2.5e-300, Rows: 1, Flagged: 0, FlaggedShare: 0, TP: 0, FP: 0, FN: 0, TN: 2.5,
@@ -314,3 +315,24 @@ func TestFormatNumber(t *testing.T) {
 }
 
 func nan() float64 { return math.NaN() }
+
+// TestWriteStandingCaution: a file whose caution was edited away (or left
+// empty) is written with the standing caution, so that a sign-off never
+// goes out without it.
+func TestWriteStandingCaution(t *testing.T) {
+	for _, caution := range []string{"", "trust me"} {
+		f := demoFile(t)
+		f.Caution = caution
+		text, err := Marshal(f)
+		if err != nil {
+			t.Fatal(err)
+		}
+		back, err := Read(bytes.NewReader(text), "cut.yaml")
+		if err != nil {
+			t.Fatal(err)
+		}
+		if back.Caution != evidence.Caution {
+			t.Errorf("caution %q written back as %q, want the standing caution", caution, back.Caution)
+		}
+	}
+}

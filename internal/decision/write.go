@@ -108,7 +108,8 @@ func Marshal(f *File) ([]byte, error) {
 		"chosen_score", chosenScore(f),
 		"candidates", cand,
 		"note", optionalStr(f.Note),
-		"caution", str(f.Caution),
+		"caution", str(evidence.Caution), // the standing caution, whatever a hand edit left in f
+
 	)
 	doc.HeadComment = "sill decision file. The chosen cut flags a case when its score is " + flagSign(d.LowerIsRiskier) +
 		" the chosen candidate's score;\nthe figures are the evidence it was chosen on. Read it with: sill review FILE"

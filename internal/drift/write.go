@@ -191,7 +191,7 @@ func WriteText(w io.Writer, r *Result, decisionFile, scoresFile string) error {
 	for _, f := range r.Findings {
 		b.WriteString("  - " + f + "\n")
 	}
-	b.WriteString("\n" + evidence.Caution + "\n")
+	b.WriteString("\ncaution: " + evidence.Caution + "\n")
 	_, err := io.WriteString(w, b.String())
 	return err
 }

@@ -9,6 +9,7 @@ import (
 
 	"github.com/sill-tool/sill/internal/compare"
 	"github.com/sill-tool/sill/internal/decision"
+	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/report"
 )
 
@@ -151,7 +152,7 @@ func WriteText(w io.Writer, f *decision.File, path string) error {
 			fmt.Fprintf(&b, "  %s: %s\n", n[0], n[1])
 		}
 	}
-	b.WriteString("\n" + f.Caution + "\n")
+	b.WriteString("\ncaution: " + evidence.Caution + "\n") // the standing caution, not a hand-edited one
 	_, err := io.WriteString(w, b.String())
 	return err
 }
@@ -193,7 +194,7 @@ func WriteMarkdown(w io.Writer, f *decision.File, path string) error {
 	}
 	b.WriteString("\n## Sign-off\n\n")
 	b.WriteString("- Reviewed by: \n- Date: \n- Decision: \n")
-	b.WriteString("\n> **Caution.** " + report.MarkdownEscape(f.Caution) + "\n")
+	b.WriteString("\n> **Caution.** " + report.MarkdownEscape(evidence.Caution) + "\n")
 	_, err := io.WriteString(w, b.String())
 	return err
 }
