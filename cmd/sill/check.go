@@ -1,6 +1,7 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"strings"
@@ -89,6 +90,10 @@ decision file.`,
 			}
 			set, err := input.load(args[1], cmd.InOrStdin(), nil)
 			if err != nil {
+				if errors.Is(err, scores.ErrBadLabel) && !ignoreLabels {
+					// Fresh scores often come before their outcomes.
+					return fmt.Errorf("%w; --ignore-labels checks the alert rate and scores without them", err)
+				}
 				return err
 			}
 			if set.Dropped > 0 {

@@ -93,6 +93,11 @@ func TestCheckErrors(t *testing.T) {
 	good, _ := os.ReadFile(cutPath)
 	broken := writeFile(t, dir, "broken.yaml", []byte(strings.Replace(string(good), "chosen: \"hit=0.8\"", "chosen: \"hit=0.9\"", 1)))
 	notYAML := writeFile(t, dir, "not.yaml", []byte("format: [\n"))
+	// Outcomes not known yet: the label column is there, its cells blank.
+	blankLabels := writeFile(t, dir, "blank.csv", []byte(strings.Replace(strings.ReplaceAll(string(bearingsCSV(1, 2000, 0.07, 0, false)), "\n", ",\n"), "score,", "score,label", 1)))
+	if r := runSill(t, "", "check", cutPath, blankLabels, "--ignore-labels"); r.code != 0 || !strings.Contains(r.stdout, "no labels") {
+		t.Errorf("blank labels with --ignore-labels: exit %d, %s %s", r.code, r.stderr, r.stdout)
+	}
 	// The decision file from standard input.
 	if r := runSill(t, string(good), "check", "-", validation); r.code != 0 || !strings.Contains(r.stdout, "against -") {
 		t.Errorf("decision file on stdin: exit %d, %s %s", r.code, r.stderr, r.stdout)
@@ -111,6 +116,8 @@ func TestCheckErrors(t *testing.T) {
 		{"bad format", []string{"check", cutPath, validation, "--format", "xml"}, `--format "xml"`},
 		{"direction contradicts", []string{"check", cutPath, validation, "--lower-is-riskier"}, "contradicts"},
 		{"one argument", []string{"check", cutPath}, "accepts 2 arg"},
+		{"blank labels", []string{"check", cutPath, blankLabels}, `blank.csv:2: column "label": unrecognised label ""`},
+		{"blank labels name the way out", []string{"check", cutPath, blankLabels}, "--ignore-labels checks"},
 		{"both from standard input", []string{"check", "-", "-"}, "cannot both come from standard input"},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
