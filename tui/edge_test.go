@@ -60,3 +60,53 @@ func TestOddSets(t *testing.T) {
 		})
 	}
 }
+
+// TestCutLineCounts checks what the cut line counts: cases, and with
+// weights the ranked rows above it (the figures pane weighs them).
+func TestCutLineCounts(t *testing.T) {
+	assume := func(set *scores.Set) (projection.Assumptions, error) {
+		return projection.Assumptions{BaseRate: 0.5, Confidence: 0.95}, nil
+	}
+	for _, tc := range []struct {
+		name    string
+		weights []float64
+		want    string
+	}{
+		// Four rows 0.9 > 0.7 > 0.3 > 0.1; the first starting point
+		// (base) flags half the weight: two rows unweighted, and with
+		// weights 3, 1, 1, 1 the first row alone (3 of 6).
+		{"unweighted", nil, "━━ cut >= 0.7 ━ 2 flagged ━"},
+		{"weighted", []float64{3, 1, 1, 1}, "━━ cut >= 0.9 ━ 1 rows flagged ━"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			set, err := scores.New([]float64{0.9, 0.7, 0.3, 0.1}, []bool{true, false, true, false}, tc.weights, false)
+			if err != nil {
+				t.Fatal(err)
+			}
+			set.Source = "four.csv"
+			m := loaded(t, set, assume, filepath.Join(t.TempDir(), "cut.yaml"), 80, 24)
+			view := m.View()
+			if !strings.Contains(view, tc.want) {
+				t.Errorf("no %q in\n%s", tc.want, view)
+			}
+			if strings.Contains(view, "━…") {
+				t.Errorf("the cut line ends in an ellipsis:\n%s", view)
+			}
+		})
+	}
+}
+
+// TestFooterKeepsHelpAndQuit checks that a status too long for the line
+// is cut before the help and quit keys are.
+func TestFooterKeepsHelpAndQuit(t *testing.T) {
+	set := demoSet(t)
+	m := loaded(t, set, demoAssumptions, filepath.Join(t.TempDir(), "cut.yaml"), 80, 24)
+	m.status = strings.Repeat("a long status ", 20)
+	footer := m.footer(80)
+	if !strings.HasSuffix(strings.TrimRight(footer, " "), "? all keys · q quit") {
+		t.Errorf("footer %q does not end with the help and quit keys", footer)
+	}
+	if !strings.HasPrefix(footer, "a long status a long status") || !strings.Contains(footer, "…  │ ") {
+		t.Errorf("footer %q does not show the start of the status", footer)
+	}
+}

@@ -155,7 +155,7 @@ func (p listPane) body(innerW int) string {
 	shown := 0
 	for r := p.offset; r < s.set.Len() && shown < n+1; r++ {
 		if r == end {
-			b.WriteString("\n" + st.CutLine.Render(fitLine(p.cutLine(point.Score, point.FlaggedCases()), innerW)))
+			b.WriteString("\n" + st.CutLine.Render(p.cutLine(point.Score, point.FlaggedCases(), innerW)))
 			shown++
 			if shown >= n+1 {
 				break
@@ -165,18 +165,28 @@ func (p listPane) body(innerW int) string {
 		shown++
 	}
 	if end == s.set.Len() && shown < n+1 {
-		b.WriteString("\n" + st.CutLine.Render(fitLine(p.cutLine(point.Score, point.FlaggedCases()), innerW)))
+		b.WriteString("\n" + st.CutLine.Render(p.cutLine(point.Score, point.FlaggedCases(), innerW)))
 	}
 	return b.String()
 }
 
-// cutLine is the line drawn under the last flagged row.
-func (p listPane) cutLine(score float64, flagged int) string {
+// cutLine is the line drawn under the last flagged row, width cells wide.
+// It counts the flagged cases; with weights it counts the ranked rows
+// above it, which the figures pane weighs.
+func (p listPane) cutLine(score float64, flagged, width int) string {
 	sign := ">="
 	if p.s.set.LowerIsRiskier {
 		sign = "<="
 	}
-	return fmt.Sprintf("━━ cut %s %s ━ %d flagged ", sign, report.Score(score), flagged) + strings.Repeat("━", 40)
+	noun := "flagged"
+	if p.s.set.Weighted() && !p.s.set.Counts {
+		noun = "rows flagged"
+	}
+	line := fmt.Sprintf("━━ cut %s %s ━ %d %s ", sign, report.Score(score), flagged, noun)
+	if rest := width - ansi.StringWidth(line); rest > 0 {
+		line += strings.Repeat("━", rest)
+	}
+	return fitLine(line, width)
 }
 
 // row draws ranked row r: a gutter bar when flagged, the rank, the score,

@@ -807,16 +807,19 @@ func (m Model) footer(width int) string {
 		return st.Key.Render(name) + " " + st.Footer.Render(h.what)
 	}
 	separator := st.Footer.Render(" · ")
-	lead := ""
-	if m.status != "" {
-		lead = st.Status.Render(m.status) + st.Footer.Render("  │ ")
-	}
-	if m.unwritten && len(m.s.pins) > 0 {
-		lead += st.Warning.Render("not written") + separator
-	}
 	// The way to every key and the way out always show; the other hints
-	// follow in order of importance while they fit.
+	// follow in order of importance while they fit, and a long status
+	// gives way before them.
 	tail := render(hint{k.Help, "all keys"}) + separator + render(hint{k.Quit, "quit"})
+	lead := ""
+	if m.unwritten && len(m.s.pins) > 0 {
+		lead = st.Warning.Render("not written") + separator
+	}
+	if m.status != "" {
+		bar := st.Footer.Render("  │ ")
+		room := width - ansi.StringWidth(lead) - ansi.StringWidth(tail) - ansi.StringWidth(bar)
+		lead = st.Status.Render(fitStatus(m.status, room)) + bar + lead
+	}
 	room := width - ansi.StringWidth(lead) - ansi.StringWidth(tail)
 	var parts []string
 	for _, h := range hints {
@@ -832,4 +835,13 @@ func (m Model) footer(width int) string {
 	}
 	line := lead + strings.Join(append(parts, tail), separator)
 	return fitLine(line, width)
+}
+
+// fitStatus cuts a status line to width cells, marking the cut with …; it
+// keeps at least a few words when the room is smaller than that.
+func fitStatus(status string, width int) string {
+	if ansi.StringWidth(status) <= width {
+		return status
+	}
+	return ansi.Truncate(status, max(width, 12), "…")
 }

@@ -67,9 +67,10 @@ type Review struct {
 	noteFor  int // the candidate whose note is edited; -1 for the file's
 	reason   string
 
-	changed bool // changes not written
-	status  string
-	written bool
+	changed  bool // changes not written
+	status   string
+	written  bool
+	quitting bool // quit once the write asked for on the way out succeeds
 }
 
 // reviewKeys are the explorer's keys plus the two note keys.
@@ -163,6 +164,9 @@ func (r Review) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		r.changed, r.written = false, true
 		c := r.file.Candidates[r.chosen()]
 		r.status = fmt.Sprintf("written to %s · chosen %s", msg.path, c.Name)
+		if r.quitting {
+			return r, tea.Quit
+		}
 		return r, nil
 	case reviewWriteFailedMsg:
 		if errors.Is(msg.err, decision.ErrDifferentData) || errors.Is(msg.err, decision.ErrNotDecisionFile) {
@@ -170,6 +174,7 @@ func (r Review) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 			r.overlays = append(r.overlays, reviewReplace)
 			return r, nil
 		}
+		r.quitting = false // stay, so that the reason can be read
 		r.status = "not written: " + msg.err.Error()
 		return r, nil
 	case tea.KeyMsg:
@@ -263,7 +268,8 @@ func (r Review) overlayKey(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 		switch {
 		case key.Matches(msg, k.Write):
 			pop()
-			return r, tea.Sequence(r.write(false), tea.Quit)
+			r.quitting = true
+			return r, r.write(false)
 		case key.Matches(msg, k.Quit):
 			return r, tea.Quit
 		case key.Matches(msg, k.Cancel):
@@ -276,6 +282,7 @@ func (r Review) overlayKey(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 			return r, r.write(true)
 		case key.Matches(msg, k.No):
 			pop()
+			r.quitting = false
 			r.status = "not written: " + r.path + " kept as it was"
 		}
 	}
@@ -382,7 +389,7 @@ func (r Review) header(width int) string {
 		parts = append(parts, "capacity "+report.Count(a.Capacity))
 	}
 	if c := a.Costs; c != nil {
-		parts = append(parts, fmt.Sprintf("wrong alert %s · miss %s · hit %s", report.Money(c.FalseAlert), report.Money(c.Miss), report.Money(c.Hit)))
+		parts = append(parts, fmt.Sprintf("costs: wrong alert %s · miss %s · hit %s", report.Money(c.FalseAlert), report.Money(c.Miss), report.Money(c.Hit)))
 	}
 	parts = append(parts, fmt.Sprintf("%g%% intervals", 100*a.Confidence))
 	return first + "\n" + st.Muted.Render(fitLine(strings.Join(parts, " · "), width))
@@ -420,13 +427,14 @@ func (r Review) notesView(at rect) string {
 	return framed(st.Pane, st.PaneEdge, st.Title, "notes", strings.Join(lines, "\n"), at.W, at.H)
 }
 
-// footer is the status, then the keys in a few words each.
+// footer is the status, then the keys in a few words each, the most
+// used first.
 func (r Review) footer(width int) string {
 	st, k := r.ctx.styles, r.keys
 	hints := []struct {
 		b    key.Binding
 		what string
-	}{{k.Left, "select"}, {k.Choose, "choose"}, {k.Note, "note"}, {k.FileNote, "file note"}, {k.Write, "write"}, {k.Help, "all keys"}, {k.Quit, "quit"}}
+	}{{k.Left, "select"}, {k.Choose, "choose"}, {k.Write, "write"}, {k.Note, "note"}, {k.FileNote, "file note"}, {k.Help, "all keys"}, {k.Quit, "quit"}}
 	var parts []string
 	for _, h := range hints {
 		name := h.b.Help().Key
@@ -435,11 +443,20 @@ func (r Review) footer(width int) string {
 		}
 		parts = append(parts, st.Key.Render(name)+" "+st.Footer.Render(h.what))
 	}
-	line := strings.Join(parts, st.Footer.Render(" · "))
+	separator := st.Footer.Render(" · ")
+	// The way to every key and the way out always show: the other hints
+	// drop from the end while they do not fit, and a long status is cut.
+	tail := parts[len(parts)-2] + separator + parts[len(parts)-1]
+	parts = parts[:len(parts)-2]
+	lead := ""
 	if r.status != "" {
-		line = st.Status.Render(r.status) + st.Footer.Render("  │ ") + line
+		bar := st.Footer.Render("  │ ")
+		lead = st.Status.Render(fitStatus(r.status, width-ansi.StringWidth(bar)-ansi.StringWidth(tail))) + bar
 	}
-	return fitLine(line, width)
+	for len(parts) > 0 && ansi.StringWidth(lead)+ansi.StringWidth(strings.Join(parts, separator))+ansi.StringWidth(separator+tail) > width {
+		parts = parts[:len(parts)-1]
+	}
+	return fitLine(lead+strings.Join(append(parts, tail), separator), width)
 }
 
 // overlayView draws the top overlay.

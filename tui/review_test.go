@@ -309,3 +309,45 @@ func TestLayoutReviewDrawn(t *testing.T) {
 		checkGolden(t, name, drawReviewLayout(layoutReview(tc.w, tc.h, tc.stripLines, frame), tc.w, tc.h))
 	}
 }
+
+// TestReviewWriteAndQuit checks the question's w: the screen quits once
+// the file is written, and stays, with the reason, when it is not.
+func TestReviewWriteAndQuit(t *testing.T) {
+	r, path := newTestReview(t, 100, 30)
+	r, _ = sendReview(t, r, keyPress("right"))
+	r, _ = sendReview(t, r, keyPress("c"))
+	r, _ = sendReview(t, r, keyPress("q"))
+	next, cmd := r.Update(keyPress("w"))
+	r = next.(Review)
+	if cmd == nil {
+		t.Fatal("w in the question wrote nothing")
+	}
+	next, cmd = r.Update(cmd())
+	r = next.(Review)
+	if cmd == nil {
+		t.Fatal("no quit after the write")
+	}
+	if _, ok := cmd().(tea.QuitMsg); !ok {
+		t.Error("the command after the write is not quit")
+	}
+	if back, _ := decision.ReadFile(path); back.Chosen == "queue=90" || !r.Written() {
+		t.Errorf("the file was not written: chosen %q", back.Chosen)
+	}
+
+	// A write that fails keeps the screen open with its reason.
+	r, _ = newTestReview(t, 100, 30)
+	r.saveTo = filepath.Join(t.TempDir(), "no such folder", "cut.yaml")
+	r, _ = sendReview(t, r, keyPress("right"))
+	r, _ = sendReview(t, r, keyPress("c"))
+	r, _ = sendReview(t, r, keyPress("q"))
+	next, cmd = r.Update(keyPress("w"))
+	r = next.(Review)
+	next, cmd = r.Update(cmd())
+	r = next.(Review)
+	if cmd != nil {
+		t.Error("the screen quit although the write failed")
+	}
+	if !strings.HasPrefix(r.status, "not written: ") || !r.Changed() {
+		t.Errorf("status %q, changed %v after a failed write", r.status, r.Changed())
+	}
+}

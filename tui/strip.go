@@ -1,6 +1,7 @@
 package tui
 
 import (
+	"slices"
 	"strconv"
 	"strings"
 
@@ -194,9 +195,9 @@ func rowsThatFit(rows []compare.Row, lines int) []compare.Row {
 	return out
 }
 
-// grid draws the table in innerW×innerH: the reference column, then as
-// many others as fit around the selected one. It returns the number of
-// columns drawn.
+// grid draws the table in innerW×innerH: the reference column and as many
+// others as fit around the selected one, in strip order. It returns the
+// number of columns drawn.
 func (s Strip) grid(innerW, innerH int) (string, int) {
 	st, t := s.styles, s.table
 	labelW := 0
@@ -226,9 +227,10 @@ func (s Strip) grid(innerW, innerH int) (string, int) {
 		w := max(valueW[c]+1+diffW[c], detailW[c], ansi.StringWidth(t.Names[c])+3, ansi.StringWidth(t.Rules[c])+2, 10)
 		return min(w, 26) + 2
 	}
-	// Columns in view: the reference first, always, so that every
-	// difference on screen is against a column on screen; then the others
-	// in strip order, widening from the selected one to both sides.
+	// Columns in view: the reference, always, so that every difference on
+	// screen is against a column on screen, and the others widening from
+	// the selected one to both sides; all in strip order, so that left and
+	// right on screen are the left and right of the keys.
 	others := make([]int, 0, len(t.Names))
 	for c := range t.Names {
 		if c != t.Reference {
@@ -267,6 +269,7 @@ func (s Strip) grid(innerW, innerH int) (string, int) {
 		if last >= first {
 			shown = append(shown, others[first:last+1]...)
 		}
+		slices.Sort(shown)
 	}
 	var lines []string
 	names := pad("", labelW, false)

@@ -189,11 +189,16 @@ func runExplorer(cfg tui.Config) error {
 	if err := m.Err(); err != nil {
 		return err
 	}
-	if path := m.Written(); path != "" {
+	path, n := m.Written(), m.Unwritten()
+	switch {
+	case path != "" && n > 0:
+		fmt.Fprintf(os.Stderr, "sill: %s holds the decision as last written; the changes to the candidates or assumptions made after it were not written\n", path)
+	case path != "":
 		fmt.Fprintf(os.Stderr, "sill: the decision is in %s\n", path)
-	}
-	if n := m.Unwritten(); n > 0 {
-		fmt.Fprintf(os.Stderr, "sill: %d pinned candidates or changed assumptions were not written (w writes them to %s)\n", n, out)
+	case n == 1:
+		fmt.Fprintf(os.Stderr, "sill: the pinned candidate was not written (w writes it to %s)\n", out)
+	case n > 1:
+		fmt.Fprintf(os.Stderr, "sill: the %d pinned candidates were not written (w writes them to %s)\n", n, out)
 	}
 	return nil
 }
