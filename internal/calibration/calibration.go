@@ -78,9 +78,9 @@ type Table struct {
 //
 // Fixed-width edges are k/bins computed as numpy's linspace does (k times
 // 1/bins), the last edge 1. Quantile edges are the quantiles of the rows'
-// scores (rows, not weight, and so the table rows of a counts table) at
-// k/bins, interpolated linearly between order statistics as numpy's
-// percentile does by default. A score on an inner
+// scores (rows, not weight; for a counts table its cases, so that the
+// edges are those of the raw rows it counts) at k/bins, interpolated
+// linearly between order statistics as numpy's percentile does by default. A score on an inner
 // edge falls in the lower bin. These choices match scikit-learn's
 // calibration_curve, whose output is Bins with a Count above zero. With
 // tied quantile edges some bins are empty; they are kept, with Count 0.
@@ -103,6 +103,13 @@ func Reliability(set *scores.Set, bins int, binning Binning) (Table, error) {
 		for i, s := range set.Scores {
 			ascending[set.Len()-1-i] = s // ranked riskiest first, so descending
 		}
+		var casesBefore []float64 // for a counts table: cases of the ascending rows before each
+		if set.Counts {
+			casesBefore = make([]float64, set.Len()+1)
+			for k := range ascending {
+				casesBefore[k+1] = casesBefore[k] + set.Weight(set.Len()-1-k)
+			}
+		}
 		for k := range edges {
 			// As numpy: linspace(0, 1, bins+1) * 100, divided back by 100.
 			q := float64(k) * (1 / float64(bins))
@@ -110,9 +117,13 @@ func Reliability(set *scores.Set, bins int, binning Binning) (Table, error) {
 				q = 1
 			}
 			q = float64(q*100) / 100
-			edges[k] = quantile.Linear(ascending, q)
+			if casesBefore != nil {
+				edges[k] = casesQuantile(ascending, casesBefore, q)
+			} else {
+				edges[k] = quantile.Linear(ascending, q)
+			}
 		}
-		if set.Len() == 0 {
+		if set.Len() == 0 || (casesBefore != nil && !(casesBefore[set.Len()] > 0)) {
 			for k := range edges {
 				edges[k] = float64(k) * (1 / float64(bins))
 			}
@@ -159,6 +170,34 @@ func Reliability(set *scores.Set, bins int, binning Binning) (Table, error) {
 		t.ECE = gap / total
 	}
 	return t, nil
+}
+
+// casesQuantile is quantile.Linear of the cases that a counts table's
+// ascending rows stand for: row k holds casesBefore[k+1]-casesBefore[k]
+// cases of score ascending[k]. It interpolates between the same two order
+// statistics as quantile.Linear of the cases written out, with the same
+// arithmetic, so the two agree to the bit. NaN when there are no cases.
+func casesQuantile(ascending, casesBefore []float64, q float64) float64 {
+	n := casesBefore[len(ascending)]
+	if !(n > 0) {
+		return math.NaN()
+	}
+	// caseScore is the score of case c, counted from 0 in ascending order.
+	caseScore := func(c int) float64 {
+		k := sort.Search(len(ascending), func(k int) bool { return casesBefore[k+1] > float64(c) })
+		return ascending[min(k, len(ascending)-1)]
+	}
+	h := q * (n - 1)
+	j := int(math.Floor(h))
+	if j >= int(n)-1 {
+		return caseScore(int(n) - 1)
+	}
+	t := h - float64(j)
+	a, b := caseScore(j), caseScore(j+1)
+	if t >= 0.5 {
+		return b - (b-a)*(1-t)
+	}
+	return a + (b-a)*t
 }
 
 // Probabilities reports whether set's scores can be read as probabilities

@@ -263,3 +263,46 @@ func TestParseBinning(t *testing.T) {
 		t.Error(err)
 	}
 }
+
+// TestQuantileCountsTable: the quantile edges of a counts table are those
+// of the raw rows it counts, to the bit, and so are the bin counts and
+// observed rates. Hand-built: the raw rows are 0.1 x3 (one true), 0.4 x1
+// (false), 0.7 x4 (three true), 0.9 x2 (true): ten cases, whose quartiles
+// by numpy's rule (position q*9, cases counted from 0) are 0.1; 0.175
+// (position 2.25: a quarter of the way from case 2, 0.1, to case 3, 0.4);
+// 0.7 (4.5: cases 4 and 5); 0.7 (6.75: cases 6 and 7); 0.9. The table has four
+// rows, whose own quartiles would be others. The raw rows are run through
+// the same Reliability as the reference.
+func TestQuantileCountsTable(t *testing.T) {
+	raw := "score,label\n0.1,1\n0.1,0\n0.1,0\n0.4,0\n0.7,1\n0.7,1\n0.7,0\n0.7,1\n0.9,1\n0.9,1\n"
+	counts := "score,positives,negatives\n0.1,1,2\n0.4,0,1\n0.7,3,1\n0.9,2,0\n"
+	rawSet, err := scores.Read(strings.NewReader(raw), "raw.csv", scores.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	countsSet, err := scores.ReadCounts(strings.NewReader(counts), "counts.csv", scores.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want, err := calibration.Reliability(rawSet, 4, calibration.Quantile)
+	if err != nil {
+		t.Fatal(err)
+	}
+	got, err := calibration.Reliability(countsSet, 4, calibration.Quantile)
+	if err != nil {
+		t.Fatal(err)
+	}
+	handEdges := []float64{0.1, 0.175, 0.7, 0.7, 0.9} // worked above
+	for k, b := range want.Bins {
+		if !close(b.Lower, handEdges[k]) || !close(b.Upper, handEdges[k+1]) {
+			t.Errorf("raw bin %d: [%v, %v], worked by hand [%v, %v]", k, b.Lower, b.Upper, handEdges[k], handEdges[k+1])
+		}
+		g := got.Bins[k]
+		if g.Lower != b.Lower || g.Upper != b.Upper || g.Count != b.Count || !close(g.ObservedRate, b.ObservedRate) || !close(g.MeanScore, b.MeanScore) {
+			t.Errorf("bin %d: counts table %+v, raw rows %+v", k, g, b)
+		}
+	}
+	if !close(got.ECE, want.ECE) {
+		t.Errorf("ECE: counts table %v, raw rows %v", got.ECE, want.ECE)
+	}
+}
