@@ -156,8 +156,17 @@ func (p figuresPane) body() string {
 		reading += " · redraws " + report.Range(band.FalseDiscoveryRate)
 	}
 	add("  %s", st.Muted.Render(reading))
-	add("%s %s %s", st.Label.Render("false positive rate"), report.Percent(e.FalsePositiveRate),
-		st.Muted.Render("· alert rate "+report.Percent(e.Projected.AlertRate)))
+	// The alert rate is projected to production's base rate; say so where
+	// the line has room, as the strip does.
+	rates := func(alert string) string {
+		return fmt.Sprintf("%s %s %s", st.Label.Render("false positive rate"), report.Percent(e.FalsePositiveRate),
+			st.Muted.Render("· "+alert+" "+report.Percent(e.Projected.AlertRate)))
+	}
+	if line := rates("projected alert rate"); ansi.StringWidth(line) <= p.width-st.Pane.GetHorizontalFrameSize() {
+		lines = append(lines, line)
+	} else {
+		lines = append(lines, rates("alert rate"))
+	}
 	if a.Volume > 0 {
 		queue := st.Label.Render("queue per shift") + " " + st.Figure.Render(report.Queue(e.Projected.QueuePerShift))
 		if a.Capacity > 0 {

@@ -190,6 +190,8 @@ func newFormPane(ctx *context) formPane {
 func (p *formPane) load(a projection.Assumptions, validationBaseRate float64) {
 	p.validationBaseRate = validationBaseRate
 	p.applied = false
+	// An empty base rate is the validation set's: say what that is.
+	p.fields[fieldBaseRate].hint = "production share of true cases, as 0.01 or 1%; empty: validation's " + report.Percent(validationBaseRate)
 	text := func(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
 	given := func(v float64) string {
 		if v == 0 {
