@@ -83,7 +83,7 @@ decision file.`,
 				return fmt.Errorf("--lower-is-riskier=%v contradicts %s, whose cut was chosen with lower_is_riskier: %v", input.opt.LowerIsRiskier, args[0], file.Data.LowerIsRiskier)
 			}
 			input.opt.LowerIsRiskier = file.Data.LowerIsRiskier
-			input.opt.NoLabels = true // outcomes are often not known yet
+			input.opt.NoLabels = !input.counts // outcomes are often not known yet; a counts table has them
 			input.opt.IgnoreLabels = ignoreLabels
 			if !fs.Changed("score") && !isDefaultName(file.Data.ScoreColumn, scores.DefaultScoreColumns) {
 				input.opt.ScoreColumn = file.Data.ScoreColumn
@@ -99,7 +99,7 @@ decision file.`,
 			if set.Dropped > 0 {
 				fmt.Fprintf(cmd.ErrOrStderr(), "sill: warning: %d rows of %s were dropped for an invalid score\n", set.Dropped, args[1])
 			}
-			res, err := drift.Check(file, set, drift.Options{Tolerance: tolerance, Labelled: set.LabelColumn != ""})
+			res, err := drift.Check(file, set, drift.Options{Tolerance: tolerance, Labelled: set.LabelColumn != "" && !ignoreLabels})
 			if err != nil {
 				return fmt.Errorf("check %s: %w", args[1], err)
 			}
@@ -119,6 +119,10 @@ decision file.`,
 	}
 	fs := cmd.Flags()
 	input.register(fs)
+	// check applies one cut to one score column and breaks nothing down.
+	fs.Lookup("score").Usage = "score column (default: the decision file's score column when present, else the first of " + strings.Join(scores.DefaultScoreColumns, ", ") + ")"
+	_ = fs.MarkHidden("segment")
+	_ = fs.MarkHidden("id")
 	fs.StringVar(&format, "format", "text", "output: text or json")
 	fs.BoolVar(&ignoreLabels, "ignore-labels", false, "check the alert rate and scores only, even where a label column is present")
 	fs.Float64Var(&tolerance, "tolerance", 0, "practical margin on every share, e.g. 0.02 for two percentage points")

@@ -2,6 +2,7 @@ package main
 
 import (
 	"encoding/json"
+	"fmt"
 	"os"
 	"path/filepath"
 	"strings"
@@ -126,5 +127,54 @@ func TestCheckErrors(t *testing.T) {
 				t.Errorf("exit %d, stdout %q, stderr %q; want 2, nothing on stdout and one line with %q", r.code, r.stdout, r.stderr, tc.want)
 			}
 		})
+	}
+}
+
+// TestCheckCounts: a counts table of the fresh scores (as sill sql makes
+// one) is checked with the same figures as its raw rows, labels included,
+// and --ignore-labels leaves recall and precision out as it does for rows.
+func TestCheckCounts(t *testing.T) {
+	dir := t.TempDir()
+	validation := writeFile(t, dir, "validation.csv", bearingsCSV(1, 2000, 0.07, 0, true))
+	cutPath := filepath.Join(dir, "cut.yaml")
+	if r := runSill(t, "", "report", validation, "--cut", "hit=0.8", "--save", cutPath); r.code != 0 {
+		t.Fatalf("save: exit %d, %s", r.code, r.stderr)
+	}
+	fresh := bearingsCSV(12, 3000, 0.07, 0, true)
+	type tally struct{ positives, negatives int }
+	byScore := map[string]*tally{}
+	var order []string
+	for _, line := range strings.Split(strings.TrimSpace(string(fresh)), "\n")[1:] {
+		score, label, _ := strings.Cut(line, ",")
+		if byScore[score] == nil {
+			byScore[score] = &tally{}
+			order = append(order, score)
+		}
+		if label == "1" {
+			byScore[score].positives++
+		} else {
+			byScore[score].negatives++
+		}
+	}
+	var counts strings.Builder
+	counts.WriteString("score,positives,negatives\n")
+	for _, score := range order {
+		fmt.Fprintf(&counts, "%s,%d,%d\n", score, byScore[score].positives, byScore[score].negatives)
+	}
+	rowsPath := writeFile(t, dir, "fresh.csv", fresh)
+	countsPath := writeFile(t, dir, "fresh-counts.csv", []byte(counts.String()))
+	for _, extra := range [][]string{nil, {"--ignore-labels"}} {
+		rows := runSill(t, "", append([]string{"check", cutPath, rowsPath, "--format", "json"}, extra...)...)
+		table := runSill(t, "", append([]string{"check", cutPath, countsPath, "--counts", "--format", "json"}, extra...)...)
+		if rows.code != table.code || table.code == 2 {
+			t.Fatalf("%v: exit %d from rows, %d from the counts table (%s)", extra, rows.code, table.code, table.stderr)
+		}
+		// The outputs differ only in the name of the scores file.
+		if got := strings.ReplaceAll(table.stdout, "fresh-counts.csv", "fresh.csv"); got != rows.stdout {
+			t.Errorf("%v: counts table\n%s\nraw rows\n%s", extra, got, rows.stdout)
+		}
+		if labelled := !strings.Contains(rows.stdout, `"recall_observed": null`); labelled != (extra == nil) {
+			t.Errorf("%v: recall observed %v", extra, labelled)
+		}
 	}
 }
