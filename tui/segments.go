@@ -186,9 +186,21 @@ func (p segmentsPane) View() string {
 		}
 		keys = fmt.Sprintf("%d–%d of %d · pgup/pgdn g/G scroll · ", p.offset+1, end, len(b.Segments)) + keys
 	}
-	lines = append(lines,
-		st.Muted.Render("outside: hit-share or precision interval wholly outside the overall one"),
-		st.Muted.Render(keys))
+	// What outside and gap mean, in the longest words that fit.
+	legend := "outside: hit-share or precision interval wholly outside the overall one"
+	if gap {
+		for _, l := range []string{
+			legend + " · gap: the larger of the two figures' distances from overall, in points",
+			legend + " · gap: the larger distance from overall",
+			"outside: an interval wholly outside the overall one · gap: the larger distance from it",
+		} {
+			if ansi.StringWidth(l) <= innerW {
+				legend = l
+				break
+			}
+		}
+	}
+	lines = append(lines, st.Muted.Render(legend), st.Muted.Render(keys))
 	// framed fits every line to the box's inner width.
 	return framed(st.Overlay, st.OverlayEdge, st.Title, title, strings.Join(lines, "\n"), width,
 		min(len(lines)+st.Overlay.GetVerticalFrameSize(), p.ctx.height-2))
