@@ -65,10 +65,8 @@ func ReadCounts(r io.Reader, source string, opt Options) (*Set, error) {
 	b := &builder{opt: opt, source: source}
 	delim := opt.Delimiter
 	if delim == 0 {
-		headerLine, _ := in.Peek(in.Buffered())
-		if len(headerLine) == 0 {
-			headerLine, _ = in.Peek(1)
-		}
+		headerLine, _ := peekHeader(in)
+		headerLine = []byte(strings.TrimLeft(string(headerLine), "\r\n")) // blank lines before the header, as in Read
 		if i := strings.IndexByte(string(headerLine), '\n'); i >= 0 {
 			headerLine = headerLine[:i]
 		}

@@ -493,10 +493,7 @@ func (b *builder) parseLabel(text string) (bool, error) {
 func (b *builder) readDelimited(in *bufio.Reader) error {
 	delim := b.opt.Delimiter
 	if delim == 0 {
-		headerLine, err := in.Peek(in.Buffered())
-		if len(headerLine) == 0 {
-			headerLine, err = in.Peek(1)
-		}
+		headerLine, err := peekHeader(in)
 		if len(headerLine) == 0 {
 			if err != nil && err != io.EOF {
 				return b.readError(0, err)
@@ -546,6 +543,24 @@ func (b *builder) readDelimited(in *bufio.Reader) error {
 		if err := b.add(line, func(col int) string { return record[col] }); err != nil {
 			return err
 		}
+	}
+}
+
+// peekHeader returns the input's first bytes without consuming them: at
+// least the first line after any blank lines, unless the input ends first
+// or the line is longer than in's buffer. It reads more than is buffered
+// where it must, as when a gzip stream was flushed within the header.
+func peekHeader(in *bufio.Reader) ([]byte, error) {
+	n := min(max(in.Buffered(), 1), in.Size())
+	for {
+		data, err := in.Peek(n)
+		if err != nil || bytes.IndexByte(bytes.TrimLeft(data, "\r\n"), '\n') >= 0 || n == in.Size() {
+			if err == bufio.ErrBufferFull {
+				err = nil
+			}
+			return data, err
+		}
+		n = min(max(2*n, in.Buffered()+1), in.Size())
 	}
 }
 
