@@ -84,6 +84,11 @@ func (f *inputFlags) load(path string, stdin io.Reader, progress func(rows int))
 			return read(stdin, "-", opt)
 		}
 		if seekable := seekableStdin(stdin); seekable != nil {
+			if file, ok := seekable.(*os.File); ok {
+				if set, handled, err := readParquet(path, nil, file, opt); handled {
+					return set, err // Parquet redirected from a file
+				}
+			}
 			return scores.Load(seekable, "-", opt) // standard input redirected from a file
 		}
 		return loadPiped(stdin, opt)

@@ -17,7 +17,8 @@ import (
 // TestReportParquetFolderAndCounts runs report on the DuckDB-written
 // Parquet file of internal/scores, on a Spark-style folder holding it twice
 // (two parts and a _SUCCESS marker), and on the counts table of the same
-// rows, and checks the row counts and ROC AUC in JSON. The file's 8 scored
+// rows, and on the file through standard input (a pipe, and redirected
+// from the file), and checks the row counts and ROC AUC in JSON. The file's 8 scored
 // rows, worked out by hand from testdata/parquet/other-writer.csv: 4 true,
 // 4 false; ROC AUC 0.78125: of the 16 true-false pairs the true 0.91 and
 // 0.75 outrank all 4 falses, 0.57 outranks 3 and ties 1 (half), 0.0625
@@ -36,18 +37,38 @@ func TestReportParquetFolderAndCounts(t *testing.T) {
 	writeFile(t, folder, "_SUCCESS", nil)
 	// The same 8 scored rows as a counts table.
 	counts := writeFile(t, dir, "counts.csv", []byte("score,positives,negatives\n0.91,1,0\n0.12,0,1\n0.57,1,1\n0.003,0,1\n0.75,1,0\n0.3333,0,1\n0.0625,1,0\n"))
-	cases := []struct {
+	type reportCase struct {
 		name      string
 		args      []string
 		rows      int
 		positives float64
-	}{
+	}
+	cases := []reportCase{
 		{"file", []string{"report", file, "--label", "failed", "--drop-invalid", "--format", "json"}, 8, 4},
 		{"folder", []string{"report", folder, "--label", "failed", "--drop-invalid", "--format", "json"}, 16, 8},
 		{"counts", []string{"report", counts, "--counts", "--format", "json"}, 8, 4},
 	}
-	for _, c := range cases {
-		res := runSill(t, "", c.args...)
+	// The file on standard input, through a pipe and redirected from the
+	// file: recognised by its magic bytes either way.
+	piped := []string{"report", "-", "--label", "failed", "--drop-invalid", "--format", "json"}
+	redirected, err := os.Open(file)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer redirected.Close()
+	var stdout, stderr strings.Builder
+	code := run(piped, redirected, &stdout, &stderr)
+	redirectedRun := sillResult{code, stdout.String(), stderr.String()}
+	for _, c := range append(cases, reportCase{"pipe", piped, 8, 4}, reportCase{"redirected", nil, 8, 4}) {
+		var res sillResult
+		switch c.name {
+		case "pipe":
+			res = runSill(t, string(data), c.args...)
+		case "redirected":
+			res = redirectedRun
+		default:
+			res = runSill(t, "", c.args...)
+		}
 		if res.code != 0 {
 			t.Fatalf("%s: exit %d: %s", c.name, res.code, res.stderr)
 		}

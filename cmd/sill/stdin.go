@@ -11,7 +11,8 @@ import (
 // spoolChunk is how much of standard input is copied at a time.
 const spoolChunk = 1 << 20
 
-// loadPiped reads scores from a pipe. It first copies the stream into an
+// loadPiped reads scores from a pipe, Parquet (by its magic bytes) or
+// text. It first copies the stream into an
 // unnamed temporary file, which the block reader can read, seek back in and
 // hand to the line reader when it must; the file is removed as soon as it
 // is made, so nothing is left behind. When the copy cannot be made (no room
@@ -45,6 +46,11 @@ func loadPiped(stdin io.Reader, opt scores.Options) (*scores.Set, error) {
 	}
 	if _, err := spool.Seek(0, io.SeekStart); err != nil {
 		return scores.Read(io.NewSectionReader(spool, 0, written), "-", opt)
+	}
+	if magic := make([]byte, len(scores.ParquetMagic)); written >= int64(len(magic)) {
+		if _, err := spool.ReadAt(magic, 0); err == nil && bytes.Equal(magic, scores.ParquetMagic) {
+			return scores.ReadParquet(spool, written, "-", parquetOptions(opt)) // Parquet through a pipe
+		}
 	}
 	return scores.Load(spool, "-", opt)
 }
