@@ -54,7 +54,7 @@ Exit status: 0 when every check is within tolerance, 1 when any drifts
 decision file.`,
 		Example: `  sill check cut.yaml scores-2026-09-28.csv
   sill check cut.yaml nightly.csv.gz --format json --tolerance 0.02`,
-		Args: cobra.ExactArgs(2),
+		Args: argsNamed("the decision file", "the new scores (either may be - for standard input)"),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if format != "text" && format != "json" {
 				return fmt.Errorf("--format %q: expected text or json", format)

@@ -116,7 +116,7 @@ func TestCheckErrors(t *testing.T) {
 		{"bad tolerance", []string{"check", cutPath, validation, "--tolerance", "-1"}, "--tolerance -1"},
 		{"bad format", []string{"check", cutPath, validation, "--format", "xml"}, `--format "xml"`},
 		{"direction contradicts", []string{"check", cutPath, validation, "--lower-is-riskier"}, "contradicts"},
-		{"one argument", []string{"check", cutPath}, "accepts 2 arg"},
+		{"one argument", []string{"check", cutPath}, "check takes 2 arguments, the decision file then the new scores"},
 		{"blank labels", []string{"check", cutPath, blankLabels}, `blank.csv:2: column "label": unrecognised label ""`},
 		{"blank labels name the way out", []string{"check", cutPath, blankLabels}, "--ignore-labels checks"},
 		{"both from standard input", []string{"check", "-", "-"}, "cannot both come from standard input"},

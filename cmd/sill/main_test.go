@@ -122,7 +122,7 @@ func TestRunBadInput(t *testing.T) {
 		{"negative volume", []string{"report", good, "--volume", "-5"},
 			"sill: --volume -5: expected a positive number of cases per shift"},
 		{"no file", []string{"report"},
-			"sill: accepts 1 arg(s), received 0"},
+			"sill: report takes one argument, FILE (the validation set, or - for standard input); got 0 (see sill report --help)"},
 		{"bad demo rows", []string{"demo", "--rows", "0"},
 			"sill: --rows 0: expected at least 1"},
 	}

@@ -53,7 +53,7 @@ in [0,1] get a reliability table and net benefit; --score a --score b (or
   sill report bearings.csv --cut hit=0.9 --cut top=2% --format json
   sill report bearings.csv --cut hit=0.8 --cut base --save cut.yaml --choose base
   sill report bearings.csv --segment yard --time read_at --shifts 06:00,14:00,22:00 --tz Europe/Amsterdam --volume 1500 --capacity 90 --bootstrap 500`,
-		Args: cobra.ExactArgs(1),
+		Args: argsNamed("FILE (the validation set, or - for standard input)"),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if err := o.beyond.prepare(&o.input); err != nil {
 				return err

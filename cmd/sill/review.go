@@ -31,7 +31,7 @@ markdown it prints the comparison instead, for a sign-off document; that is
 also what it does when standard output is not a terminal.`,
 		Example: `  sill review cut.yaml
   sill review cut.yaml --format markdown > sign-off.md`,
-		Args: cobra.ExactArgs(1),
+		Args: argsNamed("the decision file (or - for standard input)"),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			switch format {
 			case "", "text", "markdown":

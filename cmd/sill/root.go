@@ -1,6 +1,9 @@
 package main
 
 import (
+	"fmt"
+	"strings"
+
 	"github.com/spf13/cobra"
 )
 
@@ -35,4 +38,20 @@ func versionString() string {
 		return version
 	}
 	return version + " (" + commit + ")"
+}
+
+// argsNamed accepts exactly the arguments named, and otherwise says which
+// ones the command takes, such as "report takes one argument, FILE (the
+// validation set, or - for standard input); got 0".
+func argsNamed(names ...string) cobra.PositionalArgs {
+	return func(cmd *cobra.Command, args []string) error {
+		if len(args) == len(names) {
+			return nil
+		}
+		what := "one argument, " + names[0]
+		if len(names) > 1 {
+			what = fmt.Sprintf("%d arguments, %s", len(names), strings.Join(names, " then "))
+		}
+		return fmt.Errorf("%s takes %s; got %d (see sill %s --help)", cmd.Name(), what, len(args), cmd.Name())
+	}
 }
