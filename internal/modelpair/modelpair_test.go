@@ -266,3 +266,66 @@ func TestJoin(t *testing.T) {
 		t.Errorf("no ids: %v", err)
 	}
 }
+
+// TestPairedProperties checks, on seeded sets with heavy ties, weights in
+// {0, 1, 2} (zero weights drop out) and a class sometimes of one row:
+//   - each model's AUC equals the AUC of package curve, computed another
+//     way (a sweep of the ranked set, ties counting half);
+//   - swapping the models swaps the AUCs and variances and negates the
+//     difference and Z, leaving the standard error and P;
+//   - negating both models' scores and flipping the direction changes
+//     nothing.
+//
+// The references are the same test on transformed input and package
+// curve, no outside source.
+func TestPairedProperties(t *testing.T) {
+	rng := rand.New(rand.NewPCG(31, 41))
+	for trial := range 200 {
+		n := 2 + rng.IntN(40)
+		a, b := make([]float64, n), make([]float64, n)
+		labels := make([]bool, n)
+		weights := make([]float64, n)
+		for i := range n {
+			a[i] = float64(rng.IntN(6))
+			b[i] = float64(rng.IntN(4)) / 2
+			labels[i] = rng.IntN(3) == 0
+			weights[i] = float64(rng.IntN(3))
+		}
+		labels[0], labels[1], weights[0], weights[1] = true, false, 1, 1 // both classes weigh something
+		w := weights
+		if trial%3 == 0 {
+			w = nil
+		}
+		got, err := modelpair.Paired(a, b, labels, w, false)
+		if err != nil {
+			t.Fatalf("trial %d: %v", trial, err)
+		}
+		for r, model := range [][]float64{a, b} {
+			var ws []float64
+			if w != nil {
+				ws = append([]float64(nil), w...)
+			}
+			set, err := scores.New(append([]float64(nil), model...), append([]bool(nil), labels...), ws, false)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if auc := curve.Walk(set, nil).ROCAUC; !close(got.AUC[r], auc) {
+				t.Errorf("trial %d: model %d AUC %v, curve's %v", trial, r, got.AUC[r], auc)
+			}
+		}
+		swapped, _ := modelpair.Paired(b, a, labels, w, false)
+		if !close(swapped.AUC[0], got.AUC[1]) || !close(swapped.AUC[1], got.AUC[0]) || !close(swapped.Difference, -got.Difference) ||
+			!close(swapped.Variance[0], got.Variance[1]) || !close(swapped.StdError, got.StdError) || !close(swapped.Z, -got.Z) || !close(swapped.P, got.P) {
+			t.Errorf("trial %d: swapped %+v, original %+v", trial, swapped, got)
+		}
+		negA, negB := make([]float64, n), make([]float64, n)
+		for i := range n {
+			negA[i], negB[i] = -a[i], -b[i]
+		}
+		flipped, _ := modelpair.Paired(negA, negB, labels, w, true)
+		if !close(flipped.AUC[0], got.AUC[0]) || !close(flipped.AUC[1], got.AUC[1]) || !close(flipped.Covariance, got.Covariance) ||
+			!close(flipped.StdError, got.StdError) || !close(flipped.Z, got.Z) || !close(flipped.P, got.P) {
+			t.Errorf("trial %d: negated and flipped %+v, original %+v", trial, flipped, got)
+		}
+	}
+}
