@@ -421,7 +421,11 @@ func (r Review) notesView(at rect) string {
 	lines := append(note("note on "+selected.Name+": ", selected.Note), note("file note: ", f.Note)...)
 	innerH := at.H - st.Pane.GetVerticalFrameSize()
 	if len(lines) >= innerH {
+		// Mark the cut, so that a note cut short does not read as whole.
 		lines = lines[:max(innerH-1, 0)]
+		if n := len(lines); n > 0 {
+			lines[n-1] = ansi.Truncate(lines[n-1], max(innerW-2, 1), "…") + " …"
+		}
 	}
 	lines = append(lines, deploy)
 	return framed(st.Pane, st.PaneEdge, st.Title, "notes", strings.Join(lines, "\n"), at.W, at.H)

@@ -351,3 +351,30 @@ func TestReviewWriteAndQuit(t *testing.T) {
 		t.Errorf("status %q, changed %v after a failed write", r.status, r.Changed())
 	}
 }
+
+// TestReviewNoteCutShort checks that a note longer than the notes pane
+// ends in … where it is cut, and shows whole where there is room.
+func TestReviewNoteCutShort(t *testing.T) {
+	note := "Signed off by the depot lead after the trial; revisit when the harbour sheds get their new sensors next spring."
+	for _, tc := range []struct {
+		w, h int
+		cut  bool
+	}{{80, 24, true}, {120, 40, false}} {
+		r, _ := newTestReview(t, tc.w, tc.h)
+		r.file.Note = note
+		v := r.View()
+		checkSize(t, v, tc.w, tc.h)
+		var noteLine string
+		for _, line := range strings.Split(v, "\n") {
+			if strings.Contains(line, "file note: ") {
+				noteLine = line
+			}
+		}
+		if got := strings.Contains(noteLine, "…"); got != tc.cut {
+			t.Errorf("%dx%d: file note line %q, cut mark %v, want %v", tc.w, tc.h, noteLine, got, tc.cut)
+		}
+		if !tc.cut && !strings.Contains(v, "spring.") {
+			t.Errorf("%dx%d: the note's end is missing:\n%s", tc.w, tc.h, v)
+		}
+	}
+}
