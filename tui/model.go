@@ -449,9 +449,12 @@ func (m Model) stripKey(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 		s.cursor = s.pins[s.selected].cut
 		m.list.follow()
 	case key.Matches(msg, k.Remove):
-		name := s.pins[s.selected].name
+		name, wasChosen := s.pins[s.selected].name, s.selected == s.reference
 		s.removeSelected()
 		m.status = fmt.Sprintf("unpinned %q", name)
+		if wasChosen && len(s.pins) > 0 {
+			m.status += fmt.Sprintf("; %q is the chosen cut now", s.pins[s.reference].name)
+		}
 		if len(s.pins) == 0 {
 			m.focus = focusList
 		}

@@ -211,6 +211,9 @@ func TestPinAndStrip(t *testing.T) {
 	if got := strings.Join(m.Pins(), ","); got != "base,hit=0.8" || m.s.reference != 0 {
 		t.Errorf("x gave %q reference %d, want base,hit=0.8 with the reference back on the first", got, m.s.reference)
 	}
+	if want := `unpinned "lead's pick"; "base" is the chosen cut now`; m.status != want {
+		t.Errorf("unpinning the chosen candidate: status %q, want %q", m.status, want)
+	}
 	m = keys(m, "x", "x")
 	if len(m.Pins()) != 0 || m.focus != focusList {
 		t.Errorf("removing every pin left %v, focus %v", m.Pins(), m.focus)
