@@ -8,6 +8,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"math/big"
 	"runtime"
 	"runtime/debug"
 	"slices"
@@ -34,7 +35,8 @@ var ErrBadParquet = errors.New("unreadable parquet")
 //
 // Columns are found by name as Read finds them, with the same defaults; a
 // column inside a group is named by its path joined with dots. Scores and
-// weights may be float, double or integer columns (decimals included) or
+// weights may be float, double or integer columns, decimals (stored as
+// integers or as byte arrays) or
 // text holding numbers; a 32-bit float is read as its shortest decimal
 // text, as a CSV export of the column would show it; labels may be boolean, integer or float columns
 // (1 and 0) or text read as Read reads it, --positive included. A null
@@ -378,6 +380,10 @@ func parquetNumber(v parquet.Value, kind numberKind, parse func(string) (float64
 		}
 		return x, nil
 	case parquet.ByteArray, parquet.FixedLenByteArray:
+		if kind.decimal {
+			x, _ := decimalBytes(v.ByteArray(), kind.scale)
+			return parse(strconv.FormatFloat(x, 'g', -1, 64))
+		}
 		return parse(string(v.ByteArray()))
 	}
 	return 0, &valueError{sentinel: ErrBadParquet, value: v.Kind().String(), hint: "expected a number or text column"}
@@ -388,6 +394,7 @@ func parquetNumber(v parquet.Value, kind numberKind, parse func(string) (float64
 type numberKind struct {
 	scale    int
 	unsigned bool
+	decimal  bool // a decimal column, whose byte arrays hold unscaled integers
 }
 
 // kindOf reads the numberKind of a leaf column once.
@@ -399,7 +406,7 @@ func kindOf(leaf parquet.LeafColumn) numberKind {
 	if lt := leaf.Node.Type().LogicalType(); lt != nil {
 		switch t := lt.Value.(type) {
 		case *format.DecimalType:
-			k.scale = int(t.Scale)
+			k.scale, k.decimal = int(t.Scale), true
 		case *format.IntType:
 			k.unsigned = !t.IsSigned
 		}
@@ -430,6 +437,11 @@ func numericValue(v parquet.Value, kind numberKind) (float64, bool) {
 		if unsigned {
 			x = float64(v.Uint64())
 		}
+	case parquet.ByteArray, parquet.FixedLenByteArray:
+		if !kind.decimal {
+			return 0, false
+		}
+		return decimalBytes(v.ByteArray(), scale)
 	default:
 		return 0, false
 	}
@@ -466,6 +478,34 @@ func decimalValue(v parquet.Value, scale int, unsigned bool) (float64, bool) {
 	return x, err == nil
 }
 
+// decimalBytes reads a decimal stored as a byte array, as writers store
+// decimals of more than 18 digits: a big-endian two's complement unscaled
+// integer, read through its decimal text with the scale as decimalValue
+// reads one. ok is false for an empty array.
+func decimalBytes(data []byte, scale int) (float64, bool) {
+	if len(data) == 0 {
+		return 0, false
+	}
+	unscaled := new(big.Int).SetBytes(data)
+	if data[0]&0x80 != 0 {
+		unscaled.Sub(unscaled, new(big.Int).Lsh(big.NewInt(1), uint(8*len(data))))
+	}
+	digits := unscaled.String()
+	if scale <= 0 {
+		x, err := strconv.ParseFloat(digits, 64)
+		return x, err == nil
+	}
+	sign := ""
+	if strings.HasPrefix(digits, "-") {
+		sign, digits = "-", digits[1:]
+	}
+	if len(digits) <= scale {
+		digits = strings.Repeat("0", scale-len(digits)+1) + digits
+	}
+	x, err := strconv.ParseFloat(sign+digits[:len(digits)-scale]+"."+digits[len(digits)-scale:], 64)
+	return x, err == nil
+}
+
 // parquetLabel reads a label: booleans as they are, numbers 1 and 0, text
 // as Read reads it.
 func (b *builder) parquetLabel(v parquet.Value, kind numberKind) (bool, error) {
@@ -479,7 +519,9 @@ func (b *builder) parquetLabel(v parquet.Value, kind numberKind) (bool, error) {
 		}
 		return v.Boolean(), nil
 	case parquet.ByteArray, parquet.FixedLenByteArray:
-		return b.parseLabel(string(v.ByteArray()))
+		if !kind.decimal {
+			return b.parseLabel(string(v.ByteArray()))
+		}
 	}
 	x, ok := numericValue(v, kind)
 	if !ok {
@@ -498,7 +540,9 @@ func parquetText(v parquet.Value, kind numberKind) string {
 	}
 	switch v.Kind() {
 	case parquet.ByteArray, parquet.FixedLenByteArray:
-		return string(bytes.Clone(v.ByteArray()))
+		if !kind.decimal {
+			return string(bytes.Clone(v.ByteArray()))
+		}
 	case parquet.Boolean:
 		return strconv.FormatBool(v.Boolean())
 	}

@@ -260,3 +260,54 @@ func withScores(rows []parquetRow) []parquetRow {
 	}
 	return out
 }
+
+// decimalRow has a score stored as a decimal of 38 digits, which writers
+// keep in a 16-byte array rather than an integer column.
+type decimalRow struct {
+	Score  [16]byte `parquet:"score,decimal(3:38)"`
+	Label  int32    `parquet:"label"`
+	Weight [16]byte `parquet:"weight,decimal(1:38)"`
+}
+
+// decimal16 stores v as a 16-byte big-endian two's complement integer.
+func decimal16(v int64) [16]byte {
+	var out [16]byte
+	for i := range 8 {
+		out[15-i] = byte(v >> (8 * i))
+	}
+	if v < 0 {
+		for i := range 8 {
+			out[i] = 0xff
+		}
+	}
+	return out
+}
+
+// TestReadParquetDecimalBytes: decimals stored as byte arrays read as the
+// numbers they hold, scale applied. Hand-worked: unscaled 150, -25 and
+// 999 at scale 3 are 0.15, -0.025 and 0.999; weights 15 and 20 at scale 1
+// are 1.5 and 2. The reference is Read of the same numbers as text. Once
+// the bytes were read as text and every row was an invalid score.
+func TestReadParquetDecimalBytes(t *testing.T) {
+	var buf bytes.Buffer
+	w := parquet.NewGenericWriter[decimalRow](&buf)
+	if _, err := w.Write([]decimalRow{{decimal16(150), 1, decimal16(15)}, {decimal16(-25), 0, decimal16(20)}, {decimal16(999), 1, decimal16(0)}}); err != nil {
+		t.Fatal(err)
+	}
+	if err := w.Close(); err != nil {
+		t.Fatal(err)
+	}
+	opt := Options{WeightColumn: "weight"}
+	got, err := ReadParquet(bytes.NewReader(buf.Bytes()), int64(buf.Len()), "d.parquet", opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want, err := Read(strings.NewReader("score,label,weight\n0.15,1,1.5\n-0.025,0,2\n0.999,1,0\n"), "d.parquet", opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want.SHA256, got.SHA256 = "", ""
+	if !reflect.DeepEqual(want, got) {
+		t.Errorf("sets differ\nCSV     %+v\nParquet %+v", brief(want), brief(got))
+	}
+}
