@@ -16,7 +16,7 @@ import (
 //	bit 0  LowerIsRiskier        bit 3  weight column "w"
 //	bit 1  DropInvalid           bit 4  segment column "seg" and id column "id"
 //	bit 2  force JSON Lines      bit 5  force CSV with ';'
-//	bit 6  --positive "1"
+//	bit 6  --positive "1"        bit 7  time column "at" and second score "b"
 func fuzzOptions(mode uint8) scores.Options {
 	var opt scores.Options
 	opt.LowerIsRiskier = mode&1 != 0
@@ -35,6 +35,9 @@ func fuzzOptions(mode uint8) scores.Options {
 	}
 	if mode&64 != 0 {
 		opt.Positive = "1"
+	}
+	if mode&128 != 0 {
+		opt.TimeColumn, opt.CompareColumn = "at", "b"
 	}
 	return opt
 }
