@@ -151,7 +151,9 @@ func New(set *scores.Set, sum curve.Summary, a projection.Assumptions, outcomes 
 	return r
 }
 
-// Warnings lists what a reader of any output should know about the data.
+// Warnings lists what a reader of any output should know about the data:
+// dropped rows, a class missing, and a ROC AUC below 0.5 (the direction
+// probably the wrong way round).
 func Warnings(set *scores.Set, sum curve.Summary) []string {
 	var w []string
 	if set.Dropped > 0 {
@@ -165,6 +167,14 @@ func Warnings(set *scores.Set, sum curve.Summary) []string {
 		w = append(w, "the validation set has no true cases: hit share, AUC and average precision are undefined")
 	case !(sum.Negatives > 0):
 		w = append(w, "the validation set has no false cases: false positive rate and AUC are undefined")
+	case sum.ROCAUC < 0.5:
+		// More often than not a false case outranks a true one: most
+		// likely the direction is the wrong way round.
+		flip := "if lower scores mean likely true cases, add --lower-is-riskier"
+		if set.LowerIsRiskier {
+			flip = "if higher scores mean likely true cases, drop --lower-is-riskier"
+		}
+		w = append(w, "ROC AUC "+Fixed(sum.ROCAUC, 3)+" is below 0.5: the scores rank false cases above true ones more often than not; "+flip)
 	}
 	return w
 }

@@ -649,9 +649,15 @@ func TestWarnings(t *testing.T) {
 		{"no true case", []float64{0.9}, []bool{false}, nil, []string{"the validation set has no true cases: hit share, AUC and average precision are undefined"}},
 		{"no false case", []float64{0.9}, []bool{true}, nil, []string{"the validation set has no false cases: false positive rate and AUC are undefined"}},
 		{"no weight", []float64{0.9, 0.1}, []bool{true, false}, []float64{0, 0}, []string{"every row weighs 0: no rate or summary figure is defined"}},
+		// The true case scores below both false ones: of its 2 pairs it
+		// wins none, ROC AUC 0/2 = 0 (by hand).
+		{"upside down", []float64{0.1, 0.5, 0.9}, []bool{true, false, false}, nil, []string{"ROC AUC 0.000 is below 0.5: the scores rank false cases above true ones more often than not; if lower scores mean likely true cases, add --lower-is-riskier"}},
+		{"upside down, lower is riskier", []float64{0.9, 0.5, 0.1}, []bool{true, false, false}, nil, []string{"ROC AUC 0.000 is below 0.5: the scores rank false cases above true ones more often than not; if higher scores mean likely true cases, drop --lower-is-riskier"}},
+		// A tie between the two classes counts half: AUC 0.5, no warning.
+		{"a tie, AUC 0.5", []float64{0.5, 0.5}, []bool{true, false}, nil, nil},
 	}
 	for _, tc := range cases {
-		set, err := scores.New(tc.values, tc.labels, tc.weights, false)
+		set, err := scores.New(tc.values, tc.labels, tc.weights, strings.Contains(tc.name, "lower is riskier"))
 		if err != nil {
 			t.Fatal(err)
 		}
