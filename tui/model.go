@@ -815,8 +815,12 @@ func (m Model) footer(width int) string {
 	// gives way before them.
 	tail := render(hint{k.Help, "all keys"}) + separator + render(hint{k.Quit, "quit"})
 	lead := ""
-	if m.unwritten && len(m.s.pins) > 0 {
+	switch {
+	case m.unwritten && len(m.s.pins) > 0:
 		lead = st.Warning.Render("not written") + separator
+	case m.written != "" && m.status == "":
+		// Whether the pins on screen are the file's, at a glance.
+		lead = st.Muted.Render("written: "+m.written) + separator
 	}
 	if m.status != "" {
 		bar := st.Footer.Render("  │ ")

@@ -83,6 +83,16 @@ func TestViewSaved(t *testing.T) {
 		t.Errorf("folder holds %v, want only cut.yaml", entries)
 	}
 	checkFrame(t, "saved-80x24", m.View(), 80, 24)
+	// Once the status gives way, the footer still says the file holds
+	// what is pinned, until something changes.
+	m = keys(m, "j")
+	if footer := m.footer(80); !strings.HasPrefix(footer, "written: cut.yaml · ") {
+		t.Errorf("footer after a move %q, want it to start with the file written", footer)
+	}
+	m = keys(m, "p")
+	if footer := m.footer(80); !strings.Contains(footer, "not written") || strings.Contains(footer, "written: ") {
+		t.Errorf("footer after a new pin %q, want not written", footer)
+	}
 }
 
 // TestViewLoading draws the screen while the scores are read.
