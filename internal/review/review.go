@@ -182,7 +182,7 @@ func WriteMarkdown(w io.Writer, f *decision.File, path string) error {
 	b.WriteString("| " + strings.Join(align, " | ") + " |\n")
 	for _, r := range rows {
 		if strings.HasPrefix(r[0], "  ") { // a detail row, whose indent Markdown drops
-			r = append([]string{"· " + strings.TrimSpace(r[0])}, r[1:]...)
+			r = append([]string{"↳ " + strings.TrimSpace(r[0])}, r[1:]...) // as report's Markdown marks a detail row
 		}
 		row(r)
 	}
