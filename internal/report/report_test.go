@@ -666,3 +666,24 @@ func TestWarnings(t *testing.T) {
 		}
 	}
 }
+
+// TestMarkdownEscape: what a note may hold comes out as written once a
+// Markdown viewer renders it (CommonMark's backslash escapes; common
+// practice, no source beyond the CommonMark spec's list of escapable
+// punctuation).
+func TestMarkdownEscape(t *testing.T) {
+	for _, tc := range []struct{ in, want string }{
+		{"plain words", "plain words"},
+		{"a | b", `a \| b`},
+		{"*stars* and _under_", `\*stars\* and \_under\_`},
+		{"`code`", "\\`code\\`"},
+		{"<night> shift", `\<night> shift`},
+		{"</b> <!-- x", `\</b> \<!-- x`},
+		{"score <= 0.3, a < b", "score <= 0.3, a < b"},
+		{"line one\nline two\r\nline three", "line one line two line three"},
+	} {
+		if got := report.MarkdownEscape(tc.in); got != tc.want {
+			t.Errorf("MarkdownEscape(%q) = %q, want %q", tc.in, got, tc.want)
+		}
+	}
+}

@@ -273,11 +273,24 @@ func grid(header []string, rows [][]string, wordsLast bool) string {
 	return b.String()
 }
 
-// MarkdownEscape escapes the characters that Markdown tables and emphasis
-// read, and folds line breaks into spaces.
+// MarkdownEscape escapes the characters that Markdown tables, emphasis and
+// inline HTML read (so that a note such as "<night> shift" shows as
+// written), and folds line breaks into spaces.
 func MarkdownEscape(s string) string {
-	return strings.NewReplacer("|", `\|`, "*", `\*`, "_", `\_`, "`", "\\`", "\n", " ").Replace(s)
+	s = strings.NewReplacer("|", `\|`, "*", `\*`, "_", `\_`, "`", "\\`", "\r\n", " ", "\n", " ").Replace(s)
+	// A "<" opens inline HTML only before a letter, "/", "!" or "?"; a
+	// figure's "<=" is left as it is.
+	var b strings.Builder
+	for i := 0; i < len(s); i++ {
+		if s[i] == '<' && i+1 < len(s) && (isASCIILetter(s[i+1]) || strings.IndexByte("/!?", s[i+1]) >= 0) {
+			b.WriteByte('\\')
+		}
+		b.WriteByte(s[i])
+	}
+	return b.String()
 }
+
+func isASCIILetter(c byte) bool { return 'a' <= c && c <= 'z' || 'A' <= c && c <= 'Z' }
 
 func mdEscapeAll(cells []string) []string {
 	out := make([]string, len(cells))
