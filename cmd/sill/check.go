@@ -90,6 +90,10 @@ decision file.`,
 			}
 			set, err := input.load(args[1], cmd.InOrStdin(), nil)
 			if err != nil {
+				var parseErr *scores.ParseError
+				if errors.As(err, &parseErr) && errors.Is(err, scores.ErrMissingColumn) && parseErr.Column != "" && parseErr.Column == file.Data.ScoreColumn && !fs.Changed("score") {
+					return fmt.Errorf("%w; it is the score column of %s, --score names the column of the new scores", err, args[0])
+				}
 				if errors.Is(err, scores.ErrBadLabel) && !ignoreLabels {
 					// Fresh scores often come before their outcomes.
 					return fmt.Errorf("%w; --ignore-labels checks the alert rate and scores without them", err)

@@ -94,6 +94,15 @@ func TestCheckErrors(t *testing.T) {
 	good, _ := os.ReadFile(cutPath)
 	broken := writeFile(t, dir, "broken.yaml", []byte(strings.Replace(string(good), "chosen: \"hit=0.8\"", "chosen: \"hit=0.9\"", 1)))
 	notYAML := writeFile(t, dir, "not.yaml", []byte("format: [\n"))
+	// A decision file chosen on a score column of its own name.
+	renamed := writeFile(t, dir, "renamed.csv", []byte(strings.Replace(string(bearingsCSV(1, 2000, 0.07, 0, true)), "score,", "p_fail,", 1)))
+	renamedPath := filepath.Join(dir, "renamed.yaml")
+	if r := runSill(t, "", "report", renamed, "--score", "p_fail", "--cut", "base", "--save", renamedPath); r.code != 0 {
+		t.Fatalf("save: exit %d, %s", r.code, r.stderr)
+	}
+	if r := runSill(t, "", "check", renamedPath, validation, "--score", "score"); r.code != 0 {
+		t.Errorf("check with --score: exit %d, %s", r.code, r.stderr)
+	}
 	// Outcomes not known yet: the label column is there, its cells blank.
 	blankLabels := writeFile(t, dir, "blank.csv", []byte(strings.Replace(strings.ReplaceAll(string(bearingsCSV(1, 2000, 0.07, 0, false)), "\n", ",\n"), "score,", "score,label", 1)))
 	if r := runSill(t, "", "check", cutPath, blankLabels, "--ignore-labels"); r.code != 0 || !strings.Contains(r.stdout, "no labels") {
@@ -119,6 +128,7 @@ func TestCheckErrors(t *testing.T) {
 		{"one argument", []string{"check", cutPath}, "check takes 2 arguments, the decision file then the new scores"},
 		{"blank labels", []string{"check", cutPath, blankLabels}, `blank.csv:2: column "label": unrecognised label ""`},
 		{"blank labels name the way out", []string{"check", cutPath, blankLabels}, "--ignore-labels checks"},
+		{"the file's score column missing", []string{"check", renamedPath, validation}, `column "p_fail": column not found in header ["score", "label"]; it is the score column of`},
 		{"both from standard input", []string{"check", "-", "-"}, "cannot both come from standard input"},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
