@@ -31,6 +31,10 @@ var (
 	// ErrBadTextType is returned for a type name with quotes, a semicolon,
 	// a dash or a line break, which no type name needs.
 	ErrBadTextType = errors.New("not a type name, expected one such as VARCHAR(255) or STRING")
+	// ErrSegmentName is returned for a segment column named like one of
+	// the counts table's own columns, which the table could not tell
+	// apart from it.
+	ErrSegmentName = errors.New("the counts table has its own columns of that name (score, positives, negatives, unrecognised); rename the column in a view first")
 )
 
 // Query says which table and columns to count.
@@ -78,6 +82,11 @@ func (q Query) SQL() (string, error) {
 	}
 	if q.Digits < -1 || q.Digits > MaxDigits {
 		return "", fmt.Errorf("--digits %d: %w", q.Digits, ErrBadDigits)
+	}
+	for _, own := range []string{"score", "positives", "negatives", "unrecognised"} {
+		if strings.EqualFold(strings.TrimSpace(q.Segment), own) {
+			return "", fmt.Errorf("--segment %q: %w", q.Segment, ErrSegmentName)
+		}
 	}
 	table, err := QuoteQualified(q.Table)
 	if err != nil {

@@ -55,6 +55,8 @@ func TestSQLErrors(t *testing.T) {
 		{Query{Table: "t", Label: "l"}, "--score: empty name"},
 		{Query{Table: "t", Score: "s", Label: "l", Digits: 13}, "--digits 13: digits out of range, expected 0 to 12, or -1 to keep every score as it is"},
 		{Query{Table: "t.", Score: "s", Label: "l"}, `--table: empty name in "t.": a dot must separate two names`},
+		{Query{Table: "t", Score: "s", Label: "l", Segment: "Positives"}, `--segment "Positives": the counts table has its own columns of that name (score, positives, negatives, unrecognised); rename the column in a view first`},
+		{Query{Table: "t", Score: "s", Label: "l", Segment: "score"}, `--segment "score": the counts table has its own columns of that name (score, positives, negatives, unrecognised); rename the column in a view first`},
 		{Query{Table: "t", Score: "s", Label: "l", TextType: "TEXT); DROP TABLE t; --"}, `--text-type "TEXT); DROP TABLE t; --": not a type name, expected one such as VARCHAR(255) or STRING`},
 	}
 	for _, c := range cases {
