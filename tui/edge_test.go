@@ -110,3 +110,40 @@ func TestFooterKeepsHelpAndQuit(t *testing.T) {
 		t.Errorf("footer %q does not show the start of the status", footer)
 	}
 }
+
+// TestFiguresSayWhatIsMissing checks that at 80 columns the figures pane
+// says in full words why the queue and the cost per shift are missing:
+// without a volume, and with costs but no volume.
+func TestFiguresSayWhatIsMissing(t *testing.T) {
+	set, err := scores.New([]float64{0.9, 0.7, 0.3, 0.1}, []bool{true, false, true, false}, nil, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	set.Source = "four.csv"
+	for _, tc := range []struct {
+		name  string
+		costs *projection.Costs
+		want  []string
+	}{
+		{"nothing", nil, []string{"queue per shift: needs a volume (a)", "cost per shift: needs costs (a"}},
+		{"costs", &projection.Costs{FalseAlert: 1, Miss: 10}, []string{"queue per shift: needs a volume (a)", "(per shift: a volume)"}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			assume := func(*scores.Set) (projection.Assumptions, error) {
+				return projection.Assumptions{BaseRate: 0.5, Confidence: 0.95, Costs: tc.costs}, nil
+			}
+			m := loaded(t, set, assume, filepath.Join(t.TempDir(), "cut.yaml"), 80, 24)
+			view := m.figures.View()
+			for _, want := range tc.want {
+				if !strings.Contains(view, want) {
+					t.Errorf("no %q in\n%s", want, view)
+				}
+			}
+			for _, line := range strings.Split(view, "\n") {
+				if strings.Contains(line, "…") {
+					t.Errorf("a line is cut: %q", line)
+				}
+			}
+		})
+	}
+}

@@ -130,6 +130,7 @@ func (p figuresPane) body() string {
 	}
 	var lines []string
 	add := func(format string, args ...any) { lines = append(lines, fmt.Sprintf(format, args...)) }
+	width := p.width - st.Pane.GetHorizontalFrameSize()
 
 	add("%s %s %s", st.Label.Render("flag score "+sign), st.Figure.Render(report.Score(e.Score)),
 		st.Muted.Render(fmt.Sprintf("· %s flagged (%s)", report.Count(e.Flagged), report.Percent(e.FlaggedShare))))
@@ -162,7 +163,7 @@ func (p figuresPane) body() string {
 		return fmt.Sprintf("%s %s %s", st.Label.Render("false positive rate"), report.Percent(e.FalsePositiveRate),
 			st.Muted.Render("· "+alert+" "+report.Percent(e.Projected.AlertRate)))
 	}
-	if line := rates("projected alert rate"); ansi.StringWidth(line) <= p.width-st.Pane.GetHorizontalFrameSize() {
+	if line := rates("projected alert rate"); ansi.StringWidth(line) <= width {
 		lines = append(lines, line)
 	} else {
 		lines = append(lines, rates("alert rate"))
@@ -182,20 +183,22 @@ func (p figuresPane) body() string {
 			lines = append(lines, p.peaksLine(peaks))
 		}
 	} else {
-		add("%s", st.Muted.Render("queue per shift: needs a volume (a to set it)"))
+		lines = append(lines, st.Muted.Render(longestFit(width, "queue per shift: needs a volume (a to set it)", "queue per shift: needs a volume (a)")))
 	}
 	switch {
 	case a.Costs != nil && a.Volume > 0:
 		add("%s %s %s", st.Label.Render("cost per shift"), st.Figure.Render(report.Money(e.Projected.CostPerShift)), st.Muted.Render(costsText(a.Costs)))
 	case a.Costs != nil:
-		add("%s %s %s", st.Label.Render("cost per case"), st.Figure.Render(report.Money(e.Projected.CostPerCase)), st.Muted.Render("(a volume gives it per shift)"))
+		head := st.Label.Render("cost per case") + " " + st.Figure.Render(report.Money(e.Projected.CostPerCase)) + " "
+		lines = append(lines, head+st.Muted.Render(longestFit(width-ansi.StringWidth(head), "(a volume gives it per shift)", "(per shift: a volume)")))
 	default:
-		add("%s", st.Muted.Render("cost per shift: needs costs (a to set them)"))
+		lines = append(lines, st.Muted.Render(longestFit(width, "cost per shift: needs costs (a to set them)", "cost per shift: needs costs (a)")))
 	}
 	if s.reliability != nil {
 		point := s.point()
-		add("%s %s %s", st.Label.Render("net benefit"), st.Figure.Render(report.Fixed(calibration.NetBenefit(point, point.Score), 4)),
-			st.Muted.Render("a case · flag all "+report.Fixed(calibration.NetBenefitAll(s.curve.Summary.BaseRate, point.Score), 4)))
+		head := st.Label.Render("net benefit") + " " + st.Figure.Render(report.Fixed(calibration.NetBenefit(point, point.Score), 4)) + " "
+		all := report.Fixed(calibration.NetBenefitAll(s.curve.Summary.BaseRate, point.Score), 4)
+		lines = append(lines, head+st.Muted.Render(longestFit(width-ansi.StringWidth(head), "a case · flag all "+all, "· flag all "+all)))
 	}
 	if s.second != nil {
 		lines = append(lines, p.secondLine())
@@ -426,4 +429,15 @@ func Reading(share float64) string {
 		verb = "is"
 	}
 	return fmt.Sprintf("about %d in %d alerts %s wrong", bestK, bestD, verb)
+}
+
+// longestFit returns the first of forms, longest first, that fits in width
+// cells, and the last when none does.
+func longestFit(width int, forms ...string) string {
+	for _, f := range forms {
+		if ansi.StringWidth(f) <= width {
+			return f
+		}
+	}
+	return forms[len(forms)-1]
 }
