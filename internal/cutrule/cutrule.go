@@ -187,6 +187,7 @@ type Finder struct {
 	seen         bool
 	first        curve.Point
 	firstFigures projection.Figures
+	leastWrong   float64 // the least defined projected wrong-alert share seen; NaN before one
 
 	// For queue90=K: the shifts of the set's rows, and per rule a counter
 	// of the shift queues (nil for other rules).
@@ -209,7 +210,7 @@ func WithShifts(a shift.Assignment, scale shift.Scale) Option {
 // NewFinder checks that the assumptions suit the rules and returns a
 // Finder for points of set.
 func NewFinder(rules []Rule, set *scores.Set, a projection.Assumptions, opts ...Option) (*Finder, error) {
-	f := &Finder{rules: rules, set: set, cases: set.Cases(), a: a, found: make([]bool, len(rules)), best: make([]Outcome, len(rules))}
+	f := &Finder{rules: rules, set: set, cases: set.Cases(), a: a, found: make([]bool, len(rules)), best: make([]Outcome, len(rules)), leastWrong: math.NaN()}
 	for _, o := range opts {
 		o(f)
 	}
@@ -254,6 +255,9 @@ func (f *Finder) Visit(p curve.Point) {
 				}
 			}
 		}
+	}
+	if wrong := fig.FalseDiscoveryRate(); wrong < f.leastWrong || (math.IsNaN(f.leastWrong) && !math.IsNaN(wrong)) {
+		f.leastWrong = wrong
 	}
 	if !f.seen {
 		f.seen, f.first, f.firstFigures = true, p, fig
@@ -349,8 +353,14 @@ func (f *Finder) reason(r Rule) string {
 		if !(p.Positives() > 0) {
 			return "the validation set has no true cases, so every alert is wrong"
 		}
-		if math.IsNaN(fig.FalseDiscoveryRate()) {
+		if math.IsNaN(f.leastWrong) {
 			return undefined("wrong-alert share")
+		}
+		if f.a.BaseRate == 0 {
+			return fmt.Sprintf("at the production base rate %s every alert is wrong", pct(0))
+		}
+		if math.IsNaN(fig.FalseDiscoveryRate()) {
+			return fmt.Sprintf("every cut has a wrong-alert share above %v; the least is %s", r.Value, pct(f.leastWrong))
 		}
 		return fmt.Sprintf("every cut has a wrong-alert share above %v; the strictest has %s", r.Value, pct(fig.FalseDiscoveryRate()))
 	case Base:

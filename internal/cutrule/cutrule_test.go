@@ -510,3 +510,28 @@ func TestFinderStreams(t *testing.T) {
 		}
 	}
 }
+
+// TestFindWrongUnmetReasons checks the reason of an unmet wrong=F when the
+// set has both classes but the strictest cut's projected wrong-alert share
+// is undefined. Both once read "the validation set has no true cases",
+// which was false. Hand-worked:
+//   - rows 0.9 (true, weight 0), 0.8 (false), 0.5 (true), 0.2 (false) at
+//     base rate 0.5: the cut at 0.9 flags no weight, so its share is
+//     undefined; 0.8 flags one false case (share 100%); 0.5 has recall 1
+//     and false positive rate 0.5, alert rate 0.75, precision 0.5/0.75,
+//     share 33.3%; 0.2 has share 50%. The least is 33.3%.
+//   - the same rows at production base rate 0: every alert is wrong.
+func TestFindWrongUnmetReasons(t *testing.T) {
+	set, err := scores.New([]float64{0.9, 0.8, 0.5, 0.2}, []bool{true, false, true, false}, []float64{0, 1, 1, 1}, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	checkOutcomes(t, curve.New(set), projection.Assumptions{BaseRate: 0.5, Confidence: 0.95}, []want{
+		{"wrong=0.1", unmet, "every cut has a wrong-alert share above 0.1; the least is 33.3%"},
+		{"wrong=0.4", 0.5, ""},
+	})
+	checkOutcomes(t, curve.New(set), projection.Assumptions{BaseRate: 0, Confidence: 0.95}, []want{
+		{"wrong=0.5", unmet, "at the production base rate 0.0% every alert is wrong"},
+		{"hit=0.5", 0.5, ""}, // recall needs no base rate
+	})
+}
