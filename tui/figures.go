@@ -159,14 +159,16 @@ func (p figuresPane) body() string {
 	add("  %s", st.Muted.Render(reading))
 	// The alert rate is projected to production's base rate; say so where
 	// the line has room, as the strip does.
-	rates := func(alert string) string {
-		return fmt.Sprintf("%s %s %s", st.Label.Render("false positive rate"), report.Percent(e.FalsePositiveRate),
+	rates := func(fpr, alert string) string {
+		return fmt.Sprintf("%s %s %s", st.Label.Render(fpr), report.Percent(e.FalsePositiveRate),
 			st.Muted.Render("· "+alert+" "+report.Percent(e.Projected.AlertRate)))
 	}
-	if line := rates("projected alert rate"); ansi.StringWidth(line) <= width {
-		lines = append(lines, line)
-	} else {
-		lines = append(lines, rates("alert rate"))
+	for _, words := range [][2]string{{"false positive rate", "projected alert rate"}, {"false positive rate", "alert rate"}, {"false pos. rate", "alert rate"}} {
+		line := rates(words[0], words[1])
+		if ansi.StringWidth(line) <= width || words[0] != "false positive rate" {
+			lines = append(lines, line)
+			break
+		}
 	}
 	if a.Volume > 0 {
 		queue := st.Label.Render("queue per shift") + " " + st.Figure.Render(report.Queue(e.Projected.QueuePerShift))
