@@ -1,8 +1,25 @@
 package tui
 
 import (
+	"unicode"
+
+	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
 )
+
+// fieldKeys are the editing keys of a textField; typed characters go in
+// as text.
+var fieldKeys = struct {
+	Backspace, Delete, Left, Right, Home, End, Clear key.Binding
+}{
+	Backspace: key.NewBinding(key.WithKeys("backspace"), key.WithHelp("backspace", "delete back")),
+	Delete:    key.NewBinding(key.WithKeys("delete"), key.WithHelp("delete", "delete forward")),
+	Left:      key.NewBinding(key.WithKeys("left"), key.WithHelp("←", "cursor left")),
+	Right:     key.NewBinding(key.WithKeys("right"), key.WithHelp("→", "cursor right")),
+	Home:      key.NewBinding(key.WithKeys("home", "ctrl+a"), key.WithHelp("home/ctrl+a", "to the start")),
+	End:       key.NewBinding(key.WithKeys("end", "ctrl+e"), key.WithHelp("end/ctrl+e", "to the end")),
+	Clear:     key.NewBinding(key.WithKeys("ctrl+u"), key.WithHelp("ctrl+u", "clear")),
+}
 
 // textField is a one-line text entry: typed characters go in at the
 // cursor, backspace and delete remove, left, right, home and end move. The
@@ -38,37 +55,41 @@ func (f textField) Update(msg tea.Msg) (textField, tea.Cmd) {
 	if !ok || !f.focused {
 		return f, nil
 	}
-	switch m.Type {
-	case tea.KeyRunes, tea.KeySpace:
+	k := fieldKeys
+	switch {
+	case m.Type == tea.KeyRunes || m.Type == tea.KeySpace:
 		runes := m.Runes
 		if m.Type == tea.KeySpace {
 			runes = []rune{' '}
 		}
 		for _, r := range runes {
+			if unicode.IsControl(r) {
+				r = ' ' // a pasted line break or tab stays on the one line
+			}
 			if f.limit > 0 && len(f.value) >= f.limit {
 				break
 			}
 			f.value = append(f.value[:f.cursor], append([]rune{r}, f.value[f.cursor:]...)...)
 			f.cursor++
 		}
-	case tea.KeyBackspace:
+	case key.Matches(m, k.Backspace):
 		if f.cursor > 0 {
 			f.value = append(f.value[:f.cursor-1], f.value[f.cursor:]...)
 			f.cursor--
 		}
-	case tea.KeyDelete:
+	case key.Matches(m, k.Delete):
 		if f.cursor < len(f.value) {
 			f.value = append(f.value[:f.cursor], f.value[f.cursor+1:]...)
 		}
-	case tea.KeyLeft:
+	case key.Matches(m, k.Left):
 		f.cursor = max(f.cursor-1, 0)
-	case tea.KeyRight:
+	case key.Matches(m, k.Right):
 		f.cursor = min(f.cursor+1, len(f.value))
-	case tea.KeyHome, tea.KeyCtrlA:
+	case key.Matches(m, k.Home):
 		f.cursor = 0
-	case tea.KeyEnd, tea.KeyCtrlE:
+	case key.Matches(m, k.End):
 		f.cursor = len(f.value)
-	case tea.KeyCtrlU:
+	case key.Matches(m, k.Clear):
 		f.value, f.cursor = f.value[:0], 0
 	}
 	return f, nil
