@@ -205,12 +205,14 @@ func (r Review) key(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 		r.refresh()
 	case key.Matches(msg, k.Choose):
 		name := r.file.Candidates[r.selected].Name
-		if name != r.file.Chosen {
-			r.file.Chosen = name
-			r.changed = true
-			r.status = "chosen: " + name + " (not written yet: w writes)"
-			r.refresh()
+		if name == r.file.Chosen {
+			r.status = name + " is already the chosen one"
+			break
 		}
+		r.file.Chosen = name
+		r.changed = true
+		r.status = "chosen: " + name + " (not written yet: w writes)"
+		r.refresh()
 	case key.Matches(msg, k.Note):
 		r.editNote(r.selected)
 	case key.Matches(msg, k.FileNote):

@@ -378,3 +378,13 @@ func TestReviewNoteCutShort(t *testing.T) {
 		}
 	}
 }
+
+// TestReviewChooseChosen checks that c on the chosen candidate changes
+// nothing and says so.
+func TestReviewChooseChosen(t *testing.T) {
+	r, _ := newTestReview(t, 100, 30)
+	r, _ = sendReview(t, r, keyPress("c"))
+	if r.Changed() || r.status != "queue=90 is already the chosen one" {
+		t.Errorf("c on the chosen one: changed %v, status %q", r.Changed(), r.status)
+	}
+}
