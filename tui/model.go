@@ -341,6 +341,15 @@ func (m Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		m.status = "not written: " + msg.err.Error()
 		return m, nil
 	case tea.KeyMsg:
+		// Esc and the next key pressed soon after can arrive as one alt
+		// key: take them as the two keys they were, since the explorer
+		// binds no alt key.
+		if msg.Alt && !msg.Paste {
+			next, first := m.Update(tea.KeyMsg{Type: tea.KeyEsc})
+			msg.Alt = false
+			next, second := next.(Model).Update(msg)
+			return next, tea.Batch(first, second)
+		}
 		// Keys typed ahead over a slow link can arrive as one message of
 		// several runes; take them one at a time.
 		if msg.Type == tea.KeyRunes && len(msg.Runes) > 1 && !msg.Paste {

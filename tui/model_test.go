@@ -468,3 +468,22 @@ func TestReading(t *testing.T) {
 		}
 	}
 }
+
+// TestEscThenKey checks that esc and a key read together as alt+key (as
+// a terminal sends them when they come close together) act as the two
+// keys: the form closes and the cursor moves.
+func TestEscThenKey(t *testing.T) {
+	m := tenModel(t)
+	before := cursorScore(t, m)
+	m = keys(m, "a")
+	if len(m.overlays) != 1 {
+		t.Fatal("a did not open the form")
+	}
+	m = send(m, tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune("j"), Alt: true})
+	if len(m.overlays) != 0 {
+		t.Errorf("alt+j left the form open")
+	}
+	if got := cursorScore(t, m); got >= before {
+		t.Errorf("alt+j: cursor at %v, want a looser cut than %v", got, before)
+	}
+}

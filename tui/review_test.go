@@ -388,3 +388,15 @@ func TestReviewChooseChosen(t *testing.T) {
 		t.Errorf("c on the chosen one: changed %v, status %q", r.Changed(), r.status)
 	}
 }
+
+// TestReviewEscThenKey checks that esc and a key read together as alt+key
+// act as the two keys: the help closes and the selection moves.
+func TestReviewEscThenKey(t *testing.T) {
+	r, _ := newTestReview(t, 100, 30)
+	before := r.selected
+	r, _ = sendReview(t, r, keyPress("?"))
+	r, _ = sendReview(t, r, tea.KeyMsg{Type: tea.KeyRight, Alt: true})
+	if len(r.overlays) != 0 || r.selected != before+1 {
+		t.Errorf("alt+right over the help: overlays %v, selected %d, want none and %d", r.overlays, r.selected, before+1)
+	}
+}
