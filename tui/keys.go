@@ -86,7 +86,7 @@ func DefaultKeyMap() KeyMap {
 		MoveLeft:  key.NewBinding(key.WithKeys("<", ","), key.WithHelp("</,", "move candidate left")),
 		MoveRight: key.NewBinding(key.WithKeys(">", "."), key.WithHelp(">/.", "move candidate right")),
 		Rename:    key.NewBinding(key.WithKeys("r"), key.WithHelp("r", "rename candidate")),
-		Choose:    key.NewBinding(key.WithKeys("c"), key.WithHelp("c", "choose (reference)")),
+		Choose:    key.NewBinding(key.WithKeys("c"), key.WithHelp("c", "choose: the others vs it")),
 
 		Assumptions: key.NewBinding(key.WithKeys("a"), key.WithHelp("a", "edit assumptions")),
 		Write:       key.NewBinding(key.WithKeys("w"), key.WithHelp("w", "write decision file")),
