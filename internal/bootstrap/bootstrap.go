@@ -20,7 +20,13 @@
 // table counts, each case equally likely, in the same ranked order as the
 // raw rows the table aggregates. With the same seed it therefore gives the
 // very same result as the unweighted raw rows (the band cuts too are
-// spread over the cases).
+// spread over the cases). Drawing case by case costs time in proportion to
+// the cases, so a table of more than MaxCaseDraws cases draws each class's
+// cases at once instead, as sequential binomial counts of its rows (an
+// exact multinomial draw of the same distribution, not the same numbers):
+// a binomial of mean below 30 by waiting times, exactly, and a larger one
+// by the normal distribution with continuity correction, which at such
+// means differs from it by far less than the bootstrap's own noise.
 package bootstrap
 
 import (
@@ -67,6 +73,10 @@ type Options struct {
 	// not use them, since queue90=K is not resampled (see Spread).
 	FinderOptions []cutrule.Option
 }
+
+// MaxCaseDraws is the most cases of a counts table that are drawn one by
+// one; see the package doc.
+const MaxCaseDraws = 1 << 22
 
 // Errors of Run.
 var (
@@ -308,8 +318,12 @@ func bandCuts(set *scores.Set, k int) []bandCut {
 type replicator struct {
 	set                        *scores.Set
 	positiveRows, negativeRows []int
-	counts                     []int32
+	counts                     []int32 // times each row was drawn; for a counts table see drawn
 	rep                        scores.Set
+
+	// drawn holds, for a counts table, how many of each row's cases were
+	// drawn: a count that may pass what int32 holds.
+	drawn []float64
 
 	// For a counts table: the cases of each class, and the cases of that
 	// class in the class's rows before each of them (positiveRows order).
@@ -319,7 +333,12 @@ type replicator struct {
 
 func newReplicator(set *scores.Set, positiveRows, negativeRows []int) *replicator {
 	n := set.Len()
-	r := &replicator{set: set, positiveRows: positiveRows, negativeRows: negativeRows, counts: make([]int32, n)}
+	r := &replicator{set: set, positiveRows: positiveRows, negativeRows: negativeRows}
+	if set.Counts {
+		r.drawn = make([]float64, n)
+	} else {
+		r.counts = make([]int32, n)
+	}
 	r.rep = scores.Set{
 		Scores:         make([]float64, 0, n),
 		Labels:         make([]bool, 0, n),
@@ -357,10 +376,10 @@ func drawCase(rows []int, before []float64, c int) int {
 // as often as it was drawn.
 func (r *replicator) draw(seed, b uint64) *scores.Set {
 	rng := rand.New(rand.NewPCG(seed, b))
-	clear(r.counts)
 	if r.set.Counts {
 		return r.drawCases(rng)
 	}
+	clear(r.counts)
 	for range r.positiveRows {
 		r.counts[r.positiveRows[rng.IntN(len(r.positiveRows))]]++
 	}
@@ -388,22 +407,85 @@ func (r *replicator) draw(seed, b uint64) *scores.Set {
 // class as it counts, drawn uniformly, one row per drawn score and label
 // weighted by how often it was drawn.
 func (r *replicator) drawCases(rng *rand.Rand) *scores.Set {
-	for range r.positiveCases {
-		r.counts[drawCase(r.positiveRows, r.positiveBefore, rng.IntN(r.positiveCases))]++
-	}
-	for range r.negativeCases {
-		r.counts[drawCase(r.negativeRows, r.negativeBefore, rng.IntN(r.negativeCases))]++
+	clear(r.drawn)
+	if r.positiveCases+r.negativeCases <= MaxCaseDraws {
+		for range r.positiveCases {
+			r.drawn[drawCase(r.positiveRows, r.positiveBefore, rng.IntN(r.positiveCases))]++
+		}
+		for range r.negativeCases {
+			r.drawn[drawCase(r.negativeRows, r.negativeBefore, rng.IntN(r.negativeCases))]++
+		}
+	} else {
+		r.multinomial(rng, r.positiveRows, r.positiveBefore, r.positiveCases)
+		r.multinomial(rng, r.negativeRows, r.negativeBefore, r.negativeCases)
 	}
 	rep := &r.rep
 	rep.Scores, rep.Labels, rep.Weights = rep.Scores[:0], rep.Labels[:0], rep.Weights[:0]
-	for i, m := range r.counts {
+	for i, m := range r.drawn {
 		if m > 0 {
 			rep.Scores = append(rep.Scores, r.set.Scores[i])
 			rep.Labels = append(rep.Labels, r.set.Labels[i])
-			rep.Weights = append(rep.Weights, float64(m))
+			rep.Weights = append(rep.Weights, m)
 		}
 	}
 	return rep
+}
+
+// multinomial draws cases of one class of a counts table into r.drawn:
+// each row's share of the cases left, from the cases that the rows after
+// it hold, in turn.
+func (r *replicator) multinomial(rng *rand.Rand, rows []int, before []float64, cases int) {
+	left := cases
+	for k, i := range rows {
+		if left == 0 {
+			return
+		}
+		if k == len(rows)-1 {
+			r.drawn[i] += float64(left)
+			return
+		}
+		rest := before[len(rows)] - before[k] // cases of this row and those after it
+		x := binomial(rng, left, r.set.Weight(i)/rest)
+		r.drawn[i] += float64(x)
+		left -= x
+	}
+}
+
+// binomial draws from the binomial distribution of n trials of chance p:
+// by waiting times (geometric gaps between successes) when the mean is
+// below 30, else from the normal distribution of the same mean and
+// variance, rounded and kept within [0, n].
+func binomial(rng *rand.Rand, n int, p float64) int {
+	switch {
+	case n <= 0 || !(p > 0):
+		return 0
+	case p >= 1:
+		return n
+	}
+	flip := p > 0.5
+	if flip {
+		p = 1 - p
+	}
+	x := 0
+	if mean := float64(n) * p; mean < 30 {
+		logFail := math.Log1p(-p)
+		for trial := 0; ; x++ {
+			// The trials up to the next success, compared as a float so
+			// that a huge gap at a tiny p cannot overflow an int.
+			gap := math.Floor(math.Log(1-rng.Float64())/logFail) + 1
+			if gap > float64(n-trial) {
+				break
+			}
+			trial += int(gap)
+		}
+	} else {
+		x = int(math.Floor(mean + math.Sqrt(mean*(1-p))*rng.NormFloat64() + 0.5))
+		x = min(max(x, 0), n)
+	}
+	if flip {
+		x = n - x
+	}
+	return x
 }
 
 // band records the replicate's recall and false discovery rate at the
@@ -412,22 +494,23 @@ func (r *replicator) band(cuts []bandCut, b int, recallAt, fdrAt [][]float64) {
 	if len(cuts) == 0 {
 		return
 	}
-	// A drawn row of a counts table weighs one case per draw.
-	weight := r.set.Weight
+	// drawnWeight is the weight that row i adds to the replicate: a row of
+	// a counts table weighs one case per case drawn.
+	drawnWeight := func(i int) float64 { return float64(r.counts[i]) * r.set.Weight(i) }
 	if r.set.Counts {
-		weight = func(int) float64 { return 1 }
+		drawnWeight = func(i int) float64 { return r.drawn[i] }
 	}
 	var positives float64
-	for i, m := range r.counts {
-		if r.set.Labels[i] {
-			positives += float64(m) * weight(i)
+	for i, positive := range r.set.Labels {
+		if positive {
+			positives += drawnWeight(i)
 		}
 	}
 	var tp, fp float64
 	row := 0
 	for j, cut := range cuts {
 		for ; row < cut.rows; row++ {
-			w := float64(r.counts[row]) * weight(row)
+			w := drawnWeight(row)
 			if r.set.Labels[row] {
 				tp += w
 			} else {

@@ -1,0 +1,89 @@
+package bootstrap
+
+import (
+	"math"
+	"math/rand/v2"
+	"testing"
+
+	"github.com/sill-tool/sill/internal/scores"
+)
+
+// TestBinomialMoments: the binomial draws have the mean n*p and variance
+// n*p*(1-p) of the binomial distribution (textbook formulas), on both
+// sides of the switch from waiting times to the normal, at p above one
+// half (drawn as failures), at the edges p = 0 and 1, and at a p so small
+// that a waiting time overflows an int. Seeded; 20000 draws each, so the
+// sample mean is within 5 standard errors of n*p and the sample variance
+// within 10% of n*p*(1-p).
+func TestBinomialMoments(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 6))
+	for _, c := range []struct {
+		n int
+		p float64
+	}{{10, 0.3}, {1000, 0.02}, {1000, 0.029}, {1000, 0.031}, {100000, 0.4}, {50, 0.9}, {3_000_000_000, 0.5}, {1 << 40, 1e-13}} {
+		const draws = 20000
+		var sum, sumSquares float64
+		for range draws {
+			x := binomial(rng, c.n, c.p)
+			if x < 0 || x > c.n {
+				t.Fatalf("n %d p %v: draw %d outside [0, n]", c.n, c.p, x)
+			}
+			sum += float64(x)
+			sumSquares += float64(x) * float64(x)
+		}
+		mean := sum / draws
+		variance := sumSquares/draws - mean*mean
+		wantMean, wantVariance := float64(c.n)*c.p, float64(c.n)*c.p*(1-c.p)
+		if math.Abs(mean-wantMean) > 5*math.Sqrt(wantVariance/draws) {
+			t.Errorf("n %d p %v: mean %v, want %v", c.n, c.p, mean, wantMean)
+		}
+		if math.Abs(variance-wantVariance) > 0.1*wantVariance {
+			t.Errorf("n %d p %v: variance %v, want %v", c.n, c.p, variance, wantVariance)
+		}
+	}
+	if binomial(rng, 10, 0) != 0 || binomial(rng, 10, 1) != 10 || binomial(rng, 0, 0.5) != 0 {
+		t.Error("edges: p = 0 must give 0, p = 1 must give n, n = 0 must give 0")
+	}
+	if x := binomial(rng, 10, 1e-300); x != 0 {
+		t.Errorf("p = 1e-300 over 10 trials gave %d", x)
+	}
+}
+
+// TestMultinomialKeepsClassSizes: above MaxCaseDraws a counts table's
+// replicate still holds exactly as many cases of each class as the table,
+// spread over its rows in about their shares. Hand-built: true cases
+// 3,000,000 at score 0.9 and 1,000,000 at 0.5; false cases 2,000,000 at
+// 0.5 and 4,000,000 at 0.1 (10 million in all, above 2^22).
+func TestMultinomialKeepsClassSizes(t *testing.T) {
+	set, err := scores.New([]float64{0.9, 0.5, 0.5, 0.1}, []bool{true, true, false, false}, []float64{3e6, 1e6, 2e6, 4e6}, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	set.Counts = true
+	var positiveRows, negativeRows []int
+	for i, positive := range set.Labels {
+		if positive {
+			positiveRows = append(positiveRows, i)
+		} else {
+			negativeRows = append(negativeRows, i)
+		}
+	}
+	r := newReplicator(set, positiveRows, negativeRows)
+	if r.positiveCases+r.negativeCases <= MaxCaseDraws {
+		t.Fatalf("%d cases do not pass MaxCaseDraws", r.positiveCases+r.negativeCases)
+	}
+	for b := range uint64(20) {
+		rep := r.draw(1, b)
+		positives, negatives := rep.Totals()
+		if positives != 4e6 || negatives != 6e6 || !rep.Counts {
+			t.Fatalf("replicate %d: %v true and %v false cases (counts %v), want 4e6 and 6e6", b, positives, negatives, rep.Counts)
+		}
+		for i, w := range rep.Weights {
+			share := w / map[bool]float64{true: 4e6, false: 6e6}[rep.Labels[i]]
+			want := set.Weights[i] / map[bool]float64{true: 4e6, false: 6e6}[set.Labels[i]]
+			if math.Abs(share-want) > 0.002 { // about 8 standard errors of a share near one half among millions
+				t.Errorf("replicate %d row %d: share %v, want about %v", b, i, share, want)
+			}
+		}
+	}
+}
