@@ -432,6 +432,12 @@ func (m Model) key(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 		return m, nil
 	case key.Matches(msg, k.Stability):
 		return m.resampleKey()
+	case matchesDisabled(msg, k.Segments):
+		m.status = "no breakdown by segment: explore with --segment COL to name a group column"
+		return m, nil
+	case matchesDisabled(msg, k.Models):
+		m.status = "one model only: --score a --score b, or --compare FILE --id COL, adds a second"
+		return m, nil
 	}
 	if m.focus == focusStrip {
 		return m.stripKey(msg)
@@ -670,6 +676,16 @@ func (m *Model) refresh() {
 }
 
 func keyName(i int) string { return string(rune('1' + i)) }
+
+// matchesDisabled reports whether msg is the key of b while b is turned
+// off, so that the screen can say why the key does nothing here.
+func matchesDisabled(msg tea.KeyMsg, b key.Binding) bool {
+	if b.Enabled() {
+		return false
+	}
+	b.SetEnabled(true)
+	return key.Matches(msg, b)
+}
 
 // sameAssumptions reports whether a and b are the same assumptions, costs
 // compared by value.

@@ -487,3 +487,15 @@ func TestEscThenKey(t *testing.T) {
 		t.Errorf("alt+j: cursor at %v, want a looser cut than %v", got, before)
 	}
 }
+
+// TestKeysThatNeedMore checks that s and m say what they need when the
+// data has no segments and one model only.
+func TestKeysThatNeedMore(t *testing.T) {
+	m := tenModel(t)
+	for key, want := range map[string]string{"s": "--segment COL", "m": "--score a --score b"} {
+		m = keys(m, key)
+		if len(m.overlays) != 0 || !strings.Contains(m.status, want) {
+			t.Errorf("%s: overlays %v, status %q, want it to name %s", key, m.overlays, m.status, want)
+		}
+	}
+}
