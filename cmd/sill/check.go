@@ -41,12 +41,13 @@ The checks:
   score PSI    the population stability index of the new scores on the
                file's histogram bins; bands of common practice: below 0.1
                stable, 0.1 to 0.25 moderate (reported, not drift), above
-               0.25 large (drift)
+               0.25 large (drift, unless so few new rows give as much
+               through noise alone more than once in a hundred runs)
 
 The shares are compared by two-sample z tests that count the sizes of both
 the validation set and the new data, at the 1% level: on sampling noise
-alone a check drifts about once in a hundred runs, so a scheduled job does
-not cry wolf. --tolerance adds a practical margin: a share drifts only when
+alone each check drifts about once in a hundred runs, so a scheduled job
+does not cry wolf. --tolerance adds a practical margin: a share drifts only when
 it differs by more than the margin beyond sampling noise.
 
 Exit status: 0 when every check is within tolerance, 1 when any drifts

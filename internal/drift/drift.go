@@ -9,7 +9,9 @@
 //     projected alert rate (Compare, a two-sample test over both sizes);
 //   - the score distribution, by the population stability index on the
 //     file's histogram edges, read in the common bands (PSIModerate,
-//     PSILarge); only a large shift counts as drift;
+//     PSILarge); only a large shift counts as drift, and only when it is
+//     beyond what sampling noise alone gives once in a hundred runs
+//     (PSINoiseLevel), so that few new rows do not read as drift;
 //   - with labels, the observed recall against the validation recall and
 //     the observed precision against the projected precision (Compare).
 //
@@ -71,7 +73,12 @@ type Result struct {
 	PSI      float64 // NaN when the file has no histogram
 	PSIBand  string  // "stable", "moderate" or "large"; "" when PSI is NaN
 	PSINoise float64 // about the PSI sampling noise alone gives (PSINoise)
-	Bins     int
+	// PSINoiseLevel is the PSI noise alone exceeds about once in 1/Level
+	// runs (PSINoiseLevel); PSIDrift says the band is large and the PSI
+	// beyond this level.
+	PSINoiseLevel float64
+	PSIDrift      bool
+	Bins          int
 
 	Drift    bool     // any check drifted
 	Findings []string // one line per drift, then notes
@@ -134,7 +141,7 @@ func check(f *decision.File, chosen decision.Candidate, t tally, opt Options) *R
 	res := &Result{
 		Chosen: chosen.Name, Cut: chosen.Cut.Score, LowerIsRiskier: f.Data.LowerIsRiskier,
 		Rows: t.rows, Weight: t.weight, Flagged: t.flagged, Weighted: t.weighted, Labelled: opt.Labelled, Tolerance: opt.Tolerance, Confidence: a.Confidence,
-		PSI: math.NaN(), PSINoise: math.NaN(),
+		PSI: math.NaN(), PSINoise: math.NaN(), PSINoiseLevel: math.NaN(),
 	}
 	tp, positives := t.tp, t.positives
 
@@ -181,10 +188,12 @@ func check(f *decision.File, chosen decision.Candidate, t tally, opt Options) *R
 			validationWeight += c
 		}
 		res.PSINoise = PSINoise(res.Bins, res.Weight, validationWeight)
+		res.PSINoiseLevel = PSINoiseLevel(h.Counts, res.Weight)
 		switch {
 		case math.IsNaN(res.PSI):
 		case res.PSI > PSILarge:
 			res.PSIBand = "large"
+			res.PSIDrift = !(res.PSI <= res.PSINoiseLevel)
 		case res.PSI >= PSIModerate:
 			res.PSIBand = "moderate"
 		default:
@@ -227,7 +236,11 @@ func (r *Result) findings() {
 	}
 	switch r.PSIBand {
 	case "large":
-		drift = append(drift, fmt.Sprintf("score distribution drifted: PSI %.3f, above %v (a large shift)", r.PSI, PSILarge))
+		if r.PSIDrift {
+			drift = append(drift, fmt.Sprintf("score distribution drifted: PSI %.3f, above %v (a large shift)", r.PSI, PSILarge))
+		} else {
+			notes = append(notes, fmt.Sprintf("score distribution: PSI %.3f is in the large band, but sampling noise alone passes %.3f once in a hundred runs on so few rows; not counted as drift", r.PSI, r.PSINoiseLevel))
+		}
 	case "moderate":
 		notes = append(notes, fmt.Sprintf("score distribution moved moderately: PSI %.3f, between %v and %v; watch it, not counted as drift", r.PSI, PSIModerate, PSILarge))
 	case "":

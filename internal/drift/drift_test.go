@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"slices"
 	"strings"
 	"testing"
 
@@ -63,6 +64,89 @@ func TestPSINoise(t *testing.T) {
 	}
 	if got := PSINoise(1, 10, 10); !math.IsNaN(got) {
 		t.Errorf("one bin: %v, want NaN", got)
+	}
+}
+
+func TestPSINoiseLevel(t *testing.T) {
+	// Chi-square quantiles at 0.99 from the printed tables (any statistics
+	// text's chi-square table, from memory): 19 degrees of freedom 36.191,
+	// 9 degrees 21.666, 1 degree 6.635. Wilson-Hilferty is within 0.1 at 19
+	// and 9 and within 0.3 at 1, where it is known to be weakest.
+	for _, tc := range []struct {
+		k, want, within float64
+	}{{19, 36.191, 0.1}, {9, 21.666, 0.1}, {1, 6.635, 0.3}} {
+		if got := chiSquareQuantile(0.99, tc.k); math.Abs(got-tc.want) > tc.within {
+			t.Errorf("chi-square 0.99 quantile, %v degrees: %v, want %v within %v", tc.k, got, tc.want, tc.within)
+		}
+	}
+	even := make([]float64, 20)
+	for i := range even {
+		even[i] = 300
+	}
+	// 4000 new rows expect 200 in each bin: the chi-square reading.
+	if got, want := PSINoiseLevel(even, 4000), chiSquareQuantile(0.99, 19)*(1.0/4000+1.0/6000); !same(got, want) {
+		t.Errorf("PSINoiseLevel %v, want %v", got, want)
+	}
+	// 50 new rows expect 2.5 a bin: drawn, and far above the chi-square
+	// reading, since empty bins count at PSIFloor; the same every time.
+	drawn := PSINoiseLevel(even, 50)
+	if !(drawn > 2*chiSquareQuantile(0.99, 19)*(1.0/50+1.0/6000)) || drawn != PSINoiseLevel(even, 50) {
+		t.Errorf("50 rows: level %v, want well above the chi-square reading and the same on a second call", drawn)
+	}
+	for _, tc := range []struct {
+		name       string
+		validation []float64
+		n          float64
+	}{{"one bin", []float64{10}, 10}, {"no new weight", even, 0}, {"no validation weight", []float64{0, 0}, 10}} {
+		if got := PSINoiseLevel(tc.validation, tc.n); !math.IsNaN(got) {
+			t.Errorf("%s: %v, want NaN", tc.name, got)
+		}
+	}
+}
+
+// TestPSINoiseLevelRate: a validation set of 6000 seeded draws, binned at
+// its own 20 quantiles as the decision file bins it, and new rows drawn
+// from the same distribution pass PSINoiseLevel about once in a hundred
+// runs (Level), for few new rows and for many. The bound of 3% leaves room
+// for the approximations and for the runs' own noise (a 1% rate over 500
+// runs has a standard error of 0.45 points).
+func TestPSINoiseLevelRate(t *testing.T) {
+	rng := rand.New(rand.NewPCG(11, 3))
+	const m, bins, runs = 6000, 20, 500
+	for _, n := range []int{30, 50, 200, 400, 4000} {
+		over, level := 0, math.NaN()
+		for run := 0; run < runs; run++ {
+			validation := make([]float64, m)
+			for i := range validation {
+				validation[i] = rng.Float64()
+			}
+			slices.Sort(validation)
+			edges := make([]float64, bins-1) // upper edges of the first 19 bins
+			for i := range edges {
+				edges[i] = validation[(i+1)*m/bins]
+			}
+			counts, fresh := make([]float64, bins), make([]float64, bins)
+			bin := func(v float64) int { i, _ := slices.BinarySearch(edges, v); return i }
+			for _, v := range validation {
+				counts[bin(v)]++
+			}
+			for j := 0; j < n; j++ {
+				fresh[bin(rng.Float64())]++
+			}
+			if run == 0 {
+				// Quantile bins hold 300 rows each, give or take the one
+				// at an edge: the level of the first run serves them all.
+				level = PSINoiseLevel(counts, float64(n))
+			}
+			if PopulationStability(counts, fresh) > level {
+				over++
+			}
+		}
+		if rate := float64(over) / runs; rate > 0.03 {
+			t.Errorf("%d new rows: noise alone passed the level in %.1f%% of runs, want about 1%%", n, 100*rate)
+		} else {
+			t.Logf("%d new rows: %.1f%% of runs over the level", n, 100*rate)
+		}
 	}
 }
 

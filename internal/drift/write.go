@@ -57,6 +57,8 @@ type jsonResult struct {
 	PSI                number     `json:"psi"`
 	PSIBand            *string    `json:"psi_band"`
 	PSINoise           number     `json:"psi_noise"`
+	PSINoiseLevel      number     `json:"psi_noise_p99"`
+	PSIDrift           bool       `json:"psi_drift"`
 	RecallObserved     number     `json:"recall_observed"`
 	RecallCI           *[2]number `json:"recall_ci"`
 	RecallValidation   number     `json:"recall_validation"`
@@ -98,7 +100,7 @@ func WriteJSON(w io.Writer, r *Result, decisionFile, scoresFile string) error {
 		Rows: r.Rows, Labelled: r.Labelled, Level: Level, BaseRate: number(r.BaseRate), Tolerance: r.Tolerance,
 		AlertRateObserved: number(r.AlertRate.Observed), AlertRateProjected: number(r.AlertRate.Expected),
 		AlertRateCI: pair(r.AlertRate.ObservedCI), AlertRatePValue: pv(r.AlertRate),
-		PSI: number(r.PSI), PSINoise: number(r.PSINoise),
+		PSI: number(r.PSI), PSINoise: number(r.PSINoise), PSINoiseLevel: number(r.PSINoiseLevel), PSIDrift: r.PSIDrift,
 		RecallObserved: obs(r.Recall), RecallCI: ci(r.Recall), RecallValidation: number(r.Recall.Expected), RecallPValue: pv(r.Recall),
 		PrecisionObserved: obs(r.Precision), PrecisionCI: ci(r.Precision), PrecisionProjected: number(r.Precision.Expected), PrecisionPValue: pv(r.Precision),
 		Status: r.Status(), Findings: r.Findings, Caution: evidence.Caution,
@@ -167,8 +169,10 @@ func WriteText(w io.Writer, r *Result, decisionFile, scoresFile string) error {
 	add("recall", "validation", r.Recall, r.Labelled)
 	add("precision", "projected", r.Precision, r.Labelled)
 	psiVerdict := "ok"
-	if r.PSIBand == "large" {
+	if r.PSIDrift {
 		psiVerdict = "DRIFT"
+	} else if r.PSIBand == "large" {
+		psiVerdict = "within noise"
 	} else if r.PSIBand == "moderate" {
 		psiVerdict = "watch"
 	}
@@ -178,7 +182,7 @@ func WriteText(w io.Writer, r *Result, decisionFile, scoresFile string) error {
 		rows = append(rows, []string{"score PSI", fmt.Sprintf("%.3f", r.PSI), r.PSIBand, fmt.Sprintf("noise ~%.3f", r.PSINoise), "", "", psiVerdict})
 	}
 	grid(&b, rows)
-	fmt.Fprintf(&b, "\nPSI bands (common practice): below %v stable, %v to %v moderate, above %v large; only large counts as drift.\n",
+	fmt.Fprintf(&b, "\nPSI bands (common practice): below %v stable, %v to %v moderate, above %v large; only large counts as drift, and only beyond what noise alone gives once in a hundred runs.\n",
 		PSIModerate, PSIModerate, PSILarge, PSILarge)
 	if r.Drift {
 		b.WriteString("\nstatus: drift - production no longer behaves like the validation set\n")
