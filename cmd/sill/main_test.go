@@ -123,6 +123,10 @@ func TestRunBadInput(t *testing.T) {
 			"sill: --volume -5: expected a positive number of cases per shift"},
 		{"no file", []string{"report"},
 			"sill: report takes one argument, FILE (the validation set, or - for standard input); got 0 (see sill report --help)"},
+		{"save to a folder", []string{"report", good, "--cut", "base", "--save", dir},
+			"sill: --save " + dir + ": a folder, expected a file name such as " + filepath.Join(dir, "cut.yaml")},
+		{"save to a missing folder", []string{"report", good, "--cut", "base", "--save", filepath.Join(dir, "none", "cut.yaml")},
+			"sill: --save " + filepath.Join(dir, "none", "cut.yaml") + ": the folder " + filepath.Join(dir, "none") + " does not exist"},
 		{"bad demo rows", []string{"demo", "--rows", "0"},
 			"sill: --rows 0: expected at least 1"},
 	}

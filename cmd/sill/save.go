@@ -4,6 +4,8 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"os"
+	"path/filepath"
 	"strings"
 
 	"github.com/spf13/pflag"
@@ -42,6 +44,12 @@ func (s *saveFlags) check() error {
 func (s *saveFlags) write(set *scores.Set, a projection.Assumptions, outcomes []cutrule.Outcome, stderr io.Writer) error {
 	if err := s.check(); err != nil || s.path == "" {
 		return err
+	}
+	if info, err := os.Stat(s.path); err == nil && info.IsDir() {
+		return fmt.Errorf("--save %s: a folder, expected a file name such as %s", s.path, filepath.Join(s.path, "cut.yaml"))
+	}
+	if info, err := os.Stat(filepath.Dir(s.path)); err != nil || !info.IsDir() {
+		return fmt.Errorf("--save %s: the folder %s does not exist", s.path, filepath.Dir(s.path))
 	}
 	var candidates []decision.Candidate
 	var names []string
