@@ -119,11 +119,12 @@ func (o *reportOptions) run(set *scores.Set, stdout, stderr io.Writer) error {
 	}
 	sum := curve.Walk(set, finder.Visit)
 	outcomes := finder.Outcomes()
-	if err := o.save.write(set, a, outcomes, stderr); err != nil {
-		return err
-	}
 	r := report.New(set, sum, a, outcomes)
 	if err := o.beyond.apply(r, set, sum, a, rules, outcomes); err != nil {
+		return err
+	}
+	// Saved once every figure is computed, so that an error leaves no file.
+	if err := o.save.write(set, a, outcomes, stderr); err != nil {
 		return err
 	}
 	// Warnings go to stderr whatever the format; JSON also carries them.
