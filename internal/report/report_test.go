@@ -427,6 +427,10 @@ func checkUnmet(t *testing.T, where string, c map[string]any) {
 func TestWriteJSONValues(t *testing.T) {
 	r, set := scenarios[0].build(t)
 	out := decodeJSON(t, r, points(set))
+	// No warning is an empty list, not null.
+	if w, ok := out["warnings"].([]any); !ok || len(w) != 0 {
+		t.Errorf("warnings %#v, want []", out["warnings"])
+	}
 	num := func(obj map[string]any, key string) float64 {
 		v, ok := obj[key].(float64)
 		if !ok {

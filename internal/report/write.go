@@ -22,6 +22,9 @@ type Points func(visit func(curve.Point))
 // gains a "curve" array, streamed so that a curve of millions of cuts is
 // never held as JSON in memory.
 func WriteJSON(w io.Writer, r *Report, points Points) error {
+	if r.Warnings == nil {
+		r.Warnings = []string{} // a list for scripts, empty rather than null
+	}
 	head, err := json.MarshalIndent(r, "", "  ")
 	if err != nil {
 		return fmt.Errorf("report: %w", err)
