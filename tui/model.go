@@ -135,6 +135,7 @@ type Model struct {
 
 	loading   bool
 	rowsRead  *atomic.Int64
+	readDone  *atomic.Bool // the scores are read; the cuts are being worked out
 	err       error
 	status    string
 	written   string // the path last written, "" before any write
@@ -168,7 +169,7 @@ func New(cfg Config) Model {
 	}
 	s := &session{beyond: beyond{resampling: newResampling()}}
 	m := Model{
-		cfg: cfg, ctx: ctx, s: s, loading: true, rowsRead: new(atomic.Int64),
+		cfg: cfg, ctx: ctx, s: s, loading: true, rowsRead: new(atomic.Int64), readDone: new(atomic.Bool),
 		list:        newListPane(s, ctx),
 		chart:       newCurvePane(s, ctx),
 		figures:     newFiguresPane(s, ctx),
@@ -229,12 +230,17 @@ func tickCmd() tea.Cmd {
 // loadCmd reads the scores, computes the curve once and finds the
 // starting points.
 func (m Model) loadCmd() tea.Cmd {
-	cfg, load, assume, counter := m.cfg, m.cfg.Load, m.cfg.Assume, m.rowsRead
+	cfg, load, assume, counter, done := m.cfg, m.cfg.Load, m.cfg.Assume, m.rowsRead, m.readDone
 	return func() tea.Msg {
 		set, err := load(func(rows int) { counter.Store(int64(rows)) })
 		if err != nil {
 			return errMsg{err}
 		}
+		if set == nil {
+			return errMsg{errors.New("no scores were read")}
+		}
+		counter.Store(int64(set.Len()))
+		done.Store(true)
 		if set.Len() == 0 {
 			return errMsg{fmt.Errorf("%s: no rows to explore", set.Source)}
 		}
@@ -738,6 +744,9 @@ func (m Model) View() string {
 	}
 	if m.loading || m.s.curve == nil {
 		text := fmt.Sprintf("reading scores… %d rows so far", m.rowsRead.Load())
+		if m.readDone.Load() {
+			text = fmt.Sprintf("read %d rows · working out every cut…", m.rowsRead.Load())
+		}
 		return fit(lipgloss.Place(w, h, lipgloss.Center, lipgloss.Center, st.Muted.Render(text)), w, h)
 	}
 	if len(m.overlays) > 0 && m.overlays[len(m.overlays)-1] == overlaySegments {

@@ -101,6 +101,9 @@ func TestViewLoading(t *testing.T) {
 	m = send(m, tea.WindowSizeMsg{Width: 80, Height: 24})
 	m.rowsRead.Store(131072)
 	checkFrame(t, "loading-80x24", m.View(), 80, 24)
+	// Read, and the cuts being worked out.
+	m.readDone.Store(true)
+	checkFrame(t, "loading-80x24-read", m.View(), 80, 24)
 }
 
 // TestViewResize shrinks and grows the terminal: each frame fits.
