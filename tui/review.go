@@ -392,6 +392,9 @@ func (r Review) header(width int) string {
 	rightW := max(min(ansi.StringWidth(right), width-ansi.StringWidth(left)-2), width/3)
 	first := st.Header.Render(fitLine(left, width-rightW-2)) + "  " + st.Muted.Render(fitLine(right, rightW))
 	parts := []string{"base rate " + report.Percent(a.BaseRate)}
+	if total := d.Positives + d.Negatives; total > 0 && f.BaseRateChanged() {
+		parts[0] += " (validation " + report.Percent(d.Positives/total) + ")"
+	}
 	if a.Volume > 0 {
 		parts = append(parts, report.Count(a.Volume)+" per shift")
 	}
