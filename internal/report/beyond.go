@@ -203,7 +203,11 @@ func (r *Report) AddCalibration(set *scores.Set, outcomes []cutrule.Outcome, bin
 			r.Cuts[i].Spec, Score(o.Point.Score), Fixed(float64(nb), 4), Fixed(calibration.NetBenefitAll(float64(r.BaseRate), o.Point.Score), 4)))
 	}
 	r.Calibration = cf
-	r.sections = append(r.sections, section{title: fmt.Sprintf("calibration: reliability table, %s bins (%s)", fmt.Sprint(bins), name), table: t, notes: notes})
+	binsOf := "of equal width"
+	if binning == calibration.Quantile {
+		binsOf = "of about equal rows"
+	}
+	r.sections = append(r.sections, section{title: fmt.Sprintf("calibration: reliability table, %d bins %s", bins, binsOf), table: t, notes: notes})
 	return nil
 }
 
