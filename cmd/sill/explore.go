@@ -192,7 +192,7 @@ func runExplorer(cfg tui.Config) error {
 	path, n := m.Written(), m.Unwritten()
 	switch {
 	case path != "" && n > 0:
-		fmt.Fprintf(os.Stderr, "sill: %s holds the decision as last written; the changes to the candidates or assumptions made after it were not written\n", path)
+		fmt.Fprintf(os.Stderr, "sill: %s holds the decision as last written; the changes after that were not written\n", path)
 	case path != "":
 		fmt.Fprintf(os.Stderr, "sill: the decision is in %s\n", path)
 	case n == 1:
