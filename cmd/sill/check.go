@@ -47,8 +47,8 @@ The checks:
 The shares are compared by two-sample z tests that count the sizes of both
 the validation set and the new data, at the 1% level: on sampling noise
 alone each check drifts about once in a hundred runs, so a scheduled job
-does not cry wolf. --tolerance adds a practical margin: a share drifts only when
-it differs by more than the margin beyond sampling noise.
+does not cry wolf. --tolerance adds a practical margin: a share drifts
+only when it differs by more than the margin beyond sampling noise.
 
 Exit status: 0 when every check is within tolerance, 1 when any drifts
 (the output says which and by how much), 2 for errors such as an unreadable
