@@ -191,7 +191,7 @@ func (p *formPane) load(a projection.Assumptions, validationBaseRate float64) {
 	p.validationBaseRate = validationBaseRate
 	p.applied = false
 	// An empty base rate is the validation set's: say what that is.
-	p.fields[fieldBaseRate].hint = "production share of true cases, as 0.01 or 1%; empty: validation's " + report.Percent(validationBaseRate)
+	p.fields[fieldBaseRate].hint = "production share of true cases, 0.01 or 1%; empty: " + report.Percent(validationBaseRate)
 	text := func(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
 	given := func(v float64) string {
 		if v == 0 {
@@ -374,7 +374,13 @@ func (p formPane) View() string {
 			lines = append(lines, "   "+st.Warning.Render("✗ "+f.err))
 		}
 	}
-	lines = append(lines, "", st.Muted.Render(p.fields[p.focused].hint))
+	// The hint line is as wide as the widest hint, so that the box keeps
+	// its width as the focus moves from field to field.
+	hintW := 0
+	for _, f := range p.fields {
+		hintW = max(hintW, ansi.StringWidth(f.hint))
+	}
+	lines = append(lines, "", st.Muted.Render(fitLine(p.fields[p.focused].hint, hintW)))
 	lines = append(lines, st.Muted.Render("tab/↓ next · enter applies · esc cancels"))
 	return overlayBox(p.ctx, "assumptions", strings.Join(lines, "\n"))
 }
