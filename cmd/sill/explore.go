@@ -97,7 +97,7 @@ both models' cuts side by side.`,
 		Example: `  sill explore bearings.csv --volume 1500 --capacity 90
   sill explore scores.jsonl --cost-false-alert 120 --cost-miss 1200 --out cut.yaml
   sill explore bearings.csv --segment yard --time read_at --shifts 06:00,14:00,22:00 --volume 1500 --capacity 90`,
-		Args: cobra.ExactArgs(1),
+		Args: argsNamed("FILE (the validation set; sill with no arguments explores the demo)"),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			path := args[0]
 			if path == "-" {

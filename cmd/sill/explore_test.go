@@ -16,7 +16,7 @@ func TestExploreWithoutTerminal(t *testing.T) {
 	}{
 		{[]string{"explore", path}, "sill report " + path},
 		{[]string{"explore", "-"}, "cannot read scores from standard input"},
-		{[]string{"explore"}, "accepts 1 arg"},
+		{[]string{"explore"}, "explore takes one argument, FILE"},
 		{[]string{"explore", path, "--volume", "x"}, "invalid argument"},
 		// The flags of the figures beyond the averages are checked before
 		// the terminal.

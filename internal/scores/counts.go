@@ -148,7 +148,7 @@ func ReadCounts(r io.Reader, source string, opt Options) (*Set, error) {
 				return nil, err
 			}
 			if other > 0 {
-				return nil, &ParseError{File: source, Line: line, Column: header[unrecognisedCol], Err: fmt.Errorf("%w: %v cases have a label that is neither a true nor a false case, expected none (set --positive in the query)", ErrBadCount, other)}
+				return nil, &ParseError{File: source, Line: line, Column: header[unrecognisedCol], Err: fmt.Errorf("%w: %v case(s) with a label that is neither a true nor a false case, expected none (set --positive in the query)", ErrBadCount, other)}
 			}
 		}
 		score, err := parseScore(record[b.scoreCol])

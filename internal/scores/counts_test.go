@@ -215,7 +215,7 @@ func TestReadCountsErrors(t *testing.T) {
 		{"negative count", "score,positives,negatives\n0.5,1,2\n0.4,1,-1\n", scores.Options{}, scores.ErrBadCount,
 			`c.csv:3: column "negatives": invalid count "-1", expected a whole number of cases >= 0`},
 		{"unrecognised labels", "score,positives,negatives,unrecognised\n0.5,1,2,0\n0.4,1,1,3\n", scores.Options{}, scores.ErrBadCount,
-			`c.csv:3: column "unrecognised": invalid count: 3 cases have a label that is neither a true nor a false case, expected none (set --positive in the query)`},
+			`c.csv:3: column "unrecognised": invalid count: 3 case(s) with a label that is neither a true nor a false case, expected none (set --positive in the query)`},
 		{"empty score", "score,positives,negatives\n,1,2\n", scores.Options{}, scores.ErrBadScore,
 			`c.csv:2: column "score": invalid score "", expected a number, found an empty cell`},
 		{"ragged", "score,positives,negatives\n0.5,1\n", scores.Options{}, scores.ErrRagged,

@@ -3,6 +3,7 @@ package scores
 import (
 	"bufio"
 	"bytes"
+	"compress/flate"
 	"compress/gzip"
 	"crypto/sha256"
 	"encoding/csv"
@@ -596,7 +597,8 @@ func (b *builder) csvError(err error) error {
 // readError wraps an error from the underlying stream, recognising broken
 // gzip data.
 func (b *builder) readError(line int, err error) error {
-	if errors.Is(err, gzip.ErrChecksum) || errors.Is(err, gzip.ErrHeader) || errors.Is(err, io.ErrUnexpectedEOF) {
+	var corrupt flate.CorruptInputError
+	if errors.Is(err, gzip.ErrChecksum) || errors.Is(err, gzip.ErrHeader) || errors.Is(err, io.ErrUnexpectedEOF) || errors.As(err, &corrupt) {
 		return &ParseError{File: b.source, Line: line, Err: fmt.Errorf("%w: %v", ErrCorruptGzip, err)}
 	}
 	return &ParseError{File: b.source, Line: line, Err: fmt.Errorf("read: %w", err)}
