@@ -10,6 +10,7 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/x/ansi"
 
+	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/report"
 )
@@ -113,7 +114,8 @@ func (p helpPane) View(groups []helpGroup) string {
 	}
 	rows = append(rows,
 		st.Muted.Render("marks: ● true case · ▌ flagged · ▶ the cut's tie group · ◆ chosen · ◇ pinned"),
-		st.Muted.Render("candidate keys act in the strip (tab) · ? or esc closes"))
+		st.Muted.Render("candidate keys act in the strip (tab) · ? or esc closes"),
+		st.Warning.Render(evidence.ShortCaution))
 	body := strings.Join(rows, "\n")
 	return p.box("keys", body)
 }

@@ -12,6 +12,7 @@ import (
 
 	"github.com/sill-tool/sill/internal/compare"
 	"github.com/sill-tool/sill/internal/decision"
+	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/report"
 )
 
@@ -486,7 +487,8 @@ func (r Review) overlayView() string {
 			lines = append(lines, st.Key.Render(pad(b.Help().Key, 6, false))+"  "+b.Help().Desc)
 		}
 		lines = append(lines, "", st.Muted.Render("the figures are the file's evidence and do not change;"),
-			st.Muted.Render("only the choice and the notes are written back"), st.Muted.Render("? or esc closes"))
+			st.Muted.Render("only the choice and the notes are written back"), st.Muted.Render("? or esc closes"),
+			"", st.Warning.Render(evidence.ShortCaution))
 		return overlayBox(r.ctx, "review keys", strings.Join(lines, "\n"))
 	case reviewNote:
 		title := "note on the file"

@@ -65,6 +65,9 @@ func Of(p curve.Point, a projection.Assumptions) Cut {
 // Defined reports whether v is a number rather than NaN or an infinity.
 func Defined(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
 
+// ShortCaution is Caution in one line, for screens.
+const ShortCaution = "a cut supports a decision: validate prospectively; follow local governance"
+
 // Caution is the standing caution that every output carries.
 const Caution = "sill supports a decision; it does not make one. A cut chosen on a validation set " +
 	"must be validated prospectively before it is relied on, and where it affects people " +
