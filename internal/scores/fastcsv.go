@@ -189,42 +189,9 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 			// Copy the rows into place now, while later blocks are parsed,
 			// making room at the first rows for as many as the size says.
 			if b.scores == nil {
-				estimate := int(float64(size)*float64(len(blk.scores))/float64(blk.size)*1.02) + 1024
-				b.scores = make([]float64, 0, estimate)
-				b.labels = make([]bool, 0, estimate)
-				if b.weightCol >= 0 {
-					b.weights = make([]float64, 0, estimate)
-				}
-				if b.segmentCol >= 0 {
-					b.segments = make([]int32, 0, estimate)
-				}
-				if b.idCol >= 0 {
-					b.ids = make([]string, 0, estimate)
-				}
-				if b.timeCol >= 0 {
-					b.times = make([]int64, 0, estimate)
-				}
-				if b.compareCol >= 0 {
-					b.compare = make([]float64, 0, estimate)
-				}
+				b.reserve(int(float64(size)*float64(len(blk.scores))/float64(blk.size)*1.02) + 1024)
 			}
-			b.scores = append(b.scores, blk.scores...)
-			b.labels = append(b.labels, blk.labels...)
-			if b.weights != nil {
-				b.weights = append(b.weights, blk.weights...)
-			}
-			if b.segmentCol >= 0 {
-				b.segments = append(b.segments, blk.segments...)
-			}
-			if b.idCol >= 0 {
-				b.ids = append(b.ids, blk.ids...)
-			}
-			if b.timeCol >= 0 {
-				b.times = append(b.times, blk.times...)
-			}
-			if b.compareCol >= 0 {
-				b.compare = append(b.compare, blk.compare...)
-			}
+			b.appendBlock(blk)
 			select {
 			case p.spare <- blockColumns{blk.scores[:0], blk.labels[:0], blkWeights(blk)}:
 			default:
@@ -251,51 +218,61 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 	}
 
 	if rows > 0 && b.scores == nil { // with no rows the columns stay as Read leaves them
-		b.scores = make([]float64, 0, rows)
-		b.labels = make([]bool, 0, rows)
-		if b.weightCol >= 0 {
-			b.weights = make([]float64, 0, rows)
-		}
-		if b.segmentCol >= 0 {
-			b.segments = make([]int32, 0, rows)
-		}
-		if b.idCol >= 0 {
-			b.ids = make([]string, 0, rows)
-		}
-		if b.timeCol >= 0 {
-			b.times = make([]int64, 0, rows)
-		}
-		if b.compareCol >= 0 {
-			b.compare = make([]float64, 0, rows)
-		}
+		b.reserve(rows)
 	}
 	for i, blk := range parsed {
 		if len(blk.scores) == 0 {
 			continue
 		}
-		b.scores = append(b.scores, blk.scores...)
-		b.labels = append(b.labels, blk.labels...)
-		if b.weights != nil {
-			b.weights = append(b.weights, blk.weights...)
-		}
-		if b.segmentCol >= 0 {
-			b.segments = append(b.segments, blk.segments...)
-		}
-		if b.idCol >= 0 {
-			b.ids = append(b.ids, blk.ids...)
-		}
-		if b.timeCol >= 0 {
-			b.times = append(b.times, blk.times...)
-		}
-		if b.compareCol >= 0 {
-			b.compare = append(b.compare, blk.compare...)
-		}
+		b.appendBlock(blk)
 		parsed[i] = nil
 	}
 	if rows >= returnMemoryRows {
 		debug.FreeOSMemory()
 	}
 	return b.finish(hex.EncodeToString(digest.Sum(nil)))
+}
+
+// reserve makes the builder's columns empty with room for n rows.
+func (b *builder) reserve(n int) {
+	b.scores = make([]float64, 0, n)
+	b.labels = make([]bool, 0, n)
+	if b.weightCol >= 0 {
+		b.weights = make([]float64, 0, n)
+	}
+	if b.segmentCol >= 0 {
+		b.segments = make([]int32, 0, n)
+	}
+	if b.idCol >= 0 {
+		b.ids = make([]string, 0, n)
+	}
+	if b.timeCol >= 0 {
+		b.times = make([]int64, 0, n)
+	}
+	if b.compareCol >= 0 {
+		b.compare = make([]float64, 0, n)
+	}
+}
+
+// appendBlock appends a parsed block's rows to the builder's columns.
+func (b *builder) appendBlock(blk *block) {
+	b.scores = append(b.scores, blk.scores...)
+	b.labels = append(b.labels, blk.labels...)
+	if b.weightCol >= 0 {
+		b.weights = append(b.weights, blk.weights...)
+	}
+	if b.segmentCol >= 0 {
+		b.segments = append(b.segments, blk.segments...)
+	}
+	if b.idCol >= 0 {
+		b.ids = append(b.ids, blk.ids...)
+	}
+	if b.timeCol >= 0 {
+		b.times = append(b.times, blk.times...)
+	}
+	if b.compareCol >= 0 {
+		b.compare = append(b.compare, blk.compare...)
+	}
 }
 
 func isSpaceByte(c byte) bool { return c == ' ' || c == '\t' || c == '\r' || c == '\n' }
