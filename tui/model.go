@@ -351,10 +351,7 @@ func (m Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		// key: take them as the two keys they were, since the explorer
 		// binds no alt key.
 		if msg.Alt && !msg.Paste {
-			next, first := m.Update(tea.KeyMsg{Type: tea.KeyEsc})
-			msg.Alt = false
-			next, second := next.(Model).Update(msg)
-			return next, tea.Batch(first, second)
+			return escThen(m, msg)
 		}
 		// Keys typed ahead over a slow link can arrive as one message of
 		// several runes; take them one at a time.
@@ -885,4 +882,13 @@ func fitStatus(status string, width int) string {
 		return status
 	}
 	return ansi.Truncate(status, max(width, 12), "…")
+}
+
+// escThen takes an alt key as the Esc and the key it was typed as: over a
+// slow link the two arrive as one message. Neither screen binds an alt key.
+func escThen(model tea.Model, msg tea.KeyMsg) (tea.Model, tea.Cmd) {
+	next, first := model.Update(tea.KeyMsg{Type: tea.KeyEsc})
+	msg.Alt = false
+	next, second := next.Update(msg)
+	return next, tea.Batch(first, second)
 }

@@ -182,10 +182,7 @@ func (r Review) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		// Esc and a key pressed soon after can arrive as one alt key; no
 		// alt key is bound, so take them as the two keys they were.
 		if msg.Alt && !msg.Paste {
-			next, first := r.Update(tea.KeyMsg{Type: tea.KeyEsc})
-			msg.Alt = false
-			next, second := next.(Review).Update(msg)
-			return next, tea.Batch(first, second)
+			return escThen(r, msg)
 		}
 		if len(r.overlays) > 0 {
 			return r.overlayKey(msg)
