@@ -2,7 +2,6 @@ package scores
 
 import (
 	"crypto/sha256"
-	"encoding/csv"
 	"encoding/hex"
 	"errors"
 	"fmt"
@@ -63,29 +62,9 @@ func ReadCounts(r io.Reader, source string, opt Options) (*Set, error) {
 		return nil, err
 	}
 	b := &builder{opt: opt, source: source}
-	delim := opt.Delimiter
-	if delim == 0 {
-		headerLine, _ := peekHeader(in)
-		headerLine = []byte(strings.TrimLeft(string(headerLine), "\r\n")) // blank lines before the header, as in Read
-		if i := strings.IndexByte(string(headerLine), '\n'); i >= 0 {
-			headerLine = headerLine[:i]
-		}
-		delim = detectDelimiter(headerLine)
-	}
-	cr := csv.NewReader(in)
-	cr.Comma = delim
-	cr.FieldsPerRecord = -1
-	cr.ReuseRecord = true
-	header, err := cr.Read()
-	if err == io.EOF {
-		return nil, &ParseError{File: source, Err: ErrEmpty}
-	}
+	cr, header, err := b.readHeader(in)
 	if err != nil {
-		return nil, b.csvError(err)
-	}
-	header = trimAll(append([]string(nil), header...))
-	if len(header) == 1 && header[0] == "" {
-		return nil, &ParseError{File: source, Line: 1, Err: ErrEmpty}
+		return nil, err
 	}
 	// The score and segment columns as Read finds them; the counts by name.
 	b.opt.NoLabels = true
@@ -165,14 +144,7 @@ func ReadCounts(r io.Reader, source string, opt Options) (*Set, error) {
 		}
 		segment := int32(-1)
 		if b.segmentCol >= 0 {
-			name := record[b.segmentCol]
-			code, ok := b.segIndex[name]
-			if !ok {
-				code = int32(len(b.segNames))
-				b.segIndex[name] = code
-				b.segNames = append(b.segNames, name)
-			}
-			segment = code
+			segment = b.segmentCode(record[b.segmentCol])
 		}
 		for _, part := range [2]struct {
 			positive bool

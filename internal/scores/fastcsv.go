@@ -173,13 +173,7 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 			// the order the names first appear, as Read numbers them.
 			remap := make([]int32, len(blk.segNames))
 			for local, name := range blk.segNames {
-				code, ok := b.segIndex[name]
-				if !ok {
-					code = int32(len(b.segNames))
-					b.segIndex[name] = code
-					b.segNames = append(b.segNames, name)
-				}
-				remap[local] = code
+				remap[local] = b.segmentCode(name)
 			}
 			for i, local := range blk.segments {
 				blk.segments[i] = remap[local]

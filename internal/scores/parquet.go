@@ -338,14 +338,7 @@ func (b *builder) addDecoded(line int, g *decodedGroup, i int) error {
 		b.weights = append(b.weights, g.weights[i])
 	}
 	if g.hasSegments {
-		name := g.segments[i]
-		code, ok := b.segIndex[name]
-		if !ok {
-			code = int32(len(b.segNames))
-			b.segIndex[name] = code
-			b.segNames = append(b.segNames, name)
-		}
-		b.segments = append(b.segments, code)
+		b.segments = append(b.segments, b.segmentCode(g.segments[i]))
 	}
 	if g.ids != nil {
 		b.ids = append(b.ids, g.ids[i])

@@ -262,6 +262,18 @@ func (b *builder) resolve(header []string, line int) error {
 	return nil
 }
 
+// segmentCode returns the code of a segment name, giving a new name the
+// next code.
+func (b *builder) segmentCode(name string) int32 {
+	code, ok := b.segIndex[name]
+	if !ok {
+		code = int32(len(b.segNames))
+		b.segIndex[name] = code
+		b.segNames = append(b.segNames, name)
+	}
+	return code
+}
+
 // wanted returns the indices of the columns in use.
 func (b *builder) wanted() []int {
 	var cols []int
@@ -355,14 +367,7 @@ func (b *builder) add(line int, cell func(col int) string) error {
 		b.weights = append(b.weights, w)
 	}
 	if b.segmentCol >= 0 {
-		name := cell(b.segmentCol)
-		code, ok := b.segIndex[name]
-		if !ok {
-			code = int32(len(b.segNames))
-			b.segIndex[name] = code
-			b.segNames = append(b.segNames, name)
-		}
-		b.segments = append(b.segments, code)
+		b.segments = append(b.segments, b.segmentCode(cell(b.segmentCol)))
 	}
 	if b.idCol >= 0 {
 		b.ids = append(b.ids, cell(b.idCol))
@@ -490,16 +495,18 @@ func (b *builder) parseLabel(text string) (bool, error) {
 	return false, &valueError{sentinel: ErrBadLabel, value: text, hint: "expected 1/true/yes/positive or 0/false/no/negative (or set --positive)"}
 }
 
-// readDelimited reads CSV or TSV with a header line.
-func (b *builder) readDelimited(in *bufio.Reader) error {
+// readHeader opens a CSV reader on in, with the delimiter detected from
+// the header line unless Options.Delimiter sets it, and reads the header,
+// its names trimmed. An empty input or a blank header is ErrEmpty.
+func (b *builder) readHeader(in *bufio.Reader) (*csv.Reader, []string, error) {
 	delim := b.opt.Delimiter
 	if delim == 0 {
 		headerLine, err := peekHeader(in)
 		if len(headerLine) == 0 {
 			if err != nil && err != io.EOF {
-				return b.readError(0, err)
+				return nil, nil, b.readError(0, err)
 			}
-			return &ParseError{File: b.source, Err: ErrEmpty}
+			return nil, nil, &ParseError{File: b.source, Err: ErrEmpty}
 		}
 		headerLine = bytes.TrimLeft(headerLine, "\r\n") // blank lines before the header
 		if i := bytes.IndexByte(headerLine, '\n'); i >= 0 {
@@ -513,14 +520,23 @@ func (b *builder) readDelimited(in *bufio.Reader) error {
 	r.ReuseRecord = true
 	header, err := r.Read()
 	if err == io.EOF {
-		return &ParseError{File: b.source, Err: ErrEmpty}
+		return nil, nil, &ParseError{File: b.source, Err: ErrEmpty}
 	}
 	if err != nil {
-		return b.csvError(err)
+		return nil, nil, b.csvError(err)
 	}
 	header = trimAll(append([]string(nil), header...))
 	if len(header) == 1 && header[0] == "" {
-		return &ParseError{File: b.source, Line: 1, Err: ErrEmpty}
+		return nil, nil, &ParseError{File: b.source, Line: 1, Err: ErrEmpty}
+	}
+	return r, header, nil
+}
+
+// readDelimited reads CSV or TSV with a header line.
+func (b *builder) readDelimited(in *bufio.Reader) error {
+	r, header, err := b.readHeader(in)
+	if err != nil {
+		return err
 	}
 	headerLine, _ := r.FieldPos(0) // 1 unless blank lines come first
 	if err := b.resolve(header, headerLine); err != nil {
