@@ -50,13 +50,20 @@ func (f *beyondFlags) register(fs *pflag.FlagSet) {
 	fs.StringVar(&f.segmentOrder, "segment-order", "size", "order of the segments under each cut: size, gap (furthest from overall first) or name")
 	fs.IntVar(&f.segmentsShown, "segments-shown", 20, "segments shown under each cut in text and Markdown (0: all; JSON lists all)")
 	fs.IntVar(&f.calibrationBins, "calibration-bins", 10, "bins of the reliability table (scores in [0,1] only)")
+	fs.IntVar(&f.replicates, "bootstrap", 0, "resample the set this many times to show how far each cut moves (0: off)")
+	fs.Uint64Var(&f.seed, "seed", 1, "seed of --bootstrap; the same seed gives the same figures")
+	f.registerShared(fs)
+}
+
+// registerShared registers the flags that report and explore take with
+// the same meaning: reliability binning, case times and shifts, and a
+// second model's file.
+func (f *beyondFlags) registerShared(fs *pflag.FlagSet) {
 	fs.StringVar(&f.calibrationBinning, "calibration-binning", "width", "reliability bins: width (equal width) or quantile (equal rows)")
 	fs.StringVar(&f.timeColumn, "time", "", "column of case times, for the queue of each real shift (needs --shifts)")
 	fs.StringVar(&f.timeLayout, "time-layout", "", `layout of --time in Go's reference-time form, e.g. "2006-01-02 15:04" (default: RFC 3339)`)
 	fs.StringVar(&f.timeZone, "tz", "UTC", "time zone of the shift schedule and of times without a zone, e.g. Europe/Amsterdam")
 	fs.StringVar(&f.shifts, "shifts", "", "local start times of the crew shifts, e.g. 06:00,14:00,22:00")
-	fs.IntVar(&f.replicates, "bootstrap", 0, "resample the set this many times to show how far each cut moves (0: off)")
-	fs.Uint64Var(&f.seed, "seed", 1, "seed of --bootstrap; the same seed gives the same figures")
 	fs.StringVar(&f.compareFile, "compare", "", "a second model's scores of the same cases, joined on --id (its score column: the second --score)")
 }
 

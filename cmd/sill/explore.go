@@ -33,14 +33,9 @@ func (o *exploreOptions) registerBeyond(fs *pflag.FlagSet) {
 	f := &o.beyond
 	fs.StringVar(&f.segmentOrder, "segment-order", "size", "first order of the segments overlay (s): size, gap or name")
 	fs.IntVar(&f.calibrationBins, "calibration-bins", 10, "bins of the reliability table (e; scores in [0,1] only)")
-	fs.StringVar(&f.calibrationBinning, "calibration-binning", "width", "reliability bins: width (equal width) or quantile (equal rows)")
-	fs.StringVar(&f.timeColumn, "time", "", "column of case times, for the queue of each real shift (needs --shifts)")
-	fs.StringVar(&f.timeLayout, "time-layout", "", `layout of --time in Go's reference-time form, e.g. "2006-01-02 15:04" (default: RFC 3339)`)
-	fs.StringVar(&f.timeZone, "tz", "UTC", "time zone of the shift schedule and of times without a zone")
-	fs.StringVar(&f.shifts, "shifts", "", "local start times of the crew shifts, e.g. 06:00,14:00,22:00")
 	fs.IntVar(&f.replicates, "bootstrap", 0, "resampled sets when b asks how stable the cuts are (0: 200)")
 	fs.Uint64Var(&f.seed, "seed", 1, "seed of the resampling; the same seed gives the same figures")
-	fs.StringVar(&f.compareFile, "compare", "", "a second model's scores of the same cases, joined on --id (its score column: the second --score)")
+	f.registerShared(fs)
 }
 
 // config returns the explorer's settings from the flags, checked.
