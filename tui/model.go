@@ -91,6 +91,19 @@ type context struct {
 	keys          KeyMap
 }
 
+// newContext returns the shared context of a screen, with the given styles
+// and keys where not nil and the plain styles and default keys otherwise.
+func newContext(styles *Styles, keys *KeyMap) *context {
+	ctx := &context{styles: PlainStyles(), keys: DefaultKeyMap()}
+	if styles != nil {
+		ctx.styles = *styles
+	}
+	if keys != nil {
+		ctx.keys = *keys
+	}
+	return ctx
+}
+
 // Messages, named for what happened.
 type (
 	// loadTickMsg asks the loading screen to show the rows read so far.
@@ -157,13 +170,7 @@ type Model struct {
 
 // New returns the explorer for cfg; the scores load when the program starts.
 func New(cfg Config) Model {
-	ctx := &context{styles: PlainStyles(), keys: DefaultKeyMap()}
-	if cfg.Styles != nil {
-		ctx.styles = *cfg.Styles
-	}
-	if cfg.Keys != nil {
-		ctx.keys = *cfg.Keys
-	}
+	ctx := newContext(cfg.Styles, cfg.Keys)
 	if cfg.Out == "" {
 		cfg.Out = "cut.yaml"
 	}

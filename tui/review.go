@@ -99,13 +99,7 @@ func newReviewKeys(k KeyMap) reviewKeys {
 
 // NewReview returns the review screen for cfg.
 func NewReview(cfg ReviewConfig) Review {
-	ctx := &context{styles: PlainStyles(), keys: DefaultKeyMap()}
-	if cfg.Styles != nil {
-		ctx.styles = *cfg.Styles
-	}
-	if cfg.Keys != nil {
-		ctx.keys = *cfg.Keys
-	}
+	ctx := newContext(cfg.Styles, cfg.Keys)
 	working := *cfg.File
 	working.Candidates = append([]decision.Candidate(nil), cfg.File.Candidates...)
 	r := Review{ctx: ctx, keys: newReviewKeys(ctx.keys), file: &working, path: cfg.Path, saveTo: cfg.Path, note: newTextField(noteLimit), noteFor: -1}
