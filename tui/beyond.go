@@ -23,9 +23,9 @@ import (
 // probabilities, and a second model of the same cases. Each part is nil or
 // empty when the data does not allow it.
 type beyond struct {
-	// segments follows the breakdown by group as the cursor moves; nil
-	// without a segment column. segmentsAt caches the last breakdown.
-	segments   *segment.Running
+	extras // computed once the set is loaded
+
+	// segmentsAt caches the last breakdown by segment.
 	segmentsAt struct {
 		cut        int
 		confidence float64
@@ -33,33 +33,15 @@ type beyond struct {
 		breakdown  segment.Breakdown
 	}
 
-	// assigned places every ranked row in a shift of the validation
-	// period; nil without case times and a shift schedule. scale turns a
-	// flagged case into alerts of a production shift under assume, and
-	// peaks follows the queues as the cursor moves.
-	assigned *shift.Assignment
-	scale    shift.Scale
-	peaks    *shift.Running
-	peaksAt  struct {
+	// peaks follows the shift queues as the cursor moves; peaksAt caches
+	// the last.
+	peaks   *shift.Running
+	peaksAt struct {
 		cut      int
 		capacity float64
 		ok       bool
 		peaks    shift.Peaks
 	}
-
-	// reliability is the reliability table; nil when the scores are not
-	// probabilities.
-	reliability *calibration.Table
-
-	// second is the second model's own ranked set with its curve and
-	// starting points; nil without a second score column. pair is DeLong's
-	// paired test of the two, pairErr why it has no figures.
-	second         *scores.Set
-	secondCurve    *curve.Curve
-	secondAssigned *shift.Assignment
-	secondStarts   []cutrule.Outcome
-	pair           modelpair.Test
-	pairErr        error
 
 	// stability is the last bootstrap, under the assumptions it ran with;
 	// nil before one has finished. resampling is the one running.
@@ -69,10 +51,24 @@ type beyond struct {
 
 // extras is what loading computes for beyond, once.
 type extras struct {
-	segments       *segment.Running
-	assigned       *shift.Assignment
-	scale          shift.Scale
-	reliability    *calibration.Table
+	// segments follows the breakdown by group as the cursor moves; nil
+	// without a segment column.
+	segments *segment.Running
+
+	// assigned places every ranked row in a shift of the validation
+	// period; nil without case times and a shift schedule. scale turns a
+	// flagged case into alerts of a production shift under the
+	// assumptions.
+	assigned *shift.Assignment
+	scale    shift.Scale
+
+	// reliability is the reliability table; nil when the scores are not
+	// probabilities.
+	reliability *calibration.Table
+
+	// second is the second model's own ranked set with its curve and
+	// starting points; nil without a second score column. pair is DeLong's
+	// paired test of the two, pairErr why it has no figures.
 	second         *scores.Set
 	secondCurve    *curve.Curve
 	secondAssigned *shift.Assignment
@@ -134,16 +130,12 @@ func loadExtras(cfg Config, set *scores.Set, c *curve.Curve, a projection.Assump
 
 // apply puts the loaded extras into the session.
 func (b *beyond) apply(set *scores.Set, x extras) {
-	b.segments = x.segments
+	b.extras = x
 	b.segmentsAt.ok = false
-	b.assigned, b.scale = x.assigned, x.scale
 	b.peaks, b.peaksAt.ok = nil, false
 	if x.assigned != nil {
 		b.peaks = shift.NewRunning(set, *x.assigned, x.scale)
 	}
-	b.reliability = x.reliability
-	b.second, b.secondCurve, b.secondAssigned, b.secondStarts = x.second, x.secondCurve, x.secondAssigned, x.secondStarts
-	b.pair, b.pairErr = x.pair, x.pairErr
 	b.stability = nil
 }
 
