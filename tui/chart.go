@@ -30,7 +30,7 @@ const (
 // only moves the mark.
 type curvePane struct {
 	s      *session
-	ctx    *context
+	ctx    *shared
 	width  int
 	height int
 	view   chartView
@@ -62,7 +62,7 @@ type chartKey struct {
 	second        *curve.Curve      // the second model's curve, nil without one
 }
 
-func newCurvePane(s *session, ctx *context) curvePane {
+func newCurvePane(s *session, ctx *shared) curvePane {
 	return curvePane{s: s, ctx: ctx, painted: &paintedChart{x: -2}}
 }
 

@@ -58,12 +58,12 @@ func (p figuresPane) lines() int {
 // starting points with the one the cursor sits on marked.
 type figuresPane struct {
 	s      *session
-	ctx    *context
+	ctx    *shared
 	width  int
 	height int
 }
 
-func newFiguresPane(s *session, ctx *context) figuresPane { return figuresPane{s: s, ctx: ctx} }
+func newFiguresPane(s *session, ctx *shared) figuresPane { return figuresPane{s: s, ctx: ctx} }
 
 // SetSize sets the outer size.
 func (p *figuresPane) SetSize(width, height int) { p.width, p.height = width, height }

@@ -17,13 +17,13 @@ import (
 // in view, so its cost does not grow with the set.
 type listPane struct {
 	s      *session
-	ctx    *context
+	ctx    *shared
 	width  int // outer size, border included
 	height int
 	offset int // first ranked row in view
 }
 
-func newListPane(s *session, ctx *context) listPane { return listPane{s: s, ctx: ctx} }
+func newListPane(s *session, ctx *shared) listPane { return listPane{s: s, ctx: ctx} }
 
 // SetSize sets the outer size and keeps the cut line in view.
 func (p *listPane) SetSize(width, height int) {

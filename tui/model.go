@@ -3,8 +3,8 @@
 // write the chosen cut to a decision file.
 //
 // The root Model holds the focused pane, a stack of overlays (help, the
-// assumptions form, renaming, the question before replacing a file), the
-// shared context (size, styles, keys), the session every pane reads and
+// assumptions form, renaming, the question before replacing a file), what
+// the panes share (size, styles, keys), the session every pane reads and
 // one field per pane. Which cases a cut flags follows the cut rule in the
 // doc of package scores.
 package tui
@@ -84,17 +84,18 @@ const (
 	overlayModels                         // the two models' cuts side by side
 )
 
-// context is what every pane shares: the screen size, styles and keys.
-type context struct {
+// shared is what every pane of a screen shares: the terminal's size, the
+// styles and the keys.
+type shared struct {
 	width, height int
 	styles        Styles
 	keys          KeyMap
 }
 
-// newContext returns the shared context of a screen, with the given styles
+// newShared returns what the panes of a screen share, with the given styles
 // and keys where not nil and the plain styles and default keys otherwise.
-func newContext(styles *Styles, keys *KeyMap) *context {
-	ctx := &context{styles: PlainStyles(), keys: DefaultKeyMap()}
+func newShared(styles *Styles, keys *KeyMap) *shared {
+	ctx := &shared{styles: PlainStyles(), keys: DefaultKeyMap()}
 	if styles != nil {
 		ctx.styles = *styles
 	}
@@ -126,8 +127,9 @@ type (
 		peaks        *shift.Running // the shift queues at scale; nil without shifts or when the scale is unchanged
 		err          error
 	}
-	// errMsg is a load error: the explorer shows nothing more and quits.
-	errMsg struct{ err error }
+	// loadFailedMsg says the scores could not be loaded: the explorer shows
+	// nothing more and quits.
+	loadFailedMsg struct{ err error }
 	// fileWrittenMsg says the decision file was written.
 	fileWrittenMsg struct {
 		path       string
@@ -141,7 +143,7 @@ type (
 // Model is the explorer's root model.
 type Model struct {
 	cfg      Config
-	ctx      *context
+	ctx      *shared
 	s        *session
 	focus    focus
 	overlays []overlayKind
@@ -170,7 +172,7 @@ type Model struct {
 
 // New returns the explorer for cfg; the scores load when the program starts.
 func New(cfg Config) Model {
-	ctx := newContext(cfg.Styles, cfg.Keys)
+	ctx := newShared(cfg.Styles, cfg.Keys)
 	if cfg.Out == "" {
 		cfg.Out = "cut.yaml"
 	}
@@ -241,28 +243,28 @@ func (m Model) loadCmd() tea.Cmd {
 	return func() tea.Msg {
 		set, err := load(func(rows int) { counter.Store(int64(rows)) })
 		if err != nil {
-			return errMsg{err}
+			return loadFailedMsg{err}
 		}
 		if set == nil {
-			return errMsg{errors.New("no scores were read")}
+			return loadFailedMsg{errors.New("no scores were read")}
 		}
 		counter.Store(int64(set.Len()))
 		done.Store(true)
 		if set.Len() == 0 {
-			return errMsg{fmt.Errorf("%s: no rows to explore", set.Source)}
+			return loadFailedMsg{fmt.Errorf("%s: no rows to explore", set.Source)}
 		}
 		a, err := assume(set)
 		if err != nil {
-			return errMsg{err}
+			return loadFailedMsg{err}
 		}
 		c := curve.New(set)
 		x, err := loadExtras(cfg, set, c, a)
 		if err != nil {
-			return errMsg{err}
+			return loadFailedMsg{err}
 		}
 		starts, _, err := findStarts(c, a, x.assigned)
 		if err != nil {
-			return errMsg{err}
+			return loadFailedMsg{err}
 		}
 		return scoresLoadedMsg{set: set, curve: c, assume: a, starts: starts, extras: x}
 	}
@@ -300,7 +302,7 @@ func (m Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 			return m, tickCmd()
 		}
 		return m, nil
-	case errMsg:
+	case loadFailedMsg:
 		m.loading = false
 		m.err = msg.err
 		return m, tea.Quit
@@ -450,7 +452,7 @@ func (m Model) key(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 		return m, nil
 	}
 	if m.focus == focusStrip {
-		return m.stripKey(msg)
+		return m.stripFocusedKey(msg)
 	}
 	before := m.s.cursor
 	m.figures, _ = m.figures.Update(msg)
@@ -461,8 +463,8 @@ func (m Model) key(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 	return m, nil
 }
 
-// stripKey handles the keys of the comparison strip.
-func (m Model) stripKey(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
+// stripFocusedKey handles the keys of the comparison strip.
+func (m Model) stripFocusedKey(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 	k, s := m.ctx.keys, m.s
 	for _, b := range []key.Binding{k.Remove, k.MoveLeft, k.MoveRight, k.Choose} {
 		if key.Matches(msg, b) {

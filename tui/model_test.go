@@ -274,7 +274,7 @@ func rowCells(rows []compare.Row, figure string) []string {
 }
 
 func TestFormParse(t *testing.T) {
-	ctx := &context{styles: PlainStyles(), keys: DefaultKeyMap()}
+	ctx := &shared{styles: PlainStyles(), keys: DefaultKeyMap()}
 	cases := []struct {
 		name   string
 		values map[int]string

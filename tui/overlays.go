@@ -53,7 +53,7 @@ func (m Model) helpGroups() []helpGroup {
 }
 
 // helpPane draws every key, grouped, in two columns.
-type helpPane struct{ ctx *context }
+type helpPane struct{ ctx *shared }
 
 // View draws the help box for groups.
 func (p helpPane) View(groups []helpGroup) string {
@@ -127,7 +127,7 @@ func (p helpPane) box(title, body string) string {
 
 // overlayBox frames body in the overlay style at its natural size, no
 // larger than the screen.
-func overlayBox(ctx *context, title, body string) string {
+func overlayBox(ctx *shared, title, body string) string {
 	st := ctx.styles
 	w, h := 0, 0
 	for _, l := range strings.Split(body, "\n") {
@@ -163,14 +163,14 @@ const (
 // formPane is the assumptions form. Entries are checked when applied; a
 // refused entry stays open with its reason beside it.
 type formPane struct {
-	ctx                *context
+	ctx                *shared
 	fields             []formField
 	focused            int
 	applied            bool
 	validationBaseRate float64
 }
 
-func newFormPane(ctx *context) formPane {
+func newFormPane(ctx *shared) formPane {
 	p := formPane{ctx: ctx}
 	specs := []struct{ label, hint string }{
 		{"base rate", "production share of true cases: 0.07 or 7%"},
@@ -389,13 +389,13 @@ func (p formPane) View() string {
 
 // renamePane asks for a candidate's new name.
 type renamePane struct {
-	ctx       *context
+	ctx       *shared
 	input     textField
 	err       string
 	cancelled bool // esc closed the box without renaming
 }
 
-func newRenamePane(ctx *context) renamePane {
+func newRenamePane(ctx *shared) renamePane {
 	in := newTextField(40)
 	return renamePane{ctx: ctx, input: in}
 }
@@ -439,7 +439,7 @@ func (p renamePane) View() string {
 
 // replacePane asks before replacing a file made from other data.
 type replacePane struct {
-	ctx    *context
+	ctx    *shared
 	path   string
 	reason string
 }

@@ -21,7 +21,7 @@ import (
 // net benefit at the cursor's cut (Vickers and Elkin 2006).
 type calibrationPane struct {
 	s   *session
-	ctx *context
+	ctx *shared
 }
 
 // View draws the overlay.
@@ -146,7 +146,7 @@ func signed(v float64, decimals int) string {
 // models' cuts side by side.
 type modelsPane struct {
 	s   *session
-	ctx *context
+	ctx *shared
 }
 
 // View draws the overlay.

@@ -55,7 +55,7 @@ const noteLimit = 400
 //
 // The candidates' evidence is never changed: only the choice and the notes.
 type Review struct {
-	ctx      *context
+	ctx      *shared
 	keys     reviewKeys
 	file     *decision.File
 	path     string // as shown
@@ -99,7 +99,7 @@ func newReviewKeys(k KeyMap) reviewKeys {
 
 // NewReview returns the review screen for cfg.
 func NewReview(cfg ReviewConfig) Review {
-	ctx := newContext(cfg.Styles, cfg.Keys)
+	ctx := newShared(cfg.Styles, cfg.Keys)
 	working := *cfg.File
 	working.Candidates = append([]decision.Candidate(nil), cfg.File.Candidates...)
 	r := Review{ctx: ctx, keys: newReviewKeys(ctx.keys), file: &working, path: cfg.Path, saveTo: cfg.Path, note: newTextField(noteLimit), noteFor: -1}

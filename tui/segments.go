@@ -22,7 +22,7 @@ import (
 // costs only the drawing.
 type segmentsPane struct {
 	s      *session
-	ctx    *context
+	ctx    *shared
 	order  segment.Order
 	offset int // first group in view
 
@@ -38,7 +38,7 @@ type sortedGroups struct {
 	breakdown  segment.Breakdown
 }
 
-func newSegmentsPane(s *session, ctx *context, order segment.Order) segmentsPane {
+func newSegmentsPane(s *session, ctx *shared, order segment.Order) segmentsPane {
 	return segmentsPane{s: s, ctx: ctx, order: order, sorted: &sortedGroups{}}
 }
 

@@ -1,7 +1,7 @@
 package tui
 
 import (
-	gocontext "context"
+	"context"
 	"errors"
 	"fmt"
 	"sync/atomic"
@@ -31,7 +31,7 @@ type resampling struct {
 	run     int
 	total   int
 	done    *atomic.Int64
-	cancel  gocontext.CancelFunc
+	cancel  context.CancelFunc
 }
 
 func newResampling() resampling { return resampling{done: new(atomic.Int64)} }
@@ -78,7 +78,7 @@ func (m Model) resampleKey() (tea.Model, tea.Cmd) {
 	if m.s.assigned != nil {
 		opt.FinderOptions = []cutrule.Option{cutrule.WithShifts(*m.s.assigned, m.s.scale)}
 	}
-	ctx, cancel := gocontext.WithCancel(gocontext.Background())
+	ctx, cancel := context.WithCancel(context.Background())
 	r.run++
 	r.running, r.total, r.cancel = true, replicates, cancel
 	r.done.Store(0)
@@ -109,7 +109,7 @@ func (m Model) resampleUpdate(msg tea.Msg) (tea.Model, tea.Cmd) {
 		r.running = false
 		r.cancel()
 		switch {
-		case errors.Is(msg.err, gocontext.Canceled):
+		case errors.Is(msg.err, context.Canceled):
 			m.status = "resampling stopped"
 		case msg.err != nil:
 			m.status = "resampling: " + msg.err.Error()

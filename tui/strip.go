@@ -37,18 +37,19 @@ type Strip struct {
 // stripCache keeps the last drawing: the strip only changes when its table,
 // selection, size or focus does, not when the cursor moves.
 type stripCache struct {
-	key  stripKey
+	key  stripCacheKey
 	view string
 }
 
-type stripKey struct {
+// stripCacheKey is what a drawing of the strip depends on.
+type stripCacheKey struct {
 	generation, selected, width, height int
 	focused                             bool
 }
 
 // NewStrip returns an empty strip drawn with styles and driven by keys.
 func NewStrip(styles Styles, keys KeyMap) Strip {
-	return Strip{styles: styles, keys: keys, cache: &stripCache{key: stripKey{generation: -1}}}
+	return Strip{styles: styles, keys: keys, cache: &stripCache{key: stripCacheKey{generation: -1}}}
 }
 
 // SetTable sets the comparison to draw, keeping the selection in range.
@@ -100,7 +101,7 @@ func (s Strip) FullHelp() [][]key.Binding {
 // View draws the strip at its size; focused draws the frame that shows it
 // has the keys.
 func (s Strip) View(focused bool) string {
-	key := stripKey{s.generation, s.selected, s.width, s.height, focused}
+	key := stripCacheKey{s.generation, s.selected, s.width, s.height, focused}
 	if s.cache != nil && s.cache.key == key {
 		return s.cache.view
 	}
