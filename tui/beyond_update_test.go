@@ -21,12 +21,13 @@ import (
 	"github.com/sill-tool/sill/internal/shift"
 )
 
-// top returns the top overlay, or -1 without one.
-func top(m Model) overlayKind {
+// topIs reports whether the top overlay of m is of type T.
+func topIs[T overlay[*Model]](m Model) bool {
 	if len(m.overlays) == 0 {
-		return -1
+		return false
 	}
-	return m.overlays[len(m.overlays)-1]
+	_, ok := m.overlays[len(m.overlays)-1].(T)
+	return ok
 }
 
 // TestSegmentsOverlay: s opens the breakdown, the cut keys still move the
@@ -36,12 +37,12 @@ func TestSegmentsOverlay(t *testing.T) {
 	set := manySegments(t)
 	m := loadedWith(t, Config{Load: func(func(int)) (*scores.Set, error) { return set, nil }, Assume: demoAssumptions}, 80, 24)
 	m = keys(m, "2", "s")
-	if top(m) != overlaySegments {
+	if !topIs[*segmentsPane](m) {
 		t.Fatalf("s opened %v", m.overlays)
 	}
 	before := m.s.cursor
 	m = keys(m, "j")
-	if m.s.cursor != before+1 || top(m) != overlaySegments {
+	if m.s.cursor != before+1 || !topIs[*segmentsPane](m) {
 		t.Errorf("j under the breakdown: cursor %d, want %d, overlays %v", m.s.cursor, before+1, m.overlays)
 	}
 	// The breakdown is At's at the cursor's cut (the reference), sorted
@@ -229,7 +230,7 @@ func TestNetBenefit(t *testing.T) {
 func TestCalibrationOverlay(t *testing.T) {
 	m := tenModel(t)
 	m = keys(m, "e")
-	if top(m) != overlayCalibration {
+	if !topIs[*calibrationPane](m) {
 		t.Fatalf("e opened %v", m.overlays)
 	}
 	view := m.View()
@@ -240,7 +241,7 @@ func TestCalibrationOverlay(t *testing.T) {
 	}
 	before := m.s.cursor
 	m = keys(m, "j")
-	if top(m) != overlayCalibration || m.s.cursor != before+1 {
+	if !topIs[*calibrationPane](m) || m.s.cursor != before+1 {
 		t.Errorf("j under the overlay: cursor %d overlays %v", m.s.cursor, m.overlays)
 	}
 	m = keys(m, "e")
@@ -273,7 +274,7 @@ func TestTwoModels(t *testing.T) {
 		t.Errorf("chart title %q does not name both models' marks", title)
 	}
 	m = keys(m, "m")
-	if top(m) != overlayModels || !strings.Contains(m.View(), "DeLong") {
+	if !topIs[*modelsPane](m) || !strings.Contains(m.View(), "DeLong") {
 		t.Errorf("m: overlays %v", m.overlays)
 	}
 	m = send(m, tea.KeyMsg{Type: tea.KeyEsc})

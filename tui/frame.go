@@ -88,10 +88,10 @@ func framed(box, edge, titleStyle lipgloss.Style, title, body string, width, hei
 	return strings.Join(lines, "\n")
 }
 
-// overlay draws box over base, centred, keeping base's size. Both are
+// drawOver draws box over base, centred, keeping base's size. Both are
 // lines of equal width; a line of base that is not width wide comes out
 // as wide as it went in, so fit the result when that matters (View does).
-func overlay(base, box string, width, height int) string {
+func drawOver(base, box string, width, height int) string {
 	baseLines := strings.Split(base, "\n")
 	for len(baseLines) < height {
 		baseLines = append(baseLines, "")

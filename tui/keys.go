@@ -1,6 +1,12 @@
 package tui
 
-import "github.com/charmbracelet/bubbles/key"
+import (
+	"github.com/charmbracelet/bubbles/key"
+	tea "github.com/charmbracelet/bubbletea"
+
+	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/report"
+)
 
 // KeyMap is every key the explorer takes, grouped as the help shows them.
 // Bindings that do not apply at the moment (a starting point the
@@ -101,4 +107,68 @@ func DefaultKeyMap() KeyMap {
 		Yes:       key.NewBinding(key.WithKeys("y"), key.WithHelp("y", "yes, replace")),
 		No:        key.NewBinding(key.WithKeys("n", "esc"), key.WithHelp("n/esc", "no, keep it")),
 	}
+}
+
+// enableExplorer turns on the explorer's keys that apply to s and turns
+// off the others: a starting point's key only when the assumptions give
+// that point (the capacity, least-cost and 9-in-10 keys follow their place
+// in s.starts), the views beyond the averages when the data allows them,
+// and the strip's keys only while the strip has the keys.
+func (k *KeyMap) enableExplorer(s *session, stripFocused bool) {
+	for _, b := range []*key.Binding{&k.BaseRate, &k.Hit, &k.Wrong, &k.Capacity, &k.LeastCost, &k.Peak} {
+		b.SetEnabled(false)
+	}
+	for i, o := range s.starts {
+		switch o.Rule.Kind {
+		case cutrule.Base:
+			k.BaseRate.SetEnabled(true)
+		case cutrule.Hit:
+			k.Hit.SetEnabled(true)
+		case cutrule.Wrong:
+			k.Wrong.SetEnabled(true)
+		case cutrule.Queue:
+			k.Capacity.SetEnabled(true)
+			k.Capacity.SetHelp(keyName(i), "queue at capacity ("+report.Count(o.Rule.Value)+")")
+		case cutrule.Cost:
+			k.LeastCost.SetEnabled(true)
+			k.LeastCost.SetKeys(keyName(i))
+			k.LeastCost.SetHelp(keyName(i), "least cost")
+		case cutrule.Queue90:
+			k.Peak.SetEnabled(true)
+			k.Peak.SetKeys(keyName(i))
+			k.Peak.SetHelp(keyName(i), "9 shifts in 10 at capacity ("+report.Count(o.Rule.Value)+")")
+		}
+	}
+	if s.set != nil {
+		k.Segments.SetEnabled(s.segments != nil)
+		k.SegmentOrder.SetEnabled(s.segments != nil)
+		k.Models.SetEnabled(s.second != nil)
+		k.Stability.SetEnabled(true)
+		k.Calibration.SetEnabled(true)
+	}
+	strip := stripFocused && len(s.pins) > 0
+	for _, b := range []*key.Binding{&k.Left, &k.Right, &k.Jump, &k.Remove, &k.MoveLeft, &k.MoveRight, &k.Rename, &k.Choose} {
+		b.SetEnabled(strip)
+	}
+}
+
+// enableReview turns on the keys the review screen takes, whatever the
+// explorer's rules left them.
+func (k *KeyMap) enableReview() {
+	for _, b := range []*key.Binding{&k.Left, &k.Right, &k.Choose, &k.Write, &k.Help, &k.Quit} {
+		b.SetEnabled(true)
+	}
+}
+
+// keyName is the key of the starting point at place i: 1 for the first.
+func keyName(i int) string { return string(rune('1' + i)) }
+
+// matchesDisabled reports whether msg is the key of b while b is turned
+// off, so that the screen can say why the key does nothing here.
+func matchesDisabled(msg tea.KeyMsg, b key.Binding) bool {
+	if b.Enabled() {
+		return false
+	}
+	b.SetEnabled(true)
+	return key.Matches(msg, b)
 }

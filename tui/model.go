@@ -3,9 +3,11 @@
 // write the chosen cut to a decision file.
 //
 // The root Model holds the focused pane, a stack of overlays (help, the
-// assumptions form, renaming, the question before replacing a file), what
-// the panes share (size, styles, keys), the session every pane reads and
-// one field per pane. Which cases a cut flags follows the cut rule in the
+// assumptions form, renaming, the question before replacing a file, the
+// views beyond the averages), what the panes share (size, styles, keys),
+// the session every pane reads and one field per pane. It handles a few
+// global keys and hands the rest to the top overlay, through the one
+// overlay interface every overlay implements, or to the focused pane. Which cases a cut flags follows the cut rule in the
 // doc of package scores.
 package tui
 
@@ -14,7 +16,6 @@ import (
 	"fmt"
 	"strings"
 	"sync/atomic"
-	"time"
 
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
@@ -22,8 +23,6 @@ import (
 	"github.com/charmbracelet/x/ansi"
 
 	"github.com/sill-tool/sill/internal/calibration"
-	"github.com/sill-tool/sill/internal/curve"
-	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/report"
@@ -71,19 +70,6 @@ const (
 	focusStrip              // the comparison strip
 )
 
-// overlayKind is one layer drawn over the panes; the top one takes the keys.
-type overlayKind int
-
-const (
-	overlayHelp        overlayKind = iota // every key, grouped
-	overlayForm                           // the assumptions form
-	overlayRename                         // renaming a candidate
-	overlayReplace                        // the question before replacing a file made from other data
-	overlaySegments                       // the breakdown by segment at the cursor's cut
-	overlayCalibration                    // the reliability table and the cost threshold
-	overlayModels                         // the two models' cuts side by side
-)
-
 // shared is what every pane of a screen shares: the terminal's size, the
 // styles and the keys.
 type shared struct {
@@ -105,48 +91,13 @@ func newShared(styles *Styles, keys *KeyMap) *shared {
 	return ctx
 }
 
-// Messages, named for what happened.
-type (
-	// loadTickMsg asks the loading screen to show the rows read so far.
-	loadTickMsg struct{}
-	// scoresLoadedMsg carries the loaded set, its curve and assumptions.
-	scoresLoadedMsg struct {
-		set    *scores.Set
-		curve  *curve.Curve
-		assume projection.Assumptions
-		starts []cutrule.Outcome
-		extras extras
-	}
-	// startsFoundMsg carries the starting points under new assumptions,
-	// the second model's too, and the shift queues' scale.
-	startsFoundMsg struct {
-		assume       projection.Assumptions
-		starts       []cutrule.Outcome
-		secondStarts []cutrule.Outcome
-		scale        shift.Scale
-		peaks        *shift.Running // the shift queues at scale; nil without shifts or when the scale is unchanged
-		err          error
-	}
-	// loadFailedMsg says the scores could not be loaded: the explorer shows
-	// nothing more and quits.
-	loadFailedMsg struct{ err error }
-	// fileWrittenMsg says the decision file was written.
-	fileWrittenMsg struct {
-		path       string
-		candidates int
-		chosen     string
-	}
-	// writeFailedMsg says the decision file was not written.
-	writeFailedMsg struct{ err error }
-)
-
 // Model is the explorer's root model.
 type Model struct {
 	cfg      Config
 	ctx      *shared
 	s        *session
 	focus    focus
-	overlays []overlayKind
+	overlays []overlay[*Model] // the top one last
 
 	loading   bool
 	rowsRead  *atomic.Int64
@@ -157,17 +108,11 @@ type Model struct {
 	unwritten bool   // candidates or assumptions changed since the last write
 	tableSig  string // what the strip's table was built from
 
-	list        listPane
-	chart       curvePane
-	figures     figuresPane
-	strip       Strip
-	help        helpPane
-	form        formPane
-	rename      renamePane
-	replace     replacePane
-	segments    segmentsPane
-	calibration calibrationPane
-	models      modelsPane
+	list     listPane
+	chart    curvePane
+	figures  figuresPane
+	strip    Strip
+	segments *segmentsPane // an overlay kept between openings, with its order
 }
 
 // New returns the explorer for cfg; the scores load when the program starts.
@@ -177,21 +122,14 @@ func New(cfg Config) Model {
 		cfg.Out = "cut.yaml"
 	}
 	s := &session{beyond: beyond{resampling: newResampling()}}
-	m := Model{
+	return Model{
 		cfg: cfg, ctx: ctx, s: s, loading: true, rowsRead: new(atomic.Int64), readDone: new(atomic.Bool),
-		list:        newListPane(s, ctx),
-		chart:       newCurvePane(s, ctx),
-		figures:     newFiguresPane(s, ctx),
-		strip:       NewStrip(ctx.styles, ctx.keys),
-		help:        helpPane{ctx: ctx},
-		form:        newFormPane(ctx),
-		rename:      newRenamePane(ctx),
-		replace:     replacePane{ctx: ctx},
-		segments:    newSegmentsPane(s, ctx, cfg.SegmentOrder),
-		calibration: calibrationPane{s: s, ctx: ctx},
-		models:      modelsPane{s: s, ctx: ctx},
+		list:     newListPane(s, ctx),
+		chart:    newCurvePane(s, ctx),
+		figures:  newFiguresPane(s, ctx),
+		strip:    NewStrip(ctx.styles, ctx.keys),
+		segments: newSegmentsPane(s, ctx, cfg.SegmentOrder),
 	}
-	return m
 }
 
 // Err returns the load error that ended the explorer, if any.
@@ -232,64 +170,6 @@ func (m Model) Init() tea.Cmd {
 	return tea.Batch(m.loadCmd(), tickCmd())
 }
 
-func tickCmd() tea.Cmd {
-	return tea.Tick(100*time.Millisecond, func(time.Time) tea.Msg { return loadTickMsg{} })
-}
-
-// loadCmd reads the scores, computes the curve once and finds the
-// starting points.
-func (m Model) loadCmd() tea.Cmd {
-	cfg, load, assume, counter, done := m.cfg, m.cfg.Load, m.cfg.Assume, m.rowsRead, m.readDone
-	return func() tea.Msg {
-		set, err := load(func(rows int) { counter.Store(int64(rows)) })
-		if err != nil {
-			return loadFailedMsg{err}
-		}
-		if set == nil {
-			return loadFailedMsg{errors.New("no scores were read")}
-		}
-		counter.Store(int64(set.Len()))
-		done.Store(true)
-		if set.Len() == 0 {
-			return loadFailedMsg{fmt.Errorf("%s: no rows to explore", set.Source)}
-		}
-		a, err := assume(set)
-		if err != nil {
-			return loadFailedMsg{err}
-		}
-		c := curve.New(set)
-		x, err := loadExtras(cfg, set, c, a)
-		if err != nil {
-			return loadFailedMsg{err}
-		}
-		starts, _, err := findStarts(c, a, x.assigned)
-		if err != nil {
-			return loadFailedMsg{err}
-		}
-		return scoresLoadedMsg{set: set, curve: c, assume: a, starts: starts, extras: x}
-	}
-}
-
-// findStartsCmd finds the starting points under new assumptions.
-func (m Model) findStartsCmd(a projection.Assumptions) tea.Cmd {
-	c, assigned, oldScale := m.s.curve, m.s.assigned, m.s.scale
-	second, secondAssigned := m.s.secondCurve, m.s.secondAssigned
-	return func() tea.Msg {
-		starts, scale, err := findStarts(c, a, assigned)
-		if err != nil {
-			return startsFoundMsg{assume: a, err: err}
-		}
-		msg := startsFoundMsg{assume: a, starts: starts, scale: scale}
-		if assigned != nil && scale != oldScale {
-			msg.peaks = shift.NewRunning(c.Set, *assigned, scale) // a pass over the set, off the screen's loop
-		}
-		if second != nil {
-			msg.secondStarts, _, msg.err = findStarts(second, a, secondAssigned)
-		}
-		return msg
-	}
-}
-
 // Update handles one message.
 func (m Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 	switch msg := msg.(type) {
@@ -317,7 +197,6 @@ func (m Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 				break
 			}
 		}
-		m.form.load(msg.assume, msg.curve.Summary.BaseRate)
 		if warnings := report.Warnings(msg.set, msg.curve.Summary); len(warnings) > 0 {
 			m.status = "warning: " + strings.Join(warnings, "; ")
 		}
@@ -348,9 +227,11 @@ func (m Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		return m, nil
 	case writeFailedMsg:
 		if errors.Is(msg.err, decision.ErrDifferentData) || errors.Is(msg.err, decision.ErrNotDecisionFile) {
-			m.replace.reason = msg.err.Error()
-			m.replace.path = m.cfg.Out
-			m.push(overlayReplace)
+			path := m.cfg.Out
+			m.push(replaceQuestion(m.ctx, path, msg.err.Error(), path+" already exists and was not made from this data.",
+				"Replace it with this decision?",
+				func(m *Model) tea.Cmd { return m.write(true) },
+				func(m *Model) tea.Cmd { m.status = "not written: " + path + " kept as it was"; return nil }))
 			return m, nil
 		}
 		m.status = "not written: " + msg.err.Error()
@@ -388,7 +269,7 @@ func (m Model) key(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 		return m, tea.Quit
 	}
 	if len(m.overlays) > 0 {
-		return m.overlayKey(msg)
+		return m, keyTop(&m.overlays, &m, msg)
 	}
 	if key.Matches(msg, k.Quit) {
 		m.stopResampling()
@@ -400,7 +281,8 @@ func (m Model) key(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 	m.status = ""
 	switch {
 	case key.Matches(msg, k.Help):
-		m.push(overlayHelp)
+		groups := m.helpGroups()
+		m.push(&helpOverlay[*Model]{ctx: m.ctx, draw: func() string { return helpView(m.ctx, groups) }})
 		return m, nil
 	case key.Matches(msg, k.Focus):
 		switch {
@@ -424,8 +306,7 @@ func (m Model) key(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 		m.refresh()
 		return m, nil
 	case key.Matches(msg, k.Assumptions):
-		m.form.load(m.s.assume, m.s.curve.Summary.BaseRate)
-		m.push(overlayForm)
+		m.push(newFormPane(m.ctx, m.s.assume, m.s.curve.Summary.BaseRate))
 		return m, nil
 	case key.Matches(msg, k.Write):
 		return m, m.write(false)
@@ -434,13 +315,13 @@ func (m Model) key(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 		return m, nil
 	case key.Matches(msg, k.Segments):
 		m.segments.open()
-		m.push(overlaySegments)
+		m.push(m.segments)
 		return m, nil
 	case key.Matches(msg, k.Calibration):
-		m.push(overlayCalibration)
+		m.push(&calibrationPane{s: m.s, ctx: m.ctx})
 		return m, nil
 	case key.Matches(msg, k.Models):
-		m.push(overlayModels)
+		m.push(&modelsPane{s: m.s, ctx: m.ctx})
 		return m, nil
 	case key.Matches(msg, k.Stability):
 		return m.resampleKey()
@@ -493,8 +374,7 @@ func (m Model) stripFocusedKey(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 		s.reference = s.selected
 		m.status = fmt.Sprintf("%q is the chosen cut; the others are compared with it", s.pins[s.selected].name)
 	case key.Matches(msg, k.Rename):
-		m.rename.start(s.pins[s.selected].name)
-		m.push(overlayRename)
+		m.push(newRenamePane(m.ctx, s.pins[s.selected].name))
 	default:
 		m.strip.SetSelected(s.selected)
 		m.strip, _ = m.strip.Update(msg)
@@ -514,120 +394,20 @@ func (m Model) stripFocusedKey(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 	return m, nil
 }
 
-// overlayKey gives a key to the top overlay.
-func (m Model) overlayKey(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
-	k := m.ctx.keys
-	switch m.overlays[len(m.overlays)-1] {
-	case overlayHelp:
-		if key.Matches(msg, k.Help) || key.Matches(msg, k.Cancel) || key.Matches(msg, k.Quit) {
-			m.pop()
-		}
-		return m, nil
-	case overlaySegments:
-		if key.Matches(msg, k.Segments) || key.Matches(msg, k.Cancel) || key.Matches(msg, k.Quit) {
-			m.pop()
-			return m, nil
-		}
-		before := m.s.cursor
-		m.segments, _ = m.segments.Update(msg)
-		if m.s.cursor != before {
-			m.list.follow()
-		}
-		return m, nil
-	case overlayCalibration:
-		if key.Matches(msg, k.Calibration) || key.Matches(msg, k.Cancel) || key.Matches(msg, k.Quit) {
-			m.pop()
-			return m, nil
-		}
-		if key.Matches(msg, k.Up) || key.Matches(msg, k.Down) {
-			m.list, _ = m.list.Update(msg)
-		}
-		return m, nil
-	case overlayModels:
-		if key.Matches(msg, k.Models) || key.Matches(msg, k.Cancel) || key.Matches(msg, k.Quit) {
-			m.pop()
-		}
-		return m, nil
-	case overlayForm:
-		var done bool
-		var a projection.Assumptions
-		var cmd tea.Cmd
-		m.form, a, done, cmd = m.form.Update(msg)
-		if done {
-			m.pop()
-			if m.form.applied {
-				m.s.assume = a
-				m.unwritten = true
-				m.status = "assumptions changed: every figure and pin recomputed"
-				if m.dropStability() {
-					m.status += "; b resamples again under them"
-				}
-				m.refresh()
-				return m, m.findStartsCmd(a)
-			}
-		}
-		return m, cmd
-	case overlayRename:
-		var name string
-		var done bool
-		var cmd tea.Cmd
-		m.rename, name, done, cmd = m.rename.Update(msg)
-		if done && m.rename.cancelled {
-			m.pop()
-			return m, nil
-		}
-		if done {
-			if err := m.s.rename(name); err != nil {
-				m.rename.err = err.Error()
-				return m, nil
-			}
-			m.pop()
-			m.unwritten = true
-			m.refresh()
-		}
-		return m, cmd
-	case overlayReplace:
-		switch {
-		case key.Matches(msg, k.Yes):
-			m.pop()
-			return m, m.write(true)
-		case key.Matches(msg, k.No):
-			m.pop()
-			m.status = "not written: " + m.cfg.Out + " kept as it was"
-		}
-		return m, nil
-	}
-	return m, nil
-}
+func (m *Model) push(o overlay[*Model]) { m.overlays = push(m.overlays, o) }
 
-func (m *Model) push(o overlayKind) { m.overlays = append(m.overlays, o) }
-func (m *Model) pop()               { m.overlays = m.overlays[:len(m.overlays)-1] }
-
-// write saves the pinned candidates, pinning the cursor's cut first when
-// nothing is pinned; force replaces a file made from other data.
-func (m *Model) write(force bool) tea.Cmd {
-	s := m.s
-	if len(s.pins) == 0 {
-		s.pinCursor()
-		m.refresh()
+// applyAssumptions takes a as the assumptions: every figure and pin is
+// recomputed, a bootstrap under the old ones is dropped, and the starting
+// points are found again in the background.
+func (m *Model) applyAssumptions(a projection.Assumptions) tea.Cmd {
+	m.s.assume = a
+	m.unwritten = true
+	m.status = "assumptions changed: every figure and pin recomputed"
+	if m.dropStability() {
+		m.status += "; b resamples again under them"
 	}
-	candidates := make([]decision.Candidate, len(s.pins))
-	for i, p := range s.pins {
-		candidates[i] = decision.Candidate{Name: p.name, Rule: p.rule, Cut: s.evidenceAt(p.cut)}
-	}
-	chosen := s.pins[s.reference].name
-	file, err := decision.New(s.set, s.assume, candidates, chosen, m.cfg.ToolVersion)
-	if err != nil {
-		m.status = "not written: " + err.Error()
-		return nil
-	}
-	path := m.cfg.Out
-	return func() tea.Msg {
-		if err := decision.Write(path, file, force); err != nil {
-			return writeFailedMsg{err}
-		}
-		return fileWrittenMsg{path: path, candidates: len(candidates), chosen: chosen}
-	}
+	m.refresh()
+	return m.findStartsCmd(a)
 }
 
 // refresh brings the keys, the strip and the layout up to date with the
@@ -635,42 +415,7 @@ func (m *Model) write(force bool) tea.Cmd {
 func (m *Model) refresh() {
 	k := &m.ctx.keys
 	s := m.s
-	starts := []*key.Binding{&k.BaseRate, &k.Hit, &k.Wrong, &k.Capacity, &k.LeastCost, &k.Peak}
-	for _, b := range starts {
-		b.SetEnabled(false)
-	}
-	for i, o := range s.starts {
-		switch o.Rule.Kind {
-		case cutrule.Base:
-			k.BaseRate.SetEnabled(true)
-		case cutrule.Hit:
-			k.Hit.SetEnabled(true)
-		case cutrule.Wrong:
-			k.Wrong.SetEnabled(true)
-		case cutrule.Queue:
-			k.Capacity.SetEnabled(true)
-			k.Capacity.SetHelp(keyName(i), "queue at capacity ("+report.Count(o.Rule.Value)+")")
-		case cutrule.Cost:
-			k.LeastCost.SetEnabled(true)
-			k.LeastCost.SetKeys(keyName(i))
-			k.LeastCost.SetHelp(keyName(i), "least cost")
-		case cutrule.Queue90:
-			k.Peak.SetEnabled(true)
-			k.Peak.SetKeys(keyName(i))
-			k.Peak.SetHelp(keyName(i), "9 shifts in 10 at capacity ("+report.Count(o.Rule.Value)+")")
-		}
-	}
-	if s.set != nil {
-		k.Segments.SetEnabled(s.segments != nil)
-		k.SegmentOrder.SetEnabled(s.segments != nil)
-		k.Models.SetEnabled(s.second != nil)
-		k.Stability.SetEnabled(true)
-		k.Calibration.SetEnabled(true)
-	}
-	strip := m.focus == focusStrip && len(s.pins) > 0
-	for _, b := range []*key.Binding{&k.Left, &k.Right, &k.Jump, &k.Remove, &k.MoveLeft, &k.MoveRight, &k.Rename, &k.Choose} {
-		b.SetEnabled(strip)
-	}
+	k.enableExplorer(s, m.focus == focusStrip)
 	if len(s.pins) == 0 {
 		m.focus = focusList
 	}
@@ -685,29 +430,6 @@ func (m *Model) refresh() {
 		m.strip.SetSelected(s.selected)
 	}
 	m.resize()
-}
-
-func keyName(i int) string { return string(rune('1' + i)) }
-
-// matchesDisabled reports whether msg is the key of b while b is turned
-// off, so that the screen can say why the key does nothing here.
-func matchesDisabled(msg tea.KeyMsg, b key.Binding) bool {
-	if b.Enabled() {
-		return false
-	}
-	b.SetEnabled(true)
-	return key.Matches(msg, b)
-}
-
-// sameAssumptions reports whether a and b are the same assumptions, costs
-// compared by value.
-func sameAssumptions(a, b projection.Assumptions) bool {
-	costsA, costsB := a.Costs, b.Costs
-	a.Costs, b.Costs = nil, nil
-	if a != b || (costsA == nil) != (costsB == nil) {
-		return false
-	}
-	return costsA == nil || *costsA == *costsB
 }
 
 // screen returns the layout at the current size and state.
@@ -755,11 +477,15 @@ func (m Model) View() string {
 		}
 		return fit(lipgloss.Place(w, h, lipgloss.Center, lipgloss.Center, st.Muted.Render(text)), w, h)
 	}
-	if len(m.overlays) > 0 && m.overlays[len(m.overlays)-1] == overlaySegments {
-		// The breakdown takes the whole body: the panes under it would
-		// show only at its edges, so they are not drawn.
+	var top overlay[*Model]
+	if n := len(m.overlays); n > 0 {
+		top = m.overlays[n-1]
+	}
+	if _, covers := top.(bodyCover); covers {
+		// The panes under it would show only at its edges, so they are
+		// not drawn.
 		base := m.header(w) + strings.Repeat("\n", h-1) + m.footer(w)
-		return fit(overlay(base, m.overlayView(), w, h), w, h)
+		return fit(drawOver(base, top.View(), w, h), w, h)
 	}
 	right := m.figures.View()
 	if l.curve.H > 0 {
@@ -772,31 +498,10 @@ func (m Model) View() string {
 	}
 	parts = append(parts, m.footer(w))
 	frame := strings.Join(parts, "\n")
-	if len(m.overlays) > 0 {
-		frame = overlay(frame, m.overlayView(), w, h)
+	if top != nil {
+		frame = drawOver(frame, top.View(), w, h)
 	}
 	return fit(frame, w, h)
-}
-
-// overlayView draws the top overlay.
-func (m Model) overlayView() string {
-	switch m.overlays[len(m.overlays)-1] {
-	case overlayHelp:
-		return m.help.View(m.helpGroups())
-	case overlayForm:
-		return m.form.View()
-	case overlayRename:
-		return m.rename.View()
-	case overlayReplace:
-		return m.replace.View()
-	case overlaySegments:
-		return m.segments.View()
-	case overlayCalibration:
-		return m.calibration.View()
-	case overlayModels:
-		return m.models.View()
-	}
-	return ""
 }
 
 // header is the top line: the data's name on the left, its size and

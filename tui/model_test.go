@@ -194,8 +194,8 @@ func TestPinAndStrip(t *testing.T) {
 	m = keys(m, "r", "ctrl+u")
 	m = typeText(m, "base")
 	m = keys(m, "enter")
-	if len(m.overlays) != 1 || m.rename.err == "" {
-		t.Errorf("renaming to a taken name was not refused: overlays %v, err %q", m.overlays, m.rename.err)
+	if rename, ok := m.overlays[len(m.overlays)-1].(*renamePane); len(m.overlays) != 1 || !ok || rename.err == "" {
+		t.Errorf("renaming to a taken name was not refused: overlays %v", m.overlays)
 	}
 	m = keys(m, "ctrl+u")
 	m = typeText(m, "lead's pick")
@@ -224,13 +224,14 @@ func TestAssumptionsForm(t *testing.T) {
 	m := tenModel(t)
 	m = keys(m, "4", "p") // 0.7: queue 40 at volume 100
 	m = keys(m, "a")
-	if len(m.overlays) != 1 || m.overlays[0] != overlayForm {
+	if len(m.overlays) != 1 || !topIs[*formPane](m) {
 		t.Fatalf("a did not open the form")
 	}
+	form := m.overlays[0].(*formPane)
 	m = keys(m, "tab", "ctrl+u") // volume
 	m = typeText(m, "-5")
 	m = keys(m, "enter")
-	if len(m.overlays) != 1 || m.form.fields[fieldVolume].err == "" {
+	if len(m.overlays) != 1 || form.fields[fieldVolume].err == "" {
 		t.Fatalf("a negative volume was accepted")
 	}
 	if m.s.assume.Volume != 100 {
@@ -240,7 +241,7 @@ func TestAssumptionsForm(t *testing.T) {
 	m = typeText(m, "200")
 	m = keys(m, "enter")
 	if len(m.overlays) != 0 {
-		t.Fatalf("a valid form stayed open: %q", m.form.fields[fieldVolume].err)
+		t.Fatalf("a valid form stayed open: %q", form.fields[fieldVolume].err)
 	}
 	if m.s.assume.Volume != 200 || m.s.assume.BaseRate != 0.3 {
 		t.Errorf("assumptions %+v, want volume 200 and the base rate unchanged", m.s.assume)
@@ -295,8 +296,7 @@ func TestFormParse(t *testing.T) {
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
-			p := newFormPane(ctx)
-			p.load(projection.Assumptions{BaseRate: 0.25, Confidence: 0.95}, 0.25)
+			p := newFormPane(ctx, projection.Assumptions{BaseRate: 0.25, Confidence: 0.95}, 0.25)
 			for field, v := range tc.values {
 				p.fields[field].input.SetValue(v)
 			}
@@ -371,7 +371,7 @@ func TestWriteOverOtherData(t *testing.T) {
 
 	m := loaded(t, tenRows(t), tenAssumptions, out, 100, 30)
 	m = keys(m, "w")
-	if len(m.overlays) != 1 || m.overlays[0] != overlayReplace {
+	if len(m.overlays) != 1 || !topIs[*question[*Model]](m) {
 		t.Fatalf("no question before replacing a file of other data; status %q", m.status)
 	}
 	m = keys(m, "n")

@@ -52,12 +52,9 @@ func (m Model) helpGroups() []helpGroup {
 	}
 }
 
-// helpPane draws every key, grouped, in two columns.
-type helpPane struct{ ctx *shared }
-
-// View draws the help box for groups.
-func (p helpPane) View(groups []helpGroup) string {
-	st := p.ctx.styles
+// helpView draws every key of groups in two columns, in a box.
+func helpView(ctx *shared, groups []helpGroup) string {
+	st := ctx.styles
 	render := func(g helpGroup) []string {
 		keyW := 0
 		for _, b := range g.bindings {
@@ -116,13 +113,7 @@ func (p helpPane) View(groups []helpGroup) string {
 		st.Muted.Render("marks: ● true case · ▌ flagged · ▶ the cut's tie group · ◆ chosen · ◇ pinned"),
 		st.Muted.Render("candidate keys act in the strip (tab) · ? or esc closes"),
 		st.Warning.Render(evidence.ShortCaution))
-	body := strings.Join(rows, "\n")
-	return p.box("keys", body)
-}
-
-// box frames an overlay body, sized to fit it within the screen.
-func (p helpPane) box(title, body string) string {
-	return overlayBox(p.ctx, title, body)
+	return overlayBox(ctx, "keys", strings.Join(rows, "\n"))
 }
 
 // overlayBox frames body in the overlay style at its natural size, no
@@ -160,18 +151,20 @@ const (
 	fieldCount
 )
 
-// formPane is the assumptions form. Entries are checked when applied; a
-// refused entry stays open with its reason beside it.
+// formPane is the assumptions form, an overlay of the explorer. Entries
+// are checked when applied; a refused entry stays open with its reason
+// beside it.
 type formPane struct {
 	ctx                *shared
 	fields             []formField
 	focused            int
-	applied            bool
 	validationBaseRate float64
 }
 
-func newFormPane(ctx *shared) formPane {
-	p := formPane{ctx: ctx}
+// newFormPane returns the form filled from a; an empty base rate is the
+// validation set's.
+func newFormPane(ctx *shared, a projection.Assumptions, validationBaseRate float64) *formPane {
+	p := &formPane{ctx: ctx}
 	specs := []struct{ label, hint string }{
 		{"base rate", "production share of true cases: 0.07 or 7%"},
 		{"volume per shift", "cases scored per shift; empty: not given"},
@@ -185,13 +178,13 @@ func newFormPane(ctx *shared) formPane {
 		in := newTextField(24)
 		p.fields = append(p.fields, formField{label: s.label, hint: s.hint, input: in})
 	}
+	p.load(a, validationBaseRate)
 	return p
 }
 
 // load fills the form from a.
 func (p *formPane) load(a projection.Assumptions, validationBaseRate float64) {
 	p.validationBaseRate = validationBaseRate
-	p.applied = false
 	// An empty base rate is the validation set's: say what that is.
 	p.fields[fieldBaseRate].hint = "production share of true cases, 0.01 or 1%; empty: " + report.Percent(validationBaseRate)
 	text := func(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
@@ -231,34 +224,36 @@ func (p *formPane) focus(i int) {
 	}
 }
 
-// Update handles a key; done is true when the form closes, and then
-// p.applied says whether a holds accepted assumptions.
-func (p formPane) Update(msg tea.Msg) (formPane, projection.Assumptions, bool, tea.Cmd) {
+// Update handles a key: enter applies the assumptions to the explorer
+// when every entry is accepted, esc closes the form without them.
+func (p *formPane) Update(m *Model, msg tea.KeyMsg) (bool, tea.Cmd) {
 	k := p.ctx.keys
-	if m, ok := msg.(tea.KeyMsg); ok {
-		switch {
-		case key.Matches(m, k.Cancel):
-			p.applied = false
-			return p, projection.Assumptions{}, true, nil
-		case key.Matches(m, k.Accept):
-			a, ok := p.parse()
-			if !ok {
-				return p, a, false, nil
-			}
-			p.applied = true
-			return p, a, true, nil
-		case key.Matches(m, k.NextField):
-			p.focus(p.focused + 1)
-			return p, projection.Assumptions{}, false, nil
-		case key.Matches(m, k.PrevField):
-			p.focus(p.focused - 1)
-			return p, projection.Assumptions{}, false, nil
+	switch {
+	case key.Matches(msg, k.Cancel):
+		return true, nil
+	case key.Matches(msg, k.Accept):
+		a, ok := p.parse()
+		if !ok {
+			return false, nil
 		}
+		return true, m.applyAssumptions(a)
+	case key.Matches(msg, k.NextField):
+		p.focus(p.focused + 1)
+		return false, nil
+	case key.Matches(msg, k.PrevField):
+		p.focus(p.focused - 1)
+		return false, nil
 	}
 	var cmd tea.Cmd
 	p.fields[p.focused].input, cmd = p.fields[p.focused].input.Update(msg)
 	p.fields[p.focused].err = ""
-	return p, projection.Assumptions{}, false, cmd
+	return false, cmd
+}
+
+// ShortHelp lists the form's keys.
+func (p *formPane) ShortHelp() []key.Binding {
+	k := p.ctx.keys
+	return []key.Binding{k.NextField, k.Accept, k.Cancel}
 }
 
 // parse reads every field, marks the refused ones with their reason and
@@ -356,7 +351,7 @@ func (p *formPane) parse() (projection.Assumptions, bool) {
 }
 
 // View draws the form.
-func (p formPane) View() string {
+func (p *formPane) View() string {
 	st := p.ctx.styles
 	var lines []string
 	for i, f := range p.fields {
@@ -387,47 +382,51 @@ func (p formPane) View() string {
 	return overlayBox(p.ctx, "assumptions", strings.Join(lines, "\n"))
 }
 
-// renamePane asks for a candidate's new name.
+// renamePane asks for the selected candidate's new name, an overlay of
+// the explorer.
 type renamePane struct {
-	ctx       *shared
-	input     textField
-	err       string
-	cancelled bool // esc closed the box without renaming
+	ctx   *shared
+	input textField
+	err   string
 }
 
-func newRenamePane(ctx *shared) renamePane {
-	in := newTextField(40)
-	return renamePane{ctx: ctx, input: in}
-}
-
-func (p *renamePane) start(name string) {
+// newRenamePane returns the box with name to edit.
+func newRenamePane(ctx *shared, name string) *renamePane {
+	p := &renamePane{ctx: ctx, input: newTextField(40)}
 	p.input.SetValue(name)
 	p.input.Focus()
-	p.err = ""
-	p.cancelled = false
+	return p
 }
 
-// Update handles a key: done with the new name on enter, done with
-// cancelled set on esc.
-func (p renamePane) Update(msg tea.Msg) (renamePane, string, bool, tea.Cmd) {
+// Update handles a key: enter renames the selected candidate unless the
+// name is refused, esc closes the box without renaming.
+func (p *renamePane) Update(m *Model, msg tea.KeyMsg) (bool, tea.Cmd) {
 	k := p.ctx.keys
-	if m, ok := msg.(tea.KeyMsg); ok {
-		switch {
-		case key.Matches(m, k.Cancel):
-			p.cancelled = true
-			return p, "", true, nil
-		case key.Matches(m, k.Accept):
-			return p, strings.TrimSpace(p.input.Value()), true, nil
+	switch {
+	case key.Matches(msg, k.Cancel):
+		return true, nil
+	case key.Matches(msg, k.Accept):
+		if err := m.s.rename(strings.TrimSpace(p.input.Value())); err != nil {
+			p.err = err.Error()
+			return false, nil
 		}
+		m.unwritten = true
+		m.refresh()
+		return true, nil
 	}
 	var cmd tea.Cmd
 	p.input, cmd = p.input.Update(msg)
 	p.err = ""
-	return p, "", false, cmd
+	return false, cmd
+}
+
+// ShortHelp lists the box's keys.
+func (p *renamePane) ShortHelp() []key.Binding {
+	return []key.Binding{p.ctx.keys.Accept, p.ctx.keys.Cancel}
 }
 
 // View draws the rename box.
-func (p renamePane) View() string {
+func (p *renamePane) View() string {
 	st := p.ctx.styles
 	lines := []string{"new name: " + fitLine(p.input.View(), 31)}
 	if p.err != "" {
@@ -437,23 +436,19 @@ func (p renamePane) View() string {
 	return overlayBox(p.ctx, "rename candidate", strings.Join(lines, "\n"))
 }
 
-// replacePane asks before replacing a file made from other data.
-type replacePane struct {
-	ctx    *shared
-	path   string
-	reason string
-}
-
-// View draws the question.
-func (p replacePane) View() string {
-	st := p.ctx.styles
-	lines := []string{st.Warning.Render(p.path + " already exists and was not made from this data.")}
-	for _, l := range wrapWords(p.reason, 60) {
+// replaceQuestion asks before replacing path, a file on disk that is not
+// the one being written (made from other data, or no decision file), for
+// reason; headline says what was found and ask what is asked. y runs
+// replace, n or esc runs keep.
+func replaceQuestion[H any](ctx *shared, path, reason, headline, ask string, replace, keep func(H) tea.Cmd) *question[H] {
+	st, k := ctx.styles, ctx.keys
+	lines := []string{st.Warning.Render(headline)}
+	for _, l := range wrapWords(reason, 60) {
 		lines = append(lines, st.Muted.Render(l))
 	}
-	lines = append(lines, "",
-		"Replace it with this decision? "+st.Key.Render("y")+" replaces · "+st.Key.Render("n")+"/esc keeps it")
-	return overlayBox(p.ctx, "replace "+p.path+"?", strings.Join(lines, "\n"))
+	lines = append(lines, "", ask+" "+st.Key.Render("y")+" replaces · "+st.Key.Render("n")+"/esc keeps it")
+	return &question[H]{ctx: ctx, title: "replace " + path + "?", body: strings.Join(lines, "\n"),
+		answers: []answer[H]{{key: k.Yes, do: replace}, {key: k.No, do: keep}}}
 }
 
 // wrapWords breaks text into lines of at most width columns at spaces; a

@@ -6,6 +6,9 @@ import (
 	"strconv"
 	"strings"
 
+	"github.com/charmbracelet/bubbles/key"
+	tea "github.com/charmbracelet/bubbletea"
+
 	"github.com/sill-tool/sill/internal/bootstrap"
 	"github.com/sill-tool/sill/internal/calibration"
 	"github.com/sill-tool/sill/internal/cutrule"
@@ -24,8 +27,27 @@ type calibrationPane struct {
 	ctx *shared
 }
 
+// Update moves the cut with the up and down keys, the list under the
+// overlay following; e, esc or q close the overlay.
+func (p *calibrationPane) Update(m *Model, msg tea.KeyMsg) (bool, tea.Cmd) {
+	k := p.ctx.keys
+	if key.Matches(msg, k.Calibration) || key.Matches(msg, k.Cancel) || key.Matches(msg, k.Quit) {
+		return true, nil
+	}
+	if key.Matches(msg, k.Up) || key.Matches(msg, k.Down) {
+		m.list, _ = m.list.Update(msg)
+	}
+	return false, nil
+}
+
+// ShortHelp lists the overlay's keys.
+func (p *calibrationPane) ShortHelp() []key.Binding {
+	k := p.ctx.keys
+	return []key.Binding{k.Up, k.Down, k.Calibration}
+}
+
 // View draws the overlay.
-func (p calibrationPane) View() string {
+func (p *calibrationPane) View() string {
 	s, st := p.s, p.ctx.styles
 	t := s.reliability
 	if t == nil {
@@ -149,8 +171,17 @@ type modelsPane struct {
 	ctx *shared
 }
 
+// Update closes the overlay on m, esc or q.
+func (p *modelsPane) Update(_ *Model, msg tea.KeyMsg) (bool, tea.Cmd) {
+	k := p.ctx.keys
+	return key.Matches(msg, k.Models) || key.Matches(msg, k.Cancel) || key.Matches(msg, k.Quit), nil
+}
+
+// ShortHelp lists the overlay's key.
+func (p *modelsPane) ShortHelp() []key.Binding { return []key.Binding{p.ctx.keys.Models} }
+
 // View draws the overlay.
-func (p modelsPane) View() string {
+func (p *modelsPane) View() string {
 	s, st := p.s, p.ctx.styles
 	if s.second == nil {
 		return overlayBox(p.ctx, "two models", "no second model: give --score twice, or --compare FILE with --id\n"+st.Muted.Render("m or esc closes"))

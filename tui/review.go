@@ -87,9 +87,7 @@ func newReviewKeys(k KeyMap) reviewKeys {
 	k.Left.SetHelp("←/h", "previous candidate")
 	k.Right.SetHelp("→/l", "next candidate")
 	k.Accept.SetHelp("enter", "keep the note")
-	for _, b := range []*key.Binding{&k.Left, &k.Right, &k.Choose, &k.Write, &k.Help, &k.Quit} {
-		b.SetEnabled(true)
-	}
+	k.enableReview()
 	return reviewKeys{
 		KeyMap:   k,
 		Note:     key.NewBinding(key.WithKeys("n"), key.WithHelp("n", "note on this candidate")),
@@ -367,7 +365,7 @@ func (r Review) View() string {
 	}
 	frame := strings.Join([]string{r.header(w), r.strip.View(true), r.notesView(l.notes), r.footer(w)}, "\n")
 	if len(r.overlays) > 0 {
-		frame = overlay(frame, r.overlayView(), w, h)
+		frame = drawOver(frame, r.overlayView(), w, h)
 	}
 	return fit(frame, w, h)
 }

@@ -38,8 +38,8 @@ type sortedGroups struct {
 	breakdown  segment.Breakdown
 }
 
-func newSegmentsPane(s *session, ctx *shared, order segment.Order) segmentsPane {
-	return segmentsPane{s: s, ctx: ctx, order: order, sorted: &sortedGroups{}}
+func newSegmentsPane(s *session, ctx *shared, order segment.Order) *segmentsPane {
+	return &segmentsPane{s: s, ctx: ctx, order: order, sorted: &sortedGroups{}}
 }
 
 // open shows the groups from the top.
@@ -64,14 +64,18 @@ func (p segmentsPane) rowsInView() int {
 	return max(p.ctx.height-2-p.ctx.styles.Overlay.GetVerticalFrameSize()-5, 1)
 }
 
-// Update moves the cut with the cut keys, scrolls with the page keys and
-// changes the order with o.
-func (p segmentsPane) Update(msg tea.Msg) (segmentsPane, tea.Cmd) {
-	m, ok := msg.(tea.KeyMsg)
-	if !ok || p.s.curve == nil {
-		return p, nil
-	}
+// Update moves the cut with the cut keys (the list under the overlay
+// follows), scrolls with the page keys and changes the order with o; s,
+// esc or q close the overlay.
+func (p *segmentsPane) Update(host *Model, m tea.KeyMsg) (bool, tea.Cmd) {
 	k, s := p.ctx.keys, p.s
+	if key.Matches(m, k.Segments) || key.Matches(m, k.Cancel) || key.Matches(m, k.Quit) {
+		return true, nil
+	}
+	if s.curve == nil {
+		return false, nil
+	}
+	before := s.cursor
 	groups := len(p.breakdown().Segments)
 	page := p.rowsInView()
 	switch {
@@ -92,8 +96,20 @@ func (p segmentsPane) Update(msg tea.Msg) (segmentsPane, tea.Cmd) {
 		p.offset = 0
 	}
 	p.offset = max(min(p.offset, groups-page), 0)
-	return p, nil
+	if s.cursor != before {
+		host.list.follow()
+	}
+	return false, nil
 }
+
+// ShortHelp lists the overlay's keys.
+func (p *segmentsPane) ShortHelp() []key.Binding {
+	k := p.ctx.keys
+	return []key.Binding{k.Up, k.Down, k.PageDown, k.SegmentOrder, k.Segments}
+}
+
+// coversBody marks the breakdown as taking the whole body.
+func (p *segmentsPane) coversBody() {}
 
 func orderName(o segment.Order) string {
 	switch o {
@@ -106,7 +122,7 @@ func orderName(o segment.Order) string {
 }
 
 // View draws the overlay at nearly the screen's size.
-func (p segmentsPane) View() string {
+func (p *segmentsPane) View() string {
 	s, st := p.s, p.ctx.styles
 	b := p.breakdown()
 	longest := len("(overall)")
