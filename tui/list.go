@@ -155,7 +155,7 @@ func (p listPane) body(innerW int) string {
 	shown := 0
 	for r := p.offset; r < s.set.Len() && shown < n+1; r++ {
 		if r == end {
-			b.WriteString("\n" + st.CutLine.Render(p.cutLine(point.Score, point.FlaggedCases(), innerW)))
+			b.WriteString("\n" + st.CutLine.Render(p.cutLine(point.Score, point.Cases, innerW)))
 			shown++
 			if shown >= n+1 {
 				break
@@ -165,7 +165,7 @@ func (p listPane) body(innerW int) string {
 		shown++
 	}
 	if end == s.set.Len() && shown < n+1 {
-		b.WriteString("\n" + st.CutLine.Render(p.cutLine(point.Score, point.FlaggedCases(), innerW)))
+		b.WriteString("\n" + st.CutLine.Render(p.cutLine(point.Score, point.Cases, innerW)))
 	}
 	return b.String()
 }
@@ -179,7 +179,7 @@ func (p listPane) cutLine(score float64, flagged, width int) string {
 		sign = "<="
 	}
 	noun := "flagged"
-	if p.s.set.Weighted() && !p.s.set.Counts {
+	if p.s.set.Weighted() {
 		noun = "rows flagged"
 	}
 	line := fmt.Sprintf("━━ cut %s %s ━ %d %s ", sign, report.Score(score), flagged, noun)

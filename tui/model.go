@@ -512,7 +512,7 @@ func (m Model) header(width int) string {
 	left := "sill · " + s.set.Source
 	right := fmt.Sprintf("%d rows · %s true (%s) · ROC AUC %s", sum.Rows,
 		report.Count(sum.Positives), report.Percent(sum.BaseRate), report.Fixed(sum.ROCAUC, 3))
-	if s.set.Weighted() && !s.set.Counts { // a counts table's weights are whole cases
+	if s.set.Weighted() { // a counts table's weights are whole cases, not weights
 		right += " · weighted"
 	}
 	rightW := min(ansi.StringWidth(right), width*3/4)

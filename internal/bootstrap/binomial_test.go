@@ -55,11 +55,10 @@ func TestBinomialMoments(t *testing.T) {
 // 3,000,000 at score 0.9 and 1,000,000 at 0.5; false cases 2,000,000 at
 // 0.5 and 4,000,000 at 0.1 (10 million in all, above 2^22).
 func TestMultinomialKeepsClassSizes(t *testing.T) {
-	set, err := scores.New([]float64{0.9, 0.5, 0.5, 0.1}, []bool{true, true, false, false}, []float64{3e6, 1e6, 2e6, 4e6}, false)
+	set, err := scores.NewCounts([]float64{0.9, 0.5, 0.5, 0.1}, []bool{true, true, false, false}, []float64{3e6, 1e6, 2e6, 4e6}, false)
 	if err != nil {
 		t.Fatal(err)
 	}
-	set.Counts = true
 	var positiveRows, negativeRows []int
 	for i, positive := range set.Labels {
 		if positive {
@@ -75,8 +74,8 @@ func TestMultinomialKeepsClassSizes(t *testing.T) {
 	for b := range uint64(20) {
 		rep := r.draw(1, b)
 		positives, negatives := rep.Totals()
-		if positives != 4e6 || negatives != 6e6 || !rep.Counts {
-			t.Fatalf("replicate %d: %v true and %v false cases (counts %v), want 4e6 and 6e6", b, positives, negatives, rep.Counts)
+		if positives != 4e6 || negatives != 6e6 || rep.Cases() != 10e6 || !rep.CountsTable() {
+			t.Fatalf("replicate %d: %v true and %v false cases, %d in all (counts table %v), want 4e6, 6e6 and 10e6", b, positives, negatives, rep.Cases(), rep.CountsTable())
 		}
 		for i, w := range rep.Weights {
 			share := w / map[bool]float64{true: 4e6, false: 6e6}[rep.Labels[i]]

@@ -15,7 +15,7 @@
 // result depends on Seed and Replicates only, never on the number of
 // workers or their timing.
 //
-// A counts table (scores.Set.Counts) is resampled by case, not by table
+// A counts table (scores.Set.CountsTable) is resampled by case, not by table
 // row: each replicate draws as many true cases and false cases as the
 // table counts, each case equally likely, in the same ranked order as the
 // raw rows the table aggregates. With the same seed it therefore gives the
@@ -140,7 +140,7 @@ func Run(ctx context.Context, set *scores.Set, rules []cutrule.Rule, a projectio
 	if len(positiveRows) == 0 || len(negativeRows) == 0 {
 		return Result{}, ErrNoClass
 	}
-	if set.Counts {
+	if set.CountsTable() {
 		// A counts table is drawn by case (see the package doc): each class
 		// needs a whole case.
 		if positives, negatives := set.Totals(); !(positives >= 1) || !(negatives >= 1) {
@@ -284,25 +284,14 @@ func bandCuts(set *scores.Set, k int) []bandCut {
 	c := curve.New(set)
 	var out []bandCut
 	last := -1
-	// For a counts table the cuts are spread over its cases: casesBefore
-	// holds the cases of the rows before each row.
-	var casesBefore []float64
-	if set.Counts {
-		casesBefore = make([]float64, n+1)
-		for i := range n {
-			casesBefore[i+1] = casesBefore[i] + set.Weight(i)
-		}
-		n = int(casesBefore[n])
-		if n == 0 {
-			return nil
-		}
+	// The cuts are spread over the cases (a counts table's rows stand for
+	// several).
+	cases := set.Cases()
+	if cases == 0 {
+		return nil
 	}
 	for j := 1; j <= k; j++ {
-		row := max(int(math.Ceil(float64(j)*float64(n)/float64(k)))-1, 0)
-		if casesBefore != nil {
-			// The table row holding case number row, counted from 0.
-			row = sort.Search(len(casesBefore)-1, func(i int) bool { return casesBefore[i+1] > float64(row) })
-		}
+		row := set.RowOfCase(max(int(math.Ceil(float64(j)*float64(cases)/float64(k)))-1, 0))
 		cut := c.CutOfRow(row)
 		if cut == last {
 			continue
@@ -334,24 +323,13 @@ type replicator struct {
 func newReplicator(set *scores.Set, positiveRows, negativeRows []int) *replicator {
 	n := set.Len()
 	r := &replicator{set: set, positiveRows: positiveRows, negativeRows: negativeRows}
-	if set.Counts {
-		r.drawn = make([]float64, n)
-	} else {
+	if !set.CountsTable() {
 		r.counts = make([]int32, n)
+		return r
 	}
-	r.rep = scores.Set{
-		Scores:         make([]float64, 0, n),
-		Labels:         make([]bool, 0, n),
-		LowerIsRiskier: set.LowerIsRiskier,
-	}
-	if set.Weights != nil {
-		r.rep.Weights = make([]float64, 0, n)
-	}
-	if set.Counts {
-		r.rep.Counts = true
-		r.positiveBefore, r.positiveCases = casesBefore(set, positiveRows)
-		r.negativeBefore, r.negativeCases = casesBefore(set, negativeRows)
-	}
+	r.drawn = make([]float64, n)
+	r.positiveBefore, r.positiveCases = casesBefore(set, positiveRows)
+	r.negativeBefore, r.negativeCases = casesBefore(set, negativeRows)
 	return r
 }
 
@@ -376,7 +354,7 @@ func drawCase(rows []int, before []float64, c int) int {
 // as often as it was drawn.
 func (r *replicator) draw(seed, b uint64) *scores.Set {
 	rng := rand.New(rand.NewPCG(seed, b))
-	if r.set.Counts {
+	if r.set.CountsTable() {
 		return r.drawCases(rng)
 	}
 	clear(r.counts)
@@ -386,21 +364,8 @@ func (r *replicator) draw(seed, b uint64) *scores.Set {
 	for range r.negativeRows {
 		r.counts[r.negativeRows[rng.IntN(len(r.negativeRows))]]++
 	}
-	rep := &r.rep
-	rep.Scores, rep.Labels = rep.Scores[:0], rep.Labels[:0]
-	if rep.Weights != nil {
-		rep.Weights = rep.Weights[:0]
-	}
-	for i, m := range r.counts {
-		for range m {
-			rep.Scores = append(rep.Scores, r.set.Scores[i])
-			rep.Labels = append(rep.Labels, r.set.Labels[i])
-			if rep.Weights != nil {
-				rep.Weights = append(rep.Weights, r.set.Weights[i])
-			}
-		}
-	}
-	return rep
+	scores.Replicate(&r.rep, r.set, r.counts)
+	return &r.rep
 }
 
 // drawCases builds a replicate of a counts table: as many cases of each
@@ -419,16 +384,8 @@ func (r *replicator) drawCases(rng *rand.Rand) *scores.Set {
 		r.multinomial(rng, r.positiveRows, r.positiveBefore, r.positiveCases)
 		r.multinomial(rng, r.negativeRows, r.negativeBefore, r.negativeCases)
 	}
-	rep := &r.rep
-	rep.Scores, rep.Labels, rep.Weights = rep.Scores[:0], rep.Labels[:0], rep.Weights[:0]
-	for i, m := range r.drawn {
-		if m > 0 {
-			rep.Scores = append(rep.Scores, r.set.Scores[i])
-			rep.Labels = append(rep.Labels, r.set.Labels[i])
-			rep.Weights = append(rep.Weights, m)
-		}
-	}
-	return rep
+	scores.Replicate(&r.rep, r.set, r.drawn)
+	return &r.rep
 }
 
 // multinomial draws cases of one class of a counts table into r.drawn:
@@ -497,7 +454,7 @@ func (r *replicator) band(cuts []bandCut, b int, recallAt, fdrAt [][]float64) {
 	// drawnWeight is the weight that row i adds to the replicate: a row of
 	// a counts table weighs one case per case drawn.
 	drawnWeight := func(i int) float64 { return float64(r.counts[i]) * r.set.Weight(i) }
-	if r.set.Counts {
+	if r.set.CountsTable() {
 		drawnWeight = func(i int) float64 { return r.drawn[i] }
 	}
 	var positives float64

@@ -104,10 +104,10 @@ func Reliability(set *scores.Set, bins int, binning Binning) (Table, error) {
 			ascending[set.Len()-1-i] = s // ranked riskiest first, so descending
 		}
 		var casesBefore []float64 // for a counts table: cases of the ascending rows before each
-		if set.Counts {
+		if set.CountsTable() {
 			casesBefore = make([]float64, set.Len()+1)
 			for k := range ascending {
-				casesBefore[k+1] = casesBefore[k] + set.Weight(set.Len()-1-k)
+				casesBefore[k+1] = casesBefore[k] + float64(set.CasesAt(set.Len()-1-k))
 			}
 		}
 		for k := range edges {
@@ -142,11 +142,7 @@ func Reliability(set *scores.Set, bins int, binning Binning) (Table, error) {
 	for i, s := range set.Scores {
 		b := sort.SearchFloat64s(inner, s) // the number of inner edges < s
 		w := set.Weight(i)
-		if set.Counts {
-			t.Bins[b].Count += int(w) // a counts table's row stands for its cases
-		} else {
-			t.Bins[b].Count++
-		}
+		t.Bins[b].Count += set.CasesAt(i) // a counts table's row stands for its cases
 		t.Bins[b].Weight += w
 		sums[b] += w * s
 		if set.Labels[i] {

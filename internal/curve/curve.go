@@ -21,19 +21,10 @@ type Point struct {
 	Rows  int     // validation rows flagged, whatever their weight: rows [0, Rows) of the ranked set
 
 	// Cases is the number of validation cases flagged: Rows, except for a
-	// counts table (scores.Set.Counts), whose rows stand for their counts.
-	// Points made by hand may leave it 0; see FlaggedCases.
+	// counts table, whose rows stand for their counts (scores.Set.CasesFlagged).
 	Cases int
 
 	TP, FP, FN, TN float64 // weighted counts
-}
-
-// FlaggedCases returns Cases, or Rows when Cases is not set.
-func (p Point) FlaggedCases() int {
-	if p.Cases > 0 {
-		return p.Cases
-	}
-	return p.Rows
 }
 
 // Flagged returns the weighted number of flagged cases.
@@ -105,7 +96,7 @@ func Walk(set *scores.Set, visit func(Point)) Summary {
 		Positives:     positives,
 		Negatives:     negatives,
 		BaseRate:      ratio(positives, positives+negatives),
-		Weighted:      set.Weighted() && !set.Counts,
+		Weighted:      set.Weighted(),
 		Probabilities: !set.LowerIsRiskier && set.Len() > 0,
 	}
 	var (
@@ -160,11 +151,7 @@ func Walk(set *scores.Set, visit func(Point)) Summary {
 			previousRecall = recall
 		}
 		if visit != nil {
-			cases := end
-			if set.Counts {
-				cases = int(tp + fp)
-			}
-			visit(Point{Index: cutIndex, Score: score, Rows: end, Cases: cases, TP: tp, FP: fp, FN: positives - tp, TN: negatives - fp})
+			visit(Point{Index: cutIndex, Score: score, Rows: end, Cases: set.CasesFlagged(end), TP: tp, FP: fp, FN: positives - tp, TN: negatives - fp})
 		}
 		cutIndex++
 		start = end

@@ -32,15 +32,11 @@ func (c *Curve) Len() int { return len(c.end) }
 
 // At returns the point at cut i, 0 <= i < Len().
 func (c *Curve) At(i int) Point {
-	cases := c.end[i]
-	if c.Set.Counts {
-		cases = int(c.tp[i] + c.fp[i])
-	}
 	return Point{
 		Index: i,
 		Score: c.Set.Scores[c.end[i]-1],
 		Rows:  c.end[i],
-		Cases: cases,
+		Cases: c.Set.CasesFlagged(c.end[i]),
 		TP:    c.tp[i],
 		FP:    c.fp[i],
 		FN:    c.Summary.Positives - c.tp[i],

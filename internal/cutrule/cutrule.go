@@ -277,7 +277,7 @@ func (f *Finder) Visit(p curve.Point) {
 			if r.Percent {
 				limit = r.Value / 100 * float64(f.cases)
 			}
-			keep = float64(p.FlaggedCases()) <= limit*(1+slack)
+			keep = float64(p.Cases) <= limit*(1+slack)
 		case Hit:
 			keep = !f.found[i] && p.Recall() >= r.Value-slack
 		case Wrong:
@@ -340,10 +340,10 @@ func (f *Finder) reason(r Rule) string {
 	case Score:
 		return fmt.Sprintf("no score is at or beyond %v; the riskiest is %v", r.Value, p.Score)
 	case Top:
-		if p.FlaggedCases() == 1 {
+		if p.Cases == 1 {
 			return fmt.Sprintf("the strictest cut already flags 1 row (score %v)", p.Score)
 		}
-		return fmt.Sprintf("the strictest cut already flags %d rows (tied at score %v)", p.FlaggedCases(), p.Score)
+		return fmt.Sprintf("the strictest cut already flags %d rows (tied at score %v)", p.Cases, p.Score)
 	case Hit:
 		if !(p.Positives() > 0) {
 			return "the validation set has no true cases, so hit share is undefined"

@@ -99,7 +99,7 @@ func Check(f *decision.File, set *scores.Set, opt Options) (*Result, error) {
 	if !ok {
 		return nil, fmt.Errorf("%w (%q)", ErrNoCandidate, f.Chosen)
 	}
-	counts := tally{rows: set.Cases(), weighted: set.Weighted() && !set.Counts} // a counts table: cases, not table rows
+	counts := tally{rows: set.Cases(), weighted: set.Weighted()} // a counts table: cases, not table rows
 	for i, s := range set.Scores {
 		w := set.Weight(i)
 		flagged := s >= chosen.Cut.Score

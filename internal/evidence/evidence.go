@@ -43,7 +43,7 @@ type Cut struct {
 func Of(p curve.Point, a projection.Assumptions) Cut {
 	c := Cut{
 		Score:              p.Score,
-		Rows:               p.FlaggedCases(),
+		Rows:               p.Cases,
 		Flagged:            p.Flagged(),
 		FlaggedShare:       p.FlaggedShare(),
 		TP:                 p.TP,

@@ -33,7 +33,7 @@ func near(got, want float64) bool {
 // Projection at base rate 0.2, 1000 cases per shift: alert rate
 // 0.6*0.2 + 0.2*0.8 = 0.28, precision 0.12/0.28 = 3/7, queue 280.
 func TestOf(t *testing.T) {
-	p := curve.Point{Index: 3, Score: 0.7, Rows: 4, TP: 3, FP: 1, FN: 2, TN: 4}
+	p := curve.Point{Index: 3, Score: 0.7, Rows: 4, Cases: 4, TP: 3, FP: 1, FN: 2, TN: 4}
 	a := projection.Assumptions{BaseRate: 0.2, Volume: 1000, Confidence: 0.9}
 	c := evidence.Of(p, a)
 	for _, check := range []struct {
@@ -75,7 +75,7 @@ func TestOf(t *testing.T) {
 // the intervals: recall's interval is Wilson(tp, tp+fn) with the weighted
 // sums, here 2.5 of 4.
 func TestOfWeighted(t *testing.T) {
-	p := curve.Point{Score: 0.4, Rows: 3, TP: 2.5, FP: 0.5, FN: 1.5, TN: 6}
+	p := curve.Point{Score: 0.4, Rows: 3, Cases: 3, TP: 2.5, FP: 0.5, FN: 1.5, TN: 6}
 	c := evidence.Of(p, projection.Assumptions{BaseRate: 0.4, Confidence: 0.95})
 	lo, hi := interval.Wilson(2.5, 4, 0.95)
 	if c.RecallCI != [2]float64{lo, hi} {
@@ -94,7 +94,7 @@ func TestOfWeighted(t *testing.T) {
 // interval are NaN, precision is 0 with a defined interval (0 of 2), and
 // the FDR interval is its complement, ending exactly at 1.
 func TestOfUndefined(t *testing.T) {
-	p := curve.Point{Score: 0.9, Rows: 2, FP: 2, TN: 3}
+	p := curve.Point{Score: 0.9, Rows: 2, Cases: 2, FP: 2, TN: 3}
 	c := evidence.Of(p, projection.Assumptions{BaseRate: 0, Confidence: 0.95})
 	if !math.IsNaN(c.Recall) || !math.IsNaN(c.RecallCI[0]) || !math.IsNaN(c.RecallCI[1]) {
 		t.Errorf("recall %v interval %v, want NaN", c.Recall, c.RecallCI)
@@ -107,7 +107,7 @@ func TestOfUndefined(t *testing.T) {
 	}
 
 	// Nothing flagged: precision, FDR and both their intervals are NaN.
-	p = curve.Point{Score: 0.9, Rows: 1, FN: 2, TN: 3} // a zero-weight row flagged
+	p = curve.Point{Score: 0.9, Rows: 1, Cases: 1, FN: 2, TN: 3} // a zero-weight row flagged
 	c = evidence.Of(p, projection.Assumptions{BaseRate: 0.4, Confidence: 0.95})
 	for _, v := range []float64{c.Precision, c.FalseDiscoveryRate, c.PrecisionCI[0], c.PrecisionCI[1], c.FalseDiscoveryCI[0], c.FalseDiscoveryCI[1], c.Projected.Precision} {
 		if !math.IsNaN(v) {

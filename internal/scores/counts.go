@@ -36,9 +36,10 @@ const maxCount = 1 << 53
 // A score may appear on several rows; its counts add up.
 //
 // The Set holds one row per score and label with a non-zero count, weighted
-// by that count and marked Counts, so that every figure of the curve, the
-// cut rules and the intervals comes out as from the raw rows the table
-// counts, in memory proportional to the rows of the table. The read order
+// by that count and marked a counts table (Set.CountsTable), so that every
+// figure of the curve, the cut rules and the intervals comes out as from
+// the raw rows the table counts, in memory proportional to the rows of the
+// table. The read order
 // of a score's rows is positives first, then negatives.
 //
 // Options.Input, Delimiter, ScoreColumn, SegmentColumn, LowerIsRiskier and
@@ -174,20 +175,7 @@ func ReadCounts(r io.Reader, source string, opt Options) (*Set, error) {
 	if err != nil {
 		return nil, err
 	}
-	set.Counts = true
+	set.countCases()
 	set.LabelColumn = header[positivesCol] + "/" + header[negativesCol]
 	return set, nil
-}
-
-// Cases returns the number of validation cases: Len() for a set of rows,
-// the summed counts for a counts table (see Counts).
-func (s *Set) Cases() int {
-	if !s.Counts {
-		return s.Len()
-	}
-	total := 0.0
-	for _, w := range s.Weights {
-		total += w
-	}
-	return int(total)
 }

@@ -103,8 +103,8 @@ func TestCountsEqualRawRows(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if !counted.Counts || counted.Cases() != n || rows.Cases() != n {
-			t.Fatalf("trial %d: counts %v, cases %d and %d, want %d", trial, counted.Counts, counted.Cases(), rows.Cases(), n)
+		if !counted.CountsTable() || rows.CountsTable() || counted.Cases() != n || rows.Cases() != n {
+			t.Fatalf("trial %d: counts table %v and %v, cases %d and %d, want %d", trial, counted.CountsTable(), rows.CountsTable(), counted.Cases(), rows.Cases(), n)
 		}
 		var want, got []curve.Point
 		wantSum := curve.Walk(rows, func(p curve.Point) { want = append(want, p) })
@@ -114,7 +114,7 @@ func TestCountsEqualRawRows(t *testing.T) {
 		}
 		for i := range want {
 			w, g := want[i], got[i]
-			if w.Score != g.Score || w.FlaggedCases() != g.FlaggedCases() || w.TP != g.TP || w.FP != g.FP || w.FN != g.FN || w.TN != g.TN {
+			if w.Score != g.Score || w.Cases != g.Cases || w.TP != g.TP || w.FP != g.FP || w.FN != g.FN || w.TN != g.TN {
 				t.Fatalf("trial %d cut %d: rows give %+v, counts give %+v", trial, i, w, g)
 			}
 		}
@@ -139,7 +139,7 @@ func TestCountsEqualRawRows(t *testing.T) {
 			curve.Walk(set, f.Visit)
 			var picked []string
 			for _, o := range f.Outcomes() {
-				picked = append(picked, fmt.Sprint(o.Met, o.Point.Score, o.Point.FlaggedCases(), o.Point.TP))
+				picked = append(picked, fmt.Sprint(o.Met, o.Point.Score, o.Point.Cases, o.Point.TP))
 			}
 			return strings.Join(picked, "; ")
 		}
@@ -187,7 +187,7 @@ func TestReadCountsHandWorked(t *testing.T) {
 	}
 	var cases []int
 	var tp []float64
-	sum := curve.Walk(set, func(p curve.Point) { cases = append(cases, p.FlaggedCases()); tp = append(tp, p.TP) })
+	sum := curve.Walk(set, func(p curve.Point) { cases = append(cases, p.Cases); tp = append(tp, p.TP) })
 	if fmt.Sprint(cases) != "[3 6 7]" || fmt.Sprint(tp) != "[2 2 3]" {
 		t.Errorf("cases %v tp %v, want [3 6 7] [2 2 3]", cases, tp)
 	}

@@ -3,6 +3,7 @@ package scores
 import (
 	"fmt"
 	"math"
+	"sort"
 )
 
 // Set is a scored validation set held column-wise and ranked riskiest
@@ -16,10 +17,11 @@ type Set struct {
 	Labels  []bool    // true for a true (positive) case
 	Weights []float64 // frequency weights; nil means every row weighs 1
 
-	// Counts reports that the set comes from a counts table (ReadCounts):
-	// each row stands for Weights[i] cases of one label at one score, and
-	// figures that count rows count those cases instead (see Cases).
-	Counts bool
+	// casesBefore is set for a counts table (NewCounts, ReadCounts), whose
+	// row i stands for Weights[i] cases of one label at one score:
+	// casesBefore[r] holds the cases of ranked rows [0, r). It is nil for a
+	// set of rows, each of which is one case. See CasesAt and CasesFlagged.
+	casesBefore []float64
 
 	IDs          []string // case identifiers; nil without an id column
 	SegmentOf    []int32  // index into SegmentNames; nil without a segment column
@@ -78,6 +80,31 @@ func New(scores []float64, labels []bool, weights []float64, lowerIsRiskier bool
 	return s, nil
 }
 
+// NewCounts builds a ranked counts table from parallel columns: row i
+// stands for counts[i] cases of label labels[i] at score scores[i], as
+// ReadCounts reads them. It panics when the slices differ in length, and
+// returns an error for a non-finite score or a count that is not a whole
+// number >= 0. NewCounts takes ownership of the slices and reorders them.
+func NewCounts(scores []float64, labels []bool, counts []float64, lowerIsRiskier bool) (*Set, error) {
+	if counts == nil {
+		counts = []float64{}
+	}
+	if len(counts) != len(scores) {
+		panic(fmt.Sprintf("scores: NewCounts got %d scores and %d counts", len(scores), len(counts)))
+	}
+	for i, c := range counts {
+		if !(c >= 0 && c <= maxCount) || c != math.Trunc(c) {
+			return nil, fmt.Errorf("row %d: %w %v, expected a whole number of cases >= 0", i+1, ErrBadCount, c)
+		}
+	}
+	s, err := New(scores, labels, counts, lowerIsRiskier)
+	if err != nil {
+		return nil, err
+	}
+	s.countCases()
+	return s, nil
+}
+
 // Len returns the number of rows, zero-weight rows included.
 func (s *Set) Len() int { return len(s.Scores) }
 
@@ -89,8 +116,65 @@ func (s *Set) Weight(i int) float64 {
 	return s.Weights[i]
 }
 
-// Weighted reports whether the set carries a weight column.
-func (s *Set) Weighted() bool { return s.Weights != nil }
+// Weighted reports whether the rows carry frequency weights from a weight
+// column. A counts table's weights are its counts, whole cases, so it is
+// not weighted in this sense.
+func (s *Set) Weighted() bool { return s.Weights != nil && s.casesBefore == nil }
+
+// CountsTable reports whether the set was built from a counts table
+// (NewCounts, ReadCounts): each row stands for CasesAt(i) cases of one
+// label at one score. Most figures need not ask, as CasesAt, CasesFlagged
+// and Cases count cases either way; a resample must, as it draws cases
+// rather than rows.
+func (s *Set) CountsTable() bool { return s.casesBefore != nil }
+
+// CasesAt returns the number of cases ranked row i stands for: 1 for a
+// scored case, its count for a row of a counts table.
+func (s *Set) CasesAt(i int) int {
+	if s.casesBefore == nil {
+		return 1
+	}
+	return int(s.Weights[i])
+}
+
+// CasesFlagged returns the number of cases in ranked rows [0, rows), the
+// cases a cut flags when it flags those rows: rows itself for a set of
+// scored cases, their summed counts for a counts table.
+// 0 <= rows <= Len().
+func (s *Set) CasesFlagged(rows int) int {
+	if s.casesBefore == nil {
+		return rows
+	}
+	return int(s.casesBefore[rows])
+}
+
+// Cases returns the number of validation cases: Len() for a set of scored
+// cases, the summed counts for a counts table.
+func (s *Set) Cases() int { return s.CasesFlagged(s.Len()) }
+
+// RowOfCase returns the ranked row that holds case c, counting cases from
+// 0 in ranked order; 0 <= c < Cases(). For a set of scored cases it is c.
+func (s *Set) RowOfCase(c int) int {
+	if s.casesBefore == nil {
+		return c
+	}
+	return sort.Search(s.Len(), func(i int) bool { return s.casesBefore[i+1] > float64(c) })
+}
+
+// countCases marks a ranked set whose weights are counts as a counts table.
+func (s *Set) countCases() {
+	before := s.casesBefore[:0]
+	if cap(before) < s.Len()+1 {
+		before = make([]float64, 0, s.Len()+1)
+	}
+	before = append(before, 0)
+	total := 0.0
+	for _, cases := range s.Weights {
+		total += cases
+		before = append(before, total)
+	}
+	s.casesBefore = before
+}
 
 // Segment returns the segment name of row i, or "" without a segment column.
 func (s *Set) Segment(i int) string {
@@ -156,6 +240,49 @@ func (s *Set) Flags(cut, score float64) bool {
 		return score <= cut
 	}
 	return score >= cut
+}
+
+// Replicate fills rep with a resample of s, reusing rep's memory (rep may
+// be a zero Set): ranked row i of s drawn[i] times, in s's ranked order. A
+// scored case is repeated drawn[i] times and keeps its weight; a row of a
+// counts table appears once, holding the drawn[i] cases drawn from it, when
+// drawn[i] > 0, so that rep is a counts table too. rep carries the scores,
+// labels, weights and direction, what a curve needs. It panics unless drawn
+// has one entry per row of s.
+func Replicate[Times int32 | float64](rep, s *Set, drawn []Times) {
+	if len(drawn) != s.Len() {
+		panic(fmt.Sprintf("scores: Replicate got %d draws for %d rows", len(drawn), s.Len()))
+	}
+	rep.Scores, rep.Labels, rep.LowerIsRiskier = rep.Scores[:0], rep.Labels[:0], s.LowerIsRiskier
+	if s.Weights == nil {
+		rep.Weights = nil
+	} else {
+		rep.Weights = rep.Weights[:0]
+		if rep.Weights == nil {
+			rep.Weights = make([]float64, 0, s.Len())
+		}
+	}
+	if s.casesBefore != nil {
+		for i, m := range drawn {
+			if m > 0 {
+				rep.Scores = append(rep.Scores, s.Scores[i])
+				rep.Labels = append(rep.Labels, s.Labels[i])
+				rep.Weights = append(rep.Weights, float64(m))
+			}
+		}
+		rep.countCases()
+		return
+	}
+	rep.casesBefore = nil
+	for i, m := range drawn {
+		for range int(m) {
+			rep.Scores = append(rep.Scores, s.Scores[i])
+			rep.Labels = append(rep.Labels, s.Labels[i])
+			if rep.Weights != nil {
+				rep.Weights = append(rep.Weights, s.Weights[i])
+			}
+		}
+	}
 }
 
 // smallRankRows is the size below which rank sorts a permutation: the

@@ -166,3 +166,93 @@ func TestRankMatchesStableSort(t *testing.T) {
 		}
 	}
 }
+
+// TestCasesOfRowsAndCounts: a set of scored cases and a counts table of the
+// same cases answer the same questions about cases. Hand-worked: scores
+// 0.9 (2 true), 0.5 (1 true, 3 false), 0.1 (4 false) as ten rows and as
+// four counted rows; ranked, the counts table's rows hold 2, 1, 3 and 4
+// cases (at a tied score its rows keep their given order).
+func TestCasesOfRowsAndCounts(t *testing.T) {
+	rows, err := scores.New(
+		[]float64{0.1, 0.9, 0.5, 0.5, 0.1, 0.9, 0.5, 0.5, 0.1, 0.1},
+		[]bool{false, true, true, false, false, true, false, false, false, false}, nil, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	counted, err := scores.NewCounts([]float64{0.5, 0.1, 0.9, 0.5}, []bool{true, false, true, false}, []float64{1, 4, 2, 3}, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if rows.CountsTable() || !counted.CountsTable() || rows.Weighted() || counted.Weighted() {
+		t.Errorf("counts table %v and %v, weighted %v and %v; want false, true, false, false",
+			rows.CountsTable(), counted.CountsTable(), rows.Weighted(), counted.Weighted())
+	}
+	if rows.Cases() != 10 || counted.Cases() != 10 {
+		t.Errorf("cases %d and %d, want 10", rows.Cases(), counted.Cases())
+	}
+	for i, want := range []int{2, 1, 3, 4} {
+		if got := counted.CasesAt(i); got != want {
+			t.Errorf("counts table row %d holds %d cases, want %d", i, got, want)
+		}
+	}
+	for i := range rows.Len() {
+		if rows.CasesAt(i) != 1 {
+			t.Errorf("scored row %d holds %d cases, want 1", i, rows.CasesAt(i))
+		}
+	}
+	for r, want := range []int{0, 2, 3, 6, 10} {
+		if got := counted.CasesFlagged(r); got != want {
+			t.Errorf("counts table rows [0,%d) hold %d cases, want %d", r, got, want)
+		}
+	}
+	for r := range rows.Len() + 1 {
+		if rows.CasesFlagged(r) != r {
+			t.Errorf("scored rows [0,%d) hold %d cases", r, rows.CasesFlagged(r))
+		}
+	}
+	for c, want := range []int{0, 0, 1, 2, 2, 2, 3, 3, 3, 3} {
+		if got := counted.RowOfCase(c); got != want {
+			t.Errorf("case %d in counts table row %d, want %d", c, got, want)
+		}
+		if got := rows.RowOfCase(c); got != c {
+			t.Errorf("case %d in scored row %d", c, got)
+		}
+	}
+}
+
+// TestNewCountsErrors: counts must be whole numbers >= 0.
+func TestNewCountsErrors(t *testing.T) {
+	for _, count := range []float64{-1, 1.5, math.NaN(), math.Inf(1)} {
+		_, err := scores.NewCounts([]float64{0.5, 0.2}, []bool{true, false}, []float64{1, count}, false)
+		if !errors.Is(err, scores.ErrBadCount) || !strings.HasPrefix(err.Error(), "row 2: ") {
+			t.Errorf("count %v: error %v, want row 2 and ErrBadCount", count, err)
+		}
+	}
+	empty, err := scores.NewCounts(nil, nil, nil, false)
+	if err != nil || empty.Cases() != 0 || !empty.CountsTable() {
+		t.Errorf("empty counts table: %v, %v", empty, err)
+	}
+}
+
+// TestReplicate: a resample repeats scored cases, carrying their weights,
+// and gathers a counts table's drawn cases into one row each, leaving out
+// rows drawn no time. Hand-worked from the draws given.
+func TestReplicate(t *testing.T) {
+	weighted, err := scores.New([]float64{0.9, 0.5, 0.1}, []bool{true, false, false}, []float64{2, 0.5, 1}, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var rep scores.Set
+	scores.Replicate(&rep, weighted, []int32{2, 0, 1})
+	if !slices.Equal(rep.Scores, []float64{0.9, 0.9, 0.1}) || !slices.Equal(rep.Weights, []float64{2, 2, 1}) || rep.CountsTable() {
+		t.Errorf("scored replicate %v weighted %v (counts table %v)", rep.Scores, rep.Weights, rep.CountsTable())
+	}
+	counted, err := scores.NewCounts([]float64{0.9, 0.5, 0.1}, []bool{true, false, false}, []float64{5, 3, 4}, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	scores.Replicate(&rep, counted, []float64{7, 0, 5})
+	if !slices.Equal(rep.Scores, []float64{0.9, 0.1}) || !slices.Equal(rep.Weights, []float64{7, 5}) || !rep.CountsTable() || rep.Cases() != 12 || rep.CasesFlagged(1) != 7 {
+		t.Errorf("counts replicate %v weighted %v (counts table %v, %d cases)", rep.Scores, rep.Weights, rep.CountsTable(), rep.Cases())
+	}
+}

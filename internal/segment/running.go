@@ -39,9 +39,9 @@ func NewRunning(set *scores.Set) *Running {
 	}
 	for i := range set.Len() {
 		w := set.Weight(i)
-		r.total.add(set.Labels[i], false, w)
+		r.total.add(set.Labels[i], false, w, set.CasesAt(i))
 		if r.groups != nil {
-			r.groups[set.SegmentOf[i]].add(set.Labels[i], false, w)
+			r.groups[set.SegmentOf[i]].add(set.Labels[i], false, w, set.CasesAt(i))
 		}
 	}
 	return r
@@ -54,12 +54,12 @@ func (r *Running) At(p curve.Point, confidence float64) Breakdown {
 		panic(fmt.Sprintf("segment: point flags %d rows of a set of %d", p.Rows, r.set.Len()))
 	}
 	r.move(p.Rows)
-	b := Breakdown{Overall: r.flagged(r.total, r.allTP, r.allFP).figures("", confidence, r.set.Counts)}
+	b := Breakdown{Overall: r.flagged(r.total, r.allTP, r.allFP).figures("", confidence)}
 	for code, g := range r.groups {
 		if g.rows == 0 {
 			continue
 		}
-		f := r.flagged(g, r.tp[code], r.fp[code]).figures(r.set.SegmentNames[code], confidence, r.set.Counts)
+		f := r.flagged(g, r.tp[code], r.fp[code]).figures(r.set.SegmentNames[code], confidence)
 		f.Outlier = apart(f.RecallCI, b.Overall.RecallCI) || apart(f.PrecisionCI, b.Overall.PrecisionCI)
 		b.Segments = append(b.Segments, f)
 	}

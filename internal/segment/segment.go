@@ -110,17 +110,17 @@ func At(set *scores.Set, p curve.Point, confidence float64) Breakdown {
 	for i := range set.Len() {
 		w := set.Weight(i)
 		flagged := i < p.Rows
-		total.add(set.Labels[i], flagged, w)
+		total.add(set.Labels[i], flagged, w, set.CasesAt(i))
 		if groups != nil {
-			groups[set.SegmentOf[i]].add(set.Labels[i], flagged, w)
+			groups[set.SegmentOf[i]].add(set.Labels[i], flagged, w, set.CasesAt(i))
 		}
 	}
-	b.Overall = total.figures("", confidence, set.Counts)
+	b.Overall = total.figures("", confidence)
 	for code, g := range groups {
 		if g.rows == 0 {
 			continue
 		}
-		f := g.figures(set.SegmentNames[code], confidence, set.Counts)
+		f := g.figures(set.SegmentNames[code], confidence)
 		f.Outlier = apart(f.RecallCI, b.Overall.RecallCI) || apart(f.PrecisionCI, b.Overall.PrecisionCI)
 		b.Segments = append(b.Segments, f)
 	}
@@ -157,13 +157,15 @@ func (b Breakdown) Outliers() int {
 }
 
 type tally struct {
-	rows                        int
+	rows                        int // table rows, to skip empty segments
+	cases                       int // the cases they stand for (scores.Set.CasesAt)
 	positives, negatives        float64
 	truePositive, falsePositive float64
 }
 
-func (t *tally) add(positive, flagged bool, w float64) {
+func (t *tally) add(positive, flagged bool, w float64, cases int) {
 	t.rows++
+	t.cases += cases
 	switch {
 	case positive && flagged:
 		t.positives += w
@@ -178,14 +180,10 @@ func (t *tally) add(positive, flagged bool, w float64) {
 	}
 }
 
-func (t tally) figures(name string, confidence float64, counts bool) Figures {
-	rows := t.rows
-	if counts { // a counts table's rows stand for their cases
-		rows = int(t.positives + t.negatives)
-	}
+func (t tally) figures(name string, confidence float64) Figures {
 	f := Figures{
 		Segment:      name,
-		Rows:         rows,
+		Rows:         t.cases,
 		Positives:    t.positives,
 		Negatives:    t.negatives,
 		TP:           t.truePositive,

@@ -171,7 +171,7 @@ func sameCurve(t *testing.T, engine string, want, got *scores.Set) {
 	}
 	for i := range wantPoints {
 		w, g := wantPoints[i], gotPoints[i]
-		if w.Score != g.Score || w.FlaggedCases() != g.FlaggedCases() || w.TP != g.TP || w.FP != g.FP {
+		if w.Score != g.Score || w.Cases != g.Cases || w.TP != g.TP || w.FP != g.FP {
 			t.Fatalf("%s: cut %d: raw rows give %+v, counts give %+v", engine, i, w, g)
 		}
 	}
