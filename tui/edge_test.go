@@ -102,7 +102,7 @@ func TestFooterKeepsHelpAndQuit(t *testing.T) {
 	set := demoSet(t)
 	m := loaded(t, set, demoAssumptions, filepath.Join(t.TempDir(), "cut.yaml"), 80, 24)
 	m.status = strings.Repeat("a long status ", 20)
-	footer := m.footer(80)
+	footer := m.footer()
 	if !strings.HasSuffix(strings.TrimRight(footer, " "), "? all keys · q quit") {
 		t.Errorf("footer %q does not end with the help and quit keys", footer)
 	}

@@ -237,23 +237,8 @@ func (m Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		m.status = "not written: " + msg.err.Error()
 		return m, nil
 	case tea.KeyMsg:
-		// Esc and the next key pressed soon after can arrive as one alt
-		// key: take them as the two keys they were, since the explorer
-		// binds no alt key.
-		if msg.Alt && !msg.Paste {
-			return escThen(m, msg)
-		}
-		// Keys typed ahead over a slow link can arrive as one message of
-		// several runes; take them one at a time.
-		if msg.Type == tea.KeyRunes && len(msg.Runes) > 1 && !msg.Paste {
-			var cmds []tea.Cmd
-			var next tea.Model = m
-			for _, r := range msg.Runes {
-				var cmd tea.Cmd
-				next, cmd = next.(Model).key(tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune{r}})
-				cmds = append(cmds, cmd)
-			}
-			return next, tea.Batch(cmds...)
+		if next, cmd, split := splitKeys(m, msg); split {
+			return next, cmd
 		}
 		return m.key(msg)
 	}
@@ -484,7 +469,7 @@ func (m Model) View() string {
 	if _, covers := top.(bodyCover); covers {
 		// The panes under it would show only at its edges, so they are
 		// not drawn.
-		base := m.header(w) + strings.Repeat("\n", h-1) + m.footer(w)
+		base := m.header() + strings.Repeat("\n", h-1) + m.footer()
 		return fit(drawOver(base, top.View(), w, h), w, h)
 	}
 	right := m.figures.View()
@@ -492,11 +477,11 @@ func (m Model) View() string {
 		right = m.chart.View() + "\n" + right
 	}
 	body := lipgloss.JoinHorizontal(lipgloss.Top, m.list.View(m.focus == focusList), right)
-	parts := []string{m.header(w), body}
+	parts := []string{m.header(), body}
 	if l.strip.H > 0 {
 		parts = append(parts, m.strip.View(m.focus == focusStrip))
 	}
-	parts = append(parts, m.footer(w))
+	parts = append(parts, m.footer())
 	frame := strings.Join(parts, "\n")
 	if top != nil {
 		frame = drawOver(frame, top.View(), w, h)
@@ -506,103 +491,49 @@ func (m Model) View() string {
 
 // header is the top line: the data's name on the left, its size and
 // ranking figures on the right, which keep their room first.
-func (m Model) header(width int) string {
-	s, st := m.s, m.ctx.styles
+func (m Model) header() string {
+	s := m.s
 	sum := s.curve.Summary
-	left := "sill · " + s.set.Source
 	right := fmt.Sprintf("%d rows · %s true (%s) · ROC AUC %s", sum.Rows,
 		report.Count(sum.Positives), report.Percent(sum.BaseRate), report.Fixed(sum.ROCAUC, 3))
 	if s.set.Weighted() { // a counts table's weights are whole cases, not weights
 		right += " · weighted"
 	}
-	rightW := min(ansi.StringWidth(right), width*3/4)
-	return st.Header.Render(fitLine(left, width-rightW-2)) + "  " + st.Muted.Render(fitLine(right, rightW))
+	return statusBar{m.ctx}.header("sill · "+s.set.Source, right, min(ansi.StringWidth(right), m.ctx.width*3/4))
 }
 
-// footer is the bottom line: what just happened, then the keys that matter
-// most here, in a few words each.
-func (m Model) footer(width int) string {
-	st := m.ctx.styles
-	k := m.ctx.keys
-	type hint struct {
-		b    key.Binding
-		what string
-	}
-	var hints []hint
+// footer is the bottom line: what just happened, whether the pins on
+// screen are written, then the keys that matter most here, in a few words
+// each.
+func (m Model) footer() string {
+	st, k := m.ctx.styles, m.ctx.keys
+	var hints []key.Binding
 	if m.focus == focusStrip {
-		hints = append(hints, hint{k.Left, "select"}, hint{k.Jump, "go to"}, hint{k.Choose, "choose"},
-			hint{k.Rename, "rename"}, hint{k.Remove, "unpin"}, hint{k.Focus, "list"})
+		hints = append(hints, hint(k.Left, "←→", "select"), hint(k.Jump, "", "go to"), hint(k.Choose, "", "choose"),
+			hint(k.Rename, "", "rename"), hint(k.Remove, "", "unpin"), hint(k.Focus, "", "list"))
 	} else {
-		hints = append(hints, hint{k.Up, "stricter"}, hint{k.Down, "looser"})
+		hints = append(hints, hint(k.Up, "", "stricter"), hint(k.Down, "", "looser"))
 		if n := len(m.s.starts); n > 0 {
-			hints = append(hints, hint{key.NewBinding(key.WithKeys("1"), key.WithHelp("1-"+keyName(n-1), "")), "starts"})
+			hints = append(hints, key.NewBinding(key.WithKeys("1"), key.WithHelp("1-"+keyName(n-1), "starts")))
 		}
-		hints = append(hints, hint{k.Pin, "pin"})
+		hints = append(hints, hint(k.Pin, "", "pin"))
 		if len(m.s.pins) > 0 {
-			hints = append(hints, hint{k.Focus, "strip"})
+			hints = append(hints, hint(k.Focus, "", "strip"))
 		}
 	}
-	hints = append(hints, hint{k.Write, "write"}, hint{k.Assumptions, "assumptions"})
+	hints = append(hints, hint(k.Write, "", "write"), hint(k.Assumptions, "", "assumptions"))
 	if m.focus == focusList {
 		// Shown where the line has room after the keys that matter most.
-		hints = append(hints, hint{k.Segments, "segments"}, hint{k.Stability, "stability"}, hint{k.Calibration, "calibration"}, hint{k.Models, "two models"})
+		hints = append(hints, hint(k.Segments, "", "segments"), hint(k.Stability, "", "stability"),
+			hint(k.Calibration, "", "calibration"), hint(k.Models, "", "two models"))
 	}
-	render := func(h hint) string {
-		name := h.b.Help().Key
-		if name == k.Left.Help().Key {
-			name = "←→"
-		}
-		return st.Key.Render(name) + " " + st.Footer.Render(h.what)
-	}
-	separator := st.Footer.Render(" · ")
-	// The way to every key and the way out always show; the other hints
-	// follow in order of importance while they fit, and a long status
-	// gives way before them.
-	tail := render(hint{k.Help, "all keys"}) + separator + render(hint{k.Quit, "quit"})
-	lead := ""
+	mark := ""
 	switch {
 	case m.unwritten && len(m.s.pins) > 0:
-		lead = st.Warning.Render("not written") + separator
+		mark = st.Warning.Render("not written") + st.Footer.Render(" · ")
 	case m.written != "" && m.status == "":
 		// Whether the pins on screen are the file's, at a glance.
-		lead = st.Muted.Render("written: "+m.written) + separator
+		mark = st.Muted.Render("written: "+m.written) + st.Footer.Render(" · ")
 	}
-	if m.status != "" {
-		bar := st.Footer.Render("  │ ")
-		room := width - ansi.StringWidth(lead) - ansi.StringWidth(tail) - ansi.StringWidth(bar)
-		lead = st.Status.Render(fitStatus(m.status, room)) + bar + lead
-	}
-	room := width - ansi.StringWidth(lead) - ansi.StringWidth(tail)
-	var parts []string
-	for _, h := range hints {
-		if !h.b.Enabled() {
-			continue
-		}
-		part := render(h)
-		if ansi.StringWidth(part)+ansi.StringWidth(separator) > room {
-			break
-		}
-		room -= ansi.StringWidth(part) + ansi.StringWidth(separator)
-		parts = append(parts, part)
-	}
-	line := lead + strings.Join(append(parts, tail), separator)
-	return fitLine(line, width)
-}
-
-// fitStatus cuts a status line to width cells, marking the cut with …; it
-// keeps at least a few words when the room is smaller than that.
-func fitStatus(status string, width int) string {
-	if ansi.StringWidth(status) <= width {
-		return status
-	}
-	return ansi.Truncate(status, max(width, 12), "…")
-}
-
-// escThen takes an alt key as the Esc and the key it was typed as: over a
-// slow link the two arrive as one message. Neither screen binds an alt key.
-func escThen(model tea.Model, msg tea.KeyMsg) (tea.Model, tea.Cmd) {
-	next, first := model.Update(tea.KeyMsg{Type: tea.KeyEsc})
-	msg.Alt = false
-	next, second := next.Update(msg)
-	return next, tea.Batch(first, second)
+	return statusBar{m.ctx}.footer(m.status, mark, hints, []key.Binding{hint(k.Help, "", "all keys"), hint(k.Quit, "", "quit")})
 }

@@ -25,16 +25,6 @@ type ReviewConfig struct {
 	Keys   *KeyMap
 }
 
-// reviewOverlay is one layer over the review screen.
-type reviewOverlay int
-
-const (
-	reviewHelp    reviewOverlay = iota // every key
-	reviewNote                         // editing a note
-	reviewQuit                         // quitting with changes not written
-	reviewReplace                      // the file on disk was made from other data
-)
-
 // Messages of the review screen, named for what happened.
 type (
 	// reviewWrittenMsg says the decision file was written.
@@ -63,10 +53,7 @@ type Review struct {
 	selected int
 
 	strip    Strip
-	overlays []reviewOverlay
-	note     textField
-	noteFor  int // the candidate whose note is edited; -1 for the file's
-	reason   string
+	overlays []overlay[*Review] // the top one last
 
 	changed  bool // changes not written
 	status   string
@@ -100,7 +87,7 @@ func NewReview(cfg ReviewConfig) Review {
 	ctx := newShared(cfg.Styles, cfg.Keys)
 	working := *cfg.File
 	working.Candidates = append([]decision.Candidate(nil), cfg.File.Candidates...)
-	r := Review{ctx: ctx, keys: newReviewKeys(ctx.keys), file: &working, path: cfg.Path, saveTo: cfg.Path, note: newTextField(noteLimit), noteFor: -1}
+	r := Review{ctx: ctx, keys: newReviewKeys(ctx.keys), file: &working, path: cfg.Path, saveTo: cfg.Path}
 	r.strip = NewStrip(ctx.styles, r.keys.KeyMap)
 	r.selected = r.chosen()
 	r.refresh()
@@ -163,21 +150,25 @@ func (r Review) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		return r, nil
 	case reviewWriteFailedMsg:
 		if errors.Is(msg.err, decision.ErrDifferentData) || errors.Is(msg.err, decision.ErrNotDecisionFile) {
-			r.reason = msg.err.Error()
-			r.overlays = append(r.overlays, reviewReplace)
+			r.overlays = push(r.overlays, replaceQuestion(r.ctx, r.path, msg.err.Error(), r.path+" on disk is no longer this decision's file.",
+				"Replace it?",
+				func(r *Review) tea.Cmd { return r.write(true) },
+				func(r *Review) tea.Cmd {
+					r.quitting = false
+					r.status = "not written: " + r.path + " kept as it was"
+					return nil
+				}))
 			return r, nil
 		}
 		r.quitting = false // stay, so that the reason can be read
 		r.status = "not written: " + msg.err.Error()
 		return r, nil
 	case tea.KeyMsg:
-		// Esc and a key pressed soon after can arrive as one alt key; no
-		// alt key is bound, so take them as the two keys they were.
-		if msg.Alt && !msg.Paste {
-			return escThen(r, msg)
+		if next, cmd, split := splitKeys(r, msg); split {
+			return next, cmd
 		}
 		if len(r.overlays) > 0 {
-			return r.overlayKey(msg)
+			return r, keyTop(&r.overlays, &r, msg)
 		}
 		return r.key(msg)
 	}
@@ -189,12 +180,12 @@ func (r Review) key(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 	switch {
 	case key.Matches(msg, k.Quit):
 		if r.changed {
-			r.overlays = append(r.overlays, reviewQuit)
+			r.overlays = push(r.overlays, r.quitQuestion())
 			return r, nil
 		}
 		return r, tea.Quit
 	case key.Matches(msg, k.Help):
-		r.overlays = append(r.overlays, reviewHelp)
+		r.overlays = push(r.overlays, &helpOverlay[*Review]{ctx: r.ctx, draw: r.helpView})
 	case key.Matches(msg, k.Left):
 		r.selected = max(r.selected-1, 0)
 		r.refresh()
@@ -223,70 +214,84 @@ func (r Review) key(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 
 // editNote opens the note box for candidate i, or for the file when i < 0.
 func (r *Review) editNote(i int) {
-	r.noteFor = i
+	o := &noteOverlay{ctx: r.ctx, field: newTextField(noteLimit), candidate: i, title: "note on the file"}
 	if i < 0 {
-		r.note.SetValue(r.file.Note)
+		o.field.SetValue(r.file.Note)
 	} else {
-		r.note.SetValue(r.file.Candidates[i].Note)
+		o.field.SetValue(r.file.Candidates[i].Note)
+		o.title = "note on " + r.file.Candidates[i].Name
 	}
-	r.note.Focus()
-	r.overlays = append(r.overlays, reviewNote)
+	o.field.Focus()
+	r.overlays = push(r.overlays, o)
 }
 
-func (r Review) overlayKey(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
-	k := r.keys
-	top := r.overlays[len(r.overlays)-1]
-	pop := func() { r.overlays = r.overlays[:len(r.overlays)-1] }
-	switch top {
-	case reviewHelp:
-		if key.Matches(msg, k.Help) || key.Matches(msg, k.Cancel) || key.Matches(msg, k.Quit) {
-			pop()
-		}
-	case reviewNote:
-		switch {
-		case key.Matches(msg, k.Cancel):
-			pop()
-			r.note.Blur()
-		case key.Matches(msg, k.Accept):
-			pop()
-			r.note.Blur()
-			text := strings.Join(strings.Fields(r.note.Value()), " ")
-			if r.noteFor < 0 {
-				r.changed = r.changed || text != r.file.Note
-				r.file.Note = text
-				r.status = "file note set (not written yet: w writes)"
-			} else {
-				c := &r.file.Candidates[r.noteFor]
-				r.changed = r.changed || text != c.Note
-				c.Note = text
-				r.status = "note on " + c.Name + " set (not written yet: w writes)"
-			}
-		default:
-			r.note, _ = r.note.Update(msg)
-		}
-	case reviewQuit:
-		switch {
-		case key.Matches(msg, k.Write):
-			pop()
-			r.quitting = true
-			return r, r.write(false)
-		case key.Matches(msg, k.Quit):
-			return r, tea.Quit
-		case key.Matches(msg, k.Cancel):
-			pop()
-		}
-	case reviewReplace:
-		switch {
-		case key.Matches(msg, k.Yes):
-			pop()
-			return r, r.write(true)
-		case key.Matches(msg, k.No):
-			pop()
-			r.quitting = false
-			r.status = "not written: " + r.path + " kept as it was"
-		}
+// setNote sets the note of candidate i, or of the file when i < 0, to
+// text with its runs of white space made single spaces.
+func (r *Review) setNote(i int, text string) {
+	text = strings.Join(strings.Fields(text), " ")
+	if i < 0 {
+		r.changed = r.changed || text != r.file.Note
+		r.file.Note = text
+		r.status = "file note set (not written yet: w writes)"
+		return
 	}
-	return r, nil
+	c := &r.file.Candidates[i]
+	r.changed = r.changed || text != c.Note
+	c.Note = text
+	r.status = "note on " + c.Name + " set (not written yet: w writes)"
+}
+
+// noteOverlay edits a note on one candidate, or on the whole file.
+type noteOverlay struct {
+	ctx       *shared
+	field     textField
+	candidate int // -1 for the file's note
+	title     string
+}
+
+// Update keeps the note on enter, leaves it as it was on esc and edits
+// it on other keys.
+func (o *noteOverlay) Update(r *Review, msg tea.KeyMsg) (bool, tea.Cmd) {
+	k := o.ctx.keys
+	switch {
+	case key.Matches(msg, k.Cancel):
+		return true, nil
+	case key.Matches(msg, k.Accept):
+		r.setNote(o.candidate, o.field.Value())
+		return true, nil
+	}
+	var cmd tea.Cmd
+	o.field, cmd = o.field.Update(msg)
+	return false, cmd
+}
+
+// ShortHelp lists the note box's keys.
+func (o *noteOverlay) ShortHelp() []key.Binding {
+	return []key.Binding{o.ctx.keys.Accept, o.ctx.keys.Cancel}
+}
+
+// View draws the note box.
+func (o *noteOverlay) View() string {
+	st := o.ctx.styles
+	width := min(64, max(o.ctx.width-8, 20))
+	return overlayBox(o.ctx, o.title, strings.Join([]string{
+		noteLine(o.field, width),
+		st.Muted.Render(fmt.Sprintf("%d of %d characters", len([]rune(o.field.Value())), noteLimit)),
+		st.Muted.Render("enter keeps the note · esc leaves it as it was · ctrl+u clears"),
+	}, "\n"))
+}
+
+// quitQuestion asks before quitting with changes not written.
+func (r *Review) quitQuestion() *question[*Review] {
+	st, k := r.ctx.styles, r.keys
+	return &question[*Review]{ctx: r.ctx, title: "changes not written", body: strings.Join([]string{
+		"The choice or the notes changed since " + r.path + " was written.",
+		st.Key.Render("w") + " writes and quits · " + st.Key.Render("q") + " quits without writing · " + st.Key.Render("esc") + " stays",
+	}, "\n"), answers: []answer[*Review]{
+		{key: k.Write, do: func(r *Review) tea.Cmd { r.quitting = true; return r.write(false) }},
+		{key: k.Quit, do: func(*Review) tea.Cmd { return tea.Quit }},
+		{key: k.Cancel},
+	}}
 }
 
 // write saves the file as it stands; force replaces a file made from
@@ -363,9 +368,9 @@ func (r Review) View() string {
 		notice := fmt.Sprintf("sill review needs a terminal of at least %d×%d;\nthis one is %d×%d.\nEnlarge it, or press q to quit.", reviewMinWidth, reviewMinHeight, w, h)
 		return lipgloss.Place(w, h, lipgloss.Center, lipgloss.Center, notice)
 	}
-	frame := strings.Join([]string{r.header(w), r.strip.View(true), r.notesView(l.notes), r.footer(w)}, "\n")
-	if len(r.overlays) > 0 {
-		frame = drawOver(frame, r.overlayView(), w, h)
+	frame := strings.Join([]string{r.header(w), r.strip.View(true), r.notesView(l.notes), r.footer()}, "\n")
+	if n := len(r.overlays); n > 0 {
+		frame = drawOver(frame, r.overlays[n-1].View(), w, h)
 	}
 	return fit(frame, w, h)
 }
@@ -379,8 +384,7 @@ func (r Review) header(width int) string {
 		left += " (changed)"
 	}
 	right := fmt.Sprintf("chosen on %s · %s rows · %s true", d.Path, report.Count(float64(d.Rows)), report.Count(d.Positives))
-	rightW := max(min(ansi.StringWidth(right), width-ansi.StringWidth(left)-2), width/3)
-	first := st.Header.Render(fitLine(left, width-rightW-2)) + "  " + st.Muted.Render(fitLine(right, rightW))
+	first := statusBar{r.ctx}.header(left, right, max(min(ansi.StringWidth(right), width-ansi.StringWidth(left)-2), width/3))
 	parts := []string{"base rate " + report.Percent(a.BaseRate)}
 	if total := d.Positives + d.Negatives; total > 0 && f.BaseRateChanged() {
 		parts[0] += " (validation " + report.Percent(d.Positives/total) + ")"
@@ -436,74 +440,24 @@ func (r Review) notesView(at rect) string {
 
 // footer is the status, then the keys in a few words each, the most
 // used first.
-func (r Review) footer(width int) string {
-	st, k := r.ctx.styles, r.keys
-	hints := []struct {
-		b    key.Binding
-		what string
-	}{{k.Left, "select"}, {k.Choose, "choose"}, {k.Write, "write"}, {k.Note, "note"}, {k.FileNote, "file note"}, {k.Help, "all keys"}, {k.Quit, "quit"}}
-	var parts []string
-	for _, h := range hints {
-		name := h.b.Help().Key
-		if h.b.Help().Key == k.Left.Help().Key {
-			name = "←→"
-		}
-		parts = append(parts, st.Key.Render(name)+" "+st.Footer.Render(h.what))
-	}
-	separator := st.Footer.Render(" · ")
-	// The way to every key and the way out always show: the other hints
-	// drop from the end while they do not fit, and a long status is cut.
-	tail := parts[len(parts)-2] + separator + parts[len(parts)-1]
-	parts = parts[:len(parts)-2]
-	lead := ""
-	if r.status != "" {
-		bar := st.Footer.Render("  │ ")
-		lead = st.Status.Render(fitStatus(r.status, width-ansi.StringWidth(bar)-ansi.StringWidth(tail))) + bar
-	}
-	for len(parts) > 0 && ansi.StringWidth(lead)+ansi.StringWidth(strings.Join(parts, separator))+ansi.StringWidth(separator+tail) > width {
-		parts = parts[:len(parts)-1]
-	}
-	return fitLine(lead+strings.Join(append(parts, tail), separator), width)
+func (r Review) footer() string {
+	k := r.keys
+	hints := []key.Binding{hint(k.Left, "←→", "select"), hint(k.Choose, "", "choose"), hint(k.Write, "", "write"),
+		hint(k.Note, "", "note"), hint(k.FileNote, "", "file note")}
+	return statusBar{r.ctx}.footer(r.status, "", hints, []key.Binding{hint(k.Help, "", "all keys"), hint(k.Quit, "", "quit")})
 }
 
-// overlayView draws the top overlay.
-func (r Review) overlayView() string {
+// helpView draws every key of the screen in a box.
+func (r Review) helpView() string {
 	st, k := r.ctx.styles, r.keys
-	switch r.overlays[len(r.overlays)-1] {
-	case reviewHelp:
-		var lines []string
-		for _, b := range []key.Binding{k.Left, k.Right, k.Choose, k.Note, k.FileNote, k.Write, k.Help, k.Quit} {
-			lines = append(lines, st.Key.Render(pad(b.Help().Key, 6, false))+"  "+b.Help().Desc)
-		}
-		lines = append(lines, "", st.Muted.Render("the figures are the file's evidence and do not change;"),
-			st.Muted.Render("only the choice and the notes are written back"), st.Muted.Render("? or esc closes"),
-			"", st.Warning.Render(evidence.ShortCaution))
-		return overlayBox(r.ctx, "review keys", strings.Join(lines, "\n"))
-	case reviewNote:
-		title := "note on the file"
-		if r.noteFor >= 0 {
-			title = "note on " + r.file.Candidates[r.noteFor].Name
-		}
-		width := min(64, max(r.ctx.width-8, 20))
-		return overlayBox(r.ctx, title, strings.Join([]string{
-			noteLine(r.note, width),
-			st.Muted.Render(fmt.Sprintf("%d of %d characters", len([]rune(r.note.Value())), noteLimit)),
-			st.Muted.Render("enter keeps the note · esc leaves it as it was · ctrl+u clears"),
-		}, "\n"))
-	case reviewQuit:
-		return overlayBox(r.ctx, "changes not written", strings.Join([]string{
-			"The choice or the notes changed since " + r.path + " was written.",
-			st.Key.Render("w") + " writes and quits · " + st.Key.Render("q") + " quits without writing · " + st.Key.Render("esc") + " stays",
-		}, "\n"))
-	case reviewReplace:
-		lines := []string{st.Warning.Render(r.path + " on disk is no longer this decision's file.")}
-		for _, l := range wrapWords(r.reason, 60) {
-			lines = append(lines, st.Muted.Render(l))
-		}
-		lines = append(lines, "", "Replace it? "+st.Key.Render("y")+" replaces · "+st.Key.Render("n")+"/esc keeps it")
-		return overlayBox(r.ctx, "replace "+r.path+"?", strings.Join(lines, "\n"))
+	var lines []string
+	for _, b := range []key.Binding{k.Left, k.Right, k.Choose, k.Note, k.FileNote, k.Write, k.Help, k.Quit} {
+		lines = append(lines, st.Key.Render(pad(b.Help().Key, 6, false))+"  "+b.Help().Desc)
 	}
-	return ""
+	lines = append(lines, "", st.Muted.Render("the figures are the file's evidence and do not change;"),
+		st.Muted.Render("only the choice and the notes are written back"), st.Muted.Render("? or esc closes"),
+		"", st.Warning.Render(evidence.ShortCaution))
+	return overlayBox(r.ctx, "review keys", strings.Join(lines, "\n"))
 }
 
 // noteLine draws the note field in width columns, keeping the cursor in

@@ -200,7 +200,7 @@ func TestReviewQuitAsks(t *testing.T) {
 	r, _ = sendReview(t, r, keyPress("right"))
 	r, _ = sendReview(t, r, keyPress("c"))
 	r, cmd := sendReview(t, r, keyPress("q"))
-	if cmd != nil || len(r.overlays) != 1 || r.overlays[0] != reviewQuit {
+	if q, ok := r.overlays[0].(*question[*Review]); cmd != nil || len(r.overlays) != 1 || !ok || q.title != "changes not written" {
 		t.Fatalf("q with changes: cmd %v overlays %v", cmd != nil, r.overlays)
 	}
 	r, _ = sendReview(t, r, keyPress("esc"))
@@ -227,7 +227,7 @@ func TestReviewWriteRefusedForOtherData(t *testing.T) {
 	}
 	r, _ = sendReview(t, r, keyPress("c"))
 	r, _ = sendReview(t, r, keyPress("w"))
-	if len(r.overlays) != 1 || r.overlays[0] != reviewReplace {
+	if q, ok := r.overlays[0].(*question[*Review]); len(r.overlays) != 1 || !ok || !strings.HasPrefix(q.title, "replace ") {
 		t.Fatalf("overlays %v, want the replace question", r.overlays)
 	}
 	r, _ = sendReview(t, r, keyPress("n"))

@@ -86,11 +86,11 @@ func TestViewSaved(t *testing.T) {
 	// Once the status gives way, the footer still says the file holds
 	// what is pinned, until something changes.
 	m = keys(m, "j")
-	if footer := m.footer(80); !strings.HasPrefix(footer, "written: cut.yaml · ") {
+	if footer := m.footer(); !strings.HasPrefix(footer, "written: cut.yaml · ") {
 		t.Errorf("footer after a move %q, want it to start with the file written", footer)
 	}
 	m = keys(m, "p")
-	if footer := m.footer(80); !strings.Contains(footer, "not written") || strings.Contains(footer, "written: ") {
+	if footer := m.footer(); !strings.Contains(footer, "not written") || strings.Contains(footer, "written: ") {
 		t.Errorf("footer after a new pin %q, want not written", footer)
 	}
 }

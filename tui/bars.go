@@ -1,0 +1,104 @@
+package tui
+
+import (
+	"strings"
+
+	"github.com/charmbracelet/bubbles/key"
+	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/x/ansi"
+)
+
+// statusBar draws the lines both screens keep around their panes: the
+// header on top, and at the bottom the footer with what just happened and
+// the keys that matter most here.
+type statusBar struct{ ctx *shared }
+
+// header is a top line as wide as the screen: left in the header style,
+// then right in rightW cells, each cut with … where it does not fit.
+func (b statusBar) header(left, right string, rightW int) string {
+	st, width := b.ctx.styles, b.ctx.width
+	return st.Header.Render(fitLine(left, width-rightW-2)) + "  " + st.Muted.Render(fitLine(right, rightW))
+}
+
+// footer is the bottom line: the status, cut to fit before the way to
+// every key and the way out (tail), which always show; then mark, a
+// rendered word on the state of the file, if any; then the enabled hints,
+// in order of importance, while they fit. A hint's key name and
+// description are its Help().
+func (b statusBar) footer(status, mark string, hints, tail []key.Binding) string {
+	st, width := b.ctx.styles, b.ctx.width
+	render := func(h key.Binding) string {
+		return st.Key.Render(h.Help().Key) + " " + st.Footer.Render(h.Help().Desc)
+	}
+	separator := st.Footer.Render(" · ")
+	rendered := make([]string, len(tail))
+	for i, h := range tail {
+		rendered[i] = render(h)
+	}
+	end := strings.Join(rendered, separator)
+	lead := mark
+	if status != "" {
+		bar := st.Footer.Render("  │ ")
+		room := width - ansi.StringWidth(mark) - ansi.StringWidth(end) - ansi.StringWidth(bar)
+		lead = st.Status.Render(fitStatus(status, room)) + bar + mark
+	}
+	room := width - ansi.StringWidth(lead) - ansi.StringWidth(end)
+	var parts []string
+	for _, h := range hints {
+		if !h.Enabled() {
+			continue
+		}
+		part := render(h)
+		if ansi.StringWidth(part)+ansi.StringWidth(separator) > room {
+			break
+		}
+		room -= ansi.StringWidth(part) + ansi.StringWidth(separator)
+		parts = append(parts, part)
+	}
+	return fitLine(lead+strings.Join(append(parts, end), separator), width)
+}
+
+// hint is b as the footer shows it: its key name (name, or the binding's
+// own when name is "") and what in a few words.
+func hint(b key.Binding, name, what string) key.Binding {
+	if name == "" {
+		name = b.Help().Key
+	}
+	b.SetHelp(name, what)
+	return b
+}
+
+// fitStatus cuts a status line to width cells, marking the cut with …; it
+// keeps at least a few words when the room is smaller than that.
+func fitStatus(status string, width int) string {
+	if ansi.StringWidth(status) <= width {
+		return status
+	}
+	return ansi.Truncate(status, max(width, 12), "…")
+}
+
+// splitKeys takes apart what a slow link glues together before a screen
+// sees its keys: an Esc and the key typed after it arrive as one alt key
+// (neither screen binds an alt key), and keys typed ahead as one message
+// of several runes. It gives screen each key in turn and reports whether
+// msg was such a message.
+func splitKeys(screen tea.Model, msg tea.KeyMsg) (tea.Model, tea.Cmd, bool) {
+	switch {
+	case msg.Paste:
+		return screen, nil, false
+	case msg.Alt:
+		next, first := screen.Update(tea.KeyMsg{Type: tea.KeyEsc})
+		msg.Alt = false
+		next, second := next.Update(msg)
+		return next, tea.Batch(first, second), true
+	case msg.Type == tea.KeyRunes && len(msg.Runes) > 1:
+		var cmds []tea.Cmd
+		for _, r := range msg.Runes {
+			var cmd tea.Cmd
+			screen, cmd = screen.Update(tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune{r}})
+			cmds = append(cmds, cmd)
+		}
+		return screen, tea.Batch(cmds...), true
+	}
+	return screen, nil, false
+}
