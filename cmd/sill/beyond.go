@@ -1,26 +1,24 @@
 package main
 
 import (
-	"context"
+	"errors"
 	"fmt"
 	"time"
 
 	"github.com/spf13/pflag"
 
-	"github.com/sill-tool/sill/internal/bootstrap"
+	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/calibration"
-	"github.com/sill-tool/sill/internal/curve"
-	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/modelpair"
-	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/report"
 	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/segment"
 	"github.com/sill-tool/sill/internal/shift"
 )
 
-// beyondFlags are report's flags for the figures beyond the averages:
-// segments, shift peaks, stability, calibration and two models.
+// beyondFlags are the flags of the figures beyond the averages (segments,
+// shift peaks, stability, calibration and two models), which become the
+// options of package analysis.
 type beyondFlags struct {
 	segmentOrder       string
 	segmentsShown      int
@@ -38,12 +36,8 @@ type beyondFlags struct {
 	compareFile  string // a second model's scores of the same cases, joined on --id
 	compareScore string // its score column: the second --score, or the default names
 	input        *inputFlags
-	joined       *scores.Set // set with the compare file's scores, by finderOptions
 
-	// Set by prepare and finderOptions.
-	location *time.Location
-	assigned *shift.Assignment
-	scale    shift.Scale
+	location *time.Location // set by prepare
 }
 
 func (f *beyondFlags) register(fs *pflag.FlagSet) {
@@ -109,8 +103,12 @@ func (f *beyondFlags) prepare(in *inputFlags) error {
 }
 
 // loadCompare reads the second model's file with the first one's reading
-// options, labels optional, and joins it to set on the ids.
+// options, labels optional, and joins it to set on the ids; without
+// --compare it returns set.
 func (f *beyondFlags) loadCompare(set *scores.Set) (*scores.Set, error) {
+	if f.compareFile == "" {
+		return set, nil
+	}
 	other := *f.input
 	other.opt.SegmentColumn, other.opt.WeightColumn, other.opt.TimeColumn, other.opt.CompareColumn = "", "", "", ""
 	other.opt.NoLabels = true
@@ -155,102 +153,52 @@ func (f *beyondFlags) check() error {
 	return nil
 }
 
-// defaultRules adds queue90=capacity to the default rules when case times
-// and a capacity are given.
-func (f *beyondFlags) defaultRules(rules []cutrule.Rule, a projection.Assumptions) []cutrule.Rule {
-	if f.timeColumn != "" && a.Capacity > 0 {
-		rules = append(rules, cutrule.Rule{Kind: cutrule.Queue90, Value: a.Capacity})
+// options returns the analysis options of the flags, checked.
+func (f *beyondFlags) options() (analysis.Options, error) {
+	if err := f.check(); err != nil {
+		return analysis.Options{}, err
 	}
-	return rules
-}
-
-// finderOptions reads and joins the --compare file, places the rows in
-// shifts when case times are given and returns the cut finder's options
-// for queue90=K. It runs before anything is written.
-func (f *beyondFlags) finderOptions(set *scores.Set, a projection.Assumptions) ([]cutrule.Option, error) {
-	if f.compareFile != "" {
-		joined, err := f.loadCompare(set)
-		if err != nil {
-			return nil, err
-		}
-		f.joined = joined
+	opts := analysis.Options{
+		CalibrationBins: f.calibrationBins,
+		Resampling:      analysis.Resampling{Replicates: f.replicates, Seed: f.seed, BandCuts: report.BandCuts},
 	}
-	if f.timeColumn == "" {
-		return nil, nil
-	}
-	sched, err := shift.ParseSchedule(f.shifts, f.location)
-	if err != nil {
-		return nil, fmt.Errorf("--shifts: %w", err)
-	}
-	assigned, err := shift.Assign(set, sched)
-	if err != nil {
-		return nil, fmt.Errorf("--time %s: %w", f.timeColumn, err)
-	}
-	f.assigned, f.scale = &assigned, shift.ScaleFor(set, assigned, a)
-	return []cutrule.Option{cutrule.WithShifts(assigned, f.scale)}, nil
-}
-
-// apply adds the figures beyond the averages to r.
-func (f *beyondFlags) apply(r *report.Report, set *scores.Set, sum curve.Summary, a projection.Assumptions, rules []cutrule.Rule, outcomes []cutrule.Outcome) error {
-	order, err := segment.ParseOrder(f.segmentOrder)
-	if err != nil {
-		return valueFlagError("--segment-order", err)
-	}
-	r.AddSegments(set, outcomes, order, f.segmentsShown)
 	binning, err := calibration.ParseBinning(f.calibrationBinning)
 	if err != nil {
-		return valueFlagError("--calibration-binning", err)
+		return opts, valueFlagError("--calibration-binning", err)
 	}
-	if err := r.AddCalibration(set, outcomes, f.calibrationBins, binning, a); err != nil {
-		return fmt.Errorf("--calibration-bins: %w", err)
-	}
-	if f.assigned != nil {
-		r.AddShiftPeaks(set, outcomes, *f.assigned, f.scale)
-	}
-	if f.replicates > 0 {
-		opt := bootstrap.Options{Replicates: f.replicates, Seed: f.seed, BandCuts: 50}
-		if f.assigned != nil {
-			opt.FinderOptions = []cutrule.Option{cutrule.WithShifts(*f.assigned, f.scale)}
-		}
-		res, err := bootstrap.Run(context.Background(), set, rules, a, opt)
+	opts.CalibrationBinning = binning
+	if f.shifts != "" {
+		sched, err := shift.ParseSchedule(f.shifts, f.location)
 		if err != nil {
-			return fmt.Errorf("--bootstrap: %w", err)
+			return opts, fmt.Errorf("--shifts: %w", err)
 		}
-		r.AddStability(res)
+		opts.Shifts = &sched
 	}
-	if f.joined != nil {
-		set = f.joined
-	}
-	if set.CompareScores != nil {
-		if err := f.compare(r, set, a, rules, outcomes); err != nil {
-			return err
-		}
-	}
-	return nil
+	return opts, nil
 }
 
-// compare adds the second model's cuts and DeLong's paired test.
-func (f *beyondFlags) compare(r *report.Report, set *scores.Set, a projection.Assumptions, rules []cutrule.Rule, outcomes []cutrule.Outcome) error {
-	test, testErr := modelpair.Compare(set)
-	second, err := modelpair.Second(set)
-	if err != nil {
+// order returns the order of the segments, checked by check.
+func (f *beyondFlags) order() segment.Order {
+	order, _ := segment.ParseOrder(f.segmentOrder)
+	return order
+}
+
+// analysisError adds to an error of package analysis the flag that sets
+// what failed.
+func (f *beyondFlags) analysisError(err error) error {
+	var e *analysis.Error
+	if !errors.As(err, &e) {
 		return err
 	}
-	var opts []cutrule.Option
-	if f.assigned != nil {
-		assigned, err := shift.Assign(second, f.assigned.Schedule)
-		if err != nil {
-			return fmt.Errorf("--time %s: %w", f.timeColumn, err)
-		}
-		opts = append(opts, cutrule.WithShifts(assigned, shift.ScaleFor(second, assigned, a)))
+	switch e.Step {
+	case analysis.StepShifts:
+		return fmt.Errorf("--time %s: %w", f.timeColumn, e.Err)
+	case analysis.StepCalibration:
+		return fmt.Errorf("--calibration-bins: %w", e.Err)
+	case analysis.StepResampling:
+		return fmt.Errorf("--bootstrap: %w", e.Err)
 	}
-	finder, err := cutrule.NewFinder(rules, second, a, opts...)
-	if err != nil {
-		return fmt.Errorf("--cut %w", err)
-	}
-	curve.Walk(second, finder.Visit)
-	r.AddComparison(set.ScoreColumn, set.CompareColumn, test, testErr, outcomes, finder.Outcomes(), a)
-	return nil
+	return e.Err
 }
 
 func valueFlagError(flag string, err error) error {

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"context"
 	"fmt"
 	"io"
 	"os"
@@ -8,6 +9,7 @@ import (
 	"github.com/spf13/cobra"
 	"github.com/spf13/pflag"
 
+	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/demo"
@@ -62,7 +64,7 @@ in [0,1] get a reliability table and net benefit; --score a --score b (or
 			if err != nil {
 				return err
 			}
-			return o.run(set, cmd.OutOrStdout(), cmd.ErrOrStderr())
+			return o.run(cmd.Context(), set, cmd.OutOrStdout(), cmd.ErrOrStderr())
 		},
 	}
 	fs := cmd.Flags()
@@ -78,7 +80,7 @@ in [0,1] get a reliability table and net benefit; --score a --score b (or
 
 // run computes the report of set and writes it; nothing is written to
 // stdout when an error is returned before output starts.
-func (o *reportOptions) run(set *scores.Set, stdout, stderr io.Writer) error {
+func (o *reportOptions) run(ctx context.Context, set *scores.Set, stdout, stderr io.Writer) error {
 	switch o.format {
 	case "text", "json", "markdown", "csv":
 	default:
@@ -88,27 +90,27 @@ func (o *reportOptions) run(set *scores.Set, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
-	if err := o.beyond.check(); err != nil {
+	opts, err := o.beyond.options()
+	if err != nil {
 		return err
 	}
-	rules := o.beyond.defaultRules(cutrule.Defaults(a), a)
-	if len(o.cuts) > 0 {
-		rules = rules[:0]
-		for _, text := range o.cuts {
-			r, err := cutrule.Parse(text)
-			if err != nil {
-				return fmt.Errorf("--cut: %w", err)
-			}
-			rules = append(rules, r)
+	for _, text := range o.cuts {
+		r, err := cutrule.Parse(text)
+		if err != nil {
+			return fmt.Errorf("--cut: %w", err)
 		}
+		opts.Rules = append(opts.Rules, r)
 	}
-	shiftOptions, err := o.beyond.finderOptions(set, a)
+	joined, err := o.beyond.loadCompare(set)
 	if err != nil {
 		return err
 	}
-	finder, err := cutrule.NewFinder(rules, set, a, shiftOptions...)
+	if o.format == "csv" {
+		opts.Resampling = analysis.Resampling{} // the curve alone
+	}
+	res, err := analysis.Run(ctx, joined, a, opts)
 	if err != nil {
-		return err // "cut queue=90 needs a volume per shift (--volume)"
+		return o.beyond.analysisError(err)
 	}
 	points := func(visit func(curve.Point)) { curve.Walk(set, visit) }
 	if o.format == "csv" {
@@ -117,14 +119,9 @@ func (o *reportOptions) run(set *scores.Set, stdout, stderr io.Writer) error {
 		}
 		return report.WriteCurveCSV(stdout, points)
 	}
-	sum := curve.Walk(set, finder.Visit)
-	outcomes := finder.Outcomes()
-	r := report.New(set, sum, a, outcomes)
-	if err := o.beyond.apply(r, set, sum, a, rules, outcomes); err != nil {
-		return err
-	}
+	r := report.New(res, report.Options{SegmentOrder: o.beyond.order(), SegmentsShown: o.beyond.segmentsShown})
 	// Saved once every figure is computed, so that an error leaves no file.
-	if err := o.save.write(set, a, outcomes, stderr); err != nil {
+	if err := o.save.write(set, a, res.Outcomes, stderr); err != nil {
 		return err
 	}
 	// Warnings go to stderr whatever the format; JSON also carries them.
@@ -171,5 +168,5 @@ func runDefault(cmd *cobra.Command) error {
 	if err != nil {
 		return err
 	}
-	return o.run(set, cmd.OutOrStdout(), os.Stderr)
+	return o.run(cmd.Context(), set, cmd.OutOrStdout(), os.Stderr)
 }

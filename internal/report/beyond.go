@@ -2,25 +2,23 @@ package report
 
 import (
 	"fmt"
+	"slices"
 	"strconv"
 	"strings"
 	"time"
 
+	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/bootstrap"
 	"github.com/sill-tool/sill/internal/calibration"
-	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/evidence"
-	"github.com/sill-tool/sill/internal/modelpair"
-	"github.com/sill-tool/sill/internal/projection"
-	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/segment"
 	"github.com/sill-tool/sill/internal/shift"
 )
 
 // This file holds the figures beyond the averages (issue 6): segments,
 // shift peaks, stability, calibration and the comparison of two models.
-// Each is added to a Report after New by an Add method, and each shows in
+// Each is added to a Report by New from the analysis result, by an add method, and each shows in
 // JSON under its own keys and in the text forms as a section after the
 // table of cuts.
 
@@ -45,21 +43,21 @@ type segmentFigures struct {
 	Outlier      bool      `json:"outlier"`
 }
 
-// AddSegments adds, under each met cut, the figures of every group of
-// set's segment column (package segment), arranged in order. outcomes are
-// the ones r was made from, in the same order. The text forms show the
-// first shown groups (every group when shown <= 0) and count the rest;
-// JSON lists them all. A set without a segment column adds nothing.
-func (r *Report) AddSegments(set *scores.Set, outcomes []cutrule.Outcome, order segment.Order, shown int) {
-	if set.SegmentOf == nil {
+// addSegments adds, under each met cut, the figures of every group of the
+// set's segment column (res.Segments), arranged in order. The text forms
+// show the first shown groups (every group when shown <= 0) and count the
+// rest; JSON lists them all. A set without a segment column adds nothing.
+func (r *Report) addSegments(res *analysis.Result, order segment.Order, shown int) {
+	if res.Segments == nil {
 		return
 	}
-	conf := float64(r.Assumptions.Confidence)
-	for i, o := range outcomes {
+	set := res.Set
+	for i, o := range res.Outcomes {
 		if !o.Met || i >= len(r.Cuts) {
 			continue
 		}
-		b := segment.At(set, o.Point, conf)
+		b := res.Segments[i]
+		b.Segments = slices.Clone(b.Segments)
 		b.Sort(order)
 		list := make([]segmentFigures, 0, len(b.Segments))
 		t := table{header: []string{"segment", "rows", "true cases", "flagged", "hit share", "interval", "precision", "interval", "note"}, wordsLast: true}
@@ -154,19 +152,17 @@ type calibrationBin struct {
 	Count        int     `json:"count"`
 }
 
-// AddCalibration adds the reliability table of set (package calibration)
-// in bins bins, the net benefit of every met cut at its own score as the
-// threshold probability, and, when a has costs, Elkan's cost threshold
-// beside the empirical least-cost cut. It adds nothing when set's scores
-// are not probabilities, and returns an error only for bad bin options.
-func (r *Report) AddCalibration(set *scores.Set, outcomes []cutrule.Outcome, bins int, binning calibration.Binning, a projection.Assumptions) error {
-	if !calibration.Probabilities(set) {
-		return nil
+// addCalibration adds the reliability table of res (analysis.Calibration),
+// the net benefit of every met cut at its own score as the threshold
+// probability, and, when res has costs, Elkan's cost threshold beside the
+// empirical least-cost cut. It adds nothing when the scores are not
+// probabilities.
+func (r *Report) addCalibration(res *analysis.Result) {
+	cal := res.Calibration
+	if cal == nil {
+		return
 	}
-	table, err := calibration.Reliability(set, bins, binning)
-	if err != nil {
-		return err
-	}
+	table, binning, bins := cal.Table, cal.Table.Binning, cal.Bins
 	name := "width"
 	if binning == calibration.Quantile {
 		name = "quantile"
@@ -178,12 +174,12 @@ func (r *Report) AddCalibration(set *scores.Set, outcomes []cutrule.Outcome, bin
 		t.rows = append(t.rows, []string{Fixed(b.Lower, 3) + "–" + Fixed(b.Upper, 3), fmt.Sprint(b.Count), Fixed(b.MeanScore, 3), Fixed(b.ObservedRate, 3), Fixed(b.ObservedRate-b.MeanScore, 3)})
 	}
 	notes := []string{"expected calibration error (ECE) " + Fixed(table.ECE, 4) + ": the mean of |observed rate - mean score| over the bins, weighted by their cases"}
-	if c := a.Costs; c != nil {
-		p := calibration.CostThreshold(*c)
+	if c := cal.Cost; c != nil {
+		p := c.Probability
 		cf.CostThresholdProbability = number(p)
-		cf.CostThreshold = number(calibration.ShiftThreshold(p, float64(r.BaseRate), a.BaseRate))
-		if least, err := cutrule.Find([]cutrule.Rule{{Kind: cutrule.Cost}}, curve.New(set), a); err == nil && least[0].Met {
-			cf.LeastCostCut = number(least[0].Point.Score)
+		cf.CostThreshold = number(c.Score)
+		if c.LeastCost.Met {
+			cf.LeastCostCut = number(c.LeastCost.Point.Score)
 		}
 		line := "cost threshold (Elkan 2001) " + Fixed(float64(cf.CostThreshold), 3) + ", if the scores are calibrated probabilities"
 		if r.baseRateGiven {
@@ -193,14 +189,14 @@ func (r *Report) AddCalibration(set *scores.Set, outcomes []cutrule.Outcome, bin
 			" on the validation set; with --bootstrap, a warning says when the cost threshold lies outside the range where the least-cost cut lands in resampled sets")
 		r.beyond.costThreshold = float64(cf.CostThreshold)
 	}
-	for i, o := range outcomes {
+	for i, o := range res.Outcomes {
 		if !o.Met || i >= len(r.Cuts) {
 			continue
 		}
-		nb := number(calibration.NetBenefit(o.Point, o.Point.Score))
+		nb := number(cal.NetBenefit[i])
 		r.Cuts[i].NetBenefit = &nb
 		notes = append(notes, fmt.Sprintf("net benefit at %s (threshold probability %s): %s per case, against %s for flagging every case",
-			r.Cuts[i].Spec, Score(o.Point.Score), Fixed(float64(nb), 4), Fixed(calibration.NetBenefitAll(float64(r.BaseRate), o.Point.Score), 4)))
+			r.Cuts[i].Spec, Score(o.Point.Score), Fixed(float64(nb), 4), Fixed(cal.NetBenefitAll[i], 4)))
 	}
 	r.Calibration = cf
 	binsOf := "of equal width"
@@ -208,7 +204,6 @@ func (r *Report) AddCalibration(set *scores.Set, outcomes []cutrule.Outcome, bin
 		binsOf = "of about equal rows"
 	}
 	r.sections = append(r.sections, section{title: fmt.Sprintf("calibration: reliability table, %d bins %s", bins, binsOf), table: t, notes: notes})
-	return nil
 }
 
 func tableOf(header ...string) table { return table{header: header} }
@@ -240,11 +235,14 @@ type shiftSchedule struct {
 	AlertsPerFalseCase float64 `json:"alerts_per_false_case"`
 }
 
-// AddShiftPeaks adds, under each met cut, the queues of the real shifts of
-// the validation period (package shift): mean, 90th percentile, maximum and
-// the share of shifts over capacity, scaled as scale says. assigned must
-// come from set.
-func (r *Report) AddShiftPeaks(set *scores.Set, outcomes []cutrule.Outcome, assigned shift.Assignment, scale shift.Scale) {
+// addShiftPeaks adds, under each met cut, the queues of the real shifts of
+// the validation period (res.Shifts): mean, 90th percentile, maximum and
+// the share of shifts over capacity, scaled as res.Shifts.Scale says.
+func (r *Report) addShiftPeaks(res *analysis.Result) {
+	if res.Shifts == nil {
+		return
+	}
+	assigned, scale := res.Shifts.Assigned, res.Shifts.Scale
 	capacity := float64(r.Assumptions.Capacity)
 	if !evidence.Defined(capacity) {
 		capacity = 0
@@ -262,7 +260,7 @@ func (r *Report) AddShiftPeaks(set *scores.Set, outcomes []cutrule.Outcome, assi
 	if capacity > 0 {
 		t.header = append(t.header, "shifts over "+Count(capacity))
 	}
-	for i, o := range outcomes {
+	for i, o := range res.Outcomes {
 		if i >= len(r.Cuts) {
 			continue
 		}
@@ -271,7 +269,7 @@ func (r *Report) AddShiftPeaks(set *scores.Set, outcomes []cutrule.Outcome, assi
 			r.Cuts[i].Projected.QueuePerShiftP90, r.Cuts[i].Projected.QueuePerShiftMax = &undefinedP90, &undefinedMax
 			continue
 		}
-		p := assigned.At(set, o.Point.Rows, scale, capacity)
+		p := res.Shifts.Peaks[i]
 		f := &shiftFigures{Mean: number(p.Mean), P90: number(p.P90), Max: number(p.Max), OverCapacityShare: number(p.OverCapacity)}
 		if p.Busiest >= 0 {
 			f.BusiestShift = assigned.Start(p.Busiest).Format(time.RFC3339)
@@ -338,13 +336,13 @@ type bandPoint struct {
 	FalseDiscoveryRateP95 number  `json:"false_discovery_rate_p95"`
 }
 
-// AddStability adds, under each cut, where its rule lands across the
+// addStability adds, under each cut, where its rule lands across the
 // bootstrap replicates of res (package bootstrap), whose spreads are one
 // per cut in the order of r's cuts; and the band of hit share and
 // wrong-alert share. When the calibration figures hold a cost threshold
 // and the cost rule is among the cuts, a threshold outside the cost cut's
-// 5th-95th percentile range gives a warning.
-func (r *Report) AddStability(res bootstrap.Result) {
+// 5th-95th percentile range gives a warning. It runs after addCalibration.
+func (r *Report) addStability(res bootstrap.Result) {
 	r.Bootstrap = &bootstrapFigures{Replicates: res.Replicates, Seed: res.Seed, Stratified: true, Band: []bandPoint{}}
 	for _, p := range res.Band {
 		r.Bootstrap.Band = append(r.Bootstrap.Band, bandPoint{Score: p.Score,
@@ -405,14 +403,17 @@ type secondModelCut struct {
 	CostPerShift  number    `json:"cost_per_shift"`
 }
 
-// AddComparison adds the comparison of two models scored on the same
-// cases: DeLong's paired AUC test (package modelpair) at the top, and
-// under each cut the cut that the same rule picks for the second model.
-// second holds one outcome per cut of r, found on the second model's
-// ranked set (modelpair.Second) under a; test comes from
-// modelpair.Compare. Its error, when not nil, is reported as a warning
-// (one class only, for example) and the test's figures are null.
-func (r *Report) AddComparison(scoreA, scoreB string, test modelpair.Test, testErr error, outcomes, second []cutrule.Outcome, a projection.Assumptions) {
+// addComparison adds the comparison of two models scored on the same
+// cases (res.Second): DeLong's paired AUC test at the top, and under each
+// cut the cut that the same rule picks for the second model. The test's
+// error, when not nil, is reported as a warning (one class only, for
+// example) and the test's figures are null.
+func (r *Report) addComparison(res *analysis.Result) {
+	if res.Second == nil {
+		return
+	}
+	scoreA, scoreB := res.Set.ScoreColumn, res.Set.CompareColumn
+	test, testErr, outcomes, second, a := res.Second.Test, res.Second.TestErr, res.Outcomes, res.Second.Outcomes, res.Assume
 	c := &comparison{ScoreA: scoreA, ScoreB: scoreB, AUCA: null, AUCB: null, AUCDifference: null, DeLongSE: null, DeLongZ: null, DeLongP: null}
 	if testErr == nil {
 		c.AUCA, c.AUCB, c.AUCDifference = number(test.AUC[0]), number(test.AUC[1]), number(test.Difference)

@@ -2,14 +2,14 @@ package report_test
 
 import (
 	"bytes"
+	"context"
 	"encoding/json"
 	"math"
 	"strings"
 	"testing"
 
+	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/bootstrap"
-	"github.com/sill-tool/sill/internal/calibration"
-	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/modelpair"
 	"github.com/sill-tool/sill/internal/projection"
@@ -23,14 +23,17 @@ import (
 const beyondSet = "score,label,seg\n" +
 	"0.9,1,A\n0.8,1,B\n0.8,0,A\n0.7,0,B\n0.6,1,A\n0.5,0,A\n0.4,1,B\n0.3,0,B\n"
 
-func beyondReport(t *testing.T, specs ...string) (*report.Report, *scores.Set, []cutrule.Outcome, projection.Assumptions) {
+// beyondResult analyses beyondSet at the cuts of specs under a (base rate
+// 0.5, confidence 0.95, when a is nil), with two calibration bins.
+func beyondResult(t *testing.T, a *projection.Assumptions, specs ...string) *analysis.Result {
 	t.Helper()
 	set, err := scores.Read(strings.NewReader(beyondSet), "t.csv", scores.Options{SegmentColumn: "seg"})
 	if err != nil {
 		t.Fatal(err)
 	}
-	c := curve.New(set)
-	a := projection.Assumptions{BaseRate: 0.5, Confidence: 0.95}
+	if a == nil {
+		a = &projection.Assumptions{BaseRate: 0.5, Confidence: 0.95}
+	}
 	var rules []cutrule.Rule
 	for _, s := range specs {
 		r, err := cutrule.Parse(s)
@@ -39,11 +42,11 @@ func beyondReport(t *testing.T, specs ...string) (*report.Report, *scores.Set, [
 		}
 		rules = append(rules, r)
 	}
-	outcomes, err := cutrule.Find(rules, c, a)
+	res, err := analysis.Run(context.Background(), set, *a, analysis.Options{Rules: rules, CalibrationBins: 2})
 	if err != nil {
 		t.Fatal(err)
 	}
-	return report.New(set, c.Summary, a, outcomes), set, outcomes, a
+	return res
 }
 
 // decode writes r as JSON and reads it back as generic values.
@@ -61,8 +64,7 @@ func decode(t *testing.T, r *report.Report) map[string]any {
 }
 
 func TestSegmentsInJSONAndText(t *testing.T) {
-	r, set, outcomes, _ := beyondReport(t, "score=0.8", "score=5")
-	r.AddSegments(set, outcomes, segment.ByName, 0)
+	r := report.New(beyondResult(t, nil, "score=0.8", "score=5"), report.Options{SegmentOrder: segment.ByName})
 	cuts := decode(t, r)["cuts"].([]any)
 	segs := cuts[0].(map[string]any)["segments"].([]any)
 	if len(segs) != 2 {
@@ -89,8 +91,7 @@ func TestSegmentsInJSONAndText(t *testing.T) {
 		t.Errorf("text lacks the segment section:\n%s", text.String())
 	}
 	// Showing one segment names the other as not shown.
-	r2, set2, outcomes2, _ := beyondReport(t, "score=0.8")
-	r2.AddSegments(set2, outcomes2, segment.ByName, 1)
+	r2 := report.New(beyondResult(t, nil, "score=0.8"), report.Options{SegmentOrder: segment.ByName, SegmentsShown: 1})
 	text.Reset()
 	report.WriteText(&text, r2)
 	if !strings.Contains(text.String(), "1 more segment not shown (0 of them outside)") || strings.Contains(text.String(), "\nB ") {
@@ -102,12 +103,8 @@ func TestSegmentsInJSONAndText(t *testing.T) {
 }
 
 func TestCalibrationInJSON(t *testing.T) {
-	r, set, outcomes, a := beyondReport(t, "score=0.8", "score=5")
-	a.Costs = &projection.Costs{FalseAlert: 1, Miss: 4}
-	if err := r.AddCalibration(set, outcomes, 2, calibration.FixedWidth, a); err != nil {
-		t.Fatal(err)
-	}
-	out := decode(t, r)
+	a := projection.Assumptions{BaseRate: 0.5, Confidence: 0.95, Costs: &projection.Costs{FalseAlert: 1, Miss: 4}}
+	out := decode(t, report.New(beyondResult(t, &a, "score=0.8", "score=5"), report.Options{}))
 	cal := out["calibration"].(map[string]any)
 	bins := cal["bins"].([]any)
 	// Two bins: [0,0.5] holds 0.5,0.4,0.3 (1 true of 3, mean 0.4); (0.5,1]
@@ -140,9 +137,12 @@ func TestCalibrationInJSON(t *testing.T) {
 }
 
 func TestComparisonWithoutTest(t *testing.T) {
-	r, _, outcomes, a := beyondReport(t, "score=0.8")
-	r.AddComparison("a", "b", modelpair.Test{}, modelpair.ErrNoClass, outcomes, outcomes, a)
-	out := decode(t, r)
+	res := beyondResult(t, nil, "score=0.8")
+	set := *res.Set
+	set.ScoreColumn, set.CompareColumn = "a", "b"
+	res.Set = &set
+	res.Second = &analysis.Second{Outcomes: res.Outcomes, TestErr: modelpair.ErrNoClass}
+	out := decode(t, report.New(res, report.Options{}))
 	c := out["comparison"].(map[string]any)
 	if c["score_a"] != "a" || c["auc_a"] != nil || c["delong_p"] != nil {
 		t.Errorf("comparison %v", c)
@@ -166,16 +166,14 @@ func TestStabilityWarnsOnCostThreshold(t *testing.T) {
 	}{{0.5, 0.8, true}, {0.1, 0.8, false}} {
 		// The cut is score=0.8 (the helper has no costs); the spread is
 		// labelled as the cost rule's, which is what the warning looks at.
-		r, set, outcomes, a := beyondReport(t, "score=0.8")
-		a.Costs = &projection.Costs{FalseAlert: 1, Miss: 4}
-		if err := r.AddCalibration(set, outcomes, 2, calibration.FixedWidth, a); err != nil {
-			t.Fatal(err)
-		}
-		before := len(r.Warnings)
-		r.AddStability(bootstrap.Result{Replicates: 10, Seed: 3, Spreads: []bootstrap.Spread{{
+		a := projection.Assumptions{BaseRate: 0.5, Confidence: 0.95, Costs: &projection.Costs{FalseAlert: 1, Miss: 4}}
+		res := beyondResult(t, &a, "score=0.8")
+		before := len(report.New(res, report.Options{}).Warnings)
+		res.Stability = &bootstrap.Result{Replicates: 10, Seed: 3, Spreads: []bootstrap.Spread{{
 			Rule: cutrule.Rule{Kind: cutrule.Cost}, Met: 10, Score: [2]float64{c.lo, c.hi},
 			FlaggedShare: [2]float64{0.2, 0.3}, Recall: [2]float64{0.5, 0.7},
-		}}})
+		}}}
+		r := report.New(res, report.Options{})
 		if warned := len(r.Warnings) > before; warned != c.warns {
 			t.Errorf("range %v-%v: warned %v, want %v (%v)", c.lo, c.hi, warned, c.warns, r.Warnings)
 		}

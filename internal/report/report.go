@@ -5,11 +5,13 @@ package report
 import (
 	"math"
 
+	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
+	"github.com/sill-tool/sill/internal/segment"
 )
 
 // Report is everything a report shows but the full curve, which is
@@ -77,7 +79,7 @@ type cut struct {
 	Projected          projected `json:"projected"`
 
 	Segments   []segmentFigures `json:"segments,omitempty"` // with a segment column; see beyond.go
-	NetBenefit *number          `json:"net_benefit"`        // null unless AddCalibration ran on probabilities
+	NetBenefit *number          `json:"net_benefit"`        // null unless the scores are probabilities
 	Shifts     *shiftFigures    `json:"queue_by_shift,omitempty"`
 	Stability  *stability       `json:"stability,omitempty"`
 	Second     *secondModelCut  `json:"second_model,omitempty"`
@@ -89,7 +91,7 @@ type projected struct {
 	QueuePerShift number `json:"queue_per_shift"`
 	CostPerShift  number `json:"cost_per_shift"`
 
-	// With case times (AddShiftPeaks in beyond.go).
+	// With case times (addShiftPeaks in beyond.go).
 	QueuePerShiftP90 *number `json:"queue_per_shift_p90,omitempty"`
 	QueuePerShiftMax *number `json:"queue_per_shift_max,omitempty"`
 }
@@ -106,9 +108,36 @@ type point struct {
 	FalsePositiveRate number  `json:"false_positive_rate"`
 }
 
-// New gathers a report of set, whose summary is sum, under a, with one
-// outcome per requested cut.
-func New(set *scores.Set, sum curve.Summary, a projection.Assumptions, outcomes []cutrule.Outcome) *Report {
+// BandCuts is how many cuts carry the bootstrap's band in JSON.
+const BandCuts = 50
+
+// Options are the report's own choices of how to show the figures.
+type Options struct {
+	// SegmentOrder orders the groups under each cut.
+	SegmentOrder segment.Order
+	// SegmentsShown is how many groups the text forms show under each
+	// cut; 0 shows all. JSON lists all.
+	SegmentsShown int
+}
+
+// New gathers the report of res (package analysis): the summary, the
+// figures of each cut and what res holds beyond them. It computes
+// nothing of its own.
+func New(res *analysis.Result, opt Options) *Report {
+	r := newReport(res.Set, res.Summary, res.Assume, res.Outcomes)
+	r.addSegments(res, opt.SegmentOrder, opt.SegmentsShown)
+	r.addCalibration(res)
+	r.addShiftPeaks(res)
+	if res.Stability != nil {
+		r.addStability(*res.Stability)
+	}
+	r.addComparison(res)
+	return r
+}
+
+// newReport gathers a report of set, whose summary is sum, under a, with
+// one outcome per requested cut.
+func newReport(set *scores.Set, sum curve.Summary, a projection.Assumptions, outcomes []cutrule.Outcome) *Report {
 	r := &Report{
 		Source:           set.Source,
 		Rows:             sum.Rows,

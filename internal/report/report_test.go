@@ -2,6 +2,7 @@ package report_test
 
 import (
 	"bytes"
+	"context"
 	"encoding/json"
 	"flag"
 	"math"
@@ -11,6 +12,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/interval"
@@ -68,8 +70,8 @@ func validation(set *scores.Set) projection.Assumptions {
 	return projection.Assumptions{BaseRate: rate, Confidence: projection.DefaultConfidence}
 }
 
-// build reads the table and makes the report the way cmd/sill does:
-// one sweep feeding the cut finder.
+// build reads the table and makes the report the way cmd/sill does,
+// through package analysis.
 func (s scenario) build(t *testing.T) (*report.Report, *scores.Set) {
 	t.Helper()
 	set, err := scores.Read(strings.NewReader(s.table), s.name+".csv", s.opt)
@@ -83,23 +85,22 @@ func (s scenario) build(t *testing.T) (*report.Report, *scores.Set) {
 	if err := a.Validate(); err != nil {
 		t.Fatal(err)
 	}
-	rules := cutrule.Defaults(a)
-	if s.specs != nil {
-		rules = nil
-		for _, text := range s.specs {
-			r, err := cutrule.Parse(text)
-			if err != nil {
-				t.Fatal(err)
-			}
-			rules = append(rules, r)
+	var rules []cutrule.Rule // nil: the starting points
+	for _, text := range s.specs {
+		r, err := cutrule.Parse(text)
+		if err != nil {
+			t.Fatal(err)
 		}
+		rules = append(rules, r)
 	}
-	f, err := cutrule.NewFinder(rules, set, a)
+	res, err := analysis.Run(context.Background(), set, a, analysis.Options{Rules: rules})
 	if err != nil {
 		t.Fatal(err)
 	}
-	sum := curve.Walk(set, f.Visit)
-	return report.New(set, sum, a, f.Outcomes()), set
+	// These scenarios are about the summary and the cuts; the figures
+	// beyond them have their own tests in beyond_test.go.
+	res.Calibration, res.Segments = nil, nil
+	return report.New(res, report.Options{}), set
 }
 
 func points(set *scores.Set) report.Points {

@@ -1,0 +1,457 @@
+// Package analysis turns a loaded set and the operating assumptions into
+// every figure the views show: the summary, the cuts of the rules (or the
+// starting points), the queues of the real shifts, the breakdown by
+// segment, the reliability table with the cost threshold and net benefit,
+// a second model's cuts with DeLong's paired test, and the bootstrap. The
+// report and the explorer both call Run, so they cannot disagree; they
+// only render the Result. Which cases a cut flags follows the cut rule in
+// the doc of package scores.
+//
+// A new figure is computed here, once, and shown by each view that needs
+// it.
+package analysis
+
+import (
+	"context"
+	"errors"
+	"math"
+
+	"github.com/sill-tool/sill/internal/bootstrap"
+	"github.com/sill-tool/sill/internal/calibration"
+	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/modelpair"
+	"github.com/sill-tool/sill/internal/projection"
+	"github.com/sill-tool/sill/internal/scores"
+	"github.com/sill-tool/sill/internal/segment"
+	"github.com/sill-tool/sill/internal/shift"
+)
+
+// DefaultCalibrationBins is the reliability table's number of bins when
+// Options gives none.
+const DefaultCalibrationBins = 10
+
+// Options say what Run computes beyond the summary and the cuts.
+type Options struct {
+	// Rules are the cuts asked for; nil asks for the starting points
+	// (Starts), which follow the assumptions.
+	Rules []cutrule.Rule
+
+	// Shifts is the crew shift schedule; with it the set's case times
+	// place every row in a shift of the validation period, and each cut
+	// gets the queues of the real shifts. nil: no shifts.
+	Shifts *shift.Schedule
+
+	// CalibrationBins (0: DefaultCalibrationBins) and CalibrationBinning
+	// shape the reliability table, made when the scores are probabilities.
+	CalibrationBins    int
+	CalibrationBinning calibration.Binning
+
+	// Resampling is the bootstrap; Run resamples when its Replicates is
+	// above 0. The explorer leaves it zero and calls Resample on demand.
+	Resampling Resampling
+
+	// Cursor keeps the curve for random access and the running tallies
+	// that follow a cursor from cut to cut (SegmentsAt, PeaksAt), as the
+	// explorer needs. Without it the set is walked once and only the
+	// summary is kept, in memory independent of the number of cuts.
+	Cursor bool
+}
+
+// Resampling are the bootstrap's options.
+type Resampling struct {
+	Replicates int    // resampled sets; 0 means none
+	Seed       uint64 // the same seed and Replicates give the same figures
+	BandCuts   int    // cuts that carry the band of hit and wrong-alert share
+	// Progress, when set, is called with the replicates done so far.
+	Progress func(done int)
+}
+
+// Step names the part of Run that an error came from, so that each view
+// can say which of its settings to check.
+type Step string
+
+// The steps of Run that can fail on the data or the options.
+const (
+	StepRules       Step = "rules"        // the rules do not suit the assumptions (cutrule errors)
+	StepShifts      Step = "shifts"       // placing rows in shifts
+	StepCalibration Step = "calibration"  // the reliability table
+	StepSecond      Step = "second model" // the second model's ranking and shifts
+	StepResampling  Step = "resampling"   // the bootstrap
+)
+
+// Error is an error of one step of Run.
+type Error struct {
+	Step Step
+	Err  error
+}
+
+func (e *Error) Error() string { return string(e.Step) + ": " + e.Err.Error() }
+func (e *Error) Unwrap() error { return e.Err }
+
+func stepError(step Step, err error) error {
+	if err == nil || errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded) {
+		return err
+	}
+	return &Error{Step: step, Err: err}
+}
+
+// Result is every figure of a set under one set of assumptions. Its
+// slices indexed by cut hold one entry per rule, in the order of Rules.
+type Result struct {
+	Set     *scores.Set
+	Assume  projection.Assumptions
+	Summary curve.Summary
+	// Curve is every cut, kept for random access; nil unless
+	// Options.Cursor.
+	Curve *curve.Curve
+
+	Rules    []cutrule.Rule
+	Outcomes []cutrule.Outcome
+
+	// Segments is the breakdown by segment at each met cut, in the order
+	// of the set's segment names (a zero Breakdown for an unmet rule); nil
+	// without a segment column.
+	Segments []segment.Breakdown
+
+	// Shifts are the queues of the real shifts; nil without Options.Shifts.
+	Shifts *Shifts
+
+	// Calibration is the reliability table and what follows from it; nil
+	// when the scores are not probabilities.
+	Calibration *Calibration
+
+	// Second is the second model of the same cases; nil without a second
+	// score column.
+	Second *Second
+
+	// Stability is the bootstrap; nil until one has run.
+	Stability *bootstrap.Result
+
+	opts     Options
+	segments *segment.Running // follows the cursor; with Options.Cursor
+	peaks    *shift.Running   // follows the cursor at Shifts.Scale; with Options.Cursor
+}
+
+// Shifts are the rows placed in the shifts of the validation period.
+type Shifts struct {
+	Assigned shift.Assignment
+	// Scale turns a flagged case into alerts of a production shift under
+	// the assumptions (see package shift).
+	Scale shift.Scale
+	// Peaks are the queues at each met cut (zero Peaks for an unmet rule).
+	Peaks []shift.Peaks
+}
+
+// Calibration is the reliability table of scores that are probabilities,
+// the cost threshold they imply and the net benefit of each cut.
+type Calibration struct {
+	Table calibration.Table
+	Bins  int
+	// Cost is the cost threshold; nil without costs.
+	Cost *CostThreshold
+	// NetBenefit is the net benefit at each met cut with its own score as
+	// the threshold probability, and NetBenefitAll that of flagging every
+	// case at the same threshold (NaN for an unmet rule).
+	NetBenefit    []float64
+	NetBenefitAll []float64
+}
+
+// CostThreshold is the threshold at which calibrated probabilities make
+// flagging a case cheaper than leaving it (calibration.CostThreshold),
+// beside the empirical least-cost cut.
+type CostThreshold struct {
+	// Probability is the threshold as a probability at production's base
+	// rate; Score the same on the validation scores' scale
+	// (calibration.ShiftThreshold).
+	Probability float64
+	Score       float64
+	// LeastCost is the cut the cost rule picks on the validation set.
+	LeastCost cutrule.Outcome
+}
+
+// Second is the second model's figures: its own ranked set with the same
+// rules applied, and DeLong's paired test of the two.
+type Second struct {
+	Set      *scores.Set
+	Summary  curve.Summary
+	Curve    *curve.Curve      // nil unless Options.Cursor
+	Assigned *shift.Assignment // with Options.Shifts
+	Outcomes []cutrule.Outcome
+	// Test is DeLong's paired test; TestErr why it has no figures.
+	Test    modelpair.Test
+	TestErr error
+}
+
+// Starts returns the starting points under a: cutrule.Defaults and, when
+// rows are placed in shifts and a capacity is given, queue90 at the
+// capacity.
+func Starts(a projection.Assumptions, shifts bool) []cutrule.Rule {
+	rules := cutrule.Defaults(a)
+	if shifts && a.Capacity > 0 {
+		rules = append(rules, cutrule.Rule{Kind: cutrule.Queue90, Value: a.Capacity})
+	}
+	return rules
+}
+
+// Run computes the figures of set under a that opts asks for. It returns
+// an *Error naming the step that failed, or ctx's error when cancelled.
+func Run(ctx context.Context, set *scores.Set, a projection.Assumptions, opts Options) (*Result, error) {
+	r := &Result{Set: set, opts: opts}
+	if opts.Shifts != nil {
+		assigned, err := shift.Assign(set, *opts.Shifts)
+		if err != nil {
+			return nil, stepError(StepShifts, err)
+		}
+		r.Shifts = &Shifts{Assigned: assigned}
+	}
+	if set.SegmentOf != nil && opts.Cursor {
+		r.segments = segment.NewRunning(set)
+	}
+	if opts.Cursor {
+		r.Curve = curve.New(set)
+	}
+	if calibration.Probabilities(set) {
+		bins := opts.CalibrationBins
+		if bins == 0 {
+			bins = DefaultCalibrationBins
+		}
+		table, err := calibration.Reliability(set, bins, opts.CalibrationBinning)
+		if err != nil {
+			return nil, stepError(StepCalibration, err)
+		}
+		r.Calibration = &Calibration{Table: table, Bins: bins}
+	}
+	if set.CompareScores != nil {
+		second, err := newSecond(set, opts)
+		if err != nil {
+			return nil, stepError(StepSecond, err)
+		}
+		r.Second = second
+	}
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	if err := r.assume(a, nil); err != nil {
+		return nil, err
+	}
+	if opts.Resampling.Replicates > 0 {
+		res, err := r.Resample(ctx, opts.Resampling)
+		if err != nil {
+			return nil, err
+		}
+		r.Stability = &res
+	}
+	return r, nil
+}
+
+// newSecond ranks the second model's scores and places them in shifts.
+func newSecond(set *scores.Set, opts Options) (*Second, error) {
+	s := &Second{}
+	s.Test, s.TestErr = modelpair.Compare(set)
+	second, err := modelpair.Second(set)
+	if err != nil {
+		return nil, err
+	}
+	s.Set = second
+	if opts.Cursor {
+		s.Curve = curve.New(second)
+	}
+	if opts.Shifts != nil {
+		assigned, err := shift.Assign(second, *opts.Shifts)
+		if err != nil {
+			return nil, err
+		}
+		s.Assigned = &assigned
+	}
+	return s, nil
+}
+
+// Reassume returns the figures of the same set under new assumptions: the
+// cuts of the rules (the starting points under a when Options.Rules is
+// nil), the shift queues at the new scale, the cost threshold and the
+// second model's cuts. What does not depend on the assumptions (the
+// curve, the shifts of the rows, the reliability table, the paired test)
+// is shared with r; a bootstrap is dropped, since it ran under the old
+// assumptions. r itself is not changed, so Reassume may run while r is
+// shown, except that their cursor tallies are shared.
+func (r *Result) Reassume(ctx context.Context, a projection.Assumptions) (*Result, error) {
+	next := &Result{Set: r.Set, Curve: r.Curve, opts: r.opts, segments: r.segments}
+	if r.Shifts != nil {
+		next.Shifts = &Shifts{Assigned: r.Shifts.Assigned}
+	}
+	if r.Calibration != nil {
+		next.Calibration = &Calibration{Table: r.Calibration.Table, Bins: r.Calibration.Bins}
+	}
+	if r.Second != nil {
+		second := *r.Second
+		next.Second = &second
+	}
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	if err := next.assume(a, r); err != nil {
+		return nil, err
+	}
+	return next, nil
+}
+
+// assume computes everything that depends on the assumptions. prev, when
+// not nil, is the result under earlier assumptions, whose cursor tally of
+// the shift queues is kept when the scale has not changed.
+func (r *Result) assume(a projection.Assumptions, prev *Result) error {
+	r.Assume = a
+	r.Rules = r.opts.Rules
+	if r.Rules == nil {
+		r.Rules = Starts(a, r.Shifts != nil)
+	}
+	var finderOptions []cutrule.Option
+	if r.Shifts != nil {
+		r.Shifts.Scale = shift.ScaleFor(r.Set, r.Shifts.Assigned, a)
+		finderOptions = append(finderOptions, cutrule.WithShifts(r.Shifts.Assigned, r.Shifts.Scale))
+		if r.opts.Cursor {
+			if prev != nil && prev.peaks != nil && prev.Shifts.Scale == r.Shifts.Scale {
+				r.peaks = prev.peaks
+			} else {
+				r.peaks = shift.NewRunning(r.Set, r.Shifts.Assigned, r.Shifts.Scale)
+			}
+		}
+	}
+	finder, err := cutrule.NewFinder(r.Rules, r.Set, a, finderOptions...)
+	if err != nil {
+		return stepError(StepRules, err)
+	}
+	visit := finder.Visit
+	// The least-cost cut beside the cost threshold, found on the same
+	// walk.
+	var leastCost *cutrule.Finder
+	if r.Calibration != nil && a.Costs != nil {
+		leastCost, err = cutrule.NewFinder([]cutrule.Rule{{Kind: cutrule.Cost}}, r.Set, a)
+		if err != nil {
+			return stepError(StepRules, err)
+		}
+		visit = func(p curve.Point) { finder.Visit(p); leastCost.Visit(p) }
+	}
+	if r.Curve != nil {
+		r.Curve.Points(visit)
+		r.Summary = r.Curve.Summary
+	} else {
+		r.Summary = curve.Walk(r.Set, visit)
+	}
+	r.Outcomes = finder.Outcomes()
+
+	if r.Set.SegmentOf != nil {
+		r.Segments = make([]segment.Breakdown, len(r.Outcomes))
+		for i, o := range r.Outcomes {
+			if o.Met {
+				r.Segments[i] = segment.At(r.Set, o.Point, a.Confidence)
+			}
+		}
+	}
+	if r.Shifts != nil {
+		r.Shifts.Peaks = make([]shift.Peaks, len(r.Outcomes))
+		for i, o := range r.Outcomes {
+			if o.Met {
+				r.Shifts.Peaks[i] = r.Shifts.Assigned.At(r.Set, o.Point.Rows, r.Shifts.Scale, capacityOf(a))
+			}
+		}
+	}
+	if c := r.Calibration; c != nil {
+		c.Cost = nil
+		if a.Costs != nil {
+			p := calibration.CostThreshold(*a.Costs)
+			c.Cost = &CostThreshold{Probability: p, Score: calibration.ShiftThreshold(p, r.Summary.BaseRate, a.BaseRate),
+				LeastCost: leastCost.Outcomes()[0]}
+		}
+		c.NetBenefit = make([]float64, len(r.Outcomes))
+		c.NetBenefitAll = make([]float64, len(r.Outcomes))
+		for i, o := range r.Outcomes {
+			c.NetBenefit[i], c.NetBenefitAll[i] = NetBenefit(o.Point, r.Summary.BaseRate)
+			if !o.Met {
+				c.NetBenefit[i], c.NetBenefitAll[i] = math.NaN(), math.NaN()
+			}
+		}
+	}
+	if s := r.Second; s != nil {
+		if err := s.assume(r.Rules, a); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// assume applies rules to the second model under a.
+func (s *Second) assume(rules []cutrule.Rule, a projection.Assumptions) error {
+	var opts []cutrule.Option
+	if s.Assigned != nil {
+		opts = append(opts, cutrule.WithShifts(*s.Assigned, shift.ScaleFor(s.Set, *s.Assigned, a)))
+	}
+	finder, err := cutrule.NewFinder(rules, s.Set, a, opts...)
+	if err != nil {
+		return stepError(StepRules, err)
+	}
+	if s.Curve != nil {
+		s.Curve.Points(finder.Visit)
+		s.Summary = s.Curve.Summary
+	} else {
+		s.Summary = curve.Walk(s.Set, finder.Visit)
+	}
+	s.Outcomes = finder.Outcomes()
+	return nil
+}
+
+// capacityOf is the capacity the shift queues are held against, 0 when
+// none is given.
+func capacityOf(a projection.Assumptions) float64 {
+	if !(a.Capacity > 0) {
+		return 0
+	}
+	return a.Capacity
+}
+
+// NetBenefit returns the net benefit of flagging at p with its own score
+// as the threshold probability, and that of flagging every case at the
+// same threshold with the validation base rate base (Vickers and Elkin
+// 2006; see calibration.NetBenefit).
+func NetBenefit(p curve.Point, base float64) (cut, all float64) {
+	return calibration.NetBenefit(p, p.Score), calibration.NetBenefitAll(base, p.Score)
+}
+
+// Resample runs the bootstrap of r's rules under r's assumptions with opt
+// (package bootstrap); it does not change r. It returns ctx's error when
+// cancelled.
+func (r *Result) Resample(ctx context.Context, opt Resampling) (bootstrap.Result, error) {
+	b := bootstrap.Options{Replicates: opt.Replicates, Seed: opt.Seed, BandCuts: opt.BandCuts, Progress: opt.Progress}
+	if r.Shifts != nil {
+		b.FinderOptions = []cutrule.Option{cutrule.WithShifts(r.Shifts.Assigned, r.Shifts.Scale)}
+	}
+	res, err := bootstrap.Run(ctx, r.Set, r.Rules, r.Assume, b)
+	return res, stepError(StepResampling, err)
+}
+
+// SegmentsAt returns the breakdown by segment at point p of the curve, in
+// the order of the set's segment names; ok is false without a segment
+// column. With Options.Cursor it follows the cursor from the last point
+// asked (not safe for concurrent use); otherwise it reads the set.
+func (r *Result) SegmentsAt(p curve.Point) (b segment.Breakdown, ok bool) {
+	switch {
+	case r.Set.SegmentOf == nil:
+		return segment.Breakdown{}, false
+	case r.segments != nil:
+		return r.segments.At(p, r.Assume.Confidence), true
+	}
+	return segment.At(r.Set, p, r.Assume.Confidence), true
+}
+
+// PeaksAt returns the queues of the real shifts at point p; ok is false
+// without shifts. With Options.Cursor it follows the cursor from the last
+// point asked (not safe for concurrent use); otherwise it reads the set.
+func (r *Result) PeaksAt(p curve.Point) (peaks shift.Peaks, ok bool) {
+	switch {
+	case r.Shifts == nil:
+		return shift.Peaks{}, false
+	case r.peaks != nil:
+		return r.peaks.At(p.Rows, capacityOf(r.Assume)), true
+	}
+	return r.Shifts.Assigned.At(r.Set, p.Rows, r.Shifts.Scale, capacityOf(r.Assume)), true
+}

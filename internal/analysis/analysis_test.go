@@ -1,0 +1,352 @@
+package analysis_test
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"math"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/sill-tool/sill/internal/analysis"
+	"github.com/sill-tool/sill/internal/bootstrap"
+	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/projection"
+	"github.com/sill-tool/sill/internal/scores"
+	"github.com/sill-tool/sill/internal/shift"
+)
+
+// tolerance is the one tolerance of these tests' float comparisons.
+const tolerance = 1e-12
+
+// near reports whether got is within tolerance of want, NaN equal to NaN.
+func near(got, want float64) bool {
+	if math.IsNaN(got) || math.IsNaN(want) {
+		return math.IsNaN(got) && math.IsNaN(want)
+	}
+	return math.Abs(got-want) <= tolerance
+}
+
+// same reports whether a and b print the same, which treats NaN as equal
+// to NaN where reflect.DeepEqual does not.
+func same(a, b any) bool { return fmt.Sprintf("%+v", a) == fmt.Sprintf("%+v", b) }
+
+// table is eight cases, four true, in two groups, scored by two models,
+// at times over two days. With shifts starting 00:00 and 12:00 UTC the
+// rows fall in four shifts:
+//
+//	score  other  label  seg  time          shift
+//	0.9    0.2    1      A    day 1 01:00   0
+//	0.8    0.9    1      B    day 1 13:00   1
+//	0.8    0.3    0      A    day 1 02:00   0
+//	0.7    0.6    0      B    day 1 14:00   1
+//	0.6    0.7    1      A    day 2 01:00   2
+//	0.5    0.1    0      A    day 2 13:00   3
+//	0.4    0.8    1      B    day 2 03:00   2
+//	0.3    0.4    0      B    day 2 15:00   3
+const table = "score,other,label,seg,at\n" +
+	"0.9,0.2,1,A,2026-03-01T01:00:00Z\n" +
+	"0.8,0.9,1,B,2026-03-01T13:00:00Z\n" +
+	"0.8,0.3,0,A,2026-03-01T02:00:00Z\n" +
+	"0.7,0.6,0,B,2026-03-01T14:00:00Z\n" +
+	"0.6,0.7,1,A,2026-03-02T01:00:00Z\n" +
+	"0.5,0.1,0,A,2026-03-02T13:00:00Z\n" +
+	"0.4,0.8,1,B,2026-03-02T03:00:00Z\n" +
+	"0.3,0.4,0,B,2026-03-02T15:00:00Z\n"
+
+func read(t *testing.T, opt scores.Options) *scores.Set {
+	t.Helper()
+	opt.SegmentColumn, opt.TimeColumn, opt.TimeLocation = "seg", "at", time.UTC
+	if opt.ScoreColumn == "" {
+		opt.ScoreColumn = "score"
+	}
+	set, err := scores.Read(strings.NewReader(table), "t.csv", opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return set
+}
+
+func rules(t *testing.T, specs ...string) []cutrule.Rule {
+	t.Helper()
+	var out []cutrule.Rule
+	for _, s := range specs {
+		r, err := cutrule.Parse(s)
+		if err != nil {
+			t.Fatal(err)
+		}
+		out = append(out, r)
+	}
+	return out
+}
+
+func schedule(t *testing.T) *shift.Schedule {
+	t.Helper()
+	s, err := shift.ParseSchedule("00:00,12:00", time.UTC)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return &s
+}
+
+var validation = projection.Assumptions{BaseRate: 0.5, Confidence: 0.95}
+
+func TestStarts(t *testing.T) {
+	costs := &projection.Costs{FalseAlert: 1, Miss: 4}
+	for _, c := range []struct {
+		name   string
+		a      projection.Assumptions
+		shifts bool
+		want   string
+	}{
+		// cutrule.Defaults, then queue90 at the capacity with shifts:
+		// the rules of issue 6, common practice, no source.
+		{"plain", validation, false, "base hit=0.8 wrong=0.333"},
+		{"shifts without capacity", validation, true, "base hit=0.8 wrong=0.333"},
+		{"capacity without shifts", projection.Assumptions{BaseRate: 0.5, Volume: 10, Capacity: 3}, false, "base hit=0.8 wrong=0.333 queue=3"},
+		{"capacity and shifts", projection.Assumptions{BaseRate: 0.5, Volume: 10, Capacity: 3}, true, "base hit=0.8 wrong=0.333 queue=3 queue90=3"},
+		{"costs", projection.Assumptions{BaseRate: 0.5, Costs: costs}, true, "base hit=0.8 wrong=0.333 cost"},
+	} {
+		var got []string
+		for _, r := range analysis.Starts(c.a, c.shifts) {
+			got = append(got, r.String())
+		}
+		if strings.Join(got, " ") != c.want {
+			t.Errorf("%s: %v, want %s", c.name, got, c.want)
+		}
+	}
+}
+
+// TestRun checks every figure of the table at score=0.8 against values
+// worked out by hand from the table above.
+func TestRun(t *testing.T) {
+	set := read(t, scores.Options{})
+	a := validation
+	a.Costs = &projection.Costs{FalseAlert: 1, Miss: 4}
+	a.Capacity = 1
+	res, err := analysis.Run(context.Background(), set, a, analysis.Options{
+		Rules: rules(t, "score=0.8", "score=5"), Shifts: schedule(t), CalibrationBins: 2,
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(res.Outcomes) != 2 || !res.Outcomes[0].Met || res.Outcomes[1].Met {
+		t.Fatalf("outcomes %+v", res.Outcomes)
+	}
+	// score=0.8 flags the first three rows: two true, one false.
+	if p := res.Outcomes[0].Point; p.Rows != 3 || p.TP != 2 || p.FP != 1 {
+		t.Errorf("point %+v", p)
+	}
+	if res.Summary.Rows != 8 || res.Summary.Positives != 4 || !near(res.Summary.BaseRate, 0.5) {
+		t.Errorf("summary %+v", res.Summary)
+	}
+
+	// Segments: A holds 0.9 (true), 0.8 (false), 0.6 (true), 0.5 (false),
+	// two of them flagged, one true: recall 1/2, precision 1/2. B holds
+	// 0.8 (true) flagged of two true cases: recall 1/2, precision 1.
+	seg := res.Segments[0].Segments
+	if len(seg) != 2 || seg[0].Segment != "A" || !near(seg[0].Recall, 0.5) || !near(seg[0].Precision, 0.5) ||
+		seg[1].Segment != "B" || !near(seg[1].Recall, 0.5) || !near(seg[1].Precision, 1) {
+		t.Errorf("segments %+v", seg)
+	}
+	if len(res.Segments[1].Segments) != 0 {
+		t.Errorf("an unmet rule has a breakdown: %+v", res.Segments[1])
+	}
+
+	// Shifts: without a volume each case counts one alert. Flagged: two in
+	// shift 0, one in shift 1, none in 2 and 3. Mean 3/4; the 90th
+	// percentile by nearest rank is the ceil(3.6) = 4th of 0, 0, 1, 2;
+	// one shift of four over the capacity of 1.
+	p := res.Shifts.Peaks[0]
+	if res.Shifts.Assigned.Count != 4 || res.Shifts.Scale != (shift.Scale{Positive: 1, Negative: 1}) ||
+		!near(p.Mean, 0.75) || !near(p.P90, 2) || !near(p.Max, 2) || p.Busiest != 0 || !near(p.OverCapacity, 0.25) {
+		t.Errorf("shifts %+v, peaks %+v", res.Shifts, p)
+	}
+
+	// Calibration, two bins: [0,0.5] holds 0.5, 0.4, 0.3 (one true of
+	// three, mean 0.4), (0.5,1] the other five (three true, mean 0.76):
+	// ECE = (3*|1/3-0.4| + 5*|0.6-0.76|)/8 = 0.125.
+	cal := res.Calibration
+	if cal == nil || len(cal.Table.Bins) != 2 || !near(cal.Table.ECE, 0.125) {
+		t.Fatalf("calibration %+v", cal)
+	}
+	// Elkan 2001: 1/(1+4) = 0.2, the same on the score scale at equal
+	// base rates. The cost per case FP + 4 FN at each cut: 0.9: 12,
+	// 0.8: 9, 0.7: 10, 0.6: 6, 0.5: 7, 0.4: 3, 0.3: 4; least at 0.4.
+	if cal.Cost == nil || !near(cal.Cost.Probability, 0.2) || !near(cal.Cost.Score, 0.2) ||
+		!cal.Cost.LeastCost.Met || cal.Cost.LeastCost.Point.Score != 0.4 {
+		t.Errorf("cost threshold %+v", cal.Cost)
+	}
+	// Net benefit at 0.8 (Vickers and Elkin 2006): 2/8 - 1/8 * 0.8/0.2 =
+	// -0.25; flagging all at the same threshold: 0.5 - 0.5*4 = -1.5.
+	if !near(cal.NetBenefit[0], -0.25) || !near(cal.NetBenefitAll[0], -1.5) ||
+		!math.IsNaN(cal.NetBenefit[1]) || !math.IsNaN(cal.NetBenefitAll[1]) {
+		t.Errorf("net benefit %v, all %v", cal.NetBenefit, cal.NetBenefitAll)
+	}
+	if res.Second != nil || res.Stability != nil || res.Curve != nil {
+		t.Errorf("second %v, stability %v, curve %v: none asked for", res.Second, res.Stability, res.Curve)
+	}
+}
+
+// TestScaleToVolume: a volume of 4 cases a shift over four shifts of 2
+// cases each makes each flagged case 2 alerts (the base rates agree), so
+// the queues at score=0.8 are 4, 2, 0, 0.
+func TestScaleToVolume(t *testing.T) {
+	a := validation
+	a.Volume = 4
+	res, err := analysis.Run(context.Background(), read(t, scores.Options{}), a, analysis.Options{Rules: rules(t, "score=0.8"), Shifts: schedule(t)})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if p := res.Shifts.Peaks[0]; res.Shifts.Scale != (shift.Scale{Positive: 2, Negative: 2}) || !near(p.Mean, 1.5) || !near(p.P90, 4) {
+		t.Errorf("scale %+v, peaks %+v", res.Shifts.Scale, p)
+	}
+}
+
+// TestSecondModel: the second model's cuts are those the same rules pick
+// on the set ranked by the other score, and its summary is that set's.
+func TestSecondModel(t *testing.T) {
+	both := read(t, scores.Options{CompareColumn: "other"})
+	res, err := analysis.Run(context.Background(), both, validation, analysis.Options{Rules: rules(t, "hit=0.5", "top=2")})
+	if err != nil {
+		t.Fatal(err)
+	}
+	alone, err := analysis.Run(context.Background(), read(t, scores.Options{ScoreColumn: "other"}), validation, analysis.Options{Rules: rules(t, "hit=0.5", "top=2")})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res.Second == nil || res.Second.TestErr != nil {
+		t.Fatalf("second %+v", res.Second)
+	}
+	if !same(res.Second.Outcomes, alone.Outcomes) || !same(res.Second.Summary, alone.Summary) {
+		t.Errorf("second model\n%+v\n%+v\nwant the other score's own\n%+v\n%+v", res.Second.Outcomes, res.Second.Summary, alone.Outcomes, alone.Summary)
+	}
+	// The other score ranks true cases at 0.9, 0.8, 0.7, 0.2: hit=0.5
+	// takes the strictest cut with two of four caught, 0.8.
+	if o := res.Second.Outcomes[0]; !o.Met || o.Point.Score != 0.8 {
+		t.Errorf("hit=0.5 on the other score %+v", o)
+	}
+	// The paired AUCs (the share of true-false pairs in which the true
+	// case ranks higher, ties counting half), hand-worked. The score's
+	// true cases 0.9, 0.8, 0.6, 0.4 against 0.8, 0.7, 0.5, 0.3: 4 + 3.5
+	// + 2 + 1 = 10.5 of 16. The other's 0.9, 0.8, 0.7, 0.2 against 0.6,
+	// 0.4, 0.3, 0.1: 4 + 4 + 4 + 1 = 13 of 16.
+	if !near(res.Second.Test.AUC[0], 10.5/16) || !near(res.Second.Test.AUC[1], 13.0/16) || !near(res.Second.Test.Difference, -2.5/16) {
+		t.Errorf("paired test %+v", res.Second.Test)
+	}
+}
+
+// TestReassume: the figures under new assumptions are those Run gives
+// under them, the starting points included.
+func TestReassume(t *testing.T) {
+	set := read(t, scores.Options{CompareColumn: "other"})
+	opts := analysis.Options{Shifts: schedule(t), Cursor: true}
+	first, err := analysis.Run(context.Background(), set, validation, opts)
+	if err != nil {
+		t.Fatal(err)
+	}
+	a := projection.Assumptions{BaseRate: 0.2, Volume: 40, Capacity: 6, Confidence: 0.9, Costs: &projection.Costs{FalseAlert: 1, Miss: 9}}
+	moved, err := first.Reassume(context.Background(), a)
+	if err != nil {
+		t.Fatal(err)
+	}
+	fresh, err := analysis.Run(context.Background(), set, a, opts)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(moved.Rules) != 6 || !same(moved.Rules, fresh.Rules) || !same(moved.Outcomes, fresh.Outcomes) ||
+		!same(*moved.Shifts, *fresh.Shifts) || !same(moved.Segments, fresh.Segments) ||
+		!same(*moved.Calibration.Cost, *fresh.Calibration.Cost) || !same(moved.Calibration.NetBenefit, fresh.Calibration.NetBenefit) ||
+		!same(moved.Second.Outcomes, fresh.Second.Outcomes) {
+		t.Errorf("reassumed\n%+v\nwant\n%+v", moved, fresh)
+	}
+	if first.Assume != validation || len(first.Rules) != 3 {
+		t.Errorf("Reassume changed its receiver: %+v %v", first.Assume, first.Rules)
+	}
+}
+
+// TestCursor: the figures that follow a cursor equal those read from the
+// set at each cut.
+func TestCursor(t *testing.T) {
+	set := read(t, scores.Options{})
+	a := validation
+	a.Volume, a.Capacity = 4, 3
+	res, err := analysis.Run(context.Background(), set, a, analysis.Options{Shifts: schedule(t), Cursor: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	plain, err := analysis.Run(context.Background(), set, a, analysis.Options{Shifts: schedule(t)})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, i := range []int{3, 0, 5, 1, 5, 2} {
+		p := res.Curve.At(i)
+		s1, ok1 := res.SegmentsAt(p)
+		s2, ok2 := plain.SegmentsAt(p)
+		q1, _ := res.PeaksAt(p)
+		q2, _ := plain.PeaksAt(p)
+		if !ok1 || !ok2 || len(s1.Segments) != len(s2.Segments) || !near(s1.Segments[0].Recall, s2.Segments[0].Recall) ||
+			!near(s1.Segments[1].Precision, s2.Segments[1].Precision) || !near(q1.P90, q2.P90) || !near(q1.Mean, q2.Mean) || q1.Busiest != q2.Busiest {
+			t.Errorf("cut %d: %+v %+v, %+v %+v", i, s1, s2, q1, q2)
+		}
+	}
+}
+
+func TestResample(t *testing.T) {
+	set := read(t, scores.Options{})
+	opt := analysis.Resampling{Replicates: 20, Seed: 5, BandCuts: 3}
+	res, err := analysis.Run(context.Background(), set, validation, analysis.Options{Resampling: opt})
+	if err != nil {
+		t.Fatal(err)
+	}
+	again, err := res.Resample(context.Background(), opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	direct, err := bootstrap.Run(context.Background(), set, res.Rules, validation, bootstrap.Options{Replicates: 20, Seed: 5, BandCuts: 3})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res.Stability == nil || !same(*res.Stability, again) || !same(again, direct) {
+		t.Errorf("the same seed gives other figures:\n%+v\n%+v\n%+v", res.Stability, again, direct)
+	}
+}
+
+func TestErrors(t *testing.T) {
+	noTimes, err := scores.Read(strings.NewReader("score,label\n0.9,1\n0.1,0\n"), "n.csv", scores.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	cancelled, cancel := context.WithCancel(context.Background())
+	cancel()
+	oneClass, err := scores.Read(strings.NewReader("score,label\n0.9,1\n0.1,1\n"), "o.csv", scores.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		name string
+		ctx  context.Context
+		set  *scores.Set
+		opts analysis.Options
+		step analysis.Step
+		is   error
+	}{
+		{"no times", context.Background(), noTimes, analysis.Options{Shifts: schedule(t)}, analysis.StepShifts, shift.ErrNoTimes},
+		{"queue without volume", context.Background(), noTimes, analysis.Options{Rules: rules(t, "queue=3")}, analysis.StepRules, cutrule.ErrNeedsVolume},
+		{"queue90 without shifts", context.Background(), noTimes, analysis.Options{Rules: rules(t, "queue90=3")}, analysis.StepRules, cutrule.ErrNeedsShifts},
+		{"resampling one class", context.Background(), oneClass, analysis.Options{Resampling: analysis.Resampling{Replicates: 5}}, analysis.StepResampling, bootstrap.ErrNoClass},
+		{"cancelled", cancelled, noTimes, analysis.Options{}, "", context.Canceled},
+	} {
+		_, err := analysis.Run(c.ctx, c.set, validation, c.opts)
+		var e *analysis.Error
+		switch {
+		case !errors.Is(err, c.is):
+			t.Errorf("%s: %v, want %v", c.name, err, c.is)
+		case c.step == "" && errors.As(err, &e):
+			t.Errorf("%s: %v names a step", c.name, err)
+		case c.step != "" && (!errors.As(err, &e) || e.Step != c.step):
+			t.Errorf("%s: %v, want step %q", c.name, err, c.step)
+		}
+	}
+}
