@@ -423,8 +423,8 @@ func (r Review) notesView(at rect) string {
 		wrapped[0] = st.Label.Render(label) + strings.TrimPrefix(wrapped[0], label)
 		return wrapped
 	}
-	deploy := st.Muted.Render(fmt.Sprintf("deployment reads: flag a case when its score %s %s (%s) · file written %s by sill %s",
-		sign, report.Score(chosen.Cut.Score), chosen.Name, f.Created.UTC().Format("2006-01-02 15:04"), f.ToolVersion))
+	deploy := st.Muted.Render(fmt.Sprintf("deployment reads: flag a case when its score %s %s (%s) · file written %s by %s",
+		sign, report.Score(chosen.Cut.Score), chosen.Name, f.Created.UTC().Format("2006-01-02 15:04"), f.WrittenBy()))
 	lines := append(note("note on "+selected.Name+": ", selected.Note), note("file note: ", f.Note)...)
 	innerH := at.H - st.Pane.GetVerticalFrameSize()
 	if len(lines) >= innerH {

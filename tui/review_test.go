@@ -32,7 +32,7 @@ func reviewFile(t *testing.T, path string) *decision.File {
 	for _, o := range finder.Outcomes() {
 		candidates = append(candidates, decision.Candidate{Name: o.Rule.String(), Rule: o.Rule.String(), Cut: evidence.Of(o.Point, a)})
 	}
-	f, err := decision.New(set, a, candidates, "queue=90", "dev")
+	f, err := decision.New(set, a, candidates, "queue=90", "sill 1.2.0")
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -173,7 +173,7 @@ func runExplorer(cfg tui.Config) error {
 		renderer.SetColorProfile(termenv.Ascii)
 	}
 	styles := tui.DefaultStyles(renderer)
-	cfg.ToolVersion, cfg.Styles = versionString(), &styles
+	cfg.ToolVersion, cfg.Styles = toolVersion(), &styles
 	out := cfg.Out
 	model := tui.New(cfg)
 	final, err := tea.NewProgram(model, tea.WithAltScreen()).Run()

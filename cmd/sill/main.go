@@ -9,12 +9,6 @@ import (
 	"os"
 )
 
-// Set by the release build.
-var (
-	version = "dev"
-	commit  = ""
-)
-
 // exitError carries an exit status other than 2 for an error, or a status
 // with no message (message "").
 type exitError struct {

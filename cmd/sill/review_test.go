@@ -57,6 +57,7 @@ func savedDemo(t *testing.T, dir string) (scoresPath, cutPath string) {
 		t.Fatal(err)
 	}
 	f.Created = time.Date(2026, 9, 29, 14, 5, 0, 0, time.UTC)
+	f.ToolVersion = "sill 1.2.0" // what a release writes, whatever built the tests
 	f.Data.Path = "bearings.csv"
 	f.Candidates[2].Note = "one crew shift works it | nothing left over"
 	f.Note = "for the October review"

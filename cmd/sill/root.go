@@ -17,7 +17,7 @@ alerts per shift and cost, with their uncertainty, projected to production's
 base rate and volume.
 
 Run with no arguments to explore the built-in demo data.`,
-		Version:       versionString(),
+		Version:       toolVersion(),
 		SilenceUsage:  true,
 		SilenceErrors: true,
 		Args:          cobra.NoArgs,
@@ -30,14 +30,8 @@ Run with no arguments to explore the built-in demo data.`,
 	root.AddCommand(newCheckCmd())
 	root.AddCommand(newReviewCmd())
 	root.AddCommand(newSQLCmd())
+	root.SetVersionTemplate("{{.Version}}\n")
 	return root
-}
-
-func versionString() string {
-	if commit == "" {
-		return version
-	}
-	return version + " (" + commit + ")"
 }
 
 // argsNamed accepts exactly the arguments named, and otherwise says which

@@ -79,7 +79,7 @@ func (s *saveFlags) write(set *scores.Set, a projection.Assumptions, outcomes []
 			return fmt.Errorf("--choose %q: expected one of the saved cuts %s", s.choose, strings.Join(names, ", "))
 		}
 	}
-	f, err := decision.New(set, a, candidates, chosen, versionString())
+	f, err := decision.New(set, a, candidates, chosen, toolVersion())
 	if err != nil {
 		return fmt.Errorf("--save: %w", err)
 	}

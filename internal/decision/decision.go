@@ -19,6 +19,7 @@ package decision
 import (
 	"fmt"
 	"math"
+	"strings"
 	"time"
 
 	"github.com/sill-tool/sill/internal/evidence"
@@ -33,7 +34,7 @@ const Format = "sill-cut/1"
 type File struct {
 	Format      string    // always Format
 	Created     time.Time // when the file was made, written in RFC 3339
-	ToolVersion string
+	ToolVersion string    // the build that wrote the file, such as "sill 1.2.0"; see WrittenBy
 	Data        Data
 	Assumptions projection.Assumptions
 	Chosen      string // Name of the chosen candidate
@@ -86,6 +87,21 @@ func (f *File) BaseRateChanged() bool {
 		return true
 	}
 	return math.Abs(f.Assumptions.BaseRate-f.Data.Positives/total) > 1e-12
+}
+
+// WrittenBy names the build of sill that wrote the file, as its
+// tool_version says: "sill 1.2.0" or "sill (commit abc1234, modified)".
+// Files from earlier builds kept the bare version ("1.2.0"); it gets
+// "sill " in front. An empty tool_version reads "sill (unknown build)".
+func (f *File) WrittenBy() string {
+	switch v := f.ToolVersion; {
+	case v == "":
+		return "sill (unknown build)"
+	case v == "sill" || strings.HasPrefix(v, "sill "):
+		return v
+	default:
+		return "sill " + v
+	}
 }
 
 // New builds the File of a validation set, its assumptions and the

@@ -77,7 +77,7 @@ func oddFile() *File {
 	return &File{
 		Format:      Format,
 		Created:     time.Date(2026, 9, 14, 6, 0, 0, 0, time.UTC),
-		ToolVersion: "dev",
+		ToolVersion: "sill (commit abc1234, modified)",
 		Data: Data{Path: "nightly 2026-09.csv.gz", SHA256: "", Rows: 3, Positives: 0, Negatives: 2.5,
 			ScoreColumn: "risk", LabelColumn: "y", WeightColumn: "w", LowerIsRiskier: true,
 			Histogram: Histogram{Edges: []float64{-2.5e-300, 1e-7, 3e21}, Counts: []float64{0.5, 2}}},
@@ -180,7 +180,7 @@ func TestNewChoosesFirstAndChecks(t *testing.T) {
 	}
 	a := projection.Assumptions{BaseRate: 0.5, Confidence: 0.95}
 	cut := evidence.Cut{Score: 0.9}
-	f, err := New(set, a, []Candidate{{Name: "a", Cut: cut}, {Name: "b", Cut: cut}}, "", "dev")
+	f, err := New(set, a, []Candidate{{Name: "a", Cut: cut}, {Name: "b", Cut: cut}}, "", "sill 1.2.0")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -203,7 +203,7 @@ func TestNewChoosesFirstAndChecks(t *testing.T) {
 		{"infinite score", []Candidate{{Name: "a", Cut: evidence.Cut{Score: math.Inf(1)}}}, "", ErrNotFinite, "candidates[0].score"},
 		{"unknown chosen", []Candidate{{Name: "a", Cut: cut}}, "b", ErrUnknownChosen, "chosen"},
 	} {
-		_, err := New(set, a, tc.candidates, tc.chosen, "dev")
+		_, err := New(set, a, tc.candidates, tc.chosen, "sill 1.2.0")
 		var pe *ParseError
 		if !errors.Is(err, tc.sentinel) || !errors.As(err, &pe) || pe.Path != tc.path {
 			t.Errorf("%s: error %v, want %v at %s", tc.name, err, tc.sentinel, tc.path)
@@ -333,6 +333,24 @@ func TestWriteStandingCaution(t *testing.T) {
 		}
 		if back.Caution != evidence.Caution {
 			t.Errorf("caution %q written back as %q, want the standing caution", caution, back.Caution)
+		}
+	}
+}
+
+// TestWrittenBy checks the name of the build that wrote a file, from what
+// this build writes and from the bare versions of earlier ones.
+func TestWrittenBy(t *testing.T) {
+	for _, tc := range []struct{ toolVersion, want string }{
+		{"sill 1.2.0", "sill 1.2.0"},
+		{"sill (commit abc1234, modified)", "sill (commit abc1234, modified)"},
+		{"1.2.3", "sill 1.2.3"}, // files of earlier builds
+		{"dev", "sill dev"},     // as earlier builds from a checkout wrote it
+		{"", "sill (unknown build)"},
+		{"sillier 2", "sill sillier 2"}, // only "sill" as a word counts as the name
+	} {
+		f := &File{ToolVersion: tc.toolVersion}
+		if got := f.WrittenBy(); got != tc.want {
+			t.Errorf("WrittenBy of tool_version %q = %q, want %q", tc.toolVersion, got, tc.want)
 		}
 	}
 }

@@ -65,7 +65,7 @@ func facts(f *decision.File) [][2]string {
 		{"columns", columns},
 		{"assumptions", strings.Join(assume, " · ")},
 		{"chosen", fmt.Sprintf("%s: flag a case when its score %s %s", chosen.Name, sign, report.Score(chosen.Cut.Score))},
-		{"written", f.Created.UTC().Format("2006-01-02 15:04 MST") + " by sill " + f.ToolVersion},
+		{"written", f.Created.UTC().Format("2006-01-02 15:04 MST") + " by " + f.WrittenBy()},
 	}
 }
 
