@@ -68,6 +68,12 @@ func hint(b key.Binding, name, what string) key.Binding {
 	return b
 }
 
+// pairedHelp is a line of the help for two keys that do opposite things,
+// such as a page up and down.
+func pairedHelp(keys, what string) key.Binding {
+	return key.NewBinding(key.WithKeys(keys), key.WithHelp(keys, what))
+}
+
 // fitStatus cuts a status line to width cells, marking the cut with …; it
 // keeps at least a few words when the room is smaller than that.
 func fitStatus(status string, width int) string {

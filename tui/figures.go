@@ -100,11 +100,26 @@ func (p figuresPane) startKeys() []key.Binding {
 	return out
 }
 
-// ShortHelp lists the pane's keys.
-func (p figuresPane) ShortHelp() []key.Binding { return p.startKeys() }
+// ShortHelp lists the keys of the starting points as one, "1-5 starts";
+// none before they are found.
+func (p figuresPane) ShortHelp() []key.Binding {
+	n := len(p.s.starts)
+	if n == 0 {
+		return nil
+	}
+	return []key.Binding{key.NewBinding(key.WithKeys("1"), key.WithHelp("1-"+keyName(n-1), "starts"))}
+}
 
-// FullHelp lists the pane's keys in groups.
-func (p figuresPane) FullHelp() [][]key.Binding { return [][]key.Binding{p.startKeys()} }
+// FullHelp lists the keys of the starting points the assumptions give.
+func (p figuresPane) FullHelp() [][]key.Binding {
+	var out []key.Binding
+	for _, b := range p.startKeys() {
+		if b.Enabled() {
+			out = append(out, b)
+		}
+	}
+	return [][]key.Binding{out}
+}
 
 // View draws the figures.
 func (p figuresPane) View() string {

@@ -153,10 +153,14 @@ func (k *KeyMap) enableExplorer(s *session, stripFocused bool) {
 }
 
 // enableReview turns on the keys the review screen takes, whatever the
-// explorer's rules left them.
+// explorer's rules left them, and turns off the strip's keys that change
+// the candidates, which the review screen never does.
 func (k *KeyMap) enableReview() {
 	for _, b := range []*key.Binding{&k.Left, &k.Right, &k.Choose, &k.Write, &k.Help, &k.Quit} {
 		b.SetEnabled(true)
+	}
+	for _, b := range []*key.Binding{&k.Jump, &k.Remove, &k.MoveLeft, &k.MoveRight, &k.Rename} {
+		b.SetEnabled(false)
 	}
 }
 

@@ -81,15 +81,18 @@ func (p listPane) Update(msg tea.Msg) (listPane, tea.Cmd) {
 	return p, nil
 }
 
-// ShortHelp lists the pane's most used keys.
+// ShortHelp lists the pane's most used keys, in a few words each.
 func (p listPane) ShortHelp() []key.Binding {
-	return []key.Binding{p.ctx.keys.Up, p.ctx.keys.Down, p.ctx.keys.Pin}
+	return []key.Binding{hint(p.ctx.keys.Up, "", "stricter"), hint(p.ctx.keys.Down, "", "looser")}
 }
 
-// FullHelp lists every key of the pane, in groups.
+// FullHelp lists every key of the pane, in groups; the keys that come in
+// pairs share a line.
 func (p listPane) FullHelp() [][]key.Binding {
 	k := p.ctx.keys
-	return [][]key.Binding{{k.Up, k.Down, k.PageUp, k.PageDown, k.Top, k.Bottom}}
+	return [][]key.Binding{{k.Up, k.Down,
+		pairedHelp("pgup/pgdn", "a page stricter/looser"),
+		pairedHelp("home/end", "strictest/loosest (g/G)")}}
 }
 
 // View draws the pane at its size.

@@ -20,7 +20,6 @@ import (
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/lipgloss"
-	"github.com/charmbracelet/x/ansi"
 
 	"github.com/sill-tool/sill/internal/calibration"
 	"github.com/sill-tool/sill/internal/decision"
@@ -329,56 +328,6 @@ func (m Model) key(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 	return m, nil
 }
 
-// stripFocusedKey handles the keys of the comparison strip.
-func (m Model) stripFocusedKey(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
-	k, s := m.ctx.keys, m.s
-	for _, b := range []key.Binding{k.Remove, k.MoveLeft, k.MoveRight, k.Choose} {
-		if key.Matches(msg, b) {
-			m.unwritten = true
-		}
-	}
-	switch {
-	case key.Matches(msg, k.Jump):
-		s.cursor = s.pins[s.selected].cut
-		m.list.follow()
-	case key.Matches(msg, k.Remove):
-		name, wasChosen := s.pins[s.selected].name, s.selected == s.reference
-		s.removeSelected()
-		m.status = fmt.Sprintf("unpinned %q", name)
-		if wasChosen && len(s.pins) > 0 {
-			m.status += fmt.Sprintf("; %q is the chosen cut now", s.pins[s.reference].name)
-		}
-		if len(s.pins) == 0 {
-			m.focus = focusList
-		}
-	case key.Matches(msg, k.MoveLeft):
-		s.moveSelected(-1)
-	case key.Matches(msg, k.MoveRight):
-		s.moveSelected(1)
-	case key.Matches(msg, k.Choose):
-		s.reference = s.selected
-		m.status = fmt.Sprintf("%q is the chosen cut; the others are compared with it", s.pins[s.selected].name)
-	case key.Matches(msg, k.Rename):
-		m.push(newRenamePane(m.ctx, s.pins[s.selected].name))
-	default:
-		m.strip.SetSelected(s.selected)
-		m.strip, _ = m.strip.Update(msg)
-		if m.strip.Selected() != s.selected {
-			// Selecting a candidate puts the cursor on its cut.
-			s.selected = m.strip.Selected()
-			s.cursor = s.pins[s.selected].cut
-			m.list.follow()
-			break
-		}
-		// The list keys still move the cursor while the strip has the keys.
-		m.list, _ = m.list.Update(msg)
-		m.figures, _ = m.figures.Update(msg)
-		m.list.follow()
-	}
-	m.refresh()
-	return m, nil
-}
-
 func (m *Model) push(o overlay[*Model]) { m.overlays = push(m.overlays, o) }
 
 // applyAssumptions takes a as the assumptions: every figure and pin is
@@ -487,53 +436,4 @@ func (m Model) View() string {
 		frame = drawOver(frame, top.View(), w, h)
 	}
 	return fit(frame, w, h)
-}
-
-// header is the top line: the data's name on the left, its size and
-// ranking figures on the right, which keep their room first.
-func (m Model) header() string {
-	s := m.s
-	sum := s.curve.Summary
-	right := fmt.Sprintf("%d rows · %s true (%s) · ROC AUC %s", sum.Rows,
-		report.Count(sum.Positives), report.Percent(sum.BaseRate), report.Fixed(sum.ROCAUC, 3))
-	if s.set.Weighted() { // a counts table's weights are whole cases, not weights
-		right += " · weighted"
-	}
-	return statusBar{m.ctx}.header("sill · "+s.set.Source, right, min(ansi.StringWidth(right), m.ctx.width*3/4))
-}
-
-// footer is the bottom line: what just happened, whether the pins on
-// screen are written, then the keys that matter most here, in a few words
-// each.
-func (m Model) footer() string {
-	st, k := m.ctx.styles, m.ctx.keys
-	var hints []key.Binding
-	if m.focus == focusStrip {
-		hints = append(hints, hint(k.Left, "←→", "select"), hint(k.Jump, "", "go to"), hint(k.Choose, "", "choose"),
-			hint(k.Rename, "", "rename"), hint(k.Remove, "", "unpin"), hint(k.Focus, "", "list"))
-	} else {
-		hints = append(hints, hint(k.Up, "", "stricter"), hint(k.Down, "", "looser"))
-		if n := len(m.s.starts); n > 0 {
-			hints = append(hints, key.NewBinding(key.WithKeys("1"), key.WithHelp("1-"+keyName(n-1), "starts")))
-		}
-		hints = append(hints, hint(k.Pin, "", "pin"))
-		if len(m.s.pins) > 0 {
-			hints = append(hints, hint(k.Focus, "", "strip"))
-		}
-	}
-	hints = append(hints, hint(k.Write, "", "write"), hint(k.Assumptions, "", "assumptions"))
-	if m.focus == focusList {
-		// Shown where the line has room after the keys that matter most.
-		hints = append(hints, hint(k.Segments, "", "segments"), hint(k.Stability, "", "stability"),
-			hint(k.Calibration, "", "calibration"), hint(k.Models, "", "two models"))
-	}
-	mark := ""
-	switch {
-	case m.unwritten && len(m.s.pins) > 0:
-		mark = st.Warning.Render("not written") + st.Footer.Render(" · ")
-	case m.written != "" && m.status == "":
-		// Whether the pins on screen are the file's, at a glance.
-		mark = st.Muted.Render("written: "+m.written) + st.Footer.Render(" · ")
-	}
-	return statusBar{m.ctx}.footer(m.status, mark, hints, []key.Binding{hint(k.Help, "", "all keys"), hint(k.Quit, "", "quit")})
 }

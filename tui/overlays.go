@@ -15,43 +15,6 @@ import (
 	"github.com/sill-tool/sill/internal/report"
 )
 
-// helpGroup is one titled group of keys in the help.
-type helpGroup struct {
-	title    string
-	bindings []key.Binding
-}
-
-// helpGroups gathers every key, grouped, from the panes and the root. The
-// strip's keys are listed even when the strip does not have the keys, so
-// that they can be found. Keys that come in pairs (a page up and down,
-// the previous and next candidate) share a line, so that the help fits an
-// 80×22 terminal.
-func (m Model) helpGroups() []helpGroup {
-	k := DefaultKeyMap()
-	cur := m.ctx.keys
-	var starts []key.Binding
-	for _, b := range []key.Binding{cur.BaseRate, cur.Hit, cur.Wrong, cur.Capacity, cur.LeastCost, cur.Peak} {
-		if b.Enabled() {
-			starts = append(starts, b)
-		}
-	}
-	pair := func(keys, what string) key.Binding {
-		return key.NewBinding(key.WithKeys(keys), key.WithHelp(keys, what))
-	}
-	screen := []key.Binding{k.CurveView}
-	screen = append(screen, m.beyondKeys()...)
-	screen = append(screen, k.Assumptions, k.Write, k.Help, k.Quit, k.Interrupt)
-	return []helpGroup{
-		{"move the cut", []key.Binding{cur.Up, cur.Down,
-			pair("pgup/pgdn", "a page stricter/looser"),
-			pair("home/end", "strictest/loosest (g/G)")}},
-		{"starting points", starts},
-		{"candidates", []key.Binding{k.Pin, k.Focus, pair("←/h →/l", "previous/next candidate"), k.Jump, k.Choose, k.Rename, k.Remove,
-			pair("< >", "move candidate left/right")}},
-		{"screen, views and file", screen},
-	}
-}
-
 // helpView draws every key of groups in two columns, in a box.
 func helpView(ctx *shared, groups []helpGroup) string {
 	st := ctx.styles

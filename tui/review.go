@@ -442,17 +442,31 @@ func (r Review) notesView(at rect) string {
 // used first.
 func (r Review) footer() string {
 	k := r.keys
-	hints := []key.Binding{hint(k.Left, "←→", "select"), hint(k.Choose, "", "choose"), hint(k.Write, "", "write"),
-		hint(k.Note, "", "note"), hint(k.FileNote, "", "file note")}
+	hints := append(r.strip.ShortHelp(), r.ShortHelp()...)
 	return statusBar{r.ctx}.footer(r.status, "", hints, []key.Binding{hint(k.Help, "", "all keys"), hint(k.Quit, "", "quit")})
+}
+
+// ShortHelp lists the screen's own keys beside the strip's, in a few words
+// each, for the footer.
+func (r Review) ShortHelp() []key.Binding {
+	k := r.keys
+	return []key.Binding{hint(k.Write, "", "write"), hint(k.Note, "", "note"), hint(k.FileNote, "", "file note")}
+}
+
+// FullHelp lists every key of the screen, for the help.
+func (r Review) FullHelp() [][]key.Binding {
+	k := r.keys
+	return [][]key.Binding{{k.Left, k.Right, k.Choose, k.Note, k.FileNote, k.Write, k.Help, k.Quit}}
 }
 
 // helpView draws every key of the screen in a box.
 func (r Review) helpView() string {
-	st, k := r.ctx.styles, r.keys
+	st := r.ctx.styles
 	var lines []string
-	for _, b := range []key.Binding{k.Left, k.Right, k.Choose, k.Note, k.FileNote, k.Write, k.Help, k.Quit} {
-		lines = append(lines, st.Key.Render(pad(b.Help().Key, 6, false))+"  "+b.Help().Desc)
+	for _, group := range r.FullHelp() {
+		for _, b := range group {
+			lines = append(lines, st.Key.Render(pad(b.Help().Key, 6, false))+"  "+b.Help().Desc)
+		}
 	}
 	lines = append(lines, "", st.Muted.Render("the figures are the file's evidence and do not change;"),
 		st.Muted.Render("only the choice and the notes are written back"), st.Muted.Render("? or esc closes"),

@@ -87,15 +87,20 @@ func (s Strip) Update(msg tea.Msg) (Strip, tea.Cmd) {
 	return s, nil
 }
 
-// ShortHelp lists the strip's most used keys.
+// ShortHelp lists the strip's most used keys, in a few words each.
 func (s Strip) ShortHelp() []key.Binding {
-	return []key.Binding{s.keys.Left, s.keys.Right, s.keys.Jump, s.keys.Choose}
+	k := s.keys
+	return []key.Binding{hint(k.Left, "←→", "select"), hint(k.Jump, "", "go to"), hint(k.Choose, "", "choose"),
+		hint(k.Rename, "", "rename"), hint(k.Remove, "", "unpin")}
 }
 
-// FullHelp lists every strip key.
+// FullHelp lists every strip key, turned off or not, so that the help
+// shows them before anything is pinned; the keys that come in pairs share
+// a line.
 func (s Strip) FullHelp() [][]key.Binding {
 	k := s.keys
-	return [][]key.Binding{{k.Left, k.Right, k.Jump, k.Choose, k.Rename, k.Remove, k.MoveLeft, k.MoveRight}}
+	return [][]key.Binding{{pairedHelp("←/h →/l", "previous/next candidate"), k.Jump, k.Choose, k.Rename, k.Remove,
+		pairedHelp("< >", "move candidate left/right")}}
 }
 
 // View draws the strip at its size; focused draws the frame that shows it
