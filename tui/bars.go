@@ -1,10 +1,12 @@
 package tui
 
 import (
+	"fmt"
 	"strings"
 
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/lipgloss"
 	"github.com/charmbracelet/x/ansi"
 )
 
@@ -107,4 +109,41 @@ func splitKeys(screen tea.Model, msg tea.KeyMsg) (tea.Model, tea.Cmd, bool) {
 		return screen, tea.Batch(cmds...), true
 	}
 	return screen, nil, false
+}
+
+// tooSmallNotice is what the screen called name shows on a width×height
+// terminal below its minimum size minW×minH: what it needs, what it has
+// and how to leave, in the longest form whose lines all fit, centred, at
+// exactly width×height.
+func tooSmallNotice(name string, minW, minH, width, height int) string {
+	forms := [][]string{
+		{fmt.Sprintf("%s needs a terminal of at least %d×%d;", name, minW, minH),
+			fmt.Sprintf("this one is %d×%d.", width, height), "Enlarge it, or press q to quit."},
+		wrapWords(fmt.Sprintf("%s needs a terminal of at least %d×%d; this one is %d×%d. Enlarge it, or press q to quit.",
+			name, minW, minH, width, height), width),
+		wrapWords(fmt.Sprintf("needs %d×%d, has %d×%d; q quits", minW, minH, width, height), width),
+		wrapWords(fmt.Sprintf("needs %d×%d; q quits", minW, minH), width),
+		{fmt.Sprintf("needs %d×%d", minW, minH)},
+	}
+	lines := forms[len(forms)-1]
+	for _, form := range forms {
+		if fitsIn(form, width, height) {
+			lines = form
+			break
+		}
+	}
+	return fit(lipgloss.Place(width, height, lipgloss.Center, lipgloss.Center, strings.Join(lines, "\n")), width, height)
+}
+
+// fitsIn reports whether lines fit in width columns and height lines.
+func fitsIn(lines []string, width, height int) bool {
+	if len(lines) > height {
+		return false
+	}
+	for _, l := range lines {
+		if ansi.StringWidth(l) > width {
+			return false
+		}
+	}
+	return true
 }

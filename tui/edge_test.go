@@ -2,6 +2,7 @@ package tui
 
 import (
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
 
@@ -145,5 +146,29 @@ func TestFiguresSayWhatIsMissing(t *testing.T) {
 				}
 			}
 		})
+	}
+}
+
+// TestTooSmallNoticeFits draws both screens below their minimum size, from
+// 20 to 50 columns and 1 to 12 lines: the notice fills the terminal
+// exactly, is never cut short (no …), names the size needed and says how
+// to quit.
+func TestTooSmallNoticeFits(t *testing.T) {
+	quitKey := regexp.MustCompile(`(^|\s)q(\s|$)`)
+	m := loaded(t, tenRows(t), tenAssumptions, filepath.Join(t.TempDir(), "cut.yaml"), 100, 30)
+	r, _ := newTestReview(t, 120, 32)
+	for width := 20; width <= 50; width++ {
+		for height := 1; height <= 12; height++ {
+			m = send(m, tea.WindowSizeMsg{Width: width, Height: height})
+			r, _ = sendReview(t, r, tea.WindowSizeMsg{Width: width, Height: height})
+			for _, screen := range []struct {
+				name, frame, needs string
+			}{{"explorer", m.View(), "80×22"}, {"review", r.View(), "60×16"}} {
+				checkSize(t, screen.frame, width, height)
+				if strings.Contains(screen.frame, "…") || !strings.Contains(screen.frame, screen.needs) || !quitKey.MatchString(screen.frame) {
+					t.Errorf("%s at %d×%d: the notice is cut or does not say what it needs and how to quit:\n%s", screen.name, width, height, screen.frame)
+				}
+			}
+		}
 	}
 }

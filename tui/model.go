@@ -401,8 +401,7 @@ func (m Model) View() string {
 	}
 	l := m.screen()
 	if l.tooSmall {
-		notice := fmt.Sprintf("sill needs a terminal of at least %d×%d;\nthis one is %d×%d.\nEnlarge it, or press q to quit.", minWidth, minHeight, w, h)
-		return fit(lipgloss.Place(w, h, lipgloss.Center, lipgloss.Center, notice), w, h)
+		return tooSmallNotice("sill", minWidth, minHeight, w, h)
 	}
 	if m.loading || m.s.curve == nil {
 		text := fmt.Sprintf("reading scores… %d rows so far", m.rowsRead.Load())

@@ -7,7 +7,6 @@ import (
 
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
-	"github.com/charmbracelet/lipgloss"
 	"github.com/charmbracelet/x/ansi"
 
 	"github.com/sill-tool/sill/internal/compare"
@@ -365,8 +364,7 @@ func (r Review) View() string {
 	}
 	l := r.screen()
 	if l.tooSmall {
-		notice := fmt.Sprintf("sill review needs a terminal of at least %d×%d;\nthis one is %d×%d.\nEnlarge it, or press q to quit.", reviewMinWidth, reviewMinHeight, w, h)
-		return lipgloss.Place(w, h, lipgloss.Center, lipgloss.Center, notice)
+		return tooSmallNotice("sill review", reviewMinWidth, reviewMinHeight, w, h)
 	}
 	frame := strings.Join([]string{r.header(w), r.strip.View(true), r.notesView(l.notes), r.footer()}, "\n")
 	if n := len(r.overlays); n > 0 {
