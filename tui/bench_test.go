@@ -8,6 +8,7 @@ import (
 	"testing"
 	"time"
 
+	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/scores"
 )
 
@@ -72,7 +73,7 @@ func BenchmarkKeystroke(b *testing.B) {
 // figures (the breakdown by segment follows the same way).
 func BenchmarkKeystrokeJump(b *testing.B) {
 	set := millionRowsBeyond(b)
-	m := loadedWith(b, Config{Load: func(func(int)) (*scores.Set, error) { return set, nil }, Assume: demoAssumptions, Shifts: threeShifts(b)}, 120, 40)
+	m := loadedWith(b, Config{Load: func(func(int)) (*scores.Set, error) { return set, nil }, Assume: demoAssumptions, Analysis: analysis.Options{Shifts: threeShifts(b)}}, 120, 40)
 	m = keys(m, "2")
 	m.View()
 	top, bottom := keyMsg("g"), keyMsg("G")
@@ -91,7 +92,7 @@ func BenchmarkKeystrokeJump(b *testing.B) {
 func benchmarkKeystroke(b *testing.B, set *scores.Set, open []string) {
 	var m Model
 	if set.Times != nil {
-		m = loadedWith(b, Config{Load: func(func(int)) (*scores.Set, error) { return set, nil }, Assume: demoAssumptions, Shifts: threeShifts(b)}, 120, 40)
+		m = loadedWith(b, Config{Load: func(func(int)) (*scores.Set, error) { return set, nil }, Assume: demoAssumptions, Analysis: analysis.Options{Shifts: threeShifts(b)}}, 120, 40)
 	} else {
 		m = loaded(b, set, demoAssumptions, filepath.Join(b.TempDir(), "cut.yaml"), 120, 40)
 	}

@@ -1,18 +1,14 @@
 package tui
 
 import (
-	"fmt"
 	"math"
 	"strconv"
 
+	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/bootstrap"
-	"github.com/sill-tool/sill/internal/calibration"
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
-	"github.com/sill-tool/sill/internal/modelpair"
-	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/report"
-	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/segment"
 	"github.com/sill-tool/sill/internal/shift"
 )
@@ -20,26 +16,23 @@ import (
 // beyond is the part of the session that looks past the averages: the
 // breakdown by segment, the queues of the real shifts, how far the cuts
 // move when the set is drawn again, whether the scores read as
-// probabilities, and a second model of the same cases. Each part is nil or
-// empty when the data does not allow it.
+// probabilities, and a second model of the same cases. The figures come
+// from the session's analysis result; beyond caches the last ones asked
+// for and holds the bootstrap run on demand.
 type beyond struct {
-	extras // computed once the set is loaded
-
 	// segmentsAt caches the last breakdown by segment.
 	segmentsAt struct {
 		cut        int
 		confidence float64
-		ok         bool
+		res        *analysis.Result
 		breakdown  segment.Breakdown
 	}
 
-	// peaks follows the shift queues as the cursor moves; peaksAt caches
-	// the last.
-	peaks   *shift.Running
+	// peaksAt caches the last shift queues.
 	peaksAt struct {
 		cut      int
 		capacity float64
-		ok       bool
+		res      *analysis.Result
 		peaks    shift.Peaks
 	}
 
@@ -49,128 +42,58 @@ type beyond struct {
 	resampling resampling
 }
 
-// extras is what loading computes for beyond, once.
-type extras struct {
-	// segments follows the breakdown by group as the cursor moves; nil
-	// without a segment column.
-	segments *segment.Running
-
-	// assigned places every ranked row in a shift of the validation
-	// period; nil without case times and a shift schedule. scale turns a
-	// flagged case into alerts of a production shift under the
-	// assumptions.
-	assigned *shift.Assignment
-	scale    shift.Scale
-
-	// reliability is the reliability table; nil when the scores are not
-	// probabilities.
-	reliability *calibration.Table
-
-	// second is the second model's own ranked set with its curve and
-	// starting points; nil without a second score column. pair is DeLong's
-	// paired test of the two, pairErr why it has no figures.
-	second         *scores.Set
-	secondCurve    *curve.Curve
-	secondAssigned *shift.Assignment
-	secondStarts   []cutrule.Outcome
-	pair           modelpair.Test
-	pairErr        error
+// use takes res as the session's figures.
+func (s *session) use(res *analysis.Result) {
+	s.res = res
+	s.set, s.curve, s.starts = res.Set, res.Curve, res.Outcomes
 }
 
-// loadExtras computes the figures beyond the averages that a loaded set
-// allows: segments with a segment column, shifts with case times and a
-// schedule, the reliability table for probabilities, and a second model's
-// ranking with a second score column.
-func loadExtras(cfg Config, set *scores.Set, c *curve.Curve, a projection.Assumptions) (extras, error) {
-	var x extras
-	if set.SegmentOf != nil {
-		x.segments = segment.NewRunning(set)
+// shifts returns the rows placed in shifts; nil without shifts.
+func (s *session) shifts() *analysis.Shifts {
+	if s.res == nil {
+		return nil
 	}
-	if cfg.Shifts != nil && set.Times != nil {
-		assigned, err := shift.Assign(set, *cfg.Shifts)
-		if err != nil {
-			return x, fmt.Errorf("%s: shifts: %w", set.Source, err)
-		}
-		x.assigned = &assigned
-		x.scale = shift.ScaleFor(set, assigned, a)
-	}
-	if calibration.Probabilities(set) {
-		bins := cfg.CalibrationBins
-		if bins == 0 {
-			bins = 10
-		}
-		table, err := calibration.Reliability(set, bins, cfg.CalibrationBinning)
-		if err != nil {
-			return x, fmt.Errorf("calibration: %w", err)
-		}
-		x.reliability = &table
-	}
-	if set.CompareScores != nil {
-		second, err := modelpair.Second(set)
-		if err != nil {
-			return x, err
-		}
-		x.second, x.secondCurve = second, curve.New(second)
-		x.pair, x.pairErr = modelpair.Compare(set)
-		if x.assigned != nil {
-			assigned, err := shift.Assign(second, *cfg.Shifts)
-			if err != nil {
-				return x, fmt.Errorf("%s: shifts of the second model: %w", set.Source, err)
-			}
-			x.secondAssigned = &assigned
-		}
-		starts, _, err := findStarts(x.secondCurve, a, x.secondAssigned)
-		if err != nil {
-			return x, err
-		}
-		x.secondStarts = starts
-	}
-	return x, nil
+	return s.res.Shifts
 }
 
-// apply puts the loaded extras into the session.
-func (b *beyond) apply(set *scores.Set, x extras) {
-	b.extras = x
-	b.segmentsAt.ok = false
-	b.peaks, b.peaksAt.ok = nil, false
-	if x.assigned != nil {
-		b.peaks = shift.NewRunning(set, *x.assigned, x.scale)
+// calibration returns the reliability table and what follows from it; nil
+// when the scores are not probabilities.
+func (s *session) calibration() *analysis.Calibration {
+	if s.res == nil {
+		return nil
 	}
-	b.stability = nil
+	return s.res.Calibration
 }
 
-// findStarts finds the starting points on c under a: cutrule.Defaults and,
-// with shifts and a capacity, queue90 at the capacity. It returns the
-// scale of the shift queues under a as well.
-func findStarts(c *curve.Curve, a projection.Assumptions, assigned *shift.Assignment) ([]cutrule.Outcome, shift.Scale, error) {
-	rules := cutrule.Defaults(a)
-	scale := shift.Scale{Positive: 1, Negative: 1}
-	var opts []cutrule.Option
-	if assigned != nil {
-		scale = shift.ScaleFor(c.Set, *assigned, a)
-		opts = append(opts, cutrule.WithShifts(*assigned, scale))
-		if a.Capacity > 0 {
-			rules = append(rules, cutrule.Rule{Kind: cutrule.Queue90, Value: a.Capacity})
-		}
+// second returns the second model; nil without one.
+func (s *session) second() *analysis.Second {
+	if s.res == nil {
+		return nil
 	}
-	f, err := cutrule.NewFinder(rules, c.Set, a, opts...)
-	if err != nil {
-		return nil, scale, err
-	}
-	c.Points(f.Visit)
-	return f.Outcomes(), scale, nil
+	return s.res.Second
 }
+
+// secondCurve returns the second model's curve; nil without one.
+func (s *session) secondCurve() *curve.Curve {
+	if second := s.second(); second != nil {
+		return second.Curve
+	}
+	return nil
+}
+
+// hasSegments reports whether the set has a segment column.
+func (s *session) hasSegments() bool { return s.set != nil && s.set.SegmentOf != nil }
 
 // breakdownAt returns the breakdown by segment at cut i, in the order of
 // the set's segment names; ok is false without a segment column.
 func (s *session) breakdownAt(i int) (segment.Breakdown, bool) {
-	if s.segments == nil {
+	if !s.hasSegments() {
 		return segment.Breakdown{}, false
 	}
 	c := &s.segmentsAt
-	if !c.ok || c.cut != i || c.confidence != s.assume.Confidence {
-		c.breakdown = s.segments.At(s.curve.At(i), s.assume.Confidence)
-		c.cut, c.confidence, c.ok = i, s.assume.Confidence, true
+	if c.res != s.res || c.cut != i || c.confidence != s.assume.Confidence {
+		c.breakdown, _ = s.res.SegmentsAt(s.curve.At(i), s.assume.Confidence)
+		c.cut, c.confidence, c.res = i, s.assume.Confidence, s.res
 	}
 	return c.breakdown, true
 }
@@ -178,33 +101,23 @@ func (s *session) breakdownAt(i int) (segment.Breakdown, bool) {
 // peaksAtCut returns the queues of the real shifts at cut i; ok is false
 // without shifts.
 func (s *session) peaksAtCut(i int) (shift.Peaks, bool) {
-	if s.peaks == nil {
+	if s.shifts() == nil {
 		return shift.Peaks{}, false
 	}
 	c := &s.peaksAt
-	if !c.ok || c.cut != i || c.capacity != s.assume.Capacity {
-		c.peaks = s.peaks.At(s.curve.At(i).Rows, s.assume.Capacity)
-		c.cut, c.capacity, c.ok = i, s.assume.Capacity, true
+	if c.res != s.res || c.cut != i || c.capacity != s.assume.Capacity {
+		c.peaks, _ = s.res.PeaksAt(s.curve.At(i), s.assume.Capacity)
+		c.cut, c.capacity, c.res = i, s.assume.Capacity, s.res
 	}
 	return c.peaks, true
 }
 
-// setScale takes the shift queues' scale under new assumptions and peaks,
-// the queues at that scale (made when the scale changed).
-func (s *session) setScale(scale shift.Scale, peaks *shift.Running) {
-	if s.assigned == nil || scale == s.scale || peaks == nil {
-		return
-	}
-	s.scale, s.peaks = scale, peaks
-	s.peaksAt.ok = false
-}
-
 // busiest names shift i of the period by its local start.
 func (s *session) busiest(i int) string {
-	if s.assigned == nil || i < 0 {
+	if s.shifts() == nil || i < 0 {
 		return "n/a"
 	}
-	return s.assigned.Start(i).Format("Mon 02 Jan 15:04")
+	return s.shifts().Assigned.Start(i).Format("Mon 02 Jan 15:04")
 }
 
 // spreadAt returns the bootstrap spread of the first starting point that
@@ -251,15 +164,16 @@ func (s *session) costSpread() (bootstrap.Spread, bool) {
 // secondAtWorkload returns the second model's point that flags as many
 // rows as cut i of the first, or the nearest stricter one.
 func (s *session) secondAtWorkload(i int) (curve.Point, bool) {
-	if s.secondCurve == nil || s.secondCurve.Len() == 0 {
+	other := s.secondCurve()
+	if other == nil || other.Len() == 0 {
 		return curve.Point{}, false
 	}
 	rows := s.curve.At(i).Rows
-	j := s.secondCurve.CutOfRow(max(rows-1, 0))
-	if p := s.secondCurve.At(j); p.Rows > rows && j > 0 {
+	j := other.CutOfRow(max(rows-1, 0))
+	if p := other.At(j); p.Rows > rows && j > 0 {
 		j--
 	}
-	return s.secondCurve.At(j), true
+	return other.At(j), true
 }
 
 // ruleWords names a rule's cut in plain words, for sentences such as "the

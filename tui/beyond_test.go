@@ -12,6 +12,7 @@ import (
 
 	tea "github.com/charmbracelet/bubbletea"
 
+	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/demo"
 	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/shift"
@@ -60,7 +61,7 @@ func demoBeyond(t testing.TB, width, height int) Model {
 	t.Helper()
 	set := demoTimedSet(t)
 	return loadedWith(t, Config{Load: func(func(int)) (*scores.Set, error) { return set, nil }, Assume: demoAssumptions,
-		Shifts: threeShifts(t), Replicates: 100, Seed: 1}, width, height)
+		Analysis: analysis.Options{Shifts: threeShifts(t), Resampling: analysis.Resampling{Replicates: 100, Seed: 1}}}, width, height)
 }
 
 // resample presses the stability key and runs the bootstrap it starts to
@@ -182,9 +183,9 @@ func TestBeyondView(t *testing.T) {
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
 			set := tc.set
-			cfg := Config{Load: func(func(int)) (*scores.Set, error) { return set, nil }, Assume: demoAssumptions, Replicates: 100, Seed: 1}
+			cfg := Config{Load: func(func(int)) (*scores.Set, error) { return set, nil }, Assume: demoAssumptions, Analysis: analysis.Options{Resampling: analysis.Resampling{Replicates: 100, Seed: 1}}}
 			if set.Times != nil {
-				cfg.Shifts = threeShifts(t)
+				cfg.Analysis.Shifts = threeShifts(t)
 			}
 			if set == scaled {
 				cfg.Assume = tenAssumptions

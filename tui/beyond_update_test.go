@@ -12,6 +12,7 @@ import (
 	"github.com/charmbracelet/x/ansi"
 	"github.com/muesli/termenv"
 
+	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/projection"
@@ -115,9 +116,10 @@ func TestShiftPeaks(t *testing.T) {
 	// 28 days of three shifts from 2026-09-01 00:00 UTC (the demo's doc),
 	// and the shift from 22:00 the evening before, which holds the first
 	// night's readings: 85.
-	if m.s.assigned == nil || m.s.assigned.Count != 85 {
-		t.Fatalf("assigned %v shifts", m.s.assigned != nil && m.s.assigned.Count == 85)
+	if m.s.shifts() == nil || m.s.shifts().Assigned.Count != 85 {
+		t.Fatalf("assigned %v shifts", m.s.shifts() != nil && m.s.shifts().Assigned.Count == 85)
 	}
+	assigned := m.s.shifts().Assigned
 	last := m.s.starts[len(m.s.starts)-1]
 	if last.Rule != (cutrule.Rule{Kind: cutrule.Queue90, Value: 90}) || !last.Met || !m.ctx.keys.Peak.Enabled() {
 		t.Fatalf("last starting point %v met %v, key enabled %v", last.Rule, last.Met, m.ctx.keys.Peak.Enabled())
@@ -126,8 +128,8 @@ func TestShiftPeaks(t *testing.T) {
 	if m.s.cursor != last.Point.Index {
 		t.Fatalf("6: cursor %d, want %d", m.s.cursor, last.Point.Index)
 	}
-	scale := shift.ScaleFor(m.s.set, *m.s.assigned, m.s.assume)
-	at := func(cut int) shift.Peaks { return m.s.assigned.At(m.s.set, m.s.curve.At(cut).Rows, scale, 90) }
+	scale := shift.ScaleFor(m.s.set, assigned, m.s.assume)
+	at := func(cut int) shift.Peaks { return assigned.At(m.s.set, m.s.curve.At(cut).Rows, scale, 90) }
 	got, _ := m.s.peaksAtCut(m.s.cursor)
 	want := at(m.s.cursor)
 	if !near(got.P90, want.P90) || !near(got.Max, want.Max) || got.Busiest != want.Busiest || !near(got.OverCapacity, want.OverCapacity) {
@@ -256,10 +258,11 @@ func TestCalibrationOverlay(t *testing.T) {
 func TestTwoModels(t *testing.T) {
 	set := twoModels(t)
 	m := loadedWith(t, Config{Load: func(func(int)) (*scores.Set, error) { return set, nil }, Assume: demoAssumptions}, 100, 30)
-	if m.s.second == nil || len(m.s.secondStarts) != len(m.s.starts) || !m.ctx.keys.Models.Enabled() {
-		t.Fatalf("second %v, starts %d and %d", m.s.second != nil, len(m.s.secondStarts), len(m.s.starts))
+	second := m.s.second()
+	if second == nil || len(second.Outcomes) != len(m.s.starts) || !m.ctx.keys.Models.Enabled() {
+		t.Fatalf("second %v, starts %d", second != nil, len(m.s.starts))
 	}
-	for i, o := range m.s.secondStarts {
+	for i, o := range second.Outcomes {
 		if o.Rule != m.s.starts[i].Rule {
 			t.Errorf("second model's rule %d is %v, want %v", i, o.Rule, m.s.starts[i].Rule)
 		}
@@ -267,8 +270,8 @@ func TestTwoModels(t *testing.T) {
 			t.Errorf("second model at hit=0.8 has recall %v", o.Point.Recall())
 		}
 	}
-	if m.s.pairErr != nil || !(m.s.pair.AUC[0] > m.s.pair.AUC[1]) { // the second is the noisier reading
-		t.Errorf("paired test %+v, %v", m.s.pair, m.s.pairErr)
+	if second.TestErr != nil || !(second.Test.AUC[0] > second.Test.AUC[1]) { // the second is the noisier reading
+		t.Errorf("paired test %+v, %v", second.Test, second.TestErr)
 	}
 	if title := m.chart.title(); !strings.Contains(title, "─") || !strings.Contains(title, "+++") {
 		t.Errorf("chart title %q does not name both models' marks", title)
@@ -298,7 +301,7 @@ func TestChartTitleMarks(t *testing.T) {
 func TestFlowResample(t *testing.T) {
 	set := demoTimedSet(t)
 	tm := startProgram(t, Config{Load: func(func(int)) (*scores.Set, error) { return set, nil }, Assume: demoAssumptions,
-		Out: filepath.Join(t.TempDir(), "cut.yaml"), Shifts: threeShifts(t), Replicates: 60, Seed: 9}, 100, 30)
+		Out: filepath.Join(t.TempDir(), "cut.yaml"), Analysis: analysis.Options{Shifts: threeShifts(t), Resampling: analysis.Resampling{Replicates: 60, Seed: 9}}}, 100, 30)
 	tm.Type("2b")
 	waitText(t, tm, "resampled 60 times")
 	tm.Type("q")
@@ -319,7 +322,7 @@ func TestBeyondColour(t *testing.T) {
 	styles := DefaultStyles(r)
 	set := demoTimedSet(t)
 	m := loadedWith(t, Config{Load: func(func(int)) (*scores.Set, error) { return set, nil }, Assume: demoAssumptions,
-		Shifts: threeShifts(t), Replicates: 40, Seed: 1, Styles: &styles}, 100, 30)
+		Analysis: analysis.Options{Shifts: threeShifts(t), Resampling: analysis.Resampling{Replicates: 40, Seed: 1}}, Styles: &styles}, 100, 30)
 	m = resample(t, m)
 	for _, step := range [][]string{nil, {"s"}, {"o", "esc", "e"}, {"esc", "6"}} {
 		m = keys(m, step...)
@@ -385,7 +388,7 @@ func TestOddSetsBeyond(t *testing.T) {
 		t.Run(name, func(t *testing.T) {
 			for _, size := range [][2]int{{80, 24}, {80, 22}, {130, 40}} {
 				m := loadedWith(t, Config{Load: func(func(int)) (*scores.Set, error) { return set, nil }, Assume: assume,
-					Shifts: threeShifts(t), Replicates: 20, Seed: 1}, size[0], size[1])
+					Analysis: analysis.Options{Shifts: threeShifts(t), Resampling: analysis.Resampling{Replicates: 20, Seed: 1}}}, size[0], size[1])
 				m = resample(t, m)
 				if m.s.stability == nil && !strings.HasPrefix(m.status, "resampling: ") {
 					t.Errorf("no bootstrap and no reason: %q", m.status)

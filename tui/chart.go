@@ -88,7 +88,7 @@ func (p curvePane) FullHelp() [][]key.Binding { return [][]key.Binding{{p.ctx.ke
 // border is taken.
 func (p curvePane) title() string {
 	room := p.width - 6
-	second := p.s.secondCurve != nil
+	second := p.s.secondCurve() != nil
 	band := p.s.stability != nil && p.view != viewROC
 	if p.view == viewROC {
 		titles := []string{"ROC: hit share ─ by false positive rate", "ROC: hit share ─"}
@@ -130,7 +130,7 @@ func (p *curvePane) View() string {
 	if p.s.curve == nil || p.s.curve.Len() == 0 || innerW < 12 || innerH < 2 {
 		return framed(st.Pane, st.PaneEdge, st.Title, p.title(), "", p.width, p.height)
 	}
-	key := chartKey{p.s.curve, p.width, p.height, p.view, p.s.stability, p.s.secondCurve}
+	key := chartKey{p.s.curve, p.width, p.height, p.view, p.s.stability, p.s.secondCurve()}
 	if key != p.cacheKey {
 		p.draw(innerW, innerH-1)
 		p.cacheKey = key
@@ -277,7 +277,7 @@ func (p *curvePane) draw(innerW, lines int) {
 		p.xMax = min(1, max(0.1, 4*c.Summary.BaseRate))
 	}
 	first, second := make([]float64, width), make([]float64, width)
-	other := p.s.secondCurve
+	other := p.s.secondCurve()
 	var otherHit, otherWrong []float64
 	if other != nil {
 		otherHit, otherWrong = make([]float64, width), make([]float64, width)

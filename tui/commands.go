@@ -1,18 +1,17 @@
 package tui
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"time"
 
 	tea "github.com/charmbracelet/bubbletea"
 
-	"github.com/sill-tool/sill/internal/curve"
-	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
-	"github.com/sill-tool/sill/internal/shift"
 )
 
 // The explorer's slow work (loading, the starting points under new
@@ -21,23 +20,15 @@ import (
 type (
 	// loadTickMsg asks the loading screen to show the rows read so far.
 	loadTickMsg struct{}
-	// scoresLoadedMsg carries the loaded set, its curve and assumptions.
-	scoresLoadedMsg struct {
-		set    *scores.Set
-		curve  *curve.Curve
-		assume projection.Assumptions
-		starts []cutrule.Outcome
-		extras extras
-	}
-	// startsFoundMsg carries the starting points under new assumptions,
-	// the second model's too, and the shift queues' scale.
+	// scoresLoadedMsg carries the loaded set's figures under the
+	// starting assumptions.
+	scoresLoadedMsg struct{ res *analysis.Result }
+	// startsFoundMsg carries the figures under new assumptions: the
+	// starting points, the second model's and the shift queues' scale.
 	startsFoundMsg struct {
-		assume       projection.Assumptions
-		starts       []cutrule.Outcome
-		secondStarts []cutrule.Outcome
-		scale        shift.Scale
-		peaks        *shift.Running // the shift queues at scale; nil without shifts or when the scale is unchanged
-		err          error
+		assume projection.Assumptions
+		res    *analysis.Result
+		err    error
 	}
 	// loadFailedMsg says the scores could not be loaded: the explorer shows
 	// nothing more and quits.
@@ -56,10 +47,11 @@ func tickCmd() tea.Cmd {
 	return tea.Tick(100*time.Millisecond, func(time.Time) tea.Msg { return loadTickMsg{} })
 }
 
-// loadCmd reads the scores, computes the curve once and finds the
-// starting points.
+// loadCmd reads the scores and computes their figures under the starting
+// assumptions; the bootstrap waits for the b key.
 func (m Model) loadCmd() tea.Cmd {
-	cfg, load, assume, counter, done := m.cfg, m.cfg.Load, m.cfg.Assume, m.rowsRead, m.readDone
+	opts, load, assume, counter, done := m.cfg.Analysis, m.cfg.Load, m.cfg.Assume, m.rowsRead, m.readDone
+	opts.Rules, opts.Cursor, opts.Resampling = nil, true, analysis.Resampling{}
 	return func() tea.Msg {
 		set, err := load(func(rows int) { counter.Store(int64(rows)) })
 		if err != nil {
@@ -77,36 +69,37 @@ func (m Model) loadCmd() tea.Cmd {
 		if err != nil {
 			return loadFailedMsg{err}
 		}
-		c := curve.New(set)
-		x, err := loadExtras(cfg, set, c, a)
+		res, err := analysis.Run(context.Background(), set, a, opts)
 		if err != nil {
-			return loadFailedMsg{err}
+			return loadFailedMsg{analysisError(set, err)}
 		}
-		starts, _, err := findStarts(c, a, x.assigned)
-		if err != nil {
-			return loadFailedMsg{err}
-		}
-		return scoresLoadedMsg{set: set, curve: c, assume: a, starts: starts, extras: x}
+		return scoresLoadedMsg{res: res}
 	}
 }
 
-// findStartsCmd finds the starting points under new assumptions.
+// analysisError words an error of package analysis for the screen.
+func analysisError(set *scores.Set, err error) error {
+	var e *analysis.Error
+	switch {
+	case !errors.As(err, &e):
+		return err
+	case e.Step == analysis.StepShifts:
+		return fmt.Errorf("%s: %w", set.Source, err)
+	case e.Step == analysis.StepRules || e.Step == analysis.StepSecond || e.Step == analysis.StepResampling:
+		return e.Err
+	}
+	return err
+}
+
+// findStartsCmd computes the figures under new assumptions.
 func (m Model) findStartsCmd(a projection.Assumptions) tea.Cmd {
-	c, assigned, oldScale := m.s.curve, m.s.assigned, m.s.scale
-	second, secondAssigned := m.s.secondCurve, m.s.secondAssigned
+	res := m.s.res
 	return func() tea.Msg {
-		starts, scale, err := findStarts(c, a, assigned)
+		next, err := res.Reassume(context.Background(), a)
 		if err != nil {
-			return startsFoundMsg{assume: a, err: err}
+			return startsFoundMsg{assume: a, err: analysisError(res.Set, err)}
 		}
-		msg := startsFoundMsg{assume: a, starts: starts, scale: scale}
-		if assigned != nil && scale != oldScale {
-			msg.peaks = shift.NewRunning(c.Set, *assigned, scale) // a pass over the set, off the screen's loop
-		}
-		if second != nil {
-			msg.secondStarts, _, msg.err = findStarts(second, a, secondAssigned)
-		}
-		return msg
+		return startsFoundMsg{assume: a, res: next}
 	}
 }
 

@@ -10,8 +10,8 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/x/ansi"
 
+	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/bootstrap"
-	"github.com/sill-tool/sill/internal/calibration"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/projection"
@@ -37,13 +37,13 @@ func (p figuresPane) lines() int {
 	if s.curve == nil {
 		return n
 	}
-	if s.assigned != nil && s.assume.Volume > 0 {
+	if s.shifts() != nil && s.assume.Volume > 0 {
 		n++
 	}
-	if s.reliability != nil {
+	if s.calibration() != nil {
 		n++
 	}
-	if s.second != nil {
+	if s.second() != nil {
 		n++
 	}
 	if s.resampling.running || s.stability != nil {
@@ -211,13 +211,13 @@ func (p figuresPane) body() string {
 	default:
 		lines = append(lines, st.Muted.Render(longestFit(width, "cost per shift: needs costs (a to set them)", "cost per shift: needs costs (a)")))
 	}
-	if s.reliability != nil {
+	if s.calibration() != nil {
 		point := s.point()
-		head := st.Label.Render("net benefit") + " " + st.Figure.Render(report.Fixed(calibration.NetBenefit(point, point.Score), 4)) + " "
-		all := report.Fixed(calibration.NetBenefitAll(s.curve.Summary.BaseRate, point.Score), 4)
-		lines = append(lines, head+st.Muted.Render(longestFit(width-ansi.StringWidth(head), "a case · flag all "+all, "· flag all "+all)))
+		cut, all := analysis.NetBenefit(point, s.curve.Summary.BaseRate)
+		head := st.Label.Render("net benefit") + " " + st.Figure.Render(report.Fixed(cut, 4)) + " "
+		lines = append(lines, head+st.Muted.Render(longestFit(width-ansi.StringWidth(head), "a case · flag all "+report.Fixed(all, 4), "· flag all "+report.Fixed(all, 4))))
 	}
-	if s.second != nil {
+	if s.second() != nil {
 		lines = append(lines, p.secondLine())
 	}
 	add("%s", st.Muted.Render(fmt.Sprintf("validation TP %s FP %s FN %s TN %s",

@@ -140,9 +140,9 @@ func (k *KeyMap) enableExplorer(s *session, stripFocused bool) {
 		}
 	}
 	if s.set != nil {
-		k.Segments.SetEnabled(s.segments != nil)
-		k.SegmentOrder.SetEnabled(s.segments != nil)
-		k.Models.SetEnabled(s.second != nil)
+		k.Segments.SetEnabled(s.hasSegments())
+		k.SegmentOrder.SetEnabled(s.hasSegments())
+		k.Models.SetEnabled(s.second() != nil)
 		k.Stability.SetEnabled(true)
 		k.Calibration.SetEnabled(true)
 	}

@@ -21,13 +21,12 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/lipgloss"
 
-	"github.com/sill-tool/sill/internal/calibration"
+	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/report"
 	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/segment"
-	"github.com/sill-tool/sill/internal/shift"
 )
 
 // Config is what the explorer needs from the command line.
@@ -45,18 +44,13 @@ type Config struct {
 	Styles *Styles
 	Keys   *KeyMap
 
-	// Shifts is the crew shift schedule. With it and case times in the
-	// set, the queue figure shows the real shifts of the validation period
-	// and queue90 at the capacity is a starting point.
-	Shifts *shift.Schedule
-	// Replicates and Seed are the bootstrap's, run on demand; 0
-	// replicates means 200.
-	Replicates int
-	Seed       uint64
-	// CalibrationBins and CalibrationBinning shape the reliability table;
-	// 0 bins means 10.
-	CalibrationBins    int
-	CalibrationBinning calibration.Binning
+	// Analysis says what loading computes beyond the averages (package
+	// analysis): with a shift schedule and case times in the set, the
+	// queue figure shows the real shifts of the validation period and
+	// queue90 at the capacity is a starting point. Its Resampling is the
+	// bootstrap the b key runs (Replicates 0: none); its Rules are
+	// ignored, since the explorer works from the starting points.
+	Analysis analysis.Options
 	// SegmentOrder is the first order of the segments overlay.
 	SegmentOrder segment.Order
 }
@@ -187,16 +181,16 @@ func (m Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		return m, tea.Quit
 	case scoresLoadedMsg:
 		m.loading = false
-		m.s.set, m.s.curve, m.s.assume, m.s.starts = msg.set, msg.curve, msg.assume, msg.starts
-		m.s.beyond.apply(msg.set, msg.extras)
+		m.s.use(msg.res)
+		m.s.assume, m.s.stability = msg.res.Assume, nil
 		m.s.cursor = 0
-		for _, o := range msg.starts {
+		for _, o := range m.s.starts {
 			if o.Met {
 				m.s.cursor = o.Point.Index
 				break
 			}
 		}
-		if warnings := report.Warnings(msg.set, msg.curve.Summary); len(warnings) > 0 {
+		if warnings := report.Warnings(m.s.set, m.s.curve.Summary); len(warnings) > 0 {
 			m.status = "warning: " + strings.Join(warnings, "; ")
 		}
 		m.refresh()
@@ -209,8 +203,7 @@ func (m Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 			m.status = "assumptions: " + msg.err.Error()
 			return m, nil
 		}
-		m.s.starts, m.s.secondStarts = msg.starts, msg.secondStarts
-		m.s.setScale(msg.scale, msg.peaks)
+		m.s.use(msg.res)
 		m.refresh()
 		return m, nil
 	case resampleTickMsg, resampledMsg:

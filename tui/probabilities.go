@@ -9,6 +9,7 @@ import (
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
 
+	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/bootstrap"
 	"github.com/sill-tool/sill/internal/calibration"
 	"github.com/sill-tool/sill/internal/cutrule"
@@ -49,14 +50,15 @@ func (p *calibrationPane) ShortHelp() []key.Binding {
 // View draws the overlay.
 func (p *calibrationPane) View() string {
 	s, st := p.s, p.ctx.styles
-	t := s.reliability
-	if t == nil {
+	cal := s.calibration()
+	if cal == nil {
 		lines := wrapWords("The scores are not probabilities: they need to lie in [0,1] with higher scores riskier. "+
 			"So there is no reliability table, no cost threshold from probabilities and no net benefit; "+
 			"the least-cost cut (a starting point, with costs) does not need them.", 64)
 		lines = append(lines, "", st.Muted.Render("e or esc closes"))
 		return overlayBox(p.ctx, "are the scores probabilities?", strings.Join(lines, "\n"))
 	}
+	t := cal.Table
 	binning := "of equal width"
 	if t.Binning == calibration.Quantile {
 		binning = "of about equal rows"
@@ -74,9 +76,9 @@ func (p *calibrationPane) View() string {
 		st.Muted.Render(" (the gaps, weighted by cases)"))
 	lines = append(lines, p.costLines()...)
 	point := s.point()
-	lines = append(lines, st.Label.Render("net benefit here")+" "+st.Figure.Render(report.Fixed(calibration.NetBenefit(point, point.Score), 4))+
-		st.Muted.Render(" a case at threshold "+report.Score(point.Score)+" · flag all "+
-			report.Fixed(calibration.NetBenefitAll(s.curve.Summary.BaseRate, point.Score), 4)+" · none 0"))
+	cut, all := analysis.NetBenefit(point, s.curve.Summary.BaseRate)
+	lines = append(lines, st.Label.Render("net benefit here")+" "+st.Figure.Render(report.Fixed(cut, 4))+
+		st.Muted.Render(" a case at threshold "+report.Score(point.Score)+" · flag all "+report.Fixed(all, 4)+" · none 0"))
 	lines = append(lines, st.Muted.Render("↑↓ move the cut · e or esc closes"))
 	return overlayBox(p.ctx, "are the scores probabilities? · "+strconv.Itoa(len(t.Bins))+" bins "+binning, strings.Join(lines, "\n"))
 }
@@ -134,16 +136,13 @@ type costCheck struct {
 // costCheck compares the cost threshold with the least-cost cut; ok is
 // false without costs or when the scores are not probabilities.
 func (s *session) costCheck() (costCheck, bool) {
-	a := s.assume
-	if a.Costs == nil || s.reliability == nil {
+	cal := s.calibration()
+	if cal == nil || cal.Cost == nil {
 		return costCheck{}, false
 	}
-	c := costCheck{probability: calibration.CostThreshold(*a.Costs)}
-	c.threshold = calibration.ShiftThreshold(c.probability, s.curve.Summary.BaseRate, a.BaseRate)
-	for i, o := range s.starts {
-		if o.Rule.Kind == cutrule.Cost && o.Met {
-			c.least = &s.starts[i]
-		}
+	c := costCheck{probability: cal.Cost.Probability, threshold: cal.Cost.Score}
+	if cal.Cost.LeastCost.Met {
+		c.least = &cal.Cost.LeastCost
 	}
 	c.spread, c.judged = s.costSpread()
 	c.judged = c.judged && c.least != nil && evidence.Defined(c.threshold) && evidence.Defined(c.spread.Score[0])
@@ -183,19 +182,20 @@ func (p *modelsPane) ShortHelp() []key.Binding { return []key.Binding{p.ctx.keys
 // View draws the overlay.
 func (p *modelsPane) View() string {
 	s, st := p.s, p.ctx.styles
-	if s.second == nil {
+	second := s.second()
+	if second == nil {
 		return overlayBox(p.ctx, "two models", "no second model: give --score twice, or --compare FILE with --id\n"+st.Muted.Render("m or esc closes"))
 	}
 	a := s.assume
 	lines := []string{
 		fmt.Sprintf("A %s: ROC AUC %s   B %s: ROC AUC %s", s.set.ScoreColumn, report.Fixed(s.curve.Summary.ROCAUC, 3),
-			s.set.CompareColumn, report.Fixed(s.secondCurve.Summary.ROCAUC, 3)),
+			s.set.CompareColumn, report.Fixed(second.Summary.ROCAUC, 3)),
 	}
-	if s.pairErr != nil {
-		lines = append(lines, st.Muted.Render("paired test: "+s.pairErr.Error()))
+	if second.TestErr != nil {
+		lines = append(lines, st.Muted.Render("paired test: "+second.TestErr.Error()))
 	} else {
 		lines = append(lines, st.Muted.Render(fmt.Sprintf("A − B %s (SE %s), z %s, p %s: DeLong's paired test",
-			signed(s.pair.Difference, 3), report.Fixed(s.pair.StdError, 3), report.Fixed(s.pair.Z, 2), pValue(s.pair.P))))
+			signed(second.Test.Difference, 3), report.Fixed(second.Test.StdError, 3), report.Fixed(second.Test.Z, 2), pValue(second.Test.P))))
 	}
 	head := pad("starting point", 16, false) + pad("", 2, false) + pad("cut", 8, true) + pad("flagged", 9, true) + pad("hit", 8, true) +
 		pad("wrong", 8, true) + pad("queue", 8, true) + pad("cost", 10, true)
@@ -220,8 +220,8 @@ func (p *modelsPane) View() string {
 			name = "▶ " + name
 		}
 		lines = append(lines, row(name, "A", o.Met, evidence.Of(o.Point, a)))
-		if i < len(s.secondStarts) {
-			b := s.secondStarts[i]
+		if i < len(second.Outcomes) {
+			b := second.Outcomes[i]
 			lines = append(lines, row("", "B", b.Met, evidence.Of(b.Point, a)))
 		}
 	}

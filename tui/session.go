@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"strconv"
 
+	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/compare"
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
@@ -16,6 +17,11 @@ import (
 // cursor's cut and the pinned candidates. The root model owns it and the
 // panes hold a pointer to it.
 type session struct {
+	// res is every figure of the set under the assumptions it was
+	// computed with (package analysis); set, curve and starts are its
+	// own. assume runs ahead of res.Assume while the figures under new
+	// assumptions are computed in the background.
+	res    *analysis.Result
 	set    *scores.Set
 	curve  *curve.Curve
 	assume projection.Assumptions
@@ -24,8 +30,8 @@ type session struct {
 	// strictest cut).
 	cursor int
 
-	// starts are the starting points (cutrule.Defaults) under assume, in
-	// the order of the keys 1 to 5.
+	// starts are the starting points (analysis.Starts) under res.Assume,
+	// in the order of the keys 1 to 6.
 	starts []cutrule.Outcome
 
 	pins      []pin

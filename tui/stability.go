@@ -11,13 +11,7 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 
 	"github.com/sill-tool/sill/internal/bootstrap"
-	"github.com/sill-tool/sill/internal/cutrule"
 )
-
-// defaultReplicates is the bootstrap's size when Config gives none: enough
-// for the 5th and 95th percentiles to settle to about a point, quick on
-// the demo.
-const defaultReplicates = 200
 
 // bandCuts is how many cuts, spread over the ranked rows, carry the band.
 const bandCuts = 120
@@ -66,30 +60,25 @@ func (m Model) resampleKey() (tea.Model, tea.Cmd) {
 		m.status = fmt.Sprintf("resampled already: %d sets, seed %d (the same seed gives the same figures; --bootstrap and --seed change them)", res.Replicates, res.Seed)
 		return m, nil
 	}
-	replicates := m.cfg.Replicates
+	opt := m.cfg.Analysis.Resampling
+	replicates := opt.Replicates
 	if replicates <= 0 {
-		replicates = defaultReplicates
+		m.status = "resampling is off (--bootstrap 0)"
+		return m, nil
 	}
-	rules := make([]cutrule.Rule, len(m.s.starts))
-	for i, o := range m.s.starts {
-		rules[i] = o.Rule
-	}
-	opt := bootstrap.Options{Replicates: replicates, Seed: m.cfg.Seed, BandCuts: bandCuts}
-	if m.s.assigned != nil {
-		opt.FinderOptions = []cutrule.Option{cutrule.WithShifts(*m.s.assigned, m.s.scale)}
-	}
+	opt.BandCuts = bandCuts
 	ctx, cancel := context.WithCancel(context.Background())
 	r.run++
 	r.running, r.total, r.cancel = true, replicates, cancel
 	r.done.Store(0)
 	done, run := r.done, r.run
 	opt.Progress = func(n int) { done.Store(int64(n)) }
-	set, a := m.s.set, m.s.assume
+	res := m.s.res
 	m.status = fmt.Sprintf("resampling the set %d times on every core; b stops", replicates)
 	m.resize()
 	work := func() tea.Msg {
-		res, err := bootstrap.Run(ctx, set, rules, a, opt)
-		return resampledMsg{run: run, result: res, err: err}
+		stability, err := res.Resample(ctx, opt)
+		return resampledMsg{run: run, result: stability, err: analysisError(res.Set, err)}
 	}
 	return m, tea.Batch(work, resampleTick(run))
 }

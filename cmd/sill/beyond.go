@@ -10,7 +10,6 @@ import (
 	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/calibration"
 	"github.com/sill-tool/sill/internal/modelpair"
-	"github.com/sill-tool/sill/internal/report"
 	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/segment"
 	"github.com/sill-tool/sill/internal/shift"
@@ -160,7 +159,7 @@ func (f *beyondFlags) options() (analysis.Options, error) {
 	}
 	opts := analysis.Options{
 		CalibrationBins: f.calibrationBins,
-		Resampling:      analysis.Resampling{Replicates: f.replicates, Seed: f.seed, BandCuts: report.BandCuts},
+		Resampling:      analysis.Resampling{Replicates: f.replicates, Seed: f.seed},
 	}
 	binning, err := calibration.ParseBinning(f.calibrationBinning)
 	if err != nil {

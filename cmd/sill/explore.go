@@ -11,11 +11,8 @@ import (
 	"github.com/spf13/cobra"
 	"github.com/spf13/pflag"
 
-	"github.com/sill-tool/sill/internal/calibration"
 	"github.com/sill-tool/sill/internal/demo"
 	"github.com/sill-tool/sill/internal/scores"
-	"github.com/sill-tool/sill/internal/segment"
-	"github.com/sill-tool/sill/internal/shift"
 	"github.com/sill-tool/sill/tui"
 )
 
@@ -33,41 +30,26 @@ func (o *exploreOptions) registerBeyond(fs *pflag.FlagSet) {
 	f := &o.beyond
 	fs.StringVar(&f.segmentOrder, "segment-order", "size", "first order of the segments overlay (s): size, gap or name")
 	fs.IntVar(&f.calibrationBins, "calibration-bins", 10, "bins of the reliability table (e; scores in [0,1] only)")
-	fs.IntVar(&f.replicates, "bootstrap", 0, "resampled sets when b asks how stable the cuts are (0: 200)")
+	fs.IntVar(&f.replicates, "bootstrap", 200, "resampled sets when b asks how stable the cuts are (0: off)")
 	fs.Uint64Var(&f.seed, "seed", 1, "seed of the resampling; the same seed gives the same figures")
 	f.registerShared(fs)
 }
 
 // config returns the explorer's settings from the flags, checked.
 func (o *exploreOptions) config() (tui.Config, error) {
-	f := &o.beyond
-	if err := f.check(); err != nil {
+	opts, err := o.beyond.options()
+	if err != nil {
 		return tui.Config{}, err
 	}
-	cfg := tui.Config{Replicates: f.replicates, Seed: f.seed, CalibrationBins: f.calibrationBins}
-	var err error
-	if cfg.SegmentOrder, err = segment.ParseOrder(f.segmentOrder); err != nil {
-		return cfg, valueFlagError("--segment-order", err)
-	}
-	if cfg.CalibrationBinning, err = calibration.ParseBinning(f.calibrationBinning); err != nil {
-		return cfg, valueFlagError("--calibration-binning", err)
-	}
-	if f.shifts != "" {
-		sched, err := shift.ParseSchedule(f.shifts, f.location)
-		if err != nil {
-			return cfg, fmt.Errorf("--shifts: %w", err)
-		}
-		cfg.Shifts = &sched
-	}
-	return cfg, nil
+	return tui.Config{Analysis: opts, SegmentOrder: o.beyond.order()}, nil
 }
 
 // load reads the scores at path and, with --compare, joins the second
 // model's file to them.
 func (o *exploreOptions) load(path string, progress func(int)) (*scores.Set, error) {
 	set, err := o.input.load(path, nil, progress)
-	if err != nil || o.beyond.compareFile == "" {
-		return set, err
+	if err != nil {
+		return nil, err
 	}
 	return o.beyond.loadCompare(set)
 }

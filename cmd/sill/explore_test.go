@@ -48,8 +48,14 @@ func TestDemoConfig(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if cfg.Shifts == nil || cfg.Shifts.String() != "06:00,14:00,22:00" || cfg.Out != "cut.yaml" {
-		t.Fatalf("shifts %v, out %q", cfg.Shifts, cfg.Out)
+	shifts := cfg.Analysis.Shifts
+	if shifts == nil || shifts.String() != "06:00,14:00,22:00" || cfg.Out != "cut.yaml" {
+		t.Fatalf("shifts %v, out %q", shifts, cfg.Out)
+	}
+	// --bootstrap 0 means none, in explore as in report; the b key
+	// resamples 200 times unless told otherwise.
+	if r := cfg.Analysis.Resampling; r.Replicates != 200 || r.Seed != 1 {
+		t.Errorf("resampling %+v, want 200 sets, seed 1", r)
 	}
 	set, err := cfg.Load(nil)
 	if err != nil {

@@ -105,6 +105,7 @@ func (o *reportOptions) run(ctx context.Context, set *scores.Set, stdout, stderr
 	if err != nil {
 		return err
 	}
+	opts.Resampling.BandCuts = report.BandCuts
 	if o.format == "csv" {
 		opts.Resampling = analysis.Resampling{} // the curve alone
 	}

@@ -429,29 +429,35 @@ func (r *Result) Resample(ctx context.Context, opt Resampling) (bootstrap.Result
 	return res, stepError(StepResampling, err)
 }
 
-// SegmentsAt returns the breakdown by segment at point p of the curve, in
-// the order of the set's segment names; ok is false without a segment
-// column. With Options.Cursor it follows the cursor from the last point
-// asked (not safe for concurrent use); otherwise it reads the set.
-func (r *Result) SegmentsAt(p curve.Point) (b segment.Breakdown, ok bool) {
+// SegmentsAt returns the breakdown by segment at point p of the curve, with
+// intervals at confidence, in the order of the set's segment names; ok is
+// false without a segment column. With Options.Cursor it follows the
+// cursor from the last point asked (not safe for concurrent use);
+// otherwise it reads the set. The confidence is given, not taken from
+// r.Assume, so that a screen can show a new level at once.
+func (r *Result) SegmentsAt(p curve.Point, confidence float64) (b segment.Breakdown, ok bool) {
 	switch {
 	case r.Set.SegmentOf == nil:
 		return segment.Breakdown{}, false
 	case r.segments != nil:
-		return r.segments.At(p, r.Assume.Confidence), true
+		return r.segments.At(p, confidence), true
 	}
-	return segment.At(r.Set, p, r.Assume.Confidence), true
+	return segment.At(r.Set, p, confidence), true
 }
 
-// PeaksAt returns the queues of the real shifts at point p; ok is false
-// without shifts. With Options.Cursor it follows the cursor from the last
-// point asked (not safe for concurrent use); otherwise it reads the set.
-func (r *Result) PeaksAt(p curve.Point) (peaks shift.Peaks, ok bool) {
+// PeaksAt returns the queues of the real shifts at point p at r's scale,
+// held against capacity (0 or less: none); ok is false without shifts.
+// With Options.Cursor it follows the cursor from the last point asked
+// (not safe for concurrent use); otherwise it reads the set.
+func (r *Result) PeaksAt(p curve.Point, capacity float64) (peaks shift.Peaks, ok bool) {
+	if !(capacity > 0) {
+		capacity = 0
+	}
 	switch {
 	case r.Shifts == nil:
 		return shift.Peaks{}, false
 	case r.peaks != nil:
-		return r.peaks.At(p.Rows, capacityOf(r.Assume)), true
+		return r.peaks.At(p.Rows, capacity), true
 	}
-	return r.Shifts.Assigned.At(r.Set, p.Rows, r.Shifts.Scale, capacityOf(r.Assume)), true
+	return r.Shifts.Assigned.At(r.Set, p.Rows, r.Shifts.Scale, capacity), true
 }

@@ -282,10 +282,10 @@ func TestCursor(t *testing.T) {
 	}
 	for _, i := range []int{3, 0, 5, 1, 5, 2} {
 		p := res.Curve.At(i)
-		s1, ok1 := res.SegmentsAt(p)
-		s2, ok2 := plain.SegmentsAt(p)
-		q1, _ := res.PeaksAt(p)
-		q2, _ := plain.PeaksAt(p)
+		s1, ok1 := res.SegmentsAt(p, 0.9)
+		s2, ok2 := plain.SegmentsAt(p, 0.9)
+		q1, _ := res.PeaksAt(p, 3)
+		q2, _ := plain.PeaksAt(p, 3)
 		if !ok1 || !ok2 || len(s1.Segments) != len(s2.Segments) || !near(s1.Segments[0].Recall, s2.Segments[0].Recall) ||
 			!near(s1.Segments[1].Precision, s2.Segments[1].Precision) || !near(q1.P90, q2.P90) || !near(q1.Mean, q2.Mean) || q1.Busiest != q2.Busiest {
 			t.Errorf("cut %d: %+v %+v, %+v %+v", i, s1, s2, q1, q2)
