@@ -5,7 +5,9 @@ import (
 	"regexp"
 	"strings"
 	"testing"
+	"unicode"
 
+	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
 
 	"github.com/sill-tool/sill/internal/projection"
@@ -170,5 +172,57 @@ func TestTooSmallNoticeFits(t *testing.T) {
 				}
 			}
 		}
+	}
+}
+
+// TestFooterOffersNoSwallowedKey opens every box with a text field (the
+// assumptions form, renaming, a note on the review screen): the footer
+// offers no key that the field would take as typed text (q, ?, a letter),
+// and every key it offers does what it says there.
+func TestFooterOffersNoSwallowedKey(t *testing.T) {
+	printable := func(b key.Binding) bool {
+		for _, k := range b.Keys() {
+			if r := []rune(k); len(r) == 1 && unicode.IsPrint(r[0]) {
+				return true
+			}
+		}
+		return false
+	}
+	m := loaded(t, tenRows(t), tenAssumptions, filepath.Join(t.TempDir(), "cut.yaml"), 100, 30)
+	form := keys(m, "a")
+	rename := keys(m, "p", "tab", "r")
+	r, _ := newTestReview(t, 120, 32)
+	note, _ := sendReview(t, r, keyPress("n"))
+	for _, tc := range []struct {
+		name   string
+		footer string
+		hints  []key.Binding
+	}{
+		{"assumptions form", form.footer(), form.overlays[len(form.overlays)-1].ShortHelp()},
+		{"rename box", rename.footer(), rename.overlays[len(rename.overlays)-1].ShortHelp()},
+		{"note box", note.footer(), note.overlays[len(note.overlays)-1].ShortHelp()},
+	} {
+		for _, b := range tc.hints {
+			if printable(b) {
+				t.Errorf("%s: the footer offers %q, which the field takes as text", tc.name, b.Help().Key)
+			}
+		}
+		if strings.Contains(tc.footer, "q quit") || strings.Contains(tc.footer, "? all keys") || !strings.Contains(tc.footer, "ctrl+c quit") {
+			t.Errorf("%s: footer %q offers q or ?, or not ctrl+c", tc.name, tc.footer)
+		}
+	}
+	// ctrl+c quits from the note box, as q does without it: at once
+	// with nothing changed, after asking with a note not written.
+	if _, cmd := note.Update(keyMsg("ctrl+c")); cmd == nil {
+		t.Errorf("ctrl+c in the note box did not quit")
+	}
+	changed, _ := sendReview(t, typeNote(t, note, "quick note"), keyPress("enter"))
+	changed, _ = sendReview(t, changed, keyPress("n"))
+	asked, cmd := sendReview(t, changed, keyMsg("ctrl+c"))
+	if q, ok := asked.overlays[len(asked.overlays)-1].(*question[*Review]); cmd != nil || !ok || q.title != quitTitle {
+		t.Fatalf("ctrl+c with a note not written: cmd %v, overlays %v, want the question", cmd != nil, asked.overlays)
+	}
+	if _, cmd := asked.Update(keyMsg("ctrl+c")); cmd == nil {
+		t.Errorf("ctrl+c at the question did not quit")
 	}
 }

@@ -31,13 +31,19 @@ func (m Model) header() string {
 // each.
 func (m Model) footer() string {
 	st, k := m.ctx.styles, m.ctx.keys
+	tail := []key.Binding{hint(k.Help, "", "all keys"), hint(k.Quit, "", "quit")}
 	var hints []key.Binding
-	if m.focus == focusStrip {
-		hints = append(hints, m.strip.ShortHelp()...)
-	} else {
-		hints = append(append(hints, m.list.ShortHelp()...), m.figures.ShortHelp()...)
+	switch {
+	case len(m.overlays) > 0:
+		// The overlay's keys only: the others go to it, and q may be
+		// typed into a field.
+		hints = m.overlays[len(m.overlays)-1].ShortHelp()
+		tail = []key.Binding{hint(k.Interrupt, "", "quit")}
+	case m.focus == focusStrip:
+		hints = append(m.strip.ShortHelp(), m.ShortHelp()...)
+	default:
+		hints = append(append(m.list.ShortHelp(), m.figures.ShortHelp()...), m.ShortHelp()...)
 	}
-	hints = append(hints, m.ShortHelp()...)
 	mark := ""
 	switch {
 	case m.unwritten && len(m.s.pins) > 0:
@@ -46,7 +52,7 @@ func (m Model) footer() string {
 		// Whether the pins on screen are the file's, at a glance.
 		mark = st.Muted.Render("written: "+m.written) + st.Footer.Render(" · ")
 	}
-	return statusBar{m.ctx}.footer(m.status, mark, hints, []key.Binding{hint(k.Help, "", "all keys"), hint(k.Quit, "", "quit")})
+	return statusBar{m.ctx}.footer(m.status, mark, hints, tail)
 }
 
 // ShortHelp lists the root's own keys that matter most with the focused

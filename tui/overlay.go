@@ -61,13 +61,14 @@ func (o *helpOverlay[H]) View() string { return o.draw() }
 
 // ShortHelp lists the keys that close the help.
 func (o *helpOverlay[H]) ShortHelp() []key.Binding {
-	return []key.Binding{o.ctx.keys.Help, o.ctx.keys.Cancel}
+	return []key.Binding{hint(o.ctx.keys.Help, "?/esc", "close")}
 }
 
 // answer is one key a question takes and what it does.
 type answer[H any] struct {
-	key key.Binding
-	do  func(host H) tea.Cmd // nil: only close the question
+	key  key.Binding
+	what string               // the answer in a few words, for the footer
+	do   func(host H) tea.Cmd // nil: only close the question
 }
 
 // question asks something that a key answers: replacing a file, quitting
@@ -100,7 +101,7 @@ func (q *question[H]) View() string { return overlayBox(q.ctx, q.title, q.body) 
 func (q *question[H]) ShortHelp() []key.Binding {
 	out := make([]key.Binding, len(q.answers))
 	for i, a := range q.answers {
-		out[i] = a.key
+		out[i] = hint(a.key, "", a.what)
 	}
 	return out
 }

@@ -216,7 +216,8 @@ func (p *formPane) Update(m *Model, msg tea.KeyMsg) (bool, tea.Cmd) {
 // ShortHelp lists the form's keys.
 func (p *formPane) ShortHelp() []key.Binding {
 	k := p.ctx.keys
-	return []key.Binding{k.NextField, k.Accept, k.Cancel}
+	return []key.Binding{hint(k.NextField, "", "next field"), hint(k.PrevField, "↑", "previous"),
+		hint(k.Accept, "", "apply"), hint(k.Cancel, "", "cancel")}
 }
 
 // parse reads every field, marks the refused ones with their reason and
@@ -385,7 +386,7 @@ func (p *renamePane) Update(m *Model, msg tea.KeyMsg) (bool, tea.Cmd) {
 
 // ShortHelp lists the box's keys.
 func (p *renamePane) ShortHelp() []key.Binding {
-	return []key.Binding{p.ctx.keys.Accept, p.ctx.keys.Cancel}
+	return []key.Binding{hint(p.ctx.keys.Accept, "", "rename"), hint(p.ctx.keys.Cancel, "", "keep the name"), hint(fieldKeys.Clear, "", "clear")}
 }
 
 // View draws the rename box.
@@ -411,7 +412,7 @@ func replaceQuestion[H any](ctx *shared, path, reason, headline, ask string, rep
 	}
 	lines = append(lines, "", ask+" "+st.Key.Render("y")+" replaces · "+st.Key.Render("n")+"/esc keeps it")
 	return &question[H]{ctx: ctx, title: "replace " + path + "?", body: strings.Join(lines, "\n"),
-		answers: []answer[H]{{key: k.Yes, do: replace}, {key: k.No, do: keep}}}
+		answers: []answer[H]{{key: k.Yes, what: "replace", do: replace}, {key: k.No, what: "keep it", do: keep}}}
 }
 
 // wrapWords breaks text into lines of at most width columns at spaces; a

@@ -44,7 +44,7 @@ func (p *calibrationPane) Update(m *Model, msg tea.KeyMsg) (bool, tea.Cmd) {
 // ShortHelp lists the overlay's keys.
 func (p *calibrationPane) ShortHelp() []key.Binding {
 	k := p.ctx.keys
-	return []key.Binding{k.Up, k.Down, k.Calibration}
+	return []key.Binding{hint(k.Up, "↑↓", "move the cut"), hint(k.Calibration, "e/esc", "close")}
 }
 
 // View draws the overlay.
@@ -177,7 +177,9 @@ func (p *modelsPane) Update(_ *Model, msg tea.KeyMsg) (bool, tea.Cmd) {
 }
 
 // ShortHelp lists the overlay's key.
-func (p *modelsPane) ShortHelp() []key.Binding { return []key.Binding{p.ctx.keys.Models} }
+func (p *modelsPane) ShortHelp() []key.Binding {
+	return []key.Binding{hint(p.ctx.keys.Models, "m/esc", "close")}
+}
 
 // View draws the overlay.
 func (p *modelsPane) View() string {

@@ -167,6 +167,11 @@ func (r Review) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 			return next, cmd
 		}
 		if len(r.overlays) > 0 {
+			// ctrl+c quits from any overlay, note box included, as q
+			// does without one.
+			if key.Matches(msg, r.keys.Interrupt) {
+				return r.quit()
+			}
 			return r, keyTop(&r.overlays, &r, msg)
 		}
 		return r.key(msg)
@@ -178,11 +183,7 @@ func (r Review) key(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 	k := r.keys
 	switch {
 	case key.Matches(msg, k.Quit):
-		if r.changed {
-			r.overlays = push(r.overlays, r.quitQuestion())
-			return r, nil
-		}
-		return r, tea.Quit
+		return r.quit()
 	case key.Matches(msg, k.Help):
 		r.overlays = push(r.overlays, &helpOverlay[*Review]{ctx: r.ctx, draw: r.helpView})
 	case key.Matches(msg, k.Left):
@@ -266,7 +267,7 @@ func (o *noteOverlay) Update(r *Review, msg tea.KeyMsg) (bool, tea.Cmd) {
 
 // ShortHelp lists the note box's keys.
 func (o *noteOverlay) ShortHelp() []key.Binding {
-	return []key.Binding{o.ctx.keys.Accept, o.ctx.keys.Cancel}
+	return []key.Binding{hint(o.ctx.keys.Accept, "", "keep the note"), hint(o.ctx.keys.Cancel, "", "leave it"), hint(fieldKeys.Clear, "", "clear")}
 }
 
 // View draws the note box.
@@ -280,16 +281,35 @@ func (o *noteOverlay) View() string {
 	}, "\n"))
 }
 
+// quitTitle is the title of the question before quitting with changes
+// not written.
+const quitTitle = "changes not written"
+
+// quit quits, after asking when there are changes not written; asked
+// again while the question is open, it quits.
+func (r Review) quit() (tea.Model, tea.Cmd) {
+	if !r.changed {
+		return r, tea.Quit
+	}
+	if n := len(r.overlays); n > 0 {
+		if q, ok := r.overlays[n-1].(*question[*Review]); ok && q.title == quitTitle {
+			return r, tea.Quit
+		}
+	}
+	r.overlays = push(r.overlays, r.quitQuestion())
+	return r, nil
+}
+
 // quitQuestion asks before quitting with changes not written.
 func (r *Review) quitQuestion() *question[*Review] {
 	st, k := r.ctx.styles, r.keys
-	return &question[*Review]{ctx: r.ctx, title: "changes not written", body: strings.Join([]string{
+	return &question[*Review]{ctx: r.ctx, title: quitTitle, body: strings.Join([]string{
 		"The choice or the notes changed since " + r.path + " was written.",
 		st.Key.Render("w") + " writes and quits · " + st.Key.Render("q") + " quits without writing · " + st.Key.Render("esc") + " stays",
 	}, "\n"), answers: []answer[*Review]{
-		{key: k.Write, do: func(r *Review) tea.Cmd { r.quitting = true; return r.write(false) }},
-		{key: k.Quit, do: func(*Review) tea.Cmd { return tea.Quit }},
-		{key: k.Cancel},
+		{key: k.Write, what: "write and quit", do: func(r *Review) tea.Cmd { r.quitting = true; return r.write(false) }},
+		{key: k.Quit, what: "quit without writing", do: func(*Review) tea.Cmd { return tea.Quit }},
+		{key: k.Cancel, what: "stay"},
 	}}
 }
 
@@ -440,6 +460,11 @@ func (r Review) notesView(at rect) string {
 // used first.
 func (r Review) footer() string {
 	k := r.keys
+	if n := len(r.overlays); n > 0 {
+		// The overlay's keys only: the others go to it, and q may be
+		// typed into a note.
+		return statusBar{r.ctx}.footer(r.status, "", r.overlays[n-1].ShortHelp(), []key.Binding{hint(k.Interrupt, "", "quit")})
+	}
 	hints := append(r.strip.ShortHelp(), r.ShortHelp()...)
 	return statusBar{r.ctx}.footer(r.status, "", hints, []key.Binding{hint(k.Help, "", "all keys"), hint(k.Quit, "", "quit")})
 }

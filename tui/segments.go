@@ -105,7 +105,8 @@ func (p *segmentsPane) Update(host *Model, m tea.KeyMsg) (bool, tea.Cmd) {
 // ShortHelp lists the overlay's keys.
 func (p *segmentsPane) ShortHelp() []key.Binding {
 	k := p.ctx.keys
-	return []key.Binding{k.Up, k.Down, k.PageDown, k.SegmentOrder, k.Segments}
+	return []key.Binding{hint(k.Up, "↑↓", "move the cut"), hint(k.PageDown, "pgup/pgdn", "scroll"),
+		hint(k.SegmentOrder, "", "next order"), hint(k.Segments, "s/esc", "close")}
 }
 
 // coversBody marks the breakdown as taking the whole body.
