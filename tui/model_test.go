@@ -317,6 +317,49 @@ func TestFormParse(t *testing.T) {
 	}
 }
 
+// TestFormShares: the base rate and confidence fields read shares as the
+// command line does (package share), with the reason beside a refused
+// one; the volume, a count, takes no percent sign.
+func TestFormShares(t *testing.T) {
+	ctx := &shared{styles: PlainStyles(), keys: DefaultKeyMap()}
+	cases := []struct {
+		field       int
+		text        string
+		want        float64 // the base rate or confidence read
+		refusedWith string  // "" when accepted
+	}{
+		{fieldBaseRate, "5%", 0.05, ""},
+		{fieldBaseRate, " 5 % ", 0.05, ""},
+		{fieldBaseRate, "0.05", 0.05, ""},
+		{fieldBaseRate, "33.3%", 0.333, ""},
+		{fieldBaseRate, "105%", 0, `this is more than 100%; expected 0 to 1 or 0% to 100%`},
+		{fieldBaseRate, "-5%", 0, `this is negative; expected 0 to 1 or 0% to 100%`},
+		{fieldBaseRate, "5%%", 0, `this has more than one percent sign; expected 0 to 1 or 0% to 100%`},
+		{fieldConfidence, "90%", 0.9, ""},
+		{fieldConfidence, "100%", 0, "expected a level above 0 and below 1, such as 0.95 or 95%"},
+		{fieldConfidence, "95", 0, `this is more than 1; expected 0 to 1 or 0% to 100%`},
+		{fieldVolume, "5%", 0, `"5%" is not a number`},
+	}
+	for _, tc := range cases {
+		p := newFormPane(ctx, projection.Assumptions{BaseRate: 0.25, Confidence: 0.95}, 0.25)
+		p.fields[tc.field].input.SetValue(tc.text)
+		a, ok := p.parse()
+		if tc.refusedWith != "" {
+			if ok || p.fields[tc.field].err != tc.refusedWith {
+				t.Errorf("field %d %q: ok %v, reason %q; want refused with %q", tc.field, tc.text, ok, p.fields[tc.field].err, tc.refusedWith)
+			}
+			continue
+		}
+		got := a.BaseRate
+		if tc.field == fieldConfidence {
+			got = a.Confidence
+		}
+		if !ok || got != tc.want {
+			t.Errorf("field %d %q: ok %v, read %v; want %v", tc.field, tc.text, ok, got, tc.want)
+		}
+	}
+}
+
 func TestWrite(t *testing.T) {
 	dir := t.TempDir()
 	out := filepath.Join(dir, "cut.yaml")

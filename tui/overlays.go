@@ -1,6 +1,7 @@
 package tui
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"strconv"
@@ -13,6 +14,7 @@ import (
 	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/report"
+	"github.com/sill-tool/sill/internal/share"
 )
 
 // helpView draws every key of groups in two columns, in a box.
@@ -135,7 +137,7 @@ func newFormPane(ctx *shared, a projection.Assumptions, validationBaseRate float
 		{"cost of a wrong alert", "per wrong alert; all costs empty: none"},
 		{"cost of a miss", "per true case not flagged"},
 		{"cost of a hit", "per true case flagged; negative: a benefit"},
-		{"confidence", "level of every interval, e.g. 0.95"},
+		{"confidence", "level of every interval, 0.95 or 95%"},
 	}
 	for _, s := range specs {
 		in := newTextField(24)
@@ -236,15 +238,26 @@ func (p *formPane) parse() (projection.Assumptions, bool) {
 		if text == "" {
 			return 0, false, true
 		}
-		percent := strings.HasSuffix(text, "%")
-		text = strings.TrimSpace(strings.TrimSuffix(text, "%"))
 		v, err := strconv.ParseFloat(strings.ReplaceAll(text, "_", ""), 64)
 		if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
 			refuse(i, fmt.Sprintf("%q is not a number", p.fields[i].input.Value()))
 			return 0, true, false
 		}
-		if percent {
-			v /= 100
+		return v, true, true
+	}
+	// shareOf reads a share field as package share does: 0.05 or 5%.
+	shareOf := func(i int) (float64, bool, bool) { // value, given, valid
+		text := p.fields[i].input.Value()
+		if strings.TrimSpace(text) == "" {
+			return 0, false, true
+		}
+		v, err := share.Parse(text)
+		var e *share.Error
+		if errors.As(err, &e) {
+			// The entry is on the line above: the reason need not repeat it,
+			// and so fits an 80-column screen.
+			refuse(i, "this "+e.Problem+"; expected 0 to 1 or 0% to 100%")
+			return 0, true, false
 		}
 		return v, true, true
 	}
@@ -252,14 +265,10 @@ func (p *formPane) parse() (projection.Assumptions, bool) {
 		p.fields[i].err = ""
 	}
 	a := projection.Assumptions{}
-	if v, given, valid := number(fieldBaseRate); valid {
-		switch {
-		case !given:
+	if v, given, valid := shareOf(fieldBaseRate); valid {
+		a.BaseRate = v
+		if !given {
 			a.BaseRate = p.validationBaseRate
-		case v < 0 || v > 1:
-			refuse(fieldBaseRate, "expected a share from 0 to 1 (or 0% to 100%)")
-		default:
-			a.BaseRate = v
 		}
 	}
 	volumeValid := true
@@ -296,12 +305,12 @@ func (p *formPane) parse() (projection.Assumptions, bool) {
 	if anyCost {
 		a.Costs = &costs
 	}
-	if v, given, valid := number(fieldConfidence); valid {
+	if v, given, valid := shareOf(fieldConfidence); valid {
 		switch {
 		case !given:
 			a.Confidence = projection.DefaultConfidence
 		case !(v > 0 && v < 1):
-			refuse(fieldConfidence, "expected a level between 0 and 1, such as 0.95")
+			refuse(fieldConfidence, "expected a level above 0 and below 1, such as 0.95 or 95%")
 		default:
 			a.Confidence = v
 		}

@@ -3,7 +3,6 @@ package main
 import (
 	"errors"
 	"fmt"
-	"math"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -59,9 +58,6 @@ decision file.`,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if format != "text" && format != "json" {
 				return fmt.Errorf("--format %q: expected text or json", format)
-			}
-			if math.IsNaN(tolerance) || tolerance < 0 || tolerance >= 1 {
-				return fmt.Errorf("--tolerance %v: expected a margin on shares in [0,1), such as 0.02 for two points", tolerance)
 			}
 			var file *decision.File
 			var err error
@@ -130,7 +126,8 @@ decision file.`,
 	_ = fs.MarkHidden("id")
 	fs.StringVar(&format, "format", "text", "output: text or json")
 	fs.BoolVar(&ignoreLabels, "ignore-labels", false, "check the alert rate and scores only, even where a label column is present")
-	fs.Float64Var(&tolerance, "tolerance", 0, "practical margin on every share, e.g. 0.02 for two percentage points")
+	fs.Var(newShareFlag(&tolerance, 0, shareBounds{below1: true, expected: "a margin below 1, such as 0.02 or 2% for two percentage points"}),
+		"tolerance", "practical margin on every share, such as 0.02 or 2% for two percentage points")
 	return cmd
 }
 

@@ -125,7 +125,8 @@ func TestCheckErrors(t *testing.T) {
 		{"not YAML", []string{"check", notYAML, validation}, "not.yaml:1: malformed YAML"},
 		{"scores for a decision file", []string{"check", validation, validation}, "validation.csv:1"},
 		{"missing scores", []string{"check", cutPath, filepath.Join(dir, "none.csv")}, "none.csv"},
-		{"bad tolerance", []string{"check", cutPath, validation, "--tolerance", "-1"}, "--tolerance -1"},
+		{"bad tolerance", []string{"check", cutPath, validation, "--tolerance", "-1"}, `--tolerance: "-1" is negative, expected a share from 0 to 1`},
+		{"tolerance 100%", []string{"check", cutPath, validation, "--tolerance", "100%"}, `--tolerance: "100%": expected a margin below 1, such as 0.02 or 2% for two percentage points`},
 		{"bad format", []string{"check", cutPath, validation, "--format", "xml"}, `--format "xml"`},
 		{"direction contradicts", []string{"check", cutPath, validation, "--lower-is-riskier"}, "contradicts"},
 		{"one argument", []string{"check", cutPath}, "check takes 2 arguments, the decision file then the new scores"},
@@ -140,6 +141,29 @@ func TestCheckErrors(t *testing.T) {
 				t.Errorf("exit %d, stdout %q, stderr %q; want 2, nothing on stdout and one line with %q", r.code, r.stdout, r.stderr, tc.want)
 			}
 		})
+	}
+}
+
+// TestCheckTolerancePercent: --tolerance 5% is --tolerance 0.05, five
+// percentage points, in both forms of output; without it the same data
+// drifts.
+func TestCheckTolerancePercent(t *testing.T) {
+	dir := t.TempDir()
+	validation := writeFile(t, dir, "validation.csv", bearingsCSV(1, 6000, 0.07, 0, true))
+	fresh := writeFile(t, dir, "fresh.csv", bearingsCSV(6, 4000, 0.1, 0, false)) // base rate 0.07 up to 0.1
+	cutPath := filepath.Join(dir, "cut.yaml")
+	if r := runSill(t, "", "report", validation, "--cut", "hit=80%", "--volume", "1500", "--save", cutPath); r.code != 0 {
+		t.Fatalf("save: exit %d, %s", r.code, r.stderr)
+	}
+	for _, format := range []string{"text", "json"} {
+		percent := runSill(t, "", "check", cutPath, fresh, "--format", format, "--tolerance", "5%")
+		fraction := runSill(t, "", "check", cutPath, fresh, "--format", format, "--tolerance", "0.05")
+		if percent.code != 0 || percent.stdout != fraction.stdout || percent.stderr != fraction.stderr {
+			t.Errorf("%s: --tolerance 5%% exit %d, --tolerance 0.05 exit %d; outputs\n%s\n%s", format, percent.code, fraction.code, percent.stdout, fraction.stdout)
+		}
+	}
+	if r := runSill(t, "", "check", cutPath, fresh); r.code != 1 {
+		t.Errorf("without a tolerance: exit %d, want 1 (drift)", r.code)
 	}
 }
 

@@ -1,10 +1,12 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"io"
 	"math"
 	"os"
+	"strconv"
 	"strings"
 
 	"github.com/spf13/pflag"
@@ -12,6 +14,7 @@ import (
 	"github.com/sill-tool/sill/internal/demo"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
+	"github.com/sill-tool/sill/internal/share"
 )
 
 // inputFlags are the flags that say how to read a score table.
@@ -157,12 +160,13 @@ type assumptionFlags struct {
 func (f *assumptionFlags) register(fs *pflag.FlagSet) {
 	f.fs = fs
 	fs.Float64Var(&f.volume, "volume", 0, "cases scored per shift in production")
-	fs.Float64Var(&f.baseRate, "base-rate", 0, "production base rate (default: the validation base rate)")
+	fs.Var(newShareFlag(&f.baseRate, 0, shareBounds{}), "base-rate", "production base rate, such as 0.05 or 5% (default: the validation base rate)")
 	fs.Float64Var(&f.capacity, "capacity", 0, "alerts one shift can work (needs --volume)")
 	fs.Float64Var(&f.costFalseAlert, "cost-false-alert", 0, "cost of working a wrong alert")
 	fs.Float64Var(&f.costMiss, "cost-miss", 0, "cost of missing a true case")
 	fs.Float64Var(&f.costHit, "cost-hit", 0, "cost of a caught true case (negative: a benefit)")
-	fs.Float64Var(&f.confidence, "confidence", projection.DefaultConfidence, "confidence level of every interval")
+	fs.Var(newShareFlag(&f.confidence, projection.DefaultConfidence, shareBounds{above0: true, below1: true, expected: "a level above 0 and below 1, such as 0.95 or 95%"}),
+		"confidence", "confidence level of every interval, such as 0.9 or 90%")
 }
 
 // assumptions builds the operating assumptions, taking the base rate from
@@ -204,4 +208,55 @@ func (f *assumptionFlags) assumptions(set *scores.Set) (projection.Assumptions, 
 // flagError rewords an assumption error for the command line.
 func flagError(err error) error {
 	return fmt.Errorf("%w (check --base-rate, --volume, --capacity, the costs and --confidence)", err)
+}
+
+// shareBounds narrows a share flag below [0,1]; expected says what the
+// flag then takes.
+type shareBounds struct {
+	above0, below1 bool
+	expected       string
+}
+
+// shareFlag is a flag whose value is a share, as package share reads it:
+// 0.05 or 5%.
+type shareFlag struct {
+	value  *float64
+	bounds shareBounds
+}
+
+func newShareFlag(value *float64, initial float64, bounds shareBounds) *shareFlag {
+	*value = initial
+	return &shareFlag{value: value, bounds: bounds}
+}
+
+func (f *shareFlag) Set(text string) error {
+	v, err := share.Parse(text)
+	if err != nil {
+		return err
+	}
+	if f.bounds.above0 && v == 0 || f.bounds.below1 && v == 1 {
+		return fmt.Errorf("%q: expected %s", text, f.bounds.expected)
+	}
+	*f.value = v
+	return nil
+}
+
+func (f *shareFlag) String() string { return strconv.FormatFloat(*f.value, 'g', -1, 64) }
+
+// Type names the value in help: "--base-rate share".
+func (f *shareFlag) Type() string { return "share" }
+
+// shareFlagError rewords pflag's error for a share flag's value as
+// "--base-rate: "105%" is more than 100%, expected ...": the flag's name,
+// then what package share says, without pflag's "invalid argument" frame
+// around it.
+func shareFlagError(err error) error {
+	var invalid *pflag.InvalidValueError
+	if !errors.As(err, &invalid) {
+		return err
+	}
+	if _, ok := invalid.GetFlag().Value.(*shareFlag); !ok {
+		return err
+	}
+	return valueFlagError("--"+invalid.GetFlag().Name, errors.Unwrap(invalid))
 }

@@ -8,6 +8,8 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"github.com/sill-tool/sill/internal/demo"
 )
 
 // sillResult is what one run of the command line left behind.
@@ -100,7 +102,7 @@ func TestRunBadInput(t *testing.T) {
 		{"truncated gzip", []string{"report", writeFile(t, dir, "cut.csv.gz", truncatedGzip(t))},
 			"sill: " + filepath.Join(dir, "cut.csv.gz") + ": corrupt gzip data: unexpected EOF"},
 		{"malformed cut", []string{"report", good, "--cut", "hit=2"},
-			`sill: --cut: malformed cut spec "hit=2": expected a share in [0,1]`},
+			`sill: --cut: malformed cut spec "hit=2": "2" is more than 1, expected a share from 0 to 1 or a percentage from 0% to 100%, such as 0.05 or 5%`},
 		{"unknown cut", []string{"report", good, "--cut", "recall=0.8"},
 			`sill: --cut: malformed cut spec "recall=0.8": expected one of score=V, top=N, top=P%, hit=R, wrong=F, base, queue=K, queue90=K, cost`},
 		{"queue without volume", []string{"report", good, "--cut", "queue=10"},
@@ -116,9 +118,21 @@ func TestRunBadInput(t *testing.T) {
 		{"bad delimiter", []string{"report", good, "--delim", "ab"},
 			`sill: --delim "ab": expected one character such as , or ; or \t`},
 		{"base rate above 1", []string{"report", good, "--base-rate", "2"},
-			"sill: invalid assumption: base rate 2, expected a share in [0,1] (check --base-rate, --volume, --capacity, the costs and --confidence)"},
+			`sill: --base-rate: "2" is more than 1, expected a share from 0 to 1 or a percentage from 0% to 100%, such as 0.05 or 5%`},
+		{"base rate above 100%", []string{"report", good, "--base-rate", "105%"},
+			`sill: --base-rate: "105%" is more than 100%, expected a share from 0 to 1 or a percentage from 0% to 100%, such as 0.05 or 5%`},
+		{"negative base rate", []string{"report", good, "--base-rate=-5%"},
+			`sill: --base-rate: "-5%" is negative, expected a share from 0 to 1 or a percentage from 0% to 100%, such as 0.05 or 5%`},
+		{"two percent signs", []string{"report", good, "--base-rate", "5%%"},
+			`sill: --base-rate: "5%%" has more than one percent sign, expected a share from 0 to 1 or a percentage from 0% to 100%, such as 0.05 or 5%`},
 		{"confidence 95", []string{"report", good, "--confidence", "95"},
-			"sill: invalid assumption: confidence 95, expected a level in (0,1) such as 0.95 (check --base-rate, --volume, --capacity, the costs and --confidence)"},
+			`sill: --confidence: "95" is more than 1, expected a share from 0 to 1 or a percentage from 0% to 100%, such as 0.05 or 5%`},
+		{"confidence 100%", []string{"report", good, "--confidence", "100%"},
+			`sill: --confidence: "100%": expected a level above 0 and below 1, such as 0.95 or 95%`},
+		{"explore's base rate", []string{"explore", good, "--base-rate", "5 %%"},
+			`sill: --base-rate: "5 %%" has more than one percent sign, expected a share from 0 to 1 or a percentage from 0% to 100%, such as 0.05 or 5%`},
+		{"hit share above 100%", []string{"report", good, "--cut", "hit=105%"},
+			`sill: --cut: malformed cut spec "hit=105%": "105%" is more than 100%, expected a share from 0 to 1 or a percentage from 0% to 100%, such as 0.05 or 5%`},
 		{"negative volume", []string{"report", good, "--volume", "-5"},
 			"sill: --volume -5: expected a positive number of cases per shift"},
 		{"no file", []string{"report"},
@@ -331,6 +345,43 @@ func TestRunCuts(t *testing.T) {
 		}
 		if !c.Met || c.Score == nil || *c.Score != w.score {
 			t.Errorf("%s: met %v score %v, want %v", c.Spec, c.Met, c.Score, w.score)
+		}
+	}
+}
+
+// TestRunPercentages checks that every share the command line takes reads
+// a percentage as the fraction it stands for: the JSON report with
+// --base-rate 5%, --confidence 90%, --cut hit=80%, wrong=33.3% and top=10%
+// is the report with 0.05, 0.9, hit=0.8, wrong=0.333 and top=10%, and the
+// cut specs are named the same.
+func TestRunPercentages(t *testing.T) {
+	dir := t.TempDir()
+	file := writeFile(t, dir, "bearings.csv", demo.CSV(2000, 5))
+	percent := runSill(t, "", "report", file, "--format", "json", "--base-rate", "5%", "--confidence", " 90 % ",
+		"--cut", "hit=80%", "--cut", "wrong=33.3%", "--cut", "top=10%")
+	fraction := runSill(t, "", "report", file, "--format", "json", "--base-rate", "0.05", "--confidence", "0.9",
+		"--cut", "hit=0.8", "--cut", "wrong=0.333", "--cut", "top=10%")
+	if percent.code != 0 || fraction.code != 0 {
+		t.Fatalf("exit %d (%s) and %d (%s)", percent.code, percent.stderr, fraction.code, fraction.stderr)
+	}
+	if percent.stdout != fraction.stdout {
+		t.Errorf("percentages and fractions differ:\n%s\n%s", percent.stdout, fraction.stdout)
+	}
+	for _, want := range []string{`"spec": "hit=0.8"`, `"spec": "wrong=0.333"`, `"base_rate": 0.05`, `"confidence": 0.9`} {
+		if !strings.Contains(percent.stdout, want) {
+			t.Errorf("the report lacks %s", want)
+		}
+	}
+	// --choose names a cut the way --cut did.
+	saved := runSill(t, "", "report", file, "--cut", "base", "--cut", "hit=80%", "--choose", "hit=80%", "--save", filepath.Join(dir, "cut.yaml"))
+	if saved.code != 0 || !strings.Contains(saved.stderr, "chosen hit=0.8") {
+		t.Errorf("--choose hit=80%%: exit %d, %s", saved.code, saved.stderr)
+	}
+	// The help of both commands says so.
+	for _, command := range []string{"report", "explore"} {
+		help := runSill(t, "", command, "--help")
+		if !strings.Contains(help.stdout, "--base-rate share") || !strings.Contains(help.stdout, "0.05 or 5%") || !strings.Contains(help.stdout, "0.9 or 90%") {
+			t.Errorf("%s --help does not say that shares take percentages:\n%s", command, help.stdout)
 		}
 	}
 }

@@ -41,6 +41,7 @@ Cut specs for --cut (repeatable):
   hit=R     catch at least share R         wrong=F        wrong-alert share at most F
   base      flag as many as the base rate  queue=K        at most K alerts per shift
   cost      least cost per shift           queue90=K      9 shifts in 10 at most K alerts
+R and F are shares, as 0.8 or 80%; every share flag takes a percentage too.
 Without --cut: base, hit=0.8 and wrong=0.333, plus queue=capacity and cost
 when --capacity or costs are given, and queue90=capacity with --time.
 
@@ -72,7 +73,7 @@ in [0,1] get a reliability table and net benefit; --score a --score b (or
 	o.assume.register(fs)
 	fs.StringVar(&o.format, "format", "text", "output: text, json, markdown, or csv (the curve alone)")
 	fs.BoolVar(&o.withCurve, "curve", false, "add the full per-cut table")
-	fs.StringArrayVar(&o.cuts, "cut", nil, "cut spec to report (repeatable), e.g. hit=0.8")
+	fs.StringArrayVar(&o.cuts, "cut", nil, "cut spec to report (repeatable), such as hit=0.8 or hit=80%")
 	o.beyond.register(fs)
 	o.save.register(fs)
 	return cmd

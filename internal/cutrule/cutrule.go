@@ -18,6 +18,9 @@
 //	           period queue at most K alerts (needs case times and a shift
 //	           schedule, WithShifts; see package shift)
 //
+// R and F are shares, written as package share reads them (0.8 or 80%);
+// so is P%, which may be a fraction of a percent (top=0.5%).
+//
 // score= and top= concern the ranked list and count rows, never weight.
 // The other rules use the projected production figures (package
 // projection), which equal the validation figures when the production base
@@ -36,6 +39,7 @@ import (
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
+	"github.com/sill-tool/sill/internal/share"
 	"github.com/sill-tool/sill/internal/shift"
 )
 
@@ -102,9 +106,19 @@ func Parse(text string) (Rule, error) {
 	if !hasValue || value == "" {
 		return bad(name + " needs a value after '='")
 	}
-	if r.Kind == Top && strings.HasSuffix(value, "%") {
-		r.Percent = true
-		value = strings.TrimSpace(strings.TrimSuffix(value, "%"))
+	if r.Kind == Hit || r.Kind == Wrong || r.Kind == Top && strings.HasSuffix(value, "%") {
+		s, err := share.Read(value)
+		if err != nil {
+			return bad(err.Error())
+		}
+		r.Value = s.Fraction
+		if r.Kind == Top { // top=P% keeps P as written
+			r.Value, r.Percent = s.Written, true
+			if r.Value == 0 {
+				return bad("expected a percentage above 0% and at most 100%")
+			}
+		}
+		return r, nil
 	}
 	v, err := strconv.ParseFloat(value, 64)
 	if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
@@ -112,11 +126,7 @@ func Parse(text string) (Rule, error) {
 	}
 	r.Value = v
 	switch {
-	case (r.Kind == Hit || r.Kind == Wrong) && !(v >= 0 && v <= 1):
-		return bad("expected a share in [0,1]")
-	case r.Kind == Top && r.Percent && !(v > 0 && v <= 100):
-		return bad("expected a percentage in (0,100]")
-	case r.Kind == Top && !r.Percent && !(v >= 1 && v == math.Trunc(v)):
+	case r.Kind == Top && !(v >= 1 && v == math.Trunc(v)):
 		return bad("expected a whole number of rows, at least 1")
 	case (r.Kind == Queue || r.Kind == Queue90) && !(v >= 0):
 		return bad("expected a queue size of at least 0")
