@@ -41,10 +41,10 @@ func (p *calibrationPane) Update(m *Model, msg tea.KeyMsg) (bool, tea.Cmd) {
 	return false, nil
 }
 
-// ShortHelp lists the overlay's keys.
+// ShortHelp lists the overlay's keys, the way out first.
 func (p *calibrationPane) ShortHelp() []key.Binding {
 	k := p.ctx.keys
-	return []key.Binding{hint(k.Up, "↑↓", "move the cut"), hint(k.Calibration, "e/esc", "close")}
+	return []key.Binding{hint(k.Calibration, "e/esc", "close"), hint(k.Up, "↑↓", "move the cut")}
 }
 
 // View draws the overlay.

@@ -102,11 +102,13 @@ func (p *segmentsPane) Update(host *Model, m tea.KeyMsg) (bool, tea.Cmd) {
 	return false, nil
 }
 
-// ShortHelp lists the overlay's keys.
+// ShortHelp lists the overlay's keys, the way out first: the footer drops
+// the last ones where it has no room, and the overlay lists them at its
+// foot.
 func (p *segmentsPane) ShortHelp() []key.Binding {
 	k := p.ctx.keys
-	return []key.Binding{hint(k.Up, "↑↓", "move the cut"), hint(k.PageDown, "pgup/pgdn", "scroll"),
-		hint(k.SegmentOrder, "", "next order"), hint(k.Segments, "s/esc", "close")}
+	return []key.Binding{hint(k.Segments, "s/esc", "close"), hint(k.Up, "↑↓", "move the cut"),
+		hint(k.PageDown, "pgup/pgdn", "scroll"), hint(k.SegmentOrder, "", "next order")}
 }
 
 // coversBody marks the breakdown as taking the whole body.
