@@ -109,6 +109,29 @@ func DefaultKeyMap() KeyMap {
 	}
 }
 
+// reviewKeys are the explorer's keys plus the two note keys.
+type reviewKeys struct {
+	KeyMap
+	Note     key.Binding // note on the selected candidate
+	FileNote key.Binding // note on the whole file
+}
+
+// newReviewKeys returns the review screen's keys made from the explorer's
+// k: the help words of the keys it shares say what they do there.
+func newReviewKeys(k KeyMap) reviewKeys {
+	k.Choose.SetHelp("c", "choose this candidate")
+	k.Write.SetHelp("w", "write the file")
+	k.Left.SetHelp("←/h", "previous candidate")
+	k.Right.SetHelp("→/l", "next candidate")
+	k.Accept.SetHelp("enter", "keep the note")
+	k.enableReview()
+	return reviewKeys{
+		KeyMap:   k,
+		Note:     key.NewBinding(key.WithKeys("n"), key.WithHelp("n", "note on this candidate")),
+		FileNote: key.NewBinding(key.WithKeys("N"), key.WithHelp("N", "note on the file")),
+	}
+}
+
 // enableExplorer turns on the explorer's keys that apply to s and turns
 // off the others: a starting point's key only when the assumptions give
 // that point (the capacity, least-cost and 9-in-10 keys follow their place

@@ -60,33 +60,13 @@ type Review struct {
 	quitting bool // quit once the write asked for on the way out succeeds
 }
 
-// reviewKeys are the explorer's keys plus the two note keys.
-type reviewKeys struct {
-	KeyMap
-	Note     key.Binding // note on the selected candidate
-	FileNote key.Binding // note on the whole file
-}
-
-func newReviewKeys(k KeyMap) reviewKeys {
-	k.Choose.SetHelp("c", "choose this candidate")
-	k.Write.SetHelp("w", "write the file")
-	k.Left.SetHelp("←/h", "previous candidate")
-	k.Right.SetHelp("→/l", "next candidate")
-	k.Accept.SetHelp("enter", "keep the note")
-	k.enableReview()
-	return reviewKeys{
-		KeyMap:   k,
-		Note:     key.NewBinding(key.WithKeys("n"), key.WithHelp("n", "note on this candidate")),
-		FileNote: key.NewBinding(key.WithKeys("N"), key.WithHelp("N", "note on the file")),
-	}
-}
-
 // NewReview returns the review screen for cfg.
 func NewReview(cfg ReviewConfig) Review {
 	ctx := newShared(cfg.Styles, cfg.Keys)
 	working := *cfg.File
 	working.Candidates = append([]decision.Candidate(nil), cfg.File.Candidates...)
 	r := Review{ctx: ctx, keys: newReviewKeys(ctx.keys), file: &working, path: cfg.Path, saveTo: cfg.Path}
+	ctx.keys = r.keys.KeyMap // the overlays read the same keys as the screen
 	r.strip = NewStrip(ctx.styles, r.keys.KeyMap)
 	r.selected = r.chosen()
 	r.refresh()
