@@ -98,6 +98,34 @@ func TestSQLCommand(t *testing.T) {
 	}
 }
 
+// TestCountsNoScore checks that report --counts drops the rows of cases
+// with no score (as sill sql counts NULL and non-numeric scores: empty
+// from most engines, \N from ClickHouse) and says how many were true and
+// false, in the warning and in JSON; sums worked by hand: 3+0 true, 4+2
+// false, 1 with neither label.
+func TestCountsNoScore(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "counts.csv")
+	table := "score,positives,negatives,unrecognised\n0.9,5,1,0\n0.5,2,6,0\n,3,4,1\n\\N,0,2,0\n"
+	if err := os.WriteFile(path, []byte(table), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	res := runSill(t, "", "report", path, "--counts", "--format", "json")
+	var got struct {
+		Rows           int                                               `json:"rows"`
+		DroppedRows    int                                               `json:"dropped_rows"`
+		DroppedNoScore struct{ Rows, Positives, Negatives, Neither int } `json:"dropped_no_score"`
+		Warnings       []string                                          `json:"warnings"`
+	}
+	if err := json.Unmarshal([]byte(res.stdout), &got); err != nil {
+		t.Fatalf("exit %d: %v\n%s", res.code, err, res.stderr)
+	}
+	want := "10 rows were dropped for a score that was missing or not a number (3 true cases, 6 false, 1 with neither label)"
+	if res.code != 0 || got.Rows != 14 || got.DroppedRows != 10 || got.DroppedNoScore != (struct{ Rows, Positives, Negatives, Neither int }{10, 3, 6, 1}) ||
+		len(got.Warnings) != 1 || got.Warnings[0] != want || !strings.Contains(res.stderr, want) {
+		t.Errorf("exit %d: %+v\n%s", res.code, got, res.stderr)
+	}
+}
+
 // TestLoadPiped checks that standard input from a pipe, copied aside and
 // read by the block reader, gives what the line reader gives: the same set,
 // the same error for a bad row, and the same error when the stream itself

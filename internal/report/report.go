@@ -4,6 +4,7 @@ package report
 
 import (
 	"math"
+	"strconv"
 
 	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/curve"
@@ -34,6 +35,12 @@ type Report struct {
 	Cuts             []cut       `json:"cuts"`
 	Warnings         []string    `json:"warnings"`
 	Caution          string      `json:"caution"`
+
+	// DroppedNoScore counts by label the dropped rows whose score was
+	// missing where the input gives their labels (a counts table's rows
+	// with no score, as sill sql counts NULL and non-numeric scores); nil
+	// otherwise. The rows are among DroppedRows.
+	DroppedNoScore *droppedNoScore `json:"dropped_no_score,omitempty"`
 
 	// Added by the Add methods in beyond.go.
 	Calibration   *calibrationFigures `json:"calibration,omitempty"`
@@ -108,6 +115,14 @@ type point struct {
 	FalsePositiveRate number  `json:"false_positive_rate"`
 }
 
+// droppedNoScore is the JSON form of scores.LabelCounts.
+type droppedNoScore struct {
+	Rows      int `json:"rows"`
+	Positives int `json:"positives"`
+	Negatives int `json:"negatives"`
+	Neither   int `json:"neither"`
+}
+
 // BandCuts is how many cuts carry the bootstrap's band in JSON.
 const BandCuts = 50
 
@@ -177,6 +192,9 @@ func newReport(set *scores.Set, sum curve.Summary, a projection.Assumptions, out
 			r.cutsEvidence = append(r.cutsEvidence, evidence.Cut{})
 		}
 	}
+	if c := set.NoScore; c != nil {
+		r.DroppedNoScore = &droppedNoScore{Rows: c.Total(), Positives: c.Positives, Negatives: c.Negatives, Neither: c.Neither}
+	}
 	return r
 }
 
@@ -185,8 +203,18 @@ func newReport(set *scores.Set, sum curve.Summary, a projection.Assumptions, out
 // probably the wrong way round).
 func Warnings(set *scores.Set, sum curve.Summary) []string {
 	var w []string
-	if set.Dropped > 0 {
-		w = append(w, plural(set.Dropped, "row was", "rows were")+" dropped for an invalid score")
+	invalid := set.Dropped
+	if c := set.NoScore; c != nil {
+		text := plural(c.Total(), "row was", "rows were") + " dropped for a score that was missing or not a number (" +
+			plural(c.Positives, "true case", "true cases") + ", " + strconv.Itoa(c.Negatives) + " false"
+		if c.Neither > 0 {
+			text += ", " + strconv.Itoa(c.Neither) + " with neither label"
+		}
+		w = append(w, text+")")
+		invalid -= c.Total()
+	}
+	if invalid > 0 {
+		w = append(w, plural(invalid, "row was", "rows were")+" dropped for an invalid score")
 	}
 	switch {
 	case sum.Rows == 0:

@@ -33,7 +33,12 @@ const maxCount = 1 << 53
 // and an optional column "unrecognised" counts cases whose label was
 // neither, which is an error when it is not zero, as such a label is in
 // Read. Counts must be whole numbers >= 0 (12 and 12.0 are both read).
-// A score may appear on several rows; its counts add up.
+// A score may appear on several rows; its counts add up. A row whose score
+// is empty, \N or NULL (in any case), as engines export NULL, counts cases
+// whose score was NULL or not a number where they were counted (the
+// warehouse query's rows of such cases): they are dropped, with or without
+// DropInvalid; Set.Dropped counts them and Set.NoScore by label. The
+// unrecognised column of such a row is not refused.
 //
 // The Set holds one row per score and label with a non-zero count, weighted
 // by that count and marked a counts table (Set.CountsTable), so that every
@@ -99,6 +104,8 @@ func ReadCounts(r io.Reader, source string, opt Options) (*Set, error) {
 		}
 		return v, nil
 	}
+	var noScore LabelCounts
+	sawNoScore := false
 	for {
 		record, err := cr.Read()
 		if err == io.EOF {
@@ -122,14 +129,28 @@ func ReadCounts(r io.Reader, source string, opt Options) (*Set, error) {
 		if err != nil {
 			return nil, err
 		}
+		other := 0.0
 		if unrecognisedCol >= 0 {
-			other, err := count(record, unrecognisedCol, line)
-			if err != nil {
+			if other, err = count(record, unrecognisedCol, line); err != nil {
 				return nil, err
 			}
-			if other > 0 {
-				return nil, &ParseError{File: source, Line: line, Column: header[unrecognisedCol], Err: fmt.Errorf("%w: %v case(s) with a label that is neither a true nor a false case, expected none (set --positive in the query)", ErrBadCount, other)}
+		}
+		if isNull(record[b.scoreCol]) {
+			// The warehouse query's row of cases whose score was NULL or
+			// not a number: dropped, whatever their labels.
+			b.dropped += int(positives + negatives + other)
+			noScore.Positives += int(positives)
+			noScore.Negatives += int(negatives)
+			noScore.Neither += int(other)
+			sawNoScore = true
+			if len(b.droppedReasons) < maxDroppedReasons {
+				pe := &ParseError{File: source, Line: line, Column: header[b.scoreCol], Err: fmt.Errorf("%v case(s) with no score (NULL or not a number where they were counted): %v true, %v false, %v with neither label", positives+negatives+other, positives, negatives, other)}
+				b.droppedReasons = append(b.droppedReasons, pe.Error())
 			}
+			continue
+		}
+		if other > 0 {
+			return nil, &ParseError{File: source, Line: line, Column: header[unrecognisedCol], Err: fmt.Errorf("%w: %v case(s) with a label that is neither a true nor a false case, expected none (set --positive in the query)", ErrBadCount, other)}
 		}
 		score, err := parseScore(record[b.scoreCol])
 		if err != nil {
@@ -176,6 +197,16 @@ func ReadCounts(r io.Reader, source string, opt Options) (*Set, error) {
 		return nil, err
 	}
 	set.countCases()
+	if sawNoScore {
+		set.NoScore = &noScore
+	}
 	set.LabelColumn = header[positivesCol] + "/" + header[negativesCol]
 	return set, nil
+}
+
+// isNull reports whether a counts table's score cell holds NULL as engines
+// export it: empty, \N or the word NULL.
+func isNull(text string) bool {
+	text = strings.TrimSpace(text)
+	return text == "" || text == `\N` || strings.EqualFold(text, "null")
 }

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"reflect"
 	"sort"
 	"strings"
 	"testing"
@@ -216,8 +217,8 @@ func TestReadCountsErrors(t *testing.T) {
 			`c.csv:3: column "negatives": invalid count "-1", expected a whole number of cases >= 0`},
 		{"unrecognised labels", "score,positives,negatives,unrecognised\n0.5,1,2,0\n0.4,1,1,3\n", scores.Options{}, scores.ErrBadCount,
 			`c.csv:3: column "unrecognised": invalid count: 3 case(s) with a label that is neither a true nor a false case, expected none (set --positive in the query)`},
-		{"empty score", "score,positives,negatives\n,1,2\n", scores.Options{}, scores.ErrBadScore,
-			`c.csv:2: column "score": invalid score "", expected a number, found an empty cell`},
+		{"text score", "score,positives,negatives\nn/a,1,2\n", scores.Options{}, scores.ErrBadScore,
+			`c.csv:2: column "score": invalid score "n/a", expected a finite number`},
 		{"ragged", "score,positives,negatives\n0.5,1\n", scores.Options{}, scores.ErrRagged,
 			`c.csv:2: wrong number of fields: row has 2, header has 3`},
 		{"only header", "score,positives,negatives\n", scores.Options{}, scores.ErrNoRows,
@@ -237,15 +238,49 @@ func TestReadCountsErrors(t *testing.T) {
 	}
 }
 
-// TestReadCountsDropInvalid checks that a NULL score group (an empty cell)
-// is dropped with all its cases counted: 4 + 6 = 10.
+// TestReadCountsDropInvalid checks that a row with a score that is not a
+// number is dropped under DropInvalid with all its cases counted: 4 + 6 =
+// 10, not split by label.
 func TestReadCountsDropInvalid(t *testing.T) {
-	in := "score,positives,negatives\n0.5,1,2\n,4,6\n0.2,0,3\n"
+	in := "score,positives,negatives\n0.5,1,2\nn/a,4,6\n0.2,0,3\n"
 	set, err := scores.ReadCounts(strings.NewReader(in), "c.csv", scores.Options{DropInvalid: true})
 	if err != nil {
 		t.Fatal(err)
 	}
-	if set.Dropped != 10 || set.Cases() != 6 || len(set.DroppedReasons) != 1 {
-		t.Errorf("dropped %d (%q), cases %d; want 10 dropped, 6 cases", set.Dropped, set.DroppedReasons, set.Cases())
+	if set.Dropped != 10 || set.NoScore != nil || set.Cases() != 6 || len(set.DroppedReasons) != 1 {
+		t.Errorf("dropped %d (%+v; %q), cases %d; want 10 dropped, not split, 6 cases",
+			set.Dropped, set.NoScore, set.DroppedReasons, set.Cases())
+	}
+}
+
+// TestReadCountsNoScore checks the rows of cases whose score was NULL or
+// not a number where they were counted, as engines export NULL (empty,
+// \N, NULL): they are dropped without DropInvalid, by label, their
+// unrecognised labels too, and the rest reads as the table without them.
+// Expected values added up by hand: dropped 3+4+1 + 0+2 + 5+0+2 = 17, of
+// them 3+0+5 = 8 true, 4+2+0 = 6 false and 1+0+2 = 3 with neither label.
+func TestReadCountsNoScore(t *testing.T) {
+	in := "score,yard,positives,negatives,unrecognised\n" +
+		"0.5,north,1,2,0\n" +
+		",north,3,4,1\n" +
+		"\\N,south,0,2,0\n" +
+		"0.2,south,0,3,0\n" +
+		" null ,east,5,0,2\n"
+	set, err := scores.ReadCounts(strings.NewReader(in), "c.csv", scores.Options{SegmentColumn: "yard"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if want := (scores.LabelCounts{Positives: 8, Negatives: 6, Neither: 3}); set.Dropped != 17 || set.NoScore == nil || *set.NoScore != want || set.Cases() != 6 {
+		t.Errorf("dropped %d (%+v), cases %d; want 17 (%+v), 6 cases", set.Dropped, set.NoScore, set.Cases(), want)
+	}
+	if want := `c.csv:3: column "score": 8 case(s) with no score (NULL or not a number where they were counted): 3 true, 4 false, 1 with neither label`; len(set.DroppedReasons) != 3 || set.DroppedReasons[0] != want {
+		t.Errorf("reasons %q, want 3 beginning %q", set.DroppedReasons, want)
+	}
+	same, err := scores.ReadCounts(strings.NewReader("score,yard,positives,negatives\n0.5,north,1,2\n0.2,south,0,3\n"), "c.csv", scores.Options{SegmentColumn: "yard"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !reflect.DeepEqual(set.Scores, same.Scores) || !reflect.DeepEqual(set.Labels, same.Labels) || !reflect.DeepEqual(set.Weights, same.Weights) {
+		t.Errorf("kept rows %v %v %v, want %v %v %v", set.Scores, set.Labels, set.Weights, same.Scores, same.Labels, same.Weights)
 	}
 }

@@ -50,9 +50,24 @@ type Set struct {
 	TimeColumn    string
 	CompareColumn string
 
-	Dropped        int      // rows skipped by DropInvalid
+	Dropped        int      // rows skipped by DropInvalid (cases for a counts table), and a counts table's cases with no score
 	DroppedReasons []string // the first few reasons, for reporting
+
+	// NoScore counts by label the cases of Dropped whose score was missing
+	// where the input gives their labels: a counts table's rows with no
+	// score (see ReadCounts). It is nil when there were none; rows dropped
+	// by DropInvalid are not in it.
+	NoScore *LabelCounts
 }
+
+// LabelCounts counts cases by label: true, false, and those whose label
+// was neither.
+type LabelCounts struct {
+	Positives, Negatives, Neither int
+}
+
+// Total returns the number of cases counted.
+func (c LabelCounts) Total() int { return c.Positives + c.Negatives + c.Neither }
 
 // New builds a ranked Set from parallel columns. weights may be nil. It
 // panics when the slices differ in length, and returns an error for a
