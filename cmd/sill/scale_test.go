@@ -87,14 +87,40 @@ func TestReportParquetFolderAndCounts(t *testing.T) {
 }
 
 // TestSQLCommand checks the wiring of sill sql: the query on standard
-// output, and a missing flag refused.
+// output, --dialect and --text-type, a missing flag refused, and the
+// query's errors with the flag that sets the part named (messages written
+// out by hand).
 func TestSQLCommand(t *testing.T) {
 	res := runSill(t, "", "sql", "--table", "analytics.scored", "--score", "p", "--label", "failed", "--digits", "2")
-	if res.code != 0 || !strings.Contains(res.stdout, `FLOOR("p" * 100 + 0.5) / 100 AS score`) || !strings.Contains(res.stdout, `FROM "analytics"."scored"`) {
+	if res.code != 0 || !strings.Contains(res.stdout, `FLOOR("p" * 100 + 0.5) / 100 END AS sill_score`) || !strings.Contains(res.stdout, `FROM "analytics"."scored"`) ||
+		!strings.Contains(res.stdout, `TRIM(CAST("failed" AS VARCHAR(255)))`) {
 		t.Errorf("exit %d\n%s%s", res.code, res.stdout, res.stderr)
+	}
+	res = runSill(t, "", "sql", "--table", "t", "--score", "p", "--label", "failed", "--dialect", "clickhouse")
+	if res.code != 0 || !strings.Contains(res.stdout, `replaceRegexpAll(CAST("failed" AS Nullable(String)), '^ +| +$', '')`) {
+		t.Errorf("--dialect clickhouse: exit %d\n%s%s", res.code, res.stdout, res.stderr)
+	}
+	res = runSill(t, "", "sql", "--table", "t", "--score", "p", "--label", "failed", "--dialect", "clickhouse", "--text-type", "String")
+	if res.code != 0 || !strings.Contains(res.stdout, `CAST("failed" AS String)`) {
+		t.Errorf("--text-type with --dialect clickhouse: exit %d\n%s%s", res.code, res.stdout, res.stderr)
 	}
 	if res := runSill(t, "", "sql", "--table", "t", "--score", "p"); res.code == 0 || !strings.Contains(res.stderr, "label") {
 		t.Errorf("without --label: exit %d, %q", res.code, res.stderr)
+	}
+	for _, c := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"--table", "t.", "--score", "p", "--label", "l"}, `sill: --table: empty name in "t.": a dot must separate two names`},
+		{[]string{"--table", "t", "--score", " ", "--label", "l"}, `sill: --score: empty name`},
+		{[]string{"--table", "t", "--score", "p", "--label", "l", "--digits", "13"}, `sill: --digits 13: digits out of range, expected 0 to 12, or -1 to keep every score as it is`},
+		{[]string{"--table", "t", "--score", "p", "--label", "l", "--text-type", "a;b"}, `sill: --text-type "a;b": not a type name, expected one such as VARCHAR(255) or STRING`},
+		{[]string{"--table", "t", "--score", "p", "--label", "l", "--dialect", "spark"}, `sill: --dialect "spark": unknown dialect, expected one of standard, clickhouse`},
+	} {
+		res := runSill(t, "", append([]string{"sql"}, c.args...)...)
+		if res.code != 2 || res.stdout != "" || strings.TrimSpace(res.stderr) != c.want {
+			t.Errorf("%v: exit %d, stdout %q, stderr %q; want 2 and %s", c.args, res.code, res.stdout, res.stderr, c.want)
+		}
 	}
 }
 

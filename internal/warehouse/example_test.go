@@ -17,12 +17,18 @@ func ExampleQuery_SQL() {
 	// Output:
 	// -- counts table for: sill report --counts FILE
 	// -- scores rounded half up to 3 digits; export the result as CSV with a header
+	// -- cases whose score is NULL or not a number are counted on rows with no score, which sill reports as dropped
 	// SELECT
-	//   FLOOR("p_fail" * 1000 + 0.5) / 1000 AS score,
-	//   SUM(CASE WHEN TRIM(CAST("failed" AS VARCHAR(255))) = 'yes' THEN 1 ELSE 0 END) AS positives,
-	//   SUM(CASE WHEN TRIM(CAST("failed" AS VARCHAR(255))) = 'yes' THEN 0 ELSE 1 END) AS negatives
-	// FROM "desk"."bearing_scores"
+	//   sill_score AS score,
+	//   SUM(CASE WHEN sill_label = 'yes' THEN 1 ELSE 0 END) AS positives,
+	//   SUM(CASE WHEN sill_label = 'yes' THEN 0 ELSE 1 END) AS negatives
+	// FROM (
+	//   SELECT
+	//     CASE WHEN +"p_fail" BETWEEN -1e308 AND 1e308 THEN FLOOR("p_fail" * 1000 + 0.5) / 1000 END AS sill_score,
+	//     TRIM(CAST("failed" AS VARCHAR(255))) AS sill_label
+	//   FROM "desk"."bearing_scores"
+	// ) AS sill_rows
 	// GROUP BY
-	//   FLOOR("p_fail" * 1000 + 0.5) / 1000
-	// ORDER BY score DESC
+	//   sill_score
+	// ORDER BY sill_score DESC
 }
