@@ -30,6 +30,7 @@ Run with no arguments to explore the built-in demo data.`,
 	root.AddCommand(newCheckCmd())
 	root.AddCommand(newReviewCmd())
 	root.AddCommand(newSQLCmd())
+	root.AddCommand(newManualCmd())
 	root.SetVersionTemplate("{{.Version}}\n")
 	root.SetFlagErrorFunc(func(_ *cobra.Command, err error) error { return shareFlagError(err) })
 	return root
