@@ -121,9 +121,9 @@ func (m *Model) write(force bool) tea.Cmd {
 		m.status = "not written: " + err.Error()
 		return nil
 	}
-	path := m.cfg.Out
+	path, ctx := m.cfg.Out, m.cfg.Context
 	return func() tea.Msg {
-		if err := decision.Write(path, file, force); err != nil {
+		if _, err := decision.Write(ctx, path, file, decision.WriteOptions{Force: force}); err != nil {
 			return writeFailedMsg{err}
 		}
 		return fileWrittenMsg{path: path, candidates: len(candidates), chosen: chosen}

@@ -12,6 +12,7 @@
 package tui
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"strings"
@@ -38,6 +39,9 @@ type Config struct {
 	Assume func(set *scores.Set) (projection.Assumptions, error)
 	// Out is the decision file the write key saves to.
 	Out string
+	// Context ends writes in progress when it is cancelled; nil means
+	// context.Background().
+	Context context.Context
 	// ToolVersion is written into the decision file.
 	ToolVersion string
 	// Styles and Keys; zero values take PlainStyles and DefaultKeyMap.
@@ -113,6 +117,9 @@ func New(cfg Config) Model {
 	ctx := newShared(cfg.Styles, cfg.Keys)
 	if cfg.Out == "" {
 		cfg.Out = "cut.yaml"
+	}
+	if cfg.Context == nil {
+		cfg.Context = context.Background()
 	}
 	s := &session{beyond: beyond{resampling: newResampling()}}
 	return Model{

@@ -1,6 +1,7 @@
 package tui
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"strings"
@@ -13,12 +14,19 @@ import (
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/report"
+	"github.com/sill-tool/sill/internal/sharedfile"
 )
 
 // ReviewConfig is what the review screen needs from the command line.
 type ReviewConfig struct {
 	File *decision.File // as read; the screen works on a copy
 	Path string         // where it was read from, and where w writes it
+	// Stamp is the file as read (decision.ReadFileStamped): w writes only
+	// while the file is still that, so as never to undo another's write.
+	Stamp sharedfile.Stamp
+	// Context ends a write in progress when it is cancelled; nil means
+	// context.Background().
+	Context context.Context
 	// Styles and Keys; zero values take PlainStyles and DefaultKeyMap.
 	Styles *Styles
 	Keys   *KeyMap
@@ -26,8 +34,12 @@ type ReviewConfig struct {
 
 // Messages of the review screen, named for what happened.
 type (
-	// reviewWrittenMsg says the decision file was written.
-	reviewWrittenMsg struct{ path string }
+	// reviewWrittenMsg says the decision file was written, and what it
+	// is now.
+	reviewWrittenMsg struct {
+		path  string
+		stamp sharedfile.Stamp
+	}
 	// reviewWriteFailedMsg says it was not.
 	reviewWriteFailedMsg struct{ err error }
 )
@@ -49,6 +61,8 @@ type Review struct {
 	file     *decision.File
 	path     string // as shown
 	saveTo   string // where w writes: path, except in tests
+	stamp    sharedfile.Stamp
+	writeCtx context.Context
 	selected int
 
 	strip    Strip
@@ -65,8 +79,11 @@ func NewReview(cfg ReviewConfig) Review {
 	ctx := newShared(cfg.Styles, cfg.Keys)
 	working := *cfg.File
 	working.Candidates = append([]decision.Candidate(nil), cfg.File.Candidates...)
-	r := Review{ctx: ctx, keys: newReviewKeys(ctx.keys), file: &working, path: cfg.Path, saveTo: cfg.Path}
+	r := Review{ctx: ctx, keys: newReviewKeys(ctx.keys), file: &working, path: cfg.Path, saveTo: cfg.Path, stamp: cfg.Stamp, writeCtx: cfg.Context}
 	ctx.keys = r.keys.KeyMap // the overlays read the same keys as the screen
+	if r.writeCtx == nil {
+		r.writeCtx = context.Background()
+	}
 	r.strip = NewStrip(ctx.styles, r.keys.KeyMap)
 	r.selected = r.chosen()
 	r.refresh()
@@ -120,7 +137,7 @@ func (r Review) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		r.resize()
 		return r, nil
 	case reviewWrittenMsg:
-		r.changed, r.written = false, true
+		r.changed, r.written, r.stamp = false, true, msg.stamp
 		c := r.file.Candidates[r.chosen()]
 		r.status = fmt.Sprintf("written to %s · chosen %s", msg.path, c.Name)
 		if r.quitting {
@@ -298,12 +315,13 @@ func (r *Review) quitQuestion() *question[*Review] {
 func (r Review) write(force bool) tea.Cmd {
 	f := *r.file
 	f.Candidates = append([]decision.Candidate(nil), r.file.Candidates...)
-	path, shown := r.saveTo, r.path
+	path, shown, ctx, expect := r.saveTo, r.path, r.writeCtx, r.stamp
 	return func() tea.Msg {
-		if err := decision.Write(path, &f, force); err != nil {
+		stamp, err := decision.Write(ctx, path, &f, decision.WriteOptions{Force: force, Expect: &expect})
+		if err != nil {
 			return reviewWriteFailedMsg{err}
 		}
-		return reviewWrittenMsg{shown}
+		return reviewWrittenMsg{path: shown, stamp: stamp}
 	}
 }
 

@@ -18,8 +18,8 @@ import (
 // time, and asserts on the final model and the written file.
 func TestFlowReviewChooseNoteWrite(t *testing.T) {
 	path := filepath.Join(t.TempDir(), "cut.yaml")
-	f := reviewFile(t, path)
-	tm := teatest.NewTestModel(t, NewReview(ReviewConfig{File: f, Path: path}), teatest.WithInitialTermSize(120, 32))
+	f, stamp := reviewFile(t, path)
+	tm := teatest.NewTestModel(t, NewReview(ReviewConfig{File: f, Path: path, Stamp: stamp}), teatest.WithInitialTermSize(120, 32))
 	waitReview(t, tm, "comparison strip")
 	tm.Type("l")
 	waitReview(t, tm, "note on cost")

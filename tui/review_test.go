@@ -1,6 +1,8 @@
 package tui
 
 import (
+	"bytes"
+	"context"
 	"os"
 	"path/filepath"
 	"strconv"
@@ -14,11 +16,12 @@ import (
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/evidence"
+	"github.com/sill-tool/sill/internal/sharedfile"
 )
 
 // reviewFile saves four cuts of the demo data, as sill report --save does,
 // at path, with a fixed creation time.
-func reviewFile(t *testing.T, path string) *decision.File {
+func reviewFile(t *testing.T, path string) (*decision.File, sharedfile.Stamp) {
 	t.Helper()
 	set := demoSet(t)
 	a, _ := demoAssumptions(set)
@@ -38,14 +41,14 @@ func reviewFile(t *testing.T, path string) *decision.File {
 	}
 	f.Created = time.Date(2026, 9, 29, 14, 5, 0, 0, time.UTC)
 	f.Candidates[2].Note = "one crew shift works it"
-	if err := decision.Write(path, f, false); err != nil {
+	if _, err := decision.Write(context.Background(), path, f, decision.WriteOptions{}); err != nil {
 		t.Fatal(err)
 	}
-	back, err := decision.ReadFile(path)
+	back, stamp, err := decision.ReadFileStamped(path)
 	if err != nil {
 		t.Fatal(err)
 	}
-	return back
+	return back, stamp
 }
 
 // sendReview passes one message to Update and runs a write command it
@@ -92,8 +95,8 @@ func typeNote(t *testing.T, r Review, text string) Review {
 func newTestReview(t *testing.T, width, height int) (Review, string) {
 	t.Helper()
 	path := filepath.Join(t.TempDir(), "cut.yaml")
-	f := reviewFile(t, path)
-	r := NewReview(ReviewConfig{File: f, Path: "cut.yaml"})
+	f, stamp := reviewFile(t, path)
+	r := NewReview(ReviewConfig{File: f, Path: "cut.yaml", Stamp: stamp})
 	r.saveTo = path // the frames show the path as typed
 	r, _ = sendReview(t, r, tea.WindowSizeMsg{Width: width, Height: height})
 	return r, path
@@ -217,27 +220,35 @@ func TestReviewQuitAsks(t *testing.T) {
 	}
 }
 
-func TestReviewWriteRefusedForOtherData(t *testing.T) {
-	r, path := newTestReview(t, 100, 30)
-	// Someone replaces the file on disk with a decision on other data.
-	other, _ := decision.ReadFile(path)
-	other.Data.SHA256 = strings.Repeat("0", 64)
-	if err := decision.Write(path, other, true); err != nil {
-		t.Fatal(err)
-	}
-	r, _ = sendReview(t, r, keyPress("c"))
-	r, _ = sendReview(t, r, keyPress("w"))
-	if q, ok := r.overlays[0].(*question[*Review]); len(r.overlays) != 1 || !ok || !strings.HasPrefix(q.title, "replace ") {
-		t.Fatalf("overlays %v, want the replace question", r.overlays)
-	}
-	r, _ = sendReview(t, r, keyPress("n"))
-	if back, _ := decision.ReadFile(path); back.Data.SHA256 != other.Data.SHA256 {
-		t.Fatal("n replaced the file")
-	}
-	r, _ = sendReview(t, r, keyPress("w"))
-	r, _ = sendReview(t, r, keyPress("y"))
-	if back, _ := decision.ReadFile(path); back.Data.SHA256 == other.Data.SHA256 || !r.Written() {
-		t.Fatal("y did not replace the file")
+// A save made after the screen read the file is never written over: w
+// is refused and the other's save stays (a lost update before).
+func TestReviewRefusesLostUpdate(t *testing.T) {
+	for _, tc := range []struct {
+		name  string
+		other func(f *decision.File)
+	}{
+		{"another note on the same data", func(f *decision.File) { f.Note = "approved at the October review" }},
+		{"other data", func(f *decision.File) { f.Data.SHA256 = strings.Repeat("0", 64) }},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			r, path := newTestReview(t, 100, 30)
+			// Someone else saves the file after this screen read it.
+			other, _ := decision.ReadFile(path)
+			tc.other(other)
+			if _, err := decision.Write(context.Background(), path, other, decision.WriteOptions{Force: true}); err != nil {
+				t.Fatal(err)
+			}
+			saved, _ := os.ReadFile(path)
+			r, _ = sendReview(t, r, keyPress("right"))
+			r, _ = sendReview(t, r, keyPress("c"))
+			r, _ = sendReview(t, r, keyPress("w"))
+			if got, _ := os.ReadFile(path); !bytes.Equal(got, saved) {
+				t.Fatal("w wrote over the other's save")
+			}
+			if r.Written() || !r.Changed() || !strings.Contains(r.status, "changed since it was read") {
+				t.Fatalf("written %v, changed %v, status %q", r.Written(), r.Changed(), r.status)
+			}
+		})
 	}
 }
 

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"context"
 	"fmt"
 	"os"
 
@@ -11,6 +12,7 @@ import (
 
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/review"
+	"github.com/sill-tool/sill/internal/sharedfile"
 	"github.com/sill-tool/sill/tui"
 )
 
@@ -39,6 +41,7 @@ also what it does when standard output is not a terminal.`,
 				return fmt.Errorf("--format %q: expected text or markdown", format)
 			}
 			var file *decision.File
+			var stamp sharedfile.Stamp
 			var err error
 			if args[0] == "-" {
 				file, err = decision.Read(cmd.InOrStdin(), "-")
@@ -46,14 +49,14 @@ also what it does when standard output is not a terminal.`,
 					format = "text" // the screen writes back to a file
 				}
 			} else {
-				file, err = decision.ReadFile(args[0])
+				file, stamp, err = decision.ReadFileStamped(args[0])
 			}
 			if err != nil {
 				return err
 			}
 			if format == "" {
 				if isTerminal() && cmd.OutOrStdout() == os.Stdout {
-					return runReviewScreen(file, args[0])
+					return runReviewScreen(cmd.Context(), file, stamp, args[0])
 				}
 				format = "text"
 			}
@@ -67,14 +70,15 @@ also what it does when standard output is not a terminal.`,
 	return cmd
 }
 
-// runReviewScreen opens the review screen on file until the user quits.
-func runReviewScreen(file *decision.File, path string) error {
+// runReviewScreen opens the review screen on file, read from path as
+// stamp says, until the user quits.
+func runReviewScreen(ctx context.Context, file *decision.File, stamp sharedfile.Stamp, path string) error {
 	renderer := lipgloss.NewRenderer(os.Stdout)
 	if os.Getenv("NO_COLOR") != "" {
 		renderer.SetColorProfile(termenv.Ascii)
 	}
 	styles := tui.DefaultStyles(renderer)
-	final, err := tea.NewProgram(tui.NewReview(tui.ReviewConfig{File: file, Path: path, Styles: &styles}), tea.WithAltScreen()).Run()
+	final, err := tea.NewProgram(tui.NewReview(tui.ReviewConfig{File: file, Path: path, Stamp: stamp, Context: ctx, Styles: &styles}), tea.WithAltScreen()).Run()
 	if err != nil {
 		return fmt.Errorf("review: %w", err)
 	}

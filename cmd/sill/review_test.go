@@ -1,6 +1,7 @@
 package main
 
 import (
+	"context"
 	"flag"
 	"math"
 	"math/rand/v2"
@@ -61,7 +62,7 @@ func savedDemo(t *testing.T, dir string) (scoresPath, cutPath string) {
 	f.Data.Path = "bearings.csv"
 	f.Candidates[2].Note = "one crew shift works it | nothing left over"
 	f.Note = "for the October review"
-	if err := decision.Write(cutPath, f, false); err != nil {
+	if _, err := decision.Write(context.Background(), cutPath, f, decision.WriteOptions{}); err != nil {
 		t.Fatal(err)
 	}
 	return scoresPath, cutPath

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"io"
@@ -16,6 +17,7 @@ import (
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/report"
 	"github.com/sill-tool/sill/internal/scores"
+	"github.com/sill-tool/sill/internal/sharedfile"
 )
 
 // saveFlags are report's flags that save the cuts as a decision file.
@@ -41,7 +43,7 @@ func (s *saveFlags) check() error {
 
 // write saves the outcomes as candidates, named by their specs, when
 // --save is given; every outcome must be met.
-func (s *saveFlags) write(set *scores.Set, a projection.Assumptions, outcomes []cutrule.Outcome, stderr io.Writer) error {
+func (s *saveFlags) write(ctx context.Context, set *scores.Set, a projection.Assumptions, outcomes []cutrule.Outcome, stderr io.Writer) error {
 	if err := s.check(); err != nil || s.path == "" {
 		return err
 	}
@@ -83,13 +85,11 @@ func (s *saveFlags) write(set *scores.Set, a projection.Assumptions, outcomes []
 	if err != nil {
 		return fmt.Errorf("--save: %w", err)
 	}
-	err = decision.Write(s.path, f, s.force)
-	switch {
-	case errors.Is(err, decision.ErrDifferentData):
+	_, err = decision.Write(ctx, s.path, f, decision.WriteOptions{Force: s.force})
+	if errors.Is(err, sharedfile.ErrOtherKind) {
 		return fmt.Errorf("%w; add --force to replace it, or save to another file", err)
-	case errors.Is(err, decision.ErrNotDecisionFile):
-		return fmt.Errorf("%w; add --force to replace it, or save to another file", err)
-	case err != nil:
+	}
+	if err != nil {
 		return err
 	}
 	c, _ := f.ChosenCandidate()

@@ -2,7 +2,9 @@ package decision
 
 import (
 	"bytes"
+	"context"
 	"errors"
+	"fmt"
 	"math"
 	"os"
 	"path/filepath"
@@ -10,13 +12,13 @@ import (
 	"testing"
 	"time"
 
-	"github.com/sill-tool/sill/internal/atomicfile"
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/demo"
 	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
+	"github.com/sill-tool/sill/internal/sharedfile"
 )
 
 // tolerance is the one float tolerance of these tests.
@@ -40,9 +42,18 @@ func identical(a, b float64) bool {
 // found by cut rules, as `sill report --save` does.
 func demoFile(t *testing.T) *File {
 	t.Helper()
-	set, err := scores.Read(bytes.NewReader(demo.CSV(2000, 7)), "bearings.csv", scores.Options{})
+	f, err := buildDemoFile()
 	if err != nil {
 		t.Fatal(err)
+	}
+	return f
+}
+
+// buildDemoFile is demoFile for callers without a *testing.T.
+func buildDemoFile() (*File, error) {
+	set, err := scores.Read(bytes.NewReader(demo.CSV(2000, 7)), "bearings.csv", scores.Options{})
+	if err != nil {
+		return nil, err
 	}
 	positives, negatives := set.Totals()
 	a := projection.Assumptions{BaseRate: positives / (positives + negatives), Volume: 1500, Capacity: 90, Confidence: 0.95,
@@ -50,23 +61,23 @@ func demoFile(t *testing.T) *File {
 	rules := []cutrule.Rule{{Kind: cutrule.Hit, Value: 0.8}, {Kind: cutrule.Base}}
 	finder, err := cutrule.NewFinder(rules, set, a)
 	if err != nil {
-		t.Fatal(err)
+		return nil, err
 	}
 	curve.Walk(set, finder.Visit)
 	var candidates []Candidate
 	for _, o := range finder.Outcomes() {
 		if !o.Met {
-			t.Fatalf("rule %s not met on the demo data", o.Rule)
+			return nil, fmt.Errorf("rule %s not met on the demo data", o.Rule)
 		}
 		candidates = append(candidates, Candidate{Name: o.Rule.String(), Rule: o.Rule.String(), Cut: evidence.Of(o.Point, a)})
 	}
 	candidates[1].Note = "fits one crew: 90 alerts a shift"
 	f, err := New(set, a, candidates, "base", "1.2.3")
 	if err != nil {
-		t.Fatal(err)
+		return nil, err
 	}
 	f.Note = "chosen at the September review"
-	return f
+	return f, nil
 }
 
 // oddFile is a hand-made file with the awkward values: undefined rates,
@@ -152,7 +163,7 @@ func TestRoundTrip(t *testing.T) {
 	for name, f := range map[string]*File{"demo": demoFile(t), "odd": oddFile()} {
 		t.Run(name, func(t *testing.T) {
 			path := filepath.Join(t.TempDir(), "cut.yaml")
-			if err := Write(path, f, false); err != nil {
+			if err := save(path, f, false); err != nil {
 				t.Fatal(err)
 			}
 			back, err := ReadFile(path)
@@ -211,18 +222,24 @@ func TestNewChoosesFirstAndChecks(t *testing.T) {
 	}
 }
 
+// save is Write with only the force option.
+func save(path string, f *File, force bool) error {
+	_, err := Write(context.Background(), path, f, WriteOptions{Force: force})
+	return err
+}
+
 func TestWriteRefusesDifferentData(t *testing.T) {
 	dir := t.TempDir()
 	path := filepath.Join(dir, "cut.yaml")
 	f := demoFile(t)
-	if err := Write(path, f, false); err != nil {
+	if err := save(path, f, false); err != nil {
 		t.Fatal(err)
 	}
 	before, _ := os.ReadFile(path)
 
 	// The same data: replaced without asking.
 	f.Chosen = "hit=0.8"
-	if err := Write(path, f, false); err != nil {
+	if err := save(path, f, false); err != nil {
 		t.Fatalf("rewrite on the same data: %v", err)
 	}
 	sameData, _ := os.ReadFile(path)
@@ -233,14 +250,14 @@ func TestWriteRefusesDifferentData(t *testing.T) {
 	// Other data: refused, untouched, then replaced when forced.
 	other := *f
 	other.Data.SHA256 = strings.Repeat("ab", 32)
-	err := Write(path, &other, false)
+	err := save(path, &other, false)
 	if !errors.Is(err, ErrDifferentData) {
 		t.Fatalf("error %v, want ErrDifferentData", err)
 	}
 	if got, _ := os.ReadFile(path); !bytes.Equal(got, sameData) {
 		t.Fatal("a refused write changed the file")
 	}
-	if err := Write(path, &other, true); err != nil {
+	if err := save(path, &other, true); err != nil {
 		t.Fatalf("forced write: %v", err)
 	}
 	if back, err := ReadFile(path); err != nil || back.Data.SHA256 != other.Data.SHA256 {
@@ -250,7 +267,7 @@ func TestWriteRefusesDifferentData(t *testing.T) {
 	// A file that is not a decision file: refused unless forced.
 	scoresPath := filepath.Join(dir, "bearings.csv")
 	os.WriteFile(scoresPath, []byte("score,label\n0.5,1\n"), 0o644)
-	if err := Write(scoresPath, f, false); !errors.Is(err, ErrNotDecisionFile) {
+	if err := save(scoresPath, f, false); !errors.Is(err, ErrNotDecisionFile) {
 		t.Fatalf("error %v, want ErrNotDecisionFile", err)
 	}
 	if got, _ := os.ReadFile(scoresPath); string(got) != "score,label\n0.5,1\n" {
@@ -266,13 +283,13 @@ func TestWriteSurvivesCrashBeforeRename(t *testing.T) {
 	dir := t.TempDir()
 	path := filepath.Join(dir, "cut.yaml")
 	f := demoFile(t)
-	if err := Write(path, f, false); err != nil {
+	if err := save(path, f, false); err != nil {
 		t.Fatal(err)
 	}
 	before, _ := os.ReadFile(path)
 	crash := errors.New("simulated crash between write and rename")
 	sawTemp := false
-	restore := atomicfile.HookBeforeRename(func(tmp string) error {
+	restore := sharedfile.HookBeforeRename(func(tmp string) error {
 		// The new content is complete in the temporary file beside the target.
 		data, err := os.ReadFile(tmp)
 		sawTemp = err == nil && filepath.Dir(tmp) == dir && bytes.Contains(data, []byte(`chosen: "hit=0.8"`))
@@ -280,7 +297,7 @@ func TestWriteSurvivesCrashBeforeRename(t *testing.T) {
 	})
 	defer restore()
 	f.Chosen = "hit=0.8"
-	if err := Write(path, f, false); !errors.Is(err, crash) {
+	if err := save(path, f, false); !errors.Is(err, crash) {
 		t.Fatalf("error %v, want the simulated crash", err)
 	}
 	if !sawTemp {

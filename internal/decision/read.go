@@ -16,6 +16,7 @@ import (
 	"go.yaml.in/yaml/v3"
 
 	"github.com/sill-tool/sill/internal/projection"
+	"github.com/sill-tool/sill/internal/sharedfile"
 )
 
 // errPanic marks a panic that Read recovered from; the fuzz test fails on
@@ -36,6 +37,24 @@ func ReadFile(path string) (*File, error) {
 		return nil, fmt.Errorf("read decision file: %s is a directory, expected a file", path)
 	}
 	return Read(file, path)
+}
+
+// ReadFileStamped reads the decision file at path like ReadFile and also
+// returns its Stamp, which a later Write can expect (WriteOptions.Expect)
+// so as never to write over a change made since.
+func ReadFileStamped(path string) (*File, sharedfile.Stamp, error) {
+	data, stamp, err := sharedfile.Read(path, MaxSize)
+	if errors.Is(err, sharedfile.ErrTooLarge) {
+		return nil, sharedfile.Stamp{}, &ParseError{File: path, Err: fmt.Errorf("%w: larger than %d bytes, expected a small YAML file", ErrInvalid, MaxSize)}
+	}
+	if err != nil {
+		return nil, sharedfile.Stamp{}, fmt.Errorf("read decision file: %w", err)
+	}
+	f, err := Read(bytes.NewReader(data), path)
+	if err != nil {
+		return nil, sharedfile.Stamp{}, err
+	}
+	return f, stamp, nil
 }
 
 // Read reads one decision file from r; source names it in errors.

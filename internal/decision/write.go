@@ -2,53 +2,68 @@ package decision
 
 import (
 	"bytes"
-	"errors"
+	"context"
 	"fmt"
-	"io/fs"
 	"math"
-	"os"
 	"strconv"
 	"strings"
 	"time"
 
 	"go.yaml.in/yaml/v3"
 
-	"github.com/sill-tool/sill/internal/atomicfile"
 	"github.com/sill-tool/sill/internal/evidence"
+	"github.com/sill-tool/sill/internal/sharedfile"
 )
 
-// Write saves f at path atomically (see package atomicfile): readers of
-// path see the old file or the new one, never a mix.
+// WriteOptions say what Write may replace.
+type WriteOptions struct {
+	// Force replaces a file that is not a decision file, or one made from
+	// other data.
+	Force bool
+	// Expect, when not nil, is the file as it was read (ReadFileStamped,
+	// or the Stamp of the last write): the write is refused with an error
+	// matching sharedfile.ErrChanged when the file has changed since.
+	Expect *sharedfile.Stamp
+}
+
+// Write saves f at path with the guarantees of package sharedfile: under a
+// lock beside the file, replaced atomically only if still as expected,
+// through symbolic links, keeping the file's mode, cleaned up when ctx ends.
+// It returns the Stamp of the file written, for the next write to expect.
 //
-// Unless force is set it refuses to replace an existing file that is not
+// Unless o.Force is set it refuses to replace an existing file that is not
 // a readable decision file (ErrNotDecisionFile) or whose data.sha256
-// differs from f's (ErrDifferentData); a decision file on the same data is
-// replaced. It returns an error without writing when f fails Validate.
-func Write(path string, f *File, force bool) error {
+// differs from f's (ErrDifferentData); both errors also match
+// sharedfile.ErrOtherKind. A decision file on the same data is replaced.
+// The check and the replacement are one step under the lock, so that of
+// two writers of different data to one path one is refused. It returns an
+// error without writing when f fails Validate.
+func Write(ctx context.Context, path string, f *File, o WriteOptions) (sharedfile.Stamp, error) {
 	if err := f.Validate(); err != nil {
-		return fmt.Errorf("write %s: %w", path, err)
+		return sharedfile.Stamp{}, fmt.Errorf("write %s: %w", path, err)
 	}
 	data, err := Marshal(f)
 	if err != nil {
-		return fmt.Errorf("write %s: %w", path, err)
+		return sharedfile.Stamp{}, fmt.Errorf("write %s: %w", path, err)
 	}
-	if !force {
-		old, err := os.ReadFile(path)
-		switch {
-		case errors.Is(err, fs.ErrNotExist):
-		case err != nil:
-			return fmt.Errorf("write %s: %w", path, err)
-		default:
-			existing, err := Read(bytes.NewReader(old), path)
-			if err != nil {
-				return fmt.Errorf("write %s: %w (%v)", path, ErrNotDecisionFile, err)
-			}
-			if existing.Data.SHA256 != f.Data.SHA256 {
-				return fmt.Errorf("write %s: %w (its data.sha256 is %s, this data's is %s)", path, ErrDifferentData, short(existing.Data.SHA256), short(f.Data.SHA256))
-			}
-		}
+	opts := sharedfile.Options{Expect: o.Expect}
+	if !o.Force {
+		opts.Kind = func(current []byte) error { return replaceable(current, path, f.Data.SHA256) }
 	}
-	return atomicfile.Write(path, data, 0o644)
+	return sharedfile.Write(ctx, path, data, opts)
+}
+
+// replaceable says whether current, the file at path, may be replaced by a
+// decision file on the data of digest: only a decision file on that data.
+func replaceable(current []byte, path, digest string) error {
+	existing, err := Read(bytes.NewReader(current), path)
+	if err != nil {
+		return fmt.Errorf("%w (%v)", ErrNotDecisionFile, err)
+	}
+	if existing.Data.SHA256 != digest {
+		return fmt.Errorf("%w (its data.sha256 is %s, this data's is %s)", ErrDifferentData, short(existing.Data.SHA256), short(digest))
+	}
+	return nil
 }
 
 func short(digest string) string {

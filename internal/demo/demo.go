@@ -20,6 +20,7 @@ package demo
 
 import (
 	"bytes"
+	"errors"
 	"fmt"
 	"math"
 	"math/rand/v2"
@@ -48,12 +49,33 @@ var (
 	start     = time.Date(2026, 9, 1, 0, 0, 0, 0, time.UTC)
 )
 
+// Header is the first line of CSV.
+const Header = "id,yard,read_at,score,label"
+
+// ErrNotDemoData says an existing file is not demo data.
+var ErrNotDemoData = errors.New("the existing file is not demo data")
+
+// Replaceable returns nil when current, the content of an existing file,
+// is demo data as CSV writes it (its first line is Header), and otherwise
+// an error matching ErrNotDemoData that quotes the file's first line: the
+// demo never replaces other data unasked.
+func Replaceable(current []byte) error {
+	first, _, _ := bytes.Cut(current, []byte("\n"))
+	if string(bytes.TrimSuffix(first, []byte("\r"))) == Header {
+		return nil
+	}
+	if len(first) > 40 {
+		first = append(first[:40:40], "…"...)
+	}
+	return fmt.Errorf("%w (its first line is %q, expected %q)", ErrNotDemoData, first, Header)
+}
+
 // CSV returns rows of invented data as CSV with the header
 // id,yard,read_at,score,label. The same rows and seed give the same bytes.
 func CSV(rows int, seed uint64) []byte {
 	rng := rand.New(rand.NewPCG(seed, 0x5eed))
 	var buf bytes.Buffer
-	buf.WriteString("id,yard,read_at,score,label\n")
+	buf.WriteString(Header + "\n")
 	for i := 0; i < rows; i++ {
 		yard := pick(rng.Float64(), yardShare)
 		failing := rng.Float64() < yardRate[yard]
