@@ -37,7 +37,7 @@ func (m Model) stripFocusedKey(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 		s.reference = s.selected
 		m.status = fmt.Sprintf("%q is the chosen cut; the others are compared with it", s.pins[s.selected].name)
 	case key.Matches(msg, k.Rename):
-		m.push(newRenamePane(m.ctx, s.pins[s.selected].name))
+		m.push(renameBox(m.ctx, s.pins[s.selected].name))
 	default:
 		m.strip.SetSelected(s.selected)
 		m.strip, _ = m.strip.Update(msg)

@@ -194,7 +194,7 @@ func TestPinAndStrip(t *testing.T) {
 	m = keys(m, "r", "ctrl+u")
 	m = typeText(m, "base")
 	m = keys(m, "enter")
-	if rename, ok := m.overlays[len(m.overlays)-1].(*renamePane); len(m.overlays) != 1 || !ok || rename.err == "" {
+	if rename, ok := m.overlays[len(m.overlays)-1].(*textBox[*Model]); len(m.overlays) != 1 || !ok || rename.err == "" {
 		t.Errorf("renaming to a taken name was not refused: overlays %v", m.overlays)
 	}
 	m = keys(m, "ctrl+u")

@@ -1,8 +1,12 @@
 package tui
 
 import (
+	"fmt"
+	"strings"
+
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/x/ansi"
 )
 
 // overlay is one layer drawn over a screen: help, a form, a question. The
@@ -104,4 +108,88 @@ func (q *question[H]) ShortHelp() []key.Binding {
 		out[i] = hint(a.key, "", a.what)
 	}
 	return out
+}
+
+// textBox asks for one line of text: enter hands it to accept, which acts
+// on the screen or refuses the text with a reason shown in the box; esc
+// closes the box and changes nothing.
+type textBox[H any] struct {
+	ctx    *shared
+	title  string
+	label  string // before the field; "" for none
+	width  int    // the field's width in cells; 0: up to 64, within the screen
+	count  bool   // show how many characters of the field's limit are used
+	field  textField
+	err    string   // why accept refused the text
+	notes  []string // muted lines under the field: what the keys do
+	accept func(host H, text string) error
+	// enter and esc say what those keys do, in a few words, for the footer.
+	enter, esc string
+}
+
+// newTextBox returns a box editing text, at most limit characters.
+func newTextBox[H any](ctx *shared, title, text string, limit int, accept func(H, string) error) *textBox[H] {
+	b := &textBox[H]{ctx: ctx, title: title, field: newTextField(limit), accept: accept}
+	b.field.SetValue(text)
+	b.field.Focus()
+	return b
+}
+
+// Update hands the text to accept on enter, closes on esc and edits the
+// text on other keys.
+func (b *textBox[H]) Update(host H, msg tea.KeyMsg) (bool, tea.Cmd) {
+	k := b.ctx.keys
+	switch {
+	case key.Matches(msg, k.Cancel):
+		return true, nil
+	case key.Matches(msg, k.Accept):
+		if err := b.accept(host, b.field.Value()); err != nil {
+			b.err = err.Error()
+			return false, nil
+		}
+		return true, nil
+	}
+	var cmd tea.Cmd
+	b.field, cmd = b.field.Update(msg)
+	b.err = ""
+	return false, cmd
+}
+
+// ShortHelp lists the box's keys.
+func (b *textBox[H]) ShortHelp() []key.Binding {
+	k := b.ctx.keys
+	return []key.Binding{hint(k.Accept, "", b.enter), hint(k.Cancel, "", b.esc), hint(fieldKeys.Clear, "", "clear")}
+}
+
+// View draws the box.
+func (b *textBox[H]) View() string {
+	st := b.ctx.styles
+	width := b.width
+	if width == 0 {
+		width = min(64, max(b.ctx.width-8, 20))
+	}
+	lines := []string{b.label + fieldLine(b.field, width)}
+	if b.err != "" {
+		lines = append(lines, st.Warning.Render("✗ "+b.err))
+	}
+	if b.count {
+		lines = append(lines, st.Muted.Render(fmt.Sprintf("%d of %d characters", len([]rune(b.field.Value())), b.field.limit)))
+	}
+	for _, n := range b.notes {
+		lines = append(lines, st.Muted.Render(n))
+	}
+	return overlayBox(b.ctx, b.title, strings.Join(lines, "\n"))
+}
+
+// fieldLine draws f in width columns, keeping the cursor in view: a long
+// text shows the part around the cursor, with … where the start is cut.
+func fieldLine(f textField, width int) string {
+	text := f.View()
+	if ansi.StringWidth(text) <= width {
+		return fitLine(text, width)
+	}
+	runes := []rune(text)
+	start := max(0, f.cursor-width+2)
+	end := min(len(runes), start+width-1)
+	return fitLine("…"+string(runes[start:end]), width)
 }

@@ -355,58 +355,21 @@ func (p *formPane) View() string {
 	return overlayBox(p.ctx, "assumptions", strings.Join(lines, "\n"))
 }
 
-// renamePane asks for the selected candidate's new name, an overlay of
-// the explorer.
-type renamePane struct {
-	ctx   *shared
-	input textField
-	err   string
-}
-
-// newRenamePane returns the box with name to edit.
-func newRenamePane(ctx *shared, name string) *renamePane {
-	p := &renamePane{ctx: ctx, input: newTextField(40)}
-	p.input.SetValue(name)
-	p.input.Focus()
-	return p
-}
-
-// Update handles a key: enter renames the selected candidate unless the
-// name is refused, esc closes the box without renaming.
-func (p *renamePane) Update(m *Model, msg tea.KeyMsg) (bool, tea.Cmd) {
-	k := p.ctx.keys
-	switch {
-	case key.Matches(msg, k.Cancel):
-		return true, nil
-	case key.Matches(msg, k.Accept):
-		if err := m.s.rename(strings.TrimSpace(p.input.Value())); err != nil {
-			p.err = err.Error()
-			return false, nil
+// renameBox asks for the selected candidate's new name; a name that is
+// empty or taken is refused with the reason in the box.
+func renameBox(ctx *shared, name string) *textBox[*Model] {
+	box := newTextBox(ctx, "rename candidate", name, 40, func(m *Model, text string) error {
+		if err := m.s.rename(strings.TrimSpace(text)); err != nil {
+			return err
 		}
 		m.unwritten = true
 		m.refresh()
-		return true, nil
-	}
-	var cmd tea.Cmd
-	p.input, cmd = p.input.Update(msg)
-	p.err = ""
-	return false, cmd
-}
-
-// ShortHelp lists the box's keys.
-func (p *renamePane) ShortHelp() []key.Binding {
-	return []key.Binding{hint(p.ctx.keys.Accept, "", "rename"), hint(p.ctx.keys.Cancel, "", "keep the name"), hint(fieldKeys.Clear, "", "clear")}
-}
-
-// View draws the rename box.
-func (p *renamePane) View() string {
-	st := p.ctx.styles
-	lines := []string{"new name: " + fitLine(p.input.View(), 31)}
-	if p.err != "" {
-		lines = append(lines, st.Warning.Render("✗ "+p.err))
-	}
-	lines = append(lines, st.Muted.Render("enter renames · esc keeps the name"))
-	return overlayBox(p.ctx, "rename candidate", strings.Join(lines, "\n"))
+		return nil
+	})
+	box.label, box.width = "new name: ", 31
+	box.notes = []string{"enter renames · esc keeps the name"}
+	box.enter, box.esc = "rename", "keep the name"
+	return box
 }
 
 // replaceQuestion asks before replacing path, a file on disk that is not

@@ -211,15 +211,15 @@ func (r Review) key(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 
 // editNote opens the note box for candidate i, or for the file when i < 0.
 func (r *Review) editNote(i int) {
-	o := &noteOverlay{ctx: r.ctx, field: newTextField(noteLimit), candidate: i, title: "note on the file"}
-	if i < 0 {
-		o.field.SetValue(r.file.Note)
-	} else {
-		o.field.SetValue(r.file.Candidates[i].Note)
-		o.title = "note on " + r.file.Candidates[i].Name
+	title, text := "note on the file", r.file.Note
+	if i >= 0 {
+		title, text = "note on "+r.file.Candidates[i].Name, r.file.Candidates[i].Note
 	}
-	o.field.Focus()
-	r.overlays = push(r.overlays, o)
+	box := newTextBox(r.ctx, title, text, noteLimit, func(r *Review, text string) error { r.setNote(i, text); return nil })
+	box.count = true
+	box.notes = []string{"enter keeps the note · esc leaves it as it was · ctrl+u clears"}
+	box.enter, box.esc = "keep the note", "leave it"
+	r.overlays = push(r.overlays, box)
 }
 
 // setNote sets the note of candidate i, or of the file when i < 0, to
@@ -236,46 +236,6 @@ func (r *Review) setNote(i int, text string) {
 	r.changed = r.changed || text != c.Note
 	c.Note = text
 	r.status = "note on " + c.Name + " set (not written yet: w writes)"
-}
-
-// noteOverlay edits a note on one candidate, or on the whole file.
-type noteOverlay struct {
-	ctx       *shared
-	field     textField
-	candidate int // -1 for the file's note
-	title     string
-}
-
-// Update keeps the note on enter, leaves it as it was on esc and edits
-// it on other keys.
-func (o *noteOverlay) Update(r *Review, msg tea.KeyMsg) (bool, tea.Cmd) {
-	k := o.ctx.keys
-	switch {
-	case key.Matches(msg, k.Cancel):
-		return true, nil
-	case key.Matches(msg, k.Accept):
-		r.setNote(o.candidate, o.field.Value())
-		return true, nil
-	}
-	var cmd tea.Cmd
-	o.field, cmd = o.field.Update(msg)
-	return false, cmd
-}
-
-// ShortHelp lists the note box's keys.
-func (o *noteOverlay) ShortHelp() []key.Binding {
-	return []key.Binding{hint(o.ctx.keys.Accept, "", "keep the note"), hint(o.ctx.keys.Cancel, "", "leave it"), hint(fieldKeys.Clear, "", "clear")}
-}
-
-// View draws the note box.
-func (o *noteOverlay) View() string {
-	st := o.ctx.styles
-	width := min(64, max(o.ctx.width-8, 20))
-	return overlayBox(o.ctx, o.title, strings.Join([]string{
-		noteLine(o.field, width),
-		st.Muted.Render(fmt.Sprintf("%d of %d characters", len([]rune(o.field.Value())), noteLimit)),
-		st.Muted.Render("enter keeps the note · esc leaves it as it was · ctrl+u clears"),
-	}, "\n"))
 }
 
 // quitTitle is the title of the question before quitting with changes
@@ -493,18 +453,4 @@ func (r Review) helpView() string {
 		st.Muted.Render("only the choice and the notes are written back"), st.Muted.Render("? or esc closes"),
 		"", st.Warning.Render(evidence.ShortCaution))
 	return overlayBox(r.ctx, "review keys", strings.Join(lines, "\n"))
-}
-
-// noteLine draws the note field in width columns, keeping the cursor in
-// view: a long note shows its end, with … where the start is cut.
-func noteLine(f textField, width int) string {
-	text := f.View()
-	if ansi.StringWidth(text) <= width {
-		return fitLine(text, width)
-	}
-	runes := []rune(text)
-	cursorAt := f.cursor
-	start := max(0, cursorAt-width+2)
-	end := min(len(runes), start+width-1)
-	return fitLine("…"+string(runes[start:end]), width)
 }
