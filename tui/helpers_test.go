@@ -22,7 +22,7 @@ func demoSet(t testing.TB) *scores.Set {
 	return set
 }
 
-// demoAssumptions are the values of demo.Assumptions with the validation
+// demoAssumptions are the demo's operating assumptions (package demo) with the validation
 // base rate.
 func demoAssumptions(set *scores.Set) (projection.Assumptions, error) {
 	positives, negatives := set.Totals()

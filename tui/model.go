@@ -197,7 +197,7 @@ func (m Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 				break
 			}
 		}
-		if warnings := report.Warnings(m.s.set, m.s.curve.Summary); len(warnings) > 0 {
+		if warnings := report.Warnings(m.s.set, m.s.curve.Summary, report.Hints{LowerIsRiskier: "--lower-is-riskier"}); len(warnings) > 0 {
 			m.status = "warning: " + strings.Join(warnings, "; ")
 		}
 		m.refresh()

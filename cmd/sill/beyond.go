@@ -9,6 +9,7 @@ import (
 
 	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/calibration"
+	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/modelpair"
 	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/segment"
@@ -122,6 +123,9 @@ func (f *beyondFlags) loadCompare(set *scores.Set) (*scores.Set, error) {
 		return nil, fmt.Errorf("--compare: %w", err)
 	}
 	joined, err := modelpair.Join(set, second)
+	if errors.Is(err, modelpair.ErrNoIDs) {
+		return nil, fmt.Errorf("--compare: %w (--id)", err)
+	}
 	if err != nil {
 		return nil, fmt.Errorf("--compare: %w", err)
 	}
@@ -195,9 +199,23 @@ func (f *beyondFlags) analysisError(err error) error {
 	case analysis.StepCalibration:
 		return fmt.Errorf("--calibration-bins: %w", e.Err)
 	case analysis.StepResampling:
-		return fmt.Errorf("--bootstrap: %w", e.Err)
+		return fmt.Errorf("--bootstrap: %w", cutFlagHint(e.Err))
 	}
-	return e.Err
+	return cutFlagHint(e.Err)
+}
+
+// cutFlagHint adds the flags that give what a cut rule found missing, as
+// in "cut queue=90 needs a volume per shift (--volume)".
+func cutFlagHint(err error) error {
+	switch {
+	case errors.Is(err, cutrule.ErrNeedsVolume):
+		return fmt.Errorf("%w (--volume)", err)
+	case errors.Is(err, cutrule.ErrNeedsCosts):
+		return fmt.Errorf("%w (--cost-false-alert, --cost-miss or --cost-hit)", err)
+	case errors.Is(err, cutrule.ErrNeedsShifts):
+		return fmt.Errorf("%w (--time and --shifts)", err)
+	}
+	return err
 }
 
 func valueFlagError(flag string, err error) error {

@@ -31,7 +31,10 @@ func TestReportBeyondFlagErrors(t *testing.T) {
 		{[]string{"--time", "read_at", "--shifts", "6am"}, "--shifts: malformed shift schedule"},
 		{[]string{"--time", "read_at", "--shifts", "06:00", "--tz", "Mars/Olympus"}, `--tz "Mars/Olympus"`},
 		{[]string{"--time", "yard", "--shifts", "06:00"}, `column "yard": invalid time "north"`},
-		{[]string{"--cut", "queue90=2"}, "needs case times and a shift schedule"},
+		{[]string{"--cut", "queue90=2"}, "cut queue90=2 needs case times and a shift schedule (--time and --shifts)"},
+		{[]string{"--cut", "queue=2"}, "cut queue=2 needs a volume per shift (--volume)"},
+		{[]string{"--cut", "cost"}, "cut cost needs at least one cost (--cost-false-alert, --cost-miss or --cost-hit)"},
+		{[]string{"--cut", "queue=2", "--volume", "10", "--bootstrap", "5", "--time", "read_at", "--shifts", "06:00", "--calibration-bins", "0"}, "--calibration-bins 0"},
 		{[]string{"--bootstrap", "-3"}, "--bootstrap -3"},
 		{[]string{"--calibration-binning", "even"}, "--calibration-binning"},
 		{[]string{"--segment", "yard", "--segment-order", "biggest"}, "--segment-order"},
@@ -144,6 +147,37 @@ func TestReportCompareFile(t *testing.T) {
 		res := runSill(t, "", append([]string{"report", first}, c.args...)...)
 		if res.code != 2 || res.stdout != "" || !strings.Contains(res.stderr, c.want) {
 			t.Errorf("%v: code %d stderr %q, want %q", c.args, res.code, res.stderr, c.want)
+		}
+	}
+}
+
+// TestReportHints: the report's notes and warnings name the flags that
+// change them, which cmd gives to package report (the engine names none).
+func TestReportHints(t *testing.T) {
+	dir := t.TempDir()
+	path := writeFile(t, dir, "timed.csv", []byte(timedTable))
+	// The same cases with the scores turned round: the false cases rank
+	// first more often than not.
+	reversed := strings.NewReplacer(",0.91,", ",0.09,", ",0.85,", ",0.15,", ",0.60,", ",0.40,", ",0.42,", ",0.58,", ",0.30,", ",0.70,", ",0.12,", ",0.88,", ",0.05,", ",0.95,").Replace(timedTable)
+	reversedPath := writeFile(t, dir, "reversed.csv", []byte(reversed))
+	for _, c := range []struct {
+		args   []string
+		stream string
+		want   string
+	}{
+		{[]string{path, "--segment", "yard", "--segments-shown", "1"}, "stdout", "1 more segment not shown (0 of them outside); --segments-shown 0 shows all, --format json lists all"},
+		{[]string{path, "--time", "read_at", "--shifts", "06:00,14:00,22:00"}, "stdout", "the validation set's own counts per shift (give --volume to scale them to production)"},
+		{[]string{path, "--cost-miss", "10"}, "stdout", "on the validation set; with --bootstrap, a warning says when the cost threshold lies outside"},
+		{[]string{reversedPath}, "stderr", "is below 0.5: the scores rank false cases above true ones more often than not; if lower scores mean likely true cases, add --lower-is-riskier"},
+		{[]string{reversedPath, "--score", "other", "--lower-is-riskier"}, "stderr", "if higher scores mean likely true cases, drop --lower-is-riskier"},
+	} {
+		res := runSill(t, "", append([]string{"report"}, c.args...)...)
+		got := res.stdout
+		if c.stream == "stderr" {
+			got = res.stderr
+		}
+		if res.code != 0 || !strings.Contains(got, c.want) {
+			t.Errorf("%v: code %d, %s lacks %q:\n%s", c.args, res.code, c.stream, c.want, got)
 		}
 	}
 }

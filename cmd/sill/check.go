@@ -100,7 +100,7 @@ decision file.`,
 			if set.Dropped > 0 {
 				fmt.Fprintf(cmd.ErrOrStderr(), "sill: warning: %d rows of %s were dropped for an invalid score\n", set.Dropped, args[1])
 			}
-			res, err := drift.Check(file, set, drift.Options{Tolerance: tolerance, Labelled: set.LabelColumn != "" && !ignoreLabels})
+			res, err := drift.Check(file, set, drift.Options{Tolerance: tolerance, Labelled: set.LabelColumn != "" && !ignoreLabels, IgnoreLabels: "--ignore-labels"})
 			if err != nil {
 				return fmt.Errorf("check %s: %w", args[1], err)
 			}

@@ -105,6 +105,13 @@ both models' cuts side by side.`,
 	return cmd
 }
 
+// demoAssumptions are the flags of the demo's operating assumptions
+// (package demo).
+func demoAssumptions() []string {
+	return []string{fmt.Sprintf("--volume=%d", demo.Volume), fmt.Sprintf("--capacity=%d", demo.Capacity),
+		fmt.Sprintf("--cost-false-alert=%d", demo.CostFalseAlert), fmt.Sprintf("--cost-miss=%d", demo.CostMiss)}
+}
+
 // demoShifts are the flags that place the demo's readings in the depot's
 // three crew shifts.
 var demoShifts = []string{"--time=read_at", "--shifts=06:00,14:00,22:00", "--tz=UTC"}
@@ -126,7 +133,7 @@ func demoConfig() (tui.Config, error) {
 	fs := pflag.NewFlagSet("demo", pflag.ContinueOnError)
 	o.assume.register(fs)
 	o.registerBeyond(fs)
-	if err := fs.Parse(append(append([]string(nil), demo.Assumptions...), demoShifts...)); err != nil {
+	if err := fs.Parse(append(demoAssumptions(), demoShifts...)); err != nil {
 		return tui.Config{}, err
 	}
 	if err := o.beyond.prepare(&o.input); err != nil {

@@ -12,7 +12,6 @@ import (
 	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
-	"github.com/sill-tool/sill/internal/demo"
 	"github.com/sill-tool/sill/internal/report"
 	"github.com/sill-tool/sill/internal/scores"
 )
@@ -121,7 +120,7 @@ func (o *reportOptions) run(ctx context.Context, set *scores.Set, stdout, stderr
 		}
 		return report.WriteCurveCSV(stdout, points)
 	}
-	r := report.New(res, report.Options{SegmentOrder: o.beyond.order(), SegmentsShown: o.beyond.segmentsShown})
+	r := report.New(res, report.Options{SegmentOrder: o.beyond.order(), SegmentsShown: o.beyond.segmentsShown, Hints: reportHints})
 	// Saved once every figure is computed, so that an error leaves no file.
 	if err := o.save.write(ctx, set, a, res.Outcomes, stderr); err != nil {
 		return err
@@ -148,6 +147,14 @@ func (o *reportOptions) run(ctx context.Context, set *scores.Set, stdout, stderr
 	return err
 }
 
+// reportHints are the flags that change what a report shows.
+var reportHints = report.Hints{
+	AllSegments:    "--segments-shown 0 shows all, --format json lists all",
+	Resampling:     "with --bootstrap",
+	Volume:         "give --volume",
+	LowerIsRiskier: "--lower-is-riskier",
+}
+
 // runDefault runs when sill is called with no command: the explorer on the
 // built-in demo data when standard input and output are terminals, else
 // the report of the same data.
@@ -160,7 +167,7 @@ func runDefault(cmd *cobra.Command) error {
 	fs := pflag.NewFlagSet("demo", pflag.ContinueOnError)
 	o.assume.register(fs)
 	o.beyond.register(fs)
-	if err := fs.Parse(append(append([]string(nil), demo.Assumptions...), demoShifts...)); err != nil {
+	if err := fs.Parse(append(demoAssumptions(), demoShifts...)); err != nil {
 		return err
 	}
 	if err := o.beyond.prepare(&o.input); err != nil {

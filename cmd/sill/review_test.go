@@ -49,7 +49,7 @@ func savedDemo(t *testing.T, dir string) (scoresPath, cutPath string) {
 	scoresPath = writeFile(t, dir, "bearings.csv", demo.CSV(demo.DefaultRows, demo.DefaultSeed))
 	cutPath = filepath.Join(dir, "cut.yaml")
 	args := append([]string{"report", scoresPath, "--cut", "hit=0.8", "--cut", "base", "--cut", "queue=90", "--cut", "cost",
-		"--save", cutPath, "--choose", "queue=90"}, demo.Assumptions...)
+		"--save", cutPath, "--choose", "queue=90"}, demoAssumptions()...)
 	if r := runSill(t, "", args...); r.code != 0 {
 		t.Fatalf("report --save: exit %d, %s", r.code, r.stderr)
 	}

@@ -67,12 +67,13 @@ type Rule struct {
 	Percent bool    // top=P%: Value is a percentage
 }
 
-// Errors returned by Parse and Find.
+// Errors returned by Parse and Find. They name what is missing, not how a
+// caller sets it; the command line adds its flags.
 var (
 	ErrMalformed   = errors.New("malformed cut spec")
-	ErrNeedsVolume = errors.New("needs a volume per shift (--volume)")
-	ErrNeedsCosts  = errors.New("needs at least one cost (--cost-false-alert, --cost-miss or --cost-hit)")
-	ErrNeedsShifts = errors.New("needs case times and a shift schedule (--time and --shifts)")
+	ErrNeedsVolume = errors.New("needs a volume per shift")
+	ErrNeedsCosts  = errors.New("needs at least one cost")
+	ErrNeedsShifts = errors.New("needs case times and a shift schedule")
 )
 
 // slack is the relative tolerance of every comparison with a rule's value.

@@ -33,11 +33,17 @@ const (
 	DefaultSeed = 7
 )
 
-// Assumptions are the operating flags that fit the scenario: the desk
-// scores about 1500 readings per shift, a crew shift can work 90 alerts,
-// a wrong alert costs about 120 (a crew inspection and yard time) and a
-// missed failing bearing about 1200 (a wheelset and a delayed train).
-var Assumptions = []string{"--volume=1500", "--capacity=90", "--cost-false-alert=120", "--cost-miss=1200"}
+// The operating assumptions that fit the scenario: the desk scores about
+// 1500 readings per shift (Volume), a crew shift can work 90 alerts
+// (Capacity), a wrong alert costs about 120 (a crew inspection and yard
+// time) and a missed failing bearing about 1200 (a wheelset and a
+// delayed train).
+const (
+	Volume         = 1500
+	Capacity       = 90
+	CostFalseAlert = 120
+	CostMiss       = 1200
+)
 
 // Source is the name the built-in data goes by in reports and files.
 const Source = "built-in demo (Veldmoor Freight bearing desk)"

@@ -46,6 +46,10 @@ type Options struct {
 	// Labelled says the new set carries outcomes, so recall and precision
 	// are checked as well.
 	Labelled bool
+	// IgnoreLabels names, in the caller's words, how labels are set aside
+	// (the command line gives its flag), for the note that says why
+	// recall and precision were not checked; "" leaves it out.
+	IgnoreLabels string
 }
 
 // Result is the outcome of Check.
@@ -82,6 +86,8 @@ type Result struct {
 
 	Drift    bool     // any check drifted
 	Findings []string // one line per drift, then notes
+
+	ignoreLabels string // Options.IgnoreLabels, for the notes
 }
 
 // Check applies the chosen cut of f to set and runs the checks of the
@@ -140,7 +146,7 @@ func check(f *decision.File, chosen decision.Candidate, t tally, opt Options) *R
 	a := f.Assumptions
 	res := &Result{
 		Chosen: chosen.Name, Cut: chosen.Cut.Score, LowerIsRiskier: f.Data.LowerIsRiskier,
-		Rows: t.rows, Weight: t.weight, Flagged: t.flagged, Weighted: t.weighted, Labelled: opt.Labelled, Tolerance: opt.Tolerance, Confidence: a.Confidence,
+		Rows: t.rows, Weight: t.weight, Flagged: t.flagged, Weighted: t.weighted, Labelled: opt.Labelled, Tolerance: opt.Tolerance, Confidence: a.Confidence, ignoreLabels: opt.IgnoreLabels,
 		PSI: math.NaN(), PSINoise: math.NaN(), PSINoiseLevel: math.NaN(),
 	}
 	tp, positives := t.tp, t.positives
@@ -259,7 +265,11 @@ func (r *Result) findings() {
 			notes = append(notes, "the cut flags nothing in the new data, so precision was not checked")
 		}
 	} else {
-		notes = append(notes, "no labels were read from the new data (no label column, or --ignore-labels), so recall and precision were not checked")
+		why := "no label column"
+		if r.ignoreLabels != "" {
+			why += ", or " + r.ignoreLabels
+		}
+		notes = append(notes, "no labels were read from the new data ("+why+"), so recall and precision were not checked")
 	}
 	r.Drift = len(drift) > 0
 	r.Findings = append(drift, notes...)

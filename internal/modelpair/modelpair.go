@@ -208,7 +208,7 @@ func Second(set *scores.Set) (*scores.Set, error) {
 
 // Errors of Join.
 var (
-	ErrNoIDs       = errors.New("joining two files needs an id column in both (--id)")
+	ErrNoIDs       = errors.New("joining two files needs an id column in both")
 	ErrDuplicateID = errors.New("duplicate id")
 	ErrUnmatchedID = errors.New("id missing from the second file")
 	ErrLabelClash  = errors.New("the two files disagree on a case's label")

@@ -95,7 +95,11 @@ func (r *Report) addSegments(res *analysis.Result, order segment.Order, shown in
 			if hidden == 1 {
 				word = "segment"
 			}
-			notes = append(notes, fmt.Sprintf("%d more %s not shown (%d of them outside); --segments-shown 0 shows all, --format json lists all", hidden, word, hiddenOutside))
+			note := fmt.Sprintf("%d more %s not shown (%d of them outside)", hidden, word, hiddenOutside)
+			if r.hints.AllSegments != "" {
+				note += "; " + r.hints.AllSegments
+			}
+			notes = append(notes, note)
 		}
 		r.sections = append(r.sections, section{
 			title: fmt.Sprintf("segments (%s) at %s, cut %s", set.SegmentColumn, r.Cuts[i].Spec, Score(o.Point.Score)),
@@ -185,8 +189,11 @@ func (r *Report) addCalibration(res *analysis.Result) {
 		if r.baseRateGiven {
 			line += " (probability " + Fixed(p, 3) + " at the production base rate)"
 		}
-		notes = append(notes, line, "empirical least-cost cut "+Score(float64(cf.LeastCostCut))+
-			" on the validation set; with --bootstrap, a warning says when the cost threshold lies outside the range where the least-cost cut lands in resampled sets")
+		least := "empirical least-cost cut " + Score(float64(cf.LeastCostCut)) + " on the validation set"
+		if r.hints.Resampling != "" {
+			least += "; " + r.hints.Resampling + ", a warning says when the cost threshold lies outside the range where the least-cost cut lands in resampled sets"
+		}
+		notes = append(notes, line, least)
 		r.beyond.costThreshold = float64(cf.CostThreshold)
 	}
 	for i, o := range res.Outcomes {
@@ -289,7 +296,11 @@ func (r *Report) addShiftPeaks(res *analysis.Result) {
 		notes = append(notes, fmt.Sprintf("scaled to %s cases per shift: the validation set is taken as an even sample of the period, so each flagged true case counts %.3g alerts and each false one %.3g",
 			Count(float64(r.Assumptions.Volume)), scale.Positive, scale.Negative))
 	} else {
-		notes = append(notes, "the validation set's own counts per shift (give --volume to scale them to production)")
+		own := "the validation set's own counts per shift"
+		if r.hints.Volume != "" {
+			own += " (" + r.hints.Volume + " to scale them to production)"
+		}
+		notes = append(notes, own)
 	}
 	r.sections = append(r.sections, section{title: "queue per real shift of the validation period", table: t, notes: notes})
 }

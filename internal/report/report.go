@@ -52,7 +52,8 @@ type Report struct {
 	// the validation one, for the text forms.
 	baseRateGiven bool
 	cutsEvidence  []evidence.Cut
-	sections      []section // added by the Add methods in beyond.go
+	sections      []section // added by the add methods in beyond.go
+	hints         Hints
 	beyond        beyondState
 }
 
@@ -133,13 +134,25 @@ type Options struct {
 	// SegmentsShown is how many groups the text forms show under each
 	// cut; 0 shows all. JSON lists all.
 	SegmentsShown int
+	// Hints say how the reader changes what the report shows.
+	Hints Hints
+}
+
+// Hints name, in the caller's words, how a reader changes what a report
+// shows: the command line gives its flags, a screen its own keys or
+// fields. An empty hint is left out of the text.
+type Hints struct {
+	AllSegments    string // shows every segment under each cut, e.g. "--segments-shown 0 shows all"
+	Resampling     string // asks for the bootstrap, e.g. "with --bootstrap"
+	Volume         string // gives production's volume, e.g. "give --volume"
+	LowerIsRiskier string // says that lower scores are riskier, e.g. "--lower-is-riskier"
 }
 
 // New gathers the report of res (package analysis): the summary, the
 // figures of each cut and what res holds beyond them. It computes
 // nothing of its own.
 func New(res *analysis.Result, opt Options) *Report {
-	r := newReport(res.Set, res.Summary, res.Assume, res.Outcomes)
+	r := newReport(res.Set, res.Summary, res.Assume, res.Outcomes, opt.Hints)
 	r.addSegments(res, opt.SegmentOrder, opt.SegmentsShown)
 	r.addCalibration(res)
 	r.addShiftPeaks(res)
@@ -152,7 +165,7 @@ func New(res *analysis.Result, opt Options) *Report {
 
 // newReport gathers a report of set, whose summary is sum, under a, with
 // one outcome per requested cut.
-func newReport(set *scores.Set, sum curve.Summary, a projection.Assumptions, outcomes []cutrule.Outcome) *Report {
+func newReport(set *scores.Set, sum curve.Summary, a projection.Assumptions, outcomes []cutrule.Outcome, hints Hints) *Report {
 	r := &Report{
 		Source:           set.Source,
 		Rows:             sum.Rows,
@@ -175,7 +188,8 @@ func newReport(set *scores.Set, sum curve.Summary, a projection.Assumptions, out
 			CostHit:        null,
 			Confidence:     number(a.Confidence),
 		},
-		Warnings:      Warnings(set, sum),
+		Warnings:      Warnings(set, sum, hints),
+		hints:         hints,
 		Caution:       evidence.Caution,
 		baseRateGiven: a.BaseRate != sum.BaseRate,
 	}
@@ -200,8 +214,9 @@ func newReport(set *scores.Set, sum curve.Summary, a projection.Assumptions, out
 
 // Warnings lists what a reader of any output should know about the data:
 // dropped rows, a class missing, and a ROC AUC below 0.5 (the direction
-// probably the wrong way round).
-func Warnings(set *scores.Set, sum curve.Summary) []string {
+// probably the wrong way round, with hints.LowerIsRiskier as the way to
+// turn it).
+func Warnings(set *scores.Set, sum curve.Summary, hints Hints) []string {
 	var w []string
 	invalid := set.Dropped
 	if c := set.NoScore; c != nil {
@@ -227,11 +242,14 @@ func Warnings(set *scores.Set, sum curve.Summary) []string {
 	case sum.ROCAUC < 0.5:
 		// More often than not a false case outranks a true one: most
 		// likely the direction is the wrong way round.
-		flip := "if lower scores mean likely true cases, add --lower-is-riskier"
+		flip := "; if lower scores mean likely true cases, add " + hints.LowerIsRiskier
 		if set.LowerIsRiskier {
-			flip = "if higher scores mean likely true cases, drop --lower-is-riskier"
+			flip = "; if higher scores mean likely true cases, drop " + hints.LowerIsRiskier
 		}
-		w = append(w, "ROC AUC "+Fixed(sum.ROCAUC, 3)+" is below 0.5: the scores rank false cases above true ones more often than not; "+flip)
+		if hints.LowerIsRiskier == "" {
+			flip = ""
+		}
+		w = append(w, "ROC AUC "+Fixed(sum.ROCAUC, 3)+" is below 0.5: the scores rank false cases above true ones more often than not"+flip)
 	}
 	return w
 }

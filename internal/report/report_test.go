@@ -666,7 +666,7 @@ func TestWarnings(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if got := report.Warnings(set, curve.Walk(set, nil)); !slices.Equal(got, tc.want) {
+		if got := report.Warnings(set, curve.Walk(set, nil), report.Hints{LowerIsRiskier: "--lower-is-riskier"}); !slices.Equal(got, tc.want) {
 			t.Errorf("%s: %q, want %q", tc.name, got, tc.want)
 		}
 	}
