@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"context"
 	"fmt"
 	"os"
 	"path/filepath"
@@ -10,7 +11,7 @@ import (
 	"github.com/spf13/cobra"
 	"github.com/spf13/cobra/doc"
 
-	"github.com/sill-tool/sill/internal/atomicfile"
+	"github.com/sill-tool/sill/internal/sharedfile"
 )
 
 // newManualCmd returns the hidden command that writes the man pages of the
@@ -23,7 +24,7 @@ func newManualCmd() *cobra.Command {
 		Hidden: true,
 		Args:   argsNamed("FOLDER (where the man pages go)"),
 		RunE: func(cmd *cobra.Command, args []string) error {
-			names, err := writeManual(cmd.Root(), args[0])
+			names, err := writeManual(cmd.Context(), cmd.Root(), args[0])
 			if err != nil {
 				return err
 			}
@@ -39,7 +40,7 @@ func newManualCmd() *cobra.Command {
 // of SOURCE_DATE_EPOCH, else of today. It changes the commands it is given
 // (their descriptions become preformatted text), so give it a tree made
 // for the purpose.
-func writeManual(root *cobra.Command, dir string) ([]string, error) {
+func writeManual(ctx context.Context, root *cobra.Command, dir string) ([]string, error) {
 	// The pages cover the completion command and the --version flag that
 	// cobra adds when the binary runs.
 	root.InitDefaultCompletionCmd()
@@ -62,7 +63,7 @@ func writeManual(root *cobra.Command, dir string) ([]string, error) {
 			return fmt.Errorf("manual: %s: %w", cmd.CommandPath(), err)
 		}
 		name := strings.ReplaceAll(cmd.CommandPath(), " ", "-") + ".1"
-		if err := atomicfile.Write(filepath.Join(dir, name), page.Bytes(), 0o644); err != nil {
+		if _, err := sharedfile.Write(ctx, filepath.Join(dir, name), page.Bytes(), sharedfile.Options{Perm: 0o644}); err != nil {
 			return fmt.Errorf("manual: %w", err)
 		}
 		names = append(names, name)
