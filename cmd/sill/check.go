@@ -9,6 +9,7 @@ import (
 
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/drift"
+	"github.com/sill-tool/sill/internal/report"
 	"github.com/sill-tool/sill/internal/scores"
 )
 
@@ -97,8 +98,8 @@ decision file.`,
 				}
 				return err
 			}
-			if set.Dropped > 0 {
-				fmt.Fprintf(cmd.ErrOrStderr(), "sill: warning: %d rows of %s were dropped for an invalid score\n", set.Dropped, args[1])
+			for _, w := range report.DroppedWarnings(set) {
+				fmt.Fprintf(cmd.ErrOrStderr(), "sill: warning: %s: %s\n", args[1], w)
 			}
 			res, err := drift.Check(file, set, drift.Options{Tolerance: tolerance, Labelled: set.LabelColumn != "" && !ignoreLabels, IgnoreLabels: "--ignore-labels"})
 			if err != nil {

@@ -198,6 +198,9 @@ func TestCheckCounts(t *testing.T) {
 	for _, score := range order {
 		fmt.Fprintf(&counts, "%s,%d,%d\n", score, byScore[score].positives, byScore[score].negatives)
 	}
+	// Cases whose score was NULL where they were counted: dropped, and
+	// said so, leaving every figure as the raw rows give it.
+	counts.WriteString("\\N,3,4\n")
 	rowsPath := writeFile(t, dir, "fresh.csv", fresh)
 	countsPath := writeFile(t, dir, "fresh-counts.csv", []byte(counts.String()))
 	for _, extra := range [][]string{nil, {"--ignore-labels"}} {
@@ -209,6 +212,9 @@ func TestCheckCounts(t *testing.T) {
 		// The outputs differ only in the name of the scores file.
 		if got := strings.ReplaceAll(table.stdout, "fresh-counts.csv", "fresh.csv"); got != rows.stdout {
 			t.Errorf("%v: counts table\n%s\nraw rows\n%s", extra, got, rows.stdout)
+		}
+		if want := "sill: warning: " + countsPath + ": 7 rows were dropped for a score that was missing or not a number (3 true cases, 4 false)"; !strings.Contains(table.stderr, want) {
+			t.Errorf("%v: stderr %q, want %q", extra, table.stderr, want)
 		}
 		if labelled := !strings.Contains(rows.stdout, `"recall_observed": null`); labelled != (extra == nil) {
 			t.Errorf("%v: recall observed %v", extra, labelled)

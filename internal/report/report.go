@@ -212,11 +212,10 @@ func newReport(set *scores.Set, sum curve.Summary, a projection.Assumptions, out
 	return r
 }
 
-// Warnings lists what a reader of any output should know about the data:
-// dropped rows, a class missing, and a ROC AUC below 0.5 (the direction
-// probably the wrong way round, with hints.LowerIsRiskier as the way to
-// turn it).
-func Warnings(set *scores.Set, sum curve.Summary, hints Hints) []string {
+// DroppedWarnings says how many rows of set were dropped and why: those
+// with no score by label (a counts table's rows with no score), the rest
+// for an invalid score. It returns nothing when none were dropped.
+func DroppedWarnings(set *scores.Set) []string {
 	var w []string
 	invalid := set.Dropped
 	if c := set.NoScore; c != nil {
@@ -231,6 +230,15 @@ func Warnings(set *scores.Set, sum curve.Summary, hints Hints) []string {
 	if invalid > 0 {
 		w = append(w, plural(invalid, "row was", "rows were")+" dropped for an invalid score")
 	}
+	return w
+}
+
+// Warnings lists what a reader of any output should know about the data:
+// dropped rows, a class missing, and a ROC AUC below 0.5 (the direction
+// probably the wrong way round, with hints.LowerIsRiskier as the way to
+// turn it).
+func Warnings(set *scores.Set, sum curve.Summary, hints Hints) []string {
+	w := DroppedWarnings(set)
 	switch {
 	case sum.Rows == 0:
 	case !(sum.Positives+sum.Negatives > 0):
