@@ -8,6 +8,8 @@ import (
 	"runtime/debug"
 	"strings"
 	"testing"
+
+	"github.com/sill-tool/sill/internal/decision"
 )
 
 // buildInfo fabricates the build information of a binary with the given
@@ -111,5 +113,24 @@ func TestVersionFlag(t *testing.T) {
 			}
 			os.Remove(binary)
 		})
+	}
+}
+
+// TestDecisionFileToolVersion: a saved decision file names the build that
+// wrote it as --version does, so that it never reads "dev".
+func TestDecisionFileToolVersion(t *testing.T) {
+	dir := t.TempDir()
+	scoresPath := writeFile(t, dir, "scores.csv", []byte(goodTable))
+	cutPath := filepath.Join(dir, "cut.yaml")
+	if r := runSill(t, "", "report", scoresPath, "--cut", "base", "--save", cutPath); r.code != 0 {
+		t.Fatalf("report --save: exit %d, %s", r.code, r.stderr)
+	}
+	f, err := decision.ReadFile(cutPath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	version := runSill(t, "", "--version").stdout
+	if f.ToolVersion+"\n" != version || f.WrittenBy() != f.ToolVersion || strings.Contains(f.ToolVersion, "dev") {
+		t.Errorf("tool_version %q, --version %q", f.ToolVersion, version)
 	}
 }
