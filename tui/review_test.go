@@ -412,6 +412,24 @@ func TestReviewEscThenKey(t *testing.T) {
 	}
 }
 
+// TestReviewTypedAhead checks that keys typed ahead over a slow link and
+// read as one message of several runes act one by one, as in the
+// explorer: "lc" selects the next candidate and chooses it, "nok" opens
+// the note box and types "ok" into it.
+func TestReviewTypedAhead(t *testing.T) {
+	r, _ := newTestReview(t, 100, 30)
+	next := r.file.Candidates[r.selected+1].Name
+	r, _ = sendReview(t, r, keyPress("lc"))
+	if r.file.Chosen != next || !r.Changed() {
+		t.Fatalf("lc: chosen %q changed %v, want %q chosen", r.file.Chosen, r.Changed(), next)
+	}
+	r, _ = sendReview(t, r, keyPress("nok"))
+	r, _ = sendReview(t, r, keyPress("enter"))
+	if got := r.file.Candidates[r.selected].Note; got != "ok" {
+		t.Errorf("nok then enter: note %q, want \"ok\"", got)
+	}
+}
+
 // TestReviewHeaderBaseRate checks that the header names the validation
 // base rate beside production's when they differ (434 of 6000 cases in
 // the demo: 7.2%), and only then.
