@@ -28,7 +28,14 @@ func readParquet(path string, stdin io.Reader, file *os.File, opt scores.Options
 		return set, true, err
 	}
 	magic := make([]byte, len(scores.ParquetMagic))
-	if _, err := file.ReadAt(magic, 0); (err != nil || !bytes.Equal(magic, scores.ParquetMagic)) && opt.Input != scores.InputParquet {
+	isParquet := false
+	if _, err := file.ReadAt(magic, 0); err == nil && bytes.Equal(magic, scores.ParquetMagic) {
+		isParquet = true
+	}
+	switch {
+	case isParquet && opt.Input != scores.InputAuto && opt.Input != scores.InputParquet:
+		return nil, true, parquetContradiction(path, opt.Input)
+	case !isParquet && opt.Input != scores.InputParquet:
 		return nil, false, nil
 	}
 	info, err := file.Stat()
@@ -37,6 +44,13 @@ func readParquet(path string, stdin io.Reader, file *os.File, opt scores.Options
 	}
 	set, err = scores.ReadParquet(file, info.Size(), path, parquetOptions(opt))
 	return set, true, err
+}
+
+// parquetContradiction is the error for a Parquet file given with --input
+// csv or jsonl: reading it as text could only fail on the binary, so the
+// contradiction is refused in words.
+func parquetContradiction(path, input string) error {
+	return fmt.Errorf("%s: --input %s, but the file begins with Parquet's magic bytes %q, expected %s text (leave out --input, or give --input parquet)", path, input, scores.ParquetMagic, map[string]string{scores.InputCSV: "delimited", scores.InputJSONL: "JSON Lines"}[input])
 }
 
 func parquetOptions(opt scores.Options) scores.Options {

@@ -49,6 +49,9 @@ func loadPiped(stdin io.Reader, opt scores.Options) (*scores.Set, error) {
 	}
 	if magic := make([]byte, len(scores.ParquetMagic)); written >= int64(len(magic)) {
 		if _, err := spool.ReadAt(magic, 0); err == nil && bytes.Equal(magic, scores.ParquetMagic) {
+			if opt.Input != scores.InputAuto {
+				return nil, parquetContradiction("-", opt.Input)
+			}
 			return scores.ReadParquet(spool, written, "-", parquetOptions(opt)) // Parquet through a pipe
 		}
 	}

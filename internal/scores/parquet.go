@@ -3,6 +3,7 @@ package scores
 import (
 	"bytes"
 	"crypto/sha256"
+	"encoding/binary"
 	"encoding/hex"
 	"errors"
 	"fmt"
@@ -91,17 +92,33 @@ func ReadParquetFiles(files []ParquetFile, source string, opt Options) (*Set, er
 }
 
 // readParquetFile adds the rows of one file; the first file's columns
-// settle the builder's.
-func (b *builder) readParquetFile(pf ParquetFile, first bool, digest io.Writer) error {
+// settle the builder's. The library that decodes Parquet trusts the
+// file's metadata: checkParquetLayout checks first what it does not, and a
+// panic that a damaged page still causes in it, here or in a row group's
+// goroutine, becomes an error naming the file, row group and column.
+func (b *builder) readParquetFile(pf ParquetFile, first bool, digest io.Writer) (err error) {
 	source := pf.Name
 	b.source = source
 	fail := func(format string, args ...any) error {
 		return &ParseError{File: source, Err: fmt.Errorf("%w: "+format, append([]any{ErrBadParquet}, args...)...)}
 	}
-	file, err := parquet.OpenFile(pf.Data, pf.Size)
-	if err != nil {
+	if err := checkParquetEnds(pf); err != nil {
 		return fail("%v", err)
 	}
+	stage := "the footer does not decode, expected Parquet file metadata"
+	defer func() {
+		if p := recover(); p != nil {
+			err = fail("%s", stage)
+		}
+	}()
+	file, err := parquet.OpenFile(pf.Data, pf.Size, parquet.SkipPageIndex(true), parquet.SkipBloomFilters(true))
+	if err != nil {
+		return fail("%s", stage)
+	}
+	if err := checkParquetLayout(file.Metadata(), pf.Size); err != nil {
+		return fail("%v", err)
+	}
+	stage = "the schema does not describe the columns, expected a valid Parquet schema"
 	if _, err := io.Copy(digest, io.NewSectionReader(pf.Data, 0, pf.Size)); err != nil {
 		return &ParseError{File: source, Err: fmt.Errorf("read: %w", err)}
 	}
@@ -120,6 +137,9 @@ func (b *builder) readParquetFile(pf ParquetFile, first bool, digest io.Writer) 
 	} else if strings.Join(header, "\x00") != strings.Join(b.header, "\x00") {
 		return fail("columns %s, expected those of the first file, %s", quoteList(header), quoteList(b.header))
 	}
+	if groups := file.Metadata().RowGroups; len(groups) > 0 && len(groups[0].Columns) != len(paths) {
+		return fail("%d column chunks in a row group, expected one for each of the schema's %d columns", len(groups[0].Columns), len(paths))
+	}
 	columns := []wantedColumn{{b.scoreCol, "score"}, {b.labelCol, "label"}, {b.weightCol, "weight"}, {b.segmentCol, "segment"}, {b.idCol, "id"}}
 	leaves := make([]parquet.LeafColumn, len(columns))
 	for i, c := range columns {
@@ -136,8 +156,9 @@ func (b *builder) readParquetFile(pf ParquetFile, first bool, digest io.Writer) 
 		leaves[i] = leaf
 	}
 
-	// Make room for the file's rows at once rather than growing by appends.
-	rows := int(file.NumRows())
+	// Make room for the file's rows at once rather than growing by appends,
+	// up to a bound: the row count is the file's word, not yet its data.
+	rows := int(min(file.NumRows(), parquetReserveRows))
 	b.scores = slices.Grow(b.scores, rows)
 	b.labels = slices.Grow(b.labels, rows)
 	if b.weightCol >= 0 {
@@ -148,6 +169,7 @@ func (b *builder) readParquetFile(pf ParquetFile, first bool, digest io.Writer) 
 	}
 	// Row groups are decoded on every core, a few ahead, and added in
 	// order; decoding only reads the builder.
+	stage = "the row groups do not decode, expected row groups as the footer describes them"
 	groups := file.RowGroups()
 	type decoded struct {
 		g    *decodedGroup
@@ -160,17 +182,20 @@ func (b *builder) readParquetFile(pf ParquetFile, first bool, digest io.Writer) 
 	defer close(stop)
 	go func() {
 		defer close(pending)
-		for _, group := range groups {
+		first := 0 // the first row of the group, 0-based
+		for index, group := range groups {
 			d := &decoded{done: make(chan struct{})}
 			select {
 			case pending <- d:
 			case <-stop:
 				return
 			}
-			go func(group parquet.RowGroup) {
+			n := int(group.NumRows())
+			go func(group parquet.RowGroup, index, first int) {
 				defer close(d.done)
-				d.g, d.err = b.decodeRowGroup(group, int(group.NumRows()), columns, leaves)
-			}(group)
+				d.g, d.err = b.decodeRowGroup(group, n, columns, leaves, rowGroupPlace{index: index, count: len(groups), first: first})
+			}(group, index, first)
+			first += n
 		}
 	}()
 	row := 0 // rows before the current row group
@@ -188,6 +213,98 @@ func (b *builder) readParquetFile(pf ParquetFile, first bool, digest io.Writer) 
 		row += n
 	}
 	return nil
+}
+
+// parquetReserveRows bounds the rows made room for before a file's row
+// groups are read; beyond it the columns grow as rows are added.
+const parquetReserveRows = 1 << 22
+
+// parquetTail is the bytes after the footer: its length and the magic.
+const parquetTail = 8
+
+// checkParquetEnds checks what OpenFile reads first, so that a file too
+// short or a footer length pointing outside the file is said so in words:
+// the magic at both ends and a footer that fits between them.
+func checkParquetEnds(pf ParquetFile) error {
+	magic := len(ParquetMagic)
+	if pf.Size < int64(magic+parquetTail) {
+		return fmt.Errorf("%d bytes, expected at least %d: the magic %q at both ends and a footer", pf.Size, magic+parquetTail, ParquetMagic)
+	}
+	head := make([]byte, magic)
+	if _, err := pf.Data.ReadAt(head, 0); err != nil {
+		return fmt.Errorf("read the first bytes: %w", err)
+	}
+	if !bytes.Equal(head, ParquetMagic) {
+		return fmt.Errorf("begins with %q, expected the magic %q", head, ParquetMagic)
+	}
+	tail := make([]byte, parquetTail)
+	if _, err := pf.Data.ReadAt(tail, pf.Size-parquetTail); err != nil && err != io.EOF {
+		return fmt.Errorf("read the last bytes: %w", err)
+	}
+	if !bytes.Equal(tail[4:], ParquetMagic) {
+		return fmt.Errorf("ends with %q, expected the magic %q (a file cut short?)", tail[4:], ParquetMagic)
+	}
+	footer := int64(binary.LittleEndian.Uint32(tail[:4]))
+	if room := pf.Size - int64(magic+parquetTail); footer > room || footer == 0 {
+		return fmt.Errorf("footer length %d, expected 1 to %d for a file of %d bytes", footer, room, pf.Size)
+	}
+	return nil
+}
+
+// checkParquetLayout checks the footer's account of the data, which the
+// decoding library takes on trust: row counts that are not negative and
+// add up, and every column chunk inside the file's data, between the
+// leading magic and the footer, with a value count that is not negative.
+func checkParquetLayout(meta *format.FileMetaData, size int64) error {
+	dataEnd := size - parquetTail // the footer's start is checked below, per chunk
+	if meta.NumRows < 0 {
+		return fmt.Errorf("footer gives %d rows, expected a count >= 0", meta.NumRows)
+	}
+	var rows int64
+	for g, group := range meta.RowGroups {
+		if group.NumRows < 0 || group.NumRows > meta.NumRows-rows {
+			return fmt.Errorf("row group %d gives %d rows, expected 0 to %d of the file's %d", g+1, group.NumRows, meta.NumRows-rows, meta.NumRows)
+		}
+		rows += group.NumRows
+		if len(group.Columns) != len(meta.RowGroups[0].Columns) {
+			return fmt.Errorf("row group %d has %d column chunks, expected %d as the first", g+1, len(group.Columns), len(meta.RowGroups[0].Columns))
+		}
+		for c, chunk := range group.Columns {
+			m := chunk.MetaData
+			name := strings.Join(m.PathInSchema, ".")
+			if name == "" {
+				name = fmt.Sprintf("number %d", c+1)
+			}
+			if chunk.FilePath != "" {
+				return fmt.Errorf("row group %d, column %q: data in another file %q, expected it in this one", g+1, name, chunk.FilePath)
+			}
+			start := m.DataPageOffset
+			if m.DictionaryPageOffset != 0 {
+				start = m.DictionaryPageOffset
+			}
+			switch {
+			case m.NumValues < 0:
+				return fmt.Errorf("row group %d, column %q: %d values, expected a count >= 0", g+1, name, m.NumValues)
+			case start < int64(len(ParquetMagic)) || start > dataEnd:
+				return fmt.Errorf("row group %d, column %q: data at byte %d, expected %d to %d", g+1, name, start, len(ParquetMagic), dataEnd)
+			case m.TotalCompressedSize < 0 || m.TotalCompressedSize > dataEnd-start:
+				return fmt.Errorf("row group %d, column %q: %d bytes of data from byte %d, expected 0 to %d within the file", g+1, name, m.TotalCompressedSize, start, dataEnd-start)
+			}
+		}
+	}
+	if rows != meta.NumRows {
+		return fmt.Errorf("footer gives %d rows, its row groups %d", meta.NumRows, rows)
+	}
+	return nil
+}
+
+// rowGroupPlace says where a row group is, for errors.
+type rowGroupPlace struct {
+	index, count, first int // 0-based group, groups in the file, 0-based first row
+}
+
+func (p rowGroupPlace) String() string {
+	return fmt.Sprintf("row group %d of %d", p.index+1, p.count)
 }
 
 // wantedColumn is a column the set needs: col indexes the header, -1 when
@@ -210,8 +327,19 @@ type decodedGroup struct {
 
 // decodeRowGroup reads and converts the columns of a row group; columns
 // and leaves are score, label, weight, segment and id, col -1 when unused.
-func (b *builder) decodeRowGroup(group parquet.RowGroup, n int, columns []wantedColumn, leaves []parquet.LeafColumn) (*decodedGroup, error) {
-	g := &decodedGroup{scores: make([]float64, n)}
+// A panic of the decoding library on a damaged page becomes an error
+// naming the group and column: it may run on a goroutine of its own.
+func (b *builder) decodeRowGroup(group parquet.RowGroup, n int, columns []wantedColumn, leaves []parquet.LeafColumn, place rowGroupPlace) (g *decodedGroup, err error) {
+	column := ""
+	defer func() {
+		if p := recover(); p != nil {
+			g, err = nil, &ParseError{File: b.source, Column: column, Err: fmt.Errorf("%w: %v (rows %d to %d): a page does not decode, expected pages as the column chunk's metadata describes them", ErrBadParquet, place, place.first+1, place.first+n)}
+		}
+	}()
+	// The columns grow as values come rather than being made n long at
+	// once: n is the footer's word, the values are the data.
+	reserve := min(n, parquetReserveRows)
+	g = &decodedGroup{scores: make([]float64, 0, reserve)}
 	chunks := group.ColumnChunks()
 	note := func(m *map[int]error, row int, err error) {
 		if *m == nil {
@@ -223,6 +351,7 @@ func (b *builder) decodeRowGroup(group parquet.RowGroup, n int, columns []wanted
 		if c.col < 0 {
 			continue
 		}
+		column = b.header[c.col]
 		leaf := leaves[i]
 		kind := kindOf(leaf)
 		var visit func(row int, v parquet.Value)
@@ -233,35 +362,38 @@ func (b *builder) decodeRowGroup(group parquet.RowGroup, n int, columns []wanted
 				if err != nil {
 					note(&g.scoreErr, row, err)
 				}
-				g.scores[row] = x
+				g.scores = append(g.scores, x)
 			}
 		case 1:
-			g.labels = make([]bool, n)
+			g.labels = make([]bool, 0, reserve)
 			visit = func(row int, v parquet.Value) {
 				positive, err := b.parquetLabel(v, kind)
 				if err != nil {
 					note(&g.labelErr, row, err)
 				}
-				g.labels[row] = positive
+				g.labels = append(g.labels, positive)
 			}
 		case 2:
-			g.weights, g.hasWeights = make([]float64, n), true
+			g.weights, g.hasWeights = make([]float64, 0, reserve), true
 			visit = func(row int, v parquet.Value) {
 				w, err := parquetNumber(v, kind, parseWeight)
 				if err != nil {
 					note(&g.weightErr, row, err)
 				}
-				g.weights[row] = w
+				g.weights = append(g.weights, w)
 			}
 		case 3:
-			g.segments, g.hasSegments = make([]string, n), true
-			visit = func(row int, v parquet.Value) { g.segments[row] = parquetText(v, kind) }
+			g.segments, g.hasSegments = make([]string, 0, reserve), true
+			visit = func(row int, v parquet.Value) { g.segments = append(g.segments, parquetText(v, kind)) }
 		case 4:
-			g.ids = make([]string, n)
-			visit = func(row int, v parquet.Value) { g.ids[row] = parquetText(v, kind) }
+			g.ids = make([]string, 0, reserve)
+			visit = func(row int, v parquet.Value) { g.ids = append(g.ids, parquetText(v, kind)) }
+		}
+		if leaf.ColumnIndex < 0 || leaf.ColumnIndex >= len(chunks) {
+			return nil, &ParseError{File: b.source, Column: column, Err: fmt.Errorf("%w: %v has no chunk for the column, expected one for every column", ErrBadParquet, place)}
 		}
 		if err := eachValue(chunks[leaf.ColumnIndex], n, visit); err != nil {
-			return nil, &ParseError{File: b.source, Column: b.header[c.col], Err: fmt.Errorf("%w: %v", ErrBadParquet, err)}
+			return nil, &ParseError{File: b.source, Column: column, Err: fmt.Errorf("%w: %v (rows %d to %d): %v", ErrBadParquet, place, place.first+1, place.first+n, err)}
 		}
 	}
 	return g, nil
@@ -274,13 +406,13 @@ func eachValue(chunk parquet.ColumnChunk, n int, visit func(row int, v parquet.V
 	defer pages.Close()
 	buf := make([]parquet.Value, 1024)
 	row := 0
-	for {
+	for number := 1; ; number++ {
 		page, err := pages.ReadPage()
 		if err == io.EOF {
 			break
 		}
 		if err != nil {
-			return err
+			return fmt.Errorf("page %d does not decode, expected pages as the column chunk's metadata describes them", number)
 		}
 		reader := page.Values()
 		for {
@@ -288,7 +420,7 @@ func eachValue(chunk parquet.ColumnChunk, n int, visit func(row int, v parquet.V
 			for _, v := range buf[:k] {
 				if row >= n {
 					parquet.Release(page)
-					return fmt.Errorf("more values than the %d rows of the row group", n)
+					return fmt.Errorf("page %d goes past the group's %d rows, expected one value per row", number, n)
 				}
 				visit(row, v)
 				row++
@@ -298,13 +430,13 @@ func eachValue(chunk parquet.ColumnChunk, n int, visit func(row int, v parquet.V
 			}
 			if err != nil {
 				parquet.Release(page)
-				return err
+				return fmt.Errorf("the values of page %d do not decode, expected values as its header describes them", number)
 			}
 		}
 		parquet.Release(page)
 	}
 	if row != n {
-		return fmt.Errorf("%d values in a row group of %d rows", row, n)
+		return fmt.Errorf("%d values for %d rows, expected one value per row", row, n)
 	}
 	return nil
 }
