@@ -7,7 +7,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"strconv"
 	"strings"
 )
 
@@ -67,6 +66,9 @@ func ReadCounts(r io.Reader, source string, opt Options) (*Set, error) {
 	if err != nil {
 		return nil, err
 	}
+	if opt.Input == InputAuto && sniff(in) == InputJSONL {
+		return nil, &ParseError{File: source, Err: errors.New(`JSON Lines (the first line begins with "{"), expected a counts table: delimited text with a header line naming score, positives and negatives`)}
+	}
 	b := &builder{opt: opt, source: source}
 	cr, header, err := b.readHeader(in)
 	if err != nil {
@@ -98,7 +100,7 @@ func ReadCounts(r io.Reader, source string, opt Options) (*Set, error) {
 	}
 	count := func(record []string, col, line int) (float64, error) {
 		text := strings.TrimSpace(record[col])
-		v, err := strconv.ParseFloat(text, 64)
+		v, err := parseDecimal(text)
 		if err != nil || !(v >= 0 && v <= maxCount) || v != math.Trunc(v) {
 			return 0, &ParseError{File: source, Line: line, Column: header[col], Err: &valueError{sentinel: ErrBadCount, value: text, hint: "expected a whole number of cases >= 0"}}
 		}

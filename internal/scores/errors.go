@@ -15,8 +15,14 @@ var (
 	ErrBadLabel      = errors.New("unrecognised label")
 	ErrBadWeight     = errors.New("invalid weight")
 	ErrCorruptGzip   = errors.New("corrupt gzip data")
+	ErrGzipTwice     = errors.New("gzip data inside gzip data")
 	ErrBadJSON       = errors.New("malformed JSON")
 	ErrBadTime       = errors.New("invalid time")
+	ErrBlankLine     = errors.New("a line of only spaces or tabs")
+
+	// ErrDuplicateColumn: two columns of a header, or two keys of a JSON
+	// object, have one name, and which one to read would be a guess.
+	ErrDuplicateColumn = errors.New("duplicate column name")
 )
 
 // ParseError reports bad input at a place in a file. Line is 1-based and

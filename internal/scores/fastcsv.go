@@ -112,7 +112,7 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 		return nil, errDecline // a read error, or a header longer than the buffer
 	}
 	headerLine = append([]byte(nil), headerLine...)
-	if len(bytes.TrimSpace(headerLine)) == 0 || isSpaceByte(headerLine[0]) || (opt.Input == InputAuto && headerLine[0] == '{') {
+	if len(bytes.TrimSpace(headerLine)) == 0 || isSpaceByte(headerLine[0]) || (opt.Input == InputAuto && (headerLine[0] == '{' || headerLine[0] == '[')) {
 		return nil, errDecline
 	}
 	delim := opt.Delimiter
@@ -351,6 +351,10 @@ func (p *blockParser) produce(in io.Reader) (<-chan *block, *error, chan struct{
 			if !end {
 				cut := bytes.LastIndexByte(buf, '\n')
 				if cut < 0 {
+					if len(buf) > MaxLine {
+						*readErr = ErrTooLong // Read says where
+						return
+					}
 					carry = append(carry[:0], buf...) // a line longer than a block
 					continue
 				}
@@ -436,6 +440,10 @@ func (p *blockParser) parse(blk *block) {
 				field++
 				start = end + 1
 			}
+		}
+		if end > MaxLine {
+			blk.event = &rowEvent{decline: true} // Read says where
+			return
 		}
 		row := data[:end]
 		if end < len(data) {

@@ -303,7 +303,7 @@ func TestLoadCases(t *testing.T) {
 		{"empty", "", Options{}, `t.csv: empty input, expected a header line`},
 		{"json lines", "{\"score\":0.5,\"label\":1}\n", Options{}, ""},
 		{"multi-line quoted id", "id,score,label\n\"a\nb\",0.5,1\n", Options{}, ""},
-		{"open quote", "score,label\n\"0.5,1\n", Options{}, `t.csv:2: extraneous or missing " in quoted-field`},
+		{"open quote", "score,label\n\"0.5,1\n", Options{}, `t.csv:2: quoted field not closed: a quoted field opens on this line and the input ends inside it, expected a closing " on this line`},
 		{"dropped rows", "score,label\n,1\nnan,0\n0.4,1\n", Options{DropInvalid: true}, ""},
 		{"segment column", "score,label,g\n0.5,1,a\n0.4,0,b\n", Options{SegmentColumn: "g"}, ""},
 		{"score and label the same column", "v\n1\n0\n", Options{ScoreColumn: "v", LabelColumn: "v"}, ""},

@@ -13,6 +13,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 	"time"
@@ -111,21 +112,61 @@ func Read(r io.Reader, source string, opt Options) (*Set, error) {
 }
 
 // openInput returns a buffered reader of the decompressed bytes with any
-// byte-order mark skipped.
+// byte-order mark skipped. Gzip data is read member by member, so that
+// bytes after the last member that are not another one are an error
+// saying so, and gzip data inside gzip data is refused.
 func openInput(r io.Reader, source string) (*bufio.Reader, error) {
 	buffered := bufio.NewReaderSize(r, 1<<20)
-	magic, _ := buffered.Peek(2)
-	if len(magic) == 2 && magic[0] == 0x1f && magic[1] == 0x8b {
+	if isGzip(buffered) {
 		z, err := gzip.NewReader(buffered)
 		if err != nil {
 			return nil, &ParseError{File: source, Err: fmt.Errorf("%w: %v", ErrCorruptGzip, err)}
 		}
-		buffered = bufio.NewReaderSize(z, 1<<20)
+		z.Multistream(false)
+		buffered = bufio.NewReaderSize(&gzipMembers{src: buffered, z: z}, 1<<20)
+		if isGzip(buffered) {
+			return nil, &ParseError{File: source, Err: fmt.Errorf("%w: the decompressed bytes begin with gzip's magic again, expected text; decompress the file once before reading it", ErrGzipTwice)}
+		}
 	}
 	if bom, _ := buffered.Peek(3); bytes.Equal(bom, []byte("\xef\xbb\xbf")) {
 		buffered.Discard(3)
 	}
 	return buffered, nil
+}
+
+// isGzip reports whether in begins with gzip's magic bytes.
+func isGzip(in *bufio.Reader) bool {
+	magic, _ := in.Peek(2)
+	return len(magic) == 2 && magic[0] == 0x1f && magic[1] == 0x8b
+}
+
+// errGzipTrailing is the error of bytes after a gzip member that do not
+// begin another.
+var errGzipTrailing = fmt.Errorf("%w: bytes after the end of the compressed data that do not begin another gzip member, expected the file to end there", ErrCorruptGzip)
+
+// gzipMembers reads the members of a gzip file one after the other, as
+// gzip tools do, and refuses other bytes after the last.
+type gzipMembers struct {
+	src *bufio.Reader
+	z   *gzip.Reader
+}
+
+func (g *gzipMembers) Read(p []byte) (int, error) {
+	n, err := g.z.Read(p)
+	if err != io.EOF {
+		return n, err
+	}
+	if _, more := g.src.Peek(1); more != nil {
+		return n, io.EOF // the end of the file
+	}
+	if !isGzip(g.src) {
+		return n, errGzipTrailing
+	}
+	if err := g.z.Reset(g.src); err != nil {
+		return n, err
+	}
+	g.z.Multistream(false)
+	return n, nil
 }
 
 // builder collects rows column-wise.
@@ -153,6 +194,11 @@ type builder struct {
 
 func (b *builder) readAll(in *bufio.Reader) error {
 	format := b.opt.Input
+	if format == InputAuto || format == InputJSONL {
+		if err := b.jsonArray(in, format == InputJSONL); err != nil {
+			return err
+		}
+	}
 	if format == InputAuto {
 		format = sniff(in)
 	}
@@ -176,28 +222,56 @@ func (b *builder) readAll(in *bufio.Reader) error {
 
 // sniff guesses the format from the first non-blank byte.
 func sniff(in *bufio.Reader) string {
-	for n := 1; ; n++ {
-		peek, err := in.Peek(n)
-		if len(peek) < n {
-			return InputCSV
-		}
-		c := peek[n-1]
-		if c == ' ' || c == '\t' || c == '\r' || c == '\n' {
-			if err != nil || n >= 4096 {
-				return InputCSV
-			}
-			continue
-		}
-		if c == '{' {
-			return InputJSONL
-		}
-		return InputCSV
+	if c, _ := firstNonBlank(in, 0); c == '{' {
+		return InputJSONL
 	}
+	return InputCSV
+}
+
+// firstNonBlank returns the first byte of in from offset on that is not a
+// space, tab or line end, and its offset, peeking at most 4096 bytes; 0
+// when there is none.
+func firstNonBlank(in *bufio.Reader, offset int) (byte, int) {
+	for n := offset + 1; n <= offset+4096; n++ {
+		peek, _ := in.Peek(n)
+		if len(peek) < n {
+			return 0, n
+		}
+		if c := peek[n-1]; c != ' ' && c != '\t' && c != '\r' && c != '\n' {
+			return c, n - 1
+		}
+	}
+	return 0, offset + 4096
+}
+
+// jsonArray returns an error when in holds a JSON array of objects, as
+// many tools write JSON, rather than JSON Lines; explicit is whether JSON
+// Lines was asked for, when any array is that error.
+func (b *builder) jsonArray(in *bufio.Reader, explicit bool) error {
+	c, at := firstNonBlank(in, 0)
+	if c != '[' {
+		return nil
+	}
+	if next, _ := firstNonBlank(in, at+1); !explicit && next != '{' && next != ']' {
+		return nil // a header that begins with [
+	}
+	peek, _ := in.Peek(at)
+	return &ParseError{File: b.source, Line: bytes.Count(peek, []byte{'\n'}) + 1, Err: fmt.Errorf("%w: a JSON array, expected JSON Lines: one object per line, without the enclosing [ ] and the commas between objects", ErrBadJSON)}
 }
 
 // resolve finds the wanted columns in the header.
 func (b *builder) resolve(header []string, line int) error {
 	b.header = header
+	first := make(map[string]int, len(header))
+	for i, h := range header {
+		if h == "" {
+			continue // unnamed, as an index column often is: never looked up
+		}
+		if j, seen := first[h]; seen {
+			return &ParseError{File: b.source, Line: line, Column: h, Err: fmt.Errorf("%w: the name of columns %d and %d, expected each name once", ErrDuplicateColumn, j+1, i+1)}
+		}
+		first[h] = i
+	}
 	find := func(name string, defaults []string, required bool, what string) (int, error) {
 		if name != "" {
 			for i, h := range header {
@@ -433,7 +507,10 @@ func parseScore(text string) (float64, error) {
 	if text == "" {
 		return 0, &valueError{sentinel: ErrBadScore, value: text, hint: "expected a number, found an empty cell"}
 	}
-	v, err := strconv.ParseFloat(text, 64)
+	v, err := parseDecimal(text)
+	if err == errGoNotation {
+		return 0, &valueError{sentinel: ErrBadScore, value: text, hint: goNotationHint}
+	}
 	if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
 		return 0, &valueError{sentinel: ErrBadScore, value: text, hint: "expected a finite number"}
 	}
@@ -466,7 +543,10 @@ func parseTime(text, layout string, loc *time.Location) (int64, error) {
 
 func parseWeight(text string) (float64, error) {
 	text = strings.TrimSpace(text)
-	v, err := strconv.ParseFloat(text, 64)
+	v, err := parseDecimal(text)
+	if err == errGoNotation {
+		return 0, &valueError{sentinel: ErrBadWeight, value: text, hint: goNotationHint}
+	}
 	if err != nil || math.IsNaN(v) || math.IsInf(v, 0) || v < 0 {
 		return 0, &valueError{sentinel: ErrBadWeight, value: text, hint: "expected a finite number >= 0"}
 	}
@@ -489,7 +569,7 @@ func (b *builder) parseLabel(text string) (bool, error) {
 		return false, nil
 	}
 	// Numeric spellings such as 1.0 or 0.0, as written by float columns.
-	if v, err := strconv.ParseFloat(word, 64); err == nil && (v == 0 || v == 1) {
+	if v, err := parseDecimal(word); err == nil && (v == 0 || v == 1) {
 		return v == 1, nil
 	}
 	return false, &valueError{sentinel: ErrBadLabel, value: text, hint: "expected 1/true/yes/positive or 0/false/no/negative (or set --positive)"}
@@ -498,26 +578,27 @@ func (b *builder) parseLabel(text string) (bool, error) {
 // readHeader opens a CSV reader on in, with the delimiter detected from
 // the header line unless Options.Delimiter sets it, and reads the header,
 // its names trimmed. An empty input or a blank header is ErrEmpty.
-func (b *builder) readHeader(in *bufio.Reader) (*csv.Reader, []string, error) {
+func (b *builder) readHeader(in *bufio.Reader) (*recordReader, []string, error) {
+	peeked, err := peekHeader(in)
+	if len(peeked) == 0 {
+		if err != nil && err != io.EOF {
+			return nil, nil, b.readError(0, err)
+		}
+		return nil, nil, &ParseError{File: b.source, Err: ErrEmpty}
+	}
+	headerLine := bytes.TrimLeft(peeked, "\r\n") // blank lines before the header
+	line := 1 + bytes.Count(peeked[:len(peeked)-len(headerLine)], []byte{'\n'})
+	if i := bytes.IndexByte(headerLine, '\n'); i >= 0 {
+		headerLine = headerLine[:i]
+	}
+	if len(headerLine) > 0 && len(bytes.TrimSpace(headerLine)) == 0 {
+		return nil, nil, &ParseError{File: b.source, Line: line, Err: fmt.Errorf("%w before the header, expected the header line", ErrBlankLine)}
+	}
 	delim := b.opt.Delimiter
 	if delim == 0 {
-		headerLine, err := peekHeader(in)
-		if len(headerLine) == 0 {
-			if err != nil && err != io.EOF {
-				return nil, nil, b.readError(0, err)
-			}
-			return nil, nil, &ParseError{File: b.source, Err: ErrEmpty}
-		}
-		headerLine = bytes.TrimLeft(headerLine, "\r\n") // blank lines before the header
-		if i := bytes.IndexByte(headerLine, '\n'); i >= 0 {
-			headerLine = headerLine[:i]
-		}
 		delim = detectDelimiter(headerLine)
 	}
-	r := csv.NewReader(in)
-	r.Comma = delim
-	r.FieldsPerRecord = -1
-	r.ReuseRecord = true
+	r := newRecordReader(in, b.source, delim)
 	header, err := r.Read()
 	if err == io.EOF {
 		return nil, nil, &ParseError{File: b.source, Err: ErrEmpty}
@@ -601,6 +682,9 @@ func detectDelimiter(header []byte) rune {
 
 func (b *builder) csvError(err error) error {
 	var pe *csv.ParseError
+	if own, ok := err.(*ParseError); ok {
+		return own
+	}
 	if errors.As(err, &pe) {
 		if errors.Is(pe.Err, csv.ErrFieldCount) {
 			return &ParseError{File: b.source, Line: pe.Line, Err: ErrRagged}
@@ -613,6 +697,9 @@ func (b *builder) csvError(err error) error {
 // readError wraps an error from the underlying stream, recognising broken
 // gzip data.
 func (b *builder) readError(line int, err error) error {
+	if errors.Is(err, ErrCorruptGzip) {
+		return &ParseError{File: b.source, Line: line, Err: err}
+	}
 	var corrupt flate.CorruptInputError
 	if errors.Is(err, gzip.ErrChecksum) || errors.Is(err, gzip.ErrHeader) || errors.Is(err, io.ErrUnexpectedEOF) || errors.As(err, &corrupt) {
 		return &ParseError{File: b.source, Line: line, Err: fmt.Errorf("%w: %v", ErrCorruptGzip, err)}
@@ -626,7 +713,10 @@ func (b *builder) readJSONL(in *bufio.Reader) error {
 	line := 0
 	var keys []string
 	for {
-		text, err := in.ReadBytes('\n')
+		text, err := readLine(in)
+		if err == ErrTooLong {
+			return &ParseError{File: b.source, Line: line + 1, Err: fmt.Errorf("%w, expected one JSON object per line", ErrTooLong)}
+		}
 		if len(text) > 0 {
 			line++
 			if trimmed := bytes.TrimSpace(text); len(trimmed) > 0 {
@@ -690,9 +780,10 @@ func decodeObject(data []byte) (map[string]string, []string, error) {
 		if err != nil {
 			return nil, nil, fmt.Errorf("key %q: %v", key, err)
 		}
-		if _, dup := values[key]; !dup {
-			order = append(order, key)
+		if _, dup := values[key]; dup {
+			return nil, nil, fmt.Errorf("%w: key %q is both key %d and key %d of the object, expected each key once", ErrDuplicateColumn, key, slices.Index(order, key)+1, len(order)+1)
 		}
+		order = append(order, key)
 		values[key] = text
 	}
 	if _, err := dec.Token(); err != nil {

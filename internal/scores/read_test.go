@@ -192,7 +192,7 @@ func TestReadErrors(t *testing.T) {
 		{
 			name:    "unclosed quote",
 			input:   "score,label\n0.1,\"1\n",
-			message: `f.csv:2: extraneous or missing " in quoted-field`,
+			message: `f.csv:2: quoted field not closed: a quoted field opens on this line and the input ends inside it, expected a closing " on this line`,
 		},
 		{
 			name:     "jsonl null score",
