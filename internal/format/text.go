@@ -1,0 +1,63 @@
+package format
+
+import "strings"
+
+// Grid lays out a heading and rows as text columns padded to their widest
+// cell: the first column left-aligned, the others right-aligned (they hold
+// figures), two spaces apart, with no trailing spaces. When wordsLast is
+// set the last column is left-aligned too, for a column of words (a note,
+// a sentence). Every row has as many cells as the heading.
+func Grid(header []string, rows [][]string, wordsLast bool) string {
+	widths := make([]int, len(header))
+	for _, row := range append([][]string{header}, rows...) {
+		for i, cell := range row {
+			widths[i] = max(widths[i], len([]rune(cell)))
+		}
+	}
+	var b strings.Builder
+	for _, row := range append([][]string{header}, rows...) {
+		var l strings.Builder
+		for i, cell := range row {
+			pad := strings.Repeat(" ", widths[i]-len([]rune(cell)))
+			if i == 0 {
+				l.WriteString(cell + pad)
+			} else if wordsLast && i == len(header)-1 {
+				l.WriteString("  " + cell + pad)
+			} else {
+				l.WriteString("  " + pad + cell)
+			}
+		}
+		b.WriteString(strings.TrimRight(l.String(), " ") + "\n") // no trailing spaces after an empty last cell
+	}
+	return b.String()
+}
+
+// Markdown escapes the characters that Markdown tables, emphasis and
+// inline HTML read (so that a note such as "<night> shift" shows as
+// written), and folds line breaks into spaces. It does not make the text
+// terminal-safe: the Markdown writers pass their whole output through
+// PrintableText.
+func Markdown(s string) string {
+	s = strings.NewReplacer("|", `\|`, "*", `\*`, "_", `\_`, "`", "\\`", "\r\n", " ", "\n", " ").Replace(s)
+	// A "<" opens inline HTML only before a letter, "/", "!" or "?"; a
+	// figure's "<=" is left as it is.
+	var b strings.Builder
+	for i := 0; i < len(s); i++ {
+		if s[i] == '<' && i+1 < len(s) && (isASCIILetter(s[i+1]) || strings.IndexByte("/!?", s[i+1]) >= 0) {
+			b.WriteByte('\\')
+		}
+		b.WriteByte(s[i])
+	}
+	return b.String()
+}
+
+func isASCIILetter(c byte) bool { return 'a' <= c && c <= 'z' || 'A' <= c && c <= 'Z' }
+
+// MarkdownCells is Markdown applied to each cell of a table row.
+func MarkdownCells(cells []string) []string {
+	out := make([]string, len(cells))
+	for i, c := range cells {
+		out[i] = Markdown(c)
+	}
+	return out
+}
