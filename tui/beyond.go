@@ -1,14 +1,13 @@
 package tui
 
 import (
-	"math"
 	"strconv"
 
 	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/bootstrap"
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
-	"github.com/sill-tool/sill/internal/report"
+	"github.com/sill-tool/sill/internal/format"
 	"github.com/sill-tool/sill/internal/segment"
 	"github.com/sill-tool/sill/internal/shift"
 )
@@ -187,9 +186,9 @@ func ruleWords(r cutrule.Rule) string {
 	case cutrule.Base:
 		return "the base-rate point"
 	case cutrule.Queue:
-		return "the capacity point (" + report.Count(r.Value) + " a shift)"
+		return "the capacity point (" + format.Count(r.Value) + " a shift)"
 	case cutrule.Queue90:
-		return "the 9-shifts-in-10 point (" + report.Count(r.Value) + ")"
+		return "the 9-shifts-in-10 point (" + format.Count(r.Value) + ")"
 	case cutrule.Cost:
 		return "the least-cost point"
 	}
@@ -197,13 +196,5 @@ func ruleWords(r cutrule.Rule) string {
 }
 
 // significant formats a percentile of scores, which interpolates between
-// data scores, with three significant digits (whole numbers from 1000).
-func significant(v float64) string {
-	switch {
-	case math.IsNaN(v):
-		return "n/a"
-	case math.Abs(v) >= 1000:
-		return strconv.FormatFloat(v, 'f', 0, 64)
-	}
-	return strconv.FormatFloat(v, 'g', 3, 64)
-}
+// data scores, as the report does.
+func significant(v float64) string { return format.Significant(v, 4) }

@@ -11,12 +11,11 @@ import (
 	"github.com/charmbracelet/lipgloss"
 	"github.com/charmbracelet/x/ansi"
 	"github.com/muesli/termenv"
-
 	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/decision"
+	"github.com/sill-tool/sill/internal/format"
 	"github.com/sill-tool/sill/internal/projection"
-	"github.com/sill-tool/sill/internal/report"
 	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/segment"
 	"github.com/sill-tool/sill/internal/shift"
@@ -138,7 +137,7 @@ func TestShiftPeaks(t *testing.T) {
 	if want.P90 > 90 || at(m.s.cursor+1).P90 <= 90 {
 		t.Errorf("queue90=90 at cut %d: p90 %v, one looser %v", m.s.cursor, want.P90, at(m.s.cursor+1).P90)
 	}
-	if !strings.Contains(m.View(), "9 in 10 ≤ "+report.Fixed(want.P90, 0)+" · busiest "+report.Fixed(want.Max, 0)) {
+	if !strings.Contains(m.View(), "9 in 10 ≤ "+format.Number(want.P90, 0)+" · busiest "+format.Number(want.Max, 0)) {
 		t.Errorf("the figures do not show the 90th percentile %v:\n%s", want.P90, m.View())
 	}
 	// Double the volume in the form: every queue doubles.

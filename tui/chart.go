@@ -9,10 +9,9 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/x/ansi"
 	"github.com/guptarohit/asciigraph"
-
 	"github.com/sill-tool/sill/internal/bootstrap"
 	"github.com/sill-tool/sill/internal/curve"
-	"github.com/sill-tool/sill/internal/report"
+	"github.com/sill-tool/sill/internal/format"
 )
 
 // chartView is what the chart plots.
@@ -154,9 +153,9 @@ func (p *curvePane) View() string {
 		*p.painted = paintedChart{key: key, x: x, beyond: beyond, pins: pinsKey, text: b.String()}
 	}
 	point := p.s.point()
-	where := fmt.Sprintf("┃ this cut: %s flagged", report.Percent(point.FlaggedShare()))
+	where := fmt.Sprintf("┃ this cut: %s flagged", format.Share(point.FlaggedShare()))
 	if p.view == viewROC {
-		where = fmt.Sprintf("┃ this cut: false positive rate %s", report.Percent(point.FalsePositiveRate()))
+		where = fmt.Sprintf("┃ this cut: false positive rate %s", format.Share(point.FalsePositiveRate()))
 	}
 	if beyond {
 		where += " (beyond the right edge →)"

@@ -5,8 +5,7 @@ import (
 
 	"github.com/charmbracelet/bubbles/key"
 	"github.com/charmbracelet/x/ansi"
-
-	"github.com/sill-tool/sill/internal/report"
+	"github.com/sill-tool/sill/internal/format"
 )
 
 // What the explorer shows around its panes, and of its keys: the header,
@@ -19,7 +18,7 @@ func (m Model) header() string {
 	s := m.s
 	sum := s.curve.Summary
 	right := fmt.Sprintf("%d rows · %s true (%s) · ROC AUC %s", sum.Rows,
-		report.Count(sum.Positives), report.Percent(sum.BaseRate), report.Fixed(sum.ROCAUC, 3))
+		format.Count(sum.Positives), format.Share(sum.BaseRate), format.Number(sum.ROCAUC, 3))
 	if s.set.Weighted() { // a counts table's weights are whole cases, not weights
 		right += " · weighted"
 	}

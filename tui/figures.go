@@ -9,13 +9,12 @@ import (
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/x/ansi"
-
 	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/bootstrap"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/evidence"
+	"github.com/sill-tool/sill/internal/format"
 	"github.com/sill-tool/sill/internal/projection"
-	"github.com/sill-tool/sill/internal/report"
 	"github.com/sill-tool/sill/internal/shift"
 )
 
@@ -147,36 +146,36 @@ func (p figuresPane) body() string {
 	add := func(format string, args ...any) { lines = append(lines, fmt.Sprintf(format, args...)) }
 	width := p.width - st.Pane.GetHorizontalFrameSize()
 
-	add("%s %s %s", st.Label.Render("flag score "+sign), st.Figure.Render(report.Score(e.Score)),
-		st.Muted.Render(fmt.Sprintf("· %s flagged (%s)", report.Count(e.Flagged), report.Percent(e.FlaggedShare))))
-	add("%s %s  %s", st.Label.Render("hit share"), st.Figure.Render(report.Percent(e.Recall)),
-		st.Muted.Render(conf+" "+report.Range(e.RecallCI)))
+	add("%s %s %s", st.Label.Render("flag score "+sign), st.Figure.Render(format.Score(e.Score)),
+		st.Muted.Render(fmt.Sprintf("· %s flagged (%s)", format.Count(e.Flagged), format.Share(e.FlaggedShare))))
+	add("%s %s  %s", st.Label.Render("hit share"), st.Figure.Render(format.Share(e.Recall)),
+		st.Muted.Render(conf+" "+format.Interval(e.RecallCI)))
 	band, banded := p.band()
-	found := report.Count(e.TP) + " of " + report.Count(e.TP+e.FN) + " true cases found"
+	found := format.Count(e.TP) + " of " + format.Count(e.TP+e.FN) + " true cases found"
 	if banded {
-		found = report.Count(e.TP) + " of " + report.Count(e.TP+e.FN) + " found · redraws " + report.Range(band.Recall)
+		found = format.Count(e.TP) + " of " + format.Count(e.TP+e.FN) + " found · redraws " + format.Interval(band.Recall)
 	}
 	add("  %s", st.Muted.Render(found))
-	add("%s %s  %s", st.Label.Render("wrong-alert share"), st.Figure.Render(report.Percent(e.FalseDiscoveryRate)),
-		st.Muted.Render(conf+" "+report.Range(e.FalseDiscoveryCI)))
+	add("%s %s  %s", st.Label.Render("wrong-alert share"), st.Figure.Render(format.Share(e.FalseDiscoveryRate)),
+		st.Muted.Render(conf+" "+format.Interval(e.FalseDiscoveryCI)))
 	reading := Reading(e.FalseDiscoveryRate)
 	if s.baseRateChanged() {
 		// What the desk will see is the share at production's base rate.
 		production := e.Projected.FalseDiscoveryRate()
 		short := strings.NewReplacer(" alerts are wrong", " wrong", " alerts is wrong", " wrong", " alerts is right", " right").Replace(Reading(production))
-		reading = "in production " + report.Percent(production) + " (" + short + ")"
+		reading = "in production " + format.Share(production) + " (" + short + ")"
 	}
 	if banded {
 		reading = strings.Replace(reading, " alerts are wrong", " wrong", 1)
 		reading = strings.Replace(reading, " alerts is wrong", " wrong", 1)
-		reading += " · redraws " + report.Range(band.FalseDiscoveryRate)
+		reading += " · redraws " + format.Interval(band.FalseDiscoveryRate)
 	}
 	add("  %s", st.Muted.Render(reading))
 	// The alert rate is projected to production's base rate; say so where
 	// the line has room, as the strip does.
 	rates := func(fpr, alert string) string {
-		return fmt.Sprintf("%s %s %s", st.Label.Render(fpr), report.Percent(e.FalsePositiveRate),
-			st.Muted.Render("· "+alert+" "+report.Percent(e.Projected.AlertRate)))
+		return fmt.Sprintf("%s %s %s", st.Label.Render(fpr), format.Share(e.FalsePositiveRate),
+			st.Muted.Render("· "+alert+" "+format.Share(e.Projected.AlertRate)))
 	}
 	for _, words := range [][2]string{{"false positive rate", "projected alert rate"}, {"false positive rate", "alert rate"}, {"false pos. rate", "alert rate"}} {
 		line := rates(words[0], words[1])
@@ -186,14 +185,14 @@ func (p figuresPane) body() string {
 		}
 	}
 	if a.Volume > 0 {
-		queue := st.Label.Render("queue per shift") + " " + st.Figure.Render(report.Queue(e.Projected.QueuePerShift))
+		queue := st.Label.Render("queue per shift") + " " + st.Figure.Render(format.Queue(e.Projected.QueuePerShift))
 		if a.Capacity > 0 {
-			against := report.Against(e.Projected.QueuePerShift, a.Capacity)
+			against := format.Against(e.Projected.QueuePerShift, a.Capacity)
 			style := st.Muted
 			if e.Projected.QueuePerShift > a.Capacity {
 				style = st.Warning
 			}
-			queue += " " + style.Render("("+against+" cap "+report.Count(a.Capacity)+")")
+			queue += " " + style.Render("("+against+" cap "+format.Count(a.Capacity)+")")
 		}
 		lines = append(lines, queue)
 		if peaks, ok := s.peaksAtCut(s.cursor); ok {
@@ -204,9 +203,9 @@ func (p figuresPane) body() string {
 	}
 	switch {
 	case a.Costs != nil && a.Volume > 0:
-		add("%s %s %s", st.Label.Render("cost per shift"), st.Figure.Render(report.Money(e.Projected.CostPerShift)), st.Muted.Render(costsText(a.Costs)))
+		add("%s %s %s", st.Label.Render("cost per shift"), st.Figure.Render(format.Money(e.Projected.CostPerShift)), st.Muted.Render(costsText(a.Costs)))
 	case a.Costs != nil:
-		head := st.Label.Render("cost per case") + " " + st.Figure.Render(report.Money(e.Projected.CostPerCase)) + " "
+		head := st.Label.Render("cost per case") + " " + st.Figure.Render(format.Money(e.Projected.CostPerCase)) + " "
 		lines = append(lines, head+st.Muted.Render(longestFit(width-ansi.StringWidth(head), "(a volume gives it per shift)", "(per shift: a volume)")))
 	default:
 		lines = append(lines, st.Muted.Render(longestFit(width, "cost per shift: needs costs (a to set them)", "cost per shift: needs costs (a)")))
@@ -214,14 +213,14 @@ func (p figuresPane) body() string {
 	if s.calibration() != nil {
 		point := s.point()
 		cut, all := analysis.NetBenefit(point, s.curve.Summary.BaseRate)
-		head := st.Label.Render("net benefit") + " " + st.Figure.Render(report.Fixed(cut, 4)) + " "
-		lines = append(lines, head+st.Muted.Render(longestFit(width-ansi.StringWidth(head), "a case · flag all "+report.Fixed(all, 4), "· flag all "+report.Fixed(all, 4))))
+		head := st.Label.Render("net benefit") + " " + st.Figure.Render(format.Number(cut, 4)) + " "
+		lines = append(lines, head+st.Muted.Render(longestFit(width-ansi.StringWidth(head), "a case · flag all "+format.Number(all, 4), "· flag all "+format.Number(all, 4))))
 	}
 	if s.second() != nil {
 		lines = append(lines, p.secondLine())
 	}
 	add("%s", st.Muted.Render(fmt.Sprintf("validation TP %s FP %s FN %s TN %s",
-		report.Count(e.TP), report.Count(e.FP), report.Count(e.FN), report.Count(e.TN))))
+		format.Count(e.TP), format.Count(e.FP), format.Count(e.FN), format.Count(e.TN))))
 	lines = append(lines, p.startLine(p.width-st.Pane.GetHorizontalFrameSize()))
 	if s.resampling.running || s.stability != nil {
 		lines = append(lines, p.stabilityLines(p.width-st.Pane.GetHorizontalFrameSize())...)
@@ -241,16 +240,16 @@ func (p figuresPane) peaksLine(peaks shift.Peaks) string {
 	}
 	overLong, overShort := "", ""
 	if s.assume.Capacity > 0 {
-		overLong = " · " + report.Percent(peaks.OverCapacity) + " over cap"
-		overShort = ", " + report.Fixed(100*peaks.OverCapacity, 0) + "% over"
+		overLong = " · " + format.Share(peaks.OverCapacity) + " over cap"
+		overShort = ", " + format.Number(100*peaks.OverCapacity, 0) + "% over"
 	}
-	whole := func(v float64) string { return report.Fixed(v, 0) }
+	whole := func(v float64) string { return format.Number(v, 0) }
 	when := " (" + s.busiest(peaks.Busiest) + ")"
 	// The longest form that fits, down to the shortest.
 	forms := [][4]string{
-		{"9 in 10 shifts ≤", report.Queue(peaks.P90), " · busiest " + report.Queue(peaks.Max) + when, overLong},
+		{"9 in 10 shifts ≤", format.Queue(peaks.P90), " · busiest " + format.Queue(peaks.Max) + when, overLong},
 		{"9 in 10 ≤", whole(peaks.P90), " · busiest " + whole(peaks.Max) + when, overShort},
-		{"9 in 10 shifts ≤", report.Queue(peaks.P90), " · busiest " + report.Queue(peaks.Max), overLong},
+		{"9 in 10 shifts ≤", format.Queue(peaks.P90), " · busiest " + format.Queue(peaks.Max), overLong},
 		{"shifts: 9/10 ≤", whole(peaks.P90), ", max " + whole(peaks.Max), overShort},
 	}
 	var line string
@@ -271,8 +270,8 @@ func (p figuresPane) secondLine() string {
 	if !ok {
 		return st.Muted.Render("model B: no cases")
 	}
-	return st.Label.Render("B at this workload") + " " + st.Muted.Render("hit ") + st.Figure.Render(report.Percent(q.Recall())) +
-		st.Muted.Render(" · wrong ") + st.Figure.Render(report.Percent(q.FalseDiscoveryRate()))
+	return st.Label.Render("B at this workload") + " " + st.Muted.Render("hit ") + st.Figure.Render(format.Share(q.Recall())) +
+		st.Muted.Render(" · wrong ") + st.Figure.Render(format.Share(q.FalseDiscoveryRate()))
 }
 
 // stabilityLines are the bootstrap's figures for the cursor's cut: while
@@ -302,7 +301,7 @@ func (p figuresPane) stabilityLines(width int) []string {
 			fmt.Sprintf("%s: score %s to %s on another set of this size", ruleWords(sp.Rule), from, to),
 		}
 	} else if band, ok := res.BandAt(s.cursor); ok && evidence.Defined(band.Recall[0]) && evidence.Defined(band.FalseDiscoveryRate[0]) {
-		caught, wrong := shortRange(band.Recall), shortRange(band.FalseDiscoveryRate)
+		caught, wrong := format.ShortInterval(band.Recall), format.ShortInterval(band.FalseDiscoveryRate)
 		sentences = []string{
 			fmt.Sprintf("on another validation set of this size this score would catch %s of the true cases, with %s of its alerts wrong, 9 times in 10", caught, wrong),
 			fmt.Sprintf("on another set of this size this score would catch %s of true cases, %s of alerts wrong, 9 times in 10", caught, wrong),
@@ -389,12 +388,12 @@ func (p figuresPane) startLine(width int) string {
 // assumptionsText is the assumptions in a few words: the base rate, the
 // volume and the capacity.
 func assumptionsText(a projection.Assumptions) string {
-	parts := []string{"base " + report.Percent(a.BaseRate)}
+	parts := []string{"base " + format.Share(a.BaseRate)}
 	if a.Volume > 0 {
-		parts = append(parts, report.Count(a.Volume)+"/shift")
+		parts = append(parts, format.Count(a.Volume)+"/shift")
 	}
 	if a.Capacity > 0 {
-		parts = append(parts, "cap "+report.Count(a.Capacity))
+		parts = append(parts, "cap "+format.Count(a.Capacity))
 	}
 	return strings.Join(parts, " · ")
 }
@@ -404,9 +403,9 @@ func costsText(c *projection.Costs) string {
 	if c == nil {
 		return ""
 	}
-	text := "(wrong " + report.Money(c.FalseAlert) + ", miss " + report.Money(c.Miss)
+	text := "(wrong " + format.Money(c.FalseAlert) + ", miss " + format.Money(c.Miss)
 	if c.Hit != 0 {
-		text += ", hit " + report.Money(c.Hit)
+		text += ", hit " + format.Money(c.Hit)
 	}
 	return text + ")"
 }

@@ -3,9 +3,8 @@ package tui
 import (
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
-
 	"github.com/sill-tool/sill/internal/cutrule"
-	"github.com/sill-tool/sill/internal/report"
+	"github.com/sill-tool/sill/internal/format"
 )
 
 // KeyMap is every key the explorer takes, grouped as the help shows them.
@@ -151,7 +150,7 @@ func (k *KeyMap) enableExplorer(s *session, stripFocused bool) {
 			k.Wrong.SetEnabled(true)
 		case cutrule.Queue:
 			k.Capacity.SetEnabled(true)
-			k.Capacity.SetHelp(keyName(i), "queue at capacity ("+report.Count(o.Rule.Value)+")")
+			k.Capacity.SetHelp(keyName(i), "queue at capacity ("+format.Count(o.Rule.Value)+")")
 		case cutrule.Cost:
 			k.LeastCost.SetEnabled(true)
 			k.LeastCost.SetKeys(keyName(i))
@@ -159,7 +158,7 @@ func (k *KeyMap) enableExplorer(s *session, stripFocused bool) {
 		case cutrule.Queue90:
 			k.Peak.SetEnabled(true)
 			k.Peak.SetKeys(keyName(i))
-			k.Peak.SetHelp(keyName(i), "9 shifts in 10 at capacity ("+report.Count(o.Rule.Value)+")")
+			k.Peak.SetHelp(keyName(i), "9 shifts in 10 at capacity ("+format.Count(o.Rule.Value)+")")
 		}
 	}
 	if s.set != nil {

@@ -8,8 +8,7 @@ import (
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/x/ansi"
-
-	"github.com/sill-tool/sill/internal/report"
+	"github.com/sill-tool/sill/internal/format"
 )
 
 // listPane is the ranked list: cases riskiest first, the flagged ones above
@@ -185,7 +184,7 @@ func (p listPane) cutLine(score float64, flagged, width int) string {
 	if p.s.set.Weighted() {
 		noun = "rows flagged"
 	}
-	line := fmt.Sprintf("━━ cut %s %s ━ %d %s ", sign, report.Score(score), flagged, noun)
+	line := fmt.Sprintf("━━ cut %s %s ━ %d %s ", sign, format.Score(score), flagged, noun)
 	if rest := width - ansi.StringWidth(line); rest > 0 {
 		line += strings.Repeat("━", rest)
 	}
@@ -209,7 +208,7 @@ func (p listPane) row(r int, cols listColumns, innerW int, flagged, inGroup bool
 		mark = "●"
 	}
 	hit := s.curve.At(s.curve.CutOfRow(r)).Recall()
-	head := gutter + pad(strconv.Itoa(r+1), cols.rank, true) + " " + pad(report.Score(s.set.Scores[r]), cols.score, false) + " "
+	head := gutter + pad(strconv.Itoa(r+1), cols.rank, true) + " " + pad(format.Score(s.set.Scores[r]), cols.score, false) + " "
 	tail := ""
 	if cols.id > 0 {
 		tail += " " + pad(s.set.ID(r), cols.id, false)
@@ -217,7 +216,7 @@ func (p listPane) row(r int, cols listColumns, innerW int, flagged, inGroup bool
 	if cols.segment > 0 {
 		tail += " " + pad(s.set.Segment(r), cols.segment, false)
 	}
-	tail += " " + pad(report.Percent(hit), 6, true)
+	tail += " " + pad(format.Share(hit), 6, true)
 	tail = fitLine(tail, max(innerW-ansi.StringWidth(head)-1, 0))
 	style := st.Unflagged
 	switch {

@@ -10,10 +10,9 @@ import (
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/x/ansi"
-
 	"github.com/sill-tool/sill/internal/evidence"
+	"github.com/sill-tool/sill/internal/format"
 	"github.com/sill-tool/sill/internal/projection"
-	"github.com/sill-tool/sill/internal/report"
 	"github.com/sill-tool/sill/internal/share"
 )
 
@@ -151,7 +150,7 @@ func newFormPane(ctx *shared, a projection.Assumptions, validationBaseRate float
 func (p *formPane) load(a projection.Assumptions, validationBaseRate float64) {
 	p.validationBaseRate = validationBaseRate
 	// An empty base rate is the validation set's: say what that is.
-	p.fields[fieldBaseRate].hint = "production share of true cases, 0.01 or 1%; empty: " + report.Percent(validationBaseRate)
+	p.fields[fieldBaseRate].hint = "production share of true cases, 0.01 or 1%; empty: " + format.Share(validationBaseRate)
 	text := func(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
 	given := func(v float64) string {
 		if v == 0 {
@@ -331,7 +330,7 @@ func (p *formPane) View() string {
 		label := pad(f.label, 22, false)
 		value := f.input.View()
 		if i == fieldBaseRate && f.input.Value() == "" {
-			value += st.Muted.Render("validation " + report.Percent(p.validationBaseRate))
+			value += st.Muted.Render("validation " + format.Share(p.validationBaseRate))
 		}
 		line := label + " " + fitLine(value, 17)
 		if i == p.focused {

@@ -8,13 +8,12 @@ import (
 
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
-
 	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/bootstrap"
 	"github.com/sill-tool/sill/internal/calibration"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/evidence"
-	"github.com/sill-tool/sill/internal/report"
+	"github.com/sill-tool/sill/internal/format"
 )
 
 // calibrationPane is the overlay that asks whether the scores read as
@@ -67,18 +66,17 @@ func (p *calibrationPane) View() string {
 	head := pad("scores", 13, false) + pad("rows", 8, true) + pad("mean score", 12, true) + pad("observed", 10, true) + pad("gap", 8, true)
 	lines = append(lines, st.ColumnHead.Render(head))
 	for _, b := range t.Bins {
-		gap := b.ObservedRate - b.MeanScore
-		line := pad(report.Fixed(b.Lower, 2)+"–"+report.Fixed(b.Upper, 2), 13, false) + pad(strconv.Itoa(b.Count), 8, true) +
-			pad(report.Fixed(b.MeanScore, 3), 12, true) + pad(report.Fixed(b.ObservedRate, 3), 10, true) + pad(signed(gap, 3), 8, true)
+		line := pad(format.Number(b.Lower, 2)+"–"+format.Number(b.Upper, 2), 13, false) + pad(strconv.Itoa(b.Count), 8, true) +
+			pad(format.Number(b.MeanScore, 3), 12, true) + pad(format.Number(b.ObservedRate, 3), 10, true) + pad(format.NumberDiff(b.ObservedRate, b.MeanScore, 3).Text, 8, true)
 		lines = append(lines, line)
 	}
-	lines = append(lines, st.Label.Render("expected calibration error")+" "+st.Figure.Render(report.Fixed(t.ECE, 4))+
+	lines = append(lines, st.Label.Render("expected calibration error")+" "+st.Figure.Render(format.Number(t.ECE, 4))+
 		st.Muted.Render(" (the gaps, weighted by cases)"))
 	lines = append(lines, p.costLines()...)
 	point := s.point()
 	cut, all := analysis.NetBenefit(point, s.curve.Summary.BaseRate)
-	lines = append(lines, st.Label.Render("net benefit here")+" "+st.Figure.Render(report.Fixed(cut, 4))+
-		st.Muted.Render(" a case at threshold "+report.Score(point.Score)+" · flag all "+report.Fixed(all, 4)+" · none 0"))
+	lines = append(lines, st.Label.Render("net benefit here")+" "+st.Figure.Render(format.Number(cut, 4))+
+		st.Muted.Render(" a case at threshold "+format.Score(point.Score)+" · flag all "+format.Number(all, 4)+" · none 0"))
 	lines = append(lines, st.Muted.Render("↑↓ move the cut · e or esc closes"))
 	return overlayBox(p.ctx, "are the scores probabilities? · "+strconv.Itoa(len(t.Bins))+" bins "+binning, strings.Join(lines, "\n"))
 }
@@ -91,16 +89,16 @@ func (p calibrationPane) costLines() []string {
 	if !ok {
 		return []string{st.Muted.Render("cost threshold: needs costs (a to set them)")}
 	}
-	line := st.Label.Render("cost threshold (Elkan 2001)") + " " + st.Figure.Render(report.Fixed(c.threshold, 3)) +
+	line := st.Label.Render("cost threshold (Elkan 2001)") + " " + st.Figure.Render(format.Number(c.threshold, 3)) +
 		st.Muted.Render(" if the scores are calibrated")
 	if s.baseRateChanged() {
-		line += st.Muted.Render(" (probability " + report.Fixed(c.probability, 3) + " at production's base rate)")
+		line += st.Muted.Render(" (probability " + format.Number(c.probability, 3) + " at production's base rate)")
 	}
 	out := []string{line}
 	if c.least == nil {
 		return append(out, st.Muted.Render("least-cost cut: none met"))
 	}
-	line = st.Label.Render("least-cost cut") + " " + st.Figure.Render(report.Score(c.least.Point.Score))
+	line = st.Label.Render("least-cost cut") + " " + st.Figure.Render(format.Score(c.least.Point.Score))
 	lands := " · lands " + significant(c.spread.Score[0]) + " to " + significant(c.spread.Score[1]) + " in resampled sets"
 	switch {
 	case !evidence.Defined(c.threshold):
@@ -111,7 +109,7 @@ func (p calibrationPane) costLines() []string {
 			side = "below"
 		}
 		out = append(out, line+st.Muted.Render(fmt.Sprintf(" · %s %s the threshold; b resamples to judge",
-			report.Fixed(math.Abs(c.least.Point.Score-c.threshold), 3), side)))
+			format.Number(math.Abs(c.least.Point.Score-c.threshold), 3), side)))
 	case c.outside:
 		out = append(out, line+st.Muted.Render(lands),
 			st.Warning.Render("⚠ the threshold lies outside that range: the scores are probably not"),
@@ -150,18 +148,6 @@ func (s *session) costCheck() (costCheck, bool) {
 	return c, true
 }
 
-// signed formats v with a sign and decimals, "n/a" when undefined.
-func signed(v float64, decimals int) string {
-	if !evidence.Defined(v) {
-		return "n/a"
-	}
-	text := strconv.FormatFloat(v, 'f', decimals, 64)
-	if v >= 0 {
-		text = "+" + text
-	}
-	return text
-}
-
 // modelsPane is the overlay of the two models on the same cases: their
 // ROC AUCs with DeLong's paired test, and for each starting point both
 // models' cuts side by side.
@@ -190,14 +176,14 @@ func (p *modelsPane) View() string {
 	}
 	a := s.assume
 	lines := []string{
-		fmt.Sprintf("A %s: ROC AUC %s   B %s: ROC AUC %s", s.set.ScoreColumn, report.Fixed(s.curve.Summary.ROCAUC, 3),
-			s.set.CompareColumn, report.Fixed(second.Summary.ROCAUC, 3)),
+		fmt.Sprintf("A %s: ROC AUC %s   B %s: ROC AUC %s", s.set.ScoreColumn, format.Number(s.curve.Summary.ROCAUC, 3),
+			s.set.CompareColumn, format.Number(second.Summary.ROCAUC, 3)),
 	}
 	if second.TestErr != nil {
 		lines = append(lines, st.Muted.Render("paired test: "+second.TestErr.Error()))
 	} else {
 		lines = append(lines, st.Muted.Render(fmt.Sprintf("A − B %s (SE %s), z %s, p %s: DeLong's paired test",
-			signed(second.Test.Difference, 3), report.Fixed(second.Test.StdError, 3), report.Fixed(second.Test.Z, 2), pValue(second.Test.P))))
+			format.NumberDiff(second.Test.AUC[0], second.Test.AUC[1], 3).Text, format.Number(second.Test.StdError, 3), format.Number(second.Test.Z, 2), format.PValue(second.Test.P))))
 	}
 	head := pad("starting point", 16, false) + pad("", 2, false) + pad("cut", 8, true) + pad("flagged", 9, true) + pad("hit", 8, true) +
 		pad("wrong", 8, true) + pad("queue", 8, true) + pad("cost", 10, true)
@@ -208,13 +194,13 @@ func (p *modelsPane) View() string {
 		}
 		queue, cost := "n/a", "n/a"
 		if a.Volume > 0 {
-			queue = report.Queue(e.Projected.QueuePerShift)
+			queue = format.Queue(e.Projected.QueuePerShift)
 			if a.Costs != nil {
-				cost = report.Money(e.Projected.CostPerShift)
+				cost = format.Money(e.Projected.CostPerShift)
 			}
 		}
-		return pad(name, 16, false) + pad(model, 2, false) + pad(report.Score(e.Score), 8, true) + pad(report.Percent(e.FlaggedShare), 9, true) +
-			pad(report.Percent(e.Recall), 8, true) + pad(report.Percent(e.FalseDiscoveryRate), 8, true) + pad(queue, 8, true) + pad(cost, 10, true)
+		return pad(name, 16, false) + pad(model, 2, false) + pad(format.Score(e.Score), 8, true) + pad(format.Share(e.FlaggedShare), 9, true) +
+			pad(format.Share(e.Recall), 8, true) + pad(format.Share(e.FalseDiscoveryRate), 8, true) + pad(queue, 8, true) + pad(cost, 10, true)
 	}
 	for i, o := range s.starts {
 		name := o.Rule.String()
@@ -229,16 +215,8 @@ func (p *modelsPane) View() string {
 	}
 	if q, ok := s.secondAtWorkload(s.cursor); ok {
 		lines = append(lines, "", st.Label.Render("at this cut's workload")+" "+st.Muted.Render(fmt.Sprintf("A hit %s wrong %s · B hit %s wrong %s",
-			report.Percent(s.point().Recall()), report.Percent(s.point().FalseDiscoveryRate()), report.Percent(q.Recall()), report.Percent(q.FalseDiscoveryRate()))))
+			format.Share(s.point().Recall()), format.Share(s.point().FalseDiscoveryRate()), format.Share(q.Recall()), format.Share(q.FalseDiscoveryRate()))))
 	}
 	lines = append(lines, st.Muted.Render("figures projected under the assumptions · ▶ the cursor's · m or esc closes"))
 	return overlayBox(p.ctx, "two models on the same cases", strings.Join(lines, "\n"))
-}
-
-// pValue formats a p-value with three decimals, "<0.001" below that.
-func pValue(p float64) string {
-	if evidence.Defined(p) && p < 0.001 {
-		return "<0.001"
-	}
-	return report.Fixed(p, 3)
 }

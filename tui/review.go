@@ -9,11 +9,10 @@ import (
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/x/ansi"
-
 	"github.com/sill-tool/sill/internal/compare"
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/evidence"
-	"github.com/sill-tool/sill/internal/report"
+	"github.com/sill-tool/sill/internal/format"
 	"github.com/sill-tool/sill/internal/sharedfile"
 )
 
@@ -359,20 +358,20 @@ func (r Review) header(width int) string {
 	if r.changed {
 		left += " (changed)"
 	}
-	right := fmt.Sprintf("chosen on %s · %s rows · %s true", d.Path, report.Count(float64(d.Rows)), report.Count(d.Positives))
+	right := fmt.Sprintf("chosen on %s · %s rows · %s true", d.Path, format.Count(float64(d.Rows)), format.Count(d.Positives))
 	first := statusBar{r.ctx}.header(left, right, max(min(ansi.StringWidth(right), width-ansi.StringWidth(left)-2), width/3))
-	parts := []string{"base rate " + report.Percent(a.BaseRate)}
+	parts := []string{"base rate " + format.Share(a.BaseRate)}
 	if total := d.Positives + d.Negatives; total > 0 && f.BaseRateChanged() {
-		parts[0] += " (validation " + report.Percent(d.Positives/total) + ")"
+		parts[0] += " (validation " + format.Share(d.Positives/total) + ")"
 	}
 	if a.Volume > 0 {
-		parts = append(parts, report.Count(a.Volume)+" per shift")
+		parts = append(parts, format.Count(a.Volume)+" per shift")
 	}
 	if a.Capacity > 0 {
-		parts = append(parts, "capacity "+report.Count(a.Capacity))
+		parts = append(parts, "capacity "+format.Count(a.Capacity))
 	}
 	if c := a.Costs; c != nil {
-		parts = append(parts, fmt.Sprintf("costs: wrong alert %s · miss %s · hit %s", report.Money(c.FalseAlert), report.Money(c.Miss), report.Money(c.Hit)))
+		parts = append(parts, fmt.Sprintf("costs: wrong alert %s · miss %s · hit %s", format.Money(c.FalseAlert), format.Money(c.Miss), format.Money(c.Hit)))
 	}
 	parts = append(parts, fmt.Sprintf("%g%% intervals", 100*a.Confidence))
 	return first + "\n" + st.Muted.Render(fitLine(strings.Join(parts, " · "), width))
@@ -400,7 +399,7 @@ func (r Review) notesView(at rect) string {
 		return wrapped
 	}
 	deploy := st.Muted.Render(fmt.Sprintf("deployment reads: flag a case when its score %s %s (%s) · file written %s by %s",
-		sign, report.Score(chosen.Cut.Score), chosen.Name, f.Created.UTC().Format("2006-01-02 15:04"), f.WrittenBy()))
+		sign, format.Score(chosen.Cut.Score), chosen.Name, f.Created.UTC().Format("2006-01-02 15:04"), f.WrittenBy()))
 	lines := append(note("note on "+selected.Name+": ", selected.Note), note("file note: ", f.Note)...)
 	innerH := at.H - st.Pane.GetVerticalFrameSize()
 	if len(lines) >= innerH {

@@ -8,8 +8,7 @@ import (
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/x/ansi"
-
-	"github.com/sill-tool/sill/internal/report"
+	"github.com/sill-tool/sill/internal/format"
 	"github.com/sill-tool/sill/internal/segment"
 )
 
@@ -142,15 +141,15 @@ func (p *segmentsPane) View() string {
 	if s.set.LowerIsRiskier {
 		sign = "<="
 	}
-	title := fmt.Sprintf("segments (%s) at cut %s %s · by %s", s.set.SegmentColumn, sign, report.Score(s.point().Score), orderName(p.order))
+	title := fmt.Sprintf("segments (%s) at cut %s %s · by %s", s.set.SegmentColumn, sign, format.Score(s.point().Score), orderName(p.order))
 
 	// Columns: the name takes what the figures leave.
 	wide := innerW >= natural
 	rangeW := 9
-	interval := func(ci [2]float64) string { return shortRange(ci) }
+	interval := format.ShortInterval
 	if wide {
 		rangeW = 12
-		interval = report.Range
+		interval = format.Interval
 	}
 	// The gap from the overall figures (the larger of hit share's and
 	// precision's, in points) shows where there is room, and sorted by it.
@@ -167,13 +166,13 @@ func (p *segmentsPane) View() string {
 		}
 		gapText := ""
 		if gap && f.Segment != "(overall)" {
-			gapText = pad(report.Fixed(100*f.Gap(b.Overall), 1)+"pt", gapW, true)
+			gapText = pad(format.Number(100*f.Gap(b.Overall), 1)+"pt", gapW, true)
 		} else if gap {
 			gapText = pad("", gapW, true)
 		}
-		return pad(f.Segment, nameW, false) + pad(strconv.Itoa(f.Rows), 7, true) + pad(report.Count(f.Positives), 7, true) +
-			pad(report.Percent(f.FlaggedShare), 8, true) + pad(report.Percent(f.Recall), 7, true) + " " + pad(interval(f.RecallCI), rangeW, false) +
-			pad(report.Percent(f.Precision), 7, true) + " " + pad(interval(f.PrecisionCI), rangeW, false) + gapText + " " + note
+		return pad(f.Segment, nameW, false) + pad(strconv.Itoa(f.Rows), 7, true) + pad(format.Count(f.Positives), 7, true) +
+			pad(format.Share(f.FlaggedShare), 8, true) + pad(format.Share(f.Recall), 7, true) + " " + pad(interval(f.RecallCI), rangeW, false) +
+			pad(format.Share(f.Precision), 7, true) + " " + pad(interval(f.PrecisionCI), rangeW, false) + gapText + " " + note
 	}
 	head := pad("segment", nameW, false) + pad("rows", 7, true) + pad("true", 7, true) + pad("flagged", 8, true) +
 		pad("hit", 7, true) + " " + pad("interval", rangeW, false) + pad("prec.", 7, true) + " " + pad("interval", rangeW, false)
@@ -223,12 +222,4 @@ func (p *segmentsPane) View() string {
 	// framed fits every line to the box's inner width.
 	return framed(st.Overlay, st.OverlayEdge, st.Title, title, strings.Join(lines, "\n"), width,
 		min(len(lines)+st.Overlay.GetVerticalFrameSize(), p.ctx.height-2))
-}
-
-// shortRange is an interval in whole percent, as "61–79%".
-func shortRange(ci [2]float64) string {
-	if ci[0] != ci[0] || ci[1] != ci[1] {
-		return "n/a"
-	}
-	return strconv.FormatFloat(100*ci[0], 'f', 0, 64) + "–" + strconv.FormatFloat(100*ci[1], 'f', 0, 64) + "%"
 }

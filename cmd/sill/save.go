@@ -9,15 +9,14 @@ import (
 	"path/filepath"
 	"strings"
 
-	"github.com/spf13/pflag"
-
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/evidence"
+	"github.com/sill-tool/sill/internal/format"
 	"github.com/sill-tool/sill/internal/projection"
-	"github.com/sill-tool/sill/internal/report"
 	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/sharedfile"
+	"github.com/spf13/pflag"
 )
 
 // saveFlags are report's flags that save the cuts as a decision file.
@@ -98,7 +97,7 @@ func (s *saveFlags) write(ctx context.Context, set *scores.Set, a projection.Ass
 		sign = "<="
 	}
 	fmt.Fprintf(stderr, "sill: saved %d %s to %s; chosen %s: flag when score %s %s\n",
-		len(candidates), pluralWord(len(candidates), "cut", "cuts"), s.path, c.Name, sign, report.Score(c.Cut.Score))
+		len(candidates), pluralWord(len(candidates), "cut", "cuts"), s.path, c.Name, sign, format.Score(c.Cut.Score))
 	return nil
 }
 

@@ -20,8 +20,8 @@ import (
 	"strconv"
 
 	"github.com/sill-tool/sill/internal/evidence"
+	"github.com/sill-tool/sill/internal/format"
 	"github.com/sill-tool/sill/internal/projection"
-	"github.com/sill-tool/sill/internal/report"
 )
 
 // Column is one candidate: a name, the cut spec it came from ("" for a cut
@@ -45,9 +45,10 @@ const (
 
 // Row is one figure across every column. Cells and Values hold one entry
 // per column; Diffs and Deltas hold the difference of each column from the
-// reference column (column minus reference). The reference column's Diff
-// is "" and its Delta is 0; a difference involving an undefined figure is
-// "n/a" and NaN. Detail rows (an interval, a count of true cases found)
+// reference column (column minus reference), of the figures as the cells
+// show them (see package format), so that a difference always agrees with
+// the two cells beside it. The reference column's Diff is "" and its Delta
+// is 0; a difference involving an undefined figure is "n/a" and NaN. Detail rows (an interval, a count of true cases found)
 // carry no differences: their Diffs are all "" and Deltas NaN.
 type Row struct {
 	Figure string // the label, e.g. "hit share (recall)"
@@ -102,7 +103,7 @@ func New(columns []Column, reference int, opt Options) Table {
 
 	// main adds a figure with differences; value gives the number and
 	// cell formats it, diff formats a difference.
-	main := func(figure string, better Better, value func(evidence.Cut) float64, cell func(float64) string, diff func(float64) string) {
+	main := func(figure string, better Better, value func(evidence.Cut) float64, cell func(float64) string, diff func(v, ref float64) format.Difference) {
 		row := Row{Figure: figure, Better: better}
 		ref := value(columns[reference].Cut)
 		for i, c := range columns {
@@ -117,8 +118,9 @@ func New(columns []Column, reference int, opt Options) Table {
 				row.Diffs = append(row.Diffs, "n/a")
 				row.Deltas = append(row.Deltas, math.NaN())
 			default:
-				row.Diffs = append(row.Diffs, diff(v-ref))
-				row.Deltas = append(row.Deltas, v-ref)
+				d := diff(v, ref)
+				row.Diffs = append(row.Diffs, d.Text)
+				row.Deltas = append(row.Deltas, d.Value)
 			}
 		}
 		t.Rows = append(t.Rows, row)
@@ -135,83 +137,29 @@ func New(columns []Column, reference int, opt Options) Table {
 		t.Rows = append(t.Rows, row)
 	}
 
-	main("cut (flag score "+comparison+")", Neither, func(c evidence.Cut) float64 { return c.Score }, report.Score, ScoreDiff)
-	main("cases flagged", Neither, func(c evidence.Cut) float64 { return c.Flagged }, report.Count, CountDiff)
-	detail("  share of all cases", func(c evidence.Cut) string { return report.Percent(c.FlaggedShare) })
-	main("hit share (recall)", Higher, func(c evidence.Cut) float64 { return c.Recall }, report.Percent, PointsDiff)
-	detail("  "+conf, func(c evidence.Cut) string { return report.Range(c.RecallCI) })
-	detail("  true cases found", func(c evidence.Cut) string { return report.Count(c.TP) + " of " + report.Count(c.TP+c.FN) })
-	main("wrong-alert share (FDR)", Lower, func(c evidence.Cut) float64 { return c.FalseDiscoveryRate }, report.Percent, PointsDiff)
-	detail("  "+conf, func(c evidence.Cut) string { return report.Range(c.FalseDiscoveryCI) })
-	main("false positive rate", Lower, func(c evidence.Cut) float64 { return c.FalsePositiveRate }, report.Percent, PointsDiff)
-	main("projected alert rate", Neither, func(c evidence.Cut) float64 { return c.Projected.AlertRate }, report.Percent, PointsDiff)
+	main("cut (flag score "+comparison+")", Neither, func(c evidence.Cut) float64 { return c.Score }, format.Score, format.ScoreDiff)
+	main("cases flagged", Neither, func(c evidence.Cut) float64 { return c.Flagged }, format.Count, format.CountDiff)
+	detail("  share of all cases", func(c evidence.Cut) string { return format.Share(c.FlaggedShare) })
+	main("hit share (recall)", Higher, func(c evidence.Cut) float64 { return c.Recall }, format.Share, format.ShareDiff)
+	detail("  "+conf, func(c evidence.Cut) string { return format.Interval(c.RecallCI) })
+	detail("  true cases found", func(c evidence.Cut) string { return format.Count(c.TP) + " of " + format.Count(c.TP+c.FN) })
+	main("wrong-alert share (FDR)", Lower, func(c evidence.Cut) float64 { return c.FalseDiscoveryRate }, format.Share, format.ShareDiff)
+	detail("  "+conf, func(c evidence.Cut) string { return format.Interval(c.FalseDiscoveryCI) })
+	main("false positive rate", Lower, func(c evidence.Cut) float64 { return c.FalsePositiveRate }, format.Share, format.ShareDiff)
+	main("projected alert rate", Neither, func(c evidence.Cut) float64 { return c.Projected.AlertRate }, format.Share, format.ShareDiff)
 	if opt.BaseRateChanged {
-		main("projected wrong-alert share", Lower, func(c evidence.Cut) float64 { return c.Projected.FalseDiscoveryRate() }, report.Percent, PointsDiff)
+		main("projected wrong-alert share", Lower, func(c evidence.Cut) float64 { return c.Projected.FalseDiscoveryRate() }, format.Share, format.ShareDiff)
 	}
 	if a.Volume > 0 {
-		main("queue per shift", Neither, func(c evidence.Cut) float64 { return c.Projected.QueuePerShift }, report.Queue, QueueDiff)
+		main("queue per shift", Neither, func(c evidence.Cut) float64 { return c.Projected.QueuePerShift }, format.Queue, format.QueueDiff)
 		if a.Capacity > 0 {
-			detail("  against capacity "+report.Count(a.Capacity), func(c evidence.Cut) string {
-				return report.Against(c.Projected.QueuePerShift, a.Capacity)
+			detail("  against capacity "+format.Count(a.Capacity), func(c evidence.Cut) string {
+				return format.Against(c.Projected.QueuePerShift, a.Capacity)
 			})
 		}
 		if a.Costs != nil {
-			main("cost per shift", Lower, func(c evidence.Cut) float64 { return c.Projected.CostPerShift }, report.Money, MoneyDiff)
+			main("cost per shift", Lower, func(c evidence.Cut) float64 { return c.Projected.CostPerShift }, format.Money, format.MoneyDiff)
 		}
 	}
 	return t
-}
-
-// sign prefixes a formatted magnitude with + or -, and writes a zero
-// difference as "same".
-func sign(d float64, magnitude string) string {
-	switch {
-	case d > 0:
-		return "+" + magnitude
-	case d < 0:
-		return "-" + magnitude
-	}
-	return "same"
-}
-
-// PointsDiff formats a difference of two shares in percentage points, as
-// "+3.2 pt". A difference that rounds to 0.0 keeps its sign.
-func PointsDiff(d float64) string {
-	if !evidence.Defined(d) {
-		return "n/a"
-	}
-	return sign(d, strconv.FormatFloat(100*math.Abs(d), 'f', 1, 64)+" pt")
-}
-
-// CountDiff formats a difference of two counts as report.Count does.
-func CountDiff(d float64) string {
-	if !evidence.Defined(d) {
-		return "n/a"
-	}
-	return sign(d, report.Count(math.Abs(d)))
-}
-
-// QueueDiff formats a difference of two projected queues with one
-// decimal, as report.Queue does.
-func QueueDiff(d float64) string {
-	if !evidence.Defined(d) {
-		return "n/a"
-	}
-	return sign(d, report.Queue(math.Abs(d)))
-}
-
-// MoneyDiff formats a difference of two costs as report.Money does.
-func MoneyDiff(d float64) string {
-	if !evidence.Defined(d) {
-		return "n/a"
-	}
-	return sign(d, report.Money(math.Abs(d)))
-}
-
-// ScoreDiff formats a difference of two cut scores to 4 significant digits.
-func ScoreDiff(d float64) string {
-	if !evidence.Defined(d) {
-		return "n/a"
-	}
-	return sign(d, strconv.FormatFloat(math.Abs(d), 'g', 4, 64))
 }

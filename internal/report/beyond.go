@@ -3,7 +3,6 @@ package report
 import (
 	"fmt"
 	"slices"
-	"strconv"
 	"strings"
 	"time"
 
@@ -12,6 +11,7 @@ import (
 	"github.com/sill-tool/sill/internal/calibration"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/evidence"
+	"github.com/sill-tool/sill/internal/format"
 	"github.com/sill-tool/sill/internal/segment"
 	"github.com/sill-tool/sill/internal/shift"
 )
@@ -81,12 +81,12 @@ func (r *Report) addSegments(res *analysis.Result, order segment.Order, shown in
 			if f.Outlier {
 				mark = "outside"
 			}
-			t.rows = append(t.rows, []string{f.Segment, fmt.Sprint(f.Rows), Count(f.Positives), Percent(f.FlaggedShare),
-				Percent(f.Recall), Range(f.RecallCI), Percent(f.Precision), Range(f.PrecisionCI), mark})
+			t.rows = append(t.rows, []string{f.Segment, fmt.Sprint(f.Rows), format.Count(f.Positives), format.Share(f.FlaggedShare),
+				format.Share(f.Recall), format.Interval(f.RecallCI), format.Share(f.Precision), format.Interval(f.PrecisionCI), mark})
 		}
 		r.Cuts[i].Segments = list
 		notes := []string{fmt.Sprintf("overall: hit share %s (%s), precision %s (%s)",
-			Percent(b.Overall.Recall), Range(b.Overall.RecallCI), Percent(b.Overall.Precision), Range(b.Overall.PrecisionCI))}
+			format.Share(b.Overall.Recall), format.Interval(b.Overall.RecallCI), format.Share(b.Overall.Precision), format.Interval(b.Overall.PrecisionCI))}
 		if n := b.Outliers(); n > 0 {
 			notes = append(notes, fmt.Sprintf("%s marked \"outside\": hit-share or precision interval wholly outside the overall one", plural(n, "segment", "segments")))
 		}
@@ -102,7 +102,7 @@ func (r *Report) addSegments(res *analysis.Result, order segment.Order, shown in
 			notes = append(notes, note)
 		}
 		r.sections = append(r.sections, section{
-			title: fmt.Sprintf("segments (%s) at %s, cut %s", set.SegmentColumn, r.Cuts[i].Spec, Score(o.Point.Score)),
+			title: fmt.Sprintf("segments (%s) at %s, cut %s", set.SegmentColumn, r.Cuts[i].Spec, format.Score(o.Point.Score)),
 			table: t,
 			notes: notes,
 		})
@@ -123,14 +123,14 @@ func (r *Report) writeSections(b *strings.Builder) {
 // writeSectionsMarkdown writes the added sections as Markdown tables.
 func (r *Report) writeSectionsMarkdown(b *strings.Builder) {
 	for _, s := range r.sections {
-		fmt.Fprintf(b, "\n\n### %s\n\n", MarkdownEscape(s.title))
-		b.WriteString("| " + strings.Join(mdEscapeAll(s.table.header), " | ") + " |\n")
+		fmt.Fprintf(b, "\n\n### %s\n\n", format.Markdown(s.title))
+		b.WriteString("| " + strings.Join(format.MarkdownCells(s.table.header), " | ") + " |\n")
 		b.WriteString("|" + strings.Repeat(" --- |", len(s.table.header)) + "\n")
 		for _, row := range s.table.rows {
-			b.WriteString("| " + strings.Join(mdEscapeAll(row), " | ") + " |\n")
+			b.WriteString("| " + strings.Join(format.MarkdownCells(row), " | ") + " |\n")
 		}
 		for _, n := range s.notes {
-			b.WriteString("\n- " + MarkdownEscape(n))
+			b.WriteString("\n- " + format.Markdown(n))
 		}
 	}
 }
@@ -175,9 +175,9 @@ func (r *Report) addCalibration(res *analysis.Result) {
 	t := tableOf("bin", "rows", "mean score", "observed rate", "gap")
 	for _, b := range table.Bins {
 		cf.Bins = append(cf.Bins, calibrationBin{Lower: b.Lower, Upper: b.Upper, MeanScore: number(b.MeanScore), ObservedRate: number(b.ObservedRate), Count: b.Count})
-		t.rows = append(t.rows, []string{Fixed(b.Lower, 3) + "–" + Fixed(b.Upper, 3), fmt.Sprint(b.Count), Fixed(b.MeanScore, 3), Fixed(b.ObservedRate, 3), Fixed(b.ObservedRate-b.MeanScore, 3)})
+		t.rows = append(t.rows, []string{format.Number(b.Lower, 3) + "–" + format.Number(b.Upper, 3), fmt.Sprint(b.Count), format.Number(b.MeanScore, 3), format.Number(b.ObservedRate, 3), format.NumberDiff(b.ObservedRate, b.MeanScore, 3).Text})
 	}
-	notes := []string{"expected calibration error (ECE) " + Fixed(table.ECE, 4) + ": the mean of |observed rate - mean score| over the bins, weighted by their cases"}
+	notes := []string{"expected calibration error (ECE) " + format.Number(table.ECE, 4) + ": the mean of |observed rate - mean score| over the bins, weighted by their cases"}
 	if c := cal.Cost; c != nil {
 		p := c.Probability
 		cf.CostThresholdProbability = number(p)
@@ -185,11 +185,11 @@ func (r *Report) addCalibration(res *analysis.Result) {
 		if c.LeastCost.Met {
 			cf.LeastCostCut = number(c.LeastCost.Point.Score)
 		}
-		line := "cost threshold (Elkan 2001) " + Fixed(float64(cf.CostThreshold), 3) + ", if the scores are calibrated probabilities"
+		line := "cost threshold (Elkan 2001) " + format.Number(float64(cf.CostThreshold), 3) + ", if the scores are calibrated probabilities"
 		if r.baseRateGiven {
-			line += " (probability " + Fixed(p, 3) + " at the production base rate)"
+			line += " (probability " + format.Number(p, 3) + " at the production base rate)"
 		}
-		least := "empirical least-cost cut " + Score(float64(cf.LeastCostCut)) + " on the validation set"
+		least := "empirical least-cost cut " + format.Score(float64(cf.LeastCostCut)) + " on the validation set"
 		if r.hints.Resampling != "" {
 			least += "; " + r.hints.Resampling + ", a warning says when the cost threshold lies outside the range where the least-cost cut lands in resampled sets"
 		}
@@ -203,7 +203,7 @@ func (r *Report) addCalibration(res *analysis.Result) {
 		nb := number(cal.NetBenefit[i])
 		r.Cuts[i].NetBenefit = &nb
 		notes = append(notes, fmt.Sprintf("net benefit at %s (threshold probability %s): %s per case, against %s for flagging every case",
-			r.Cuts[i].Spec, Score(o.Point.Score), Fixed(float64(nb), 4), Fixed(cal.NetBenefitAll[i], 4)))
+			r.Cuts[i].Spec, format.Score(o.Point.Score), format.Number(float64(nb), 4), format.Number(cal.NetBenefitAll[i], 4)))
 	}
 	r.Calibration = cf
 	binsOf := "of equal width"
@@ -265,7 +265,7 @@ func (r *Report) addShiftPeaks(res *analysis.Result) {
 	}
 	t := tableOf("cut", "mean", "9 in 10 shifts at most", "busiest", "busiest shift")
 	if capacity > 0 {
-		t.header = append(t.header, "shifts over "+Count(capacity))
+		t.header = append(t.header, "shifts over "+format.Count(capacity))
 	}
 	for i, o := range res.Outcomes {
 		if i >= len(r.Cuts) {
@@ -284,17 +284,17 @@ func (r *Report) addShiftPeaks(res *analysis.Result) {
 		r.Cuts[i].Shifts = f
 		p90, peak := f.P90, f.Max
 		r.Cuts[i].Projected.QueuePerShiftP90, r.Cuts[i].Projected.QueuePerShiftMax = &p90, &peak
-		row := []string{r.Cuts[i].Spec, Fixed(p.Mean, 1), Fixed(p.P90, 1), Fixed(p.Max, 1), busiestLabel(assigned, p.Busiest)}
+		row := []string{r.Cuts[i].Spec, format.Number(p.Mean, 1), format.Number(p.P90, 1), format.Number(p.Max, 1), busiestLabel(assigned, p.Busiest)}
 		if capacity > 0 {
-			row = append(row, Percent(p.OverCapacity))
+			row = append(row, format.Share(p.OverCapacity))
 		}
 		t.rows = append(t.rows, row)
 	}
-	notes := []string{fmt.Sprintf("%s shifts starting %s (%s), from %s to %s", Count(float64(assigned.Count)), assigned.Schedule.String(),
+	notes := []string{fmt.Sprintf("%s shifts starting %s (%s), from %s to %s", format.Count(float64(assigned.Count)), assigned.Schedule.String(),
 		assigned.Schedule.Location.String(), r.ShiftSchedule.FirstShift, r.ShiftSchedule.LastShift)}
 	if scaled {
 		notes = append(notes, fmt.Sprintf("scaled to %s cases per shift: the validation set is taken as an even sample of the period, so each flagged true case counts %.3g alerts and each false one %.3g",
-			Count(float64(r.Assumptions.Volume)), scale.Positive, scale.Negative))
+			format.Count(float64(r.Assumptions.Volume)), scale.Positive, scale.Negative))
 	} else {
 		own := "the validation set's own counts per shift"
 		if r.hints.Volume != "" {
@@ -310,15 +310,6 @@ func busiestLabel(a shift.Assignment, i int) string {
 		return "n/a"
 	}
 	return a.Start(i).Format("Mon 2006-01-02 15:04")
-}
-
-// significant formats v with four significant digits, "n/a" when
-// undefined: for percentiles of scores, which interpolate between them.
-func significant(v float64) string {
-	if !evidence.Defined(v) {
-		return "n/a"
-	}
-	return strconv.FormatFloat(v, 'g', 4, 64)
 }
 
 type stability struct {
@@ -370,17 +361,17 @@ func (r *Report) addStability(res bootstrap.Result) {
 		words := bootstrap.Describe(s, res.Replicates)
 		if s.Skipped != "" {
 			c.Stability = &stability{ScoreP05: null, ScoreP95: null, FlaggedShareP05: null, FlaggedShareP95: null, RecallP05: null, RecallP95: null, Summary: words}
-			t.rows = append(t.rows, []string{c.Spec, Score(float64(c.Score)), "n/a", "n/a", "n/a", words})
+			t.rows = append(t.rows, []string{c.Spec, format.Score(float64(c.Score)), "n/a", "n/a", "n/a", words})
 			continue
 		}
 		c.Stability = &stability{ScoreP05: number(s.Score[0]), ScoreP95: number(s.Score[1]),
 			FlaggedShareP05: number(s.FlaggedShare[0]), FlaggedShareP95: number(s.FlaggedShare[1]),
 			RecallP05: number(s.Recall[0]), RecallP95: number(s.Recall[1]), Met: s.Met, Summary: words}
-		t.rows = append(t.rows, []string{c.Spec, Score(float64(c.Score)), significant(s.Score[0]) + " to " + significant(s.Score[1]), Range(s.FlaggedShare), Range(s.Recall), words})
+		t.rows = append(t.rows, []string{c.Spec, format.Score(float64(c.Score)), format.Significant(s.Score[0], 4) + " to " + format.Significant(s.Score[1], 4), format.Interval(s.FlaggedShare), format.Interval(s.Recall), words})
 		if s.Rule.Kind == cutrule.Cost && r.Calibration != nil && evidence.Defined(float64(r.Calibration.CostThreshold)) && evidence.Defined(s.Score[0]) {
 			if ct := float64(r.Calibration.CostThreshold); ct < s.Score[0] || ct > s.Score[1] {
 				r.Warnings = append(r.Warnings, fmt.Sprintf("the cost threshold that calibrated probabilities imply (%s) lies outside the range where the least-cost cut lands in resampled sets (%s to %s): the scores are probably not calibrated, so do not read them as probabilities for costing",
-					Fixed(ct, 3), significant(s.Score[0]), significant(s.Score[1])))
+					format.Number(ct, 3), format.Significant(s.Score[0], 4), format.Significant(s.Score[1], 4)))
 			}
 		}
 	}
@@ -442,7 +433,7 @@ func (r *Report) addComparison(res *analysis.Result) {
 		row := []string{r.Cuts[i].Spec}
 		if first := outcomes[i]; first.Met {
 			e := evidence.Of(first.Point, a)
-			row = append(row, Score(e.Score), Percent(e.FlaggedShare), Percent(e.Recall), Percent(e.FalseDiscoveryRate))
+			row = append(row, format.Score(e.Score), format.Share(e.FlaggedShare), format.Share(e.Recall), format.Share(e.FalseDiscoveryRate))
 		} else {
 			row = append(row, "unmet", "", "", "")
 		}
@@ -452,7 +443,7 @@ func (r *Report) addComparison(res *analysis.Result) {
 			s.Recall, s.RecallCI = number(e.Recall), newInterval(e.RecallCI)
 			s.Precision, s.PrecisionCI = number(e.Precision), newInterval(e.PrecisionCI)
 			s.QueuePerShift, s.CostPerShift = number(e.Projected.QueuePerShift), number(e.Projected.CostPerShift)
-			row = append(row, Score(e.Score), Percent(e.FlaggedShare), Percent(e.Recall), Percent(e.FalseDiscoveryRate))
+			row = append(row, format.Score(e.Score), format.Share(e.FlaggedShare), format.Share(e.Recall), format.Share(e.FalseDiscoveryRate))
 		} else {
 			reason := o.Reason
 			s.Reason = &reason
@@ -463,8 +454,12 @@ func (r *Report) addComparison(res *analysis.Result) {
 	}
 	notes := []string{}
 	if testErr == nil {
+		difference := format.NumberDiff(test.AUC[0], test.AUC[1], 3).Text // from the AUCs as shown
+		if difference == "same" {
+			difference = "none"
+		}
 		notes = append(notes, fmt.Sprintf("ROC AUC of %s %s, of %s %s: difference %s, standard error %s (DeLong et al. 1988, paired), z %s, p %s",
-			scoreA, Fixed(test.AUC[0], 3), scoreB, Fixed(test.AUC[1], 3), Fixed(test.Difference, 3), Fixed(test.StdError, 4), Fixed(test.Z, 2), significant(test.P)))
+			scoreA, format.Number(test.AUC[0], 3), scoreB, format.Number(test.AUC[1], 3), difference, format.Number(test.StdError, 4), format.Number(test.Z, 2), format.PValue(test.P)))
 		switch {
 		case !evidence.Defined(test.P):
 			notes = append(notes, "the test is undefined here (no spread between the models, or too few cases of a class)")

@@ -10,6 +10,7 @@ import (
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/evidence"
+	"github.com/sill-tool/sill/internal/format"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/segment"
@@ -234,7 +235,7 @@ func DroppedWarnings(set *scores.Set) []string {
 }
 
 // Warnings lists what a reader of any output should know about the data:
-// dropped rows, a class missing, and a ROC AUC below 0.5 (the direction
+// dropped rows, a class missing, and a ROC AUC that shows below 0.500 (the direction
 // probably the wrong way round, with hints.LowerIsRiskier as the way to
 // turn it).
 func Warnings(set *scores.Set, sum curve.Summary, hints Hints) []string {
@@ -247,9 +248,10 @@ func Warnings(set *scores.Set, sum curve.Summary, hints Hints) []string {
 		w = append(w, "the validation set has no true cases: hit share, AUC and average precision are undefined")
 	case !(sum.Negatives > 0):
 		w = append(w, "the validation set has no false cases: false positive rate and AUC are undefined")
-	case sum.ROCAUC < 0.5:
+	case format.Rounded(sum.ROCAUC, 3) < 0.5:
 		// More often than not a false case outranks a true one: most
-		// likely the direction is the wrong way round.
+		// likely the direction is the wrong way round. The AUC is judged
+		// as shown, so that "0.500" is never called below 0.5.
 		flip := "; if lower scores mean likely true cases, add " + hints.LowerIsRiskier
 		if set.LowerIsRiskier {
 			flip = "; if higher scores mean likely true cases, drop " + hints.LowerIsRiskier
@@ -257,7 +259,7 @@ func Warnings(set *scores.Set, sum curve.Summary, hints Hints) []string {
 		if hints.LowerIsRiskier == "" {
 			flip = ""
 		}
-		w = append(w, "ROC AUC "+Fixed(sum.ROCAUC, 3)+" is below 0.5: the scores rank false cases above true ones more often than not"+flip)
+		w = append(w, "ROC AUC "+format.Number(sum.ROCAUC, 3)+" is below 0.5: the scores rank false cases above true ones more often than not"+flip)
 	}
 	return w
 }

@@ -594,52 +594,6 @@ func TestWriteCurveCSV(t *testing.T) {
 	}
 }
 
-// TestFormatters checks the number formats of the text forms, each
-// worked out by hand.
-func TestFormatters(t *testing.T) {
-	nan := math.NaN()
-	tenth, fifth := 0.1, 0.2 // variables, so that the sum is rounded at run time
-	cases := []struct {
-		name, got, want string
-	}{
-		{"percent", report.Percent(0.1234), "12.3%"},
-		{"percent zero", report.Percent(0), "0.0%"},
-		{"percent tiny", report.Percent(0.0004), "<0.1%"},
-		{"percent nearly all", report.Percent(0.99996), ">99.9%"},
-		{"percent one", report.Percent(1), "100.0%"},
-		{"percent undefined", report.Percent(nan), "n/a"},
-		{"range", report.Range([2]float64{0.05, 0.4567}), "5.0–45.7%"},
-		{"range undefined", report.Range([2]float64{nan, 1}), "n/a"},
-		{"count whole", report.Count(433), "433"},
-		{"count weighted", report.Count(12.345), "12.35"},
-		{"count weighted large", report.Count(1234.5), "1234"}, // FormatFloat rounds half to even
-		{"money whole", report.Money(0), "0"},
-		{"money whole small", report.Money(120), "120"},
-		{"money fraction", report.Money(1.5), "1.50"},
-		{"money large", report.Money(66300.4), "66300"},
-		{"money benefit", report.Money(-80), "-80"},
-		{"money rounding noise", report.Money(60.00000000000001), "60"},
-		{"money minus zero", report.Money(-0.001), "0"},
-		{"count rounding noise", report.Count(2.9999999999), "3"},
-		{"queue whole", report.Queue(108), "108.0"},
-		{"queue fraction", report.Queue(61.25), "61.2"}, // 61.25 is exact in binary; FormatFloat rounds half to even
-		{"queue undefined", report.Queue(nan), "n/a"},
-		{"against over", report.Against(108, 90), "18.0 over"},
-		{"against under", report.Against(61.25, 90), "28.8 under"},
-		{"against just under", report.Against(89.75, 90), "0.3 under"},
-		{"against at", report.Against(90.02, 90), "at capacity"},
-		{"against undefined", report.Against(nan, 90), "n/a"},
-		{"fixed", report.Fixed(0.81249, 3), "0.812"},
-		{"score exact", report.Score(tenth + fifth), "0.30000000000000004"},
-		{"score short", report.Score(0.3), "0.3"},
-	}
-	for _, tc := range cases {
-		if tc.got != tc.want {
-			t.Errorf("%s: %q, want %q", tc.name, tc.got, tc.want)
-		}
-	}
-}
-
 // TestWarnings checks the warning of each degenerate set.
 func TestWarnings(t *testing.T) {
 	cases := []struct {
@@ -658,6 +612,13 @@ func TestWarnings(t *testing.T) {
 		// wins none, ROC AUC 0/2 = 0 (by hand).
 		{"upside down", []float64{0.1, 0.5, 0.9}, []bool{true, false, false}, nil, []string{"ROC AUC 0.000 is below 0.5: the scores rank false cases above true ones more often than not; if lower scores mean likely true cases, add --lower-is-riskier"}},
 		{"upside down, lower is riskier", []float64{0.9, 0.5, 0.1}, []bool{true, false, false}, nil, []string{"ROC AUC 0.000 is below 0.5: the scores rank false cases above true ones more often than not; if higher scores mean likely true cases, drop --lower-is-riskier"}},
+		// The warning agrees with the AUC as shown. One true case between
+		// two false ones, the higher weighing 0.5004 and the lower 0.4996:
+		// the true case wins 0.4996 of the weight of its pairs, AUC 0.4996,
+		// shown "0.500", so no warning; with 0.5006 and 0.4994 it shows
+		// "0.499" and is warned about (by hand).
+		{"AUC 0.4996 shows 0.500", []float64{0.9, 0.5, 0.1}, []bool{false, true, false}, []float64{0.5004, 1, 0.4996}, nil},
+		{"AUC 0.4994 shows 0.499", []float64{0.9, 0.5, 0.1}, []bool{false, true, false}, []float64{0.5006, 1, 0.4994}, []string{"ROC AUC 0.499 is below 0.5: the scores rank false cases above true ones more often than not; if lower scores mean likely true cases, add --lower-is-riskier"}},
 		// A tie between the two classes counts half: AUC 0.5, no warning.
 		{"a tie, AUC 0.5", []float64{0.5, 0.5}, []bool{true, false}, nil, nil},
 	}
@@ -668,27 +629,6 @@ func TestWarnings(t *testing.T) {
 		}
 		if got := report.Warnings(set, curve.Walk(set, nil), report.Hints{LowerIsRiskier: "--lower-is-riskier"}); !slices.Equal(got, tc.want) {
 			t.Errorf("%s: %q, want %q", tc.name, got, tc.want)
-		}
-	}
-}
-
-// TestMarkdownEscape: what a note may hold comes out as written once a
-// Markdown viewer renders it (CommonMark's backslash escapes; common
-// practice, no source beyond the CommonMark spec's list of escapable
-// punctuation).
-func TestMarkdownEscape(t *testing.T) {
-	for _, tc := range []struct{ in, want string }{
-		{"plain words", "plain words"},
-		{"a | b", `a \| b`},
-		{"*stars* and _under_", `\*stars\* and \_under\_`},
-		{"`code`", "\\`code\\`"},
-		{"<night> shift", `\<night> shift`},
-		{"</b> <!-- x", `\</b> \<!-- x`},
-		{"score <= 0.3, a < b", "score <= 0.3, a < b"},
-		{"line one\nline two\r\nline three", "line one line two line three"},
-	} {
-		if got := report.MarkdownEscape(tc.in); got != tc.want {
-			t.Errorf("MarkdownEscape(%q) = %q, want %q", tc.in, got, tc.want)
 		}
 	}
 }

@@ -10,7 +10,7 @@ import (
 	"github.com/sill-tool/sill/internal/compare"
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/evidence"
-	"github.com/sill-tool/sill/internal/report"
+	"github.com/sill-tool/sill/internal/format"
 )
 
 // table lays out the file's candidates against the chosen one,
@@ -41,30 +41,30 @@ func facts(f *decision.File) [][2]string {
 		sign = "<="
 	}
 	chosen, _ := f.ChosenCandidate()
-	data := fmt.Sprintf("%s · %s rows, %s true cases · sha256 %s", d.Path, report.Count(float64(d.Rows)), report.Count(d.Positives), shortDigest(d.SHA256))
+	data := fmt.Sprintf("%s · %s rows, %s true cases · sha256 %s", d.Path, format.Count(float64(d.Rows)), format.Count(d.Positives), shortDigest(d.SHA256))
 	columns := fmt.Sprintf("score %q, label %q", d.ScoreColumn, d.LabelColumn)
 	if d.WeightColumn != "" {
 		columns += fmt.Sprintf(", weight %q", d.WeightColumn)
 	}
-	assume := []string{"base rate " + report.Percent(a.BaseRate)}
+	assume := []string{"base rate " + format.Share(a.BaseRate)}
 	if !f.BaseRateChanged() {
 		assume[0] += " (the validation rate)"
 	}
 	if a.Volume > 0 {
-		assume = append(assume, report.Count(a.Volume)+" cases per shift")
+		assume = append(assume, format.Count(a.Volume)+" cases per shift")
 	}
 	if a.Capacity > 0 {
-		assume = append(assume, "capacity "+report.Count(a.Capacity)+" alerts per shift")
+		assume = append(assume, "capacity "+format.Count(a.Capacity)+" alerts per shift")
 	}
 	if c := a.Costs; c != nil {
-		assume = append(assume, fmt.Sprintf("costs: wrong alert %s, miss %s, hit %s", report.Money(c.FalseAlert), report.Money(c.Miss), report.Money(c.Hit)))
+		assume = append(assume, fmt.Sprintf("costs: wrong alert %s, miss %s, hit %s", format.Money(c.FalseAlert), format.Money(c.Miss), format.Money(c.Hit)))
 	}
 	assume = append(assume, fmt.Sprintf("intervals at %g%%", 100*a.Confidence))
 	return [][2]string{
 		{"data", data},
 		{"columns", columns},
 		{"assumptions", strings.Join(assume, " · ")},
-		{"chosen", fmt.Sprintf("%s: flag a case when its score %s %s", chosen.Name, sign, report.Score(chosen.Cut.Score))},
+		{"chosen", fmt.Sprintf("%s: flag a case when its score %s %s", chosen.Name, sign, format.Score(chosen.Cut.Score))},
 		{"written", f.Created.UTC().Format("2006-01-02 15:04 MST") + " by " + f.WrittenBy()},
 	}
 }
@@ -145,7 +145,7 @@ func WriteText(w io.Writer, f *decision.File, path string) error {
 	}
 	b.WriteString("\n")
 	header, rows := grid(table(f))
-	b.WriteString(report.Grid(header, rows))
+	b.WriteString(format.Grid(header, rows, false))
 	if notes := allNotes(f); len(notes) > 0 {
 		b.WriteString("\nnotes\n")
 		for _, n := range notes {
@@ -161,16 +161,16 @@ func WriteText(w io.Writer, f *decision.File, path string) error {
 // a sign-off block, for pasting into a review document.
 func WriteMarkdown(w io.Writer, f *decision.File, path string) error {
 	var b strings.Builder
-	fmt.Fprintf(&b, "# Cut review: %s\n\n", report.MarkdownEscape(path))
+	fmt.Fprintf(&b, "# Cut review: %s\n\n", format.Markdown(path))
 	for _, fact := range facts(f) {
-		fmt.Fprintf(&b, "- **%s:** %s\n", fact[0], report.MarkdownEscape(fact[1]))
+		fmt.Fprintf(&b, "- **%s:** %s\n", fact[0], format.Markdown(fact[1]))
 	}
 	b.WriteString("\n")
 	header, rows := grid(table(f))
 	row := func(cells []string) {
 		escaped := make([]string, len(cells))
 		for i, c := range cells {
-			escaped[i] = report.MarkdownEscape(c)
+			escaped[i] = format.Markdown(c)
 		}
 		b.WriteString("| " + strings.Join(escaped, " | ") + " |\n")
 	}
@@ -189,12 +189,12 @@ func WriteMarkdown(w io.Writer, f *decision.File, path string) error {
 	if notes := allNotes(f); len(notes) > 0 {
 		b.WriteString("\n## Notes\n\n")
 		for _, n := range notes {
-			fmt.Fprintf(&b, "- **%s:** %s\n", report.MarkdownEscape(n[0]), report.MarkdownEscape(n[1]))
+			fmt.Fprintf(&b, "- **%s:** %s\n", format.Markdown(n[0]), format.Markdown(n[1]))
 		}
 	}
 	b.WriteString("\n## Sign-off\n\n")
 	b.WriteString("- Reviewed by: \n- Date: \n- Decision: \n")
-	b.WriteString("\n> **Caution.** " + report.MarkdownEscape(evidence.Caution) + "\n")
+	b.WriteString("\n> **Caution.** " + format.Markdown(evidence.Caution) + "\n")
 	_, err := io.WriteString(w, b.String())
 	return err
 }
