@@ -27,6 +27,7 @@ import (
 	"math"
 
 	"github.com/sill-tool/sill/internal/decision"
+	"github.com/sill-tool/sill/internal/format"
 	"github.com/sill-tool/sill/internal/scores"
 )
 
@@ -223,18 +224,20 @@ func (r *Result) findings() {
 	var drift, notes []string
 	margin := ""
 	if r.Tolerance > 0 {
-		margin = fmt.Sprintf(", beyond the tolerance of %s points", points(r.Tolerance))
+		margin = fmt.Sprintf(", beyond the tolerance of %s points", format.Number(100*r.Tolerance, 1))
 	}
 	test := func(name, against string, t Test) {
 		if !t.Drift {
 			return
 		}
+		// The difference of the shares as shown beside it.
+		shown := format.ShareDiff(t.Observed, t.Expected).Value
 		direction := "higher"
-		if t.Difference < 0 {
+		if shown < 0 || shown == 0 && t.Difference < 0 {
 			direction = "lower"
 		}
 		drift = append(drift, fmt.Sprintf("%s drifted: %s observed against %s %s, %s points %s%s (%s)",
-			name, percent(t.Observed), percent(t.Expected), against, points(math.Abs(t.Difference)), direction, margin, pValue(t.PValue)))
+			name, format.Share(t.Observed), format.Share(t.Expected), against, format.Number(100*math.Abs(shown), 1), direction, margin, "p "+format.PValue(t.PValue)))
 	}
 	test("alert rate", "projected", r.AlertRate)
 	if !r.AlertRate.Defined {
@@ -243,17 +246,17 @@ func (r *Result) findings() {
 	switch r.PSIBand {
 	case "large":
 		if r.PSIDrift {
-			drift = append(drift, fmt.Sprintf("score distribution drifted: PSI %.3f, above %v (a large shift)", r.PSI, PSILarge))
+			drift = append(drift, fmt.Sprintf("score distribution drifted: PSI %s, above %v (a large shift)", format.Number(r.PSI, 3), PSILarge))
 		} else {
-			notes = append(notes, fmt.Sprintf("score distribution: PSI %.3f is in the large band, but sampling noise alone passes %.3f once in a hundred runs on so few rows; not counted as drift", r.PSI, r.PSINoiseLevel))
+			notes = append(notes, fmt.Sprintf("score distribution: PSI %s is in the large band, but sampling noise alone passes %s once in a hundred runs on so few rows; not counted as drift", format.Number(r.PSI, 3), format.Number(r.PSINoiseLevel, 3)))
 		}
 	case "moderate":
-		notes = append(notes, fmt.Sprintf("score distribution moved moderately: PSI %.3f, between %v and %v; watch it, not counted as drift", r.PSI, PSIModerate, PSILarge))
+		notes = append(notes, fmt.Sprintf("score distribution moved moderately: PSI %s, between %v and %v; watch it, not counted as drift", format.Number(r.PSI, 3), PSIModerate, PSILarge))
 	case "":
 		notes = append(notes, "the file has no score histogram, so the score distribution was not checked")
 	}
 	if r.PSINoise >= PSIModerate {
-		notes = append(notes, fmt.Sprintf("the new data are few: sampling noise alone gives a PSI of about %.3f, so its bands read high", r.PSINoise))
+		notes = append(notes, fmt.Sprintf("the new data are few: sampling noise alone gives a PSI of about %s, so its bands read high", format.Number(r.PSINoise, 3)))
 	}
 	if r.Labelled {
 		test("recall", "on validation", r.Recall)
@@ -273,20 +276,4 @@ func (r *Result) findings() {
 	}
 	r.Drift = len(drift) > 0
 	r.Findings = append(drift, notes...)
-}
-
-func percent(v float64) string {
-	if math.IsNaN(v) {
-		return "n/a"
-	}
-	return fmt.Sprintf("%.1f%%", 100*v)
-}
-
-func points(v float64) string { return fmt.Sprintf("%.1f", 100*v) }
-
-func pValue(p float64) string {
-	if p < 0.0001 {
-		return "p < 0.0001"
-	}
-	return fmt.Sprintf("p = %.4f", p)
 }

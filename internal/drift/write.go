@@ -9,6 +9,7 @@ import (
 	"strings"
 
 	"github.com/sill-tool/sill/internal/evidence"
+	"github.com/sill-tool/sill/internal/format"
 )
 
 // Status returns "drift" when any check drifted, else "ok".
@@ -130,20 +131,20 @@ func WriteText(w io.Writer, r *Result, decisionFile, scoresFile string) error {
 		labels = "labelled"
 	}
 	fmt.Fprintf(&b, "Check of %s against %s\n", scoresFile, decisionFile)
-	fmt.Fprintf(&b, "chosen cut   %s: flag when score %s %s\n", r.Chosen, sign, strconv.FormatFloat(r.Cut, 'g', -1, 64))
+	fmt.Fprintf(&b, "chosen cut   %s: flag when score %s %s\n", r.Chosen, sign, format.Score(r.Cut))
 	rate := "a base rate given when it was saved"
 	if r.BaseRateValidation {
 		rate = "the validation base rate"
 	}
-	fmt.Fprintf(&b, "expected     from %s (%s rows), projected at %s, %s\n", r.ValidationPath, count(float64(r.ValidationRows)), rate, percent(r.BaseRate))
-	flagged := count(r.Flagged) + " of them"
+	fmt.Fprintf(&b, "expected     from %s (%s rows), projected at %s, %s\n", r.ValidationPath, format.Count(float64(r.ValidationRows)), rate, format.Share(r.BaseRate))
+	flagged := format.Count(r.Flagged) + " of them"
 	if r.Weighted {
-		flagged = count(r.Flagged) + " of weight " + count(r.Weight)
+		flagged = format.Count(r.Flagged) + " of weight " + format.Count(r.Weight)
 	}
-	fmt.Fprintf(&b, "new data     %s rows, %s; the cut flags %s\n", count(float64(r.Rows)), labels, flagged)
+	fmt.Fprintf(&b, "new data     %s rows, %s; the cut flags %s\n", format.Count(float64(r.Rows)), labels, flagged)
 	tolerance := "none"
 	if r.Tolerance > 0 {
-		tolerance = points(r.Tolerance) + " points"
+		tolerance = format.Number(100*r.Tolerance, 1) + " points"
 	}
 	fmt.Fprintf(&b, "tests        two-sample z tests at the %g%% level (on noise alone each trips about once in %d runs); tolerance %s\n\n",
 		100*Level, int(math.Round(1/Level)), tolerance)
@@ -151,19 +152,19 @@ func WriteText(w io.Writer, r *Result, decisionFile, scoresFile string) error {
 	rows := [][]string{{"check", "observed", "interval", "expected", "difference", "p-value", "verdict"}}
 	add := func(name, source string, t Test, measured bool) {
 		if !measured {
-			rows = append(rows, []string{name, "not measured", "", percent(t.Expected) + " " + source, "", "", "-"})
+			rows = append(rows, []string{name, "not measured", "", format.Share(t.Expected) + " " + source, "", "", "-"})
 			return
 		}
 		if !t.Defined {
-			rows = append(rows, []string{name, percent(t.Observed), rangeOf(t.ObservedCI), percent(t.Expected) + " " + source, "", "", "not tested"})
+			rows = append(rows, []string{name, format.Share(t.Observed), format.Interval(t.ObservedCI), format.Share(t.Expected) + " " + source, "", "", "not tested"})
 			return
 		}
 		verdict := "ok"
 		if t.Drift {
 			verdict = "DRIFT"
 		}
-		rows = append(rows, []string{name, percent(t.Observed), rangeOf(t.ObservedCI), percent(t.Expected) + " " + source,
-			signedPoints(t.Difference), shortP(t.PValue), verdict})
+		rows = append(rows, []string{name, format.Share(t.Observed), format.Interval(t.ObservedCI), format.Share(t.Expected) + " " + source,
+			format.ShareDiff(t.Observed, t.Expected).Text, format.PValue(t.PValue), verdict})
 	}
 	add("alert rate", "projected", r.AlertRate, true)
 	add("recall", "validation", r.Recall, r.Labelled)
@@ -179,9 +180,9 @@ func WriteText(w io.Writer, r *Result, decisionFile, scoresFile string) error {
 	if math.IsNaN(r.PSI) {
 		rows = append(rows, []string{"score PSI", "not measured", "", "", "", "", "-"})
 	} else {
-		rows = append(rows, []string{"score PSI", fmt.Sprintf("%.3f", r.PSI), r.PSIBand, fmt.Sprintf("noise ~%.3f", r.PSINoise), "", "", psiVerdict})
+		rows = append(rows, []string{"score PSI", format.Number(r.PSI, 3), r.PSIBand, "noise ~" + format.Number(r.PSINoise, 3), "", "", psiVerdict})
 	}
-	grid(&b, rows)
+	b.WriteString(format.Grid(rows[0], rows[1:], true))
 	fmt.Fprintf(&b, "\nPSI bands (common practice): below %v stable, %v to %v moderate, above %v large; only large counts as drift, and only beyond what noise alone gives once in a hundred runs.\n",
 		PSIModerate, PSIModerate, PSILarge, PSILarge)
 	if r.Drift {
@@ -198,54 +199,4 @@ func WriteText(w io.Writer, r *Result, decisionFile, scoresFile string) error {
 	b.WriteString("\ncaution: " + evidence.Caution + "\n")
 	_, err := io.WriteString(w, b.String())
 	return err
-}
-
-func grid(b *strings.Builder, rows [][]string) {
-	widths := make([]int, len(rows[0]))
-	for _, row := range rows {
-		for i, cell := range row {
-			widths[i] = max(widths[i], len([]rune(cell)))
-		}
-	}
-	for _, row := range rows {
-		var line strings.Builder
-		for i, cell := range row {
-			if i > 0 {
-				line.WriteString("  ")
-			}
-			line.WriteString(cell + strings.Repeat(" ", widths[i]-len([]rune(cell))))
-		}
-		b.WriteString(strings.TrimRight(line.String(), " ") + "\n")
-	}
-}
-
-func rangeOf(ci [2]float64) string {
-	if math.IsNaN(ci[0]) || math.IsNaN(ci[1]) {
-		return ""
-	}
-	return fmt.Sprintf("%.1f%% to %.1f%%", 100*ci[0], 100*ci[1])
-}
-
-func signedPoints(v float64) string { return fmt.Sprintf("%+.1f pt", 100*v) }
-
-func shortP(p float64) string {
-	if p < 0.0001 {
-		return "<0.0001"
-	}
-	return fmt.Sprintf("%.4f", p)
-}
-
-func count(v float64) string {
-	if v == math.Trunc(v) && math.Abs(v) < 1e15 {
-		s := strconv.FormatInt(int64(v), 10)
-		var out []byte
-		for i := range s {
-			if i > 0 && (len(s)-i)%3 == 0 && s[i-1] != '-' {
-				out = append(out, ',')
-			}
-			out = append(out, s[i])
-		}
-		return string(out)
-	}
-	return strconv.FormatFloat(v, 'f', 1, 64)
 }
