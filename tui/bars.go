@@ -114,15 +114,20 @@ func splitKeys(screen tea.Model, msg tea.KeyMsg) (tea.Model, tea.Cmd, bool) {
 // tooSmallNotice is what the screen called name shows on a width×height
 // terminal below its minimum size minW×minH: what it needs, what it has
 // and how to leave, in the longest form whose lines all fit, centred, at
-// exactly width×height.
-func tooSmallNotice(name string, minW, minH, width, height int) string {
+// exactly width×height. With an overlay open (overlayOpen) the way to
+// leave is ctrl+c, since q may go to a field that cannot be seen.
+func tooSmallNotice(name string, minW, minH, width, height int, overlayOpen bool) string {
+	press, quits := "press q to quit", "q quits"
+	if overlayOpen {
+		press, quits = "press ctrl+c to quit", "ctrl+c quits"
+	}
 	forms := [][]string{
 		{fmt.Sprintf("%s needs a terminal of at least %d×%d;", name, minW, minH),
-			fmt.Sprintf("this one is %d×%d.", width, height), "Enlarge it, or press q to quit."},
-		wrapWords(fmt.Sprintf("%s needs a terminal of at least %d×%d; this one is %d×%d. Enlarge it, or press q to quit.",
-			name, minW, minH, width, height), width),
-		wrapWords(fmt.Sprintf("needs %d×%d, has %d×%d; q quits", minW, minH, width, height), width),
-		wrapWords(fmt.Sprintf("needs %d×%d; q quits", minW, minH), width),
+			fmt.Sprintf("this one is %d×%d.", width, height), "Enlarge it, or " + press + "."},
+		wrapWords(fmt.Sprintf("%s needs a terminal of at least %d×%d; this one is %d×%d. Enlarge it, or %s.",
+			name, minW, minH, width, height, press), width),
+		wrapWords(fmt.Sprintf("needs %d×%d, has %d×%d; %s", minW, minH, width, height, quits), width),
+		wrapWords(fmt.Sprintf("needs %d×%d; %s", minW, minH, quits), width),
 		{fmt.Sprintf("needs %d×%d", minW, minH)},
 	}
 	lines := forms[len(forms)-1]

@@ -173,6 +173,28 @@ func TestTooSmallNoticeFits(t *testing.T) {
 			}
 		}
 	}
+	// With a form or a note open, q would go to the field: the notice
+	// names ctrl+c, and ctrl+c quits.
+	form := keys(m, "a")
+	note, _ := sendReview(t, r, keyPress("n"))
+	for width := 20; width <= 50; width++ {
+		for height := 2; height <= 12; height++ {
+			form = send(form, tea.WindowSizeMsg{Width: width, Height: height})
+			note, _ = sendReview(t, note, tea.WindowSizeMsg{Width: width, Height: height})
+			for _, screen := range []struct{ name, frame string }{{"explorer's form", form.View()}, {"review's note", note.View()}} {
+				checkSize(t, screen.frame, width, height)
+				if !strings.Contains(screen.frame, "ctrl+c") || quitKey.MatchString(screen.frame) {
+					t.Errorf("%s at %d×%d: the notice does not name ctrl+c, or names q:\n%s", screen.name, width, height, screen.frame)
+				}
+			}
+		}
+	}
+	if _, cmd := form.Update(keyMsg("ctrl+c")); cmd == nil {
+		t.Errorf("ctrl+c in the form on a small terminal did not quit")
+	}
+	if _, cmd := note.Update(keyMsg("ctrl+c")); cmd == nil {
+		t.Errorf("ctrl+c in the note box on a small terminal did not quit")
+	}
 }
 
 // TestFooterOffersNoSwallowedKey opens every box with a text field (the

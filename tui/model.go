@@ -400,7 +400,7 @@ func (m Model) View() string {
 	}
 	l := m.screen()
 	if l.tooSmall {
-		return tooSmallNotice("sill", minWidth, minHeight, w, h)
+		return tooSmallNotice("sill", minWidth, minHeight, w, h, len(m.overlays) > 0)
 	}
 	if m.loading || m.s.curve == nil {
 		text := fmt.Sprintf("reading scores… %d rows so far", m.rowsRead.Load())

@@ -341,7 +341,7 @@ func (r Review) View() string {
 	}
 	l := r.screen()
 	if l.tooSmall {
-		return tooSmallNotice("sill review", reviewMinWidth, reviewMinHeight, w, h)
+		return tooSmallNotice("sill review", reviewMinWidth, reviewMinHeight, w, h, len(r.overlays) > 0)
 	}
 	frame := strings.Join([]string{r.header(w), r.strip.View(true), r.notesView(l.notes), r.footer()}, "\n")
 	if n := len(r.overlays); n > 0 {
