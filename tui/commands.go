@@ -12,6 +12,7 @@ import (
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
+	"github.com/sill-tool/sill/internal/sharedfile"
 )
 
 // The explorer's slow work (loading, the starting points under new
@@ -33,11 +34,13 @@ type (
 	// loadFailedMsg says the scores could not be loaded: the explorer shows
 	// nothing more and quits.
 	loadFailedMsg struct{ err error }
-	// fileWrittenMsg says the decision file was written.
+	// fileWrittenMsg says the decision file was written, and what it is
+	// now.
 	fileWrittenMsg struct {
 		path       string
 		candidates int
 		chosen     string
+		stamp      sharedfile.Stamp
 	}
 	// writeFailedMsg says the decision file was not written.
 	writeFailedMsg struct{ err error }
@@ -119,14 +122,23 @@ func (m *Model) write(force bool) tea.Cmd {
 	file, err := decision.New(s.set, s.assume, candidates, chosen, m.cfg.ToolVersion)
 	if err != nil {
 		m.status = "not written: " + err.Error()
+		m.writeErr = err
 		return nil
 	}
-	path, ctx := m.cfg.Out, m.cfg.Context
+	path, ctx, writes := m.cfg.Out, m.cfg.Context, m.writes
+	opts := decision.WriteOptions{Force: force}
+	if m.outStamp != nil {
+		expect := *m.outStamp
+		opts.Expect = &expect
+	}
 	return func() tea.Msg {
-		if _, err := decision.Write(ctx, path, file, decision.WriteOptions{Force: force}); err != nil {
-			return writeFailedMsg{err}
-		}
-		return fileWrittenMsg{path: path, candidates: len(candidates), chosen: chosen}
+		return writes.run(func() tea.Msg {
+			stamp, err := decision.Write(ctx, path, file, opts)
+			if err != nil {
+				return writeFailedMsg{err}
+			}
+			return fileWrittenMsg{path: path, candidates: len(candidates), chosen: chosen, stamp: stamp}
+		}, writeFailedMsg{errScreenEnded})
 	}
 }
 

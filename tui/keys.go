@@ -55,6 +55,8 @@ type KeyMap struct {
 	NextField, PrevField key.Binding
 	Accept, Cancel       key.Binding
 	Yes, No              key.Binding
+	// When the file changed on disk since the screen read or wrote it
+	Reload, WriteElsewhere key.Binding
 }
 
 // DefaultKeyMap returns the explorer's keys. README.md lists them (section "The explorer").
@@ -105,6 +107,9 @@ func DefaultKeyMap() KeyMap {
 		Cancel:    key.NewBinding(key.WithKeys("esc"), key.WithHelp("esc", "cancel")),
 		Yes:       key.NewBinding(key.WithKeys("y"), key.WithHelp("y", "yes, replace")),
 		No:        key.NewBinding(key.WithKeys("n", "esc"), key.WithHelp("n/esc", "no, keep it")),
+
+		Reload:         key.NewBinding(key.WithKeys("r"), key.WithHelp("r", "reload the file")),
+		WriteElsewhere: key.NewBinding(key.WithKeys("o"), key.WithHelp("o", "write to another file")),
 	}
 }
 

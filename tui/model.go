@@ -27,6 +27,7 @@ import (
 	"github.com/sill-tool/sill/internal/report"
 	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/segment"
+	"github.com/sill-tool/sill/internal/sharedfile"
 )
 
 // Config is what the explorer needs from the command line.
@@ -100,7 +101,10 @@ type Model struct {
 	readDone  *atomic.Bool // the scores are read; the cuts are being worked out
 	err       error
 	status    string
-	written   string // the path last written, "" before any write
+	written   string            // the path last written, "" before any write
+	outStamp  *sharedfile.Stamp // cfg.Out as this screen found it or last wrote it; nil: not known
+	writes    *writeTracker
+	writeErr  error  // why the last write asked for did not happen; nil after one that did
 	unwritten bool   // candidates or assumptions changed since the last write
 	tableSig  string // what the strip's table was built from
 
@@ -121,8 +125,13 @@ func New(cfg Config) Model {
 		cfg.Context = context.Background()
 	}
 	s := &session{beyond: beyond{resampling: newResampling()}}
+	var outStamp *sharedfile.Stamp
+	if stamp, err := sharedfile.StampOf(cfg.Out); err == nil {
+		outStamp = &stamp // a write replaces only this, or asks
+	}
 	return Model{
 		cfg: cfg, ctx: ctx, s: s, loading: true, rowsRead: new(atomic.Int64), readDone: new(atomic.Bool),
+		outStamp: outStamp, writes: &writeTracker{},
 		list:     newListPane(s, ctx),
 		chart:    newCurvePane(s, ctx),
 		figures:  newFiguresPane(s, ctx),
@@ -217,6 +226,7 @@ func (m Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 	case fileWrittenMsg:
 		m.written = msg.path
 		m.unwritten = false
+		m.outStamp, m.writeErr = &msg.stamp, nil
 		noun := "candidates"
 		if msg.candidates == 1 {
 			noun = "candidate"
@@ -224,6 +234,11 @@ func (m Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		m.status = fmt.Sprintf("wrote %s: %d %s, chosen %q", msg.path, msg.candidates, noun, msg.chosen)
 		return m, nil
 	case writeFailedMsg:
+		m.writeErr = msg.err
+		if errors.Is(msg.err, sharedfile.ErrChanged) {
+			m.push(m.changedQuestion(msg.err))
+			return m, nil
+		}
 		if errors.Is(msg.err, decision.ErrDifferentData) || errors.Is(msg.err, decision.ErrNotDecisionFile) {
 			path := m.cfg.Out
 			m.push(replaceQuestion(m.ctx, path, msg.err.Error(), path+" already exists and was not made from this data.",

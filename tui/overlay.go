@@ -123,6 +123,9 @@ type textBox[H any] struct {
 	err    string   // why accept refused the text
 	notes  []string // muted lines under the field: what the keys do
 	accept func(host H, text string) error
+	// then, when not nil, runs once accept has taken the text: work it
+	// starts, such as a write.
+	then func(host H) tea.Cmd
 	// enter and esc say what those keys do, in a few words, for the footer.
 	enter, esc string
 }
@@ -146,6 +149,9 @@ func (b *textBox[H]) Update(host H, msg tea.KeyMsg) (bool, tea.Cmd) {
 		if err := b.accept(host, b.field.Value()); err != nil {
 			b.err = err.Error()
 			return false, nil
+		}
+		if b.then != nil {
+			return true, b.then(host)
 		}
 		return true, nil
 	}

@@ -58,10 +58,12 @@ type Review struct {
 	ctx      *shared
 	keys     reviewKeys
 	file     *decision.File
-	path     string // as shown
-	saveTo   string // where w writes: path, except in tests
-	stamp    sharedfile.Stamp
+	path     string           // as shown
+	saveTo   string           // where w writes: path, except in tests
+	stamp    sharedfile.Stamp // the file as read or last written here
 	writeCtx context.Context
+	writes   *writeTracker
+	writeErr error // why the last write asked for did not happen; nil after one that did
 	selected int
 
 	strip    Strip
@@ -78,7 +80,7 @@ func NewReview(cfg ReviewConfig) Review {
 	ctx := newShared(cfg.Styles, cfg.Keys)
 	working := *cfg.File
 	working.Candidates = append([]decision.Candidate(nil), cfg.File.Candidates...)
-	r := Review{ctx: ctx, keys: newReviewKeys(ctx.keys), file: &working, path: cfg.Path, saveTo: cfg.Path, stamp: cfg.Stamp, writeCtx: cfg.Context}
+	r := Review{ctx: ctx, keys: newReviewKeys(ctx.keys), file: &working, path: cfg.Path, saveTo: cfg.Path, stamp: cfg.Stamp, writeCtx: cfg.Context, writes: &writeTracker{}}
 	ctx.keys = r.keys.KeyMap // the overlays read the same keys as the screen
 	if r.writeCtx == nil {
 		r.writeCtx = context.Background()
@@ -97,6 +99,14 @@ func (r Review) Written() bool { return r.written }
 
 // Changed reports whether there are changes not written.
 func (r Review) Changed() bool { return r.changed }
+
+// WriteErr returns why the last write asked for did not happen, or nil
+// when it did or none was asked for.
+func (r Review) WriteErr() error { return r.writeErr }
+
+// WaitForWrites starts no more writes and waits for the one in progress,
+// so that the process does not exit in the middle of it.
+func (r Review) WaitForWrites() { r.writes.wait() }
 
 // chosen returns the index of the chosen candidate.
 func (r Review) chosen() int {
@@ -136,7 +146,7 @@ func (r Review) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		r.resize()
 		return r, nil
 	case reviewWrittenMsg:
-		r.changed, r.written, r.stamp = false, true, msg.stamp
+		r.changed, r.written, r.stamp, r.writeErr = false, true, msg.stamp, nil
 		c := r.file.Candidates[r.chosen()]
 		r.status = fmt.Sprintf("written to %s · chosen %s", msg.path, c.Name)
 		if r.quitting {
@@ -144,6 +154,12 @@ func (r Review) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		}
 		return r, nil
 	case reviewWriteFailedMsg:
+		r.writeErr = msg.err
+		if errors.Is(msg.err, sharedfile.ErrChanged) {
+			r.quitting = false
+			r.overlays = push(r.overlays, r.changedQuestion(msg.err))
+			return r, nil
+		}
 		if errors.Is(msg.err, decision.ErrDifferentData) || errors.Is(msg.err, decision.ErrNotDecisionFile) {
 			r.overlays = push(r.overlays, replaceQuestion(r.ctx, r.path, msg.err.Error(), r.path+" on disk is no longer this decision's file.",
 				"Replace it?",
@@ -274,14 +290,50 @@ func (r *Review) quitQuestion() *question[*Review] {
 func (r Review) write(force bool) tea.Cmd {
 	f := *r.file
 	f.Candidates = append([]decision.Candidate(nil), r.file.Candidates...)
-	path, shown, ctx, expect := r.saveTo, r.path, r.writeCtx, r.stamp
+	path, shown, ctx, expect, writes := r.saveTo, r.path, r.writeCtx, r.stamp, r.writes
 	return func() tea.Msg {
-		stamp, err := decision.Write(ctx, path, &f, decision.WriteOptions{Force: force, Expect: &expect})
-		if err != nil {
-			return reviewWriteFailedMsg{err}
-		}
-		return reviewWrittenMsg{path: shown, stamp: stamp}
+		return writes.run(func() tea.Msg {
+			stamp, err := decision.Write(ctx, path, &f, decision.WriteOptions{Force: force, Expect: &expect})
+			if err != nil {
+				return reviewWriteFailedMsg{err}
+			}
+			return reviewWrittenMsg{path: shown, stamp: stamp}
+		}, reviewWriteFailedMsg{errScreenEnded})
 	}
+}
+
+// changedQuestion offers what to do when the file changed on disk since
+// the screen read or wrote it: reload it, dropping the changes made here,
+// or write them to another file.
+func (r *Review) changedQuestion(err error) *question[*Review] {
+	k, st := r.keys, r.ctx.styles
+	choices := st.Key.Render("r") + " reloads it, dropping the changes here · " + st.Key.Render("o") + " writes them to another file · " + st.Key.Render("esc") + " keeps them on screen"
+	return changedQuestion(r.ctx, r.path, err, choices, []answer[*Review]{
+		{key: k.Reload, what: "reload", do: func(r *Review) tea.Cmd { r.reload(); return nil }},
+		{key: k.WriteElsewhere, what: "write elsewhere", do: func(r *Review) tea.Cmd {
+			r.overlays = push(r.overlays, writeToBox(r.ctx, r.path,
+				func(r *Review, path string) {
+					r.path, r.saveTo = path, path
+					r.stamp, _ = sharedfile.StampOf(path) // what is there now may be replaced if it is this decision's kind
+				},
+				func(r *Review) tea.Cmd { return r.write(false) }))
+			return nil
+		}},
+		{key: k.Cancel, what: "keep editing"},
+	})
+}
+
+// reload reads the file again, dropping the changes made on screen.
+func (r *Review) reload() {
+	f, stamp, err := decision.ReadFileStamped(r.saveTo)
+	if err != nil {
+		r.status = "not reloaded: " + err.Error()
+		return
+	}
+	r.file, r.stamp, r.changed, r.writeErr = f, stamp, false, nil
+	r.selected = r.chosen()
+	r.refresh()
+	r.status = "reloaded " + r.path + "; the changes made here were dropped"
 }
 
 // Minimum terminal size of the review screen; below it only a notice.

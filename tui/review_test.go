@@ -3,6 +3,7 @@ package tui
 import (
 	"bytes"
 	"context"
+	"errors"
 	"os"
 	"path/filepath"
 	"strconv"
@@ -221,7 +222,8 @@ func TestReviewQuitAsks(t *testing.T) {
 }
 
 // A save made after the screen read the file is never written over: w
-// is refused and the other's save stays (a lost update before).
+// is refused, the other's save stays (a lost update before) and the
+// screen asks: r reloads the file, o writes the changes to another file.
 func TestReviewRefusesLostUpdate(t *testing.T) {
 	for _, tc := range []struct {
 		name  string
@@ -245,10 +247,47 @@ func TestReviewRefusesLostUpdate(t *testing.T) {
 			if got, _ := os.ReadFile(path); !bytes.Equal(got, saved) {
 				t.Fatal("w wrote over the other's save")
 			}
-			if r.Written() || !r.Changed() || !strings.Contains(r.status, "changed since it was read") {
-				t.Fatalf("written %v, changed %v, status %q", r.Written(), r.Changed(), r.status)
+			if r.Written() || !r.Changed() || !errors.Is(r.WriteErr(), sharedfile.ErrChanged) {
+				t.Fatalf("written %v, changed %v, write error %v", r.Written(), r.Changed(), r.WriteErr())
+			}
+			if len(r.overlays) != 1 || !strings.Contains(r.overlays[0].View(), "cut.yaml changed on disk since this screen read or wrote it") {
+				t.Fatalf("no question after the refused write: %d overlays", len(r.overlays))
+			}
+
+			// o: the changes go to another file, which w writes from then on.
+			elsewhere := filepath.Join(filepath.Dir(path), "mine.yaml")
+			r, _ = sendReview(t, r, keyPress("o"))
+			r, _ = sendReview(t, r, tea.KeyMsg{Type: tea.KeyCtrlU}) // clears the field
+			r = typeNote(t, r, elsewhere)
+			r, _ = sendReview(t, r, keyPress("enter"))
+			if back, err := decision.ReadFile(elsewhere); err != nil || back.Chosen != "cost" || !r.Written() || r.WriteErr() != nil || r.path != elsewhere {
+				t.Fatalf("write elsewhere: %v, written %v, error %v, path %q", err, r.Written(), r.WriteErr(), r.path)
+			}
+			if got, _ := os.ReadFile(path); !bytes.Equal(got, saved) {
+				t.Fatal("writing elsewhere touched the other's save")
 			}
 		})
+	}
+	// r: the screen reloads the file as the other saved it.
+	r, path := newTestReview(t, 100, 30)
+	other, _ := decision.ReadFile(path)
+	other.Note = "approved at the October review"
+	if _, err := decision.Write(context.Background(), path, other, decision.WriteOptions{}); err != nil {
+		t.Fatal(err)
+	}
+	r, _ = sendReview(t, r, keyPress("right"))
+	r, _ = sendReview(t, r, keyPress("c"))
+	r, _ = sendReview(t, r, keyPress("w"))
+	r, _ = sendReview(t, r, keyPress("r"))
+	if r.file.Note != other.Note || r.file.Chosen != "queue=90" || r.Changed() || r.WriteErr() != nil || len(r.overlays) != 0 {
+		t.Fatalf("after reload: note %q, chosen %q, changed %v, error %v", r.file.Note, r.file.Chosen, r.Changed(), r.WriteErr())
+	}
+	// And w now writes over the reloaded file, which is still as read.
+	r, _ = sendReview(t, r, keyPress("right"))
+	r, _ = sendReview(t, r, keyPress("c"))
+	r, _ = sendReview(t, r, keyPress("w"))
+	if back, _ := decision.ReadFile(path); back.Note != other.Note || back.Chosen == "queue=90" || !r.Written() {
+		t.Fatalf("w after reload: note %q, chosen %q", back.Note, back.Chosen)
 	}
 }
 

@@ -1,7 +1,9 @@
 package main
 
 import (
+	"context"
 	"fmt"
+	"io"
 	"os"
 
 	tea "github.com/charmbracelet/bubbletea"
@@ -94,7 +96,7 @@ both models' cuts side by side.`,
 			}
 			cfg.Load = func(progress func(int)) (*scores.Set, error) { return o.load(path, progress) }
 			cfg.Assume, cfg.Out = o.assume.assumptions, o.out
-			return runExplorer(cfg)
+			return runExplorer(cmd.Context(), cfg)
 		},
 	}
 	fs := cmd.Flags()
@@ -119,12 +121,12 @@ var demoShifts = []string{"--time=read_at", "--shifts=06:00,14:00,22:00", "--tz=
 // exploreDemo opens the explorer on the built-in demo data with the demo
 // assumptions, its yards as segments and its readings in the three crew
 // shifts.
-func exploreDemo() error {
+func exploreDemo(ctx context.Context) error {
 	cfg, err := demoConfig()
 	if err != nil {
 		return err
 	}
-	return runExplorer(cfg)
+	return runExplorer(ctx, cfg)
 }
 
 // demoConfig is the explorer's configuration for the built-in demo data.
@@ -156,33 +158,45 @@ func isTerminal() bool {
 // runExplorer runs the screen of cfg until the user quits. A load error
 // ends the screen and is returned, so that sill prints it and exits with
 // status 2.
-func runExplorer(cfg tui.Config) error {
+func runExplorer(ctx context.Context, cfg tui.Config) error {
 	renderer := lipgloss.NewRenderer(os.Stdout)
 	if os.Getenv("NO_COLOR") != "" {
 		renderer.SetColorProfile(termenv.Ascii)
 	}
 	styles := tui.DefaultStyles(renderer)
-	cfg.ToolVersion, cfg.Styles = toolVersion(), &styles
-	out := cfg.Out
+	cfg.ToolVersion, cfg.Styles, cfg.Context = toolVersion(), &styles, ctx
 	model := tui.New(cfg)
 	final, err := tea.NewProgram(model, tea.WithAltScreen()).Run()
+	model.WaitForWrites() // a write still going when the screen closed ends before the process does
 	if err != nil {
 		return fmt.Errorf("explore: %w", err)
 	}
-	m := final.(tui.Model)
+	return exploreOutcome(final.(tui.Model), cfg.Out, os.Stderr)
+}
+
+// exploreOutcome says on stderr where the decision is once the explorer
+// m has closed, and returns the load error or the failed write that
+// makes the exit status 2.
+func exploreOutcome(m tui.Model, out string, stderr io.Writer) error {
 	if err := m.Err(); err != nil {
 		return err
 	}
 	path, n := m.Written(), m.Unwritten()
+	if err := m.WriteErr(); err != nil {
+		if path != "" {
+			return fmt.Errorf("the last write failed (%s holds the decision as written before it): %w", path, err)
+		}
+		return fmt.Errorf("the decision was not written: %w", err)
+	}
 	switch {
 	case path != "" && n > 0:
-		fmt.Fprintf(os.Stderr, "sill: %s holds the decision as last written; the changes after that were not written\n", path)
+		fmt.Fprintf(stderr, "sill: %s holds the decision as last written; the changes after that were not written\n", path)
 	case path != "":
-		fmt.Fprintf(os.Stderr, "sill: the decision is in %s\n", path)
+		fmt.Fprintf(stderr, "sill: the decision is in %s\n", path)
 	case n == 1:
-		fmt.Fprintf(os.Stderr, "sill: the pinned candidate was not written (w writes it to %s)\n", out)
+		fmt.Fprintf(stderr, "sill: the pinned candidate was not written (w writes it to %s)\n", out)
 	case n > 1:
-		fmt.Fprintf(os.Stderr, "sill: the %d pinned candidates were not written (w writes them to %s)\n", n, out)
+		fmt.Fprintf(stderr, "sill: the %d pinned candidates were not written (w writes them to %s)\n", n, out)
 	}
 	return nil
 }

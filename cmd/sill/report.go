@@ -160,7 +160,7 @@ var reportHints = report.Hints{
 // the report of the same data.
 func runDefault(cmd *cobra.Command) error {
 	if isTerminal() && cmd.OutOrStdout() == os.Stdout {
-		return exploreDemo()
+		return exploreDemo(cmd.Context())
 	}
 	var o reportOptions
 	o.format = "text"

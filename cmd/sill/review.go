@@ -78,14 +78,19 @@ func runReviewScreen(ctx context.Context, file *decision.File, stamp sharedfile.
 		renderer.SetColorProfile(termenv.Ascii)
 	}
 	styles := tui.DefaultStyles(renderer)
-	final, err := tea.NewProgram(tui.NewReview(tui.ReviewConfig{File: file, Path: path, Stamp: stamp, Context: ctx, Styles: &styles}), tea.WithAltScreen()).Run()
+	screen := tui.NewReview(tui.ReviewConfig{File: file, Path: path, Stamp: stamp, Context: ctx, Styles: &styles})
+	final, err := tea.NewProgram(screen, tea.WithAltScreen()).Run()
+	screen.WaitForWrites() // a write still going when the screen closed ends before the process does
 	if err != nil {
 		return fmt.Errorf("review: %w", err)
 	}
 	r := final.(tui.Review)
+	if err := r.WriteErr(); err != nil {
+		return fmt.Errorf("the changes on screen were not written: %w", err)
+	}
 	switch {
 	case r.Written() && !r.Changed():
-		fmt.Fprintf(os.Stderr, "sill: wrote %s; chosen %s\n", path, r.File().Chosen)
+		fmt.Fprintf(os.Stderr, "sill: wrote %s; chosen %s\n", r.Path(), r.File().Chosen)
 	case r.Changed():
 		fmt.Fprintf(os.Stderr, "sill: %s left as it was; the changes on screen were not written\n", path)
 	}

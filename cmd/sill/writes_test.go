@@ -1,13 +1,20 @@
 package main
 
 import (
+	"bytes"
+	"errors"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
 
+	tea "github.com/charmbracelet/bubbletea"
+
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/demo"
+	"github.com/sill-tool/sill/internal/projection"
+	"github.com/sill-tool/sill/internal/scores"
+	"github.com/sill-tool/sill/tui"
 )
 
 // demo --out replaces demo data and nothing else unless forced (it
@@ -74,5 +81,74 @@ func TestSaveThroughLinkKeepsModeAndLink(t *testing.T) {
 	}
 	if f, err := decision.ReadFile(shared); err != nil || f.Chosen != "base" {
 		t.Fatalf("the shared file was not replaced: %v", err)
+	}
+}
+
+// exploreScreen drives the explorer on the demo data without a terminal,
+// as the program would: it loads, then takes keys, running the commands
+// they return.
+func exploreScreen(t *testing.T, out string, keys ...string) tui.Model {
+	t.Helper()
+	set, err := scores.Read(bytes.NewReader(demo.CSV(500, 3)), "bearings.csv", scores.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var m tea.Model = tui.New(tui.Config{
+		Load: func(func(int)) (*scores.Set, error) { return set, nil },
+		Assume: func(*scores.Set) (projection.Assumptions, error) {
+			return projection.Assumptions{BaseRate: 0.07, Confidence: 0.95}, nil
+		},
+		Out: out,
+	})
+	m, _ = m.Update(tea.WindowSizeMsg{Width: 100, Height: 30})
+	var run func(cmd tea.Cmd)
+	run = func(cmd tea.Cmd) {
+		if cmd == nil {
+			return
+		}
+		switch msg := cmd().(type) {
+		case tea.BatchMsg:
+			run(msg[0]) // the load; the other is the loading screen's tick
+		case tea.QuitMsg, nil:
+		default:
+			var next tea.Cmd
+			m, next = m.Update(msg)
+			run(next)
+		}
+	}
+	run(m.Init())
+	for _, k := range keys {
+		var cmd tea.Cmd
+		m, cmd = m.Update(tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune(k)})
+		run(cmd)
+	}
+	return m.(tui.Model)
+}
+
+// explore exits with status 2 after a write that failed (it exited 0).
+func TestExploreExitAfterFailedWrite(t *testing.T) {
+	dir := t.TempDir()
+	missing := filepath.Join(dir, "no such folder", "cut.yaml")
+	var stderr bytes.Buffer
+	err := exploreOutcome(exploreScreen(t, missing, "w", "q"), missing, &stderr)
+	want := "the decision was not written: write " + missing + ": the folder " + filepath.Dir(missing) + " does not exist"
+	if err == nil || err.Error() != want {
+		t.Fatalf("error %v, want %q", err, want)
+	}
+	if exit := (*exitError)(nil); errors.As(err, &exit) {
+		t.Errorf("exit status %d, want 2 (run gives 2 to every error that is not an exitError)", exit.code)
+	}
+
+	// Refused over a scores file, and the question declined: not written either.
+	scoresPath := writeFile(t, dir, "bearings.csv", demo.CSV(500, 3))
+	if err := exploreOutcome(exploreScreen(t, scoresPath, "w", "n", "q"), scoresPath, &stderr); !errors.Is(err, decision.ErrNotDecisionFile) {
+		t.Errorf("declined replacement: error %v, want ErrNotDecisionFile", err)
+	}
+
+	// Written: status 0 and where the decision is.
+	good := filepath.Join(dir, "cut.yaml")
+	stderr.Reset()
+	if err := exploreOutcome(exploreScreen(t, good, "w", "q"), good, &stderr); err != nil || stderr.String() != "sill: the decision is in "+good+"\n" {
+		t.Errorf("written: error %v, stderr %q", err, stderr.String())
 	}
 }
