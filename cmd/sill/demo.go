@@ -10,6 +10,10 @@ import (
 	"github.com/sill-tool/sill/internal/sharedfile"
 )
 
+// maxDemoRows bounds sill demo --rows: the set is made in memory, about
+// 50 bytes a row.
+const maxDemoRows = 1_000_000
+
 func newDemoCmd() *cobra.Command {
 	var (
 		rows  int
@@ -31,6 +35,9 @@ else (a decision file, your own scores) only with --force.`,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if rows < 1 {
 				return fmt.Errorf("--rows %d: expected at least 1", rows)
+			}
+			if rows > maxDemoRows {
+				return fmt.Errorf("--rows %d: expected at most %d (the demo set is made in memory)", rows, maxDemoRows)
 			}
 			if force && (out == "" || out == "-") {
 				return errors.New("--force goes with --out FILE")

@@ -207,6 +207,16 @@ func (f *assumptionFlags) assumptions(set *scores.Set) (projection.Assumptions, 
 
 // flagError rewords an assumption error for the command line.
 func flagError(err error) error {
+	var amount *projection.AmountError
+	if errors.As(err, &amount) {
+		flags := map[string]string{
+			projection.AmountVolume:       "--volume",
+			projection.AmountCapacity:     "--capacity",
+			projection.AmountCost:         "--cost-false-alert, --cost-miss or --cost-hit",
+			projection.AmountCostPerShift: "--volume times the largest of --cost-false-alert, --cost-miss and --cost-hit",
+		}[amount.Amount]
+		return fmt.Errorf("%s: %w", flags, err)
+	}
 	return fmt.Errorf("%w (check --base-rate, --volume, --capacity, the costs and --confidence)", err)
 }
 

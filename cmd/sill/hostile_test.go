@@ -3,8 +3,10 @@ package main
 import (
 	"bytes"
 	"compress/gzip"
+	"encoding/json"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
 )
@@ -119,5 +121,83 @@ func TestRunHostileInput(t *testing.T) {
 				t.Errorf("exit %d, stdout %q\nstderr %q\nwant   %q", r.code, r.stdout, r.stderr, "sill: "+tc.want+"\n")
 			}
 		})
+	}
+}
+
+// nonFinite matches a NaN or an infinity as Go, JSON encoders and YAML
+// print them.
+var nonFinite = regexp.MustCompile(`(?i)(^|[^a-z])[+-]?\.?(nan|inf)([^a-z]|$)`)
+
+// TestRunNoNaNOrInf: sums that would overflow are refused with one line
+// naming the column or the flag (once weights of 1e308 gave "n/a true
+// cases" and exit 0, JSON failed on +Inf and check printed "+NaN pt" and
+// "status: ok"); and at the edge of what is read (weights adding up to
+// nearly MaxWeightTotal, a cost per shift of nearly MaxAmount) no NaN or
+// infinity reaches any output: report as text, JSON, Markdown and CSV,
+// the decision file, and check's verdict as text and JSON.
+func TestRunNoNaNOrInf(t *testing.T) {
+	dir := t.TempDir()
+	good := writeFile(t, dir, "good.csv", []byte(goodTable))
+	huge := writeFile(t, dir, "huge.csv", []byte("score,label,w\n0.9,1,1e308\n0.8,0,1e308\n0.1,0,1\n"))
+	cutPath := filepath.Join(dir, "cut.yaml")
+	if r := runSill(t, "", "report", good, "--cut", "base", "--save", cutPath); r.code != 0 {
+		t.Fatalf("save: exit %d, %s", r.code, r.stderr)
+	}
+	refusals := []struct {
+		args []string
+		want string
+	}{
+		{[]string{"report", huge, "--weight", "w"}, huge + `: column "w": sum out of range: the weights add up to more than float64 holds (about 1.8e308), expected at most 1e+150 so that the figures stay finite`},
+		{[]string{"report", huge, "--weight", "w", "--format", "json"}, huge + `: column "w": sum out of range: the weights add up to more than float64 holds (about 1.8e308), expected at most 1e+150 so that the figures stay finite`},
+		{[]string{"check", cutPath, huge, "--weight", "w"}, huge + `: column "w": sum out of range: the weights add up to more than float64 holds (about 1.8e308), expected at most 1e+150 so that the figures stay finite`},
+		{[]string{"report", good, "--volume", "1e200"}, "--volume: invalid assumption: volume per shift 1e+200 is too large, expected at most 1e+150 so that the figures stay finite"},
+		{[]string{"report", good, "--volume", "1e100", "--cost-miss", "1e100"}, "--volume times the largest of --cost-false-alert, --cost-miss and --cost-hit: invalid assumption: cost per shift 1e+200 is too large, expected at most 1e+150 so that the figures stay finite"},
+		{[]string{"report", good, "--cost-hit", "-1e300"}, "--cost-false-alert, --cost-miss or --cost-hit: invalid assumption: cost 1e+300 is too large, expected at most 1e+150 so that the figures stay finite"},
+		{[]string{"demo", "--rows", "1000000000000"}, "--rows 1000000000000: expected at most 1000000 (the demo set is made in memory)"},
+	}
+	for _, tc := range refusals {
+		r := runSill(t, "", tc.args...)
+		if r.code != 2 || r.stdout != "" || r.stderr != "sill: "+tc.want+"\n" {
+			t.Errorf("sill %s: exit %d, stdout %q\nstderr %q\nwant   %q", strings.Join(tc.args, " "), r.code, r.stdout, r.stderr, "sill: "+tc.want+"\n")
+		}
+	}
+
+	edge := writeFile(t, dir, "edge.csv", []byte("score,label,w\n0.9,1,3e148\n0.8,0,2e148\n0.7,1,1e148\n0.4,0,3e148\n0.2,1,5e147\n0.1,0,2e148\n"))
+	flags := []string{"--weight", "w", "--volume", "1e100", "--capacity", "1e99", "--cost-miss", "1e49", "--cost-false-alert", "1e48", "--cost-hit", "-1e47"}
+	edgeCut := filepath.Join(dir, "edge-cut.yaml")
+	outputs := [][]string{
+		{"report", edge, "--format", "text", "--curve"},
+		{"report", edge, "--format", "json", "--curve"},
+		{"report", edge, "--format", "markdown", "--curve"},
+		{"report", edge, "--format", "csv", "--cut", "base", "--cut", "cost"},
+		{"report", edge, "--cut", "base", "--cut", "cost", "--cut", "queue=5e99", "--save", edgeCut},
+	}
+	for _, args := range outputs {
+		r := runSill(t, "", append(args, flags...)...)
+		if r.code != 0 {
+			t.Fatalf("sill %s: exit %d, %s", strings.Join(args, " "), r.code, r.stderr)
+		}
+		if m := nonFinite.FindString(r.stdout + r.stderr); m != "" {
+			t.Errorf("sill %s: %q in the output:\n%s", strings.Join(args, " "), m, r.stdout)
+		}
+		if args[3] == "json" && !json.Valid([]byte(r.stdout)) {
+			t.Errorf("sill %s: output is not JSON", strings.Join(args, " "))
+		}
+	}
+	saved, err := os.ReadFile(edgeCut)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if m := nonFinite.FindString(string(saved)); m != "" {
+		t.Errorf("decision file holds %q:\n%s", m, saved)
+	}
+	for _, format := range []string{"text", "json"} {
+		r := runSill(t, "", "check", edgeCut, edge, "--weight", "w", "--format", format)
+		if r.code != 0 && r.code != 1 {
+			t.Fatalf("check --format %s: exit %d, %s", format, r.code, r.stderr)
+		}
+		if m := nonFinite.FindString(r.stdout + r.stderr); m != "" {
+			t.Errorf("check --format %s: %q in the verdict:\n%s", format, m, r.stdout)
+		}
 	}
 }

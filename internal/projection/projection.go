@@ -45,6 +45,35 @@ type Assumptions struct {
 // ErrAssumption marks an assumption outside its allowed range.
 var ErrAssumption = errors.New("invalid assumption")
 
+// MaxAmount bounds the volume per shift, the capacity, every cost, and
+// the cost per shift a volume and a cost make: past it the figures of a
+// shift, their differences and their sums over many shifts could overflow
+// float64 and be shown as infinities or NaN rather than refused.
+const MaxAmount = 1e150
+
+// Amounts named by an AmountError.
+const (
+	AmountVolume       = "volume per shift"
+	AmountCapacity     = "capacity"
+	AmountCost         = "cost"
+	AmountCostPerShift = "cost per shift"
+)
+
+// AmountError reports an assumption too large for the figures to stay
+// finite: Amount is one of the Amount constants, Value the value given
+// (for AmountCostPerShift, the volume times the largest cost). It wraps
+// ErrAssumption.
+type AmountError struct {
+	Amount string
+	Value  float64
+}
+
+func (e *AmountError) Error() string {
+	return fmt.Sprintf("%v: %s %g is too large, expected at most %g so that the figures stay finite", ErrAssumption, e.Amount, e.Value, MaxAmount)
+}
+
+func (e *AmountError) Unwrap() error { return ErrAssumption }
+
 // Validate reports the first assumption outside its range.
 func (a Assumptions) Validate() error {
 	switch {
@@ -62,6 +91,21 @@ func (a Assumptions) Validate() error {
 			if math.IsNaN(v) || math.IsInf(v, 0) {
 				return fmt.Errorf("%w: cost %v, expected a finite number", ErrAssumption, v)
 			}
+		}
+	}
+	switch {
+	case a.Volume > MaxAmount:
+		return &AmountError{Amount: AmountVolume, Value: a.Volume}
+	case a.Capacity > MaxAmount:
+		return &AmountError{Amount: AmountCapacity, Value: a.Capacity}
+	}
+	if c := a.Costs; c != nil {
+		largest := max(math.Abs(c.FalseAlert), math.Abs(c.Miss), math.Abs(c.Hit))
+		if largest > MaxAmount {
+			return &AmountError{Amount: AmountCost, Value: largest}
+		}
+		if perShift := a.Volume * largest; perShift > MaxAmount {
+			return &AmountError{Amount: AmountCostPerShift, Value: perShift}
 		}
 	}
 	return nil

@@ -250,6 +250,15 @@ func TestValidate(t *testing.T) {
 		{"confidence 95", func(a *projection.Assumptions) { a.Confidence = 95 }, "invalid assumption: confidence 95, expected a level in (0,1) such as 0.95"},
 		{"NaN cost", func(a *projection.Assumptions) { a.Costs = &projection.Costs{Miss: nan} }, "invalid assumption: cost NaN, expected a finite number"},
 		{"infinite cost", func(a *projection.Assumptions) { a.Costs = &projection.Costs{Hit: math.Inf(-1)} }, "invalid assumption: cost -Inf, expected a finite number"},
+		// Finite but too large: the figures of a shift would overflow.
+		{"volume past the bound", func(a *projection.Assumptions) { a.Volume = 1e200 }, "invalid assumption: volume per shift 1e+200 is too large, expected at most 1e+150 so that the figures stay finite"},
+		{"capacity past the bound", func(a *projection.Assumptions) { a.Capacity = 1e151 }, "invalid assumption: capacity 1e+151 is too large, expected at most 1e+150 so that the figures stay finite"},
+		{"cost past the bound", func(a *projection.Assumptions) { a.Costs = &projection.Costs{Miss: -1e300} }, "invalid assumption: cost 1e+300 is too large, expected at most 1e+150 so that the figures stay finite"},
+		{"cost per shift past the bound", func(a *projection.Assumptions) { a.Volume, a.Costs = 1e100, &projection.Costs{FalseAlert: 1e51} }, "invalid assumption: cost per shift 1e+151 is too large, expected at most 1e+150 so that the figures stay finite"},
+	}
+	var amount *projection.AmountError
+	if err := (projection.Assumptions{Volume: 1e200, Confidence: 0.9}).Validate(); !errors.As(err, &amount) || amount.Amount != projection.AmountVolume {
+		t.Errorf("volume past the bound: %v, want an AmountError naming the volume", err)
 	}
 	for _, tc := range cases {
 		a := ok

@@ -126,3 +126,42 @@ func TestQuoteErrors(t *testing.T) {
 		}
 	}
 }
+
+// TestWeightTotals: weights whose sum overflows, passes MaxWeightTotal or
+// swallows the smallest weight, and counts whose sum passes 2^53, are
+// refused naming the weight column; once weights of 1e308 read and every
+// figure came out infinite or undefined. By both readers, by New and by
+// NewCounts. Common practice, no source: float64 holds 2^53 exactly and
+// about 16 significant digits.
+func TestWeightTotals(t *testing.T) {
+	cases := []struct{ input, want string }{
+		{"score,label,w\n0.9,1,1e308\n0.8,0,1e308\n",
+			`t: column "w": sum out of range: the weights add up to more than float64 holds (about 1.8e308), expected at most 1e+150 so that the figures stay finite`},
+		{"score,label,w\n0.9,1,1e150\n0.8,0,1e150\n",
+			`t: column "w": sum out of range: the weights add up to 2e+150, expected at most 1e+150 so that the figures stay finite`},
+		{"score,label,w\n0.9,1,1e20\n0.8,0,1\n",
+			`t: column "w": sum out of range: the weights add up to 1e+20, beside which the smallest, 1, adds nothing (float64 keeps about 16 digits), expected a total below 2^53 times the smallest weight`},
+	}
+	for _, tc := range cases {
+		_, err := readBoth(t, tc.input, Options{WeightColumn: "w"})
+		if err == nil || err.Error() != tc.want || !errors.Is(err, ErrWeightTotal) {
+			t.Errorf("%q: error %v\nwant %s", tc.input, err, tc.want)
+		}
+	}
+	// At the edges: a total of 1e150 and a ratio just under 2^53 read.
+	for _, input := range []string{"score,label,w\n0.9,1,5e149\n0.8,0,5e149\n", "score,label,w\n0.9,1,4503599627370495\n0.8,0,1\n"} {
+		if _, err := readBoth(t, input, Options{WeightColumn: "w"}); err != nil {
+			t.Errorf("%q: %v", input, err)
+		}
+	}
+	_, err := ReadCounts(strings.NewReader("score,positives,negatives\n0.9,9007199254740992,0\n0.1,1,1\n"), "t", Options{})
+	if want := "t: sum out of range: the counts add up to 9007199254740992 cases or more, expected fewer than 9007199254740992, which float64 counts exactly"; err == nil || err.Error() != want {
+		t.Errorf("counts: %v\nwant %s", err, want)
+	}
+	if _, err := New([]float64{0.9, 0.8}, []bool{true, false}, []float64{1e308, 1e308}, false); !errors.Is(err, ErrWeightTotal) {
+		t.Errorf("New: %v", err)
+	}
+	if _, err := NewCounts([]float64{0.9, 0.8}, []bool{true, false}, []float64{1 << 52, 1 << 52}, false); !errors.Is(err, ErrWeightTotal) {
+		t.Errorf("NewCounts: %v", err)
+	}
+}

@@ -2,6 +2,8 @@ package scores
 
 import (
 	"errors"
+	"fmt"
+	"math"
 	"strconv"
 	"strings"
 )
@@ -82,4 +84,40 @@ func isInfOrNaN(text string) bool {
 		return false
 	}
 	return word == "inf" || word == "infinity" || word == "nan"
+}
+
+// MaxWeightTotal bounds the sum of a set's weights (or of a counts table's
+// counts): past it the products of counts that figures need, such as the
+// true cases times the false cases of the AUC, overflow float64, and a
+// figure would read as infinite or undefined instead of being refused.
+const MaxWeightTotal = 1e150
+
+// ErrWeightTotal is the sentinel of weights or counts whose sum cannot be
+// held well enough to count with.
+var ErrWeightTotal = errors.New("sum out of range")
+
+// checkWeightTotal checks that weights add up to a total the figures can
+// count with: at most MaxWeightTotal, below 2^53 times the smallest
+// positive weight, so that adding it to the total still counts, and for a
+// counts table (counts) at most 2^53 cases, which float64 counts exactly.
+// nil weights pass.
+func checkWeightTotal(weights []float64, counts bool) error {
+	total, smallest := 0.0, math.Inf(1)
+	for _, w := range weights {
+		total += w
+		if w > 0 && w < smallest {
+			smallest = w
+		}
+	}
+	switch {
+	case counts && total >= maxCount:
+		return fmt.Errorf("%w: the counts add up to %.0f cases or more, expected fewer than %d, which float64 counts exactly", ErrWeightTotal, total, int64(maxCount))
+	case math.IsInf(total, 0):
+		return fmt.Errorf("%w: the weights add up to more than float64 holds (about 1.8e308), expected at most %g so that the figures stay finite", ErrWeightTotal, MaxWeightTotal)
+	case !(total <= MaxWeightTotal):
+		return fmt.Errorf("%w: the weights add up to %g, expected at most %g so that the figures stay finite", ErrWeightTotal, total, MaxWeightTotal)
+	case total >= maxCount*smallest:
+		return fmt.Errorf("%w: the weights add up to %g, beside which the smallest, %g, adds nothing (float64 keeps about 16 digits), expected a total below 2^53 times the smallest weight", ErrWeightTotal, total, smallest)
+	}
+	return nil
 }

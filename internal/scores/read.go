@@ -461,6 +461,16 @@ func (b *builder) add(line int, cell func(col int) string) error {
 }
 
 func (b *builder) finish(digest string) (*Set, error) {
+	if b.weights != nil {
+		counts := b.weightCol < 0 // a counts table's weights are its counts
+		if err := checkWeightTotal(b.weights, counts); err != nil {
+			column := ""
+			if !counts {
+				column = b.header[b.weightCol]
+			}
+			return nil, &ParseError{File: b.source, Column: column, Err: err}
+		}
+	}
 	s := &Set{
 		Scores:         b.scores,
 		Labels:         b.labels,

@@ -90,6 +90,9 @@ func New(scores []float64, labels []bool, weights []float64, lowerIsRiskier bool
 			}
 		}
 	}
+	if err := checkWeightTotal(weights, false); err != nil {
+		return nil, err
+	}
 	s := &Set{Scores: scores, Labels: labels, Weights: weights, LowerIsRiskier: lowerIsRiskier}
 	s.rank()
 	return s, nil
@@ -111,6 +114,9 @@ func NewCounts(scores []float64, labels []bool, counts []float64, lowerIsRiskier
 		if !(c >= 0 && c <= maxCount) || c != math.Trunc(c) {
 			return nil, fmt.Errorf("row %d: %w %v, expected a whole number of cases >= 0", i+1, ErrBadCount, c)
 		}
+	}
+	if err := checkWeightTotal(counts, true); err != nil {
+		return nil, err
 	}
 	s, err := New(scores, labels, counts, lowerIsRiskier)
 	if err != nil {
