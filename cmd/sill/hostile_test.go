@@ -9,6 +9,8 @@ import (
 	"regexp"
 	"strings"
 	"testing"
+
+	"github.com/sill-tool/sill/internal/scores"
 )
 
 // damagedParquet are Parquet files, each one byte away from a valid file,
@@ -199,5 +201,28 @@ func TestRunNoNaNOrInf(t *testing.T) {
 		if m := nonFinite.FindString(r.stdout + r.stderr); m != "" {
 			t.Errorf("check --format %s: %q in the verdict:\n%s", format, m, r.stdout)
 		}
+	}
+}
+
+// endlessZeros is a pipe of zeros that never ends, counting what is read.
+type endlessZeros struct{ read int64 }
+
+func (z *endlessZeros) Read(p []byte) (int, error) {
+	clear(p)
+	z.read += int64(len(p))
+	return len(p), nil
+}
+
+// TestLoadPipedNeverEnding: a pipe of zeros that never ends is refused at
+// line 1 once a line passes the reader's limit; once it was copied into
+// the temporary file until the disk was full.
+func TestLoadPipedNeverEnding(t *testing.T) {
+	z := &endlessZeros{}
+	_, err := loadPiped(z, scores.Options{})
+	if want := "-:1: line longer than the limit of 16 MiB, expected lines of delimited text (is this a table of scores?)"; err == nil || err.Error() != want {
+		t.Errorf("error %v, want %s", err, want)
+	}
+	if z.read > 2*scores.MaxLine+4*spoolChunk {
+		t.Errorf("read %d bytes of the pipe before refusing it", z.read)
 	}
 }

@@ -27,9 +27,26 @@ func loadPiped(stdin io.Reader, opt scores.Options) (*scores.Set, error) {
 	defer spool.Close()
 	buf := make([]byte, spoolChunk)
 	written := int64(0)
+	// Plain text with a line past the reader's limit, such as a stream of
+	// zeros that never ends, is handed to the line reader, which refuses
+	// it at that line, rather than copied on until the disk is full.
+	lineBytes, text := 0, true
 	for {
 		n, readErr := stdin.Read(buf)
 		if n > 0 {
+			if written == 0 && (bytes.HasPrefix(buf[:n], scores.ParquetMagic) || bytes.HasPrefix(buf[:n], []byte{0x1f, 0x8b})) {
+				text = false // binary: lines mean nothing
+			}
+			if text {
+				if i := bytes.LastIndexByte(buf[:n], '\n'); i >= 0 {
+					lineBytes = n - i - 1
+				} else {
+					lineBytes += n
+				}
+				if lineBytes > scores.MaxLine {
+					return scores.Read(io.MultiReader(io.NewSectionReader(spool, 0, written), bytes.NewReader(buf[:n]), stdin), "-", opt)
+				}
+			}
 			if _, err := spool.Write(buf[:n]); err != nil {
 				// Read on: what was copied, the chunk in hand, the rest.
 				return scores.Read(io.MultiReader(io.NewSectionReader(spool, 0, written), bytes.NewReader(buf[:n]), stdin), "-", opt)
