@@ -1,7 +1,6 @@
 package tui
 
 import (
-	"context"
 	"errors"
 	"fmt"
 	"time"
@@ -53,7 +52,7 @@ func tickCmd() tea.Cmd {
 // loadCmd reads the scores and computes their figures under the starting
 // assumptions; the bootstrap waits for the b key.
 func (m Model) loadCmd() tea.Cmd {
-	opts, load, assume, counter, done := m.cfg.Analysis, m.cfg.Load, m.cfg.Assume, m.rowsRead, m.readDone
+	ctx, opts, load, assume, counter, done := m.cfg.Context, m.cfg.Analysis, m.cfg.Load, m.cfg.Assume, m.rowsRead, m.readDone
 	opts.Rules, opts.Cursor, opts.Resampling = nil, true, analysis.Resampling{}
 	return func() tea.Msg {
 		set, err := load(func(rows int) { counter.Store(int64(rows)) })
@@ -72,7 +71,7 @@ func (m Model) loadCmd() tea.Cmd {
 		if err != nil {
 			return loadFailedMsg{err}
 		}
-		res, err := analysis.Run(context.Background(), set, a, opts)
+		res, err := analysis.Run(ctx, set, a, opts)
 		if err != nil {
 			return loadFailedMsg{analysisError(set, err)}
 		}
@@ -96,9 +95,9 @@ func analysisError(set *scores.Set, err error) error {
 
 // findStartsCmd computes the figures under new assumptions.
 func (m Model) findStartsCmd(a projection.Assumptions) tea.Cmd {
-	res := m.s.res
+	res, ctx := m.s.res, m.cfg.Context
 	return func() tea.Msg {
-		next, err := res.Reassume(context.Background(), a)
+		next, err := res.Reassume(ctx, a)
 		if err != nil {
 			return startsFoundMsg{assume: a, err: analysisError(res.Set, err)}
 		}

@@ -67,7 +67,7 @@ func (m Model) resampleKey() (tea.Model, tea.Cmd) {
 		return m, nil
 	}
 	opt.BandCuts = bandCuts
-	ctx, cancel := context.WithCancel(context.Background())
+	ctx, cancel := context.WithCancel(m.cfg.Context)
 	r.run++
 	r.running, r.total, r.cancel = true, replicates, cancel
 	r.done.Store(0)

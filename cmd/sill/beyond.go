@@ -1,6 +1,7 @@
 package main
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"time"
@@ -105,7 +106,7 @@ func (f *beyondFlags) prepare(in *inputFlags) error {
 // loadCompare reads the second model's file with the first one's reading
 // options, labels optional, and joins it to set on the ids; without
 // --compare it returns set.
-func (f *beyondFlags) loadCompare(set *scores.Set) (*scores.Set, error) {
+func (f *beyondFlags) loadCompare(ctx context.Context, set *scores.Set) (*scores.Set, error) {
 	if f.compareFile == "" {
 		return set, nil
 	}
@@ -118,7 +119,7 @@ func (f *beyondFlags) loadCompare(set *scores.Set) (*scores.Set, error) {
 	} else {
 		other.opt.ScoreColumn = ""
 	}
-	second, err := other.load(f.compareFile, nil, nil)
+	second, err := other.load(ctx, f.compareFile, nil, nil)
 	if err != nil {
 		return nil, fmt.Errorf("--compare: %w", err)
 	}

@@ -86,7 +86,7 @@ decision file.`,
 			if !fs.Changed("score") && !isDefaultName(file.Data.ScoreColumn, scores.DefaultScoreColumns) {
 				input.opt.ScoreColumn = file.Data.ScoreColumn
 			}
-			set, err := input.load(args[1], cmd.InOrStdin(), nil)
+			set, err := input.load(cmd.Context(), args[1], cmd.InOrStdin(), nil)
 			if err != nil {
 				var parseErr *scores.ParseError
 				if errors.As(err, &parseErr) && errors.Is(err, scores.ErrMissingColumn) && parseErr.Column != "" && parseErr.Column == file.Data.ScoreColumn && !fs.Changed("score") {

@@ -48,12 +48,12 @@ func (o *exploreOptions) config() (tui.Config, error) {
 
 // load reads the scores at path and, with --compare, joins the second
 // model's file to them.
-func (o *exploreOptions) load(path string, progress func(int)) (*scores.Set, error) {
-	set, err := o.input.load(path, nil, progress)
+func (o *exploreOptions) load(ctx context.Context, path string, progress func(int)) (*scores.Set, error) {
+	set, err := o.input.load(ctx, path, nil, progress)
 	if err != nil {
 		return nil, err
 	}
-	return o.beyond.loadCompare(set)
+	return o.beyond.loadCompare(ctx, set)
 }
 
 func newExploreCmd() *cobra.Command {
@@ -94,7 +94,7 @@ both models' cuts side by side.`,
 			if !isTerminal() || cmd.OutOrStdout() != os.Stdout {
 				return fmt.Errorf("explore needs a terminal on standard input and output; for printed figures use: sill report %s", path)
 			}
-			cfg.Load = func(progress func(int)) (*scores.Set, error) { return o.load(path, progress) }
+			cfg.Load = func(progress func(int)) (*scores.Set, error) { return o.load(cmd.Context(), path, progress) }
 			cfg.Assume, cfg.Out = o.assume.assumptions, o.out
 			return runExplorer(cmd.Context(), cfg)
 		},
@@ -155,9 +155,9 @@ func isTerminal() bool {
 	return isatty.IsTerminal(os.Stdin.Fd()) && isatty.IsTerminal(os.Stdout.Fd())
 }
 
-// runExplorer runs the screen of cfg until the user quits. A load error
-// ends the screen and is returned, so that sill prints it and exits with
-// status 2.
+// runExplorer runs the screen of cfg until the user quits or ctx ends. A
+// load error ends the screen and is returned, so that sill prints it and
+// exits with status 2.
 func runExplorer(ctx context.Context, cfg tui.Config) error {
 	renderer := lipgloss.NewRenderer(os.Stdout)
 	if os.Getenv("NO_COLOR") != "" {
@@ -166,7 +166,7 @@ func runExplorer(ctx context.Context, cfg tui.Config) error {
 	styles := tui.DefaultStyles(renderer)
 	cfg.ToolVersion, cfg.Styles, cfg.Context = toolVersion(), &styles, ctx
 	model := tui.New(cfg)
-	final, err := tea.NewProgram(model, tea.WithAltScreen()).Run()
+	final, err := tea.NewProgram(model, tea.WithAltScreen(), tea.WithContext(ctx)).Run()
 	model.WaitForWrites() // a write still going when the screen closed ends before the process does
 	if err != nil {
 		return fmt.Errorf("explore: %w", err)

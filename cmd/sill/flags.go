@@ -1,6 +1,7 @@
 package main
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"io"
@@ -46,8 +47,9 @@ func (f *inputFlags) register(fs *pflag.FlagSet) {
 	fs.BoolVar(&f.counts, "counts", false, "the input is a counts table: score, positives, negatives (and --segment), one row per score, as sill sql makes it")
 }
 
-// load reads the table at path ("-" for standard input); progress may be nil.
-func (f *inputFlags) load(path string, stdin io.Reader, progress func(rows int)) (*scores.Set, error) {
+// load reads the table at path ("-" for standard input); progress may be
+// nil. Reading stops with ctx's error once ctx ends.
+func (f *inputFlags) load(ctx context.Context, path string, stdin io.Reader, progress func(rows int)) (*scores.Set, error) {
 	opt := f.opt
 	opt.Progress = progress
 	if err := f.scoreOptions(&opt); err != nil {
@@ -80,21 +82,21 @@ func (f *inputFlags) load(path string, stdin io.Reader, progress func(rows int))
 		read = scores.ReadCounts
 	}
 	if path == "-" {
-		if set, handled, err := readParquet(path, stdin, nil, opt); handled {
+		if set, handled, err := readParquet(ctx, path, stdin, nil, opt); handled {
 			return set, err
 		}
 		if f.counts {
-			return read(stdin, "-", opt)
+			return read(readerWithContext(ctx, stdin), "-", opt)
 		}
 		if seekable := seekableStdin(stdin); seekable != nil {
 			if file, ok := seekable.(*os.File); ok {
-				if set, handled, err := readParquet(path, nil, file, opt); handled {
+				if set, handled, err := readParquet(ctx, path, nil, file, opt); handled {
 					return set, err // Parquet redirected from a file
 				}
 			}
-			return scores.Load(seekable, "-", opt) // standard input redirected from a file
+			return scores.Load(readSeekerWithContext(ctx, seekable), "-", opt) // standard input redirected from a file
 		}
-		return loadPiped(stdin, opt)
+		return loadPiped(readerWithContext(ctx, stdin), opt)
 	}
 	file, err := os.Open(path)
 	if err != nil {
@@ -108,12 +110,12 @@ func (f *inputFlags) load(path string, stdin io.Reader, progress func(rows int))
 		return nil, fmt.Errorf("read scores: %s is a directory, expected a file", path)
 	}
 	if f.counts {
-		return read(file, path, opt)
+		return read(readerWithContext(ctx, file), path, opt)
 	}
-	if set, handled, err := readParquet(path, nil, file, opt); handled {
+	if set, handled, err := readParquet(ctx, path, nil, file, opt); handled {
 		return set, err
 	}
-	return scores.Load(file, path, opt) // the block reader; it hands what it cannot take to scores.Read
+	return scores.Load(readSeekerWithContext(ctx, file), path, opt) // the block reader; it hands what it cannot take to scores.Read
 }
 
 // scoreOptions sets the score columns named by --score.

@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"context"
 	"fmt"
 	"io"
 	"os"
@@ -15,12 +16,12 @@ import (
 // read into memory first, as Parquet is read from its end), when --input
 // parquet says so or the file begins with Parquet's magic bytes. handled
 // is false when the input is not Parquet.
-func readParquet(path string, stdin io.Reader, file *os.File, opt scores.Options) (set *scores.Set, handled bool, err error) {
+func readParquet(ctx context.Context, path string, stdin io.Reader, file *os.File, opt scores.Options) (set *scores.Set, handled bool, err error) {
 	if file == nil {
 		if opt.Input != scores.InputParquet {
 			return nil, false, nil
 		}
-		data, err := io.ReadAll(stdin)
+		data, err := io.ReadAll(readerWithContext(ctx, stdin))
 		if err != nil {
 			return nil, true, fmt.Errorf("read scores: %w", err)
 		}
@@ -42,7 +43,7 @@ func readParquet(path string, stdin io.Reader, file *os.File, opt scores.Options
 	if err != nil {
 		return nil, true, fmt.Errorf("read scores: %w", err)
 	}
-	set, err = scores.ReadParquet(file, info.Size(), path, parquetOptions(opt))
+	set, err = scores.ReadParquet(readerAtWithContext(ctx, file), info.Size(), path, parquetOptions(opt))
 	return set, true, err
 }
 

@@ -60,7 +60,7 @@ in [0,1] get a reliability table and net benefit; --score a --score b (or
 			if err := o.beyond.prepare(&o.input); err != nil {
 				return err
 			}
-			set, err := o.input.load(args[0], cmd.InOrStdin(), nil)
+			set, err := o.input.load(cmd.Context(), args[0], cmd.InOrStdin(), nil)
 			if err != nil {
 				return err
 			}
@@ -101,7 +101,7 @@ func (o *reportOptions) run(ctx context.Context, set *scores.Set, stdout, stderr
 		}
 		opts.Rules = append(opts.Rules, r)
 	}
-	joined, err := o.beyond.loadCompare(set)
+	joined, err := o.beyond.loadCompare(ctx, set)
 	if err != nil {
 		return err
 	}
