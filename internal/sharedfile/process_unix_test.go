@@ -183,3 +183,38 @@ func TestNewFileTakesUmask(t *testing.T) {
 		t.Fatalf("mode %v under umask 027, want 0640", got)
 	}
 }
+
+// A replaced file keeps its owner and group where the writer may give
+// them: as root, both (else the group, for a member of it).
+func TestWriteKeepsOwner(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "cut.yaml")
+	writeFile(t, path, "old", 0o660)
+	uid, gid := 4321, 4321
+	if os.Geteuid() != 0 {
+		groups, _ := os.Getgroups()
+		gid = -1
+		for _, g := range groups {
+			if g != os.Getegid() {
+				gid = g
+			}
+		}
+		if gid < 0 {
+			t.Skip("not root and in no second group: no other owner to keep")
+		}
+		uid = os.Geteuid()
+	}
+	if err := os.Chown(path, uid, gid); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := Write(context.Background(), path, []byte("new"), Options{}); err != nil {
+		t.Fatal(err)
+	}
+	info, err := os.Stat(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	st := info.Sys().(*syscall.Stat_t)
+	if int(st.Uid) != uid || int(st.Gid) != gid || info.Mode().Perm() != 0o660 {
+		t.Fatalf("owner %d:%d mode %v after the write, want %d:%d 0660", st.Uid, st.Gid, info.Mode().Perm(), uid, gid)
+	}
+}

@@ -18,8 +18,10 @@
 //   - writes a temporary file in the target's folder, syncs it to disk,
 //     renames it over the target and syncs the folder: a reader sees the old
 //     content or the new, and a crash at any point leaves the old file whole;
-//   - keeps an existing file's permission bits (a 0600 file stays 0600); a
-//     new file gets Options.Perm, or 0666 less the umask when that is 0;
+//   - keeps an existing file's permission bits (a 0600 file stays 0600) and,
+//     where the system allows, its owner and group (a member of a file's
+//     group keeps the group; root keeps both); a new file gets Options.Perm,
+//     or 0666 less the umask when that is 0;
 //   - stops and removes its temporary file when ctx is cancelled or the
 //     process receives an interrupt or termination signal before the
 //     rename, leaving the target as it was (the error matches
@@ -265,7 +267,7 @@ func update(ctx context.Context, path string, o Options, edit func(current []byt
 	} else if perm == 0 {
 		perm = 0o666
 	}
-	written, err := replace(ctx, target, data, perm, exact)
+	written, err := replace(ctx, target, data, perm, exact, info)
 	if errors.Is(err, ErrInterrupted) {
 		return Stamp{}, interrupted(path)
 	}
@@ -360,10 +362,12 @@ const chunk = 1 << 20
 
 // replace writes data to a temporary file beside target, syncs it, renames
 // it over target and syncs the folder. The new file has mode perm, exactly
-// when exact and less the umask otherwise. On any error, and when ctx ends
+// when exact and less the umask otherwise, and the owner and group of old,
+// the file replaced (nil for none), as far as the system lets this
+// process give them. On any error, and when ctx ends
 // before the rename (ErrInterrupted), the temporary file is removed and
 // target is untouched.
-func replace(ctx context.Context, target string, data []byte, perm fs.FileMode, exact bool) (stamp Stamp, err error) {
+func replace(ctx context.Context, target string, data []byte, perm fs.FileMode, exact bool, old fs.FileInfo) (stamp Stamp, err error) {
 	dir := filepath.Dir(target)
 	tmp, err := createTemp(dir, "."+filepath.Base(target)+".tmp-", perm)
 	if err != nil {
@@ -381,6 +385,9 @@ func replace(ctx context.Context, target string, data []byte, perm fs.FileMode, 
 			return ErrInterrupted
 		}
 		return nil
+	}
+	if old != nil {
+		keepOwner(tmp, old) // before the mode: a change of owner may clear mode bits
 	}
 	if exact {
 		if err = tmp.Chmod(perm); err != nil {
