@@ -10,7 +10,6 @@ import (
 	"github.com/spf13/pflag"
 
 	"github.com/sill-tool/sill/internal/analysis"
-	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/report"
 	"github.com/sill-tool/sill/internal/scores"
@@ -113,7 +112,7 @@ func (o *reportOptions) run(ctx context.Context, set *scores.Set, stdout, stderr
 	if err != nil {
 		return o.beyond.analysisError(err)
 	}
-	points := func(visit func(curve.Point)) { curve.Walk(set, visit) }
+	points := report.Points(res.Points)
 	if o.format == "csv" {
 		if o.save.path != "" {
 			return fmt.Errorf("--save needs the figures of the cuts; it does not go with --format csv")

@@ -417,6 +417,16 @@ func NetBenefit(p curve.Point, base float64) (cut, all float64) {
 	return calibration.NetBenefit(p, p.Score), calibration.NetBenefitAll(base, p.Score)
 }
 
+// Points calls visit with every cut of the set, strictest first: from the
+// kept curve with Options.Cursor, else by walking the set again.
+func (r *Result) Points(visit func(curve.Point)) {
+	if r.Curve != nil {
+		r.Curve.Points(visit)
+		return
+	}
+	curve.Walk(r.Set, visit)
+}
+
 // Resample runs the bootstrap of r's rules under r's assumptions with opt
 // (package bootstrap); it does not change r. It returns ctx's error when
 // cancelled.

@@ -11,6 +11,7 @@ import (
 
 	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/bootstrap"
+	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
@@ -289,6 +290,25 @@ func TestCursor(t *testing.T) {
 		if !ok1 || !ok2 || len(s1.Segments) != len(s2.Segments) || !near(s1.Segments[0].Recall, s2.Segments[0].Recall) ||
 			!near(s1.Segments[1].Precision, s2.Segments[1].Precision) || !near(q1.P90, q2.P90) || !near(q1.Mean, q2.Mean) || q1.Busiest != q2.Busiest {
 			t.Errorf("cut %d: %+v %+v, %+v %+v", i, s1, s2, q1, q2)
+		}
+	}
+}
+
+// TestPoints: the cuts come the same from the kept curve and from a
+// second walk, strictest first; the table has seven distinct scores.
+func TestPoints(t *testing.T) {
+	set := read(t, scores.Options{})
+	for _, cursor := range []bool{false, true} {
+		res, err := analysis.Run(context.Background(), set, validation, analysis.Options{Cursor: cursor})
+		if err != nil {
+			t.Fatal(err)
+		}
+		var got []string
+		res.Points(func(p curve.Point) { got = append(got, fmt.Sprintf("%g:%g/%g", p.Score, p.TP, p.FP)) })
+		// Cumulative true and false cases at each score, from the table.
+		want := "0.9:1/0 0.8:2/1 0.7:2/2 0.6:3/2 0.5:3/3 0.4:4/3 0.3:4/4"
+		if strings.Join(got, " ") != want {
+			t.Errorf("cursor %v: %v, want %s", cursor, got, want)
 		}
 	}
 }
