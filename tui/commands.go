@@ -113,12 +113,21 @@ func (m *Model) write(force bool) tea.Cmd {
 		s.pinCursor()
 		m.refresh()
 	}
-	candidates := make([]decision.Candidate, len(s.pins))
+	if !sameAssumptions(s.assume, s.res.Assume) {
+		m.status = "not written: the figures under the new assumptions are still being computed; write again in a moment"
+		return nil
+	}
+	picks := make([]decision.Pick, len(s.pins))
 	for i, p := range s.pins {
-		candidates[i] = decision.Candidate{Name: p.name, Rule: p.rule, Cut: s.evidenceAt(p.cut)}
+		picks[i] = decision.Pick{Name: p.name, Rule: p.rule, Point: s.curve.At(p.cut)}
+	}
+	// The bootstrap the b key ran belongs with the figures it ran under.
+	res := *s.res
+	if s.stability != nil && !s.resampling.running {
+		res.Stability = s.stability
 	}
 	chosen := s.pins[s.reference].name
-	file, err := decision.New(s.set, s.assume, candidates, chosen, m.cfg.ToolVersion)
+	file, err := decision.New(&res, picks, chosen, decision.Record{ToolVersion: m.cfg.ToolVersion, Model: m.record.model, ChosenBy: m.record.chosenBy})
 	if err != nil {
 		m.status = "not written: " + err.Error()
 		m.writeErr = err
@@ -136,7 +145,7 @@ func (m *Model) write(force bool) tea.Cmd {
 			if err != nil {
 				return writeFailedMsg{err}
 			}
-			return fileWrittenMsg{path: path, candidates: len(candidates), chosen: chosen, stamp: stamp}
+			return fileWrittenMsg{path: path, candidates: len(picks), chosen: chosen, stamp: stamp}
 		}, writeFailedMsg{errScreenEnded})
 	}
 }

@@ -44,6 +44,10 @@ type Config struct {
 	Context context.Context
 	// ToolVersion is written into the decision file.
 	ToolVersion string
+	// Model and ChosenBy are written into the decision file (keys model
+	// and chosen_by); the assumptions form changes them.
+	Model    decision.Model
+	ChosenBy string
 	// Styles and Keys; zero values take PlainStyles and DefaultKeyMap.
 	Styles *Styles
 	Keys   *KeyMap
@@ -113,6 +117,13 @@ type Model struct {
 	figures  figuresPane
 	strip    Strip
 	segments *segmentsPane // an overlay kept between openings, with its order
+
+	// record is what the decision file records beside the figures: the
+	// model and who chose the cut, from Config and the form.
+	record struct {
+		model    decision.Model
+		chosenBy string
+	}
 }
 
 // New returns the explorer for cfg; the scores load when the program starts.
@@ -129,7 +140,7 @@ func New(cfg Config) Model {
 	if stamp, err := sharedfile.StampOf(cfg.Out); err == nil {
 		outStamp = &stamp // a write replaces only this, or asks
 	}
-	return Model{
+	m := Model{
 		cfg: cfg, ctx: ctx, s: s, loading: true, rowsRead: new(atomic.Int64), readDone: new(atomic.Bool),
 		outStamp: outStamp, writes: &writeTracker{},
 		list:     newListPane(s, ctx),
@@ -138,6 +149,8 @@ func New(cfg Config) Model {
 		strip:    NewStrip(ctx.styles, ctx.keys),
 		segments: newSegmentsPane(s, ctx, cfg.SegmentOrder),
 	}
+	m.record.model, m.record.chosenBy = cfg.Model, cfg.ChosenBy
+	return m
 }
 
 // Err returns the load error that ended the explorer, if any.

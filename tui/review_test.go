@@ -13,7 +13,7 @@ import (
 
 	tea "github.com/charmbracelet/bubbletea"
 
-	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/evidence"
@@ -27,16 +27,15 @@ func reviewFile(t *testing.T, path string) (*decision.File, sharedfile.Stamp) {
 	set := demoSet(t)
 	a, _ := demoAssumptions(set)
 	rules := []cutrule.Rule{{Kind: cutrule.Hit, Value: 0.8}, {Kind: cutrule.Base}, {Kind: cutrule.Queue, Value: 90}, {Kind: cutrule.Cost}}
-	finder, err := cutrule.NewFinder(rules, set, a)
+	res, err := analysis.Run(context.Background(), set, a, analysis.Options{Rules: rules})
 	if err != nil {
 		t.Fatal(err)
 	}
-	curve.Walk(set, finder.Visit)
-	var candidates []decision.Candidate
-	for _, o := range finder.Outcomes() {
-		candidates = append(candidates, decision.Candidate{Name: o.Rule.String(), Rule: o.Rule.String(), Cut: evidence.Of(o.Point, a)})
+	var picks []decision.Pick
+	for _, o := range res.Outcomes {
+		picks = append(picks, decision.Pick{Name: o.Rule.String(), Rule: o.Rule.String(), Point: o.Point})
 	}
-	f, err := decision.New(set, a, candidates, "queue=90", "sill 1.2.0")
+	f, err := decision.New(res, picks, "queue=90", decision.Record{ToolVersion: "sill 1.2.0"})
 	if err != nil {
 		t.Fatal(err)
 	}

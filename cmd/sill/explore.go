@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"strings"
 
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/lipgloss"
@@ -23,6 +24,7 @@ type exploreOptions struct {
 	assume assumptionFlags
 	out    string
 	beyond beyondFlags // the flags of report's figures beyond the averages that the screen uses
+	record recordFlags // --model-name, --model-version, --chosen-by: save.go
 }
 
 // registerBeyond registers the flags of beyondFlags that the explorer
@@ -43,7 +45,11 @@ func (o *exploreOptions) config() (tui.Config, error) {
 	if err != nil {
 		return tui.Config{}, err
 	}
-	return tui.Config{Analysis: opts, SegmentOrder: o.beyond.order()}, nil
+	if err := o.record.check(); err != nil {
+		return tui.Config{}, err
+	}
+	return tui.Config{Analysis: opts, SegmentOrder: o.beyond.order(),
+		Model: o.record.model(), ChosenBy: strings.TrimSpace(o.record.chosenBy)}, nil
 }
 
 // load reads the scores at path and, with --compare, joins the second
@@ -103,6 +109,7 @@ both models' cuts side by side.`,
 	o.input.register(fs)
 	o.assume.register(fs)
 	fs.StringVar(&o.out, "out", "cut.yaml", "decision file the write key saves")
+	o.record.register(fs, "")
 	o.registerBeyond(fs)
 	return cmd
 }

@@ -121,7 +121,7 @@ func (o *reportOptions) run(ctx context.Context, set *scores.Set, stdout, stderr
 	}
 	r := report.New(res, report.Options{SegmentOrder: o.beyond.order(), SegmentsShown: o.beyond.segmentsShown, Hints: reportHints})
 	// Saved once every figure is computed, so that an error leaves no file.
-	if err := o.save.write(ctx, set, a, res.Outcomes, stderr); err != nil {
+	if err := o.save.write(ctx, res, stderr); err != nil {
 		return err
 	}
 	// Warnings go to stderr whatever the format; JSON also carries them.

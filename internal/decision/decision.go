@@ -1,8 +1,10 @@
 // Package decision holds the decision file: the chosen cut of a scored
 // validation set, the candidates it was chosen among and their evidence,
-// saved as one YAML document (format sill-cut/1) for the lead who signs it
+// saved as one YAML document (format sill-cut/2) for the lead who signs it
 // off, the deployment that reads its threshold and the monitoring that
-// checks fresh scores against it.
+// checks fresh scores against it. Files of the earlier format sill-cut/1
+// still read (without the keys sill-cut/2 added) and are written back as
+// sill-cut/2.
 //
 // Which cases a cut flags follows the cut rule in the doc of package
 // scores: a case is flagged when its score is >= the candidate's score, or
@@ -12,8 +14,8 @@
 // written as null and read back as NaN. Assumptions that were not given
 // (zero volume or capacity, nil costs) are written as null as well.
 //
-// Use New to build a File from the engine's types, Write to save it and
-// Read or ReadFile to load one.
+// Use New to build a File from the figures of package analysis, Write to
+// save it, Read or ReadFile to load one and AppendSignOff to sign one off.
 package decision
 
 import (
@@ -24,24 +26,51 @@ import (
 
 	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/projection"
-	"github.com/sill-tool/sill/internal/scores"
 )
 
-// Format is the value of the format key this package writes and reads.
-const Format = "sill-cut/1"
+// Format is the value of the format key this package writes; it reads
+// FormatV1 too.
+const Format = "sill-cut/2"
 
-// File is one decision file.
+// FormatV1 is the earlier format, read and upgraded to Format on writing.
+const FormatV1 = "sill-cut/1"
+
+// File is one decision file. The fields after Data are new in sill-cut/2
+// and zero in a file read from sill-cut/1 (Upgraded reports such a file).
 type File struct {
-	Format      string    // always Format
+	// Format is Format, or FormatV1 for a file read from the earlier
+	// format; Marshal always writes Format.
+	Format      string
 	Created     time.Time // when the file was made, written in RFC 3339
 	ToolVersion string    // the build that wrote the file, such as "sill 1.2.0"; see WrittenBy
+	Model       Model     // key model; zero when not given
+	ChosenBy    string    // key chosen_by: who chose the cut; "" (null) when not given, never guessed
 	Data        Data
 	Assumptions projection.Assumptions
-	Chosen      string // Name of the chosen candidate
-	Candidates  []Candidate
-	Note        string // "" is written as null
-	Caution     string // the standing caution, evidence.Caution
+
+	// ShiftSchedule is the crew shift schedule the shift figures were
+	// counted with (key shift_schedule); nil without one.
+	ShiftSchedule *ShiftSchedule
+	// Calibration is the reliability table of scores that are
+	// probabilities (key calibration); nil otherwise.
+	Calibration *Calibration
+	// Curve is the trade-off thinned to at most MaxCurvePoints, strictest
+	// cut first (key curve); nil in a file read from sill-cut/1.
+	Curve []CurvePoint
+
+	Chosen     string // Name of the chosen candidate
+	Candidates []Candidate
+	Note       string // "" is written as null
+	Caution    string // the standing caution, evidence.Caution
+
+	// SignOffs are the sign-offs in the order given (key sign_offs);
+	// AppendSignOff adds one and nothing rewrites them.
+	SignOffs []SignOff
 }
+
+// Upgraded reports whether f was read from a sill-cut/1 file, so that
+// writing it back changes its format to sill-cut/2.
+func (f *File) Upgraded() bool { return f.Format == FormatV1 }
 
 // Data describes the validation set the cut was chosen on.
 type Data struct {
@@ -64,6 +93,12 @@ type Candidate struct {
 	Rule string       // the cut spec it came from; "" is written as null
 	Cut  evidence.Cut // Cut.Score is the candidate's score
 	Note string       // "" is written as null
+
+	// What was computed beyond the cut's own figures; nil when it was not
+	// (and always in a file read from sill-cut/1).
+	Stability *Stability // key stability: the bootstrap's spread (--bootstrap)
+	Segments  *Segments  // key segments: the breakdown by group (--segment)
+	Shifts    *Shifts    // key shifts: the queues of the real shifts (--time)
 }
 
 // ChosenCandidate returns the chosen candidate, or false when Chosen names
@@ -104,56 +139,25 @@ func (f *File) WrittenBy() string {
 	}
 }
 
-// New builds the File of a validation set, its assumptions and the
-// candidates pinned on it. chosen names the chosen candidate; "" chooses
-// the first. The score histogram is computed from set (see NewHistogram)
-// and Created is the current time in UTC, to the second.
-//
-// It returns an error wrapping ErrInvalid when there is no candidate, a
-// name is empty or repeated, a candidate score is not finite, chosen names
-// no candidate or the assumptions are out of range.
-func New(set *scores.Set, a projection.Assumptions, candidates []Candidate, chosen, toolVersion string) (*File, error) {
-	positives, negatives := set.Totals()
-	f := &File{
-		Format:      Format,
-		Created:     time.Now().UTC().Truncate(time.Second),
-		ToolVersion: toolVersion,
-		Data: Data{
-			Path:           set.Source,
-			SHA256:         set.SHA256,
-			Rows:           set.Cases(), // cases: the summed counts of a counts table
-			Positives:      positives,
-			Negatives:      negatives,
-			ScoreColumn:    set.ScoreColumn,
-			LabelColumn:    set.LabelColumn,
-			WeightColumn:   set.WeightColumn,
-			LowerIsRiskier: set.LowerIsRiskier,
-			Histogram:      NewHistogram(set),
-		},
-		Assumptions: a,
-		Chosen:      chosen,
-		Candidates:  append([]Candidate(nil), candidates...),
-		Caution:     evidence.Caution,
-	}
-	if f.Chosen == "" && len(candidates) > 0 {
-		f.Chosen = candidates[0].Name
-	}
-	if err := f.Validate(); err != nil {
-		return nil, err
-	}
-	return f, nil
-}
-
 // Validate reports the first rule of the format that f breaks, as a
 // *ParseError with an empty File and Line 0: the format, the assumptions'
 // ranges, at least one candidate, unique non-empty names, finite candidate
-// scores, a Chosen that names a candidate and a well-formed histogram.
+// scores, a Chosen that names a candidate, a well-formed histogram, at most
+// MaxCurvePoints in the curve and well-formed sign-offs.
 func (f *File) Validate() error {
 	bad := func(path string, format string, args ...any) error {
 		return &ParseError{Path: path, Err: fmt.Errorf("%w: "+format, append([]any{ErrInvalid}, args...)...)}
 	}
-	if f.Format != Format {
+	if f.Format != Format && f.Format != FormatV1 {
 		return &ParseError{Path: "format", Err: fmt.Errorf("%w %q, expected %q", ErrFormat, f.Format, Format)}
+	}
+	if len(f.Curve) > MaxCurvePoints {
+		return bad("curve", "%d points, expected at most %d", len(f.Curve), MaxCurvePoints)
+	}
+	for i, s := range f.SignOffs {
+		if err := s.validate(fmt.Sprintf("sign_offs[%d]", i)); err != nil {
+			return err
+		}
 	}
 	if err := f.Assumptions.Validate(); err != nil {
 		return &ParseError{Path: "assumptions", Err: fmt.Errorf("%w: %v", ErrInvalid, err)}

@@ -9,16 +9,18 @@ import (
 	"os"
 	"path/filepath"
 	"strings"
+	"sync"
 	"testing"
 	"time"
 
-	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/demo"
 	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/sharedfile"
+	"github.com/sill-tool/sill/internal/shift"
 )
 
 // tolerance is the one float tolerance of these tests.
@@ -49,35 +51,69 @@ func demoFile(t *testing.T) *File {
 	return f
 }
 
-// buildDemoFile is demoFile for callers without a *testing.T.
+// buildDemoFile is demoFile for callers without a *testing.T: the demo
+// data with its yards as segments, its readings in three crew shifts, a
+// bootstrap and (the scores being probabilities) the reliability table.
 func buildDemoFile() (*File, error) {
-	set, err := scores.Read(bytes.NewReader(demo.CSV(2000, 7)), "bearings.csv", scores.Options{})
+	res, err := demoResult(50)
+	if err != nil {
+		return nil, err
+	}
+	return demoFileOf(res)
+}
+
+// demoFileOf is the demo decision file of res.
+func demoFileOf(res *analysis.Result) (*File, error) {
+	var picks []Pick
+	for _, o := range res.Outcomes {
+		if !o.Met {
+			return nil, fmt.Errorf("rule %s not met on the demo data", o.Rule)
+		}
+		picks = append(picks, Pick{Name: o.Rule.String(), Rule: o.Rule.String(), Point: o.Point})
+	}
+	picks[1].Note = "fits one crew: 90 alerts a shift"
+	f, err := New(res, picks, "base", Record{ToolVersion: "1.2.3", Model: Model{Name: "bearing-wear", Version: "14"},
+		ChosenBy: "Ines Varga", Note: "chosen at the September review"})
+	if err != nil {
+		return nil, err
+	}
+	s, err := f.NewSignOff("Tomas Reiner", "operations lead", Approve, "fits the night crew", time.Date(2026, 9, 15, 8, 30, 0, 0, time.UTC))
+	if err != nil {
+		return nil, err
+	}
+	f.SignOffs = append(f.SignOffs, s)
+	return f, nil
+}
+
+// demoResult is the analysis of the demo data (6000 readings) under the
+// demo's assumptions with replicates bootstrap replicates.
+func demoResult(replicates int) (*analysis.Result, error) {
+	demoOnce.Do(func() { demoRes, demoErr = runDemo(replicates) })
+	return demoRes, demoErr
+}
+
+var (
+	demoOnce sync.Once
+	demoRes  *analysis.Result
+	demoErr  error
+)
+
+func runDemo(replicates int) (*analysis.Result, error) {
+	set, err := scores.Read(bytes.NewReader(demo.CSV(2000, 7)), "bearings.csv",
+		scores.Options{SegmentColumn: "yard", TimeColumn: "read_at"})
 	if err != nil {
 		return nil, err
 	}
 	positives, negatives := set.Totals()
 	a := projection.Assumptions{BaseRate: positives / (positives + negatives), Volume: 1500, Capacity: 90, Confidence: 0.95,
 		Costs: &projection.Costs{FalseAlert: 120, Miss: 1200}}
+	schedule, err := shift.ParseSchedule("06:00,14:00,22:00", time.UTC)
+	if err != nil {
+		return nil, err
+	}
 	rules := []cutrule.Rule{{Kind: cutrule.Hit, Value: 0.8}, {Kind: cutrule.Base}}
-	finder, err := cutrule.NewFinder(rules, set, a)
-	if err != nil {
-		return nil, err
-	}
-	curve.Walk(set, finder.Visit)
-	var candidates []Candidate
-	for _, o := range finder.Outcomes() {
-		if !o.Met {
-			return nil, fmt.Errorf("rule %s not met on the demo data", o.Rule)
-		}
-		candidates = append(candidates, Candidate{Name: o.Rule.String(), Rule: o.Rule.String(), Cut: evidence.Of(o.Point, a)})
-	}
-	candidates[1].Note = "fits one crew: 90 alerts a shift"
-	f, err := New(set, a, candidates, "base", "1.2.3")
-	if err != nil {
-		return nil, err
-	}
-	f.Note = "chosen at the September review"
-	return f, nil
+	return analysis.Run(context.Background(), set, a, analysis.Options{Rules: rules, Shifts: &schedule,
+		Resampling: analysis.Resampling{Replicates: replicates, Seed: 1}})
 }
 
 // oddFile is a hand-made file with the awkward values: undefined rates,
@@ -190,8 +226,12 @@ func TestNewChoosesFirstAndChecks(t *testing.T) {
 		t.Fatal(err)
 	}
 	a := projection.Assumptions{BaseRate: 0.5, Confidence: 0.95}
-	cut := evidence.Cut{Score: 0.9}
-	f, err := New(set, a, []Candidate{{Name: "a", Cut: cut}, {Name: "b", Cut: cut}}, "", "sill 1.2.0")
+	res, err := analysis.Run(context.Background(), set, a, analysis.Options{Rules: []cutrule.Rule{{Kind: cutrule.Score, Value: 0.9}}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	point := res.Outcomes[0].Point
+	f, err := New(res, []Pick{{Name: "a", Point: point}, {Name: "b", Point: point}}, "", Record{ToolVersion: "sill 1.2.0"})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -201,20 +241,22 @@ func TestNewChoosesFirstAndChecks(t *testing.T) {
 	if c, ok := f.ChosenCandidate(); !ok || c.Name != "a" {
 		t.Errorf("ChosenCandidate = %q, %v", c.Name, ok)
 	}
+	infinite := point
+	infinite.Score = math.Inf(1)
 	for _, tc := range []struct {
-		name       string
-		candidates []Candidate
-		chosen     string
-		sentinel   error
-		path       string
+		name     string
+		picks    []Pick
+		chosen   string
+		sentinel error
+		path     string
 	}{
 		{"no candidate", nil, "", ErrInvalid, "candidates"},
-		{"empty name", []Candidate{{Name: "", Cut: cut}}, "x", ErrInvalid, "candidates[0].name"},
-		{"repeated name", []Candidate{{Name: "a", Cut: cut}, {Name: "a", Cut: cut}}, "", ErrInvalid, "candidates[1].name"},
-		{"infinite score", []Candidate{{Name: "a", Cut: evidence.Cut{Score: math.Inf(1)}}}, "", ErrNotFinite, "candidates[0].score"},
-		{"unknown chosen", []Candidate{{Name: "a", Cut: cut}}, "b", ErrUnknownChosen, "chosen"},
+		{"empty name", []Pick{{Name: "", Point: point}}, "x", ErrInvalid, "candidates[0].name"},
+		{"repeated name", []Pick{{Name: "a", Point: point}, {Name: "a", Point: point}}, "", ErrInvalid, "candidates[1].name"},
+		{"infinite score", []Pick{{Name: "a", Point: infinite}}, "", ErrNotFinite, "candidates[0].score"},
+		{"unknown chosen", []Pick{{Name: "a", Point: point}}, "b", ErrUnknownChosen, "chosen"},
 	} {
-		_, err := New(set, a, tc.candidates, tc.chosen, "sill 1.2.0")
+		_, err := New(res, tc.picks, tc.chosen, Record{ToolVersion: "sill 1.2.0"})
 		var pe *ParseError
 		if !errors.Is(err, tc.sentinel) || !errors.As(err, &pe) || pe.Path != tc.path {
 			t.Errorf("%s: error %v, want %v at %s", tc.name, err, tc.sentinel, tc.path)

@@ -11,6 +11,7 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+	"time"
 
 	"github.com/sill-tool/sill/internal/sharedfile"
 )
@@ -20,6 +21,9 @@ import (
 func TestMain(m *testing.M) {
 	if which := os.Getenv("DECISION_SAVE"); which != "" {
 		os.Exit(saveProcess(which, os.Getenv("DECISION_PATH")))
+	}
+	if name := os.Getenv("DECISION_SIGN"); name != "" {
+		os.Exit(signProcess(name, os.Getenv("DECISION_PATH")))
 	}
 	os.Exit(m.Run())
 }
@@ -33,7 +37,12 @@ var otherDigest = strings.Repeat("ab", 32)
 // `sill report --save` does. Exit status: 0 saved, 3 refused as made
 // from other data, 1 anything else.
 func saveProcess(which, path string) int {
-	f, err := buildDemoFile()
+	res, err := runDemo(0) // no bootstrap: 400 processes start here
+	if err != nil {
+		fmt.Println(err)
+		return 1
+	}
+	f, err := demoFileOf(res)
 	if err != nil {
 		fmt.Println(err)
 		return 1
@@ -129,4 +138,81 @@ func TestTwoSavesOfDifferentData(t *testing.T) {
 		wins[saved[0]]++
 	}
 	t.Logf("%d rounds: a saved %d times, b %d times; both saved 0 times", rounds, wins["a"], wins["b"])
+}
+
+// signProcess appends a sign-off by name to the decision file at path once
+// a line arrives on standard input, as sill review --sign does.
+func signProcess(name, path string) int {
+	fmt.Println("ready")
+	if _, err := bufio.NewReader(os.Stdin).ReadString('\n'); err != nil {
+		return 1
+	}
+	s := SignOff{Name: name, Role: "reviewer", Verdict: Approve, At: time.Now()}
+	if _, err := AppendSignOff(context.Background(), path, s); err != nil {
+		fmt.Println(err)
+		return 1
+	}
+	return 0
+}
+
+// Six processes sign one file at the same moment: every sign-off lands,
+// none lost to another's write, and the one sign-off already there stays
+// first.
+func TestSixConcurrentSigners(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "cut.yaml")
+	if err := save(path, demoFile(t), false); err != nil {
+		t.Fatal(err)
+	}
+	type signer struct {
+		cmd   *exec.Cmd
+		start io.WriteCloser
+		out   *strings.Builder
+	}
+	var signers []signer
+	names := []string{"Ana", "Bo", "Cyd", "Dev", "Eli", "Fen"}
+	for _, name := range names {
+		cmd := exec.Command(os.Args[0], "-test.run=^$")
+		cmd.Env = append(os.Environ(), "DECISION_SIGN="+name, "DECISION_PATH="+path)
+		start, err := cmd.StdinPipe()
+		if err != nil {
+			t.Fatal(err)
+		}
+		stdout, err := cmd.StdoutPipe()
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := cmd.Start(); err != nil {
+			t.Fatal(err)
+		}
+		if line, err := bufio.NewReader(stdout).ReadString('\n'); err != nil || line != "ready\n" {
+			t.Fatalf("%s: %q %v", name, line, err)
+		}
+		out := &strings.Builder{}
+		go io.Copy(out, stdout)
+		signers = append(signers, signer{cmd, start, out})
+	}
+	for _, s := range signers {
+		io.WriteString(s.start, "go\n")
+	}
+	for i, s := range signers {
+		if err := s.cmd.Wait(); err != nil {
+			t.Errorf("%s: %v %s", names[i], err, s.out)
+		}
+	}
+	f, err := ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(f.SignOffs) != 1+len(names) || f.SignOffs[0].Name != "Tomas Reiner" {
+		t.Fatalf("%d sign-offs, want %d: %+v", len(f.SignOffs), 1+len(names), f.SignOffs)
+	}
+	seen := map[string]bool{}
+	for _, s := range f.SignOffs[1:] {
+		seen[s.Name] = true
+	}
+	for _, name := range names {
+		if !seen[name] {
+			t.Errorf("%s's sign-off was lost", name)
+		}
+	}
 }

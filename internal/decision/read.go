@@ -403,15 +403,22 @@ func (r *reader) file_(doc *yaml.Node) *File {
 		for i := 0; i+1 < len(m.Content); i += 2 {
 			if k := deref(m.Content[i]); k != nil && k.Kind == yaml.ScalarNode && k.Value == "format" {
 				f.Format = r.str(m.Content[i+1], "format")
-				if r.err == nil && f.Format != Format {
-					r.fail(m.Content[i+1], "format", fmt.Errorf("%w %q, expected %q", ErrFormat, f.Format, Format))
+				if r.err == nil && f.Format != Format && f.Format != FormatV1 {
+					r.fail(m.Content[i+1], "format", fmt.Errorf("%w %q, expected %q (or the earlier %q)", ErrFormat, f.Format, Format, FormatV1))
 				}
 			}
 		}
 	} else if m != nil {
 		r.fail(m, "", fmt.Errorf("%w: expected a mapping of keys, found %s; not a decision file (format: %s)", ErrType, describe(m), Format))
 	}
-	top := r.fields(root, "", []string{"format", "created", "tool_version", "data", "assumptions", "chosen", "candidates", "caution"}, []string{"note", "chosen_score"})
+	v2 := f.Format == Format
+	required := []string{"format", "created", "tool_version", "data", "assumptions", "chosen", "candidates", "caution"}
+	optional := []string{"note", "chosen_score"}
+	if v2 {
+		required = append(required, "model", "chosen_by", "curve", "sign_offs")
+		optional = append(optional, "shift_schedule", "calibration")
+	}
+	top := r.fields(root, "", required, optional)
 	created := deref(top["created"])
 	if r.err == nil {
 		var err error
@@ -425,12 +432,25 @@ func (r *reader) file_(doc *yaml.Node) *File {
 		}
 	}
 	f.ToolVersion = r.str(top["tool_version"], "tool_version")
+	if v2 {
+		m := r.fields(top["model"], "model", []string{"name", "version"}, nil)
+		f.Model = Model{Name: r.optionalStr(m["name"], "model.name"), Version: r.optionalStr(m["version"], "model.version")}
+		f.ChosenBy = r.optionalStr(top["chosen_by"], "chosen_by")
+	}
 	f.Data = r.data(top["data"])
 	f.Assumptions = r.assumptions(top["assumptions"])
+	if v2 {
+		f.ShiftSchedule = r.schedule(top["shift_schedule"])
+		f.Calibration = r.calibration(top["calibration"])
+	}
 	f.Chosen = r.str(top["chosen"], "chosen")
 	items := r.list(top["candidates"], "candidates")
 	for i, item := range items {
-		f.Candidates = append(f.Candidates, r.candidate(item, fmt.Sprintf("candidates[%d]", i), f.Assumptions))
+		f.Candidates = append(f.Candidates, r.candidate(item, fmt.Sprintf("candidates[%d]", i), f.Assumptions, v2))
+	}
+	if v2 {
+		f.SignOffs = r.signOffs(top["sign_offs"])
+		f.Curve = r.curve(top["curve"], f.Data)
 	}
 	if r.err == nil && len(items) == 0 {
 		r.fail(deref(top["candidates"]), "candidates", fmt.Errorf("%w: an empty list, expected at least one candidate", ErrInvalid))
@@ -469,6 +489,10 @@ func (r *reader) consistent(f *File) {
 			return
 		}
 		seen[c.Name] = i
+		if len(f.Curve) > 0 && !onCurve(f.Curve, c.Cut.Score) {
+			r.failAt(path+".score", fmt.Errorf("%w: %v is not a cut of the curve, expected every candidate's cut in it", ErrInvalid, c.Cut.Score))
+			return
+		}
 		e, vp := c.Cut, path+".validation"
 		switch {
 		case !sameCount(e.TP+e.FN, f.Data.Positives):
@@ -479,6 +503,15 @@ func (r *reader) consistent(f *File) {
 			r.failAt(vp+".flagged", fmt.Errorf("%w: %v, expected tp + fp = %v; were the counts edited by hand?", ErrInvalid, e.Flagged, e.TP+e.FP))
 		}
 	}
+}
+
+func onCurve(points []CurvePoint, score float64) bool {
+	for _, p := range points {
+		if p.Score == score {
+			return true
+		}
+	}
+	return false
 }
 
 // countTolerance is the relative slack of sameCount.
@@ -580,8 +613,12 @@ func (r *reader) assumptions(n *yaml.Node) projection.Assumptions {
 	return a
 }
 
-func (r *reader) candidate(n *yaml.Node, path string, a projection.Assumptions) Candidate {
-	m := r.fields(n, path, []string{"name", "score", "validation", "projected"}, []string{"rule", "note"})
+func (r *reader) candidate(n *yaml.Node, path string, a projection.Assumptions, v2 bool) Candidate {
+	optional := []string{"rule", "note"}
+	if v2 {
+		optional = append(optional, "stability", "segments", "shifts")
+	}
+	m := r.fields(n, path, []string{"name", "score", "validation", "projected"}, optional)
 	c := Candidate{
 		Name: r.str(m["name"], path+".name"),
 		Rule: r.optionalStr(m["rule"], path+".rule"),
@@ -640,5 +677,8 @@ func (r *reader) candidate(n *yaml.Node, path string, a projection.Assumptions) 
 	} else {
 		e.Projected.CostPerCase = math.NaN()
 	}
+	c.Stability = r.stability(m["stability"], path+".stability")
+	c.Segments = r.segments(m["segments"], path+".segments")
+	c.Shifts = r.shifts(m["shifts"], path+".shifts")
 	return c
 }

@@ -92,9 +92,11 @@ func Marshal(f *File) ([]byte, error) {
 	}
 	d := f.Data
 	doc := mapping(
-		"format", str(f.Format),
+		"format", str(Format),
 		"created", quoted(f.Created.UTC().Format(time.RFC3339)),
 		"tool_version", quoted(f.ToolVersion),
+		"model", mapping("name", optionalStr(f.Model.Name), "version", optionalStr(f.Model.Version)),
+		"chosen_by", optionalStr(f.ChosenBy),
 		"data", mapping(
 			"path", quoted(d.Path),
 			"sha256", quoted(d.SHA256),
@@ -119,12 +121,15 @@ func Marshal(f *File) ([]byte, error) {
 			"capacity", given(a.Capacity),
 			"confidence", num(a.Confidence),
 		),
+		"shift_schedule", scheduleNode(f.ShiftSchedule),
+		"calibration", calibrationNode(f.Calibration),
 		"chosen", quoted(f.Chosen),
 		"chosen_score", chosenScore(f),
 		"candidates", cand,
 		"note", optionalStr(f.Note),
 		"caution", str(evidence.Caution), // the standing caution, whatever a hand edit left in f
-
+		"sign_offs", signOffsNode(f.SignOffs),
+		"curve", curveNode(f.Curve),
 	)
 	doc.HeadComment = "sill decision file. The chosen cut flags a case when its score is " + flagSign(d.LowerIsRiskier) +
 		" the chosen candidate's score;\nthe figures are the evidence it was chosen on. Read it with: sill review FILE"
@@ -191,7 +196,124 @@ func candidateNode(c Candidate, lowerIsRiskier bool) *yaml.Node {
 			"cost_per_case", num(e.Projected.CostPerCase),
 		),
 		"note", optionalStr(c.Note),
+		"stability", stabilityNode(c.Stability),
+		"segments", segmentsNode(c.Segments),
+		"shifts", shiftsNode(c.Shifts),
 	)
+}
+
+func scheduleNode(s *ShiftSchedule) *yaml.Node {
+	if s == nil {
+		return null()
+	}
+	starts := &yaml.Node{Kind: yaml.SequenceNode, Style: yaml.FlowStyle}
+	for _, start := range s.Starts {
+		starts.Content = append(starts.Content, quoted(start))
+	}
+	return mapping("starts", starts, "zone", quoted(s.Zone), "time_column", optionalStr(s.TimeColumn))
+}
+
+func calibrationNode(c *Calibration) *yaml.Node {
+	if c == nil {
+		return null()
+	}
+	bins := &yaml.Node{Kind: yaml.SequenceNode}
+	for _, b := range c.Bins {
+		bin := mapping("lower", num(b.Lower), "upper", num(b.Upper), "mean_score", num(b.MeanScore),
+			"observed_rate", num(b.ObservedRate), "rows", num(float64(b.Rows)), "weight", num(b.Weight))
+		bin.Style = yaml.FlowStyle
+		bins.Content = append(bins.Content, bin)
+	}
+	cost := null()
+	if t := c.CostThreshold; t != nil {
+		cost = mapping("probability", num(t.Probability), "score", num(t.Score))
+	}
+	return mapping("binning", quoted(c.Binning), "ece", num(c.ECE), "bins", bins, "cost_threshold", cost)
+}
+
+func stabilityNode(s *Stability) *yaml.Node {
+	if s == nil {
+		return null()
+	}
+	return mapping(
+		"replicates", num(float64(s.Replicates)),
+		"seed", &yaml.Node{Kind: yaml.ScalarNode, Tag: "!!int", Value: strconv.FormatUint(s.Seed, 10)},
+		"met", num(float64(s.Met)),
+		"score", flowList(s.Score[:]...),
+		"flagged_share", flowList(s.FlaggedShare[:]...),
+		"recall", flowList(s.Recall[:]...),
+		"skipped", optionalStr(s.Skipped),
+	)
+}
+
+func segmentsNode(s *Segments) *yaml.Node {
+	if s == nil {
+		return null()
+	}
+	groups := &yaml.Node{Kind: yaml.SequenceNode}
+	for _, g := range s.Groups {
+		group := mapping(
+			"name", quoted(g.Name), "rows", num(float64(g.Rows)),
+			"positives", num(g.Positives), "negatives", num(g.Negatives), "tp", num(g.TP), "fp", num(g.FP),
+			"recall", num(g.Recall), "recall_ci", flowList(g.RecallCI[:]...),
+			"precision", num(g.Precision), "precision_ci", flowList(g.PrecisionCI[:]...),
+			"outlier", boolean(g.Outlier))
+		group.Style = yaml.FlowStyle
+		groups.Content = append(groups.Content, group)
+	}
+	n := mapping("column", quoted(s.Column), "groups", groups)
+	if s.LeftOut > 0 {
+		n.Content = append(n.Content, str("left_out"), num(float64(s.LeftOut)))
+	}
+	return n
+}
+
+func shiftsNode(s *Shifts) *yaml.Node {
+	if s == nil {
+		return null()
+	}
+	busiest := null()
+	if !s.Busiest.IsZero() {
+		busiest = quoted(s.Busiest.Format(time.RFC3339))
+	}
+	return mapping("count", num(float64(s.Count)), "mean", num(s.Mean), "p90", num(s.P90), "max", num(s.Max),
+		"busiest", busiest, "over_capacity", num(s.OverCapacity))
+}
+
+func signOffsNode(list []SignOff) *yaml.Node {
+	n := &yaml.Node{Kind: yaml.SequenceNode}
+	if len(list) == 0 {
+		n.Style = yaml.FlowStyle // sign_offs: []
+	}
+	for _, s := range list {
+		item := mapping(
+			"name", quoted(s.Name),
+			"role", optionalStr(s.Role),
+			"verdict", str(string(s.Verdict)),
+			"note", optionalStr(s.Note),
+			"at", quoted(s.At.UTC().Format(time.RFC3339)),
+			"chosen", quoted(s.Chosen),
+			"chosen_score", num(s.ChosenScore),
+		)
+		if s.Key != "" {
+			item.Content = append(item.Content, str("key"), quoted(s.Key))
+		}
+		n.Content = append(n.Content, item)
+	}
+	return n
+}
+
+// curveNode writes the curve one [score, tp, fp] a line.
+func curveNode(points []CurvePoint) *yaml.Node {
+	n := &yaml.Node{Kind: yaml.SequenceNode}
+	if len(points) == 0 {
+		n.Style = yaml.FlowStyle
+	}
+	for _, p := range points {
+		n.Content = append(n.Content, flowList(p.Score, p.TP, p.FP))
+	}
+	n.HeadComment = "[score, tp, fp] of the trade-off, strictest cut first, thinned to at most " + strconv.Itoa(MaxCurvePoints) + " cuts"
+	return n
 }
 
 func mapping(pairs ...any) *yaml.Node {

@@ -2,6 +2,7 @@ package drift
 
 import (
 	"bytes"
+	"context"
 	"encoding/json"
 	"fmt"
 	"math"
@@ -10,6 +11,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/decision"
@@ -213,13 +215,12 @@ func decisionOf(t testing.TB, set *scores.Set) *decision.File {
 	positives, negatives := set.Totals()
 	a := projection.Assumptions{BaseRate: positives / (positives + negatives), Volume: 1500, Confidence: 0.95}
 	rules := []cutrule.Rule{{Kind: cutrule.Hit, Value: 0.8}}
-	finder, err := cutrule.NewFinder(rules, set, a)
+	res, err := analysis.Run(context.Background(), set, a, analysis.Options{Rules: rules})
 	if err != nil {
 		t.Fatal(err)
 	}
-	curve.Walk(set, finder.Visit)
-	o := finder.Outcomes()[0]
-	f, err := decision.New(set, a, []decision.Candidate{{Name: "hit=0.8", Rule: "hit=0.8", Cut: evidence.Of(o.Point, a)}}, "", "test")
+	o := res.Outcomes[0]
+	f, err := decision.New(res, []decision.Pick{{Name: "hit=0.8", Rule: "hit=0.8", Point: o.Point}}, "", decision.Record{ToolVersion: "test"})
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -1,0 +1,261 @@
+package decision
+
+import (
+	"math"
+	"slices"
+	"time"
+
+	"github.com/sill-tool/sill/internal/analysis"
+	"github.com/sill-tool/sill/internal/bootstrap"
+	"github.com/sill-tool/sill/internal/calibration"
+	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/evidence"
+	"github.com/sill-tool/sill/internal/segment"
+)
+
+// Pick is one candidate to record: a named cut of the result's curve.
+type Pick struct {
+	Name  string
+	Rule  string // the cut spec it came from; "" for a cut picked by hand
+	Note  string
+	Point curve.Point // a point of the result's curve
+}
+
+// Record is what New records beside the figures: who and what made the
+// file.
+type Record struct {
+	ToolVersion string // as sill --version prints it
+	Model       Model
+	ChosenBy    string // "" when not given; never guessed
+	Note        string
+}
+
+// MaxSegmentGroups is the most groups a candidate's segments keep: the
+// outliers first, then the largest groups; Segments.LeftOut counts the
+// rest.
+const MaxSegmentGroups = 100
+
+// New builds the File of res, the figures of package analysis, with the
+// candidates picked on its curve. chosen names the chosen candidate; ""
+// chooses the first. Everything recorded comes from res: the candidates'
+// figures under res.Assume, their breakdown by segment and shift queues
+// (when res has segments or shifts), the spread of the rule a candidate
+// came from (when res.Stability holds a bootstrap and the rule was one of
+// res.Rules at the same cut), the reliability table and the curve,
+// thinned to at most MaxCurvePoints with both ends and every candidate's
+// cut. Created is the current time in UTC, to the second.
+//
+// It returns an error wrapping ErrInvalid when there is no candidate, a
+// name is empty or repeated, a candidate score is not finite, chosen names
+// no candidate or the assumptions are out of range.
+func New(res *analysis.Result, picks []Pick, chosen string, rec Record) (*File, error) {
+	set, a := res.Set, res.Assume
+	positives, negatives := set.Totals()
+	f := &File{
+		Format:      Format,
+		Created:     time.Now().UTC().Truncate(time.Second),
+		ToolVersion: rec.ToolVersion,
+		Model:       rec.Model,
+		ChosenBy:    rec.ChosenBy,
+		Data: Data{
+			Path:           set.Source,
+			SHA256:         set.SHA256,
+			Rows:           set.Cases(), // cases: the summed counts of a counts table
+			Positives:      positives,
+			Negatives:      negatives,
+			ScoreColumn:    set.ScoreColumn,
+			LabelColumn:    set.LabelColumn,
+			WeightColumn:   set.WeightColumn,
+			LowerIsRiskier: set.LowerIsRiskier,
+			Histogram:      NewHistogram(set),
+		},
+		Assumptions: a,
+		Chosen:      chosen,
+		Note:        rec.Note,
+		Caution:     evidence.Caution,
+	}
+	if f.Chosen == "" && len(picks) > 0 {
+		f.Chosen = picks[0].Name
+	}
+	cuts := make([]float64, 0, len(picks))
+	for _, p := range picks {
+		c := Candidate{Name: p.Name, Rule: p.Rule, Note: p.Note, Cut: evidence.Of(p.Point, a)}
+		c.Stability = stabilityOf(res, p)
+		if b, ok := res.SegmentsAt(p.Point, a.Confidence); ok {
+			c.Segments = segmentsOf(set.SegmentColumn, b)
+		}
+		if peaks, ok := res.PeaksAt(p.Point, a.Capacity); ok {
+			c.Shifts = &Shifts{Count: peaks.Shifts, Mean: peaks.Mean, P90: peaks.P90, Max: peaks.Max, OverCapacity: peaks.OverCapacity}
+			if peaks.Busiest >= 0 && res.Shifts != nil {
+				c.Shifts.Busiest = res.Shifts.Assigned.Start(peaks.Busiest)
+			}
+		}
+		f.Candidates = append(f.Candidates, c)
+		cuts = append(cuts, p.Point.Score)
+	}
+	if res.Shifts != nil {
+		s := res.Shifts.Assigned.Schedule
+		f.ShiftSchedule = &ShiftSchedule{Zone: s.Location.String(), TimeColumn: set.TimeColumn}
+		for _, m := range s.Starts {
+			f.ShiftSchedule.Starts = append(f.ShiftSchedule.Starts, clock(m))
+		}
+	}
+	if c := res.Calibration; c != nil {
+		f.Calibration = calibrationOf(c)
+	}
+	f.Curve = thin(res, cuts)
+	if err := f.Validate(); err != nil {
+		return nil, err
+	}
+	return f, nil
+}
+
+func clock(minutes int) string {
+	return string([]byte{byte('0' + minutes/600), byte('0' + minutes/60%10), ':', byte('0' + minutes%60/10), byte('0' + minutes%10)})
+}
+
+// stabilityOf is the bootstrap spread of the rule p came from, or of the
+// first rule met at p's cut when p was picked by hand; nil without a
+// bootstrap or such a rule.
+func stabilityOf(res *analysis.Result, p Pick) *Stability {
+	b := res.Stability
+	if b == nil {
+		return nil
+	}
+	var found *bootstrap.Spread
+	for i, o := range res.Outcomes {
+		if i >= len(b.Spreads) || !o.Met || o.Point.Index != p.Point.Index || b.Spreads[i].Rule != o.Rule {
+			continue
+		}
+		if o.Rule.String() == p.Rule {
+			found = &b.Spreads[i]
+			break
+		}
+		if p.Rule == "" && found == nil {
+			found = &b.Spreads[i]
+		}
+	}
+	if found == nil {
+		return nil
+	}
+	return &Stability{Replicates: b.Replicates, Seed: b.Seed, Met: found.Met, Score: found.Score,
+		FlaggedShare: found.FlaggedShare, Recall: found.Recall, Skipped: found.Skipped}
+}
+
+func segmentsOf(column string, b segment.Breakdown) *Segments {
+	groups := slices.Clone(b.Segments)
+	s := &Segments{Column: column}
+	if len(groups) > MaxSegmentGroups {
+		// Outliers first, then the largest; the kept ones back in the
+		// data's order.
+		order := make([]int, len(groups))
+		for i := range order {
+			order[i] = i
+		}
+		slices.SortStableFunc(order, func(i, j int) int {
+			gi, gj := groups[i], groups[j]
+			switch {
+			case gi.Outlier != gj.Outlier:
+				if gi.Outlier {
+					return -1
+				}
+				return 1
+			case gi.Rows != gj.Rows:
+				return gj.Rows - gi.Rows
+			}
+			return 0
+		})
+		kept := order[:MaxSegmentGroups]
+		slices.Sort(kept)
+		var trimmed []segment.Figures
+		for _, i := range kept {
+			trimmed = append(trimmed, groups[i])
+		}
+		s.LeftOut = len(groups) - MaxSegmentGroups
+		groups = trimmed
+	}
+	for _, g := range groups {
+		s.Groups = append(s.Groups, SegmentGroup{
+			Name: g.Segment, Rows: g.Rows, Positives: g.Positives, Negatives: g.Negatives, TP: g.TP, FP: g.FP,
+			Recall: g.Recall, RecallCI: g.RecallCI, Precision: g.Precision, PrecisionCI: g.PrecisionCI, Outlier: g.Outlier,
+		})
+	}
+	return s
+}
+
+func calibrationOf(c *analysis.Calibration) *Calibration {
+	out := &Calibration{Binning: "width", ECE: c.Table.ECE}
+	if c.Table.Binning == calibration.Quantile {
+		out.Binning = "quantile"
+	}
+	for _, b := range c.Table.Bins {
+		out.Bins = append(out.Bins, CalibrationBin{Lower: b.Lower, Upper: b.Upper, MeanScore: b.MeanScore,
+			ObservedRate: b.ObservedRate, Rows: b.Count, Weight: b.Weight})
+	}
+	if c.Cost != nil {
+		out.CostThreshold = &CostThreshold{Probability: c.Cost.Probability, Score: c.Cost.Score}
+	}
+	return out
+}
+
+// thin returns res's curve, strictest cut first, thinned to at most
+// MaxCurvePoints: the first and last cut, every cut whose score is in
+// keep and, between them, a cut wherever the summed change in flagged
+// share, hit share and false-positive rate since the last kept cut reaches
+// a step. The three shares each run from 0 to 1, so their summed change
+// along the curve is at most 3 and the steps keep at most 3/step cuts.
+func thin(res *analysis.Result, keep []float64) []CurvePoint {
+	if len(keep) > MaxCurvePoints-2 {
+		keep = keep[:MaxCurvePoints-2]
+	}
+	step := 3 / float64(MaxCurvePoints-2-len(keep)-1)
+	positives, negatives := res.Set.Totals()
+	var out []CurvePoint
+	var last, previous curve.Point
+	have := false
+	position := func(p curve.Point) [3]float64 {
+		return [3]float64{p.FlaggedShare(), ratio(p.TP, positives), ratio(p.FP, negatives)}
+	}
+	visit := func(p curve.Point) {
+		point := CurvePoint{Score: p.Score, TP: p.TP, FP: p.FP}
+		switch {
+		case !have, slices.Contains(keep, p.Score):
+			out = append(out, point)
+			last = p
+		default:
+			a, b := position(last), position(p)
+			moved := 0.0
+			for i := range a {
+				if d := math.Abs(b[i] - a[i]); !math.IsNaN(d) {
+					moved += d
+				}
+			}
+			if moved >= step {
+				out = append(out, point)
+				last = p
+			}
+		}
+		previous, have = p, true
+	}
+	if res.Curve != nil {
+		res.Curve.Points(visit)
+	} else {
+		curve.Walk(res.Set, visit)
+	}
+	if have && (len(out) == 0 || out[len(out)-1].Score != previous.Score) {
+		out = append(out, CurvePoint{Score: previous.Score, TP: previous.TP, FP: previous.FP})
+	}
+	if len(out) > MaxCurvePoints {
+		// Not reached by the bound above; kept so that no input can
+		// break the format's limit.
+		out = append(out[:MaxCurvePoints-1], out[len(out)-1])
+	}
+	return out
+}
+
+func ratio(num, den float64) float64 {
+	if !(den > 0) {
+		return 0
+	}
+	return num / den
+}

@@ -1,0 +1,270 @@
+package decision
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+	"time"
+
+	"go.yaml.in/yaml/v3"
+)
+
+// The readers of the keys sill-cut/2 added. Each returns nil for an
+// absent or null optional key.
+
+// timestamp reads an RFC 3339 time.
+func (r *reader) timestamp(n *yaml.Node, path string) time.Time {
+	n = deref(n)
+	if r.err != nil {
+		return time.Time{}
+	}
+	if n == nil || n.Kind != yaml.ScalarNode || (n.ShortTag() != "!!str" && n.ShortTag() != "!!timestamp") {
+		r.fail(n, path, fmt.Errorf("%w: expected an RFC 3339 timestamp, found %s", ErrType, describe(n)))
+		return time.Time{}
+	}
+	t, err := time.Parse(time.RFC3339, n.Value)
+	if err != nil {
+		r.fail(n, path, fmt.Errorf("%w: %q, expected an RFC 3339 timestamp such as 2026-09-01T06:00:00Z", ErrInvalid, n.Value))
+	}
+	return t
+}
+
+func (r *reader) schedule(n *yaml.Node) *ShiftSchedule {
+	if isNull(n) || r.err != nil {
+		return nil
+	}
+	const path = "shift_schedule"
+	m := r.fields(n, path, []string{"starts", "zone"}, []string{"time_column"})
+	s := &ShiftSchedule{Zone: r.str(m["zone"], path+".zone"), TimeColumn: r.optionalStr(m["time_column"], path+".time_column")}
+	for i, item := range r.list(m["starts"], path+".starts") {
+		p := fmt.Sprintf("%s.starts[%d]", path, i)
+		start := r.str(item, p)
+		if r.err == nil && !isClock(start) {
+			r.fail(deref(item), p, fmt.Errorf("%w: %q, expected a start time HH:MM such as \"06:00\"", ErrInvalid, start))
+		}
+		if r.err == nil && i > 0 && start <= s.Starts[i-1] {
+			r.fail(deref(item), p, fmt.Errorf("%w: %q after %q, expected start times in ascending order", ErrInvalid, start, s.Starts[i-1]))
+		}
+		s.Starts = append(s.Starts, start)
+	}
+	if r.err == nil && len(s.Starts) == 0 {
+		r.fail(deref(m["starts"]), path+".starts", fmt.Errorf("%w: an empty list, expected at least one start time", ErrInvalid))
+	}
+	if r.err == nil {
+		if _, err := time.LoadLocation(s.Zone); err != nil || s.Zone == "" {
+			r.fail(deref(m["zone"]), path+".zone", fmt.Errorf("%w: %q, expected a time zone such as \"UTC\" or \"Europe/Lisbon\"", ErrInvalid, s.Zone))
+		}
+	}
+	return s
+}
+
+func isClock(s string) bool {
+	if len(s) != 5 || s[2] != ':' {
+		return false
+	}
+	h, errH := strconv.Atoi(s[:2])
+	m, errM := strconv.Atoi(s[3:])
+	return errH == nil && errM == nil && h >= 0 && h <= 23 && m >= 0 && m <= 59 && s[0] != '+' && s[3] != '+'
+}
+
+func (r *reader) calibration(n *yaml.Node) *Calibration {
+	if isNull(n) || r.err != nil {
+		return nil
+	}
+	const path = "calibration"
+	m := r.fields(n, path, []string{"binning", "ece", "bins", "cost_threshold"}, nil)
+	c := &Calibration{Binning: r.str(m["binning"], path+".binning"), ECE: r.share(m["ece"], path+".ece")}
+	if r.err == nil && c.Binning != "width" && c.Binning != "quantile" {
+		r.fail(deref(m["binning"]), path+".binning", fmt.Errorf("%w: %q, expected \"width\" or \"quantile\"", ErrInvalid, c.Binning))
+	}
+	for i, item := range r.list(m["bins"], path+".bins") {
+		p := fmt.Sprintf("%s.bins[%d]", path, i)
+		b := r.fields(item, p, []string{"lower", "upper", "mean_score", "observed_rate", "rows", "weight"}, nil)
+		bin := CalibrationBin{
+			Lower: r.share(b["lower"], p+".lower"), Upper: r.share(b["upper"], p+".upper"),
+			MeanScore: r.share(b["mean_score"], p+".mean_score"), ObservedRate: r.share(b["observed_rate"], p+".observed_rate"),
+			Rows: r.integer(b["rows"], p+".rows"), Weight: r.count(b["weight"], p+".weight"),
+		}
+		if r.err == nil && (math.IsNaN(bin.Lower) || math.IsNaN(bin.Upper) || bin.Lower > bin.Upper) {
+			r.fail(deref(item), p, fmt.Errorf("%w: lower %v and upper %v, expected 0 <= lower <= upper <= 1", ErrInvalid, bin.Lower, bin.Upper))
+		}
+		c.Bins = append(c.Bins, bin)
+	}
+	if t := m["cost_threshold"]; !isNull(t) && r.err == nil {
+		p := path + ".cost_threshold"
+		tm := r.fields(t, p, []string{"probability", "score"}, nil)
+		c.CostThreshold = &CostThreshold{Probability: r.share(tm["probability"], p+".probability"), Score: r.number(tm["score"], p+".score", true)}
+	}
+	return c
+}
+
+func (r *reader) stability(n *yaml.Node, path string) *Stability {
+	if isNull(n) || r.err != nil {
+		return nil
+	}
+	m := r.fields(n, path, []string{"replicates", "seed", "met", "score", "flagged_share", "recall"}, []string{"skipped"})
+	s := &Stability{
+		Replicates: r.integer(m["replicates"], path+".replicates"),
+		Met:        r.integer(m["met"], path+".met"),
+		Skipped:    r.optionalStr(m["skipped"], path+".skipped"),
+	}
+	if seed := deref(m["seed"]); r.err == nil {
+		var err error
+		if seed == nil || seed.Kind != yaml.ScalarNode || seed.ShortTag() != "!!int" {
+			err = fmt.Errorf("%w: expected a whole number >= 0, found %s", ErrType, describe(seed))
+		} else if s.Seed, err = strconv.ParseUint(seed.Value, 10, 64); err != nil {
+			err = fmt.Errorf("%w: %s, expected a whole number from 0 to %d", ErrInvalid, seed.Value, uint64(math.MaxUint64))
+		}
+		if err != nil {
+			r.fail(seed, path+".seed", err)
+		}
+	}
+	s.Score = r.range_(m["score"], path+".score")
+	s.FlaggedShare = r.interval(m["flagged_share"], path+".flagged_share")
+	s.Recall = r.interval(m["recall"], path+".recall")
+	if r.err == nil && s.Met > s.Replicates {
+		r.fail(deref(m["met"]), path+".met", fmt.Errorf("%w: %d, expected at most replicates (%d)", ErrInvalid, s.Met, s.Replicates))
+	}
+	return s
+}
+
+// range_ reads [low, high] of numbers or nulls.
+func (r *reader) range_(n *yaml.Node, path string) [2]float64 {
+	items := r.list(n, path)
+	if r.err == nil && len(items) != 2 {
+		r.fail(deref(n), path, fmt.Errorf("%w: %d values, expected [low, high]", ErrInvalid, len(items)))
+	}
+	if r.err != nil {
+		return [2]float64{math.NaN(), math.NaN()}
+	}
+	out := [2]float64{r.number(items[0], path+"[0]", true), r.number(items[1], path+"[1]", true)}
+	if r.err == nil && out[0] > out[1] {
+		r.fail(deref(n), path, fmt.Errorf("%w: low %v above high %v", ErrInvalid, out[0], out[1]))
+	}
+	return out
+}
+
+func (r *reader) segments(n *yaml.Node, path string) *Segments {
+	if isNull(n) || r.err != nil {
+		return nil
+	}
+	m := r.fields(n, path, []string{"column", "groups"}, []string{"left_out"})
+	s := &Segments{Column: r.str(m["column"], path+".column")}
+	if v, ok := m["left_out"]; ok {
+		s.LeftOut = r.integer(v, path+".left_out")
+	}
+	for i, item := range r.list(m["groups"], path+".groups") {
+		p := fmt.Sprintf("%s.groups[%d]", path, i)
+		g := r.fields(item, p, []string{"name", "rows", "positives", "negatives", "tp", "fp", "recall", "recall_ci", "precision", "precision_ci", "outlier"}, nil)
+		group := SegmentGroup{
+			Name: r.str(g["name"], p+".name"), Rows: r.integer(g["rows"], p+".rows"),
+			Positives: r.count(g["positives"], p+".positives"), Negatives: r.count(g["negatives"], p+".negatives"),
+			TP: r.count(g["tp"], p+".tp"), FP: r.count(g["fp"], p+".fp"),
+			Recall: r.share(g["recall"], p+".recall"), RecallCI: r.interval(g["recall_ci"], p+".recall_ci"),
+			Precision: r.share(g["precision"], p+".precision"), PrecisionCI: r.interval(g["precision_ci"], p+".precision_ci"),
+			Outlier: r.boolean(g["outlier"], p+".outlier"),
+		}
+		switch {
+		case r.err != nil:
+		case group.TP > group.Positives*(1+countTolerance):
+			r.fail(deref(g["tp"]), p+".tp", fmt.Errorf("%w: %v, expected at most the group's positives %v", ErrInvalid, group.TP, group.Positives))
+		case group.FP > group.Negatives*(1+countTolerance):
+			r.fail(deref(g["fp"]), p+".fp", fmt.Errorf("%w: %v, expected at most the group's negatives %v", ErrInvalid, group.FP, group.Negatives))
+		}
+		s.Groups = append(s.Groups, group)
+	}
+	return s
+}
+
+func (r *reader) shifts(n *yaml.Node, path string) *Shifts {
+	if isNull(n) || r.err != nil {
+		return nil
+	}
+	m := r.fields(n, path, []string{"count", "mean", "p90", "max", "busiest", "over_capacity"}, nil)
+	s := &Shifts{
+		Count: r.integer(m["count"], path+".count"),
+		Mean:  r.number(m["mean"], path+".mean", true),
+		P90:   r.number(m["p90"], path+".p90", true),
+		Max:   r.number(m["max"], path+".max", true),
+	}
+	if !isNull(m["busiest"]) {
+		s.Busiest = r.timestamp(m["busiest"], path+".busiest")
+	}
+	s.OverCapacity = r.share(m["over_capacity"], path+".over_capacity")
+	if r.err == nil && s.P90 > s.Max {
+		r.fail(deref(m["p90"]), path+".p90", fmt.Errorf("%w: %v above max %v, expected p90 <= max", ErrInvalid, s.P90, s.Max))
+	}
+	return s
+}
+
+func (r *reader) signOffs(n *yaml.Node) []SignOff {
+	var out []SignOff
+	for i, item := range r.list(n, "sign_offs") {
+		p := fmt.Sprintf("sign_offs[%d]", i)
+		m := r.fields(item, p, []string{"name", "role", "verdict", "note", "at", "chosen", "chosen_score"}, []string{"key"})
+		s := SignOff{
+			Name:        r.str(m["name"], p+".name"),
+			Role:        r.optionalStr(m["role"], p+".role"),
+			Verdict:     Verdict(r.str(m["verdict"], p+".verdict")),
+			Note:        r.optionalStr(m["note"], p+".note"),
+			At:          r.timestamp(m["at"], p+".at"),
+			Chosen:      r.str(m["chosen"], p+".chosen"),
+			ChosenScore: r.number(m["chosen_score"], p+".chosen_score", false),
+		}
+		if v, ok := m["key"]; ok {
+			s.Key = r.str(v, p+".key")
+		}
+		if r.err == nil {
+			if err := s.validate(p); err != nil {
+				r.failAt(err.(*ParseError).Path, err.(*ParseError).Err)
+			}
+		}
+		out = append(out, s)
+	}
+	return out
+}
+
+// curve reads the stored trade-off: at most MaxCurvePoints of [score, tp,
+// fp], strictest cut first (scores falling, or rising when lower scores
+// are riskier), tp and fp growing and within the data's totals.
+func (r *reader) curve(n *yaml.Node, d Data) []CurvePoint {
+	items := r.list(n, "curve")
+	if r.err == nil && len(items) > MaxCurvePoints {
+		r.fail(deref(n), "curve", fmt.Errorf("%w: %d points, expected at most %d", ErrInvalid, len(items), MaxCurvePoints))
+	}
+	out := make([]CurvePoint, 0, len(items))
+	for i, item := range items {
+		p := fmt.Sprintf("curve[%d]", i)
+		values := r.list(item, p)
+		if r.err == nil && len(values) != 3 {
+			r.fail(deref(item), p, fmt.Errorf("%w: %d values, expected [score, tp, fp]", ErrInvalid, len(values)))
+		}
+		if r.err != nil {
+			return nil
+		}
+		point := CurvePoint{Score: r.number(values[0], p+"[0]", false), TP: r.count(values[1], p+"[1]"), FP: r.count(values[2], p+"[2]")}
+		if r.err != nil {
+			return nil
+		}
+		switch {
+		case point.TP > d.Positives*(1+countTolerance)+countTolerance:
+			r.fail(deref(values[1]), p+"[1]", fmt.Errorf("%w: tp %v, expected at most data.positives %v", ErrInvalid, point.TP, d.Positives))
+		case !math.IsNaN(d.Negatives) && point.FP > d.Negatives*(1+countTolerance)+countTolerance:
+			r.fail(deref(values[2]), p+"[2]", fmt.Errorf("%w: fp %v, expected at most data.negatives %v", ErrInvalid, point.FP, d.Negatives))
+		case i > 0 && !stricter(out[i-1].Score, point.Score, d.LowerIsRiskier):
+			r.fail(deref(values[0]), p+"[0]", fmt.Errorf("%w: score %v after %v, expected the strictest cut first", ErrInvalid, point.Score, out[i-1].Score))
+		case i > 0 && (point.TP < out[i-1].TP || point.FP < out[i-1].FP):
+			r.fail(deref(item), p, fmt.Errorf("%w: tp or fp below the stricter cut's, expected counts that grow as the cut loosens", ErrInvalid))
+		}
+		out = append(out, point)
+	}
+	return out
+}
+
+// stricter reports whether a cut at a flags fewer cases than one at b.
+func stricter(a, b float64, lowerIsRiskier bool) bool {
+	if lowerIsRiskier {
+		return a < b
+	}
+	return a > b
+}

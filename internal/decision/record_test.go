@@ -1,0 +1,321 @@
+package decision
+
+import (
+	"bytes"
+	"context"
+	"errors"
+	"math"
+	"math/rand/v2"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/sill-tool/sill/internal/analysis"
+	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/projection"
+	"github.com/sill-tool/sill/internal/scores"
+)
+
+// TestDemoRecordsWhatWasComputed: the demo's file, made with segments,
+// shifts, a bootstrap and probabilities, holds every part of sill-cut/2,
+// each equal to the analysis it came from.
+func TestDemoRecordsWhatWasComputed(t *testing.T) {
+	res, err := demoResult(50)
+	if err != nil {
+		t.Fatal(err)
+	}
+	f := demoFile(t)
+	if f.Format != Format || f.Model.Name != "bearing-wear" || f.ChosenBy != "Ines Varga" {
+		t.Errorf("format %q model %+v chosen_by %q", f.Format, f.Model, f.ChosenBy)
+	}
+	if s := f.ShiftSchedule; s == nil || strings.Join(s.Starts, ",") != "06:00,14:00,22:00" || s.Zone != "UTC" || s.TimeColumn != "read_at" {
+		t.Errorf("shift schedule %+v", s)
+	}
+	c := f.Calibration
+	if c == nil || len(c.Bins) != len(res.Calibration.Table.Bins) || c.ECE != res.Calibration.Table.ECE || c.CostThreshold == nil ||
+		c.CostThreshold.Probability != res.Calibration.Cost.Probability {
+		t.Fatalf("calibration %+v", c)
+	}
+	// The cost threshold 120/(120+1200) = 1/11 (calibration.CostThreshold,
+	// worked by hand: flag when p*miss > (1-p)*false alert).
+	if !same(c.CostThreshold.Probability, 1.0/11) {
+		t.Errorf("cost threshold %v, want 1/11", c.CostThreshold.Probability)
+	}
+	for i, cand := range f.Candidates {
+		o := res.Outcomes[i]
+		sp := res.Stability.Spreads[i]
+		if s := cand.Stability; s == nil || s.Replicates != 50 || s.Seed != 1 || s.Met != sp.Met || s.Score != sp.Score {
+			t.Errorf("%s: stability %+v, want the spread %+v", cand.Name, s, sp)
+		}
+		b, _ := res.SegmentsAt(o.Point, 0.95)
+		if g := cand.Segments; g == nil || g.Column != "yard" || len(g.Groups) != len(b.Segments) {
+			t.Fatalf("%s: segments %+v", cand.Name, g)
+		}
+		for k, g := range cand.Segments.Groups {
+			w := b.Segments[k]
+			if g.Name != w.Segment || g.Rows != w.Rows || g.TP != w.TP || !identical(g.Recall, w.Recall) || g.RecallCI != w.RecallCI || g.Outlier != w.Outlier {
+				t.Errorf("%s group %d: %+v, want %+v", cand.Name, k, g, w)
+			}
+		}
+		peaks, _ := res.PeaksAt(o.Point, 90)
+		if s := cand.Shifts; s == nil || s.Count != peaks.Shifts || s.P90 != peaks.P90 || s.Max != peaks.Max ||
+			!identical(s.OverCapacity, peaks.OverCapacity) || !s.Busiest.Equal(res.Shifts.Assigned.Start(peaks.Busiest)) {
+			t.Errorf("%s: shifts %+v, want %+v", cand.Name, s, peaks)
+		}
+	}
+}
+
+// TestCurveThinned: at most MaxCurvePoints, strictest first, both ends and
+// every candidate's cut, each point the curve's own counts; a short curve
+// is kept whole.
+func TestCurveThinned(t *testing.T) {
+	res, err := demoResult(50)
+	if err != nil {
+		t.Fatal(err)
+	}
+	f := demoFile(t)
+	// The demo's 2000 readings at three decimals have fewer than 512
+	// distinct scores: the curve is kept whole.
+	positives, negatives := res.Set.Totals()
+	if n := len(f.Curve); n == 0 || n > MaxCurvePoints {
+		t.Fatalf("%d points", n)
+	}
+	first, last := f.Curve[0], f.Curve[len(f.Curve)-1]
+	if last.TP != positives || last.FP != negatives {
+		t.Errorf("last point %+v, want every case flagged (%v, %v)", last, positives, negatives)
+	}
+	if first.Score != 0.927 {
+		t.Errorf("first point %+v, want the highest score 0.927", first)
+	}
+	for _, c := range f.Candidates {
+		if !onCurve(f.Curve, c.Cut.Score) {
+			t.Errorf("candidate %s at %v is not on the curve", c.Name, c.Cut.Score)
+		}
+	}
+
+	// A set of 20000 distinct scores is thinned.
+	big := bigResult(t, 20000)
+	picks := []Pick{{Name: "a", Point: big.Outcomes[0].Point}, {Name: "b", Point: big.Outcomes[1].Point}}
+	g, err := New(big, picks, "", Record{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if n := len(g.Curve); n > MaxCurvePoints || n < MaxCurvePoints/2 {
+		t.Errorf("%d points of 20000 cuts, want between %d and %d", n, MaxCurvePoints/2, MaxCurvePoints)
+	}
+	for i := 1; i < len(g.Curve); i++ {
+		if !(g.Curve[i].Score < g.Curve[i-1].Score) || g.Curve[i].TP < g.Curve[i-1].TP || g.Curve[i].FP < g.Curve[i-1].FP {
+			t.Fatalf("point %d %+v after %+v: not strictest first", i, g.Curve[i], g.Curve[i-1])
+		}
+	}
+	p, n := big.Set.Totals()
+	if end := g.Curve[len(g.Curve)-1]; end.TP != p || end.FP != n {
+		t.Errorf("last point %+v, want (%v, %v)", end, p, n)
+	}
+	for _, pk := range picks {
+		if !onCurve(g.Curve, pk.Point.Score) {
+			t.Errorf("candidate %s at %v left out", pk.Name, pk.Point.Score)
+		}
+	}
+	// Every kept point is the curve's own: the counts at its score.
+	for _, cp := range g.Curve[:20] {
+		tp, fp := 0.0, 0.0
+		for i, s := range big.Set.Scores {
+			if s >= cp.Score {
+				if big.Set.Labels[i] {
+					tp++
+				} else {
+					fp++
+				}
+			}
+		}
+		if tp != cp.TP || fp != cp.FP {
+			t.Errorf("point %+v, counted %v %v", cp, tp, fp)
+		}
+	}
+	// The file reads back.
+	text, err := Marshal(g)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := Read(bytes.NewReader(text), "big.yaml"); err != nil {
+		t.Fatal(err)
+	}
+}
+
+// TestReadRejectsBrokenNewKeys: one strict-reader error for each key
+// sill-cut/2 added, with its key path.
+func TestReadRejectsBrokenNewKeys(t *testing.T) {
+	valid, err := Marshal(demoFile(t))
+	if err != nil {
+		t.Fatal(err)
+	}
+	text := string(valid)
+	for _, tc := range []struct {
+		name     string
+		broken   string
+		sentinel error
+		path     string
+	}{
+		{"model missing", replaceNth(t, text, `(?s)\nmodel:\n.*?\nchosen_by:`, 0, "\nchosen_by:"), ErrMissingKey, "model"},
+		{"model name a number", replaceNth(t, text, `name: "bearing-wear"`, 0, `name: 7`), ErrType, "model.name"},
+		{"model version missing", replaceNth(t, text, `\n  version: "14"`, 0, ``), ErrMissingKey, "model.version"},
+		{"chosen_by a list", replaceNth(t, text, `chosen_by: "Ines Varga"`, 0, `chosen_by: [Ines]`), ErrType, "chosen_by"},
+		{"curve missing", replaceNth(t, text, `(?s)\ncurve:\n.*`, 0, "\n"), ErrMissingKey, "curve"},
+		{"curve point short", replaceNth(t, text, `\n  - \[0\.927, 1, 0\]`, 0, "\n  - [0.927, 1]"), ErrInvalid, "curve[0]"},
+		{"curve unordered", replaceNth(t, text, `\n  - \[0\.912, `, 0, "\n  - [0.95, "), ErrInvalid, "curve[1][0]"},
+		{"curve tp above positives", replaceNth(t, text, `\n  - \[0\.927, 1, 0\]`, 0, "\n  - [0.927, 150, 0]"), ErrInvalid, "curve[0][1]"},
+		{"curve counts fall", replaceNth(t, text, `\n  - \[0\.912, 2, 0\]`, 0, "\n  - [0.912, 0, 0]"), ErrInvalid, "curve[1]"},
+		{"candidate off the curve", replaceNth(t, text, `\n  - \[0\.304, [^\]]*\]`, 0, ""), ErrInvalid, "candidates[1].score"},
+		{"schedule start", replaceNth(t, text, `starts: \["06:00"`, 0, `starts: ["6am"`), ErrInvalid, "shift_schedule.starts[0]"},
+		{"schedule zone", replaceNth(t, text, `zone: "UTC"`, 0, `zone: "Nowhere/Else"`), ErrInvalid, "shift_schedule.zone"},
+		{"calibration ece", replaceNth(t, text, `ece: [0-9.e-]+`, 0, `ece: 2`), ErrInvalid, "calibration.ece"},
+		{"calibration binning", replaceNth(t, text, `binning: "width"`, 0, `binning: "even"`), ErrInvalid, "calibration.binning"},
+		{"calibration bin", replaceNth(t, text, `\{lower: 0, upper: [0-9.]+`, 0, `{lower: 0.5, upper: 0.1`), ErrInvalid, "calibration.bins[0]"},
+		{"cost threshold", replaceNth(t, text, `probability: [0-9.]+`, 0, `probability: -1`), ErrInvalid, "calibration.cost_threshold.probability"},
+		{"stability seed", replaceNth(t, text, `seed: 1\n`, 0, "seed: -1\n"), ErrInvalid, "candidates[0].stability.seed"},
+		{"stability met", replaceNth(t, text, `met: 50`, 0, `met: 51`), ErrInvalid, "candidates[0].stability.met"},
+		{"segments outlier", replaceNth(t, text, `outlier: (true|false)`, 0, `outlier: maybe`), ErrType, "candidates[0].segments.groups[0].outlier"},
+		{"segments tp", replaceNth(t, text, `, tp: \d+, fp:`, 0, `, tp: 99999, fp:`), ErrInvalid, "candidates[0].segments.groups[0].tp"},
+		{"shifts busiest", replaceNth(t, text, `busiest: "[^"]*"`, 0, `busiest: "monday"`), ErrInvalid, "candidates[0].shifts.busiest"},
+		{"shifts p90 above max", replaceNth(t, text, `p90: [0-9.]+`, 0, `p90: 99999`), ErrInvalid, "candidates[0].shifts.p90"},
+		{"sign-off verdict", replaceNth(t, text, `verdict: approve`, 0, `verdict: maybe`), ErrVerdict, "sign_offs[0].verdict"},
+		{"sign-off at", replaceNth(t, text, `at: "2026-09-15T08:30:00Z"`, 0, `at: "tuesday"`), ErrInvalid, "sign_offs[0].at"},
+		{"sign-off name", replaceNth(t, text, `name: "Tomas Reiner"`, 0, `name: ""`), ErrInvalid, "sign_offs[0].name"},
+		{"sign-off key", replaceNth(t, text, `chosen_score: 0.304\n`, 0, "chosen_score: 0.304\n    key: \"MD5:aa\"\n"), ErrInvalid, "sign_offs[0].key"},
+		{"sign-off unknown key", replaceNth(t, text, `chosen_score: 0.304\n`, 0, "chosen_score: 0.304\n    mood: glad\n"), ErrUnknownKey, "sign_offs[0].mood"},
+		{"sign-offs missing", replaceNth(t, text, `(?s)\nsign_offs:\n.*?\ncurve:`, 0, "\ncurve:"), ErrMissingKey, "sign_offs"},
+		{"a sill-cut/2 key in a sill-cut/1 file", replaceNth(t, text, `format: sill-cut/2`, 0, `format: sill-cut/1`), ErrUnknownKey, "model"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			f, err := Read(strings.NewReader(tc.broken), "cut.yaml")
+			if err == nil {
+				t.Fatalf("no error; read %+v", f)
+			}
+			var pe *ParseError
+			if !errors.Is(err, tc.sentinel) || !errors.As(err, &pe) || pe.Path != tc.path {
+				t.Fatalf("error %q, want %v at path %q", err, tc.sentinel, tc.path)
+			}
+			if msg := err.Error(); strings.Contains(msg, "\n") || !strings.HasPrefix(msg, "cut.yaml:") || !strings.Contains(msg, ": "+tc.path+": ") {
+				t.Errorf("message %q, want one line with the file, line and path %s", msg, tc.path)
+			}
+		})
+	}
+}
+
+// TestReadV1: a sill-cut/1 file as an earlier build saved it reads, says
+// it will be upgraded, and writes back as sill-cut/2 with its figures and
+// an empty curve and sign-off list.
+func TestReadV1(t *testing.T) {
+	f, err := ReadFile(filepath.Join("testdata", "v1", "demo.yaml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if f.Format != FormatV1 || !f.Upgraded() || f.Chosen != "queue=90" || len(f.Candidates) != 3 || f.Curve != nil || f.SignOffs != nil {
+		t.Fatalf("read %q upgraded %v chosen %q, %d candidates", f.Format, f.Upgraded(), f.Chosen, len(f.Candidates))
+	}
+	out, err := Marshal(f)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !bytes.Contains(out, []byte("format: sill-cut/2\n")) || !bytes.Contains(out, []byte("sign_offs: []\n")) {
+		t.Errorf("written back:\n%s", out)
+	}
+	back, err := Read(bytes.NewReader(out), "cut.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if back.Upgraded() {
+		t.Error("written back still reads as sill-cut/1")
+	}
+	assertFloats(t, "queue=90", cutFigures(back.Candidates[2].Cut), cutFigures(f.Candidates[2].Cut))
+}
+
+// TestSignOffs: appended with the choice they were given for; one given
+// before the choice changed stays and is marked as for the earlier one; a
+// bad verdict changes nothing.
+func TestSignOffs(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "cut.yaml")
+	f := demoFile(t)
+	f.SignOffs = nil
+	if err := save(path, f, false); err != nil {
+		t.Fatal(err)
+	}
+	at := time.Date(2026, 9, 16, 9, 0, 0, 0, time.FixedZone("plus two", 2*3600))
+	s, err := f.NewSignOff(" Ada Quist ", "risk owner", Revise, "ask the night crew", at)
+	if err != nil {
+		t.Fatal(err)
+	}
+	s.Key = "SHA256:uNiVztksCsDhcc0u9e8BujQXVUpKZIDTMczCvj3tD2s"
+	got, err := AppendSignOff(context.Background(), path, s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(got.SignOffs) != 1 || got.SignOffs[0].Name != "Ada Quist" || !got.SignOffs[0].At.Equal(at) || got.SignOffs[0].At.Location() != time.UTC {
+		t.Fatalf("sign-offs %+v", got.SignOffs)
+	}
+	// The chosen cut changes: the earlier sign-off stays, for "base".
+	back, stamp, err := ReadFileStamped(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	back.Chosen = "hit=0.8"
+	if _, err := Write(context.Background(), path, back, WriteOptions{Expect: &stamp}); err != nil {
+		t.Fatal(err)
+	}
+	s2, _ := back.NewSignOff("Ben Oduya", "", Approve, "", at.Add(time.Hour))
+	got, err = AppendSignOff(context.Background(), path, s2)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(got.SignOffs) != 2 || got.ForCurrentChoice(got.SignOffs[0]) || !got.ForCurrentChoice(got.SignOffs[1]) ||
+		got.SignOffs[0].Chosen != "base" || got.SignOffs[0].ChosenScore != 0.304 || got.SignOffs[0].Key != s.Key {
+		t.Fatalf("after the choice changed: %+v", got.SignOffs)
+	}
+	before, _ := os.ReadFile(path)
+	for _, bad := range []SignOff{{Name: "x", Verdict: "ok", At: at}, {Name: "", Verdict: Approve, At: at}, {Name: "a\nb", Verdict: Approve, At: at}} {
+		if _, err := AppendSignOff(context.Background(), path, bad); err == nil {
+			t.Errorf("%+v accepted", bad)
+		}
+	}
+	if after, _ := os.ReadFile(path); !bytes.Equal(before, after) {
+		t.Error("a refused sign-off changed the file")
+	}
+	if _, err := ParseVerdict("Approve"); !errors.Is(err, ErrVerdict) {
+		t.Errorf("ParseVerdict(Approve): %v, want ErrVerdict (verdicts are lower case)", err)
+	}
+	if _, err := AppendSignOff(context.Background(), filepath.Join(t.TempDir(), "none.yaml"), s2); err == nil {
+		t.Error("a sign-off of no file was accepted")
+	}
+	if math.IsNaN(got.SignOffs[1].ChosenScore) {
+		t.Error("no chosen score")
+	}
+}
+
+// bigResult is the analysis of n rows of distinct scores, about one in ten
+// true, with the rules hit=0.8 and base.
+func bigResult(t *testing.T, n int) *analysis.Result {
+	t.Helper()
+	rng := rand.New(rand.NewPCG(3, 5))
+	sc := make([]float64, n)
+	labels := make([]bool, n)
+	for i := range sc {
+		labels[i] = rng.Float64() < 0.1
+		sc[i] = rng.Float64()
+		if labels[i] {
+			sc[i] = math.Sqrt(sc[i])
+		}
+	}
+	set, err := scores.New(sc, labels, nil, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	res, err := analysis.Run(context.Background(), set, projection.Assumptions{BaseRate: 0.1, Confidence: 0.95},
+		analysis.Options{Rules: []cutrule.Rule{{Kind: cutrule.Hit, Value: 0.8}, {Kind: cutrule.Base}}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return res
+}
