@@ -147,19 +147,6 @@ func (s *session) spreadAt(i int) (bootstrap.Spread, bool) {
 	return bootstrap.Spread{}, false
 }
 
-// costSpread returns the bootstrap spread of the least-cost rule.
-func (s *session) costSpread() (bootstrap.Spread, bool) {
-	if s.stability == nil {
-		return bootstrap.Spread{}, false
-	}
-	for _, sp := range s.stability.Spreads {
-		if sp.Rule.Kind == cutrule.Cost && sp.Met > 0 {
-			return sp, true
-		}
-	}
-	return bootstrap.Spread{}, false
-}
-
 // secondAtWorkload returns the second model's point that flags as many
 // rows as cut i of the first, or the nearest stricter one.
 func (s *session) secondAtWorkload(i int) (curve.Point, bool) {

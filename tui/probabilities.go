@@ -142,9 +142,8 @@ func (s *session) costCheck() (costCheck, bool) {
 	if cal.Cost.LeastCost.Met {
 		c.least = &cal.Cost.LeastCost
 	}
-	c.spread, c.judged = s.costSpread()
-	c.judged = c.judged && c.least != nil && evidence.Defined(c.threshold) && evidence.Defined(c.spread.Score[0])
-	c.outside = c.judged && (c.threshold < c.spread.Score[0] || c.threshold > c.spread.Score[1])
+	judged := s.res.CheckCost(s.stability)
+	c.spread, c.judged, c.outside = judged.Spread, judged.Judged, judged.Outside
 	return c, true
 }
 

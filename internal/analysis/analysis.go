@@ -439,6 +439,39 @@ func (r *Result) Resample(ctx context.Context, opt Resampling) (bootstrap.Result
 	return res, stepError(StepResampling, err)
 }
 
+// CostCheck sets the cost threshold that calibrated probabilities imply
+// beside where the least-cost cut lands in resampled sets: a threshold
+// outside that range says the scores are probably not calibrated.
+type CostCheck struct {
+	// Spread is where the least-cost cut lands in the resampled sets.
+	Spread bootstrap.Spread
+	// Judged says the two can be compared: the scores are probabilities,
+	// costs are given, the threshold is defined, the least-cost cut is met
+	// on the set and in some resampled set.
+	Judged bool
+	// Outside says, when judged, that the threshold lies outside the
+	// Spread's range of scores.
+	Outside bool
+}
+
+// CheckCost compares r's cost threshold with the least-cost rule's spread
+// in stability, a bootstrap of r's rules (nil: not judged).
+func (r *Result) CheckCost(stability *bootstrap.Result) CostCheck {
+	var c CostCheck
+	cal := r.Calibration
+	if stability == nil || cal == nil || cal.Cost == nil || !cal.Cost.LeastCost.Met || math.IsNaN(cal.Cost.Score) {
+		return c
+	}
+	for _, sp := range stability.Spreads {
+		if sp.Rule.Kind == cutrule.Cost && sp.Met > 0 && !math.IsNaN(sp.Score[0]) {
+			c.Spread, c.Judged = sp, true
+			c.Outside = cal.Cost.Score < sp.Score[0] || cal.Cost.Score > sp.Score[1]
+			break
+		}
+	}
+	return c
+}
+
 // SegmentsAt returns the breakdown by segment at point p of the curve, with
 // intervals at confidence, in the order of the set's segment names; ok is
 // false without a segment column. With Options.Cursor it follows the

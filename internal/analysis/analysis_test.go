@@ -370,3 +370,41 @@ func TestErrors(t *testing.T) {
 		}
 	}
 }
+
+// TestCheckCost: the cost threshold of costs 1 and 4, 1/(1+4) = 0.2
+// (Elkan 2001), against where the least-cost cut lands in resampled sets.
+func TestCheckCost(t *testing.T) {
+	set := read(t, scores.Options{})
+	withCosts := validation
+	withCosts.Costs = &projection.Costs{FalseAlert: 1, Miss: 4}
+	spread := func(lo, hi float64, met int) *bootstrap.Result {
+		return &bootstrap.Result{Replicates: 10, Spreads: []bootstrap.Spread{
+			{Rule: cutrule.Rule{Kind: cutrule.Base}, Met: 10, Score: [2]float64{0.1, 0.9}},
+			{Rule: cutrule.Rule{Kind: cutrule.Cost}, Met: met, Score: [2]float64{lo, hi}},
+		}}
+	}
+	for _, c := range []struct {
+		name      string
+		a         projection.Assumptions
+		stability *bootstrap.Result
+		judged    bool
+		outside   bool
+	}{
+		{"threshold below the range", withCosts, spread(0.5, 0.8, 10), true, true},
+		{"threshold within", withCosts, spread(0.1, 0.8, 10), true, false},
+		{"threshold on the lower end", withCosts, spread(0.2, 0.8, 10), true, false},
+		{"threshold above the range", withCosts, spread(0.05, 0.15, 10), true, true},
+		{"never met in a resampled set", withCosts, spread(math.NaN(), math.NaN(), 0), false, false},
+		{"not resampled", withCosts, nil, false, false},
+		{"no costs", validation, spread(0.5, 0.8, 10), false, false},
+	} {
+		res, err := analysis.Run(context.Background(), set, c.a, analysis.Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		got := res.CheckCost(c.stability)
+		if got.Judged != c.judged || got.Outside != c.outside || (c.judged && got.Spread.Rule.Kind != cutrule.Cost) {
+			t.Errorf("%s: %+v, want judged %v outside %v", c.name, got, c.judged, c.outside)
+		}
+	}
+}

@@ -9,7 +9,6 @@ import (
 	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/bootstrap"
 	"github.com/sill-tool/sill/internal/calibration"
-	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/format"
 	"github.com/sill-tool/sill/internal/segment"
@@ -344,7 +343,8 @@ type bandPoint struct {
 // wrong-alert share. When the calibration figures hold a cost threshold
 // and the cost rule is among the cuts, a threshold outside the cost cut's
 // 5th-95th percentile range gives a warning. It runs after addCalibration.
-func (r *Report) addStability(res bootstrap.Result) {
+func (r *Report) addStability(result *analysis.Result) {
+	res := *result.Stability
 	r.Bootstrap = &bootstrapFigures{Replicates: res.Replicates, Seed: res.Seed, Stratified: true, Band: []bandPoint{}}
 	for _, p := range res.Band {
 		r.Bootstrap.Band = append(r.Bootstrap.Band, bandPoint{Score: p.Score,
@@ -368,12 +368,11 @@ func (r *Report) addStability(res bootstrap.Result) {
 			FlaggedShareP05: number(s.FlaggedShare[0]), FlaggedShareP95: number(s.FlaggedShare[1]),
 			RecallP05: number(s.Recall[0]), RecallP95: number(s.Recall[1]), Met: s.Met, Summary: words}
 		t.rows = append(t.rows, []string{c.Spec, format.Score(float64(c.Score)), format.Significant(s.Score[0], 4) + " to " + format.Significant(s.Score[1], 4), format.Interval(s.FlaggedShare), format.Interval(s.Recall), words})
-		if s.Rule.Kind == cutrule.Cost && r.Calibration != nil && evidence.Defined(float64(r.Calibration.CostThreshold)) && evidence.Defined(s.Score[0]) {
-			if ct := float64(r.Calibration.CostThreshold); ct < s.Score[0] || ct > s.Score[1] {
-				r.Warnings = append(r.Warnings, fmt.Sprintf("the cost threshold that calibrated probabilities imply (%s) lies outside the range where the least-cost cut lands in resampled sets (%s to %s): the scores are probably not calibrated, so do not read them as probabilities for costing",
-					format.Number(ct, 3), format.Significant(s.Score[0], 4), format.Significant(s.Score[1], 4)))
-			}
-		}
+	}
+	if c := result.CheckCost(result.Stability); c.Outside {
+		s := c.Spread
+		r.Warnings = append(r.Warnings, fmt.Sprintf("the cost threshold that calibrated probabilities imply (%s) lies outside the range where the least-cost cut lands in resampled sets (%s to %s): the scores are probably not calibrated, so do not read them as probabilities for costing",
+			format.Number(result.Calibration.Cost.Score, 3), format.Significant(s.Score[0], 4), format.Significant(s.Score[1], 4)))
 	}
 	notes := []string{fmt.Sprintf("%d resampled sets (seed %d), true and false cases resampled separately; the 5th and 95th percentiles bound a 90%% range", res.Replicates, res.Seed)}
 	r.sections = append(r.sections, section{title: "how stable each cut is (bootstrap)", table: t, notes: notes})

@@ -158,7 +158,7 @@ func New(res *analysis.Result, opt Options) *Report {
 	r.addCalibration(res)
 	r.addShiftPeaks(res)
 	if res.Stability != nil {
-		r.addStability(*res.Stability)
+		r.addStability(res)
 	}
 	r.addComparison(res)
 	return r
