@@ -193,7 +193,8 @@ func (b *builder) readParquetFile(pf ParquetFile, first bool, digest io.Writer) 
 			n := int(group.NumRows())
 			go func(group parquet.RowGroup, index, first int) {
 				defer close(d.done)
-				d.g, d.err = b.decodeRowGroup(group, n, columns, leaves, rowGroupPlace{index: index, count: len(groups), first: first})
+				place := rowGroupPlace{index: index, count: len(groups), first: first, data: pf.Data, chunks: file.Metadata().RowGroups[index].Columns}
+				d.g, d.err = b.decodeRowGroup(group, n, columns, leaves, place)
 			}(group, index, first)
 			first += n
 		}
@@ -301,6 +302,9 @@ func checkParquetLayout(meta *format.FileMetaData, size int64) error {
 // rowGroupPlace says where a row group is, for errors.
 type rowGroupPlace struct {
 	index, count, first int // 0-based group, groups in the file, 0-based first row
+
+	data   io.ReaderAt          // the file
+	chunks []format.ColumnChunk // the group's column chunks, from the footer
 }
 
 func (p rowGroupPlace) String() string {
@@ -391,6 +395,11 @@ func (b *builder) decodeRowGroup(group parquet.RowGroup, n int, columns []wanted
 		}
 		if leaf.ColumnIndex < 0 || leaf.ColumnIndex >= len(chunks) {
 			return nil, &ParseError{File: b.source, Column: column, Err: fmt.Errorf("%w: %v has no chunk for the column, expected one for every column", ErrBadParquet, place)}
+		}
+		if leaf.ColumnIndex < len(place.chunks) {
+			if err := checkPages(place.data, place.chunks[leaf.ColumnIndex].MetaData, int64(n)); err != nil {
+				return nil, &ParseError{File: b.source, Column: column, Err: fmt.Errorf("%w: %v (rows %d to %d): %v", ErrBadParquet, place, place.first+1, place.first+n, err)}
+			}
 		}
 		if err := eachValue(chunks[leaf.ColumnIndex], n, visit); err != nil {
 			return nil, &ParseError{File: b.source, Column: column, Err: fmt.Errorf("%w: %v (rows %d to %d): %v", ErrBadParquet, place, place.first+1, place.first+n, err)}
