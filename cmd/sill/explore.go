@@ -53,10 +53,14 @@ func (o *exploreOptions) config() (tui.Config, error) {
 }
 
 // load reads the scores at path and, with --compare, joins the second
-// model's file to them.
+// model's file to them. A set without both classes is refused: no cut can
+// be chosen on it.
 func (o *exploreOptions) load(ctx context.Context, path string, progress func(int)) (*scores.Set, error) {
 	set, err := o.input.load(ctx, path, nil, progress)
 	if err != nil {
+		return nil, err
+	}
+	if err := bothClasses(set, "explore"); err != nil {
 		return nil, err
 	}
 	return o.beyond.loadCompare(ctx, set)
@@ -95,6 +99,9 @@ both models' cuts side by side.`,
 			}
 			cfg, err := o.config()
 			if err != nil {
+				return err
+			}
+			if err := checkOut(o.out); err != nil {
 				return err
 			}
 			if !isTerminal() || cmd.OutOrStdout() != os.Stdout {

@@ -85,6 +85,11 @@ func (o *reportOptions) run(ctx context.Context, set *scores.Set, stdout, stderr
 	default:
 		return fmt.Errorf("--format %q: expected text, json, markdown or csv", o.format)
 	}
+	if o.save.path != "" {
+		if err := bothClasses(set, "--save"); err != nil {
+			return err
+		}
+	}
 	a, err := o.assume.assumptions(set)
 	if err != nil {
 		return err

@@ -277,6 +277,49 @@ func update(ctx context.Context, path string, o Options, edit func(current []byt
 	return written, nil
 }
 
+// Check tells, before any work is done, whether a later Write to path
+// could succeed: the folder it would go in exists, is a folder and takes a
+// new file (a temporary file is created there and removed), and an
+// existing file is a regular file that kind, when not nil, accepts (its
+// first MaxShown bytes are shown to it). It takes no lock and writes
+// nothing that stays: the file may still change before the write, which
+// makes its own checks. Errors name the folder; kind's error is returned
+// as it is, matching ErrOtherKind too.
+func Check(path string, kind func(current []byte) error) error {
+	target, err := resolve(path)
+	if errors.Is(err, syscall.ENOTDIR) {
+		target = path // a file where a folder of the path should be: told below
+	} else if err != nil {
+		return err
+	}
+	dir := filepath.Dir(target)
+	info, err := os.Stat(dir)
+	switch {
+	case errors.Is(err, fs.ErrNotExist) || errors.Is(err, syscall.ENOTDIR):
+		return fmt.Errorf("the folder %s does not exist", dir)
+	case err != nil:
+		return fmt.Errorf("the folder %s: %w", dir, err)
+	case !info.IsDir():
+		return fmt.Errorf("%s is not a folder", dir)
+	}
+	probe, err := createTemp(dir, "."+filepath.Base(target)+".probe-", 0o600)
+	if err != nil {
+		return fmt.Errorf("the folder %s does not take new files (%v)", dir, errors.Unwrap(err))
+	}
+	probe.Close()
+	os.Remove(probe.Name())
+	current, _, stamp, err := readCurrent(target)
+	if err != nil {
+		return fmt.Errorf("%s: %w", path, err)
+	}
+	if stamp.Exists && len(current) > 0 && kind != nil {
+		if err := kind(current); err != nil {
+			return &kindError{err}
+		}
+	}
+	return nil
+}
+
 func interrupted(path string) error {
 	return fmt.Errorf("write %s: %w; the file is as it was", path, ErrInterrupted)
 }

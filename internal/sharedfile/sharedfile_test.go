@@ -323,3 +323,52 @@ func assertOnlyFiles(t *testing.T, dir string, names ...string) {
 		}
 	}
 }
+
+// TestCheck: Check tells what a write would meet (a missing folder, a file
+// where the folder should be, a folder where the file should be, a file
+// kind refuses) and leaves nothing behind; through a symbolic link it
+// checks the file linked to.
+func TestCheck(t *testing.T) {
+	dir := t.TempDir()
+	notes := filepath.Join(dir, "notes.txt")
+	writeFile(t, notes, "not a decision", 0o644)
+	empty := filepath.Join(dir, "empty.yaml")
+	writeFile(t, empty, "", 0o644)
+	link := filepath.Join(dir, "link.yaml")
+	if err := os.Symlink(notes, link); err != nil {
+		t.Fatal(err)
+	}
+	errNotMine := errors.New("not one of ours")
+	kind := func(current []byte) error {
+		if string(current) != "ours" {
+			return errNotMine
+		}
+		return nil
+	}
+	cases := []struct {
+		path, want string
+		other      bool // matches ErrOtherKind
+	}{
+		{filepath.Join(dir, "new.yaml"), "", false},
+		{empty, "", false}, // an empty file is shown to no kind, as Write does
+		{filepath.Join(dir, "missing", "cut.yaml"), "the folder " + filepath.Join(dir, "missing") + " does not exist", false},
+		{filepath.Join(notes, "cut.yaml"), notes + " is not a folder", false},
+		{dir, dir + " is a folder, expected a file name", false},
+		{notes, "not one of ours", true},
+		{link, "not one of ours", true},
+	}
+	for _, tc := range cases {
+		err := Check(tc.path, kind)
+		got := ""
+		if err != nil {
+			got = err.Error()
+		}
+		if got != tc.want || errors.Is(err, ErrOtherKind) != tc.other || tc.other && !errors.Is(err, errNotMine) {
+			t.Errorf("Check(%s): %v, want %q (other kind: %v)", tc.path, err, tc.want, tc.other)
+		}
+	}
+	if err := Check(notes, nil); err != nil {
+		t.Errorf("Check with no kind: %v", err)
+	}
+	assertOnlyFiles(t, dir, "empty.yaml", "link.yaml", "notes.txt")
+}
