@@ -283,6 +283,10 @@ func (m Model) key(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 		return m, keyTop(&m.overlays, &m, msg)
 	}
 	if key.Matches(msg, k.Quit) {
+		if n := m.Unwritten(); n > 0 {
+			m.push(m.quitQuestion(n))
+			return m, nil
+		}
 		m.stopResampling()
 		return m, tea.Quit
 	}

@@ -9,6 +9,7 @@ import (
 	"testing"
 
 	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/x/ansi"
 
 	"github.com/sill-tool/sill/internal/compare"
 	"github.com/sill-tool/sill/internal/decision"
@@ -540,5 +541,46 @@ func TestKeysThatNeedMore(t *testing.T) {
 		if len(m.overlays) != 0 || !strings.Contains(m.status, want) {
 			t.Errorf("%s: overlays %v, status %q, want it to name %s", key, m.overlays, m.status, want)
 		}
+	}
+}
+
+// TestQuitAsksWithUnwrittenPins: q with pins not written asks; n and esc
+// stay, y quits; once written, or with no pins, q quits at once; ctrl+c
+// always quits.
+func TestQuitAsksWithUnwrittenPins(t *testing.T) {
+	quits := func(cmd tea.Cmd) bool {
+		if cmd == nil {
+			return false
+		}
+		_, ok := cmd().(tea.QuitMsg)
+		return ok
+	}
+	for _, stay := range []string{"n", "esc"} {
+		m := keys(tenModel(t), "p")
+		next, cmd := m.Update(keyMsg("q"))
+		m = next.(Model)
+		if quits(cmd) || len(m.overlays) != 1 {
+			t.Fatalf("q with a pin not written: quits %v, overlays %d; want the question", quits(cmd), len(m.overlays))
+		}
+		if view := ansi.Strip(m.View()); !strings.Contains(view, "pins not written") || !strings.Contains(view, "y quits") {
+			t.Errorf("the question is not on screen:\n%s", view)
+		}
+		next, cmd = m.Update(keyMsg(stay))
+		m = next.(Model)
+		if quits(cmd) || len(m.overlays) != 0 || len(m.s.pins) != 1 {
+			t.Errorf("%s: quits %v, overlays %d, pins %d; want the screen as it was", stay, quits(cmd), len(m.overlays), len(m.s.pins))
+		}
+		if _, cmd = keys(m, "q").Update(keyMsg("y")); !quits(cmd) {
+			t.Errorf("y after %s does not quit", stay)
+		}
+	}
+	m := keys(tenModel(t), "p", "q")
+	if _, cmd := m.Update(keyMsg("ctrl+c")); !quits(cmd) {
+		t.Errorf("ctrl+c with the question open does not quit")
+	}
+	written := keys(tenModel(t), "p")
+	written.unwritten = false // as after a write (fileWrittenMsg)
+	if _, cmd := written.Update(keyMsg("q")); !quits(cmd) {
+		t.Errorf("q once the pins are written does not quit")
 	}
 }

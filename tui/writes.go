@@ -121,6 +121,26 @@ func (m *Model) changedQuestion(err error) *question[*Model] {
 	})
 }
 
+// quitQuestion asks before quitting with n pinned candidates (or the
+// assumptions they were pinned under) not written: y quits, n or esc
+// stays.
+func (m *Model) quitQuestion(n int) *question[*Model] {
+	st, k := m.ctx.styles, m.ctx.keys
+	what := "The pinned candidate is not written"
+	if n > 1 {
+		what = fmt.Sprintf("The %d pinned candidates are not written", n)
+	}
+	if m.written != "" {
+		what = fmt.Sprintf("The pins changed since %s was written", m.written)
+	}
+	lines := wrapWords(what+"; quitting now drops them.", 60)
+	lines = append(lines, "", "Quit anyway? "+st.Key.Render("y")+" quits · "+st.Key.Render("n")+"/esc stays ("+st.Key.Render("w")+" then writes to "+m.cfg.Out+")")
+	return &question[*Model]{ctx: m.ctx, title: "pins not written", body: strings.Join(lines, "\n"), answers: []answer[*Model]{
+		{key: k.Yes, what: "quit", do: func(m *Model) tea.Cmd { m.stopResampling(); return tea.Quit }},
+		{key: k.No, what: "stay"},
+	}}
+}
+
 // Path returns the file the screen writes to: the one it opened, or the
 // one it was last told to write to instead.
 func (r Review) Path() string { return r.path }
