@@ -29,6 +29,10 @@ type ReviewConfig struct {
 	// Styles and Keys; zero values take PlainStyles and DefaultKeyMap.
 	Styles *Styles
 	Keys   *KeyMap
+	// Against, when not nil, is the decision in production, read from
+	// AgainstPath: the screen shows what changes with File.
+	Against     *decision.File
+	AgainstPath string
 }
 
 // Messages of the review screen, named for what happened.

@@ -2,8 +2,12 @@ package main
 
 import (
 	"context"
+	"errors"
 	"fmt"
+	"io"
 	"os"
+	"strings"
+	"time"
 
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/lipgloss"
@@ -11,13 +15,53 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/sill-tool/sill/internal/decision"
+	"github.com/sill-tool/sill/internal/format"
 	"github.com/sill-tool/sill/internal/review"
 	"github.com/sill-tool/sill/internal/sharedfile"
 	"github.com/sill-tool/sill/tui"
 )
 
+// signFlags are review's flags that record a sign-off.
+type signFlags struct {
+	name, role, verdict, note string
+}
+
+func (s *signFlags) given() bool {
+	return s.name != "" || s.role != "" || s.verdict != "" || s.note != ""
+}
+
+// sign appends the sign-off to the file at path through the lock, so that
+// a sign-off or write of another process in between is kept.
+func (s *signFlags) sign(ctx context.Context, path string, stderr io.Writer) error {
+	if path == "-" {
+		return errors.New("--sign records the sign-off in the decision file; name the file, not standard input")
+	}
+	if strings.TrimSpace(s.name) == "" {
+		return errors.New("--verdict, --role and --note go with --sign NAME (who signs)")
+	}
+	verdict, err := decision.ParseVerdict(s.verdict)
+	if err != nil {
+		return fmt.Errorf("--verdict: %w", err)
+	}
+	for flag, text := range map[string]string{"--sign": s.name, "--role": s.role} {
+		if strings.ContainsAny(text, "\r\n") {
+			return fmt.Errorf("%s %q: a line break, expected one line", flag, text)
+		}
+	}
+	f, err := decision.AppendSignOff(ctx, path, decision.SignOff{Name: strings.TrimSpace(s.name), Role: strings.TrimSpace(s.role),
+		Verdict: verdict, Note: strings.TrimSpace(s.note), At: time.Now().UTC().Truncate(time.Second)})
+	if err != nil {
+		return err
+	}
+	last := f.SignOffs[len(f.SignOffs)-1]
+	fmt.Fprintf(stderr, "sill: signed %s: %s by %s for the chosen %s (score %s); %d %s in the file\n", path, last.Verdict,
+		format.Printable(last.Name), format.Printable(last.Chosen), format.Score(last.ChosenScore), len(f.SignOffs), pluralWord(len(f.SignOffs), "sign-off", "sign-offs"))
+	return nil
+}
+
 func newReviewCmd() *cobra.Command {
-	var format string
+	var outFormat, against string
+	var signing signFlags
 	cmd := &cobra.Command{
 		Use:   "review FILE.yaml",
 		Short: "Compare the candidates of a decision file side by side, choose one and note why",
@@ -27,26 +71,52 @@ figures as the explorer's comparison strip, each with its difference from
 the chosen one.
 
 On a terminal it opens a screen where you move between candidates, mark one
-as chosen, add a note to a candidate or to the file, and write the file back
-(atomically; the evidence is kept as it was). With --format text or
-markdown it prints the comparison instead, for a sign-off document; that is
-also what it does when standard output is not a terminal.`,
+as chosen, add a note to a candidate or to the file, sign it off, and write
+the file back (atomically; the evidence is kept as it was). With --format
+text or markdown it prints the comparison instead, for a sign-off document;
+that is also what it does when standard output is not a terminal.
+
+--sign NAME --verdict approve|revise|reject [--role ROLE] [--note TEXT]
+appends a sign-off to the file and prints nothing else: under the file's
+lock it reads the file as it is then and appends, so that sign-offs given at
+the same moment all land. A sign-off records the chosen cut it was given
+for; one given before the choice changed stays, marked as for the earlier
+choice.
+
+--against OLD.yaml shows what changes when this file's chosen cut replaces
+the one in production (OLD.yaml): model, data, the assumptions that
+changed, both chosen cuts' figures and the change per shift in plain words.`,
 		Example: `  sill review cut.yaml
-  sill review cut.yaml --format markdown > sign-off.md`,
+  sill review cut.yaml --format markdown > sign-off.md
+  sill review cut.yaml --sign "Ada Quist" --role "operations lead" --verdict approve --note "fits the night crew"
+  sill review new.yaml --against cut-in-production.yaml --format markdown`,
 		Args: argsNamed("the decision file (or - for standard input)"),
 		RunE: func(cmd *cobra.Command, args []string) error {
-			switch format {
+			switch outFormat {
 			case "", "text", "markdown":
 			default:
-				return fmt.Errorf("--format %q: expected text or markdown", format)
+				return fmt.Errorf("--format %q: expected text or markdown", outFormat)
+			}
+			if signing.given() {
+				if outFormat != "" || against != "" {
+					return errors.New("--sign records a sign-off and prints nothing; run --format or --against apart")
+				}
+				return signing.sign(cmd.Context(), args[0], cmd.ErrOrStderr())
+			}
+			var old *decision.File
+			if against != "" {
+				var err error
+				if old, err = decision.ReadFile(against); err != nil {
+					return fmt.Errorf("--against: %w", err)
+				}
 			}
 			var file *decision.File
 			var stamp sharedfile.Stamp
 			var err error
 			if args[0] == "-" {
 				file, err = decision.Read(cmd.InOrStdin(), "-")
-				if format == "" {
-					format = "text" // the screen writes back to a file
+				if outFormat == "" {
+					outFormat = "text" // the screen writes back to a file
 				}
 			} else {
 				file, stamp, err = decision.ReadFileStamped(args[0])
@@ -54,31 +124,45 @@ also what it does when standard output is not a terminal.`,
 			if err != nil {
 				return err
 			}
-			if format == "" {
+			if outFormat == "" {
 				if isTerminal() && cmd.OutOrStdout() == os.Stdout {
-					return runReviewScreen(cmd.Context(), file, stamp, args[0])
+					return runReviewScreen(cmd.Context(), file, stamp, args[0], old, against)
 				}
-				format = "text"
+				outFormat = "text"
 			}
-			if format == "markdown" {
+			if old != nil {
+				change := review.Against(file, args[0], old, against)
+				if outFormat == "markdown" {
+					return review.WriteAgainstMarkdown(cmd.OutOrStdout(), change)
+				}
+				return review.WriteAgainstText(cmd.OutOrStdout(), change)
+			}
+			if outFormat == "markdown" {
 				return review.WriteMarkdown(cmd.OutOrStdout(), file, args[0])
 			}
 			return review.WriteText(cmd.OutOrStdout(), file, args[0])
 		},
 	}
-	cmd.Flags().StringVar(&format, "format", "", "print instead of opening the screen: text or markdown")
+	fs := cmd.Flags()
+	fs.StringVar(&outFormat, "format", "", "print instead of opening the screen: text or markdown")
+	fs.StringVar(&against, "against", "", "the decision file of the cut in production: show what changes with this one")
+	fs.StringVar(&signing.name, "sign", "", "record a sign-off by this name in the file (with --verdict)")
+	fs.StringVar(&signing.role, "role", "", "with --sign: the signer's role, such as \"operations lead\"")
+	fs.StringVar(&signing.verdict, "verdict", "", "with --sign: approve, revise or reject")
+	fs.StringVar(&signing.note, "note", "", "with --sign: a note to go with the verdict")
 	return cmd
 }
 
 // runReviewScreen opens the review screen on file, read from path as
 // stamp says, until the user quits.
-func runReviewScreen(ctx context.Context, file *decision.File, stamp sharedfile.Stamp, path string) error {
+func runReviewScreen(ctx context.Context, file *decision.File, stamp sharedfile.Stamp, path string, against *decision.File, againstPath string) error {
 	renderer := lipgloss.NewRenderer(os.Stdout)
 	if os.Getenv("NO_COLOR") != "" {
 		renderer.SetColorProfile(termenv.Ascii)
 	}
 	styles := tui.DefaultStyles(renderer)
-	screen := tui.NewReview(tui.ReviewConfig{File: file, Path: path, Stamp: stamp, Context: ctx, Styles: &styles})
+	screen := tui.NewReview(tui.ReviewConfig{File: file, Path: path, Stamp: stamp, Context: ctx, Styles: &styles,
+		Against: against, AgainstPath: againstPath})
 	final, err := tea.NewProgram(screen, tea.WithAltScreen()).Run()
 	screen.WaitForWrites() // a write still going when the screen closed ends before the process does
 	if err != nil {

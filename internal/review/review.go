@@ -60,14 +60,64 @@ func facts(f *decision.File) [][2]string {
 		assume = append(assume, fmt.Sprintf("costs: wrong alert %s, miss %s, hit %s", format.Money(c.FalseAlert), format.Money(c.Miss), format.Money(c.Hit)))
 	}
 	assume = append(assume, fmt.Sprintf("intervals at %g%%", 100*a.Confidence))
+	chosenBy := "not recorded"
+	if f.ChosenBy != "" {
+		chosenBy = format.Printable(f.ChosenBy)
+	}
 	return [][2]string{
+		{"model", ModelName(f.Model)},
 		{"data", data},
 		{"columns", columns},
 		{"assumptions", strings.Join(assume, " · ")},
-		{"chosen", fmt.Sprintf("%s: flag a case when its score %s %s", chosen.Name, sign, format.Score(chosen.Cut.Score))},
+		{"chosen", fmt.Sprintf("%s: flag a case when its score %s %s", format.Printable(chosen.Name), sign, format.Score(chosen.Cut.Score))},
+		{"chosen by", chosenBy},
 		{"written", f.Created.UTC().Format("2006-01-02 15:04 MST") + " by " + f.WrittenBy()},
 	}
 }
+
+// ModelName names the model as the file records it: "bearing-wear
+// version 14", either part alone, or "not recorded".
+func ModelName(m decision.Model) string {
+	switch {
+	case m.Name != "" && m.Version != "":
+		return format.Printable(m.Name) + " version " + format.Printable(m.Version)
+	case m.Name != "":
+		return format.Printable(m.Name) + " (version not recorded)"
+	case m.Version != "":
+		return "version " + format.Printable(m.Version) + " (name not recorded)"
+	}
+	return "not recorded"
+}
+
+// SignOffLines are the file's sign-offs, one line each in the order
+// given: when, verdict, who in what role, through which SSH key, the note,
+// and for a sign-off given before the chosen cut changed, which choice it
+// was given for. Names and notes are made printable.
+func SignOffLines(f *decision.File) []string {
+	var out []string
+	for _, s := range f.SignOffs {
+		line := fmt.Sprintf("%s  %-7s  %s", s.At.UTC().Format("2006-01-02 15:04 MST"), s.Verdict, format.Printable(s.Name))
+		if s.Role != "" {
+			line += ", " + format.Printable(s.Role)
+		}
+		if s.Key != "" {
+			line += " (key " + format.Printable(s.Key) + ")"
+		}
+		if s.Note != "" {
+			line += ": " + format.Printable(oneLine(s.Note))
+		}
+		if !f.ForCurrentChoice(s) {
+			line += fmt.Sprintf(" [given for the earlier choice %s at score %s]", format.Printable(s.Chosen), format.Score(s.ChosenScore))
+		}
+		out = append(out, line)
+	}
+	return out
+}
+
+// SignHint says how to sign a file that has no sign-off yet.
+const SignHint = "none yet (sill review FILE --sign NAME --role ROLE --verdict approve|revise|reject)"
+
+func oneLine(s string) string { return strings.Join(strings.Fields(s), " ") }
 
 func shortDigest(d string) string {
 	if len(d) > 12 {
@@ -79,7 +129,7 @@ func shortDigest(d string) string {
 // allNotes lists the file's note and the candidates' notes.
 func allNotes(f *decision.File) [][2]string {
 	var notes [][2]string
-	oneLine := func(s string) string { return strings.Join(strings.Fields(s), " ") } // a hand-edited note may hold line breaks
+	// oneLine: a hand-edited note may hold line breaks.
 	if f.Note != "" {
 		notes = append(notes, [2]string{"file", oneLine(f.Note)})
 	}
@@ -152,6 +202,14 @@ func WriteText(w io.Writer, f *decision.File, path string) error {
 			fmt.Fprintf(&b, "  %s: %s\n", n[0], n[1])
 		}
 	}
+	b.WriteString("\nsign-offs\n")
+	lines := SignOffLines(f)
+	if len(lines) == 0 {
+		lines = []string{SignHint}
+	}
+	for _, line := range lines {
+		b.WriteString("  " + line + "\n")
+	}
 	b.WriteString("\ncaution: " + evidence.Caution + "\n") // the standing caution, not a hand-edited one
 	_, err := io.WriteString(w, b.String())
 	return err
@@ -192,8 +250,14 @@ func WriteMarkdown(w io.Writer, f *decision.File, path string) error {
 			fmt.Fprintf(&b, "- **%s:** %s\n", format.Markdown(n[0]), format.Markdown(n[1]))
 		}
 	}
-	b.WriteString("\n## Sign-off\n\n")
-	b.WriteString("- Reviewed by: \n- Date: \n- Decision: \n")
+	b.WriteString("\n## Sign-offs\n\n")
+	for _, line := range SignOffLines(f) {
+		b.WriteString("- " + format.Markdown(line) + "\n")
+	}
+	if len(f.SignOffs) == 0 {
+		b.WriteString("None recorded yet.\n")
+	}
+	b.WriteString("\nOn paper:\n\n- Reviewed by: \n- Role: \n- Date: \n- Decision (approve, revise, reject): \n")
 	b.WriteString("\n> **Caution.** " + format.Markdown(evidence.Caution) + "\n")
 	_, err := io.WriteString(w, b.String())
 	return err
