@@ -168,15 +168,21 @@ func runReviewScreen(ctx context.Context, file *decision.File, stamp sharedfile.
 	if err != nil {
 		return fmt.Errorf("review: %w", err)
 	}
-	r := final.(tui.Review)
+	return reviewOutcome(final.(tui.Review), path, os.Stderr)
+}
+
+// reviewOutcome says on stderr what became of the file at path once the
+// review screen r has closed, and returns the failed write that makes the
+// exit status 2.
+func reviewOutcome(r tui.Review, path string, stderr io.Writer) error {
 	if err := r.WriteErr(); err != nil {
 		return fmt.Errorf("the changes on screen were not written: %w", err)
 	}
 	switch {
 	case r.Written() && !r.Changed():
-		fmt.Fprintf(os.Stderr, "sill: wrote %s; chosen %s\n", r.Path(), r.File().Chosen)
+		fmt.Fprintf(stderr, "sill: wrote %s; chosen %s\n", r.Path(), r.File().Chosen)
 	case r.Changed():
-		fmt.Fprintf(os.Stderr, "sill: %s left as it was; the changes on screen were not written\n", path)
+		fmt.Fprintf(stderr, "sill: %s left as it was; the changes on screen were not written\n", path)
 	}
 	return nil
 }

@@ -14,6 +14,7 @@ import (
 	"github.com/sill-tool/sill/internal/demo"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
+	"github.com/sill-tool/sill/internal/sharedfile"
 	"github.com/sill-tool/sill/tui"
 )
 
@@ -150,5 +151,52 @@ func TestExploreExitAfterFailedWrite(t *testing.T) {
 	stderr.Reset()
 	if err := exploreOutcome(exploreScreen(t, good, "w", "q"), good, &stderr); err != nil || stderr.String() != "sill: the decision is in "+good+"\n" {
 		t.Errorf("written: error %v, stderr %q", err, stderr.String())
+	}
+}
+
+// review exits with status 2 when the file changed on disk after the
+// screen read it and the changes were not written elsewhere.
+func TestReviewExitAfterRefusedWrite(t *testing.T) {
+	dir := t.TempDir()
+	scoresPath := writeFile(t, dir, "bearings.csv", demo.CSV(2000, 3))
+	cutPath := filepath.Join(dir, "cut.yaml")
+	if r := runSill(t, "", "report", scoresPath, "--cut", "hit=0.8", "--cut", "base", "--save", cutPath); r.code != 0 {
+		t.Fatalf("save: exit %d, %s", r.code, r.stderr)
+	}
+	screen := func() tea.Model {
+		file, stamp, err := decision.ReadFileStamped(cutPath)
+		if err != nil {
+			t.Fatal(err)
+		}
+		var m tea.Model = tui.NewReview(tui.ReviewConfig{File: file, Path: cutPath, Stamp: stamp})
+		m, _ = m.Update(tea.WindowSizeMsg{Width: 100, Height: 30})
+		return m
+	}
+	press := func(m tea.Model, keys ...string) tui.Review {
+		for _, k := range keys {
+			var cmd tea.Cmd
+			m, cmd = m.Update(tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune(k)})
+			if cmd != nil {
+				if msg := cmd(); msg != nil {
+					m, _ = m.Update(msg)
+				}
+			}
+		}
+		return m.(tui.Review)
+	}
+	opened := screen()
+	// Another session saves after this one opened the file.
+	if r := runSill(t, "", "report", scoresPath, "--cut", "base", "--save", cutPath); r.code != 0 {
+		t.Fatalf("second save: exit %d, %s", r.code, r.stderr)
+	}
+	var stderr bytes.Buffer
+	err := reviewOutcome(press(opened, "l", "c", "w"), cutPath, &stderr)
+	if !errors.Is(err, sharedfile.ErrChanged) || !strings.HasPrefix(err.Error(), "the changes on screen were not written: write "+cutPath+": changed since it was read") {
+		t.Fatalf("error %v, want the refused write", err)
+	}
+	// Written: status 0.
+	stderr.Reset()
+	if err := reviewOutcome(press(screen(), "w"), cutPath, &stderr); err != nil || stderr.String() != "sill: wrote "+cutPath+"; chosen base\n" {
+		t.Fatalf("good write: %v, stderr %q", err, stderr.String())
 	}
 }
