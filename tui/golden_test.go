@@ -2,12 +2,13 @@ package tui
 
 import (
 	"flag"
-	"os"
 	"path/filepath"
 	"strings"
 	"testing"
 
 	"github.com/charmbracelet/x/ansi"
+
+	"github.com/sill-tool/sill/internal/golden"
 )
 
 // The -update flag rewrites the golden files. The golden package that
@@ -22,34 +23,11 @@ func init() {
 // changes the working folder.
 var testdataDir, _ = filepath.Abs("testdata")
 
-// updating reports whether -update was given.
-func updating() bool {
-	f := flag.Lookup("update")
-	return f != nil && f.Value.String() == "true"
-}
-
 // checkGolden compares got with testdata/<Test>/<name>.golden, rewriting
 // the file under -update.
 func checkGolden(t *testing.T, name, got string) {
 	t.Helper()
-	top := strings.SplitN(t.Name(), "/", 2)[0]
-	path := filepath.Join(testdataDir, top, name+".golden")
-	if updating() {
-		if err := os.MkdirAll(filepath.Dir(path), 0o755); err != nil {
-			t.Fatal(err)
-		}
-		if err := os.WriteFile(path, []byte(got), 0o644); err != nil {
-			t.Fatal(err)
-		}
-		return
-	}
-	want, err := os.ReadFile(path)
-	if err != nil {
-		t.Fatalf("%v (run go test -update to create it)", err)
-	}
-	if string(want) != got {
-		t.Errorf("%s differs from the golden file; got:\n%s\nwant:\n%s", path, got, want)
-	}
+	golden.Check(t, testdataDir, name, got)
 }
 
 // checkFrame asserts that frame is exactly width×height cells with no

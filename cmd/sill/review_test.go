@@ -14,6 +14,7 @@ import (
 
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/demo"
+	"github.com/sill-tool/sill/internal/golden"
 )
 
 var update = flag.Bool("update", false, "rewrite the golden files under testdata")
@@ -22,24 +23,7 @@ var update = flag.Bool("update", false, "rewrite the golden files under testdata
 // the file under -update.
 func checkGolden(t *testing.T, name, got string) {
 	t.Helper()
-	top := strings.SplitN(t.Name(), "/", 2)[0]
-	path := filepath.Join("testdata", top, name+".golden")
-	if *update {
-		if err := os.MkdirAll(filepath.Dir(path), 0o755); err != nil {
-			t.Fatal(err)
-		}
-		if err := os.WriteFile(path, []byte(got), 0o644); err != nil {
-			t.Fatal(err)
-		}
-		return
-	}
-	want, err := os.ReadFile(path)
-	if err != nil {
-		t.Fatalf("%v (run go test -update to create it)", err)
-	}
-	if string(want) != got {
-		t.Errorf("%s differs from the golden file; got:\n%s\nwant:\n%s", path, got, want)
-	}
+	golden.Check(t, "testdata", name, got)
 }
 
 // savedDemo saves four cuts of the demo data with --save, then fixes the
