@@ -5,11 +5,14 @@
 package golden
 
 import (
+	"context"
 	"flag"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"github.com/sill-tool/sill/internal/sharedfile"
 )
 
 // Updating reports whether the test binary was given -update.
@@ -28,7 +31,7 @@ func Check(t testing.TB, dir, name, got string) {
 		if err := os.MkdirAll(filepath.Dir(path), 0o755); err != nil {
 			t.Fatal(err)
 		}
-		if err := os.WriteFile(path, []byte(got), 0o644); err != nil {
+		if _, err := sharedfile.Write(context.Background(), path, []byte(got), sharedfile.Options{}); err != nil {
 			t.Fatal(err)
 		}
 		return
