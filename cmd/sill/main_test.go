@@ -112,7 +112,7 @@ func TestRunBadInput(t *testing.T) {
 		{"capacity without volume", []string{"report", good, "--capacity", "90"},
 			"sill: --capacity needs --volume: the queue per shift is projected from the volume"},
 		{"bad format", []string{"report", good, "--format", "xml"},
-			`sill: --format "xml": expected text, json, markdown or csv`},
+			`sill: --format "xml": expected text, json, markdown, html or csv`},
 		{"bad input format", []string{"report", good, "--input", "xml"},
 			`sill: --input "xml": expected csv, jsonl or parquet`},
 		{"bad delimiter", []string{"report", good, "--delim", "ab"},

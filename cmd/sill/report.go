@@ -2,6 +2,7 @@ package main
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"io"
 	"os"
@@ -19,6 +20,7 @@ type reportOptions struct {
 	input     inputFlags
 	assume    assumptionFlags
 	format    string
+	out       string // the sign-off page's file, with --format html
 	withCurve bool
 	cuts      []string
 	beyond    beyondFlags // segments, shift peaks, stability, calibration, two models: beyond.go
@@ -53,6 +55,7 @@ in [0,1] get a reliability table and net benefit; --score a --score b (or
   sill report bearings.csv --volume 1500 --capacity 90
   sill report bearings.csv --cut hit=0.9 --cut top=2% --format json
   sill report bearings.csv --cut hit=0.8 --cut base --save cut.yaml --choose base
+  sill report bearings.csv --volume 1500 --capacity 90 --format html --out sign-off.html
   sill report bearings.csv --segment yard --time read_at --shifts 06:00,14:00,22:00 --tz Europe/Amsterdam --volume 1500 --capacity 90 --bootstrap 500`,
 		Args: argsNamed("FILE (the validation set, or - for standard input)"),
 		RunE: func(cmd *cobra.Command, args []string) error {
@@ -69,7 +72,8 @@ in [0,1] get a reliability table and net benefit; --score a --score b (or
 	fs := cmd.Flags()
 	o.input.register(fs)
 	o.assume.register(fs)
-	fs.StringVar(&o.format, "format", "text", "output: text, json, markdown, or csv (the curve alone)")
+	fs.StringVar(&o.format, "format", "text", "output: text, json, markdown, html (the sign-off page) or csv (the curve alone)")
+	fs.StringVar(&o.out, "out", "", "with --format html: the file to write the page to (default: standard output)")
 	fs.BoolVar(&o.withCurve, "curve", false, "add the full per-cut table")
 	fs.StringArrayVar(&o.cuts, "cut", nil, "cut spec to report (repeatable), such as hit=0.8 or hit=80%")
 	o.beyond.register(fs)
@@ -81,9 +85,16 @@ in [0,1] get a reliability table and net benefit; --score a --score b (or
 // stdout when an error is returned before output starts.
 func (o *reportOptions) run(ctx context.Context, set *scores.Set, stdout, stderr io.Writer) error {
 	switch o.format {
-	case "text", "json", "markdown", "csv":
+	case "text", "json", "markdown", "csv", "html":
 	default:
-		return fmt.Errorf("--format %q: expected text, json, markdown or csv", o.format)
+		return fmt.Errorf("--format %q: expected text, json, markdown, html or csv", o.format)
+	}
+	if o.out != "" && o.format != "html" {
+		return errors.New("--out goes with --format html")
+	}
+	o.save.page = o.format == "html"
+	if err := o.save.check(); err != nil {
+		return err
 	}
 	if o.save.path != "" {
 		if err := bothClasses(set, "--save"); err != nil {
@@ -128,6 +139,9 @@ func (o *reportOptions) run(ctx context.Context, set *scores.Set, stdout, stderr
 	// Saved once every figure is computed, so that an error leaves no file.
 	if err := o.save.write(ctx, res, stderr); err != nil {
 		return err
+	}
+	if o.format == "html" {
+		return o.page(ctx, res, stdout, stderr)
 	}
 	// Warnings go to stderr whatever the format; JSON also carries them.
 	for _, w := range r.Warnings {

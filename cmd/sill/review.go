@@ -60,7 +60,7 @@ func (s *signFlags) sign(ctx context.Context, path string, stderr io.Writer) err
 }
 
 func newReviewCmd() *cobra.Command {
-	var outFormat, against string
+	var outFormat, against, out string
 	var signing signFlags
 	cmd := &cobra.Command{
 		Use:   "review FILE.yaml",
@@ -85,17 +85,30 @@ choice.
 
 --against OLD.yaml shows what changes when this file's chosen cut replaces
 the one in production (OLD.yaml): model, data, the assumptions that
-changed, both chosen cuts' figures and the change per shift in plain words.`,
+changed, both chosen cuts' figures and the change per shift in plain words.
+
+--format html writes the sign-off page: one self-contained HTML file (no
+script, nothing fetched from elsewhere) with the trade-off drawn, the
+candidates side by side, the workload per shift, stability, segments,
+calibration, the assumptions, a glossary, the caution, the sign-offs and
+lines to sign; it prints on A4 and Letter. With --against it sets both
+chosen cuts side by side with both curves on one chart. --out FILE writes
+it to FILE (replacing only a page sill wrote).`,
 		Example: `  sill review cut.yaml
   sill review cut.yaml --format markdown > sign-off.md
   sill review cut.yaml --sign "Ada Quist" --role "operations lead" --verdict approve --note "fits the night crew"
-  sill review new.yaml --against cut-in-production.yaml --format markdown`,
+  sill review new.yaml --against cut-in-production.yaml --format markdown
+  sill review cut.yaml --format html --out sign-off.html
+  sill review new.yaml --against cut-in-production.yaml --format html --out change.html`,
 		Args: argsNamed("the decision file (or - for standard input)"),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			switch outFormat {
-			case "", "text", "markdown":
+			case "", "text", "markdown", "html":
 			default:
-				return fmt.Errorf("--format %q: expected text or markdown", outFormat)
+				return fmt.Errorf("--format %q: expected text, markdown or html", outFormat)
+			}
+			if out != "" && outFormat != "html" {
+				return errors.New("--out goes with --format html")
 			}
 			if signing.given() {
 				if outFormat != "" || against != "" {
@@ -130,6 +143,9 @@ changed, both chosen cuts' figures and the change per shift in plain words.`,
 				}
 				outFormat = "text"
 			}
+			if outFormat == "html" {
+				return reviewPage(cmd, file, args[0], old, against, out)
+			}
 			if old != nil {
 				change := review.Against(file, args[0], old, against)
 				if outFormat == "markdown" {
@@ -144,7 +160,8 @@ changed, both chosen cuts' figures and the change per shift in plain words.`,
 		},
 	}
 	fs := cmd.Flags()
-	fs.StringVar(&outFormat, "format", "", "print instead of opening the screen: text or markdown")
+	fs.StringVar(&outFormat, "format", "", "print instead of opening the screen: text, markdown or html (the sign-off page)")
+	fs.StringVar(&out, "out", "", "with --format html: the file to write the page to (default: standard output)")
 	fs.StringVar(&against, "against", "", "the decision file of the cut in production: show what changes with this one")
 	fs.StringVar(&signing.name, "sign", "", "record a sign-off by this name in the file (with --verdict)")
 	fs.StringVar(&signing.role, "role", "", "with --sign: the signer's role, such as \"operations lead\"")

@@ -113,7 +113,7 @@ func TestSaveErrors(t *testing.T) {
 		{"other data", []string{"report", otherPath, "--cut", "hit=0.8", "--save", cutPath}, "made from different data"},
 		{"over a scores file", []string{"report", otherPath, "--cut", "hit=0.8", "--save", scoresPath}, "not a readable decision file"},
 		{"unmet cut", []string{"report", otherPath, "--cut", "score=5", "--save", filepath.Join(dir, "x.yaml")}, "cut score=5 is not met"},
-		{"unknown choice", []string{"report", otherPath, "--cut", "hit=0.8", "--choose", "base", "--save", filepath.Join(dir, "x.yaml")}, `--choose "base": expected one of the saved cuts hit=0.8`},
+		{"unknown choice", []string{"report", otherPath, "--cut", "hit=0.8", "--choose", "base", "--save", filepath.Join(dir, "x.yaml")}, `--choose "base": expected one of the cuts hit=0.8`},
 		{"repeated cut", []string{"report", otherPath, "--cut", "base", "--cut", "base", "--save", filepath.Join(dir, "x.yaml")}, "cut base is given twice"},
 		{"choose without save", []string{"report", otherPath, "--cut", "base", "--choose", "base"}, "go with --save"},
 		{"save with csv", []string{"report", otherPath, "--cut", "base", "--save", filepath.Join(dir, "x.yaml"), "--format", "csv"}, "does not go with --format csv"},

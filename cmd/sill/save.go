@@ -23,19 +23,24 @@ type saveFlags struct {
 	choose string
 	force  bool
 	record recordFlags
+	page   bool // the sign-off page is asked for, which takes --choose and the record flags too
 }
 
 func (s *saveFlags) register(fs *pflag.FlagSet) {
 	fs.StringVar(&s.path, "save", "", "save the cuts with their evidence to this decision file (YAML, see sill review)")
-	fs.StringVar(&s.choose, "choose", "", "with --save: the cut to mark as chosen, by its spec (default: the first --cut)")
+	fs.StringVar(&s.choose, "choose", "", "with --save or --format html: the cut to mark as chosen, by its spec (default: the first --cut)")
 	fs.BoolVar(&s.force, "force", false, "with --save: replace a file made from other data, or one that is not a decision file")
 	s.record.register(fs, "with --save: ")
 }
 
-// check rejects --choose, --force and the record flags without --save.
+// check rejects --choose, --force and the record flags without --save;
+// --choose and the record flags also go with the sign-off page.
 func (s *saveFlags) check() error {
-	if s.path == "" && (s.choose != "" || s.force || s.record.given()) {
-		return errors.New("--choose, --force, --model-name, --model-version and --chosen-by go with --save FILE.yaml")
+	if s.path == "" && s.force {
+		return errors.New("--force goes with --save FILE.yaml")
+	}
+	if s.path == "" && !s.page && (s.choose != "" || s.record.given()) {
+		return errors.New("--choose, --model-name, --model-version and --chosen-by go with --save FILE.yaml or --format html")
 	}
 	return s.record.check()
 }
@@ -75,7 +80,7 @@ func (r *recordFlags) model() decision.Model {
 // write saves the outcomes as candidates, named by their specs, when
 // --save is given; every outcome must be met.
 func (s *saveFlags) write(ctx context.Context, res *analysis.Result, stderr io.Writer) error {
-	set, outcomes := res.Set, res.Outcomes
+	set := res.Set
 	if err := s.check(); err != nil || s.path == "" {
 		return err
 	}
@@ -85,16 +90,49 @@ func (s *saveFlags) write(ctx context.Context, res *analysis.Result, stderr io.W
 	if info, err := os.Stat(filepath.Dir(s.path)); err != nil || !info.IsDir() {
 		return fmt.Errorf("--save %s: the folder %s does not exist", s.path, filepath.Dir(s.path))
 	}
+	f, err := s.decision(res, "--save")
+	if err != nil {
+		return err
+	}
+	_, err = decision.Write(ctx, s.path, f, decision.WriteOptions{Force: s.force})
+	if errors.Is(err, sharedfile.ErrOtherKind) {
+		return fmt.Errorf("%w; add --force to replace it, or save to another file", err)
+	}
+	if err != nil {
+		return err
+	}
+	c, _ := f.ChosenCandidate()
+	sign := ">="
+	if set.LowerIsRiskier {
+		sign = "<="
+	}
+	fmt.Fprintf(stderr, "sill: saved %d %s to %s; chosen %s: flag when score %s %s\n",
+		len(f.Candidates), pluralWord(len(f.Candidates), "cut", "cuts"), s.path, c.Name, sign, format.Score(c.Cut.Score))
+	return nil
+}
+
+func pluralWord(n int, one, many string) string {
+	if n == 1 {
+		return one
+	}
+	return many
+}
+
+// decision builds the decision file of the result's outcomes: each a
+// candidate named by its spec, every outcome met, the chosen one --choose
+// (default: the first). The sign-off page is made from the same file;
+// flag names what asked for it in errors.
+func (s *saveFlags) decision(res *analysis.Result, flag string) (*decision.File, error) {
 	var picks []decision.Pick
 	var names []string
-	for _, o := range outcomes {
+	for _, o := range res.Outcomes {
 		name := o.Rule.String()
 		if !o.Met {
-			return fmt.Errorf("--save: cut %s is not met (%s); change or drop it to save", name, o.Reason)
+			return nil, fmt.Errorf("%s: cut %s is not met (%s); change or drop it", flag, name, o.Reason)
 		}
 		for _, n := range names {
 			if n == name {
-				return fmt.Errorf("--save: cut %s is given twice; each saved cut needs its own spec", name)
+				return nil, fmt.Errorf("%s: cut %s is given twice; each cut needs its own spec", flag, name)
 			}
 		}
 		names = append(names, name)
@@ -110,33 +148,12 @@ func (s *saveFlags) write(ctx context.Context, res *analysis.Result, stderr io.W
 			found = found || n == chosen
 		}
 		if !found {
-			return fmt.Errorf("--choose %q: expected one of the saved cuts %s", s.choose, strings.Join(names, ", "))
+			return nil, fmt.Errorf("--choose %q: expected one of the cuts %s", s.choose, strings.Join(names, ", "))
 		}
 	}
 	f, err := decision.New(res, picks, chosen, decision.Record{ToolVersion: toolVersion(), Model: s.record.model(), ChosenBy: strings.TrimSpace(s.record.chosenBy)})
 	if err != nil {
-		return fmt.Errorf("--save: %w", err)
+		return nil, fmt.Errorf("%s: %w", flag, err)
 	}
-	_, err = decision.Write(ctx, s.path, f, decision.WriteOptions{Force: s.force})
-	if errors.Is(err, sharedfile.ErrOtherKind) {
-		return fmt.Errorf("%w; add --force to replace it, or save to another file", err)
-	}
-	if err != nil {
-		return err
-	}
-	c, _ := f.ChosenCandidate()
-	sign := ">="
-	if set.LowerIsRiskier {
-		sign = "<="
-	}
-	fmt.Fprintf(stderr, "sill: saved %d %s to %s; chosen %s: flag when score %s %s\n",
-		len(picks), pluralWord(len(picks), "cut", "cuts"), s.path, c.Name, sign, format.Score(c.Cut.Score))
-	return nil
-}
-
-func pluralWord(n int, one, many string) string {
-	if n == 1 {
-		return one
-	}
-	return many
+	return f, nil
 }
