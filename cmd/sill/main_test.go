@@ -3,13 +3,17 @@ package main
 import (
 	"bytes"
 	"compress/gzip"
+	"encoding/csv"
 	"encoding/json"
+	"fmt"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 
 	"github.com/sill-tool/sill/internal/demo"
+	"github.com/sill-tool/sill/internal/report"
 )
 
 // sillResult is what one run of the command line left behind.
@@ -226,10 +230,15 @@ func TestRunGoodInput(t *testing.T) {
 						}
 					}
 				case "csv":
-					// The curve alone: a header and one line per distinct
-					// score (7 in goodTable).
-					if lines := strings.Count(got.stdout, "\n"); lines != 8 {
-						t.Errorf("%s: CSV curve has %d lines, want 8", name, lines)
+					// With --curve the curve alone: a header and one line
+					// per distinct score (7 in goodTable); without, a
+					// header and one line per cut (the 3 starting points).
+					want := 4
+					if withCurve {
+						want = 8
+					}
+					if lines := strings.Count(got.stdout, "\n"); lines != want {
+						t.Errorf("%s --curve %v: CSV has %d lines, want %d", name, withCurve, lines, want)
 					}
 				case "text":
 					if !strings.Contains(got.stdout, "caution:") || !strings.Contains(got.stdout, "hit share (recall)") {
@@ -435,5 +444,135 @@ func TestRunNoArguments(t *testing.T) {
 	// As on the screen, the demo's readings fall in its three crew shifts.
 	if !strings.Contains(got.stdout, "queue per real shift") || !strings.Contains(got.stdout, "queue90=90") {
 		t.Errorf("the report of the built-in data lacks the real shifts:\n%s", got.stdout)
+	}
+}
+
+// TestReportCSVCuts: --format csv prints one row per cut under a header
+// row, every figure in plain machine form and equal to the JSON report's;
+// the columns are those README documents; an unmet cut keeps its spec and
+// reason with empty figures. With --curve it prints the curve table
+// alone, and refuses --cut, which would be left out.
+func TestReportCSVCuts(t *testing.T) {
+	file := writeFile(t, t.TempDir(), "good.csv", []byte(goodTable))
+	args := []string{"report", file, "--volume", "1000", "--capacity", "50", "--cost-false-alert", "10", "--cost-miss", "100",
+		"--cut", "hit=0.8", "--cut", "top=2", "--cut", "score=5"}
+	got := runSill(t, "", append(args, "--format", "csv")...)
+	if got.code != 0 || got.stderr != "" {
+		t.Fatalf("exit %d, stderr %q", got.code, got.stderr)
+	}
+	rows, err := csv.NewReader(strings.NewReader(got.stdout)).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	readme, err := os.ReadFile(filepath.Join("..", "..", "README.md"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(rows) != 4 || strings.Join(rows[0], ",") != strings.Join(report.CutsCSVHeader, ",") {
+		t.Fatalf("%d rows, header %v", len(rows), rows[0])
+	}
+	explained := map[string]bool{}
+	for _, line := range strings.Split(string(readme), "\n") {
+		if first, _, ok := strings.Cut(strings.TrimPrefix(line, "| "), " |"); ok && strings.HasPrefix(line, "| `") {
+			for _, name := range strings.Split(first, ", ") {
+				explained[strings.Trim(name, "`")] = true
+			}
+		}
+	}
+	for _, column := range rows[0] {
+		if !explained[column] {
+			t.Errorf("README does not explain the CSV column %s", column)
+		}
+	}
+	jsonOut := runSill(t, "", append(args, "--format", "json")...)
+	var fromJSON struct {
+		Cuts []map[string]any `json:"cuts"`
+	}
+	if err := json.Unmarshal([]byte(jsonOut.stdout), &fromJSON); err != nil {
+		t.Fatal(err)
+	}
+	cell := func(row []string, column string) string {
+		for i, c := range rows[0] {
+			if c == column {
+				return row[i]
+			}
+		}
+		t.Fatalf("no column %s", column)
+		return ""
+	}
+	for i, row := range rows[1:] {
+		want := fromJSON.Cuts[i]
+		if cell(row, "spec") != want["spec"] || cell(row, "met") != fmt.Sprint(want["met"]) {
+			t.Errorf("row %d: spec %s met %s, want %v %v", i, cell(row, "spec"), cell(row, "met"), want["spec"], want["met"])
+		}
+		for column, key := range map[string]string{"score": "score", "flagged": "flagged", "tp": "tp", "fp": "fp", "fn": "fn", "tn": "tn",
+			"recall": "recall", "precision": "precision", "false_discovery_rate": "false_discovery_rate", "false_positive_rate": "false_positive_rate"} {
+			text := cell(row, column)
+			if want["met"] == false {
+				if text != "" {
+					t.Errorf("unmet %s: %s %q, want empty", want["spec"], column, text)
+				}
+				continue
+			}
+			v, err := strconv.ParseFloat(text, 64)
+			if err != nil || v != want[key].(float64) {
+				t.Errorf("%s: %s %q, want %v as in JSON", want["spec"], column, text, want[key])
+			}
+		}
+		if want["met"] == false {
+			if cell(row, "reason") != want["reason"] {
+				t.Errorf("unmet %s: reason %q, want %q", want["spec"], cell(row, "reason"), want["reason"])
+			}
+			continue
+		}
+		ci := want["recall_ci"].([]any)
+		if cell(row, "recall_low") != strconv.FormatFloat(ci[0].(float64), 'g', -1, 64) || cell(row, "recall_high") != strconv.FormatFloat(ci[1].(float64), 'g', -1, 64) {
+			t.Errorf("%s: recall interval %s–%s, want %v", want["spec"], cell(row, "recall_low"), cell(row, "recall_high"), ci)
+		}
+		projected := want["projected"].(map[string]any)
+		if q, _ := strconv.ParseFloat(cell(row, "queue_per_shift"), 64); q != projected["queue_per_shift"].(float64) {
+			t.Errorf("%s: queue %s, want %v", want["spec"], cell(row, "queue_per_shift"), projected["queue_per_shift"])
+		}
+		if cell(row, "confidence") != "0.95" {
+			t.Errorf("%s: confidence %s", want["spec"], cell(row, "confidence"))
+		}
+	}
+	// top=2 flags the two riskiest rows of goodTable, 0.91 (true) and the
+	// tie at 0.85 would make three, so the cut is 0.91: tp 1, fp 0 (by hand).
+	if top := rows[2]; cell(top, "tp") != "1" || cell(top, "fp") != "0" || cell(top, "flagged_share") != "0.125" {
+		t.Errorf("top=2: tp %s fp %s flagged share %s, want 1, 0, 0.125", cell(top, "tp"), cell(top, "fp"), cell(top, "flagged_share"))
+	}
+
+	curve := runSill(t, "", "report", file, "--format", "csv", "--curve")
+	if curve.code != 0 || !strings.HasPrefix(curve.stdout, "score,flagged,tp,fp,fn,tn,recall,precision,false_positive_rate\n") {
+		t.Errorf("--curve: exit %d, stdout %q", curve.code, curve.stdout)
+	}
+	refused := runSill(t, "", "report", file, "--format", "csv", "--curve", "--cut", "base")
+	if refused.code != 2 || refused.stdout != "" || !strings.Contains(refused.stderr, "--cut and --save go with --format csv without --curve") {
+		t.Errorf("--curve --cut: exit %d, stderr %q", refused.code, refused.stderr)
+	}
+}
+
+// TestReportMarkdownCurve: --curve in Markdown is a table under its own
+// heading, one row per cut, before the caution (it was a block of CSV
+// lines after it).
+func TestReportMarkdownCurve(t *testing.T) {
+	file := writeFile(t, t.TempDir(), "good.csv", []byte(goodTable))
+	got := runSill(t, "", "report", file, "--format", "markdown", "--curve")
+	if got.code != 0 {
+		t.Fatalf("exit %d, stderr %q", got.code, got.stderr)
+	}
+	heading := strings.Index(got.stdout, "\n### Every cut\n\n| cut (flag score >=) |")
+	caution := strings.Index(got.stdout, "> **Caution.**")
+	if heading < 0 || caution < heading {
+		t.Fatalf("no curve heading before the caution:\n%s", got.stdout)
+	}
+	table := strings.Split(strings.TrimSpace(got.stdout[heading:caution]), "\n")[2:]
+	// A header, the alignment row and one row per distinct score (7).
+	if len(table) != 9 || !strings.HasPrefix(table[2], "| 0.91 | 1 | 1 | 0 | 2 | 5 | 33.3% | 0.0% | 0.0% |") {
+		t.Errorf("curve table:\n%s", strings.Join(table, "\n"))
+	}
+	if strings.Contains(got.stdout, "score,flagged,tp") {
+		t.Errorf("the CSV block is still there:\n%s", got.stdout)
 	}
 }

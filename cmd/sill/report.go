@@ -50,7 +50,12 @@ with --shifts (and --tz) counts the queue of every real shift; --bootstrap B
 (--seed S) shows how far each cut moves when the set is drawn again; scores
 in [0,1] get a reliability table and net benefit; --score a --score b (or
 --compare FILE joined on --id) compares two models on the same cases
-(DeLong's paired AUC test).`,
+(DeLong's paired AUC test).
+
+Outputs: --format csv prints one row per cut with its counts, rates,
+intervals and projected figures in plain machine form (README lists the
+columns); --format csv --curve prints the table of every cut instead.
+--curve adds that table to the text, JSON and Markdown forms.`,
 		Example: `  sill demo --out bearings.csv
   sill report bearings.csv --volume 1500 --capacity 90
   sill report bearings.csv --cut hit=0.9 --cut top=2% --format json
@@ -72,9 +77,9 @@ in [0,1] get a reliability table and net benefit; --score a --score b (or
 	fs := cmd.Flags()
 	o.input.register(fs)
 	o.assume.register(fs)
-	fs.StringVar(&o.format, "format", "text", "output: text, json, markdown, html (the sign-off page) or csv (the curve alone)")
+	fs.StringVar(&o.format, "format", "text", "output: text, json, markdown, html (the sign-off page) or csv (one row per cut asked for; with --curve, every cut instead)")
 	fs.StringVar(&o.out, "out", "", "with --format html: the file to write the page to (default: standard output)")
-	fs.BoolVar(&o.withCurve, "curve", false, "add the full per-cut table")
+	fs.BoolVar(&o.withCurve, "curve", false, "add a table of every cut (text, JSON, Markdown); with --format csv, print that table alone")
 	fs.StringArrayVar(&o.cuts, "cut", nil, "cut spec to report (repeatable), such as hit=0.8 or hit=80%")
 	o.beyond.register(fs)
 	o.save.register(fs)
@@ -121,7 +126,8 @@ func (o *reportOptions) run(ctx context.Context, set *scores.Set, stdout, stderr
 		return err
 	}
 	opts.Resampling.BandCuts = report.BandCuts
-	if o.format == "csv" {
+	curveCSV := o.format == "csv" && o.withCurve
+	if curveCSV {
 		opts.Resampling = analysis.Resampling{} // the curve alone
 	}
 	res, err := analysis.Run(ctx, joined, a, opts)
@@ -129,9 +135,11 @@ func (o *reportOptions) run(ctx context.Context, set *scores.Set, stdout, stderr
 		return o.beyond.analysisError(err)
 	}
 	points := report.Points(res.Points)
-	if o.format == "csv" {
-		if o.save.path != "" {
-			return fmt.Errorf("--save needs the figures of the cuts; it does not go with --format csv")
+	if curveCSV {
+		// One table a pipeline can read whole: every cut, not the cuts
+		// asked for, which --format csv without --curve gives.
+		if o.save.path != "" || len(o.cuts) > 0 {
+			return fmt.Errorf("--format csv --curve prints every cut alone; --cut and --save go with --format csv without --curve")
 		}
 		return report.WriteCurveCSV(stdout, points)
 	}
@@ -154,7 +162,9 @@ func (o *reportOptions) run(ctx context.Context, set *scores.Set, stdout, stderr
 	case "json":
 		return report.WriteJSON(stdout, r, points)
 	case "markdown":
-		err = report.WriteMarkdown(stdout, r)
+		return report.WriteMarkdown(stdout, r, points)
+	case "csv":
+		return report.WriteCutsCSV(stdout, r)
 	default:
 		err = report.WriteText(stdout, r)
 	}

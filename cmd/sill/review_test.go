@@ -116,7 +116,7 @@ func TestSaveErrors(t *testing.T) {
 		{"unknown choice", []string{"report", otherPath, "--cut", "hit=0.8", "--choose", "base", "--save", filepath.Join(dir, "x.yaml")}, `--choose "base": expected one of the cuts hit=0.8`},
 		{"repeated cut", []string{"report", otherPath, "--cut", "base", "--cut", "base", "--save", filepath.Join(dir, "x.yaml")}, "cut base is given twice"},
 		{"choose without save", []string{"report", otherPath, "--cut", "base", "--choose", "base"}, "go with --save"},
-		{"save with csv", []string{"report", otherPath, "--cut", "base", "--save", filepath.Join(dir, "x.yaml"), "--format", "csv"}, "does not go with --format csv"},
+		{"save with the curve's csv", []string{"report", otherPath, "--cut", "base", "--save", filepath.Join(dir, "x.yaml"), "--format", "csv", "--curve"}, "--cut and --save go with --format csv without --curve"},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			r := runSill(t, "", tc.args...)

@@ -17,7 +17,8 @@ import (
 //
 // Intervals are Wilson intervals at the assumptions' confidence level. The
 // effective counts are the weighted counts read as frequency weights:
-// recall's interval is TP out of TP+FN, precision's is TP out of TP+FP.
+// recall's interval is TP out of TP+FN, precision's is TP out of TP+FP,
+// the false positive rate's is FP out of FP+TN.
 // The false discovery rate's interval is the complement of precision's.
 type Cut struct {
 	Score        float64
@@ -34,6 +35,7 @@ type Cut struct {
 	FalseDiscoveryRate float64
 	FalseDiscoveryCI   [2]float64
 	FalsePositiveRate  float64
+	FalsePositiveCI    [2]float64 // Wilson, of the false cases flagged among all false cases
 
 	Projected projection.Figures
 }
@@ -59,6 +61,7 @@ func Of(p curve.Point, a projection.Assumptions) Cut {
 	c.RecallCI[0], c.RecallCI[1] = interval.Wilson(p.TP, p.TP+p.FN, a.Confidence)
 	c.PrecisionCI[0], c.PrecisionCI[1] = interval.Wilson(p.TP, p.TP+p.FP, a.Confidence)
 	c.FalseDiscoveryCI = [2]float64{1 - c.PrecisionCI[1], 1 - c.PrecisionCI[0]}
+	c.FalsePositiveCI[0], c.FalsePositiveCI[1] = interval.Wilson(p.FP, p.FP+p.TN, a.Confidence)
 	return c
 }
 

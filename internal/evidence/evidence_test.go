@@ -29,7 +29,9 @@ func near(got, want float64) bool {
 // from Wilson's formula with python3 as the calculator:
 // recall 3 of 5 gives [0.2724831718661929, 0.857293527980787], precision
 // 3 of 4 gives [0.3561680085985065, 0.9420926788001412]; the FDR interval
-// is the complement of precision's, [1-0.94209..., 1-0.35616...].
+// is the complement of precision's, [1-0.94209..., 1-0.35616...]; the
+// false positive rate 1 of 5 gives [0.04596245388060399,
+// 0.5647074465784567].
 // Projection at base rate 0.2, 1000 cases per shift: alert rate
 // 0.6*0.2 + 0.2*0.8 = 0.28, precision 0.12/0.28 = 3/7, queue 280.
 func TestOf(t *testing.T) {
@@ -55,6 +57,8 @@ func TestOf(t *testing.T) {
 		{"false discovery lower", c.FalseDiscoveryCI[0], 1 - 0.9420926788001412},
 		{"false discovery upper", c.FalseDiscoveryCI[1], 1 - 0.3561680085985065},
 		{"false positive rate", c.FalsePositiveRate, 0.2},
+		{"false positive lower", c.FalsePositiveCI[0], 0.04596245388060399},
+		{"false positive upper", c.FalsePositiveCI[1], 0.5647074465784567},
 		{"projected alert rate", c.Projected.AlertRate, 0.28},
 		{"projected precision", c.Projected.Precision, 3.0 / 7},
 		{"projected queue", c.Projected.QueuePerShift, 280},

@@ -218,7 +218,7 @@ func TestWriteMarkdownGolden(t *testing.T) {
 		t.Run(s.name, func(t *testing.T) {
 			r, _ := s.build(t)
 			var buf bytes.Buffer
-			if err := report.WriteMarkdown(&buf, r); err != nil {
+			if err := report.WriteMarkdown(&buf, r, nil); err != nil {
 				t.Fatal(err)
 			}
 			checkReadable(t, buf.String())

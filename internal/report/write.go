@@ -3,6 +3,7 @@ package report
 import (
 	"bufio"
 	"bytes"
+	"encoding/csv"
 	"encoding/json"
 	"fmt"
 	"io"
@@ -72,6 +73,60 @@ func WriteCurveCSV(w io.Writer, points Points) error {
 		bw.Write(row)
 	})
 	return bw.Flush()
+}
+
+// CutsCSVHeader names the columns of WriteCutsCSV, in order. README
+// explains each.
+var CutsCSVHeader = []string{
+	"spec", "met", "reason", "score", "flagged", "flagged_share", "tp", "fp", "fn", "tn",
+	"recall", "recall_low", "recall_high",
+	"precision", "precision_low", "precision_high",
+	"false_discovery_rate", "false_discovery_rate_low", "false_discovery_rate_high",
+	"false_positive_rate", "false_positive_rate_low", "false_positive_rate_high",
+	"confidence",
+	"projected_alert_rate", "projected_precision", "projected_false_discovery_rate",
+	"queue_per_shift", "cost_per_shift", "cost_per_case",
+}
+
+// WriteCutsCSV writes the figures of r's cuts as CSV: a header row
+// (CutsCSVHeader), then one row per cut in the report's order. Numbers are
+// in their shortest exact form ('g' of strconv, shares as fractions, no
+// thousands separators); an undefined figure, a projection without the
+// assumption it needs and every figure of an unmet cut are empty cells.
+// Intervals are Wilson intervals at the confidence of the row.
+func WriteCutsCSV(w io.Writer, r *Report) error {
+	cw := csv.NewWriter(w)
+	cw.Write(CutsCSVHeader)
+	conf := float64(r.Assumptions.Confidence)
+	num := func(v float64) string {
+		if !evidence.Defined(v) {
+			return ""
+		}
+		return strconv.FormatFloat(v, 'g', -1, 64)
+	}
+	for i, c := range r.Cuts {
+		if !c.Met {
+			row := make([]string, len(CutsCSVHeader))
+			row[0], row[1], row[2] = c.Spec, "false", *c.Reason
+			cw.Write(row)
+			continue
+		}
+		e := r.cutsEvidence[i]
+		row := []string{c.Spec, "true", ""}
+		for _, v := range []float64{e.Score, e.Flagged, e.FlaggedShare, e.TP, e.FP, e.FN, e.TN,
+			e.Recall, e.RecallCI[0], e.RecallCI[1],
+			e.Precision, e.PrecisionCI[0], e.PrecisionCI[1],
+			e.FalseDiscoveryRate, e.FalseDiscoveryCI[0], e.FalseDiscoveryCI[1],
+			e.FalsePositiveRate, e.FalsePositiveCI[0], e.FalsePositiveCI[1],
+			conf,
+			e.Projected.AlertRate, e.Projected.Precision, e.Projected.FalseDiscoveryRate(),
+			e.Projected.QueuePerShift, e.Projected.CostPerShift, e.Projected.CostPerCase} {
+			row = append(row, num(v))
+		}
+		cw.Write(row)
+	}
+	cw.Flush()
+	return cw.Error()
 }
 
 func formatJSONFloat(v float64) []byte {
@@ -178,8 +233,10 @@ func WriteText(w io.Writer, r *Report) error {
 	return err
 }
 
-// WriteMarkdown writes r for pasting into a review document.
-func WriteMarkdown(w io.Writer, r *Report) error {
+// WriteMarkdown writes r for pasting into a review document. When points
+// is not nil, a table of every cut follows under its own heading, before
+// the caution.
+func WriteMarkdown(w io.Writer, r *Report, points Points) error {
 	var b strings.Builder
 	fmt.Fprintf(&b, "## Operating cuts: %s\n\n", format.Markdown(r.Source))
 	fmt.Fprintf(&b, "- %s, %s (base rate %s)%s\n", plural(r.Rows, "row", "rows"), amount(r.Positives, "true case", "true cases"), format.Share(float64(r.BaseRate)), map[bool]string{true: ", weighted", false: ""}[r.Weighted])
@@ -207,9 +264,26 @@ func WriteMarkdown(w io.Writer, r *Report) error {
 	for _, warning := range r.Warnings {
 		fmt.Fprintf(&b, "\n- **Warning:** %s", format.Markdown(warning))
 	}
-	text := singleBlankLines(strings.TrimRight(b.String(), "\n")) + "\n\n> **Caution.** " + r.Caution + "\n"
-	_, err := io.WriteString(w, text)
-	return err
+	bw := bufio.NewWriterSize(w, 1<<16)
+	bw.WriteString(singleBlankLines(strings.TrimRight(b.String(), "\n")) + "\n")
+	if points != nil {
+		writeCurveMarkdown(bw, points, r.comparison())
+	}
+	bw.WriteString("\n> **Caution.** " + r.Caution + "\n")
+	return bw.Flush()
+}
+
+// writeCurveMarkdown writes every cut of points, strictest first, as a
+// Markdown table under its own heading, in the figures' screen forms.
+func writeCurveMarkdown(bw *bufio.Writer, points Points, comparison string) {
+	bw.WriteString("\n### Every cut\n\n")
+	bw.WriteString("| cut (flag score " + comparison + ") | cases flagged | true cases found (tp) | wrong alerts (fp) | misses (fn) | false cases left (tn) | hit share (recall) | wrong-alert share (FDR) | false positive rate |\n")
+	bw.WriteString("|" + strings.Repeat(" ---: |", 9) + "\n")
+	points(func(p curve.Point) {
+		cells := []string{format.Score(p.Score), format.Count(p.Flagged()), format.Count(p.TP), format.Count(p.FP), format.Count(p.FN), format.Count(p.TN),
+			format.Share(p.Recall()), format.Share(p.FalseDiscoveryRate()), format.Share(p.FalsePositiveRate())}
+		bw.WriteString("| " + strings.Join(cells, " | ") + " |\n")
+	})
 }
 
 // singleBlankLines folds runs of blank lines into one, so that sections
