@@ -118,6 +118,9 @@ type reviewKeys struct {
 	KeyMap
 	Note     key.Binding // note on the selected candidate
 	FileNote key.Binding // note on the whole file
+	Sign     key.Binding // the sign-off form
+	Chart    key.Binding // the trade-off drawn from the stored curve
+	Against  key.Binding // what changes against the cut in production (with --against)
 }
 
 // newReviewKeys returns the review screen's keys made from the explorer's
@@ -133,6 +136,9 @@ func newReviewKeys(k KeyMap) reviewKeys {
 		KeyMap:   k,
 		Note:     key.NewBinding(key.WithKeys("n"), key.WithHelp("n", "note on this candidate")),
 		FileNote: key.NewBinding(key.WithKeys("N"), key.WithHelp("N", "note on the file")),
+		Sign:     key.NewBinding(key.WithKeys("S"), key.WithHelp("S", "sign off (written at once)")),
+		Chart:    key.NewBinding(key.WithKeys("t"), key.WithHelp("t", "the trade-off chart, candidates marked")),
+		Against:  key.NewBinding(key.WithKeys("d"), key.WithHelp("d", "what changes against the cut in production")),
 	}
 }
 

@@ -73,6 +73,11 @@ type Review struct {
 	strip    Strip
 	overlays []overlay[*Review] // the top one last
 
+	// against is the decision in production (ReviewConfig.Against), nil
+	// without one.
+	against     *decision.File
+	againstPath string
+
 	changed  bool // changes not written
 	status   string
 	written  bool
@@ -91,6 +96,13 @@ func NewReview(cfg ReviewConfig) Review {
 	}
 	r.strip = NewStrip(ctx.styles, r.keys.KeyMap)
 	r.selected = r.chosen()
+	r.against, r.againstPath = cfg.Against, cfg.AgainstPath
+	r.keys.Against.SetEnabled(r.against != nil)
+	r.keys.Chart.SetEnabled(len(r.file.Curve) > 0)
+	r.status = upgradeNotice(r.file)
+	if r.against != nil {
+		r.status = "d shows what changes against " + r.againstPath + ", the cut in production"
+	}
 	r.refresh()
 	return r
 }
@@ -156,6 +168,12 @@ func (r Review) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		if r.quitting {
 			return r, tea.Quit
 		}
+		return r, nil
+	case reviewSignedMsg:
+		r.signed(msg)
+		return r, nil
+	case reviewSignFailedMsg:
+		r.status = "not signed: " + msg.err.Error()
 		return r, nil
 	case reviewWriteFailedMsg:
 		r.writeErr = msg.err
@@ -224,6 +242,18 @@ func (r Review) key(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 		r.editNote(-1)
 	case key.Matches(msg, k.Write):
 		return r, r.write(false)
+	case key.Matches(msg, k.Sign):
+		if r.saveTo == "-" || r.saveTo == "" {
+			r.status = "read from standard input: sign the file with sill review FILE"
+			break
+		}
+		r.overlays = push(r.overlays, overlay[*Review](newSignForm(r.ctx)))
+	case key.Matches(msg, k.Chart):
+		if o := newChartOverlay(r.ctx, r.file); o != nil {
+			r.overlays = push(r.overlays, overlay[*Review](o))
+		}
+	case key.Matches(msg, k.Against):
+		r.overlays = push(r.overlays, overlay[*Review](&helpOverlay[*Review]{ctx: r.ctx, draw: r.againstView}))
 	}
 	return r, nil
 }
@@ -457,6 +487,7 @@ func (r Review) notesView(at rect) string {
 	deploy := st.Muted.Render(fmt.Sprintf("deployment reads: flag a case when its score %s %s (%s) · file written %s by %s",
 		sign, format.Score(chosen.Cut.Score), chosen.Name, f.Created.UTC().Format("2006-01-02 15:04"), f.WrittenBy()))
 	lines := append(note("note on "+selected.Name+": ", selected.Note), note("file note: ", f.Note)...)
+	lines = append(lines, r.recordLines(innerW)...)
 	innerH := at.H - st.Pane.GetVerticalFrameSize()
 	if len(lines) >= innerH {
 		// Mark the cut, so that a note cut short does not read as whole.
@@ -486,13 +517,14 @@ func (r Review) footer() string {
 // each, for the footer.
 func (r Review) ShortHelp() []key.Binding {
 	k := r.keys
-	return []key.Binding{hint(k.Write, "", "write"), hint(k.Note, "", "note"), hint(k.FileNote, "", "file note")}
+	return []key.Binding{hint(k.Write, "", "write"), hint(k.Note, "", "note"), hint(k.FileNote, "", "file note"),
+		hint(k.Sign, "", "sign off"), hint(k.Chart, "", "chart"), hint(k.Against, "", "vs production")}
 }
 
 // FullHelp lists every key of the screen, for the help.
 func (r Review) FullHelp() [][]key.Binding {
 	k := r.keys
-	return [][]key.Binding{{k.Left, k.Right, k.Choose, k.Note, k.FileNote, k.Write, k.Help, k.Quit}}
+	return [][]key.Binding{{k.Left, k.Right, k.Choose, k.Note, k.FileNote, k.Write, k.Sign, k.Chart, k.Against, k.Help, k.Quit}}
 }
 
 // helpView draws every key of the screen in a box.
@@ -501,11 +533,14 @@ func (r Review) helpView() string {
 	var lines []string
 	for _, group := range r.FullHelp() {
 		for _, b := range group {
+			if !b.Enabled() {
+				continue // d without --against, t without a stored curve
+			}
 			lines = append(lines, st.Key.Render(pad(b.Help().Key, 6, false))+"  "+b.Help().Desc)
 		}
 	}
 	lines = append(lines, "", st.Muted.Render("the figures are the file's evidence and do not change;"),
-		st.Muted.Render("only the choice and the notes are written back"), st.Muted.Render("? or esc closes"),
+		st.Muted.Render("only the choice and the notes are written back;"), st.Muted.Render("a sign-off is appended to the file at once"), st.Muted.Render("? or esc closes"),
 		"", st.Warning.Render(evidence.ShortCaution))
 	return overlayBox(r.ctx, "review keys", strings.Join(lines, "\n"))
 }

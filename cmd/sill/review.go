@@ -48,7 +48,7 @@ func (s *signFlags) sign(ctx context.Context, path string, stderr io.Writer) err
 			return fmt.Errorf("%s %q: a line break, expected one line", flag, text)
 		}
 	}
-	f, err := decision.AppendSignOff(ctx, path, decision.SignOff{Name: strings.TrimSpace(s.name), Role: strings.TrimSpace(s.role),
+	f, _, err := decision.AppendSignOff(ctx, path, decision.SignOff{Name: strings.TrimSpace(s.name), Role: strings.TrimSpace(s.role),
 		Verdict: verdict, Note: strings.TrimSpace(s.note), At: time.Now().UTC().Truncate(time.Second)})
 	if err != nil {
 		return err

@@ -148,7 +148,7 @@ func signProcess(name, path string) int {
 		return 1
 	}
 	s := SignOff{Name: name, Role: "reviewer", Verdict: Approve, At: time.Now()}
-	if _, err := AppendSignOff(context.Background(), path, s); err != nil {
+	if _, _, err := AppendSignOff(context.Background(), path, s); err != nil {
 		fmt.Println(err)
 		return 1
 	}

@@ -249,7 +249,7 @@ func TestSignOffs(t *testing.T) {
 		t.Fatal(err)
 	}
 	s.Key = "SHA256:uNiVztksCsDhcc0u9e8BujQXVUpKZIDTMczCvj3tD2s"
-	got, err := AppendSignOff(context.Background(), path, s)
+	got, _, err := AppendSignOff(context.Background(), path, s)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -266,7 +266,7 @@ func TestSignOffs(t *testing.T) {
 		t.Fatal(err)
 	}
 	s2, _ := back.NewSignOff("Ben Oduya", "", Approve, "", at.Add(time.Hour))
-	got, err = AppendSignOff(context.Background(), path, s2)
+	got, _, err = AppendSignOff(context.Background(), path, s2)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -276,7 +276,7 @@ func TestSignOffs(t *testing.T) {
 	}
 	before, _ := os.ReadFile(path)
 	for _, bad := range []SignOff{{Name: "x", Verdict: "ok", At: at}, {Name: "", Verdict: Approve, At: at}, {Name: "a\nb", Verdict: Approve, At: at}} {
-		if _, err := AppendSignOff(context.Background(), path, bad); err == nil {
+		if _, _, err := AppendSignOff(context.Background(), path, bad); err == nil {
 			t.Errorf("%+v accepted", bad)
 		}
 	}
@@ -286,7 +286,7 @@ func TestSignOffs(t *testing.T) {
 	if _, err := ParseVerdict("Approve"); !errors.Is(err, ErrVerdict) {
 		t.Errorf("ParseVerdict(Approve): %v, want ErrVerdict (verdicts are lower case)", err)
 	}
-	if _, err := AppendSignOff(context.Background(), filepath.Join(t.TempDir(), "none.yaml"), s2); err == nil {
+	if _, _, err := AppendSignOff(context.Background(), filepath.Join(t.TempDir(), "none.yaml"), s2); err == nil {
 		t.Error("a sign-off of no file was accepted")
 	}
 	if math.IsNaN(got.SignOffs[1].ChosenScore) {

@@ -108,10 +108,11 @@ func (s SignOff) validate(path string) error {
 // and appends to what it finds, so that a sign-off or any other write
 // that landed in between is kept; two processes signing at once both land.
 // The file is written as sill-cut/2 (a sill-cut/1 file is upgraded).
-// Chosen and ChosenScore of s are set from the file as found.
-func AppendSignOff(ctx context.Context, path string, s SignOff) (*File, error) {
+// Chosen and ChosenScore of s are set from the file as found. The Stamp
+// is that of the file written, for a screen's next write to expect.
+func AppendSignOff(ctx context.Context, path string, s SignOff) (*File, sharedfile.Stamp, error) {
 	var written *File
-	_, err := sharedfile.Update(ctx, path, sharedfile.Options{}, func(current []byte) ([]byte, error) {
+	stamp, err := sharedfile.Update(ctx, path, sharedfile.Options{}, func(current []byte) ([]byte, error) {
 		if current == nil {
 			return nil, fmt.Errorf("%s: no decision file to sign", path)
 		}
@@ -134,7 +135,7 @@ func AppendSignOff(ctx context.Context, path string, s SignOff) (*File, error) {
 		return data, nil
 	})
 	if err != nil {
-		return nil, fmt.Errorf("sign %s: %w", path, err)
+		return nil, sharedfile.Stamp{}, fmt.Errorf("sign %s: %w", path, err)
 	}
-	return written, nil
+	return written, stamp, nil
 }
