@@ -5,18 +5,18 @@ import (
 	"fmt"
 	"strings"
 
-	"github.com/spf13/cobra"
-
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/drift"
+	"github.com/sill-tool/sill/internal/format"
 	"github.com/sill-tool/sill/internal/report"
 	"github.com/sill-tool/sill/internal/scores"
+	"github.com/spf13/cobra"
 )
 
 func newCheckCmd() *cobra.Command {
 	var (
 		input        inputFlags
-		format       string
+		output       string
 		tolerance    float64
 		ignoreLabels bool
 	)
@@ -57,8 +57,8 @@ decision file.`,
   sill check cut.yaml nightly.csv.gz --format json --tolerance 0.02`,
 		Args: argsNamed("the decision file", "the new scores (either may be - for standard input)"),
 		RunE: func(cmd *cobra.Command, args []string) error {
-			if format != "text" && format != "json" {
-				return fmt.Errorf("--format %q: expected text or json", format)
+			if output != "text" && output != "json" {
+				return fmt.Errorf("--format %q: expected text or json", output)
 			}
 			var file *decision.File
 			var err error
@@ -99,13 +99,13 @@ decision file.`,
 				return err
 			}
 			for _, w := range report.DroppedWarnings(set) {
-				fmt.Fprintf(cmd.ErrOrStderr(), "sill: warning: %s: %s\n", args[1], w)
+				fmt.Fprintf(cmd.ErrOrStderr(), "sill: warning: %s: %s\n", format.Printable(args[1]), format.Printable(w))
 			}
 			res, err := drift.Check(file, set, drift.Options{Tolerance: tolerance, Labelled: set.LabelColumn != "" && !ignoreLabels, IgnoreLabels: "--ignore-labels"})
 			if err != nil {
 				return fmt.Errorf("check %s: %w", args[1], err)
 			}
-			if format == "json" {
+			if output == "json" {
 				err = drift.WriteJSON(cmd.OutOrStdout(), res, args[0], args[1])
 			} else {
 				err = drift.WriteText(cmd.OutOrStdout(), res, args[0], args[1])
@@ -125,7 +125,7 @@ decision file.`,
 	fs.Lookup("score").Usage = "score column (default: the decision file's score column when present, else the first of " + strings.Join(scores.DefaultScoreColumns, ", ") + ")"
 	_ = fs.MarkHidden("segment")
 	_ = fs.MarkHidden("id")
-	fs.StringVar(&format, "format", "text", "output: text or json")
+	fs.StringVar(&output, "format", "text", "output: text or json")
 	fs.BoolVar(&ignoreLabels, "ignore-labels", false, "check the alert rate and scores only, even where a label column is present")
 	fs.Var(newShareFlag(&tolerance, 0, shareBounds{below1: true, expected: "a margin below 1, such as 0.02 or 2% for two percentage points"}),
 		"tolerance", "practical margin on every share, such as 0.02 or 2% for two percentage points")

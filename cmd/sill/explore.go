@@ -11,12 +11,11 @@ import (
 	"github.com/charmbracelet/lipgloss"
 	"github.com/mattn/go-isatty"
 	"github.com/muesli/termenv"
-	"github.com/spf13/cobra"
-	"github.com/spf13/pflag"
-
 	"github.com/sill-tool/sill/internal/demo"
 	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/tui"
+	"github.com/spf13/cobra"
+	"github.com/spf13/pflag"
 )
 
 type exploreOptions struct {

@@ -7,13 +7,13 @@ import (
 	"io"
 	"os"
 
-	"github.com/spf13/cobra"
-	"github.com/spf13/pflag"
-
 	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/format"
 	"github.com/sill-tool/sill/internal/report"
 	"github.com/sill-tool/sill/internal/scores"
+	"github.com/spf13/cobra"
+	"github.com/spf13/pflag"
 )
 
 type reportOptions struct {
@@ -153,7 +153,7 @@ func (o *reportOptions) run(ctx context.Context, set *scores.Set, stdout, stderr
 	}
 	// Warnings go to stderr whatever the format; JSON also carries them.
 	for _, w := range r.Warnings {
-		fmt.Fprintln(stderr, "sill: warning: "+w)
+		fmt.Fprintln(stderr, "sill: warning: "+format.Printable(w))
 	}
 	if !o.withCurve {
 		points = nil

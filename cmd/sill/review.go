@@ -12,13 +12,12 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/lipgloss"
 	"github.com/muesli/termenv"
-	"github.com/spf13/cobra"
-
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/format"
 	"github.com/sill-tool/sill/internal/review"
 	"github.com/sill-tool/sill/internal/sharedfile"
 	"github.com/sill-tool/sill/tui"
+	"github.com/spf13/cobra"
 )
 
 // signFlags are review's flags that record a sign-off.

@@ -1,6 +1,7 @@
 package drift
 
 import (
+	"bytes"
 	"encoding/json"
 	"fmt"
 	"io"
@@ -113,9 +114,14 @@ func WriteJSON(w io.Writer, r *Result, decisionFile, scoresFile string) error {
 	if out.Findings == nil {
 		out.Findings = []string{}
 	}
-	enc := json.NewEncoder(w)
+	var encoded bytes.Buffer
+	enc := json.NewEncoder(&encoded)
 	enc.SetIndent("", "  ")
-	return enc.Encode(out)
+	if err := enc.Encode(out); err != nil {
+		return err
+	}
+	_, err := w.Write(format.JSON(encoded.Bytes())) // names from the files, safe on a terminal
+	return err
 }
 
 // WriteText writes r for a person: what was checked, a table of the
@@ -197,6 +203,6 @@ func WriteText(w io.Writer, r *Result, decisionFile, scoresFile string) error {
 		b.WriteString("  - " + f + "\n")
 	}
 	b.WriteString("\ncaution: " + evidence.Caution + "\n")
-	_, err := io.WriteString(w, b.String())
+	_, err := io.WriteString(w, format.PrintableText(b.String())) // names from the files are untrusted
 	return err
 }

@@ -1,9 +1,12 @@
 package drift
 
 import (
+	"encoding/json"
 	"math"
 	"strings"
 	"testing"
+
+	"github.com/sill-tool/sill/internal/format"
 )
 
 // TestWriteTextAgreesWithShown checks the check's text against the house
@@ -36,5 +39,39 @@ func TestWriteTextAgreesWithShown(t *testing.T) {
 		if strings.Contains(out, bad) {
 			t.Errorf("text holds %q:\n%s", bad, out)
 		}
+	}
+}
+
+// TestWritersShowUntrustedTextSafely puts terminal controls into the
+// chosen candidate's name and the file names: the text writes them out
+// visibly and the JSON escapes them, keeping its values.
+func TestWritersShowUntrustedTextSafely(t *testing.T) {
+	nan := math.NaN()
+	h := format.Hostile
+	r := &Result{
+		Chosen: "pick" + h, Cut: 0.5, Rows: 10, Weight: 10, Flagged: 5, Confidence: 0.95, ValidationPath: "v" + h + ".csv",
+		AlertRate: Test{Defined: true, Observed: 0.5, ObservedCI: [2]float64{0.2, 0.8}, Expected: 0.5, PValue: 1},
+		Recall:    Test{Observed: nan, Expected: 0.8}, Precision: Test{Observed: nan, Expected: 0.3}, PSI: nan,
+	}
+	r.findings()
+	var text, encoded strings.Builder
+	if err := WriteText(&text, r, "cut"+h+".yaml", "new"+h+".csv"); err != nil {
+		t.Fatal(err)
+	}
+	if c, bad := format.Unsafe(text.String()); bad || !strings.Contains(text.String(), `pick\x1b]0;title\a`) {
+		t.Errorf("text: %q raw, or the name not shown escaped:\n%s", c, text.String())
+	}
+	if err := WriteJSON(&encoded, r, "cut"+h+".yaml", "new"+h+".csv"); err != nil {
+		t.Fatal(err)
+	}
+	if c, bad := format.Unsafe(encoded.String()); bad {
+		t.Errorf("json: %q raw:\n%s", c, encoded.String())
+	}
+	var back map[string]any
+	if err := json.Unmarshal([]byte(encoded.String()), &back); err != nil {
+		t.Fatal(err)
+	}
+	if want := strings.ToValidUTF8("pick"+h, "\ufffd"); back["chosen"] != want {
+		t.Errorf("json chosen %q, want %q", back["chosen"], want)
 	}
 }

@@ -125,3 +125,36 @@ func plainASCIIOrNewline(s string) bool {
 	}
 	return true
 }
+
+// JSON returns encoded JSON with the characters that encoding/json leaves
+// as they are but a terminal would act on (C1 controls, the bidirectional
+// formatting characters) written as \u escapes, so that JSON printed on a
+// terminal is as safe as text. The JSON decodes to the same values: such
+// characters can only stand inside strings, where \u escapes mean them.
+// encoding/json already escapes C0 controls, U+2028 and U+2029, and
+// replaces invalid UTF-8.
+func JSON(encoded []byte) []byte {
+	clean := true
+	for i := 0; i < len(encoded); i++ {
+		if encoded[i] >= 0x80 {
+			clean = false
+			break
+		}
+	}
+	if clean {
+		return encoded
+	}
+	out := make([]byte, 0, len(encoded)+16)
+	for i := 0; i < len(encoded); {
+		r, size := utf8.DecodeRune(encoded[i:])
+		if size > 1 && unsafeRune(r) {
+			out = append(out, `\u`...)
+			out = append(out, hex2(byte(r>>8))...)
+			out = append(out, hex2(byte(r))...)
+		} else {
+			out = append(out, encoded[i:i+size]...)
+		}
+		i += size
+	}
+	return out
+}

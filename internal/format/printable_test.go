@@ -1,10 +1,10 @@
 package format
 
 import (
+	"encoding/json"
 	"fmt"
 	"strings"
 	"testing"
-	"unicode/utf8"
 )
 
 // The expected texts were written by hand from the list in Printable's
@@ -44,19 +44,24 @@ func TestPrintable(t *testing.T) {
 	}
 }
 
-// safe reports whether s holds nothing a terminal would act on: valid
-// UTF-8 with no control, separator or bidirectional formatting character.
-// It is the test's own statement of what Printable promises.
+// safe reports whether s holds nothing a terminal would act on, line
+// feeds included.
 func safe(s string) bool {
-	if !utf8.ValidString(s) {
-		return false
+	_, bad := Unsafe(s)
+	return !bad && !strings.Contains(s, "\n")
+}
+
+func TestPrintableHostile(t *testing.T) {
+	if _, bad := Unsafe(Hostile); !bad {
+		t.Fatal("Unsafe passes Hostile")
 	}
-	for _, r := range s {
-		if r < 0x20 || r == 0x7f || unsafeRune(r) {
-			return false
-		}
+	got := PrintableText("a\n" + Hostile + "\nb")
+	if r, bad := Unsafe(got); bad {
+		t.Errorf("PrintableText left %q in %q", r, got)
 	}
-	return true
+	if want := "a\n" + `\x1b]0;title\a\x1b[2J\x9b31m\u202eevil\r` + "\nb"; got != want {
+		t.Errorf("PrintableText = %q, want %q", got, want)
+	}
 }
 
 // TestPrintableEveryByte feeds every byte and every pair of bytes and
@@ -79,4 +84,29 @@ func TestPrintableEveryByte(t *testing.T) {
 func ExamplePrintable() {
 	fmt.Println(Printable("night shift\x1b]0;owned\x07"))
 	// Output: night shift\x1b]0;owned\a
+}
+
+// TestJSON checks that the escapes keep the values: the JSON decodes to
+// the same string (encoding/json's own reading of \u escapes).
+func TestJSON(t *testing.T) {
+	value := "night " + Hostile + " · 東京 \u0085"
+	encoded, err := json.Marshal(map[string]string{"note": value})
+	if err != nil {
+		t.Fatal(err)
+	}
+	got := JSON(encoded)
+	if r, bad := Unsafe(string(got)); bad {
+		t.Errorf("JSON left %q in %s", r, got)
+	}
+	var back map[string]string
+	if err := json.Unmarshal(got, &back); err != nil {
+		t.Fatal(err)
+	}
+	// encoding/json reads the invalid byte 0x9b as U+FFFD, before and after.
+	if want := strings.ToValidUTF8(value, "\ufffd"); back["note"] != want {
+		t.Errorf("decoded %q, want %q", back["note"], want)
+	}
+	if plain := []byte(`{"a":1}`); string(JSON(plain)) != string(plain) {
+		t.Errorf("plain JSON changed: %s", JSON(plain))
+	}
 }

@@ -30,6 +30,7 @@ func WriteJSON(w io.Writer, r *Report, points Points) error {
 	if err != nil {
 		return fmt.Errorf("report: %w", err)
 	}
+	head = format.JSON(head) // names and values from the data, safe on a terminal
 	bw := bufio.NewWriterSize(w, 1<<16)
 	if points == nil {
 		bw.Write(head)
@@ -229,7 +230,7 @@ func WriteText(w io.Writer, r *Report) error {
 	}
 	// One blank line before the caution, whatever came last.
 	text := singleBlankLines(strings.TrimRight(b.String(), "\n")) + "\n\ncaution: " + r.Caution + "\n"
-	_, err := io.WriteString(w, text)
+	_, err := io.WriteString(w, format.PrintableText(text)) // names and values from the data are untrusted
 	return err
 }
 
@@ -265,7 +266,7 @@ func WriteMarkdown(w io.Writer, r *Report, points Points) error {
 		fmt.Fprintf(&b, "\n- **Warning:** %s", format.Markdown(warning))
 	}
 	bw := bufio.NewWriterSize(w, 1<<16)
-	bw.WriteString(singleBlankLines(strings.TrimRight(b.String(), "\n")) + "\n")
+	bw.WriteString(format.PrintableText(singleBlankLines(strings.TrimRight(b.String(), "\n"))) + "\n") // names and values from the data are untrusted
 	if points != nil {
 		writeCurveMarkdown(bw, points, r.comparison())
 	}

@@ -210,8 +210,8 @@ func WriteText(w io.Writer, f *decision.File, path string) error {
 	for _, line := range lines {
 		b.WriteString("  " + line + "\n")
 	}
-	b.WriteString("\ncaution: " + evidence.Caution + "\n") // the standing caution, not a hand-edited one
-	_, err := io.WriteString(w, b.String())
+	b.WriteString("\ncaution: " + evidence.Caution + "\n")        // the standing caution, not a hand-edited one
+	_, err := io.WriteString(w, format.PrintableText(b.String())) // names and notes from the file are untrusted
 	return err
 }
 
@@ -259,6 +259,6 @@ func WriteMarkdown(w io.Writer, f *decision.File, path string) error {
 	}
 	b.WriteString("\nOn paper:\n\n- Reviewed by: \n- Role: \n- Date: \n- Decision (approve, revise, reject): \n")
 	b.WriteString("\n> **Caution.** " + format.Markdown(evidence.Caution) + "\n")
-	_, err := io.WriteString(w, b.String())
+	_, err := io.WriteString(w, format.PrintableText(b.String())) // names and notes from the file are untrusted
 	return err
 }
