@@ -8,6 +8,7 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/lipgloss"
 	"github.com/charmbracelet/x/ansi"
+	"github.com/sill-tool/sill/internal/format"
 )
 
 // statusBar draws the lines both screens keep around their panes: the
@@ -19,6 +20,7 @@ type statusBar struct{ ctx *shared }
 // then right in rightW cells, each cut with … where it does not fit.
 func (b statusBar) header(left, right string, rightW int) string {
 	st, width := b.ctx.styles, b.ctx.width
+	left, right = format.Printable(left), format.Printable(right) // a file's name is untrusted text
 	return st.Header.Render(fitLine(left, width-rightW-2)) + "  " + st.Muted.Render(fitLine(right, rightW))
 }
 
@@ -29,6 +31,7 @@ func (b statusBar) header(left, right string, rightW int) string {
 // description are its Help().
 func (b statusBar) footer(status, mark string, hints, tail []key.Binding) string {
 	st, width := b.ctx.styles, b.ctx.width
+	status = format.Printable(status) // it may quote a name, a note or an error from input
 	render := func(h key.Binding) string {
 		return st.Key.Render(h.Help().Key) + " " + st.Footer.Render(h.Help().Desc)
 	}

@@ -5,6 +5,7 @@ import (
 
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
+	"github.com/sill-tool/sill/internal/format"
 )
 
 // fieldKeys are the editing keys of a textField; typed characters go in
@@ -97,8 +98,9 @@ func (f textField) Update(msg tea.Msg) (textField, tea.Cmd) {
 
 // View draws the text, with the cursor when focused.
 func (f textField) View() string {
+	// The text may be a note or a name read from a file: untrusted.
 	if !f.focused {
-		return string(f.value)
+		return format.Printable(string(f.value))
 	}
-	return string(f.value[:f.cursor]) + "│" + string(f.value[f.cursor:])
+	return format.Printable(string(f.value[:f.cursor])) + "│" + format.Printable(string(f.value[f.cursor:]))
 }

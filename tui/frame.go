@@ -5,6 +5,7 @@ import (
 
 	"github.com/charmbracelet/lipgloss"
 	"github.com/charmbracelet/x/ansi"
+	"github.com/sill-tool/sill/internal/format"
 )
 
 // fit clips or pads text to exactly width columns and height lines.
@@ -42,6 +43,7 @@ func fitLine(line string, width int) string {
 // together here rather than by box.Render, which would wrap and measure
 // every line again on each keystroke.
 func framed(box, edge, titleStyle lipgloss.Style, title, body string, width, height int) string {
+	title = format.Printable(title) // a title may name a column, a candidate or a file
 	if width <= 0 || height <= 0 {
 		return ""
 	}

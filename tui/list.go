@@ -211,10 +211,10 @@ func (p listPane) row(r int, cols listColumns, innerW int, flagged, inGroup bool
 	head := gutter + pad(strconv.Itoa(r+1), cols.rank, true) + " " + pad(format.Score(s.set.Scores[r]), cols.score, false) + " "
 	tail := ""
 	if cols.id > 0 {
-		tail += " " + pad(s.set.ID(r), cols.id, false)
+		tail += " " + pad(format.Printable(s.set.ID(r)), cols.id, false)
 	}
 	if cols.segment > 0 {
-		tail += " " + pad(s.set.Segment(r), cols.segment, false)
+		tail += " " + pad(format.Printable(s.set.Segment(r)), cols.segment, false)
 	}
 	tail += " " + pad(format.Share(hit), 6, true)
 	tail = fitLine(tail, max(innerW-ansi.StringWidth(head)-1, 0))

@@ -376,6 +376,7 @@ func renameBox(ctx *shared, name string) *textBox[*Model] {
 // reason; headline says what was found and ask what is asked. y runs
 // replace, n or esc runs keep.
 func replaceQuestion[H any](ctx *shared, path, reason, headline, ask string, replace, keep func(H) tea.Cmd) *question[H] {
+	path, reason, headline = format.Printable(path), format.Printable(reason), format.Printable(headline)
 	st, k := ctx.styles, ctx.keys
 	lines := []string{st.Warning.Render(headline)}
 	for _, l := range wrapWords(reason, 60) {

@@ -175,11 +175,11 @@ func (p *modelsPane) View() string {
 	}
 	a := s.assume
 	lines := []string{
-		fmt.Sprintf("A %s: ROC AUC %s   B %s: ROC AUC %s", s.set.ScoreColumn, format.Number(s.curve.Summary.ROCAUC, 3),
-			s.set.CompareColumn, format.Number(second.Summary.ROCAUC, 3)),
+		fmt.Sprintf("A %s: ROC AUC %s   B %s: ROC AUC %s", format.Printable(s.set.ScoreColumn), format.Number(s.curve.Summary.ROCAUC, 3),
+			format.Printable(s.set.CompareColumn), format.Number(second.Summary.ROCAUC, 3)),
 	}
 	if second.TestErr != nil {
-		lines = append(lines, st.Muted.Render("paired test: "+second.TestErr.Error()))
+		lines = append(lines, st.Muted.Render("paired test: "+format.Printable(second.TestErr.Error())))
 	} else {
 		lines = append(lines, st.Muted.Render(fmt.Sprintf("A − B %s (SE %s), z %s, p %s: DeLong's paired test",
 			format.NumberDiff(second.Test.AUC[0], second.Test.AUC[1], 3).Text, format.Number(second.Test.StdError, 3), format.Number(second.Test.Z, 2), format.PValue(second.Test.P))))

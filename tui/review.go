@@ -480,12 +480,13 @@ func (r Review) notesView(at rect) string {
 		if text == "" {
 			return []string{st.Label.Render(label) + st.Muted.Render("none")}
 		}
+		label, text = format.Printable(label), format.Printable(text) // notes and names from the file
 		wrapped := wrapWords(label+text, innerW)
 		wrapped[0] = st.Label.Render(label) + strings.TrimPrefix(wrapped[0], label)
 		return wrapped
 	}
 	deploy := st.Muted.Render(fmt.Sprintf("deployment reads: flag a case when its score %s %s (%s) · file written %s by %s",
-		sign, format.Score(chosen.Cut.Score), chosen.Name, f.Created.UTC().Format("2006-01-02 15:04"), f.WrittenBy()))
+		sign, format.Score(chosen.Cut.Score), format.Printable(chosen.Name), f.Created.UTC().Format("2006-01-02 15:04"), f.WrittenBy()))
 	lines := append(note("note on "+selected.Name+": ", selected.Note), note("file note: ", f.Note)...)
 	lines = append(lines, r.recordLines(innerW)...)
 	innerH := at.H - st.Pane.GetVerticalFrameSize()

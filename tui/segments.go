@@ -170,7 +170,7 @@ func (p *segmentsPane) View() string {
 		} else if gap {
 			gapText = pad("", gapW, true)
 		}
-		return pad(f.Segment, nameW, false) + pad(strconv.Itoa(f.Rows), 7, true) + pad(format.Count(f.Positives), 7, true) +
+		return pad(format.Printable(f.Segment), nameW, false) + pad(strconv.Itoa(f.Rows), 7, true) + pad(format.Count(f.Positives), 7, true) +
 			pad(format.Share(f.FlaggedShare), 8, true) + pad(format.Share(f.Recall), 7, true) + " " + pad(interval(f.RecallCI), rangeW, false) +
 			pad(format.Share(f.Precision), 7, true) + " " + pad(interval(f.PrecisionCI), rangeW, false) + gapText + " " + note
 	}

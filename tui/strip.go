@@ -9,8 +9,8 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/lipgloss"
 	"github.com/charmbracelet/x/ansi"
-
 	"github.com/sill-tool/sill/internal/compare"
+	"github.com/sill-tool/sill/internal/format"
 )
 
 // Strip is the comparison strip: the pinned candidates side by side, one
@@ -55,6 +55,8 @@ func NewStrip(styles Styles, keys KeyMap) Strip {
 // SetTable sets the comparison to draw, keeping the selection in range.
 func (s *Strip) SetTable(t compare.Table) {
 	s.generation++
+	// The names and rules may come from a decision file: untrusted text.
+	t.Names, t.Rules = printableAll(t.Names), printableAll(t.Rules)
 	s.table = t
 	s.selected = min(max(s.selected, 0), max(len(t.Names)-1, 0))
 }
@@ -331,4 +333,14 @@ func (s Strip) diffStyle(r compare.Row, c int) lipgloss.Style {
 		return st.Bad
 	}
 	return st.Muted
+}
+
+// printableAll returns texts made terminal-safe by format.Printable, as a
+// new slice.
+func printableAll(texts []string) []string {
+	out := make([]string, len(texts))
+	for i, t := range texts {
+		out[i] = format.Printable(t)
+	}
+	return out
 }
