@@ -5,12 +5,13 @@ import (
 	"fmt"
 	"strings"
 
+	"github.com/spf13/cobra"
+
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/drift"
 	"github.com/sill-tool/sill/internal/format"
 	"github.com/sill-tool/sill/internal/report"
 	"github.com/sill-tool/sill/internal/scores"
-	"github.com/spf13/cobra"
 )
 
 func newCheckCmd() *cobra.Command {

@@ -11,11 +11,13 @@ import (
 	"github.com/charmbracelet/lipgloss"
 	"github.com/mattn/go-isatty"
 	"github.com/muesli/termenv"
-	"github.com/sill-tool/sill/internal/demo"
-	"github.com/sill-tool/sill/internal/scores"
-	"github.com/sill-tool/sill/tui"
 	"github.com/spf13/cobra"
 	"github.com/spf13/pflag"
+
+	"github.com/sill-tool/sill/internal/demo"
+	"github.com/sill-tool/sill/internal/format"
+	"github.com/sill-tool/sill/internal/scores"
+	"github.com/sill-tool/sill/tui"
 )
 
 type exploreOptions struct {
@@ -201,6 +203,7 @@ func exploreOutcome(m tui.Model, out string, stderr io.Writer) error {
 		}
 		return fmt.Errorf("the decision was not written: %w", err)
 	}
+	path, out = format.Printable(path), format.Printable(out) // for the lines below; the error above is made printable where it is printed
 	switch {
 	case path != "" && n > 0:
 		fmt.Fprintf(stderr, "sill: %s holds the decision as last written; the changes after that were not written\n", path)

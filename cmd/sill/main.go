@@ -10,6 +10,8 @@ import (
 	"os"
 	"os/signal"
 	"syscall"
+
+	"github.com/sill-tool/sill/internal/format"
 )
 
 // exitError carries an exit status other than 2 for an error, or a status
@@ -59,10 +61,10 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	var exit *exitError
 	if errors.As(err, &exit) {
 		if exit.message != "" {
-			fmt.Fprintln(stderr, "sill: "+exit.message)
+			fmt.Fprintln(stderr, "sill: "+format.Printable(exit.message))
 		}
 		return exit.code
 	}
-	fmt.Fprintln(stderr, "sill: "+err.Error())
+	fmt.Fprintln(stderr, "sill: "+format.Printable(err.Error())) // an error may quote input
 	return 2
 }

@@ -12,12 +12,13 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/lipgloss"
 	"github.com/muesli/termenv"
+	"github.com/spf13/cobra"
+
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/format"
 	"github.com/sill-tool/sill/internal/review"
 	"github.com/sill-tool/sill/internal/sharedfile"
 	"github.com/sill-tool/sill/tui"
-	"github.com/spf13/cobra"
 )
 
 // signFlags are review's flags that record a sign-off.
@@ -53,7 +54,7 @@ func (s *signFlags) sign(ctx context.Context, path string, stderr io.Writer) err
 		return err
 	}
 	last := f.SignOffs[len(f.SignOffs)-1]
-	fmt.Fprintf(stderr, "sill: signed %s: %s by %s for the chosen %s (score %s); %d %s in the file\n", path, last.Verdict,
+	fmt.Fprintf(stderr, "sill: signed %s: %s by %s for the chosen %s (score %s); %d %s in the file\n", format.Printable(path), last.Verdict,
 		format.Printable(last.Name), format.Printable(last.Chosen), format.Score(last.ChosenScore), len(f.SignOffs), pluralWord(len(f.SignOffs), "sign-off", "sign-offs"))
 	return nil
 }
@@ -196,9 +197,9 @@ func reviewOutcome(r tui.Review, path string, stderr io.Writer) error {
 	}
 	switch {
 	case r.Written() && !r.Changed():
-		fmt.Fprintf(stderr, "sill: wrote %s; chosen %s\n", r.Path(), r.File().Chosen)
+		fmt.Fprintf(stderr, "sill: wrote %s; chosen %s\n", format.Printable(r.Path()), format.Printable(r.File().Chosen))
 	case r.Changed():
-		fmt.Fprintf(stderr, "sill: %s left as it was; the changes on screen were not written\n", path)
+		fmt.Fprintf(stderr, "sill: %s left as it was; the changes on screen were not written\n", format.Printable(path))
 	}
 	return nil
 }

@@ -9,12 +9,13 @@ import (
 	"path/filepath"
 	"strings"
 
+	"github.com/spf13/pflag"
+
 	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/format"
 	"github.com/sill-tool/sill/internal/sharedfile"
-	"github.com/spf13/pflag"
 )
 
 // saveFlags are report's flags that save the cuts as a decision file.
