@@ -99,7 +99,7 @@ func (m Model) helpGroups() []helpGroup {
 	}
 	candidates := append([]key.Binding{k.Pin, k.Focus}, flat(m.strip.FullHelp())...)
 	screen := append(flat(m.chart.FullHelp()), m.beyondKeys()...)
-	screen = append(screen, k.Assumptions, k.Write, k.Help, k.Quit, k.Interrupt)
+	screen = append(screen, k.Assumptions, k.Record, k.Write, k.Help, k.Quit, k.Interrupt)
 	return []helpGroup{
 		{"move the cut", flat(m.list.FullHelp())},
 		{"starting points", flat(m.figures.FullHelp())},

@@ -47,6 +47,7 @@ type KeyMap struct {
 
 	// Files, forms and help
 	Assumptions key.Binding // open the assumptions form
+	Record      key.Binding // open the form of the model and who chose
 	Write       key.Binding // write the decision file
 	Help        key.Binding // show or hide every key
 	Quit        key.Binding
@@ -97,6 +98,7 @@ func DefaultKeyMap() KeyMap {
 		Choose:    key.NewBinding(key.WithKeys("c"), key.WithHelp("c", "choose: the others vs it")),
 
 		Assumptions: key.NewBinding(key.WithKeys("a"), key.WithHelp("a", "edit assumptions")),
+		Record:      key.NewBinding(key.WithKeys("i"), key.WithHelp("i", "model and who chose (for the file)")),
 		Write:       key.NewBinding(key.WithKeys("w"), key.WithHelp("w", "write decision file")),
 		Help:        key.NewBinding(key.WithKeys("?"), key.WithHelp("?", "help")),
 		Quit:        key.NewBinding(key.WithKeys("q", "ctrl+c"), key.WithHelp("q", "quit")),

@@ -324,6 +324,9 @@ func (m Model) key(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 	case key.Matches(msg, k.Assumptions):
 		m.push(newFormPane(m.ctx, m.s.assume, m.s.curve.Summary.BaseRate))
 		return m, nil
+	case key.Matches(msg, k.Record):
+		m.push(newRecordForm(m.ctx, m.record.model, m.record.chosenBy))
+		return m, nil
 	case key.Matches(msg, k.Write):
 		return m, m.write(false)
 	case key.Matches(msg, k.CurveView):

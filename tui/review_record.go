@@ -36,38 +36,48 @@ const (
 	signRole
 	signVerdict
 	signNote
-	signFields
 )
 
-// signForm is the sign-off form, an overlay of the review screen: who,
-// in what role, the verdict and a note. Enter appends the sign-off to the
-// file on disk (decision.AppendSignOff, under the file's lock); esc closes
-// it and records nothing.
-type signForm struct {
+// entryForm is a form of a few one-line fields, an overlay of either
+// screen: tab and shift+tab move between fields, enter hands the values to
+// accept, which acts on the screen or refuses them with a reason and the
+// field to fix, and esc closes it and changes nothing.
+type entryForm[H any] struct {
 	ctx     *shared
-	fields  [signFields]textField
+	title   string
+	labels  []string
+	fields  []textField
 	focused int
 	err     string
+	notes   []string // muted lines under the fields
+	enter   string   // what enter does, in a few words, for the footer
+	// accept takes the values; a reason refuses them, with the field to
+	// fix (-1: stay where the cursor is).
+	accept func(host H, values []string) (cmd tea.Cmd, field int, reason string)
 }
 
-func newSignForm(ctx *shared) *signForm {
-	f := &signForm{ctx: ctx}
-	for i, limit := range []int{80, 80, 7, noteLimit} {
-		f.fields[i] = newTextField(limit)
+func newEntryForm[H any](ctx *shared, title string, labels []string, limits []int, values []string) *entryForm[H] {
+	f := &entryForm[H]{ctx: ctx, title: title, labels: labels}
+	for i, limit := range limits {
+		field := newTextField(limit)
+		if i < len(values) {
+			field.SetValue(values[i])
+		}
+		f.fields = append(f.fields, field)
 	}
-	f.fields[signName].Focus()
+	f.fields[0].Focus()
 	return f
 }
 
-func (f *signForm) focus(i int) {
+func (f *entryForm[H]) focus(i int) {
 	f.fields[f.focused].Blur()
-	f.focused = (i + signFields) % signFields
+	f.focused = (i + len(f.fields)) % len(f.fields)
 	f.fields[f.focused].Focus()
 }
 
-// Update moves between fields, signs on enter when the entries are
-// accepted and closes on esc.
-func (f *signForm) Update(r *Review, msg tea.KeyMsg) (bool, tea.Cmd) {
+// Update moves between fields, hands the values to accept on enter and
+// closes on esc.
+func (f *entryForm[H]) Update(host H, msg tea.KeyMsg) (bool, tea.Cmd) {
 	k := f.ctx.keys
 	switch {
 	case key.Matches(msg, k.Cancel):
@@ -79,20 +89,17 @@ func (f *signForm) Update(r *Review, msg tea.KeyMsg) (bool, tea.Cmd) {
 		f.focus(f.focused - 1)
 		return false, nil
 	case key.Matches(msg, k.Accept):
-		name := strings.TrimSpace(f.fields[signName].Value())
-		verdict, err := decision.ParseVerdict(strings.TrimSpace(f.fields[signVerdict].Value()))
-		switch {
-		case name == "":
-			f.err, f.focused = "who signs? a name is needed", signName
-		case err != nil:
-			f.err = "the verdict is approve, revise or reject"
-			f.focus(signVerdict)
-		case r.changed:
-			f.err = "write the changes first (esc, then w): a sign-off is for the choice in the file"
-		default:
-			s := decision.SignOff{Name: name, Role: strings.TrimSpace(f.fields[signRole].Value()), Verdict: verdict,
-				Note: strings.Join(strings.Fields(f.fields[signNote].Value()), " "), At: time.Now().UTC().Truncate(time.Second)}
-			return true, r.sign(s)
+		values := make([]string, len(f.fields))
+		for i, field := range f.fields {
+			values[i] = field.Value()
+		}
+		cmd, field, reason := f.accept(host, values)
+		if reason == "" {
+			return true, cmd
+		}
+		f.err = reason
+		if field >= 0 {
+			f.focus(field)
 		}
 		return false, nil
 	}
@@ -103,29 +110,60 @@ func (f *signForm) Update(r *Review, msg tea.KeyMsg) (bool, tea.Cmd) {
 }
 
 // View draws the form.
-func (f *signForm) View() string {
+func (f *entryForm[H]) View() string {
 	st := f.ctx.styles
-	labels := [signFields]string{"name", "role", "verdict", "note"}
+	labelW := 0
+	for _, l := range f.labels {
+		labelW = max(labelW, len(l))
+	}
 	var lines []string
 	for i := range f.fields {
 		marker := " "
 		if i == f.focused {
 			marker = st.Selected.Render("▸")
 		}
-		lines = append(lines, marker+pad(labels[i], 8, false)+" "+fitLine(f.fields[i].View(), 44))
+		lines = append(lines, marker+pad(f.labels[i], labelW, false)+"  "+fitLine(f.fields[i].View(), 44))
 	}
 	if f.err != "" {
 		lines = append(lines, "  "+st.Warning.Render("✗ "+f.err))
 	}
-	lines = append(lines, "", st.Muted.Render("verdict: approve, revise or reject · role and note may stay empty"),
-		st.Muted.Render("tab/↓ next · enter signs (written at once) · esc cancels"))
-	return overlayBox(f.ctx, "sign off", strings.Join(lines, "\n"))
+	lines = append(lines, "")
+	for _, n := range f.notes {
+		lines = append(lines, st.Muted.Render(n))
+	}
+	return overlayBox(f.ctx, f.title, strings.Join(lines, "\n"))
 }
 
 // ShortHelp lists the form's keys.
-func (f *signForm) ShortHelp() []key.Binding {
+func (f *entryForm[H]) ShortHelp() []key.Binding {
 	k := f.ctx.keys
-	return []key.Binding{hint(k.NextField, "", "next field"), hint(k.Accept, "", "sign"), hint(k.Cancel, "", "cancel")}
+	return []key.Binding{hint(k.NextField, "", "next field"), hint(k.Accept, "", f.enter), hint(k.Cancel, "", "cancel")}
+}
+
+// newSignForm is the sign-off form of the review screen: who, in what
+// role, the verdict and a note. Enter appends the sign-off to the file on
+// disk (decision.AppendSignOff, under the file's lock).
+func newSignForm(ctx *shared) *entryForm[*Review] {
+	f := newEntryForm[*Review](ctx, "sign off", []string{"name", "role", "verdict", "note"}, []int{80, 80, 7, noteLimit}, nil)
+	f.notes = []string{"verdict: approve, revise or reject · role and note may stay empty",
+		"tab/↓ next · enter signs (written at once) · esc cancels"}
+	f.enter = "sign"
+	f.accept = func(r *Review, values []string) (tea.Cmd, int, string) {
+		name := strings.TrimSpace(values[signName])
+		verdict, err := decision.ParseVerdict(strings.TrimSpace(values[signVerdict]))
+		switch {
+		case name == "":
+			return nil, signName, "who signs? a name is needed"
+		case err != nil:
+			return nil, signVerdict, "the verdict is approve, revise or reject"
+		case r.changed:
+			return nil, -1, "write the changes first (esc, then w): a sign-off is for the choice in the file"
+		}
+		s := decision.SignOff{Name: name, Role: strings.TrimSpace(values[signRole]), Verdict: verdict,
+			Note: strings.Join(strings.Fields(values[signNote]), " "), At: time.Now().UTC().Truncate(time.Second)}
+		return r.sign(s), 0, ""
+	}
+	return f
 }
 
 // sign appends s to the file on disk, as sill review --sign does.
@@ -303,4 +341,26 @@ func (o *chartOverlay) View() string {
 func (o *chartOverlay) ShortHelp() []key.Binding {
 	k := o.ctx.keys
 	return []key.Binding{k.CurveView, hint(k.Cancel, "esc/t", "close")}
+}
+
+// newRecordForm is the explorer's form of what the decision file records
+// beside the figures: the model's name and version and who chose the cut
+// (--model-name, --model-version, --chosen-by). Empty fields are written
+// as not given; nothing is guessed.
+func newRecordForm(ctx *shared, model decision.Model, chosenBy string) *entryForm[*Model] {
+	f := newEntryForm[*Model](ctx, "model and who chose", []string{"model name", "model version", "chosen by"},
+		[]int{80, 80, 80}, []string{model.Name, model.Version, chosenBy})
+	f.notes = []string{"written into the decision file by w · empty: not recorded", "tab/↓ next · enter keeps · esc cancels"}
+	f.enter = "keep"
+	f.accept = func(m *Model, values []string) (tea.Cmd, int, string) {
+		next := decision.Model{Name: strings.TrimSpace(values[0]), Version: strings.TrimSpace(values[1])}
+		by := strings.TrimSpace(values[2])
+		if next != m.record.model || by != m.record.chosenBy {
+			m.record.model, m.record.chosenBy = next, by
+			m.unwritten = true
+			m.status = "model and who chose set (not written yet: w writes)"
+		}
+		return nil, 0, ""
+	}
+	return f
 }

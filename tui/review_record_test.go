@@ -156,3 +156,39 @@ func TestReviewAgainstPane(t *testing.T) {
 		}
 	}
 }
+
+// TestExplorerRecordForm: i sets the model and who chose; w writes them
+// into the decision file with the stored curve and the candidates' shift
+// queues; a file written without the form records neither.
+func TestExplorerRecordForm(t *testing.T) {
+	out := filepath.Join(t.TempDir(), "cut.yaml")
+	m := loaded(t, demoSet(t), demoAssumptions, out, 120, 36)
+	m = keys(m, "p", "i")
+	if len(m.overlays) != 1 {
+		t.Fatal("i opened no form")
+	}
+	m = typeText(m, "bearing-wear")
+	m = keys(m, "tab")
+	m = typeText(m, "14")
+	m = keys(m, "tab")
+	m = typeText(m, "Ines Varga")
+	m = keys(m, "enter")
+	if len(m.overlays) != 0 || !strings.Contains(m.status, "model and who chose set") {
+		t.Fatalf("status %q", m.status)
+	}
+	m = keys(m, "w")
+	f, err := decision.ReadFile(out)
+	if err != nil {
+		t.Fatalf("%v (status %q)", err, m.status)
+	}
+	if f.Model != (decision.Model{Name: "bearing-wear", Version: "14"}) || f.ChosenBy != "Ines Varga" || len(f.Curve) == 0 {
+		t.Errorf("model %+v chosen by %q, %d curve points", f.Model, f.ChosenBy, len(f.Curve))
+	}
+	// esc leaves them as they were.
+	m = keys(m, "i", "ctrl+u")
+	m = typeText(m, "other")
+	m = keys(m, "esc")
+	if m.record.model.Name != "bearing-wear" {
+		t.Errorf("esc changed the model to %q", m.record.model.Name)
+	}
+}

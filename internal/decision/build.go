@@ -237,11 +237,7 @@ func thin(res *analysis.Result, keep []float64) []CurvePoint {
 		}
 		previous, have = p, true
 	}
-	if res.Curve != nil {
-		res.Curve.Points(visit)
-	} else {
-		curve.Walk(res.Set, visit)
-	}
+	res.Points(visit)
 	if have && (len(out) == 0 || out[len(out)-1].Score != previous.Score) {
 		out = append(out, CurvePoint{Score: previous.Score, TP: previous.TP, FP: previous.FP})
 	}
