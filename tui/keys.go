@@ -98,7 +98,7 @@ func DefaultKeyMap() KeyMap {
 		Choose:    key.NewBinding(key.WithKeys("c"), key.WithHelp("c", "choose: the others vs it")),
 
 		Assumptions: key.NewBinding(key.WithKeys("a"), key.WithHelp("a", "edit assumptions")),
-		Record:      key.NewBinding(key.WithKeys("i"), key.WithHelp("i", "model and who chose (for the file)")),
+		Record:      key.NewBinding(key.WithKeys("i"), key.WithHelp("i", "model and who chose")),
 		Write:       key.NewBinding(key.WithKeys("w"), key.WithHelp("w", "write decision file")),
 		Help:        key.NewBinding(key.WithKeys("?"), key.WithHelp("?", "help")),
 		Quit:        key.NewBinding(key.WithKeys("q", "ctrl+c"), key.WithHelp("q", "quit")),
