@@ -62,11 +62,13 @@ func WriteAgainst(w io.Writer, proposed, production *decision.File, opt AgainstO
 			"The cut in production is %s, from %s; the proposed one is %s, from %s. This page sets the two side by side: "+
 			"the data and assumptions each rests on, their figures on their own validation sets, and what the change would mean per shift.",
 			oldChosen.Name, oldName, newChosen.Name, newName),
-		Assume:    assumptions(proposed),
-		Glossary:  glossary,
-		Caution:   evidence.Caution,
-		NoSignOff: "No sign-off of the proposed decision is recorded in its file.",
-		Written:   proposed.Created.UTC().Format("2006-01-02 15:04 MST") + " by " + proposed.WrittenBy() + " (proposed); " + production.Created.UTC().Format("2006-01-02 15:04 MST") + " by " + production.WrittenBy() + " (in production)",
+		Assume:     assumptions(proposed),
+		Glossary:   glossary,
+		Caution:    evidence.Caution,
+		NoSignOff:  "No sign-off of the proposed decision is recorded in its file.",
+		SignOffs:   signOffs(proposed),
+		SigningFor: signingFor(proposed, newChosen, newName),
+		Written:    proposed.Created.UTC().Format("2006-01-02 15:04 MST") + " by " + proposed.WrittenBy() + " (proposed); " + production.Created.UTC().Format("2006-01-02 15:04 MST") + " by " + production.WrittenBy() + " (in production)",
 	}
 	// Both chosen cuts side by side, the one in production as the
 	// reference; each column carries the figures projected under its own

@@ -160,6 +160,31 @@ func (c chart) draw(width, height vg.Length) (template.HTML, error) {
 	if c.yFromZero {
 		p.Y.Min = 0
 	}
+	if len(c.bars) > 0 {
+		// Headroom above the tallest mark for the legend in the corner.
+		top := 0.0
+		higher := func(v float64) {
+			if evidence.Defined(v) && v > top {
+				top = v
+			}
+		}
+		for _, b := range c.bars {
+			higher(b.value)
+		}
+		for _, l := range c.lines {
+			for _, xy := range l.points {
+				higher(xy.Y)
+			}
+		}
+		for _, series := range c.peaks {
+			for _, m := range series.marks {
+				higher(m.y)
+			}
+		}
+		if top > 0 {
+			p.Y.Max = top * 1.3
+		}
+	}
 
 	for _, l := range c.lines {
 		pts := thin(l.points, MaxDrawnPoints)

@@ -56,25 +56,25 @@ func Write(w io.Writer, f *decision.File, opt Options) error {
 
 // view is what the template shows.
 type view struct {
-	Title     string
-	Name      string
-	Against   *againstView // set on a page of two decisions
-	Job       string
-	Facts     []fact
-	Model     string
-	Charts    []figure
-	NoCurve   string
-	Table     tableView
-	Words     []words
-	Workload  workloadView
-	Sections  []section
-	Assume    []fact
-	Notes     []fact
-	Glossary  []fact
-	Caution   string
-	SignOffs  []signOff
-	NoSignOff string
-	Written   string
+	Title      string
+	Name       string
+	Against    *againstView // set on a page of two decisions
+	Job        string
+	Facts      []fact
+	Charts     []figure
+	NoCurve    string
+	Table      tableView
+	Words      []words
+	Workload   workloadView
+	Sections   []section
+	Assume     []fact
+	Notes      []fact
+	Glossary   []fact
+	Caution    string
+	SignOffs   []signOff
+	NoSignOff  string
+	SigningFor string // what a signature on paper approves
+	Written    string
 }
 
 type fact struct{ Term, Text string }
@@ -141,8 +141,7 @@ func newView(f *decision.File, opt Options) (*view, error) {
 		Title:   "Sign-off: " + chosen.Name + " on " + name,
 		Name:    name,
 		Job:     job(f, chosen),
-		Facts:   dataFacts(f),
-		Model:   model(f),
+		Facts:   append([]fact{{"model", model(f)}}, dataFacts(f)...),
 		Table:   tableOf(f),
 		Assume:  assumptions(f),
 		Notes:   notes(f),
@@ -163,8 +162,16 @@ func newView(f *decision.File, opt Options) (*view, error) {
 	}
 	v.Sections = []section{stability(f), segments(f), calibration(f)}
 	v.SignOffs = signOffs(f)
+	v.SigningFor = signingFor(f, chosen, name)
 	v.NoSignOff = "No sign-off is recorded in this file."
 	return v, nil
+}
+
+// signingFor says what a signature on paper is given for, so that a
+// printed sign-off page stands on its own.
+func signingFor(f *decision.File, chosen decision.Candidate, name string) string {
+	return fmt.Sprintf("Signing for the cut %s (flag a case when its score is %s %s) of %s, chosen on the validation set with fingerprint %s.",
+		chosen.Name, flagSign(f), format.Score(chosen.Cut.Score), name, f.Data.SHA256)
 }
 
 // ordered returns the candidates with the chosen one first and the others
@@ -398,12 +405,12 @@ func workload(f *decision.File) (workloadView, error) {
 		peaks = peaks || c.Shifts != nil
 	}
 	if peaks {
-		w.Header = append(w.Header, "real shifts", "9 in 10 at most", "busiest shift")
+		w.Header = append(w.Header, "mean of real shifts", "9 in 10 at most", "busiest shift", "its start")
 		if a.Capacity > 0 {
 			w.Header = append(w.Header, "shifts over capacity")
 		}
-		w.Peaks = "Real shifts: the validation period's cases placed in the crew shifts and scaled to production's volume; " +
-			"9 in 10 shifts have at most the figure shown, and the busiest is the heaviest single shift."
+		w.Peaks = "Real shifts: the validation period's cases placed in the crew shifts" + shiftCount(f) + " and scaled to production's volume; " +
+			"9 in 10 shifts have at most the figure shown, and the busiest is the heaviest single shift, with the time it started" + shiftZone(f) + "."
 	} else {
 		w.Peaks = "The busiest shifts were not computed for this decision: the figures are the expected load of an average shift."
 	}
@@ -447,6 +454,33 @@ func workload(f *decision.File) (workloadView, error) {
 	return w, nil
 }
 
+// shiftCount says how many real shifts the figures rest on, when the
+// candidates agree on it.
+func shiftCount(f *decision.File) string {
+	count := -1
+	for _, c := range f.Candidates {
+		if c.Shifts == nil {
+			continue
+		}
+		if count >= 0 && c.Shifts.Count != count {
+			return ""
+		}
+		count = c.Shifts.Count
+	}
+	if count < 0 {
+		return ""
+	}
+	return fmt.Sprintf(" (%d shifts)", count)
+}
+
+// shiftZone names the zone of the shifts' start times.
+func shiftZone(f *decision.File) string {
+	if f.ShiftSchedule == nil || f.ShiftSchedule.Zone == "" {
+		return ""
+	}
+	return " (" + f.ShiftSchedule.Zone + ")"
+}
+
 // shiftCells are a candidate's figures in the real shifts.
 func shiftCells(sh *decision.Shifts, capacity bool) []string {
 	n := 4
@@ -454,15 +488,15 @@ func shiftCells(sh *decision.Shifts, capacity bool) []string {
 		n = 3
 	}
 	if sh == nil {
-		cells := make([]string, n)
+		cells := make([]string, n+1)
 		cells[0] = "not computed"
 		return cells
 	}
-	busiest := format.Queue(sh.Max)
+	start := ""
 	if !sh.Busiest.IsZero() {
-		busiest += " (" + sh.Busiest.Format("2006-01-02 15:04 MST") + ")"
+		start = sh.Busiest.Format("2006-01-02 15:04")
 	}
-	cells := []string{fmt.Sprintf("%s on average over %d", format.Queue(sh.Mean), sh.Count), format.Queue(sh.P90), busiest}
+	cells := []string{format.Queue(sh.Mean), format.Queue(sh.P90), format.Queue(sh.Max), start}
 	if capacity {
 		cells = append(cells, format.Share(sh.OverCapacity))
 	}

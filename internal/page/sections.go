@@ -50,23 +50,27 @@ func stability(f *decision.File) section {
 			name += " (chosen)"
 		}
 		if st.Skipped != "" {
-			s.Rows = append(s.Rows, []string{name, "not resampled: " + st.Skipped, "", "", ""})
+			s.Rows = append(s.Rows, []string{name, "not resampled", "", "", ""})
+			s.Note += name + ": " + st.Skipped + ". "
 			continue
 		}
 		s.Rows = append(s.Rows, []string{name, fmt.Sprintf("%d of %d", st.Met, st.Replicates),
 			scoreRange(st.Score), format.Interval(st.FlaggedShare), format.Interval(st.Recall)})
 	}
+	s.Note = strings.TrimSpace(s.Note)
 	if s.Rows == nil {
 		s.Missing = notComputed + "the validation set was not drawn again, so how far each cut would move on another sample is not shown."
 	}
 	return s
 }
 
+// scoreRange is the range of a cut over the draws, to three significant
+// digits: the ends are percentiles between draws, not cuts of the data.
 func scoreRange(r [2]float64) string {
 	if format.Score(r[0]) == format.NA || format.Score(r[1]) == format.NA {
 		return format.NA
 	}
-	return format.Score(r[0]) + " to " + format.Score(r[1])
+	return format.Significant(r[0], 3) + " to " + format.Significant(r[1], 3)
 }
 
 // segments lists, for each candidate, the groups whose figures stand
