@@ -24,14 +24,60 @@ func (b statusBar) header(left, right string, rightW int) string {
 	return st.Header.Render(fitLine(left, width-rightW-2)) + "  " + st.Muted.Render(fitLine(right, rightW))
 }
 
-// footer is the bottom line: the status, cut to fit before the way to
-// every key and the way out (tail), which always show; then mark, a
-// rendered word on the state of the file, if any; then the enabled hints,
-// in order of importance, while they fit. A hint's key name and
-// description are its Help().
+// footer is the bottom line: the status before the way to every key and
+// the way out (tail), which always show; then mark, a rendered word on the
+// state of the file, if any; then the enabled hints, in order of
+// importance, while they fit. A hint's key name and description are its
+// Help(). A status too long for the bottom line starts on a line of its
+// own above it, at whole words, so that the footer is then two lines (see
+// withFooter); what still does not fit is shortened at a whole clause.
 func (b statusBar) footer(status, mark string, hints, tail []key.Binding) string {
 	st, width := b.ctx.styles, b.ctx.width
 	status = format.Printable(status) // it may quote a name, a note or an error from input
+	if above, rest, wrapped := b.wrapStatus(status, mark, tail); wrapped {
+		return st.Status.Render(fitLine(above, width)) + "\n" + b.footerLine(rest, mark, hints, tail)
+	}
+	return b.footerLine(status, mark, hints, tail)
+}
+
+// withFooter puts footer under frame, whose last lines give way to the
+// footer's lines beyond the first: a long status covers the bottom edge of
+// the panes until the next key clears it, and the screen keeps its height.
+func withFooter(frame, footer string) string {
+	if extra := strings.Count(footer, "\n"); extra > 0 {
+		lines := strings.Split(frame, "\n")
+		frame = strings.Join(lines[:max(len(lines)-extra, 0)], "\n")
+	}
+	return frame + "\n" + footer
+}
+
+// wrapStatus splits a status too long for the footer line into a first
+// line as wide as the screen, broken at a space, and the rest ("" when the
+// whole status fits on that line); wrapped is false when the status fits
+// the footer line as it is, or starts with a word wider than the screen.
+func (b statusBar) wrapStatus(status, mark string, tail []key.Binding) (above, rest string, wrapped bool) {
+	width := b.ctx.width
+	end := 0
+	for i, h := range tail {
+		if i > 0 {
+			end += 3
+		}
+		end += ansi.StringWidth(h.Help().Key) + 1 + ansi.StringWidth(h.Help().Desc)
+	}
+	room := width - ansi.StringWidth(mark) - end - 4
+	if status == "" || ansi.StringWidth(status) <= room {
+		return "", "", false
+	}
+	lines := wrapWords(status, width)
+	if ansi.StringWidth(lines[0]) > width {
+		return "", "", false // one word wider than the screen: cut below
+	}
+	return lines[0], strings.Join(lines[1:], " "), true
+}
+
+// footerLine is the footer's bottom line with status cut to fit.
+func (b statusBar) footerLine(status, mark string, hints, tail []key.Binding) string {
+	st, width := b.ctx.styles, b.ctx.width
 	render := func(h key.Binding) string {
 		return st.Key.Render(h.Help().Key) + " " + st.Footer.Render(h.Help().Desc)
 	}
@@ -79,13 +125,46 @@ func pairedHelp(keys, what string) key.Binding {
 	return key.NewBinding(key.WithKeys(keys), key.WithHelp(keys, what))
 }
 
-// fitStatus cuts a status line to width cells, marking the cut with …; it
-// keeps at least a few words when the room is smaller than that.
+// fitStatus shortens a status line to width cells: whole clauses (parted
+// by " · " or "; ") while they fit, then " …"; a first clause longer than
+// width is cut at a word, and only a single word is cut inside. It keeps
+// at least a few characters when the room is smaller than that.
 func fitStatus(status string, width int) string {
 	if ansi.StringWidth(status) <= width {
 		return status
 	}
-	return ansi.Truncate(status, max(width, 12), "…")
+	width = max(width, 12)
+	kept := ""
+	for pos := 0; ; {
+		i, sep := nextClause(status[pos:])
+		if i < 0 || ansi.StringWidth(status[:pos+i])+2 > width {
+			break
+		}
+		kept = status[:pos+i]
+		pos += i + len(sep)
+	}
+	if kept != "" {
+		return kept + " …"
+	}
+	words := wrapWords(status, width-2)
+	if len(words) > 0 && ansi.StringWidth(words[0]) <= width-2 {
+		return words[0] + " …"
+	}
+	return ansi.Truncate(status, width, "…")
+}
+
+// nextClause returns where the first clause of text ends, at " · " or
+// "; ", and that separator; -1 when text is one clause.
+func nextClause(text string) (int, string) {
+	dot, semi := strings.Index(text, " · "), strings.Index(text, "; ")
+	switch {
+	case dot < 0 && semi < 0:
+		return -1, ""
+	case semi < 0 || dot >= 0 && dot < semi:
+		return dot, " · "
+	default:
+		return semi, "; "
+	}
 }
 
 // splitKeys takes apart what a slow link glues together before a screen

@@ -9,6 +9,7 @@ import (
 
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/x/ansi"
 
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
@@ -246,5 +247,59 @@ func TestFooterOffersNoSwallowedKey(t *testing.T) {
 	}
 	if _, cmd := asked.Update(keyMsg("ctrl+c")); cmd == nil {
 		t.Errorf("ctrl+c at the question did not quit")
+	}
+}
+
+// TestFitStatus: a line too long for its room keeps whole clauses, or a
+// whole first part at a word, and never cuts a figure inside ("miss 1…").
+func TestFitStatus(t *testing.T) {
+	for _, tc := range []struct {
+		status string
+		width  int
+		want   string
+	}{
+		{"fits as it is", 20, "fits as it is"},
+		{"base rate 7.2% · costs: wrong alert 120, miss 1200, hit 0 · 95% intervals", 60, "base rate 7.2% · costs: wrong alert 120, miss 1200, hit 0 …"},
+		{"base rate 7.2% · costs: wrong alert 120, miss 1200, hit 0 · 95% intervals", 50, "base rate 7.2% …"},
+		{"resampled 100 times; warning: the scores are not calibrated", 30, "resampled 100 times …"},
+		{"no clause boundary in this rather long line of words", 30, "no clause boundary in this …"},
+		{"Unbreakablewordthatislongerthanthespace", 20, "Unbreakablewordthat…"},
+	} {
+		got := fitStatus(tc.status, tc.width)
+		if got != tc.want || ansi.StringWidth(got) > tc.width {
+			t.Errorf("fitStatus(%q, %d) = %q, want %q", tc.status, tc.width, got, tc.want)
+		}
+	}
+}
+
+// TestLongStatusWraps: at 80 columns a status longer than the footer's
+// room starts on a line of its own above the keys, whole, and the screen
+// keeps its size; the review screen's lines keep whole figures.
+func TestLongStatusWraps(t *testing.T) {
+	set := demoSet(t)
+	m := loaded(t, set, demoAssumptions, filepath.Join(t.TempDir(), "cut.yaml"), 80, 24)
+	m.status = "resampled 100 times · warning: the scores are not calibrated for costing (e)"
+	v := ansi.Strip(m.View())
+	checkSize(t, v, 80, 24)
+	lines := strings.Split(v, "\n")
+	if got := strings.TrimRight(lines[22], " "); got != m.status {
+		t.Errorf("line 23 %q, want the whole status", got)
+	}
+	if !strings.HasSuffix(strings.TrimRight(lines[23], " "), "? all keys · q quit") {
+		t.Errorf("last line %q, want the keys", lines[23])
+	}
+
+	r, _ := newTestReview(t, 80, 24)
+	rv := ansi.Strip(r.View())
+	checkSize(t, rv, 80, 24)
+	for _, line := range strings.Split(rv, "\n") {
+		for _, cut := range []string{"miss 1…", "miss 12…", "miss 120…", "written 20…"} {
+			if strings.Contains(line, cut) {
+				t.Errorf("a figure cut inside: %q", line)
+			}
+		}
+	}
+	if !strings.Contains(rv, "base rate 7.2% · 1500 per shift · capacity 90 …") {
+		t.Errorf("the assumptions line does not keep whole clauses:\n%s", rv)
 	}
 }

@@ -452,7 +452,7 @@ func (m Model) View() string {
 	if _, covers := top.(bodyCover); covers {
 		// The panes under it would show only at its edges, so they are
 		// not drawn.
-		base := m.header() + strings.Repeat("\n", h-1) + m.footer()
+		base := withFooter(m.header()+strings.Repeat("\n", h-2), m.footer())
 		return fit(drawOver(base, top.View(), w, h), w, h)
 	}
 	right := m.figures.View()
@@ -464,8 +464,7 @@ func (m Model) View() string {
 	if l.strip.H > 0 {
 		parts = append(parts, m.strip.View(m.focus == focusStrip))
 	}
-	parts = append(parts, m.footer())
-	frame := strings.Join(parts, "\n")
+	frame := withFooter(strings.Join(parts, "\n"), m.footer())
 	if top != nil {
 		frame = drawOver(frame, top.View(), w, h)
 	}

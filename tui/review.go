@@ -430,7 +430,7 @@ func (r Review) View() string {
 	if l.tooSmall {
 		return tooSmallNotice("sill review", reviewMinWidth, reviewMinHeight, w, h, len(r.overlays) > 0)
 	}
-	frame := strings.Join([]string{r.header(w), r.strip.View(true), r.notesView(l.notes), r.footer()}, "\n")
+	frame := withFooter(strings.Join([]string{r.header(w), r.strip.View(true), r.notesView(l.notes)}, "\n"), r.footer())
 	if n := len(r.overlays); n > 0 {
 		frame = drawOver(frame, r.overlays[n-1].View(), w, h)
 	}
@@ -458,10 +458,11 @@ func (r Review) header(width int) string {
 		parts = append(parts, "capacity "+format.Count(a.Capacity))
 	}
 	if c := a.Costs; c != nil {
-		parts = append(parts, fmt.Sprintf("costs: wrong alert %s · miss %s · hit %s", format.Money(c.FalseAlert), format.Money(c.Miss), format.Money(c.Hit)))
+		parts = append(parts, fmt.Sprintf("costs: wrong alert %s, miss %s, hit %s", format.Money(c.FalseAlert), format.Money(c.Miss), format.Money(c.Hit)))
 	}
 	parts = append(parts, fmt.Sprintf("%g%% intervals", 100*a.Confidence))
-	return first + "\n" + st.Muted.Render(fitLine(strings.Join(parts, " · "), width))
+	// Whole clauses only, so that no figure is cut inside ("miss 1…").
+	return first + "\n" + st.Muted.Render(fitLine(fitStatus(strings.Join(parts, " · "), width), width))
 }
 
 // notesView is the pane under the strip: the selected candidate's note,
@@ -486,19 +487,28 @@ func (r Review) notesView(at rect) string {
 		wrapped[0] = st.Label.Render(label) + strings.TrimPrefix(wrapped[0], label)
 		return wrapped
 	}
-	deploy := st.Muted.Render(fmt.Sprintf("deployment reads: flag a case when its score %s %s (%s) · file written %s by %s",
-		sign, format.Score(chosen.Cut.Score), format.Printable(chosen.Name), f.Created.UTC().Format("2006-01-02 15:04"), f.WrittenBy()))
+	// The deployment line wraps at words where the pane has room, and
+	// otherwise keeps its whole first clause, the cut as deployed.
+	deployment := fmt.Sprintf("deployment reads: flag a case when its score %s %s (%s) · file written %s by %s",
+		sign, format.Score(chosen.Cut.Score), format.Printable(chosen.Name), f.Created.UTC().Format("2006-01-02 15:04"), f.WrittenBy())
+	deploy := wrapWords(deployment, innerW)
 	lines := append(note("note on "+selected.Name+": ", selected.Note), note("file note: ", f.Note)...)
 	lines = append(lines, r.recordLines(innerW)...)
 	innerH := at.H - st.Pane.GetVerticalFrameSize()
-	if len(lines) >= innerH {
+	if len(deploy) > 1 && len(lines)+len(deploy) > innerH {
+		deploy = []string{fitStatus(deployment, innerW)}
+	}
+	for i := range deploy {
+		deploy[i] = st.Muted.Render(deploy[i])
+	}
+	if len(lines)+len(deploy) > innerH {
 		// Mark the cut, so that a note cut short does not read as whole.
-		lines = lines[:max(innerH-1, 0)]
+		lines = lines[:max(innerH-len(deploy), 0)]
 		if n := len(lines); n > 0 {
 			lines[n-1] = ansi.Truncate(lines[n-1], max(innerW-2, 1), "…") + " …"
 		}
 	}
-	lines = append(lines, deploy)
+	lines = append(lines, deploy...)
 	return framed(st.Pane, st.PaneEdge, st.Title, "notes", strings.Join(lines, "\n"), at.W, at.H)
 }
 
