@@ -13,6 +13,7 @@ import (
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/page"
 	"github.com/sill-tool/sill/internal/report"
+	"github.com/sill-tool/sill/internal/review"
 	"github.com/sill-tool/sill/internal/sharedfile"
 )
 
@@ -56,7 +57,7 @@ func reviewPage(cmd *cobra.Command, file *decision.File, path string, production
 		if production == nil {
 			return page.Write(w, file, page.Options{Name: path})
 		}
-		return page.WriteAgainst(w, file, production, page.AgainstOptions{Proposed: page.Options{Name: path}, Production: page.Options{Name: against}})
+		return page.WriteAgainst(w, review.Against(file, path, production, against))
 	})
 }
 

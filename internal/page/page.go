@@ -294,7 +294,10 @@ func render(t compare.Table, referenceWord string) tableView {
 	tv.Header = []cell{{Text: "figure"}}
 	for c, name := range t.Names {
 		if c == t.Reference {
-			tv.Header = append(tv.Header, cell{name + " (" + referenceWord + ")", "chosen"})
+			if name != referenceWord {
+				name += " (" + referenceWord + ")"
+			}
+			tv.Header = append(tv.Header, cell{name, "chosen"})
 			continue
 		}
 		tv.Header = append(tv.Header, cell{Text: name}, cell{"vs " + referenceWord, "diff"})

@@ -9,6 +9,7 @@ import (
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/page"
+	"github.com/sill-tool/sill/internal/review"
 )
 
 // offPage finds whatever in a page could make the browser ask for
@@ -95,10 +96,7 @@ func TestWriteAgainst(t *testing.T) {
 		production.Curve[i] = decision.CurvePoint{Score: p.Score, TP: p.TP * 0.9, FP: p.FP}
 	}
 	var b bytes.Buffer
-	err := page.WriteAgainst(&b, proposed, production, page.AgainstOptions{
-		Proposed:   page.Options{Name: "new.yaml"},
-		Production: page.Options{Name: "old.yaml"},
-	})
+	err := page.WriteAgainst(&b, review.Against(proposed, "new.yaml", production, "old.yaml"))
 	if err != nil {
 		t.Fatal(err)
 	}
