@@ -56,8 +56,8 @@ func (f *beyondFlags) register(fs *pflag.FlagSet) {
 func (f *beyondFlags) registerShared(fs *pflag.FlagSet) {
 	fs.StringVar(&f.calibrationBinning, "calibration-binning", "width", "reliability bins: width (equal width) or quantile (equal rows)")
 	fs.StringVar(&f.timeColumn, "time", "", "column of case times, for the queue of each real shift (needs --shifts)")
-	fs.StringVar(&f.timeLayout, "time-layout", "", `layout of --time in Go's reference-time form, e.g. "2006-01-02 15:04" (default: RFC 3339)`)
-	fs.StringVar(&f.timeZone, "tz", "UTC", "time zone of the shift schedule and of times without a zone, e.g. Europe/Amsterdam")
+	fs.StringVar(&f.timeLayout, "time-layout", "", `layout of --time in Go's reference-time form, e.g. "02/01/2006 15:04" (default: 2026-03-27T09:29:00Z, 2026-03-27 09:29:00 or 2026-03-27 09:29, with T or a space, seconds and fractions optional)`)
+	fs.StringVar(&f.timeZone, "tz", "UTC", "time zone of the shift schedule and of times without a zone (such as 2026-03-27 09:29:00), e.g. Europe/Amsterdam")
 	fs.StringVar(&f.shifts, "shifts", "", "local start times of the crew shifts, e.g. 06:00,14:00,22:00")
 	fs.StringVar(&f.compareFile, "compare", "", "a second model's scores of the same cases, joined on --id (its score column: the second --score)")
 }

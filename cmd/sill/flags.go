@@ -42,14 +42,43 @@ func (f *inputFlags) register(fs *pflag.FlagSet) {
 	fs.StringVar(&f.opt.Positive, "positive", "", "the only label value that means a true case (default: 1/true/yes/positive vs 0/false/no/negative)")
 	fs.BoolVar(&f.opt.LowerIsRiskier, "lower-is-riskier", false, "a small score means a likely true case")
 	fs.BoolVar(&f.opt.DropInvalid, "drop-invalid", false, "skip rows with a missing or non-finite score, and count them")
+	fs.BoolVar(&f.opt.DecimalComma, "decimal-comma", false, "numbers are written with a decimal comma, 0,25 (found without this flag in semicolon-separated text whose first score has one); a point in a number is then refused")
 	fs.StringVar(&f.input, "input", "", "input format: csv, jsonl or parquet (default: detected)")
 	fs.StringVar(&f.delim, "delim", "", `field delimiter for csv, e.g. "," or "\t" (default: detected from the header)`)
 	fs.BoolVar(&f.counts, "counts", false, "the input is a counts table: score, positives, negatives (and --segment), one row per score, as sill sql makes it")
 }
 
 // load reads the table at path ("-" for standard input); progress may be
-// nil. Reading stops with ctx's error once ctx ends.
+// nil. Reading stops with ctx's error once ctx ends. A reading error that
+// a flag can mend names the flag.
 func (f *inputFlags) load(ctx context.Context, path string, stdin io.Reader, progress func(rows int)) (*scores.Set, error) {
+	set, err := f.loadSet(ctx, path, stdin, progress)
+	return set, readFlagHint(err)
+}
+
+// readFlagHint adds to a reading error the flag that mends it, if one
+// does: --decimal-comma for a number with a decimal comma, --time-layout
+// (with a layout that reads the time, where one was found) for a time in
+// no form read without one.
+func readFlagHint(err error) error {
+	var layoutErr *scores.TimeLayoutError
+	switch {
+	case err == nil:
+		return nil
+	case errors.As(err, &layoutErr) && layoutErr.Layout != "":
+		return fmt.Errorf("%w; give it with --time-layout %q", err, layoutErr.Layout)
+	case errors.As(err, &layoutErr):
+		return fmt.Errorf("%w; give the layout with --time-layout", err)
+	case errors.Is(err, scores.ErrDecimalComma) && !errors.Is(err, scores.ErrBadScore) && !errors.Is(err, scores.ErrBadWeight) && !errors.Is(err, scores.ErrBadCount):
+		return err // decimal commas asked for where commas part the cells
+	case errors.Is(err, scores.ErrDecimalComma):
+		return fmt.Errorf("%w; read decimal commas with --decimal-comma", err)
+	}
+	return err
+}
+
+// loadSet is load without the flag hints.
+func (f *inputFlags) loadSet(ctx context.Context, path string, stdin io.Reader, progress func(rows int)) (*scores.Set, error) {
 	opt := f.opt
 	opt.Progress = progress
 	if err := f.scoreOptions(&opt); err != nil {

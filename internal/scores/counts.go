@@ -79,6 +79,9 @@ func ReadCounts(r io.Reader, source string, opt Options) (*Set, error) {
 	if err := b.resolve(header, 1); err != nil {
 		return nil, err
 	}
+	if err := b.useDecimalComma(b.delim, b.firstRow); err != nil {
+		return nil, err
+	}
 	positivesCol, negativesCol, unrecognisedCol := -1, -1, -1
 	for i, h := range header {
 		switch {
@@ -100,7 +103,11 @@ func ReadCounts(r io.Reader, source string, opt Options) (*Set, error) {
 	}
 	count := func(record []string, col, line int) (float64, error) {
 		text := strings.TrimSpace(record[col])
-		v, err := parseDecimal(text)
+		number, err := numberText(text, b.comma)
+		if err != nil {
+			return 0, &ParseError{File: source, Line: line, Column: header[col], Err: markError(ErrBadCount, text, err, "expected a whole number of cases >= 0")}
+		}
+		v, err := parseDecimal(number)
 		if err != nil || !(v >= 0 && v <= maxCount) || v != math.Trunc(v) {
 			return 0, &ParseError{File: source, Line: line, Column: header[col], Err: &valueError{sentinel: ErrBadCount, value: text, hint: "expected a whole number of cases >= 0"}}
 		}
@@ -154,7 +161,7 @@ func ReadCounts(r io.Reader, source string, opt Options) (*Set, error) {
 		if other > 0 {
 			return nil, &ParseError{File: source, Line: line, Column: header[unrecognisedCol], Err: fmt.Errorf("%w: %v case(s) with a label that is neither a true nor a false case, expected none (set --positive in the query)", ErrBadCount, other)}
 		}
-		score, err := parseScore(record[b.scoreCol])
+		score, err := parseScore(record[b.scoreCol], b.comma)
 		if err != nil {
 			pe := &ParseError{File: source, Line: line, Column: header[b.scoreCol], Err: err}
 			if !opt.DropInvalid {

@@ -55,6 +55,7 @@ type valueError struct {
 	sentinel error
 	value    string
 	hint     string
+	also     error // a second sentinel the error matches, or nil
 }
 
 func (e *valueError) Error() string {
@@ -65,4 +66,9 @@ func (e *valueError) Error() string {
 	return msg
 }
 
-func (e *valueError) Unwrap() error { return e.sentinel }
+func (e *valueError) Unwrap() []error {
+	if e.also != nil {
+		return []error{e.sentinel, e.also}
+	}
+	return []error{e.sentinel}
+}

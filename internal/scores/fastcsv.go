@@ -137,7 +137,17 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 	if err := b.resolve(header, 1); err != nil {
 		return nil, err
 	}
-	p := &blockParser{b: b, delim: byte(delim), fields: len(header), spare: make(chan blockColumns, 8)}
+	b.delim = delim
+	if delim == decimalCommaDelimiter && !opt.DecimalComma {
+		b.firstRow = firstRowAhead(in, 0)
+	}
+	if err := b.useDecimalComma(delim, b.firstRow); err != nil {
+		return nil, err
+	}
+	p := &blockParser{b: b, delim: byte(delim), mark: '.', fields: len(header), spare: make(chan blockColumns, 8)}
+	if b.comma {
+		p.mark = ','
+	}
 
 	blocks, readErr, stop := p.produce(in)
 	var (
@@ -276,6 +286,7 @@ func isSpaceByte(c byte) bool { return c == ' ' || c == '\t' || c == '\r' || c =
 type blockParser struct {
 	b      *builder
 	delim  byte
+	mark   byte              // the decimal mark, '.' or ','
 	fields int               // fields in the header
 	spare  chan blockColumns // parsed columns already copied into place, for reuse
 }
@@ -494,7 +505,7 @@ func (p *blockParser) plainRow(blk *block, data []byte) (rest []byte, ok bool) {
 			}
 			continue
 		}
-		if c == '.' && fraction < 0 {
+		if c == p.mark && fraction < 0 {
 			fraction = 0
 			continue
 		}
@@ -591,15 +602,15 @@ func (p *blockParser) quotedRow(blk *block, line int, row []byte) *rowEvent {
 }
 
 // scoreCell parses a score cell as parseScore does, trying the fast
-// parser first.
-func scoreCell(cell []byte) (float64, error) {
-	if v, ok := plainFloat(cell); ok {
+// parser first; mark is the decimal mark.
+func scoreCell(cell []byte, mark byte) (float64, error) {
+	if v, ok := plainFloat(cell, mark); ok {
 		if v == 0 {
 			v = 0 // fold -0 into +0, as parseScore does
 		}
 		return v, nil
 	}
-	return parseScore(string(cell))
+	return parseScore(string(cell), mark == ',')
 }
 
 // invalidScore handles a bad score cell in column col: the row is dropped
@@ -619,13 +630,13 @@ func (p *blockParser) invalidScore(blk *block, line, col int, err error) *rowEve
 // addRow reads the cells of one row as builder.add does.
 func (p *blockParser) addRow(blk *block, line int, cells [7][]byte) *rowEvent {
 	b := p.b
-	score, err := scoreCell(cells[0])
+	score, err := scoreCell(cells[0], p.mark)
 	if err != nil {
 		return p.invalidScore(blk, line, b.scoreCol, err)
 	}
 	var compare float64
 	if b.compareCol >= 0 {
-		if compare, err = scoreCell(cells[6]); err != nil {
+		if compare, err = scoreCell(cells[6], p.mark); err != nil {
 			return p.invalidScore(blk, line, b.compareCol, err)
 		}
 	}
@@ -651,10 +662,10 @@ func (p *blockParser) addRow(blk *block, line int, cells [7][]byte) *rowEvent {
 		}
 	}
 	if b.weightCol >= 0 {
-		w, ok := plainFloat(cells[2])
+		w, ok := plainFloat(cells[2], p.mark)
 		if !ok || w < 0 {
 			var err error
-			if w, err = parseWeight(string(cells[2])); err != nil {
+			if w, err = parseWeight(string(cells[2]), p.mark == ','); err != nil {
 				return &rowEvent{line: line, column: b.header[b.weightCol], err: err}
 			}
 		}
@@ -692,13 +703,13 @@ var pow10 = [...]float64{1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10,
 	1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22}
 
 // plainFloat reads a number written as an optional sign, digits and an
-// optional fraction, nothing else, with at most 15 digits in all. Such a
+// optional fraction after the decimal mark ('.' or ','), nothing else, with at most 15 digits in all. Such a
 // number is an integer below 2^53 divided by a power of ten at most 1e22,
 // both exact in float64, so the one correctly rounded division gives the
 // same float64 as strconv.ParseFloat. ok is false for every other form
 // (spaces, exponents, more digits, words), which the caller then reads with
 // strconv.
-func plainFloat(text []byte) (value float64, ok bool) {
+func plainFloat(text []byte, mark byte) (value float64, ok bool) {
 	i, negative := 0, false
 	if len(text) > 0 && (text[0] == '-' || text[0] == '+') {
 		negative = text[0] == '-'
@@ -715,7 +726,7 @@ func plainFloat(text []byte) (value float64, ok bool) {
 			if fraction >= 0 {
 				fraction++
 			}
-		case c == '.' && fraction < 0:
+		case c == mark && fraction < 0:
 			fraction = 0
 		default:
 			return 0, false

@@ -20,7 +20,7 @@ func TestPlainFloatMatchesStrconv(t *testing.T) {
 	rng := rand.New(rand.NewPCG(1, 2))
 	check := func(text string) {
 		t.Helper()
-		got, ok := plainFloat([]byte(text))
+		got, ok := plainFloat([]byte(text), '.')
 		want, err := strconv.ParseFloat(text, 64)
 		if !ok {
 			return // left to strconv; nothing to compare
@@ -49,7 +49,7 @@ func TestPlainFloatMatchesStrconv(t *testing.T) {
 		check(text)
 	}
 	for _, text := range []string{"", ".", "-", "+", "1e5", " 1", "1 ", "1.2.3", "inf", "NaN", "0x1p-2", "1_000", "1234567890123456", "--1", "1,5"} {
-		if _, ok := plainFloat([]byte(text)); ok {
+		if _, ok := plainFloat([]byte(text), '.'); ok {
 			t.Errorf("plainFloat(%q) took a form it must leave to strconv", text)
 		}
 	}
@@ -263,6 +263,12 @@ func TestLoadMatchesRead(t *testing.T) {
 		if strings.Contains(string(data[:min(len(data), 80)]), "other") {
 			opt.TimeColumn, opt.CompareColumn = "at", "other"
 		}
+		if header, _, _ := bytes.Cut(data, []byte("\n")); bytes.Contains(header, []byte(";")) && rng.IntN(2) == 0 {
+			// The same table with decimal commas, found from the first
+			// row or given.
+			data = bytes.ReplaceAll(data, []byte("."), []byte(","))
+			opt.DecimalComma = rng.IntN(3) == 0
+		}
 		name := fmt.Sprintf("trial %d (block %d, rows %d)", trial, blockSize, rows)
 		sameResult(t, name, data, opt)
 		if _, err := loadBlocks(bytes.NewReader(data), "t.csv", opt, int64(len(data))); err != errDecline {
@@ -314,6 +320,13 @@ func TestLoadCases(t *testing.T) {
 		{"weight column is the label column", "score,label\n0.5,1\n0.25,0\n0.75,1\n", Options{WeightColumn: "label"}, ""},
 		{"segment column is the label column", "score,label\n0.5,1\n0.25,0\n", Options{SegmentColumn: "label"}, ""},
 		{"id and time-free second score on the score column", "score,label\n0.5,1\n0.25,0\n", Options{IDColumn: "score", CompareColumn: "score"}, ""},
+		{"decimal commas found", "id;score;label;weight\n7;0,107681;1;2,5\n8;0,25;0;1\n", Options{WeightColumn: "weight"}, ""},
+		{"decimal commas given", "score\tlabel\n0,5\t1\n", Options{DecimalComma: true}, ""},
+		{"decimal commas with commas between cells", "score,label\n0,5\n", Options{DecimalComma: true}, `t.csv:1: a decimal comma: numbers with decimal commas in text delimited by commas, expected semicolons or tabs between the cells`},
+		{"decimal point in a file of decimal commas", "score;label\n0,5;1\n0.25;0\n", Options{}, `t.csv:3: column "score": invalid score "0.25", a point in a file read with decimal commas, expected a decimal comma such as 0,25 and no separator between thousands`},
+		{"thousands separator refused", "score;label;weight\n0,5;1;1.234,5\n", Options{WeightColumn: "weight"}, `t.csv:2: column "weight": invalid weight "1.234,5", a point in a file read with decimal commas, expected a decimal comma such as 0,25 and no separator between thousands`},
+		{"decimal comma after a first row without one", "score;label\n1;1\n0,25;0\n", Options{}, `t.csv:3: column "score": invalid score "0,25", a number with a decimal comma, expected a decimal point (or the file read with decimal commas)`},
+		{"decimal comma in a file delimited by tabs", "score\tlabel\n0,25\t0\n", Options{}, `t.csv:2: column "score": invalid score "0,25", a number with a decimal comma, expected a decimal point (or the file read with decimal commas)`},
 	}
 	for _, size := range []int{8, 1 << 20} {
 		blockSize = size
@@ -344,7 +357,7 @@ func TestLoadKnowsEveryOption(t *testing.T) {
 		"Input": true, "Delimiter": true, "ScoreColumn": true, "LabelColumn": true, "WeightColumn": true,
 		"SegmentColumn": true, "IDColumn": true, "TimeColumn": true, "TimeLayout": true, "TimeLocation": true,
 		"CompareColumn": true, "NoLabels": true, "Positive": true, "LowerIsRiskier": true, "DropInvalid": true,
-		"Progress":     true,
+		"Progress": true, "DecimalComma": true,
 		"IgnoreLabels": true, // resolve leaves no label column, which the block reader follows
 	}
 	typ := reflect.TypeOf(Options{})

@@ -362,7 +362,7 @@ func (b *builder) decodeRowGroup(group parquet.RowGroup, n int, columns []wanted
 		switch i {
 		case 0:
 			visit = func(row int, v parquet.Value) {
-				x, err := parquetNumber(v, kind, parseScore)
+				x, err := parquetNumber(v, kind, parquetScore)
 				if err != nil {
 					note(&g.scoreErr, row, err)
 				}
@@ -380,7 +380,7 @@ func (b *builder) decodeRowGroup(group parquet.RowGroup, n int, columns []wanted
 		case 2:
 			g.weights, g.hasWeights = make([]float64, 0, reserve), true
 			visit = func(row int, v parquet.Value) {
-				w, err := parquetNumber(v, kind, parseWeight)
+				w, err := parquetNumber(v, kind, parquetWeight)
 				if err != nil {
 					note(&g.weightErr, row, err)
 				}
@@ -492,8 +492,13 @@ func (b *builder) addDecoded(line int, g *decodedGroup, i int) error {
 	return nil
 }
 
-// parquetNumber reads a score or weight; parse is parseScore or
-// parseWeight, which also judges numbers from numeric columns, so that the
+// parquetScore and parquetWeight read the text of a Parquet value as a
+// score or a weight, always with a decimal point.
+func parquetScore(text string) (float64, error)  { return parseScore(text, false) }
+func parquetWeight(text string) (float64, error) { return parseWeight(text, false) }
+
+// parquetNumber reads a score or weight; parse is parquetScore or
+// parquetWeight, which also judges numbers from numeric columns, so that the
 // checks and messages are those of text.
 func parquetNumber(v parquet.Value, kind numberKind, parse func(string) (float64, error)) (float64, error) {
 	if v.IsNull() {

@@ -80,6 +80,14 @@ type Options struct {
 
 	LowerIsRiskier bool
 
+	// DecimalComma reads numbers (scores, weights, counts) written with a
+	// decimal comma, 0,25, as European spreadsheets export them. Without
+	// it decimal commas are read in text delimited by semicolons whose
+	// first data row's score has one. Either way a file has one decimal
+	// mark, and separators between thousands are not read: in a file
+	// with decimal commas a number holding a point (1.234,5) is an error.
+	DecimalComma bool
+
 	// DropInvalid skips rows whose score is missing or not a finite number
 	// instead of failing; the Set counts them.
 	DropInvalid bool
@@ -111,8 +119,10 @@ func Read(r io.Reader, source string, opt Options) (*Set, error) {
 	return b.finish(hex.EncodeToString(digest.Sum(nil)))
 }
 
-// openInput returns a buffered reader of the decompressed bytes with any
-// byte-order mark skipped. Gzip data is read member by member, so that
+// openInput returns a buffered reader of the decompressed bytes as UTF-8
+// text: a UTF-8 byte-order mark is skipped and UTF-16 text that begins
+// with its byte-order mark (either byte order) is decoded; UTF-16 without
+// one is ErrEncoding. Gzip data is read member by member, so that
 // bytes after the last member that are not another one are an error
 // saying so, and gzip data inside gzip data is refused.
 func openInput(r io.Reader, source string) (*bufio.Reader, error) {
@@ -127,6 +137,13 @@ func openInput(r io.Reader, source string) (*bufio.Reader, error) {
 		if isGzip(buffered) {
 			return nil, &ParseError{File: source, Err: fmt.Errorf("%w: the decompressed bytes begin with gzip's magic again, expected text; decompress the file once before reading it", ErrGzipTwice)}
 		}
+	}
+	if bigEndian, ok := utf16Order(buffered); ok {
+		buffered.Discard(2)
+		return bufio.NewReaderSize(newUTF16Reader(buffered, source, bigEndian), 1<<20), nil
+	}
+	if looksUTF16(buffered) {
+		return nil, &ParseError{File: source, Err: fmt.Errorf("%w: UTF-16 without a byte-order mark, expected UTF-8, or UTF-16 that begins with its byte-order mark as spreadsheets write it", ErrEncoding)}
 	}
 	if bom, _ := buffered.Peek(3); bytes.Equal(bom, []byte("\xef\xbb\xbf")) {
 		buffered.Discard(3)
@@ -190,6 +207,10 @@ type builder struct {
 
 	dropped        int
 	droppedReasons []string
+
+	comma    bool   // numbers have a decimal comma (see useDecimalComma)
+	delim    rune   // the delimiter of delimited text
+	firstRow []byte // the first data row of delimited text, for useDecimalComma
 }
 
 func (b *builder) readAll(in *bufio.Reader) error {
@@ -397,7 +418,7 @@ func quoteList(names []string) string {
 // add parses one row; cell returns the text of a column index.
 func (b *builder) add(line int, cell func(col int) string) error {
 	scoreText := cell(b.scoreCol)
-	score, err := parseScore(scoreText)
+	score, err := parseScore(scoreText, b.comma)
 	if err != nil {
 		if b.opt.DropInvalid {
 			b.dropped++
@@ -410,7 +431,7 @@ func (b *builder) add(line int, cell func(col int) string) error {
 	}
 	var compare float64
 	if b.compareCol >= 0 {
-		if compare, err = parseScore(cell(b.compareCol)); err != nil {
+		if compare, err = parseScore(cell(b.compareCol), b.comma); err != nil {
 			if b.opt.DropInvalid {
 				b.dropped++
 				if len(b.droppedReasons) < maxDroppedReasons {
@@ -434,7 +455,7 @@ func (b *builder) add(line int, cell func(col int) string) error {
 		}
 	}
 	if b.weightCol >= 0 {
-		w, err := parseWeight(cell(b.weightCol))
+		w, err := parseWeight(cell(b.weightCol), b.comma)
 		if err != nil {
 			return &ParseError{File: b.source, Line: line, Column: b.header[b.weightCol], Err: err}
 		}
@@ -512,12 +533,19 @@ func (b *builder) finish(digest string) (*Set, error) {
 	return s, nil
 }
 
-func parseScore(text string) (float64, error) {
+// parseScore reads a score cell: a finite number in decimal notation,
+// with a decimal comma instead of a point when comma is set (see
+// numberText).
+func parseScore(text string, comma bool) (float64, error) {
 	text = strings.TrimSpace(text)
 	if text == "" {
 		return 0, &valueError{sentinel: ErrBadScore, value: text, hint: "expected a number, found an empty cell"}
 	}
-	v, err := parseDecimal(text)
+	number, err := numberText(text, comma)
+	if err != nil {
+		return 0, markError(ErrBadScore, text, err, "expected a finite number")
+	}
+	v, err := parseDecimal(number)
 	if err == errGoNotation {
 		return 0, &valueError{sentinel: ErrBadScore, value: text, hint: goNotationHint}
 	}
@@ -530,30 +558,15 @@ func parseScore(text string) (float64, error) {
 	return v, nil
 }
 
-// parseTime reads a case time as unix seconds: RFC 3339 when layout is
-// empty, else the layout of package time, read in loc (nil means UTC) when
-// it carries no zone.
-func parseTime(text, layout string, loc *time.Location) (int64, error) {
+// parseWeight reads a weight cell as parseScore reads a score, refusing
+// a negative weight.
+func parseWeight(text string, comma bool) (float64, error) {
 	text = strings.TrimSpace(text)
-	hint := "expected a time in RFC 3339 form such as 2026-09-01T06:30:00Z"
-	if layout == "" {
-		layout = time.RFC3339
-	} else {
-		hint = "expected a time in the layout " + strconv.Quote(layout)
-	}
-	if loc == nil {
-		loc = time.UTC
-	}
-	t, err := time.ParseInLocation(layout, text, loc)
+	number, err := numberText(text, comma)
 	if err != nil {
-		return 0, &valueError{sentinel: ErrBadTime, value: text, hint: hint}
+		return 0, markError(ErrBadWeight, text, err, "expected a finite number >= 0")
 	}
-	return t.Unix(), nil
-}
-
-func parseWeight(text string) (float64, error) {
-	text = strings.TrimSpace(text)
-	v, err := parseDecimal(text)
+	v, err := parseDecimal(number)
 	if err == errGoNotation {
 		return 0, &valueError{sentinel: ErrBadWeight, value: text, hint: goNotationHint}
 	}
@@ -579,6 +592,9 @@ func (b *builder) parseLabel(text string) (bool, error) {
 		return false, nil
 	}
 	// Numeric spellings such as 1.0 or 0.0, as written by float columns.
+	if number, err := numberText(word, b.comma); err == nil {
+		word = number
+	}
 	if v, err := parseDecimal(word); err == nil && (v == 0 || v == 1) {
 		return v == 1, nil
 	}
@@ -608,6 +624,11 @@ func (b *builder) readHeader(in *bufio.Reader) (*recordReader, []string, error) 
 	if delim == 0 {
 		delim = detectDelimiter(headerLine)
 	}
+	b.delim = delim
+	if delim == decimalCommaDelimiter && !b.opt.DecimalComma {
+		headerStart := len(peeked) - len(bytes.TrimLeft(peeked, "\r\n"))
+		b.firstRow = firstRowAhead(in, headerStart+len(headerLine)+1)
+	}
 	r := newRecordReader(in, b.source, delim)
 	header, err := r.Read()
 	if err == io.EOF {
@@ -631,6 +652,9 @@ func (b *builder) readDelimited(in *bufio.Reader) error {
 	}
 	headerLine, _ := r.FieldPos(0) // 1 unless blank lines come first
 	if err := b.resolve(header, headerLine); err != nil {
+		return err
+	}
+	if err := b.useDecimalComma(b.delim, b.firstRow); err != nil {
 		return err
 	}
 	for {
@@ -707,6 +731,10 @@ func (b *builder) csvError(err error) error {
 // readError wraps an error from the underlying stream, recognising broken
 // gzip data.
 func (b *builder) readError(line int, err error) error {
+	var own *ParseError
+	if errors.As(err, &own) {
+		return own
+	}
 	if errors.Is(err, ErrCorruptGzip) {
 		return &ParseError{File: b.source, Line: line, Err: err}
 	}

@@ -61,7 +61,7 @@ func TestBadTimeAndCompareErrors(t *testing.T) {
 		message  string
 	}{
 		{"bad time", "score,label,when\n0.3,1,2026-09-01T00:00:00Z\n0.4,0,yesterday\n", scores.Options{TimeColumn: "when"}, scores.ErrBadTime,
-			`t.csv:3: column "when": invalid time "yesterday", expected a time in RFC 3339 form such as 2026-09-01T06:30:00Z`},
+			`t.csv:3: column "when": invalid time "yesterday", expected a date and time such as 2026-03-27 09:29:00 or 2026-03-27T09:29Z (a time without a zone is read in the time zone given), or the layout of the times written as Go writes its reference time, Mon Jan 2 15:04:05 2006`},
 		{"missing time column", "score,label\n0.3,1\n", scores.Options{TimeColumn: "when"}, scores.ErrMissingColumn, ""},
 		{"bad second score", "score,label,b\n0.3,1,NaN\n", scores.Options{CompareColumn: "b"}, scores.ErrBadScore, ""},
 	}
