@@ -41,8 +41,9 @@ type (
 	// reviewWrittenMsg says the decision file was written, and what it
 	// is now.
 	reviewWrittenMsg struct {
-		path  string
-		stamp sharedfile.Stamp
+		path     string
+		stamp    sharedfile.Stamp
+		signOffs []decision.SignOff // as written: the screen's and any given meanwhile
 	}
 	// reviewWriteFailedMsg says it was not.
 	reviewWriteFailedMsg struct{ err error }
@@ -164,8 +165,13 @@ func (r Review) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		return r, nil
 	case reviewWrittenMsg:
 		r.changed, r.written, r.stamp, r.writeErr = false, true, msg.stamp, nil
+		kept := len(msg.signOffs) - len(r.file.SignOffs)
+		r.file.SignOffs, r.file.Format = msg.signOffs, decision.Format
 		c := r.file.Candidates[r.chosen()]
 		r.status = fmt.Sprintf("written to %s · chosen %s", msg.path, c.Name)
+		if kept > 0 {
+			r.status += fmt.Sprintf(" · kept %d sign-off(s) given meanwhile", kept)
+		}
 		if r.quitting {
 			return r, tea.Quit
 		}
@@ -328,11 +334,13 @@ func (r Review) write(force bool) tea.Cmd {
 	path, shown, ctx, expect, writes := r.saveTo, r.path, r.writeCtx, r.stamp, r.writes
 	return func() tea.Msg {
 		return writes.run(func() tea.Msg {
-			stamp, err := decision.Write(ctx, path, &f, decision.WriteOptions{Force: force, Expect: &expect})
+			// Sign-offs given meanwhile (sill review --sign, another
+			// screen) are kept; any other change is refused.
+			stamp, signOffs, err := decision.Rewrite(ctx, path, &f, expect, force)
 			if err != nil {
 				return reviewWriteFailedMsg{err}
 			}
-			return reviewWrittenMsg{path: shown, stamp: stamp}
+			return reviewWrittenMsg{path: shown, stamp: stamp, signOffs: signOffs}
 		}, reviewWriteFailedMsg{errScreenEnded})
 	}
 }

@@ -1,10 +1,12 @@
 package tui
 
 import (
+	"context"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
+	"time"
 
 	tea "github.com/charmbracelet/bubbletea"
 
@@ -190,5 +192,31 @@ func TestExplorerRecordForm(t *testing.T) {
 	m = keys(m, "esc")
 	if m.record.model.Name != "bearing-wear" {
 		t.Errorf("esc changed the model to %q", m.record.model.Name)
+	}
+}
+
+// TestReviewWriteKeepsSignOffs: a sign-off given while the screen is open
+// (sill review --sign elsewhere) is kept when the screen writes its
+// choice, and shows on screen after.
+func TestReviewWriteKeepsSignOffs(t *testing.T) {
+	r, path := newTestReview(t, 120, 32)
+	if _, _, err := decision.AppendSignOff(context.Background(), path, decision.SignOff{Name: "Tomas Reiner", Verdict: decision.Approve, At: time.Now()}); err != nil {
+		t.Fatal(err)
+	}
+	r, _ = sendReview(t, r, keyPress("right"))
+	r, _ = sendReview(t, r, keyPress("c"))
+	r, _ = sendReview(t, r, keyPress("w"))
+	back, err := decision.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if back.Chosen != "cost" || len(back.SignOffs) != 1 || !r.Written() || !strings.Contains(r.status, "kept 1 sign-off(s) given meanwhile") {
+		t.Fatalf("chosen %q, %d sign-offs, written %v, status %q", back.Chosen, len(back.SignOffs), r.Written(), r.status)
+	}
+	if back.ForCurrentChoice(back.SignOffs[0]) {
+		t.Error("the sign-off for queue=90 reads as for the new choice")
+	}
+	if v := r.View(); !strings.Contains(v, "[given for the earlier choice queue=90 at score 0.36]") {
+		t.Errorf("the earlier sign-off is not marked on screen:\n%s", v)
 	}
 }

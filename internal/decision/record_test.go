@@ -16,6 +16,7 @@ import (
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
+	"github.com/sill-tool/sill/internal/sharedfile"
 )
 
 // TestDemoRecordsWhatWasComputed: the demo's file, made with segments,
@@ -318,4 +319,56 @@ func bigResult(t *testing.T, n int) *analysis.Result {
 		t.Fatal(err)
 	}
 	return res
+}
+
+// TestRewriteKeepsSignOffs: a screen's write over the file it read keeps
+// the sign-offs appended since, and is refused when anything else
+// changed, so that no one's write is lost.
+func TestRewriteKeepsSignOffs(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "cut.yaml")
+	if err := save(path, demoFile(t), false); err != nil {
+		t.Fatal(err)
+	}
+	mine, stamp, err := ReadFileStamped(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Two sign-offs land while the screen is open.
+	for _, name := range []string{"Ana", "Bo"} {
+		if _, _, err := AppendSignOff(context.Background(), path, SignOff{Name: name, Verdict: Approve, At: time.Now()}); err != nil {
+			t.Fatal(err)
+		}
+	}
+	mine.Chosen = "hit=0.8"
+	stamp, kept, err := Rewrite(context.Background(), path, mine, stamp, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	back, err := ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if back.Chosen != "hit=0.8" || len(back.SignOffs) != 3 || len(kept) != 3 || back.SignOffs[2].Name != "Bo" {
+		t.Fatalf("chosen %q, %d sign-offs on disk, %d returned", back.Chosen, len(back.SignOffs), len(kept))
+	}
+	// The stamp returned is the file written: the next write goes through.
+	mine.SignOffs = kept
+	mine.Note = "second thoughts"
+	if stamp, _, err = Rewrite(context.Background(), path, mine, stamp, false); err != nil {
+		t.Fatal(err)
+	}
+	// Any other change refuses the write and leaves the file as it is.
+	other, _ := ReadFile(path)
+	other.Note = "someone else's note"
+	if err := save(path, other, false); err != nil {
+		t.Fatal(err)
+	}
+	before, _ := os.ReadFile(path)
+	mine.Chosen = "base"
+	if _, _, err := Rewrite(context.Background(), path, mine, stamp, false); !errors.Is(err, sharedfile.ErrChanged) {
+		t.Fatalf("error %v, want ErrChanged", err)
+	}
+	if after, _ := os.ReadFile(path); !bytes.Equal(before, after) {
+		t.Fatal("a refused write changed the file")
+	}
 }

@@ -3,6 +3,7 @@ package decision
 import (
 	"bytes"
 	"context"
+	"crypto/sha256"
 	"errors"
 	"fmt"
 	"strings"
@@ -139,3 +140,80 @@ func AppendSignOff(ctx context.Context, path string, s SignOff) (*File, sharedfi
 	}
 	return written, stamp, nil
 }
+
+// Rewrite writes f over the decision file at path that it was read from
+// (expect: ReadFileStamped, or the Stamp of the last write), like Write
+// with WriteOptions.Expect, except that sign-offs appended to the file
+// since are kept: when the file on disk is what was read plus sign-offs
+// after f's own, f is written with all of them. Any other change refuses
+// the write with an error matching sharedfile.ErrChanged, so that no one
+// else's write is lost. force replaces a file that is not a decision file
+// on the same data, as WriteOptions.Force does. It returns the Stamp of
+// the file written and the sign-offs it holds.
+func Rewrite(ctx context.Context, path string, f *File, expect sharedfile.Stamp, force bool) (sharedfile.Stamp, []SignOff, error) {
+	if err := f.Validate(); err != nil {
+		return sharedfile.Stamp{}, nil, fmt.Errorf("write %s: %w", path, err)
+	}
+	signOffs := f.SignOffs
+	// The checks run in the order of Write's: changed since read first,
+	// then the kind of file (sharedfile checks Expect before Kind).
+	stamp, err := sharedfile.Update(ctx, path, sharedfile.Options{}, func(current []byte) ([]byte, error) {
+		g := *f
+		switch {
+		case current == nil && !expect.Exists, current != nil && expect.Exists && sha256.Sum256(current) == expect.SHA256:
+		case current == nil:
+			return nil, fmt.Errorf("%w: removed since it was read", sharedfile.ErrChanged)
+		default:
+			later, ok := signedSince(current, path, f, expect)
+			if !ok || !expect.Exists {
+				return nil, fmt.Errorf("%w by more than sign-offs", sharedfile.ErrChanged)
+			}
+			g.SignOffs = append(append([]SignOff(nil), f.SignOffs...), later...)
+		}
+		if len(current) > 0 && !force {
+			if err := replaceable(current, path, f.Data.SHA256); err != nil {
+				return nil, &kindError{err}
+			}
+		}
+		signOffs = g.SignOffs
+		return Marshal(&g)
+	})
+	if err != nil {
+		return sharedfile.Stamp{}, nil, err
+	}
+	return stamp, signOffs, nil
+}
+
+// signedSince returns the sign-offs of current after f's own when current
+// is the file that expect describes with only those sign-offs appended:
+// f's sign-offs first, and the rest of the file, written again without
+// the new ones, exactly what was read.
+func signedSince(current []byte, path string, f *File, expect sharedfile.Stamp) ([]SignOff, bool) {
+	now, err := Read(bytes.NewReader(current), path)
+	n := len(f.SignOffs)
+	if err != nil || len(now.SignOffs) <= n {
+		return nil, false
+	}
+	for i, s := range f.SignOffs {
+		t := now.SignOffs[i]
+		if s.Name != t.Name || s.Role != t.Role || s.Verdict != t.Verdict || s.Note != t.Note || !s.At.Equal(t.At) ||
+			s.Key != t.Key || s.Chosen != t.Chosen || s.ChosenScore != t.ChosenScore {
+			return nil, false
+		}
+	}
+	before := *now
+	before.SignOffs = now.SignOffs[:n]
+	data, err := Marshal(&before)
+	if err != nil || sha256.Sum256(data) != expect.SHA256 {
+		return nil, false
+	}
+	return append([]SignOff(nil), now.SignOffs[n:]...), true
+}
+
+// kindError is a refusal of the kind of file found: it matches
+// sharedfile.ErrOtherKind as Write's refusals do.
+type kindError struct{ err error }
+
+func (e *kindError) Error() string        { return e.err.Error() }
+func (e *kindError) Unwrap() error        { return e.err }
+func (e *kindError) Is(target error) bool { return target == sharedfile.ErrOtherKind }
