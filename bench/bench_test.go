@@ -2,9 +2,12 @@ package bench
 
 import (
 	"bytes"
+	"compress/gzip"
+	"io"
 	"sync"
 	"testing"
 
+	kgzip "github.com/klauspost/compress/gzip"
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/scores"
 )
@@ -98,3 +101,65 @@ func BenchmarkSweep(b *testing.B) {
 
 // An explorer keystroke (update plus view at 10M rows) is benchmarked in
 // package tui, next to the model it drives.
+
+var (
+	gzipOnce  sync.Once
+	gzipTable []byte
+)
+
+// benchGzip returns the table compressed with gzip at its default level,
+// made once.
+func benchGzip(b *testing.B) []byte {
+	plain := benchTable(b)
+	gzipOnce.Do(func() {
+		var buf bytes.Buffer
+		w := gzip.NewWriter(&buf)
+		w.Write(plain)
+		if err := w.Close(); err != nil {
+			panic(err)
+		}
+		gzipTable = buf.Bytes()
+	})
+	return gzipTable
+}
+
+// BenchmarkGzipDecompress only decompresses the gzip table, with the
+// decoder scores uses, into nothing: the time BenchmarkGzipLoad is held
+// to (at most 1.3 times this). Both report the plain table's bytes.
+func BenchmarkGzipDecompress(b *testing.B) {
+	data := benchGzip(b)
+	for b.Loop() {
+		n, err := scores.Decompress(bytes.NewReader(data), io.Discard)
+		if err != nil || n != int64(len(benchTable(b))) {
+			b.Fatal(n, err)
+		}
+	}
+}
+
+// BenchmarkGzipLoad reads the gzip table with scores.Load, decompressing
+// and parsing at once, the sort included.
+func BenchmarkGzipLoad(b *testing.B) {
+	data := benchGzip(b)
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := scores.Load(bytes.NewReader(data), "bench.csv.gz", scores.Options{}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// BenchmarkGzipDecompressFast only decompresses the gzip table with the
+// faster decoder the readers use, to show how much of the reading is
+// decompression.
+func BenchmarkGzipDecompressFast(b *testing.B) {
+	data := benchGzip(b)
+	for b.Loop() {
+		z, err := kgzip.NewReader(bytes.NewReader(data))
+		if err != nil {
+			b.Fatal(err)
+		}
+		if n, err := io.Copy(io.Discard, z); err != nil || n != int64(len(benchTable(b))) {
+			b.Fatal(n, err)
+		}
+	}
+}
