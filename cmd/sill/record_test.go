@@ -157,3 +157,28 @@ func TestReviewAgainst(t *testing.T) {
 		t.Errorf("missing --against file: exit %d, %q", r.code, r.stderr)
 	}
 }
+
+// TestV1FileReadsEverywhere: a sill-cut/1 file as an earlier build saved
+// it reads in review (text and Markdown) and check, and a sign-off
+// upgrades it to sill-cut/2.
+func TestV1FileReadsEverywhere(t *testing.T) {
+	dir := t.TempDir()
+	v1, err := os.ReadFile(filepath.Join("..", "..", "internal", "decision", "testdata", "v1", "demo.yaml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	cutPath := writeFile(t, dir, "cut.yaml", v1)
+	scoresPath := writeFile(t, dir, "bearings.csv", demo.CSV(demo.DefaultRows, demo.DefaultSeed))
+	for _, args := range [][]string{{"review", cutPath}, {"review", cutPath, "--format", "markdown"}, {"check", cutPath, scoresPath}} {
+		if r := runSill(t, "", args...); r.code != 0 || !strings.Contains(r.stdout, "queue=90") {
+			t.Errorf("%q: exit %d, %s", args, r.code, r.stderr)
+		}
+	}
+	if r := runSill(t, "", "review", cutPath, "--sign", "Ada Quist", "--verdict", "approve"); r.code != 0 {
+		t.Fatalf("sign: exit %d, %s", r.code, r.stderr)
+	}
+	f, err := decision.ReadFile(cutPath)
+	if err != nil || f.Upgraded() || len(f.SignOffs) != 1 {
+		t.Fatalf("after signing: %v, upgraded %v, %d sign-offs", err, f.Upgraded(), len(f.SignOffs))
+	}
+}
