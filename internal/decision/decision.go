@@ -15,7 +15,8 @@
 // (zero volume or capacity, nil costs) are written as null as well.
 //
 // Use New to build a File from the figures of package analysis, Write to
-// save it, Read or ReadFile to load one and AppendSignOff to sign one off.
+// save it, Read or ReadFile to load one, AppendSignOff to sign one off and
+// Rewrite to write back a file read earlier, keeping sign-offs given since.
 package decision
 
 import (
