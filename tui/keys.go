@@ -50,6 +50,7 @@ type KeyMap struct {
 	Record      key.Binding // open the form of the model and who chose
 	Write       key.Binding // write the decision file
 	Help        key.Binding // show or hide every key
+	HelpPage    key.Binding // in the help: the next page (keys, then the terms on screen)
 	Quit        key.Binding
 	Interrupt   key.Binding // quits from anywhere, forms included
 
@@ -101,6 +102,7 @@ func DefaultKeyMap() KeyMap {
 		Record:      key.NewBinding(key.WithKeys("i"), key.WithHelp("i", "model and who chose")),
 		Write:       key.NewBinding(key.WithKeys("w"), key.WithHelp("w", "write decision file")),
 		Help:        key.NewBinding(key.WithKeys("?"), key.WithHelp("?", "help")),
+		HelpPage:    key.NewBinding(key.WithKeys("tab", "right", "l", "left", "h", "shift+tab"), key.WithHelp("tab/←→", "next page: keys, terms")),
 		Quit:        key.NewBinding(key.WithKeys("q", "ctrl+c"), key.WithHelp("q", "quit")),
 		Interrupt:   key.NewBinding(key.WithKeys("ctrl+c"), key.WithHelp("ctrl+c", "quit, from forms too")),
 

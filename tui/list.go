@@ -111,13 +111,20 @@ func (p listPane) View(focused bool) string {
 }
 
 // columns are the widths of the list's columns at an inner width.
-type listColumns struct{ rank, score, id, segment int }
+type listColumns struct{ rank, score, mark, id, segment int }
 
 // columns fits the columns to innerW; idWidth is the widest id in view.
 func (p listPane) columns(innerW, idWidth int) listColumns {
-	c := listColumns{rank: max(len(strconv.Itoa(p.s.set.Len())), 4), score: 7}
-	// gutter 1, rank, space, score, space, mark 1, space, hit 6, spaces
-	rest := innerW - (1 + c.rank + 1 + c.score + 1 + 1 + 1 + 6 + 1)
+	c := listColumns{rank: max(len(strconv.Itoa(p.s.set.Len())), 4), score: 7, mark: 1}
+	// gutter 1, rank, space, score, space, mark, space, hit 6, spaces
+	rest := innerW - (1 + c.rank + 1 + c.score + 1 + c.mark + 1 + 6 + 1)
+	// The mark's column is headed "true" where that leaves every id whole,
+	// and "T" where the room goes to the ids (the help's second page says
+	// what it is).
+	if wide := len("true") - c.mark; p.s.set.IDs == nil && rest >= wide || p.s.set.IDs != nil && rest-wide-1 >= max(idWidth, 2) {
+		c.mark += wide
+		rest -= wide
+	}
 	if p.s.set.IDs != nil {
 		c.id = min(max(rest, 0), max(idWidth, 2), 16)
 		rest -= c.id + 1
@@ -141,7 +148,11 @@ func (p listPane) body(innerW int) string {
 	}
 	cols := p.columns(innerW, idWidth)
 	var b strings.Builder
-	head := " " + pad("rank", cols.rank, true) + " " + pad("score", cols.score, false) + " " + "T"
+	markHead := "T"
+	if cols.mark >= len("true") {
+		markHead = "true"
+	}
+	head := " " + pad("rank", cols.rank, true) + " " + pad("score", cols.score, false) + " " + markHead
 	if cols.id > 0 {
 		head += " " + pad("id", cols.id, false)
 	}
@@ -218,7 +229,7 @@ func (p listPane) row(r int, cols listColumns, innerW int, flagged, inGroup bool
 		tail += " " + pad(format.Printable(s.set.Segment(r)), cols.segment, false)
 	}
 	tail += " " + pad(format.Share(hit), 6, true)
-	tail = fitLine(tail, max(innerW-ansi.StringWidth(head)-1, 0))
+	tail = fitLine(tail, max(innerW-ansi.StringWidth(head)-cols.mark, 0))
 	style := st.Unflagged
 	switch {
 	case inGroup:
@@ -226,6 +237,7 @@ func (p listPane) row(r int, cols listColumns, innerW int, flagged, inGroup bool
 	case flagged:
 		style = st.Flagged
 	}
+	mark = pad(mark, cols.mark, false)
 	if !s.set.Labels[r] {
 		return style.Render(head + mark + tail)
 	}

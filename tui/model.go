@@ -298,7 +298,7 @@ func (m Model) key(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 	switch {
 	case key.Matches(msg, k.Help):
 		groups := m.helpGroups()
-		m.push(&helpOverlay[*Model]{ctx: m.ctx, draw: func() string { return helpView(m.ctx, groups) }})
+		m.push(&helpOverlay[*Model]{ctx: m.ctx, draw: func() string { return helpView(m.ctx, groups) }, terms: explorerTerms})
 		return m, nil
 	case key.Matches(msg, k.Focus):
 		switch {

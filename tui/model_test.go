@@ -2,6 +2,7 @@ package tui
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"os"
 	"path/filepath"
@@ -582,5 +583,59 @@ func TestQuitAsksWithUnwrittenPins(t *testing.T) {
 	written.unwritten = false // as after a write (fileWrittenMsg)
 	if _, cmd := written.Update(keyMsg("q")); !quits(cmd) {
 		t.Errorf("q once the pins are written does not quit")
+	}
+}
+
+// TestHelpTermsPages: in the help, tab turns to the pages of terms and
+// back round to the keys, shift+tab goes back, and every term the
+// explorer's figures pane and list show at 100x30 after b is explained on
+// one of the pages; esc closes from any page.
+func TestHelpTermsPages(t *testing.T) {
+	m := keys(tenModel(t), "?")
+	help := m.overlays[0].(*helpOverlay[*Model])
+	pages := termPages(m.ctx, explorerTerms)
+	if len(pages) < 2 {
+		t.Fatalf("%d pages of terms at %dx%d; the test wants the flipping to matter", len(pages), m.ctx.width, m.ctx.height)
+	}
+	for i := 1; i <= len(pages); i++ {
+		m = keys(m, "tab")
+		if help.page != i || !strings.Contains(ansi.Strip(m.View()), fmt.Sprintf("terms on screen (%d of %d)", i, len(pages))) {
+			t.Fatalf("after %d tabs: page %d, view:\n%s", i, help.page, ansi.Strip(m.View()))
+		}
+	}
+	if m = keys(m, "tab"); help.page != 0 || !strings.Contains(ansi.Strip(m.View()), "move the cut") {
+		t.Errorf("tab on the last page does not return to the keys (page %d)", help.page)
+	}
+	if m = keys(m, "shift+tab"); help.page != len(pages) {
+		t.Errorf("shift+tab from the keys: page %d, want the last, %d", help.page, len(pages))
+	}
+	if m = keys(m, "esc"); len(m.overlays) != 0 {
+		t.Errorf("esc on a page of terms does not close the help")
+	}
+	var all strings.Builder
+	for _, p := range termPages(m.ctx, explorerTerms) {
+		all.WriteString(ansi.Strip(p))
+	}
+	for _, shown := range []string{"redraws", "steady", "net benefit", "flag all", "queue90", "hit share", "wrong-alert share", "true ●", "validation TP FP FN TN", "shifts: 9/10"} {
+		if !strings.Contains(all.String(), shown) {
+			t.Errorf("no term explains %q", shown)
+		}
+	}
+}
+
+// TestListTrueColumn: the list's mark column is headed "true" where the
+// ids keep their width, and the rows' marks sit under it.
+func TestListTrueColumn(t *testing.T) {
+	m := loaded(t, demoSet(t), demoAssumptions, filepath.Join(t.TempDir(), "cut.yaml"), 100, 30)
+	lines := strings.Split(ansi.Strip(m.View()), "\n")
+	head := lines[2]
+	at := strings.Index(head, " true ")
+	if at < 0 {
+		t.Fatalf("no true column at 100x30: %q", head)
+	}
+	column := len([]rune(head[:at+1]))
+	row := []rune(lines[3])
+	if mark := string(row[column]); mark != "●" && mark != "·" {
+		t.Errorf("the first row's mark %q is not under the column head %q:\n%s\n%s", mark, head, head, lines[3])
 	}
 }

@@ -52,20 +52,94 @@ func keyTop[H any](stack *[]overlay[H], host H, msg tea.KeyMsg) tea.Cmd {
 type helpOverlay[H any] struct {
 	ctx  *shared
 	draw func() string
+	// terms, when not nil, are the terms on screen with what each means:
+	// the pages after the keys, as many as the screen's height needs.
+	terms []term
+	page  int // 0: the keys; then the pages of terms
 }
 
-// Update closes the help on the help key, esc or q.
+// term is one word or mark a screen shows and what it means.
+type term struct{ name, meaning string }
+
+// Update flips the pages on the page key and closes the help on the help
+// key, esc or q.
 func (o *helpOverlay[H]) Update(_ H, msg tea.KeyMsg) (bool, tea.Cmd) {
 	k := o.ctx.keys
+	if o.terms != nil && key.Matches(msg, k.HelpPage) {
+		back := msg.String() == "left" || msg.String() == "h" || msg.String() == "shift+tab"
+		n := 1 + len(termPages(o.ctx, o.terms))
+		if back {
+			o.page = (o.page + n - 1) % n
+		} else {
+			o.page = (o.page + 1) % n
+		}
+		return false, nil
+	}
 	return key.Matches(msg, k.Help) || key.Matches(msg, k.Cancel) || key.Matches(msg, k.Quit), nil
 }
 
-// View draws the help.
-func (o *helpOverlay[H]) View() string { return o.draw() }
+// View draws the page of the help shown.
+func (o *helpOverlay[H]) View() string {
+	if o.page == 0 || o.terms == nil {
+		return o.draw()
+	}
+	pages := termPages(o.ctx, o.terms)
+	i := min(o.page-1, len(pages)-1)
+	return overlayBox(o.ctx, fmt.Sprintf("terms on screen (%d of %d)", i+1, len(pages)), pages[i])
+}
 
-// ShortHelp lists the keys that close the help.
+// ShortHelp lists the keys that flip the pages and close the help.
 func (o *helpOverlay[H]) ShortHelp() []key.Binding {
-	return []key.Binding{hint(o.ctx.keys.Help, "?/esc", "close")}
+	close := hint(o.ctx.keys.Help, "?/esc", "close")
+	if o.terms == nil {
+		return []key.Binding{close}
+	}
+	what := "terms on screen"
+	if o.page > 0 {
+		what = "next page"
+	}
+	return []key.Binding{hint(o.ctx.keys.HelpPage, "tab", what), close}
+}
+
+// termPages lays terms out in pages that fit the screen: each term's name,
+// then its meaning wrapped beside it; a page ends with the keys that flip
+// and close.
+func termPages(ctx *shared, terms []term) []string {
+	st := ctx.styles
+	boxW := min(ctx.width-st.Overlay.GetHorizontalFrameSize(), 96)
+	// The header and the footer stay in view; the page's last two lines
+	// are a blank and the keys.
+	rows := max(ctx.height-2-st.Overlay.GetVerticalFrameSize()-2, 3)
+	nameW := 0
+	for _, t := range terms {
+		nameW = max(nameW, ansi.StringWidth(t.name))
+	}
+	nameW = min(nameW, boxW/3)
+	// The keys' line is as wide as the box, so that every page has its size.
+	foot := st.Muted.Render(fitLine("tab next page · shift+tab back · ? or esc closes", boxW))
+	var pages []string
+	var page []string
+	for _, t := range terms {
+		var lines []string
+		name := t.name
+		if ansi.StringWidth(name) > nameW {
+			lines = append(lines, st.Key.Render(name))
+			name = ""
+		}
+		for i, l := range wrapWords(t.meaning, max(boxW-nameW-2, 12)) {
+			if i == 0 {
+				lines = append(lines, st.Key.Render(pad(name, nameW, false))+"  "+l)
+			} else {
+				lines = append(lines, strings.Repeat(" ", nameW+2)+l)
+			}
+		}
+		if len(page) > 0 && len(page)+len(lines) > rows {
+			pages = append(pages, strings.Join(append(page, "", foot), "\n"))
+			page = nil
+		}
+		page = append(page, lines...)
+	}
+	return append(pages, strings.Join(append(page, "", foot), "\n"))
 }
 
 // answer is one key a question takes and what it does.

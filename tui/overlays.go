@@ -76,7 +76,7 @@ func helpView(ctx *shared, groups []helpGroup) string {
 	}
 	rows = append(rows,
 		st.Muted.Render("marks: ● true case · ▌ flagged · ▶ the cut's tie group · ◆ chosen · ◇ pinned"),
-		st.Muted.Render("candidate keys act in the strip (tab) · ? or esc closes"),
+		st.Muted.Render("candidate keys act in the strip (tab) · here tab: terms explained · ? closes"),
 		st.Warning.Render(evidence.ShortCaution))
 	return overlayBox(ctx, "keys", strings.Join(rows, "\n"))
 }

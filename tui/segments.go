@@ -14,7 +14,7 @@ import (
 )
 
 // segmentsPane is the overlay of the breakdown by segment at the cursor's
-// cut: rows, true cases, flagged share, hit share and precision with their
+// cut: rows, true cases, flagged share, hit share and wrong-alert share with their
 // intervals, and "outside" on a group whose interval lies wholly outside
 // the overall one. The cut keys still move the cut under it; the page keys
 // scroll the groups and o changes their order. The sorted breakdown is
@@ -133,7 +133,7 @@ func (p *segmentsPane) View() string {
 		longest = max(longest, ansi.StringWidth(f.Segment))
 	}
 	// The figures' columns at full width: rows, true, flagged, hit and its
-	// interval, precision and its interval, gap, note.
+	// interval, wrong-alert share and its interval, gap, note.
 	const gapW = 7
 	natural := 7 + 7 + 8 + 7 + 1 + 12 + 7 + 1 + 12 + gapW + 8 + min(longest, 28) + 1
 	width := min(p.ctx.width-2, natural+st.Overlay.GetHorizontalFrameSize())
@@ -153,7 +153,7 @@ func (p *segmentsPane) View() string {
 		interval = format.Interval
 	}
 	// The gap from the overall figures (the larger of hit share's and
-	// precision's, in points) shows where there is room, and sorted by it.
+	// wrong-alert share's, in points) shows where there is room, and sorted by it.
 	gap := wide || p.order == segment.ByGap
 	fixed := 7 + 7 + 8 + 7 + 1 + rangeW + 7 + 1 + rangeW + 8
 	if gap {
@@ -173,10 +173,10 @@ func (p *segmentsPane) View() string {
 		}
 		return pad(format.Printable(f.Segment), nameW, false) + pad(strconv.Itoa(f.Rows), 7, true) + pad(format.Count(f.Positives), 7, true) +
 			pad(format.Share(f.FlaggedShare), 8, true) + pad(format.Share(f.Recall), 7, true) + " " + pad(interval(f.RecallCI), rangeW, false) +
-			pad(format.Share(f.Precision), 7, true) + " " + pad(interval(f.PrecisionCI), rangeW, false) + gapText + " " + note
+			pad(format.Share(f.FalseDiscoveryRate()), 7, true) + " " + pad(interval(f.FalseDiscoveryCI()), rangeW, false) + gapText + " " + note
 	}
 	head := pad("segment", nameW, false) + pad("rows", 7, true) + pad("true", 7, true) + pad("flagged", 8, true) +
-		pad("hit", 7, true) + " " + pad("interval", rangeW, false) + pad("prec.", 7, true) + " " + pad("interval", rangeW, false)
+		pad("hit", 7, true) + " " + pad("interval", rangeW, false) + pad("wrong", 7, true) + " " + pad("interval", rangeW, false)
 	if gap {
 		head += pad("gap", gapW, true)
 	}
@@ -206,7 +206,7 @@ func (p *segmentsPane) View() string {
 		keys = fmt.Sprintf("%d–%d of %d · pgup/pgdn g/G scroll · ", p.offset+1, end, len(b.Segments)) + keys
 	}
 	// What outside and gap mean, in the longest words that fit.
-	legend := "outside: hit-share or precision interval wholly outside the overall one"
+	legend := "outside: hit-share or wrong-alert-share interval wholly outside the overall one"
 	if gap {
 		for _, l := range []string{
 			legend + " · gap: the larger of the two figures' distances from overall, in points",

@@ -48,6 +48,8 @@ func TestView(t *testing.T) {
 		{name: "base-rate-5pct-80x24", width: 80, height: 24, keys: []string{"5", "a", "ctrl+u"}, text: "5%", after: []string{"enter"}},
 		{name: "help-80x24", width: 80, height: 24, keys: []string{"?"}},
 		{name: "help-80x22", width: 80, height: 22, keys: []string{"?"}},
+		{name: "help-terms-80x24", width: 80, height: 24, keys: []string{"?", "tab"}},
+		{name: "help-terms-last-100x30", width: 100, height: 30, keys: []string{"?", "shift+tab"}},
 		{name: "minimum-80x22", width: 80, height: 22},
 		{name: "minimum-80x22-pinned", width: 80, height: 22, keys: []string{"2", "p"}},
 		{name: "too-small-79x24", width: 79, height: 24},

@@ -59,7 +59,7 @@ func (r *Report) addSegments(res *analysis.Result, order segment.Order, shown in
 		b.Segments = slices.Clone(b.Segments)
 		b.Sort(order)
 		list := make([]segmentFigures, 0, len(b.Segments))
-		t := table{header: []string{"segment", "rows", "true cases", "flagged", "hit share", "interval", "precision", "interval", "note"}, wordsLast: true}
+		t := table{header: []string{"segment", "rows", "true cases", "flagged", "hit share", "interval", "wrong-alert share", "interval", "note"}, wordsLast: true}
 		hidden, hiddenOutside := 0, 0
 		for k, f := range b.Segments {
 			list = append(list, segmentFigures{
@@ -81,13 +81,13 @@ func (r *Report) addSegments(res *analysis.Result, order segment.Order, shown in
 				mark = "outside"
 			}
 			t.rows = append(t.rows, []string{f.Segment, fmt.Sprint(f.Rows), format.Count(f.Positives), format.Share(f.FlaggedShare),
-				format.Share(f.Recall), format.Interval(f.RecallCI), format.Share(f.Precision), format.Interval(f.PrecisionCI), mark})
+				format.Share(f.Recall), format.Interval(f.RecallCI), format.Share(f.FalseDiscoveryRate()), format.Interval(f.FalseDiscoveryCI()), mark})
 		}
 		r.Cuts[i].Segments = list
-		notes := []string{fmt.Sprintf("overall: hit share %s (%s), precision %s (%s)",
-			format.Share(b.Overall.Recall), format.Interval(b.Overall.RecallCI), format.Share(b.Overall.Precision), format.Interval(b.Overall.PrecisionCI))}
+		notes := []string{fmt.Sprintf("overall: hit share %s (%s), wrong-alert share %s (%s)",
+			format.Share(b.Overall.Recall), format.Interval(b.Overall.RecallCI), format.Share(b.Overall.FalseDiscoveryRate()), format.Interval(b.Overall.FalseDiscoveryCI()))}
 		if n := b.Outliers(); n > 0 {
-			notes = append(notes, fmt.Sprintf("%s marked \"outside\": hit-share or precision interval wholly outside the overall one", plural(n, "segment", "segments")))
+			notes = append(notes, fmt.Sprintf("%s marked \"outside\": hit-share or wrong-alert-share interval wholly outside the overall one", plural(n, "segment", "segments")))
 		}
 		if hidden > 0 {
 			word := "segments"

@@ -45,6 +45,16 @@ type Figures struct {
 	Outlier bool
 }
 
+// FalseDiscoveryRate returns the group's wrong-alert share, 1 - Precision
+// (NaN where precision is undefined).
+func (f Figures) FalseDiscoveryRate() float64 { return 1 - f.Precision }
+
+// FalseDiscoveryCI returns the interval of FalseDiscoveryRate: the
+// complement of PrecisionCI, as package evidence gives it for a cut.
+func (f Figures) FalseDiscoveryCI() [2]float64 {
+	return [2]float64{1 - f.PrecisionCI[1], 1 - f.PrecisionCI[0]}
+}
+
 // Gap returns the larger of the group's distances from the overall recall
 // and precision, counting an undefined figure as no distance.
 func (f Figures) Gap(overall Figures) float64 {

@@ -227,3 +227,20 @@ func TestNegatedScores(t *testing.T) {
 }
 
 func strconvF(v float64) string { return fmt.Sprint(v) }
+
+// TestFalseDiscovery: the wrong-alert share of a group is 1 - precision
+// and its interval the complement of precision's (by hand: precision 0.75
+// in [0.3, 0.95] gives 0.25 in [0.05, 0.7]); undefined stays undefined.
+func TestFalseDiscovery(t *testing.T) {
+	f := segment.Figures{Precision: 0.75, PrecisionCI: [2]float64{0.3, 0.95}}
+	if got := f.FalseDiscoveryRate(); math.Abs(got-0.25) > 1e-12 {
+		t.Errorf("FalseDiscoveryRate %v, want 0.25", got)
+	}
+	if ci := f.FalseDiscoveryCI(); math.Abs(ci[0]-0.05) > 1e-12 || math.Abs(ci[1]-0.7) > 1e-12 {
+		t.Errorf("FalseDiscoveryCI %v, want [0.05 0.7]", ci)
+	}
+	undefined := segment.Figures{Precision: math.NaN(), PrecisionCI: [2]float64{math.NaN(), math.NaN()}}
+	if !math.IsNaN(undefined.FalseDiscoveryRate()) || !math.IsNaN(undefined.FalseDiscoveryCI()[0]) {
+		t.Errorf("undefined precision gave a defined wrong-alert share")
+	}
+}

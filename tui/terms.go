@@ -1,0 +1,31 @@
+package tui
+
+// explorerTerms are the words and marks the explorer shows, each with what
+// it means: the help's pages after the keys (README's glossary says the
+// same).
+var explorerTerms = []term{
+	{"cut", "the score from which a case is flagged: flag score >= cut (<= with --lower-is-riskier); a case flagged is an alert a person works"},
+	{"true ●, false ·", "the outcome recorded for a case; the list's true column (T where the room goes to the ids) shows it"},
+	{"▌ ▶ ━━ cut", "a flagged row; the rows of the cursor's tie group; the line under the last flagged row"},
+	{"hit (list)", "the hit share a cut at that row's score would have"},
+	{"hit share", "true cases flagged out of all true cases: recall"},
+	{"wrong-alert share", "false cases among the alerts (the false discovery rate); precision is 1 minus it"},
+	{"about k in d wrong", "the wrong-alert share as a plain fraction"},
+	{"false positive rate", "false cases flagged out of all false cases"},
+	{"alert rate", "the share of all cases flagged, projected at the base rate"},
+	{"base", "the base rate: the share of true cases expected in production (the validation set's own unless given)"},
+	{"95% a–b", "the Wilson interval of the figure at the confidence level: where the figure on all cases of this kind would lie"},
+	{"queue per shift", "alerts per shift at the volume (cases per shift); over or under cap: against the capacity the team works"},
+	{"shifts: 9/10 ≤ k", "in the real shifts of the validation period (--time, --shifts), 9 shifts in 10 had at most k alerts; max: the busiest; % over: shifts above capacity"},
+	{"queue90", "the starting point where 9 shifts in 10 have at most the capacity's alerts"},
+	{"cost per shift", "wrong alerts and misses (and hits, when given) at their costs, per shift at the volume"},
+	{"net benefit", "true cases found minus wrong alerts weighted by the odds of the threshold probability, per case (decision-curve analysis, scores in [0,1] only)"},
+	{"flag all, none", "the net benefit of flagging every case, and of flagging none (0), beside the cut's"},
+	{"validation TP FP FN TN", "on the validation set: true cases flagged, false cases flagged, true cases missed, false cases left alone"},
+	{"start 1-6", "the starting points: base (flag as many as the base rate), hit=0.8, wrong=0.333, queue=capacity, least cost, queue90; [n] is the cursor's"},
+	{"redraws a–b", "after b: the range 9 resampled sets in 10 give the figure (the bootstrap); ░ on the chart"},
+	{"steady", "after b: the starting point's cut keeps its workload and hit share within a factor of 1.25 across resampled sets (fairly steady: 1.6; unsteady: more)"},
+	{"ref, pt", "in the strip, differences from the chosen candidate (ref); shares differ in percentage points"},
+	{"◆ ◇", "the chosen candidate; a pinned one on the chart"},
+	{"ROC AUC", "how often a true case outranks a false one; 0.5 is chance"},
+}
