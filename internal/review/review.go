@@ -126,16 +126,17 @@ func shortDigest(d string) string {
 	return d
 }
 
-// allNotes lists the file's note and the candidates' notes.
+// allNotes lists the file's note and the candidates' notes, made safe
+// for a terminal (a note may hold control sequences).
 func allNotes(f *decision.File) [][2]string {
 	var notes [][2]string
 	// oneLine: a hand-edited note may hold line breaks.
 	if f.Note != "" {
-		notes = append(notes, [2]string{"file", oneLine(f.Note)})
+		notes = append(notes, [2]string{"file", format.Printable(oneLine(f.Note))})
 	}
 	for _, c := range f.Candidates {
 		if c.Note != "" {
-			notes = append(notes, [2]string{c.Name, oneLine(c.Note)})
+			notes = append(notes, [2]string{format.Printable(c.Name), format.Printable(oneLine(c.Note))})
 		}
 	}
 	return notes
