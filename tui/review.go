@@ -34,6 +34,23 @@ type ReviewConfig struct {
 	// AgainstPath: the screen shows what changes with File.
 	Against     *decision.File
 	AgainstPath string
+	// ReadOnly turns off every key that changes the file (c, n, N, w), for
+	// a screen served to others (sill serve): only a sign-off (S) is
+	// written.
+	ReadOnly bool
+	// Signer, when not nil, is who signs: the sign-off form's name is
+	// fixed to Signer.Name and each sign-off carries Signer.Key (sill
+	// serve: the SSH key's comment and fingerprint).
+	Signer *Signer
+	// Shown, when not "", is the name the screen shows for Path (sill
+	// serve shows the base name, not the server's folders).
+	Shown string
+}
+
+// Signer is who signs off on a screen served over SSH.
+type Signer struct {
+	Name string // the key's comment in authorized_keys
+	Key  string // the key's SHA256 fingerprint, as ssh-keygen -l prints it
 }
 
 // Messages of the review screen, named for what happened.
@@ -83,7 +100,9 @@ type Review struct {
 	changed  bool // changes not written
 	status   string
 	written  bool
-	quitting bool // quit once the write asked for on the way out succeeds
+	quitting bool    // quit once the write asked for on the way out succeeds
+	readOnly bool    // ReviewConfig.ReadOnly: nothing but sign-offs is written
+	signer   *Signer // ReviewConfig.Signer: who signs, fixed; nil asks
 }
 
 // NewReview returns the review screen for cfg.
@@ -92,6 +111,16 @@ func NewReview(cfg ReviewConfig) Review {
 	working := *cfg.File
 	working.Candidates = append([]decision.Candidate(nil), cfg.File.Candidates...)
 	r := Review{ctx: ctx, keys: newReviewKeys(ctx.keys), file: &working, path: cfg.Path, saveTo: cfg.Path, stamp: cfg.Stamp, writeCtx: cfg.Context, writes: &writeTracker{}}
+	if cfg.Shown != "" {
+		r.path = cfg.Shown
+	}
+	r.signer = cfg.Signer
+	if cfg.ReadOnly {
+		for _, b := range []*key.Binding{&r.keys.Choose, &r.keys.Write, &r.keys.Note, &r.keys.FileNote} {
+			b.SetEnabled(false)
+		}
+		r.readOnly = true
+	}
 	ctx.keys = r.keys.KeyMap // the overlays read the same keys as the screen
 	if r.writeCtx == nil {
 		r.writeCtx = context.Background()
@@ -254,7 +283,7 @@ func (r Review) key(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 			r.status = "read from standard input: sign the file with sill review FILE"
 			break
 		}
-		r.overlays = push(r.overlays, overlay[*Review](newSignForm(r.ctx)))
+		r.overlays = push(r.overlays, overlay[*Review](newSignForm(r.ctx, r.signer)))
 	case key.Matches(msg, k.Chart):
 		if o := newChartOverlay(r.ctx, r.file); o != nil {
 			r.overlays = push(r.overlays, overlay[*Review](o))
@@ -559,8 +588,15 @@ func (r Review) helpView() string {
 			lines = append(lines, st.Key.Render(pad(b.Help().Key, 6, false))+"  "+b.Help().Desc)
 		}
 	}
+	written := []string{"only the choice and the notes are written back;", "a sign-off is appended to the file at once"}
+	if r.readOnly {
+		written = []string{"a sign-off is appended to the file; nothing else is written"}
+	}
+	for i, w := range written {
+		written[i] = st.Muted.Render(w)
+	}
 	lines = append(lines, "", st.Muted.Render("the figures are the file's evidence and do not change;"),
-		st.Muted.Render("only the choice and the notes are written back;"), st.Muted.Render("a sign-off is appended to the file at once"), st.Muted.Render("? or esc closes"),
+		strings.Join(written, "\n"), st.Muted.Render("? or esc closes"),
 		"", st.Warning.Render(evidence.ShortCaution))
 	return overlayBox(r.ctx, "review keys", strings.Join(lines, "\n"))
 }

@@ -51,6 +51,9 @@ type entryForm[H any] struct {
 	err     string
 	notes   []string // muted lines under the fields
 	enter   string   // what enter does, in a few words, for the footer
+	// fixed are the fields shown but not edited, each with a word on
+	// why (sill serve's signer name: "your key's name").
+	fixed map[int]string
 	// accept takes the values; a reason refuses them, with the field to
 	// fix (-1: stay where the cursor is).
 	accept func(host H, values []string) (cmd tea.Cmd, field int, reason string)
@@ -69,9 +72,22 @@ func newEntryForm[H any](ctx *shared, title string, labels []string, limits []in
 	return f
 }
 
+// focus moves to field i, or on past it in the same direction while the
+// field is fixed.
 func (f *entryForm[H]) focus(i int) {
 	f.fields[f.focused].Blur()
-	f.focused = (i + len(f.fields)) % len(f.fields)
+	n, step := len(f.fields), 1
+	if i < f.focused {
+		step = -1
+	}
+	next := (i + n) % n
+	for range n {
+		if _, fixed := f.fixed[next]; !fixed {
+			break
+		}
+		next = (next + step + n) % n
+	}
+	f.focused = next
 	f.fields[f.focused].Focus()
 }
 
@@ -122,7 +138,11 @@ func (f *entryForm[H]) View() string {
 		if i == f.focused {
 			marker = st.Selected.Render("▸")
 		}
-		lines = append(lines, marker+pad(f.labels[i], labelW, false)+"  "+fitLine(f.fields[i].View(), 44))
+		field := f.fields[i].View()
+		if why, fixed := f.fixed[i]; fixed {
+			field = f.fields[i].Value() + st.Muted.Render(" ("+why+")")
+		}
+		lines = append(lines, marker+pad(f.labels[i], labelW, false)+"  "+fitLine(field, 44))
 	}
 	if f.err != "" {
 		lines = append(lines, "  "+st.Warning.Render("✗ "+f.err))
@@ -142,16 +162,31 @@ func (f *entryForm[H]) ShortHelp() []key.Binding {
 
 // newSignForm is the sign-off form of the review screen: who, in what
 // role, the verdict and a note. Enter appends the sign-off to the file on
-// disk (decision.AppendSignOff, under the file's lock).
-func newSignForm(ctx *shared) *entryForm[*Review] {
-	f := newEntryForm[*Review](ctx, "sign off", []string{"name", "role", "verdict", "note"}, []int{80, 80, 7, noteLimit}, nil)
+// disk (decision.AppendSignOff, under the file's lock). With signer, the
+// name is the signer's and is not edited, and the sign-off carries the
+// signer's key.
+func newSignForm(ctx *shared, signer *Signer) *entryForm[*Review] {
+	var values []string
+	if signer != nil {
+		values = []string{format.Printable(signer.Name)}
+	}
+	f := newEntryForm[*Review](ctx, "sign off", []string{"name", "role", "verdict", "note"}, []int{80, 80, 7, noteLimit}, values)
+	if signer != nil {
+		f.fixed = map[int]string{signName: "your key's name"}
+		f.focus(signRole)
+	}
 	f.notes = []string{"verdict: approve, revise or reject · role and note may stay empty",
 		"tab/↓ next · enter signs (written at once) · esc cancels"}
 	f.enter = "sign"
 	f.accept = func(r *Review, values []string) (tea.Cmd, int, string) {
-		name := strings.TrimSpace(values[signName])
+		name, signedKey := strings.TrimSpace(values[signName]), ""
+		if signer != nil {
+			name, signedKey = strings.TrimSpace(signer.Name), signer.Key
+		}
 		verdict, err := decision.ParseVerdict(strings.TrimSpace(values[signVerdict]))
 		switch {
+		case name == "" && signer != nil:
+			return nil, -1, "this key has no name (comment) in the authorized keys file; ask who runs the server"
 		case name == "":
 			return nil, signName, "who signs? a name is needed"
 		case err != nil:
@@ -160,7 +195,7 @@ func newSignForm(ctx *shared) *entryForm[*Review] {
 			return nil, -1, "write the changes first (esc, then w): a sign-off is for the choice in the file"
 		}
 		s := decision.SignOff{Name: name, Role: strings.TrimSpace(values[signRole]), Verdict: verdict,
-			Note: strings.Join(strings.Fields(values[signNote]), " "), At: time.Now().UTC().Truncate(time.Second)}
+			Note: strings.Join(strings.Fields(values[signNote]), " "), At: time.Now().UTC().Truncate(time.Second), Key: signedKey}
 		return r.sign(s), 0, ""
 	}
 	return f
