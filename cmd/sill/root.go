@@ -31,6 +31,7 @@ Run with no arguments to explore the built-in demo data.`,
 	root.AddCommand(newReviewCmd())
 	root.AddCommand(newSQLCmd())
 	root.AddCommand(newManualCmd())
+	root.AddCommand(newServeCmd())
 	root.SetVersionTemplate("{{.Version}}\n")
 	root.SetFlagErrorFunc(func(_ *cobra.Command, err error) error { return shareFlagError(err) })
 	return root
