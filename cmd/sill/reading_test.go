@@ -2,6 +2,7 @@ package main
 
 import (
 	"encoding/json"
+	"strconv"
 	"strings"
 	"testing"
 	"unicode/utf16"
@@ -124,5 +125,39 @@ func TestRunZonelessTimes(t *testing.T) {
 	// The layout the message gives reads the file.
 	if got := mustJSON(t, reportJSON(t, append([]string{path, "--time-layout", "02/01/2006 15:04:05"}, args...)...)); got != want {
 		t.Errorf("day first with the layout given: figures differ:\n%s", got)
+	}
+}
+
+// TestRunOutsideScore: one score of 1.7 among the Veldmoor depot's
+// probabilities is named by its line in every output's warnings, and the
+// probability sections it removes are named.
+func TestRunOutsideScore(t *testing.T) {
+	var b strings.Builder
+	b.WriteString("crate,score,label\n")
+	for i := range 40 {
+		score := strconv.FormatFloat(float64(i)/40, 'f', 3, 64)
+		if i == 6 {
+			score = "1.7" // line 8
+		}
+		b.WriteString("VM-" + strconv.Itoa(i) + "," + score + "," + map[bool]string{true: "1", false: "0"}[i >= 26 || i == 6] + "\n")
+	}
+	path := writeFile(t, t.TempDir(), "depot.csv", []byte(b.String()))
+	want := "1 score lies outside [0, 1] (line 8), so the scores are not read as probabilities: the Brier score, log loss, calibration and net benefit are left out"
+	for _, format := range []string{"text", "markdown", "json"} {
+		res := runSill(t, "", "report", path, "--format", format)
+		if res.code != 0 || !strings.Contains(res.stdout+res.stderr, want) {
+			t.Errorf("%s: exit %d, the warning missing:\n%s\n%s", format, res.code, res.stdout, res.stderr)
+		}
+	}
+	res := runSill(t, "", "report", path, "--format", "json")
+	var out map[string]any
+	if err := json.Unmarshal([]byte(res.stdout), &out); err != nil {
+		t.Fatal(err)
+	}
+	if warnings, _ := out["warnings"].([]any); len(warnings) != 1 || warnings[0] != want {
+		t.Errorf("JSON warnings %v, want [%q]", out["warnings"], want)
+	}
+	if out["brier"] != nil {
+		t.Errorf("brier %v with a score outside [0, 1], want null", out["brier"])
 	}
 }

@@ -5,6 +5,7 @@ package report
 import (
 	"math"
 	"strconv"
+	"strings"
 
 	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/curve"
@@ -213,6 +214,39 @@ func newReport(set *scores.Set, sum curve.Summary, a projection.Assumptions, out
 	return r
 }
 
+// outsideShare is the largest share of rows whose score lies outside
+// [0, 1] in a set that otherwise reads as probabilities: past it the
+// scores are taken to be on another scale (logits, percentages), which is
+// no surprise worth a warning.
+const outsideShare = 0.05
+
+// OutsideWarning says, for a set whose scores would read as probabilities
+// but for a few rows outside [0, 1] (at most outsideShare of the rows,
+// higher scores riskier), how many there are and on which lines, and
+// which sections are therefore left out. It returns "" for any other set.
+func OutsideWarning(set *scores.Set) string {
+	o := set.Outside
+	if o.Rows == 0 || set.LowerIsRiskier || float64(o.Rows) > outsideShare*float64(set.Len()) {
+		return ""
+	}
+	text := plural(o.Rows, "score lies", "scores lie") + " outside [0, 1]"
+	if len(o.Lines) > 0 {
+		lines := make([]string, len(o.Lines))
+		for i, line := range o.Lines {
+			lines[i] = strconv.Itoa(line)
+		}
+		where := "line " + lines[0]
+		if len(lines) > 1 {
+			where = "lines " + strings.Join(lines, ", ")
+		}
+		if more := o.Rows - len(o.Lines); more > 0 {
+			where += " and " + strconv.Itoa(more) + " more"
+		}
+		text += " (" + where + ")"
+	}
+	return text + ", so the scores are not read as probabilities: the Brier score, log loss, calibration and net benefit are left out"
+}
+
 // DroppedWarnings says how many rows of set were dropped and why: those
 // with no score by label (a counts table's rows with no score), the rest
 // for an invalid score. It returns nothing when none were dropped.
@@ -235,11 +269,15 @@ func DroppedWarnings(set *scores.Set) []string {
 }
 
 // Warnings lists what a reader of any output should know about the data:
-// dropped rows, a class missing, and a ROC AUC that shows below 0.500 (the direction
+// dropped rows, scores that stop a set of probabilities from reading as
+// one (OutsideWarning), a class missing, and a ROC AUC that shows below 0.500 (the direction
 // probably the wrong way round, with hints.LowerIsRiskier as the way to
 // turn it).
 func Warnings(set *scores.Set, sum curve.Summary, hints Hints) []string {
 	w := DroppedWarnings(set)
+	if text := OutsideWarning(set); text != "" {
+		w = append(w, text)
+	}
 	switch {
 	case sum.Rows == 0:
 	case !(sum.Positives+sum.Negatives > 0):

@@ -177,6 +177,9 @@ func ReadCounts(r io.Reader, source string, opt Options) (*Set, error) {
 		if b.segmentCol >= 0 {
 			segment = b.segmentCode(record[b.segmentCol])
 		}
+		if positives+negatives > 0 {
+			b.noteOutside(line, score)
+		}
 		for _, part := range [2]struct {
 			positive bool
 			cases    float64

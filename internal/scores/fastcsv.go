@@ -69,20 +69,22 @@ type block struct {
 	data []byte
 	done chan struct{}
 
-	scores   []float64
-	labels   []bool
-	weights  []float64
-	segments []int32          // codes into segNames, the block's own numbering
-	ids      []string         // case ids
-	times    []int64          // case times, unix seconds
-	compare  []float64        // second model's scores
-	segNames []string         // segment names in the order they first appear in the block
-	segIndex map[string]int32 // code of each name in segNames
-	size     int              // bytes in data
-	newlines int              // line feeds in data
-	dropped  int              // rows skipped by DropInvalid
-	reasons  []rowEvent       // the first few of them
-	event    *rowEvent        // the first error, or a reason to decline
+	scores       []float64
+	labels       []bool
+	weights      []float64
+	segments     []int32          // codes into segNames, the block's own numbering
+	ids          []string         // case ids
+	times        []int64          // case times, unix seconds
+	compare      []float64        // second model's scores
+	segNames     []string         // segment names in the order they first appear in the block
+	segIndex     map[string]int32 // code of each name in segNames
+	size         int              // bytes in data
+	newlines     int              // line feeds in data
+	dropped      int              // rows skipped by DropInvalid
+	reasons      []rowEvent       // the first few of them
+	outside      int              // rows whose score lies outside [0, 1]
+	outsideLines []int            // the first few of them, from 0 at the block's first line
+	event        *rowEvent        // the first error, or a reason to decline
 }
 
 // rowEvent is something found at a line of a block; line counts from 0 at
@@ -171,6 +173,12 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 			continue
 		}
 		b.dropped += blk.dropped
+		b.outside.Rows += blk.outside
+		for _, at := range blk.outsideLines {
+			if len(b.outside.Lines) < MaxOutsideLines {
+				b.outside.Lines = append(b.outside.Lines, line+at)
+			}
+		}
 		for _, ev := range blk.reasons {
 			if len(b.droppedReasons) < maxDroppedReasons {
 				b.droppedReasons = append(b.droppedReasons, (&ParseError{File: source, Line: line + ev.line, Column: ev.column, Err: ev.err}).Error())
@@ -435,6 +443,9 @@ func (p *blockParser) parse(blk *block) {
 		if twoColumns {
 			if rest, ok := p.plainRow(blk, data); ok {
 				data = rest
+				if blk.scores[len(blk.scores)-1] > 1 { // plainRow reads no sign
+					blk.noteOutside(line)
+				}
 				continue
 			}
 		}
@@ -693,9 +704,20 @@ func (p *blockParser) addRow(blk *block, line int, cells [7][]byte) *rowEvent {
 	if b.compareCol >= 0 {
 		blk.compare = append(blk.compare, compare)
 	}
+	if !(score >= 0 && score <= 1) {
+		blk.noteOutside(line)
+	}
 	blk.scores = append(blk.scores, score)
 	blk.labels = append(blk.labels, positive)
 	return nil
+}
+
+// noteOutside counts a row at line whose score lies outside [0, 1].
+func (blk *block) noteOutside(line int) {
+	blk.outside++
+	if len(blk.outsideLines) < MaxOutsideLines {
+		blk.outsideLines = append(blk.outsideLines, line)
+	}
 }
 
 // pow10 holds the powers of ten that float64 represents exactly.

@@ -484,6 +484,7 @@ func (b *builder) addDecoded(line int, g *decodedGroup, i int) error {
 	if g.ids != nil {
 		b.ids = append(b.ids, g.ids[i])
 	}
+	b.noteOutside(line, g.scores[i])
 	b.scores = append(b.scores, g.scores[i])
 	b.labels = append(b.labels, positive)
 	if b.opt.Progress != nil && len(b.scores)%progressEvery == 0 {

@@ -210,9 +210,10 @@ type builder struct {
 	dropped        int
 	droppedReasons []string
 
-	comma    bool   // numbers have a decimal comma (see useDecimalComma)
-	delim    rune   // the delimiter of delimited text
-	firstRow []byte // the first data row of delimited text, for useDecimalComma
+	outside  OutsideRows // rows whose score lies outside [0, 1]
+	comma    bool        // numbers have a decimal comma (see useDecimalComma)
+	delim    rune        // the delimiter of delimited text
+	firstRow []byte      // the first data row of delimited text, for useDecimalComma
 }
 
 func (b *builder) readAll(in *bufio.Reader) error {
@@ -359,6 +360,17 @@ func (b *builder) resolve(header []string, line int) error {
 	return nil
 }
 
+// noteOutside counts a row kept at line whose score lies outside [0, 1].
+func (b *builder) noteOutside(line int, score float64) {
+	if score >= 0 && score <= 1 {
+		return
+	}
+	b.outside.Rows++
+	if len(b.outside.Lines) < MaxOutsideLines {
+		b.outside.Lines = append(b.outside.Lines, line)
+	}
+}
+
 // segmentCode returns the code of a segment name, giving a new name the
 // next code.
 func (b *builder) segmentCode(name string) int32 {
@@ -475,6 +487,7 @@ func (b *builder) add(line int, cell func(col int) string) error {
 	if b.compareCol >= 0 {
 		b.compare = append(b.compare, compare)
 	}
+	b.noteOutside(line, score)
 	b.scores = append(b.scores, score)
 	b.labels = append(b.labels, positive)
 	if b.opt.Progress != nil && len(b.scores)%progressEvery == 0 {
@@ -509,6 +522,7 @@ func (b *builder) finish(digest string) (*Set, error) {
 		ScoreColumn:    b.header[b.scoreCol],
 		Dropped:        b.dropped,
 		DroppedReasons: b.droppedReasons,
+		Outside:        b.outside,
 	}
 	if b.labelCol >= 0 {
 		s.LabelColumn = b.header[b.labelCol]

@@ -58,7 +58,23 @@ type Set struct {
 	// score (see ReadCounts). It is nil when there were none; rows dropped
 	// by DropInvalid are not in it.
 	NoScore *LabelCounts
+
+	// Outside counts the rows whose score lies outside [0, 1], which stop
+	// the scores from reading as probabilities; zero when there are none.
+	Outside OutsideRows
 }
+
+// OutsideRows counts the rows of a set whose score lies outside [0, 1]
+// and gives the lines of the first few (at most MaxOutsideLines), in
+// input order, numbered as ParseError numbers them. Dropped rows are not
+// counted; a counts table's row counts once whatever its cases.
+type OutsideRows struct {
+	Rows  int
+	Lines []int
+}
+
+// MaxOutsideLines bounds OutsideRows.Lines.
+const MaxOutsideLines = 3
 
 // LabelCounts counts cases by label: true, false, and those whose label
 // was neither.
