@@ -126,14 +126,14 @@ func (m *Model) changedQuestion(err error) *question[*Model] {
 // stays.
 func (m *Model) quitQuestion(n int) *question[*Model] {
 	st, k := m.ctx.styles, m.ctx.keys
-	what := "The pinned candidate is not written"
+	what := "The pinned candidate is not written; quitting now drops it."
 	if n > 1 {
-		what = fmt.Sprintf("The %d pinned candidates are not written", n)
+		what = fmt.Sprintf("The %d pinned candidates are not written; quitting now drops them.", n)
 	}
 	if m.written != "" {
-		what = fmt.Sprintf("The pins changed since %s was written", m.written)
+		what = fmt.Sprintf("The pins or the assumptions changed since %s was written; quitting now drops the changes.", m.written)
 	}
-	lines := wrapWords(what+"; quitting now drops them.", 60)
+	lines := wrapWords(what, 60)
 	lines = append(lines, "", "Quit anyway? "+st.Key.Render("y")+" quits · "+st.Key.Render("n")+"/esc stays ("+st.Key.Render("w")+" then writes to "+m.cfg.Out+")")
 	return &question[*Model]{ctx: m.ctx, title: "pins not written", body: strings.Join(lines, "\n"), answers: []answer[*Model]{
 		{key: k.Yes, what: "quit", do: func(m *Model) tea.Cmd { m.stopResampling(); return tea.Quit }},
