@@ -3,6 +3,8 @@ package main
 import (
 	"errors"
 	"fmt"
+	"math"
+	"strconv"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -10,6 +12,7 @@ import (
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/drift"
 	"github.com/sill-tool/sill/internal/format"
+	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/report"
 	"github.com/sill-tool/sill/internal/scores"
 )
@@ -25,35 +28,53 @@ func newCheckCmd() *cobra.Command {
 		Use:   "check FILE.yaml NEW_SCORES",
 		Short: "Check fresh production scores against the chosen cut of a decision file",
 		Long: `check applies the chosen cut of a decision file (written by sill report
---save or the explorer) to fresh scores and asks whether production still
-behaves like the validation set the cut was chosen on. The scores are read
-like report's (CSV, TSV or JSON Lines, optionally gzip compressed; "-" reads
-standard input, as it does for the decision file); the label column is
-optional here, and --ignore-labels skips one whose outcomes are not known
-yet (blank cells).
+--save or the explorer) to fresh scores and asks whether the model still
+behaves as validated, and whether the base rate the projection assumed
+still holds. The scores are read like report's (CSV, TSV or JSON Lines,
+optionally gzip compressed; "-" reads standard input, as it does for the
+decision file); the label column is optional here, and --ignore-labels
+skips one whose outcomes are not known yet (blank cells).
 
-The checks:
-  alert rate   the share the cut flags, with its Wilson interval, against the
-               file's projected alert rate
-  recall       with labels: the share of true cases flagged, against the
-               validation recall
-  precision    with labels: the share of alerts that are true, against the
-               projected precision
-  score PSI    the population stability index of the new scores on the
-               file's histogram bins; bands of common practice: below 0.1
-               stable, 0.1 to 0.25 moderate (reported, not drift), above
-               0.25 large (drift, unless so few new rows give as much
-               through noise alone more than once in a hundred runs)
+A change of base rate alone moves the alert rate, precision and the
+distribution of all scores, while the model behaves as validated. So the
+model is judged on what does not depend on the base rate:
 
-The shares are compared by two-sample z tests that count the sizes of both
-the validation set and the new data, at the 1% level: on sampling noise
-alone each check drifts about once in a hundred runs, so a scheduled job
-does not cry wolf. --tolerance adds a practical margin: a share drifts
-only when it differs by more than the margin beyond sampling noise.
+With labels:
+  base rate            the labelled share, with its Wilson interval, against
+                       the base rate assumed
+  recall               the share of true cases flagged, against validation
+  false positive rate  the share of false cases flagged, against validation
+  scores of true cases, scores of false cases
+                       each class's scores against the validated ones, a
+                       chi-square test on up to 10 bins cut from the
+                       decision file's stored curve (sill-cut/2)
+Without labels:
+  base rate            the base rate that best explains the new scores as a
+                       mix of the validated true and false cases (maximum
+                       likelihood on the bins, profile-likelihood interval)
+  scores as a mix      whether any such mix fits the new scores (a
+                       chi-square goodness-of-fit test); if none does, the
+                       scores moved
 
-Exit status: 0 when every check is within tolerance, 1 when any drifts
-(the output says which and by how much), 2 for errors such as an unreadable
-decision file.`,
+The alert rate, precision and the PSI of all scores are shown beside them.
+A file of the earlier format (no curve) without labels is judged on the
+alert rate and the PSI of all scores, which cannot tell a base rate from
+drift.
+
+The tests are judged together at the 1% level by Holm's procedure: on
+sampling noise alone any finding comes about once in a hundred runs, for
+the verdict as a whole. --tolerance adds a practical margin on every share.
+When the validation set is smaller than the new data, the check's power
+and false alarms rest mostly on the validation set, and the output says so.
+
+Exit status:
+  0  ok          the model behaves as validated, at the base rate assumed
+  1  drift       the model no longer behaves as validated
+  2  error       such as an unreadable decision file
+  3  assumption  the model behaves as validated but the base rate differs
+                 beyond noise: the projection must be redone (the output
+                 gives the alerts per shift at the observed rate and the
+                 sill report line that writes the re-projected decision)`,
 		Example: `  sill check cut.yaml scores-2026-09-28.csv
   sill check cut.yaml nightly.csv.gz --format json --tolerance 0.02`,
 		Args: argsNamed("the decision file", "the new scores (either may be - for standard input)"),
@@ -102,7 +123,8 @@ decision file.`,
 			for _, w := range report.DroppedWarnings(set) {
 				fmt.Fprintf(cmd.ErrOrStderr(), "sill: warning: %s: %s\n", format.Printable(args[1]), format.Printable(w))
 			}
-			res, err := drift.Check(file, set, drift.Options{Tolerance: tolerance, Labelled: set.LabelColumn != "" && !ignoreLabels, IgnoreLabels: "--ignore-labels"})
+			res, err := drift.Check(file, set, drift.Options{Tolerance: tolerance, Labelled: set.LabelColumn != "" && !ignoreLabels, IgnoreLabels: "--ignore-labels",
+				Redo: func(baseRate float64) string { return redoLine(file, args[0], baseRate) }})
 			if err != nil {
 				return fmt.Errorf("check %s: %w", args[1], err)
 			}
@@ -114,8 +136,11 @@ decision file.`,
 			if err != nil {
 				return err
 			}
-			if res.Drift {
+			switch res.Status() {
+			case drift.StatusDrift:
 				return &exitError{code: 1}
+			case drift.StatusAssumption:
+				return &exitError{code: 3}
 			}
 			return nil
 		},
@@ -131,6 +156,71 @@ decision file.`,
 	fs.Var(newShareFlag(&tolerance, 0, shareBounds{below1: true, expected: "a margin below 1, such as 0.02 or 2% for two percentage points"}),
 		"tolerance", "practical margin on every share, such as 0.02 or 2% for two percentage points")
 	return cmd
+}
+
+// redoLine is the sill report line that writes the decision of file,
+// saved at path, again with its chosen cut's score kept and the base rate
+// at baseRate, the other assumptions as the file holds them.
+func redoLine(file *decision.File, path string, baseRate float64) string {
+	chosen, _ := file.ChosenCandidate()
+	a := file.Assumptions
+	args := []string{"sill", "report", shellWord(file.Data.Path)}
+	if file.Data.ScoreColumn != "" && !isDefaultName(file.Data.ScoreColumn, scores.DefaultScoreColumns) {
+		args = append(args, "--score", shellWord(file.Data.ScoreColumn))
+	}
+	if file.Data.LabelColumn != "" && !isDefaultName(file.Data.LabelColumn, scores.DefaultLabelColumns) {
+		args = append(args, "--label", shellWord(file.Data.LabelColumn))
+	}
+	if file.Data.WeightColumn != "" {
+		args = append(args, "--weight", shellWord(file.Data.WeightColumn))
+	}
+	if file.Data.LowerIsRiskier {
+		args = append(args, "--lower-is-riskier")
+	}
+	args = append(args, "--base-rate", strconv.FormatFloat(roundShare(baseRate), 'f', -1, 64))
+	if a.Confidence != projection.DefaultConfidence {
+		args = append(args, "--confidence", strconv.FormatFloat(a.Confidence, 'f', -1, 64))
+	}
+	if file.Model.Name != "" {
+		args = append(args, "--model-name", shellWord(file.Model.Name))
+	}
+	if file.Model.Version != "" {
+		args = append(args, "--model-version", shellWord(file.Model.Version))
+	}
+	if a.Volume > 0 {
+		args = append(args, "--volume", strconv.FormatFloat(a.Volume, 'f', -1, 64))
+	}
+	if a.Capacity > 0 {
+		args = append(args, "--capacity", strconv.FormatFloat(a.Capacity, 'f', -1, 64))
+	}
+	if c := a.Costs; c != nil {
+		args = append(args, "--cost-false-alert", strconv.FormatFloat(c.FalseAlert, 'f', -1, 64), "--cost-miss", strconv.FormatFloat(c.Miss, 'f', -1, 64))
+		if c.Hit != 0 {
+			args = append(args, "--cost-hit", strconv.FormatFloat(c.Hit, 'f', -1, 64))
+		}
+	}
+	args = append(args, "--cut", "score="+strconv.FormatFloat(chosen.Cut.Score, 'g', -1, 64), "--save", shellWord(path))
+	return strings.Join(args, " ")
+}
+
+// roundShare rounds a base rate to four decimals, finer than any interval
+// around it.
+func roundShare(p float64) float64 { return math.Round(p*1e4) / 1e4 }
+
+// shellWord quotes s for a POSIX shell when it holds anything but plain
+// path characters.
+func shellWord(s string) string {
+	plain := s != ""
+	for _, r := range s {
+		if !(r >= 'a' && r <= 'z' || r >= 'A' && r <= 'Z' || r >= '0' && r <= '9' || strings.ContainsRune("-_./=:,+@%", r)) {
+			plain = false
+			break
+		}
+	}
+	if plain {
+		return s
+	}
+	return "'" + strings.ReplaceAll(s, "'", `'\''`) + "'"
 }
 
 // isDefaultName reports whether name is one of the default column names.

@@ -10,8 +10,9 @@ import (
 )
 
 // TestCheck runs sill check as a scheduled job would: the validation data
-// itself and a fresh draw pass (exit 0), a shifted base rate and a shifted
-// score distribution drift (exit 1), broken inputs are errors (exit 2).
+// itself and a fresh draw pass (exit 0), a shifted base rate alone is a
+// wrong assumption (exit 3, with and without labels), a shifted score
+// distribution drifts (exit 1), broken inputs are errors (exit 2).
 func TestCheck(t *testing.T) {
 	dir := t.TempDir()
 	validation := writeFile(t, dir, "validation.csv", bearingsCSV(1, 6000, 0.07, 0, true))
@@ -35,11 +36,12 @@ func TestCheck(t *testing.T) {
 		// case uses seed 12.
 		{"a fresh draw", bearingsCSV(12, 4000, 0.07, 0, true), nil, 0, "ok", 0.1, -1, ""},
 		{"a fresh draw without labels", bearingsCSV(3, 4000, 0.07, 0, false), nil, 0, "ok", 0.1, -1, "no label column"},
-		{"base rate tripled", bearingsCSV(4, 4000, 0.21, 0, true), nil, 1, "drift", 10, -1, "alert rate drifted"},
-		{"scores shifted", bearingsCSV(5, 4000, 0.07, 0.8, false), nil, 1, "drift", 10, 0.25, "score distribution drifted"},
+		{"base rate tripled", bearingsCSV(4, 4000, 0.21, 0, true), nil, 3, "assumption", 10, -1, "the base rate assumed is wrong"},
+		{"base rate tripled without labels", bearingsCSV(4, 4000, 0.21, 0, false), nil, 3, "assumption", 10, -1, "the base rate assumed is wrong"},
+		{"scores shifted", bearingsCSV(5, 4000, 0.07, 0.8, false), nil, 1, "drift", 10, 0.25, "no mix of the validated true and false cases explains the new scores"},
 		// 60 fresh rows leave most of the 20 bins with 0 to 6 rows: the PSI
-		// reads large on noise alone and is not counted as drift.
-		{"a small fresh draw without labels", bearingsCSV(13, 60, 0.07, 0, false), nil, 0, "ok", 10, 0.25, "not counted as drift"},
+		// reads large on noise alone and is only shown.
+		{"a small fresh draw without labels", bearingsCSV(13, 60, 0.07, 0, false), nil, 0, "ok", 10, 0.25, "shown and not judged"},
 		{"base rate up a little within tolerance", bearingsCSV(6, 4000, 0.085, 0, false), []string{"--tolerance", "0.05"}, 0, "ok", 0.1, -1, ""},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
@@ -162,8 +164,8 @@ func TestCheckTolerancePercent(t *testing.T) {
 			t.Errorf("%s: --tolerance 5%% exit %d, --tolerance 0.05 exit %d; outputs\n%s\n%s", format, percent.code, fraction.code, percent.stdout, fraction.stdout)
 		}
 	}
-	if r := runSill(t, "", "check", cutPath, fresh); r.code != 1 {
-		t.Errorf("without a tolerance: exit %d, want 1 (drift)", r.code)
+	if r := runSill(t, "", "check", cutPath, fresh); r.code != 3 {
+		t.Errorf("without a tolerance: exit %d, want 3 (assumption: the base rate alone moved)", r.code)
 	}
 }
 

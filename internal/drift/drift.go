@@ -28,6 +28,7 @@ import (
 
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/format"
+	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
 )
 
@@ -51,6 +52,9 @@ type Options struct {
 	// (the command line gives its flag), for the note that says why
 	// recall and precision were not checked; "" leaves it out.
 	IgnoreLabels string
+	// Redo, when set, gives the caller's command that writes the decision
+	// re-projected at a base rate, for the next step of an assumption.
+	Redo func(baseRate float64) string
 }
 
 // Result is the outcome of Check.
@@ -85,10 +89,43 @@ type Result struct {
 	PSIDrift      bool
 	Bins          int
 
-	Drift    bool     // any check drifted
-	Findings []string // one line per drift, then notes
+	// What does not depend on the base rate, with labels.
+	FalsePositiveRate Test      // against the validation false positive rate
+	ScoresPositive    ScoreTest // the scores of true cases against the validated ones
+	ScoresNegative    ScoreTest // the scores of false cases against the validated ones
+
+	// The base rate seen (labelled share) or estimated (Mixture) in the new
+	// data, its interval at Confidence and how it was found; NaN when
+	// neither could be.
+	BaseRateObserved float64
+	BaseRateCI       [2]float64
+	BaseRateMethod   string
+	BaseRateTest     Test     // with labels: the labelled share against the assumed rate
+	BaseRateP        float64  // without labels: the fitted rate against the assumed one (Mixture.Against)
+	Mixture          *Mixture // without labels, when the file keeps its curve
+	ValidationWeight float64  // the validation set's total weight
+
+	// Family are the tests the verdict rests on, adjusted together by
+	// Holm's procedure so that any finding on noise alone keeps Level.
+	Family []Judged
+	// Verdict is StatusOK, StatusDrift or StatusAssumption.
+	Verdict string
+	// Reprojected are the chosen cut's figures at the observed base rate
+	// (the file's other assumptions kept), with the file's Volume and
+	// Capacity; zero when no base rate was observed.
+	Reprojected      projection.Figures
+	Volume, Capacity float64
+
+	Drift    bool     // the model drifted (Status is StatusDrift)
+	Findings []string // one line per finding, then notes
+
+	// Redo is the line that writes the decision re-projected at the
+	// observed base rate (Options.Redo), when the status is
+	// StatusAssumption; "" otherwise.
+	Redo string
 
 	ignoreLabels string // Options.IgnoreLabels, for the notes
+	byCurve      bool   // the file keeps the curve the class bins come from
 }
 
 // Check applies the chosen cut of f to set and runs the checks of the
@@ -130,6 +167,7 @@ func Check(f *decision.File, set *scores.Set, opt Options) (*Result, error) {
 	if len(f.Data.Histogram.Counts) > 0 {
 		counts.bins = f.Data.Histogram.Fill(set)
 	}
+	counts.fillClasses(f, set, opt.Labelled)
 	return check(f, chosen, counts, opt), nil
 }
 
@@ -140,6 +178,47 @@ type tally struct {
 	weighted                       bool
 	weight, flagged, positives, tp float64
 	bins                           []float64
+
+	// Bins cut from the file's curve (nil without one): even in true
+	// cases, in false cases and in both, with the new data's counts on
+	// them (true cases, false cases, all cases).
+	byPositives, byNegatives, mixture *classBins
+	newPositives, newNegatives, mixed []float64
+}
+
+// fillClasses cuts the file's curve into bins and counts the new data on
+// them: per class with labels, all cases without.
+func (t *tally) fillClasses(f *decision.File, set *scores.Set, labelled bool) {
+	if labelled {
+		pos, okP := newClassBins(f, maxClassBins, func(tp, _ float64) float64 { return tp })
+		neg, okN := newClassBins(f, maxClassBins, func(_, fp float64) float64 { return fp })
+		if !okP || !okN {
+			return
+		}
+		t.byPositives, t.byNegatives = &pos, &neg
+		t.newPositives, t.newNegatives = make([]float64, len(pos.ends)), make([]float64, len(neg.ends))
+		for i, s := range set.Scores {
+			if set.Labels[i] {
+				t.newPositives[pos.bin(s)] += set.Weight(i)
+			} else {
+				t.newNegatives[neg.bin(s)] += set.Weight(i)
+			}
+		}
+		return
+	}
+	P, N := f.Data.Positives, f.Data.Negatives
+	if !(P > 0) || !(N > 0) {
+		return
+	}
+	mix, ok := newClassBins(f, maxClassBins, func(tp, fp float64) float64 { return tp/P + fp/N })
+	if !ok {
+		return
+	}
+	t.mixture = &mix
+	t.mixed = make([]float64, len(mix.ends))
+	for i, s := range set.Scores {
+		t.mixed[mix.bin(s)] += set.Weight(i)
+	}
 }
 
 // check runs the checks on the tallies of the new data.
@@ -207,6 +286,29 @@ func check(f *decision.File, chosen decision.Candidate, t tally, opt Options) *R
 			res.PSIBand = "stable"
 		}
 	}
+	res.BaseRateObserved, res.BaseRateCI, res.BaseRateP = math.NaN(), [2]float64{math.NaN(), math.NaN()}, math.NaN()
+	res.FalsePositiveRate = Compare(0, 0, ratioOrNaN(v.FP, valNegatives), math.NaN(), opt.Tolerance, a.Confidence)
+	res.ScoresPositive, res.ScoresNegative = ScoreTest{PValue: math.NaN(), Statistic: math.NaN()}, ScoreTest{PValue: math.NaN(), Statistic: math.NaN()}
+	res.BaseRateTest = Compare(0, 0, base, math.NaN(), opt.Tolerance, a.Confidence)
+	res.ValidationWeight = valPositives + valNegatives
+	switch {
+	case opt.Labelled:
+		judgeLabelled(res, f, chosen, t, opt)
+	case t.mixture != nil:
+		judgeUnlabelled(res, f, t, opt)
+	default:
+		// Without labels or a stored curve the base rate cannot be told
+		// from drift: the alert rate and the scores of all cases judge.
+		res.Family = []Judged{{Name: "alert rate", PValue: definedP(res.AlertRate), Model: true}}
+	}
+	res.byCurve = len(f.Curve) >= 2
+	decide(res, f, chosen)
+	if res.Verdict == StatusAssumption && opt.Redo != nil {
+		res.Redo = opt.Redo(res.BaseRateObserved)
+	}
+	if res.PSIDrift && !opt.Labelled && t.mixture == nil {
+		res.Verdict, res.Drift = StatusDrift, true
+	}
 	res.findings()
 	return res
 }
@@ -221,59 +323,150 @@ func weighted(share, variance float64) float64 {
 }
 
 func (r *Result) findings() {
-	var drift, notes []string
+	var found, notes []string
 	margin := ""
 	if r.Tolerance > 0 {
 		margin = fmt.Sprintf(", beyond the tolerance of %s points", format.Number(100*r.Tolerance, 1))
 	}
-	test := func(name, against string, t Test) {
-		if !t.Drift {
-			return
-		}
-		// The difference of the shares as shown beside it.
+	// moved words the change of a share as shown beside it.
+	moved := func(t Test, against, up, down string) string {
 		shown := format.ShareDiff(t.Observed, t.Expected).Value
-		direction := "higher"
+		direction, what := "higher", up
 		if shown < 0 || shown == 0 && t.Difference < 0 {
-			direction = "lower"
+			direction, what = "lower", down
 		}
-		drift = append(drift, fmt.Sprintf("%s drifted: %s observed against %s %s, %s points %s%s (%s)",
-			name, format.Share(t.Observed), format.Share(t.Expected), against, format.Number(100*math.Abs(shown), 1), direction, margin, "p "+format.PValue(t.PValue)))
+		return fmt.Sprintf("%s observed against %s %s, %s points %s%s (p %s): %s",
+			format.Share(t.Observed), format.Share(t.Expected), against, format.Number(100*math.Abs(shown), 1), direction, margin, format.PValue(t.PValue), what)
 	}
-	test("alert rate", "projected", r.AlertRate)
+	scoreLine := func(name string, s ScoreTest) string {
+		return fmt.Sprintf("the scores of %s moved: chi-square %s on %d degrees of freedom over %d bins (p %s)", name, format.Number(s.Statistic, 1), s.Freedom, s.Bins, format.PValue(s.PValue))
+	}
+	for _, j := range r.Family {
+		if !j.Rejected {
+			continue
+		}
+		switch j.Name {
+		case "recall":
+			found = append(found, "recall drifted: "+moved(r.Recall, "on validation", "the model catches more true cases than validated", "the model misses more true cases than validated"))
+		case "false positive rate":
+			found = append(found, "false positive rate drifted: "+moved(r.FalsePositiveRate, "on validation", "the model flags more false cases than validated", "the model flags fewer false cases than validated"))
+		case "scores of true cases":
+			found = append(found, scoreLine("true cases", r.ScoresPositive))
+		case "scores of false cases":
+			found = append(found, scoreLine("false cases", r.ScoresNegative))
+		case "scores fit a mixture of the validated classes":
+			m := r.Mixture
+			found = append(found, fmt.Sprintf("no mix of the validated true and false cases explains the new scores (chi-square %s on %d degrees of freedom, p %s): the scores moved, not only the base rate",
+				format.Number(m.Fit, 1), m.Freedom, format.PValue(m.FitP)))
+		case "alert rate":
+			found = append(found, "alert rate drifted: "+moved(r.AlertRate, "projected", "more cases are flagged than projected", "fewer cases are flagged than projected"))
+		case "base rate":
+			line := r.baseRateLine() + margin
+			switch {
+			case r.Verdict == StatusAssumption:
+				line += ": the model behaves as validated, the base rate assumed is wrong"
+			case r.Mixture != nil:
+				line += "; no mix fits the new scores, so this estimate is not to be relied on"
+			}
+			found = append(found, line)
+		}
+	}
+	if r.PSIDrift && r.Mixture == nil && !r.Labelled {
+		found = append(found, fmt.Sprintf("score distribution drifted: PSI %s, above %v (a large shift)", format.Number(r.PSI, 3), PSILarge))
+	}
+	if r.Verdict == StatusAssumption {
+		found = append(found, r.reprojectedLine())
+	}
 	if !r.AlertRate.Defined {
 		notes = append(notes, "the file's projected alert rate is undefined, so the alert rate was not checked")
 	}
-	switch r.PSIBand {
-	case "large":
-		if r.PSIDrift {
-			drift = append(drift, fmt.Sprintf("score distribution drifted: PSI %s, above %v (a large shift)", format.Number(r.PSI, 3), PSILarge))
-		} else {
-			notes = append(notes, fmt.Sprintf("score distribution: PSI %s is in the large band, but sampling noise alone passes %s once in a hundred runs on so few rows; not counted as drift", format.Number(r.PSI, 3), format.Number(r.PSINoiseLevel, 3)))
-		}
-	case "moderate":
+	judgedByMixture := r.Labelled || r.Mixture != nil
+	switch {
+	case r.PSIBand == "":
+		notes = append(notes, "the file has no score histogram, so the PSI of all scores was not computed")
+	case judgedByMixture:
+		notes = append(notes, fmt.Sprintf("PSI of all scores %s (%s): it moves with the base rate too, so it is shown and not judged", format.Number(r.PSI, 3), r.PSIBand))
+	case r.PSIBand == "large" && !r.PSIDrift:
+		notes = append(notes, fmt.Sprintf("score distribution: PSI %s is in the large band, but sampling noise alone passes %s once in a hundred runs on so few rows; not counted as drift", format.Number(r.PSI, 3), format.Number(r.PSINoiseLevel, 3)))
+	case r.PSIBand == "moderate":
 		notes = append(notes, fmt.Sprintf("score distribution moved moderately: PSI %s, between %v and %v; watch it, not counted as drift", format.Number(r.PSI, 3), PSIModerate, PSILarge))
-	case "":
-		notes = append(notes, "the file has no score histogram, so the score distribution was not checked")
-	}
-	if r.PSINoise >= PSIModerate {
-		notes = append(notes, fmt.Sprintf("the new data are few: sampling noise alone gives a PSI of about %s, so its bands read high", format.Number(r.PSINoise, 3)))
 	}
 	if r.Labelled {
-		test("recall", "on validation", r.Recall)
-		test("precision", "projected", r.Precision)
 		if !r.Recall.Defined {
 			notes = append(notes, "the new data have no true cases, so recall was not checked")
 		}
+		if !r.FalsePositiveRate.Defined {
+			notes = append(notes, "the new data have no false cases, so the false positive rate was not checked")
+		}
+		if !r.ScoresPositive.Defined || !r.ScoresNegative.Defined {
+			notes = append(notes, r.classNote())
+		}
+		if r.Precision.Defined && r.Verdict != StatusDrift {
+			shown := format.ShareDiff(r.Precision.Observed, r.Precision.Expected).Value
+			switch {
+			case shown > 0:
+				notes = append(notes, fmt.Sprintf("precision %s against %s projected: more of the alerts are true cases, which follows the base rate and is no failure", format.Share(r.Precision.Observed), format.Share(r.Precision.Expected)))
+			case shown < 0:
+				notes = append(notes, fmt.Sprintf("precision %s against %s projected: fewer of the alerts are true cases, which follows the base rate", format.Share(r.Precision.Observed), format.Share(r.Precision.Expected)))
+			}
+		}
 		if !r.Precision.Defined {
-			notes = append(notes, "the cut flags nothing in the new data, so precision was not checked")
+			notes = append(notes, "the cut flags nothing in the new data, so precision was not measured")
 		}
 	} else {
 		why := "no label column"
 		if r.ignoreLabels != "" {
 			why += ", or " + r.ignoreLabels
 		}
-		notes = append(notes, "no labels were read from the new data ("+why+"), so recall and precision were not checked")
+		line := "no labels were read from the new data (" + why + "), so recall and precision were not measured"
+		if r.Mixture == nil {
+			line += "; the file keeps no curve (a sill-cut/1 file), so a change of base rate cannot be told from drift and the alert rate and scores of all cases judge"
+		} else {
+			line += "; the base rate was estimated from the scores alone"
+		}
+		notes = append(notes, line)
 	}
-	r.Drift = len(drift) > 0
-	r.Findings = append(drift, notes...)
+	if r.PSINoise >= PSIModerate && !judgedByMixture {
+		notes = append(notes, fmt.Sprintf("the new data are few: sampling noise alone gives a PSI of about %s, so its bands read high", format.Number(r.PSINoise, 3)))
+	}
+	if r.SmallValidation() {
+		notes = append(notes, fmt.Sprintf("the validation set (%s) is smaller than the new data (%s): the check's power and false alarms rest mostly on the validation set, so a small change may go unseen and the verdict reads the validation set's own noise as much as production's",
+			format.Count(r.ValidationWeight), format.Count(r.Weight)))
+	}
+	r.Findings = append(found, notes...)
+}
+
+// classNote says why the scores within a class were not judged.
+func (r *Result) classNote() string {
+	if r.byCurve {
+		return "too few cases of a class in the new data to compare its scores (fewer than ten in two bins), so they were not judged"
+	}
+	return "the file keeps no curve (a sill-cut/1 file), so the scores within each class were not judged; recall and the false positive rate still were"
+}
+
+// baseRateLine words the base rate seen against the one assumed.
+func (r *Result) baseRateLine() string {
+	direction := "higher"
+	if format.ShareDiff(r.BaseRateObserved, r.BaseRate).Value < 0 {
+		direction = "lower"
+	}
+	return fmt.Sprintf("the base rate is %s (%s) against %s assumed, %s beyond noise", format.Share(r.BaseRateObserved), format.Interval(r.BaseRateCI), format.Share(r.BaseRate), direction)
+}
+
+// reprojectedLine gives the chosen cut's figures at the observed base rate.
+func (r *Result) reprojectedLine() string {
+	f := r.Reprojected
+	line := fmt.Sprintf("at the observed base rate the cut flags %s of cases (projected %s) with precision %s (projected %s)",
+		format.Share(f.AlertRate), format.Share(r.AlertRate.Expected), format.Share(f.Precision), format.Share(r.Precision.Expected))
+	if r.Volume > 0 {
+		line += fmt.Sprintf("; %s alerts per shift of %s cases (projected %s)", format.Count(f.QueuePerShift), format.Count(r.Volume), format.Count(r.Volume*r.AlertRate.Expected))
+		if r.Capacity > 0 {
+			if f.QueuePerShift > r.Capacity {
+				line += fmt.Sprintf(", over the capacity of %s by %s", format.Count(r.Capacity), format.Count(f.QueuePerShift-r.Capacity))
+			} else {
+				line += fmt.Sprintf(", within the capacity of %s", format.Count(r.Capacity))
+			}
+		}
+	}
+	return line
 }

@@ -243,29 +243,33 @@ func TestCheckScenarios(t *testing.T) {
 		name     string
 		set      *scores.Set
 		labelled bool
-		drift    bool
+		status   string
 		psiBelow float64 // PSI must be below this
 		psiAbove float64 // and above this
 		findings []string
 	}{
-		{"the validation set itself", validation, true, false, 1e-12, -1, nil},
-		{"a fresh draw of the same process", bearingSet(t, 2, 4000, 0.07, 0), true, false, PSIModerate, -1, nil},
-		{"a fresh draw without labels", bearingSet(t, 3, 4000, 0.07, 0), false, false, PSIModerate, -1,
-			[]string{"so recall and precision were not checked"}},
-		{"base rate tripled", bearingSet(t, 4, 4000, 0.21, 0), true, true, math.Inf(1), -1,
-			[]string{"alert rate drifted", "points higher", "precision drifted"}},
-		{"scores shifted up", bearingSet(t, 5, 4000, 0.07, 0.8), true, true, math.Inf(1), PSILarge,
-			[]string{"alert rate drifted", "score distribution drifted: PSI"}},
-		{"scores shifted up, no labels", bearingSet(t, 6, 4000, 0.07, 0.8), false, true, math.Inf(1), PSILarge,
-			[]string{"alert rate drifted", "score distribution drifted"}},
+		{"the validation set itself", validation, true, StatusOK, 1e-12, -1, nil},
+		{"a fresh draw of the same process", bearingSet(t, 2, 4000, 0.07, 0), true, StatusOK, PSIModerate, -1, nil},
+		{"a fresh draw without labels", bearingSet(t, 3, 4000, 0.07, 0), false, StatusOK, PSIModerate, -1,
+			[]string{"so recall and precision were not measured", "estimated from the scores alone"}},
+		// The base rate alone moved: the model behaves as validated, and a
+		// higher precision is no failure.
+		{"base rate tripled", bearingSet(t, 4, 4000, 0.21, 0), true, StatusAssumption, math.Inf(1), -1,
+			[]string{"the base rate is 20.9%", "higher beyond noise", "the base rate assumed is wrong", "more of the alerts are true cases", "alerts per shift"}},
+		{"base rate tripled, no labels", bearingSet(t, 4, 4000, 0.21, 0), false, StatusAssumption, math.Inf(1), -1,
+			[]string{"the base rate is", "the base rate assumed is wrong"}},
+		{"scores shifted up", bearingSet(t, 5, 4000, 0.07, 0.8), true, StatusDrift, math.Inf(1), PSILarge,
+			[]string{"recall drifted", "false positive rate drifted: 41.3% observed against 15.7% on validation, 25.6 points higher", "the scores of false cases moved"}},
+		{"scores shifted up, no labels", bearingSet(t, 6, 4000, 0.07, 0.8), false, StatusDrift, math.Inf(1), PSILarge,
+			[]string{"no mix of the validated true and false cases explains the new scores"}},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			res, err := Check(file, tc.set, Options{Labelled: tc.labelled})
 			if err != nil {
 				t.Fatal(err)
 			}
-			if res.Drift != tc.drift {
-				t.Errorf("drift %v, want %v; findings %q", res.Drift, tc.drift, res.Findings)
+			if res.Status() != tc.status || res.Drift != (tc.status == StatusDrift) {
+				t.Errorf("status %v (drift %v), want %v; findings %q", res.Status(), res.Drift, tc.status, res.Findings)
 			}
 			if !(res.PSI < tc.psiBelow) || !(res.PSI > tc.psiAbove) {
 				t.Errorf("PSI %v, want in (%v, %v)", res.PSI, tc.psiAbove, tc.psiBelow)
@@ -420,12 +424,13 @@ func TestWriteJSONKeys(t *testing.T) {
 	if err := json.Unmarshal(buf.Bytes(), &got); err != nil {
 		t.Fatal(err)
 	}
-	for _, key := range []string{"alert_rate_observed", "alert_rate_projected", "alert_rate_ci", "psi", "status", "findings"} {
+	for _, key := range []string{"alert_rate_observed", "alert_rate_projected", "alert_rate_ci", "psi", "status", "findings",
+		"base_rate_observed", "base_rate_ci", "base_rate_method", "tests", "level_method", "reprojected", "next_step"} {
 		if got[key] == nil {
 			t.Errorf("key %s missing or null", key)
 		}
 	}
-	for _, key := range []string{"recall_observed", "precision_observed"} {
+	for _, key := range []string{"recall_observed", "precision_observed", "false_positive_rate_observed"} {
 		if v, ok := got[key]; !ok || v != nil {
 			t.Errorf("key %s = %v, want null without labels", key, v)
 		}

@@ -13,12 +13,15 @@ import (
 	"github.com/sill-tool/sill/internal/format"
 )
 
-// Status returns "drift" when any check drifted, else "ok".
+// Status returns the verdict: StatusOK, StatusDrift or StatusAssumption.
 func (r *Result) Status() string {
-	if r.Drift {
-		return "drift"
+	if r.Verdict == "" {
+		if r.Drift {
+			return StatusDrift
+		}
+		return StatusOK
 	}
-	return "ok"
+	return r.Verdict
 }
 
 // number is a float that reads as JSON null when undefined.
@@ -42,36 +45,82 @@ func pair(ci [2]float64) *[2]number {
 // jsonResult is the JSON form: a contract for scheduled jobs. Keys keep
 // their names and meanings; new keys may be added.
 type jsonResult struct {
-	DecisionFile       string     `json:"decision_file"`
-	Scores             string     `json:"scores"`
-	Chosen             string     `json:"chosen"`
-	Cut                number     `json:"cut"`
-	LowerIsRiskier     bool       `json:"lower_is_riskier"`
-	Rows               int        `json:"rows"`
-	Labelled           bool       `json:"labelled"`
-	Level              float64    `json:"level"`
-	BaseRate           number     `json:"projected_base_rate"`
-	Tolerance          float64    `json:"tolerance"`
-	AlertRateObserved  number     `json:"alert_rate_observed"`
-	AlertRateProjected number     `json:"alert_rate_projected"`
-	AlertRateCI        *[2]number `json:"alert_rate_ci"`
-	AlertRatePValue    number     `json:"alert_rate_p_value"`
-	PSI                number     `json:"psi"`
-	PSIBand            *string    `json:"psi_band"`
-	PSINoise           number     `json:"psi_noise"`
-	PSINoiseLevel      number     `json:"psi_noise_p99"`
-	PSIDrift           bool       `json:"psi_drift"`
-	RecallObserved     number     `json:"recall_observed"`
-	RecallCI           *[2]number `json:"recall_ci"`
-	RecallValidation   number     `json:"recall_validation"`
-	RecallPValue       number     `json:"recall_p_value"`
-	PrecisionObserved  number     `json:"precision_observed"`
-	PrecisionCI        *[2]number `json:"precision_ci"`
-	PrecisionProjected number     `json:"precision_projected"`
-	PrecisionPValue    number     `json:"precision_p_value"`
-	Status             string     `json:"status"`
-	Findings           []string   `json:"findings"`
-	Caution            string     `json:"caution"`
+	DecisionFile       string       `json:"decision_file"`
+	Scores             string       `json:"scores"`
+	Chosen             string       `json:"chosen"`
+	Cut                number       `json:"cut"`
+	LowerIsRiskier     bool         `json:"lower_is_riskier"`
+	Rows               int          `json:"rows"`
+	Labelled           bool         `json:"labelled"`
+	Level              float64      `json:"level"`
+	BaseRate           number       `json:"projected_base_rate"`
+	Tolerance          float64      `json:"tolerance"`
+	AlertRateObserved  number       `json:"alert_rate_observed"`
+	AlertRateProjected number       `json:"alert_rate_projected"`
+	AlertRateCI        *[2]number   `json:"alert_rate_ci"`
+	AlertRatePValue    number       `json:"alert_rate_p_value"`
+	PSI                number       `json:"psi"`
+	PSIBand            *string      `json:"psi_band"`
+	PSINoise           number       `json:"psi_noise"`
+	PSINoiseLevel      number       `json:"psi_noise_p99"`
+	PSIDrift           bool         `json:"psi_drift"`
+	RecallObserved     number       `json:"recall_observed"`
+	RecallCI           *[2]number   `json:"recall_ci"`
+	RecallValidation   number       `json:"recall_validation"`
+	RecallPValue       number       `json:"recall_p_value"`
+	PrecisionObserved  number       `json:"precision_observed"`
+	PrecisionCI        *[2]number   `json:"precision_ci"`
+	PrecisionProjected number       `json:"precision_projected"`
+	PrecisionPValue    number       `json:"precision_p_value"`
+	FPRObserved        number       `json:"false_positive_rate_observed"`
+	FPRCI              *[2]number   `json:"false_positive_rate_ci"`
+	FPRValidation      number       `json:"false_positive_rate_validation"`
+	FPRPValue          number       `json:"false_positive_rate_p_value"`
+	BaseRateObserved   number       `json:"base_rate_observed"`
+	BaseRateCI         *[2]number   `json:"base_rate_ci"`
+	BaseRateMethod     string       `json:"base_rate_method"`
+	Tests              []jsonTest   `json:"tests"`
+	LevelMethod        string       `json:"level_method"`
+	Reprojected        *jsonFigures `json:"reprojected"`
+	NextStep           string       `json:"next_step"`
+	Status             string       `json:"status"`
+	Findings           []string     `json:"findings"`
+	Caution            string       `json:"caution"`
+}
+
+// jsonTest is one test of the verdict's family.
+type jsonTest struct {
+	Name     string `json:"name"`
+	Judges   string `json:"judges"` // "model" or "base rate"
+	PValue   number `json:"p_value"`
+	Rejected bool   `json:"rejected"`
+}
+
+// jsonFigures are the chosen cut's figures at the observed base rate.
+type jsonFigures struct {
+	BaseRate      number `json:"base_rate"`
+	AlertRate     number `json:"alert_rate"`
+	Precision     number `json:"precision"`
+	QueuePerShift number `json:"queue_per_shift"`
+	Capacity      number `json:"capacity"`
+}
+
+// LevelMethod says how the verdict keeps Level as a family.
+const LevelMethod = "Holm's step-down procedure across the tests, each two-sided"
+
+// NextStep is the next step for the status, in one line.
+func (r *Result) NextStep() string {
+	switch r.Status() {
+	case StatusDrift:
+		return "the model no longer behaves as validated: stop trusting the cut's projected figures and take the findings to the model's owner"
+	case StatusAssumption:
+		if r.Redo != "" {
+			return "re-project the decision at the observed base rate and have it signed off again: " + r.Redo
+		}
+		return "re-project the decision at the observed base rate and have it signed off again"
+	default:
+		return "nothing to do; check the next batch"
+	}
 }
 
 // WriteJSON writes r as one JSON object; decisionFile and scoresFile name
@@ -105,7 +154,24 @@ func WriteJSON(w io.Writer, r *Result, decisionFile, scoresFile string) error {
 		PSI: number(r.PSI), PSINoise: number(r.PSINoise), PSINoiseLevel: number(r.PSINoiseLevel), PSIDrift: r.PSIDrift,
 		RecallObserved: obs(r.Recall), RecallCI: ci(r.Recall), RecallValidation: number(r.Recall.Expected), RecallPValue: pv(r.Recall),
 		PrecisionObserved: obs(r.Precision), PrecisionCI: ci(r.Precision), PrecisionProjected: number(r.Precision.Expected), PrecisionPValue: pv(r.Precision),
+		FPRObserved: obs(r.FalsePositiveRate), FPRCI: ci(r.FalsePositiveRate), FPRValidation: number(r.FalsePositiveRate.Expected), FPRPValue: pv(r.FalsePositiveRate),
+		BaseRateObserved: number(r.BaseRateObserved), BaseRateCI: pair(r.BaseRateCI), BaseRateMethod: r.BaseRateMethod,
+		Tests: []jsonTest{}, LevelMethod: LevelMethod, NextStep: r.NextStep(),
 		Status: r.Status(), Findings: r.Findings, Caution: evidence.Caution,
+	}
+	for _, j := range r.Family {
+		judges := "model"
+		if !j.Model {
+			judges = "base rate"
+		}
+		out.Tests = append(out.Tests, jsonTest{Name: j.Name, Judges: judges, PValue: number(j.PValue), Rejected: j.Rejected})
+	}
+	if !math.IsNaN(r.BaseRateObserved) {
+		out.Reprojected = &jsonFigures{BaseRate: number(r.BaseRateObserved), AlertRate: number(r.Reprojected.AlertRate), Precision: number(r.Reprojected.Precision),
+			QueuePerShift: number(r.Reprojected.QueuePerShift), Capacity: number(math.NaN())}
+		if r.Capacity > 0 {
+			out.Reprojected.Capacity = number(r.Capacity)
+		}
 	}
 	if r.PSIBand != "" {
 		band := r.PSIBand
@@ -122,6 +188,20 @@ func WriteJSON(w io.Writer, r *Result, decisionFile, scoresFile string) error {
 	}
 	_, err := w.Write(format.JSON(encoded.Bytes())) // names from the files, safe on a terminal
 	return err
+}
+
+// tests returns how many tests the verdict rests on.
+func (r *Result) tests() int {
+	n := 0
+	for _, j := range r.Family {
+		if !math.IsNaN(j.PValue) {
+			n++
+		}
+	}
+	if r.PSIDrift || (r.Mixture == nil && !r.Labelled && !math.IsNaN(r.PSI)) {
+		n++ // the PSI of all scores judges too without labels or a curve
+	}
+	return n
 }
 
 // WriteText writes r for a person: what was checked, a table of the
@@ -152,36 +232,78 @@ func WriteText(w io.Writer, r *Result, decisionFile, scoresFile string) error {
 	if r.Tolerance > 0 {
 		tolerance = format.Number(100*r.Tolerance, 1) + " points"
 	}
-	fmt.Fprintf(&b, "tests        two-sample z tests at the %g%% level (on noise alone each trips about once in %d runs); tolerance %s\n\n",
-		100*Level, int(math.Round(1/Level)), tolerance)
+	fmt.Fprintf(&b, "tests        %d tests judge the verdict together at the %g%% level (%s): on noise alone any finding, drift or assumption, comes about once in %d runs; tolerance %s\n\n",
+		r.tests(), 100*Level, LevelMethod, int(math.Round(1/Level)), tolerance)
 
+	judged := map[string]Judged{}
+	for _, j := range r.Family {
+		judged[j.Name] = j
+	}
+	verdictOf := func(name string) string {
+		j, ok := judged[name]
+		switch {
+		case !ok:
+			return "shown"
+		case math.IsNaN(j.PValue):
+			return "not tested"
+		case j.Rejected && j.Model:
+			return "DRIFT"
+		case j.Rejected:
+			return "CHANGED"
+		}
+		return "ok"
+	}
 	rows := [][]string{{"check", "observed", "interval", "expected", "difference", "p-value", "verdict"}}
 	add := func(name, source string, t Test, measured bool) {
-		if !measured {
+		switch {
+		case !measured:
 			rows = append(rows, []string{name, "not measured", "", format.Share(t.Expected) + " " + source, "", "", "-"})
-			return
-		}
-		if !t.Defined {
+		case !t.Defined:
 			rows = append(rows, []string{name, format.Share(t.Observed), format.Interval(t.ObservedCI), format.Share(t.Expected) + " " + source, "", "", "not tested"})
+		default:
+			rows = append(rows, []string{name, format.Share(t.Observed), format.Interval(t.ObservedCI), format.Share(t.Expected) + " " + source,
+				format.ShareDiff(t.Observed, t.Expected).Text, format.PValue(t.PValue), verdictOf(name)})
+		}
+	}
+	if _, ok := judged["base rate"]; ok {
+		rows = append(rows, []string{"base rate", format.Share(r.BaseRateObserved), format.Interval(r.BaseRateCI), format.Share(r.BaseRate) + " assumed",
+			format.ShareDiff(r.BaseRateObserved, r.BaseRate).Text, format.PValue(judged["base rate"].PValue), verdictOf("base rate")})
+	}
+	add("recall", "validation", r.Recall, r.Labelled)
+	if r.Labelled {
+		add("false positive rate", "validation", r.FalsePositiveRate, true)
+	}
+	class := func(name string, t ScoreTest) {
+		if !t.Defined {
+			rows = append(rows, []string{name, "not tested", "", "", "", "", "-"})
 			return
 		}
-		verdict := "ok"
-		if t.Drift {
-			verdict = "DRIFT"
+		rows = append(rows, []string{name, "chi-square " + format.Number(t.Statistic, 1), fmt.Sprintf("%d bins", t.Bins), "validated", "", format.PValue(t.PValue), verdictOf(name)})
+	}
+	if r.Labelled {
+		class("scores of true cases", r.ScoresPositive)
+		class("scores of false cases", r.ScoresNegative)
+	}
+	if m := r.Mixture; m != nil {
+		name := "scores fit a mixture of the validated classes"
+		if math.IsNaN(m.FitP) {
+			rows = append(rows, []string{"scores as a mix", "not tested", "", "", "", "", "-"})
+		} else {
+			rows = append(rows, []string{"scores as a mix", "chi-square " + format.Number(m.Fit, 1), fmt.Sprintf("%d degrees", m.Freedom), "a fitting mix", "", format.PValue(m.FitP), verdictOf(name)})
 		}
-		rows = append(rows, []string{name, format.Share(t.Observed), format.Interval(t.ObservedCI), format.Share(t.Expected) + " " + source,
-			format.ShareDiff(t.Observed, t.Expected).Text, format.PValue(t.PValue), verdict})
 	}
 	add("alert rate", "projected", r.AlertRate, true)
-	add("recall", "validation", r.Recall, r.Labelled)
 	add("precision", "projected", r.Precision, r.Labelled)
-	psiVerdict := "ok"
-	if r.PSIDrift {
-		psiVerdict = "DRIFT"
-	} else if r.PSIBand == "large" {
-		psiVerdict = "within noise"
-	} else if r.PSIBand == "moderate" {
-		psiVerdict = "watch"
+	psiVerdict := "shown"
+	if r.Mixture == nil && !r.Labelled {
+		psiVerdict = "ok"
+		if r.PSIDrift {
+			psiVerdict = "DRIFT"
+		} else if r.PSIBand == "large" {
+			psiVerdict = "within noise"
+		} else if r.PSIBand == "moderate" {
+			psiVerdict = "watch"
+		}
 	}
 	if math.IsNaN(r.PSI) {
 		rows = append(rows, []string{"score PSI", "not measured", "", "", "", "", "-"})
@@ -189,12 +311,28 @@ func WriteText(w io.Writer, r *Result, decisionFile, scoresFile string) error {
 		rows = append(rows, []string{"score PSI", format.Number(r.PSI, 3), r.PSIBand, "noise ~" + format.Number(r.PSINoise, 3), "", "", psiVerdict})
 	}
 	b.WriteString(format.Grid(rows[0], rows[1:], true))
-	fmt.Fprintf(&b, "\nPSI bands (common practice): below %v stable, %v to %v moderate, above %v large; only large counts as drift, and only beyond what noise alone gives once in a hundred runs.\n",
-		PSIModerate, PSIModerate, PSILarge, PSILarge)
-	if r.Drift {
-		b.WriteString("\nstatus: drift - production no longer behaves like the validation set\n")
+	if r.Labelled || r.Mixture != nil {
+		b.WriteString("\nThe alert rate, precision and PSI of all scores move with the base rate, so they are shown, not judged: ")
+		if r.Labelled {
+			b.WriteString("the model is judged on recall, the false positive rate and the scores within each class")
+		} else {
+			b.WriteString("the model is judged on whether the new scores are a mix of the validated true and false cases at some base rate")
+		}
+		b.WriteString(".\n")
+		if r.BaseRateMethod != "" {
+			fmt.Fprintf(&b, "Base rate: %s.\n", r.BaseRateMethod)
+		}
 	} else {
-		b.WriteString("\nstatus: ok - production still behaves like the validation set on these checks\n")
+		fmt.Fprintf(&b, "\nPSI bands (common practice): below %v stable, %v to %v moderate, above %v large; only large counts as drift, and only beyond what noise alone gives once in a hundred runs.\n",
+			PSIModerate, PSIModerate, PSILarge, PSILarge)
+	}
+	switch r.Status() {
+	case StatusDrift:
+		b.WriteString("\nstatus: drift - the model no longer behaves as validated\n")
+	case StatusAssumption:
+		b.WriteString("\nstatus: assumption - the model behaves as validated, but the base rate assumed is wrong: the projection must be redone\n")
+	default:
+		b.WriteString("\nstatus: ok - production behaves as validated, at the base rate assumed\n")
 	}
 	if len(r.Findings) > 0 {
 		b.WriteString("findings:\n")
@@ -202,6 +340,7 @@ func WriteText(w io.Writer, r *Result, decisionFile, scoresFile string) error {
 	for _, f := range r.Findings {
 		b.WriteString("  - " + f + "\n")
 	}
+	b.WriteString("next step: " + r.NextStep() + "\n")
 	b.WriteString("\ncaution: " + evidence.Caution + "\n")
 	_, err := io.WriteString(w, format.PrintableText(b.String())) // names from the files are untrusted
 	return err

@@ -1,0 +1,217 @@
+package drift
+
+import (
+	"math"
+	"sort"
+
+	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/decision"
+	"github.com/sill-tool/sill/internal/projection"
+)
+
+// Statuses of a check, and the exit codes the command gives them.
+const (
+	StatusOK         = "ok"         // exit 0: production behaves as validated, at the assumed base rate
+	StatusDrift      = "drift"      // exit 1: the model no longer behaves as validated
+	StatusAssumption = "assumption" // exit 3: the model behaves as validated; the base rate assumed is wrong
+)
+
+// Judged is one test of the verdict's family, with its adjusted outcome.
+type Judged struct {
+	Name     string
+	PValue   float64
+	Model    bool // a test of the model (its rejection is drift); false: of the base rate (assumption)
+	Rejected bool // by Holm's step-down procedure at Level across the family
+}
+
+// ScoreTest compares the scores of one class with the validated ones, on
+// bins cut from the file's curve (HomogeneityTest).
+type ScoreTest struct {
+	Defined   bool
+	Bins      int
+	Statistic float64
+	Freedom   int
+	PValue    float64
+}
+
+// holm marks the tests of family that Holm's step-down procedure rejects
+// at level: with the p-values in ascending order, the i-th (from 0) is
+// rejected while p < level/(m-i) (Holm 1979, "A simple sequentially
+// rejective multiple test procedure", Scandinavian Journal of
+// Statistics; from memory). It keeps the chance of any rejection under no
+// change at most level whatever the tests' dependence. NaN p-values are
+// not tests and are left out.
+func holm(family []Judged, level float64) {
+	var order []int
+	for i, j := range family {
+		if !math.IsNaN(j.PValue) {
+			order = append(order, i)
+		}
+	}
+	sort.SliceStable(order, func(a, b int) bool { return family[order[a]].PValue < family[order[b]].PValue })
+	m := len(order)
+	for rank, i := range order {
+		if !(family[i].PValue < level/float64(m-rank)) {
+			return
+		}
+		family[i].Rejected = true
+	}
+}
+
+// judgeLabelled adds to res the tests that do not depend on the base rate
+// (recall, false positive rate, the scores within each class) and the
+// observed base rate against the assumed one.
+func judgeLabelled(res *Result, f *decision.File, chosen decision.Candidate, t tally, opt Options) {
+	v := chosen.Cut
+	a := f.Assumptions
+	valPositives, valNegatives := v.TP+v.FN, v.FP+v.TN
+	negatives := t.weight - t.positives
+	res.FalsePositiveRate = Compare(t.flagged-t.tp, negatives, ratioOrNaN(v.FP, valNegatives), shrunkVariance(v.FP, valNegatives), opt.Tolerance, a.Confidence)
+	assumedVariance := 0.0
+	if res.BaseRateValidation {
+		assumedVariance = shrunkVariance(valPositives, valPositives+valNegatives)
+	}
+	res.BaseRateTest = Compare(t.positives, t.weight, res.BaseRate, assumedVariance, opt.Tolerance, a.Confidence)
+	res.BaseRateObserved, res.BaseRateCI = res.BaseRateTest.Observed, res.BaseRateTest.ObservedCI
+	res.BaseRateMethod = "Wilson interval of the labelled share"
+
+	family := []Judged{
+		{Name: "recall", PValue: definedP(res.Recall), Model: true},
+		{Name: "false positive rate", PValue: definedP(res.FalsePositiveRate), Model: true},
+	}
+	if t.byPositives != nil {
+		res.ScoresPositive = scoreTest(t.byPositives.positives, t.newPositives)
+		res.ScoresNegative = scoreTest(t.byNegatives.negatives, t.newNegatives)
+		family = append(family,
+			Judged{Name: "scores of true cases", PValue: res.ScoresPositive.PValue, Model: true},
+			Judged{Name: "scores of false cases", PValue: res.ScoresNegative.PValue, Model: true})
+	}
+	family = append(family, Judged{Name: "base rate", PValue: definedP(res.BaseRateTest)})
+	res.Family = family
+}
+
+// judgeUnlabelled fits the base rate that best explains the new scores as
+// a mixture of the validated class distributions, tests the fit and the
+// fitted rate against the assumed one.
+func judgeUnlabelled(res *Result, f *decision.File, t tally, opt Options) {
+	b := t.mixture
+	P, N := sum(b.positives), sum(b.negatives)
+	f1, f0 := make([]float64, len(b.positives)), make([]float64, len(b.negatives))
+	for j := range f1 {
+		f1[j], f0[j] = b.positives[j]/P, b.negatives[j]/N
+	}
+	n := t.weight
+	m := FitMixture(t.mixed, f1, f0, f.Assumptions.Confidence, func(p float64) float64 { return 1 + n*(p*p/P+(1-p)*(1-p)/N) })
+	res.Mixture = &m
+	res.BaseRateObserved, res.BaseRateCI = m.BaseRate, m.CI
+	res.BaseRateMethod = "maximum likelihood of the scores as a mixture of the validated classes, profile-likelihood interval"
+	assumedVariance := 0.0
+	if res.BaseRateValidation {
+		assumedVariance = res.BaseRate * (1 - res.BaseRate) / (P + N)
+	}
+	res.BaseRateP = m.Against(res.BaseRate, assumedVariance, opt.Tolerance)
+	res.Family = []Judged{
+		{Name: "scores fit a mixture of the validated classes", PValue: m.FitP, Model: true},
+		{Name: "base rate", PValue: res.BaseRateP},
+	}
+}
+
+// scoreTest runs HomogeneityTest when both samples are big enough for its
+// chi-square reading: bins that expect fewer than five new cases are
+// merged with their neighbour first.
+func scoreTest(validation, fresh []float64) ScoreTest {
+	a, b := mergeSmall(validation, fresh, 5)
+	if len(a) < 2 {
+		return ScoreTest{PValue: math.NaN(), Statistic: math.NaN()}
+	}
+	s, k, p := HomogeneityTest(a, b)
+	return ScoreTest{Defined: !math.IsNaN(p), Bins: len(a), Statistic: s, Freedom: k, PValue: p}
+}
+
+// mergeSmall merges neighbouring bins until each expects at least least
+// cases of fresh's total under validation's shares (and holds some
+// validation weight); the last bin joins the one before it when short.
+func mergeSmall(validation, fresh []float64, least float64) (a, b []float64) {
+	total, freshTotal := sum(validation), sum(fresh)
+	if !(total > 0) || !(freshTotal > 0) {
+		return nil, nil
+	}
+	var va, fa float64
+	for j := range validation {
+		va += validation[j]
+		fa += fresh[j]
+		if va/total*freshTotal >= least && va/total*total >= least {
+			a, b = append(a, va), append(b, fa)
+			va, fa = 0, 0
+		}
+	}
+	if va > 0 || fa > 0 {
+		if len(a) == 0 {
+			return nil, nil
+		}
+		a[len(a)-1] += va
+		b[len(b)-1] += fa
+	}
+	return a, b
+}
+
+// decide applies Holm's procedure to res.Family and sets the status, and
+// when the base rate moved alone, the figures re-projected at the
+// observed one.
+func decide(res *Result, f *decision.File, chosen decision.Candidate) {
+	holm(res.Family, Level)
+	model, base := false, false
+	for _, j := range res.Family {
+		switch {
+		case j.Rejected && j.Model:
+			model = true
+		case j.Rejected:
+			base = true
+		}
+	}
+	switch {
+	case model:
+		res.Verdict = StatusDrift
+	case base:
+		res.Verdict = StatusAssumption
+	default:
+		res.Verdict = StatusOK
+	}
+	res.Drift = model
+	if !math.IsNaN(res.BaseRateObserved) {
+		v := chosen.Cut
+		a := f.Assumptions
+		a.BaseRate = res.BaseRateObserved
+		res.Reprojected = projection.Project(curve.Point{Score: v.Score, TP: v.TP, FP: v.FP, FN: v.FN, TN: v.TN}, a)
+		res.Volume, res.Capacity = a.Volume, a.Capacity
+	}
+}
+
+// SmallValidation reports whether the validation set holds fewer cases
+// than the new data: the check's power and false alarms then rest mostly
+// on the validation set's own noise.
+func (r *Result) SmallValidation() bool {
+	return r.ValidationWeight > 0 && r.ValidationWeight < r.Weight
+}
+
+func definedP(t Test) float64 {
+	if !t.Defined {
+		return math.NaN()
+	}
+	return t.PValue
+}
+
+func ratioOrNaN(num, den float64) float64 {
+	if !(den > 0) {
+		return math.NaN()
+	}
+	return num / den
+}
+
+func sum(xs []float64) float64 {
+	s := 0.0
+	for _, x := range xs {
+		s += x
+	}
+	return s
+}
