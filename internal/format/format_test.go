@@ -224,3 +224,13 @@ func TestSignificantAndShortInterval(t *testing.T) {
 		}
 	}
 }
+
+// TestGridMeasuresPrintable: a cell holding a control is laid out at the
+// width it shows with (worked by hand: "a\x1bb" shows as 6 characters).
+func TestGridMeasuresPrintable(t *testing.T) {
+	got := Grid([]string{"name", "n"}, [][]string{{"a\x1bb", "1"}, {"plain", "22"}}, false)
+	want := "name     n\n" + `a\x1bb` + "   1\nplain   22\n"
+	if got != want {
+		t.Errorf("got\n%s\nwant\n%s", got, want)
+	}
+}

@@ -6,16 +6,27 @@ import "strings"
 // cell: the first column left-aligned, the others right-aligned (they hold
 // figures), two spaces apart, with no trailing spaces. When wordsLast is
 // set the last column is left-aligned too, for a column of words (a note,
-// a sentence). Every row has as many cells as the heading.
+// a sentence). Every row has as many cells as the heading. Cells pass
+// through Printable.
 func Grid(header []string, rows [][]string, wordsLast bool) string {
-	widths := make([]int, len(header))
+	// Cells are made printable first, so that a value written out as
+	// "\x1b" is measured as it will show.
+	all := make([][]string, 0, len(rows)+1)
 	for _, row := range append([][]string{header}, rows...) {
+		printable := make([]string, len(row))
+		for i, cell := range row {
+			printable[i] = Printable(cell)
+		}
+		all = append(all, printable)
+	}
+	widths := make([]int, len(header))
+	for _, row := range all {
 		for i, cell := range row {
 			widths[i] = max(widths[i], len([]rune(cell)))
 		}
 	}
 	var b strings.Builder
-	for _, row := range append([][]string{header}, rows...) {
+	for _, row := range all {
 		var l strings.Builder
 		for i, cell := range row {
 			pad := strings.Repeat(" ", widths[i]-len([]rune(cell)))
