@@ -439,7 +439,7 @@ func (r *Result) findings() {
 // classNote says why the scores within a class were not judged.
 func (r *Result) classNote() string {
 	if r.byCurve {
-		return "too few cases of a class in the new data to compare its scores (fewer than ten in two bins), so they were not judged"
+		return "too few cases of a class in the new data to compare its scores (fewer than two bins expect five or more), so they were not judged"
 	}
 	return "the file keeps no curve (a sill-cut/1 file), so the scores within each class were not judged; recall and the false positive rate still were"
 }
