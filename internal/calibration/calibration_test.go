@@ -41,11 +41,11 @@ func readSet(t *testing.T, path string, opt scores.Options) *scores.Set {
 
 // TestAgainstScikitLearn compares the reliability table with
 // scikit-learn 1.2.1's calibration_curve (Debian's python3-sklearn), whose
-// output testdata/reference6/make_calibration.py committed to
+// output testdata/calibration-delong/make_calibration.py committed to
 // calibration.json together with the bin counts and ECE computed from the
 // same bins.
 func TestAgainstScikitLearn(t *testing.T) {
-	const dir = "../../testdata/reference6"
+	const dir = "../../testdata/calibration-delong"
 	raw, err := os.ReadFile(filepath.Join(dir, "calibration.json"))
 	if err != nil {
 		t.Fatal(err)

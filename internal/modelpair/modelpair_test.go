@@ -30,9 +30,9 @@ func close(a, b float64) bool {
 // TestAgainstPROC compares the test with the R package pROC 1.18.0
 // (Debian's r-cran-proc, R 4.2.2): auc, var(method = "delong"),
 // cov(method = "delong") and roc.test(method = "delong", paired = TRUE),
-// written by testdata/reference6/make_delong.R to delong.json.
+// written by testdata/calibration-delong/make_delong.R to delong.json.
 func TestAgainstPROC(t *testing.T) {
-	const dir = "../../testdata/reference6"
+	const dir = "../../testdata/calibration-delong"
 	raw, err := os.ReadFile(filepath.Join(dir, "delong.json"))
 	if err != nil {
 		t.Fatal(err)

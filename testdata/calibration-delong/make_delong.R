@@ -3,7 +3,7 @@
 # the areas under two or more correlated receiver operating characteristic
 # curves: a nonparametric approach", as computed by the R package pROC.
 #
-# It writes, in testdata/reference6/:
+# It writes, in testdata/calibration-delong/:
 #
 #   delong_smooth.csv   label,a,b  300 seeded cases, two correlated models
 #                       scored on them, rounded to 3 decimals
@@ -14,7 +14,7 @@
 #
 # Run by hand from the repository root with Debian's r-cran-proc:
 #
-#     Rscript testdata/reference6/make_delong.R
+#     Rscript testdata/calibration-delong/make_delong.R
 #
 # CI never runs it. R's own generator with a fixed seed makes the output
 # deterministic. pROC is told the direction (controls < cases: a higher
@@ -22,7 +22,7 @@
 # never guesses them.
 
 suppressPackageStartupMessages(library(pROC))
-here <- "testdata/reference6"
+here <- "testdata/calibration-delong"
 
 make_smooth <- function() {
   set.seed(19880901)

@@ -3,7 +3,7 @@ calibration tests (internal/calibration).
 
 It reads testdata/reference/breast_cancer.csv (logistic-regression scores on
 scikit-learn's bundled breast cancer data, written by
-testdata/reference/make_reference.py) and writes, in testdata/reference6/:
+testdata/reference/make_reference.py) and writes, in testdata/calibration-delong/:
 
   calibration_ties.csv  score,label  seeded synthetic scores rounded to two
                         decimals, so that many scores sit exactly on bin
@@ -23,7 +23,7 @@ edges are written too.
 Run by hand from the repository root with Debian's interpreter and Debian's
 python3-sklearn:
 
-    /usr/bin/python3 testdata/reference6/make_calibration.py
+    /usr/bin/python3 testdata/calibration-delong/make_calibration.py
 
 CI never runs it. The output is deterministic (fixed numpy seed). The
 library versions are recorded under "versions".
