@@ -70,7 +70,7 @@ func randomParquetRows(rng *rand.Rand, n int, nulls bool) []parquetRow {
 		r := parquetRow{
 			Score: &score, ScoreFloat: float32(score), ScoreInt: int64(rng.IntN(20)),
 			Failed: &positive, Outcome: map[bool]string{true: "failed", false: "ok"}[positive],
-			Weight: float64(rng.IntN(4)), Yard: []string{"Harrowgate", "Coldmere", "Brindle"}[rng.IntN(3)],
+			Weight: float64(rng.IntN(4)), Yard: []string{"Halvermoor", "Coldmere", "Bellrow"}[rng.IntN(3)],
 			Wagon: fmt.Sprintf("VF-%05d", i),
 		}
 		if positive {
