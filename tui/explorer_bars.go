@@ -46,7 +46,7 @@ func (m Model) footer() string {
 	}
 	mark := ""
 	switch {
-	case m.unwritten && len(m.s.pins) > 0:
+	case m.unwritten && len(m.s.pins) > 0 && !m.cfg.ReadOnly:
 		mark = st.Warning.Render("not written") + st.Footer.Render(" · ")
 	case m.written != "" && m.status == "":
 		// Whether the pins on screen are the file's, at a glance.

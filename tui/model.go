@@ -62,6 +62,10 @@ type Config struct {
 	Analysis analysis.Options
 	// SegmentOrder is the first order of the segments overlay.
 	SegmentOrder segment.Order
+	// ReadOnly turns the write key off and quits without asking about
+	// pins not written, for an explorer served to others (sill serve):
+	// it writes nothing.
+	ReadOnly bool
 }
 
 // focus says which pane the keys go to.
@@ -130,6 +134,9 @@ type Model struct {
 // New returns the explorer for cfg; the scores load when the program starts.
 func New(cfg Config) Model {
 	ctx := newShared(cfg.Styles, cfg.Keys)
+	if cfg.ReadOnly {
+		ctx.keys.Write.SetEnabled(false)
+	}
 	if cfg.Out == "" {
 		cfg.Out = "cut.yaml"
 	}
@@ -163,7 +170,7 @@ func (m Model) Written() string { return m.written }
 // Unwritten returns how many candidates are pinned when the candidates or
 // assumptions have changed since the last write, and 0 otherwise.
 func (m Model) Unwritten() int {
-	if !m.unwritten {
+	if !m.unwritten || m.cfg.ReadOnly {
 		return 0
 	}
 	return len(m.s.pins)
