@@ -115,6 +115,7 @@ type picker struct {
 	cursor        int
 	status        string
 	review        *tui.Review // the open review screen, or nil
+	explorer      *tui.Model  // the open explorer, or nil
 	ctx           context.Context
 }
 
@@ -122,7 +123,16 @@ func newPicker(s *Server, styles *tui.Styles, rec *record, who user) picker {
 	return picker{s: s, styles: styles, rec: rec, who: who, keys: newPickerKeys()}
 }
 
-func (p picker) single() bool { return len(p.s.cfg.Files) == 1 }
+func (p picker) single() bool { return len(p.s.cfg.Files) == 1 && p.s.cfg.Explore == nil }
+
+// entries is the number of lines of the list: the files, then the
+// explorer when there is one.
+func (p picker) entries() int {
+	if p.s.cfg.Explore != nil {
+		return len(p.s.cfg.Files) + 1
+	}
+	return len(p.s.cfg.Files)
+}
 
 // Init opens the only file at once.
 func (p picker) Init() tea.Cmd {
@@ -144,11 +154,17 @@ func (p picker) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 	case openMsg:
 		return p.open(msg.i)
 	case backMsg:
-		p.review = nil
+		p.review, p.explorer = nil, nil
 		if p.single() {
 			return p, tea.Quit
 		}
 		return p, nil
+	}
+	if p.explorer != nil {
+		next, cmd := p.explorer.Update(msg)
+		m := next.(tui.Model)
+		p.explorer = &m
+		return p, back(cmd)
 	}
 	if p.review != nil {
 		before := len(p.review.File().SignOffs)
@@ -168,7 +184,7 @@ func (p picker) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		case key.Matches(k, p.keys.Up):
 			p.cursor = max(p.cursor-1, 0)
 		case key.Matches(k, p.keys.Down):
-			p.cursor = min(p.cursor+1, len(p.s.cfg.Files)-1)
+			p.cursor = min(p.cursor+1, p.entries()-1)
 		case key.Matches(k, p.keys.Open):
 			return p.open(p.cursor)
 		}
@@ -179,6 +195,9 @@ func (p picker) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 // open reads file i as it is now and opens its review screen, read-only.
 func (p picker) open(i int) (tea.Model, tea.Cmd) {
 	p.cursor = i
+	if i == len(p.s.cfg.Files) {
+		return p.explore()
+	}
 	path := p.s.cfg.Files[i]
 	name := filepath.Base(path)
 	f, err := decision.ReadFile(path)
@@ -199,6 +218,19 @@ func (p picker) open(i int) (tea.Model, tea.Cmd) {
 	r = next.(tui.Review)
 	p.review = &r
 	return p, nil
+}
+
+// explore opens this connection's own explorer on the shared set, with
+// its write key off.
+func (p picker) explore() (tea.Model, tea.Cmd) {
+	cfg := p.s.cfg.Explore.Config
+	cfg.Styles, cfg.Context, cfg.ReadOnly, cfg.Out = p.styles, p.ctx, true, ""
+	p.rec.note("explorer " + p.s.cfg.Explore.Name)
+	m := tui.New(cfg)
+	next, _ := m.Update(tea.WindowSizeMsg{Width: p.width, Height: p.height})
+	m = next.(tui.Model)
+	p.explorer = &m
+	return p, m.Init()
 }
 
 // back turns the review screen's quit into a return to the picker.
@@ -227,6 +259,9 @@ func (p picker) View() string {
 	if p.review != nil {
 		return p.review.View()
 	}
+	if p.explorer != nil {
+		return p.explorer.View()
+	}
 	w, h := p.width, p.height
 	if w <= 0 || h <= 0 {
 		return ""
@@ -239,6 +274,13 @@ func (p picker) View() string {
 		if i == p.cursor {
 			mark = "▸ "
 			line = st.Selected.Render(line)
+		}
+		lines = append(lines, mark+line)
+	}
+	if e := p.s.cfg.Explore; e != nil {
+		mark, line := "  ", fmt.Sprintf("%d  explore %s (yours alone; writes nothing)", len(p.s.cfg.Files)+1, format.Printable(e.Name))
+		if p.cursor == len(p.s.cfg.Files) {
+			mark, line = "▸ ", st.Selected.Render(line)
 		}
 		lines = append(lines, mark+line)
 	}

@@ -22,6 +22,10 @@ import (
 	"golang.org/x/crypto/ssh/agent"
 
 	"github.com/sill-tool/sill/internal/decision"
+	"github.com/sill-tool/sill/internal/demo"
+	"github.com/sill-tool/sill/internal/projection"
+	"github.com/sill-tool/sill/internal/scores"
+	"github.com/sill-tool/sill/tui"
 )
 
 // lockedBuffer is the server's log, written from its goroutines.
@@ -79,7 +83,8 @@ type serverOptions struct {
 	keys        []clientKey
 	idle        time.Duration
 	maxSessions int
-	note        string // a note put in each file
+	note        string   // a note put in each file
+	explore     *Explore // the explorer beside the files
 }
 
 // demoFile copies the demo decision file to dir as name, with note.
@@ -119,7 +124,7 @@ func startServer(t *testing.T, o serverOptions) *testServer {
 		t.Fatal(err)
 	}
 	ts.hostKey = host.PublicKey()
-	srv, err := New(Config{Files: ts.files, AuthorizedKeys: ts.keysPath, HostKey: host, IdleTimeout: o.idle, MaxSessions: o.maxSessions, Log: ts.log})
+	srv, err := New(Config{Files: ts.files, AuthorizedKeys: ts.keysPath, HostKey: host, IdleTimeout: o.idle, MaxSessions: o.maxSessions, Log: ts.log, Explore: o.explore})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -669,4 +674,99 @@ func TestRealClient(t *testing.T) {
 	if len(f.SignOffs) != 1 || f.SignOffs[0].Note != "fits the night crew" || f.SignOffs[0].Key != Fingerprint(lead.signer.PublicKey()) {
 		t.Errorf("sign-offs %+v; expected one by the key, with its note", f.SignOffs)
 	}
+}
+
+// TestExplorerShared: two connections explore one set loaded once, each
+// with its own cursor and pins, at the same time; w writes nothing and q
+// goes back to the list. Run with -race, it checks that the set is only
+// read.
+func TestExplorerShared(t *testing.T) {
+	set, err := scores.Read(strings.NewReader(string(demo.CSV(demo.DefaultRows, demo.DefaultSeed))), demo.Source, scores.Options{SegmentColumn: "yard", IDColumn: "id"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	loads := 0
+	var loadMu sync.Mutex
+	cfg := tui.Config{
+		Load: func(func(int)) (*scores.Set, error) {
+			loadMu.Lock()
+			loads++
+			loadMu.Unlock()
+			return set, nil
+		},
+		Assume: func(set *scores.Set) (projection.Assumptions, error) {
+			positives, negatives := set.Totals()
+			return projection.Assumptions{BaseRate: positives / (positives + negatives), Volume: 1500, Capacity: 90, Confidence: 0.95}, nil
+		},
+	}
+	lead := newClientKey(t, "Ada Quist")
+	ts := startServer(t, serverOptions{keys: []clientKey{lead}, explore: &Explore{Name: "bearings.csv", Config: cfg}})
+	dir, err := os.Getwd()
+	if err != nil {
+		t.Fatal(err)
+	}
+	var wg sync.WaitGroup
+	for i := range 2 {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			c, err := ts.dial(gossh.PublicKeys(lead.signer))
+			if err != nil {
+				t.Error(err)
+				return
+			}
+			defer c.Close()
+			sess, err := c.NewSession()
+			if err != nil {
+				t.Error(err)
+				return
+			}
+			defer sess.Close()
+			if err := sess.RequestPty("xterm", 32, 110, gossh.TerminalModes{}); err != nil {
+				t.Error(err)
+				return
+			}
+			stdout, _ := sess.StdoutPipe()
+			stdin, _ := sess.StdinPipe()
+			if err := sess.Shell(); err != nil {
+				t.Error(err)
+				return
+			}
+			readUntil(t, stdout, "explore bearings.csv", 10*time.Second)
+			// down to the explorer, open it, move the cursor by a
+			// different amount on each connection, pin, write, quit.
+			moves := strings.Repeat("j", 3+5*i)
+			if _, err := stdin.Write([]byte("j\r")); err != nil {
+				t.Error(err)
+				return
+			}
+			readUntil(t, stdout, "ranked list", 10*time.Second)
+			if _, err := stdin.Write([]byte(moves + "pwq")); err != nil {
+				t.Error(err)
+				return
+			}
+			readUntil(t, stdout, "sill serve · decision files", 10*time.Second)
+			if _, err := stdin.Write([]byte("q")); err != nil {
+				t.Error(err)
+				return
+			}
+			ended := make(chan error, 1)
+			go func() { ended <- sess.Wait() }()
+			select {
+			case <-ended:
+			case <-time.After(10 * time.Second):
+				t.Error("q on the list did not end the session within 10s")
+			}
+		}()
+	}
+	wg.Wait()
+	if loads != 2 {
+		t.Errorf("the set was handed to %d explorers; expected 2", loads)
+	}
+	for _, path := range []string{filepath.Join(dir, "cut.yaml"), filepath.Join(filepath.Dir(ts.files[0]), "cut.yaml")} {
+		if _, err := os.Stat(path); err == nil {
+			t.Errorf("the explorer wrote %s", path)
+		}
+	}
+	waitFor(t, ts.log, "explorer bearings.csv")
 }

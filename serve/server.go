@@ -23,6 +23,7 @@ import (
 	gossh "golang.org/x/crypto/ssh"
 
 	"github.com/sill-tool/sill/internal/format"
+	"github.com/sill-tool/sill/tui"
 )
 
 // Defaults of the command's flags.
@@ -42,6 +43,17 @@ type Config struct {
 	Log            io.Writer     // one line per connection; nil discards
 	// Now gives the time of sign-offs and log lines; nil means time.Now.
 	Now func() time.Time
+	// Explore, when not nil, adds the explorer on a validation set to the
+	// screen's list (--data).
+	Explore *Explore
+}
+
+// Explore is the explorer served beside the decision files: each
+// connection gets its own screen (cursor, pins, assumptions) on one set
+// loaded once and only read, and the screen writes nothing.
+type Explore struct {
+	Name   string     // the set's base name, as the list shows it
+	Config tui.Config // Load returns the set loaded once; Styles, Context and ReadOnly are set per connection
 }
 
 // Server is a configured server; Serve runs it.

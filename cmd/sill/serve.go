@@ -1,14 +1,17 @@
 package main
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"net"
+	"path/filepath"
 	"time"
 
 	"github.com/spf13/cobra"
 
 	"github.com/sill-tool/sill/internal/decision"
+	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/serve"
 )
 
@@ -16,6 +19,8 @@ func newServeCmd() *cobra.Command {
 	var listen, authorizedKeys, hostKey string
 	var idle time.Duration
 	var maxSessions int
+	var data string
+	var o exploreOptions
 	cmd := &cobra.Command{
 		Use:   "serve FILE.yaml...",
 		Short: "Show decision files to colleagues over SSH, and take their sign-offs",
@@ -63,6 +68,13 @@ fingerprint and what was done.`,
 					return err
 				}
 			}
+			var explore *serve.Explore
+			if data != "" {
+				var err error
+				if explore, err = serveExplore(cmd.Context(), &o, data); err != nil {
+					return err
+				}
+			}
 			stderr := cmd.ErrOrStderr()
 			if hostKey == "" {
 				var err error
@@ -80,7 +92,7 @@ fingerprint and what was done.`,
 			}
 			fmt.Fprintf(stderr, "sill: %s at %s: %s (ED25519)\n", made, hostKey, serve.Fingerprint(signer.PublicKey()))
 			srv, err := serve.New(serve.Config{Files: args, AuthorizedKeys: authorizedKeys, HostKey: signer,
-				IdleTimeout: idle, MaxSessions: maxSessions, Log: stderr})
+				IdleTimeout: idle, MaxSessions: maxSessions, Log: stderr, Explore: explore})
 			if err != nil {
 				return err
 			}
@@ -105,5 +117,34 @@ fingerprint and what was done.`,
 	fs.StringVar(&hostKey, "host-key", "", "the server's ed25519 key, made there on the first run (default: in your configuration folder)")
 	fs.DurationVar(&idle, "idle-timeout", serve.DefaultIdleTimeout, "close a connection after this long without input")
 	fs.IntVar(&maxSessions, "max-sessions", serve.DefaultMaxSessions, "connections open at once, at most")
+	fs.StringVar(&data, "data", "", "also serve the explorer on this validation set (with explore's flags), loaded once; each connection explores alone and writes nothing")
+	o.input.register(fs)
+	o.assume.register(fs)
+	o.registerBeyond(fs)
 	return cmd
+}
+
+// serveExplore loads the validation set at path once, with explore's
+// flags, for every connection's explorer.
+func serveExplore(ctx context.Context, o *exploreOptions, path string) (*serve.Explore, error) {
+	if path == "-" {
+		return nil, errors.New("--data takes a file; the set is loaded once before serving, not from standard input")
+	}
+	if err := o.beyond.prepare(&o.input); err != nil {
+		return nil, err
+	}
+	cfg, err := o.config()
+	if err != nil {
+		return nil, err
+	}
+	set, err := o.load(ctx, path, nil)
+	if err != nil {
+		return nil, err
+	}
+	if _, err := o.assume.assumptions(set); err != nil {
+		return nil, err
+	}
+	cfg.Load = func(func(int)) (*scores.Set, error) { return set, nil }
+	cfg.Assume, cfg.ToolVersion = o.assume.assumptions, toolVersion()
+	return &serve.Explore{Name: filepath.Base(path), Config: cfg}, nil
 }

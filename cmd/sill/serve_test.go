@@ -37,3 +37,28 @@ func TestServeBadInput(t *testing.T) {
 		t.Errorf("host key made with mode %04o; expected 0600", info.Mode().Perm())
 	}
 }
+
+// TestServeDataRefused: a --data set that does not load, or a bad explore
+// flag, stops serve before it listens.
+func TestServeDataRefused(t *testing.T) {
+	dir := t.TempDir()
+	cut := filepath.Join("..", "..", "internal", "decision", "testdata", "v1", "demo.yaml")
+	keys := writeFile(t, dir, "keys", []byte("# nobody yet\n"))
+	oneClass := writeFile(t, dir, "one.csv", []byte("score,label\n0.1,0\n0.2,0\n"))
+	both := writeFile(t, dir, "both.csv", []byte("score,label\n0.1,0\n0.2,1\n0.3,0\n0.9,1\n"))
+	base := []string{"serve", cut, "--authorized-keys", keys, "--host-key", filepath.Join(dir, "host"), "--listen", "127.0.0.1:0"}
+	for name, c := range map[string]struct {
+		args []string
+		want string
+	}{
+		"missing set":    {[]string{"--data", filepath.Join(dir, "none.csv")}, "none.csv"},
+		"one class":      {[]string{"--data", oneClass}, "one.csv"},
+		"standard input": {[]string{"--data", "-"}, "--data takes a file"},
+		"bad volume":     {[]string{"--data", both, "--volume", "-3"}, "--volume"},
+	} {
+		r := runSill(t, "", append(base, c.args...)...)
+		if r.code != 2 || !strings.Contains(r.stderr, c.want) {
+			t.Errorf("%s: exit %d, stderr %q; expected 2 and %q", name, r.code, r.stderr, c.want)
+		}
+	}
+}
