@@ -63,6 +63,9 @@ type Resampling struct {
 	Replicates int    // resampled sets; 0 means none
 	Seed       uint64 // the same seed and Replicates give the same figures
 	BandCuts   int    // cuts that carry the band of hit and wrong-alert share
+	// Design is how the set was drawn (bootstrap.Ordinary, the default: a
+	// random sample; bootstrap.WithinClass: classes sampled apart).
+	Design bootstrap.Design
 	// Progress, when set, is called with the replicates done so far.
 	Progress func(done int)
 }
@@ -431,7 +434,7 @@ func (r *Result) Points(visit func(curve.Point)) {
 // (package bootstrap); it does not change r. It returns ctx's error when
 // cancelled.
 func (r *Result) Resample(ctx context.Context, opt Resampling) (bootstrap.Result, error) {
-	b := bootstrap.Options{Replicates: opt.Replicates, Seed: opt.Seed, BandCuts: opt.BandCuts, Progress: opt.Progress}
+	b := bootstrap.Options{Replicates: opt.Replicates, Seed: opt.Seed, BandCuts: opt.BandCuts, Progress: opt.Progress, Design: opt.Design}
 	if r.Shifts != nil {
 		b.FinderOptions = []cutrule.Option{cutrule.WithShifts(r.Shifts.Assigned, r.Shifts.Scale)}
 	}

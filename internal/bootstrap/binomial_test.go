@@ -10,9 +10,9 @@ import (
 
 // TestBinomialMoments: the binomial draws have the mean n*p and variance
 // n*p*(1-p) of the binomial distribution (textbook formulas), on both
-// sides of the switch from waiting times to the normal, at p above one
-// half (drawn as failures), at the edges p = 0 and 1, and at a p so small
-// that a waiting time overflows an int. Seeded; 20000 draws each, so the
+// sides of the switch from inversion to the normal, at p above one
+// half (drawn as failures), at the edges p = 0 and 1, and at a p tiny
+// beside a huge n. Seeded; 20000 draws each, so the
 // sample mean is within 5 standard errors of n*p and the sample variance
 // within 10% of n*p*(1-p).
 func TestBinomialMoments(t *testing.T) {
@@ -50,26 +50,20 @@ func TestBinomialMoments(t *testing.T) {
 }
 
 // TestMultinomialKeepsClassSizes: above MaxCaseDraws a counts table's
-// replicate still holds exactly as many cases of each class as the table,
+// replicate drawn within classes still holds exactly as many cases of each class as the table,
 // spread over its rows in about their shares. Hand-built: true cases
 // 3,000,000 at score 0.9 and 1,000,000 at 0.5; false cases 2,000,000 at
-// 0.5 and 4,000,000 at 0.1 (10 million in all, above 2^22).
+// 0.5 and 4,000,000 at 0.1 (each class above MaxCaseDraws).
 func TestMultinomialKeepsClassSizes(t *testing.T) {
 	set, err := scores.NewCounts([]float64{0.9, 0.5, 0.5, 0.1}, []bool{true, true, false, false}, []float64{3e6, 1e6, 2e6, 4e6}, false)
 	if err != nil {
 		t.Fatal(err)
 	}
-	var positiveRows, negativeRows []int
-	for i, positive := range set.Labels {
-		if positive {
-			positiveRows = append(positiveRows, i)
-		} else {
-			negativeRows = append(negativeRows, i)
+	r := newReplicator(set, WithinClass)
+	for _, g := range r.groups {
+		if g.cases <= MaxCaseDraws {
+			t.Fatalf("a class of %d cases does not pass MaxCaseDraws", g.cases)
 		}
-	}
-	r := newReplicator(set, positiveRows, negativeRows)
-	if r.positiveCases+r.negativeCases <= MaxCaseDraws {
-		t.Fatalf("%d cases do not pass MaxCaseDraws", r.positiveCases+r.negativeCases)
 	}
 	for b := range uint64(20) {
 		rep := r.draw(1, b)

@@ -1,32 +1,40 @@
 // Package bootstrap measures how far a cut would move if the validation set
-// were drawn again: a seeded, stratified bootstrap that resamples the true
-// cases and the false cases separately, re-applies each cut rule to every
-// replicate, and reports percentiles of where the cut lands and of the
-// hit-share and wrong-alert curves.
+// were drawn again: a seeded bootstrap that resamples the cases as the set
+// was drawn, re-applies each cut rule to every replicate, and reports
+// percentiles of where the cut lands, of the hit share and wrong-alert
+// share there, and of the hit-share and wrong-alert curves.
 //
-// Stratified means each replicate has exactly as many true-case rows and
-// false-case rows as the set: rows are drawn with replacement, uniformly
-// within their class, and carry their weights along (see the scores
-// package doc on weights). Which cases a cut flags follows the cut rule in
-// the doc of package scores. Percentiles interpolate linearly between
-// order statistics (numpy's default).
+// The design (Options.Design) says how the set was drawn. Ordinary, the
+// default, is a random sample: each replicate draws as many cases as the
+// set holds from all of them, so the mix of true and false cases varies
+// as it would between samples. WithinClass is for classes sampled apart
+// by design (one class downsampled): each replicate keeps each class's
+// size and draws within it.
+//
+// Cases, not rows, are drawn, and drawing cases only counts how many of
+// each cell (one distinct score and label) were drawn: a set of rows is
+// first collapsed into its cells, a counts table of the same cases, and a
+// replicate is a counts table over the same cells. The work of a replicate
+// therefore grows with the distinct scores, not the rows, and a counts
+// table gives the very same result as the raw rows it aggregates. A group
+// of up to MaxCaseDraws cases is drawn case by case, exactly; a larger one
+// as sequential binomial counts of its cells (an exact multinomial draw of
+// the same distribution): a binomial of mean below 30 by inversion,
+// exactly, and a larger one by the normal distribution with continuity
+// correction, which at such means differs from it by far less than the
+// bootstrap's own noise.
+//
+// Weighted rows (frequency weights that differ within a cell) are drawn
+// row by row and carry their weights along (see the scores package doc on
+// weights), so their work grows with the rows.
+//
+// Which cases a cut flags follows the cut rule in the doc of package
+// scores. Percentiles interpolate linearly between order statistics
+// (numpy's default).
 //
 // Replicate b draws from its own generator, seeded with (Seed, b), so the
-// result depends on Seed and Replicates only, never on the number of
-// workers or their timing.
-//
-// A counts table (scores.Set.CountsTable) is resampled by case, not by table
-// row: each replicate draws as many true cases and false cases as the
-// table counts, each case equally likely, in the same ranked order as the
-// raw rows the table aggregates. With the same seed it therefore gives the
-// very same result as the unweighted raw rows (the band cuts too are
-// spread over the cases). Drawing case by case costs time in proportion to
-// the cases, so a table of more than MaxCaseDraws cases draws each class's
-// cases at once instead, as sequential binomial counts of its rows (an
-// exact multinomial draw of the same distribution, not the same numbers):
-// a binomial of mean below 30 by waiting times, exactly, and a larger one
-// by the normal distribution with continuity correction, which at such
-// means differs from it by far less than the bootstrap's own noise.
+// result depends on Seed, Replicates and Design only, never on the number
+// of workers or their timing.
 package bootstrap
 
 import (
@@ -68,15 +76,44 @@ type Options struct {
 	// far, from the workers but never two calls at once.
 	Progress func(done int)
 
+	// Design is how the set was drawn, and so how it is drawn again:
+	// Ordinary (the zero value) or WithinClass.
+	Design Design
+
 	// FinderOptions are passed to the cut finder of the set itself, to
 	// check the rules (queue90=K needs cutrule.WithShifts); replicates do
 	// not use them, since queue90=K is not resampled (see Spread).
 	FinderOptions []cutrule.Option
 }
 
-// MaxCaseDraws is the most cases of a counts table that are drawn one by
-// one; see the package doc.
-const MaxCaseDraws = 1 << 22
+// Design is how the validation set was drawn from the cases it stands
+// for, which the bootstrap repeats.
+type Design int
+
+const (
+	// Ordinary: a random sample of cases. Each replicate draws as many
+	// cases as the set holds from all of them, so the mix of true and
+	// false cases varies between replicates as it would between samples.
+	Ordinary Design = iota
+	// WithinClass: the true and the false cases were sampled apart by
+	// design (say the false cases were downsampled, their rows weighted
+	// alike), so each replicate keeps each class's size and draws within
+	// it.
+	WithinClass
+)
+
+// String names the design in words.
+func (d Design) String() string {
+	if d == WithinClass {
+		return "within classes"
+	}
+	return "ordinary"
+}
+
+// MaxCaseDraws is the most cases of one group that are drawn one by one;
+// a larger group is drawn as sequential binomial counts of its cells (see
+// the package doc).
+const MaxCaseDraws = 1 << 16
 
 // Errors of Run.
 var (
@@ -97,7 +134,9 @@ type Spread struct {
 	Score        [2]float64
 	FlaggedShare [2]float64
 	Recall       [2]float64 // hit share at the replicate's cut
-	Skipped      string     // why the rule was not resampled; "" when it was
+	// FalseDiscoveryRate is the wrong-alert share at the replicate's cut.
+	FalseDiscoveryRate [2]float64
+	Skipped            string // why the rule was not resampled; "" when it was
 }
 
 // BandPoint is the band at one of the set's cuts: the Low and High
@@ -115,6 +154,7 @@ type BandPoint struct {
 type Result struct {
 	Replicates int
 	Seed       uint64
+	Design     Design
 	Spreads    []Spread // one per rule, in the order given
 	Band       []BandPoint
 }
@@ -129,23 +169,8 @@ func Run(ctx context.Context, set *scores.Set, rules []cutrule.Rule, a projectio
 	if opt.Replicates < 1 {
 		return Result{}, fmt.Errorf("%w, got %d", ErrReplicates, opt.Replicates)
 	}
-	var positiveRows, negativeRows []int
-	for i, positive := range set.Labels {
-		if positive {
-			positiveRows = append(positiveRows, i)
-		} else {
-			negativeRows = append(negativeRows, i)
-		}
-	}
-	if len(positiveRows) == 0 || len(negativeRows) == 0 {
+	if positives, negatives := set.Totals(); !(positives > 0) || !(negatives > 0) {
 		return Result{}, ErrNoClass
-	}
-	if set.CountsTable() {
-		// A counts table is drawn by case (see the package doc): each class
-		// needs a whole case.
-		if positives, negatives := set.Totals(); !(positives >= 1) || !(negatives >= 1) {
-			return Result{}, ErrNoClass
-		}
 	}
 	if _, err := cutrule.NewFinder(rules, set, a, opt.FinderOptions...); err != nil {
 		return Result{}, err
@@ -162,12 +187,21 @@ func Run(ctx context.Context, set *scores.Set, rules []cutrule.Rule, a projectio
 		workers = runtime.GOMAXPROCS(0)
 	}
 	workers = min(workers, opt.Replicates)
-	band := bandCuts(set, opt.BandCuts)
+	base, err := cellsOf(set)
+	if err != nil {
+		return Result{}, err
+	}
+	if base == nil {
+		base = set
+	}
+	band := bandCuts(base, opt.BandCuts)
 
 	scoresAt := make([][]float64, len(rules)) // [rule][replicate], NaN when unmet
 	sharesAt := make([][]float64, len(rules))
 	recallsAt := make([][]float64, len(rules))
+	fdrsAt := make([][]float64, len(rules))
 	for i := range rules {
+		fdrsAt[i] = make([]float64, opt.Replicates)
 		scoresAt[i] = make([]float64, opt.Replicates)
 		sharesAt[i] = make([]float64, opt.Replicates)
 		recallsAt[i] = make([]float64, opt.Replicates)
@@ -191,7 +225,7 @@ func Run(ctx context.Context, set *scores.Set, rules []cutrule.Rule, a projectio
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			r := newReplicator(set, positiveRows, negativeRows)
+			r := newReplicator(base, opt.Design)
 			for {
 				b := int(next.Add(1) - 1)
 				if b >= opt.Replicates || ctx.Err() != nil {
@@ -205,9 +239,9 @@ func Run(ctx context.Context, set *scores.Set, rules []cutrule.Rule, a projectio
 				}
 				curve.Walk(rep, finder.Visit)
 				for i, o := range finder.Outcomes() {
-					scoresAt[i][b], sharesAt[i][b], recallsAt[i][b] = math.NaN(), math.NaN(), math.NaN()
+					scoresAt[i][b], sharesAt[i][b], recallsAt[i][b], fdrsAt[i][b] = math.NaN(), math.NaN(), math.NaN(), math.NaN()
 					if o.Met {
-						scoresAt[i][b], sharesAt[i][b], recallsAt[i][b] = o.Point.Score, o.Point.FlaggedShare(), o.Point.Recall()
+						scoresAt[i][b], sharesAt[i][b], recallsAt[i][b], fdrsAt[i][b] = o.Point.Score, o.Point.FlaggedShare(), o.Point.Recall(), o.Point.FalseDiscoveryRate()
 					}
 				}
 				r.band(band, b, recallAt, fdrAt)
@@ -227,19 +261,21 @@ func Run(ctx context.Context, set *scores.Set, rules []cutrule.Rule, a projectio
 	if failure != nil {
 		return Result{}, failure
 	}
-	res := Result{Replicates: opt.Replicates, Seed: opt.Seed}
+	res := Result{Replicates: opt.Replicates, Seed: opt.Seed, Design: opt.Design}
 	i := 0
 	for _, rule := range all {
 		s := Spread{Rule: rule}
 		if rule.Kind == cutrule.Queue90 {
 			s.Skipped = "not resampled: drawing cases with replacement piles repeats into the same shifts and overstates the spread between shifts"
-			s.Score, s.FlaggedShare, s.Recall = [2]float64{math.NaN(), math.NaN()}, [2]float64{math.NaN(), math.NaN()}, [2]float64{math.NaN(), math.NaN()}
+			none := [2]float64{math.NaN(), math.NaN()}
+			s.Score, s.FlaggedShare, s.Recall, s.FalseDiscoveryRate = none, none, none, none
 			res.Spreads = append(res.Spreads, s)
 			continue
 		}
 		s.Score, s.Met = percentiles(scoresAt[i], 0)
 		s.FlaggedShare, _ = percentiles(sharesAt[i], 0)
 		s.Recall, _ = percentiles(recallsAt[i], 0)
+		s.FalseDiscoveryRate, _ = percentiles(fdrsAt[i], 0)
 		res.Spreads = append(res.Spreads, s)
 		i++
 	}
@@ -304,33 +340,95 @@ func bandCuts(set *scores.Set, k int) []bandCut {
 }
 
 // replicator draws replicates of one set, reusing its buffers.
+//
+// A set of unweighted rows or a counts table is first collapsed into its
+// cells: one row per distinct score and label holding how many cases it
+// has (a counts table of the same cases, see cellsOf). A replicate is a
+// counts table over the same cells holding how many of each cell's cases
+// were drawn, so its cost grows with the cells, not the cases. Drawing
+// cases uniformly and counting them per cell is the same distribution as
+// drawing rows, and a rule's cut, the band and every figure depend on the
+// cases at each score only.
+//
+// Weighted rows are drawn row by row (their weights differ within a
+// cell) and carry their weights along.
 type replicator struct {
-	set                        *scores.Set
-	positiveRows, negativeRows []int
-	counts                     []int32 // times each row was drawn; for a counts table see drawn
-	rep                        scores.Set
+	set    *scores.Set // the cells, or the weighted rows
+	groups []group     // drawn apart: all cases, or each class
+	rep    scores.Set
 
-	// drawn holds, for a counts table, how many of each row's cases were
-	// drawn: a count that may pass what int32 holds.
-	drawn []float64
-
-	// For a counts table: the cases of each class, and the cases of that
-	// class in the class's rows before each of them (positiveRows order).
-	positiveCases, negativeCases   int
-	positiveBefore, negativeBefore []float64
+	counts []int32   // weighted rows: times each row was drawn
+	drawn  []float64 // cells: cases of each cell drawn
 }
 
-func newReplicator(set *scores.Set, positiveRows, negativeRows []int) *replicator {
-	n := set.Len()
-	r := &replicator{set: set, positiveRows: positiveRows, negativeRows: negativeRows}
-	if !set.CountsTable() {
-		r.counts = make([]int32, n)
-		return r
+// group is a part of the set drawn apart: its rows and, for cells, the
+// cases of the group's rows before each of them.
+type group struct {
+	rows   []int
+	before []float64
+	cases  int
+}
+
+func newReplicator(set *scores.Set, design Design) *replicator {
+	r := &replicator{set: set}
+	var positiveRows, negativeRows, all []int
+	for i, positive := range set.Labels {
+		all = append(all, i)
+		if positive {
+			positiveRows = append(positiveRows, i)
+		} else {
+			negativeRows = append(negativeRows, i)
+		}
 	}
-	r.drawn = make([]float64, n)
-	r.positiveBefore, r.positiveCases = casesBefore(set, positiveRows)
-	r.negativeBefore, r.negativeCases = casesBefore(set, negativeRows)
+	parts := [][]int{all}
+	if design == WithinClass {
+		parts = [][]int{positiveRows, negativeRows}
+	}
+	for _, rows := range parts {
+		g := group{rows: rows}
+		if set.CountsTable() {
+			g.before, g.cases = casesBefore(set, rows)
+		}
+		r.groups = append(r.groups, g)
+	}
+	if set.CountsTable() {
+		r.drawn = make([]float64, set.Len())
+	} else {
+		r.counts = make([]int32, set.Len())
+	}
 	return r
+}
+
+// cellsOf returns set's cells: a counts table with one row per distinct
+// score and label, in ranked order, counting its cases. Weighted rows
+// have no cells (nil).
+func cellsOf(set *scores.Set) (*scores.Set, error) {
+	if set.Weighted() {
+		return nil, nil
+	}
+	var sc, counts []float64
+	var labels []bool
+	for i := 0; i < set.Len(); {
+		j := i
+		var positives, negatives float64
+		for ; j < set.Len() && set.Scores[j] == set.Scores[i]; j++ {
+			if set.Labels[j] {
+				positives += float64(set.CasesAt(j))
+			} else {
+				negatives += float64(set.CasesAt(j))
+			}
+		}
+		for _, c := range []struct {
+			label bool
+			n     float64
+		}{{true, positives}, {false, negatives}} {
+			if c.n > 0 {
+				sc, labels, counts = append(sc, set.Scores[i]), append(labels, c.label), append(counts, c.n)
+			}
+		}
+		i = j
+	}
+	return scores.NewCounts(sc, labels, counts, set.LowerIsRiskier)
 }
 
 // casesBefore returns the cases of a counts table's rows before each of
@@ -344,51 +442,41 @@ func casesBefore(set *scores.Set, rows []int) ([]float64, int) {
 }
 
 // drawCase returns the row of rows that holds case number c of a counts
-// table's class, counted from 0 in ranked order.
+// table's group, counted from 0 in ranked order.
 func drawCase(rows []int, before []float64, c int) int {
 	k := sort.Search(len(rows), func(k int) bool { return before[k+1] > float64(c) })
 	return rows[k]
 }
 
-// draw builds replicate b: rows in the set's ranked order, each repeated
-// as often as it was drawn.
+// draw builds replicate b: each group's cases drawn with replacement, as
+// many as the group holds.
 func (r *replicator) draw(seed, b uint64) *scores.Set {
 	rng := rand.New(rand.NewPCG(seed, b))
 	if r.set.CountsTable() {
-		return r.drawCases(rng)
+		clear(r.drawn)
+		for _, g := range r.groups {
+			if g.cases <= MaxCaseDraws {
+				for range g.cases {
+					r.drawn[drawCase(g.rows, g.before, rng.IntN(g.cases))]++
+				}
+				continue
+			}
+			r.multinomial(rng, g.rows, g.before, g.cases)
+		}
+		scores.Replicate(&r.rep, r.set, r.drawn)
+		return &r.rep
 	}
 	clear(r.counts)
-	for range r.positiveRows {
-		r.counts[r.positiveRows[rng.IntN(len(r.positiveRows))]]++
-	}
-	for range r.negativeRows {
-		r.counts[r.negativeRows[rng.IntN(len(r.negativeRows))]]++
+	for _, g := range r.groups {
+		for range g.rows {
+			r.counts[g.rows[rng.IntN(len(g.rows))]]++
+		}
 	}
 	scores.Replicate(&r.rep, r.set, r.counts)
 	return &r.rep
 }
 
-// drawCases builds a replicate of a counts table: as many cases of each
-// class as it counts, drawn uniformly, one row per drawn score and label
-// weighted by how often it was drawn.
-func (r *replicator) drawCases(rng *rand.Rand) *scores.Set {
-	clear(r.drawn)
-	if r.positiveCases+r.negativeCases <= MaxCaseDraws {
-		for range r.positiveCases {
-			r.drawn[drawCase(r.positiveRows, r.positiveBefore, rng.IntN(r.positiveCases))]++
-		}
-		for range r.negativeCases {
-			r.drawn[drawCase(r.negativeRows, r.negativeBefore, rng.IntN(r.negativeCases))]++
-		}
-	} else {
-		r.multinomial(rng, r.positiveRows, r.positiveBefore, r.positiveCases)
-		r.multinomial(rng, r.negativeRows, r.negativeBefore, r.negativeCases)
-	}
-	scores.Replicate(&r.rep, r.set, r.drawn)
-	return &r.rep
-}
-
-// multinomial draws cases of one class of a counts table into r.drawn:
+// multinomial draws cases of one group of a counts table into r.drawn:
 // each row's share of the cases left, from the cases that the rows after
 // it hold, in turn.
 func (r *replicator) multinomial(rng *rand.Rand, rows []int, before []float64, cases int) {
@@ -409,8 +497,8 @@ func (r *replicator) multinomial(rng *rand.Rand, rows []int, before []float64, c
 }
 
 // binomial draws from the binomial distribution of n trials of chance p:
-// by waiting times (geometric gaps between successes) when the mean is
-// below 30, else from the normal distribution of the same mean and
+// by inversion (one uniform draw against the running sum of the
+// probabilities) when the mean is below 30, else from the normal distribution of the same mean and
 // variance, rounded and kept within [0, n].
 func binomial(rng *rand.Rand, n int, p float64) int {
 	switch {
@@ -425,15 +513,16 @@ func binomial(rng *rand.Rand, n int, p float64) int {
 	}
 	x := 0
 	if mean := float64(n) * p; mean < 30 {
-		logFail := math.Log1p(-p)
-		for trial := 0; ; x++ {
-			// The trials up to the next success, compared as a float so
-			// that a huge gap at a tiny p cannot overflow an int.
-			gap := math.Floor(math.Log(1-rng.Float64())/logFail) + 1
-			if gap > float64(n-trial) {
-				break
-			}
-			trial += int(gap)
+		// Inversion: walk up the probabilities of 0, 1, 2... successes
+		// until they pass one uniform draw; P(0) = (1-p)^n is at least
+		// e^-30 here, far above underflow.
+		u := rng.Float64()
+		f := math.Exp(float64(n) * math.Log1p(-p))
+		odds := p / (1 - p)
+		for u > f && x < n {
+			u -= f
+			f *= odds * float64(n-x) / float64(x+1)
+			x++
 		}
 	} else {
 		x = int(math.Floor(mean + math.Sqrt(mean*(1-p))*rng.NormFloat64() + 0.5))

@@ -318,8 +318,11 @@ type stability struct {
 	FlaggedShareP95 number `json:"flagged_share_p95"`
 	RecallP05       number `json:"recall_p05"`
 	RecallP95       number `json:"recall_p95"`
-	Met             int    `json:"met_in"` // replicates in which the rule was met
-	Summary         string `json:"summary"`
+	// The wrong-alert share at the rule's cut in the replicates.
+	FalseDiscoveryRateP05 number `json:"false_discovery_rate_p05"`
+	FalseDiscoveryRateP95 number `json:"false_discovery_rate_p95"`
+	Met                   int    `json:"met_in"` // replicates in which the rule was met
+	Summary               string `json:"summary"`
 }
 
 type bootstrapFigures struct {
@@ -345,13 +348,13 @@ type bandPoint struct {
 // 5th-95th percentile range gives a warning. It runs after addCalibration.
 func (r *Report) addStability(result *analysis.Result) {
 	res := *result.Stability
-	r.Bootstrap = &bootstrapFigures{Replicates: res.Replicates, Seed: res.Seed, Stratified: true, Band: []bandPoint{}}
+	r.Bootstrap = &bootstrapFigures{Replicates: res.Replicates, Seed: res.Seed, Stratified: res.Design == bootstrap.WithinClass, Band: []bandPoint{}}
 	for _, p := range res.Band {
 		r.Bootstrap.Band = append(r.Bootstrap.Band, bandPoint{Score: p.Score,
 			RecallP05: number(p.Recall[0]), RecallP95: number(p.Recall[1]),
 			FalseDiscoveryRateP05: number(p.FalseDiscoveryRate[0]), FalseDiscoveryRateP95: number(p.FalseDiscoveryRate[1])})
 	}
-	t := tableOf("cut", "score", "cut lands 5–95%", "flagged share 5–95%", "hit share 5–95%", "in plain words")
+	t := tableOf("cut", "score", "cut lands 5–95%", "flagged share 5–95%", "hit share 5–95%", "wrong-alert share 5–95%", "in plain words")
 	t.wordsLast = true
 	for i, s := range res.Spreads {
 		if i >= len(r.Cuts) {
@@ -360,21 +363,22 @@ func (r *Report) addStability(result *analysis.Result) {
 		c := &r.Cuts[i]
 		words := bootstrap.Describe(s, res.Replicates)
 		if s.Skipped != "" {
-			c.Stability = &stability{ScoreP05: null, ScoreP95: null, FlaggedShareP05: null, FlaggedShareP95: null, RecallP05: null, RecallP95: null, Summary: words}
-			t.rows = append(t.rows, []string{c.Spec, format.Score(float64(c.Score)), "n/a", "n/a", "n/a", words})
+			c.Stability = &stability{ScoreP05: null, ScoreP95: null, FlaggedShareP05: null, FlaggedShareP95: null, RecallP05: null, RecallP95: null, FalseDiscoveryRateP05: null, FalseDiscoveryRateP95: null, Summary: words}
+			t.rows = append(t.rows, []string{c.Spec, format.Score(float64(c.Score)), "n/a", "n/a", "n/a", "n/a", words})
 			continue
 		}
 		c.Stability = &stability{ScoreP05: number(s.Score[0]), ScoreP95: number(s.Score[1]),
 			FlaggedShareP05: number(s.FlaggedShare[0]), FlaggedShareP95: number(s.FlaggedShare[1]),
-			RecallP05: number(s.Recall[0]), RecallP95: number(s.Recall[1]), Met: s.Met, Summary: words}
-		t.rows = append(t.rows, []string{c.Spec, format.Score(float64(c.Score)), format.Significant(s.Score[0], 4) + " to " + format.Significant(s.Score[1], 4), format.Interval(s.FlaggedShare), format.Interval(s.Recall), words})
+			RecallP05: number(s.Recall[0]), RecallP95: number(s.Recall[1]),
+			FalseDiscoveryRateP05: number(s.FalseDiscoveryRate[0]), FalseDiscoveryRateP95: number(s.FalseDiscoveryRate[1]), Met: s.Met, Summary: words}
+		t.rows = append(t.rows, []string{c.Spec, format.Score(float64(c.Score)), format.Significant(s.Score[0], 4) + " to " + format.Significant(s.Score[1], 4), format.Interval(s.FlaggedShare), format.Interval(s.Recall), format.Interval(s.FalseDiscoveryRate), words})
 	}
 	if c := result.CheckCost(result.Stability); c.Outside {
 		s := c.Spread
 		r.Warnings = append(r.Warnings, fmt.Sprintf("the cost threshold that calibrated probabilities imply (%s) lies outside the range where the least-cost cut lands in resampled sets (%s to %s): the scores are probably not calibrated, so do not read them as probabilities for costing",
 			format.Number(result.Calibration.Cost.Score, 3), format.Significant(s.Score[0], 4), format.Significant(s.Score[1], 4)))
 	}
-	notes := []string{fmt.Sprintf("%d resampled sets (seed %d), true and false cases resampled separately; the 5th and 95th percentiles bound a 90%% range", res.Replicates, res.Seed)}
+	notes := []string{fmt.Sprintf("%d resampled sets (seed %d), %s; the 5th and 95th percentiles bound a 90%% range", res.Replicates, res.Seed, designWords(res.Design))}
 	r.sections = append(r.sections, section{title: "how stable each cut is (bootstrap)", table: t, notes: notes})
 }
 
@@ -469,4 +473,12 @@ func (r *Report) addComparison(res *analysis.Result) {
 		}
 	}
 	r.sections = append(r.sections, section{title: "two models on the same cases: " + scoreA + " and " + scoreB, table: t, notes: notes})
+}
+
+// designWords says how the bootstrap drew its cases.
+func designWords(d bootstrap.Design) string {
+	if d == bootstrap.WithinClass {
+		return "true and false cases resampled separately, as the classes were sampled apart"
+	}
+	return "cases resampled as a random sample, so the mix of true and false cases varies"
 }
