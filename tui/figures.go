@@ -166,7 +166,12 @@ func (p figuresPane) body() string {
 		short := strings.NewReplacer(" alerts are wrong", " wrong", " alerts is wrong", " wrong", " alerts is right", " right").Replace(Reading(production))
 		reading = "in production " + format.Share(production) + " (" + short + ")"
 	}
-	if banded {
+	switch {
+	case banded && s.baseRateChanged():
+		// The band is of this set's share, the figure above: it comes
+		// first, before the production figure it does not belong to.
+		reading = "redraws " + format.Interval(band.FalseDiscoveryRate) + " · " + reading
+	case banded:
 		reading = strings.Replace(reading, " alerts are wrong", " wrong", 1)
 		reading = strings.Replace(reading, " alerts is wrong", " wrong", 1)
 		reading += " · redraws " + format.Interval(band.FalseDiscoveryRate)
