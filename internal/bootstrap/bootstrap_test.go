@@ -15,22 +15,12 @@ import (
 	"github.com/sill-tool/sill/internal/bootstrap"
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/floatcmp"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/quantile"
 	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/shift"
 )
-
-// tolerance is the one float tolerance of this package's tests.
-const tolerance = 1e-12
-
-// close reports whether a and b agree within tolerance, NaN equal to NaN.
-func close(a, b float64) bool {
-	if math.IsNaN(a) || math.IsNaN(b) {
-		return math.IsNaN(a) && math.IsNaN(b)
-	}
-	return math.Abs(a-b) <= tolerance
-}
 
 // normalSet draws positives from N(shift,1) and negatives from N(0,1).
 func normalSet(t testing.TB, rng *rand.Rand, positives, negatives int, shift float64) *scores.Set {
@@ -81,12 +71,12 @@ func TestReproducible(t *testing.T) {
 	same := func(a, b bootstrap.Result) bool {
 		for i := range a.Spreads {
 			x, y := a.Spreads[i], b.Spreads[i]
-			if x.Met != y.Met || !close(x.Score[0], y.Score[0]) || !close(x.Score[1], y.Score[1]) || !close(x.FlaggedShare[0], y.FlaggedShare[0]) || !close(x.FlaggedShare[1], y.FlaggedShare[1]) {
+			if x.Met != y.Met || !floatcmp.Equal(x.Score[0], y.Score[0]) || !floatcmp.Equal(x.Score[1], y.Score[1]) || !floatcmp.Equal(x.FlaggedShare[0], y.FlaggedShare[0]) || !floatcmp.Equal(x.FlaggedShare[1], y.FlaggedShare[1]) {
 				return false
 			}
 		}
 		for j := range a.Band {
-			if !close(a.Band[j].Recall[0], b.Band[j].Recall[0]) || !close(a.Band[j].FalseDiscoveryRate[1], b.Band[j].FalseDiscoveryRate[1]) {
+			if !floatcmp.Equal(a.Band[j].Recall[0], b.Band[j].Recall[0]) || !floatcmp.Equal(a.Band[j].FalseDiscoveryRate[1], b.Band[j].FalseDiscoveryRate[1]) {
 				return false
 			}
 		}

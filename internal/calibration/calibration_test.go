@@ -10,20 +10,10 @@ import (
 
 	"github.com/sill-tool/sill/internal/calibration"
 	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/floatcmp"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
 )
-
-// tolerance is the one float tolerance of this package's tests.
-const tolerance = 1e-12
-
-// close reports whether a and b agree within tolerance, NaN equal to NaN.
-func close(a, b float64) bool {
-	if math.IsNaN(a) || math.IsNaN(b) {
-		return math.IsNaN(a) && math.IsNaN(b)
-	}
-	return math.Abs(a-b) <= tolerance
-}
 
 func readSet(t *testing.T, path string, opt scores.Options) *scores.Set {
 	t.Helper()
@@ -81,7 +71,7 @@ func TestAgainstScikitLearn(t *testing.T) {
 			}
 			what := name + " " + c.Strategy
 			for k, bin := range table.Bins {
-				if !close(bin.Lower, c.Edges[k]) || !close(bin.Upper, c.Edges[k+1]) {
+				if !floatcmp.Equal(bin.Lower, c.Edges[k]) || !floatcmp.Equal(bin.Upper, c.Edges[k+1]) {
 					t.Errorf("%s bin %d: edges %v..%v, reference %v..%v", what, k, bin.Lower, bin.Upper, c.Edges[k], c.Edges[k+1])
 				}
 			}
@@ -97,11 +87,11 @@ func TestAgainstScikitLearn(t *testing.T) {
 			}
 			for k, bin := range filled {
 				compared++
-				if !close(bin.ObservedRate, c.True[k]) || !close(bin.MeanScore, c.Pred[k]) || bin.Count != c.Counts[k] {
+				if !floatcmp.Equal(bin.ObservedRate, c.True[k]) || !floatcmp.Equal(bin.MeanScore, c.Pred[k]) || bin.Count != c.Counts[k] {
 					t.Errorf("%s bin %d: observed %v mean %v count %d; reference %v %v %d", what, k, bin.ObservedRate, bin.MeanScore, bin.Count, c.True[k], c.Pred[k], c.Counts[k])
 				}
 			}
-			if !close(table.ECE, c.ECE) {
+			if !floatcmp.Equal(table.ECE, c.ECE) {
 				t.Errorf("%s: ECE %v, reference %v", what, table.ECE, c.ECE)
 			}
 		}
@@ -131,11 +121,11 @@ func TestReliabilityHandWorked(t *testing.T) {
 	}
 	for k, w := range want {
 		g := table.Bins[k]
-		if !close(g.Lower, w.Lower) || !close(g.Upper, w.Upper) || !close(g.MeanScore, w.MeanScore) || !close(g.ObservedRate, w.ObservedRate) || g.Count != w.Count || !close(g.Weight, w.Weight) {
+		if !floatcmp.Equal(g.Lower, w.Lower) || !floatcmp.Equal(g.Upper, w.Upper) || !floatcmp.Equal(g.MeanScore, w.MeanScore) || !floatcmp.Equal(g.ObservedRate, w.ObservedRate) || g.Count != w.Count || !floatcmp.Equal(g.Weight, w.Weight) {
 			t.Errorf("bin %d: %+v, want %+v", k, g, w)
 		}
 	}
-	if !close(table.ECE, 0.14) {
+	if !floatcmp.Equal(table.ECE, 0.14) {
 		t.Errorf("ECE %v, want 0.14", table.ECE)
 	}
 }
@@ -149,7 +139,7 @@ func TestReliabilityEdgeCases(t *testing.T) {
 		t.Fatal(err)
 	}
 	// Both rows in [0,0.25]: mean 0.125, observed 0, ECE 0.125.
-	if table.Bins[0].Count != 2 || !close(table.Bins[0].ObservedRate, 0) || !math.IsNaN(table.Bins[1].MeanScore) || !close(table.ECE, 0.125) {
+	if table.Bins[0].Count != 2 || !floatcmp.Equal(table.Bins[0].ObservedRate, 0) || !math.IsNaN(table.Bins[1].MeanScore) || !floatcmp.Equal(table.ECE, 0.125) {
 		t.Errorf("one class: %+v", table)
 	}
 	empty, _ := scores.New(nil, nil, nil, false)
@@ -175,11 +165,11 @@ func TestReliabilityEdgeCases(t *testing.T) {
 	tw, _ := calibration.Reliability(weighted, 5, calibration.FixedWidth)
 	tr, _ := calibration.Reliability(repeated, 5, calibration.FixedWidth)
 	for k := range tw.Bins {
-		if !close(tw.Bins[k].MeanScore, tr.Bins[k].MeanScore) || !close(tw.Bins[k].ObservedRate, tr.Bins[k].ObservedRate) {
+		if !floatcmp.Equal(tw.Bins[k].MeanScore, tr.Bins[k].MeanScore) || !floatcmp.Equal(tw.Bins[k].ObservedRate, tr.Bins[k].ObservedRate) {
 			t.Errorf("bin %d: weighted %+v repeated %+v", k, tw.Bins[k], tr.Bins[k])
 		}
 	}
-	if !close(tw.ECE, tr.ECE) {
+	if !floatcmp.Equal(tw.ECE, tr.ECE) {
 		t.Errorf("ECE weighted %v repeated %v", tw.ECE, tr.ECE)
 	}
 }
@@ -201,7 +191,7 @@ func TestCostThreshold(t *testing.T) {
 		{projection.Costs{}, math.NaN()},
 	}
 	for _, c := range cases {
-		if got := calibration.CostThreshold(c.costs); !close(got, c.want) {
+		if got := calibration.CostThreshold(c.costs); !floatcmp.Equal(got, c.want) {
 			t.Errorf("%+v: %v, want %v", c.costs, got, c.want)
 		}
 	}
@@ -213,10 +203,10 @@ func TestCostThreshold(t *testing.T) {
 // change nothing, and the result flags exactly where the production
 // probability reaches the threshold (property, seeded values below).
 func TestShiftThreshold(t *testing.T) {
-	if got := calibration.ShiftThreshold(0.5, 0.5, 0.2); !close(got, 0.8) {
+	if got := calibration.ShiftThreshold(0.5, 0.5, 0.2); !floatcmp.Equal(got, 0.8) {
 		t.Errorf("got %v, want 0.8", got)
 	}
-	if got := calibration.ShiftThreshold(0.3, 0.1, 0.1); !close(got, 0.3) {
+	if got := calibration.ShiftThreshold(0.3, 0.1, 0.1); !floatcmp.Equal(got, 0.3) {
 		t.Errorf("equal base rates: %v", got)
 	}
 	if got := calibration.ShiftThreshold(0.3, 0, 0.1); !math.IsNaN(got) {
@@ -225,7 +215,7 @@ func TestShiftThreshold(t *testing.T) {
 	for _, c := range [][3]float64{{0.1, 0.05, 0.2}, {0.7, 0.3, 0.01}, {0.25, 0.6, 0.4}} {
 		s := calibration.ShiftThreshold(c[0], c[1], c[2])
 		odds := s / (1 - s) * (c[2] / (1 - c[2])) / (c[1] / (1 - c[1]))
-		if p := odds / (1 + odds); math.Abs(p-c[0]) > 1e-9 {
+		if p := odds / (1 + odds); !floatcmp.Equal(p, c[0]) {
 			t.Errorf("%v: score %v reads as %v in production", c, s, p)
 		}
 	}
@@ -238,10 +228,10 @@ func TestShiftThreshold(t *testing.T) {
 // caught.
 func TestNetBenefit(t *testing.T) {
 	p := curve.Point{TP: 10, FP: 20, FN: 5, TN: 65}
-	if got := calibration.NetBenefit(p, 0.2); !close(got, 0.05) {
+	if got := calibration.NetBenefit(p, 0.2); !floatcmp.Equal(got, 0.05) {
 		t.Errorf("got %v, want 0.05", got)
 	}
-	if got := calibration.NetBenefit(p, 0); !close(got, 0.1) {
+	if got := calibration.NetBenefit(p, 0); !floatcmp.Equal(got, 0.1) {
 		t.Errorf("pt 0: %v", got)
 	}
 	if got := calibration.NetBenefit(p, 1); !math.IsNaN(got) {
@@ -250,7 +240,7 @@ func TestNetBenefit(t *testing.T) {
 	if got := calibration.NetBenefit(curve.Point{}, 0.2); !math.IsNaN(got) {
 		t.Errorf("empty: %v", got)
 	}
-	if got := calibration.NetBenefitAll(0.15, 0.2); !close(got, -0.0625) {
+	if got := calibration.NetBenefitAll(0.15, 0.2); !floatcmp.Equal(got, -0.0625) {
 		t.Errorf("treat all: %v", got)
 	}
 }
@@ -294,15 +284,15 @@ func TestQuantileCountsTable(t *testing.T) {
 	}
 	handEdges := []float64{0.1, 0.175, 0.7, 0.7, 0.9} // worked above
 	for k, b := range want.Bins {
-		if !close(b.Lower, handEdges[k]) || !close(b.Upper, handEdges[k+1]) {
+		if !floatcmp.Equal(b.Lower, handEdges[k]) || !floatcmp.Equal(b.Upper, handEdges[k+1]) {
 			t.Errorf("raw bin %d: [%v, %v], worked by hand [%v, %v]", k, b.Lower, b.Upper, handEdges[k], handEdges[k+1])
 		}
 		g := got.Bins[k]
-		if g.Lower != b.Lower || g.Upper != b.Upper || g.Count != b.Count || !close(g.ObservedRate, b.ObservedRate) || !close(g.MeanScore, b.MeanScore) {
+		if g.Lower != b.Lower || g.Upper != b.Upper || g.Count != b.Count || !floatcmp.Equal(g.ObservedRate, b.ObservedRate) || !floatcmp.Equal(g.MeanScore, b.MeanScore) {
 			t.Errorf("bin %d: counts table %+v, raw rows %+v", k, g, b)
 		}
 	}
-	if !close(got.ECE, want.ECE) {
+	if !floatcmp.Equal(got.ECE, want.ECE) {
 		t.Errorf("ECE: counts table %v, raw rows %v", got.ECE, want.ECE)
 	}
 }

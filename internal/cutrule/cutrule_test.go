@@ -9,20 +9,10 @@ import (
 
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/floatcmp"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
 )
-
-// tolerance is the largest absolute difference accepted between a figure
-// and its hand-worked value; NaN equals NaN (see near).
-const tolerance = 1e-12
-
-func near(got, want float64) bool {
-	if math.IsNaN(got) || math.IsNaN(want) {
-		return math.IsNaN(got) && math.IsNaN(want)
-	}
-	return math.Abs(got-want) <= tolerance
-}
 
 func TestParseAccepts(t *testing.T) {
 	cases := []struct {
@@ -204,7 +194,7 @@ func checkOutcomes(t *testing.T, c *curve.Curve, a projection.Assumptions, wants
 		if o.Point.Score != w.score || o.Reason != "" {
 			t.Errorf("%s: score %v reason %q, want %v", w.spec, o.Point.Score, o.Reason, w.score)
 		}
-		if fig := projection.Project(o.Point, a); !near(fig.AlertRate, o.Projected.AlertRate) {
+		if fig := projection.Project(o.Point, a); !floatcmp.Equal(fig.AlertRate, o.Projected.AlertRate) {
 			t.Errorf("%s: projected figures %+v do not match the point's %+v", w.spec, o.Projected, fig)
 		}
 	}
@@ -372,7 +362,7 @@ func TestFindCost(t *testing.T) {
 	if !o.Met || o.Point.Score != 0.90 {
 		t.Fatalf("cost: met %v at %v, want the strictest of the tie, 0.90", o.Met, o.Point.Score)
 	}
-	if !near(o.Projected.CostPerShift, 60) || !near(o.Projected.CostPerCase, 0.6) {
+	if !floatcmp.Equal(o.Projected.CostPerShift, 60) || !floatcmp.Equal(o.Projected.CostPerCase, 0.6) {
 		t.Errorf("cost per shift %v per case %v, want 60 and 0.6", o.Projected.CostPerShift, o.Projected.CostPerCase)
 	}
 

@@ -6,20 +6,10 @@ import (
 
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/evidence"
+	"github.com/sill-tool/sill/internal/floatcmp"
 	"github.com/sill-tool/sill/internal/interval"
 	"github.com/sill-tool/sill/internal/projection"
 )
-
-// tolerance is the largest absolute difference accepted between a figure
-// and its expected value; NaN equals NaN (see near).
-const tolerance = 1e-12
-
-func near(got, want float64) bool {
-	if math.IsNaN(got) || math.IsNaN(want) {
-		return math.IsNaN(got) && math.IsNaN(want)
-	}
-	return math.Abs(got-want) <= tolerance
-}
 
 // TestOf checks the figures of one cut by hand: 4 rows flagged of 10,
 // tp 3, fp 1, fn 2, tn 4, at 90% confidence.
@@ -64,7 +54,7 @@ func TestOf(t *testing.T) {
 		{"projected queue", c.Projected.QueuePerShift, 280},
 		{"projected cost", c.Projected.CostPerShift, math.NaN()},
 	} {
-		if !near(check.got, check.want) {
+		if !floatcmp.Equal(check.got, check.want) {
 			t.Errorf("%s %v, want %v", check.what, check.got, check.want)
 		}
 	}

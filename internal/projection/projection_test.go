@@ -6,19 +6,9 @@ import (
 	"testing"
 
 	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/floatcmp"
 	"github.com/sill-tool/sill/internal/projection"
 )
-
-// tolerance is the largest absolute difference accepted between a figure
-// and its expected value; NaN equals NaN (see near).
-const tolerance = 1e-12
-
-func near(got, want float64) bool {
-	if math.IsNaN(got) || math.IsNaN(want) {
-		return math.IsNaN(got) && math.IsNaN(want)
-	}
-	return math.Abs(got-want) <= tolerance
-}
 
 var nan = math.NaN()
 
@@ -89,10 +79,10 @@ func TestProjectPredictiveValues(t *testing.T) {
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
 			fig := projection.Project(tc.point, projection.Assumptions{BaseRate: tc.baseRate, Confidence: 0.95})
-			if !near(fig.Precision, tc.ppv) {
+			if !floatcmp.Equal(fig.Precision, tc.ppv) {
 				t.Errorf("precision %v, want %v %s", fig.Precision, tc.ppv, tc.note)
 			}
-			if !near(fig.FalseDiscoveryRate(), 1-tc.ppv) {
+			if !floatcmp.Equal(fig.FalseDiscoveryRate(), 1-tc.ppv) {
 				t.Errorf("false discovery rate %v, want %v", fig.FalseDiscoveryRate(), 1-tc.ppv)
 			}
 		})
@@ -199,7 +189,7 @@ func TestProjectFigures(t *testing.T) {
 				{"cost per shift", got.CostPerShift, tc.want.CostPerShift},
 				{"cost per case", got.CostPerCase, tc.want.CostPerCase},
 			} {
-				if !near(c.got, c.want) {
+				if !floatcmp.Equal(c.got, c.want) {
 					t.Errorf("%s %v, want %v", c.what, c.got, c.want)
 				}
 			}
@@ -214,10 +204,10 @@ func TestProjectFigures(t *testing.T) {
 func TestProjectValidationRate(t *testing.T) {
 	p := curve.Point{TP: 3, FP: 1, FN: 2, TN: 4}
 	fig := projection.Project(p, projection.Assumptions{BaseRate: 0.5})
-	if !near(fig.AlertRate, p.FlaggedShare()) || !near(fig.AlertRate, 0.4) {
+	if !floatcmp.Equal(fig.AlertRate, p.FlaggedShare()) || !floatcmp.Equal(fig.AlertRate, 0.4) {
 		t.Errorf("alert rate %v, flagged share %v, want 0.4", fig.AlertRate, p.FlaggedShare())
 	}
-	if !near(fig.Precision, p.Precision()) || !near(fig.Precision, 0.75) {
+	if !floatcmp.Equal(fig.Precision, p.Precision()) || !floatcmp.Equal(fig.Precision, 0.75) {
 		t.Errorf("precision %v, validation %v, want 0.75", fig.Precision, p.Precision())
 	}
 }
