@@ -114,7 +114,10 @@ func (m *Model) write(force bool) tea.Cmd {
 		m.refresh()
 	}
 	if !sameAssumptions(s.assume, s.res.Assume) {
-		m.status = "not written: the figures under the new assumptions are still being computed; write again in a moment"
+		// The figures under the new assumptions arrive by startsFoundMsg,
+		// which runs the write then.
+		m.writeWaiting = true
+		m.status = "writing once the figures under the new assumptions are computed"
 		return nil
 	}
 	picks := make([]decision.Pick, len(s.pins))

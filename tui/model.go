@@ -113,9 +113,12 @@ type Model struct {
 	written   string            // the path last written, "" before any write
 	outStamp  *sharedfile.Stamp // cfg.Out as this screen found it or last wrote it; nil: not known
 	writes    *writeTracker
-	writeErr  error  // why the last write asked for did not happen; nil after one that did
-	unwritten bool   // candidates or assumptions changed since the last write
-	tableSig  string // what the strip's table was built from
+	writeErr  error // why the last write asked for did not happen; nil after one that did
+	unwritten bool  // candidates or assumptions changed since the last write
+	// writeWaiting holds a write asked for while the figures under new
+	// assumptions were still being computed; it runs once they arrive.
+	writeWaiting bool
+	tableSig     string // what the strip's table was built from
 
 	list     listPane
 	chart    curvePane
@@ -237,10 +240,18 @@ func (m Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		}
 		if msg.err != nil {
 			m.status = "assumptions: " + msg.err.Error()
+			if m.writeWaiting {
+				m.writeWaiting = false
+				m.status = "not written: " + m.status
+			}
 			return m, nil
 		}
 		m.s.use(msg.res)
 		m.refresh()
+		if m.writeWaiting {
+			m.writeWaiting = false
+			return m, m.write(false)
+		}
 		return m, nil
 	case resampleTickMsg, resampledMsg:
 		return m.resampleUpdate(msg)

@@ -639,3 +639,44 @@ func TestListTrueColumn(t *testing.T) {
 		t.Errorf("the first row's mark %q is not under the column head %q:\n%s\n%s", mark, head, head, lines[3])
 	}
 }
+
+// TestWriteWaitsForNewFigures: w pressed while the figures under new
+// assumptions are still being computed writes once they arrive, with the
+// new assumptions, instead of asking the user to press it again.
+func TestWriteWaitsForNewFigures(t *testing.T) {
+	out := filepath.Join(t.TempDir(), "cut.yaml")
+	m := loaded(t, tenRows(t), tenAssumptions, out, 100, 30)
+	m = keys(m, "a", "ctrl+u")
+	m = typeText(m, "10%")
+	// enter applies the form; hold back the background work it starts.
+	next, compute := m.Update(keyMsg("enter"))
+	m = next.(Model)
+	if compute == nil {
+		t.Fatal("applying the form started no computation")
+	}
+	next, cmd := m.Update(keyMsg("w"))
+	m = next.(Model)
+	if cmd != nil || m.Written() != "" {
+		t.Fatalf("w wrote before the figures arrived (status %q)", m.status)
+	}
+	if !strings.Contains(m.status, "writing once") {
+		t.Errorf("status %q does not say the write waits", m.status)
+	}
+	next, write := m.Update(compute())
+	m = next.(Model)
+	if write == nil {
+		t.Fatalf("the figures arrived and no write started (status %q)", m.status)
+	}
+	next, _ = m.Update(write())
+	m = next.(Model)
+	if m.Written() != out {
+		t.Fatalf("written %q, status %q", m.Written(), m.status)
+	}
+	f, err := decision.ReadFile(out)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !near(f.Assumptions.BaseRate, 0.1) {
+		t.Errorf("file base rate %v, want the new 0.1", f.Assumptions.BaseRate)
+	}
+}
