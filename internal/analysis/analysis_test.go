@@ -13,21 +13,11 @@ import (
 	"github.com/sill-tool/sill/internal/bootstrap"
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/floatcmp"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/shift"
 )
-
-// tolerance is the one tolerance of these tests' float comparisons.
-const tolerance = 1e-12
-
-// near reports whether got is within tolerance of want, NaN equal to NaN.
-func near(got, want float64) bool {
-	if math.IsNaN(got) || math.IsNaN(want) {
-		return math.IsNaN(got) && math.IsNaN(want)
-	}
-	return math.Abs(got-want) <= tolerance
-}
 
 // same reports whether a and b print the same, which treats NaN as equal
 // to NaN where reflect.DeepEqual does not.
@@ -139,7 +129,7 @@ func TestRun(t *testing.T) {
 	if p := res.Outcomes[0].Point; p.Rows != 3 || p.TP != 2 || p.FP != 1 {
 		t.Errorf("point %+v", p)
 	}
-	if res.Summary.Rows != 8 || res.Summary.Positives != 4 || !near(res.Summary.BaseRate, 0.5) {
+	if res.Summary.Rows != 8 || res.Summary.Positives != 4 || !floatcmp.Equal(res.Summary.BaseRate, 0.5) {
 		t.Errorf("summary %+v", res.Summary)
 	}
 
@@ -147,8 +137,8 @@ func TestRun(t *testing.T) {
 	// two of them flagged, one true: recall 1/2, precision 1/2. B holds
 	// 0.8 (true) flagged of two true cases: recall 1/2, precision 1.
 	seg := res.Segments[0].Segments
-	if len(seg) != 2 || seg[0].Segment != "A" || !near(seg[0].Recall, 0.5) || !near(seg[0].Precision, 0.5) ||
-		seg[1].Segment != "B" || !near(seg[1].Recall, 0.5) || !near(seg[1].Precision, 1) {
+	if len(seg) != 2 || seg[0].Segment != "A" || !floatcmp.Equal(seg[0].Recall, 0.5) || !floatcmp.Equal(seg[0].Precision, 0.5) ||
+		seg[1].Segment != "B" || !floatcmp.Equal(seg[1].Recall, 0.5) || !floatcmp.Equal(seg[1].Precision, 1) {
 		t.Errorf("segments %+v", seg)
 	}
 	if len(res.Segments[1].Segments) != 0 {
@@ -161,7 +151,7 @@ func TestRun(t *testing.T) {
 	// one shift of four over the capacity of 1.
 	p := res.Shifts.Peaks[0]
 	if res.Shifts.Assigned.Count != 4 || res.Shifts.Scale != (shift.Scale{Positive: 1, Negative: 1}) ||
-		!near(p.Mean, 0.75) || !near(p.P90, 2) || !near(p.Max, 2) || p.Busiest != 0 || !near(p.OverCapacity, 0.25) {
+		!floatcmp.Equal(p.Mean, 0.75) || !floatcmp.Equal(p.P90, 2) || !floatcmp.Equal(p.Max, 2) || p.Busiest != 0 || !floatcmp.Equal(p.OverCapacity, 0.25) {
 		t.Errorf("shifts %+v, peaks %+v", res.Shifts, p)
 	}
 
@@ -169,19 +159,19 @@ func TestRun(t *testing.T) {
 	// three, mean 0.4), (0.5,1] the other five (three true, mean 0.76):
 	// ECE = (3*|1/3-0.4| + 5*|0.6-0.76|)/8 = 0.125.
 	cal := res.Calibration
-	if cal == nil || len(cal.Table.Bins) != 2 || !near(cal.Table.ECE, 0.125) {
+	if cal == nil || len(cal.Table.Bins) != 2 || !floatcmp.Equal(cal.Table.ECE, 0.125) {
 		t.Fatalf("calibration %+v", cal)
 	}
 	// Elkan 2001: 1/(1+4) = 0.2, the same on the score scale at equal
 	// base rates. The cost per case FP + 4 FN at each cut: 0.9: 12,
 	// 0.8: 9, 0.7: 10, 0.6: 6, 0.5: 7, 0.4: 3, 0.3: 4; least at 0.4.
-	if cal.Cost == nil || !near(cal.Cost.Probability, 0.2) || !near(cal.Cost.Score, 0.2) ||
+	if cal.Cost == nil || !floatcmp.Equal(cal.Cost.Probability, 0.2) || !floatcmp.Equal(cal.Cost.Score, 0.2) ||
 		!cal.Cost.LeastCost.Met || cal.Cost.LeastCost.Point.Score != 0.4 {
 		t.Errorf("cost threshold %+v", cal.Cost)
 	}
 	// Net benefit at 0.8 (Vickers and Elkin 2006): 2/8 - 1/8 * 0.8/0.2 =
 	// -0.25; flagging all at the same threshold: 0.5 - 0.5*4 = -1.5.
-	if !near(cal.NetBenefit[0], -0.25) || !near(cal.NetBenefitAll[0], -1.5) ||
+	if !floatcmp.Equal(cal.NetBenefit[0], -0.25) || !floatcmp.Equal(cal.NetBenefitAll[0], -1.5) ||
 		!math.IsNaN(cal.NetBenefit[1]) || !math.IsNaN(cal.NetBenefitAll[1]) {
 		t.Errorf("net benefit %v, all %v", cal.NetBenefit, cal.NetBenefitAll)
 	}
@@ -200,7 +190,7 @@ func TestScaleToVolume(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if p := res.Shifts.Peaks[0]; res.Shifts.Scale != (shift.Scale{Positive: 2, Negative: 2}) || !near(p.Mean, 1.5) || !near(p.P90, 4) {
+	if p := res.Shifts.Peaks[0]; res.Shifts.Scale != (shift.Scale{Positive: 2, Negative: 2}) || !floatcmp.Equal(p.Mean, 1.5) || !floatcmp.Equal(p.P90, 4) {
 		t.Errorf("scale %+v, peaks %+v", res.Shifts.Scale, p)
 	}
 }
@@ -233,7 +223,7 @@ func TestSecondModel(t *testing.T) {
 	// true cases 0.9, 0.8, 0.6, 0.4 against 0.8, 0.7, 0.5, 0.3: 4 + 3.5
 	// + 2 + 1 = 10.5 of 16. The other's 0.9, 0.8, 0.7, 0.2 against 0.6,
 	// 0.4, 0.3, 0.1: 4 + 4 + 4 + 1 = 13 of 16.
-	if !near(res.Second.Test.AUC[0], 10.5/16) || !near(res.Second.Test.AUC[1], 13.0/16) || !near(res.Second.Test.Difference, -2.5/16) {
+	if !floatcmp.Equal(res.Second.Test.AUC[0], 10.5/16) || !floatcmp.Equal(res.Second.Test.AUC[1], 13.0/16) || !floatcmp.Equal(res.Second.Test.Difference, -2.5/16) {
 		t.Errorf("paired test %+v", res.Second.Test)
 	}
 }
@@ -287,8 +277,8 @@ func TestCursor(t *testing.T) {
 		s2, ok2 := plain.SegmentsAt(p, 0.9)
 		q1, _ := res.PeaksAt(p, 3)
 		q2, _ := plain.PeaksAt(p, 3)
-		if !ok1 || !ok2 || len(s1.Segments) != len(s2.Segments) || !near(s1.Segments[0].Recall, s2.Segments[0].Recall) ||
-			!near(s1.Segments[1].Precision, s2.Segments[1].Precision) || !near(q1.P90, q2.P90) || !near(q1.Mean, q2.Mean) || q1.Busiest != q2.Busiest {
+		if !ok1 || !ok2 || len(s1.Segments) != len(s2.Segments) || !floatcmp.Equal(s1.Segments[0].Recall, s2.Segments[0].Recall) ||
+			!floatcmp.Equal(s1.Segments[1].Precision, s2.Segments[1].Precision) || !floatcmp.Equal(q1.P90, q2.P90) || !floatcmp.Equal(q1.Mean, q2.Mean) || q1.Busiest != q2.Busiest {
 			t.Errorf("cut %d: %+v %+v, %+v %+v", i, s1, s2, q1, q2)
 		}
 	}

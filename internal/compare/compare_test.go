@@ -8,20 +8,10 @@ import (
 
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/evidence"
+	"github.com/sill-tool/sill/internal/floatcmp"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
 )
-
-// tolerance is the one float tolerance of these tests.
-const tolerance = 1e-9
-
-// near reports whether got and want agree within tolerance, NaN equal to NaN.
-func near(got, want float64) bool {
-	if math.IsNaN(got) || math.IsNaN(want) {
-		return math.IsNaN(got) && math.IsNaN(want)
-	}
-	return math.Abs(got-want) <= tolerance
-}
 
 // sixRows is the hand-worked set of these tests, riskiest first:
 //
@@ -114,11 +104,11 @@ func TestNewHandWorked(t *testing.T) {
 			if r.Diffs[i] != tc.diffs[i] {
 				t.Errorf("%s column %d: diff %q, want %q", tc.figure, i, r.Diffs[i], tc.diffs[i])
 			}
-			if !near(r.Values[i], tc.values[i]) {
+			if !floatcmp.Equal(r.Values[i], tc.values[i]) {
 				t.Errorf("%s column %d: value %v, want %v", tc.figure, i, r.Values[i], tc.values[i])
 			}
 		}
-		if !near(r.Deltas[1], tc.delta) {
+		if !floatcmp.Equal(r.Deltas[1], tc.delta) {
 			t.Errorf("%s: delta %v, want %v", tc.figure, r.Deltas[1], tc.delta)
 		}
 		if !r.Detail && r.Deltas[0] != 0 {

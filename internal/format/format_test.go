@@ -1,22 +1,12 @@
 package format
 
 import (
+	"github.com/sill-tool/sill/internal/floatcmp"
+
 	"fmt"
 	"math"
 	"testing"
 )
-
-// tolerance is the one float tolerance of these tests.
-const tolerance = 1e-9
-
-// near reports whether got and want agree within tolerance, NaN equal to
-// NaN.
-func near(got, want float64) bool {
-	if math.IsNaN(got) || math.IsNaN(want) {
-		return math.IsNaN(got) && math.IsNaN(want)
-	}
-	return math.Abs(got-want) <= tolerance
-}
 
 var (
 	nan    = math.NaN()
@@ -169,7 +159,7 @@ func TestDifferences(t *testing.T) {
 		{"score equal", ScoreDiff(0.5, 0.5), "same", 0, "0.5", "0.5"},
 		{"score NaN", ScoreDiff(nan, nan), "n/a", nan, "n/a", "n/a"},
 	} {
-		if tc.got.Text != tc.text || !near(tc.got.Value, tc.value) {
+		if tc.got.Text != tc.text || !floatcmp.Equal(tc.got.Value, tc.value) {
 			t.Errorf("%s (beside %s and %s): got %q %v, want %q %v", tc.name, tc.shownA, tc.B, tc.got.Text, tc.got.Value, tc.text, tc.value)
 		}
 	}
@@ -187,7 +177,7 @@ func TestDifferencesAgreeWithShown(t *testing.T) {
 				continue
 			}
 			want := shown(Queue(a)) - shown(Queue(b))
-			if !near(shown(d.Text), want) && math.Abs(shown(d.Text)-want) > 1e-6 {
+			if !floatcmp.Equal(shown(d.Text), want) && math.Abs(shown(d.Text)-want) > 1e-6 {
 				t.Fatalf("QueueDiff(%v, %v) = %q beside %s and %s", a, b, d.Text, Queue(a), Queue(b))
 			}
 			sa, sb := a/100, b/100

@@ -11,21 +11,10 @@ import (
 	"testing"
 
 	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/floatcmp"
 	"github.com/sill-tool/sill/internal/modelpair"
 	"github.com/sill-tool/sill/internal/scores"
 )
-
-// tolerance is the one float tolerance of this package's tests.
-const tolerance = 1e-12
-
-// close reports whether a and b agree within tolerance (relative for large
-// values), NaN equal to NaN.
-func close(a, b float64) bool {
-	if math.IsNaN(a) || math.IsNaN(b) {
-		return math.IsNaN(a) && math.IsNaN(b)
-	}
-	return math.Abs(a-b) <= tolerance*max(1, math.Abs(b))
-}
 
 // TestAgainstPROC compares the test with the R package pROC 1.18.0
 // (Debian's r-cran-proc, R 4.2.2): auc, var(method = "delong"),
@@ -69,7 +58,7 @@ func TestAgainstPROC(t *testing.T) {
 		} {
 			want := d[c.key].(float64)
 			// p is tiny in one set; compare it relatively.
-			ok := close(c.got, want)
+			ok := floatcmp.Equal(c.got, want)
 			if c.key == "p" {
 				ok = math.Abs(c.got-want) <= 1e-9*want
 			}
@@ -78,7 +67,7 @@ func TestAgainstPROC(t *testing.T) {
 			}
 		}
 		// The AUC agrees with package curve's.
-		if sum := curve.Walk(set, nil); !close(sum.ROCAUC, got.AUC[0]) {
+		if sum := curve.Walk(set, nil); !floatcmp.Equal(sum.ROCAUC, got.AUC[0]) {
 			t.Errorf("%s: AUC %v, curve %v", name, got.AUC[0], sum.ROCAUC)
 		}
 	}
@@ -106,9 +95,9 @@ func TestHandWorked(t *testing.T) {
 		t.Fatal(err)
 	}
 	want := modelpair.Test{AUC: [2]float64{0.75, 0.75}, Variance: [2]float64{0.125, 0.0625}, Covariance: 0.0625, StdError: 0.25, Z: 0, P: 1}
-	if !close(got.AUC[0], want.AUC[0]) || !close(got.AUC[1], want.AUC[1]) || !close(got.Variance[0], want.Variance[0]) ||
-		!close(got.Variance[1], want.Variance[1]) || !close(got.Covariance, want.Covariance) || !close(got.StdError, want.StdError) ||
-		!close(got.Z, want.Z) || !close(got.P, want.P) {
+	if !floatcmp.Equal(got.AUC[0], want.AUC[0]) || !floatcmp.Equal(got.AUC[1], want.AUC[1]) || !floatcmp.Equal(got.Variance[0], want.Variance[0]) ||
+		!floatcmp.Equal(got.Variance[1], want.Variance[1]) || !floatcmp.Equal(got.Covariance, want.Covariance) || !floatcmp.Equal(got.StdError, want.StdError) ||
+		!floatcmp.Equal(got.Z, want.Z) || !floatcmp.Equal(got.P, want.P) {
 		t.Errorf("got %+v\nwant %+v", got, want)
 	}
 	// Negating both models and flipping the direction changes nothing.
@@ -120,7 +109,7 @@ func TestHandWorked(t *testing.T) {
 		return out
 	}
 	flipped, _ := modelpair.Paired(neg(a), neg(b), labels, nil, true)
-	if !close(flipped.Variance[0], got.Variance[0]) || !close(flipped.AUC[1], got.AUC[1]) {
+	if !floatcmp.Equal(flipped.Variance[0], got.Variance[0]) || !floatcmp.Equal(flipped.AUC[1], got.AUC[1]) {
 		t.Errorf("flipped %+v", flipped)
 	}
 }
@@ -150,7 +139,7 @@ func TestWeightEqualsRepeat(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if !close(weighted.AUC[0], repeated.AUC[0]) || !close(weighted.Variance[1], repeated.Variance[1]) || !close(weighted.Covariance, repeated.Covariance) || !close(weighted.Z, repeated.Z) {
+	if !floatcmp.Equal(weighted.AUC[0], repeated.AUC[0]) || !floatcmp.Equal(weighted.Variance[1], repeated.Variance[1]) || !floatcmp.Equal(weighted.Covariance, repeated.Covariance) || !floatcmp.Equal(weighted.Z, repeated.Z) {
 		t.Errorf("weighted %+v\nrepeated %+v", weighted, repeated)
 	}
 }
@@ -210,7 +199,7 @@ func TestSecond(t *testing.T) {
 		}
 	}
 	test, _ := modelpair.Compare(set)
-	if sum := curve.Walk(second, nil); !close(sum.ROCAUC, test.AUC[1]) {
+	if sum := curve.Walk(second, nil); !floatcmp.Equal(sum.ROCAUC, test.AUC[1]) {
 		t.Errorf("AUC of second %v, test %v", sum.ROCAUC, test.AUC[1])
 	}
 }
@@ -242,7 +231,7 @@ func TestJoin(t *testing.T) {
 	}
 	got, _ := modelpair.Compare(joined)
 	want, _ := modelpair.Compare(readString(t, "both.csv", both, scores.Options{CompareColumn: "other"}))
-	if !close(got.AUC[1], want.AUC[1]) || !close(got.Covariance, want.Covariance) || !close(got.StdError, want.StdError) {
+	if !floatcmp.Equal(got.AUC[1], want.AUC[1]) || !floatcmp.Equal(got.Covariance, want.Covariance) || !floatcmp.Equal(got.StdError, want.StdError) {
 		t.Errorf("joined %+v\none file %+v", got, want)
 	}
 	cases := []struct {
@@ -309,13 +298,13 @@ func TestPairedProperties(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			if auc := curve.Walk(set, nil).ROCAUC; !close(got.AUC[r], auc) {
+			if auc := curve.Walk(set, nil).ROCAUC; !floatcmp.Equal(got.AUC[r], auc) {
 				t.Errorf("trial %d: model %d AUC %v, curve's %v", trial, r, got.AUC[r], auc)
 			}
 		}
 		swapped, _ := modelpair.Paired(b, a, labels, w, false)
-		if !close(swapped.AUC[0], got.AUC[1]) || !close(swapped.AUC[1], got.AUC[0]) || !close(swapped.Difference, -got.Difference) ||
-			!close(swapped.Variance[0], got.Variance[1]) || !close(swapped.StdError, got.StdError) || !close(swapped.Z, -got.Z) || !close(swapped.P, got.P) {
+		if !floatcmp.Equal(swapped.AUC[0], got.AUC[1]) || !floatcmp.Equal(swapped.AUC[1], got.AUC[0]) || !floatcmp.Equal(swapped.Difference, -got.Difference) ||
+			!floatcmp.Equal(swapped.Variance[0], got.Variance[1]) || !floatcmp.Equal(swapped.StdError, got.StdError) || !floatcmp.Equal(swapped.Z, -got.Z) || !floatcmp.Equal(swapped.P, got.P) {
 			t.Errorf("trial %d: swapped %+v, original %+v", trial, swapped, got)
 		}
 		negA, negB := make([]float64, n), make([]float64, n)
@@ -323,8 +312,8 @@ func TestPairedProperties(t *testing.T) {
 			negA[i], negB[i] = -a[i], -b[i]
 		}
 		flipped, _ := modelpair.Paired(negA, negB, labels, w, true)
-		if !close(flipped.AUC[0], got.AUC[0]) || !close(flipped.AUC[1], got.AUC[1]) || !close(flipped.Covariance, got.Covariance) ||
-			!close(flipped.StdError, got.StdError) || !close(flipped.Z, got.Z) || !close(flipped.P, got.P) {
+		if !floatcmp.Equal(flipped.AUC[0], got.AUC[0]) || !floatcmp.Equal(flipped.AUC[1], got.AUC[1]) || !floatcmp.Equal(flipped.Covariance, got.Covariance) ||
+			!floatcmp.Equal(flipped.StdError, got.StdError) || !floatcmp.Equal(flipped.Z, got.Z) || !floatcmp.Equal(flipped.P, got.P) {
 			t.Errorf("trial %d: negated and flipped %+v, original %+v", trial, flipped, got)
 		}
 	}

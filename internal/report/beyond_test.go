@@ -4,13 +4,13 @@ import (
 	"bytes"
 	"context"
 	"encoding/json"
-	"math"
 	"strings"
 	"testing"
 
 	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/bootstrap"
 	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/floatcmp"
 	"github.com/sill-tool/sill/internal/modelpair"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/report"
@@ -118,17 +118,17 @@ func TestCalibrationInJSON(t *testing.T) {
 			t.Errorf("bin lacks %q", key)
 		}
 	}
-	if ece := cal["ece"].(float64); math.Abs(ece-0.125) > 1e-12 {
+	if ece := cal["ece"].(float64); !floatcmp.Equal(ece, 0.125) {
 		t.Errorf("ece %v, want 0.125", ece)
 	}
 	// Elkan: 1/(1+4) = 0.2, at the validation base rate 0.5 as production's.
-	if ct := cal["cost_threshold"].(float64); math.Abs(ct-0.2) > 1e-12 {
+	if ct := cal["cost_threshold"].(float64); !floatcmp.Equal(ct, 0.2) {
 		t.Errorf("cost threshold %v, want 0.2", ct)
 	}
 	cuts := out["cuts"].([]any)
 	// Net benefit at cut 0.8: TP 2, FP 1 of 8 cases, pt 0.8 (odds 4):
 	// 2/8 - 1/8*4 = -0.25. Hand-worked.
-	if nb := cuts[0].(map[string]any)["net_benefit"].(float64); math.Abs(nb+0.25) > 1e-12 {
+	if nb := cuts[0].(map[string]any)["net_benefit"].(float64); !floatcmp.Equal(nb, -0.25) {
 		t.Errorf("net benefit %v, want -0.25", nb)
 	}
 	if nb, ok := cuts[1].(map[string]any)["net_benefit"]; !ok || nb != nil {

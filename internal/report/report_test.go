@@ -15,6 +15,7 @@ import (
 	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/floatcmp"
 	"github.com/sill-tool/sill/internal/interval"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/report"
@@ -22,17 +23,6 @@ import (
 )
 
 var update = flag.Bool("update", false, "rewrite the golden files under testdata/")
-
-// tolerance is the largest absolute difference accepted between a figure
-// and its hand-worked value; NaN equals NaN (see near).
-const tolerance = 1e-12
-
-func near(got, want float64) bool {
-	if math.IsNaN(got) || math.IsNaN(want) {
-		return math.IsNaN(got) && math.IsNaN(want)
-	}
-	return math.Abs(got-want) <= tolerance
-}
 
 // handTable is the ten-case example of package cutrule's tests, P = 4,
 // N = 6, base rate 0.4:
@@ -453,7 +443,7 @@ func TestWriteJSONValues(t *testing.T) {
 		{"roc_auc", 0.8125}, {"average_precision", 0.25 + 0.25 + 0.25*0.6 + 0.25*4/7}, {"brier", 0.21325},
 		{"log_loss", -(math.Log(0.95) + math.Log(0.9) + 2*math.Log(0.7) + math.Log(0.5) + math.Log(0.2) + math.Log(0.3) + math.Log(0.4) + math.Log(0.6) + math.Log(0.8)) / 10},
 	} {
-		if got := num(out, c.key); !near(got, c.want) {
+		if got := num(out, c.key); !floatcmp.Equal(got, c.want) {
 			t.Errorf("%s = %v, want %v", c.key, got, c.want)
 		}
 	}
@@ -490,21 +480,21 @@ func TestWriteJSONValues(t *testing.T) {
 		{"flagged", 3}, {"flagged_share", 0.3}, {"tp", 2}, {"fp", 1}, {"fn", 2}, {"tn", 5},
 		{"recall", 0.5}, {"precision", 2.0 / 3}, {"false_discovery_rate", 1.0 / 3}, {"false_positive_rate", 1.0 / 6},
 	} {
-		if got := num(base, c.key); !near(got, c.want) {
+		if got := num(base, c.key); !floatcmp.Equal(got, c.want) {
 			t.Errorf("base %s = %v, want %v", c.key, got, c.want)
 		}
 	}
 	lo, hi := interval.Wilson(2, 4, 0.95)
-	if ci := base["recall_ci"].([]any); !near(ci[0].(float64), lo) || !near(ci[1].(float64), hi) {
+	if ci := base["recall_ci"].([]any); !floatcmp.Equal(ci[0].(float64), lo) || !floatcmp.Equal(ci[1].(float64), hi) {
 		t.Errorf("base recall_ci %v, want [%v, %v]", ci, lo, hi)
 	}
 	lo, hi = interval.Wilson(2, 3, 0.95)
-	if ci := base["precision_ci"].([]any); !near(ci[0].(float64), lo) || !near(ci[1].(float64), hi) {
+	if ci := base["precision_ci"].([]any); !floatcmp.Equal(ci[0].(float64), lo) || !floatcmp.Equal(ci[1].(float64), hi) {
 		t.Errorf("base precision_ci %v, want [%v, %v]", ci, lo, hi)
 	}
 	proj := base["projected"].(map[string]any)
 	for key, want := range map[string]float64{"alert_rate": 0.3, "precision": 2.0 / 3, "queue_per_shift": 30, "cost_per_shift": 80} {
-		if got := num(proj, key); !near(got, want) {
+		if got := num(proj, key); !floatcmp.Equal(got, want) {
 			t.Errorf("base projected %s = %v, want %v", key, got, want)
 		}
 	}

@@ -6,6 +6,7 @@ import (
 	"testing"
 	"time"
 
+	"github.com/sill-tool/sill/internal/floatcmp"
 	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/shift"
 )
@@ -42,8 +43,8 @@ func TestRunningMatchesAt(t *testing.T) {
 	for _, rows := range walk {
 		for _, capacity := range []float64{0, 12} {
 			got, want := r.At(rows, capacity), a.At(set, rows, scale, capacity)
-			if got.Shifts != want.Shifts || got.Busiest != want.Busiest || !close(got.Mean, want.Mean) ||
-				!close(got.P90, want.P90) || !close(got.Max, want.Max) || !close(got.OverCapacity, want.OverCapacity) {
+			if got.Shifts != want.Shifts || got.Busiest != want.Busiest || !floatcmp.Equal(got.Mean, want.Mean) ||
+				!floatcmp.Equal(got.P90, want.P90) || !floatcmp.Equal(got.Max, want.Max) || !floatcmp.Equal(got.OverCapacity, want.OverCapacity) {
 				t.Fatalf("rows %d capacity %v: got %+v, want %+v", rows, capacity, got, want)
 			}
 		}

@@ -9,21 +9,11 @@ import (
 	_ "time/tzdata" // the zone database for Europe/Amsterdam on any machine
 
 	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/floatcmp"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/shift"
 )
-
-// tolerance is the one float tolerance of this package's tests.
-const tolerance = 1e-9
-
-// close reports whether a and b agree within tolerance, NaN equal to NaN.
-func close(a, b float64) bool {
-	if math.IsNaN(a) || math.IsNaN(b) {
-		return math.IsNaN(a) && math.IsNaN(b)
-	}
-	return math.Abs(a-b) <= tolerance*max(1, math.Abs(b))
-}
 
 func unix(t *testing.T, text string) int64 {
 	t.Helper()
@@ -174,17 +164,17 @@ func TestPeaksHandWorked(t *testing.T) {
 		t.Fatal(err)
 	}
 	p := a.At(set, 6, shift.ScaleFor(set, a, projection.Assumptions{BaseRate: 0.4}), 1.5)
-	if p.Shifts != 4 || !close(p.Mean, 1.5) || !close(p.Max, 3) || p.Busiest != 0 || !close(p.P90, 3) || !close(p.OverCapacity, 0.5) {
+	if p.Shifts != 4 || !floatcmp.Equal(p.Mean, 1.5) || !floatcmp.Equal(p.Max, 3) || p.Busiest != 0 || !floatcmp.Equal(p.P90, 3) || !floatcmp.Equal(p.OverCapacity, 0.5) {
 		t.Errorf("got %+v", p)
 	}
 	// With 100 cases per shift the ten rows (2.5 per shift) scale by 40:
 	// mean 60, the projected queue 100 * 6/10.
 	scaled := a.At(set, 6, shift.ScaleFor(set, a, projection.Assumptions{BaseRate: 0.4, Volume: 100}), 0)
-	if !close(scaled.Mean, 60) || !close(scaled.Max, 120) || !math.IsNaN(scaled.OverCapacity) {
+	if !floatcmp.Equal(scaled.Mean, 60) || !floatcmp.Equal(scaled.Max, 120) || !math.IsNaN(scaled.OverCapacity) {
 		t.Errorf("scaled: %+v", scaled)
 	}
 	none := a.At(set, 0, shift.Scale{Positive: 1, Negative: 1}, 0)
-	if !close(none.Max, 0) || none.Busiest != 0 {
+	if !floatcmp.Equal(none.Max, 0) || none.Busiest != 0 {
 		t.Errorf("nothing flagged: %+v", none)
 	}
 }
@@ -221,7 +211,7 @@ func TestScaledMeanIsProjectedQueue(t *testing.T) {
 	checked := 0
 	curve.New(set).Points(func(p curve.Point) {
 		want := projection.Project(p, assume).QueuePerShift
-		if got := a.At(set, p.Rows, scale, 0).Mean; !close(got, want) {
+		if got := a.At(set, p.Rows, scale, 0).Mean; !floatcmp.Equal(got, want) {
 			t.Errorf("cut %v: mean %v, projected %v", p.Score, got, want)
 		}
 		checked++
@@ -271,7 +261,7 @@ func TestCounterMatchesPeaks(t *testing.T) {
 				c.Add(rows-1, set.Labels[rows-1], 1)
 			}
 			p90 := a.At(set, rows, scale, 0).P90
-			if c.Within() != (p90 <= limit) || !close(c.P90(), p90) {
+			if c.Within() != (p90 <= limit) || !floatcmp.Equal(c.P90(), p90) {
 				t.Fatalf("limit %v rows %d: within %v, p90 %v (counter %v)", limit, rows, c.Within(), p90, c.P90())
 			}
 		}
