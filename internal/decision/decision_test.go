@@ -23,17 +23,6 @@ import (
 	"github.com/sill-tool/sill/internal/shift"
 )
 
-// tolerance is the one float tolerance of these tests.
-const tolerance = 1e-12
-
-// same reports whether a and b agree within tolerance, NaN matching NaN.
-func same(a, b float64) bool {
-	if math.IsNaN(a) || math.IsNaN(b) {
-		return math.IsNaN(a) && math.IsNaN(b)
-	}
-	return math.Abs(a-b) <= tolerance*math.Max(1, math.Abs(b))
-}
-
 // identical reports whether a and b are the same float64 or both NaN: the
 // round trip must keep every bit of a figure, not merely come close.
 func identical(a, b float64) bool {

@@ -1,6 +1,8 @@
 package decision
 
 import (
+	"github.com/sill-tool/sill/internal/floatcmp"
+
 	"bytes"
 	"errors"
 	"regexp"
@@ -154,16 +156,16 @@ func TestReadOptionalKeysDerived(t *testing.T) {
 	for i, c := range back.Candidates {
 		w := f.Candidates[i].Cut
 		g := c.Cut
-		if g.Rows != w.Rows || !same(g.FlaggedShare, w.FlaggedShare) || !same(g.FalseDiscoveryRate, w.FalseDiscoveryRate) ||
-			!same(g.FalseDiscoveryCI[0], w.FalseDiscoveryCI[0]) || !same(g.FalseDiscoveryCI[1], w.FalseDiscoveryCI[1]) ||
-			!same(g.Projected.CostPerCase, w.Projected.CostPerCase) {
+		if g.Rows != w.Rows || !floatcmp.Equal(g.FlaggedShare, w.FlaggedShare) || !floatcmp.Equal(g.FalseDiscoveryRate, w.FalseDiscoveryRate) ||
+			!floatcmp.Equal(g.FalseDiscoveryCI[0], w.FalseDiscoveryCI[0]) || !floatcmp.Equal(g.FalseDiscoveryCI[1], w.FalseDiscoveryCI[1]) ||
+			!floatcmp.Equal(g.Projected.CostPerCase, w.Projected.CostPerCase) {
 			t.Errorf("candidate %d derived %+v, want %+v", i, g, w)
 		}
 		if c.Rule != "" || c.Note != "" {
 			t.Errorf("candidate %d rule %q note %q, want empty", i, c.Rule, c.Note)
 		}
 	}
-	if back.Note != "" || back.Data.WeightColumn != "" || !same(back.Data.Negatives, nan()) {
+	if back.Note != "" || back.Data.WeightColumn != "" || !floatcmp.Equal(back.Data.Negatives, nan()) {
 		t.Errorf("note %q weight column %q negatives %v", back.Note, back.Data.WeightColumn, back.Data.Negatives)
 	}
 }

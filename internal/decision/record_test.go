@@ -14,6 +14,7 @@ import (
 
 	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/floatcmp"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/sharedfile"
@@ -41,7 +42,7 @@ func TestDemoRecordsWhatWasComputed(t *testing.T) {
 	}
 	// The cost threshold 120/(120+1200) = 1/11 (calibration.CostThreshold,
 	// worked by hand: flag when p*miss > (1-p)*false alert).
-	if !same(c.CostThreshold.Probability, 1.0/11) {
+	if !floatcmp.Equal(c.CostThreshold.Probability, 1.0/11) {
 		t.Errorf("cost threshold %v, want 1/11", c.CostThreshold.Probability)
 	}
 	for i, cand := range f.Candidates {

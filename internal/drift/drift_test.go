@@ -16,20 +16,10 @@ import (
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/evidence"
+	"github.com/sill-tool/sill/internal/floatcmp"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
 )
-
-// tolerance is the one float tolerance of these tests.
-const tolerance = 1e-9
-
-// same reports whether a and b agree within tolerance, NaN matching NaN.
-func same(a, b float64) bool {
-	if math.IsNaN(a) || math.IsNaN(b) {
-		return math.IsNaN(a) && math.IsNaN(b)
-	}
-	return math.Abs(a-b) <= tolerance*math.Max(1, math.Abs(b))
-}
 
 func TestPopulationStability(t *testing.T) {
 	nan := math.NaN()
@@ -53,7 +43,7 @@ func TestPopulationStability(t *testing.T) {
 		{"no bins", []float64{}, []float64{}, nan, "doc: NaN without bins"},
 		{"empty actual", []float64{1, 2}, []float64{0, 0}, nan, "doc: NaN when a total is 0"},
 	} {
-		if got := PopulationStability(tc.expected, tc.actual); !same(got, tc.want) {
+		if got := PopulationStability(tc.expected, tc.actual); !floatcmp.Equal(got, tc.want) {
 			t.Errorf("%s: PSI %v, want %v (%s)", tc.name, got, tc.want, tc.whereFrom)
 		}
 	}
@@ -61,7 +51,7 @@ func TestPopulationStability(t *testing.T) {
 
 func TestPSINoise(t *testing.T) {
 	// By the formula: 19 * (1/4000 + 1/6000) = 19 * 0.000416667.
-	if got := PSINoise(20, 4000, 6000); !same(got, 19*(1.0/4000+1.0/6000)) {
+	if got := PSINoise(20, 4000, 6000); !floatcmp.Equal(got, 19*(1.0/4000+1.0/6000)) {
 		t.Errorf("PSINoise %v", got)
 	}
 	if got := PSINoise(1, 10, 10); !math.IsNaN(got) {
@@ -86,7 +76,7 @@ func TestPSINoiseLevel(t *testing.T) {
 		even[i] = 300
 	}
 	// 4000 new rows expect 200 in each bin: the chi-square reading.
-	if got, want := PSINoiseLevel(even, 4000), chiSquareQuantile(0.99, 19)*(1.0/4000+1.0/6000); !same(got, want) {
+	if got, want := PSINoiseLevel(even, 4000), chiSquareQuantile(0.99, 19)*(1.0/4000+1.0/6000); !floatcmp.Equal(got, want) {
 		t.Errorf("PSINoiseLevel %v, want %v", got, want)
 	}
 	// 50 new rows expect 2.5 a bin: drawn, and far above the chi-square
@@ -172,7 +162,7 @@ func TestCompare(t *testing.T) {
 		{"undefined expected", 3, 10, math.NaN(), 0, 0, math.NaN(), math.NaN(), false, false},
 	} {
 		got := Compare(tc.successes, tc.trials, tc.expected, tc.variance, tc.tolerance, 0.95)
-		if !same(got.Z, tc.z) || !same(got.PValue, tc.p) || got.Drift != tc.drift || got.Defined != tc.defined {
+		if !floatcmp.Equal(got.Z, tc.z) || !floatcmp.Equal(got.PValue, tc.p) || got.Drift != tc.drift || got.Defined != tc.defined {
 			t.Errorf("%s: z %v p %v drift %v defined %v, want %v %v %v %v", tc.name, got.Z, got.PValue, got.Drift, got.Defined, tc.z, tc.p, tc.drift, tc.defined)
 		}
 	}
@@ -296,8 +286,8 @@ func TestCheckOnValidationMatchesFile(t *testing.T) {
 	}
 	c, _ := file.ChosenCandidate()
 	// On its own validation data every observed share is the file's.
-	if !same(res.AlertRate.Observed, c.Cut.FlaggedShare) || !same(res.Recall.Observed, c.Cut.Recall) ||
-		!same(res.Precision.Observed, c.Cut.Precision) || res.PSI != 0 {
+	if !floatcmp.Equal(res.AlertRate.Observed, c.Cut.FlaggedShare) || !floatcmp.Equal(res.Recall.Observed, c.Cut.Recall) ||
+		!floatcmp.Equal(res.Precision.Observed, c.Cut.Precision) || res.PSI != 0 {
 		t.Errorf("observed %v %v %v psi %v, file %v %v %v", res.AlertRate.Observed, res.Recall.Observed, res.Precision.Observed, res.PSI,
 			c.Cut.FlaggedShare, c.Cut.Recall, c.Cut.Precision)
 	}
@@ -528,7 +518,7 @@ func TestCheckOneClassNewData(t *testing.T) {
 	d, _ := scores.New(doubled, make([]bool, len(doubled)), nil, false)
 	rw, _ := Check(file, w, Options{})
 	rd, _ := Check(file, d, Options{})
-	if !same(rw.AlertRate.Observed, rd.AlertRate.Observed) || !same(rw.AlertRate.PValue, rd.AlertRate.PValue) || !same(rw.PSI, rd.PSI) {
+	if !floatcmp.Equal(rw.AlertRate.Observed, rd.AlertRate.Observed) || !floatcmp.Equal(rw.AlertRate.PValue, rd.AlertRate.PValue) || !floatcmp.Equal(rw.PSI, rd.PSI) {
 		t.Errorf("weighted %v %v %v, doubled %v %v %v", rw.AlertRate.Observed, rw.AlertRate.PValue, rw.PSI, rd.AlertRate.Observed, rd.AlertRate.PValue, rd.PSI)
 	}
 }

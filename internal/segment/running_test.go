@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/floatcmp"
 	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/segment"
 )
@@ -14,10 +15,6 @@ import (
 // forth and jumps across it: every breakdown of Running equals At's, the
 // reference, to within a tolerance for the order of the weighted sums.
 func TestRunningMatchesAt(t *testing.T) {
-	const tolerance = 1e-9
-	same := func(a, b float64) bool {
-		return (math.IsNaN(a) && math.IsNaN(b)) || math.Abs(a-b) <= tolerance
-	}
 	rng := rand.New(rand.NewPCG(3, 4))
 	n := 500
 	values, labels, weights := make([]float64, n), make([]bool, n), make([]float64, n)
@@ -54,8 +51,8 @@ func TestRunningMatchesAt(t *testing.T) {
 		for _, pair := range pairs {
 			g, w := pair[0], pair[1]
 			if g.Segment != w.Segment || g.Rows != w.Rows || g.Outlier != w.Outlier ||
-				!same(g.TP, w.TP) || !same(g.FP, w.FP) || !same(g.Recall, w.Recall) || !same(g.Precision, w.Precision) ||
-				!same(g.RecallCI[0], w.RecallCI[0]) || !same(g.PrecisionCI[1], w.PrecisionCI[1]) || !same(g.FlaggedShare, w.FlaggedShare) {
+				!floatcmp.Equal(g.TP, w.TP) || !floatcmp.Equal(g.FP, w.FP) || !floatcmp.Equal(g.Recall, w.Recall) || !floatcmp.Equal(g.Precision, w.Precision) ||
+				!floatcmp.Equal(g.RecallCI[0], w.RecallCI[0]) || !floatcmp.Equal(g.PrecisionCI[1], w.PrecisionCI[1]) || !floatcmp.Equal(g.FlaggedShare, w.FlaggedShare) {
 				t.Fatalf("cut %d, group %q: got %+v, want %+v", cut, g.Segment, g, w)
 			}
 		}

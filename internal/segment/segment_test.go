@@ -7,20 +7,10 @@ import (
 	"testing"
 
 	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/floatcmp"
 	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/segment"
 )
-
-// tolerance is the one float tolerance of this package's tests.
-const tolerance = 1e-8
-
-// close reports whether a and b agree within tolerance, NaN equal to NaN.
-func close(a, b float64) bool {
-	if math.IsNaN(a) || math.IsNaN(b) {
-		return math.IsNaN(a) && math.IsNaN(b)
-	}
-	return math.Abs(a-b) <= tolerance
-}
 
 func read(t *testing.T, csv string) (*scores.Set, *curve.Curve) {
 	t.Helper()
@@ -80,12 +70,15 @@ func TestAtHandWorked(t *testing.T) {
 	}
 	for _, want := range cases {
 		f := want.got
-		if f.Segment != want.name || f.Rows != want.rows || !close(f.Positives, want.positives) || !close(f.TP, want.tp) ||
-			!close(f.FP, want.fp) || !close(f.FlaggedShare, want.share) || !close(f.Recall, want.rec) || !close(f.Precision, want.prec) {
+		if f.Segment != want.name || f.Rows != want.rows || !floatcmp.Equal(f.Positives, want.positives) || !floatcmp.Equal(f.TP, want.tp) ||
+			!floatcmp.Equal(f.FP, want.fp) || !floatcmp.Equal(f.FlaggedShare, want.share) || !floatcmp.Equal(f.Recall, want.rec) || !floatcmp.Equal(f.Precision, want.prec) {
 			t.Errorf("%q: got %+v", want.name, f)
 		}
 	}
-	if a := b.Segments[0]; !close(a.RecallCI[0], wilsonOneOfTwo[0]) || !close(a.RecallCI[1], wilsonOneOfTwo[1]) {
+	// wilsonOneOfTwo is written to 8 decimals, so it agrees to half a unit
+	// of the 8th.
+	const eightDecimals = 5e-9
+	if a := b.Segments[0]; !floatcmp.Within(a.RecallCI[0], wilsonOneOfTwo[0], eightDecimals) || !floatcmp.Within(a.RecallCI[1], wilsonOneOfTwo[1], eightDecimals) {
 		t.Errorf("A recall interval %v, want %v", a.RecallCI, wilsonOneOfTwo)
 	}
 	if b.Outliers() != 0 {
@@ -113,7 +106,7 @@ func TestOutlier(t *testing.T) {
 	}
 	set, c := read(t, csv.String())
 	b := segment.At(set, pointAt(t, c, 0.9), 0.95)
-	if !close(b.Overall.Recall, 820.0/1100) {
+	if !floatcmp.Equal(b.Overall.Recall, 820.0/1100) {
 		t.Fatalf("overall recall %v", b.Overall.Recall)
 	}
 	want := map[string]bool{"A": false, "B": false, "C": true}
@@ -143,8 +136,8 @@ func TestWeightEqualsRepeat(t *testing.T) {
 	br := segment.At(sr, pointAt(t, cr, 0.6), 0.9)
 	for i := range bw.Segments {
 		w, r := bw.Segments[i], br.Segments[i]
-		if !close(w.Recall, r.Recall) || !close(w.Precision, r.Precision) || !close(w.RecallCI[0], r.RecallCI[0]) ||
-			!close(w.PrecisionCI[1], r.PrecisionCI[1]) || !close(w.FlaggedShare, r.FlaggedShare) {
+		if !floatcmp.Equal(w.Recall, r.Recall) || !floatcmp.Equal(w.Precision, r.Precision) || !floatcmp.Equal(w.RecallCI[0], r.RecallCI[0]) ||
+			!floatcmp.Equal(w.PrecisionCI[1], r.PrecisionCI[1]) || !floatcmp.Equal(w.FlaggedShare, r.FlaggedShare) {
 			t.Errorf("%s: weighted %+v, repeated %+v", w.Segment, w, r)
 		}
 	}
@@ -155,7 +148,7 @@ func TestWeightEqualsRepeat(t *testing.T) {
 func TestUndefined(t *testing.T) {
 	set, c := read(t, "score,label,seg\n0.9,0,A\n0.2,0,B\n")
 	b := segment.At(set, c.At(0), 0.95)
-	if a := b.Segments[0]; !math.IsNaN(a.Recall) || !math.IsNaN(a.RecallCI[0]) || a.Outlier || !close(a.Precision, 0) {
+	if a := b.Segments[0]; !math.IsNaN(a.Recall) || !math.IsNaN(a.RecallCI[0]) || a.Outlier || !floatcmp.Equal(a.Precision, 0) {
 		t.Errorf("no true case: %+v", a)
 	}
 	if bb := b.Segments[1]; !math.IsNaN(bb.Precision) || bb.Outlier {
@@ -219,7 +212,7 @@ func TestNegatedScores(t *testing.T) {
 		bn.Sort(segment.ByName)
 		for k := range bp.Segments {
 			x, y := bp.Segments[k], bn.Segments[k]
-			if x.Segment != y.Segment || !close(x.Recall, y.Recall) || !close(x.Precision, y.Precision) || x.Outlier != y.Outlier || !close(x.RecallCI[0], y.RecallCI[0]) {
+			if x.Segment != y.Segment || !floatcmp.Equal(x.Recall, y.Recall) || !floatcmp.Equal(x.Precision, y.Precision) || x.Outlier != y.Outlier || !floatcmp.Equal(x.RecallCI[0], y.RecallCI[0]) {
 				t.Fatalf("cut %d %s: %+v against %+v", i, x.Segment, x, y)
 			}
 		}
