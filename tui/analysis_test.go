@@ -4,11 +4,11 @@ import (
 	"bytes"
 	"context"
 	"encoding/json"
-	"math"
 	"strings"
 	"testing"
 
 	"github.com/sill-tool/sill/internal/analysis"
+	"github.com/sill-tool/sill/internal/floatcmp"
 	"github.com/sill-tool/sill/internal/report"
 	"github.com/sill-tool/sill/internal/scores"
 )
@@ -88,8 +88,7 @@ func agree(t *testing.T, m Model, opts analysis.Options) {
 	if len(out.Cuts) != len(s.starts) || len(out.Cuts) != 6 {
 		t.Fatalf("report has %d cuts, the explorer %d starting points", len(out.Cuts), len(s.starts))
 	}
-	const tolerance = 1e-9 // the running tallies add and take away, the report sums afresh
-	close := func(a, b float64) bool { return math.Abs(a-b) <= tolerance*max(1, math.Abs(b)) }
+	// The running tallies add and take away, the report sums afresh: equal within floatcmp.Tolerance.
 	for i, c := range out.Cuts {
 		o := s.starts[i]
 		if c.Spec != o.Rule.String() || c.Met != o.Met {
@@ -106,7 +105,7 @@ func agree(t *testing.T, m Model, opts analysis.Options) {
 		for k, g := range c.Segments {
 			// The report orders by size; find the group by name.
 			for _, e := range b.Segments {
-				if e.Segment == g.Segment && (!close(e.Recall, g.Recall) || !close(e.Precision, g.Precision)) {
+				if e.Segment == g.Segment && (!floatcmp.Equal(e.Recall, g.Recall) || !floatcmp.Equal(e.Precision, g.Precision)) {
 					t.Errorf("%s segment %d %s: report %v %v, explorer %v %v", c.Spec, k, g.Segment, g.Recall, g.Precision, e.Recall, e.Precision)
 				}
 			}
@@ -115,11 +114,11 @@ func agree(t *testing.T, m Model, opts analysis.Options) {
 			t.Errorf("%s: %d segments in the report, %d on screen", c.Spec, len(c.Segments), len(b.Segments))
 		}
 		p, _ := s.peaksAtCut(o.Point.Index)
-		if !close(c.Shifts.P90, p.P90) || !close(c.Shifts.Max, p.Max) || !close(c.Shifts.Mean, p.Mean) {
+		if !floatcmp.Equal(c.Shifts.P90, p.P90) || !floatcmp.Equal(c.Shifts.Max, p.Max) || !floatcmp.Equal(c.Shifts.Mean, p.Mean) {
 			t.Errorf("%s: report queues %+v, explorer %+v", c.Spec, c.Shifts, p)
 		}
 		nb, _ := analysis.NetBenefit(o.Point, s.curve.Summary.BaseRate)
-		if !close(c.NetBenefit, nb) {
+		if !floatcmp.Equal(c.NetBenefit, nb) {
 			t.Errorf("%s: report net benefit %v, explorer %v", c.Spec, c.NetBenefit, nb)
 		}
 		second := s.second().Outcomes[i]
@@ -133,7 +132,7 @@ func agree(t *testing.T, m Model, opts analysis.Options) {
 		}
 	}
 	cal := s.calibration()
-	if check, ok := s.costCheck(); !ok || cal == nil || !close(out.Calibration.ECE, cal.Table.ECE) || !close(out.Calibration.CostThreshold, check.threshold) {
+	if check, ok := s.costCheck(); !ok || cal == nil || !floatcmp.Equal(out.Calibration.ECE, cal.Table.ECE) || !floatcmp.Equal(out.Calibration.CostThreshold, check.threshold) {
 		t.Errorf("report calibration %+v, explorer's %+v, cost threshold %+v", out.Calibration, cal, check)
 	}
 	if strings.Contains(buf.String(), "NaN") {

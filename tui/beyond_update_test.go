@@ -15,6 +15,7 @@ import (
 	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/decision"
+	"github.com/sill-tool/sill/internal/floatcmp"
 	"github.com/sill-tool/sill/internal/format"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
@@ -51,14 +52,14 @@ func TestSegmentsOverlay(t *testing.T) {
 	want := segment.At(set, m.s.point(), m.s.assume.Confidence)
 	want.Sort(segment.BySize)
 	got := m.segments.breakdown()
-	if len(got.Segments) != 40 || got.Segments[0].Segment != want.Segments[0].Segment || !near(got.Overall.Recall, want.Overall.Recall) {
+	if len(got.Segments) != 40 || got.Segments[0].Segment != want.Segments[0].Segment || !floatcmp.Equal(got.Overall.Recall, want.Overall.Recall) {
 		t.Errorf("breakdown %+v, want %+v", got.Segments[0], want.Segments[0])
 	}
 	for i := range got.Segments {
 		if i > 0 && got.Segments[i].Rows > got.Segments[i-1].Rows {
 			t.Fatalf("by size: %d rows after %d", got.Segments[i].Rows, got.Segments[i-1].Rows)
 		}
-		if !near(got.Segments[i].TP, want.Segments[i].TP) || got.Segments[i].Outlier != want.Segments[i].Outlier {
+		if !floatcmp.Equal(got.Segments[i].TP, want.Segments[i].TP) || got.Segments[i].Outlier != want.Segments[i].Outlier {
 			t.Fatalf("group %s: %+v, want %+v", got.Segments[i].Segment, got.Segments[i], want.Segments[i])
 		}
 	}
@@ -132,7 +133,7 @@ func TestShiftPeaks(t *testing.T) {
 	at := func(cut int) shift.Peaks { return assigned.At(m.s.set, m.s.curve.At(cut).Rows, scale, 90) }
 	got, _ := m.s.peaksAtCut(m.s.cursor)
 	want := at(m.s.cursor)
-	if !near(got.P90, want.P90) || !near(got.Max, want.Max) || got.Busiest != want.Busiest || !near(got.OverCapacity, want.OverCapacity) {
+	if !floatcmp.Equal(got.P90, want.P90) || !floatcmp.Equal(got.Max, want.Max) || got.Busiest != want.Busiest || !floatcmp.Equal(got.OverCapacity, want.OverCapacity) {
 		t.Errorf("peaks %+v, want %+v", got, want)
 	}
 	if want.P90 > 90 || at(m.s.cursor+1).P90 <= 90 {

@@ -13,6 +13,7 @@ import (
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/decision"
+	"github.com/sill-tool/sill/internal/floatcmp"
 	"github.com/sill-tool/sill/internal/scores"
 )
 
@@ -102,7 +103,7 @@ func TestFlowAssumptionsThenWrite(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if !near(f.Assumptions.BaseRate, 0.1) || f.Assumptions.Volume != 100 {
+	if !floatcmp.Equal(f.Assumptions.BaseRate, 0.1) || f.Assumptions.Volume != 100 {
 		t.Errorf("file assumptions %+v, want base rate 0.1 and volume 100", f.Assumptions)
 	}
 }

@@ -14,20 +14,10 @@ import (
 
 	"github.com/sill-tool/sill/internal/compare"
 	"github.com/sill-tool/sill/internal/decision"
+	"github.com/sill-tool/sill/internal/floatcmp"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
 )
-
-// tolerance is the one float tolerance of these tests.
-const tolerance = 1e-9
-
-// near reports whether got and want agree within tolerance, NaN equal to NaN.
-func near(got, want float64) bool {
-	if math.IsNaN(got) || math.IsNaN(want) {
-		return math.IsNaN(got) && math.IsNaN(want)
-	}
-	return math.Abs(got-want) <= tolerance
-}
 
 // tenRows is the hand-worked set of the update tests, riskiest first:
 //
@@ -96,7 +86,7 @@ func TestStartingPoints(t *testing.T) {
 		t.Errorf("rules at 0.6: %v, want hit=0.8 and cost", got)
 	}
 	// Least cost at 0.6 is 2 per case, 200 per shift (hand-worked above).
-	if got := m.s.evidenceAt(m.s.cursor).Projected.CostPerShift; !near(got, 200) {
+	if got := m.s.evidenceAt(m.s.cursor).Projected.CostPerShift; !floatcmp.Equal(got, 200) {
 		t.Errorf("cost per shift at 0.6: %v, want 200", got)
 	}
 }
@@ -284,7 +274,7 @@ func TestFormParse(t *testing.T) {
 		bad    int // the field refused, -1 for none
 		check  func(projection.Assumptions) bool
 	}{
-		{"percent base rate", map[int]string{fieldBaseRate: "7%"}, -1, func(a projection.Assumptions) bool { return near(a.BaseRate, 0.07) }},
+		{"percent base rate", map[int]string{fieldBaseRate: "7%"}, -1, func(a projection.Assumptions) bool { return floatcmp.Equal(a.BaseRate, 0.07) }},
 		{"empty base rate is the validation rate", map[int]string{fieldBaseRate: ""}, -1, func(a projection.Assumptions) bool { return a.BaseRate == 0.25 }},
 		{"base rate above 1", map[int]string{fieldBaseRate: "1.5"}, fieldBaseRate, nil},
 		{"not a number", map[int]string{fieldVolume: "lots"}, fieldVolume, nil},
@@ -676,7 +666,7 @@ func TestWriteWaitsForNewFigures(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if !near(f.Assumptions.BaseRate, 0.1) {
+	if !floatcmp.Equal(f.Assumptions.BaseRate, 0.1) {
 		t.Errorf("file base rate %v, want the new 0.1", f.Assumptions.BaseRate)
 	}
 }

@@ -12,21 +12,10 @@ import (
 
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/floatcmp"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
 )
-
-// countsTolerance is the relative tolerance for the two figures that sum a
-// float per row (Brier score and log loss): a count of k adds k*x once where
-// the raw rows add x k times. Every other figure must agree exactly.
-const countsTolerance = 1e-12
-
-func closeEnough(a, b float64) bool {
-	if math.IsNaN(a) || math.IsNaN(b) {
-		return math.IsNaN(a) && math.IsNaN(b)
-	}
-	return math.Abs(a-b) <= countsTolerance*math.Max(1, math.Max(math.Abs(a), math.Abs(b)))
-}
 
 // aggregate returns the counts table of raw score,label[,segment] rows, as
 // the GROUP BY of `sill sql` would produce it, rows in a scrambled order.
@@ -119,11 +108,13 @@ func TestCountsEqualRawRows(t *testing.T) {
 				t.Fatalf("trial %d cut %d: rows give %+v, counts give %+v", trial, i, w, g)
 			}
 		}
+		// Only the Brier score and log loss sum a float per row (a count of k
+		// adds k*x once where the raw rows add x k times); the rest agree exactly.
 		if wantSum.Rows != gotSum.Rows || wantSum.Positives != gotSum.Positives || wantSum.Negatives != gotSum.Negatives ||
 			wantSum.Weighted != gotSum.Weighted || wantSum.Probabilities != gotSum.Probabilities ||
-			!closeEnough(wantSum.ROCAUC, gotSum.ROCAUC) || math.Float64bits(wantSum.ROCAUC) != math.Float64bits(gotSum.ROCAUC) && !math.IsNaN(wantSum.ROCAUC) ||
+			!floatcmp.Equal(wantSum.ROCAUC, gotSum.ROCAUC) || math.Float64bits(wantSum.ROCAUC) != math.Float64bits(gotSum.ROCAUC) && !math.IsNaN(wantSum.ROCAUC) ||
 			math.Float64bits(wantSum.AveragePrecision) != math.Float64bits(gotSum.AveragePrecision) && !math.IsNaN(wantSum.AveragePrecision) ||
-			!closeEnough(wantSum.Brier, gotSum.Brier) || !closeEnough(wantSum.LogLoss, gotSum.LogLoss) {
+			!floatcmp.Equal(wantSum.Brier, gotSum.Brier) || !floatcmp.Equal(wantSum.LogLoss, gotSum.LogLoss) {
 			t.Fatalf("trial %d: summaries differ\nrows   %+v\ncounts %+v", trial, wantSum, gotSum)
 		}
 		// The cut rules pick the same cuts, top= counting cases.
@@ -195,7 +186,7 @@ func TestReadCountsHandWorked(t *testing.T) {
 	if sum.Rows != 7 || sum.Positives != 3 || sum.Negatives != 4 || sum.Weighted {
 		t.Errorf("summary %+v, want 7 rows, 3 true, 4 false, not weighted", sum)
 	}
-	if !closeEnough(sum.ROCAUC, 7.0/12) {
+	if !floatcmp.Equal(sum.ROCAUC, 7.0/12) {
 		t.Errorf("ROC AUC %v, want 7/12", sum.ROCAUC)
 	}
 }
