@@ -80,3 +80,34 @@ func TestMultinomialKeepsClassSizes(t *testing.T) {
 		}
 	}
 }
+
+// TestPoissonMoments: Poisson draws have mean and variance m (textbook
+// formulas), on both sides of the switch from inversion to the normal and
+// at whole and fractional means. Seeded; 20000 draws each, so the sample
+// mean is within 5 standard errors of m and the variance within 10%.
+func TestPoissonMoments(t *testing.T) {
+	rng := rand.New(rand.NewPCG(7, 8))
+	for _, m := range []float64{0.3, 1, 2, 7.5, 29, 29.9, 30, 1000, 4e6} {
+		const draws = 20000
+		var sum, sumSquares float64
+		for range draws {
+			x := float64(poisson(rng, m))
+			if x < 0 {
+				t.Fatalf("m %v: draw %v below 0", m, x)
+			}
+			sum += x
+			sumSquares += x * x
+		}
+		mean := sum / draws
+		variance := sumSquares/draws - mean*mean
+		if math.Abs(mean-m) > 5*math.Sqrt(m/draws) {
+			t.Errorf("m %v: mean %v", m, mean)
+		}
+		if math.Abs(variance-m) > 0.1*m {
+			t.Errorf("m %v: variance %v", m, variance)
+		}
+	}
+	if poisson(rng, 0) != 0 {
+		t.Error("m = 0 must give 0")
+	}
+}

@@ -17,9 +17,11 @@
 // replicate is a counts table over the same cells. The work of a replicate
 // therefore grows with the distinct scores, not the rows, and a counts
 // table gives the very same result as the raw rows it aggregates. A group
-// of up to MaxCaseDraws cases is drawn case by case, exactly; a larger one
-// as sequential binomial counts of its cells (an exact multinomial draw of
-// the same distribution): a binomial of mean below 30 by inversion,
+// of up to MaxCaseDraws cases is drawn case by case, exactly. A larger one
+// is drawn, under the ordinary design, by the Poisson bootstrap (each
+// cell's count a Poisson draw of mean its cases, so the total varies a
+// little, about its square root), and within classes as sequential binomial
+// counts of its cells (an exact multinomial draw of the same distribution): a binomial of mean below 30 by inversion,
 // exactly, and a larger one by the normal distribution with continuity
 // correction, which at such means differs from it by far less than the
 // bootstrap's own noise.
@@ -455,13 +457,20 @@ func (r *replicator) draw(seed, b uint64) *scores.Set {
 	if r.set.CountsTable() {
 		clear(r.drawn)
 		for _, g := range r.groups {
-			if g.cases <= MaxCaseDraws {
+			switch {
+			case g.cases <= MaxCaseDraws:
 				for range g.cases {
 					r.drawn[drawCase(g.rows, g.before, rng.IntN(g.cases))]++
 				}
-				continue
+			case len(r.groups) == 1:
+				// Ordinary design: the Poisson bootstrap, each cell's
+				// count drawn apart.
+				for _, i := range g.rows {
+					r.drawn[i] = float64(poisson(rng, r.set.Weight(i)))
+				}
+			default:
+				r.multinomial(rng, g.rows, g.before, g.cases)
 			}
-			r.multinomial(rng, g.rows, g.before, g.cases)
 		}
 		scores.Replicate(&r.rep, r.set, r.drawn)
 		return &r.rep
@@ -494,6 +503,39 @@ func (r *replicator) multinomial(rng *rand.Rand, rows []int, before []float64, c
 		r.drawn[i] += float64(x)
 		left -= x
 	}
+}
+
+// expNeg holds e^-k for k below 30, the chance of no event of a Poisson
+// draw of mean k.
+var expNeg = func() (t [30]float64) {
+	for k := range t {
+		t[k] = math.Exp(-float64(k))
+	}
+	return t
+}()
+
+// poisson draws from the Poisson distribution of mean m: by inversion
+// when m is below 30, else from the normal distribution of the same mean
+// and variance, rounded and kept at 0 or more.
+func poisson(rng *rand.Rand, m float64) int {
+	if !(m > 0) {
+		return 0
+	}
+	if m >= 30 {
+		return max(int(math.Floor(m+math.Sqrt(m)*rng.NormFloat64()+0.5)), 0)
+	}
+	f := math.Exp(-m)
+	if k := int(m); float64(k) == m {
+		f = expNeg[k]
+	}
+	u := rng.Float64()
+	x := 0
+	for u > f && f > 0 {
+		u -= f
+		x++
+		f *= m / float64(x)
+	}
+	return x
 }
 
 // binomial draws from the binomial distribution of n trials of chance p:
