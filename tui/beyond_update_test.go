@@ -2,7 +2,6 @@ package tui
 
 import (
 	"io"
-	"math"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -150,7 +149,7 @@ func TestShiftPeaks(t *testing.T) {
 		t.Fatalf("volume %v: %s", m.s.assume.Volume, m.status)
 	}
 	doubled, _ := m.s.peaksAtCut(m.s.cursor)
-	if math.Abs(doubled.P90-2*want.P90) > 1e-9*want.P90 || math.Abs(doubled.Max-2*want.Max) > 1e-9*want.Max {
+	if !floatcmp.Equal(doubled.P90, 2*want.P90) || !floatcmp.Equal(doubled.Max, 2*want.Max) {
 		t.Errorf("volume doubled: p90 %v max %v, want %v and %v", doubled.P90, doubled.Max, 2*want.P90, 2*want.Max)
 	}
 }

@@ -1,6 +1,8 @@
 package curve_test
 
 import (
+	"github.com/sill-tool/sill/internal/floatcmp"
+
 	"fmt"
 	"math"
 	"math/rand/v2"
@@ -84,7 +86,7 @@ func TestWalkMatchesBruteForce(t *testing.T) {
 				}
 			}
 			p := points[k]
-			if p.Score != cut || p.Rows != rows || !referenceClose(p.TP, tp) || !referenceClose(p.FP, fp) || !referenceClose(p.FN, fn) || !referenceClose(p.TN, tn) {
+			if p.Score != cut || p.Rows != rows || !floatcmp.Equal(p.TP, tp) || !floatcmp.Equal(p.FP, fp) || !floatcmp.Equal(p.FN, fn) || !floatcmp.Equal(p.TN, tn) {
 				t.Fatalf("%s: cut %v: %+v, want rows %d tp %v fp %v fn %v tn %v", name, cut, p, rows, tp, fp, fn, tn)
 			}
 			if positives > 0 && tp+fp > 0 {
@@ -142,7 +144,7 @@ func TestWalkMatchesBruteForce(t *testing.T) {
 			{"ROC AUC", sum.ROCAUC, wantAUC}, {"average precision", sum.AveragePrecision, wantAP},
 			{"Brier score", sum.Brier, wantBrier}, {"log loss", sum.LogLoss, wantLogLoss},
 		} {
-			if !referenceClose(c.got, c.want) {
+			if !floatcmp.Equal(c.got, c.want) {
 				t.Errorf("%s: %s %v, want %v", name, c.what, c.got, c.want)
 			}
 		}

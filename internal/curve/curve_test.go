@@ -8,11 +8,12 @@ import (
 	"testing"
 
 	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/floatcmp"
 	"github.com/sill-tool/sill/internal/scores"
 )
 
-// Floats are compared with referenceClose (reference_test.go): one named
-// tolerance, referenceTolerance, with NaN equal to NaN.
+// Floats are compared with floatcmp.Equal: one named
+// tolerance, floatcmp.Tolerance, with NaN equal to NaN.
 
 var nan = math.NaN()
 
@@ -59,7 +60,7 @@ func checkPoints(t *testing.T, got []curve.Point, want []row) {
 			{"false discovery rate", p.FalseDiscoveryRate(), w.fdr}, {"false positive rate", p.FalsePositiveRate(), w.fpr},
 			{"flagged share", p.FlaggedShare(), w.shr},
 		} {
-			if !referenceClose(c.got, c.want) {
+			if !floatcmp.Equal(c.got, c.want) {
 				t.Errorf("cut %d (score %v): %s %v, want %v", i, p.Score, c.name, c.got, c.want)
 			}
 		}
@@ -80,7 +81,7 @@ func checkSummary(t *testing.T, got, want curve.Summary) {
 		{"average precision", got.AveragePrecision, want.AveragePrecision},
 		{"Brier score", got.Brier, want.Brier}, {"log loss", got.LogLoss, want.LogLoss},
 	} {
-		if !referenceClose(c.got, c.want) {
+		if !floatcmp.Equal(c.got, c.want) {
 			t.Errorf("%s %v, want %v", c.name, c.got, c.want)
 		}
 	}
@@ -349,7 +350,7 @@ func TestCurveProperties(t *testing.T) {
 
 		var lastTP, lastFP float64
 		for _, p := range points {
-			if !referenceClose(p.TP+p.FN, sum.Positives) || !referenceClose(p.FP+p.TN, sum.Negatives) {
+			if !floatcmp.Equal(p.TP+p.FN, sum.Positives) || !floatcmp.Equal(p.FP+p.TN, sum.Negatives) {
 				t.Fatalf("%s: cut %v: tp+fn %v, fp+tn %v; positives %v, negatives %v", name, p.Score, p.TP+p.FN, p.FP+p.TN, sum.Positives, sum.Negatives)
 			}
 			if p.TP < lastTP || p.FP < lastFP {
@@ -368,7 +369,7 @@ func TestCurveProperties(t *testing.T) {
 			transformed[i] = math.Exp(3*v) + v*v*v - 7
 		}
 		_, tsum := pointsOf(mustSet(t, transformed, labels, weights, false))
-		if !referenceClose(tsum.ROCAUC, sum.ROCAUC) || !referenceClose(tsum.AveragePrecision, sum.AveragePrecision) {
+		if !floatcmp.Equal(tsum.ROCAUC, sum.ROCAUC) || !floatcmp.Equal(tsum.AveragePrecision, sum.AveragePrecision) {
 			t.Errorf("%s: transformed AUC %v AP %v, want %v %v", name, tsum.ROCAUC, tsum.AveragePrecision, sum.ROCAUC, sum.AveragePrecision)
 		}
 
@@ -377,7 +378,7 @@ func TestCurveProperties(t *testing.T) {
 			negated[i] = -v
 		}
 		_, nsum := pointsOf(mustSet(t, negated, labels, weights, false))
-		if !referenceClose(nsum.ROCAUC, 1-sum.ROCAUC) {
+		if !floatcmp.Equal(nsum.ROCAUC, 1-sum.ROCAUC) {
 			t.Errorf("%s: negated AUC %v, want 1-%v", name, nsum.ROCAUC, sum.ROCAUC)
 		}
 
@@ -388,11 +389,11 @@ func TestCurveProperties(t *testing.T) {
 		}
 		for i, p := range points {
 			q := flipped[i]
-			if q.Score != -p.Score || q.Rows != p.Rows || !referenceClose(q.TP, p.TP) || !referenceClose(q.FP, p.FP) || !referenceClose(q.FN, p.FN) || !referenceClose(q.TN, p.TN) {
+			if q.Score != -p.Score || q.Rows != p.Rows || !floatcmp.Equal(q.TP, p.TP) || !floatcmp.Equal(q.FP, p.FP) || !floatcmp.Equal(q.FN, p.FN) || !floatcmp.Equal(q.TN, p.TN) {
 				t.Fatalf("%s: cut %d: flipped %+v, want %+v with the score negated", name, i, q, p)
 			}
 		}
-		if !referenceClose(fsum.ROCAUC, sum.ROCAUC) || !referenceClose(fsum.AveragePrecision, sum.AveragePrecision) {
+		if !floatcmp.Equal(fsum.ROCAUC, sum.ROCAUC) || !floatcmp.Equal(fsum.AveragePrecision, sum.AveragePrecision) {
 			t.Errorf("%s: flipped AUC %v AP %v, want %v %v", name, fsum.ROCAUC, fsum.AveragePrecision, sum.ROCAUC, sum.AveragePrecision)
 		}
 
@@ -439,7 +440,7 @@ func comparePoints(t *testing.T, name string, got, want []curve.Point, sameRows 
 	}
 	for i := range want {
 		g, w := got[i], want[i]
-		if g.Score != w.Score || (sameRows && g.Rows != w.Rows) || !referenceClose(g.TP, w.TP) || !referenceClose(g.FP, w.FP) || !referenceClose(g.FN, w.FN) || !referenceClose(g.TN, w.TN) {
+		if g.Score != w.Score || (sameRows && g.Rows != w.Rows) || !floatcmp.Equal(g.TP, w.TP) || !floatcmp.Equal(g.FP, w.FP) || !floatcmp.Equal(g.FN, w.FN) || !floatcmp.Equal(g.TN, w.TN) {
 			t.Fatalf("%s: cut %d: %+v, want %+v", name, i, g, w)
 		}
 	}
@@ -455,7 +456,7 @@ func compareSummaries(t *testing.T, name string, got, want curve.Summary) {
 		{"Brier", got.Brier, want.Brier}, {"log loss", got.LogLoss, want.LogLoss},
 		{"positives", got.Positives, want.Positives}, {"negatives", got.Negatives, want.Negatives},
 	} {
-		if !referenceClose(c.got, c.want) {
+		if !floatcmp.Equal(c.got, c.want) {
 			t.Errorf("%s: %s %v, want %v", name, c.what, c.got, c.want)
 		}
 	}

@@ -8,6 +8,7 @@ import (
 	"testing"
 
 	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/floatcmp"
 	"github.com/sill-tool/sill/internal/scores"
 )
 
@@ -15,19 +16,6 @@ import (
 // testdata/reference/make_reference.py with scikit-learn 1.2.1 (Debian's
 // python3-sklearn); reference.json records the exact versions.
 const referenceDir = "../../testdata/reference"
-
-// referenceTolerance is the largest absolute difference accepted between a
-// sill figure and its outside reference value.
-const referenceTolerance = 1e-12
-
-// referenceClose reports whether got matches want within referenceTolerance,
-// counting NaN as equal to NaN.
-func referenceClose(got, want float64) bool {
-	if math.IsNaN(got) || math.IsNaN(want) {
-		return math.IsNaN(got) && math.IsNaN(want)
-	}
-	return math.Abs(got-want) <= referenceTolerance
-}
 
 // referenceFile is reference.json as written by make_reference.py.
 type referenceFile struct {
@@ -72,8 +60,8 @@ type referenceComparer struct {
 func (c *referenceComparer) check(what string, got, want float64) {
 	c.t.Helper()
 	c.compared++
-	if !referenceClose(got, want) {
-		c.t.Errorf("%s: sill %v, reference %v (difference %g, tolerance %g)", what, got, want, got-want, referenceTolerance)
+	if !floatcmp.Equal(got, want) {
+		c.t.Errorf("%s: sill %v, reference %v (difference %g, tolerance %g)", what, got, want, got-want, floatcmp.Tolerance)
 	}
 }
 
@@ -239,15 +227,15 @@ func TestReferenceComparerFails(t *testing.T) {
 		close     bool
 	}{
 		{0.5, 0.5, true},
-		{0.5, 0.5 + referenceTolerance/2, true},
-		{0.5, 0.5 + 2*referenceTolerance, false},
+		{0.5, 0.5 + floatcmp.Tolerance/2, true},
+		{0.5, 0.5 + 2*floatcmp.Tolerance, false},
 		{math.NaN(), math.NaN(), true},
 		{math.NaN(), 0.5, false},
 		{0.5, math.NaN(), false},
 	}
 	for _, tt := range tests {
-		if got := referenceClose(tt.got, tt.want); got != tt.close {
-			t.Errorf("referenceClose(%v, %v) = %v, want %v", tt.got, tt.want, got, tt.close)
+		if got := floatcmp.Equal(tt.got, tt.want); got != tt.close {
+			t.Errorf("floatcmp.Equal(%v, %v) = %v, want %v", tt.got, tt.want, got, tt.close)
 		}
 	}
 }

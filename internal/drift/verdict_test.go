@@ -9,6 +9,7 @@ import (
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/evidence"
+	"github.com/sill-tool/sill/internal/floatcmp"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
 )
@@ -165,7 +166,7 @@ func TestVerdictPower(t *testing.T) {
 // degree of freedom for the fit, so it is NaN.
 func TestFitMixtureTwoBins(t *testing.T) {
 	m := FitMixture([]float64{40, 60}, []float64{0.8, 0.2}, []float64{0.2, 0.8}, 0.95, nil)
-	if math.Abs(m.BaseRate-1.0/3) > 1e-9 {
+	if !floatcmp.Equal(m.BaseRate, 1.0/3) {
 		t.Errorf("base rate %v, want 1/3", m.BaseRate)
 	}
 	if math.Abs(m.CI[0]-0.17901841876142105) > 1e-6 || math.Abs(m.CI[1]-0.4960865008056156) > 1e-6 {
@@ -177,7 +178,7 @@ func TestFitMixtureTwoBins(t *testing.T) {
 	// Inflating the deviance by 4 doubles the interval's half-widths about
 	// the estimate, to first order: wider on both sides.
 	wide := FitMixture([]float64{40, 60}, []float64{0.8, 0.2}, []float64{0.2, 0.8}, 0.95, func(float64) float64 { return 4 })
-	if !(wide.CI[0] < m.CI[0]) || !(wide.CI[1] > m.CI[1]) || math.Abs(wide.BaseRate-m.BaseRate) > 1e-9 {
+	if !(wide.CI[0] < m.CI[0]) || !(wide.CI[1] > m.CI[1]) || !floatcmp.Equal(wide.BaseRate, m.BaseRate) {
 		t.Errorf("inflated: %v %v, want the same estimate and a wider interval than %v", wide.BaseRate, wide.CI, m.CI)
 	}
 	// All new cases in the bin of false cases: the estimate sits at 0.
@@ -211,7 +212,7 @@ func TestChiSquareSurvival(t *testing.T) {
 		}
 	}
 	s, k, p := HomogeneityTest([]float64{10, 20}, []float64{20, 10})
-	if math.Abs(s-20.0/3) > 1e-9 || k != 1 || math.Abs(p-0.009823274507519245) > 1e-9 {
+	if !floatcmp.Equal(s, 20.0/3) || k != 1 || !floatcmp.Equal(p, 0.009823274507519245) {
 		t.Errorf("2 x 2: %v on %d, p %v", s, k, p)
 	}
 	if _, _, p := HomogeneityTest([]float64{5, 0}, []float64{0, 0}); !math.IsNaN(p) {

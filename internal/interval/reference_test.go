@@ -6,21 +6,9 @@ import (
 	"os"
 	"testing"
 
+	"github.com/sill-tool/sill/internal/floatcmp"
 	"github.com/sill-tool/sill/internal/interval"
 )
-
-// referenceTolerance is the largest absolute difference accepted between a
-// sill bound and its outside reference value.
-const referenceTolerance = 1e-12
-
-// referenceClose reports whether got matches want within referenceTolerance,
-// counting NaN as equal to NaN.
-func referenceClose(got, want float64) bool {
-	if math.IsNaN(got) || math.IsNaN(want) {
-		return math.IsNaN(got) && math.IsNaN(want)
-	}
-	return math.Abs(got-want) <= referenceTolerance
-}
 
 // TestWilsonReferenceStatsmodels compares Wilson with
 // statsmodels.stats.proportion.proportion_confint(method="wilson").
@@ -55,7 +43,7 @@ func TestWilsonReferenceStatsmodels(t *testing.T) {
 		lower, upper := interval.Wilson(c.Count, c.Nobs, confidence)
 		// statsmodels leaves rounding residue such as -2.8e-17 at count 0;
 		// sill clamps to [0,1]. Both agree within the tolerance.
-		if !referenceClose(lower, c.Low) || !referenceClose(upper, c.High) {
+		if !floatcmp.Equal(lower, c.Low) || !floatcmp.Equal(upper, c.High) {
 			t.Errorf("Wilson(%v, %v, %v) = [%v, %v], statsmodels [%v, %v]", c.Count, c.Nobs, confidence, lower, upper, c.Low, c.High)
 		}
 	}
@@ -66,10 +54,10 @@ func TestWilsonReferenceStatsmodels(t *testing.T) {
 
 // TestWilsonReferenceCloseFails shows the comparison can fail.
 func TestWilsonReferenceCloseFails(t *testing.T) {
-	if referenceClose(0.25, 0.25+2*referenceTolerance) {
+	if floatcmp.Equal(0.25, 0.25+2*floatcmp.Tolerance) {
 		t.Error("values two tolerances apart compared equal")
 	}
-	if referenceClose(math.NaN(), 0.25) || !referenceClose(math.NaN(), math.NaN()) {
+	if floatcmp.Equal(math.NaN(), 0.25) || !floatcmp.Equal(math.NaN(), math.NaN()) {
 		t.Error("NaN handling is wrong")
 	}
 }

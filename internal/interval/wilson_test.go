@@ -6,11 +6,12 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/sill-tool/sill/internal/floatcmp"
 	"github.com/sill-tool/sill/internal/interval"
 )
 
-// Floats are compared with referenceClose (reference_test.go): one named
-// tolerance, referenceTolerance, with NaN equal to NaN. Published values
+// Floats are compared with floatcmp.Equal: one named
+// tolerance, floatcmp.Tolerance, with NaN equal to NaN. Published values
 // rounded to four decimals are compared after rounding ours the same way.
 
 func round4(v float64) float64 { return math.Round(v*1e4) / 1e4 }
@@ -97,7 +98,7 @@ func TestWilsonHand(t *testing.T) {
 	}
 	for _, tc := range cases {
 		lo, hi := interval.Wilson(tc.successes, tc.trials, 0.95)
-		if !referenceClose(lo, tc.lower) || !referenceClose(hi, tc.upper) {
+		if !floatcmp.Equal(lo, tc.lower) || !floatcmp.Equal(hi, tc.upper) {
 			t.Errorf("%s: Wilson(%v, %v) = [%v, %v], want [%v, %v]", tc.name, tc.successes, tc.trials, lo, hi, tc.lower, tc.upper)
 		}
 	}
@@ -124,15 +125,15 @@ func TestWilsonProperties(t *testing.T) {
 		successes = min(successes, trials)
 		lo, hi := interval.Wilson(successes, trials, 0.95)
 		share := successes / trials
-		if !(lo >= 0 && hi <= 1 && lo <= share+referenceTolerance && share <= hi+referenceTolerance) {
+		if !(lo >= 0 && hi <= 1 && lo <= share+floatcmp.Tolerance && share <= hi+floatcmp.Tolerance) {
 			t.Fatalf("Wilson(%v, %v) = [%v, %v] does not hold the share %v inside [0,1]", successes, trials, lo, hi, share)
 		}
 		mlo, mhi := interval.Wilson(trials-successes, trials, 0.95)
-		if !referenceClose(mlo, 1-hi) || !referenceClose(mhi, 1-lo) {
+		if !floatcmp.Equal(mlo, 1-hi) || !floatcmp.Equal(mhi, 1-lo) {
 			t.Fatalf("Wilson(%v, %v) = [%v, %v] does not mirror [%v, %v]", trials-successes, trials, mlo, mhi, lo, hi)
 		}
 		wlo, whi := interval.Wilson(successes, trials, 0.99)
-		if wlo > lo+referenceTolerance || whi < hi-referenceTolerance {
+		if wlo > lo+floatcmp.Tolerance || whi < hi-floatcmp.Tolerance {
 			t.Fatalf("99%% interval [%v, %v] narrower than the 95%% one [%v, %v]", wlo, whi, lo, hi)
 		}
 	}

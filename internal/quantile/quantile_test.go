@@ -1,6 +1,8 @@
 package quantile
 
 import (
+	"github.com/sill-tool/sill/internal/floatcmp"
+
 	"math"
 	"testing"
 )
@@ -19,16 +21,15 @@ func TestLinear(t *testing.T) {
 		{0.25, 1.75}, // position 0.75: 1 + 0.75*(2-1)
 		{0.9, 6.8},   // position 2.7: 4 + 0.7*(8-4)
 	}
-	const tolerance = 1e-12
 	for _, c := range cases {
-		if got := Linear(values, c.q); math.Abs(got-c.want) > tolerance {
+		if got := Linear(values, c.q); !floatcmp.Equal(got, c.want) {
 			t.Errorf("Linear(%v, %v) = %v, want %v", values, c.q, got, c.want)
 		}
 	}
 	// Of (1,2,3,4): q 0.05 sits at position 0.15, so 1.15; q 0.95 at 2.85,
 	// so 3.85.
 	for q, want := range map[float64]float64{0.05: 1.15, 0.95: 3.85} {
-		if got := Linear([]float64{1, 2, 3, 4}, q); math.Abs(got-want) > tolerance {
+		if got := Linear([]float64{1, 2, 3, 4}, q); !floatcmp.Equal(got, want) {
 			t.Errorf("Linear(1..4, %v) = %v, want %v", q, got, want)
 		}
 	}

@@ -226,10 +226,10 @@ func strconvF(v float64) string { return fmt.Sprint(v) }
 // in [0.3, 0.95] gives 0.25 in [0.05, 0.7]); undefined stays undefined.
 func TestFalseDiscovery(t *testing.T) {
 	f := segment.Figures{Precision: 0.75, PrecisionCI: [2]float64{0.3, 0.95}}
-	if got := f.FalseDiscoveryRate(); math.Abs(got-0.25) > 1e-12 {
+	if got := f.FalseDiscoveryRate(); !floatcmp.Equal(got, 0.25) {
 		t.Errorf("FalseDiscoveryRate %v, want 0.25", got)
 	}
-	if ci := f.FalseDiscoveryCI(); math.Abs(ci[0]-0.05) > 1e-12 || math.Abs(ci[1]-0.7) > 1e-12 {
+	if ci := f.FalseDiscoveryCI(); !floatcmp.Equal(ci[0], 0.05) || !floatcmp.Equal(ci[1], 0.7) {
 		t.Errorf("FalseDiscoveryCI %v, want [0.05 0.7]", ci)
 	}
 	undefined := segment.Figures{Precision: math.NaN(), PrecisionCI: [2]float64{math.NaN(), math.NaN()}}

@@ -16,6 +16,7 @@ import (
 	"testing"
 
 	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/floatcmp"
 	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/segment"
 )
@@ -292,10 +293,9 @@ func sameFigures(t *testing.T, engine string, want, got *scores.Set) {
 			t.Fatalf("%s: cut %d: raw rows give %+v, counts give %+v", engine, i, w, g)
 		}
 	}
-	near := func(a, b float64) bool { return math.Abs(a-b) <= 1e-12*max(1, math.Abs(a)) }
 	if wantSum.Rows != gotSum.Rows || wantSum.Positives != gotSum.Positives || wantSum.Negatives != gotSum.Negatives ||
 		wantSum.BaseRate != gotSum.BaseRate || wantSum.ROCAUC != gotSum.ROCAUC || wantSum.AveragePrecision != gotSum.AveragePrecision ||
-		wantSum.Probabilities != gotSum.Probabilities || !near(wantSum.Brier, gotSum.Brier) || !near(wantSum.LogLoss, gotSum.LogLoss) {
+		wantSum.Probabilities != gotSum.Probabilities || !floatcmp.Equal(wantSum.Brier, gotSum.Brier) || !floatcmp.Equal(wantSum.LogLoss, gotSum.LogLoss) {
 		t.Fatalf("%s: summaries differ\nraw    %+v\ncounts %+v", engine, wantSum, gotSum)
 	}
 	if len(got.SegmentNames) != 3 {
