@@ -286,7 +286,7 @@ func TestWalkHandWorked(t *testing.T) {
 			c.Points(func(p curve.Point) { stored = append(stored, p) })
 			checkPoints(t, stored, tc.points)
 			checkSummary(t, c.Summary, tc.summary)
-			if tc.summary.LogLoss == -math.Log(1e-15) && math.Abs(sum.LogLoss-34.538776394910684) > 1e-9 {
+			if tc.summary.LogLoss == -math.Log(1e-15) && !floatcmp.Equal(sum.LogLoss, 34.538776394910684) {
 				t.Errorf("clipped log loss %v, want 34.538776394910684", sum.LogLoss)
 			}
 		})
