@@ -87,11 +87,13 @@ func TestProjectPredictiveValues(t *testing.T) {
 			}
 		})
 	}
-	// The two rounded values quoted above, as a guard on the hand work.
-	if fig := projection.Project(curve.Point{TP: 90, FP: 10, FN: 10, TN: 90}, projection.Assumptions{BaseRate: 0.01}); math.Abs(fig.Precision-0.0833) > 0.00005 {
+	// The two rounded values quoted above, as a guard on the hand work:
+	// each agrees to half a unit of its last quoted decimal.
+	const fourDecimals, threeDecimals = 0.00005, 0.0005
+	if fig := projection.Project(curve.Point{TP: 90, FP: 10, FN: 10, TN: 90}, projection.Assumptions{BaseRate: 0.01}); !floatcmp.Within(fig.Precision, 0.0833, fourDecimals) {
 		t.Errorf("PPV at 1%% prevalence %v, want about 0.0833", fig.Precision)
 	}
-	if fig := projection.Project(curve.Point{TP: 231, FP: 32, FN: 27, TN: 54}, projection.Assumptions{BaseRate: 0.25}); math.Abs(fig.Precision-0.445) > 0.0005 {
+	if fig := projection.Project(curve.Point{TP: 231, FP: 32, FN: 27, TN: 54}, projection.Assumptions{BaseRate: 0.25}); !floatcmp.Within(fig.Precision, 0.445, threeDecimals) {
 		t.Errorf("liver scan PPV at prevalence 0.25 %v, want about 0.445", fig.Precision)
 	}
 }
