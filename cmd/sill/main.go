@@ -10,7 +10,7 @@ import (
 	"os"
 	"os/signal"
 	"syscall"
-	_ "time/tzdata" // --time-zone and decision files name zones; a release build for another system may have no zone database
+	_ "time/tzdata" // --tz and decision files name zones; a release build for another system may have no zone database
 
 	"github.com/sill-tool/sill/internal/format"
 )
