@@ -3,8 +3,6 @@ package page_test
 import (
 	"flag"
 	"html"
-	"os"
-	"path/filepath"
 	"regexp"
 	"strings"
 	"testing"
@@ -13,7 +11,8 @@ import (
 	"github.com/sill-tool/sill/internal/decision"
 )
 
-var update = flag.Bool("update", false, "rewrite the golden files under testdata")
+// The -update flag that golden.Check reads.
+var _ = flag.Bool("update", false, "rewrite the golden files under testdata")
 
 // decisionYAML is a decision file of an invented desk that reviews
 // parcel scans: three candidates, a capacity and costs, a note with markup
@@ -129,27 +128,4 @@ func visibleText(doc string) string {
 		}
 	}
 	return strings.Join(lines, "\n") + "\n"
-}
-
-// checkGolden compares got with testdata/<Test>/<name>.golden, rewriting
-// it under -update.
-func checkGolden(t *testing.T, name, got string) {
-	t.Helper()
-	path := filepath.Join("testdata", strings.SplitN(t.Name(), "/", 2)[0], name+".golden")
-	if *update {
-		if err := os.MkdirAll(filepath.Dir(path), 0o755); err != nil {
-			t.Fatal(err)
-		}
-		if err := os.WriteFile(path, []byte(got), 0o644); err != nil {
-			t.Fatal(err)
-		}
-		return
-	}
-	want, err := os.ReadFile(path)
-	if err != nil {
-		t.Fatalf("%v (run go test -update to create it)", err)
-	}
-	if string(want) != got {
-		t.Errorf("%s differs from the golden file; got:\n%s", path, got)
-	}
 }

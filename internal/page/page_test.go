@@ -8,6 +8,7 @@ import (
 
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/evidence"
+	"github.com/sill-tool/sill/internal/golden"
 	"github.com/sill-tool/sill/internal/page"
 	"github.com/sill-tool/sill/internal/review"
 )
@@ -24,7 +25,7 @@ func TestWriteText(t *testing.T) {
 		t.Fatal(err)
 	}
 	doc := b.String()
-	checkGolden(t, "with-curve", visibleText(doc))
+	golden.Check(t, "testdata", "with-curve", visibleText(doc))
 	if m := offPage.FindString(doc); m != "" {
 		t.Errorf("the page asks for something from elsewhere: %q", m)
 	}
@@ -79,7 +80,7 @@ func TestWriteWithoutCurve(t *testing.T) {
 	if err := page.Write(&b, f, page.Options{Name: "parcels-cut.yaml"}); err != nil {
 		t.Fatal(err)
 	}
-	checkGolden(t, "no-curve-no-volume", visibleText(b.String()))
+	golden.Check(t, "testdata", "no-curve-no-volume", visibleText(b.String()))
 	if n := strings.Count(b.String(), "<svg"); n != 2 {
 		t.Errorf("%d charts, want 2 (no workload without a volume)", n)
 	}
@@ -101,7 +102,7 @@ func TestWriteAgainst(t *testing.T) {
 		t.Fatal(err)
 	}
 	doc := b.String()
-	checkGolden(t, "against", visibleText(doc))
+	golden.Check(t, "testdata", "against", visibleText(doc))
 	if m := offPage.FindString(doc); m != "" {
 		t.Errorf("the page asks for something from elsewhere: %q", m)
 	}
