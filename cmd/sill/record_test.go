@@ -128,7 +128,7 @@ func TestReviewAgainst(t *testing.T) {
 	scoresPath, newPath := savedDemo(t, dir)
 	oldPath := filepath.Join(dir, "old.yaml")
 	args := []string{"report", scoresPath, "--cut", "base", "--cut", "hit=0.8", "--save", oldPath, "--model-name", "bearing-wear",
-		"--model-version", "13", "--chosen-by", "Ines Varga", "--volume", "1200", "--capacity", "90", "--cost-false-alert", "120", "--cost-miss", "1200"}
+		"--model-version", "13", "--chosen-by", "Ines Varga", "--volume", "1200", "--capacity", "120", "--cost-false-alert", "120", "--cost-miss", "1200"}
 	if r := runSill(t, "", args...); r.code != 0 {
 		t.Fatalf("exit %d: %s", r.code, r.stderr)
 	}
@@ -151,6 +151,14 @@ func TestReviewAgainst(t *testing.T) {
 		}
 		got := strings.NewReplacer(newPath, "cut.yaml", oldPath, "old.yaml").Replace(r.stdout)
 		checkGolden(t, "against-"+format, got)
+	}
+	// Each file's queue stands against its own capacity (120 in
+	// production, 90 proposed) on the page as in the text above.
+	page := runSill(t, "", "review", newPath, "--against", oldPath, "--format", "html")
+	for _, want := range []string{"against its own capacity", "33.4 under 120", "0.2 under 90"} {
+		if page.code != 0 || !strings.Contains(page.stdout, want) {
+			t.Errorf("html: exit %d, no %q on the page", page.code, want)
+		}
 	}
 	r := runSill(t, "", "review", newPath, "--against", filepath.Join(dir, "none.yaml"))
 	if r.code != 2 || !strings.Contains(r.stderr, "--against: read decision file") {

@@ -30,6 +30,9 @@ type Column struct {
 	Name string
 	Rule string
 	Cut  evidence.Cut
+	// Capacity is the capacity this column's queue is held against when
+	// Options.OwnCapacity is set (0: none given); otherwise unused.
+	Capacity float64
 }
 
 // Better says which direction of a figure is the better one, so that a
@@ -76,6 +79,10 @@ type Options struct {
 	Assumptions     projection.Assumptions
 	BaseRateChanged bool
 	LowerIsRiskier  bool
+	// OwnCapacity holds each column's queue against its own
+	// Column.Capacity instead of the assumptions' capacity, for columns
+	// projected under assumptions of their own (two decision files).
+	OwnCapacity bool
 }
 
 // New returns the comparison of columns against columns[reference]. With no
@@ -152,7 +159,10 @@ func New(columns []Column, reference int, opt Options) Table {
 	}
 	if a.Volume > 0 {
 		main("queue per shift", Neither, func(c evidence.Cut) float64 { return c.Projected.QueuePerShift }, format.Queue, format.QueueDiff)
-		if a.Capacity > 0 {
+		switch {
+		case opt.OwnCapacity:
+			ownCapacity(&t, columns)
+		case a.Capacity > 0:
 			detail("  against capacity "+format.Count(a.Capacity), func(c evidence.Cut) string {
 				return format.Against(c.Projected.QueuePerShift, a.Capacity)
 			})
@@ -162,4 +172,37 @@ func New(columns []Column, reference int, opt Options) Table {
 		}
 	}
 	return t
+}
+
+// ownCapacity adds the detail row of each column's queue against its own
+// capacity: labelled with the capacity when all columns share it, else
+// "against its own capacity" with each cell naming its capacity ("3.4
+// under 120", "no capacity given"). No row when no column has a capacity.
+func ownCapacity(t *Table, columns []Column) {
+	same, any := true, false
+	for _, c := range columns {
+		same = same && c.Capacity == columns[0].Capacity
+		any = any || c.Capacity > 0
+	}
+	if !any {
+		return
+	}
+	row := Row{Figure: "  against its own capacity", Detail: true}
+	if same {
+		row.Figure = "  against capacity " + format.Count(columns[0].Capacity)
+	}
+	for _, c := range columns {
+		cell := "no capacity given"
+		if c.Capacity > 0 {
+			cell = format.Against(c.Cut.Projected.QueuePerShift, c.Capacity)
+			if !same {
+				cell += " " + format.Count(c.Capacity)
+			}
+		}
+		row.Cells = append(row.Cells, cell)
+		row.Values = append(row.Values, math.NaN())
+		row.Diffs = append(row.Diffs, "")
+		row.Deltas = append(row.Deltas, math.NaN())
+	}
+	t.Rows = append(t.Rows, row)
 }

@@ -216,3 +216,42 @@ func ExampleNew() {
 	fmt.Println(r.Figure, r.Cells, r.Diffs[1])
 	// Output: hit share (recall) [50.0% 100.0%] +50.0 pt
 }
+
+// TestNewOwnCapacity: with OwnCapacity each column's queue stands against
+// its own capacity. On sixRows at volume 100 and the validation base rate,
+// the cut at 0.9 flags 1 case in 6 (queue 16.7) and the cut at 0.8 flags 3
+// (queue 50.0), by hand.
+func TestNewOwnCapacity(t *testing.T) {
+	c := sixRows(t, nil)
+	a := sixAssumptions
+	tests := []struct {
+		name       string
+		capacities [2]float64
+		figure     string    // the row's label, trimmed
+		cells      [2]string // hand-worked: queue minus capacity
+	}{
+		{"different", [2]float64{40, 60}, "against its own capacity", [2]string{"23.3 under 40", "10.0 under 60"}},
+		{"the same", [2]float64{40, 40}, "against capacity 40", [2]string{"23.3 under", "10.0 over"}},
+		{"one not given", [2]float64{0, 45}, "against its own capacity", [2]string{"no capacity given", "5.0 over 45"}},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			columns := []Column{
+				{Name: "old", Cut: evidence.Of(c.At(0), a), Capacity: tt.capacities[0]},
+				{Name: "new", Cut: evidence.Of(c.At(1), a), Capacity: tt.capacities[1]},
+			}
+			table := New(columns, 0, Options{Assumptions: a, OwnCapacity: true})
+			r := row(t, table, tt.figure)
+			if !r.Detail || r.Cells[0] != tt.cells[0] || r.Cells[1] != tt.cells[1] {
+				t.Errorf("row %q: %q, want %q (detail)", r.Figure, r.Cells, tt.cells)
+			}
+		})
+	}
+	// Neither column has a capacity: no row, whatever the assumptions say.
+	columns := []Column{{Name: "old", Cut: evidence.Of(c.At(0), a)}, {Name: "new", Cut: evidence.Of(c.At(1), a)}}
+	for _, r := range New(columns, 0, Options{Assumptions: a, OwnCapacity: true}).Rows {
+		if strings.Contains(r.Figure, "capacity") {
+			t.Errorf("row %q without any capacity", r.Figure)
+		}
+	}
+}

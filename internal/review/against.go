@@ -83,10 +83,10 @@ func Against(newFile *decision.File, newPath string, old *decision.File, oldPath
 	}
 	c.Assumptions = changedAssumptions(old.Assumptions, newFile.Assumptions)
 	c.Table = compare.New([]compare.Column{
-		{Name: "in production", Rule: oc.Rule, Cut: oc.Cut},
-		{Name: "proposed", Rule: nc.Rule, Cut: nc.Cut},
+		{Name: "in production", Rule: oc.Rule, Cut: oc.Cut, Capacity: old.Assumptions.Capacity},
+		{Name: "proposed", Rule: nc.Rule, Cut: nc.Cut, Capacity: newFile.Assumptions.Capacity},
 	}, 0, compare.Options{Assumptions: newFile.Assumptions, BaseRateChanged: newFile.BaseRateChanged() || old.BaseRateChanged(),
-		LowerIsRiskier: newFile.Data.LowerIsRiskier})
+		LowerIsRiskier: newFile.Data.LowerIsRiskier, OwnCapacity: true})
 	c.PerShift = perShift(oc.Cut, nc.Cut, old.Assumptions, newFile.Assumptions)
 	return c
 }
