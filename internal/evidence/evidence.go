@@ -20,6 +20,8 @@ import (
 // recall's interval is TP out of TP+FN, precision's is TP out of TP+FP,
 // the false positive rate's is FP out of FP+TN.
 // The false discovery rate's interval is the complement of precision's.
+// These are measured figures; Projected and ProjectedCI are projected
+// ones (see package projection).
 type Cut struct {
 	Score        float64
 	Rows         int     // validation rows flagged
@@ -38,6 +40,10 @@ type Cut struct {
 	FalsePositiveCI    [2]float64 // Wilson, of the false cases flagged among all false cases
 
 	Projected projection.Figures
+	// ProjectedCI are the intervals of Projected at the same confidence
+	// (projection.IntervalsOf): production's base rate, volume and costs
+	// taken as given, the validation counts as the effective counts.
+	ProjectedCI projection.Intervals
 }
 
 // Of returns the figures of point p under assumptions a, whose Confidence
@@ -57,6 +63,7 @@ func Of(p curve.Point, a projection.Assumptions) Cut {
 		FalseDiscoveryRate: p.FalseDiscoveryRate(),
 		FalsePositiveRate:  p.FalsePositiveRate(),
 		Projected:          projection.Project(p, a),
+		ProjectedCI:        projection.IntervalsOf(projection.Counts{TP: p.TP, FP: p.FP, FN: p.FN, TN: p.TN}, a),
 	}
 	c.RecallCI[0], c.RecallCI[1] = interval.Wilson(p.TP, p.TP+p.FN, a.Confidence)
 	c.PrecisionCI[0], c.PrecisionCI[1] = interval.Wilson(p.TP, p.TP+p.FP, a.Confidence)

@@ -11,6 +11,47 @@
 //
 // Recall and false positive rate do not depend on the base rate, so they
 // carry over unchanged; precision and everything counted per shift do not.
+//
+// # Measured and projected
+//
+// A figure counted on the validation set is measured; one carried to
+// production with the assumptions above is projected. Every output says
+// which a figure is, in the words of package format.
+//
+// # Intervals of projected figures
+//
+// IntervalsOf gives each projected figure an interval at the assumptions'
+// confidence level. The intervals carry the validation set's sampling
+// error of r and f only: production's base rate, volume and costs are
+// taken as given, exactly as stated, so an interval says how far the
+// figure could move were the assumptions right, not how far production
+// could stray from them. r is estimated from the true cases and f from
+// the false ones, so the two are independent binomial shares, counted
+// with the effective counts (Counts) a caller passes: weighted counts read
+// as frequency weights, as the measured figures' Wilson intervals use.
+//
+//   - Precision (and the wrong-alert share, its complement): the adjusted
+//     logit interval of Mercaldo, Lau and Zhou (2007) for a predictive
+//     value at a known prevalence (PrecisionInterval). It is built for
+//     just this case: sensitivity and specificity estimated from samples
+//     of each class, the prevalence supplied from elsewhere.
+//   - Alert rate r*p + f*(1-p), and the cost per case, which is linear in
+//     r and f once p and the costs are fixed: the MOVER of Zou and Donner
+//     (2008) over the Wilson limits of r and f (LinearInterval), as Zou,
+//     Huang and Zhang (2009) apply it to linear functions of binomial
+//     shares. It is chosen over a Wald interval on the sum because it
+//     keeps the Wilson limits' good coverage at small counts and their
+//     asymmetry near 0 and 1, and for the alert rate (coefficients p and
+//     1-p, both in [0,1] and summing to 1) its limits lie between p*l_r +
+//     (1-p)*l_f and p*u_r + (1-p)*u_f, so inside [0,1]. A negative
+//     coefficient (a hit that saves more than a miss costs) swaps the
+//     limits of its term.
+//   - Queue and cost per shift: the volume times the limits of the alert
+//     rate and of the cost per case. The queue's interval is that of the
+//     mean queue over many shifts; how far one shift strays from the mean
+//     is a separate question (package shift).
+//
+// A seeded simulation in the tests checks coverage at 90% and 95%.
 package projection
 
 import (

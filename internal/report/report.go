@@ -101,6 +101,14 @@ type projected struct {
 	QueuePerShift number `json:"queue_per_shift"`
 	CostPerShift  number `json:"cost_per_shift"`
 
+	// Intervals at the confidence of the assumptions, production's base
+	// rate and volume taken as given (projection.IntervalsOf); null where
+	// the figure is undefined or not projected.
+	PrecisionCI     *interval `json:"precision_ci"`
+	AlertRateCI     *interval `json:"alert_rate_ci"`
+	QueuePerShiftCI *interval `json:"queue_per_shift_ci"`
+	CostPerShiftCI  *interval `json:"cost_per_shift_ci"`
+
 	// With case times (addShiftPeaks in beyond.go).
 	QueuePerShiftP90 *number `json:"queue_per_shift_p90,omitempty"`
 	QueuePerShiftMax *number `json:"queue_per_shift_max,omitempty"`
@@ -324,6 +332,11 @@ func newCut(o cutrule.Outcome, a projection.Assumptions) cut {
 		Precision:     number(e.Projected.Precision),
 		QueuePerShift: number(e.Projected.QueuePerShift),
 		CostPerShift:  number(e.Projected.CostPerShift),
+
+		PrecisionCI:     newInterval(e.ProjectedCI.Precision),
+		AlertRateCI:     newInterval(e.ProjectedCI.AlertRate),
+		QueuePerShiftCI: newInterval(e.ProjectedCI.QueuePerShift),
+		CostPerShiftCI:  newInterval(e.ProjectedCI.CostPerShift),
 	}
 	return c
 }

@@ -87,6 +87,12 @@ var CutsCSVHeader = []string{
 	"confidence",
 	"projected_alert_rate", "projected_precision", "projected_false_discovery_rate",
 	"queue_per_shift", "cost_per_shift", "cost_per_case",
+	"projected_precision_low", "projected_precision_high",
+	"projected_false_discovery_rate_low", "projected_false_discovery_rate_high",
+	"projected_alert_rate_low", "projected_alert_rate_high",
+	"queue_per_shift_low", "queue_per_shift_high",
+	"cost_per_shift_low", "cost_per_shift_high",
+	"cost_per_case_low", "cost_per_case_high",
 }
 
 // WriteCutsCSV writes the figures of r's cuts as CSV: a header row
@@ -94,7 +100,9 @@ var CutsCSVHeader = []string{
 // in their shortest exact form ('g' of strconv, shares as fractions, no
 // thousands separators); an undefined figure, a projection without the
 // assumption it needs and every figure of an unmet cut are empty cells.
-// Intervals are Wilson intervals at the confidence of the row.
+// Intervals of measured figures are Wilson intervals at the confidence of
+// the row; those of projected figures are projection.IntervalsOf's, with
+// production's base rate and volume taken as given.
 func WriteCutsCSV(w io.Writer, r *Report) error {
 	cw := csv.NewWriter(w)
 	cw.Write(CutsCSVHeader)
@@ -121,7 +129,13 @@ func WriteCutsCSV(w io.Writer, r *Report) error {
 			e.FalsePositiveRate, e.FalsePositiveCI[0], e.FalsePositiveCI[1],
 			conf,
 			e.Projected.AlertRate, e.Projected.Precision, e.Projected.FalseDiscoveryRate(),
-			e.Projected.QueuePerShift, e.Projected.CostPerShift, e.Projected.CostPerCase} {
+			e.Projected.QueuePerShift, e.Projected.CostPerShift, e.Projected.CostPerCase,
+			e.ProjectedCI.Precision[0], e.ProjectedCI.Precision[1],
+			e.ProjectedCI.FalseDiscovery()[0], e.ProjectedCI.FalseDiscovery()[1],
+			e.ProjectedCI.AlertRate[0], e.ProjectedCI.AlertRate[1],
+			e.ProjectedCI.QueuePerShift[0], e.ProjectedCI.QueuePerShift[1],
+			e.ProjectedCI.CostPerShift[0], e.ProjectedCI.CostPerShift[1],
+			e.ProjectedCI.CostPerCase[0], e.ProjectedCI.CostPerCase[1]} {
 			row = append(row, num(v))
 		}
 		cw.Write(row)
