@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -12,7 +13,6 @@ import (
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/drift"
 	"github.com/sill-tool/sill/internal/format"
-	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/report"
 	"github.com/sill-tool/sill/internal/scores"
 )
@@ -74,7 +74,8 @@ Exit status:
   3  assumption  the model behaves as validated but the base rate differs
                  beyond noise: the projection must be redone (the output
                  gives the alerts per shift at the observed rate and the
-                 sill report line that writes the re-projected decision)`,
+                 sill report --reproject line that writes the decision again
+                 at that rate, every candidate, note and name kept)`,
 		Example: `  sill check cut.yaml scores-2026-09-28.csv
   sill check cut.yaml nightly.csv.gz --format json --tolerance 0.02`,
 		Args: argsNamed("the decision file", "the new scores (either may be - for standard input)"),
@@ -159,11 +160,12 @@ Exit status:
 }
 
 // redoLine is the sill report line that writes the decision of file,
-// saved at path, again with its chosen cut's score kept and the base rate
-// at baseRate, the other assumptions as the file holds them.
+// saved at path, again at the base rate baseRate: --reproject keeps every
+// candidate at its score with its name, rule and note, the chosen one, the
+// model, chosen_by, the note and the other assumptions as the file holds
+// them; the columns, segments, shift schedule and bootstrap the file was
+// made with are given again so that its figures are recomputed alike.
 func redoLine(file *decision.File, path string, baseRate float64) string {
-	chosen, _ := file.ChosenCandidate()
-	a := file.Assumptions
 	args := []string{"sill", "report", shellWord(file.Data.Path)}
 	if file.Data.ScoreColumn != "" && !isDefaultName(file.Data.ScoreColumn, scores.DefaultScoreColumns) {
 		args = append(args, "--score", shellWord(file.Data.ScoreColumn))
@@ -177,29 +179,22 @@ func redoLine(file *decision.File, path string, baseRate float64) string {
 	if file.Data.LowerIsRiskier {
 		args = append(args, "--lower-is-riskier")
 	}
-	args = append(args, "--base-rate", strconv.FormatFloat(roundShare(baseRate), 'f', -1, 64))
-	if a.Confidence != projection.DefaultConfidence {
-		args = append(args, "--confidence", strconv.FormatFloat(a.Confidence, 'f', -1, 64))
-	}
-	if file.Model.Name != "" {
-		args = append(args, "--model-name", shellWord(file.Model.Name))
-	}
-	if file.Model.Version != "" {
-		args = append(args, "--model-version", shellWord(file.Model.Version))
-	}
-	if a.Volume > 0 {
-		args = append(args, "--volume", strconv.FormatFloat(a.Volume, 'f', -1, 64))
-	}
-	if a.Capacity > 0 {
-		args = append(args, "--capacity", strconv.FormatFloat(a.Capacity, 'f', -1, 64))
-	}
-	if c := a.Costs; c != nil {
-		args = append(args, "--cost-false-alert", strconv.FormatFloat(c.FalseAlert, 'f', -1, 64), "--cost-miss", strconv.FormatFloat(c.Miss, 'f', -1, 64))
-		if c.Hit != 0 {
-			args = append(args, "--cost-hit", strconv.FormatFloat(c.Hit, 'f', -1, 64))
+	var stability *decision.Stability
+	for _, c := range file.Candidates {
+		if c.Segments != nil && c.Segments.Column != "" && !slices.Contains(args, "--segment") {
+			args = append(args, "--segment", shellWord(c.Segments.Column))
+		}
+		if stability == nil {
+			stability = c.Stability
 		}
 	}
-	args = append(args, "--cut", "score="+strconv.FormatFloat(chosen.Cut.Score, 'g', -1, 64), "--save", shellWord(path))
+	if s := file.ShiftSchedule; s != nil && s.TimeColumn != "" {
+		args = append(args, "--time", shellWord(s.TimeColumn), "--shifts", shellWord(strings.Join(s.Starts, ",")), "--tz", shellWord(s.Zone))
+	}
+	if stability != nil {
+		args = append(args, "--bootstrap", strconv.Itoa(stability.Replicates), "--seed", strconv.FormatUint(stability.Seed, 10))
+	}
+	args = append(args, "--reproject", shellWord(path), "--base-rate", strconv.FormatFloat(roundShare(baseRate), 'f', -1, 64), "--save", shellWord(path))
 	return strings.Join(args, " ")
 }
 

@@ -186,6 +186,10 @@ type assumptionFlags struct {
 	costFalseAlert, costMiss   float64
 	costHit, confidence        float64
 	fs                         *pflag.FlagSet
+	// defaults, when set, are the assumptions a flag not given keeps
+	// (report --reproject: the decision file's); otherwise the base rate
+	// is the validation one and the rest are not given.
+	defaults *projection.Assumptions
 }
 
 func (f *assumptionFlags) register(fs *pflag.FlagSet) {
@@ -211,6 +215,22 @@ func (f *assumptionFlags) assumptions(set *scores.Set) (projection.Assumptions, 
 		Confidence: f.confidence,
 	}
 	changed := func(name string) bool { return f.fs != nil && f.fs.Changed(name) }
+	if d := f.defaults; d != nil {
+		a.BaseRate = d.BaseRate
+		if !changed("volume") {
+			a.Volume = d.Volume
+		}
+		if !changed("capacity") {
+			a.Capacity = d.Capacity
+		}
+		if !changed("confidence") {
+			a.Confidence = d.Confidence
+		}
+		if d.Costs != nil {
+			costs := *d.Costs
+			a.Costs = &costs
+		}
+	}
 	if changed("base-rate") {
 		a.BaseRate = f.baseRate
 	} else if math.IsNaN(a.BaseRate) {
@@ -223,12 +243,21 @@ func (f *assumptionFlags) assumptions(set *scores.Set) (projection.Assumptions, 
 		if !(f.capacity > 0) {
 			return a, fmt.Errorf("--capacity %v: expected a positive number of alerts per shift", f.capacity)
 		}
-		if !(f.volume > 0) {
+		if !(a.Volume > 0) {
 			return a, fmt.Errorf("--capacity needs --volume: the queue per shift is projected from the volume")
 		}
 	}
 	if changed("cost-false-alert") || changed("cost-miss") || changed("cost-hit") {
-		a.Costs = &projection.Costs{FalseAlert: f.costFalseAlert, Miss: f.costMiss, Hit: f.costHit}
+		costs := projection.Costs{FalseAlert: f.costFalseAlert, Miss: f.costMiss, Hit: f.costHit}
+		if d := f.defaults; d != nil && d.Costs != nil {
+			// A cost not given keeps the file's.
+			for name, cost := range map[string]*float64{"cost-false-alert": &costs.FalseAlert, "cost-miss": &costs.Miss, "cost-hit": &costs.Hit} {
+				if !changed(name) {
+					*cost = map[string]float64{"cost-false-alert": d.Costs.FalseAlert, "cost-miss": d.Costs.Miss, "cost-hit": d.Costs.Hit}[name]
+				}
+			}
+		}
+		a.Costs = &costs
 	}
 	if err := a.Validate(); err != nil {
 		return a, flagError(err)

@@ -52,6 +52,13 @@ in [0,1] get a reliability table and net benefit; --score a --score b (or
 --compare FILE joined on --id) compares two models on the same cases
 (DeLong's paired AUC test).
 
+Again under new assumptions: --reproject FILE.yaml takes a decision file's
+candidates at their scores (with their names, rules and notes), its chosen
+one, model, chosen-by and note, and its assumptions where no flag is given;
+with --save it writes the decision again (sill check offers this line when
+only the base rate was wrong). Each candidate's rule is reported beside it,
+at the cut it picks now.
+
 Outputs: --format csv prints one row per cut with its counts, rates,
 intervals and projected figures in plain machine form (README lists the
 columns); --format csv --curve prints the table of every cut instead.
@@ -106,6 +113,13 @@ func (o *reportOptions) run(ctx context.Context, set *scores.Set, stdout, stderr
 			return err
 		}
 	}
+	reprojected, err := o.save.readReproject(set, o.cuts)
+	if err != nil {
+		return err
+	}
+	if o.save.from != nil {
+		o.assume.defaults = &o.save.from.Assumptions
+	}
 	a, err := o.assume.assumptions(set)
 	if err != nil {
 		return err
@@ -121,6 +135,7 @@ func (o *reportOptions) run(ctx context.Context, set *scores.Set, stdout, stderr
 		}
 		opts.Rules = append(opts.Rules, r)
 	}
+	opts.Rules = append(opts.Rules, reprojected...)
 	joined, err := o.beyond.loadCompare(ctx, set)
 	if err != nil {
 		return err

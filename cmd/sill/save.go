@@ -7,6 +7,7 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 
 	"github.com/spf13/pflag"
@@ -15,6 +16,7 @@ import (
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/format"
+	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/sharedfile"
 )
 
@@ -25,6 +27,13 @@ type saveFlags struct {
 	force  bool
 	record recordFlags
 	page   bool // the sign-off page is asked for, which takes --choose and the record flags too
+
+	// reproject is --reproject: a decision file whose candidates are the
+	// cuts (each at its score, keeping its name, rule and note), whose
+	// chosen one, model, chosen_by and note are kept, and whose
+	// assumptions hold where no flag is given. from is that file, read.
+	reproject string
+	from      *decision.File
 }
 
 func (s *saveFlags) register(fs *pflag.FlagSet) {
@@ -32,6 +41,52 @@ func (s *saveFlags) register(fs *pflag.FlagSet) {
 	fs.StringVar(&s.choose, "choose", "", "with --save or --format html: the cut to mark as chosen, by its spec (default: the first --cut)")
 	fs.BoolVar(&s.force, "force", false, "with --save: replace a file made from other data, or one that is not a decision file")
 	s.record.register(fs, "with --save: ")
+	fs.StringVar(&s.reproject, "reproject", "", "a decision file to re-project: its candidates at their scores (names, rules, notes), the chosen one, model, chosen-by and note, under its assumptions except the flags given (sill check's next step after status assumption)")
+}
+
+// readReproject reads the --reproject file of a report on set and returns
+// the rules that put a cut at each of its candidates' scores, in its
+// order; nil without --reproject. The file must have been chosen on the
+// same data.
+func (s *saveFlags) readReproject(set *scores.Set, cuts []string) ([]cutrule.Rule, error) {
+	if s.reproject == "" {
+		return nil, nil
+	}
+	if len(cuts) > 0 || s.choose != "" {
+		return nil, errors.New("--reproject takes the cuts and the chosen one from the decision file; --cut and --choose go without it")
+	}
+	f, err := decision.ReadFile(s.reproject)
+	if err != nil {
+		return nil, fmt.Errorf("--reproject: %w", err)
+	}
+	if f.Data.SHA256 != "" && set.SHA256 != "" && f.Data.SHA256 != set.SHA256 {
+		return nil, fmt.Errorf("--reproject %s: chosen on other data (its data.sha256 is %s, this data's is %s); re-project it on %s",
+			s.reproject, shortDigest(f.Data.SHA256), shortDigest(set.SHA256), format.Printable(f.Data.Path))
+	}
+	if f.Data.LowerIsRiskier != set.LowerIsRiskier {
+		return nil, fmt.Errorf("--reproject %s: chosen with lower_is_riskier: %v; give --lower-is-riskier=%v", s.reproject, f.Data.LowerIsRiskier, f.Data.LowerIsRiskier)
+	}
+	s.from = f
+	rules := make([]cutrule.Rule, len(f.Candidates))
+	for i, c := range f.Candidates {
+		rules[i] = cutrule.Rule{Kind: cutrule.Score, Value: c.Cut.Score}
+	}
+	// The candidates' own rules after them: what each picks under the
+	// new assumptions, and with --bootstrap its spread, which a candidate
+	// keeps where its rule still picks its cut.
+	for _, c := range f.Candidates {
+		if r, err := cutrule.Parse(c.Rule); err == nil && !slices.Contains(rules, r) {
+			rules = append(rules, r)
+		}
+	}
+	return rules, nil
+}
+
+func shortDigest(digest string) string {
+	if len(digest) > 12 {
+		return digest[:12]
+	}
+	return digest
 }
 
 // check rejects --choose, --force and the record flags without --save;
@@ -124,6 +179,9 @@ func pluralWord(n int, one, many string) string {
 // (default: the first). The sign-off page is made from the same file;
 // flag names what asked for it in errors.
 func (s *saveFlags) decision(res *analysis.Result, flag string) (*decision.File, error) {
+	if s.from != nil {
+		return s.reprojected(res, flag)
+	}
 	var picks []decision.Pick
 	var names []string
 	for _, o := range res.Outcomes {
@@ -153,6 +211,35 @@ func (s *saveFlags) decision(res *analysis.Result, flag string) (*decision.File,
 		}
 	}
 	f, err := decision.New(res, picks, chosen, decision.Record{ToolVersion: toolVersion(), Model: s.record.model(), ChosenBy: strings.TrimSpace(s.record.chosenBy)})
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", flag, err)
+	}
+	return f, nil
+}
+
+// reprojected builds the decision file of --reproject: every candidate of
+// the file read at its own score, with its name, rule and note, the same
+// chosen one, the model, chosen_by and note of the file unless the flags
+// give them, under res.Assume. Sign-offs are not carried over: they signed
+// the earlier projection.
+func (s *saveFlags) reprojected(res *analysis.Result, flag string) (*decision.File, error) {
+	from := s.from
+	picks := make([]decision.Pick, len(from.Candidates))
+	for i, c := range from.Candidates {
+		o := res.Outcomes[i]
+		if !o.Met || o.Point.Score != c.Cut.Score {
+			return nil, fmt.Errorf("%s: candidate %q at score %v is not a cut of this data", flag, format.Printable(c.Name), c.Cut.Score)
+		}
+		picks[i] = decision.Pick{Name: c.Name, Rule: c.Rule, Note: c.Note, Point: o.Point}
+	}
+	rec := decision.Record{ToolVersion: toolVersion(), Model: from.Model, ChosenBy: from.ChosenBy, Note: from.Note}
+	if s.record.modelName != "" || s.record.modelVersion != "" {
+		rec.Model = s.record.model()
+	}
+	if by := strings.TrimSpace(s.record.chosenBy); by != "" {
+		rec.ChosenBy = by
+	}
+	f, err := decision.New(res, picks, from.Chosen, rec)
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", flag, err)
 	}

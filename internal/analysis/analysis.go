@@ -15,6 +15,7 @@ import (
 	"context"
 	"errors"
 	"math"
+	"slices"
 
 	"github.com/sill-tool/sill/internal/bootstrap"
 	"github.com/sill-tool/sill/internal/calibration"
@@ -506,4 +507,67 @@ func (r *Result) PeaksAt(p curve.Point, capacity float64) (peaks shift.Peaks, ok
 		return r.peaks.At(p.Rows, capacity), true
 	}
 	return r.Shifts.Assigned.At(r.Set, p.Rows, r.Shifts.Scale, capacity), true
+}
+
+// RuleCheck says whether a rule picks a given cut under r's assumptions:
+// the check of a candidate pinned under earlier assumptions.
+type RuleCheck struct {
+	Rule cutrule.Rule
+	// Now is the cut the rule picks under r.Assume; Now.Met is false when
+	// no cut meets it (Now.Reason says why) or the rule does not suit the
+	// assumptions (a queue= rule without a volume, say).
+	Now cutrule.Outcome
+	// Holds reports whether the rule picks the cut it was checked for.
+	Holds bool
+}
+
+// CheckRules returns, for each rule with the score of the cut it was
+// pinned at, whether the rule still picks that cut under r.Assume, and
+// which cut it picks if not. Rules among r.Rules reuse their outcomes;
+// the others are applied on one walk of the cuts, each on its own so that
+// one that does not suit the assumptions leaves the others checked (it
+// holds nowhere; Now.Reason says why). rules and scores have the same
+// length; it returns ctx's error when cancelled.
+func (r *Result) CheckRules(ctx context.Context, rules []cutrule.Rule, scores []float64) ([]RuleCheck, error) {
+	if len(rules) != len(scores) {
+		panic("analysis: CheckRules with rules and scores of different lengths")
+	}
+	out := make([]RuleCheck, len(rules))
+	var finders []*cutrule.Finder
+	var walked []int
+	var opts []cutrule.Option
+	if r.Shifts != nil {
+		opts = append(opts, cutrule.WithShifts(r.Shifts.Assigned, r.Shifts.Scale))
+	}
+	for i, rule := range rules {
+		out[i].Rule = rule
+		if j := slices.Index(r.Rules, rule); j >= 0 && j < len(r.Outcomes) {
+			out[i].Now = r.Outcomes[j]
+			continue
+		}
+		f, err := cutrule.NewFinder([]cutrule.Rule{rule}, r.Set, r.Assume, opts...)
+		if err != nil {
+			out[i].Now = cutrule.Outcome{Rule: rule, Reason: err.Error()}
+			continue
+		}
+		finders = append(finders, f)
+		walked = append(walked, i)
+	}
+	if len(finders) > 0 {
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
+		r.Points(func(p curve.Point) {
+			for _, f := range finders {
+				f.Visit(p)
+			}
+		})
+		for k, f := range finders {
+			out[walked[k]].Now = f.Outcomes()[0]
+		}
+	}
+	for i := range out {
+		out[i].Holds = out[i].Now.Met && out[i].Now.Point.Score == scores[i]
+	}
+	return out, nil
 }

@@ -398,3 +398,53 @@ func TestCheckCost(t *testing.T) {
 		}
 	}
 }
+
+// TestCheckRules: candidates pinned at the validation base rate (0.5)
+// checked under a production base rate of 0.2, by hand on table. At 0.5,
+// base picks 0.7 (4 of 8 flagged), hit=0.75 picks 0.6 (3 of 4 true cases)
+// and queue=40 at 100 cases a shift picks 0.8 (3 of 8: 37.5). At 0.2 the
+// alert rate is 0.2·recall + 0.8·fpr: 0.05 at 0.9, 0.3 at 0.8, so base
+// picks 0.9; hit=0.75 does not depend on the base rate; the queue at 0.8
+// is 30 and at 0.7 is 50, so queue=40 still picks 0.8.
+func TestCheckRules(t *testing.T) {
+	set := read(t, scores.Options{})
+	hit := cutrule.Rule{Kind: cutrule.Hit, Value: 0.75}
+	rules := []cutrule.Rule{{Kind: cutrule.Base}, hit, {Kind: cutrule.Queue, Value: 40}}
+	pinned := []float64{0.7, 0.6, 0.8}
+	tests := []struct {
+		name   string
+		assume projection.Assumptions
+		holds  []bool
+		now    []float64 // NaN: no cut met
+	}{
+		{"as pinned", projection.Assumptions{BaseRate: 0.5, Volume: 100, Confidence: 0.95}, []bool{true, true, true}, []float64{0.7, 0.6, 0.8}},
+		{"base rate 0.2", projection.Assumptions{BaseRate: 0.2, Volume: 100, Confidence: 0.95}, []bool{false, true, true}, []float64{0.9, 0.6, 0.8}},
+		// Without a volume a queue rule picks nothing: it holds nowhere.
+		{"no volume", projection.Assumptions{BaseRate: 0.2, Confidence: 0.95}, []bool{false, true, false}, []float64{0.9, 0.6, math.NaN()}},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			// hit=0.75 is one of the result's rules, the others walked.
+			res, err := analysis.Run(context.Background(), set, tt.assume, analysis.Options{Rules: []cutrule.Rule{hit}})
+			if err != nil {
+				t.Fatal(err)
+			}
+			checks, err := res.CheckRules(context.Background(), rules, pinned)
+			if err != nil {
+				t.Fatal(err)
+			}
+			for i, c := range checks {
+				now := math.NaN()
+				if c.Now.Met {
+					now = c.Now.Point.Score
+				}
+				if c.Rule != rules[i] || c.Holds != tt.holds[i] || !floatcmp.Equal(now, tt.now[i]) {
+					t.Errorf("%v: holds %v now %v, want %v %v", rules[i], c.Holds, now, tt.holds[i], tt.now[i])
+				}
+				if !c.Now.Met && c.Now.Reason == "" {
+					t.Errorf("%v: not met without a reason", rules[i])
+				}
+			}
+		})
+	}
+}

@@ -1,0 +1,149 @@
+package main
+
+import (
+	"context"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/sill-tool/sill/internal/decision"
+	"github.com/sill-tool/sill/internal/demo"
+	"github.com/sill-tool/sill/internal/floatcmp"
+)
+
+// TestCheckRedoLineKeepsTheDecision runs the line sill check offers after
+// status assumption, as a user would paste it: the decision it writes
+// keeps every candidate (name, rule, score, note), the chosen one, the
+// model, chosen_by and the note, with segments, shift queues and the
+// bootstrap recomputed, under the observed base rate.
+func TestCheckRedoLineKeepsTheDecision(t *testing.T) {
+	dir := t.TempDir()
+	data := writeFile(t, dir, "bearings.csv", demo.CSV(demo.DefaultRows, demo.DefaultSeed))
+	cutPath := filepath.Join(dir, "cut.yaml")
+	// Saved at a base rate of 5% while the data's is 7.2% (434 of 6000):
+	// checking the data itself is a wrong assumption, exit 3.
+	save := []string{"report", data, "--cut", "base", "--cut", "hit=0.8", "--cut", "queue=90", "--choose", "hit=0.8",
+		"--base-rate", "0.05", "--volume", "1500", "--capacity", "90", "--cost-false-alert", "20", "--cost-miss", "300",
+		"--segment", "yard", "--time", "read_at", "--shifts", "06:00,14:00,22:00", "--tz", "Europe/Amsterdam", "--bootstrap", "40", "--seed", "7",
+		"--model-name", "bearing-wear", "--model-version", "13", "--chosen-by", "Ines Varga", "--save", cutPath}
+	if r := runSill(t, "", save...); r.code != 0 {
+		t.Fatalf("save: exit %d, %s", r.code, r.stderr)
+	}
+	before, err := decision.ReadFile(cutPath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Notes are written on the review screen; here by hand.
+	before.Note = "kept for the night crew"
+	for i := range before.Candidates {
+		before.Candidates[i].Note = "note on " + before.Candidates[i].Name
+	}
+	if _, err := decision.Write(context.Background(), cutPath, before, decision.WriteOptions{}); err != nil {
+		t.Fatal(err)
+	}
+
+	check := runSill(t, "", "check", cutPath, data)
+	if check.code != 3 {
+		t.Fatalf("check: exit %d, want 3 (assumption); %s %s", check.code, check.stderr, check.stdout)
+	}
+	_, line, found := strings.Cut(check.stdout, "signed off again: ")
+	line, _, _ = strings.Cut(line, "\n")
+	if !found || !strings.HasPrefix(line, "sill report ") {
+		t.Fatalf("no line to run in:\n%s", check.stdout)
+	}
+	words := shellWords(t, line)
+	if r := runSill(t, "", words[1:]...); r.code != 0 {
+		t.Fatalf("%s: exit %d, %s", line, r.code, r.stderr)
+	}
+
+	after, err := decision.ReadFile(cutPath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(after.Candidates) != len(before.Candidates) {
+		t.Fatalf("%d candidates after, %d before", len(after.Candidates), len(before.Candidates))
+	}
+	for i, b := range before.Candidates {
+		a := after.Candidates[i]
+		if a.Name != b.Name || a.Rule != b.Rule || a.Cut.Score != b.Cut.Score || a.Note != b.Note {
+			t.Errorf("candidate %d: %q %q %v %q, want %q %q %v %q", i, a.Name, a.Rule, a.Cut.Score, a.Note, b.Name, b.Rule, b.Cut.Score, b.Note)
+		}
+		if a.Segments == nil || a.Shifts == nil {
+			t.Errorf("candidate %q: segments %v shifts %v, want both recomputed", a.Name, a.Segments != nil, a.Shifts != nil)
+		}
+		// The bootstrap's spread belongs to a rule: hit=0.8 (recall alone)
+		// picks the same cut at any base rate and keeps it.
+		if a.Rule == "hit=0.8" && (a.Stability == nil || a.Stability.Replicates != 40 || a.Stability.Seed != 7) {
+			t.Errorf("candidate %q: stability %+v, want 40 replicates of seed 7", a.Name, a.Stability)
+		}
+	}
+	if after.Chosen != "hit=0.8" || after.Model != before.Model || after.ChosenBy != "Ines Varga" || after.Note != before.Note {
+		t.Errorf("chosen %q model %+v chosen_by %q note %q", after.Chosen, after.Model, after.ChosenBy, after.Note)
+	}
+	// The observed base rate 434/6000 = 0.07233, rounded to four decimals
+	// in the line; the other assumptions as saved.
+	a, b := after.Assumptions, before.Assumptions
+	if !floatcmp.Within(a.BaseRate, 0.0723, 1e-12) || a.Volume != b.Volume || a.Capacity != b.Capacity || *a.Costs != *b.Costs || a.Confidence != b.Confidence {
+		t.Errorf("assumptions %+v, want those of %+v at base rate 0.0723", a, b)
+	}
+	if !strings.Contains(line, "--segment yard") || !strings.Contains(line, "--tz Europe/Amsterdam") || !strings.Contains(line, "--bootstrap 40 --seed 7") {
+		t.Errorf("the line does not give the segments, shifts and bootstrap again: %s", line)
+	}
+	// The check now passes at the re-projected base rate.
+	if r := runSill(t, "", "check", cutPath, data); r.code != 0 {
+		t.Errorf("check after the redo: exit %d, %s", r.code, r.stdout)
+	}
+}
+
+// TestReprojectErrors: --reproject takes its cuts from the file.
+func TestReprojectErrors(t *testing.T) {
+	dir := t.TempDir()
+	scoresPath, cutPath := savedDemo(t, dir)
+	other := writeFile(t, dir, "other.csv", bearingsCSV(1, 500, 0.1, 0, true))
+	for _, tc := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"report", scoresPath, "--reproject", cutPath, "--cut", "base"}, "--cut and --choose go without it"},
+		{[]string{"report", other, "--reproject", cutPath}, "chosen on other data"},
+		{[]string{"report", scoresPath, "--reproject", filepath.Join(dir, "none.yaml")}, "--reproject: "},
+	} {
+		if r := runSill(t, "", tc.args...); r.code != 2 || !strings.Contains(r.stderr, tc.want) {
+			t.Errorf("%q: exit %d, %q, want %q", tc.args, r.code, r.stderr, tc.want)
+		}
+	}
+}
+
+// shellWords splits a line as a POSIX shell splits the words shellWord
+// makes: plain words and single-quoted ones.
+func shellWords(t *testing.T, line string) []string {
+	t.Helper()
+	var words []string
+	var word strings.Builder
+	inWord, quoted := false, false
+	for _, r := range line {
+		switch {
+		case quoted && r == '\'':
+			quoted = false
+		case quoted:
+			word.WriteRune(r)
+		case r == '\'':
+			quoted, inWord = true, true
+		case r == ' ':
+			if inWord {
+				words = append(words, word.String())
+				word.Reset()
+			}
+			inWord = false
+		case r == '\\' || r == '"':
+			t.Fatalf("unexpected %q in %s", r, line)
+		default:
+			word.WriteRune(r)
+			inWord = true
+		}
+	}
+	if inWord {
+		words = append(words, word.String())
+	}
+	return words
+}
