@@ -70,7 +70,7 @@ func BenchmarkSort(b *testing.B) {
 	shuffledLabels := make([]bool, n)
 	for i := range n {
 		j := (i * 7919) % n // 7919 is prime and does not divide 10^6
-		shuffledScores[j], shuffledLabels[j] = set.Scores[i], set.Labels[i]
+		shuffledScores[j], shuffledLabels[j] = set.Scores()[i], set.Labels()[i]
 	}
 	b.SetBytes(int64(n) * 9)
 	scoresCopy := make([]float64, n)

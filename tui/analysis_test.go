@@ -22,7 +22,7 @@ import (
 func TestReportAndExplorerAgree(t *testing.T) {
 	set := twoModels(t)
 	timed := demoTimedSet(t)
-	set.Times, set.TimeColumn = timed.Times, timed.TimeColumn
+	set = withColumns(t, set, func(c *scores.Columns) { c.Times, c.TimeColumn = timed.Times(), timed.TimeColumn() })
 	opts := analysis.Options{Shifts: threeShifts(t), Resampling: analysis.Resampling{Replicates: 40, Seed: 3}}
 	m := loadedWith(t, Config{Load: func(func(int)) (*scores.Set, error) { return set, nil }, Assume: demoAssumptions, Analysis: opts}, 100, 30)
 	agree(t, m, opts)

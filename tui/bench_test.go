@@ -40,19 +40,20 @@ func millionRows(b *testing.B) *scores.Set {
 func millionRowsBeyond(b *testing.B) *scores.Set {
 	set := millionRows(b)
 	rng := rand.New(rand.NewPCG(3, 4))
-	set.SegmentNames = make([]string, 300)
-	for i := range set.SegmentNames {
-		set.SegmentNames[i] = fmt.Sprintf("depot-%03d", i)
-	}
-	set.SegmentOf = make([]int32, set.Len())
-	set.Times = make([]int64, set.Len())
-	start := time.Date(2026, 9, 1, 0, 0, 0, 0, time.UTC).Unix()
-	for i := range set.SegmentOf {
-		set.SegmentOf[i] = int32(rng.IntN(300))
-		set.Times[i] = start + rng.Int64N(90*86400)
-	}
-	set.SegmentColumn, set.TimeColumn = "depot", "read_at"
-	return set
+	return withColumns(b, set, func(c *scores.Columns) {
+		c.SegmentNames = make([]string, 300)
+		for i := range c.SegmentNames {
+			c.SegmentNames[i] = fmt.Sprintf("depot-%03d", i)
+		}
+		c.SegmentOf = make([]int32, set.Len())
+		c.Times = make([]int64, set.Len())
+		start := time.Date(2026, 9, 1, 0, 0, 0, 0, time.UTC).Unix()
+		for i := range c.SegmentOf {
+			c.SegmentOf[i] = int32(rng.IntN(300))
+			c.Times[i] = start + rng.Int64N(90*86400)
+		}
+		c.SegmentColumn, c.TimeColumn = "depot", "read_at"
+	})
 }
 
 // BenchmarkKeystroke measures one keystroke's Update and the View that
@@ -91,7 +92,7 @@ func BenchmarkKeystrokeJump(b *testing.B) {
 
 func benchmarkKeystroke(b *testing.B, set *scores.Set, open []string) {
 	var m Model
-	if set.Times != nil {
+	if set.Times() != nil {
 		m = loadedWith(b, Config{Load: func(func(int)) (*scores.Set, error) { return set, nil }, Assume: demoAssumptions, Analysis: analysis.Options{Shifts: threeShifts(b)}}, 120, 40)
 	} else {
 		m = loaded(b, set, demoAssumptions, filepath.Join(b.TempDir(), "cut.yaml"), 120, 40)

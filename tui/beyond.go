@@ -81,7 +81,7 @@ func (s *session) secondCurve() *curve.Curve {
 }
 
 // hasSegments reports whether the set has a segment column.
-func (s *session) hasSegments() bool { return s.set != nil && s.set.SegmentOf != nil }
+func (s *session) hasSegments() bool { return s.set != nil && s.set.SegmentOf() != nil }
 
 // breakdownAt returns the breakdown by segment at cut i, in the order of
 // the set's segment names; ok is false without a segment column.

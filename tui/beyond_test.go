@@ -5,7 +5,7 @@ import (
 	"math"
 	"math/rand/v2"
 	"path/filepath"
-	"sort"
+	"slices"
 	"strings"
 	"testing"
 	"time"
@@ -91,14 +91,15 @@ func twoModels(t testing.TB) *scores.Set {
 	t.Helper()
 	set := demoSet(t)
 	rng := rand.New(rand.NewPCG(11, 12))
-	set.CompareScores = make([]float64, set.Len())
-	for i, s := range set.Scores {
-		s = min(max(s, 1e-6), 1-1e-6)
-		logit := 0.8*math.Log(s/(1-s)) + 0.9*rng.NormFloat64()
-		set.CompareScores[i] = math.Round(1000/(1+math.Exp(-logit))) / 1000
-	}
-	set.CompareColumn = "score_b"
-	return set
+	return withColumns(t, set, func(c *scores.Columns) {
+		c.CompareScores = make([]float64, set.Len())
+		for i, s := range set.Scores() {
+			s = min(max(s, 1e-6), 1-1e-6)
+			logit := 0.8*math.Log(s/(1-s)) + 0.9*rng.NormFloat64()
+			c.CompareScores[i] = math.Round(1000/(1+math.Exp(-logit))) / 1000
+		}
+		c.CompareColumn = "score_b"
+	})
 }
 
 // manySegments is a seeded set of 2000 rows in 40 depots, one of which
@@ -118,26 +119,17 @@ func manySegments(t testing.TB) *scores.Set {
 		}
 		values[i] = math.Round(1000/(1+math.Exp(-(latent-2)))) / 1000
 	}
-	read := make([]int, n) // the read order, to carry the depots along the ranking
-	for i := range read {
-		read[i] = i
+	names := make([]string, 40)
+	for i := range names {
+		names[i] = fmt.Sprintf("depot-%02d", i)
 	}
-	set, err := scores.New(values, labels, nil, false)
+	set, err := scores.NewSet(scores.Columns{
+		Scores: values, Labels: labels, SegmentOf: depot, SegmentNames: names,
+		SegmentColumn: "depot", Source: "depots.csv",
+	})
 	if err != nil {
 		t.Fatal(err)
 	}
-	// scores.New ranks by score, keeping ties in read order: rank the
-	// depots the same way.
-	sort.SliceStable(read, func(a, b int) bool { return values[read[a]] > values[read[b]] })
-	set.SegmentOf = make([]int32, n)
-	for r, i := range read {
-		set.SegmentOf[r] = depot[i]
-	}
-	set.SegmentNames = make([]string, 40)
-	for i := range set.SegmentNames {
-		set.SegmentNames[i] = fmt.Sprintf("depot-%02d", i)
-	}
-	set.SegmentColumn, set.Source = "depot", "depots.csv"
 	return set
 }
 
@@ -149,10 +141,12 @@ func TestBeyondView(t *testing.T) {
 	demoTimed := demoTimedSet(t)
 	two := twoModels(t)
 	depots := manySegments(t)
-	scaled := tenRows(t)
-	for i := range scaled.Scores {
-		scaled.Scores[i] *= 10 // not probabilities
-	}
+	scaled := withColumns(t, tenRows(t), func(c *scores.Columns) {
+		c.Scores = slices.Clone(c.Scores)
+		for i := range c.Scores {
+			c.Scores[i] *= 10 // not probabilities
+		}
+	})
 	cases := []struct {
 		name          string
 		set           *scores.Set
@@ -184,7 +178,7 @@ func TestBeyondView(t *testing.T) {
 		t.Run(tc.name, func(t *testing.T) {
 			set := tc.set
 			cfg := Config{Load: func(func(int)) (*scores.Set, error) { return set, nil }, Assume: demoAssumptions, Analysis: analysis.Options{Resampling: analysis.Resampling{Replicates: 100, Seed: 1}}}
-			if set.Times != nil {
+			if set.Times() != nil {
 				cfg.Analysis.Shifts = threeShifts(t)
 			}
 			if set == scaled {

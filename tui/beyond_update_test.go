@@ -353,18 +353,19 @@ func TestOddSetsBeyond(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		set.Source = "odd.csv"
-		set.SegmentNames, set.SegmentColumn = []string{"east", "west"}, "yard"
-		set.SegmentOf = make([]int32, set.Len())
-		set.Times = make([]int64, set.Len())
-		set.CompareScores = make([]float64, set.Len())
-		for i := range set.SegmentOf {
-			set.SegmentOf[i] = int32(i % 2)
-			set.Times[i] = 1788220800 + int64(i)*20000 // from 2026-09-01 00:00 UTC, about 5.5 hours apart
-			set.CompareScores[i] = set.Scores[set.Len()-1-i]
-		}
-		set.CompareColumn = "other"
-		return set
+		return withColumns(t, set, func(c *scores.Columns) {
+			c.Source = "odd.csv"
+			c.SegmentNames, c.SegmentColumn = []string{"east", "west"}, "yard"
+			c.SegmentOf = make([]int32, set.Len())
+			c.Times = make([]int64, set.Len())
+			c.CompareScores = make([]float64, set.Len())
+			for i := range c.SegmentOf {
+				c.SegmentOf[i] = int32(i % 2)
+				c.Times[i] = 1788220800 + int64(i)*20000 // from 2026-09-01 00:00 UTC, about 5.5 hours apart
+				c.CompareScores[i] = set.Scores()[set.Len()-1-i]
+			}
+			c.CompareColumn = "other"
+		})
 	}
 	sets := map[string]*scores.Set{
 		"one-row":       build([]float64{0.5}, []bool{true}, nil, false),

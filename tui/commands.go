@@ -65,7 +65,7 @@ func (m Model) loadCmd() tea.Cmd {
 		counter.Store(int64(set.Len()))
 		done.Store(true)
 		if set.Len() == 0 {
-			return loadFailedMsg{fmt.Errorf("%s: no rows to explore", set.Source)}
+			return loadFailedMsg{fmt.Errorf("%s: no rows to explore", set.Source())}
 		}
 		a, err := assume(set)
 		if err != nil {
@@ -86,7 +86,7 @@ func analysisError(set *scores.Set, err error) error {
 	case !errors.As(err, &e):
 		return err
 	case e.Step == analysis.StepShifts:
-		return fmt.Errorf("%s: %w", set.Source, err)
+		return fmt.Errorf("%s: %w", set.Source(), err)
 	case e.Step == analysis.StepRules || e.Step == analysis.StepSecond || e.Step == analysis.StepResampling:
 		return e.Err
 	}

@@ -79,7 +79,7 @@ func TestFlowPinCompareWrite(t *testing.T) {
 			t.Errorf("candidate %d rule %q, want %q", i, got, o.Rule.String())
 		}
 	}
-	if f.Data.SHA256 != set.SHA256 || f.Data.Rows != set.Len() {
+	if f.Data.SHA256 != set.SHA256() || f.Data.Rows != set.Len() {
 		t.Errorf("file data %+v does not describe the set", f.Data)
 	}
 }

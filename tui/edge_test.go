@@ -20,11 +20,10 @@ import (
 // panic and every frame must keep its size.
 func TestOddSets(t *testing.T) {
 	build := func(values []float64, labels []bool, weights []float64, lower bool) *scores.Set {
-		set, err := scores.New(values, labels, weights, lower)
+		set, err := scores.NewSet(scores.Columns{Scores: values, Labels: labels, Weights: weights, LowerIsRiskier: lower, Source: "odd.csv"})
 		if err != nil {
 			t.Fatal(err)
 		}
-		set.Source = "odd.csv"
 		return set
 	}
 	sets := map[string]*scores.Set{
@@ -83,11 +82,10 @@ func TestCutLineCounts(t *testing.T) {
 		{"weighted", []float64{3, 1, 1, 1}, "━━ cut >= 0.9 ━ 1 rows flagged ━"},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
-			set, err := scores.New([]float64{0.9, 0.7, 0.3, 0.1}, []bool{true, false, true, false}, tc.weights, false)
+			set, err := scores.NewSet(scores.Columns{Scores: []float64{0.9, 0.7, 0.3, 0.1}, Labels: []bool{true, false, true, false}, Weights: tc.weights, Source: "four.csv"})
 			if err != nil {
 				t.Fatal(err)
 			}
-			set.Source = "four.csv"
 			m := loaded(t, set, assume, filepath.Join(t.TempDir(), "cut.yaml"), 80, 24)
 			view := m.View()
 			if !strings.Contains(view, tc.want) {
@@ -119,11 +117,10 @@ func TestFooterKeepsHelpAndQuit(t *testing.T) {
 // says in full words why the queue and the cost per shift are missing:
 // without a volume, and with costs but no volume.
 func TestFiguresSayWhatIsMissing(t *testing.T) {
-	set, err := scores.New([]float64{0.9, 0.7, 0.3, 0.1}, []bool{true, false, true, false}, nil, false)
+	set, err := scores.NewSet(scores.Columns{Scores: []float64{0.9, 0.7, 0.3, 0.1}, Labels: []bool{true, false, true, false}, Source: "four.csv"})
 	if err != nil {
 		t.Fatal(err)
 	}
-	set.Source = "four.csv"
 	for _, tc := range []struct {
 		name  string
 		costs *projection.Costs

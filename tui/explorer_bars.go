@@ -23,7 +23,7 @@ func (m Model) header() string {
 	if s.set.Weighted() { // a counts table's weights are whole cases, not weights
 		right += " · weighted"
 	}
-	return statusBar{m.ctx}.header("sill · "+s.set.Source, right, min(ansi.StringWidth(right), m.ctx.width*3/4))
+	return statusBar{m.ctx}.header("sill · "+s.set.Source(), right, min(ansi.StringWidth(right), m.ctx.width*3/4))
 }
 
 // footer is the bottom line: what just happened, whether the pins on

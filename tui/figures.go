@@ -140,7 +140,7 @@ func (p figuresPane) body() string {
 	e := s.evidenceAt(s.cursor)
 	conf := strconv.FormatFloat(100*a.Confidence, 'g', -1, 64) + "%"
 	sign := ">="
-	if s.set.LowerIsRiskier {
+	if s.set.LowerIsRiskier() {
 		sign = "<="
 	}
 	var lines []string

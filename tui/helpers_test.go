@@ -22,6 +22,19 @@ func demoSet(t testing.TB) *scores.Set {
 	return set
 }
 
+// withColumns returns set rebuilt with the columns change makes to set's
+// own, given in set's ranked order, as a test adds a column to a set.
+func withColumns(t testing.TB, set *scores.Set, change func(c *scores.Columns)) *scores.Set {
+	t.Helper()
+	c := set.Columns()
+	change(&c)
+	out, err := scores.NewSet(c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return out
+}
+
 // demoAssumptions are the demo's operating assumptions (package demo) with the validation
 // base rate.
 func demoAssumptions(set *scores.Set) (projection.Assumptions, error) {

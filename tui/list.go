@@ -121,15 +121,15 @@ func (p listPane) columns(innerW, idWidth int) listColumns {
 	// The mark's column is headed "true" where that leaves every id whole,
 	// and "T" where the room goes to the ids (the help's second page says
 	// what it is).
-	if wide := len("true") - c.mark; p.s.set.IDs == nil && rest >= wide || p.s.set.IDs != nil && rest-wide-1 >= max(idWidth, 2) {
+	if wide := len("true") - c.mark; p.s.set.IDs() == nil && rest >= wide || p.s.set.IDs() != nil && rest-wide-1 >= max(idWidth, 2) {
 		c.mark += wide
 		rest -= wide
 	}
-	if p.s.set.IDs != nil {
+	if p.s.set.IDs() != nil {
 		c.id = min(max(rest, 0), max(idWidth, 2), 16)
 		rest -= c.id + 1
 	}
-	if p.s.set.SegmentOf != nil && rest >= 6 {
+	if p.s.set.SegmentOf() != nil && rest >= 6 {
 		c.segment = min(rest, 14)
 	}
 	return c
@@ -141,9 +141,9 @@ func (p listPane) body(innerW int) string {
 		return st.Muted.Render("no cases")
 	}
 	idWidth := 0
-	if s.set.IDs != nil {
+	if s.set.IDs() != nil {
 		for r := p.offset; r < min(p.offset+p.rowsInView(), s.set.Len()); r++ {
-			idWidth = max(idWidth, len([]rune(s.set.IDs[r])))
+			idWidth = max(idWidth, len([]rune(s.set.IDs()[r])))
 		}
 	}
 	cols := p.columns(innerW, idWidth)
@@ -189,7 +189,7 @@ func (p listPane) body(innerW int) string {
 // above it, which the figures pane weighs.
 func (p listPane) cutLine(score float64, flagged, width int) string {
 	sign := ">="
-	if p.s.set.LowerIsRiskier {
+	if p.s.set.LowerIsRiskier() {
 		sign = "<="
 	}
 	noun := "flagged"
@@ -216,11 +216,11 @@ func (p listPane) row(r int, cols listColumns, innerW int, flagged, inGroup bool
 		gutter = "▶"
 	}
 	mark := "·"
-	if s.set.Labels[r] {
+	if s.set.Labels()[r] {
 		mark = "●"
 	}
 	hit := s.curve.At(s.curve.CutOfRow(r)).Recall()
-	head := gutter + pad(strconv.Itoa(r+1), cols.rank, true) + " " + pad(format.Score(s.set.Scores[r]), cols.score, false) + " "
+	head := gutter + pad(strconv.Itoa(r+1), cols.rank, true) + " " + pad(format.Score(s.set.Scores()[r]), cols.score, false) + " "
 	tail := ""
 	if cols.id > 0 {
 		tail += " " + pad(format.Printable(s.set.ID(r)), cols.id, false)
@@ -238,7 +238,7 @@ func (p listPane) row(r int, cols listColumns, innerW int, flagged, inGroup bool
 		style = st.Flagged
 	}
 	mark = pad(mark, cols.mark, false)
-	if !s.set.Labels[r] {
+	if !s.set.Labels()[r] {
 		return style.Render(head + mark + tail)
 	}
 	// A true case's mark gets its own style on top of the row's.

@@ -27,14 +27,14 @@ import (
 // rows): cut 0 is 0.9, cut 1 is 0.8, cut 2 is 0.7, cut 3 is 0.6 and so on.
 func tenRows(t testing.TB) *scores.Set {
 	t.Helper()
-	set, err := scores.New(
-		[]float64{0.9, 0.8, 0.8, 0.7, 0.6, 0.5, 0.4, 0.3, 0.2, 0.1},
-		[]bool{true, false, true, false, true, false, false, false, false, false},
-		nil, false)
+	set, err := scores.NewSet(scores.Columns{
+		Scores: []float64{0.9, 0.8, 0.8, 0.7, 0.6, 0.5, 0.4, 0.3, 0.2, 0.1},
+		Labels: []bool{true, false, true, false, true, false, false, false, false, false},
+		Source: "ten.csv",
+	})
 	if err != nil {
 		t.Fatal(err)
 	}
-	set.Source = "ten.csv"
 	return set
 }
 

@@ -176,8 +176,8 @@ func (p *modelsPane) View() string {
 	}
 	a := s.assume
 	lines := []string{
-		fmt.Sprintf("A %s: ROC AUC %s   B %s: ROC AUC %s", format.Printable(s.set.ScoreColumn), format.Number(s.curve.Summary.ROCAUC, 3),
-			format.Printable(s.set.CompareColumn), format.Number(second.Summary.ROCAUC, 3)),
+		fmt.Sprintf("A %s: ROC AUC %s   B %s: ROC AUC %s", format.Printable(s.set.ScoreColumn()), format.Number(s.curve.Summary.ROCAUC, 3),
+			format.Printable(s.set.CompareColumn()), format.Number(second.Summary.ROCAUC, 3)),
 	}
 	if second.TestErr != nil {
 		lines = append(lines, st.Muted.Render("paired test: "+format.Printable(second.TestErr.Error())))

@@ -139,10 +139,10 @@ func (p *segmentsPane) View() string {
 	width := min(p.ctx.width-2, natural+st.Overlay.GetHorizontalFrameSize())
 	innerW := width - st.Overlay.GetHorizontalFrameSize()
 	sign := ">="
-	if s.set.LowerIsRiskier {
+	if s.set.LowerIsRiskier() {
 		sign = "<="
 	}
-	title := fmt.Sprintf("segments (%s) at cut %s %s · by %s", s.set.SegmentColumn, sign, format.Score(s.point().Score), orderName(p.order))
+	title := fmt.Sprintf("segments (%s) at cut %s %s · by %s", s.set.SegmentColumn(), sign, format.Score(s.point().Score), orderName(p.order))
 
 	// Columns: the name takes what the figures leave.
 	wide := innerW >= natural

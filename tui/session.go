@@ -179,6 +179,6 @@ func (s *session) table() compare.Table {
 	return compare.New(columns, s.reference, compare.Options{
 		Assumptions:     s.assume,
 		BaseRateChanged: s.baseRateChanged(),
-		LowerIsRiskier:  s.set.LowerIsRiskier,
+		LowerIsRiskier:  s.set.LowerIsRiskier(),
 	})
 }

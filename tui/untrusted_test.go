@@ -52,8 +52,8 @@ func TestExplorerShowsUntrustedTextSafely(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if !strings.HasPrefix(set.ID(0), format.Hostile) || !slices.Contains(set.SegmentNames, "north"+format.Hostile) {
-		t.Fatalf("the control text did not reach the set: id %q, segments %q", set.ID(0), set.SegmentNames)
+	if !strings.HasPrefix(set.ID(0), format.Hostile) || !slices.Contains(set.SegmentNames(), "north"+format.Hostile) {
+		t.Fatalf("the control text did not reach the set: id %q, segments %q", set.ID(0), set.SegmentNames())
 	}
 	m := loaded(t, set, demoAssumptions, filepath.Join(t.TempDir(), "cut.yaml"), 140, 44)
 	noRawControl(t, "explorer", m.View())

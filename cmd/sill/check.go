@@ -124,7 +124,7 @@ Exit status:
 			for _, w := range report.DroppedWarnings(set) {
 				fmt.Fprintf(cmd.ErrOrStderr(), "sill: warning: %s: %s\n", format.Printable(args[1]), format.Printable(w))
 			}
-			res, err := drift.Check(file, set, drift.Options{Tolerance: tolerance, Labelled: set.LabelColumn != "" && !ignoreLabels, IgnoreLabels: "--ignore-labels",
+			res, err := drift.Check(file, set, drift.Options{Tolerance: tolerance, Labelled: set.LabelColumn() != "" && !ignoreLabels, IgnoreLabels: "--ignore-labels",
 				Redo: func(baseRate float64) string { return redoLine(file, args[0], baseRate) }})
 			if err != nil {
 				return fmt.Errorf("check %s: %w", args[1], err)

@@ -20,7 +20,7 @@ func bothClasses(set *scores.Set, what string) error {
 	if positives > 0 && negatives > 0 {
 		return nil
 	}
-	source := set.Source
+	source := set.Source()
 	if source == "-" {
 		source = "standard input"
 	}
@@ -28,8 +28,8 @@ func bothClasses(set *scores.Set, what string) error {
 	if set.Weighted() {
 		found = fmt.Sprintf("true cases weighing %s and false cases weighing %s", format.Count(positives), format.Count(negatives))
 	}
-	if set.LabelColumn != "" {
-		found += fmt.Sprintf(" in column %q", set.LabelColumn)
+	if set.LabelColumn() != "" {
+		found += fmt.Sprintf(" in column %q", set.LabelColumn())
 	}
 	return fmt.Errorf("%s: %s has %s; choosing a cut needs both classes, expected at least one true and one false case",
 		what, format.Printable(source), found)

@@ -72,8 +72,8 @@ func TestDemoConfig(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if set.Times == nil || set.TimeColumn != "read_at" || set.SegmentColumn != "yard" || set.IDColumn != "id" {
-		t.Errorf("demo set: times %v, time %q, segment %q, id %q", set.Times != nil, set.TimeColumn, set.SegmentColumn, set.IDColumn)
+	if set.Times() == nil || set.TimeColumn() != "read_at" || set.SegmentColumn() != "yard" || set.IDColumn() != "id" {
+		t.Errorf("demo set: times %v, time %q, segment %q, id %q", set.Times() != nil, set.TimeColumn(), set.SegmentColumn(), set.IDColumn())
 	}
 	a, err := cfg.Assume(set)
 	if err != nil || a.Volume != 1500 || a.Capacity != 90 || a.Costs == nil {

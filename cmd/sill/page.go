@@ -73,6 +73,6 @@ func (o *reportOptions) page(ctx context.Context, res *analysis.Result, stdout, 
 		fmt.Fprintln(stderr, "sill: warning: "+w)
 	}
 	return pageOut(ctx, o.out, stdout, stderr, func(w io.Writer) error {
-		return page.Write(w, f, page.Options{Name: res.Set.Source})
+		return page.Write(w, f, page.Options{Name: res.Set.Source()})
 	})
 }

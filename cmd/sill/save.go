@@ -159,7 +159,7 @@ func (s *saveFlags) write(ctx context.Context, res *analysis.Result, stderr io.W
 	}
 	c, _ := f.ChosenCandidate()
 	sign := ">="
-	if set.LowerIsRiskier {
+	if set.LowerIsRiskier() {
 		sign = "<="
 	}
 	fmt.Fprintf(stderr, "sill: saved %d %s to %s; chosen %s: flag when score %s %s\n",

@@ -209,7 +209,7 @@ func Run(ctx context.Context, set *scores.Set, a projection.Assumptions, opts Op
 		}
 		r.Shifts = &Shifts{Assigned: assigned}
 	}
-	if set.SegmentOf != nil && opts.Cursor {
+	if set.SegmentOf() != nil && opts.Cursor {
 		r.segments = segment.NewRunning(set)
 	}
 	if opts.Cursor {
@@ -226,7 +226,7 @@ func Run(ctx context.Context, set *scores.Set, a projection.Assumptions, opts Op
 		}
 		r.Calibration = &Calibration{Table: table, Bins: bins}
 	}
-	if set.CompareScores != nil {
+	if set.CompareScores() != nil {
 		second, err := newSecond(set, opts)
 		if err != nil {
 			return nil, stepError(StepSecond, err)
@@ -344,7 +344,7 @@ func (r *Result) assume(a projection.Assumptions, prev *Result) error {
 	}
 	r.Outcomes = finder.Outcomes()
 
-	if r.Set.SegmentOf != nil {
+	if r.Set.SegmentOf() != nil {
 		r.Segments = make([]segment.Breakdown, len(r.Outcomes))
 		for i, o := range r.Outcomes {
 			if o.Met {
@@ -484,7 +484,7 @@ func (r *Result) CheckCost(stability *bootstrap.Result) CostCheck {
 // r.Assume, so that a screen can show a new level at once.
 func (r *Result) SegmentsAt(p curve.Point, confidence float64) (b segment.Breakdown, ok bool) {
 	switch {
-	case r.Set.SegmentOf == nil:
+	case r.Set.SegmentOf() == nil:
 		return segment.Breakdown{}, false
 	case r.segments != nil:
 		return r.segments.At(p, confidence), true

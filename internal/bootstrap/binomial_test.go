@@ -71,9 +71,9 @@ func TestMultinomialKeepsClassSizes(t *testing.T) {
 		if positives != 4e6 || negatives != 6e6 || rep.Cases() != 10e6 || !rep.CountsTable() {
 			t.Fatalf("replicate %d: %v true and %v false cases, %d in all (counts table %v), want 4e6, 6e6 and 10e6", b, positives, negatives, rep.Cases(), rep.CountsTable())
 		}
-		for i, w := range rep.Weights {
-			share := w / map[bool]float64{true: 4e6, false: 6e6}[rep.Labels[i]]
-			want := set.Weights[i] / map[bool]float64{true: 4e6, false: 6e6}[set.Labels[i]]
+		for i, w := range rep.Weights() {
+			share := w / map[bool]float64{true: 4e6, false: 6e6}[rep.Labels()[i]]
+			want := set.Weights()[i] / map[bool]float64{true: 4e6, false: 6e6}[set.Labels()[i]]
 			if math.Abs(share-want) > 0.002 { // about 8 standard errors of a share near one half among millions
 				t.Errorf("replicate %d row %d: share %v, want about %v", b, i, share, want)
 			}

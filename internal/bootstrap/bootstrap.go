@@ -374,7 +374,7 @@ type group struct {
 func newReplicator(set *scores.Set, design Design) *replicator {
 	r := &replicator{set: set}
 	var positiveRows, negativeRows, all []int
-	for i, positive := range set.Labels {
+	for i, positive := range set.Labels() {
 		all = append(all, i)
 		if positive {
 			positiveRows = append(positiveRows, i)
@@ -413,8 +413,8 @@ func cellsOf(set *scores.Set) (*scores.Set, error) {
 	for i := 0; i < set.Len(); {
 		j := i
 		var positives, negatives float64
-		for ; j < set.Len() && set.Scores[j] == set.Scores[i]; j++ {
-			if set.Labels[j] {
+		for ; j < set.Len() && set.Scores()[j] == set.Scores()[i]; j++ {
+			if set.Labels()[j] {
 				positives += float64(set.CasesAt(j))
 			} else {
 				negatives += float64(set.CasesAt(j))
@@ -425,12 +425,12 @@ func cellsOf(set *scores.Set) (*scores.Set, error) {
 			n     float64
 		}{{true, positives}, {false, negatives}} {
 			if c.n > 0 {
-				sc, labels, counts = append(sc, set.Scores[i]), append(labels, c.label), append(counts, c.n)
+				sc, labels, counts = append(sc, set.Scores()[i]), append(labels, c.label), append(counts, c.n)
 			}
 		}
 		i = j
 	}
-	return scores.NewCounts(sc, labels, counts, set.LowerIsRiskier)
+	return scores.NewCounts(sc, labels, counts, set.LowerIsRiskier())
 }
 
 // casesBefore returns the cases of a counts table's rows before each of
@@ -589,7 +589,7 @@ func (r *replicator) band(cuts []bandCut, b int, recallAt, fdrAt [][]float64) {
 		drawnWeight = func(i int) float64 { return r.drawn[i] }
 	}
 	var positives float64
-	for i, positive := range r.set.Labels {
+	for i, positive := range r.set.Labels() {
 		if positive {
 			positives += drawnWeight(i)
 		}
@@ -599,7 +599,7 @@ func (r *replicator) band(cuts []bandCut, b int, recallAt, fdrAt [][]float64) {
 	for j, cut := range cuts {
 		for ; row < cut.rows; row++ {
 			w := drawnWeight(row)
-			if r.set.Labels[row] {
+			if r.set.Labels()[row] {
 				tp += w
 			} else {
 				fp += w

@@ -356,7 +356,12 @@ func TestQueue90Skipped(t *testing.T) {
 	if _, err := bootstrap.Run(context.Background(), set, rs, assume, bootstrap.Options{Replicates: 5}); !errors.Is(err, cutrule.ErrNeedsShifts) {
 		t.Fatalf("queue90 without shifts: %v", err)
 	}
-	set.Times = make([]int64, set.Len()) // every case in one shift
+	c := set.Columns()
+	c.Times = make([]int64, set.Len()) // every case in one shift
+	set, err := scores.NewSet(c)
+	if err != nil {
+		t.Fatal(err)
+	}
 	sched, _ := shift.ParseSchedule("06:00", time.UTC)
 	assigned, err := shift.Assign(set, sched)
 	if err != nil {

@@ -100,7 +100,7 @@ func Reliability(set *scores.Set, bins int, binning Binning) (Table, error) {
 	switch binning {
 	case Quantile:
 		ascending := make([]float64, set.Len())
-		for i, s := range set.Scores {
+		for i, s := range set.Scores() {
 			ascending[set.Len()-1-i] = s // ranked riskiest first, so descending
 		}
 		var casesBefore []float64 // for a counts table: cases of the ascending rows before each
@@ -139,13 +139,13 @@ func Reliability(set *scores.Set, bins int, binning Binning) (Table, error) {
 	sums := make([]float64, bins)
 	trues := make([]float64, bins)
 	inner := edges[1:bins]
-	for i, s := range set.Scores {
+	for i, s := range set.Scores() {
 		b := sort.SearchFloat64s(inner, s) // the number of inner edges < s
 		w := set.Weight(i)
 		t.Bins[b].Count += set.CasesAt(i) // a counts table's row stands for its cases
 		t.Bins[b].Weight += w
 		sums[b] += w * s
-		if set.Labels[i] {
+		if set.Labels()[i] {
 			trues[b] += w
 		}
 	}
@@ -200,10 +200,10 @@ func casesQuantile(ascending, casesBefore []float64, q float64) float64 {
 // of a true case: every score in [0,1] and higher scores riskier. An empty
 // set counts as probabilities.
 func Probabilities(set *scores.Set) bool {
-	if set.LowerIsRiskier {
+	if set.LowerIsRiskier() {
 		return false
 	}
-	for _, s := range set.Scores {
+	for _, s := range set.Scores() {
 		if s < 0 || s > 1 {
 			return false
 		}

@@ -97,7 +97,7 @@ func Walk(set *scores.Set, visit func(Point)) Summary {
 		Negatives:     negatives,
 		BaseRate:      ratio(positives, positives+negatives),
 		Weighted:      set.Weighted(),
-		Probabilities: !set.LowerIsRiskier && set.Len() > 0,
+		Probabilities: !set.LowerIsRiskier() && set.Len() > 0,
 	}
 	var (
 		tp, fp         float64 // cumulative
@@ -105,8 +105,8 @@ func Walk(set *scores.Set, visit func(Point)) Summary {
 		brier, logLoss float64
 		totalWeight    float64
 		previousRecall float64
-		scoresList     = set.Scores
-		labels         = set.Labels
+		scoresList     = set.Scores()
+		labels         = set.Labels()
 		n              = set.Len()
 		cutIndex       int
 	)

@@ -190,8 +190,8 @@ func TestReferenceScikitLearn(t *testing.T) {
 				t.Fatalf("roc_curve: %d fpr, %d tpr, %d thresholds; want %d each", len(roc.FPR), len(roc.TPR), len(roc.Thresholds), m+1)
 			}
 			// reference: scikit-learn 1.2.1 roc_curve starts at (0, 0) above the top score
-			if roc.FPR[0] != 0 || roc.TPR[0] != 0 || !set.Riskier(roc.Thresholds[0], set.Scores[0]) {
-				t.Errorf("roc_curve first point (%v, %v) at %v, want (0, 0) above the top score %v", roc.FPR[0], roc.TPR[0], roc.Thresholds[0], set.Scores[0])
+			if roc.FPR[0] != 0 || roc.TPR[0] != 0 || !set.Riskier(roc.Thresholds[0], set.Scores()[0]) {
+				t.Errorf("roc_curve first point (%v, %v) at %v, want (0, 0) above the top score %v", roc.FPR[0], roc.TPR[0], roc.Thresholds[0], set.Scores()[0])
 			}
 			for j := 1; j <= m; j++ {
 				p := weighted[j-1]

@@ -34,7 +34,7 @@ func (c *Curve) Len() int { return len(c.end) }
 func (c *Curve) At(i int) Point {
 	return Point{
 		Index: i,
-		Score: c.Set.Scores[c.end[i]-1],
+		Score: c.Set.Scores()[c.end[i]-1],
 		Rows:  c.end[i],
 		Cases: c.Set.CasesFlagged(c.end[i]),
 		TP:    c.tp[i],

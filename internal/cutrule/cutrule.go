@@ -262,7 +262,7 @@ func (f *Finder) Visit(p curve.Point) {
 		for ; f.rowsAdded < p.Rows; f.rowsAdded++ {
 			for _, c := range f.counters {
 				if c != nil {
-					c.Add(f.rowsAdded, f.set.Labels[f.rowsAdded], f.set.Weight(f.rowsAdded))
+					c.Add(f.rowsAdded, f.set.Labels()[f.rowsAdded], f.set.Weight(f.rowsAdded))
 				}
 			}
 		}

@@ -142,7 +142,7 @@ func TestFindMatchesOracle(t *testing.T) {
 		for i, r := range rules {
 			want := oracle(r, points, set, a)
 			o := outcomes[i]
-			name := fmt.Sprintf("trial %d (n=%d, base rate %v, lower %v): %v", trial, n, a.BaseRate, set.LowerIsRiskier, r)
+			name := fmt.Sprintf("trial %d (n=%d, base rate %v, lower %v): %v", trial, n, a.BaseRate, set.LowerIsRiskier(), r)
 			switch {
 			case want < 0 && o.Met:
 				t.Errorf("%s: met at cut %d (score %v), oracle says unmet", name, o.Point.Index, o.Point.Score)

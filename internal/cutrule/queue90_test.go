@@ -24,13 +24,14 @@ import (
 func TestQueue90HandWorked(t *testing.T) {
 	sc := []float64{10, 9, 8, 7, 6, 5, 4, 3, 2, 1}
 	labels := []bool{true, false, true, false, true, false, false, true, false, false}
-	set, err := scores.New(sc, labels, nil, false)
+	base := time.Date(2026, 9, 1, 0, 0, 0, 0, time.UTC).Unix()
+	var times []int64
+	for _, h := range []int64{1, 2, 3, 13, 37, 38, 25, 26, 40, 47} {
+		times = append(times, base+h*3600)
+	}
+	set, err := scores.NewSet(scores.Columns{Scores: sc, Labels: labels, Times: times})
 	if err != nil {
 		t.Fatal(err)
-	}
-	base := time.Date(2026, 9, 1, 0, 0, 0, 0, time.UTC).Unix()
-	for _, h := range []int64{1, 2, 3, 13, 37, 38, 25, 26, 40, 47} {
-		set.Times = append(set.Times, base+h*3600)
 	}
 	sched, _ := shift.ParseSchedule("00:00,12:00", time.UTC)
 	assigned, err := shift.Assign(set, sched)

@@ -58,15 +58,15 @@ func New(res *analysis.Result, picks []Pick, chosen string, rec Record) (*File, 
 		Model:       rec.Model,
 		ChosenBy:    rec.ChosenBy,
 		Data: Data{
-			Path:           set.Source,
-			SHA256:         set.SHA256,
+			Path:           set.Source(),
+			SHA256:         set.SHA256(),
 			Rows:           set.Cases(), // cases: the summed counts of a counts table
 			Positives:      positives,
 			Negatives:      negatives,
-			ScoreColumn:    set.ScoreColumn,
-			LabelColumn:    set.LabelColumn,
-			WeightColumn:   set.WeightColumn,
-			LowerIsRiskier: set.LowerIsRiskier,
+			ScoreColumn:    set.ScoreColumn(),
+			LabelColumn:    set.LabelColumn(),
+			WeightColumn:   set.WeightColumn(),
+			LowerIsRiskier: set.LowerIsRiskier(),
 			Histogram:      NewHistogram(set),
 		},
 		Assumptions: a,
@@ -82,7 +82,7 @@ func New(res *analysis.Result, picks []Pick, chosen string, rec Record) (*File, 
 		c := Candidate{Name: p.Name, Rule: p.Rule, Note: p.Note, Cut: evidence.Of(p.Point, a)}
 		c.Stability = stabilityOf(res, p)
 		if b, ok := res.SegmentsAt(p.Point, a.Confidence); ok {
-			c.Segments = segmentsOf(set.SegmentColumn, b)
+			c.Segments = segmentsOf(set.SegmentColumn(), b)
 		}
 		if peaks, ok := res.PeaksAt(p.Point, a.Capacity); ok {
 			c.Shifts = &Shifts{Count: peaks.Shifts, Mean: peaks.Mean, P90: peaks.P90, Max: peaks.Max, OverCapacity: peaks.OverCapacity}
@@ -95,7 +95,7 @@ func New(res *analysis.Result, picks []Pick, chosen string, rec Record) (*File, 
 	}
 	if res.Shifts != nil {
 		s := res.Shifts.Assigned.Schedule
-		f.ShiftSchedule = &ShiftSchedule{Zone: s.Location.String(), TimeColumn: set.TimeColumn}
+		f.ShiftSchedule = &ShiftSchedule{Zone: s.Location.String(), TimeColumn: set.TimeColumn()}
 		for _, m := range s.Starts {
 			f.ShiftSchedule.Starts = append(f.ShiftSchedule.Starts, clock(m))
 		}

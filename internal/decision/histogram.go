@@ -38,7 +38,7 @@ func NewHistogram(set *scores.Set) Histogram {
 	// ascending(k) is the index of the k-th smallest score: the set is
 	// ranked riskiest first, which is descending unless lower is riskier.
 	ascending := func(k int) int {
-		if set.LowerIsRiskier {
+		if set.LowerIsRiskier() {
 			return k
 		}
 		return n - 1 - k
@@ -53,20 +53,20 @@ func NewHistogram(set *scores.Set) Histogram {
 		total = float64(n)
 	}
 	const slack = 1e-12
-	edges := []float64{set.Scores[ascending(0)]}
+	edges := []float64{set.Scores()[ascending(0)]}
 	cumulative := 0.0 // weight of the scores below the current one
 	next := 1         // the quantile (in 20ths) the next edge waits for
 	for k := 0; k < n; {
-		score := set.Scores[ascending(k)]
+		score := set.Scores()[ascending(k)]
 		if k > 0 && next < HistogramBins && cumulative >= float64(next)*total/HistogramBins*(1-slack) {
 			edges = append(edges, score)
 			next = int(math.Floor(cumulative*HistogramBins/total*(1+slack))) + 1
 		}
-		for ; k < n && set.Scores[ascending(k)] == score; k++ {
+		for ; k < n && set.Scores()[ascending(k)] == score; k++ {
 			cumulative += weightOf(ascending(k))
 		}
 	}
-	edges = append(edges, set.Scores[ascending(n-1)])
+	edges = append(edges, set.Scores()[ascending(n-1)])
 	h := Histogram{Edges: edges}
 	h.Counts = h.Fill(set)
 	return h
@@ -89,7 +89,7 @@ func (h Histogram) Fill(set *scores.Set) []float64 {
 		return nil
 	}
 	counts := make([]float64, len(h.Edges)-1)
-	for i, s := range set.Scores {
+	for i, s := range set.Scores() {
 		counts[h.Bin(s)] += set.Weight(i)
 	}
 	return counts

@@ -124,9 +124,9 @@ func TestCurveThinned(t *testing.T) {
 	// Every kept point is the curve's own: the counts at its score.
 	for _, cp := range g.Curve[:20] {
 		tp, fp := 0.0, 0.0
-		for i, s := range big.Set.Scores {
+		for i, s := range big.Set.Scores() {
 			if s >= cp.Score {
-				if big.Set.Labels[i] {
+				if big.Set.Labels()[i] {
 					tp++
 				} else {
 					fp++

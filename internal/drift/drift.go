@@ -144,7 +144,7 @@ func Check(f *decision.File, set *scores.Set, opt Options) (*Result, error) {
 		return nil, fmt.Errorf("%w (%q)", ErrNoCandidate, f.Chosen)
 	}
 	counts := tally{rows: set.Cases(), weighted: set.Weighted()} // a counts table: cases, not table rows
-	for i, s := range set.Scores {
+	for i, s := range set.Scores() {
 		w := set.Weight(i)
 		flagged := s >= chosen.Cut.Score
 		if f.Data.LowerIsRiskier {
@@ -154,7 +154,7 @@ func Check(f *decision.File, set *scores.Set, opt Options) (*Result, error) {
 		if flagged {
 			counts.flagged += w
 		}
-		if opt.Labelled && set.Labels[i] {
+		if opt.Labelled && set.Labels()[i] {
 			counts.positives += w
 			if flagged {
 				counts.tp += w
@@ -197,8 +197,8 @@ func (t *tally) fillClasses(f *decision.File, set *scores.Set, labelled bool) {
 		}
 		t.byPositives, t.byNegatives = &pos, &neg
 		t.newPositives, t.newNegatives = make([]float64, len(pos.ends)), make([]float64, len(neg.ends))
-		for i, s := range set.Scores {
-			if set.Labels[i] {
+		for i, s := range set.Scores() {
+			if set.Labels()[i] {
 				t.newPositives[pos.bin(s)] += set.Weight(i)
 			} else {
 				t.newNegatives[neg.bin(s)] += set.Weight(i)
@@ -216,7 +216,7 @@ func (t *tally) fillClasses(f *decision.File, set *scores.Set, labelled bool) {
 	}
 	t.mixture = &mix
 	t.mixed = make([]float64, len(mix.ends))
-	for i, s := range set.Scores {
+	for i, s := range set.Scores() {
 		t.mixed[mix.bin(s)] += set.Weight(i)
 	}
 }

@@ -41,7 +41,7 @@ func quickFile(t testing.TB, set *scores.Set, base float64) *decision.File {
 	}
 	f := &decision.File{
 		Format: decision.Format, Assumptions: a, Curve: points, Chosen: "hit=0.8",
-		Data:       decision.Data{Path: "validation.csv", Rows: set.Len(), Positives: positives, Negatives: negatives, LowerIsRiskier: set.LowerIsRiskier, Histogram: decision.NewHistogram(set)},
+		Data:       decision.Data{Path: "validation.csv", Rows: set.Len(), Positives: positives, Negatives: negatives, LowerIsRiskier: set.LowerIsRiskier(), Histogram: decision.NewHistogram(set)},
 		Candidates: []decision.Candidate{{Name: "hit=0.8", Rule: "hit=0.8", Cut: evidence.Of(chosen, a)}},
 	}
 	return f

@@ -50,10 +50,10 @@ type Test struct {
 // (Scores and CompareScores). It returns ErrNoSecondModel without a second
 // column and ErrNoClass when either class weighs nothing.
 func Compare(set *scores.Set) (Test, error) {
-	if set.CompareScores == nil {
+	if set.CompareScores() == nil {
 		return Test{}, ErrNoSecondModel
 	}
-	return Paired(set.Scores, set.CompareScores, set.Labels, set.Weights, set.LowerIsRiskier)
+	return Paired(set.Scores(), set.CompareScores(), set.Labels(), set.Weights(), set.LowerIsRiskier())
 }
 
 // Paired runs DeLong's paired test on two models' scores a and b of the
@@ -200,7 +200,7 @@ func covariance(v [2][]float64, rows []int, weight func(int) float64, auc [2]flo
 // without a second column. Rows tied on the second score keep the set's
 // order.
 func Second(set *scores.Set) (*scores.Set, error) {
-	if set.CompareScores == nil {
+	if set.CompareScores() == nil {
 		return nil, ErrNoSecondModel
 	}
 	return set.SwapScores(), nil
@@ -222,37 +222,35 @@ var (
 // must agree with set's. Both sets must run in the same direction; Join
 // takes set's. The result shares set's columns but CompareScores.
 func Join(set, other *scores.Set) (*scores.Set, error) {
-	if set.IDs == nil || other.IDs == nil {
+	if set.IDs() == nil || other.IDs() == nil {
 		return nil, ErrNoIDs
 	}
 	index := make(map[string]int, other.Len())
-	for i, id := range other.IDs {
+	for i, id := range other.IDs() {
 		if _, dup := index[id]; dup {
-			return nil, fmt.Errorf("%s: %w %q", other.Source, ErrDuplicateID, id)
+			return nil, fmt.Errorf("%s: %w %q", other.Source(), ErrDuplicateID, id)
 		}
 		index[id] = i
 	}
 	seen := make(map[string]bool, set.Len())
 	compare := make([]float64, set.Len())
-	for i, id := range set.IDs {
+	for i, id := range set.IDs() {
 		if seen[id] {
-			return nil, fmt.Errorf("%s: %w %q", set.Source, ErrDuplicateID, id)
+			return nil, fmt.Errorf("%s: %w %q", set.Source(), ErrDuplicateID, id)
 		}
 		seen[id] = true
 		j, ok := index[id]
 		if !ok {
-			return nil, fmt.Errorf("%w: %q of %s is not in %s", ErrUnmatchedID, id, set.Source, other.Source)
+			return nil, fmt.Errorf("%w: %q of %s is not in %s", ErrUnmatchedID, id, set.Source(), other.Source())
 		}
-		if other.LabelColumn != "" && other.Labels[j] != set.Labels[i] {
-			return nil, fmt.Errorf("%w: id %q is %v in %s and %v in %s", ErrLabelClash, id, set.Labels[i], set.Source, other.Labels[j], other.Source)
+		if other.LabelColumn() != "" && other.Labels()[j] != set.Labels()[i] {
+			return nil, fmt.Errorf("%w: id %q is %v in %s and %v in %s", ErrLabelClash, id, set.Labels()[i], set.Source(), other.Labels()[j], other.Source())
 		}
-		compare[i] = other.Scores[j]
+		compare[i] = other.Scores()[j]
 	}
-	out := *set
-	out.CompareScores = compare
-	out.CompareColumn = other.ScoreColumn
-	if out.CompareColumn == set.ScoreColumn {
-		out.CompareColumn = other.Source + ":" + other.ScoreColumn
+	column := other.ScoreColumn()
+	if column == set.ScoreColumn() {
+		column = other.Source() + ":" + other.ScoreColumn()
 	}
-	return &out, nil
+	return set.WithCompare(compare, column), nil
 }

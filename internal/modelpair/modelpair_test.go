@@ -180,12 +180,13 @@ func TestUndefined(t *testing.T) {
 // TestSecond: the second model's set is ranked by its scores and carries
 // every column; its curve's AUC is the test's second AUC.
 func TestSecond(t *testing.T) {
-	set, err := scores.New([]float64{0.9, 0.8, 0.3, 0.1}, []bool{true, false, true, false}, []float64{1, 2, 1, 1}, false)
+	set, err := scores.NewSet(scores.Columns{
+		Scores: []float64{0.9, 0.8, 0.3, 0.1}, Labels: []bool{true, false, true, false}, Weights: []float64{1, 2, 1, 1},
+		CompareScores: []float64{0.2, 0.7, 0.7, 0.4}, Times: []int64{10, 20, 30, 40},
+	})
 	if err != nil {
 		t.Fatal(err)
 	}
-	set.CompareScores = []float64{0.2, 0.7, 0.7, 0.4}
-	set.Times = []int64{10, 20, 30, 40}
 	second, err := modelpair.Second(set)
 	if err != nil {
 		t.Fatal(err)
@@ -194,8 +195,8 @@ func TestSecond(t *testing.T) {
 	wantTimes := []int64{20, 30, 40, 10}
 	wantScores := []float64{0.7, 0.7, 0.4, 0.2}
 	for i := range wantTimes {
-		if second.Times[i] != wantTimes[i] || second.Scores[i] != wantScores[i] {
-			t.Errorf("row %d: %v %v", i, second.Scores[i], second.Times[i])
+		if second.Times()[i] != wantTimes[i] || second.Scores()[i] != wantScores[i] {
+			t.Errorf("row %d: %v %v", i, second.Scores()[i], second.Times()[i])
 		}
 	}
 	test, _ := modelpair.Compare(set)
@@ -226,8 +227,8 @@ func TestJoin(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if joined.CompareColumn != "two.csv:score" {
-		t.Errorf("compare column %q", joined.CompareColumn)
+	if joined.CompareColumn() != "two.csv:score" {
+		t.Errorf("compare column %q", joined.CompareColumn())
 	}
 	got, _ := modelpair.Compare(joined)
 	want, _ := modelpair.Compare(readString(t, "both.csv", both, scores.Options{CompareColumn: "other"}))

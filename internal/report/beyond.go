@@ -101,7 +101,7 @@ func (r *Report) addSegments(res *analysis.Result, order segment.Order, shown in
 			notes = append(notes, note)
 		}
 		r.sections = append(r.sections, section{
-			title: fmt.Sprintf("segments (%s) at %s, cut %s", set.SegmentColumn, r.Cuts[i].Spec, format.Score(o.Point.Score)),
+			title: fmt.Sprintf("segments (%s) at %s, cut %s", set.SegmentColumn(), r.Cuts[i].Spec, format.Score(o.Point.Score)),
 			table: t,
 			notes: notes,
 		})
@@ -417,7 +417,7 @@ func (r *Report) addComparison(res *analysis.Result) {
 	if res.Second == nil {
 		return
 	}
-	scoreA, scoreB := res.Set.ScoreColumn, res.Set.CompareColumn
+	scoreA, scoreB := res.Set.ScoreColumn(), res.Set.CompareColumn()
 	test, testErr, outcomes, second, a := res.Second.Test, res.Second.TestErr, res.Outcomes, res.Second.Outcomes, res.Assume
 	c := &comparison{ScoreA: scoreA, ScoreB: scoreB, AUCA: null, AUCB: null, AUCDifference: null, DeLongSE: null, DeLongZ: null, DeLongP: null}
 	if testErr == nil {

@@ -138,9 +138,13 @@ func TestCalibrationInJSON(t *testing.T) {
 
 func TestComparisonWithoutTest(t *testing.T) {
 	res := beyondResult(t, nil, "score=0.8")
-	set := *res.Set
-	set.ScoreColumn, set.CompareColumn = "a", "b"
-	res.Set = &set
+	cols := res.Set.Columns()
+	cols.ScoreColumn, cols.CompareColumn = "a", "b"
+	set, err := scores.NewSet(cols)
+	if err != nil {
+		t.Fatal(err)
+	}
+	res.Set = set
 	res.Second = &analysis.Second{Outcomes: res.Outcomes, TestErr: modelpair.ErrNoClass}
 	out := decode(t, report.New(res, report.Options{}))
 	c := out["comparison"].(map[string]any)

@@ -177,14 +177,14 @@ func New(res *analysis.Result, opt Options) *Report {
 // one outcome per requested cut.
 func newReport(set *scores.Set, sum curve.Summary, a projection.Assumptions, outcomes []cutrule.Outcome, hints Hints) *Report {
 	r := &Report{
-		Source:           set.Source,
+		Source:           set.Source(),
 		Rows:             sum.Rows,
-		DroppedRows:      set.Dropped,
+		DroppedRows:      set.Dropped(),
 		Positives:        sum.Positives,
 		Negatives:        sum.Negatives,
 		BaseRate:         number(sum.BaseRate),
 		Weighted:         sum.Weighted,
-		LowerIsRiskier:   set.LowerIsRiskier,
+		LowerIsRiskier:   set.LowerIsRiskier(),
 		ROCAUC:           number(sum.ROCAUC),
 		AveragePrecision: number(sum.AveragePrecision),
 		Brier:            number(sum.Brier),
@@ -216,7 +216,7 @@ func newReport(set *scores.Set, sum curve.Summary, a projection.Assumptions, out
 			r.cutsEvidence = append(r.cutsEvidence, evidence.Cut{})
 		}
 	}
-	if c := set.NoScore; c != nil {
+	if c := set.NoScore(); c != nil {
 		r.DroppedNoScore = &droppedNoScore{Rows: c.Total(), Positives: c.Positives, Negatives: c.Negatives, Neither: c.Neither}
 	}
 	return r
@@ -233,8 +233,8 @@ const outsideShare = 0.05
 // higher scores riskier), how many there are and on which lines, and
 // which sections are therefore left out. It returns "" for any other set.
 func OutsideWarning(set *scores.Set) string {
-	o := set.Outside
-	if o.Rows == 0 || set.LowerIsRiskier || float64(o.Rows) > outsideShare*float64(set.Len()) {
+	o := set.Outside()
+	if o.Rows == 0 || set.LowerIsRiskier() || float64(o.Rows) > outsideShare*float64(set.Len()) {
 		return ""
 	}
 	text := plural(o.Rows, "score lies", "scores lie") + " outside [0, 1]"
@@ -260,8 +260,8 @@ func OutsideWarning(set *scores.Set) string {
 // for an invalid score. It returns nothing when none were dropped.
 func DroppedWarnings(set *scores.Set) []string {
 	var w []string
-	invalid := set.Dropped
-	if c := set.NoScore; c != nil {
+	invalid := set.Dropped()
+	if c := set.NoScore(); c != nil {
 		text := plural(c.Total(), "row was", "rows were") + " dropped for a score that was missing or not a number (" +
 			plural(c.Positives, "true case", "true cases") + ", " + strconv.Itoa(c.Negatives) + " false"
 		if c.Neither > 0 {
@@ -299,7 +299,7 @@ func Warnings(set *scores.Set, sum curve.Summary, hints Hints) []string {
 		// likely the direction is the wrong way round. The AUC is judged
 		// as shown, so that "0.500" is never called below 0.5.
 		flip := "; if lower scores mean likely true cases, add " + hints.LowerIsRiskier
-		if set.LowerIsRiskier {
+		if set.LowerIsRiskier() {
 			flip = "; if higher scores mean likely true cases, drop " + hints.LowerIsRiskier
 		}
 		if hints.LowerIsRiskier == "" {

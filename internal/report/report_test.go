@@ -381,7 +381,7 @@ func TestWriteJSONContract(t *testing.T) {
 					checkKeys(t, "curve entry", p, curveContract)
 					score := p["score"].(float64)
 					// Strictest first: riskier scores come earlier.
-					if i > 0 && (set.LowerIsRiskier && score <= previous || !set.LowerIsRiskier && score >= previous) {
+					if i > 0 && (set.LowerIsRiskier() && score <= previous || !set.LowerIsRiskier() && score >= previous) {
 						t.Errorf("curve entry %d score %v after %v: not strictest first", i, score, previous)
 					}
 					previous = score

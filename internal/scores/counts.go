@@ -210,9 +210,9 @@ func ReadCounts(r io.Reader, source string, opt Options) (*Set, error) {
 	}
 	set.countCases()
 	if sawNoScore {
-		set.NoScore = &noScore
+		set.noScore = &noScore
 	}
-	set.LabelColumn = header[positivesCol] + "/" + header[negativesCol]
+	set.labelColumn = header[positivesCol] + "/" + header[negativesCol]
 	return set, nil
 }
 

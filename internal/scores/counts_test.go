@@ -140,8 +140,8 @@ func TestCountsEqualRawRows(t *testing.T) {
 		}
 		if withSegment {
 			// The same groups with the same weighted totals.
-			wantNames := append([]string(nil), rows.SegmentNames...)
-			gotNames := append([]string(nil), counted.SegmentNames...)
+			wantNames := append([]string(nil), rows.SegmentNames()...)
+			gotNames := append([]string(nil), counted.SegmentNames()...)
 			sort.Strings(wantNames)
 			sort.Strings(gotNames)
 			if strings.Join(wantNames, ",") != strings.Join(gotNames, ",") {
@@ -150,7 +150,7 @@ func TestCountsEqualRawRows(t *testing.T) {
 			totals := func(s *scores.Set) map[string]float64 {
 				m := map[string]float64{}
 				for i := range s.Len() {
-					if s.Labels[i] {
+					if s.Labels()[i] {
 						m[s.Segment(i)+"+"] += s.Weight(i)
 					} else {
 						m[s.Segment(i)+"-"] += s.Weight(i)
@@ -238,9 +238,9 @@ func TestReadCountsDropInvalid(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if set.Dropped != 10 || set.NoScore != nil || set.Cases() != 6 || len(set.DroppedReasons) != 1 {
+	if set.Dropped() != 10 || set.NoScore() != nil || set.Cases() != 6 || len(set.DroppedReasons()) != 1 {
 		t.Errorf("dropped %d (%+v; %q), cases %d; want 10 dropped, not split, 6 cases",
-			set.Dropped, set.NoScore, set.DroppedReasons, set.Cases())
+			set.Dropped(), set.NoScore(), set.DroppedReasons(), set.Cases())
 	}
 }
 
@@ -261,17 +261,17 @@ func TestReadCountsNoScore(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if want := (scores.LabelCounts{Positives: 8, Negatives: 6, Neither: 3}); set.Dropped != 17 || set.NoScore == nil || *set.NoScore != want || set.Cases() != 6 {
-		t.Errorf("dropped %d (%+v), cases %d; want 17 (%+v), 6 cases", set.Dropped, set.NoScore, set.Cases(), want)
+	if want := (scores.LabelCounts{Positives: 8, Negatives: 6, Neither: 3}); set.Dropped() != 17 || set.NoScore() == nil || *set.NoScore() != want || set.Cases() != 6 {
+		t.Errorf("dropped %d (%+v), cases %d; want 17 (%+v), 6 cases", set.Dropped(), set.NoScore(), set.Cases(), want)
 	}
-	if want := `c.csv:3: column "score": 8 case(s) with no score (NULL or not a number where they were counted): 3 true, 4 false, 1 with neither label`; len(set.DroppedReasons) != 3 || set.DroppedReasons[0] != want {
-		t.Errorf("reasons %q, want 3 beginning %q", set.DroppedReasons, want)
+	if want := `c.csv:3: column "score": 8 case(s) with no score (NULL or not a number where they were counted): 3 true, 4 false, 1 with neither label`; len(set.DroppedReasons()) != 3 || set.DroppedReasons()[0] != want {
+		t.Errorf("reasons %q, want 3 beginning %q", set.DroppedReasons(), want)
 	}
 	same, err := scores.ReadCounts(strings.NewReader("score,yard,positives,negatives\n0.5,north,1,2\n0.2,south,0,3\n"), "c.csv", scores.Options{SegmentColumn: "yard"})
 	if err != nil {
 		t.Fatal(err)
 	}
-	if !reflect.DeepEqual(set.Scores, same.Scores) || !reflect.DeepEqual(set.Labels, same.Labels) || !reflect.DeepEqual(set.Weights, same.Weights) {
-		t.Errorf("kept rows %v %v %v, want %v %v %v", set.Scores, set.Labels, set.Weights, same.Scores, same.Labels, same.Weights)
+	if !reflect.DeepEqual(set.Scores(), same.Scores()) || !reflect.DeepEqual(set.Labels(), same.Labels()) || !reflect.DeepEqual(set.Weights(), same.Weights()) {
+		t.Errorf("kept rows %v %v %v, want %v %v %v", set.Scores(), set.Labels(), set.Weights(), same.Scores(), same.Labels(), same.Weights())
 	}
 }

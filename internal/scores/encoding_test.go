@@ -42,8 +42,8 @@ func TestUTF16(t *testing.T) {
 			if err != nil {
 				t.Fatalf("%s big-endian %v: %v", name, bigEndian, err)
 			}
-			if set.Len() != 2 || set.Scores[0] != 0.75 || !set.Labels[0] || set.SegmentNames[set.SegmentOf[0]] != "Veldmoor Süd" {
-				t.Errorf("%s big-endian %v: scores %v labels %v segments %q", name, bigEndian, set.Scores, set.Labels, set.SegmentNames)
+			if set.Len() != 2 || set.Scores()[0] != 0.75 || !set.Labels()[0] || set.SegmentNames()[set.SegmentOf()[0]] != "Veldmoor Süd" {
+				t.Errorf("%s big-endian %v: scores %v labels %v segments %q", name, bigEndian, set.Scores(), set.Labels(), set.SegmentNames())
 			}
 		}
 	}
@@ -89,11 +89,11 @@ func TestDecimalComma(t *testing.T) {
 		if err != nil {
 			t.Fatalf("%s: %v", name, err)
 		}
-		if want := []float64{0.9, 0.107681, -0.15}; !equalFloats(set.Scores, want) {
-			t.Errorf("%s: scores %v, want %v", name, set.Scores, want)
+		if want := []float64{0.9, 0.107681, -0.15}; !equalFloats(set.Scores(), want) {
+			t.Errorf("%s: scores %v, want %v", name, set.Scores(), want)
 		}
-		if want := []float64{1, 2.5, 0}; !equalFloats(set.Weights, want) {
-			t.Errorf("%s: weights %v, want %v", name, set.Weights, want)
+		if want := []float64{1, 2.5, 0}; !equalFloats(set.Weights(), want) {
+			t.Errorf("%s: weights %v, want %v", name, set.Weights(), want)
 		}
 	}
 	// Without semicolons a decimal comma is not guessed; the error says

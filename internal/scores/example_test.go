@@ -17,7 +17,7 @@ func ExampleRead() {
 		return
 	}
 	for i := range set.Len() {
-		fmt.Println(set.ID(i), set.Scores[i], set.Labels[i])
+		fmt.Println(set.ID(i), set.Scores()[i], set.Labels()[i])
 	}
 	_, err = scores.Read(strings.NewReader("score,label\n0.5,maybe\n"), "bearings.csv", scores.Options{})
 	fmt.Println(err)

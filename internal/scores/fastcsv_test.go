@@ -85,8 +85,8 @@ func clip(data []byte) []byte {
 }
 
 func brief(s *Set) string {
-	n := min(len(s.Scores), 8)
-	return fmt.Sprintf("rows %d scores %v labels %v weights %v dropped %d %q sha %s", len(s.Scores), s.Scores[:n], s.Labels[:n], s.Weights[:min(len(s.Weights), n)], s.Dropped, s.DroppedReasons, s.SHA256[:min(len(s.SHA256), 8)])
+	n := min(len(s.scores), 8)
+	return fmt.Sprintf("rows %d scores %v labels %v weights %v dropped %d %q sha %s", len(s.scores), s.scores[:n], s.labels[:n], s.weights[:min(len(s.weights), n)], s.dropped, s.droppedReasons, s.digest[:min(len(s.digest), 8)])
 }
 
 // randomTable writes a seeded random table with the oddities that delimited
@@ -394,8 +394,8 @@ func TestHeaderAcrossGzipFlush(t *testing.T) {
 			t.Errorf("%s: %v", name, err)
 			continue
 		}
-		if set.Len() != 2 || set.LabelColumn != "label" {
-			t.Errorf("%s: %d rows, label column %q; want 2 rows and \"label\"", name, set.Len(), set.LabelColumn)
+		if set.Len() != 2 || set.labelColumn != "label" {
+			t.Errorf("%s: %d rows, label column %q; want 2 rows and \"label\"", name, set.Len(), set.labelColumn)
 		}
 	}
 	counts := gzipped("\nscore\tposi", "tives\tnegatives\n0.5\t2\t1\n")

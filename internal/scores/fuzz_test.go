@@ -77,36 +77,36 @@ func FuzzRead(f *testing.F) {
 			return
 		}
 		n := set.Len()
-		if len(set.Labels) != n {
-			t.Fatalf("%d scores, %d labels", n, len(set.Labels))
+		if len(set.Labels()) != n {
+			t.Fatalf("%d scores, %d labels", n, len(set.Labels()))
 		}
-		for name, length := range map[string]int{"weights": len(set.Weights), "ids": len(set.IDs), "segments": len(set.SegmentOf), "times": len(set.Times), "compare": len(set.CompareScores)} {
+		for name, length := range map[string]int{"weights": len(set.Weights()), "ids": len(set.IDs()), "segments": len(set.SegmentOf()), "times": len(set.Times()), "compare": len(set.CompareScores())} {
 			if length != 0 && length != n {
 				t.Fatalf("%d scores, %d %s", n, length, name)
 			}
 		}
-		if opt.WeightColumn != "" && set.Weights == nil {
+		if opt.WeightColumn != "" && set.Weights() == nil {
 			t.Fatal("weight column asked for but Weights is nil")
 		}
-		for i, s := range set.Scores {
+		for i, s := range set.Scores() {
 			if math.IsNaN(s) || math.IsInf(s, 0) {
 				t.Fatalf("row %d: score %v is not finite", i, s)
 			}
-			if i > 0 && set.Riskier(s, set.Scores[i-1]) {
-				t.Fatalf("rows %d, %d not ranked: %v after %v", i-1, i, s, set.Scores[i-1])
+			if i > 0 && set.Riskier(s, set.Scores()[i-1]) {
+				t.Fatalf("rows %d, %d not ranked: %v after %v", i-1, i, s, set.Scores()[i-1])
 			}
 			if w := set.Weight(i); !(w >= 0) || math.IsInf(w, 0) {
 				t.Fatalf("row %d: weight %v", i, w)
 			}
-			if set.SegmentOf != nil && int(set.SegmentOf[i]) >= len(set.SegmentNames) {
-				t.Fatalf("row %d: segment code %d of %d names", i, set.SegmentOf[i], len(set.SegmentNames))
+			if set.SegmentOf() != nil && int(set.SegmentOf()[i]) >= len(set.SegmentNames()) {
+				t.Fatalf("row %d: segment code %d of %d names", i, set.SegmentOf()[i], len(set.SegmentNames()))
 			}
 		}
-		if n == 0 && set.Dropped == 0 {
+		if n == 0 && set.Dropped() == 0 {
 			t.Fatal("an empty set with nothing dropped should be ErrNoRows")
 		}
-		if len(set.SHA256) != 64 {
-			t.Fatalf("digest %q", set.SHA256)
+		if len(set.SHA256()) != 64 {
+			t.Fatalf("digest %q", set.SHA256())
 		}
 	})
 }

@@ -16,7 +16,7 @@ func readBoth(t *testing.T, input string, opt Options) (*Set, error) {
 	if (err == nil) != (loadErr == nil) || (err != nil && err.Error() != loadErr.Error()) {
 		t.Fatalf("%q: Read error %v, Load error %v", input, err, loadErr)
 	}
-	if err == nil && (set.Len() != loaded.Len() || !slicesEqual(set.Scores, loaded.Scores)) {
+	if err == nil && (set.Len() != loaded.Len() || !slicesEqual(set.scores, loaded.scores)) {
 		t.Fatalf("%q: Read and Load differ", input)
 	}
 	return set, err

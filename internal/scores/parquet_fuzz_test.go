@@ -38,21 +38,21 @@ func FuzzReadParquet(f *testing.F) {
 			return
 		}
 		n := set.Len()
-		if len(set.Labels) != n || (set.Weights != nil && len(set.Weights) != n) || (set.SegmentOf != nil && len(set.SegmentOf) != n) || (set.IDs != nil && len(set.IDs) != n) {
-			t.Fatalf("%d scores, %d labels, %d weights, %d segments, %d ids", n, len(set.Labels), len(set.Weights), len(set.SegmentOf), len(set.IDs))
+		if len(set.labels) != n || (set.weights != nil && len(set.weights) != n) || (set.segmentOf != nil && len(set.segmentOf) != n) || (set.ids != nil && len(set.ids) != n) {
+			t.Fatalf("%d scores, %d labels, %d weights, %d segments, %d ids", n, len(set.labels), len(set.weights), len(set.segmentOf), len(set.ids))
 		}
-		for i, s := range set.Scores {
+		for i, s := range set.scores {
 			if math.IsNaN(s) || math.IsInf(s, 0) {
 				t.Fatalf("row %d: score %v is not finite", i, s)
 			}
-			if i > 0 && set.Riskier(s, set.Scores[i-1]) {
+			if i > 0 && set.Riskier(s, set.scores[i-1]) {
 				t.Fatalf("rows %d, %d not ranked", i-1, i)
 			}
 			if w := set.Weight(i); !(w >= 0) || math.IsInf(w, 0) {
 				t.Fatalf("row %d: weight %v", i, w)
 			}
-			if set.SegmentOf != nil && int(set.SegmentOf[i]) >= len(set.SegmentNames) {
-				t.Fatalf("row %d: segment code %d of %d names", i, set.SegmentOf[i], len(set.SegmentNames))
+			if set.segmentOf != nil && int(set.segmentOf[i]) >= len(set.segmentNames) {
+				t.Fatalf("row %d: segment code %d of %d names", i, set.segmentOf[i], len(set.segmentNames))
 			}
 		}
 	})

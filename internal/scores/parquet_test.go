@@ -120,13 +120,13 @@ func TestReadParquetMatchesRead(t *testing.T) {
 				}
 				continue
 			}
-			for i := range want.DroppedReasons {
-				want.DroppedReasons[i] = shiftLine(want.DroppedReasons[i])
+			for i := range want.droppedReasons {
+				want.droppedReasons[i] = shiftLine(want.droppedReasons[i])
 			}
-			for i := range want.Outside.Lines {
-				want.Outside.Lines[i]-- // a Parquet row is the line after the header
+			for i := range want.outside.Lines {
+				want.outside.Lines[i]-- // a Parquet row is the line after the header
 			}
-			want.SHA256, got.SHA256 = "", ""
+			want.digest, got.digest = "", ""
 			if !reflect.DeepEqual(want, got) {
 				t.Fatalf("trial %d %+v: sets differ\nRead    %+v\nParquet %+v", trial, opt, brief(want), brief(got))
 			}
@@ -167,13 +167,13 @@ func TestReadParquetOtherWriter(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		for i := range want.DroppedReasons {
-			want.DroppedReasons[i] = shiftLine(want.DroppedReasons[i])
+		for i := range want.droppedReasons {
+			want.droppedReasons[i] = shiftLine(want.droppedReasons[i])
 		}
-		for i := range want.Outside.Lines {
-			want.Outside.Lines[i]-- // a Parquet row is the line after the header
+		for i := range want.outside.Lines {
+			want.outside.Lines[i]-- // a Parquet row is the line after the header
 		}
-		want.SHA256, got.SHA256 = "", ""
+		want.digest, got.digest = "", ""
 		if !reflect.DeepEqual(want, got) {
 			t.Fatalf("%+v: sets differ\nCSV     %+v\nParquet %+v", opt, brief(want), brief(got))
 		}
@@ -218,8 +218,8 @@ func TestReadParquetFiles(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	want.SHA256, got.SHA256 = "", ""
-	want.DroppedReasons, got.DroppedReasons = nil, nil
+	want.digest, got.digest = "", ""
+	want.droppedReasons, got.droppedReasons = nil, nil
 	if !reflect.DeepEqual(want, got) {
 		t.Fatalf("sets differ\nRead    %+v\nParquet %+v", brief(want), brief(got))
 	}
@@ -312,11 +312,11 @@ func TestReadParquetDecimalBytes(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if want.Outside.Rows != 1 || got.Outside.Rows != 1 {
-		t.Errorf("scores outside [0, 1]: CSV %+v, Parquet %+v, want 1 each", want.Outside, got.Outside)
+	if want.outside.Rows != 1 || got.outside.Rows != 1 {
+		t.Errorf("scores outside [0, 1]: CSV %+v, Parquet %+v, want 1 each", want.outside, got.outside)
 	}
-	want.Outside.Lines, got.Outside.Lines = nil, nil // rows in another order
-	want.SHA256, got.SHA256 = "", ""
+	want.outside.Lines, got.outside.Lines = nil, nil // rows in another order
+	want.digest, got.digest = "", ""
 	if !reflect.DeepEqual(want, got) {
 		t.Errorf("sets differ\nCSV     %+v\nParquet %+v", brief(want), brief(got))
 	}

@@ -508,39 +508,39 @@ func (b *builder) finish(digest string) (*Set, error) {
 		}
 	}
 	s := &Set{
-		Scores:         b.scores,
-		Labels:         b.labels,
-		Weights:        b.weights,
-		IDs:            b.ids,
-		SegmentOf:      b.segments,
-		SegmentNames:   b.segNames,
-		Times:          b.times,
-		CompareScores:  b.compare,
-		LowerIsRiskier: b.opt.LowerIsRiskier,
-		Source:         b.source,
-		SHA256:         digest,
-		ScoreColumn:    b.header[b.scoreCol],
-		Dropped:        b.dropped,
-		DroppedReasons: b.droppedReasons,
-		Outside:        b.outside,
+		scores:         b.scores,
+		labels:         b.labels,
+		weights:        b.weights,
+		ids:            b.ids,
+		segmentOf:      b.segments,
+		segmentNames:   b.segNames,
+		times:          b.times,
+		compareScores:  b.compare,
+		lowerIsRiskier: b.opt.LowerIsRiskier,
+		source:         b.source,
+		digest:         digest,
+		scoreColumn:    b.header[b.scoreCol],
+		dropped:        b.dropped,
+		droppedReasons: b.droppedReasons,
+		outside:        b.outside,
 	}
 	if b.labelCol >= 0 {
-		s.LabelColumn = b.header[b.labelCol]
+		s.labelColumn = b.header[b.labelCol]
 	}
 	if b.weightCol >= 0 {
-		s.WeightColumn = b.header[b.weightCol]
+		s.weightColumn = b.header[b.weightCol]
 	}
 	if b.segmentCol >= 0 {
-		s.SegmentColumn = b.header[b.segmentCol]
+		s.segmentColumn = b.header[b.segmentCol]
 	}
 	if b.idCol >= 0 {
-		s.IDColumn = b.header[b.idCol]
+		s.idColumn = b.header[b.idCol]
 	}
 	if b.timeCol >= 0 {
-		s.TimeColumn = b.header[b.timeCol]
+		s.timeColumn = b.header[b.timeCol]
 	}
 	if b.compareCol >= 0 {
-		s.CompareColumn = b.header[b.compareCol]
+		s.compareColumn = b.header[b.compareCol]
 	}
 	if b.opt.Progress != nil {
 		b.opt.Progress(len(b.scores))

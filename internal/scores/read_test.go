@@ -330,11 +330,11 @@ func TestReadDropInvalid(t *testing.T) {
 	}
 	// Rows kept by hand: 0.9, 0.3, 0.5 (lines 2, 5, 9); dropped: lines
 	// 3, 4, 6, 7, 8.
-	if set.Len() != 3 || set.Dropped != 5 {
-		t.Errorf("kept %d, dropped %d; want 3 and 5", set.Len(), set.Dropped)
+	if set.Len() != 3 || set.Dropped() != 5 {
+		t.Errorf("kept %d, dropped %d; want 3 and 5", set.Len(), set.Dropped())
 	}
-	if want := []float64{0.9, 0.5, 0.3}; !slices.Equal(set.Scores, want) {
-		t.Errorf("scores %v, want %v", set.Scores, want)
+	if want := []float64{0.9, 0.5, 0.3}; !slices.Equal(set.Scores(), want) {
+		t.Errorf("scores %v, want %v", set.Scores(), want)
 	}
 	wantReasons := []string{
 		`f.csv:3: column "score": invalid score "abc", expected a finite number`,
@@ -343,8 +343,8 @@ func TestReadDropInvalid(t *testing.T) {
 		`f.csv:7: column "score": invalid score "Inf", expected a finite number`,
 		`f.csv:8: column "score": invalid score "-Inf", expected a finite number`,
 	}
-	if !slices.Equal(set.DroppedReasons, wantReasons) {
-		t.Errorf("reasons\n got %q\nwant %q", set.DroppedReasons, wantReasons)
+	if !slices.Equal(set.DroppedReasons(), wantReasons) {
+		t.Errorf("reasons\n got %q\nwant %q", set.DroppedReasons(), wantReasons)
 	}
 
 	// Every row dropped is not an error: the set is empty and says so.
@@ -352,8 +352,8 @@ func TestReadDropInvalid(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if set.Len() != 0 || set.Dropped != 2 {
-		t.Errorf("all bad: kept %d, dropped %d; want 0 and 2", set.Len(), set.Dropped)
+	if set.Len() != 0 || set.Dropped() != 2 {
+		t.Errorf("all bad: kept %d, dropped %d; want 0 and 2", set.Len(), set.Dropped())
 	}
 
 	// A bad label is not a bad score: it still fails.
@@ -381,8 +381,8 @@ func TestReadLabels(t *testing.T) {
 			t.Errorf("label %q: %v", w.text, err)
 			continue
 		}
-		if set.Labels[0] != w.positive {
-			t.Errorf("label %q read as %v, want %v", w.text, set.Labels[0], w.positive)
+		if set.Labels()[0] != w.positive {
+			t.Errorf("label %q read as %v, want %v", w.text, set.Labels()[0], w.positive)
 		}
 	}
 
@@ -394,8 +394,8 @@ func TestReadLabels(t *testing.T) {
 		t.Fatal(err)
 	}
 	// Ranked riskiest first: 0.5 Fault, 0.4 yes, 0.3 1, 0.2 ok, 0.1 fault.
-	if want := []bool{false, false, false, false, true}; !slices.Equal(set.Labels, want) {
-		t.Errorf("labels with --positive fault: %v, want %v", set.Labels, want)
+	if want := []bool{false, false, false, false, true}; !slices.Equal(set.Labels(), want) {
+		t.Errorf("labels with --positive fault: %v, want %v", set.Labels(), want)
 	}
 }
 
@@ -446,14 +446,14 @@ func TestReadFormats(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			if !slices.Equal(set.Scores, wantScores) || !slices.Equal(set.Labels, wantLabels) {
-				t.Errorf("got scores %v labels %v, want %v %v", set.Scores, set.Labels, wantScores, wantLabels)
+			if !slices.Equal(set.Scores(), wantScores) || !slices.Equal(set.Labels(), wantLabels) {
+				t.Errorf("got scores %v labels %v, want %v %v", set.Scores(), set.Labels(), wantScores, wantLabels)
 			}
-			if set.ScoreColumn != "score" || set.LabelColumn != "label" {
-				t.Errorf("columns %q and %q, want score and label", set.ScoreColumn, set.LabelColumn)
+			if set.ScoreColumn() != "score" || set.LabelColumn() != "label" {
+				t.Errorf("columns %q and %q, want score and label", set.ScoreColumn(), set.LabelColumn())
 			}
-			if set.Source != tc.source {
-				t.Errorf("source %q, want %q", set.Source, tc.source)
+			if set.Source() != tc.source {
+				t.Errorf("source %q, want %q", set.Source(), tc.source)
 			}
 		})
 	}
@@ -478,8 +478,8 @@ func TestReadDefaultColumns(t *testing.T) {
 			t.Errorf("%s: %v", tc.header, err)
 			continue
 		}
-		if set.ScoreColumn != tc.score || set.LabelColumn != tc.label {
-			t.Errorf("%s: columns %q, %q; want %q, %q", tc.header, set.ScoreColumn, set.LabelColumn, tc.score, tc.label)
+		if set.ScoreColumn() != tc.score || set.LabelColumn() != tc.label {
+			t.Errorf("%s: columns %q, %q; want %q, %q", tc.header, set.ScoreColumn(), set.LabelColumn(), tc.score, tc.label)
 		}
 	}
 }
@@ -495,8 +495,8 @@ func TestReadSHA256(t *testing.T) {
 			t.Fatal(err)
 		}
 		sum := sha256.Sum256(data)
-		if want := hex.EncodeToString(sum[:]); set.SHA256 != want {
-			t.Errorf("digest %s, want %s (sha256 of the %d bytes given)", set.SHA256, want, len(data))
+		if want := hex.EncodeToString(sum[:]); set.SHA256() != want {
+			t.Errorf("digest %s, want %s (sha256 of the %d bytes given)", set.SHA256(), want, len(data))
 		}
 	}
 	// Reference: sha256 of "score,label\n1,1\n" computed with coreutils
@@ -505,8 +505,8 @@ func TestReadSHA256(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if want := sha256sumOfSmallTable; set.SHA256 != want {
-		t.Errorf("digest %s, want %s", set.SHA256, want)
+	if want := sha256sumOfSmallTable; set.SHA256() != want {
+		t.Errorf("digest %s, want %s", set.SHA256(), want)
 	}
 }
 
@@ -531,12 +531,12 @@ func TestReadColumnsCarried(t *testing.T) {
 		what      string
 		got, want any
 	}{
-		{"ids", set.IDs, []string{"b", "d", "c", "a", "e"}},
-		{"scores", set.Scores, []float64{0.9, 0.9, 0.5, 0.2, 0.2}},
-		{"labels", set.Labels, []bool{true, false, false, false, true}},
-		{"weights", set.Weights, []float64{2, 0.5, 0, 1, 3}},
-		{"segment names", set.SegmentNames, []string{"north", "south", "quay"}},
-		{"segment codes", set.SegmentOf, []int32{1, 2, 0, 0, 1}},
+		{"ids", set.IDs(), []string{"b", "d", "c", "a", "e"}},
+		{"scores", set.Scores(), []float64{0.9, 0.9, 0.5, 0.2, 0.2}},
+		{"labels", set.Labels(), []bool{true, false, false, false, true}},
+		{"weights", set.Weights(), []float64{2, 0.5, 0, 1, 3}},
+		{"segment names", set.SegmentNames(), []string{"north", "south", "quay"}},
+		{"segment codes", set.SegmentOf(), []int32{1, 2, 0, 0, 1}},
 	}
 	for _, c := range checks {
 		if !equalAny(c.got, c.want) {
@@ -546,8 +546,8 @@ func TestReadColumnsCarried(t *testing.T) {
 	if set.Segment(1) != "quay" || set.ID(4) != "e" || set.Weight(2) != 0 {
 		t.Errorf("accessors: Segment(1)=%q ID(4)=%q Weight(2)=%v", set.Segment(1), set.ID(4), set.Weight(2))
 	}
-	if !set.Weighted() || set.WeightColumn != "w" || set.SegmentColumn != "yard" || set.IDColumn != "id" {
-		t.Errorf("column names %q %q %q, weighted %v", set.WeightColumn, set.SegmentColumn, set.IDColumn, set.Weighted())
+	if !set.Weighted() || set.WeightColumn() != "w" || set.SegmentColumn() != "yard" || set.IDColumn() != "id" {
+		t.Errorf("column names %q %q %q, weighted %v", set.WeightColumn(), set.SegmentColumn(), set.IDColumn(), set.Weighted())
 	}
 	// Totals by hand: positives b 2 + e 3 = 5; negatives d 0.5 + c 0 + a 1 = 1.5.
 	if p, n := set.Totals(); p != 5 || n != 1.5 {
@@ -560,10 +560,10 @@ func TestReadColumnsCarried(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if want := []string{"a", "e", "c", "b", "d"}; !slices.Equal(set.IDs, want) {
-		t.Errorf("lower is riskier: ids %v, want %v", set.IDs, want)
+	if want := []string{"a", "e", "c", "b", "d"}; !slices.Equal(set.IDs(), want) {
+		t.Errorf("lower is riskier: ids %v, want %v", set.IDs(), want)
 	}
-	if !set.LowerIsRiskier {
+	if !set.LowerIsRiskier() {
 		t.Error("LowerIsRiskier not carried to the set")
 	}
 
@@ -573,8 +573,8 @@ func TestReadColumnsCarried(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if set.Weights != nil || set.IDs != nil || set.SegmentOf != nil || set.Weighted() || set.Weight(0) != 1 || set.ID(0) != "" || set.Segment(0) != "" {
-		t.Errorf("unasked columns should be nil: weights %v ids %v segments %v", set.Weights, set.IDs, set.SegmentOf)
+	if set.Weights() != nil || set.IDs() != nil || set.SegmentOf() != nil || set.Weighted() || set.Weight(0) != 1 || set.ID(0) != "" || set.Segment(0) != "" {
+		t.Errorf("unasked columns should be nil: weights %v ids %v segments %v", set.Weights(), set.IDs(), set.SegmentOf())
 	}
 }
 
@@ -587,10 +587,10 @@ func TestReadSignedZero(t *testing.T) {
 		t.Fatal(err)
 	}
 	// By hand: e (2), then a, b, c tied at zero in read order, then d.
-	if want := []string{"e", "a", "b", "c", "d"}; !slices.Equal(set.IDs, want) {
-		t.Errorf("ids %v, want %v", set.IDs, want)
+	if want := []string{"e", "a", "b", "c", "d"}; !slices.Equal(set.IDs(), want) {
+		t.Errorf("ids %v, want %v", set.IDs(), want)
 	}
-	for i, s := range set.Scores {
+	for i, s := range set.Scores() {
 		if s == 0 && math.Signbit(s) {
 			t.Errorf("row %d kept the score -0; want +0", i)
 		}

@@ -85,11 +85,11 @@ func TestNewRanks(t *testing.T) {
 		t.Fatal(err)
 	}
 	// Higher riskier: 1.5 (row 3), 0.3 (rows 1, 5), zero (rows 2, 4), -2 (row 6).
-	if want := []float64{3, 1, 5, 2, 4, 6}; !slices.Equal(set.Weights, want) {
-		t.Errorf("higher riskier: row order %v, want %v", set.Weights, want)
+	if want := []float64{3, 1, 5, 2, 4, 6}; !slices.Equal(set.Weights(), want) {
+		t.Errorf("higher riskier: row order %v, want %v", set.Weights(), want)
 	}
-	if want := []bool{true, true, false, false, true, false}; !slices.Equal(set.Labels, want) {
-		t.Errorf("higher riskier: labels %v, want %v", set.Labels, want)
+	if want := []bool{true, true, false, false, true, false}; !slices.Equal(set.Labels(), want) {
+		t.Errorf("higher riskier: labels %v, want %v", set.Labels(), want)
 	}
 
 	set, err = scores.New(slices.Clone(in), slices.Clone(labels), slices.Clone(weights), true)
@@ -97,8 +97,8 @@ func TestNewRanks(t *testing.T) {
 		t.Fatal(err)
 	}
 	// Lower riskier: -2 (row 6), zero (rows 2, 4), 0.3 (rows 1, 5), 1.5 (row 3).
-	if want := []float64{6, 2, 4, 1, 5, 3}; !slices.Equal(set.Weights, want) {
-		t.Errorf("lower riskier: row order %v, want %v", set.Weights, want)
+	if want := []float64{6, 2, 4, 1, 5, 3}; !slices.Equal(set.Weights(), want) {
+		t.Errorf("lower riskier: row order %v, want %v", set.Weights(), want)
 	}
 	if !set.Flags(0.3, 0) || set.Flags(0.3, 1.5) || !set.Flags(0.3, 0.3) {
 		t.Error("lower riskier: Flags should flag scores <= the cut")
@@ -157,8 +157,8 @@ func TestRankMatchesStableSort(t *testing.T) {
 						t.Fatal(err)
 					}
 					for i, w := range want {
-						if int(set.Weights[i]) != w {
-							t.Fatalf("n=%d: ranked row %d is input row %v, want %d", n, i, set.Weights[i], w)
+						if int(set.Weights()[i]) != w {
+							t.Fatalf("n=%d: ranked row %d is input row %v, want %d", n, i, set.Weights()[i], w)
 						}
 					}
 				}
@@ -244,15 +244,15 @@ func TestReplicate(t *testing.T) {
 	}
 	var rep scores.Set
 	scores.Replicate(&rep, weighted, []int32{2, 0, 1})
-	if !slices.Equal(rep.Scores, []float64{0.9, 0.9, 0.1}) || !slices.Equal(rep.Weights, []float64{2, 2, 1}) || rep.CountsTable() {
-		t.Errorf("scored replicate %v weighted %v (counts table %v)", rep.Scores, rep.Weights, rep.CountsTable())
+	if !slices.Equal(rep.Scores(), []float64{0.9, 0.9, 0.1}) || !slices.Equal(rep.Weights(), []float64{2, 2, 1}) || rep.CountsTable() {
+		t.Errorf("scored replicate %v weighted %v (counts table %v)", rep.Scores(), rep.Weights(), rep.CountsTable())
 	}
 	counted, err := scores.NewCounts([]float64{0.9, 0.5, 0.1}, []bool{true, false, false}, []float64{5, 3, 4}, false)
 	if err != nil {
 		t.Fatal(err)
 	}
 	scores.Replicate(&rep, counted, []float64{7, 0, 5})
-	if !slices.Equal(rep.Scores, []float64{0.9, 0.1}) || !slices.Equal(rep.Weights, []float64{7, 5}) || !rep.CountsTable() || rep.Cases() != 12 || rep.CasesFlagged(1) != 7 {
-		t.Errorf("counts replicate %v weighted %v (counts table %v, %d cases)", rep.Scores, rep.Weights, rep.CountsTable(), rep.Cases())
+	if !slices.Equal(rep.Scores(), []float64{0.9, 0.1}) || !slices.Equal(rep.Weights(), []float64{7, 5}) || !rep.CountsTable() || rep.Cases() != 12 || rep.CasesFlagged(1) != 7 {
+		t.Errorf("counts replicate %v weighted %v (counts table %v, %d cases)", rep.Scores(), rep.Weights(), rep.CountsTable(), rep.Cases())
 	}
 }

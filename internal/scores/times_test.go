@@ -27,12 +27,12 @@ func TestTimeAndCompareColumns(t *testing.T) {
 	wantTimes := []int64{1788220800, 1788220830, 1788220800}
 	wantOther := []float64{0.1, 0.5, 0.9}
 	for i := range wantTimes {
-		if set.Times[i] != wantTimes[i] || set.CompareScores[i] != wantOther[i] {
-			t.Errorf("row %d: time %d other %v, want %d %v", i, set.Times[i], set.CompareScores[i], wantTimes[i], wantOther[i])
+		if set.Times()[i] != wantTimes[i] || set.CompareScores()[i] != wantOther[i] {
+			t.Errorf("row %d: time %d other %v, want %d %v", i, set.Times()[i], set.CompareScores()[i], wantTimes[i], wantOther[i])
 		}
 	}
-	if set.TimeColumn != "read_at" || set.CompareColumn != "other" {
-		t.Errorf("columns %q %q", set.TimeColumn, set.CompareColumn)
+	if set.TimeColumn() != "read_at" || set.CompareColumn() != "other" {
+		t.Errorf("columns %q %q", set.TimeColumn(), set.CompareColumn())
 	}
 }
 
@@ -49,8 +49,8 @@ func TestTimeLayoutInLocation(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if set.Times[0] != 1774744200 {
-		t.Errorf("got %d, want 1774744200", set.Times[0])
+	if set.Times()[0] != 1774744200 {
+		t.Errorf("got %d, want 1774744200", set.Times()[0])
 	}
 }
 
@@ -79,7 +79,7 @@ func TestBadTimeAndCompareErrors(t *testing.T) {
 	}
 	// With DropInvalid a bad second score drops the row.
 	set, err := scores.Read(strings.NewReader("score,label,b\n0.3,1,x\n0.4,0,0.2\n"), "t.csv", scores.Options{CompareColumn: "b", DropInvalid: true})
-	if err != nil || set.Len() != 1 || set.Dropped != 1 {
-		t.Fatalf("drop: %v, %d rows, %d dropped", err, set.Len(), set.Dropped)
+	if err != nil || set.Len() != 1 || set.Dropped() != 1 {
+		t.Fatalf("drop: %v, %d rows, %d dropped", err, set.Len(), set.Dropped())
 	}
 }

@@ -32,16 +32,16 @@ type Running struct {
 // once. A set without a segment column gives breakdowns with no groups.
 func NewRunning(set *scores.Set) *Running {
 	r := &Running{set: set}
-	if set.SegmentOf != nil {
-		r.groups = make([]tally, len(set.SegmentNames))
-		r.tp = make([]float64, len(set.SegmentNames))
-		r.fp = make([]float64, len(set.SegmentNames))
+	if set.SegmentOf() != nil {
+		r.groups = make([]tally, len(set.SegmentNames()))
+		r.tp = make([]float64, len(set.SegmentNames()))
+		r.fp = make([]float64, len(set.SegmentNames()))
 	}
 	for i := range set.Len() {
 		w := set.Weight(i)
-		r.total.add(set.Labels[i], false, w, set.CasesAt(i))
+		r.total.add(set.Labels()[i], false, w, set.CasesAt(i))
 		if r.groups != nil {
-			r.groups[set.SegmentOf[i]].add(set.Labels[i], false, w, set.CasesAt(i))
+			r.groups[set.SegmentOf()[i]].add(set.Labels()[i], false, w, set.CasesAt(i))
 		}
 	}
 	return r
@@ -59,7 +59,7 @@ func (r *Running) At(p curve.Point, confidence float64) Breakdown {
 		if g.rows == 0 {
 			continue
 		}
-		f := r.flagged(g, r.tp[code], r.fp[code]).figures(r.set.SegmentNames[code], confidence)
+		f := r.flagged(g, r.tp[code], r.fp[code]).figures(r.set.SegmentNames()[code], confidence)
 		f.Outlier = apart(f.RecallCI, b.Overall.RecallCI) || apart(f.PrecisionCI, b.Overall.PrecisionCI)
 		b.Segments = append(b.Segments, f)
 	}
@@ -95,15 +95,15 @@ func (r *Running) move(rows int) {
 	}
 	for i := from; i < to; i++ {
 		w := sign * r.set.Weight(i)
-		if r.set.Labels[i] {
+		if r.set.Labels()[i] {
 			r.allTP += w
 			if r.groups != nil {
-				r.tp[r.set.SegmentOf[i]] += w
+				r.tp[r.set.SegmentOf()[i]] += w
 			}
 		} else {
 			r.allFP += w
 			if r.groups != nil {
-				r.fp[r.set.SegmentOf[i]] += w
+				r.fp[r.set.SegmentOf()[i]] += w
 			}
 		}
 	}

@@ -23,14 +23,16 @@ func TestRunningMatchesAt(t *testing.T) {
 		labels[i] = rng.Float64() < 0.2+0.5*values[i]
 		weights[i] = 0.5 + rng.Float64()
 	}
-	set, err := scores.New(values, labels, weights, false)
+	segmentOf := make([]int32, n)
+	for i := range segmentOf {
+		segmentOf[i] = []int32{0, 1, 3}[rng.IntN(3)]
+	}
+	set, err := scores.NewSet(scores.Columns{
+		Scores: values, Labels: labels, Weights: weights,
+		SegmentOf: segmentOf, SegmentNames: []string{"east", "west", "empty", "north"},
+	})
 	if err != nil {
 		t.Fatal(err)
-	}
-	set.SegmentNames = []string{"east", "west", "empty", "north"}
-	set.SegmentOf = make([]int32, set.Len())
-	for i := range set.SegmentOf {
-		set.SegmentOf[i] = []int32{0, 1, 3}[rng.IntN(3)]
 	}
 	c := curve.New(set)
 	r := segment.NewRunning(set)

@@ -114,15 +114,15 @@ func At(set *scores.Set, p curve.Point, confidence float64) Breakdown {
 	var b Breakdown
 	total := tally{}
 	var groups []tally
-	if set.SegmentOf != nil {
-		groups = make([]tally, len(set.SegmentNames))
+	if set.SegmentOf() != nil {
+		groups = make([]tally, len(set.SegmentNames()))
 	}
 	for i := range set.Len() {
 		w := set.Weight(i)
 		flagged := i < p.Rows
-		total.add(set.Labels[i], flagged, w, set.CasesAt(i))
+		total.add(set.Labels()[i], flagged, w, set.CasesAt(i))
 		if groups != nil {
-			groups[set.SegmentOf[i]].add(set.Labels[i], flagged, w, set.CasesAt(i))
+			groups[set.SegmentOf()[i]].add(set.Labels()[i], flagged, w, set.CasesAt(i))
 		}
 	}
 	b.Overall = total.figures("", confidence)
@@ -130,7 +130,7 @@ func At(set *scores.Set, p curve.Point, confidence float64) Breakdown {
 		if g.rows == 0 {
 			continue
 		}
-		f := g.figures(set.SegmentNames[code], confidence)
+		f := g.figures(set.SegmentNames()[code], confidence)
 		f.Outlier = apart(f.RecallCI, b.Overall.RecallCI) || apart(f.PrecisionCI, b.Overall.PrecisionCI)
 		b.Segments = append(b.Segments, f)
 	}

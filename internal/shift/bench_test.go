@@ -22,11 +22,10 @@ func benchSet(b *testing.B) (*scores.Set, shift.Schedule) {
 		labels[i] = rng.Float64() < 0.07
 		times[i] = start + rng.Int64N(365*86400)
 	}
-	set, err := scores.New(sc, labels, nil, false)
+	set, err := scores.NewSet(scores.Columns{Scores: sc, Labels: labels, Times: times})
 	if err != nil {
 		b.Fatal(err)
 	}
-	set.Times = times
 	loc, err := time.LoadLocation("Europe/Amsterdam")
 	if err != nil {
 		b.Fatal(err)

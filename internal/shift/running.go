@@ -42,7 +42,7 @@ func NewRunning(set *scores.Set, a Assignment, scale Scale) *Running {
 
 // alerts is what ranked row i adds to its shift's queue.
 func (r *Running) alerts(i int) float64 {
-	if r.set.Labels[i] {
+	if r.set.Labels()[i] {
 		return r.set.Weight(i) * r.scale.Positive
 	}
 	return r.set.Weight(i) * r.scale.Negative

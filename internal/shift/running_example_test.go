@@ -10,11 +10,12 @@ import (
 
 func ExampleRunning() {
 	sched, _ := shift.ParseSchedule("06:00,14:00,22:00", time.UTC)
-	set, _ := scores.New([]float64{0.9, 0.8, 0.7}, []bool{true, false, false}, nil, false)
+	var times []int64
 	for _, text := range []string{"2026-09-01T23:10:00Z", "2026-09-02T03:40:00Z", "2026-09-02T09:00:00Z"} {
 		t, _ := time.Parse(time.RFC3339, text)
-		set.Times = append(set.Times, t.Unix())
+		times = append(times, t.Unix())
 	}
+	set, _ := scores.NewSet(scores.Columns{Scores: []float64{0.9, 0.8, 0.7}, Labels: []bool{true, false, false}, Times: times})
 	a, _ := shift.Assign(set, sched)
 	r := shift.NewRunning(set, a, shift.Scale{Positive: 1, Negative: 1})
 	for _, rows := range []int{1, 3, 2} { // as a cursor moves: one case flagged, all three, two

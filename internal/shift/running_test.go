@@ -24,11 +24,10 @@ func TestRunningMatchesAt(t *testing.T) {
 		weights[i] = 0.25 + rng.Float64()
 		times[i] = start + rng.Int64N(6*86400)
 	}
-	set, err := scores.New(sc, labels, weights, false)
+	set, err := scores.NewSet(scores.Columns{Scores: sc, Labels: labels, Weights: weights, Times: times})
 	if err != nil {
 		t.Fatal(err)
 	}
-	set.Times = rankedTimes(sc, times, set)
 	sched, _ := shift.ParseSchedule("06:00,14:00,22:00", time.UTC)
 	a, err := shift.Assign(set, sched)
 	if err != nil {

@@ -142,7 +142,7 @@ type Assignment struct {
 // for a set without times and ErrSpan when the period holds more than
 // MaxShifts shifts. An empty set has no shifts.
 func Assign(set *scores.Set, s Schedule) (Assignment, error) {
-	if set.Times == nil {
+	if set.Times() == nil {
 		return Assignment{}, ErrNoTimes
 	}
 	if len(s.Starts) == 0 {
@@ -154,7 +154,7 @@ func Assign(set *scores.Set, s Schedule) (Assignment, error) {
 	}
 	keys := make([]int64, set.Len())
 	lo, hi := int64(math.MaxInt64), int64(math.MinInt64)
-	for i, t := range set.Times {
+	for i, t := range set.Times() {
 		keys[i] = s.key(t)
 		lo, hi = min(lo, keys[i]), max(hi, keys[i])
 	}
@@ -237,7 +237,7 @@ func (a Assignment) At(set *scores.Set, rows int, scale Scale, capacity float64)
 	queues := make([]float64, a.Count)
 	for i := range rows {
 		w := set.Weight(i) * scale.Negative
-		if set.Labels[i] {
+		if set.Labels()[i] {
 			w = set.Weight(i) * scale.Positive
 		}
 		queues[a.Of[i]] += w

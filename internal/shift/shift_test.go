@@ -32,11 +32,10 @@ func timedSet(t *testing.T, times []int64, labels []bool) *scores.Set {
 	for i := range sc {
 		sc[i] = float64(len(times) - i)
 	}
-	set, err := scores.New(sc, labels, nil, false)
+	set, err := scores.NewSet(scores.Columns{Scores: sc, Labels: labels, Times: times})
 	if err != nil {
 		t.Fatal(err)
 	}
-	set.Times = times
 	return set
 }
 
@@ -196,11 +195,10 @@ func TestScaledMeanIsProjectedQueue(t *testing.T) {
 		weights[i] = float64(rng.IntN(3))
 		times[i] = start + rng.Int64N(7*86400)
 	}
-	set, err := scores.New(sc, labels, weights, false)
+	set, err := scores.NewSet(scores.Columns{Scores: sc, Labels: labels, Weights: weights, Times: times})
 	if err != nil {
 		t.Fatal(err)
 	}
-	set.Times = rankedTimes(sc, times, set)
 	sched, _ := shift.ParseSchedule("06:00,14:00,22:00", time.UTC)
 	a, err := shift.Assign(set, sched)
 	if err != nil {
@@ -219,23 +217,6 @@ func TestScaledMeanIsProjectedQueue(t *testing.T) {
 	if checked < 10 {
 		t.Fatalf("only %d cuts", checked)
 	}
-}
-
-// rankedTimes returns times in the ranked order of set. scores.New ranks
-// by score and keeps tied rows in read order, so matching each ranked
-// score with the next unused row of that score in read order recovers the
-// permutation.
-func rankedTimes(sc []float64, times []int64, set *scores.Set) []int64 {
-	unused := map[float64][]int64{}
-	for i, s := range sc {
-		unused[s] = append(unused[s], times[i])
-	}
-	out := make([]int64, set.Len())
-	for i, s := range set.Scores {
-		out[i] = unused[s][0]
-		unused[s] = unused[s][1:]
-	}
-	return out
 }
 
 // TestCounterMatchesPeaks: as a cut loosens row by row, Counter.Within
@@ -258,7 +239,7 @@ func TestCounterMatchesPeaks(t *testing.T) {
 		c := a.NewCounter(scale, limit)
 		for rows := 0; rows <= n; rows++ {
 			if rows > 0 {
-				c.Add(rows-1, set.Labels[rows-1], 1)
+				c.Add(rows-1, set.Labels()[rows-1], 1)
 			}
 			p90 := a.At(set, rows, scale, 0).P90
 			if c.Within() != (p90 <= limit) || !floatcmp.Equal(c.P90(), p90) {

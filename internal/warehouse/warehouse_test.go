@@ -269,8 +269,8 @@ func checkCounts(t *testing.T, engine string, out []byte, cases []rawCase, posit
 	if want.Total() == 0 || want.Neither == 0 && positive == "" {
 		t.Fatalf("%s: the seeded cases have no score that is NULL or not a number, or none of them a NULL label", engine)
 	}
-	if got.Dropped != want.Total() || got.NoScore == nil || *got.NoScore != want {
-		t.Errorf("%s: dropped %d (%+v), want %d (%+v) without a numeric score", engine, got.Dropped, got.NoScore, want.Total(), want)
+	if got.Dropped() != want.Total() || got.NoScore() == nil || *got.NoScore() != want {
+		t.Errorf("%s: dropped %d (%+v), want %d (%+v) without a numeric score", engine, got.Dropped(), got.NoScore(), want.Total(), want)
 	}
 }
 
@@ -298,8 +298,8 @@ func sameFigures(t *testing.T, engine string, want, got *scores.Set) {
 		wantSum.Probabilities != gotSum.Probabilities || !floatcmp.Equal(wantSum.Brier, gotSum.Brier) || !floatcmp.Equal(wantSum.LogLoss, gotSum.LogLoss) {
 		t.Fatalf("%s: summaries differ\nraw    %+v\ncounts %+v", engine, wantSum, gotSum)
 	}
-	if len(got.SegmentNames) != 3 {
-		t.Errorf("%s: segments %v, want north, east and south", engine, got.SegmentNames)
+	if len(got.SegmentNames()) != 3 {
+		t.Errorf("%s: segments %v, want north, east and south", engine, got.SegmentNames())
 	}
 	for i := range wantPoints {
 		w := segment.At(want, wantPoints[i], 0.95)
@@ -477,8 +477,8 @@ func TestCountsQueryOnSQLite(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if want := reference(t, cases, 3, "").Cases() + withoutScore(cases, "").Total(); set.Cases() != 0 || set.Dropped != want {
-		t.Errorf("sqlite TEXT scores: %d cases read, %d dropped; want 0 read, %d dropped", set.Cases(), set.Dropped, want)
+	if want := reference(t, cases, 3, "").Cases() + withoutScore(cases, "").Total(); set.Cases() != 0 || set.Dropped() != want {
+		t.Errorf("sqlite TEXT scores: %d cases read, %d dropped; want 0 read, %d dropped", set.Cases(), set.Dropped(), want)
 	}
 }
 
