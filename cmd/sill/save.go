@@ -59,11 +59,11 @@ func (s *saveFlags) readReproject(set *scores.Set, cuts []string) ([]cutrule.Rul
 	if err != nil {
 		return nil, fmt.Errorf("--reproject: %w", err)
 	}
-	if f.Data.SHA256 != "" && set.SHA256 != "" && f.Data.SHA256 != set.SHA256 {
+	if f.Data.SHA256 != "" && set.SHA256() != "" && f.Data.SHA256 != set.SHA256() {
 		return nil, fmt.Errorf("--reproject %s: chosen on other data (its data.sha256 is %s, this data's is %s); re-project it on %s",
-			s.reproject, shortDigest(f.Data.SHA256), shortDigest(set.SHA256), format.Printable(f.Data.Path))
+			s.reproject, shortDigest(f.Data.SHA256), shortDigest(set.SHA256()), format.Printable(f.Data.Path))
 	}
-	if f.Data.LowerIsRiskier != set.LowerIsRiskier {
+	if f.Data.LowerIsRiskier != set.LowerIsRiskier() {
 		return nil, fmt.Errorf("--reproject %s: chosen with lower_is_riskier: %v; give --lower-is-riskier=%v", s.reproject, f.Data.LowerIsRiskier, f.Data.LowerIsRiskier)
 	}
 	s.from = f
