@@ -21,6 +21,7 @@ import (
 	"github.com/sill-tool/sill/internal/calibration"
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/interval"
 	"github.com/sill-tool/sill/internal/modelpair"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
@@ -106,6 +107,9 @@ type Result struct {
 	Set     *scores.Set
 	Assume  projection.Assumptions
 	Summary curve.Summary
+	// Ranking is the uncertainty of the summary's ROC AUC and average
+	// precision at the assumptions' confidence.
+	Ranking Ranking
 	// Curve is every cut, kept for random access; nil unless
 	// Options.Cursor.
 	Curve *curve.Curve
@@ -135,6 +139,30 @@ type Result struct {
 	opts     Options
 	segments *segment.Running // follows the cursor; with Options.Cursor
 	peaks    *shift.Running   // follows the cursor at Shifts.Scale; with Options.Cursor
+}
+
+// Ranking is the uncertainty of the summary's ranking figures at a
+// confidence level: the ROC AUC with DeLong's variance and its normal
+// interval clipped to [0,1] (modelpair.Single), and the average precision's
+// logit interval over the true cases (interval.AveragePrecision). Both
+// take weights as frequency weights. Undefined ends are NaN.
+type Ranking struct {
+	ROCAUC modelpair.AUCEstimate
+	// AveragePrecision is the interval of Summary.AveragePrecision.
+	AveragePrecision [2]float64
+}
+
+// rankingOf returns the ranking's uncertainty from DeLong's tally of the
+// walked cuts and the summary, at confidence (NaN outside (0,1)).
+func rankingOf(delong *modelpair.Single, sum curve.Summary, confidence float64) Ranking {
+	nan := math.NaN()
+	if !(confidence > 0 && confidence < 1) {
+		return Ranking{ROCAUC: modelpair.AUCEstimate{AUC: sum.ROCAUC, Variance: nan, StdError: nan, Interval: [2]float64{nan, nan}},
+			AveragePrecision: [2]float64{nan, nan}}
+	}
+	r := Ranking{ROCAUC: delong.Estimate(confidence)}
+	r.AveragePrecision[0], r.AveragePrecision[1] = interval.AveragePrecision(sum.AveragePrecision, sum.Positives, confidence)
+	return r
 }
 
 // Shifts are the rows placed in the shifts of the validation period.
@@ -325,7 +353,9 @@ func (r *Result) assume(a projection.Assumptions, prev *Result) error {
 	if err != nil {
 		return stepError(StepRules, err)
 	}
-	visit := finder.Visit
+	// DeLong's variance of the AUC, tallied on the same walk.
+	var delong modelpair.Single
+	visit := func(p curve.Point) { finder.Visit(p); delong.Visit(p) }
 	// The least-cost cut beside the cost threshold, found on the same
 	// walk.
 	var leastCost *cutrule.Finder
@@ -334,7 +364,7 @@ func (r *Result) assume(a projection.Assumptions, prev *Result) error {
 		if err != nil {
 			return stepError(StepRules, err)
 		}
-		visit = func(p curve.Point) { finder.Visit(p); leastCost.Visit(p) }
+		visit = func(p curve.Point) { finder.Visit(p); leastCost.Visit(p); delong.Visit(p) }
 	}
 	if r.Curve != nil {
 		r.Curve.Points(visit)
@@ -343,6 +373,7 @@ func (r *Result) assume(a projection.Assumptions, prev *Result) error {
 		r.Summary = curve.Walk(r.Set, visit)
 	}
 	r.Outcomes = finder.Outcomes()
+	r.Ranking = rankingOf(&delong, r.Summary, a.Confidence)
 
 	if r.Set.SegmentOf() != nil {
 		r.Segments = make([]segment.Breakdown, len(r.Outcomes))

@@ -14,6 +14,7 @@ import (
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/floatcmp"
+	"github.com/sill-tool/sill/internal/interval"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/shift"
@@ -446,5 +447,44 @@ func TestCheckRules(t *testing.T) {
 				}
 			}
 		})
+	}
+}
+
+// TestRanking: the summary's intervals are DeLong's (the paired test's
+// variance of the first model, taken row by row) and the logit interval
+// of the average precision, at the assumptions' confidence, with or
+// without a cursor, and they follow a new confidence in Reassume. The AP
+// of the table: true cases at cuts 0.9 (precision 1), 0.8 (2 of 3), 0.6
+// (3 of 5) and 0.4 (4 of 7), each adding 1/4 of recall: 0.25·(1 + 2/3 +
+// 3/5 + 4/7) = 0.709524.
+func TestRanking(t *testing.T) {
+	set := read(t, scores.Options{CompareColumn: "other"})
+	for _, cursor := range []bool{false, true} {
+		res, err := analysis.Run(context.Background(), set, validation, analysis.Options{Cursor: cursor})
+		if err != nil {
+			t.Fatal(err)
+		}
+		test := res.Second.Test
+		z := 1.959963984540054 // two-sided 95%
+		se := math.Sqrt(test.Variance[0])
+		got := res.Ranking.ROCAUC
+		if !floatcmp.Equal(got.AUC, 10.5/16) || !floatcmp.Equal(got.StdError, se) ||
+			!floatcmp.Equal(got.Interval[0], 10.5/16-z*se) || !floatcmp.Equal(got.Interval[1], min(10.5/16+z*se, 1)) {
+			t.Errorf("cursor %v: AUC estimate %+v, want AUC %v SE %v", cursor, got, 10.5/16, se)
+		}
+		ap := 0.25 * (1 + 2.0/3 + 3.0/5 + 4.0/7)
+		lo, hi := interval.AveragePrecision(ap, 4, 0.95)
+		if !floatcmp.Equal(res.Summary.AveragePrecision, ap) || !floatcmp.Equal(res.Ranking.AveragePrecision[0], lo) || !floatcmp.Equal(res.Ranking.AveragePrecision[1], hi) {
+			t.Errorf("cursor %v: AP %v interval %v, want %v [%v, %v]", cursor, res.Summary.AveragePrecision, res.Ranking.AveragePrecision, ap, lo, hi)
+		}
+		a := validation
+		a.Confidence = 0.9
+		moved, err := res.Reassume(context.Background(), a)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if z90 := 1.6448536269514722; !floatcmp.Equal(moved.Ranking.ROCAUC.Interval[0], 10.5/16-z90*se) {
+			t.Errorf("cursor %v: at 90%% %+v", cursor, moved.Ranking.ROCAUC)
+		}
 	}
 }

@@ -119,8 +119,8 @@ func Paired(a, b []float64, labels []bool, weights []float64, lowerIsRiskier boo
 		t.AUC[r] = auc / m
 	}
 	t.Difference = t.AUC[0] - t.AUC[1]
-	s10 := covariance(v10, positives, weight, t.AUC, m)
-	s01 := covariance(v01, negatives, weight, t.AUC, n)
+	s10 := covariance(v10, positives, weight, m)
+	s01 := covariance(v01, negatives, weight, n)
 	for r := range 2 {
 		t.Variance[r] = s10[r][r]/m + s01[r][r]/n
 	}
@@ -169,29 +169,54 @@ func placements(own, other []int, score []float64, sign float64, weight func(int
 }
 
 // covariance returns the weighted 2x2 covariance matrix of the two models'
-// placements over rows, about the AUCs, divided by the class weight less 1
-// (NaN when that is not positive).
-func covariance(v [2][]float64, rows []int, weight func(int) float64, auc [2]float64, classWeight float64) [2][2]float64 {
-	var s [2][2]float64
+// placements over rows, divided by the class weight less 1 (NaN when that
+// is not positive). The placements' weighted mean is the AUC.
+func covariance(v [2][]float64, rows []int, weight func(int) float64, classWeight float64) [2][2]float64 {
+	var m [2][2]moments
 	for k, i := range rows {
 		w := weight(i)
 		for x := range 2 {
 			for y := range 2 {
-				s[x][y] += w * (v[x][k] - auc[x]) * (v[y][k] - auc[y])
+				m[x][y].add(w, v[x][k], v[y][k])
 			}
 		}
 	}
-	den := classWeight - 1
+	var s [2][2]float64
 	for x := range 2 {
 		for y := range 2 {
-			if den > 0 {
-				s[x][y] /= den
-			} else {
-				s[x][y] = math.NaN()
-			}
+			s[x][y] = m[x][y].covariance(classWeight)
 		}
 	}
 	return s
+}
+
+// moments accumulates the weighted co-moment of paired placements (x, y)
+// of one class, one weighted placement at a time (West 1979, "Updating
+// mean and variance estimates: an improved method"), so that the one-model
+// variance can be taken in the same single pass over a set's cuts that
+// finds its AUC.
+type moments struct {
+	weight, meanX, meanY, comoment float64
+}
+
+func (m *moments) add(w, x, y float64) {
+	if !(w > 0) {
+		return
+	}
+	m.weight += w
+	dx := x - m.meanX
+	m.meanX += w / m.weight * dx
+	m.meanY += w / m.weight * (y - m.meanY)
+	m.comoment += w * dx * (y - m.meanY)
+}
+
+// covariance is DeLong's S10 or S01 entry: the co-moment divided by the
+// class weight less 1, NaN when that is not positive.
+func (m *moments) covariance(classWeight float64) float64 {
+	if !(classWeight-1 > 0) {
+		return math.NaN()
+	}
+	return m.comoment / (classWeight - 1)
 }
 
 // Second returns the set ranked by its second score column, every other

@@ -21,22 +21,29 @@ import (
 // streamed (see WriteJSON). Its JSON form is a contract that scripts read:
 // keys keep their names and meanings, and new keys may be added.
 type Report struct {
-	Source           string      `json:"source"`
-	Rows             int         `json:"rows"`
-	DroppedRows      int         `json:"dropped_rows"`
-	Positives        float64     `json:"positives"`
-	Negatives        float64     `json:"negatives"`
-	BaseRate         number      `json:"base_rate"`
-	Weighted         bool        `json:"weighted"`
-	LowerIsRiskier   bool        `json:"lower_is_riskier"`
-	ROCAUC           number      `json:"roc_auc"`
-	AveragePrecision number      `json:"average_precision"`
-	Brier            number      `json:"brier"`
-	LogLoss          number      `json:"log_loss"`
-	Assumptions      assumptions `json:"assumptions"`
-	Cuts             []cut       `json:"cuts"`
-	Warnings         []string    `json:"warnings"`
-	Caution          string      `json:"caution"`
+	Source           string  `json:"source"`
+	Rows             int     `json:"rows"`
+	DroppedRows      int     `json:"dropped_rows"`
+	Positives        float64 `json:"positives"`
+	Negatives        float64 `json:"negatives"`
+	BaseRate         number  `json:"base_rate"`
+	Weighted         bool    `json:"weighted"`
+	LowerIsRiskier   bool    `json:"lower_is_riskier"`
+	ROCAUC           number  `json:"roc_auc"`
+	AveragePrecision number  `json:"average_precision"`
+	// ROCAUCCI is DeLong's normal interval of the AUC at the assumptions'
+	// confidence, clipped to [0,1], with its standard error;
+	// AveragePrecisionCI the logit interval over the true cases (see
+	// analysis.Ranking). Null when undefined.
+	ROCAUCCI           *interval   `json:"roc_auc_ci"`
+	ROCAUCStdError     number      `json:"roc_auc_std_error"`
+	AveragePrecisionCI *interval   `json:"average_precision_ci"`
+	Brier              number      `json:"brier"`
+	LogLoss            number      `json:"log_loss"`
+	Assumptions        assumptions `json:"assumptions"`
+	Cuts               []cut       `json:"cuts"`
+	Warnings           []string    `json:"warnings"`
+	Caution            string      `json:"caution"`
 
 	// DroppedNoScore counts by label the dropped rows whose score was
 	// missing where the input gives their labels (a counts table's rows
@@ -163,6 +170,9 @@ type Hints struct {
 // nothing of its own.
 func New(res *analysis.Result, opt Options) *Report {
 	r := newReport(res.Set, res.Summary, res.Assume, res.Outcomes, opt.Hints)
+	r.ROCAUCCI = newInterval(res.Ranking.ROCAUC.Interval)
+	r.ROCAUCStdError = number(res.Ranking.ROCAUC.StdError)
+	r.AveragePrecisionCI = newInterval(res.Ranking.AveragePrecision)
 	r.addSegments(res, opt.SegmentOrder, opt.SegmentsShown)
 	r.addCalibration(res)
 	r.addShiftPeaks(res)

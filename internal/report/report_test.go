@@ -319,6 +319,7 @@ var (
 	topContract = map[string]string{
 		"rows": "num", "dropped_rows": "num", "positives": "num", "negatives": "num", "base_rate": "num", "weighted": "bool",
 		"roc_auc": "num|null", "average_precision": "num|null", "brier": "num|null", "log_loss": "num|null",
+		"roc_auc_ci": "pair|null", "roc_auc_std_error": "num|null", "average_precision_ci": "pair|null",
 		"assumptions": "object", "cuts": "array",
 	}
 	assumptionsContract = map[string]string{
@@ -450,6 +451,33 @@ func TestWriteJSONValues(t *testing.T) {
 	if out["weighted"] != false {
 		t.Errorf("weighted = %v", out["weighted"])
 	}
+	// The ranking's intervals at 95% (z 1.959964), by hand. DeLong: the
+	// true cases' placements (share of false cases below, ties half) 1, 1,
+	// 0.75, 0.5 and the false cases' (share of true cases above) 0.5,
+	// 0.625, 0.75, 1, 1, 1; S10 = 0.171875/3, S01 = 0.2421875/5, variance
+	// S10/4 + S01/6 = 0.0223958, standard error 0.149652, interval 0.8125 ±
+	// 0.293313 clipped to [0.519187, 1]. AP 0.792857 over 4 true cases:
+	// logit 1.340, τ = 1/√(4·0.792857·0.207143) = 1.098, interval
+	// [0.254277, 0.977255].
+	const handRounded = 1e-6
+	pair := func(key string) [2]float64 {
+		v, ok := out[key].([]any)
+		if !ok || len(v) != 2 {
+			return [2]float64{math.NaN(), math.NaN()}
+		}
+		return [2]float64{v[0].(float64), v[1].(float64)}
+	}
+	for _, c := range []struct {
+		key  string
+		want [2]float64
+	}{{"roc_auc_ci", [2]float64{0.519187, 1}}, {"average_precision_ci", [2]float64{0.254277, 0.977255}}} {
+		if got := pair(c.key); !floatcmp.Within(got[0], c.want[0], handRounded) || !floatcmp.Within(got[1], c.want[1], handRounded) {
+			t.Errorf("%s = %v, want %v", c.key, got, c.want)
+		}
+	}
+	if got := num(out, "roc_auc_std_error"); !floatcmp.Within(got, 0.149652, handRounded) {
+		t.Errorf("roc_auc_std_error = %v, want 0.149652", got)
+	}
 	a := out["assumptions"].(map[string]any)
 	for key, want := range map[string]float64{"base_rate": 0.4, "volume_per_shift": 100, "capacity": 25, "cost_false_alert": 2, "cost_miss": 3, "cost_hit": 0, "confidence": 0.95} {
 		if got := num(a, key); got != want {
@@ -527,7 +555,7 @@ func TestWriteJSONNulls(t *testing.T) {
 	}
 	r, _ := byName["one-class"].build(t)
 	out := decodeJSON(t, r, nil)
-	for _, key := range []string{"roc_auc", "average_precision"} {
+	for _, key := range []string{"roc_auc", "average_precision", "roc_auc_ci", "roc_auc_std_error", "average_precision_ci"} {
 		if out[key] != nil {
 			t.Errorf("one class: %s = %v, want null", key, out[key])
 		}

@@ -217,6 +217,17 @@ func (r *Report) comparison() string {
 	return ">="
 }
 
+// withInterval is a ranking figure with its interval in brackets, at the
+// level the assumptions line states ("0.896 (0.881–0.911)"), or alone when
+// the interval is undefined.
+func (r *Report) withInterval(v number, ci *interval) string {
+	text := format.Number(float64(v), 3)
+	if ci != nil {
+		text += " (" + format.NumberInterval([2]float64{float64(ci[0]), float64(ci[1])}, 3) + ")"
+	}
+	return text
+}
+
 // WriteText writes r as a readable report.
 func WriteText(w io.Writer, r *Report) error {
 	var b strings.Builder
@@ -226,7 +237,7 @@ func WriteText(w io.Writer, r *Report) error {
 		fmt.Fprintf(&b, " · weighted")
 	}
 	b.WriteString("\n")
-	fmt.Fprintf(&b, "ROC AUC %s · average precision %s", format.Number(float64(r.ROCAUC), 3), format.Number(float64(r.AveragePrecision), 3))
+	fmt.Fprintf(&b, "ROC AUC %s · average precision %s", r.withInterval(r.ROCAUC, r.ROCAUCCI), r.withInterval(r.AveragePrecision, r.AveragePrecisionCI))
 	if evidence.Defined(float64(r.Brier)) {
 		fmt.Fprintf(&b, " · Brier score %s · log loss %s", format.Number(float64(r.Brier), 4), format.Number(float64(r.LogLoss), 4))
 	}
@@ -255,7 +266,7 @@ func WriteMarkdown(w io.Writer, r *Report, points Points) error {
 	var b strings.Builder
 	fmt.Fprintf(&b, "## Operating cuts: %s\n\n", format.Markdown(r.Source))
 	fmt.Fprintf(&b, "- %s, %s (base rate %s)%s\n", plural(r.Rows, "row", "rows"), amount(r.Positives, "true case", "true cases"), format.Share(float64(r.BaseRate)), map[bool]string{true: ", weighted", false: ""}[r.Weighted])
-	fmt.Fprintf(&b, "- ROC AUC %s, average precision %s", format.Number(float64(r.ROCAUC), 3), format.Number(float64(r.AveragePrecision), 3))
+	fmt.Fprintf(&b, "- ROC AUC %s, average precision %s", r.withInterval(r.ROCAUC, r.ROCAUCCI), r.withInterval(r.AveragePrecision, r.AveragePrecisionCI))
 	if evidence.Defined(float64(r.Brier)) {
 		fmt.Fprintf(&b, ", Brier score %s, log loss %s", format.Number(float64(r.Brier), 4), format.Number(float64(r.LogLoss), 4))
 	}

@@ -1,0 +1,11 @@
+package format
+
+// NumberInterval formats an interval of plain numbers with the given
+// decimals, "0.881–0.911" for an AUC's with 3. It reads "n/a" when either
+// end is undefined.
+func NumberInterval(ci [2]float64, decimals int) string {
+	if !defined(ci[0]) || !defined(ci[1]) {
+		return NA
+	}
+	return fixed(ci[0], decimals) + "–" + fixed(ci[1], decimals)
+}

@@ -1,0 +1,80 @@
+package modelpair
+
+import (
+	"math"
+
+	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/interval"
+)
+
+// Single is DeLong's variance of one model's ROC AUC (the diagonal of the
+// paired test's covariance, see Paired), taken from the cuts of a ranked
+// set as curve.Walk or curve.Curve.Points give them: pass Visit as (or
+// inside) the visitor, strictest cut first, then read Estimate. Every case
+// tied on one score has the same placement, so the work grows with the
+// distinct scores, not the rows, and the memory is constant.
+//
+// At a cut whose tie group holds t true and f false cases (weighted), a
+// true case's placement is (false cases below + f/2) / N and a false
+// case's is (true cases above + t/2) / P, with P and N the class weights;
+// the variance is S10/P + S01/N, S10 and S01 the weighted variances of
+// the placements over the true and the false cases divided by the class
+// weight less 1. Weights are frequency weights: a weight of 2 gives the
+// variance of the row written twice.
+//
+// The zero Single is ready to use; it must not be reused for another walk.
+type Single struct {
+	tp, fp                float64 // cumulative at the last cut visited
+	trueCases, falseCases moments
+}
+
+// Visit takes the next cut, strictest first.
+func (s *Single) Visit(p curve.Point) {
+	groupTP, groupFP := p.TP-s.tp, p.FP-s.fp
+	if groupTP > 0 && p.Negatives() > 0 {
+		v := (p.TN + groupFP/2) / p.Negatives()
+		s.trueCases.add(groupTP, v, v)
+	}
+	if groupFP > 0 && p.Positives() > 0 {
+		v := (s.tp + groupTP/2) / p.Positives()
+		s.falseCases.add(groupFP, v, v)
+	}
+	s.tp, s.fp = p.TP, p.FP
+}
+
+// AUCEstimate is one model's ROC AUC with DeLong's variance and the normal
+// interval it gives.
+type AUCEstimate struct {
+	AUC      float64
+	Variance float64
+	StdError float64
+	// Interval is AUC ± z·StdError at the confidence asked, clipped to
+	// [0,1] as R's pROC ci.auc(method = "delong") clips it.
+	Interval [2]float64
+}
+
+// Estimate returns the AUC of the cuts visited, its variance and the
+// normal interval at confidence (in (0,1); it panics outside). The AUC is
+// NaN when a class weighs nothing; the variance, standard error and
+// interval are NaN as well when a class weighs 1 or less (a variance
+// needs two). A variance of 0 (the classes apart, AUC 0 or 1) gives the
+// interval [AUC, AUC].
+func (s *Single) Estimate(confidence float64) AUCEstimate {
+	z := interval.Z(confidence)
+	positives, negatives := s.trueCases.weight, s.falseCases.weight
+	nan := math.NaN()
+	e := AUCEstimate{AUC: nan, Variance: nan, StdError: nan, Interval: [2]float64{nan, nan}}
+	if !(positives > 0) || !(negatives > 0) {
+		return e
+	}
+	// The placements' weighted mean is the AUC.
+	e.AUC = s.trueCases.meanX
+	e.Variance = s.trueCases.covariance(positives)/positives + s.falseCases.covariance(negatives)/negatives
+	if math.IsNaN(e.Variance) {
+		return e
+	}
+	e.Variance = max(e.Variance, 0)
+	e.StdError = math.Sqrt(e.Variance)
+	e.Interval = [2]float64{max(e.AUC-z*e.StdError, 0), min(e.AUC+z*e.StdError, 1)}
+	return e
+}
