@@ -533,3 +533,30 @@ func TestFindWrongUnmetReasons(t *testing.T) {
 		{"hit=0.5", 0.5, ""}, // recall needs no base rate
 	})
 }
+
+// TestBasis checks that each rule names the kind of figure it picks on,
+// in the words of package format.
+func TestBasis(t *testing.T) {
+	cases := []struct {
+		spec  string
+		given bool
+		want  string
+	}{
+		{"hit=0.8", true, "the measured hit share (production keeps it)"},
+		{"wrong=0.3", true, "the projected wrong-alert share"},
+		{"wrong=0.3", false, "the measured wrong-alert share"},
+		{"top=5%", true, "the measured rows flagged"},
+		{"base", false, "the projected alert rate against the base rate"},
+		{"queue=90", true, "the projected queue per shift"},
+		{"cost", true, "the projected cost per shift"},
+	}
+	for _, tc := range cases {
+		r, err := cutrule.Parse(tc.spec)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got := r.Basis(tc.given); got != tc.want {
+			t.Errorf("%s (base rate given %v): %q, want %q", tc.spec, tc.given, got, tc.want)
+		}
+	}
+}

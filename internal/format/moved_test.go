@@ -39,6 +39,14 @@ func TestFormatters(t *testing.T) {
 		{"fixed", Number(0.81249, 3), "0.812"},
 		{"score exact", Score(tenth + fifth), "0.30000000000000004"},
 		{"score short", Score(0.3), "0.3"},
+		{"queue interval", QueueInterval([2]float64{98.24, 130.46}), "98.2–130.5"},
+		{"queue interval undefined", QueueInterval([2]float64{nan, nan}), "n/a"},
+		{"money interval", MoneyInterval([2]float64{812.2, 1040}), "812–1040"},
+		{"money interval across zero", MoneyInterval([2]float64{-291.146, 781.547}), "-291 to 782"},
+		{"money interval minus zero", MoneyInterval([2]float64{-0.001, 5}), "0–5"},
+		{"money interval mixed digits", MoneyInterval([2]float64{34.92, 143.2}), "35–143"},
+		{"money interval small", MoneyInterval([2]float64{0.125, 2.5}), "0.12–2.50"},
+		{"money interval undefined", MoneyInterval([2]float64{1, nan}), "n/a"},
 	}
 	for _, tc := range cases {
 		if tc.got != tc.want {

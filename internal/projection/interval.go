@@ -3,6 +3,7 @@ package projection
 import (
 	"math"
 
+	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/interval"
 )
 
@@ -55,6 +56,18 @@ func IntervalsOf(c Counts, a Assumptions) Intervals {
 	if a.Volume > 0 {
 		iv.QueuePerShift = scaled(iv.AlertRate, a.Volume)
 		iv.CostPerShift = scaled(iv.CostPerCase, a.Volume)
+	}
+	// An interval is defined exactly where its figure is: Project takes a
+	// rate as undefined wherever its class has no cases and the base rate
+	// weighs it, even at a cost of 0.
+	fig := Project(curve.Point{TP: c.TP, FP: c.FP, FN: c.FN, TN: c.TN}, a)
+	for _, m := range []struct {
+		v  float64
+		ci *[2]float64
+	}{{fig.Precision, &iv.Precision}, {fig.AlertRate, &iv.AlertRate}, {fig.QueuePerShift, &iv.QueuePerShift}, {fig.CostPerShift, &iv.CostPerShift}, {fig.CostPerCase, &iv.CostPerCase}} {
+		if math.IsNaN(m.v) {
+			*m.ci = undefined
+		}
 	}
 	return iv
 }

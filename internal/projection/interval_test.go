@@ -170,39 +170,41 @@ func TestAlertRateInterval(t *testing.T) {
 // alert rate's and precision's stay within [0,1].
 func TestIntervalsHoldTheirFigures(t *testing.T) {
 	counts := []float64{0, 1, 2, 3, 7, 40, 1000}
-	a := projection.Assumptions{Volume: 500, Confidence: 0.95, Costs: &projection.Costs{FalseAlert: 3, Miss: 50, Hit: -1}}
-	for _, tp := range counts {
-		for _, fn := range counts {
-			for _, fp := range counts {
-				for _, tn := range counts {
-					for _, p := range []float64{0, 0.001, 0.05, 0.5, 0.99, 1} {
-						a.BaseRate = p
-						c := projection.Counts{TP: tp, FN: fn, FP: fp, TN: tn}
-						fig := projectCounts(c, a)
-						iv := projection.IntervalsOf(c, a)
-						for _, ch := range []struct {
-							name  string
-							v     float64
-							ci    [2]float64
-							share bool
-						}{
-							{"precision", fig.Precision, iv.Precision, true},
-							{"alert rate", fig.AlertRate, iv.AlertRate, true},
-							{"queue", fig.QueuePerShift, iv.QueuePerShift, false},
-							{"cost", fig.CostPerShift, iv.CostPerShift, false},
-						} {
-							if math.IsNaN(ch.v) != math.IsNaN(ch.ci[0]) || math.IsNaN(ch.v) != math.IsNaN(ch.ci[1]) {
-								t.Fatalf("%+v p=%v %s %v: interval %v defined differently", c, p, ch.name, ch.v, ch.ci)
-							}
-							if math.IsNaN(ch.v) {
-								continue
-							}
-							slack := 1e-12 * max(1, math.Abs(ch.v))
-							if !(ch.ci[0] <= ch.v+slack && ch.v <= ch.ci[1]+slack) {
-								t.Fatalf("%+v p=%v %s %v outside %v", c, p, ch.name, ch.v, ch.ci)
-							}
-							if ch.share && !(ch.ci[0] >= 0 && ch.ci[1] <= 1) {
-								t.Fatalf("%+v p=%v %s interval %v leaves [0,1]", c, p, ch.name, ch.ci)
+	for _, costs := range []projection.Costs{{FalseAlert: 3, Miss: 50, Hit: -1}, {Miss: 1}} {
+		a := projection.Assumptions{Volume: 500, Confidence: 0.95, Costs: &costs}
+		for _, tp := range counts {
+			for _, fn := range counts {
+				for _, fp := range counts {
+					for _, tn := range counts {
+						for _, p := range []float64{0, 0.001, 0.05, 0.5, 0.99, 1} {
+							a.BaseRate = p
+							c := projection.Counts{TP: tp, FN: fn, FP: fp, TN: tn}
+							fig := projectCounts(c, a)
+							iv := projection.IntervalsOf(c, a)
+							for _, ch := range []struct {
+								name  string
+								v     float64
+								ci    [2]float64
+								share bool
+							}{
+								{"precision", fig.Precision, iv.Precision, true},
+								{"alert rate", fig.AlertRate, iv.AlertRate, true},
+								{"queue", fig.QueuePerShift, iv.QueuePerShift, false},
+								{"cost", fig.CostPerShift, iv.CostPerShift, false},
+							} {
+								if math.IsNaN(ch.v) != math.IsNaN(ch.ci[0]) || math.IsNaN(ch.v) != math.IsNaN(ch.ci[1]) {
+									t.Fatalf("%+v p=%v %s %v: interval %v defined differently", c, p, ch.name, ch.v, ch.ci)
+								}
+								if math.IsNaN(ch.v) {
+									continue
+								}
+								slack := 1e-12 * max(1, math.Abs(ch.v))
+								if !(ch.ci[0] <= ch.v+slack && ch.v <= ch.ci[1]+slack) {
+									t.Fatalf("%+v p=%v %s %v outside %v", c, p, ch.name, ch.v, ch.ci)
+								}
+								if ch.share && !(ch.ci[0] >= 0 && ch.ci[1] <= 1) {
+									t.Fatalf("%+v p=%v %s interval %v leaves [0,1]", c, p, ch.name, ch.ci)
+								}
 							}
 						}
 					}

@@ -354,7 +354,7 @@ func (r *Report) addStability(result *analysis.Result) {
 			RecallP05: number(p.Recall[0]), RecallP95: number(p.Recall[1]),
 			FalseDiscoveryRateP05: number(p.FalseDiscoveryRate[0]), FalseDiscoveryRateP95: number(p.FalseDiscoveryRate[1])})
 	}
-	t := tableOf("cut", "score", "cut lands 5–95%", "flagged share 5–95%", "hit share 5–95%", "wrong-alert share 5–95%", "in plain words")
+	t := tableOf("cut", "score", "cut lands 5–95%", "measured flagged share 5–95%", "measured hit share 5–95%", "measured wrong-alert share 5–95%", "in plain words")
 	t.wordsLast = true
 	for i, s := range res.Spreads {
 		if i >= len(r.Cuts) {

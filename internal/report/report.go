@@ -78,6 +78,7 @@ type assumptions struct {
 
 type cut struct {
 	Spec               string    `json:"spec"`
+	Basis              string    `json:"basis"` // the figure the rule picks on, measured or projected (cutrule.Rule.Basis)
 	Met                bool      `json:"met"`
 	Reason             *string   `json:"reason"`
 	Score              number    `json:"score"`
@@ -219,7 +220,9 @@ func newReport(set *scores.Set, sum curve.Summary, a projection.Assumptions, out
 		r.Assumptions.CostHit = number(c.Hit)
 	}
 	for _, o := range outcomes {
-		r.Cuts = append(r.Cuts, newCut(o, a))
+		c := newCut(o, a)
+		c.Basis = o.Rule.Basis(r.baseRateGiven)
+		r.Cuts = append(r.Cuts, c)
 		if o.Met {
 			r.cutsEvidence = append(r.cutsEvidence, evidence.Of(o.Point, a))
 		} else {

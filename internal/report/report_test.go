@@ -327,13 +327,14 @@ var (
 		"cost_miss": "num|null", "cost_hit": "num|null", "capacity": "num|null", "confidence": "num",
 	}
 	cutContract = map[string]string{
-		"spec": "str", "met": "bool", "reason": "str|null", "score": "num|null", "flagged": "num", "flagged_share": "num",
+		"spec": "str", "basis": "str", "met": "bool", "reason": "str|null", "score": "num|null", "flagged": "num", "flagged_share": "num",
 		"tp": "num", "fp": "num", "fn": "num", "tn": "num",
 		"recall": "num|null", "recall_ci": "pair|null", "precision": "num|null", "precision_ci": "pair|null",
 		"false_discovery_rate": "num|null", "false_positive_rate": "num|null", "projected": "object",
 	}
-	projectedContract = map[string]string{"alert_rate": "num|null", "precision": "num|null", "queue_per_shift": "num|null", "cost_per_shift": "num|null"}
-	curveContract     = map[string]string{
+	projectedContract = map[string]string{"alert_rate": "num|null", "precision": "num|null", "queue_per_shift": "num|null", "cost_per_shift": "num|null",
+		"precision_ci": "pair|null", "alert_rate_ci": "pair|null", "queue_per_shift_ci": "pair|null", "cost_per_shift_ci": "pair|null"}
+	curveContract = map[string]string{
 		"score": "num", "flagged": "num", "tp": "num", "fp": "num", "fn": "num", "tn": "num",
 		"recall": "num|null", "precision": "num|null", "false_positive_rate": "num|null",
 	}
@@ -525,6 +526,26 @@ func TestWriteJSONValues(t *testing.T) {
 		if got := num(proj, key); !floatcmp.Equal(got, want) {
 			t.Errorf("base projected %s = %v, want %v", key, got, want)
 		}
+	}
+
+	// The projected figures' intervals are projection.IntervalsOf's at
+	// base's counts (tp 2, fp 1, fn 2, tn 5) under the assumptions, with
+	// production's base rate and volume taken as given: the queue's is the
+	// volume, 100, times the alert rate's, the cost's 100 times the cost
+	// per case's. package projection tests the intervals themselves.
+	iv := projection.IntervalsOf(projection.Counts{TP: 2, FP: 1, FN: 2, TN: 5},
+		projection.Assumptions{BaseRate: 0.4, Volume: 100, Confidence: 0.95, Costs: &projection.Costs{FalseAlert: 2, Miss: 3}})
+	for key, want := range map[string][2]float64{"precision_ci": iv.Precision, "alert_rate_ci": iv.AlertRate, "queue_per_shift_ci": iv.QueuePerShift, "cost_per_shift_ci": iv.CostPerShift} {
+		ci, ok := proj[key].([]any)
+		if !ok || !floatcmp.Equal(ci[0].(float64), want[0]) || !floatcmp.Equal(ci[1].(float64), want[1]) {
+			t.Errorf("base projected %s = %v, want %v", key, proj[key], want)
+		}
+	}
+	if ar := iv.AlertRate; !floatcmp.Equal(100*ar[0], iv.QueuePerShift[0]) || !(ar[0] < 0.3 && 0.3 < ar[1]) {
+		t.Errorf("alert rate interval %v: want the queue's over 100, around 0.3", ar)
+	}
+	if base["basis"] != "the projected alert rate against the base rate" {
+		t.Errorf("base basis %q", base["basis"])
 	}
 
 	// The curve, strictest first, with the table's counts.

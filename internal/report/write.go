@@ -158,7 +158,11 @@ type table struct {
 	wordsLast bool
 }
 
-// figuresTable lays out the met and unmet cuts of r side by side.
+// figuresTable lays out the met and unmet cuts of r side by side: the
+// measured figures under one heading row, the projected ones under
+// another (format.MeasuredHeading, format.ProjectedHeading), each with
+// its interval and, after a bootstrap, the measured shares' resampled
+// range beside them.
 func figuresTable(r *Report) table {
 	t := table{header: []string{"figure"}}
 	for _, c := range r.Cuts {
@@ -182,32 +186,94 @@ func figuresTable(r *Report) table {
 		}
 		t.rows = append(t.rows, row)
 	}
+	heading := func(name string) {
+		t.rows = append(t.rows, append([]string{name}, make([]string, len(r.Cuts))...))
+	}
+	resampled := func(share func(s *stability) [2]float64) {
+		if r.Bootstrap == nil {
+			return
+		}
+		add("  "+redrawsLabel, func(c cut, e evidence.Cut) string {
+			if c.Stability == nil {
+				return format.NA
+			}
+			return format.Interval(share(c.Stability))
+		})
+	}
 	add("cut (flag score "+r.comparison()+")", func(c cut, e evidence.Cut) string { return format.Score(e.Score) })
+	heading(format.MeasuredHeading)
 	add("cases flagged", func(c cut, e evidence.Cut) string {
 		return format.Count(e.Flagged) + " (" + format.Share(e.FlaggedShare) + ")"
 	})
 	add("hit share (recall)", func(c cut, e evidence.Cut) string { return format.Share(e.Recall) })
 	add("  "+conf+" interval", func(c cut, e evidence.Cut) string { return format.Interval(e.RecallCI) })
+	resampled(func(s *stability) [2]float64 { return [2]float64{float64(s.RecallP05), float64(s.RecallP95)} })
 	add("  true cases found", func(c cut, e evidence.Cut) string { return format.Count(e.TP) + " of " + format.Count(e.TP+e.FN) })
 	add("wrong-alert share (FDR)", func(c cut, e evidence.Cut) string { return format.Share(e.FalseDiscoveryRate) })
 	add("  "+conf+" interval", func(c cut, e evidence.Cut) string { return format.Interval(e.FalseDiscoveryCI) })
+	resampled(func(s *stability) [2]float64 {
+		return [2]float64{float64(s.FalseDiscoveryRateP05), float64(s.FalseDiscoveryRateP95)}
+	})
 	add("false positive rate", func(c cut, e evidence.Cut) string { return format.Share(e.FalsePositiveRate) })
+	if !r.projects() {
+		return t
+	}
+	heading(format.ProjectedHeading)
 	if r.baseRateGiven {
-		add("projected alert rate", func(c cut, e evidence.Cut) string { return format.Share(e.Projected.AlertRate) })
-		add("projected wrong-alert share", func(c cut, e evidence.Cut) string { return format.Share(e.Projected.FalseDiscoveryRate()) })
+		add("alert rate", func(c cut, e evidence.Cut) string { return format.Share(e.Projected.AlertRate) })
+		add("  "+conf+" interval", func(c cut, e evidence.Cut) string { return format.Interval(e.ProjectedCI.AlertRate) })
+		add("wrong-alert share", func(c cut, e evidence.Cut) string { return format.Share(e.Projected.FalseDiscoveryRate()) })
+		add("  "+conf+" interval", func(c cut, e evidence.Cut) string { return format.Interval(e.ProjectedCI.FalseDiscovery()) })
 	}
 	if evidence.Defined(float64(r.Assumptions.Volume)) {
 		add("queue per shift", func(c cut, e evidence.Cut) string { return format.Queue(e.Projected.QueuePerShift) })
+		add("  "+conf+" interval", func(c cut, e evidence.Cut) string { return format.QueueInterval(e.ProjectedCI.QueuePerShift) })
 		if cap := float64(r.Assumptions.Capacity); evidence.Defined(cap) {
 			add("  against capacity "+format.Given(cap), func(c cut, e evidence.Cut) string { return format.Against(e.Projected.QueuePerShift, cap) })
 		}
 		if evidence.Defined(float64(r.Assumptions.CostFalseAlert)) {
 			add("cost per shift", func(c cut, e evidence.Cut) string { return format.Money(e.Projected.CostPerShift) })
+			add("  "+conf+" interval", func(c cut, e evidence.Cut) string { return format.MoneyInterval(e.ProjectedCI.CostPerShift) })
 		}
 	} else if evidence.Defined(float64(r.Assumptions.CostFalseAlert)) {
 		add("cost per case", func(c cut, e evidence.Cut) string { return format.Money(e.Projected.CostPerCase) })
+		add("  "+conf+" interval", func(c cut, e evidence.Cut) string { return format.MoneyInterval(e.ProjectedCI.CostPerCase) })
 	}
 	return t
+}
+
+// basisLines say, one line per cut rule but score=, which figure the
+// rule picks its cut on.
+func (r *Report) basisLines() []string {
+	var lines []string
+	for _, c := range r.Cuts {
+		if c.Basis == "" || strings.HasPrefix(c.Spec, "score=") {
+			continue
+		}
+		lines = append(lines, c.Spec+" picks on "+c.Basis)
+	}
+	return lines
+}
+
+// redrawsLabel names the bootstrap's resampled range in the figures
+// table, beside the measured share it belongs to.
+const redrawsLabel = "redraws 5–95%"
+
+// projects reports whether the figures table has projected figures: a
+// production base rate other than the validation one, a volume or costs.
+func (r *Report) projects() bool {
+	return r.baseRateGiven || evidence.Defined(float64(r.Assumptions.Volume)) || evidence.Defined(float64(r.Assumptions.CostFalseAlert))
+}
+
+// isHeading reports whether row is a heading row of the figures table:
+// a name and no cells.
+func isHeading(row []string) bool {
+	for _, cell := range row[1:] {
+		if cell != "" {
+			return false
+		}
+	}
+	return len(row) > 1
 }
 
 func (r *Report) comparison() string {
@@ -244,6 +310,13 @@ func WriteText(w io.Writer, r *Report) error {
 	b.WriteString("\n\n")
 	b.WriteString("assumptions: " + r.assumptionLine() + "\n\n")
 	writeGrid(&b, figuresTable(r))
+	if r.projects() {
+		b.WriteString(format.ProjectedGiven + "\n")
+	}
+	b.WriteString("\n")
+	for _, line := range r.basisLines() {
+		b.WriteString(line + "\n")
+	}
 	for _, c := range r.Cuts {
 		if !c.Met {
 			fmt.Fprintf(&b, "\n%s unmet: %s", c.Spec, *c.Reason)
@@ -275,11 +348,21 @@ func WriteMarkdown(w io.Writer, r *Report, points Points) error {
 	b.WriteString("| " + strings.Join(format.MarkdownCells(t.header), " | ") + " |\n")
 	b.WriteString("|" + strings.Repeat(" --- |", len(t.header)) + "\n")
 	for _, row := range t.rows {
+		if isHeading(row) {
+			b.WriteString("| **" + format.Markdown(row[0]) + "** |" + strings.Repeat(" |", len(row)-1) + "\n")
+			continue
+		}
 		// Markdown drops leading spaces: mark the sub-rows instead.
 		if strings.HasPrefix(row[0], "  ") {
 			row[0] = "↳ " + strings.TrimSpace(row[0])
 		}
 		b.WriteString("| " + strings.Join(format.MarkdownCells(row), " | ") + " |\n")
+	}
+	if r.projects() {
+		b.WriteString("\n- " + format.Markdown(format.ProjectedGiven) + "\n")
+	}
+	for _, line := range r.basisLines() {
+		b.WriteString("- " + format.Markdown(line) + "\n")
 	}
 	for _, c := range r.Cuts {
 		if !c.Met {
