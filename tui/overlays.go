@@ -11,6 +11,7 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/x/ansi"
 
+	"github.com/sill-tool/sill/internal/design"
 	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/format"
 	"github.com/sill-tool/sill/internal/projection"
@@ -124,6 +125,7 @@ type formPane struct {
 	fields             []formField
 	focused            int
 	validationBaseRate float64
+	sample             *design.Sample // how the set was drawn, which the form does not change
 }
 
 // newFormPane returns the form filled from a; an empty base rate is the
@@ -150,6 +152,7 @@ func newFormPane(ctx *shared, a projection.Assumptions, validationBaseRate float
 // load fills the form from a.
 func (p *formPane) load(a projection.Assumptions, validationBaseRate float64) {
 	p.validationBaseRate = validationBaseRate
+	p.sample = a.Sample
 	// An empty base rate is the validation set's: say what that is.
 	p.fields[fieldBaseRate].hint = "production share of true cases, 0.01 or 1%; empty: " + format.Share(validationBaseRate)
 	text := func(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
@@ -264,7 +267,7 @@ func (p *formPane) parse() (projection.Assumptions, bool) {
 	for i := range p.fields {
 		p.fields[i].err = ""
 	}
-	a := projection.Assumptions{}
+	a := projection.Assumptions{Sample: p.sample}
 	if v, given, valid := shareOf(fieldBaseRate); valid {
 		a.BaseRate = v
 		if !given {

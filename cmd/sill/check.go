@@ -11,6 +11,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/sill-tool/sill/internal/decision"
+	"github.com/sill-tool/sill/internal/design"
 	"github.com/sill-tool/sill/internal/drift"
 	"github.com/sill-tool/sill/internal/format"
 	"github.com/sill-tool/sill/internal/report"
@@ -109,6 +110,12 @@ Exit status:
 			if !fs.Changed("score") && !isDefaultName(file.Data.ScoreColumn, scores.DefaultScoreColumns) {
 				input.opt.ScoreColumn = file.Data.ScoreColumn
 			}
+			if file.Data.WeightColumn != "" {
+				// New data weighted like the validation set read as the
+				// file says, unless --weight-kind says otherwise.
+				kind := file.Data.WeightKind
+				input.defaultKind = &kind
+			}
 			set, err := input.load(cmd.Context(), args[1], cmd.InOrStdin(), nil)
 			if err != nil {
 				var parseErr *scores.ParseError
@@ -121,11 +128,13 @@ Exit status:
 				}
 				return err
 			}
+			input.warnWeights(cmd.ErrOrStderr())
 			for _, w := range report.DroppedWarnings(set) {
 				fmt.Fprintf(cmd.ErrOrStderr(), "sill: warning: %s: %s\n", format.Printable(args[1]), format.Printable(w))
 			}
 			res, err := drift.Check(file, set, drift.Options{Tolerance: tolerance, Labelled: set.LabelColumn() != "" && !ignoreLabels, IgnoreLabels: "--ignore-labels",
-				Redo: func(baseRate float64) string { return redoLine(file, args[0], baseRate) }})
+				Sample: design.New(set, input.kind()),
+				Redo:   func(baseRate float64) string { return redoLine(file, args[0], baseRate) }})
 			if err != nil {
 				return fmt.Errorf("check %s: %w", args[1], err)
 			}
@@ -174,7 +183,7 @@ func redoLine(file *decision.File, path string, baseRate float64) string {
 		args = append(args, "--label", shellWord(file.Data.LabelColumn))
 	}
 	if file.Data.WeightColumn != "" {
-		args = append(args, "--weight", shellWord(file.Data.WeightColumn))
+		args = append(args, "--weight", shellWord(file.Data.WeightColumn), "--weight-kind", file.Data.WeightKind.String())
 	}
 	if file.Data.LowerIsRiskier {
 		args = append(args, "--lower-is-riskier")

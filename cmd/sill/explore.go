@@ -110,12 +110,15 @@ both models' cuts side by side.`,
 			}
 			cfg.Load = func(progress func(int)) (*scores.Set, error) { return o.load(cmd.Context(), path, progress) }
 			cfg.Assume, cfg.Out = o.assume.assumptions, o.out
-			return runExplorer(cmd.Context(), cfg)
+			err = runExplorer(cmd.Context(), cfg)
+			o.input.warnWeights(cmd.ErrOrStderr()) // once the screen has closed
+			return err
 		},
 	}
 	fs := cmd.Flags()
 	o.input.register(fs)
 	o.assume.register(fs)
+	o.assume.input = &o.input
 	fs.StringVar(&o.out, "out", "cut.yaml", "decision file the write key saves")
 	o.record.register(fs, "")
 	o.registerBeyond(fs)

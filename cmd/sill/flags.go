@@ -13,6 +13,8 @@ import (
 	"github.com/spf13/pflag"
 
 	"github.com/sill-tool/sill/internal/demo"
+	"github.com/sill-tool/sill/internal/design"
+	"github.com/sill-tool/sill/internal/format"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/share"
@@ -31,12 +33,22 @@ type inputFlags struct {
 	// counts reads the input as a counts table (score, positives,
 	// negatives), such as `sill sql` queries produce.
 	counts bool
+
+	// weightKind is --weight-kind: what the --weight column holds
+	// ("frequency" or "sampling"; "" when not given). defaultKind, when
+	// set, stands in for it (check takes the decision file's).
+	weightKind  string
+	defaultKind *design.Kind
+	// weightWarning is the one-line warning about the weights that load
+	// found ("" for none), for the command to print once.
+	weightWarning string
 }
 
 func (f *inputFlags) register(fs *pflag.FlagSet) {
 	fs.StringArrayVar(&f.scoreColumns, "score", nil, "score column (default: first of "+strings.Join(scores.DefaultScoreColumns, ", ")+"); give it twice to compare two models on the same cases")
 	fs.StringVar(&f.opt.LabelColumn, "label", "", "label column (default: first of "+strings.Join(scores.DefaultLabelColumns, ", ")+")")
 	fs.StringVar(&f.opt.WeightColumn, "weight", "", "optional column of non-negative case weights")
+	fs.StringVar(&f.weightKind, "weight-kind", "", "what --weight holds: frequency (a row of weight 3 is three cases) or sampling (inverse selection probabilities, such as 10 for negatives kept 1 in 10); needed when the weights are not whole numbers or differ only between the classes")
 	fs.StringVar(&f.opt.SegmentColumn, "segment", "", "optional group column")
 	fs.StringVar(&f.opt.IDColumn, "id", "", "optional case id column")
 	fs.StringVar(&f.opt.Positive, "positive", "", "the only label value that means a true case (default: 1/true/yes/positive vs 0/false/no/negative)")
@@ -52,8 +64,74 @@ func (f *inputFlags) register(fs *pflag.FlagSet) {
 // nil. Reading stops with ctx's error once ctx ends. A reading error that
 // a flag can mend names the flag.
 func (f *inputFlags) load(ctx context.Context, path string, stdin io.Reader, progress func(rows int)) (*scores.Set, error) {
+	if err := f.checkWeightKind(); err != nil {
+		return nil, err
+	}
 	set, err := f.loadSet(ctx, path, stdin, progress)
-	return set, readFlagHint(err)
+	if err != nil {
+		return nil, readFlagHint(err)
+	}
+	if err := f.declare(set); err != nil {
+		return nil, err
+	}
+	return set, nil
+}
+
+// checkWeightKind checks --weight-kind before anything is read.
+func (f *inputFlags) checkWeightKind() error {
+	if f.weightKind == "" {
+		return nil
+	}
+	if _, err := design.ParseKind(f.weightKind); err != nil {
+		return fmt.Errorf("--weight-kind %q: expected frequency or sampling", f.weightKind)
+	}
+	if f.opt.WeightColumn == "" {
+		return fmt.Errorf("--weight-kind %s says what the --weight column holds; give --weight COLUMN too", f.weightKind)
+	}
+	return nil
+}
+
+// kind returns what the weights are: --weight-kind, else the default
+// kind when one is set, else frequency.
+func (f *inputFlags) kind() design.Kind {
+	if k, err := design.ParseKind(f.weightKind); err == nil && f.weightKind != "" {
+		return k
+	}
+	if f.defaultKind != nil {
+		return *f.defaultKind
+	}
+	return design.Frequency
+}
+
+// declare checks weights read without --weight-kind (or a default kind):
+// weights that cannot be read as counts of cases as they stand stop with
+// one line asking for the flag; whole-number weights that vary within a
+// class leave a warning in f.weightWarning.
+func (f *inputFlags) declare(set *scores.Set) error {
+	f.weightWarning = ""
+	if f.weightKind != "" || f.defaultKind != nil {
+		return nil
+	}
+	warning, err := design.Declared(set)
+	if err != nil {
+		source := set.Source()
+		if source == "-" {
+			source = "standard input"
+		}
+		return fmt.Errorf("%s: %w; give --weight-kind frequency or --weight-kind sampling", format.Printable(source), err)
+	}
+	if warning != "" {
+		f.weightWarning = warning + "; --weight-kind sampling reads them as sampling weights"
+	}
+	return nil
+}
+
+// warnWeights prints the weights' warning, if load left one, once.
+func (f *inputFlags) warnWeights(w io.Writer) {
+	if f.weightWarning != "" {
+		fmt.Fprintln(w, "sill: warning: "+format.Printable(f.weightWarning))
+		f.weightWarning = ""
+	}
 }
 
 // readFlagHint adds to a reading error the flag that mends it, if one
@@ -190,6 +268,18 @@ type assumptionFlags struct {
 	// (report --reproject: the decision file's); otherwise the base rate
 	// is the validation one and the rest are not given.
 	defaults *projection.Assumptions
+	// input, when set, says what the set's weights are (--weight-kind),
+	// which the intervals follow.
+	input *inputFlags
+}
+
+// sample is the design of set under the input's --weight-kind: nil for
+// frequency weights, or without the input flags.
+func (f *assumptionFlags) sample(set *scores.Set) *design.Sample {
+	if f.input == nil {
+		return nil
+	}
+	return design.New(set, f.input.kind())
 }
 
 func (f *assumptionFlags) register(fs *pflag.FlagSet) {
@@ -209,6 +299,7 @@ func (f *assumptionFlags) register(fs *pflag.FlagSet) {
 func (f *assumptionFlags) assumptions(set *scores.Set) (projection.Assumptions, error) {
 	positives, negatives := set.Totals()
 	a := projection.Assumptions{
+		Sample:     f.sample(set),
 		BaseRate:   positives / (positives + negatives),
 		Volume:     f.volume,
 		Capacity:   f.capacity,

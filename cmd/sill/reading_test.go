@@ -43,13 +43,13 @@ func TestRunExports(t *testing.T) {
 	dir := t.TempDir()
 	european := strings.NewReplacer(",", ";", ".", ",").Replace(veldmoorTable)
 	unicodeText := utf16LE("\r\n", strings.ReplaceAll(veldmoorTable, ",", "\t"))
-	plain := reportJSON(t, writeFile(t, dir, "plain.csv", []byte(veldmoorTable)), "--weight", "weight")
+	plain := reportJSON(t, writeFile(t, dir, "plain.csv", []byte(veldmoorTable)), "--weight", "weight", "--weight-kind", "frequency")
 	want := mustJSON(t, plain)
 	for name, data := range map[string][]byte{
 		"european.csv": []byte(european),
 		"unicode.txt":  unicodeText,
 	} {
-		got := reportJSON(t, writeFile(t, dir, name, data), "--weight", "weight")
+		got := reportJSON(t, writeFile(t, dir, name, data), "--weight", "weight", "--weight-kind", "frequency")
 		if g := mustJSON(t, got); g != want {
 			t.Errorf("%s: figures differ from the plain file:\n%s\nwant\n%s", name, g, want)
 		}
@@ -57,7 +57,7 @@ func TestRunExports(t *testing.T) {
 	// --decimal-comma with tabs; a point in such a file is refused, a
 	// decimal comma without it is pointed at the flag.
 	tabbed := writeFile(t, dir, "tabbed.tsv", []byte(strings.NewReplacer(",", "\t", ".", ",").Replace(veldmoorTable)))
-	if got := mustJSON(t, reportJSON(t, tabbed, "--weight", "weight", "--decimal-comma")); got != want {
+	if got := mustJSON(t, reportJSON(t, tabbed, "--weight", "weight", "--weight-kind", "frequency", "--decimal-comma")); got != want {
 		t.Errorf("tabs with --decimal-comma: figures differ:\n%s", got)
 	}
 	bad := []struct {
@@ -99,7 +99,7 @@ func utf16LE(newline, text string) []byte {
 // times written in RFC 3339 with Amsterdam's offset that day (UTC+1).
 func TestRunZonelessTimes(t *testing.T) {
 	dir := t.TempDir()
-	args := []string{"--weight", "weight", "--time", "scanned", "--shifts", "06:00,14:00,22:00", "--tz", "Europe/Amsterdam"}
+	args := []string{"--weight", "weight", "--weight-kind", "frequency", "--time", "scanned", "--shifts", "06:00,14:00,22:00", "--tz", "Europe/Amsterdam"}
 	zoned := strings.NewReplacer(" 06:10:00", "T06:10:00+01:00", " 07:45:00", "T07:45:00+01:00", " 09:29:00", "T09:29:00+01:00",
 		" 14:05:00", "T14:05:00+01:00", " 18:40:00", "T18:40:00+01:00", " 23:15:00", "T23:15:00+01:00").Replace(veldmoorTable)
 	want := mustJSON(t, reportJSON(t, append([]string{writeFile(t, dir, "zoned.csv", []byte(zoned))}, args...)...))

@@ -78,12 +78,14 @@ columns); --format csv --curve prints the table of every cut instead.
 			if err != nil {
 				return err
 			}
+			o.input.warnWeights(cmd.ErrOrStderr())
 			return o.run(cmd.Context(), set, cmd.OutOrStdout(), cmd.ErrOrStderr())
 		},
 	}
 	fs := cmd.Flags()
 	o.input.register(fs)
 	o.assume.register(fs)
+	o.assume.input = &o.input
 	fs.StringVar(&o.format, "format", "text", "output: text, json, markdown, html (the sign-off page) or csv (one row per cut asked for; with --curve, every cut instead)")
 	fs.StringVar(&o.out, "out", "", "with --format html: the file to write the page to (default: standard output)")
 	fs.BoolVar(&o.withCurve, "curve", false, "add a table of every cut (text, JSON, Markdown); with --format csv, print that table alone")

@@ -74,6 +74,7 @@ fingerprint and what was done.`,
 				if explore, err = serveExplore(cmd.Context(), &o, data); err != nil {
 					return err
 				}
+				o.input.warnWeights(cmd.ErrOrStderr())
 			}
 			stderr := cmd.ErrOrStderr()
 			if hostKey == "" {
@@ -120,6 +121,7 @@ fingerprint and what was done.`,
 	fs.StringVar(&data, "data", "", "also serve the explorer on this validation set (with explore's flags), loaded once; each connection explores alone and writes nothing")
 	o.input.register(fs)
 	o.assume.register(fs)
+	o.assume.input = &o.input
 	o.registerBeyond(fs)
 	return cmd
 }

@@ -25,6 +25,12 @@ type Point struct {
 	Cases int
 
 	TP, FP, FN, TN float64 // weighted counts
+
+	// Squares holds each cell's sum of squared weights (TP, FP, FN, TN
+	// in that order), what a design-based variance of sampling weights
+	// needs (package design). Without a weight column every case weighs
+	// 1 and Squares equals the counts.
+	Squares [4]float64
 }
 
 // Flagged returns the weighted number of flagged cases.
@@ -71,6 +77,10 @@ type Summary struct {
 	Positives, Negatives float64 // weighted
 	BaseRate             float64 // Positives / (Positives + Negatives)
 	Weighted             bool
+	// PositiveSquares and NegativeSquares are the sums of squared
+	// weights of the true and the false cases (the counts without a
+	// weight column).
+	PositiveSquares, NegativeSquares float64
 
 	// Probabilities reports whether every score lies in [0,1] and higher
 	// scores are riskier, so that scores can be read as probabilities.
@@ -91,28 +101,36 @@ const logLossClip = 1e-15
 // visits nothing and returns a summary of NaNs and zeros.
 func Walk(set *scores.Set, visit func(Point)) Summary {
 	positives, negatives := set.Totals()
-	sum := Summary{
-		Rows:          set.Cases(),
-		Positives:     positives,
-		Negatives:     negatives,
-		BaseRate:      ratio(positives, positives+negatives),
-		Weighted:      set.Weighted(),
-		Probabilities: !set.LowerIsRiskier() && set.Len() > 0,
+	positiveSquares, negativeSquares := positives, negatives
+	if set.Weighted() {
+		positiveSquares, negativeSquares = squaredWeights(set)
 	}
+	sum := Summary{
+		Rows:            set.Cases(),
+		Positives:       positives,
+		Negatives:       negatives,
+		BaseRate:        ratio(positives, positives+negatives),
+		Weighted:        set.Weighted(),
+		PositiveSquares: positiveSquares,
+		NegativeSquares: negativeSquares,
+		Probabilities:   !set.LowerIsRiskier() && set.Len() > 0,
+	}
+	weighted := set.Weighted()
 	var (
-		tp, fp         float64 // cumulative
-		aucSum, apSum  float64
-		brier, logLoss float64
-		totalWeight    float64
-		previousRecall float64
-		scoresList     = set.Scores()
-		labels         = set.Labels()
-		n              = set.Len()
-		cutIndex       int
+		tpSquares, fpSquares float64 // cumulative, with a weight column
+		tp, fp               float64 // cumulative
+		aucSum, apSum        float64
+		brier, logLoss       float64
+		totalWeight          float64
+		previousRecall       float64
+		scoresList           = set.Scores()
+		labels               = set.Labels()
+		n                    = set.Len()
+		cutIndex             int
 	)
 	for start := 0; start < n; {
 		score := scoresList[start]
-		var groupTP, groupFP float64
+		var groupTP, groupFP, groupTPSquares, groupFPSquares float64
 		// The log terms are the same for every row of the group.
 		var logP, logNotP float64
 		if sum.Probabilities {
@@ -124,8 +142,14 @@ func Walk(set *scores.Set, visit func(Point)) Summary {
 			w := set.Weight(end)
 			if labels[end] {
 				groupTP += w
+				if weighted {
+					groupTPSquares += w * w
+				}
 			} else {
 				groupFP += w
+				if weighted {
+					groupFPSquares += w * w
+				}
 			}
 			if score < 0 || score > 1 {
 				sum.Probabilities = false
@@ -145,13 +169,20 @@ func Walk(set *scores.Set, visit func(Point)) Summary {
 		aucSum += groupFP * (tp + groupTP/2)
 		tp += groupTP
 		fp += groupFP
+		tpSquares += groupTPSquares
+		fpSquares += groupFPSquares
 		if positives > 0 && groupTP > 0 {
 			recall := tp / positives
 			apSum += (recall - previousRecall) * (tp / (tp + fp))
 			previousRecall = recall
 		}
 		if visit != nil {
-			visit(Point{Index: cutIndex, Score: score, Rows: end, Cases: set.CasesFlagged(end), TP: tp, FP: fp, FN: positives - tp, TN: negatives - fp})
+			p := Point{Index: cutIndex, Score: score, Rows: end, Cases: set.CasesFlagged(end), TP: tp, FP: fp, FN: positives - tp, TN: negatives - fp}
+			p.Squares = [4]float64{p.TP, p.FP, p.FN, p.TN}
+			if weighted {
+				p.Squares = [4]float64{tpSquares, fpSquares, positiveSquares - tpSquares, negativeSquares - fpSquares}
+			}
+			visit(p)
 		}
 		cutIndex++
 		start = end
@@ -172,4 +203,26 @@ func Walk(set *scores.Set, visit func(Point)) Summary {
 		sum.LogLoss = logLoss / totalWeight
 	}
 	return sum
+}
+
+// squaredWeights returns the sums of squared weights of the true and the
+// false cases, summed tie group by tie group in ranked order as the sweep
+// adds them, so that the loosest cut leaves no rounding residue.
+func squaredWeights(set *scores.Set) (positives, negatives float64) {
+	for start, n := 0, set.Len(); start < n; {
+		var groupPositives, groupNegatives float64
+		end := start
+		for ; end < n && set.Scores()[end] == set.Scores()[start]; end++ {
+			w := set.Weight(end)
+			if set.Labels()[end] {
+				groupPositives += w * w
+			} else {
+				groupNegatives += w * w
+			}
+		}
+		positives += groupPositives
+		negatives += groupNegatives
+		start = end
+	}
+	return positives, negatives
 }

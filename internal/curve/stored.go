@@ -14,15 +14,25 @@ type Curve struct {
 
 	end    []int     // end[i]: rows flagged at cut i
 	tp, fp []float64 // cumulative weighted counts at cut i
+
+	// squares are the cumulative squared weights of the flagged true and
+	// false cases at cut i; nil without a weight column (Point.Squares
+	// then equals the counts).
+	squares [2][]float64
 }
 
 // New computes the curve of a ranked set (see scores.Set).
 func New(set *scores.Set) *Curve {
 	c := &Curve{Set: set}
+	weighted := set.Weighted()
 	c.Summary = Walk(set, func(p Point) {
 		c.end = append(c.end, p.Rows)
 		c.tp = append(c.tp, p.TP)
 		c.fp = append(c.fp, p.FP)
+		if weighted {
+			c.squares[0] = append(c.squares[0], p.Squares[0])
+			c.squares[1] = append(c.squares[1], p.Squares[1])
+		}
 	})
 	return c
 }
@@ -32,7 +42,7 @@ func (c *Curve) Len() int { return len(c.end) }
 
 // At returns the point at cut i, 0 <= i < Len().
 func (c *Curve) At(i int) Point {
-	return Point{
+	p := Point{
 		Index: i,
 		Score: c.Set.Scores()[c.end[i]-1],
 		Rows:  c.end[i],
@@ -42,6 +52,12 @@ func (c *Curve) At(i int) Point {
 		FN:    c.Summary.Positives - c.tp[i],
 		TN:    c.Summary.Negatives - c.fp[i],
 	}
+	p.Squares = [4]float64{p.TP, p.FP, p.FN, p.TN}
+	if c.squares[0] != nil {
+		tp, fp := c.squares[0][i], c.squares[1][i]
+		p.Squares = [4]float64{tp, fp, c.Summary.PositiveSquares - tp, c.Summary.NegativeSquares - fp}
+	}
+	return p
 }
 
 // Points calls visit with every point, strictest first.

@@ -9,6 +9,7 @@ import (
 	"github.com/sill-tool/sill/internal/bootstrap"
 	"github.com/sill-tool/sill/internal/calibration"
 	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/design"
 	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/segment"
 )
@@ -66,6 +67,7 @@ func New(res *analysis.Result, picks []Pick, chosen string, rec Record) (*File, 
 			ScoreColumn:    set.ScoreColumn(),
 			LabelColumn:    set.LabelColumn(),
 			WeightColumn:   set.WeightColumn(),
+			WeightKind:     kindOf(a.Sample),
 			LowerIsRiskier: set.LowerIsRiskier(),
 			Histogram:      NewHistogram(set),
 		},
@@ -254,4 +256,12 @@ func ratio(num, den float64) float64 {
 		return 0
 	}
 	return num / den
+}
+
+// kindOf is the kind of weights of a design (frequency for nil).
+func kindOf(s *design.Sample) design.Kind {
+	if s.Sampling() {
+		return design.Sampling
+	}
+	return design.Frequency
 }

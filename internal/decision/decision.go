@@ -25,6 +25,7 @@ import (
 	"strings"
 	"time"
 
+	"github.com/sill-tool/sill/internal/design"
 	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/projection"
 )
@@ -75,14 +76,18 @@ func (f *File) Upgraded() bool { return f.Format == FormatV1 }
 
 // Data describes the validation set the cut was chosen on.
 type Data struct {
-	Path           string  // as given to the command
-	SHA256         string  // hex digest of the bytes read
-	Rows           int     // rows, zero-weight rows included
-	Positives      float64 // weighted true cases
-	Negatives      float64 // weighted false cases; key "negatives", optional on read
-	ScoreColumn    string
-	LabelColumn    string
-	WeightColumn   string // "" is written as null; optional on read
+	Path         string  // as given to the command
+	SHA256       string  // hex digest of the bytes read
+	Rows         int     // rows, zero-weight rows included
+	Positives    float64 // weighted true cases
+	Negatives    float64 // weighted false cases; key "negatives", optional on read
+	ScoreColumn  string
+	LabelColumn  string
+	WeightColumn string // "" is written as null; optional on read
+	// WeightKind is what the weights are (key weight_kind, written with a
+	// weight column, null without one); a file without the key reads as
+	// frequency weights, as every file was before the key.
+	WeightKind     design.Kind
 	LowerIsRiskier bool
 	Histogram      Histogram // key score_histogram
 }

@@ -15,6 +15,9 @@ import (
 
 	"go.yaml.in/yaml/v3"
 
+	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/design"
+	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/sharedfile"
 )
@@ -533,7 +536,7 @@ func (r *reader) failAt(path string, err error) {
 func (r *reader) data(n *yaml.Node) Data {
 	m := r.fields(n, "data",
 		[]string{"path", "sha256", "rows", "positives", "score_column", "label_column", "lower_is_riskier", "score_histogram"},
-		[]string{"negatives", "weight_column"})
+		[]string{"negatives", "weight_column", "weight_kind"})
 	d := Data{
 		Path:           r.str(m["path"], "data.path"),
 		SHA256:         r.str(m["sha256"], "data.sha256"),
@@ -550,6 +553,14 @@ func (r *reader) data(n *yaml.Node) Data {
 	}
 	if v, ok := m["negatives"]; ok && !isNull(v) {
 		d.Negatives = r.count(v, "data.negatives")
+	}
+	if v, ok := m["weight_kind"]; ok && !isNull(v) {
+		name := r.str(v, "data.weight_kind")
+		kind, err := design.ParseKind(name)
+		if r.err == nil && err != nil {
+			r.fail(deref(v), "data.weight_kind", fmt.Errorf("%w: %q, expected frequency or sampling (or null)", ErrInvalid, name))
+		}
+		d.WeightKind = kind
 	}
 	h := r.fields(m["score_histogram"], "data.score_histogram", []string{"edges", "counts"}, nil)
 	d.Histogram = Histogram{
@@ -630,7 +641,7 @@ func (r *reader) candidate(n *yaml.Node, path string, a projection.Assumptions, 
 	vp := path + ".validation"
 	v := r.fields(m["validation"], vp,
 		[]string{"flagged", "tp", "fp", "fn", "tn", "recall", "recall_ci", "precision", "precision_ci", "false_positive_rate"},
-		[]string{"rows", "flagged_share", "false_discovery_rate", "false_discovery_ci"})
+		[]string{"rows", "flagged_share", "false_discovery_rate", "false_discovery_ci", "effective_trials"})
 	e.Flagged = r.count(v["flagged"], vp+".flagged")
 	e.TP = r.count(v["tp"], vp+".tp")
 	e.FP = r.count(v["fp"], vp+".fp")
@@ -662,6 +673,20 @@ func (r *reader) candidate(n *yaml.Node, path string, a projection.Assumptions, 
 		e.FalseDiscoveryCI = r.interval(node, vp+".false_discovery_ci")
 	} else {
 		e.FalseDiscoveryCI = [2]float64{1 - e.PrecisionCI[1], 1 - e.PrecisionCI[0]}
+	}
+	// Frequency weights' trials are the weighted counts; sampling
+	// weights' are written out.
+	e.Trials = evidence.FrequencyTrials(curve.Point{TP: e.TP, FP: e.FP, FN: e.FN, TN: e.TN})
+	if node, ok := v["effective_trials"]; ok && !isNull(node) {
+		tp := vp + ".effective_trials"
+		t := r.fields(node, tp, []string{"recall", "false_positive_rate", "precision", "flagged_share", "base_rate"}, nil)
+		e.Trials = evidence.Trials{
+			Recall:            r.count(t["recall"], tp+".recall"),
+			FalsePositiveRate: r.count(t["false_positive_rate"], tp+".false_positive_rate"),
+			Precision:         r.count(t["precision"], tp+".precision"),
+			FlaggedShare:      r.count(t["flagged_share"], tp+".flagged_share"),
+			BaseRate:          r.count(t["base_rate"], tp+".base_rate"),
+		}
 	}
 
 	pp := path + ".projected"

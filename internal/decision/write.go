@@ -11,6 +11,7 @@ import (
 
 	"go.yaml.in/yaml/v3"
 
+	"github.com/sill-tool/sill/internal/design"
 	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/sharedfile"
 )
@@ -83,7 +84,7 @@ func short(digest string) string {
 func Marshal(f *File) ([]byte, error) {
 	cand := &yaml.Node{Kind: yaml.SequenceNode}
 	for _, c := range f.Candidates {
-		cand.Content = append(cand.Content, candidateNode(c, f.Data.LowerIsRiskier))
+		cand.Content = append(cand.Content, candidateNode(c, f.Data))
 	}
 	a := f.Assumptions
 	costs := [3]float64{math.NaN(), math.NaN(), math.NaN()}
@@ -106,6 +107,7 @@ func Marshal(f *File) ([]byte, error) {
 			"score_column", quoted(d.ScoreColumn),
 			"label_column", quoted(d.LabelColumn),
 			"weight_column", optionalStr(d.WeightColumn),
+			"weight_kind", weightKind(d),
 			"lower_is_riskier", boolean(d.LowerIsRiskier),
 			"score_histogram", mapping(
 				"edges", flowList(d.Histogram.Edges...),
@@ -164,30 +166,44 @@ func flagSign(lowerIsRiskier bool) string {
 	return ">="
 }
 
-func candidateNode(c Candidate, lowerIsRiskier bool) *yaml.Node {
+func candidateNode(c Candidate, d Data) *yaml.Node {
+	lowerIsRiskier := d.LowerIsRiskier
 	e := c.Cut
+	validation := mapping(
+		"rows", num(float64(e.Rows)),
+		"flagged", num(e.Flagged),
+		"flagged_share", num(e.FlaggedShare),
+		"tp", num(e.TP),
+		"fp", num(e.FP),
+		"fn", num(e.FN),
+		"tn", num(e.TN),
+		"recall", num(e.Recall),
+		"recall_ci", flowList(e.RecallCI[:]...),
+		"precision", num(e.Precision),
+		"precision_ci", flowList(e.PrecisionCI[:]...),
+		"false_discovery_rate", num(e.FalseDiscoveryRate),
+		"false_discovery_ci", flowList(e.FalseDiscoveryCI[:]...),
+		"false_positive_rate", num(e.FalsePositiveRate),
+	)
+	if d.WeightColumn != "" && d.WeightKind == design.Sampling {
+		// The cases each interval counted as, which check's tests need:
+		// with frequency weights they are the weighted counts above.
+		t := e.Trials
+		validation.Content = append(validation.Content, str("effective_trials"), mapping(
+			"recall", num(t.Recall),
+			"false_positive_rate", num(t.FalsePositiveRate),
+			"precision", num(t.Precision),
+			"flagged_share", num(t.FlaggedShare),
+			"base_rate", num(t.BaseRate),
+		))
+	}
 	score := num(e.Score)
 	score.LineComment = "flag when score " + flagSign(lowerIsRiskier) + " this"
 	return mapping(
 		"name", quoted(c.Name),
 		"rule", optionalStr(c.Rule),
 		"score", score,
-		"validation", mapping(
-			"rows", num(float64(e.Rows)),
-			"flagged", num(e.Flagged),
-			"flagged_share", num(e.FlaggedShare),
-			"tp", num(e.TP),
-			"fp", num(e.FP),
-			"fn", num(e.FN),
-			"tn", num(e.TN),
-			"recall", num(e.Recall),
-			"recall_ci", flowList(e.RecallCI[:]...),
-			"precision", num(e.Precision),
-			"precision_ci", flowList(e.PrecisionCI[:]...),
-			"false_discovery_rate", num(e.FalseDiscoveryRate),
-			"false_discovery_ci", flowList(e.FalseDiscoveryCI[:]...),
-			"false_positive_rate", num(e.FalsePositiveRate),
-		),
+		"validation", validation,
 		"projected", mapping(
 			"alert_rate", num(e.Projected.AlertRate),
 			"precision", num(e.Projected.Precision),
@@ -394,4 +410,13 @@ func FormatNumber(v float64) string {
 		mantissa += ".0"
 	}
 	return mantissa + "e" + exponent
+}
+
+// weightKind is the weight_kind of d: the kind's name with a weight
+// column, null without one.
+func weightKind(d Data) *yaml.Node {
+	if d.WeightColumn == "" {
+		return null()
+	}
+	return str(d.WeightKind.String())
 }

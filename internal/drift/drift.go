@@ -26,7 +26,10 @@ import (
 	"fmt"
 	"math"
 
+	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/decision"
+	"github.com/sill-tool/sill/internal/design"
+	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/format"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
@@ -55,6 +58,12 @@ type Options struct {
 	// Redo, when set, gives the caller's command that writes the decision
 	// re-projected at a base rate, for the next step of an assumption.
 	Redo func(baseRate float64) string
+	// Sample is how the new data were drawn (package design): with
+	// sampling weights their shares are tested at their effective sample
+	// sizes; nil reads their weights as frequency weights. The validation
+	// side follows the decision file's weight kind, through the effective
+	// trials of its candidates.
+	Sample *design.Sample
 }
 
 // Result is the outcome of Check.
@@ -151,15 +160,26 @@ func Check(f *decision.File, set *scores.Set, opt Options) (*Result, error) {
 			flagged = s <= chosen.Cut.Score
 		}
 		counts.weight += w
+		positive := opt.Labelled && set.Labels()[i]
 		if flagged {
 			counts.flagged += w
 		}
-		if opt.Labelled && set.Labels()[i] {
+		if positive {
 			counts.positives += w
 			if flagged {
 				counts.tp += w
 			}
 		}
+		cell := 3 // tn
+		switch {
+		case positive && flagged:
+			cell = 0
+		case flagged:
+			cell = 1
+		case positive:
+			cell = 2
+		}
+		counts.squares[cell] += w * w
 	}
 	if !(counts.weight > 0) {
 		return nil, ErrNoRows
@@ -177,6 +197,7 @@ type tally struct {
 	rows                           int
 	weighted                       bool
 	weight, flagged, positives, tp float64
+	squares                        [4]float64 // squared weights of TP, FP, FN, TN (all cases negative without labels)
 	bins                           []float64
 
 	// Bins cut from the file's curve (nil without one): even in true
@@ -229,7 +250,6 @@ func check(f *decision.File, chosen decision.Candidate, t tally, opt Options) *R
 		Rows: t.rows, Weight: t.weight, Flagged: t.flagged, Weighted: t.weighted, Labelled: opt.Labelled, Tolerance: opt.Tolerance, Confidence: a.Confidence, ignoreLabels: opt.IgnoreLabels,
 		PSI: math.NaN(), PSINoise: math.NaN(), PSINoiseLevel: math.NaN(),
 	}
-	tp, positives := t.tp, t.positives
 
 	v := chosen.Cut
 	base := a.BaseRate
@@ -239,27 +259,33 @@ func check(f *decision.File, chosen decision.Candidate, t tally, opt Options) *R
 	// variance belongs to the expected alert rate.
 	baseFromValidation := valPositives+valNegatives > 0 &&
 		math.Abs(base-valPositives/(valPositives+valNegatives)) <= 1e-9
-	r, fpr := shrunk(v.TP, valPositives), shrunk(v.FP, valNegatives)
-	alertVariance := weighted(base*base, shrunkVariance(v.TP, valPositives)) + weighted((1-base)*(1-base), shrunkVariance(v.FP, valNegatives))
+	// The validation counts as the file's intervals counted them: the
+	// weighted counts for frequency weights, the effective trials of
+	// sampling weights (evidence.Trials).
+	val := validationTrials(v)
+	r, fpr := shrunk(val.tp, val.positives), shrunk(val.fp, val.negatives)
+	recallVariance, fprVariance := shrunkVariance(val.tp, val.positives), shrunkVariance(val.fp, val.negatives)
+	alertVariance := weighted(base*base, recallVariance) + weighted((1-base)*(1-base), fprVariance)
 	res.BaseRate, res.BaseRateValidation = base, baseFromValidation
 	res.ValidationRows, res.ValidationPath = f.Data.Rows, f.Data.Path
 	if baseFromValidation {
-		alertVariance += base * (1 - base) * (r - fpr) * (r - fpr) / (valPositives + valNegatives)
+		alertVariance += base * (1 - base) * (r - fpr) * (r - fpr) / val.cases
 	}
-	res.AlertRate = Compare(res.Flagged, res.Weight, v.Projected.AlertRate, alertVariance, opt.Tolerance, a.Confidence)
+	fresh := t.effective(opt.Sample)
+	res.AlertRate = Compare(fresh.flagged, fresh.all, v.Projected.AlertRate, alertVariance, opt.Tolerance, a.Confidence)
 
 	if opt.Labelled {
-		res.Recall = Compare(tp, positives, v.Recall, shrunkVariance(v.TP, valPositives), opt.Tolerance, a.Confidence)
+		res.Recall = Compare(fresh.tp, fresh.positives, v.Recall, recallVariance, opt.Tolerance, a.Confidence)
 		var precisionVariance float64
 		if baseFromValidation {
-			precisionVariance = shrunkVariance(v.TP, v.TP+v.FP)
+			precisionVariance = shrunkVariance(val.precisionHits, val.precisionTrials)
 		} else {
 			// Delta method on precision = p*r / (p*r + (1-p)*f).
 			alert := base*r + (1-base)*fpr
 			scale := base * (1 - base) / (alert * alert)
-			precisionVariance = scale * scale * (fpr*fpr*shrunkVariance(v.TP, valPositives) + r*r*shrunkVariance(v.FP, valNegatives))
+			precisionVariance = scale * scale * (fpr*fpr*recallVariance + r*r*fprVariance)
 		}
-		res.Precision = Compare(tp, res.Flagged, v.Projected.Precision, precisionVariance, opt.Tolerance, a.Confidence)
+		res.Precision = Compare(fresh.precisionHits, fresh.precisionTrials, v.Projected.Precision, precisionVariance, opt.Tolerance, a.Confidence)
 	} else {
 		res.Recall = Compare(0, 0, v.Recall, math.NaN(), opt.Tolerance, a.Confidence)
 		res.Precision = Compare(0, 0, v.Projected.Precision, math.NaN(), opt.Tolerance, a.Confidence)
@@ -273,8 +299,15 @@ func check(f *decision.File, chosen decision.Candidate, t tally, opt Options) *R
 		for _, c := range h.Counts {
 			validationWeight += c
 		}
-		res.PSINoise = PSINoise(res.Bins, res.Weight, validationWeight)
-		res.PSINoiseLevel = PSINoiseLevel(h.Counts, res.Weight)
+		// At the effective sizes of both sides (the weights themselves
+		// with frequency weights).
+		counts := h.Counts
+		if val.cases != validationWeight && validationWeight > 0 {
+			counts = scaled(h.Counts, val.cases/validationWeight)
+			validationWeight = val.cases
+		}
+		res.PSINoise = PSINoise(res.Bins, fresh.all, validationWeight)
+		res.PSINoiseLevel = PSINoiseLevel(counts, fresh.all)
 		switch {
 		case math.IsNaN(res.PSI):
 		case res.PSI > PSILarge:
@@ -469,4 +502,71 @@ func (r *Result) reprojectedLine() string {
 		}
 	}
 	return line
+}
+
+// trials are the counts behind a side's shares as its tests read them:
+// weighted counts for frequency weights, effective ones for sampling
+// weights. precisionHits of precisionTrials is precision's share.
+type trials struct {
+	tp, positives, fp, negatives   float64
+	precisionHits, precisionTrials float64
+	cases                          float64 // behind the share of true cases
+	flagged, all                   float64 // behind the flagged share
+}
+
+// validationTrials returns the trials of the validation side of cut v:
+// each share at the effective trials the file gives (evidence.Trials),
+// which for frequency weights are the weighted counts themselves, taken
+// as they are so that those files are tested exactly as before.
+func validationTrials(v evidence.Cut) trials {
+	at := func(successes, total, n float64) float64 {
+		if n == total || !(total > 0) {
+			return successes
+		}
+		return successes / total * n
+	}
+	t := v.Trials
+	return trials{
+		tp: at(v.TP, v.TP+v.FN, t.Recall), positives: t.Recall,
+		fp: at(v.FP, v.FP+v.TN, t.FalsePositiveRate), negatives: t.FalsePositiveRate,
+		precisionHits: at(v.TP, v.TP+v.FP, t.Precision), precisionTrials: t.Precision,
+		cases: t.BaseRate,
+	}
+}
+
+// effective returns the trials of the new data: their weighted counts
+// read as frequency weights (s nil), or their design's effective trials
+// for sampling weights.
+func (t tally) effective(s *design.Sample) trials {
+	out := trials{tp: t.tp, positives: t.positives, fp: t.flagged - t.tp, negatives: t.weight - t.positives,
+		precisionHits: t.tp, precisionTrials: t.flagged, cases: t.weight, flagged: t.flagged, all: t.weight}
+	if !s.Sampling() {
+		return out
+	}
+	p := curve.Point{TP: t.tp, FP: t.flagged - t.tp, FN: t.positives - t.tp, Squares: t.squares}
+	p.TN = t.weight - t.positives - p.FP
+	at := func(f design.Figure, successes, total float64) (float64, float64) {
+		_, n := s.Interval(f, p, 0.95) // the level does not change the trials
+		if !(total > 0) {
+			return successes, total
+		}
+		return successes / total * n, n
+	}
+	out.tp, out.positives = at(design.Recall, out.tp, out.positives)
+	out.fp, out.negatives = at(design.FalsePositiveRate, out.fp, out.negatives)
+	out.precisionHits, out.precisionTrials = at(design.Precision, out.precisionHits, out.precisionTrials)
+	out.flagged, out.all = at(design.FlaggedShare, out.flagged, out.all)
+	if t.weight > 0 {
+		out.cases = s.BaseRateTrials(p)
+	}
+	return out
+}
+
+// scaled returns counts times factor.
+func scaled(counts []float64, factor float64) []float64 {
+	out := make([]float64, len(counts))
+	for i, c := range counts {
+		out[i] = c * factor
+	}
+	return out
 }

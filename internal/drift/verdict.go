@@ -65,13 +65,21 @@ func judgeLabelled(res *Result, f *decision.File, chosen decision.Candidate, t t
 	v := chosen.Cut
 	a := f.Assumptions
 	valPositives, valNegatives := v.TP+v.FN, v.FP+v.TN
-	negatives := t.weight - t.positives
-	res.FalsePositiveRate = Compare(t.flagged-t.tp, negatives, ratioOrNaN(v.FP, valNegatives), shrunkVariance(v.FP, valNegatives), opt.Tolerance, a.Confidence)
+	val, fresh := validationTrials(v), t.effective(opt.Sample)
+	res.FalsePositiveRate = Compare(fresh.fp, fresh.negatives, ratioOrNaN(v.FP, valNegatives), shrunkVariance(val.fp, val.negatives), opt.Tolerance, a.Confidence)
 	assumedVariance := 0.0
 	if res.BaseRateValidation {
-		assumedVariance = shrunkVariance(valPositives, valPositives+valNegatives)
+		positives := valPositives
+		if val.cases != valPositives+valNegatives && valPositives+valNegatives > 0 {
+			positives = valPositives / (valPositives + valNegatives) * val.cases
+		}
+		assumedVariance = shrunkVariance(positives, val.cases)
 	}
-	res.BaseRateTest = Compare(t.positives, t.weight, res.BaseRate, assumedVariance, opt.Tolerance, a.Confidence)
+	freshPositives := t.positives
+	if fresh.cases != t.weight && t.weight > 0 {
+		freshPositives = t.positives / t.weight * fresh.cases
+	}
+	res.BaseRateTest = Compare(freshPositives, fresh.cases, res.BaseRate, assumedVariance, opt.Tolerance, a.Confidence)
 	res.BaseRateObserved, res.BaseRateCI = res.BaseRateTest.Observed, res.BaseRateTest.ObservedCI
 	res.BaseRateMethod = "Wilson interval of the labelled share"
 
@@ -80,8 +88,10 @@ func judgeLabelled(res *Result, f *decision.File, chosen decision.Candidate, t t
 		{Name: "false positive rate", PValue: definedP(res.FalsePositiveRate), Model: true},
 	}
 	if t.byPositives != nil {
-		res.ScoresPositive = scoreTest(t.byPositives.positives, t.newPositives)
-		res.ScoresNegative = scoreTest(t.byNegatives.negatives, t.newNegatives)
+		// Each side's bins at its class's effective size (unchanged for
+		// frequency weights).
+		res.ScoresPositive = scoreTest(atSize(t.byPositives.positives, val.positives, valPositives), atSize(t.newPositives, fresh.positives, t.positives))
+		res.ScoresNegative = scoreTest(atSize(t.byNegatives.negatives, val.negatives, valNegatives), atSize(t.newNegatives, fresh.negatives, t.weight-t.positives))
 		family = append(family,
 			Judged{Name: "scores of true cases", PValue: res.ScoresPositive.PValue, Model: true},
 			Judged{Name: "scores of false cases", PValue: res.ScoresNegative.PValue, Model: true})
@@ -100,8 +110,14 @@ func judgeUnlabelled(res *Result, f *decision.File, t tally, opt Options) {
 	for j := range f1 {
 		f1[j], f0[j] = b.positives[j]/P, b.negatives[j]/N
 	}
-	n := t.weight
-	m := FitMixture(t.mixed, f1, f0, f.Assumptions.Confidence, func(p float64) float64 { return 1 + n*(p*p/P+(1-p)*(1-p)/N) })
+	// Each side at its effective size (unchanged for frequency weights).
+	v, _ := f.ChosenCandidate()
+	val, fresh := validationTrials(v.Cut), t.effective(opt.Sample)
+	if total := P + N; val.cases != total && total > 0 {
+		P, N = P/total*val.cases, N/total*val.cases
+	}
+	n := fresh.all
+	m := FitMixture(atSize(t.mixed, fresh.all, t.weight), f1, f0, f.Assumptions.Confidence, func(p float64) float64 { return 1 + n*(p*p/P+(1-p)*(1-p)/N) })
 	res.Mixture = &m
 	res.BaseRateObserved, res.BaseRateCI = m.BaseRate, m.CI
 	res.BaseRateMethod = "maximum likelihood of the scores as a mixture of the validated classes, profile-likelihood interval"
@@ -214,4 +230,14 @@ func sum(xs []float64) float64 {
 		s += x
 	}
 	return s
+}
+
+// atSize returns counts scaled from their total weight to size, the
+// effective size of the sample they count; counts themselves when the two
+// agree (frequency weights) or the weight is not positive.
+func atSize(counts []float64, size, weight float64) []float64 {
+	if size == weight || !(weight > 0) {
+		return counts
+	}
+	return scaled(counts, size/weight)
 }

@@ -8,17 +8,20 @@ import (
 	"math"
 
 	"github.com/sill-tool/sill/internal/curve"
-	"github.com/sill-tool/sill/internal/interval"
+	"github.com/sill-tool/sill/internal/design"
 	"github.com/sill-tool/sill/internal/projection"
 )
 
 // Cut holds the figures of one cut. Rates that are undefined are NaN (see
 // curve.Point); an interval of an undefined rate is [NaN, NaN].
 //
-// Intervals are Wilson intervals at the assumptions' confidence level. The
-// effective counts are the weighted counts read as frequency weights:
+// Intervals are at the assumptions' confidence level and follow how the
+// set was drawn (Assumptions.Sample, package design). With frequency
+// weights (or none) they are Wilson intervals of the weighted counts:
 // recall's interval is TP out of TP+FN, precision's is TP out of TP+FP,
-// the false positive rate's is FP out of FP+TN.
+// the false positive rate's is FP out of FP+TN, the flagged share's TP+FP
+// out of all. With sampling weights they are the design's intervals.
+// Trials holds the effective number of trials each interval rests on.
 // The false discovery rate's interval is the complement of precision's.
 // These are measured figures; Projected and ProjectedCI are projected
 // ones (see package projection).
@@ -38,6 +41,12 @@ type Cut struct {
 	FalseDiscoveryCI   [2]float64
 	FalsePositiveRate  float64
 	FalsePositiveCI    [2]float64 // Wilson, of the false cases flagged among all false cases
+	FlaggedShareCI     [2]float64
+
+	// Trials are the effective numbers of trials behind the intervals:
+	// the weighted counts for frequency weights, the design's effective
+	// sample sizes for sampling weights.
+	Trials Trials
 
 	Projected projection.Figures
 	// ProjectedCI are the intervals of Projected at the same confidence
@@ -65,11 +74,29 @@ func Of(p curve.Point, a projection.Assumptions) Cut {
 		Projected:          projection.Project(p, a),
 		ProjectedCI:        projection.IntervalsOf(projection.Counts{TP: p.TP, FP: p.FP, FN: p.FN, TN: p.TN}, a),
 	}
-	c.RecallCI[0], c.RecallCI[1] = interval.Wilson(p.TP, p.TP+p.FN, a.Confidence)
-	c.PrecisionCI[0], c.PrecisionCI[1] = interval.Wilson(p.TP, p.TP+p.FP, a.Confidence)
+	s := a.Sample
+	c.RecallCI, c.Trials.Recall = s.Interval(design.Recall, p, a.Confidence)
+	c.PrecisionCI, c.Trials.Precision = s.Interval(design.Precision, p, a.Confidence)
 	c.FalseDiscoveryCI = [2]float64{1 - c.PrecisionCI[1], 1 - c.PrecisionCI[0]}
-	c.FalsePositiveCI[0], c.FalsePositiveCI[1] = interval.Wilson(p.FP, p.FP+p.TN, a.Confidence)
+	c.FalsePositiveCI, c.Trials.FalsePositiveRate = s.Interval(design.FalsePositiveRate, p, a.Confidence)
+	c.FlaggedShareCI, c.Trials.FlaggedShare = s.Interval(design.FlaggedShare, p, a.Confidence)
+	c.Trials.BaseRate = s.BaseRateTrials(p)
 	return c
+}
+
+// Trials are the effective numbers of trials behind a cut's intervals
+// (design.Sample.Interval), and behind the set's share of true cases.
+type Trials struct {
+	Recall, FalsePositiveRate, Precision, FlaggedShare float64
+	BaseRate                                           float64
+}
+
+// FrequencyTrials returns the trials of frequency weights at p: the
+// weighted counts of each figure's denominator, as a file that names no
+// weight kind is read.
+func FrequencyTrials(p curve.Point) Trials {
+	return Trials{Recall: p.TP + p.FN, FalsePositiveRate: p.FP + p.TN, Precision: p.TP + p.FP,
+		FlaggedShare: p.TP + p.FP + p.FN + p.TN, BaseRate: p.TP + p.FP + p.FN + p.TN}
 }
 
 // Defined reports whether v is a number rather than NaN or an infinity.

@@ -60,6 +60,7 @@ import (
 	"math"
 
 	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/design"
 )
 
 // DefaultConfidence is the confidence level of intervals unless set.
@@ -81,6 +82,10 @@ type Assumptions struct {
 	Capacity   float64 // alerts one shift can work; 0 when not given
 	Costs      *Costs
 	Confidence float64 // level of every interval, in (0,1)
+
+	// Sample is how the validation set was drawn, which the intervals
+	// follow (package design); nil reads its weights as frequency weights.
+	Sample *design.Sample
 }
 
 // ErrAssumption marks an assumption outside its allowed range.
