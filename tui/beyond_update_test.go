@@ -77,8 +77,8 @@ func TestSegmentsOverlay(t *testing.T) {
 	}
 	got = m.segments.breakdown()
 	for i := 1; i < len(got.Segments); i++ {
-		if got.Segments[i].Gap(got.Overall) > got.Segments[i-1].Gap(got.Overall) {
-			t.Fatalf("by gap: %v after %v", got.Segments[i].Gap(got.Overall), got.Segments[i-1].Gap(got.Overall))
+		if got.Segments[i].LargestGap() > got.Segments[i-1].LargestGap() {
+			t.Fatalf("by gap: %v after %v", got.Segments[i].LargestGap(), got.Segments[i-1].LargestGap())
 		}
 	}
 	m = keys(m, "o", "o")

@@ -14,17 +14,21 @@ import (
 )
 
 // segmentsPane is the overlay of the breakdown by segment at the cursor's
-// cut: rows, true cases, flagged share, hit share and wrong-alert share with their
-// intervals, and "outside" on a group whose interval lies wholly outside
-// the overall one. The cut keys still move the cut under it; the page keys
-// scroll the groups and o changes their order. The sorted breakdown is
+// cut: rows, true cases, flagged share, hit share and wrong-alert share
+// with their intervals, and "differs" on a group whose hit share or
+// wrong-alert share differs from the rest of the set's (package segment's
+// group-against-rest tests); v shows instead the gaps from the rest with
+// their intervals, adjusted p-values and base rates. The cut keys still
+// move the cut under it; the page keys scroll the groups and o changes
+// their order. The sorted breakdown is
 // kept until the cut, the order or the confidence changes, so a scroll
 // costs only the drawing.
 type segmentsPane struct {
 	s      *session
 	ctx    *shared
 	order  segment.Order
-	offset int // first group in view
+	offset int  // first group in view
+	gaps   bool // the gaps from the rest instead of the figures
 
 	sorted *sortedGroups // shared by copies of the pane
 }
@@ -94,6 +98,8 @@ func (p *segmentsPane) Update(host *Model, m tea.KeyMsg) (bool, tea.Cmd) {
 	case key.Matches(m, k.SegmentOrder):
 		p.order = (p.order + 1) % 3
 		p.offset = 0
+	case key.Matches(m, k.CurveView):
+		p.gaps = !p.gaps
 	}
 	p.offset = max(min(p.offset, groups-page), 0)
 	if s.cursor != before {
@@ -108,7 +114,7 @@ func (p *segmentsPane) Update(host *Model, m tea.KeyMsg) (bool, tea.Cmd) {
 func (p *segmentsPane) ShortHelp() []key.Binding {
 	k := p.ctx.keys
 	return []key.Binding{hint(k.Segments, "s/esc", "close"), hint(k.Up, "↑↓", "move the cut"),
-		hint(k.PageDown, "pgup/pgdn", "scroll"), hint(k.SegmentOrder, "", "next order")}
+		hint(k.PageDown, "pgup/pgdn", "scroll"), hint(k.SegmentOrder, "", "next order"), hint(k.CurveView, "", "figures/gaps")}
 }
 
 // coversBody marks the breakdown as taking the whole body.
@@ -117,7 +123,7 @@ func (p *segmentsPane) coversBody() {}
 func orderName(o segment.Order) string {
 	switch o {
 	case segment.ByGap:
-		return "gap from overall"
+		return "gap from the rest"
 	case segment.ByName:
 		return "name"
 	}
@@ -126,6 +132,9 @@ func orderName(o segment.Order) string {
 
 // View draws the overlay at nearly the screen's size.
 func (p *segmentsPane) View() string {
+	if p.gaps {
+		return p.gapsView()
+	}
 	s, st := p.s, p.ctx.styles
 	b := p.breakdown()
 	longest := len("(overall)")
@@ -152,7 +161,7 @@ func (p *segmentsPane) View() string {
 		rangeW = 12
 		interval = format.Interval
 	}
-	// The gap from the overall figures (the larger of hit share's and
+	// The larger gap from the rest of the set (of hit share's and
 	// wrong-alert share's, in points) shows where there is room, and sorted by it.
 	gap := wide || p.order == segment.ByGap
 	fixed := 7 + 7 + 8 + 7 + 1 + rangeW + 7 + 1 + rangeW + 8
@@ -163,11 +172,11 @@ func (p *segmentsPane) View() string {
 	row := func(f segment.Figures) string {
 		note := ""
 		if f.Outlier {
-			note = "outside"
+			note = "differs"
 		}
 		gapText := ""
 		if gap && f.Segment != "(overall)" {
-			gapText = pad(format.Number(100*f.Gap(b.Overall), 1)+"pt", gapW, true)
+			gapText = pad(format.Number(100*f.LargestGap(), 1)+"pt", gapW, true)
 		} else if gap {
 			gapText = pad("", gapW, true)
 		}
@@ -183,8 +192,8 @@ func (p *segmentsPane) View() string {
 	overall := b.Overall
 	overall.Segment = "(overall)"
 	lines := []string{
-		st.Muted.Render(fmt.Sprintf("%d groups · %d outside · %s intervals · flagged: share of the group", len(b.Segments), b.Outliers(),
-			strconv.FormatFloat(100*s.assume.Confidence, 'g', -1, 64)+"%")),
+		st.Muted.Render(fmt.Sprintf("%d groups · %d differ · %s intervals · flagged: share of the group", len(b.Segments), b.Outliers(),
+			format.Level(s.assume.Confidence))),
 		st.ColumnHead.Render(head),
 		st.Figure.Render(row(overall)),
 	}
@@ -197,7 +206,7 @@ func (p *segmentsPane) View() string {
 		}
 		lines = append(lines, text)
 	}
-	keys := "↑↓ cut · o order · s/esc closes"
+	keys := "↑↓ cut · o order · v gaps · s/esc closes"
 	if len(b.Segments) > n {
 		// Scrolling: keep the box's height as the groups scroll by.
 		for range n - (end - p.offset) {
@@ -205,13 +214,12 @@ func (p *segmentsPane) View() string {
 		}
 		keys = fmt.Sprintf("%d–%d of %d · pgup/pgdn g/G scroll · ", p.offset+1, end, len(b.Segments)) + keys
 	}
-	// What outside and gap mean, in the longest words that fit.
-	legend := "outside: hit-share or wrong-alert-share interval wholly outside the overall one"
+	// What differs and gap mean, in the longest words that fit.
+	legend := differsLegend(b, innerW)
 	if gap {
 		for _, l := range []string{
-			legend + " · gap: the larger of the two figures' distances from overall, in points",
-			legend + " · gap: the larger distance from overall",
-			"outside: an interval wholly outside the overall one · gap: the larger distance from it",
+			legend + " · gap: the larger of the two figures' gaps from the rest, in points",
+			legend + " · gap: the larger gap from the rest",
 		} {
 			if ansi.StringWidth(l) <= innerW {
 				legend = l
@@ -221,6 +229,101 @@ func (p *segmentsPane) View() string {
 	}
 	lines = append(lines, st.Muted.Render(legend), st.Muted.Render(keys))
 	// framed fits every line to the box's inner width.
+	return framed(st.Overlay, st.OverlayEdge, st.Title, title, strings.Join(lines, "\n"), width,
+		min(len(lines)+st.Overlay.GetVerticalFrameSize(), p.ctx.height-2))
+}
+
+// differsLegend says what "differs" means, in the longest words that fit
+// width.
+func differsLegend(b segment.Breakdown, width int) string {
+	level := format.PValue(1 - b.Confidence)
+	for _, l := range []string{
+		fmt.Sprintf("differs: hit or wrong-alert share differs from the rest of the set (p adjusted by Holm over %d tests below %s; by chance alone any flag at all in at most %s of sets)",
+			b.Tests, level, format.Level(1-b.Confidence)),
+		fmt.Sprintf("differs: hit or wrong-alert share differs from the rest (Holm-adjusted p below %s)", level),
+	} {
+		if ansi.StringWidth(l) <= width {
+			return l
+		}
+	}
+	return "differs: differs from the rest (adjusted p below " + level + ")"
+}
+
+// gapsView draws the overlay with each group's gaps from the rest of the
+// set: hit share's and wrong-alert share's, each with its interval
+// (Newcombe's hybrid score) and Holm-adjusted p-value, and the group's
+// base rate beside the rest's, which wrong-alert shares follow.
+func (p *segmentsPane) gapsView() string {
+	s, st := p.s, p.ctx.styles
+	b := p.breakdown()
+	longest := len("segment")
+	for _, f := range b.Segments {
+		longest = max(longest, ansi.StringWidth(f.Segment))
+	}
+	// rows, hit gap, interval, adj. p, wrong gap, interval, adj. p, base
+	// rate, rest's, note.
+	// Narrower than that, gaps drop their unit (the count line gives it)
+	// and intervals read in whole points.
+	const pW, rateW = 8, 7
+	gapW, rangeW := 9, 19
+	natural := 7 + 2*(gapW+1+rangeW+pW) + 2*rateW + 8 + min(longest, 28) + 1
+	width := min(p.ctx.width-2, natural+st.Overlay.GetHorizontalFrameSize())
+	innerW := width - st.Overlay.GetHorizontalFrameSize()
+	gapText, gapInterval := format.Gap, format.GapInterval
+	if innerW < natural {
+		gapW, rangeW = 7, 11
+		gapText = func(d float64) string { return strings.TrimSuffix(format.Gap(d), " pt") }
+		gapInterval = format.ShortGapInterval
+	}
+	fixed := 7 + 2*(gapW+1+rangeW+pW) + 2*rateW + 8
+	nameW := max(innerW-fixed, 8)
+	sign := ">="
+	if s.set.LowerIsRiskier() {
+		sign = "<="
+	}
+	title := fmt.Sprintf("segments (%s) against the rest at cut %s %s · by %s", s.set.SegmentColumn(), sign, format.Score(s.point().Score), orderName(p.order))
+	row := func(f segment.Figures) string {
+		note := ""
+		if f.Outlier {
+			note = "differs"
+		}
+		r, w := f.RecallTest, f.FalseDiscoveryTest
+		return pad(format.Printable(f.Segment), nameW, false) + pad(strconv.Itoa(f.Rows), 7, true) +
+			pad(gapText(r.Gap), gapW, true) + " " + pad(gapInterval(r.GapCI), rangeW, false) + pad(format.PValue(r.AdjustedP), pW, true) +
+			pad(gapText(w.Gap), gapW, true) + " " + pad(gapInterval(w.GapCI), rangeW, false) + pad(format.PValue(w.AdjustedP), pW, true) +
+			pad(format.Share(f.BaseRate()), rateW, true) + pad(format.Share(b.RestBaseRate(f)), rateW, true) + " " + note
+	}
+	head := pad("segment", nameW, false) + pad("rows", 7, true) +
+		pad("hit", gapW, true) + " " + pad("interval", rangeW, false) + pad("adj. p", pW, true) +
+		pad("wrong", gapW, true) + " " + pad("interval", rangeW, false) + pad("adj. p", pW, true) +
+		pad("base", rateW, true) + pad("rest", rateW, true)
+	lines := []string{
+		st.Muted.Render(fmt.Sprintf("%d groups · %d differ · gap: group less the rest of the set, in points · %s intervals", len(b.Segments), b.Outliers(),
+			format.Level(b.Confidence))),
+		st.ColumnHead.Render(head),
+	}
+	n := p.rowsInView() // the base-rate line takes the overall row's place
+	end := min(p.offset+n, len(b.Segments))
+	for _, f := range b.Segments[p.offset:end] {
+		text := row(f)
+		if f.Outlier {
+			text = st.Warning.Render(text)
+		}
+		lines = append(lines, text)
+	}
+	keys := "↑↓ cut · o order · v figures · s/esc closes"
+	if len(b.Segments) > n {
+		for range n - (end - p.offset) {
+			lines = append(lines, "")
+		}
+		keys = fmt.Sprintf("%d–%d of %d · pgup/pgdn g/G scroll · ", p.offset+1, end, len(b.Segments)) + keys
+	}
+	legend := differsLegend(b, innerW)
+	baseRates := "base, rest: share of true cases in the group and in the rest; wrong-alert shares follow them, so a wrong gap may come from the mix of cases"
+	if ansi.StringWidth(baseRates) > innerW {
+		baseRates = "base, rest: true-case shares; wrong-alert shares follow them"
+	}
+	lines = append(lines, st.Muted.Render(legend), st.Muted.Render(baseRates), st.Muted.Render(keys))
 	return framed(st.Overlay, st.OverlayEdge, st.Title, title, strings.Join(lines, "\n"), width,
 		min(len(lines)+st.Overlay.GetVerticalFrameSize(), p.ctx.height-2))
 }

@@ -165,7 +165,7 @@ func TestReportHints(t *testing.T) {
 		stream string
 		want   string
 	}{
-		{[]string{path, "--segment", "yard", "--segments-shown", "1"}, "stdout", "1 more segment not shown (0 of them outside); --segments-shown 0 shows all, --format json lists all"},
+		{[]string{path, "--segment", "yard", "--segments-shown", "1"}, "stdout", "1 more segment not shown (0 of them differ); --segments-shown 0 shows all, --format json lists all"},
 		{[]string{path, "--time", "read_at", "--shifts", "06:00,14:00,22:00"}, "stdout", "the validation set's own counts per shift (give --volume to scale them to production)"},
 		{[]string{path, "--cost-miss", "10"}, "stdout", "on the validation set; with --bootstrap, a warning says when the cost threshold lies outside"},
 		{[]string{reversedPath}, "stderr", "is below 0.5: the scores rank false cases above true ones more often than not; if lower scores mean likely true cases, add --lower-is-riskier"},

@@ -146,7 +146,7 @@ func stabilityOf(res *analysis.Result, p Pick) *Stability {
 
 func segmentsOf(column string, b segment.Breakdown) *Segments {
 	groups := slices.Clone(b.Segments)
-	s := &Segments{Column: column}
+	s := &Segments{Column: column, Tests: b.Tests}
 	if len(groups) > MaxSegmentGroups {
 		// Outliers first, then the largest; the kept ones back in the
 		// data's order.
@@ -180,6 +180,9 @@ func segmentsOf(column string, b segment.Breakdown) *Segments {
 		s.Groups = append(s.Groups, SegmentGroup{
 			Name: g.Segment, Rows: g.Rows, Positives: g.Positives, Negatives: g.Negatives, TP: g.TP, FP: g.FP,
 			Recall: g.Recall, RecallCI: g.RecallCI, Precision: g.Precision, PrecisionCI: g.PrecisionCI, Outlier: g.Outlier,
+			RecallGap: g.RecallTest.Gap, RecallGapCI: g.RecallTest.GapCI, RecallAdjustedP: g.RecallTest.AdjustedP,
+			FalseDiscoveryGap: g.FalseDiscoveryTest.Gap, FalseDiscoveryGapCI: g.FalseDiscoveryTest.GapCI,
+			FalseDiscoveryAdjustedP: g.FalseDiscoveryTest.AdjustedP,
 		})
 	}
 	return s

@@ -148,21 +148,31 @@ func (r *reader) segments(n *yaml.Node, path string) *Segments {
 	if isNull(n) || r.err != nil {
 		return nil
 	}
-	m := r.fields(n, path, []string{"column", "groups"}, []string{"left_out"})
+	m := r.fields(n, path, []string{"column", "groups"}, []string{"left_out", "tests"})
 	s := &Segments{Column: r.str(m["column"], path+".column")}
 	if v, ok := m["left_out"]; ok {
 		s.LeftOut = r.integer(v, path+".left_out")
 	}
+	if v, ok := m["tests"]; ok {
+		s.Tests = r.integer(v, path+".tests")
+	}
 	for i, item := range r.list(m["groups"], path+".groups") {
 		p := fmt.Sprintf("%s.groups[%d]", path, i)
-		g := r.fields(item, p, []string{"name", "rows", "positives", "negatives", "tp", "fp", "recall", "recall_ci", "precision", "precision_ci", "outlier"}, nil)
+		g := r.fields(item, p, []string{"name", "rows", "positives", "negatives", "tp", "fp", "recall", "recall_ci", "precision", "precision_ci", "outlier"},
+			[]string{"recall_gap", "recall_gap_ci", "recall_adjusted_p", "false_discovery_gap", "false_discovery_gap_ci", "false_discovery_adjusted_p"})
 		group := SegmentGroup{
 			Name: r.str(g["name"], p+".name"), Rows: r.integer(g["rows"], p+".rows"),
 			Positives: r.count(g["positives"], p+".positives"), Negatives: r.count(g["negatives"], p+".negatives"),
 			TP: r.count(g["tp"], p+".tp"), FP: r.count(g["fp"], p+".fp"),
 			Recall: r.share(g["recall"], p+".recall"), RecallCI: r.interval(g["recall_ci"], p+".recall_ci"),
 			Precision: r.share(g["precision"], p+".precision"), PrecisionCI: r.interval(g["precision_ci"], p+".precision_ci"),
-			Outlier: r.boolean(g["outlier"], p+".outlier"),
+			Outlier:                 r.boolean(g["outlier"], p+".outlier"),
+			RecallGap:               r.gap(g["recall_gap"], p+".recall_gap"),
+			RecallGapCI:             r.gapInterval(g["recall_gap_ci"], p+".recall_gap_ci"),
+			RecallAdjustedP:         r.share(g["recall_adjusted_p"], p+".recall_adjusted_p"),
+			FalseDiscoveryGap:       r.gap(g["false_discovery_gap"], p+".false_discovery_gap"),
+			FalseDiscoveryGapCI:     r.gapInterval(g["false_discovery_gap_ci"], p+".false_discovery_gap_ci"),
+			FalseDiscoveryAdjustedP: r.share(g["false_discovery_adjusted_p"], p+".false_discovery_adjusted_p"),
 		}
 		switch {
 		case r.err != nil:
@@ -174,6 +184,36 @@ func (r *reader) segments(n *yaml.Node, path string) *Segments {
 		s.Groups = append(s.Groups, group)
 	}
 	return s
+}
+
+// gap reads a difference of two shares, a number in [-1,1], or null
+// (NaN); an absent key reads as NaN.
+func (r *reader) gap(n *yaml.Node, path string) float64 {
+	v := r.number(n, path, true)
+	if r.err == nil && !math.IsNaN(v) && !(v >= -1 && v <= 1) {
+		r.fail(deref(n), path, fmt.Errorf("%w: %v, expected a difference of shares in [-1,1] or null", ErrInvalid, v))
+	}
+	return v
+}
+
+// gapInterval reads [lower, upper] of differences of shares or nulls, or
+// a null interval; an absent key reads as NaNs.
+func (r *reader) gapInterval(n *yaml.Node, path string) [2]float64 {
+	if deref(n) == nil || isNull(n) {
+		return [2]float64{math.NaN(), math.NaN()}
+	}
+	items := r.list(n, path)
+	if r.err == nil && len(items) != 2 {
+		r.fail(deref(n), path, fmt.Errorf("%w: %d values, expected [lower, upper]", ErrInvalid, len(items)))
+	}
+	if r.err != nil {
+		return [2]float64{math.NaN(), math.NaN()}
+	}
+	ci := [2]float64{r.gap(items[0], path+"[0]"), r.gap(items[1], path+"[1]")}
+	if r.err == nil && ci[0] > ci[1] {
+		r.fail(deref(n), path, fmt.Errorf("%w: lower end %v above upper end %v", ErrInvalid, ci[0], ci[1]))
+	}
+	return ci
 }
 
 func (r *reader) shifts(n *yaml.Node, path string) *Shifts {

@@ -107,6 +107,10 @@ type Segments struct {
 	// LeftOut counts the groups beyond MaxSegmentGroups not kept (key
 	// left_out; absent when 0).
 	LeftOut int
+	// Tests is how many group-against-rest tests Holm's adjustment
+	// covered, over every group including those left out (key tests;
+	// absent in files written before the groups were tested, read as 0).
+	Tests int
 }
 
 // SegmentGroup is one group's figures at a candidate's cut.
@@ -120,9 +124,22 @@ type SegmentGroup struct {
 	RecallCI    [2]float64 // key recall_ci
 	Precision   float64    // key precision; NaN (null) when nothing is flagged
 	PrecisionCI [2]float64 // key precision_ci
-	// Outlier is set when the group's recall or precision interval lies
-	// clear of the whole set's (key outlier).
+	// Outlier is set when the group differs from the rest of the set in
+	// recall or wrong-alert share: an adjusted p-value below 1 -
+	// confidence (key outlier). Files written before the groups were
+	// tested set it when the group's recall or precision interval lay
+	// clear of the whole set's.
 	Outlier bool
+	// The group against the rest of the set (package segment): the gap
+	// of recall (keys recall_gap, recall_gap_ci, recall_adjusted_p) and
+	// of wrong-alert share (keys false_discovery_gap,
+	// false_discovery_gap_ci, false_discovery_adjusted_p), each a
+	// difference in [-1,1] with Newcombe's interval and Holm's adjusted
+	// p-value. Optional: NaN (null) when undefined or absent (files
+	// written before the groups were tested).
+	RecallGap, FalseDiscoveryGap             float64
+	RecallGapCI, FalseDiscoveryGapCI         [2]float64
+	RecallAdjustedP, FalseDiscoveryAdjustedP float64
 }
 
 // Shifts are a candidate's queues in the real shifts of the validation

@@ -8,6 +8,7 @@ import (
 	"math/rand/v2"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
 	"time"
@@ -60,6 +61,14 @@ func TestDemoRecordsWhatWasComputed(t *testing.T) {
 			if g.Name != w.Segment || g.Rows != w.Rows || g.TP != w.TP || !identical(g.Recall, w.Recall) || g.RecallCI != w.RecallCI || g.Outlier != w.Outlier {
 				t.Errorf("%s group %d: %+v, want %+v", cand.Name, k, g, w)
 			}
+			if !identical(g.RecallGap, w.RecallTest.Gap) || !identical(g.RecallGapCI[0], w.RecallTest.GapCI[0]) || !identical(g.RecallAdjustedP, w.RecallTest.AdjustedP) ||
+				!identical(g.FalseDiscoveryGap, w.FalseDiscoveryTest.Gap) || !identical(g.FalseDiscoveryGapCI[1], w.FalseDiscoveryTest.GapCI[1]) ||
+				!identical(g.FalseDiscoveryAdjustedP, w.FalseDiscoveryTest.AdjustedP) {
+				t.Errorf("%s group %d: tests %+v, want %+v and %+v", cand.Name, k, g, w.RecallTest, w.FalseDiscoveryTest)
+			}
+		}
+		if cand.Segments.Tests != b.Tests || b.Tests == 0 {
+			t.Errorf("%s: %d tests, want %d", cand.Name, cand.Segments.Tests, b.Tests)
 		}
 		peaks, _ := res.PeaksAt(o.Point, 90)
 		if s := cand.Shifts; s == nil || s.Count != peaks.Shifts || s.P90 != peaks.P90 || s.Max != peaks.Max ||
@@ -180,6 +189,10 @@ func TestReadRejectsBrokenNewKeys(t *testing.T) {
 		{"stability seed", replaceNth(t, text, `seed: 1\n`, 0, "seed: -1\n"), ErrInvalid, "candidates[0].stability.seed"},
 		{"stability met", replaceNth(t, text, `met: 50`, 0, `met: 51`), ErrInvalid, "candidates[0].stability.met"},
 		{"segments outlier", replaceNth(t, text, `outlier: (true|false)`, 0, `outlier: maybe`), ErrType, "candidates[0].segments.groups[0].outlier"},
+		{"segments recall gap", replaceNth(t, text, `recall_gap: [-0-9.e]+`, 0, `recall_gap: 1.5`), ErrInvalid, "candidates[0].segments.groups[0].recall_gap"},
+		{"segments gap interval", replaceNth(t, text, `false_discovery_gap_ci: \[[^\]]*\]`, 0, `false_discovery_gap_ci: [0.2, -0.1]`), ErrInvalid, "candidates[0].segments.groups[0].false_discovery_gap_ci"},
+		{"segments adjusted p", replaceNth(t, text, `recall_adjusted_p: [-0-9.e]+`, 0, `recall_adjusted_p: 2`), ErrInvalid, "candidates[0].segments.groups[0].recall_adjusted_p"},
+		{"segments tests", replaceNth(t, text, `\n      tests: \d+`, 0, "\n      tests: many"), ErrType, "candidates[0].segments.tests"},
 		{"segments tp", replaceNth(t, text, `, tp: \d+, fp:`, 0, `, tp: 99999, fp:`), ErrInvalid, "candidates[0].segments.groups[0].tp"},
 		{"shifts busiest", replaceNth(t, text, `busiest: "[^"]*"`, 0, `busiest: "monday"`), ErrInvalid, "candidates[0].shifts.busiest"},
 		{"shifts p90 above max", replaceNth(t, text, `p90: [0-9.]+`, 0, `p90: 99999`), ErrInvalid, "candidates[0].shifts.p90"},
@@ -371,5 +384,28 @@ func TestRewriteKeepsSignOffs(t *testing.T) {
 	}
 	if after, _ := os.ReadFile(path); !bytes.Equal(before, after) {
 		t.Fatal("a refused write changed the file")
+	}
+}
+
+// TestReadSegmentsBeforeTests: a sill-cut/2 file written before groups
+// were tested against the rest (no gap keys, no tests count) reads, its
+// gaps undefined.
+func TestReadSegmentsBeforeTests(t *testing.T) {
+	valid, err := Marshal(demoFile(t))
+	if err != nil {
+		t.Fatal(err)
+	}
+	old := regexp.MustCompile(`, recall_gap: .*?false_discovery_adjusted_p: [-0-9.e]+\}`).ReplaceAllString(string(valid), "}")
+	old = regexp.MustCompile(`\n      tests: \d+`).ReplaceAllString(old, "")
+	if old == string(valid) || strings.Contains(old, "recall_gap") {
+		t.Fatal("the gap keys were not taken out")
+	}
+	f, err := Read(strings.NewReader(old), "cut.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	s := f.Candidates[0].Segments
+	if g := s.Groups[0]; !math.IsNaN(g.RecallGap) || !math.IsNaN(g.FalseDiscoveryGapCI[0]) || !math.IsNaN(g.RecallAdjustedP) || s.Tests != 0 {
+		t.Errorf("groups without tests read %+v, tests %d", g, s.Tests)
 	}
 }

@@ -273,13 +273,19 @@ func segmentsNode(s *Segments) *yaml.Node {
 			"positives", num(g.Positives), "negatives", num(g.Negatives), "tp", num(g.TP), "fp", num(g.FP),
 			"recall", num(g.Recall), "recall_ci", flowList(g.RecallCI[:]...),
 			"precision", num(g.Precision), "precision_ci", flowList(g.PrecisionCI[:]...),
-			"outlier", boolean(g.Outlier))
+			"outlier", boolean(g.Outlier),
+			"recall_gap", num(g.RecallGap), "recall_gap_ci", flowList(g.RecallGapCI[:]...), "recall_adjusted_p", num(g.RecallAdjustedP),
+			"false_discovery_gap", num(g.FalseDiscoveryGap), "false_discovery_gap_ci", flowList(g.FalseDiscoveryGapCI[:]...),
+			"false_discovery_adjusted_p", num(g.FalseDiscoveryAdjustedP))
 		group.Style = yaml.FlowStyle
 		groups.Content = append(groups.Content, group)
 	}
 	n := mapping("column", quoted(s.Column), "groups", groups)
 	if s.LeftOut > 0 {
 		n.Content = append(n.Content, str("left_out"), num(float64(s.LeftOut)))
+	}
+	if s.Tests > 0 {
+		n.Content = append(n.Content, str("tests"), num(float64(s.Tests)))
 	}
 	return n
 }

@@ -254,3 +254,45 @@ func Rounded(v float64, decimals int) float64 {
 	}
 	return shown(fixed(v, decimals))
 }
+
+// Gap formats a difference of two shares in percentage points with one
+// decimal and its sign, "-5.5 pt", "+2.1 pt", an unsigned "0.0 pt" for a
+// difference that rounds to zero. Undefined reads "n/a".
+func Gap(d float64) string {
+	if !defined(d) {
+		return NA
+	}
+	return signed(math.Round(1000*d)/10, 1, " pt")
+}
+
+// GapInterval formats the interval of a difference of two shares in
+// percentage points, "-6.9 to -3.3 pt": signed ends, since the
+// interval may hold zero. It reads "n/a" when either end is undefined.
+func GapInterval(ci [2]float64) string {
+	if !defined(ci[0]) || !defined(ci[1]) {
+		return NA
+	}
+	return signed(math.Round(1000*ci[0])/10, 1, "") + " to " + signed(math.Round(1000*ci[1])/10, 1, "") + " pt"
+}
+
+// Level formats a confidence level or an error rate as a percentage in
+// the fewest digits that say it, "95%", "99.5%", "5%" (so 1 - 0.95, which
+// a float holds as 0.050000000000000044, reads "5%"). Undefined reads
+// "n/a".
+func Level(v float64) string {
+	if !defined(v) {
+		return NA
+	}
+	return strconv.FormatFloat(math.Round(1e8*v)/1e6, 'g', -1, 64) + "%"
+}
+
+// ShortGapInterval formats the interval of a difference of two shares in
+// whole percentage points without the unit, "-21 to -1": the narrow form
+// of GapInterval for a column. It reads "n/a" when either end is
+// undefined.
+func ShortGapInterval(ci [2]float64) string {
+	if !defined(ci[0]) || !defined(ci[1]) {
+		return NA
+	}
+	return signed(math.Round(100*ci[0]), 0, "") + " to " + signed(math.Round(100*ci[1]), 0, "")
+}

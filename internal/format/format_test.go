@@ -226,3 +226,37 @@ func TestGridMeasuresPrintable(t *testing.T) {
 		t.Errorf("got\n%s\nwant\n%s", got, want)
 	}
 }
+
+// TestGap: a gap between two shares in points with its sign, its interval
+// with signed ends, zero never signed, undefined as n/a (hand-written).
+func TestGap(t *testing.T) {
+	cases := []struct{ got, want string }{
+		{Gap(-0.55), "-55.0 pt"},
+		{Gap(0.0214), "+2.1 pt"},
+		{Gap(-0.0004), "0.0 pt"},
+		{Gap(0), "0.0 pt"},
+		{Gap(math.NaN()), "n/a"},
+		{GapInterval([2]float64{-0.6901, -0.3298}), "-69.0 to -33.0 pt"},
+		{GapInterval([2]float64{-0.0304, 0.0521}), "-3.0 to +5.2 pt"},
+		{GapInterval([2]float64{-0.00001, 0.1}), "0.0 to +10.0 pt"},
+		{GapInterval([2]float64{math.NaN(), 0.1}), "n/a"},
+		{ShortGapInterval([2]float64{-0.206, -0.006}), "-21 to -1"},
+		{ShortGapInterval([2]float64{-0.004, 0.105}), "0 to +11"},
+		{ShortGapInterval([2]float64{0.1, math.NaN()}), "n/a"},
+	}
+	for _, c := range cases {
+		if c.got != c.want {
+			t.Errorf("got %q, want %q", c.got, c.want)
+		}
+	}
+}
+
+// TestLevel: levels in the fewest digits, float residue rounded away
+// (hand-written).
+func TestLevel(t *testing.T) {
+	for v, want := range map[float64]string{0.95: "95%", 1 - 0.95: "5%", 0.995: "99.5%", 0.9: "90%", 1 - 0.9: "10%", math.NaN(): "n/a"} {
+		if got := Level(v); got != want {
+			t.Errorf("Level(%v) = %q, want %q", v, got, want)
+		}
+	}
+}

@@ -28,18 +28,5 @@ func Wilson(successes, trials, confidence float64) (lower, upper float64) {
 	if !(trials > 0) {
 		return math.NaN(), math.NaN()
 	}
-	successes = min(max(successes, 0), trials)
-	p := successes / trials
-	z2 := z * z
-	centre := (p + z2/(2*trials)) / (1 + z2/trials)
-	half := z / (1 + z2/trials) * math.Sqrt(p*(1-p)/trials+z2/(4*trials*trials))
-	lower, upper = centre-half, centre+half
-	// The bounds are exact at the edges; keep rounding from leaving [0,1].
-	if successes == 0 {
-		lower = 0
-	}
-	if successes == trials {
-		upper = 1
-	}
-	return max(lower, 0), min(upper, 1)
+	return wilsonAtZ(successes, trials, z)
 }

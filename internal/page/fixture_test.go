@@ -9,6 +9,7 @@ import (
 	"time"
 
 	"github.com/sill-tool/sill/internal/decision"
+	"github.com/sill-tool/sill/internal/interval"
 )
 
 // The -update flag that golden.Check reads.
@@ -90,7 +91,20 @@ func fixture(t *testing.T) *decision.File {
 		c.Segments = &decision.Segments{Column: "depot", Groups: []decision.SegmentGroup{
 			{Name: "east <dock>", Rows: 400, Positives: 50, Negatives: 350, TP: 30, FP: 40, Recall: 0.6, RecallCI: [2]float64{0.46, 0.72}, Precision: 3.0 / 7, PrecisionCI: [2]float64{0.32, 0.55}, Outlier: true},
 			{Name: "west", Rows: 600, Positives: 50, Negatives: 550, TP: 50, FP: 30, Recall: 1, RecallCI: [2]float64{0.93, 1}, Precision: 0.625, PrecisionCI: [2]float64{0.52, 0.72}},
-		}}
+		}, Tests: 4}
+		// Each group against the other (the rest of the set): recall 30/50
+		// against 50/50, wrong alerts 40/70 against 30/80; Holm over the
+		// four tests, the two of each figure sharing one p.
+		east, west := &c.Segments.Groups[0], &c.Segments.Groups[1]
+		recallP, wrongP := interval.DifferenceP(30, 50, 50, 50), interval.DifferenceP(40, 70, 30, 80)
+		east.RecallGap, west.RecallGap = -0.4, 0.4
+		east.RecallGapCI[0], east.RecallGapCI[1] = interval.Difference(30, 50, 50, 50, 0.95)
+		west.RecallGapCI[0], west.RecallGapCI[1] = interval.Difference(50, 50, 30, 50, 0.95)
+		east.FalseDiscoveryGap, west.FalseDiscoveryGap = 40.0/70-30.0/80, 30.0/80-40.0/70
+		east.FalseDiscoveryGapCI[0], east.FalseDiscoveryGapCI[1] = interval.Difference(40, 70, 30, 80, 0.95)
+		west.FalseDiscoveryGapCI[0], west.FalseDiscoveryGapCI[1] = interval.Difference(30, 80, 40, 70, 0.95)
+		east.RecallAdjustedP, west.RecallAdjustedP = min(1, 4*recallP), min(1, 4*recallP)
+		east.FalseDiscoveryAdjustedP, west.FalseDiscoveryAdjustedP = min(1, max(4*recallP, 2*wrongP)), min(1, max(4*recallP, 2*wrongP))
 		c.Shifts = &decision.Shifts{Count: 60, Mean: 300, P90: 380, Max: 455, Busiest: time.Date(2026, 9, 14, 18, 0, 0, 0, time.UTC), OverCapacity: 0.7}
 	}
 	f.SignOffs = []decision.SignOff{

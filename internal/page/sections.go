@@ -73,20 +73,20 @@ func scoreRange(r [2]float64) string {
 	return format.Significant(r[0], 3) + " to " + format.Significant(r[1], 3)
 }
 
-// segments lists, for each candidate, the groups whose figures stand
-// apart from the whole set's.
+// segments lists, for each candidate, the groups that differ from the
+// rest of the set.
 func segments(f *decision.File) section {
 	s := section{ID: "segments", Title: "Segments"}
-	computed := false
+	computed, tested := false, false
 	for _, c := range ordered(f) {
 		seg := c.Segments
 		if seg == nil {
 			continue
 		}
+		tested = tested || seg.Tests > 0
 		if !computed {
 			computed = true
-			s.Intro = fmt.Sprintf("Each candidate broken down by %q. A group is listed when its hit-share or precision interval lies clear of the whole set's; the others are in line with it.", seg.Column)
-			s.Header = []string{"candidate", "group", "rows", "hit share", "interval", "precision", "interval"}
+			s.Header = []string{"candidate", "group", "rows", "hit share", "interval", "hit gap", "interval", "adj. p", "wrong gap", "interval", "adj. p"}
 		}
 		name := c.Name
 		if c.Name == f.Chosen {
@@ -98,19 +98,41 @@ func segments(f *decision.File) section {
 				continue
 			}
 			flagged++
-			s.Rows = append(s.Rows, []string{name, g.Name, format.Count(float64(g.Rows)), format.Share(g.Recall), format.Interval(g.RecallCI), format.Share(g.Precision), format.Interval(g.PrecisionCI)})
+			s.Rows = append(s.Rows, []string{name, g.Name, format.Count(float64(g.Rows)), format.Share(g.Recall), format.Interval(g.RecallCI),
+				format.Gap(g.RecallGap), format.GapInterval(g.RecallGapCI), format.PValue(g.RecallAdjustedP),
+				format.Gap(g.FalseDiscoveryGap), format.GapInterval(g.FalseDiscoveryGapCI), format.PValue(g.FalseDiscoveryAdjustedP)})
 		}
 		if flagged == 0 {
-			s.Rows = append(s.Rows, []string{name, fmt.Sprintf("none of %d groups stands apart", len(seg.Groups)), "", "", "", "", ""})
+			s.Rows = append(s.Rows, []string{name, fmt.Sprintf("none of %d groups differs", len(seg.Groups)), "", "", "", "", "", "", "", "", ""})
 		}
 		if seg.LeftOut > 0 {
 			s.Note = fmt.Sprintf("Groups beyond the largest ones were not kept in the file (%d left out).", seg.LeftOut)
 		}
 	}
-	if !computed {
+	switch {
+	case !computed:
 		s.Missing = notComputed + "no breakdown by segment, so no group is checked for standing apart."
+	case tested:
+		s.Intro = fmt.Sprintf("Each candidate broken down by %q, each group set against the rest of the set. A group is listed when its hit share or its wrong-alert share differs from the rest's: "+
+			"the gap (group less rest) with its %s interval (Newcombe's hybrid score), and its p-value adjusted by Holm over every group's two tests, below %s. "+
+			"With no real difference, any group at all is listed in at most %s of validation sets. "+
+			"A wrong-alert share follows its group's base rate: a group with fewer true cases has more wrong alerts at the same cut even where the model ranks as well.",
+			firstColumn(f), format.Level(f.Assumptions.Confidence), format.PValue(1-f.Assumptions.Confidence), format.Level(1-f.Assumptions.Confidence))
+	default:
+		s.Intro = fmt.Sprintf("Each candidate broken down by %q. This file was written before groups were tested against the rest of the set: a group is listed when its hit-share or precision interval lies clear of the whole set's, which flags some group by chance alone more often as groups grow in number.", firstColumn(f))
 	}
 	return s
+}
+
+// firstColumn is the segment column of the first candidate with a
+// breakdown.
+func firstColumn(f *decision.File) string {
+	for _, c := range ordered(f) {
+		if c.Segments != nil {
+			return c.Segments.Column
+		}
+	}
+	return ""
 }
 
 // calibration is the reliability table of scores read as probabilities.

@@ -39,7 +39,48 @@ type segmentFigures struct {
 	RecallCI     *interval `json:"recall_ci"`
 	Precision    number    `json:"precision"`
 	PrecisionCI  *interval `json:"precision_ci"`
-	Outlier      bool      `json:"outlier"`
+	// Outlier is the group's flag: it differs from the rest of the set in
+	// recall or wrong-alert share (see RecallGap and FalseDiscoveryGap).
+	Outlier bool `json:"outlier"`
+
+	BaseRate          number   `json:"base_rate"`
+	RestBaseRate      number   `json:"rest_base_rate"`
+	RecallGap         groupGap `json:"recall_gap"`
+	FalseDiscoveryGap groupGap `json:"false_discovery_rate_gap"`
+}
+
+// groupGap is a group's figure against the rest of the set's.
+type groupGap struct {
+	Rest      number    `json:"rest"`
+	Gap       number    `json:"gap"`
+	GapCI     *interval `json:"gap_ci"`
+	P         number    `json:"p"`
+	AdjustedP number    `json:"adjusted_p"`
+}
+
+func newGroupGap(t segment.Test) groupGap {
+	return groupGap{Rest: number(t.Rest), Gap: number(t.Gap), GapCI: newInterval(t.GapCI), P: number(t.P), AdjustedP: number(t.AdjustedP)}
+}
+
+// segmentTests says how the groups of one cut were tested.
+type segmentTests struct {
+	Against    string  `json:"against"`
+	Interval   string  `json:"interval"`
+	Adjustment string  `json:"adjustment"`
+	Tests      int     `json:"tests"`
+	Level      float64 `json:"level"`
+}
+
+// segmentTestWords say how groups are tested, in the notes of every form.
+func segmentTestWords(b segment.Breakdown) string {
+	return fmt.Sprintf("gap: the group's figure less the rest of the set's, with its %s interval (Newcombe's hybrid score); adj. p: adjusted by Holm over the %s, so that with no real difference any flag at all comes in at most %s of runs",
+		format.Level(b.Confidence), plural(b.Tests, "test", "tests"), format.Level(1-b.Confidence))
+}
+
+// baseRateNote is the note beside a wrong-alert gap: shares of wrong
+// alerts follow the base rate.
+func baseRateNote(b segment.Breakdown, f segment.Figures) string {
+	return fmt.Sprintf("base rate %s, rest %s", format.Share(f.BaseRate()), format.Share(b.RestBaseRate(f)))
 }
 
 // addSegments adds, under each met cut, the figures of every group of the
@@ -59,7 +100,8 @@ func (r *Report) addSegments(res *analysis.Result, order segment.Order, shown in
 		b.Segments = slices.Clone(b.Segments)
 		b.Sort(order)
 		list := make([]segmentFigures, 0, len(b.Segments))
-		t := table{header: []string{"segment", "rows", "true cases", "flagged", "hit share", "interval", "wrong-alert share", "interval", "note"}, wordsLast: true}
+		t := table{header: []string{"segment", "rows", "true cases", "flagged", "hit share", "interval", "wrong-alert share", "interval",
+			"hit gap", "interval", "adj. p", "wrong gap", "interval", "adj. p", "note"}, wordsLast: true}
 		hidden, hiddenOutside := 0, 0
 		for k, f := range b.Segments {
 			list = append(list, segmentFigures{
@@ -67,7 +109,9 @@ func (r *Report) addSegments(res *analysis.Result, order segment.Order, shown in
 				FlaggedShare: number(f.FlaggedShare),
 				Recall:       number(f.Recall), RecallCI: newInterval(f.RecallCI),
 				Precision: number(f.Precision), PrecisionCI: newInterval(f.PrecisionCI),
-				Outlier: f.Outlier,
+				Outlier:  f.Outlier,
+				BaseRate: number(f.BaseRate()), RestBaseRate: number(b.RestBaseRate(f)),
+				RecallGap: newGroupGap(f.RecallTest), FalseDiscoveryGap: newGroupGap(f.FalseDiscoveryTest),
 			})
 			if shown > 0 && k >= shown {
 				hidden++
@@ -78,23 +122,33 @@ func (r *Report) addSegments(res *analysis.Result, order segment.Order, shown in
 			}
 			mark := ""
 			if f.Outlier {
-				mark = "outside"
+				mark = "differs"
 			}
+			if f.FalseDiscoveryTest.AdjustedP < 1-b.Confidence {
+				mark += "; " + baseRateNote(b, f)
+			}
+			rt, ft := f.RecallTest, f.FalseDiscoveryTest
 			t.rows = append(t.rows, []string{f.Segment, fmt.Sprint(f.Rows), format.Count(f.Positives), format.Share(f.FlaggedShare),
-				format.Share(f.Recall), format.Interval(f.RecallCI), format.Share(f.FalseDiscoveryRate()), format.Interval(f.FalseDiscoveryCI()), mark})
+				format.Share(f.Recall), format.Interval(f.RecallCI), format.Share(f.FalseDiscoveryRate()), format.Interval(f.FalseDiscoveryCI()),
+				format.Gap(rt.Gap), format.GapInterval(rt.GapCI), format.PValue(rt.AdjustedP),
+				format.Gap(ft.Gap), format.GapInterval(ft.GapCI), format.PValue(ft.AdjustedP), mark})
 		}
 		r.Cuts[i].Segments = list
+		r.Cuts[i].SegmentTests = &segmentTests{Against: "rest of the set", Interval: "newcombe hybrid score", Adjustment: "holm",
+			Tests: b.Tests, Level: 1 - b.Confidence}
 		notes := []string{fmt.Sprintf("overall: hit share %s (%s), wrong-alert share %s (%s)",
 			format.Share(b.Overall.Recall), format.Interval(b.Overall.RecallCI), format.Share(b.Overall.FalseDiscoveryRate()), format.Interval(b.Overall.FalseDiscoveryCI()))}
+		notes = append(notes, segmentTestWords(b))
 		if n := b.Outliers(); n > 0 {
-			notes = append(notes, fmt.Sprintf("%s marked \"outside\": hit-share or wrong-alert-share interval wholly outside the overall one", plural(n, "segment", "segments")))
+			notes = append(notes, fmt.Sprintf("%s marked \"differs\": hit share or wrong-alert share differs from the rest of the set (adj. p below %s)", plural(n, "segment", "segments"), format.PValue(1-b.Confidence)))
 		}
+		notes = append(notes, "a wrong-alert share follows its group's base rate: groups with fewer true cases have more wrong alerts at the same cut even where the model ranks as well, so a wrong gap may come from the mix of cases")
 		if hidden > 0 {
 			word := "segments"
 			if hidden == 1 {
 				word = "segment"
 			}
-			note := fmt.Sprintf("%d more %s not shown (%d of them outside)", hidden, word, hiddenOutside)
+			note := fmt.Sprintf("%d more %s not shown (%d of them differ)", hidden, word, hiddenOutside)
 			if r.hints.AllSegments != "" {
 				note += "; " + r.hints.AllSegments
 			}

@@ -80,6 +80,21 @@ func TestSegmentsInJSONAndText(t *testing.T) {
 	if a["segment"] != "A" || a["recall"] != 0.5 || a["precision"] != 0.5 || a["outlier"] != false {
 		t.Errorf("segment A %v", a)
 	}
+	// Against the rest (B: 1 of 2 true cases caught, 0 of 1 alert wrong):
+	// recall gap 0, wrong-alert gap 0.5 - 0 = +0.5; base rates 2 of 4 in
+	// each; four tests (two per group), none flagged. Hand-worked.
+	rg, fg := a["recall_gap"].(map[string]any), a["false_discovery_rate_gap"].(map[string]any)
+	if rg["gap"] != 0.0 || fg["gap"] != 0.5 || fg["rest"] != 0.0 || a["base_rate"] != 0.5 || a["rest_base_rate"] != 0.5 {
+		t.Errorf("segment A gaps %v %v", rg, fg)
+	}
+	for _, key := range []string{"rest", "gap", "gap_ci", "p", "adjusted_p"} {
+		if _, ok := fg[key]; !ok {
+			t.Errorf("gap lacks key %q: %v", key, fg)
+		}
+	}
+	if tests := cuts[0].(map[string]any)["segment_tests"].(map[string]any); tests["tests"] != 4.0 || tests["adjustment"] != "holm" || !floatcmp.Equal(tests["level"].(float64), 0.05) {
+		t.Errorf("segment tests %v", tests)
+	}
 	if _, ok := cuts[1].(map[string]any)["segments"]; ok {
 		t.Errorf("an unmet cut has no segments: %v", cuts[1])
 	}
@@ -94,7 +109,7 @@ func TestSegmentsInJSONAndText(t *testing.T) {
 	r2 := report.New(beyondResult(t, nil, "score=0.8"), report.Options{SegmentOrder: segment.ByName, SegmentsShown: 1})
 	text.Reset()
 	report.WriteText(&text, r2)
-	if !strings.Contains(text.String(), "1 more segment not shown (0 of them outside)") || strings.Contains(text.String(), "\nB ") {
+	if !strings.Contains(text.String(), "1 more segment not shown (0 of them differ)") || strings.Contains(text.String(), "\nB ") {
 		t.Errorf("limited text:\n%s", text.String())
 	}
 	if segs := decode(t, r2)["cuts"].([]any)[0].(map[string]any)["segments"].([]any); len(segs) != 2 {

@@ -96,11 +96,12 @@ type cut struct {
 	FalsePositiveRate  number    `json:"false_positive_rate"`
 	Projected          projected `json:"projected"`
 
-	Segments   []segmentFigures `json:"segments,omitempty"` // with a segment column; see beyond.go
-	NetBenefit *number          `json:"net_benefit"`        // null unless the scores are probabilities
-	Shifts     *shiftFigures    `json:"queue_by_shift,omitempty"`
-	Stability  *stability       `json:"stability,omitempty"`
-	Second     *secondModelCut  `json:"second_model,omitempty"`
+	Segments     []segmentFigures `json:"segments,omitempty"`      // with a segment column; see beyond.go
+	SegmentTests *segmentTests    `json:"segment_tests,omitempty"` // how the groups were tested
+	NetBenefit   *number          `json:"net_benefit"`             // null unless the scores are probabilities
+	Shifts       *shiftFigures    `json:"queue_by_shift,omitempty"`
+	Stability    *stability       `json:"stability,omitempty"`
+	Second       *secondModelCut  `json:"second_model,omitempty"`
 }
 
 type projected struct {

@@ -197,6 +197,12 @@ func WriteText(w io.Writer, f *decision.File, path string) error {
 	b.WriteString("\n")
 	header, rows := grid(table(f))
 	b.WriteString(format.Grid(header, rows, false))
+	if lines := SegmentLines(f); len(lines) > 0 {
+		b.WriteString("\ngroups\n")
+		for _, line := range lines {
+			b.WriteString("  " + line + "\n")
+		}
+	}
 	if notes := allNotes(f); len(notes) > 0 {
 		b.WriteString("\nnotes\n")
 		for _, n := range notes {
@@ -244,6 +250,12 @@ func WriteMarkdown(w io.Writer, f *decision.File, path string) error {
 			r = append([]string{"↳ " + strings.TrimSpace(r[0])}, r[1:]...) // as report's Markdown marks a detail row
 		}
 		row(r)
+	}
+	if lines := SegmentLines(f); len(lines) > 0 {
+		b.WriteString("\n## Groups\n\n")
+		for _, line := range lines {
+			b.WriteString("- " + format.Markdown(line) + "\n")
+		}
 	}
 	if notes := allNotes(f); len(notes) > 0 {
 		b.WriteString("\n## Notes\n\n")

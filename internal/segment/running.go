@@ -54,16 +54,11 @@ func (r *Running) At(p curve.Point, confidence float64) Breakdown {
 		panic(fmt.Sprintf("segment: point flags %d rows of a set of %d", p.Rows, r.set.Len()))
 	}
 	r.move(p.Rows)
-	b := Breakdown{Overall: r.flagged(r.total, r.allTP, r.allFP).figures("", confidence)}
+	groups := make([]tally, len(r.groups))
 	for code, g := range r.groups {
-		if g.rows == 0 {
-			continue
-		}
-		f := r.flagged(g, r.tp[code], r.fp[code]).figures(r.set.SegmentNames()[code], confidence)
-		f.Outlier = apart(f.RecallCI, b.Overall.RecallCI) || apart(f.PrecisionCI, b.Overall.PrecisionCI)
-		b.Segments = append(b.Segments, f)
+		groups[code] = r.flagged(g, r.tp[code], r.fp[code])
 	}
-	return b
+	return breakdown(r.flagged(r.total, r.allTP, r.allFP), groups, r.set.SegmentNames(), confidence)
 }
 
 // flagged is the tally t with tp and fp flagged.

@@ -8,6 +8,7 @@ import (
 
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/floatcmp"
+	"github.com/sill-tool/sill/internal/interval"
 	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/segment"
 )
@@ -87,16 +88,22 @@ func TestAtHandWorked(t *testing.T) {
 }
 
 // TestOutlier builds three groups of true cases only: A and B have 400 of
-// 500 caught (80%), C 20 of 100 (20%). Overall 820/1100 = 74.5%, whose 95%
-// Wilson interval is about 71.9–77.0%; A's and B's (about 76.3–83.3%)
-// overlap it, C's (about 13.3–28.9%) lies wholly below. Hand-worked.
+// 500 caught (80%), C 5 of 20 (25%). Each group is set against the rest:
+// A's 80% against 405 of 520 (77.9%), a gap of 2.1 points with a standard
+// error near 2.5 (no flag); C's 25% against 800 of 1,000 (80%), a gap of
+// -55 points, its interval the one of interval.Difference(5, 20, 800,
+// 1000) (about -0.69 to -0.33: -0.55 ∓ the hypotenuses of 0.138 and 0.024,
+// and of 0.219 and 0.026, from the Wilson limits 0.112
+// and 0.469 of 5/20 and 0.774 and 0.824 of 800/1,000). Wrong-alert shares
+// are 0 everywhere (no false case), tested but equal (p 1). Six tests, so
+// Holm multiplies C's tiny p by 6.
 func TestOutlier(t *testing.T) {
 	var csv strings.Builder
 	csv.WriteString("score,label,seg\n")
 	for _, g := range []struct {
 		name           string
 		caught, missed int
-	}{{"A", 400, 100}, {"B", 400, 100}, {"C", 20, 80}} {
+	}{{"A", 400, 100}, {"B", 400, 100}, {"C", 5, 15}} {
 		for range g.caught {
 			csv.WriteString("0.9,1," + g.name + "\n")
 		}
@@ -106,14 +113,36 @@ func TestOutlier(t *testing.T) {
 	}
 	set, c := read(t, csv.String())
 	b := segment.At(set, pointAt(t, c, 0.9), 0.95)
-	if !floatcmp.Equal(b.Overall.Recall, 820.0/1100) {
+	if !floatcmp.Equal(b.Overall.Recall, 805.0/1020) {
 		t.Fatalf("overall recall %v", b.Overall.Recall)
+	}
+	if b.Tests != 6 || b.Confidence != 0.95 {
+		t.Errorf("tests %d at %v, want 6 at 0.95", b.Tests, b.Confidence)
 	}
 	want := map[string]bool{"A": false, "B": false, "C": true}
 	for _, f := range b.Segments {
 		if f.Outlier != want[f.Segment] {
-			t.Errorf("%s: outlier %v, recall %v interval %v against overall %v", f.Segment, f.Outlier, f.Recall, f.RecallCI, b.Overall.RecallCI)
+			t.Errorf("%s: outlier %v, recall test %+v", f.Segment, f.Outlier, f.RecallTest)
 		}
+		if f.FalseDiscoveryTest.P != 1 || f.FalseDiscoveryTest.Gap != 0 {
+			t.Errorf("%s: wrong-alert test %+v, want gap 0 at p 1", f.Segment, f.FalseDiscoveryTest)
+		}
+	}
+	cTest := b.Segments[2].RecallTest
+	lower, upper := interval.Difference(5, 20, 800, 1000, 0.95)
+	if !floatcmp.Equal(cTest.Gap, -0.55) || !floatcmp.Equal(cTest.Rest, 0.8) || cTest.GapCI != [2]float64{lower, upper} ||
+		!floatcmp.Within(lower, -0.69, 0.01) || !floatcmp.Within(upper, -0.33, 0.01) {
+		t.Errorf("C: recall test %+v, want gap -0.55 against 0.8 in [%v, %v]", cTest, lower, upper)
+	}
+	if p := interval.DifferenceP(5, 20, 800, 1000); !floatcmp.Equal(cTest.P, p) || !floatcmp.Equal(cTest.AdjustedP, min(1, 6*p)) {
+		t.Errorf("C: p %v adjusted %v, want %v and 6 times it", cTest.P, cTest.AdjustedP, p)
+	}
+	aTest := b.Segments[0].RecallTest
+	if !floatcmp.Equal(aTest.Gap, 0.8-405.0/520) || aTest.AdjustedP < 0.05 {
+		t.Errorf("A: recall test %+v, want gap %v and no flag", aTest, 0.8-405.0/520)
+	}
+	if !math.IsNaN(b.Overall.RecallTest.P) {
+		t.Errorf("overall has a test: %+v", b.Overall.RecallTest)
 	}
 	b.Sort(segment.ByGap)
 	if b.Segments[0].Segment != "C" {
@@ -122,6 +151,24 @@ func TestOutlier(t *testing.T) {
 	b.Sort(segment.BySize)
 	if got := b.Segments[0].Segment + b.Segments[1].Segment + b.Segments[2].Segment; got != "ABC" {
 		t.Errorf("by size (ties by name): %s, want ABC", got)
+	}
+}
+
+// TestRunningTests: the running breakdown's tests equal At's.
+func TestRunningTests(t *testing.T) {
+	set, c := read(t, small)
+	r := segment.NewRunning(set)
+	for _, i := range []int{0, c.Len() - 1, 2, 1} {
+		want, got := segment.At(set, c.At(i), 0.9), r.At(c.At(i), 0.9)
+		for k := range want.Segments {
+			w, g := want.Segments[k], got.Segments[k]
+			if !floatcmp.Equal(w.RecallTest.AdjustedP, g.RecallTest.AdjustedP) || !floatcmp.Equal(w.FalseDiscoveryTest.GapCI[0], g.FalseDiscoveryTest.GapCI[0]) || w.Outlier != g.Outlier {
+				t.Errorf("cut %d %s: running %+v, At %+v", i, w.Segment, g, w)
+			}
+		}
+		if want.Tests != got.Tests {
+			t.Errorf("cut %d: %d tests running, %d At", i, got.Tests, want.Tests)
+		}
 	}
 }
 

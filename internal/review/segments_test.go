@@ -1,0 +1,52 @@
+package review_test
+
+import (
+	"math"
+	"reflect"
+	"testing"
+
+	"github.com/sill-tool/sill/internal/decision"
+	"github.com/sill-tool/sill/internal/projection"
+	"github.com/sill-tool/sill/internal/review"
+)
+
+// TestSegmentLines: the groups that differ, with their gaps, and the base
+// rates beside a wrong-alert gap. Hand-made file: 100 true cases among
+// 1000 (the curve's last point); group "east" 50 true of 300 (base rate
+// 16.7%), the rest 50 of 700 (7.1%).
+func TestSegmentLines(t *testing.T) {
+	nan := math.NaN()
+	f := &decision.File{
+		Assumptions: projection.Assumptions{Confidence: 0.95},
+		Curve:       []decision.CurvePoint{{Score: 0.9, TP: 10, FP: 5}, {Score: 0.1, TP: 100, FP: 900}},
+		Candidates: []decision.Candidate{
+			{Name: "hit=0.8", Segments: &decision.Segments{Column: "depot", Tests: 4, Groups: []decision.SegmentGroup{
+				{Name: "east", Positives: 50, Negatives: 250, Outlier: true,
+					RecallGap: -0.2, RecallGapCI: [2]float64{-0.35, -0.05}, RecallAdjustedP: 0.012,
+					FalseDiscoveryGap: 0.15, FalseDiscoveryGapCI: [2]float64{0.02, 0.27}, FalseDiscoveryAdjustedP: 0.04},
+				{Name: "west", Positives: 50, Negatives: 650, RecallGap: 0.2, FalseDiscoveryGap: -0.15},
+			}}},
+			{Name: "top=5%", Segments: &decision.Segments{Column: "depot", Tests: 4, Groups: []decision.SegmentGroup{
+				{Name: "east", RecallGap: nan}, {Name: "west"},
+			}}},
+			{Name: "by hand"},
+		},
+	}
+	want := []string{
+		`each group of "depot" against the rest of the set: gap (group less rest) with its 95% interval (Newcombe's hybrid score), p adjusted by Holm over the 4 tests; a group differs below 0.0500, and with no real difference any group at all does so in at most 5% of validation sets`,
+		"hit=0.8: east differs: hit gap -20.0 pt (-35.0 to -5.0 pt, adj. p 0.0120), wrong gap +15.0 pt (+2.0 to +27.0 pt, adj. p 0.0400); base rate 16.7% against 7.1% in the rest, and wrong-alert shares follow base rates",
+		"top=5%: none of 2 groups differs",
+	}
+	if got := review.SegmentLines(f); !reflect.DeepEqual(got, want) {
+		t.Errorf("got\n%q\nwant\n%q", got, want)
+	}
+	// A file from before the tests says what its flag meant.
+	f.Candidates[0].Segments.Tests = 0
+	if got := review.SegmentLines(f); len(got) != 3 || got[0] != `groups of "depot": this file was written before groups were tested against the rest of the set; its flag marks an interval clear of the whole set's` ||
+		got[1] != "hit=0.8: east differs" {
+		t.Errorf("old file: %q", got)
+	}
+	if got := review.SegmentLines(&decision.File{Candidates: []decision.Candidate{{Name: "a"}}}); got != nil {
+		t.Errorf("no breakdown: %q", got)
+	}
+}
