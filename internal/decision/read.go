@@ -390,6 +390,29 @@ func (r *reader) interval(n *yaml.Node, path string) [2]float64 {
 	return ci
 }
 
+// projectedInterval reads the interval of a projected figure: null, or
+// [low, high] with low <= high, both shares when share is set.
+func (r *reader) projectedInterval(n *yaml.Node, path string, share bool) [2]float64 {
+	if isNull(n) {
+		return [2]float64{math.NaN(), math.NaN()}
+	}
+	if share {
+		return r.interval(n, path)
+	}
+	items := r.list(n, path)
+	if r.err == nil && len(items) != 2 {
+		r.fail(deref(n), path, fmt.Errorf("%w: %d values, expected [low, high]", ErrInvalid, len(items)))
+	}
+	if r.err != nil {
+		return [2]float64{math.NaN(), math.NaN()}
+	}
+	ci := [2]float64{r.number(items[0], path+"[0]", false), r.number(items[1], path+"[1]", false)}
+	if r.err == nil && ci[0] > ci[1] {
+		r.fail(deref(n), path, fmt.Errorf("%w: low %v above high %v", ErrInvalid, ci[0], ci[1]))
+	}
+	return ci
+}
+
 func (r *reader) file_(doc *yaml.Node) *File {
 	root := doc
 	if doc.Kind == yaml.DocumentNode {
@@ -690,7 +713,8 @@ func (r *reader) candidate(n *yaml.Node, path string, a projection.Assumptions, 
 	}
 
 	pp := path + ".projected"
-	p := r.fields(m["projected"], pp, []string{"alert_rate", "precision", "queue_per_shift", "cost_per_shift"}, []string{"cost_per_case"})
+	p := r.fields(m["projected"], pp, []string{"alert_rate", "precision", "queue_per_shift", "cost_per_shift"},
+		[]string{"cost_per_case", "precision_ci", "alert_rate_ci", "queue_per_shift_ci", "cost_per_shift_ci", "cost_per_case_ci"})
 	e.Projected.AlertRate = r.share(p["alert_rate"], pp+".alert_rate")
 	e.Projected.Precision = r.share(p["precision"], pp+".precision")
 	e.Projected.QueuePerShift = r.number(p["queue_per_shift"], pp+".queue_per_shift", true)
@@ -701,6 +725,25 @@ func (r *reader) candidate(n *yaml.Node, path string, a projection.Assumptions, 
 		e.Projected.CostPerCase = e.Projected.CostPerShift / a.Volume
 	} else {
 		e.Projected.CostPerCase = math.NaN()
+	}
+	// The projected figures' intervals; a file written before they were
+	// recorded gets them from its counts and assumptions, as they would
+	// have been written.
+	e.ProjectedCI = projection.IntervalsOf(projection.Counts{TP: e.TP, FP: e.FP, FN: e.FN, TN: e.TN}, a)
+	for _, iv := range []struct {
+		key   string
+		ci    *[2]float64
+		share bool
+	}{
+		{"precision_ci", &e.ProjectedCI.Precision, true},
+		{"alert_rate_ci", &e.ProjectedCI.AlertRate, true},
+		{"queue_per_shift_ci", &e.ProjectedCI.QueuePerShift, false},
+		{"cost_per_shift_ci", &e.ProjectedCI.CostPerShift, false},
+		{"cost_per_case_ci", &e.ProjectedCI.CostPerCase, false},
+	} {
+		if node, ok := p[iv.key]; ok {
+			*iv.ci = r.projectedInterval(node, pp+"."+iv.key, iv.share)
+		}
 	}
 	c.Stability = r.stability(m["stability"], path+".stability")
 	c.Segments = r.segments(m["segments"], path+".segments")

@@ -1,7 +1,9 @@
 package decision
 
 import (
+	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/floatcmp"
+	"github.com/sill-tool/sill/internal/format"
 
 	"bytes"
 	"errors"
@@ -89,6 +91,10 @@ func TestReadRejectsBrokenKeys(t *testing.T) {
 		{"chosen moved, score not", replaceNth(t, text, `chosen: "base"`, 0, `chosen: "hit=0.8"`), ErrInvalid, "chosen_score"},
 		{"chosen score text", replaceNth(t, text, `chosen_score: [0-9.]+`, 0, `chosen_score: "0.5"`), ErrType, "chosen_score"},
 		{"duplicate key", replaceNth(t, text, `\nnote:`, 0, "\ncaution: again\nnote:"), ErrInvalid, "caution"},
+		{"projected interval reversed", replaceNth(t, text, `queue_per_shift_ci: \[[^\]]*\]`, 1, `queue_per_shift_ci: [90, 40]`), ErrInvalid, "candidates[1].projected.queue_per_shift_ci"},
+		{"projected interval of one", replaceNth(t, text, `alert_rate_ci: \[[^\]]*\]`, 0, `alert_rate_ci: [0.1]`), ErrInvalid, "candidates[0].projected.alert_rate_ci"},
+		{"projected precision interval above 1", replaceNth(t, text, `\n      precision_ci: \[[^\]]*\]`, 1, "\n      precision_ci: [0.2, 1.5]"), ErrInvalid, "candidates[0].projected.precision_ci[1]"},
+		{"projected cost interval text", replaceNth(t, text, `cost_per_shift_ci: \[[^\]]*\]`, 0, `cost_per_shift_ci: [low, high]`), ErrType, "candidates[0].projected.cost_per_shift_ci[0]"},
 		{"not a mapping", "- format\n- sill-cut/1\n", ErrType, ""},
 		{"empty", "", ErrSyntax, ""},
 		{"only a comment", "# nothing here\n", ErrSyntax, ""},
@@ -172,5 +178,52 @@ func TestReadOptionalKeysDerived(t *testing.T) {
 	}
 	if back.Note != "" || back.Data.WeightColumn != "" || !floatcmp.Equal(back.Data.Negatives, nan()) {
 		t.Errorf("note %q weight column %q negatives %v", back.Note, back.Data.WeightColumn, back.Data.Negatives)
+	}
+}
+
+// TestReadProjectedIntervals checks that the projected figures' intervals
+// read back as written, and that a file written before they were recorded
+// still reads, with the intervals its counts and assumptions give.
+func TestReadProjectedIntervals(t *testing.T) {
+	f := demoFile(t)
+	valid, err := Marshal(f)
+	if err != nil {
+		t.Fatal(err)
+	}
+	text := string(valid)
+	if !strings.Contains(text, "projected: # "+format.ProjectedHeading) || !strings.Contains(text, "validation: # "+format.MeasuredHeading) {
+		t.Errorf("the file does not say which figures are measured and which projected")
+	}
+	old := text
+	for _, key := range []string{"precision_ci", "alert_rate_ci", "queue_per_shift_ci", "cost_per_shift_ci", "cost_per_case_ci"} {
+		// precision_ci is also a validation key, six spaces in as well:
+		// drop only the one under projected, which follows cost_per_case.
+		if key == "precision_ci" {
+			old = regexp.MustCompile(`(cost_per_case: [^\n]*)\n *precision_ci: [^\n]*`).ReplaceAllString(old, "$1")
+			continue
+		}
+		old = regexp.MustCompile(`\n *`+key+`: [^\n]*`).ReplaceAllString(old, "")
+	}
+	if regexp.MustCompile(`cost_per_case: [^\n]*\n *precision_ci`).MatchString(old) || strings.Contains(old, "alert_rate_ci") || !strings.Contains(old, "recall_ci") {
+		t.Fatalf("the projected intervals were not all removed")
+	}
+	for name, in := range map[string]string{"as written": text, "without the keys": old} {
+		back, err := Read(strings.NewReader(in), "cut.yaml")
+		if err != nil {
+			t.Fatalf("%s: %v", name, err)
+		}
+		for i, c := range back.Candidates {
+			w := f.Candidates[i].Cut.ProjectedCI
+			g := c.Cut.ProjectedCI
+			for _, pair := range [][2][2]float64{{g.Precision, w.Precision}, {g.AlertRate, w.AlertRate}, {g.QueuePerShift, w.QueuePerShift}, {g.CostPerShift, w.CostPerShift}, {g.CostPerCase, w.CostPerCase}} {
+				if !floatcmp.Equal(pair[0][0], pair[1][0]) || !floatcmp.Equal(pair[0][1], pair[1][1]) {
+					t.Errorf("%s: candidate %d intervals %+v, want %+v", name, i, g, w)
+					break
+				}
+			}
+			if !evidence.Defined(g.QueuePerShift[0]) || !(g.QueuePerShift[0] < c.Cut.Projected.QueuePerShift) {
+				t.Errorf("%s: candidate %d queue interval %v around %v", name, i, g.QueuePerShift, c.Cut.Projected.QueuePerShift)
+			}
+		}
 	}
 }

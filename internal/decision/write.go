@@ -13,6 +13,7 @@ import (
 
 	"github.com/sill-tool/sill/internal/design"
 	"github.com/sill-tool/sill/internal/evidence"
+	"github.com/sill-tool/sill/internal/format"
 	"github.com/sill-tool/sill/internal/sharedfile"
 )
 
@@ -199,7 +200,7 @@ func candidateNode(c Candidate, d Data) *yaml.Node {
 	}
 	score := num(e.Score)
 	score.LineComment = "flag when score " + flagSign(lowerIsRiskier) + " this"
-	return mapping(
+	n := mapping(
 		"name", quoted(c.Name),
 		"rule", optionalStr(c.Rule),
 		"score", score,
@@ -210,12 +211,37 @@ func candidateNode(c Candidate, d Data) *yaml.Node {
 			"queue_per_shift", num(e.Projected.QueuePerShift),
 			"cost_per_shift", num(e.Projected.CostPerShift),
 			"cost_per_case", num(e.Projected.CostPerCase),
+			"precision_ci", intervalNode(e.ProjectedCI.Precision),
+			"alert_rate_ci", intervalNode(e.ProjectedCI.AlertRate),
+			"queue_per_shift_ci", intervalNode(e.ProjectedCI.QueuePerShift),
+			"cost_per_shift_ci", intervalNode(e.ProjectedCI.CostPerShift),
+			"cost_per_case_ci", intervalNode(e.ProjectedCI.CostPerCase),
 		),
 		"note", optionalStr(c.Note),
 		"stability", stabilityNode(c.Stability),
 		"segments", segmentsNode(c.Segments),
 		"shifts", shiftsNode(c.Shifts),
 	)
+	// Say which figures are measured and which projected, in the words
+	// every view uses.
+	for i := 0; i < len(n.Content); i += 2 {
+		switch n.Content[i].Value {
+		case "validation":
+			n.Content[i].LineComment = format.MeasuredHeading
+		case "projected":
+			n.Content[i].LineComment = format.ProjectedHeading + "; " + format.ProjectedGiven
+		}
+	}
+	return n
+}
+
+// intervalNode writes an interval as [low, high], or null when it is
+// undefined.
+func intervalNode(ci [2]float64) *yaml.Node {
+	if !evidence.Defined(ci[0]) || !evidence.Defined(ci[1]) {
+		return null()
+	}
+	return flowList(ci[:]...)
 }
 
 func scheduleNode(s *ShiftSchedule) *yaml.Node {
