@@ -89,6 +89,27 @@ func TestCheckRedoLineKeepsTheDecision(t *testing.T) {
 	if !strings.Contains(line, "--segment yard") || !strings.Contains(line, "--tz Europe/Amsterdam") || !strings.Contains(line, "--bootstrap 40 --seed 7") {
 		t.Errorf("the line does not give the segments, shifts and bootstrap again: %s", line)
 	}
+	// Each candidate's rule is checked under the new assumptions: hit=0.8
+	// (recall alone) still picks its cut; base, the deepest cut whose
+	// alert rate is at most the base rate, picks a looser one at 7.2%
+	// than at 5%; and review says so in every form.
+	for _, c := range after.Candidates {
+		k := c.RuleCheck
+		if k == nil || (c.Rule == "hit=0.8") != k.Holds || (c.Rule == "base" && !(k.Picks < c.Cut.Score)) {
+			t.Errorf("candidate %q: rule check %+v", c.Name, k)
+		}
+	}
+	for _, form := range []string{"text", "markdown", "html"} {
+		r := runSill(t, "", "review", cutPath, "--format", form)
+		for _, want := range []string{"base (earlier)", "its rule now", "pinned under earlier assumptions"} {
+			if form == "html" && want == "base (earlier)" {
+				continue // the page has no rule row; the facts and the row below say it
+			}
+			if r.code != 0 || !strings.Contains(r.stdout, want) {
+				t.Errorf("review --format %s: exit %d, no %q", form, r.code, want)
+			}
+		}
+	}
 	// The check now passes at the re-projected base rate.
 	if r := runSill(t, "", "check", cutPath, data); r.code != 0 {
 		t.Errorf("check after the redo: exit %d, %s", r.code, r.stdout)

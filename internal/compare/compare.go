@@ -33,7 +33,28 @@ type Column struct {
 	// Capacity is the capacity this column's queue is held against when
 	// Options.OwnCapacity is set (0: none given); otherwise unused.
 	Capacity float64
+	// RuleNow, when not nil, says whether Rule still picks this cut under
+	// the assumptions: a candidate pinned under earlier assumptions may
+	// no longer be what its rule picks. nil: not checked (a cut picked by
+	// hand, a file written before the check).
+	RuleNow *RuleNow
 }
+
+// RuleNow is whether a column's rule picks its cut under the assumptions.
+type RuleNow struct {
+	Holds bool
+	// Picks is the score of the cut the rule picks now; NaN when no cut
+	// meets it.
+	Picks float64
+}
+
+// Earlier is the mark after the rule of a candidate whose rule no longer
+// picks its cut: it was pinned under earlier assumptions.
+const Earlier = " (earlier)"
+
+// RuleNowRow is the label of the detail row that says what each rule
+// picks under the assumptions, shown when a rule no longer picks its cut.
+const RuleNowRow = "  its rule now"
 
 // Better says which direction of a figure is the better one, so that a
 // renderer can mark a difference as a gain or a loss.
@@ -97,9 +118,15 @@ func New(columns []Column, reference int, opt Options) Table {
 		panic(fmt.Sprintf("compare: reference %d outside the %d columns", reference, len(columns)))
 	}
 	t := Table{Reference: reference}
+	moved := false
 	for _, c := range columns {
 		t.Names = append(t.Names, c.Name)
-		t.Rules = append(t.Rules, c.Rule)
+		rule := c.Rule
+		if c.RuleNow != nil && !c.RuleNow.Holds && rule != "" {
+			rule += Earlier
+			moved = true
+		}
+		t.Rules = append(t.Rules, rule)
 	}
 	a := opt.Assumptions
 	conf := strconv.FormatFloat(100*a.Confidence, 'g', -1, 64) + "% interval"
@@ -145,6 +172,9 @@ func New(columns []Column, reference int, opt Options) Table {
 	}
 
 	main("cut (flag score "+comparison+")", Neither, func(c evidence.Cut) float64 { return c.Score }, format.Score, format.ScoreDiff)
+	if moved {
+		ruleNow(&t, columns)
+	}
 	main("cases flagged", Neither, func(c evidence.Cut) float64 { return c.Flagged }, format.Count, format.CountDiff)
 	detail("  share of all cases", func(c evidence.Cut) string { return format.Share(c.FlaggedShare) })
 	main("hit share (recall)", Higher, func(c evidence.Cut) float64 { return c.Recall }, format.Share, format.ShareDiff)
@@ -198,6 +228,31 @@ func ownCapacity(t *Table, columns []Column) {
 			if !same {
 				cell += " " + format.Count(c.Capacity)
 			}
+		}
+		row.Cells = append(row.Cells, cell)
+		row.Values = append(row.Values, math.NaN())
+		row.Diffs = append(row.Diffs, "")
+		row.Deltas = append(row.Deltas, math.NaN())
+	}
+	t.Rows = append(t.Rows, row)
+}
+
+// ruleNow adds the detail row of what each column's rule picks under the
+// assumptions: "holds" where it still picks the column's cut, "picks S"
+// where it picks another, "meets no cut" where none meets it, and nothing
+// for a cut picked by hand or not checked.
+func ruleNow(t *Table, columns []Column) {
+	row := Row{Figure: RuleNowRow, Detail: true}
+	for _, c := range columns {
+		cell := ""
+		switch k := c.RuleNow; {
+		case k == nil || c.Rule == "":
+		case k.Holds:
+			cell = "holds"
+		case evidence.Defined(k.Picks):
+			cell = "picks " + format.Score(k.Picks)
+		default:
+			cell = "meets no cut"
 		}
 		row.Cells = append(row.Cells, cell)
 		row.Values = append(row.Values, math.NaN())

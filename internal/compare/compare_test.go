@@ -255,3 +255,34 @@ func TestNewOwnCapacity(t *testing.T) {
 		}
 	}
 }
+
+// TestNewRuleNow: a candidate whose rule no longer picks its cut is marked
+// as pinned under earlier assumptions, and a detail row under the cut
+// says what each rule picks now; with every rule holding there is no row.
+func TestNewRuleNow(t *testing.T) {
+	c := sixRows(t, nil)
+	a := sixAssumptions
+	columns := []Column{
+		{Name: "base", Rule: "base", Cut: evidence.Of(c.At(1), a), RuleNow: &RuleNow{Holds: false, Picks: 0.9}},
+		{Name: "hit", Rule: "hit=0.6", Cut: evidence.Of(c.At(1), a), RuleNow: &RuleNow{Holds: true, Picks: 0.8}},
+		{Name: "queue", Rule: "queue=10", Cut: evidence.Of(c.At(0), a), RuleNow: &RuleNow{Holds: false, Picks: math.NaN()}},
+		{Name: "mine", Cut: evidence.Of(c.At(2), a)},
+	}
+	table := New(columns, 1, Options{Assumptions: a})
+	if want := []string{"base (earlier)", "hit=0.6", "queue=10 (earlier)", ""}; fmt.Sprint(table.Rules) != fmt.Sprint(want) {
+		t.Errorf("rules %q, want %q", table.Rules, want)
+	}
+	r := row(t, table, "its rule now")
+	if want := []string{"picks 0.9", "holds", "meets no cut", ""}; !r.Detail || fmt.Sprint(r.Cells) != fmt.Sprint(want) {
+		t.Errorf("row %q, want %q", r.Cells, want)
+	}
+	if table.Rows[1].Figure != RuleNowRow {
+		t.Errorf("row under the cut is %q, want the rule row", table.Rows[1].Figure)
+	}
+	columns[0].RuleNow, columns[2].RuleNow = &RuleNow{Holds: true, Picks: 0.8}, nil
+	for _, r := range New(columns, 1, Options{Assumptions: a}).Rows {
+		if r.Figure == RuleNowRow {
+			t.Error("a rule row while every checked rule holds")
+		}
+	}
+}

@@ -1,6 +1,7 @@
 package decision
 
 import (
+	"context"
 	"math"
 	"slices"
 	"time"
@@ -10,6 +11,7 @@ import (
 	"github.com/sill-tool/sill/internal/calibration"
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/design"
+	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/segment"
 )
@@ -79,9 +81,13 @@ func New(res *analysis.Result, picks []Pick, chosen string, rec Record) (*File, 
 	if f.Chosen == "" && len(picks) > 0 {
 		f.Chosen = picks[0].Name
 	}
+	checks, err := ruleChecks(res, picks)
+	if err != nil {
+		return nil, err
+	}
 	cuts := make([]float64, 0, len(picks))
-	for _, p := range picks {
-		c := Candidate{Name: p.Name, Rule: p.Rule, Note: p.Note, Cut: evidence.Of(p.Point, a)}
+	for i, p := range picks {
+		c := Candidate{Name: p.Name, Rule: p.Rule, Note: p.Note, Cut: evidence.Of(p.Point, a), RuleCheck: checks[i]}
 		c.Stability = stabilityOf(res, p)
 		if b, ok := res.SegmentsAt(p.Point, a.Confidence); ok {
 			c.Segments = segmentsOf(set.SegmentColumn(), b)
@@ -110,6 +116,36 @@ func New(res *analysis.Result, picks []Pick, chosen string, rec Record) (*File, 
 		return nil, err
 	}
 	return f, nil
+}
+
+// ruleChecks says, for each pick with a rule, whether the rule picks its
+// cut under res.Assume (analysis.CheckRules); nil for a pick by hand or a
+// rule that does not parse.
+func ruleChecks(res *analysis.Result, picks []Pick) ([]*RuleCheck, error) {
+	out := make([]*RuleCheck, len(picks))
+	var rules []cutrule.Rule
+	var scores []float64
+	var at []int
+	for i, p := range picks {
+		if r, err := cutrule.Parse(p.Rule); err == nil {
+			rules, scores, at = append(rules, r), append(scores, p.Point.Score), append(at, i)
+		}
+	}
+	if len(rules) == 0 {
+		return out, nil
+	}
+	checks, err := res.CheckRules(context.Background(), rules, scores)
+	if err != nil {
+		return nil, err
+	}
+	for k, c := range checks {
+		picked := math.NaN()
+		if c.Now.Met {
+			picked = c.Now.Point.Score
+		}
+		out[at[k]] = &RuleCheck{Holds: c.Holds, Picks: picked}
+	}
+	return out, nil
 }
 
 func clock(minutes int) string {

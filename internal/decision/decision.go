@@ -105,6 +105,23 @@ type Candidate struct {
 	Stability *Stability // key stability: the bootstrap's spread (--bootstrap)
 	Segments  *Segments  // key segments: the breakdown by group (--segment)
 	Shifts    *Shifts    // key shifts: the queues of the real shifts (--time)
+
+	// RuleCheck says whether Rule still picks this cut under the file's
+	// assumptions (keys rule_holds and rule_picks); nil for a cut picked
+	// by hand, a rule that does not parse, and files written before it.
+	RuleCheck *RuleCheck
+}
+
+// RuleCheck is whether a candidate's rule picks its cut under the file's
+// assumptions. A candidate pinned under earlier assumptions (a base rate,
+// volume, capacity or costs changed since) may no longer be what its rule
+// picks: Holds is then false and Picks is the score the rule picks now.
+type RuleCheck struct {
+	Holds bool
+	// Picks is the score of the cut the rule picks under the assumptions:
+	// the candidate's own score when Holds; NaN (null) when no cut meets
+	// the rule or the rule does not suit the assumptions.
+	Picks float64
 }
 
 // ChosenCandidate returns the chosen candidate, or false when Chosen names
@@ -186,6 +203,16 @@ func (f *File) Validate() error {
 		seen[c.Name] = true
 		if math.IsNaN(c.Cut.Score) || math.IsInf(c.Cut.Score, 0) {
 			return &ParseError{Path: path + ".score", Err: fmt.Errorf("%w, found %v", ErrNotFinite, c.Cut.Score)}
+		}
+		if k := c.RuleCheck; k != nil {
+			switch {
+			case c.Rule == "":
+				return bad(path+".rule_holds", "a rule check of a candidate without a rule, expected null")
+			case k.Holds && k.Picks != c.Cut.Score:
+				return bad(path+".rule_picks", "%v, but the rule holds at the candidate's score %v; make them agree", k.Picks, c.Cut.Score)
+			case !k.Holds && k.Picks == c.Cut.Score:
+				return bad(path+".rule_holds", "false, but the rule picks the candidate's score %v; expected true", c.Cut.Score)
+			}
 		}
 	}
 	if !seen[f.Chosen] {

@@ -650,7 +650,7 @@ func (r *reader) assumptions(n *yaml.Node) projection.Assumptions {
 func (r *reader) candidate(n *yaml.Node, path string, a projection.Assumptions, v2 bool) Candidate {
 	optional := []string{"rule", "note"}
 	if v2 {
-		optional = append(optional, "stability", "segments", "shifts")
+		optional = append(optional, "stability", "segments", "shifts", "rule_holds", "rule_picks")
 	}
 	m := r.fields(n, path, []string{"name", "score", "validation", "projected"}, optional)
 	c := Candidate{
@@ -748,5 +748,30 @@ func (r *reader) candidate(n *yaml.Node, path string, a projection.Assumptions, 
 	c.Stability = r.stability(m["stability"], path+".stability")
 	c.Segments = r.segments(m["segments"], path+".segments")
 	c.Shifts = r.shifts(m["shifts"], path+".shifts")
+	c.RuleCheck = r.ruleCheck(m["rule_holds"], m["rule_picks"], path, e.Score)
 	return c
+}
+
+// ruleCheck reads rule_holds (true, false or null: no check) and
+// rule_picks (a score or null: no cut meets the rule) of the candidate at
+// path; rule_picks without rule_holds is an error. A rule that holds picks
+// the candidate's score when rule_picks is absent.
+func (r *reader) ruleCheck(holds, picks *yaml.Node, path string, score float64) *RuleCheck {
+	if r.err != nil {
+		return nil
+	}
+	if isNull(holds) {
+		if !isNull(picks) {
+			r.fail(deref(picks), path+".rule_picks", fmt.Errorf("%w: a score the rule picks without rule_holds, expected null", ErrInvalid))
+		}
+		return nil
+	}
+	k := &RuleCheck{Holds: r.boolean(holds, path+".rule_holds"), Picks: math.NaN()}
+	switch {
+	case picks != nil:
+		k.Picks = r.number(picks, path+".rule_picks", true)
+	case k.Holds:
+		k.Picks = score
+	}
+	return k
 }

@@ -14,6 +14,7 @@ import (
 	"time"
 
 	"github.com/sill-tool/sill/internal/analysis"
+	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/floatcmp"
 	"github.com/sill-tool/sill/internal/projection"
@@ -202,6 +203,10 @@ func TestReadRejectsBrokenNewKeys(t *testing.T) {
 		{"sign-off key", replaceNth(t, text, `chosen_score: 0.304\n`, 0, "chosen_score: 0.304\n    key: \"MD5:aa\"\n"), ErrInvalid, "sign_offs[0].key"},
 		{"sign-off unknown key", replaceNth(t, text, `chosen_score: 0.304\n`, 0, "chosen_score: 0.304\n    mood: glad\n"), ErrUnknownKey, "sign_offs[0].mood"},
 		{"sign-offs missing", replaceNth(t, text, `(?s)\nsign_offs:\n.*?\ncurve:`, 0, "\ncurve:"), ErrMissingKey, "sign_offs"},
+		{"rule_holds not a boolean", replaceNth(t, text, `rule_holds: true`, 0, `rule_holds: "often"`), ErrType, "candidates[0].rule_holds"},
+		{"rule_picks not the score of a rule that holds", replaceNth(t, text, `rule_picks: [0-9.e-]+`, 0, `rule_picks: 0.5`), ErrInvalid, "candidates[0].rule_picks"},
+		{"rule_picks without rule_holds", replaceNth(t, text, `rule_holds: true[^\n]*`, 0, `rule_holds: null`), ErrInvalid, "candidates[0].rule_picks"},
+		{"rule_holds without a rule", replaceNth(t, text, `\n    rule: "hit=0.8"`, 0, "\n    rule: null"), ErrInvalid, "candidates[0].rule_holds"},
 		{"a sill-cut/2 key in a sill-cut/1 file", replaceNth(t, text, `format: sill-cut/2`, 0, `format: sill-cut/1`), ErrUnknownKey, "model"},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
@@ -407,5 +412,74 @@ func TestReadSegmentsBeforeTests(t *testing.T) {
 	s := f.Candidates[0].Segments
 	if g := s.Groups[0]; !math.IsNaN(g.RecallGap) || !math.IsNaN(g.FalseDiscoveryGapCI[0]) || !math.IsNaN(g.RecallAdjustedP) || s.Tests != 0 {
 		t.Errorf("groups without tests read %+v, tests %d", g, s.Tests)
+	}
+}
+
+// TestRuleChecks: the decision file records whether each candidate's rule
+// picks its cut under the file's assumptions, and reads it back. The
+// candidates are picked at the demo's own base rate (about 7%); written
+// again at a production base rate of 2%, hit=0.8 (recall alone) still
+// picks its cut while base flags fewer cases (the deepest cut whose
+// projected alert rate is at most 2%), and a cut picked by hand has no
+// check.
+func TestRuleChecks(t *testing.T) {
+	res, err := demoResult(50)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var picks []Pick
+	for _, o := range res.Outcomes {
+		picks = append(picks, Pick{Name: o.Rule.String(), Rule: o.Rule.String(), Point: o.Point})
+	}
+	var byHand curve.Point
+	n := 0
+	res.Points(func(p curve.Point) {
+		if n++; n == 10 {
+			byHand = p
+		}
+	})
+	picks = append(picks, Pick{Name: "by hand", Point: byHand})
+	a := res.Assume
+	a.BaseRate = 0.02
+	later, err := res.Reassume(context.Background(), a)
+	if err != nil {
+		t.Fatal(err)
+	}
+	baseNow := later.Outcomes[1].Point.Score // base under a 2% base rate
+	for _, tc := range []struct {
+		name  string
+		res   *analysis.Result
+		holds []bool
+		picks []float64
+	}{
+		{"as pinned", res, []bool{true, true}, []float64{picks[0].Point.Score, picks[1].Point.Score}},
+		{"base rate 2%", later, []bool{true, false}, []float64{picks[0].Point.Score, baseNow}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			f, err := New(tc.res, picks, "base", Record{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			out, err := Marshal(f)
+			if err != nil {
+				t.Fatal(err)
+			}
+			back, err := Read(bytes.NewReader(out), "cut.yaml")
+			if err != nil {
+				t.Fatal(err)
+			}
+			for i := range tc.holds {
+				k := back.Candidates[i].RuleCheck
+				if k == nil || k.Holds != tc.holds[i] || k.Picks != tc.picks[i] {
+					t.Errorf("%s: check %+v, want holds %v picks %v", back.Candidates[i].Name, k, tc.holds[i], tc.picks[i])
+				}
+			}
+			if k := back.Candidates[2].RuleCheck; k != nil {
+				t.Errorf("a cut picked by hand has a rule check %+v", k)
+			}
+		})
+	}
+	if baseNow == picks[1].Point.Score {
+		t.Fatal("base picks the same cut at 2%: the test checks nothing")
 	}
 }

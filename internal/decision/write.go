@@ -204,6 +204,8 @@ func candidateNode(c Candidate, d Data) *yaml.Node {
 		"name", quoted(c.Name),
 		"rule", optionalStr(c.Rule),
 		"score", score,
+		"rule_holds", ruleHolds(c.RuleCheck),
+		"rule_picks", rulePicks(c.RuleCheck),
 		"validation", validation,
 		"projected", mapping(
 			"alert_rate", num(e.Projected.AlertRate),
@@ -242,6 +244,29 @@ func intervalNode(ci [2]float64) *yaml.Node {
 		return null()
 	}
 	return flowList(ci[:]...)
+}
+
+// ruleHolds is whether the rule picks the candidate's cut under the
+// file's assumptions, null without a check.
+func ruleHolds(k *RuleCheck) *yaml.Node {
+	if k == nil {
+		return null()
+	}
+	n := boolean(k.Holds)
+	if k.Holds {
+		n.LineComment = "the rule picks this cut under the assumptions above"
+	} else {
+		n.LineComment = "pinned under earlier assumptions: the rule picks another cut now"
+	}
+	return n
+}
+
+// rulePicks is the score the rule picks under the file's assumptions.
+func rulePicks(k *RuleCheck) *yaml.Node {
+	if k == nil {
+		return null()
+	}
+	return num(k.Picks)
 }
 
 func scheduleNode(s *ShiftSchedule) *yaml.Node {

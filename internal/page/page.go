@@ -32,6 +32,7 @@ import (
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/format"
+	"github.com/sill-tool/sill/internal/review"
 )
 
 // Options say what the page holds beyond the decision file.
@@ -261,6 +262,9 @@ func assumptions(f *decision.File) []fact {
 	}
 	out = append(out, fact{"shifts", shiftSchedule(f)})
 	out = append(out, fact{"intervals", strconv.FormatFloat(100*a.Confidence, 'g', -1, 64) + "% Wilson intervals on the validation counts"})
+	if moved := review.RulesMoved(f); moved != "" {
+		out = append(out, fact{"rules", moved})
+	}
 	return out
 }
 
@@ -283,7 +287,7 @@ func notes(f *decision.File) []fact {
 func tableOf(f *decision.File) tableView {
 	var columns []compare.Column
 	for _, c := range ordered(f) {
-		columns = append(columns, compare.Column{Name: c.Name, Rule: c.Rule, Cut: c.Cut})
+		columns = append(columns, compare.Column{Name: c.Name, Rule: c.Rule, Cut: c.Cut, RuleNow: review.RuleNow(c)})
 	}
 	t := compare.New(columns, 0, compare.Options{Assumptions: f.Assumptions, BaseRateChanged: f.BaseRateChanged(), LowerIsRiskier: f.Data.LowerIsRiskier})
 	return render(t, "chosen")

@@ -18,7 +18,7 @@ import (
 func table(f *decision.File) compare.Table {
 	var columns []compare.Column
 	for _, c := range f.Candidates {
-		column := compare.Column{Name: c.Name, Rule: c.Rule, Cut: c.Cut}
+		column := compare.Column{Name: c.Name, Rule: c.Rule, Cut: c.Cut, RuleNow: RuleNow(c)}
 		if c.Name == f.Chosen {
 			columns = append([]compare.Column{column}, columns...)
 		} else {
@@ -30,6 +30,36 @@ func table(f *decision.File) compare.Table {
 		BaseRateChanged: f.BaseRateChanged(),
 		LowerIsRiskier:  f.Data.LowerIsRiskier,
 	})
+}
+
+// RuleNow is what the file records of whether c's rule picks its cut
+// under the file's assumptions, for package compare; nil when not
+// recorded.
+func RuleNow(c decision.Candidate) *compare.RuleNow {
+	if c.RuleCheck == nil {
+		return nil
+	}
+	return &compare.RuleNow{Holds: c.RuleCheck.Holds, Picks: c.RuleCheck.Picks}
+}
+
+// RulesMoved says in words which candidates were pinned under earlier
+// assumptions (their rule picks another cut under the file's), or ""
+// when every recorded rule holds.
+func RulesMoved(f *decision.File) string {
+	var moved []string
+	for _, c := range f.Candidates {
+		if k := c.RuleCheck; k != nil && !k.Holds && c.Rule != "" {
+			now := "no cut meets it"
+			if evidence.Defined(k.Picks) {
+				now = "it picks " + format.Score(k.Picks)
+			}
+			moved = append(moved, fmt.Sprintf("%s (rule %s: %s)", format.Printable(c.Name), format.Printable(c.Rule), now))
+		}
+	}
+	if len(moved) == 0 {
+		return ""
+	}
+	return "pinned under earlier assumptions, not what the rule picks under these: " + strings.Join(moved, "; ")
 }
 
 // facts are the lines above the table: what the file says about the
@@ -64,7 +94,7 @@ func facts(f *decision.File) [][2]string {
 	if f.ChosenBy != "" {
 		chosenBy = format.Printable(f.ChosenBy)
 	}
-	return [][2]string{
+	out := [][2]string{
 		{"model", ModelName(f.Model)},
 		{"data", data},
 		{"columns", columns},
@@ -73,6 +103,10 @@ func facts(f *decision.File) [][2]string {
 		{"chosen by", chosenBy},
 		{"written", f.Created.UTC().Format("2006-01-02 15:04 MST") + " by " + f.WrittenBy()},
 	}
+	if moved := RulesMoved(f); moved != "" {
+		out = append(out, [2]string{"rules", moved})
+	}
+	return out
 }
 
 // ModelName names the model as the file records it: "bearing-wear
