@@ -10,8 +10,8 @@ import (
 	"github.com/sill-tool/sill/internal/bootstrap"
 	"github.com/sill-tool/sill/internal/calibration"
 	"github.com/sill-tool/sill/internal/curve"
-	"github.com/sill-tool/sill/internal/design"
 	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/design"
 	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/segment"
 )
