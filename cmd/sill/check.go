@@ -18,17 +18,8 @@ import (
 	"github.com/sill-tool/sill/internal/scores"
 )
 
-func newCheckCmd() *cobra.Command {
-	var (
-		input        inputFlags
-		output       string
-		tolerance    float64
-		ignoreLabels bool
-	)
-	cmd := &cobra.Command{
-		Use:   "check FILE.yaml NEW_SCORES",
-		Short: "Check fresh production scores against the chosen cut of a decision file",
-		Long: `check applies the chosen cut of a decision file (written by sill report
+// checkLong is check's help text.
+const checkLong = `check applies the chosen cut of a decision file (written by sill report
 --save or the explorer) to fresh scores and asks whether the model still
 behaves as validated, and whether the base rate the projection assumed
 still holds. The scores are read like report's (CSV, TSV or JSON Lines,
@@ -76,7 +67,19 @@ Exit status:
                  beyond noise: the projection must be redone (the output
                  gives the alerts per shift at the observed rate and the
                  sill report --reproject line that writes the decision again
-                 at that rate, every candidate, note and name kept)`,
+                 at that rate, every candidate, note and name kept)`
+
+func newCheckCmd() *cobra.Command {
+	var (
+		input        inputFlags
+		output       string
+		tolerance    float64
+		ignoreLabels bool
+	)
+	cmd := &cobra.Command{
+		Use:   "check FILE.yaml NEW_SCORES",
+		Short: "Check fresh production scores against the chosen cut of a decision file",
+		Long:  checkLong,
 		Example: `  sill check cut.yaml scores-2026-09-28.csv
   sill check cut.yaml nightly.csv.gz --format json --tolerance 0.02`,
 		Args: argsNamed("the decision file", "the new scores (either may be - for standard input)"),

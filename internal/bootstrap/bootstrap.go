@@ -198,22 +198,9 @@ func Run(ctx context.Context, set *scores.Set, rules []cutrule.Rule, a projectio
 	}
 	band := bandCuts(base, opt.BandCuts)
 
-	scoresAt := make([][]float64, len(rules)) // [rule][replicate], NaN when unmet
-	sharesAt := make([][]float64, len(rules))
-	recallsAt := make([][]float64, len(rules))
-	fdrsAt := make([][]float64, len(rules))
-	for i := range rules {
-		fdrsAt[i] = make([]float64, opt.Replicates)
-		scoresAt[i] = make([]float64, opt.Replicates)
-		sharesAt[i] = make([]float64, opt.Replicates)
-		recallsAt[i] = make([]float64, opt.Replicates)
-	}
-	recallAt := make([][]float64, len(band)) // [band cut][replicate]
-	fdrAt := make([][]float64, len(band))
-	for j := range band {
-		recallAt[j] = make([]float64, opt.Replicates)
-		fdrAt[j] = make([]float64, opt.Replicates)
-	}
+	// [rule][replicate], NaN when unmet
+	scoresAt, sharesAt, recallsAt, fdrsAt := grid(len(rules), opt.Replicates), grid(len(rules), opt.Replicates), grid(len(rules), opt.Replicates), grid(len(rules), opt.Replicates)
+	recallAt, fdrAt := grid(len(band), opt.Replicates), grid(len(band), opt.Replicates) // [band cut][replicate]
 
 	var (
 		next     atomic.Int64
@@ -288,6 +275,15 @@ func Run(ctx context.Context, set *scores.Set, rules []cutrule.Rule, a projectio
 		res.Band = append(res.Band, p)
 	}
 	return res, nil
+}
+
+// grid returns rows slices of cols values each.
+func grid(rows, cols int) [][]float64 {
+	g := make([][]float64, rows)
+	for i := range g {
+		g[i] = make([]float64, cols)
+	}
+	return g
 }
 
 // percentiles returns the Low and High percentiles of the defined values

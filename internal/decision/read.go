@@ -422,21 +422,9 @@ func (r *reader) file_(doc *yaml.Node) *File {
 		}
 		root = doc.Content[0]
 	}
-	f := &File{}
 	// The format comes first, so that another kind of file is named as
 	// such rather than by its first unknown key.
-	if m := deref(root); m != nil && m.Kind == yaml.MappingNode {
-		for i := 0; i+1 < len(m.Content); i += 2 {
-			if k := deref(m.Content[i]); k != nil && k.Kind == yaml.ScalarNode && k.Value == "format" {
-				f.Format = r.str(m.Content[i+1], "format")
-				if r.err == nil && f.Format != Format && f.Format != FormatV1 {
-					r.fail(m.Content[i+1], "format", fmt.Errorf("%w %q, expected %q (or the earlier %q)", ErrFormat, f.Format, Format, FormatV1))
-				}
-			}
-		}
-	} else if m != nil {
-		r.fail(m, "", fmt.Errorf("%w: expected a mapping of keys, found %s; not a decision file (format: %s)", ErrType, describe(m), Format))
-	}
+	f := &File{Format: r.format(root)}
 	v2 := f.Format == Format
 	required := []string{"format", "created", "tool_version", "data", "assumptions", "chosen", "candidates", "caution"}
 	optional := []string{"note", "chosen_score"}
@@ -445,18 +433,7 @@ func (r *reader) file_(doc *yaml.Node) *File {
 		optional = append(optional, "shift_schedule", "calibration")
 	}
 	top := r.fields(root, "", required, optional)
-	created := deref(top["created"])
-	if r.err == nil {
-		var err error
-		if created == nil || created.Kind != yaml.ScalarNode || (created.ShortTag() != "!!str" && created.ShortTag() != "!!timestamp") {
-			err = fmt.Errorf("%w: expected an RFC 3339 timestamp, found %s", ErrType, describe(created))
-		} else if f.Created, err = time.Parse(time.RFC3339, created.Value); err != nil {
-			err = fmt.Errorf("%w: %q, expected an RFC 3339 timestamp such as 2026-09-01T06:00:00Z", ErrInvalid, created.Value)
-		}
-		if err != nil {
-			r.fail(created, "created", err)
-		}
-	}
+	f.Created = r.created(top["created"])
 	f.ToolVersion = r.str(top["tool_version"], "tool_version")
 	if v2 {
 		m := r.fields(top["model"], "model", []string{"name", "version"}, nil)
@@ -495,6 +472,49 @@ func (r *reader) file_(doc *yaml.Node) *File {
 		}
 	}
 	return f
+}
+
+// format reads the format key of a file's root mapping, and fails on a
+// format other than this one or the earlier one, and on a root that is no
+// mapping.
+func (r *reader) format(root *yaml.Node) string {
+	m := deref(root)
+	if m == nil {
+		return ""
+	}
+	if m.Kind != yaml.MappingNode {
+		r.fail(m, "", fmt.Errorf("%w: expected a mapping of keys, found %s; not a decision file (format: %s)", ErrType, describe(m), Format))
+		return ""
+	}
+	format := ""
+	for i := 0; i+1 < len(m.Content); i += 2 {
+		if k := deref(m.Content[i]); k != nil && k.Kind == yaml.ScalarNode && k.Value == "format" {
+			format = r.str(m.Content[i+1], "format")
+			if r.err == nil && format != Format && format != FormatV1 {
+				r.fail(m.Content[i+1], "format", fmt.Errorf("%w %q, expected %q (or the earlier %q)", ErrFormat, format, Format, FormatV1))
+			}
+		}
+	}
+	return format
+}
+
+// created reads the created key: an RFC 3339 timestamp.
+func (r *reader) created(node *yaml.Node) time.Time {
+	created := deref(node)
+	if r.err != nil {
+		return time.Time{}
+	}
+	var err error
+	var t time.Time
+	if created == nil || created.Kind != yaml.ScalarNode || (created.ShortTag() != "!!str" && created.ShortTag() != "!!timestamp") {
+		err = fmt.Errorf("%w: expected an RFC 3339 timestamp, found %s", ErrType, describe(created))
+	} else if t, err = time.Parse(time.RFC3339, created.Value); err != nil {
+		err = fmt.Errorf("%w: %q, expected an RFC 3339 timestamp such as 2026-09-01T06:00:00Z", ErrInvalid, created.Value)
+	}
+	if err != nil {
+		r.fail(created, "created", err)
+	}
+	return t
 }
 
 // consistent fails on a repeated candidate name, and on validation

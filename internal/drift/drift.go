@@ -356,7 +356,7 @@ func weighted(share, variance float64) float64 {
 }
 
 func (r *Result) findings() {
-	var found, notes []string
+	var found []string
 	margin := ""
 	if r.Tolerance > 0 {
 		margin = fmt.Sprintf(", beyond the tolerance of %s points", format.Number(100*r.Tolerance, 1))
@@ -410,6 +410,13 @@ func (r *Result) findings() {
 	if r.Verdict == StatusAssumption {
 		found = append(found, r.reprojectedLine())
 	}
+	r.Findings = append(found, r.notes()...)
+}
+
+// notes are the findings' lines that judge nothing: what was not checked
+// and why, and the figures shown without a verdict.
+func (r *Result) notes() []string {
+	var notes []string
 	if !r.AlertRate.Defined {
 		notes = append(notes, "the file's projected alert rate is undefined, so the alert rate was not checked")
 	}
@@ -466,7 +473,7 @@ func (r *Result) findings() {
 		notes = append(notes, fmt.Sprintf("the validation set (%s) is smaller than the new data (%s): the check's power and false alarms rest mostly on the validation set, so a small change may go unseen and the verdict reads the validation set's own noise as much as production's",
 			format.Count(r.ValidationWeight), format.Count(r.Weight)))
 	}
-	r.Findings = append(found, notes...)
+	return notes
 }
 
 // classNote says why the scores within a class were not judged.

@@ -235,6 +235,45 @@ func WriteText(w io.Writer, r *Result, decisionFile, scoresFile string) error {
 	fmt.Fprintf(&b, "tests        %d tests judge the verdict together at the %g%% level (%s): on noise alone any finding, drift or assumption, comes about once in %d runs; tolerance %s\n\n",
 		r.tests(), 100*Level, LevelMethod, int(math.Round(1/Level)), tolerance)
 
+	rows := r.checkRows()
+	b.WriteString(format.Grid(rows[0], rows[1:], true))
+	if r.Labelled || r.Mixture != nil {
+		b.WriteString("\nThe alert rate, precision and PSI of all scores move with the base rate, so they are shown, not judged: ")
+		if r.Labelled {
+			b.WriteString("the model is judged on recall, the false positive rate and the scores within each class")
+		} else {
+			b.WriteString("the model is judged on whether the new scores are a mix of the validated true and false cases at some base rate")
+		}
+		b.WriteString(".\n")
+		if r.BaseRateMethod != "" {
+			fmt.Fprintf(&b, "Base rate: %s.\n", r.BaseRateMethod)
+		}
+	} else {
+		fmt.Fprintf(&b, "\nPSI bands (common practice): below %v stable, %v to %v moderate, above %v large; only large counts as drift, and only beyond what noise alone gives once in a hundred runs.\n",
+			PSIModerate, PSIModerate, PSILarge, PSILarge)
+	}
+	switch r.Status() {
+	case StatusDrift:
+		b.WriteString("\nstatus: drift - the model no longer behaves as validated\n")
+	case StatusAssumption:
+		b.WriteString("\nstatus: assumption - the model behaves as validated, but the base rate assumed is wrong: the projection must be redone\n")
+	default:
+		b.WriteString("\nstatus: ok - production behaves as validated, at the base rate assumed\n")
+	}
+	if len(r.Findings) > 0 {
+		b.WriteString("findings:\n")
+	}
+	for _, f := range r.Findings {
+		b.WriteString("  - " + f + "\n")
+	}
+	b.WriteString("next step: " + r.NextStep() + "\n")
+	b.WriteString("\ncaution: " + evidence.Caution + "\n")
+	_, err := io.WriteString(w, format.PrintableText(b.String())) // names from the files are untrusted
+	return err
+}
+
+// checkRows are the rows of WriteText's table of checks, header first.
+func (r *Result) checkRows() [][]string {
 	judged := map[string]Judged{}
 	for _, j := range r.Family {
 		judged[j.Name] = j
@@ -294,54 +333,27 @@ func WriteText(w io.Writer, r *Result, decisionFile, scoresFile string) error {
 	}
 	add("alert rate", "projected", r.AlertRate, true)
 	add("precision", "projected", r.Precision, r.Labelled)
-	psiVerdict := "shown"
-	if r.Mixture == nil && !r.Labelled {
-		psiVerdict = "ok"
-		if r.PSIDrift {
-			psiVerdict = "DRIFT"
-		} else if r.PSIBand == "large" {
-			psiVerdict = "within noise"
-		} else if r.PSIBand == "moderate" {
-			psiVerdict = "watch"
-		}
-	}
 	if math.IsNaN(r.PSI) {
 		rows = append(rows, []string{"score PSI", "not measured", "", "", "", "", "-"})
 	} else {
-		rows = append(rows, []string{"score PSI", format.Number(r.PSI, 3), r.PSIBand, "noise ~" + format.Number(r.PSINoise, 3), "", "", psiVerdict})
+		rows = append(rows, []string{"score PSI", format.Number(r.PSI, 3), r.PSIBand, "noise ~" + format.Number(r.PSINoise, 3), "", "", r.psiVerdict()})
 	}
-	b.WriteString(format.Grid(rows[0], rows[1:], true))
-	if r.Labelled || r.Mixture != nil {
-		b.WriteString("\nThe alert rate, precision and PSI of all scores move with the base rate, so they are shown, not judged: ")
-		if r.Labelled {
-			b.WriteString("the model is judged on recall, the false positive rate and the scores within each class")
-		} else {
-			b.WriteString("the model is judged on whether the new scores are a mix of the validated true and false cases at some base rate")
-		}
-		b.WriteString(".\n")
-		if r.BaseRateMethod != "" {
-			fmt.Fprintf(&b, "Base rate: %s.\n", r.BaseRateMethod)
-		}
-	} else {
-		fmt.Fprintf(&b, "\nPSI bands (common practice): below %v stable, %v to %v moderate, above %v large; only large counts as drift, and only beyond what noise alone gives once in a hundred runs.\n",
-			PSIModerate, PSIModerate, PSILarge, PSILarge)
+	return rows
+}
+
+// psiVerdict is the verdict column of the PSI of all scores: judged only
+// without labels or a curve, shown otherwise.
+func (r *Result) psiVerdict() string {
+	if r.Mixture != nil || r.Labelled {
+		return "shown"
 	}
-	switch r.Status() {
-	case StatusDrift:
-		b.WriteString("\nstatus: drift - the model no longer behaves as validated\n")
-	case StatusAssumption:
-		b.WriteString("\nstatus: assumption - the model behaves as validated, but the base rate assumed is wrong: the projection must be redone\n")
-	default:
-		b.WriteString("\nstatus: ok - production behaves as validated, at the base rate assumed\n")
+	switch {
+	case r.PSIDrift:
+		return "DRIFT"
+	case r.PSIBand == "large":
+		return "within noise"
+	case r.PSIBand == "moderate":
+		return "watch"
 	}
-	if len(r.Findings) > 0 {
-		b.WriteString("findings:\n")
-	}
-	for _, f := range r.Findings {
-		b.WriteString("  - " + f + "\n")
-	}
-	b.WriteString("next step: " + r.NextStep() + "\n")
-	b.WriteString("\ncaution: " + evidence.Caution + "\n")
-	_, err := io.WriteString(w, format.PrintableText(b.String())) // names from the files are untrusted
-	return err
+	return "ok"
 }

@@ -106,6 +106,75 @@ func styleText(s *text.Style, size vg.Length) {
 
 // draw renders c as an inline SVG element, without the XML prolog.
 func (c chart) draw(width, height vg.Length) (template.HTML, error) {
+	p := c.newPlot()
+	if len(c.bars) > 0 {
+		values := make(plotter.Values, len(c.bars))
+		names := make([]string, len(c.bars))
+		for i, b := range c.bars {
+			values[i], names[i] = b.value, b.name
+			if !evidence.Defined(b.value) {
+				values[i] = 0
+			}
+		}
+		bars, err := plotter.NewBarChart(values, vg.Points(28))
+		if err != nil {
+			return "", fmt.Errorf("page: bars: %w", err)
+		}
+		bars.Color = barFill
+		bars.LineStyle.Color = ink
+		bars.LineStyle.Width = vg.Points(0.5)
+		p.Add(bars)
+		p.NominalX(names...)
+		p.Y.Min = 0
+	}
+	if c.yFromZero {
+		p.Y.Min = 0
+	}
+	if len(c.bars) > 0 {
+		c.headroom(p)
+	}
+
+	for _, l := range c.lines {
+		pts := thin(l.points, MaxDrawnPoints)
+		if len(pts) == 0 {
+			continue
+		}
+		drawn, err := plotter.NewLine(pts)
+		if err != nil {
+			return "", fmt.Errorf("page: line %q: %w", l.legend, err)
+		}
+		drawn.LineStyle = lineStyle(l.kind)
+		p.Add(drawn)
+		if l.legend != "" {
+			p.Legend.Add(l.legend, drawn)
+		}
+	}
+	if err := addMarks(p, c.marks); err != nil {
+		return "", err
+	}
+	if err := addPeaks(p, c.peaks); err != nil {
+		return "", err
+	}
+
+	canvas := vgsvg.New(width, height)
+	p.Draw(draw.New(canvas))
+	var b bytes.Buffer
+	if _, err := canvas.WriteTo(&b); err != nil {
+		return "", fmt.Errorf("page: write chart: %w", err)
+	}
+	svg := b.String()
+	if i := strings.Index(svg, "<svg"); i >= 0 {
+		svg = svg[i:] // drop the XML prolog and comment: the SVG sits inside HTML
+	}
+	// The gonum SVG backend writes its own text as escaped character data
+	// (html.EscapeString) and numbers elsewhere, so the markup is safe to
+	// embed as it is.
+	return template.HTML(svg), nil //nolint:gosec // see above
+}
+
+// newPlot is c's plot with its title, axes, legend place and grid, before
+// any data.
+func (c chart) newPlot() *plot.Plot {
 	p := plot.New()
 	p.Title.Text = c.title
 	styleText(&p.Title.TextStyle, 11)
@@ -136,75 +205,39 @@ func (c chart) draw(width, height vg.Length) (template.HTML, error) {
 		grid.Vertical.Color = nil
 	}
 	p.Add(grid)
+	return p
+}
 
-	if len(c.bars) > 0 {
-		values := make(plotter.Values, len(c.bars))
-		names := make([]string, len(c.bars))
-		for i, b := range c.bars {
-			values[i], names[i] = b.value, b.name
-			if !evidence.Defined(b.value) {
-				values[i] = 0
-			}
-		}
-		bars, err := plotter.NewBarChart(values, vg.Points(28))
-		if err != nil {
-			return "", fmt.Errorf("page: bars: %w", err)
-		}
-		bars.Color = barFill
-		bars.LineStyle.Color = ink
-		bars.LineStyle.Width = vg.Points(0.5)
-		p.Add(bars)
-		p.NominalX(names...)
-		p.Y.Min = 0
-	}
-	if c.yFromZero {
-		p.Y.Min = 0
-	}
-	if len(c.bars) > 0 {
-		// Headroom above the tallest mark for the legend in the corner.
-		top := 0.0
-		higher := func(v float64) {
-			if evidence.Defined(v) && v > top {
-				top = v
-			}
-		}
-		for _, b := range c.bars {
-			higher(b.value)
-		}
-		for _, l := range c.lines {
-			for _, xy := range l.points {
-				higher(xy.Y)
-			}
-		}
-		for _, series := range c.peaks {
-			for _, m := range series.marks {
-				higher(m.y)
-			}
-		}
-		if top > 0 {
-			p.Y.Max = top * 1.3
+// headroom raises the top of a bar chart above its tallest mark, for the
+// legend in the corner.
+func (c chart) headroom(p *plot.Plot) {
+	top := 0.0
+	higher := func(v float64) {
+		if evidence.Defined(v) && v > top {
+			top = v
 		}
 	}
-
+	for _, b := range c.bars {
+		higher(b.value)
+	}
 	for _, l := range c.lines {
-		pts := thin(l.points, MaxDrawnPoints)
-		if len(pts) == 0 {
-			continue
+		for _, xy := range l.points {
+			higher(xy.Y)
 		}
-		drawn, err := plotter.NewLine(pts)
-		if err != nil {
-			return "", fmt.Errorf("page: line %q: %w", l.legend, err)
-		}
-		drawn.LineStyle = lineStyle(l.kind)
-		p.Add(drawn)
-		if l.legend != "" {
-			p.Legend.Add(l.legend, drawn)
-		}
-	}
-	if err := addMarks(p, c.marks); err != nil {
-		return "", err
 	}
 	for _, series := range c.peaks {
+		for _, m := range series.marks {
+			higher(m.y)
+		}
+	}
+	if top > 0 {
+		p.Y.Max = top * 1.3
+	}
+}
+
+// addPeaks adds each series of shift-peak marks that has a defined value.
+func addPeaks(p *plot.Plot, peaks []peakSeries) error {
+	for _, series := range peaks {
 		var xy plotter.XYs
 		for _, m := range series.marks {
 			if evidence.Defined(m.y) {
@@ -216,7 +249,7 @@ func (c chart) draw(width, height vg.Length) (template.HTML, error) {
 		}
 		scatter, err := plotter.NewScatter(xy)
 		if err != nil {
-			return "", fmt.Errorf("page: %s: %w", series.legend, err)
+			return fmt.Errorf("page: %s: %w", series.legend, err)
 		}
 		scatter.GlyphStyle = draw.GlyphStyle{Color: ink, Radius: vg.Points(4), Shape: draw.PyramidGlyph{}}
 		if series.shape == peakMax {
@@ -225,21 +258,7 @@ func (c chart) draw(width, height vg.Length) (template.HTML, error) {
 		p.Add(scatter)
 		p.Legend.Add(series.legend, scatter)
 	}
-
-	canvas := vgsvg.New(width, height)
-	p.Draw(draw.New(canvas))
-	var b bytes.Buffer
-	if _, err := canvas.WriteTo(&b); err != nil {
-		return "", fmt.Errorf("page: write chart: %w", err)
-	}
-	svg := b.String()
-	if i := strings.Index(svg, "<svg"); i >= 0 {
-		svg = svg[i:] // drop the XML prolog and comment: the SVG sits inside HTML
-	}
-	// The gonum SVG backend writes its own text as escaped character data
-	// (html.EscapeString) and numbers elsewhere, so the markup is safe to
-	// embed as it is.
-	return template.HTML(svg), nil //nolint:gosec // see above
+	return nil
 }
 
 func lineStyle(kind lineKind) draw.LineStyle {

@@ -52,13 +52,8 @@ const maxCount = 1 << 53
 // and NoLabels must be empty: a counts table has no such columns. Errors
 // are *ParseError values with 1-based physical lines, as in Read.
 func ReadCounts(r io.Reader, source string, opt Options) (*Set, error) {
-	switch {
-	case opt.LabelColumn != "" || opt.WeightColumn != "" || opt.IDColumn != "" || opt.TimeColumn != "" || opt.CompareColumn != "":
-		return nil, &ParseError{File: source, Err: errors.New("a counts table has score, positives and negatives columns (and a segment column): label, weight, id, time and compare columns do not apply")}
-	case opt.Positive != "" || opt.NoLabels:
-		return nil, &ParseError{File: source, Err: errors.New("a counts table counts the labels already: --positive does not apply")}
-	case opt.Input == InputJSONL:
-		return nil, &ParseError{File: source, Err: errors.New("a counts table is read as delimited text, not JSON Lines")}
+	if err := checkCountsOptions(opt, source); err != nil {
+		return nil, err
 	}
 	digest := sha256.New()
 	hashed := io.TeeReader(r, digest)
@@ -82,39 +77,10 @@ func ReadCounts(r io.Reader, source string, opt Options) (*Set, error) {
 	if err := b.useDecimalComma(b.delim, b.firstRow); err != nil {
 		return nil, err
 	}
-	positivesCol, negativesCol, unrecognisedCol := -1, -1, -1
-	for i, h := range header {
-		switch {
-		case strings.EqualFold(h, PositivesColumn):
-			positivesCol = i
-		case strings.EqualFold(h, NegativesColumn):
-			negativesCol = i
-		case strings.EqualFold(h, UnrecognisedColumn):
-			unrecognisedCol = i
-		}
+	t, err := newCountsTable(b, header)
+	if err != nil {
+		return nil, err
 	}
-	for _, need := range []struct {
-		col  int
-		name string
-	}{{positivesCol, PositivesColumn}, {negativesCol, NegativesColumn}} {
-		if need.col < 0 {
-			return nil, &ParseError{File: source, Line: 1, Column: need.name, Err: fmt.Errorf("%w in header %s, expected score, %s and %s columns", ErrMissingColumn, quoteList(header), PositivesColumn, NegativesColumn)}
-		}
-	}
-	count := func(record []string, col, line int) (float64, error) {
-		text := strings.TrimSpace(record[col])
-		number, err := numberText(text, b.comma)
-		if err != nil {
-			return 0, &ParseError{File: source, Line: line, Column: header[col], Err: markError(ErrBadCount, text, err, "expected a whole number of cases >= 0")}
-		}
-		v, err := parseDecimal(number)
-		if err != nil || !(v >= 0 && v <= maxCount) || v != math.Trunc(v) {
-			return 0, &ParseError{File: source, Line: line, Column: header[col], Err: &valueError{sentinel: ErrBadCount, value: text, hint: "expected a whole number of cases >= 0"}}
-		}
-		return v, nil
-	}
-	var noScore LabelCounts
-	sawNoScore := false
 	for {
 		record, err := cr.Read()
 		if err == io.EOF {
@@ -127,72 +93,8 @@ func ReadCounts(r io.Reader, source string, opt Options) (*Set, error) {
 		if len(record) == 1 && strings.TrimSpace(record[0]) == "" {
 			continue // a blank line
 		}
-		if len(record) != len(header) {
-			return nil, &ParseError{File: source, Line: line, Err: fmt.Errorf("%w: row has %d, header has %d", ErrRagged, len(record), len(header))}
-		}
-		positives, err := count(record, positivesCol, line)
-		if err != nil {
+		if err := t.add(record, line); err != nil {
 			return nil, err
-		}
-		negatives, err := count(record, negativesCol, line)
-		if err != nil {
-			return nil, err
-		}
-		other := 0.0
-		if unrecognisedCol >= 0 {
-			if other, err = count(record, unrecognisedCol, line); err != nil {
-				return nil, err
-			}
-		}
-		if isNull(record[b.scoreCol]) {
-			// The warehouse query's row of cases whose score was NULL or
-			// not a number: dropped, whatever their labels.
-			b.dropped += int(positives + negatives + other)
-			noScore.Positives += int(positives)
-			noScore.Negatives += int(negatives)
-			noScore.Neither += int(other)
-			sawNoScore = true
-			if len(b.droppedReasons) < maxDroppedReasons {
-				pe := &ParseError{File: source, Line: line, Column: header[b.scoreCol], Err: fmt.Errorf("%v case(s) with no score (NULL or not a number where they were counted): %v true, %v false, %v with neither label", positives+negatives+other, positives, negatives, other)}
-				b.droppedReasons = append(b.droppedReasons, pe.Error())
-			}
-			continue
-		}
-		if other > 0 {
-			return nil, &ParseError{File: source, Line: line, Column: header[unrecognisedCol], Err: fmt.Errorf("%w: %v case(s) with a label that is neither a true nor a false case, expected none (set --positive in the query)", ErrBadCount, other)}
-		}
-		score, err := parseScore(record[b.scoreCol], b.comma)
-		if err != nil {
-			pe := &ParseError{File: source, Line: line, Column: header[b.scoreCol], Err: err}
-			if !opt.DropInvalid {
-				return nil, pe
-			}
-			b.dropped += int(positives + negatives)
-			if len(b.droppedReasons) < maxDroppedReasons {
-				b.droppedReasons = append(b.droppedReasons, pe.Error())
-			}
-			continue
-		}
-		segment := int32(-1)
-		if b.segmentCol >= 0 {
-			segment = b.segmentCode(record[b.segmentCol])
-		}
-		if positives+negatives > 0 {
-			b.noteOutside(line, score)
-		}
-		for _, part := range [2]struct {
-			positive bool
-			cases    float64
-		}{{true, positives}, {false, negatives}} {
-			if part.cases == 0 {
-				continue
-			}
-			b.scores = append(b.scores, score)
-			b.labels = append(b.labels, part.positive)
-			b.weights = append(b.weights, part.cases)
-			if segment >= 0 {
-				b.segments = append(b.segments, segment)
-			}
 		}
 	}
 	if _, err := io.Copy(io.Discard, hashed); err != nil {
@@ -209,11 +111,145 @@ func ReadCounts(r io.Reader, source string, opt Options) (*Set, error) {
 		return nil, err
 	}
 	set.countCases()
-	if sawNoScore {
-		set.noScore = &noScore
+	if t.sawNoScore {
+		set.noScore = &t.noScore
 	}
-	set.labelColumn = header[positivesCol] + "/" + header[negativesCol]
+	set.labelColumn = header[t.positivesCol] + "/" + header[t.negativesCol]
 	return set, nil
+}
+
+// checkCountsOptions refuses the options that do not apply to a counts
+// table.
+func checkCountsOptions(opt Options, source string) error {
+	switch {
+	case opt.LabelColumn != "" || opt.WeightColumn != "" || opt.IDColumn != "" || opt.TimeColumn != "" || opt.CompareColumn != "":
+		return &ParseError{File: source, Err: errors.New("a counts table has score, positives and negatives columns (and a segment column): label, weight, id, time and compare columns do not apply")}
+	case opt.Positive != "" || opt.NoLabels:
+		return &ParseError{File: source, Err: errors.New("a counts table counts the labels already: --positive does not apply")}
+	case opt.Input == InputJSONL:
+		return &ParseError{File: source, Err: errors.New("a counts table is read as delimited text, not JSON Lines")}
+	}
+	return nil
+}
+
+// countsTable reads the rows of a counts table into its builder.
+type countsTable struct {
+	b                                           *builder
+	header                                      []string
+	positivesCol, negativesCol, unrecognisedCol int
+	noScore                                     LabelCounts // cases with no score, by label
+	sawNoScore                                  bool
+}
+
+// newCountsTable finds the count columns in header.
+func newCountsTable(b *builder, header []string) (*countsTable, error) {
+	t := &countsTable{b: b, header: header, positivesCol: -1, negativesCol: -1, unrecognisedCol: -1}
+	for i, h := range header {
+		switch {
+		case strings.EqualFold(h, PositivesColumn):
+			t.positivesCol = i
+		case strings.EqualFold(h, NegativesColumn):
+			t.negativesCol = i
+		case strings.EqualFold(h, UnrecognisedColumn):
+			t.unrecognisedCol = i
+		}
+	}
+	for _, need := range []struct {
+		col  int
+		name string
+	}{{t.positivesCol, PositivesColumn}, {t.negativesCol, NegativesColumn}} {
+		if need.col < 0 {
+			return nil, &ParseError{File: b.source, Line: 1, Column: need.name, Err: fmt.Errorf("%w in header %s, expected score, %s and %s columns", ErrMissingColumn, quoteList(header), PositivesColumn, NegativesColumn)}
+		}
+	}
+	return t, nil
+}
+
+// count reads the count in column col of a row.
+func (t *countsTable) count(record []string, col, line int) (float64, error) {
+	text := strings.TrimSpace(record[col])
+	number, err := numberText(text, t.b.comma)
+	if err != nil {
+		return 0, &ParseError{File: t.b.source, Line: line, Column: t.header[col], Err: markError(ErrBadCount, text, err, "expected a whole number of cases >= 0")}
+	}
+	v, err := parseDecimal(number)
+	if err != nil || !(v >= 0 && v <= maxCount) || v != math.Trunc(v) {
+		return 0, &ParseError{File: t.b.source, Line: line, Column: t.header[col], Err: &valueError{sentinel: ErrBadCount, value: text, hint: "expected a whole number of cases >= 0"}}
+	}
+	return v, nil
+}
+
+// add reads one row of the table, at physical line line.
+func (t *countsTable) add(record []string, line int) error {
+	b, header, source := t.b, t.header, t.b.source
+	if len(record) != len(header) {
+		return &ParseError{File: source, Line: line, Err: fmt.Errorf("%w: row has %d, header has %d", ErrRagged, len(record), len(header))}
+	}
+	positives, err := t.count(record, t.positivesCol, line)
+	if err != nil {
+		return err
+	}
+	negatives, err := t.count(record, t.negativesCol, line)
+	if err != nil {
+		return err
+	}
+	other := 0.0
+	if t.unrecognisedCol >= 0 {
+		if other, err = t.count(record, t.unrecognisedCol, line); err != nil {
+			return err
+		}
+	}
+	if isNull(record[b.scoreCol]) {
+		// The warehouse query's row of cases whose score was NULL or
+		// not a number: dropped, whatever their labels.
+		b.dropped += int(positives + negatives + other)
+		t.noScore.Positives += int(positives)
+		t.noScore.Negatives += int(negatives)
+		t.noScore.Neither += int(other)
+		t.sawNoScore = true
+		if len(b.droppedReasons) < maxDroppedReasons {
+			pe := &ParseError{File: source, Line: line, Column: header[b.scoreCol], Err: fmt.Errorf("%v case(s) with no score (NULL or not a number where they were counted): %v true, %v false, %v with neither label", positives+negatives+other, positives, negatives, other)}
+			b.droppedReasons = append(b.droppedReasons, pe.Error())
+		}
+		return nil
+	}
+	if other > 0 {
+		return &ParseError{File: source, Line: line, Column: header[t.unrecognisedCol], Err: fmt.Errorf("%w: %v case(s) with a label that is neither a true nor a false case, expected none (set --positive in the query)", ErrBadCount, other)}
+	}
+	score, err := parseScore(record[b.scoreCol], b.comma)
+	if err != nil {
+		pe := &ParseError{File: source, Line: line, Column: header[b.scoreCol], Err: err}
+		if !b.opt.DropInvalid {
+			return pe
+		}
+		b.dropped += int(positives + negatives)
+		if len(b.droppedReasons) < maxDroppedReasons {
+			b.droppedReasons = append(b.droppedReasons, pe.Error())
+		}
+		return nil
+	}
+	segment := int32(-1)
+	if b.segmentCol >= 0 {
+		segment = b.segmentCode(record[b.segmentCol])
+	}
+	if positives+negatives > 0 {
+		b.noteOutside(line, score)
+	}
+	for _, part := range [2]struct {
+		positive bool
+		cases    float64
+	}{{true, positives}, {false, negatives}} {
+		if part.cases == 0 {
+			continue
+		}
+		b.scores = append(b.scores, score)
+		b.labels = append(b.labels, part.positive)
+		b.weights = append(b.weights, part.cases)
+		if segment >= 0 {
+			b.segments = append(b.segments, segment)
+		}
+	}
+	return nil
 }
 
 // isNull reports whether a counts table's score cell holds NULL as engines

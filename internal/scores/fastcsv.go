@@ -1,6 +1,7 @@
 package scores
 
 import (
+	"bufio"
 	"bytes"
 	"crypto/sha256"
 	"encoding/csv"
@@ -109,30 +110,8 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 	if err != nil {
 		return nil, errDecline
 	}
-	headerLine, err := in.ReadSlice('\n')
-	if err != nil && err != io.EOF {
-		return nil, errDecline // a read error, or a header longer than the buffer
-	}
-	headerLine = append([]byte(nil), headerLine...)
-	if len(bytes.TrimSpace(headerLine)) == 0 || isSpaceByte(headerLine[0]) || (opt.Input == InputAuto && (headerLine[0] == '{' || headerLine[0] == '[')) {
-		return nil, errDecline
-	}
-	delim := opt.Delimiter
-	if delim == 0 {
-		delim = detectDelimiter(bytes.TrimSuffix(headerLine, []byte("\n")))
-	}
-	if delim >= 0x80 || delim == '"' || delim == '\r' || delim == '\n' || delim == 0 {
-		return nil, errDecline
-	}
-	headerReader := csv.NewReader(bytes.NewReader(headerLine))
-	headerReader.Comma = delim
-	headerReader.FieldsPerRecord = -1
-	header, err := headerReader.Read()
-	if err != nil {
-		return nil, errDecline
-	}
-	header = trimAll(header)
-	if len(header) == 1 && header[0] == "" {
+	header, delim, ok := blockHeader(in, opt)
+	if !ok {
 		return nil, errDecline
 	}
 	b := &builder{opt: opt, source: source}
@@ -172,31 +151,9 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 			}
 			continue
 		}
-		b.dropped += blk.dropped
-		b.outside.Rows += blk.outside
-		for _, at := range blk.outsideLines {
-			if len(b.outside.Lines) < MaxOutsideLines {
-				b.outside.Lines = append(b.outside.Lines, line+at)
-			}
-		}
-		for _, ev := range blk.reasons {
-			if len(b.droppedReasons) < maxDroppedReasons {
-				b.droppedReasons = append(b.droppedReasons, (&ParseError{File: source, Line: line + ev.line, Column: ev.column, Err: ev.err}).Error())
-			}
-		}
+		b.noteBlock(blk, line)
 		line += blk.newlines
 		rows += len(blk.scores)
-		if b.segmentCol >= 0 {
-			// The block's own segment codes become the set's, numbered in
-			// the order the names first appear, as Read numbers them.
-			remap := make([]int32, len(blk.segNames))
-			for local, name := range blk.segNames {
-				remap[local] = b.segmentCode(name)
-			}
-			for i, local := range blk.segments {
-				blk.segments[i] = remap[local]
-			}
-		}
 		if size > 0 && len(blk.scores) > 0 {
 			// Copy the rows into place now, while later blocks are parsed,
 			// making room at the first rows for as many as the size says.
@@ -243,6 +200,67 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 		debug.FreeOSMemory()
 	}
 	return b.finish(hex.EncodeToString(digest.Sum(nil)))
+}
+
+// blockHeader reads and splits the header line for loadBlocks, detecting
+// the delimiter unless opt gives it; ok is false for input that Read must
+// take.
+func blockHeader(in *bufio.Reader, opt Options) (header []string, delim rune, ok bool) {
+	headerLine, err := in.ReadSlice('\n')
+	if err != nil && err != io.EOF {
+		return nil, 0, false // a read error, or a header longer than the buffer
+	}
+	headerLine = append([]byte(nil), headerLine...)
+	if len(bytes.TrimSpace(headerLine)) == 0 || isSpaceByte(headerLine[0]) || (opt.Input == InputAuto && (headerLine[0] == '{' || headerLine[0] == '[')) {
+		return nil, 0, false
+	}
+	delim = opt.Delimiter
+	if delim == 0 {
+		delim = detectDelimiter(bytes.TrimSuffix(headerLine, []byte("\n")))
+	}
+	if delim >= 0x80 || delim == '"' || delim == '\r' || delim == '\n' || delim == 0 {
+		return nil, 0, false
+	}
+	headerReader := csv.NewReader(bytes.NewReader(headerLine))
+	headerReader.Comma = delim
+	headerReader.FieldsPerRecord = -1
+	header, err = headerReader.Read()
+	if err != nil {
+		return nil, 0, false
+	}
+	header = trimAll(header)
+	if len(header) == 1 && header[0] == "" {
+		return nil, 0, false
+	}
+	return header, delim, true
+}
+
+// noteBlock adds a parsed block's dropped and outside rows, their reasons
+// and lines, to the builder, and renumbers the block's segment codes as
+// the set's, in the order the names first appear, as Read numbers them.
+// line is the physical line of the block's first row.
+func (b *builder) noteBlock(blk *block, line int) {
+	b.dropped += blk.dropped
+	b.outside.Rows += blk.outside
+	for _, at := range blk.outsideLines {
+		if len(b.outside.Lines) < MaxOutsideLines {
+			b.outside.Lines = append(b.outside.Lines, line+at)
+		}
+	}
+	for _, ev := range blk.reasons {
+		if len(b.droppedReasons) < maxDroppedReasons {
+			b.droppedReasons = append(b.droppedReasons, (&ParseError{File: b.source, Line: line + ev.line, Column: ev.column, Err: ev.err}).Error())
+		}
+	}
+	if b.segmentCol >= 0 {
+		remap := make([]int32, len(blk.segNames))
+		for local, name := range blk.segNames {
+			remap[local] = b.segmentCode(name)
+		}
+		for i, local := range blk.segments {
+			blk.segments[i] = remap[local]
+		}
+	}
 }
 
 // reserve makes the builder's columns empty with room for n rows.
@@ -397,13 +415,11 @@ func (p *blockParser) produce(in io.Reader) (<-chan *block, *error, chan struct{
 	return ordered, readErr, stop
 }
 
-// parse parses the lines of blk into its columns, stopping at the first
-// error or at a line that Read must take.
-func (p *blockParser) parse(blk *block) {
+// makeColumns gives blk room for rowsAtMost rows in each column read,
+// reusing a spare block's scores, labels and weights when one is big
+// enough.
+func (p *blockParser) makeColumns(blk *block, rowsAtMost int) {
 	b := p.b
-	data := blk.data
-	rowsAtMost := bytes.Count(data, []byte{'\n'}) + 1
-	blk.size = len(data)
 	var spare blockColumns
 	select {
 	case spare = <-p.spare:
@@ -430,6 +446,16 @@ func (p *blockParser) parse(blk *block) {
 			blk.weights = make([]float64, 0, rowsAtMost)
 		}
 	}
+}
+
+// parse parses the lines of blk into its columns, stopping at the first
+// error or at a line that Read must take.
+func (p *blockParser) parse(blk *block) {
+	b := p.b
+	data := blk.data
+	rowsAtMost := bytes.Count(data, []byte{'\n'}) + 1
+	blk.size = len(data)
+	p.makeColumns(blk, rowsAtMost)
 	blk.newlines = rowsAtMost - 1
 	quotes := bytes.IndexByte(data, '"') >= 0
 	delim := p.delim

@@ -118,45 +118,12 @@ func rankInPlace(scores []float64, labels []bool, weights []float64, segments []
 		workers = 2
 	}
 	parts := splitRange(n, workers)
-	var wg sync.WaitGroup
-	// Encode the keys in place, noting the smallest and largest key and
-	// whether they are in order already.
-	type span struct {
-		low, high uint64
-		sorted    bool
-	}
-	spans := make([]span, workers)
-	for w := range workers {
-		wg.Add(1)
-		go func(w int) {
-			defer wg.Done()
-			sp := span{low: math.MaxUint64, sorted: true}
-			previous := uint64(0)
-			for i := parts[w]; i < parts[w+1]; i++ {
-				k := riskKey(scores[i], lowerIsRiskier)
-				scores[i] = math.Float64frombits(k)
-				sp.low, sp.high = min(sp.low, k), max(sp.high, k)
-				if k < previous {
-					sp.sorted = false
-				}
-				previous = k
-			}
-			spans[w] = sp
-		}(w)
-	}
-	wg.Wait()
-	low, high, sorted := uint64(math.MaxUint64), uint64(0), true
-	for w, sp := range spans {
-		low, high = min(low, sp.low), max(high, sp.high)
-		sorted = sorted && sp.sorted
-		if w > 0 && math.Float64bits(scores[parts[w]-1]) > math.Float64bits(scores[parts[w]]) {
-			sorted = false
-		}
-	}
+	low, high, sorted := encodeKeys(scores, parts, lowerIsRiskier)
 	if sorted || low == high {
 		decodeKeys(scores, lowerIsRiskier)
 		return
 	}
+	var wg sync.WaitGroup
 	// The bucket digit: the top bucketBits bits below the prefix all keys share.
 	varying := 64 - bits.LeadingZeros64(low^high)
 	shift := uint(max(0, varying-bucketBits))
@@ -252,6 +219,47 @@ func rankInPlace(scores []float64, labels []bool, weights []float64, segments []
 		}()
 	}
 	wg.Wait()
+}
+
+// encodeKeys turns scores into their risk keys in place, one goroutine per
+// part (parts as splitRange gives them), and returns the smallest and
+// largest key and whether the keys are in order already.
+func encodeKeys(scores []float64, parts []int, lowerIsRiskier bool) (low, high uint64, sorted bool) {
+	workers := len(parts) - 1
+	var wg sync.WaitGroup
+	type span struct {
+		low, high uint64
+		sorted    bool
+	}
+	spans := make([]span, workers)
+	for w := range workers {
+		wg.Add(1)
+		go func(w int) {
+			defer wg.Done()
+			sp := span{low: math.MaxUint64, sorted: true}
+			previous := uint64(0)
+			for i := parts[w]; i < parts[w+1]; i++ {
+				k := riskKey(scores[i], lowerIsRiskier)
+				scores[i] = math.Float64frombits(k)
+				sp.low, sp.high = min(sp.low, k), max(sp.high, k)
+				if k < previous {
+					sp.sorted = false
+				}
+				previous = k
+			}
+			spans[w] = sp
+		}(w)
+	}
+	wg.Wait()
+	low, high, sorted = uint64(math.MaxUint64), uint64(0), true
+	for w, sp := range spans {
+		low, high = min(low, sp.low), max(high, sp.high)
+		sorted = sorted && sp.sorted
+		if w > 0 && math.Float64bits(scores[parts[w]-1]) > math.Float64bits(scores[parts[w]]) {
+			sorted = false
+		}
+	}
+	return low, high, sorted
 }
 
 // bucketColumns is one bucket of keys and the columns carried with them.
