@@ -77,7 +77,9 @@ func agree(t *testing.T, m Model, opts analysis.Options) {
 				Score float64
 			} `json:"second_model"`
 		}
-		Calibration struct {
+		ROCAUCCI           [2]float64 `json:"roc_auc_ci"`
+		AveragePrecisionCI [2]float64 `json:"average_precision_ci"`
+		Calibration        struct {
 			ECE           float64
 			CostThreshold float64 `json:"cost_threshold"`
 		}
@@ -130,6 +132,9 @@ func agree(t *testing.T, m Model, opts analysis.Options) {
 				t.Errorf("%s: report's resampled cuts %+v, explorer's %+v", c.Spec, c.Stability, sp)
 			}
 		}
+	}
+	if r := s.res.Ranking; out.ROCAUCCI != r.ROCAUC.Interval || out.AveragePrecisionCI != r.AveragePrecision {
+		t.Errorf("report's ranking intervals %v %v, explorer's %v %v", out.ROCAUCCI, out.AveragePrecisionCI, r.ROCAUC.Interval, r.AveragePrecision)
 	}
 	cal := s.calibration()
 	if check, ok := s.costCheck(); !ok || cal == nil || !floatcmp.Equal(out.Calibration.ECE, cal.Table.ECE) || !floatcmp.Equal(out.Calibration.CostThreshold, check.threshold) {

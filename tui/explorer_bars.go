@@ -14,14 +14,30 @@ import (
 // panes for their keys (ShortHelp, FullHelp).
 
 // header is the top line: the data's name on the left, its size and
-// ranking figures on the right, which keep their room first.
+// ranking figures on the right, which keep their room first. The ranking
+// figures carry their intervals (analysis.Ranking) while they fit in three
+// quarters of the line: the average precision's interval goes first, then
+// the average precision, then the AUC's interval.
 func (m Model) header() string {
 	s := m.s
-	sum := s.curve.Summary
-	right := fmt.Sprintf("%d rows · %s true (%s) · ROC AUC %s", sum.Rows,
-		format.Count(sum.Positives), format.Share(sum.BaseRate), format.Number(sum.ROCAUC, 3))
+	sum, ranking := s.curve.Summary, s.res.Ranking
+	size := fmt.Sprintf("%d rows · %s true (%s)", sum.Rows, format.Count(sum.Positives), format.Share(sum.BaseRate))
 	if s.set.Weighted() { // a counts table's weights are whole cases, not weights
-		right += " · weighted"
+		size += " · weighted"
+	}
+	auc := format.NumberWithInterval(sum.ROCAUC, ranking.ROCAUC.Interval, 3)
+	candidates := []string{
+		size + " · ROC AUC " + auc + " · AP " + format.NumberWithInterval(sum.AveragePrecision, ranking.AveragePrecision, 3),
+		size + " · ROC AUC " + auc + " · AP " + format.Number(sum.AveragePrecision, 3),
+		size + " · ROC AUC " + auc,
+		size + " · ROC AUC " + format.Number(sum.ROCAUC, 3),
+	}
+	right := candidates[len(candidates)-1]
+	for _, c := range candidates {
+		if ansi.StringWidth(c) <= m.ctx.width*3/4 {
+			right = c
+			break
+		}
 	}
 	return statusBar{m.ctx}.header("sill · "+s.set.Source(), right, min(ansi.StringWidth(right), m.ctx.width*3/4))
 }

@@ -27,5 +27,6 @@ var explorerTerms = []term{
 	{"steady", "after b: the starting point's cut keeps its workload and hit share within a factor of 1.25 across resampled sets (fairly steady: 1.6; unsteady: more)"},
 	{"ref, pt", "in the strip, differences from the chosen candidate (ref); shares differ in percentage points"},
 	{"◆ ◇", "the chosen candidate; a pinned one on the chart"},
-	{"ROC AUC", "how often a true case outranks a false one; 0.5 is chance"},
+	{"ROC AUC", "how often a true case outranks a false one; 0.5 is chance; (a–b): its interval at the confidence level, from DeLong's variance"},
+	{"AP", "average precision: the precision at each true case found, averaged over the true cases; (a–b): its logit interval at the confidence level"},
 }

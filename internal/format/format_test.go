@@ -41,6 +41,12 @@ func TestFigures(t *testing.T) {
 		{"interval undefined end", Interval([2]float64{0.1, nan}), "n/a"},
 		{"interval infinite end", Interval([2]float64{-inf, 0.2}), "n/a"},
 		{"interval negative zero", Interval([2]float64{negZer, 0.01}), "0.0–1.0%"},
+		{"number interval", NumberInterval([2]float64{0.88107, 0.91181}, 3), "0.881–0.912"},
+		{"number interval undefined", NumberInterval([2]float64{nan, 0.9}, 3), "n/a"},
+		{"number interval negative zero", NumberInterval([2]float64{-0.0001, 1}, 3), "0.000–1.000"},
+		{"number with interval", NumberWithInterval(0.89644, [2]float64{0.88107, 0.91181}, 3), "0.896 (0.881–0.912)"},
+		{"number with undefined interval", NumberWithInterval(1, [2]float64{nan, nan}, 3), "1.000"},
+		{"undefined number with interval", NumberWithInterval(nan, [2]float64{0.1, 0.2}, 3), "n/a"},
 
 		{"count whole", Count(6000), "6000"},
 		{"count weighted", Count(4.5), "4.50"},

@@ -7,6 +7,7 @@ import (
 	"encoding/json"
 	"fmt"
 	"io"
+	"math"
 	"strconv"
 	"strings"
 
@@ -284,14 +285,14 @@ func (r *Report) comparison() string {
 }
 
 // withInterval is a ranking figure with its interval in brackets, at the
-// level the assumptions line states ("0.896 (0.881–0.911)"), or alone when
+// level the assumptions line states ("0.896 (0.881–0.912)"), or alone when
 // the interval is undefined.
 func (r *Report) withInterval(v number, ci *interval) string {
-	text := format.Number(float64(v), 3)
+	ends := [2]float64{math.NaN(), math.NaN()}
 	if ci != nil {
-		text += " (" + format.NumberInterval([2]float64{float64(ci[0]), float64(ci[1])}, 3) + ")"
+		ends = [2]float64{float64(ci[0]), float64(ci[1])}
 	}
-	return text
+	return format.NumberWithInterval(float64(v), ends, 3)
 }
 
 // WriteText writes r as a readable report.
