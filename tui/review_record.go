@@ -226,7 +226,8 @@ func (r *Review) signed(msg reviewSignedMsg) {
 }
 
 // recordLines are the notes pane's lines on the record: the model and who
-// chose, then the sign-offs, or how to give one.
+// chose, the ranking figures with their intervals when the file has them,
+// then the sign-offs, or how to give one.
 func (r Review) recordLines(width int) []string {
 	st, f := r.ctx.styles, r.file
 	chosenBy := "not recorded"
@@ -234,6 +235,10 @@ func (r Review) recordLines(width int) []string {
 		chosenBy = format.Printable(f.ChosenBy)
 	}
 	lines := []string{st.Label.Render("model: ") + review.ModelName(f.Model) + st.Label.Render(" · chosen by: ") + chosenBy}
+	if ranking := review.RankingLine(f.Data.Ranking); ranking != "" {
+		const label = "ranking: "
+		lines = append(lines, st.Label.Render(label)+ansi.Truncate(ranking, max(width-len(label), 1), "…"))
+	}
 	signOffs := review.SignOffLines(f)
 	if len(signOffs) == 0 {
 		lines = append(lines, st.Label.Render("sign-offs: ")+st.Muted.Render("none yet; S signs off"))

@@ -161,6 +161,12 @@ func rankingOf(delong *modelpair.Single, sum curve.Summary, confidence float64) 
 			AveragePrecision: [2]float64{nan, nan}}
 	}
 	r := Ranking{ROCAUC: delong.Estimate(confidence)}
+	// Centred on the summary's AUC, which DeLong's equals but for the
+	// last digits of a sum taken in another order.
+	if !math.IsNaN(r.ROCAUC.AUC) {
+		r.ROCAUC.AUC = sum.ROCAUC
+		r.ROCAUC.Interval = modelpair.NormalInterval(sum.ROCAUC, r.ROCAUC.StdError, confidence)
+	}
 	r.AveragePrecision[0], r.AveragePrecision[1] = interval.AveragePrecision(sum.AveragePrecision, sum.Positives, confidence)
 	return r
 }

@@ -90,6 +90,22 @@ type Data struct {
 	WeightKind     design.Kind
 	LowerIsRiskier bool
 	Histogram      Histogram // key score_histogram
+
+	// Ranking is how well the scores rank the cases, with intervals at the
+	// assumptions' confidence (key ranking); nil in a file written before
+	// it was recorded.
+	Ranking *Ranking
+}
+
+// Ranking is the validation set's ROC AUC and average precision, each with
+// its interval at the assumptions' confidence: DeLong's normal interval
+// clipped to [0,1] and the logit interval over the true cases (see
+// analysis.Ranking). Undefined figures and ends are NaN (null).
+type Ranking struct {
+	ROCAUC             float64    // key roc_auc
+	ROCAUCCI           [2]float64 // key roc_auc_ci
+	AveragePrecision   float64    // key average_precision
+	AveragePrecisionCI [2]float64 // key average_precision_ci
 }
 
 // Candidate is one cut the modeller pinned, with its figures on the

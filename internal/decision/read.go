@@ -579,7 +579,7 @@ func (r *reader) failAt(path string, err error) {
 func (r *reader) data(n *yaml.Node) Data {
 	m := r.fields(n, "data",
 		[]string{"path", "sha256", "rows", "positives", "score_column", "label_column", "lower_is_riskier", "score_histogram"},
-		[]string{"negatives", "weight_column", "weight_kind"})
+		[]string{"negatives", "weight_column", "weight_kind", "ranking"})
 	d := Data{
 		Path:           r.str(m["path"], "data.path"),
 		SHA256:         r.str(m["sha256"], "data.sha256"),
@@ -610,7 +610,33 @@ func (r *reader) data(n *yaml.Node) Data {
 		Edges:  r.numbers(h["edges"], "data.score_histogram.edges"),
 		Counts: r.numbers(h["counts"], "data.score_histogram.counts"),
 	}
+	if v, ok := m["ranking"]; ok && !isNull(v) {
+		d.Ranking = r.ranking(v)
+	}
 	return d
+}
+
+// ranking reads data.ranking: the ROC AUC and average precision, shares or
+// null, each with an interval that holds it when both are given.
+func (r *reader) ranking(n *yaml.Node) *Ranking {
+	const path = "data.ranking"
+	m := r.fields(n, path, []string{"roc_auc", "roc_auc_ci", "average_precision", "average_precision_ci"}, nil)
+	out := &Ranking{
+		ROCAUC:             r.share(m["roc_auc"], path+".roc_auc"),
+		ROCAUCCI:           r.interval(m["roc_auc_ci"], path+".roc_auc_ci"),
+		AveragePrecision:   r.share(m["average_precision"], path+".average_precision"),
+		AveragePrecisionCI: r.interval(m["average_precision_ci"], path+".average_precision_ci"),
+	}
+	for _, c := range []struct {
+		key string
+		v   float64
+		ci  [2]float64
+	}{{"roc_auc_ci", out.ROCAUC, out.ROCAUCCI}, {"average_precision_ci", out.AveragePrecision, out.AveragePrecisionCI}} {
+		if r.err == nil && !math.IsNaN(c.v) && !math.IsNaN(c.ci[0]) && !math.IsNaN(c.ci[1]) && !(c.ci[0] <= c.v && c.v <= c.ci[1]) {
+			r.fail(deref(m[c.key]), path+"."+c.key, fmt.Errorf("%w: [%v, %v] does not hold the figure %v", ErrInvalid, c.ci[0], c.ci[1], c.v))
+		}
+	}
+	return out
 }
 
 // isDigest reports whether s is a hex SHA-256 digest or empty.

@@ -7,6 +7,7 @@ import (
 
 	"bytes"
 	"errors"
+	"math"
 	"regexp"
 	"strings"
 	"testing"
@@ -79,6 +80,15 @@ func TestReadRejectsBrokenKeys(t *testing.T) {
 		{"effective trials text", replaceNth(t, text, `\n    projected:`, 0, "\n      effective_trials: many\n    projected:"), ErrType, "candidates[0].validation.effective_trials"},
 		{"effective trials negative", replaceNth(t, text, `\n    projected:`, 0, "\n      effective_trials: {recall: -1, false_positive_rate: 1, precision: 1, flagged_share: 1, base_rate: 1}\n    projected:"), ErrInvalid, "candidates[0].validation.effective_trials.recall"},
 		{"effective trials short", replaceNth(t, text, `\n    projected:`, 0, "\n      effective_trials: {recall: 1}\n    projected:"), ErrMissingKey, "candidates[0].validation.effective_trials.false_positive_rate"},
+		// The ranking: shares in [0,1] or null, intervals of two ends in
+		// order that hold their figure, no other key.
+		{"auc above 1", replaceNth(t, text, `roc_auc: [0-9.]+`, 0, `roc_auc: 1.2`), ErrInvalid, "data.ranking.roc_auc"},
+		{"auc interval reversed", replaceNth(t, text, `roc_auc_ci: \[[^\]]*\]`, 0, `roc_auc_ci: [0.95, 0.85]`), ErrInvalid, "data.ranking.roc_auc_ci"},
+		{"auc outside its interval", replaceNth(t, text, `roc_auc_ci: \[[^\]]*\]`, 0, `roc_auc_ci: [0.1, 0.2]`), ErrInvalid, "data.ranking.roc_auc_ci"},
+		{"ap outside its interval", replaceNth(t, text, `average_precision_ci: \[[^\]]*\]`, 0, `average_precision_ci: [0.9, 0.95]`), ErrInvalid, "data.ranking.average_precision_ci"},
+		{"ap missing", replaceNth(t, text, `\n    average_precision: [0-9.]+`, 0, ``), ErrMissingKey, "data.ranking.average_precision"},
+		{"ranking unknown key", replaceNth(t, text, `\n    roc_auc: `, 0, "\n    gini: 0.8\n    roc_auc: "), ErrUnknownKey, "data.ranking.gini"},
+		{"ranking a number", replaceNth(t, text, `(?s)ranking:\n.*?\nassumptions:`, 0, "ranking: 0.9\nassumptions:"), ErrType, "data.ranking"},
 		{"bad created", replaceNth(t, text, `created: "[^"]*"`, 0, `created: "yesterday"`), ErrInvalid, "created"},
 		{"base rate above 1", replaceNth(t, text, `base_rate: [0-9.]+`, 0, `base_rate: 2`), ErrInvalid, "assumptions.base_rate"},
 		{"confidence 1", replaceNth(t, text, `confidence: [0-9.]+`, 0, `confidence: 1`), ErrInvalid, "assumptions.confidence"},
@@ -225,5 +235,49 @@ func TestReadProjectedIntervals(t *testing.T) {
 				t.Errorf("%s: candidate %d queue interval %v around %v", name, i, g.QueuePerShift, c.Cut.Projected.QueuePerShift)
 			}
 		}
+	}
+}
+
+// TestRankingRoundTrip: the data's ranking reads back as written; a file
+// without the key (written before it was recorded) or with null reads a
+// nil Ranking; undefined figures and ends are null and read back NaN.
+func TestRankingRoundTrip(t *testing.T) {
+	f := demoFile(t)
+	if f.Data.Ranking == nil {
+		t.Fatal("New recorded no ranking")
+	}
+	text, err := Marshal(f)
+	if err != nil {
+		t.Fatal(err)
+	}
+	back, err := Read(bytes.NewReader(text), "cut.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got, want := *back.Data.Ranking, *f.Data.Ranking; got != want {
+		t.Errorf("ranking read back %+v, wrote %+v", got, want)
+	}
+	for name, replacement := range map[string]string{"absent": "assumptions:", "null": "  ranking: null\nassumptions:"} {
+		old := replaceNth(t, string(text), `(?s)  ranking:\n.*?\nassumptions:`, 0, replacement)
+		back, err := Read(strings.NewReader(old), "cut.yaml")
+		if err != nil || back.Data.Ranking != nil {
+			t.Errorf("%s: ranking %+v, error %v", name, back.Data.Ranking, err)
+		}
+	}
+	nan := math.NaN()
+	f.Data.Ranking = &Ranking{ROCAUC: nan, ROCAUCCI: [2]float64{nan, nan}, AveragePrecision: 0.5, AveragePrecisionCI: [2]float64{nan, nan}}
+	text, err = Marshal(f)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(string(text), "roc_auc: null\n    roc_auc_ci: [null, null]") {
+		t.Errorf("undefined ranking written as\n%s", text)
+	}
+	back, err = Read(bytes.NewReader(text), "cut.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r := back.Data.Ranking; !math.IsNaN(r.ROCAUC) || !math.IsNaN(r.ROCAUCCI[1]) || r.AveragePrecision != 0.5 || !math.IsNaN(r.AveragePrecisionCI[0]) {
+		t.Errorf("undefined ranking read back %+v", r)
 	}
 }

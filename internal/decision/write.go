@@ -114,6 +114,7 @@ func Marshal(f *File) ([]byte, error) {
 				"edges", flowList(d.Histogram.Edges...),
 				"counts", flowList(d.Histogram.Counts...),
 			),
+			"ranking", rankingNode(d.Ranking),
 		),
 		"assumptions", mapping(
 			"base_rate", num(a.BaseRate),
@@ -441,6 +442,19 @@ func given(v float64) *yaml.Node {
 		return null()
 	}
 	return num(v)
+}
+
+// rankingNode is the data's ranking figures, or null when not recorded.
+func rankingNode(r *Ranking) *yaml.Node {
+	if r == nil {
+		return null()
+	}
+	return mapping(
+		"roc_auc", num(r.ROCAUC),
+		"roc_auc_ci", flowList(r.ROCAUCCI[:]...),
+		"average_precision", num(r.AveragePrecision),
+		"average_precision_ci", flowList(r.AveragePrecisionCI[:]...),
+	)
 }
 
 func flowList(values ...float64) *yaml.Node {

@@ -60,7 +60,7 @@ type AUCEstimate struct {
 // needs two). A variance of 0 (the classes apart, AUC 0 or 1) gives the
 // interval [AUC, AUC].
 func (s *Single) Estimate(confidence float64) AUCEstimate {
-	z := interval.Z(confidence)
+	interval.Z(confidence) // panics outside (0,1), whatever the data
 	positives, negatives := s.trueCases.weight, s.falseCases.weight
 	nan := math.NaN()
 	e := AUCEstimate{AUC: nan, Variance: nan, StdError: nan, Interval: [2]float64{nan, nan}}
@@ -75,6 +75,19 @@ func (s *Single) Estimate(confidence float64) AUCEstimate {
 	}
 	e.Variance = max(e.Variance, 0)
 	e.StdError = math.Sqrt(e.Variance)
-	e.Interval = [2]float64{max(e.AUC-z*e.StdError, 0), min(e.AUC+z*e.StdError, 1)}
+	e.Interval = NormalInterval(e.AUC, e.StdError, confidence)
 	return e
+}
+
+// NormalInterval returns auc ± z·stdError at confidence (in (0,1); it
+// panics outside), clipped to [0,1] as R's pROC ci.auc(method = "delong")
+// clips it; both ends NaN when either figure is. Estimate uses it; a
+// caller holding the same AUC summed another way (package curve's, equal
+// to the last digits or so) centres the interval on that one with it.
+func NormalInterval(auc, stdError, confidence float64) [2]float64 {
+	z := interval.Z(confidence)
+	if math.IsNaN(auc) || math.IsNaN(stdError) {
+		return [2]float64{math.NaN(), math.NaN()}
+	}
+	return [2]float64{max(auc-z*stdError, 0), min(auc+z*stdError, 1)}
 }

@@ -63,7 +63,8 @@ caution: "hand-edited caution that the page must not show"
 `
 
 // fixture returns the decision of decisionYAML (a sill-cut/1 file) with
-// what sill-cut/2 adds set by hand: the model, who chose, the curve (the
+// what sill-cut/2 adds set by hand: the model, who chose, the ranking with
+// its intervals, the curve (the
 // three candidates' cuts between both ends), the chosen candidate's
 // stability, segments and real shifts, the shift schedule, calibration
 // and two sign-offs, one given for an earlier choice.
@@ -76,6 +77,7 @@ func fixture(t *testing.T) *decision.File {
 	f.Created = time.Date(2026, 10, 1, 8, 30, 0, 0, time.UTC)
 	f.Model = decision.Model{Name: "parcel-risk", Version: "v7"}
 	f.ChosenBy = "Ines Marlow"
+	f.Data.Ranking = &decision.Ranking{ROCAUC: 0.874, ROCAUCCI: [2]float64{0.8412, 0.9068}, AveragePrecision: 0.58, AveragePrecisionCI: [2]float64{0.4821, 0.6722}}
 	f.Curve = []decision.CurvePoint{{Score: 0.95, TP: 10, FP: 1}, {Score: 0.8, TP: 45, FP: 15}, {Score: 0.5, TP: 80, FP: 70}, {Score: 0.3, TP: 90, FP: 210}, {Score: 0, TP: 100, FP: 900}}
 	f.ShiftSchedule = &decision.ShiftSchedule{Starts: []string{"06:00", "18:00"}, Zone: "UTC", TimeColumn: "scanned_at"}
 	f.Calibration = &decision.Calibration{Binning: "width", ECE: 0.031, Bins: []decision.CalibrationBin{

@@ -224,16 +224,21 @@ func dataFacts(f *decision.File) []fact {
 	if d.LowerIsRiskier {
 		direction = "lower scores are riskier"
 	}
-	return []fact{
+	facts := []fact{
 		{"validation set", d.Path},
 		{"fingerprint (SHA-256)", d.SHA256},
 		{"rows", format.Count(float64(d.Rows))},
 		{"true cases", format.Count(d.Positives)},
 		{"false cases", format.Count(d.Negatives)},
 		{"base rate", format.Share(base)},
-		{"columns", columns + "; " + direction},
-		{"chosen by", chosenBy(f)},
 	}
+	if r := d.Ranking; r != nil {
+		level := fmt.Sprintf("%g%% interval", 100*f.Assumptions.Confidence)
+		facts = append(facts,
+			fact{"ROC AUC", format.NumberWithInterval(r.ROCAUC, r.ROCAUCCI, 3) + " · " + level + " from DeLong's variance"},
+			fact{"average precision", format.NumberWithInterval(r.AveragePrecision, r.AveragePrecisionCI, 3) + " · " + level + " on the logit scale"})
+	}
+	return append(facts, fact{"columns", columns + "; " + direction}, fact{"chosen by", chosenBy(f)})
 }
 
 func assumptions(f *decision.File) []fact {
