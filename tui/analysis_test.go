@@ -119,7 +119,7 @@ func agree(t *testing.T, m Model, opts analysis.Options) {
 		if !floatcmp.Equal(c.Shifts.P90, p.P90) || !floatcmp.Equal(c.Shifts.Max, p.Max) || !floatcmp.Equal(c.Shifts.Mean, p.Mean) {
 			t.Errorf("%s: report queues %+v, explorer %+v", c.Spec, c.Shifts, p)
 		}
-		nb, _ := analysis.NetBenefit(o.Point, s.curve.Summary.BaseRate)
+		nb, _ := s.res.NetBenefitAt(o.Point)
 		if !floatcmp.Equal(c.NetBenefit, nb) {
 			t.Errorf("%s: report net benefit %v, explorer %v", c.Spec, c.NetBenefit, nb)
 		}

@@ -204,11 +204,13 @@ func TestResampling(t *testing.T) {
 	}
 }
 
-// TestNetBenefit: the figures show the net benefit at the cursor's cut
-// with its score as the threshold probability. Hand-worked on the ten
-// rows: at 0.9 one true case of 10 and no false one, 1/10 = 0.1000; at
-// 0.8 two true and one false, 2/10 - 1/10 * 0.8/0.2 = -0.2000; at 0.5
-// three and three, 0.3 - 0.3 * 1 = 0.0000, with flag all 0.3 - 0.7 = -0.4.
+// TestNetBenefit: the figures show the net benefit at the cursor's cut at
+// production's base rate 0.3 and the threshold probability of the costs,
+// 10/(10+100) = 1/11 (odds 0.1), the same for every cut. Hand-worked on
+// the ten rows (3 true, 7 false): at 0.9 recall 1/3 and no false alert,
+// 0.3/3 = 0.1000; at 0.8 recall 2/3 and FPR 1/7, 0.2 - 0.7/7*0.1 =
+// 0.1900; at 0.5 recall 1 and FPR 3/7, 0.3 - 0.3*0.1 = 0.2700, with flag
+// all 0.3 - 0.7*0.1 = 0.2300.
 func TestNetBenefit(t *testing.T) {
 	m := tenModel(t)
 	for _, tc := range []struct {
@@ -216,8 +218,8 @@ func TestNetBenefit(t *testing.T) {
 		want string
 	}{
 		{[]string{"g"}, "net benefit 0.1000"},
-		{[]string{"g", "j"}, "net benefit -0.2000"},
-		{[]string{"g", "j", "j", "j", "j"}, "net benefit 0.0000 a case · flag all -0.4000"},
+		{[]string{"g", "j"}, "net benefit 0.1900"},
+		{[]string{"g", "j", "j", "j", "j"}, "net benefit 0.2700 a case · flag all 0.2300"},
 	} {
 		got := keys(m, tc.keys...)
 		if body := got.figures.body(); !strings.Contains(body, tc.want) {

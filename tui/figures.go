@@ -10,7 +10,6 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/x/ansi"
 
-	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/bootstrap"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/evidence"
@@ -218,7 +217,7 @@ func (p figuresPane) body() string {
 	}
 	if s.calibration() != nil {
 		point := s.point()
-		cut, all := analysis.NetBenefit(point, s.curve.Summary.BaseRate)
+		cut, all := s.res.NetBenefitAt(point)
 		head := st.Label.Render("net benefit") + " " + st.Figure.Render(format.Number(cut, 4)) + " "
 		lines = append(lines, head+st.Muted.Render(longestFit(width-ansi.StringWidth(head), "a case · flag all "+format.Number(all, 4), "· flag all "+format.Number(all, 4))))
 	}

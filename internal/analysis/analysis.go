@@ -188,9 +188,14 @@ type Calibration struct {
 	Bins  int
 	// Cost is the cost threshold; nil without costs.
 	Cost *CostThreshold
-	// NetBenefit is the net benefit at each met cut with its own score as
-	// the threshold probability, and NetBenefitAll that of flagging every
-	// case at the same threshold (NaN for an unmet rule).
+	// Threshold is the threshold probability of net benefit, the same for
+	// every cut: from the costs when ThresholdFromCosts, else production's
+	// base rate (calibration.NetBenefitThreshold).
+	Threshold          float64
+	ThresholdFromCosts bool
+	// NetBenefit is the net benefit at each met cut at production's base
+	// rate and Threshold, and NetBenefitAll that of flagging every case
+	// (NaN for an unmet rule).
 	NetBenefit    []float64
 	NetBenefitAll []float64
 }
@@ -404,10 +409,11 @@ func (r *Result) assume(a projection.Assumptions, prev *Result) error {
 			c.Cost = &CostThreshold{Probability: p, Score: calibration.ShiftThreshold(p, r.Summary.BaseRate, a.BaseRate),
 				LeastCost: leastCost.Outcomes()[0]}
 		}
+		c.Threshold, c.ThresholdFromCosts = calibration.NetBenefitThreshold(a.Costs, a.BaseRate)
 		c.NetBenefit = make([]float64, len(r.Outcomes))
 		c.NetBenefitAll = make([]float64, len(r.Outcomes))
 		for i, o := range r.Outcomes {
-			c.NetBenefit[i], c.NetBenefitAll[i] = NetBenefit(o.Point, r.Summary.BaseRate)
+			c.NetBenefit[i], c.NetBenefitAll[i] = r.NetBenefitAt(o.Point)
 			if !o.Met {
 				c.NetBenefit[i], c.NetBenefitAll[i] = math.NaN(), math.NaN()
 			}
@@ -450,12 +456,16 @@ func capacityOf(a projection.Assumptions) float64 {
 	return a.Capacity
 }
 
-// NetBenefit returns the net benefit of flagging at p with its own score
-// as the threshold probability, and that of flagging every case at the
-// same threshold with the validation base rate base (Vickers and Elkin
-// 2006; see calibration.NetBenefit).
-func NetBenefit(p curve.Point, base float64) (cut, all float64) {
-	return calibration.NetBenefit(p, p.Score), calibration.NetBenefitAll(base, p.Score)
+// NetBenefitAt returns the net benefit of flagging at p and that of
+// flagging every case, both at production's base rate and the threshold
+// probability of r.Calibration (Vickers and Elkin 2006; see
+// calibration.NetBenefit); NaN when the scores are not probabilities.
+func (r *Result) NetBenefitAt(p curve.Point) (cut, all float64) {
+	c := r.Calibration
+	if c == nil {
+		return math.NaN(), math.NaN()
+	}
+	return calibration.NetBenefit(p, r.Assume.BaseRate, c.Threshold), calibration.NetBenefitAll(r.Assume.BaseRate, c.Threshold)
 }
 
 // Points calls visit with every cut of the set, strictest first: from the

@@ -1,10 +1,12 @@
 package analysis_test
 
 import (
+	"cmp"
 	"context"
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 	"testing"
 	"time"
@@ -13,6 +15,7 @@ import (
 	"github.com/sill-tool/sill/internal/bootstrap"
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/demo"
 	"github.com/sill-tool/sill/internal/floatcmp"
 	"github.com/sill-tool/sill/internal/interval"
 	"github.com/sill-tool/sill/internal/projection"
@@ -170,9 +173,11 @@ func TestRun(t *testing.T) {
 		!cal.Cost.LeastCost.Met || cal.Cost.LeastCost.Point.Score != 0.4 {
 		t.Errorf("cost threshold %+v", cal.Cost)
 	}
-	// Net benefit at 0.8 (Vickers and Elkin 2006): 2/8 - 1/8 * 0.8/0.2 =
-	// -0.25; flagging all at the same threshold: 0.5 - 0.5*4 = -1.5.
-	if !floatcmp.Equal(cal.NetBenefit[0], -0.25) || !floatcmp.Equal(cal.NetBenefitAll[0], -1.5) ||
+	// Net benefit at 0.8 (Vickers and Elkin 2006) at base rate 0.5 and
+	// the costs' threshold 0.2 (odds 0.25): recall 2/4, FPR 1/4, so
+	// 0.5*0.5 - 0.25*0.5*0.25 = 0.21875; flagging all: 0.5 - 0.5*0.25 =
+	// 0.375.
+	if !floatcmp.Equal(cal.NetBenefit[0], 0.21875) || !floatcmp.Equal(cal.NetBenefitAll[0], 0.375) || !floatcmp.Equal(cal.Threshold, 0.2) || !cal.ThresholdFromCosts ||
 		!math.IsNaN(cal.NetBenefit[1]) || !math.IsNaN(cal.NetBenefitAll[1]) {
 		t.Errorf("net benefit %v, all %v", cal.NetBenefit, cal.NetBenefitAll)
 	}
@@ -486,5 +491,53 @@ func TestRanking(t *testing.T) {
 		if z90 := 1.6448536269514722; !floatcmp.Equal(moved.Ranking.ROCAUC.Interval[0], 10.5/16-z90*se) {
 			t.Errorf("cursor %v: at 90%% %+v", cursor, moved.Ranking.ROCAUC)
 		}
+	}
+}
+
+// TestNetBenefitRanksAsCost: on the demo (6,000 rows, seed 7) at a
+// production base rate of 2% with the demo's costs (wrong alert 120, miss
+// 1200), ordering every cut by net benefit, best first, orders them by
+// projected cost per case, least first (cost = p*Miss - (Miss-Hit)*net
+// benefit, package calibration); and the best net benefit is at the
+// least-cost cut. Without costs the threshold is the base rate.
+func TestNetBenefitRanksAsCost(t *testing.T) {
+	set, err := scores.Read(strings.NewReader(string(demo.CSV(demo.DefaultRows, demo.DefaultSeed))), demo.Source, scores.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	a := projection.Assumptions{BaseRate: 0.02, Volume: demo.Volume, Confidence: 0.95,
+		Costs: &projection.Costs{FalseAlert: demo.CostFalseAlert, Miss: demo.CostMiss}}
+	res, err := analysis.Run(context.Background(), set, a, analysis.Options{Rules: rules(t, "cost")})
+	if err != nil {
+		t.Fatal(err)
+	}
+	type cut struct{ benefit, cost, score float64 }
+	var cuts []cut
+	res.Points(func(p curve.Point) {
+		nb, _ := res.NetBenefitAt(p)
+		cuts = append(cuts, cut{nb, projection.Project(p, a).CostPerCase, p.Score})
+	})
+	if len(cuts) < 100 {
+		t.Fatalf("%d cuts", len(cuts))
+	}
+	slices.SortStableFunc(cuts, func(x, y cut) int { return cmp.Compare(y.benefit, x.benefit) })
+	for i := 1; i < len(cuts); i++ {
+		if cuts[i].cost < cuts[i-1].cost-1e-9 {
+			t.Fatalf("by net benefit, cut %v (cost %v) follows %v (cost %v)", cuts[i].score, cuts[i].cost, cuts[i-1].score, cuts[i-1].cost)
+		}
+	}
+	if o := res.Outcomes[0]; !o.Met || o.Point.Score != cuts[0].score {
+		t.Errorf("least-cost cut %v, best net benefit at %v", o.Point.Score, cuts[0].score)
+	}
+	if cuts[0].benefit > 0 {
+		t.Logf("best net benefit %.4f at %v", cuts[0].benefit, cuts[0].score)
+	}
+	a.Costs = nil
+	res, err = analysis.Run(context.Background(), set, a, analysis.Options{Rules: rules(t, "top=100")})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if c := res.Calibration; c.ThresholdFromCosts || c.Threshold != 0.02 {
+		t.Errorf("without costs: threshold %v from costs %v, want the base rate 0.02", c.Threshold, c.ThresholdFromCosts)
 	}
 }

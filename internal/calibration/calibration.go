@@ -14,9 +14,12 @@ package calibration
 import (
 	"errors"
 	"fmt"
-	"github.com/sill-tool/sill/internal/quantile"
 	"math"
+	"math/rand/v2"
+	"slices"
 	"sort"
+
+	"github.com/sill-tool/sill/internal/quantile"
 
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/projection"
@@ -72,6 +75,12 @@ type Table struct {
 	// gap between a bin's observed rate and its mean score (Naeini, Cooper
 	// and Hauskrecht 2015 name it so). NaN when the set weighs nothing.
 	ECE float64
+	// Noise is the ECE's noise level at this set's size: the ECE that 9
+	// sets in 10 of perfectly calibrated scores would stay at or below,
+	// with the same scores in the same bins and labels drawn as
+	// Bernoulli(score) (NoiseLevel). NoiseMean is their mean ECE. Both NaN
+	// when ECE is.
+	Noise, NoiseMean float64
 }
 
 // Reliability returns the reliability table of set in bins bins.
@@ -165,7 +174,105 @@ func Reliability(set *scores.Set, bins int, binning Binning) (Table, error) {
 	if total > 0 {
 		t.ECE = gap / total
 	}
+	t.Noise, t.NoiseMean = NoiseLevel(set, t, NoiseReplicates, NoiseSeed)
 	return t, nil
+}
+
+// NoiseReplicates and NoiseSeed are the simulation behind Table.Noise:
+// the same set always gets the same noise level.
+const (
+	NoiseReplicates = 1000
+	NoiseSeed       = 20261202
+)
+
+// exactCases is the largest bin, in cases, whose labels NoiseLevel draws
+// one by one; larger bins draw their count of true cases from the normal
+// distribution of the same mean and variance.
+const exactCases = 200
+
+// NoiseLevel returns the ECE that perfectly calibrated scores would show
+// in table t of set: the 90th percentile (nearest rank) and the mean of
+// the ECE over replicates simulated sets, each with set's scores, weights
+// and bins and every label drawn anew as Bernoulli(score), seeded by seed.
+// A row stands for CasesAt(i) cases that draw their labels apart and
+// carries its weight spread over them. A bin of at most exactCases cases
+// draws each case's label; a larger bin draws its
+// weighted count of true cases from the normal distribution with the
+// same mean and variance (sum of w*s and of w*w/cases*s*(1-s)), clipped to
+// [0, the bin's weight). An ECE below the 90th percentile cannot be told
+// from the noise of a set of this size; the mean is what a calibrated
+// model scores on average (ECE is biased upward: Kumar, Liang and Ma
+// 2019, "Verified uncertainty calibration", from memory). Both are NaN
+// when t.ECE is NaN or replicates < 1.
+func NoiseLevel(set *scores.Set, t Table, replicates int, seed uint64) (p90, mean float64) {
+	if math.IsNaN(t.ECE) || replicates < 1 || len(t.Bins) == 0 {
+		return math.NaN(), math.NaN()
+	}
+	nb := len(t.Bins)
+	inner := make([]float64, nb-1)
+	for b := range nb - 1 {
+		inner[b] = t.Bins[b].Upper
+	}
+	meanTrue := make([]float64, nb) // expected weight of true cases per bin
+	variance := make([]float64, nb)
+	exact := make([][]row, nb)
+	binOf := func(s float64) int { return sort.SearchFloat64s(inner, s) }
+	total := 0.0
+	for i, s := range set.Scores() {
+		b := binOf(s)
+		w, n := set.Weight(i), float64(set.CasesAt(i))
+		total += w
+		if t.Bins[b].Count <= exactCases {
+			exact[b] = append(exact[b], row{score: s, weight: w, cases: set.CasesAt(i)})
+			continue
+		}
+		meanTrue[b] += w * s
+		if n > 0 {
+			variance[b] += w * w / n * s * (1 - s)
+		}
+	}
+	if !(total > 0) {
+		return math.NaN(), math.NaN()
+	}
+	rng := rand.New(rand.NewPCG(seed, seed^0x5eed))
+	eces := make([]float64, replicates)
+	for r := range eces {
+		sum := 0.0
+		for b, bin := range t.Bins {
+			if !(bin.Weight > 0) {
+				continue
+			}
+			trues := 0.0
+			if exact[b] != nil {
+				for _, x := range exact[b] {
+					hits := 0
+					for range x.cases {
+						if rng.Float64() < x.score {
+							hits++
+						}
+					}
+					trues += x.weight * float64(hits) / float64(max(x.cases, 1))
+				}
+			} else {
+				trues = min(max(meanTrue[b]+math.Sqrt(variance[b])*rng.NormFloat64(), 0), bin.Weight)
+			}
+			sum += math.Abs(trues - bin.MeanScore*bin.Weight)
+		}
+		eces[r] = sum / total
+	}
+	for _, e := range eces {
+		mean += e
+	}
+	mean /= float64(replicates)
+	slices.Sort(eces)
+	rank := max(int(math.Ceil(0.9*float64(replicates)-1e-9)), 1)
+	return eces[rank-1], mean
+}
+
+// row is one row of a bin whose labels NoiseLevel draws one by one.
+type row struct {
+	score, weight float64
+	cases         int
 }
 
 // casesQuantile is quantile.Linear of the cases that a counts table's
@@ -256,26 +363,56 @@ func ShiftThreshold(threshold, validationBase, productionBase float64) float64 {
 
 func inside(p float64) bool { return p > 0 && p < 1 }
 
-// NetBenefit returns the net benefit of flagging at point p when the
-// threshold probability is threshold (Vickers and Elkin 2006, "Decision
-// curve analysis: a novel method for evaluating prediction models"):
-// TP/n - FP/n * threshold/(1-threshold), n the set's total weight. It is
-// the true cases caught per case scored, less the wrong alerts weighed by
-// the odds at which a reader is indifferent. NaN when the set weighs
-// nothing or threshold is outside [0,1).
-func NetBenefit(p curve.Point, threshold float64) float64 {
-	n := p.TP + p.FP + p.FN + p.TN
-	if !(n > 0) || !(threshold >= 0 && threshold < 1) {
+// NetBenefitThreshold returns the threshold probability at which net
+// benefit weighs a wrong alert against a true case caught, the same for
+// every cut: with costs, CostThreshold (Vickers and Elkin 2006 take the
+// threshold probability as the reader's exchange rate between a miss and
+// a wrong alert, which costs state outright); without costs, the base rate
+// base, at which flagging every case and flagging none are worth the same
+// (net benefit is then base*(recall - false positive rate), the base rate
+// times Youden's J). fromCosts says which was used. The threshold is NaN
+// where CostThreshold is, or when base is NaN.
+func NetBenefitThreshold(c *projection.Costs, base float64) (threshold float64, fromCosts bool) {
+	if c != nil {
+		return CostThreshold(*c), true
+	}
+	return base, false
+}
+
+// NetBenefit returns the net benefit per case of flagging at point p in a
+// population whose base rate is base, when the threshold probability is
+// threshold (Vickers and Elkin 2006, "Decision curve analysis: a novel
+// method for evaluating prediction models"):
+//
+//	recall*base - FPR*(1-base) * threshold/(1-threshold)
+//
+// which at base equal to the set's own base rate is TP/n - FP/n *
+// threshold/(1-threshold). It is the true cases caught per case scored,
+// less the wrong alerts weighed at the odds of the threshold. With the
+// threshold from costs (NetBenefitThreshold), the cost per case is
+// base*Miss - (Miss-Hit)*NetBenefit, so net benefit ranks cuts as the cost
+// does. A class of zero share in base needs no rate of that class. NaN
+// when a rate it needs is undefined, base is outside [0,1] or threshold is
+// outside [0,1).
+func NetBenefit(p curve.Point, base, threshold float64) float64 {
+	if !(base >= 0 && base <= 1) || !(threshold >= 0 && threshold < 1) {
 		return math.NaN()
 	}
-	return p.TP/n - p.FP/n*threshold/(1-threshold)
+	caught, wrong := 0.0, 0.0
+	if base > 0 {
+		caught = p.Recall() * base
+	}
+	if base < 1 {
+		wrong = p.FalsePositiveRate() * (1 - base)
+	}
+	return caught - wrong*threshold/(1-threshold)
 }
 
 // NetBenefitAll returns the net benefit of flagging every case at the
 // threshold probability, the reference line of a decision curve:
 // base - (1-base) * threshold/(1-threshold). NaN where NetBenefit is.
 func NetBenefitAll(base, threshold float64) float64 {
-	if math.IsNaN(base) || !(threshold >= 0 && threshold < 1) {
+	if !(base >= 0 && base <= 1) || !(threshold >= 0 && threshold < 1) {
 		return math.NaN()
 	}
 	return base - (1-base)*threshold/(1-threshold)

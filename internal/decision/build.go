@@ -229,7 +229,7 @@ func segmentsOf(column string, b segment.Breakdown) *Segments {
 }
 
 func calibrationOf(c *analysis.Calibration) *Calibration {
-	out := &Calibration{Binning: "width", ECE: c.Table.ECE}
+	out := &Calibration{Binning: "width", ECE: c.Table.ECE, ECENoise: c.Table.Noise}
 	if c.Table.Binning == calibration.Quantile {
 		out.Binning = "quantile"
 	}

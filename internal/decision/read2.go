@@ -72,8 +72,8 @@ func (r *reader) calibration(n *yaml.Node) *Calibration {
 		return nil
 	}
 	const path = "calibration"
-	m := r.fields(n, path, []string{"binning", "ece", "bins", "cost_threshold"}, nil)
-	c := &Calibration{Binning: r.str(m["binning"], path+".binning"), ECE: r.share(m["ece"], path+".ece")}
+	m := r.fields(n, path, []string{"binning", "ece", "bins", "cost_threshold"}, []string{"ece_noise"})
+	c := &Calibration{Binning: r.str(m["binning"], path+".binning"), ECE: r.share(m["ece"], path+".ece"), ECENoise: r.share(m["ece_noise"], path+".ece_noise")}
 	if r.err == nil && c.Binning != "width" && c.Binning != "quantile" {
 		r.fail(deref(m["binning"]), path+".binning", fmt.Errorf("%w: %q, expected \"width\" or \"quantile\"", ErrInvalid, c.Binning))
 	}

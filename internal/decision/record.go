@@ -63,7 +63,11 @@ type ShiftSchedule struct {
 type Calibration struct {
 	Binning string  // key binning: "width" or "quantile"
 	ECE     float64 // key ece: expected calibration error; NaN written as null
-	Bins    []CalibrationBin
+	// ECENoise is the ECE that 9 in 10 sets of perfectly calibrated
+	// scores of this size stay at or below (key ece_noise, optional; NaN
+	// when absent).
+	ECENoise float64
+	Bins     []CalibrationBin
 	// CostThreshold is the threshold implied by the costs (key
 	// cost_threshold); nil without costs.
 	CostThreshold *CostThreshold

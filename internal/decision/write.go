@@ -296,7 +296,7 @@ func calibrationNode(c *Calibration) *yaml.Node {
 	if t := c.CostThreshold; t != nil {
 		cost = mapping("probability", num(t.Probability), "score", num(t.Score))
 	}
-	return mapping("binning", quoted(c.Binning), "ece", num(c.ECE), "bins", bins, "cost_threshold", cost)
+	return mapping("binning", quoted(c.Binning), "ece", num(c.ECE), "ece_noise", num(c.ECENoise), "bins", bins, "cost_threshold", cost)
 }
 
 func stabilityNode(s *Stability) *yaml.Node {

@@ -80,7 +80,7 @@ func fixture(t *testing.T) *decision.File {
 	f.Data.Ranking = &decision.Ranking{ROCAUC: 0.874, ROCAUCCI: [2]float64{0.8412, 0.9068}, AveragePrecision: 0.58, AveragePrecisionCI: [2]float64{0.4821, 0.6722}}
 	f.Curve = []decision.CurvePoint{{Score: 0.95, TP: 10, FP: 1}, {Score: 0.8, TP: 45, FP: 15}, {Score: 0.5, TP: 80, FP: 70}, {Score: 0.3, TP: 90, FP: 210}, {Score: 0, TP: 100, FP: 900}}
 	f.ShiftSchedule = &decision.ShiftSchedule{Starts: []string{"06:00", "18:00"}, Zone: "UTC", TimeColumn: "scanned_at"}
-	f.Calibration = &decision.Calibration{Binning: "width", ECE: 0.031, Bins: []decision.CalibrationBin{
+	f.Calibration = &decision.Calibration{Binning: "width", ECE: 0.031, ECENoise: 0.012, Bins: []decision.CalibrationBin{
 		{Lower: 0, Upper: 0.5, MeanScore: 0.12, ObservedRate: 0.03, Rows: 850, Weight: 850},
 		{Lower: 0.5, Upper: 1, MeanScore: 0.66, ObservedRate: 0.53, Rows: 150, Weight: 150},
 	}, CostThreshold: &decision.CostThreshold{Probability: 5.0 / 85, Score: 5.0 / 85}}

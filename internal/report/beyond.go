@@ -192,6 +192,19 @@ type calibrationFigures struct {
 	Binning string           `json:"binning"`
 	Bins    []calibrationBin `json:"bins"`
 	ECE     number           `json:"ece"`
+	// ECENoise is the ECE that 9 in 10 perfectly calibrated sets of this
+	// size and score distribution stay at or below; ECENoiseMean their
+	// mean (calibration.NoiseLevel).
+	ECENoise     number `json:"ece_noise"`
+	ECENoiseMean number `json:"ece_noise_mean"`
+	// NetBenefitThreshold is net benefit's threshold probability, the same
+	// for every cut; NetBenefitThresholdFrom says where it comes from:
+	// "costs" or "base rate" (no costs given).
+	NetBenefitThreshold     number `json:"net_benefit_threshold"`
+	NetBenefitThresholdFrom string `json:"net_benefit_threshold_from"`
+	// NetBenefitBaseRate is the base rate net benefit is computed at:
+	// production's.
+	NetBenefitBaseRate number `json:"net_benefit_base_rate"`
 	// CostThreshold is the score at which calibrated probabilities make
 	// flagging cheaper than not (Elkan 2001), carried over to the
 	// production base rate; null without costs.
@@ -224,13 +237,20 @@ func (r *Report) addCalibration(res *analysis.Result) {
 	if binning == calibration.Quantile {
 		name = "quantile"
 	}
-	cf := &calibrationFigures{Binning: name, ECE: number(table.ECE), CostThreshold: null, CostThresholdProbability: null, LeastCostCut: null}
+	cf := &calibrationFigures{Binning: name, ECE: number(table.ECE), ECENoise: number(table.Noise), ECENoiseMean: number(table.NoiseMean),
+		NetBenefitThreshold: number(cal.Threshold), NetBenefitThresholdFrom: "base rate", NetBenefitBaseRate: number(res.Assume.BaseRate),
+		CostThreshold: null, CostThresholdProbability: null, LeastCostCut: null}
+	if cal.ThresholdFromCosts {
+		cf.NetBenefitThresholdFrom = "costs"
+	}
 	t := tableOf("bin", "rows", "mean score", "observed rate", "gap")
 	for _, b := range table.Bins {
 		cf.Bins = append(cf.Bins, calibrationBin{Lower: b.Lower, Upper: b.Upper, MeanScore: number(b.MeanScore), ObservedRate: number(b.ObservedRate), Count: b.Count})
 		t.rows = append(t.rows, []string{format.Number(b.Lower, 3) + "–" + format.Number(b.Upper, 3), fmt.Sprint(b.Count), format.Number(b.MeanScore, 3), format.Number(b.ObservedRate, 3), format.NumberDiff(b.ObservedRate, b.MeanScore, 3).Text})
 	}
-	notes := []string{"expected calibration error (ECE) " + format.Number(table.ECE, 4) + ": the mean of |observed rate - mean score| over the bins, weighted by their cases"}
+	notes := []string{"expected calibration error (ECE) " + format.Number(table.ECE, 4) + ": the mean of |observed rate - mean score| over the bins, weighted by their cases",
+		"ECE noise level at this size about " + format.Number(table.Noise, 4) + ": 9 in 10 sets of perfectly calibrated scores of this size and score spread stay at or below it (mean " +
+			format.Number(table.NoiseMean, 4) + "; labels drawn as Bernoulli(score), 1,000 seeded runs); an ECE below it cannot be told from noise"}
 	if c := cal.Cost; c != nil {
 		p := c.Probability
 		cf.CostThresholdProbability = number(p)
@@ -249,14 +269,20 @@ func (r *Report) addCalibration(res *analysis.Result) {
 		notes = append(notes, line, least)
 		r.beyond.costThreshold = float64(cf.CostThreshold)
 	}
+	basis := "from the costs, false alert / (false alert + miss - hit), so net benefit ranks the cuts as their cost does"
+	if !cal.ThresholdFromCosts {
+		basis = "the base rate, as no costs are given: net benefit is then the base rate times (recall - false positive rate)"
+	}
+	notes = append(notes, "net benefit (Vickers and Elkin 2006) at production's base rate "+format.Share(res.Assume.BaseRate)+
+		" and threshold probability "+format.Number(cal.Threshold, 4)+", "+basis)
 	for i, o := range res.Outcomes {
 		if !o.Met || i >= len(r.Cuts) {
 			continue
 		}
 		nb := number(cal.NetBenefit[i])
 		r.Cuts[i].NetBenefit = &nb
-		notes = append(notes, fmt.Sprintf("net benefit at %s (threshold probability %s): %s per case, against %s for flagging every case",
-			r.Cuts[i].Spec, format.Score(o.Point.Score), format.Number(float64(nb), 4), format.Number(cal.NetBenefitAll[i], 4)))
+		notes = append(notes, fmt.Sprintf("net benefit at %s: %s per case, against %s for flagging every case and 0 for none",
+			r.Cuts[i].Spec, format.Number(float64(nb), 4), format.Number(cal.NetBenefitAll[i], 4)))
 	}
 	r.Calibration = cf
 	binsOf := "of equal width"

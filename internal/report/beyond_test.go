@@ -141,10 +141,18 @@ func TestCalibrationInJSON(t *testing.T) {
 		t.Errorf("cost threshold %v, want 0.2", ct)
 	}
 	cuts := out["cuts"].([]any)
-	// Net benefit at cut 0.8: TP 2, FP 1 of 8 cases, pt 0.8 (odds 4):
-	// 2/8 - 1/8*4 = -0.25. Hand-worked.
-	if nb := cuts[0].(map[string]any)["net_benefit"].(float64); !floatcmp.Equal(nb, -0.25) {
-		t.Errorf("net benefit %v, want -0.25", nb)
+	// Net benefit at cut 0.8: TP 2 of 4 true (recall 0.5), FP 1 of 4
+	// false (FPR 0.25), threshold probability from the costs 0.2 (odds
+	// 0.25), production's base rate 0.5: 0.5*0.5 - 0.25*0.5*0.25 =
+	// 0.21875. Hand-worked.
+	if nb := cuts[0].(map[string]any)["net_benefit"].(float64); !floatcmp.Equal(nb, 0.21875) {
+		t.Errorf("net benefit %v, want 0.21875", nb)
+	}
+	if th, from := cal["net_benefit_threshold"].(float64), cal["net_benefit_threshold_from"]; !floatcmp.Equal(th, 0.2) || from != "costs" {
+		t.Errorf("net benefit threshold %v from %v, want 0.2 from costs", th, from)
+	}
+	if noise, ok := cal["ece_noise"].(float64); !ok || !(noise > 0) {
+		t.Errorf("ece_noise %v", cal["ece_noise"])
 	}
 	if nb, ok := cuts[1].(map[string]any)["net_benefit"]; !ok || nb != nil {
 		t.Errorf("unmet cut net benefit %v %v, want null", nb, ok)
