@@ -144,8 +144,11 @@ type Result struct {
 // Ranking is the uncertainty of the summary's ranking figures at a
 // confidence level: the ROC AUC with DeLong's variance and its normal
 // interval clipped to [0,1] (modelpair.Single), and the average precision's
-// logit interval over the true cases (interval.AveragePrecision). Both
-// take weights as frequency weights. Undefined ends are NaN.
+// logit interval over the true cases (interval.AveragePrecision). With
+// frequency weights both count the weighted cases; with sampling weights
+// DeLong's variance is that of the weighted placements by linearisation
+// (modelpair.SamplingPaired) and the average precision's interval counts
+// Kish's effective number of true cases. Undefined ends are NaN.
 type Ranking struct {
 	ROCAUC modelpair.AUCEstimate
 	// AveragePrecision is the interval of Summary.AveragePrecision.
@@ -167,7 +170,11 @@ func rankingOf(delong *modelpair.Single, sum curve.Summary, confidence float64) 
 		r.ROCAUC.AUC = sum.ROCAUC
 		r.ROCAUC.Interval = modelpair.NormalInterval(sum.ROCAUC, r.ROCAUC.StdError, confidence)
 	}
-	r.AveragePrecision[0], r.AveragePrecision[1] = interval.AveragePrecision(sum.AveragePrecision, sum.Positives, confidence)
+	positives := sum.Positives
+	if delong.Sampling && sum.PositiveSquares > 0 {
+		positives = sum.Positives * sum.Positives / sum.PositiveSquares
+	}
+	r.AveragePrecision[0], r.AveragePrecision[1] = interval.AveragePrecision(sum.AveragePrecision, positives, confidence)
 	return r
 }
 
@@ -266,7 +273,7 @@ func Run(ctx context.Context, set *scores.Set, a projection.Assumptions, opts Op
 		r.Calibration = &Calibration{Table: table, Bins: bins}
 	}
 	if set.CompareScores() != nil {
-		second, err := newSecond(set, opts)
+		second, err := newSecond(set, opts, a.Sample.Sampling())
 		if err != nil {
 			return nil, stepError(StepSecond, err)
 		}
@@ -289,9 +296,13 @@ func Run(ctx context.Context, set *scores.Set, a projection.Assumptions, opts Op
 }
 
 // newSecond ranks the second model's scores and places them in shifts.
-func newSecond(set *scores.Set, opts Options) (*Second, error) {
+func newSecond(set *scores.Set, opts Options, sampling bool) (*Second, error) {
 	s := &Second{}
-	s.Test, s.TestErr = modelpair.Compare(set)
+	if sampling {
+		s.Test, s.TestErr = modelpair.CompareSampling(set)
+	} else {
+		s.Test, s.TestErr = modelpair.Compare(set)
+	}
 	second, err := modelpair.Second(set)
 	if err != nil {
 		return nil, err
@@ -365,7 +376,7 @@ func (r *Result) assume(a projection.Assumptions, prev *Result) error {
 		return stepError(StepRules, err)
 	}
 	// DeLong's variance of the AUC, tallied on the same walk.
-	var delong modelpair.Single
+	delong := modelpair.Single{Sampling: a.Sample.Sampling()}
 	visit := func(p curve.Point) { finder.Visit(p); delong.Visit(p) }
 	// The least-cost cut beside the cost threshold, found on the same
 	// walk.

@@ -389,3 +389,26 @@ func (s *Sample) BaseRateTrials(p curve.Point) float64 {
 	sq := [4]float64{p.Squares[tp] + p.Squares[fn], p.Squares[fp] + p.Squares[tn], 0, 0}
 	return Trials(positives/total, taylor(all, sq, []int{0}, []int{0, 1}), kish(all, sq, []int{0, 1}))
 }
+
+// Effective returns the counts of p's cells as the within-class figures
+// count them: p's weighted counts for frequency weights; for sampling
+// weights the true cases at recall's effective trials and the false cases
+// at the false positive rate's (the unweighted rows when the weights are
+// constant within each class), split by the weighted shares. They stand
+// for recall and the false positive rate as two independent binomial
+// shares, as projected figures read them.
+func (s *Sample) Effective(p curve.Point) (tp, fp, fn, tn float64) {
+	if !s.Sampling() {
+		return p.TP, p.FP, p.FN, p.TN
+	}
+	split := func(f Figure, hits, total float64) (float64, float64) {
+		if !(total > 0) {
+			return 0, 0
+		}
+		_, n := s.Interval(f, p, 0.95) // the level does not change the trials
+		return hits / total * n, n - hits/total*n
+	}
+	tp, fn = split(Recall, p.TP, p.TP+p.FN)
+	fp, tn = split(FalsePositiveRate, p.FP, p.FP+p.TN)
+	return tp, fp, fn, tn
+}

@@ -72,9 +72,14 @@ func Of(p curve.Point, a projection.Assumptions) Cut {
 		FalseDiscoveryRate: p.FalseDiscoveryRate(),
 		FalsePositiveRate:  p.FalsePositiveRate(),
 		Projected:          projection.Project(p, a),
-		ProjectedCI:        projection.IntervalsOf(projection.Counts{TP: p.TP, FP: p.FP, FN: p.FN, TN: p.TN}, a),
 	}
 	s := a.Sample
+	// The projected intervals read recall and the false positive rate at
+	// the design's effective counts (the weighted counts for frequency
+	// weights).
+	var counts projection.Counts
+	counts.TP, counts.FP, counts.FN, counts.TN = s.Effective(p)
+	c.ProjectedCI = projection.IntervalsOf(counts, a)
 	c.RecallCI, c.Trials.Recall = s.Interval(design.Recall, p, a.Confidence)
 	c.PrecisionCI, c.Trials.Precision = s.Interval(design.Precision, p, a.Confidence)
 	c.FalseDiscoveryCI = [2]float64{1 - c.PrecisionCI[1], 1 - c.PrecisionCI[0]}

@@ -56,6 +56,36 @@ func Compare(set *scores.Set) (Test, error) {
 	return Paired(set.Scores(), set.CompareScores(), set.Labels(), set.Weights(), set.LowerIsRiskier())
 }
 
+// CompareSampling is Compare with the set's weights read as sampling
+// weights: the variances follow SamplingPaired.
+func CompareSampling(set *scores.Set) (Test, error) {
+	if set.CompareScores() == nil {
+		return Test{}, ErrNoSecondModel
+	}
+	return SamplingPaired(set.Scores(), set.CompareScores(), set.Labels(), set.Weights(), set.LowerIsRiskier())
+}
+
+// SamplingPaired is Paired with weights read as sampling weights
+// (inverse selection probabilities; package design): the rows are the
+// sampling units. The AUCs and placements are Paired's, weighted; the
+// covariance of the two AUCs is taken by linearisation of the weighted
+// Mann-Whitney statistic, whose influence of a true case i is its
+// placement's deviation V10_i - AUC and of a false case j V01_j - AUC
+// (the structural components of DeLong, DeLong and Clarke-Pearson 1988):
+//
+//	cov = sum over true cases of w^2 (V10 - AUC)(V10' - AUC') / m^2 * k1/(k1-1)
+//	    + sum over false cases of w^2 (V01 - AUC)(V01' - AUC') / n^2 * k0/(k0-1)
+//
+// with m and n the class weights and k Kish's effective size of each
+// class (the with-replacement variance of a weighted total, as for a
+// survey ratio; Woodruff 1971). With every weight 1 it is DeLong's
+// variance exactly; weighting every row 10 leaves it unchanged, where the
+// frequency reading would divide it by 10. Named here: DeLong's
+// placements with the linearised variance of sampling weights.
+func SamplingPaired(a, b []float64, labels []bool, weights []float64, lowerIsRiskier bool) (Test, error) {
+	return paired(a, b, labels, weights, lowerIsRiskier, true)
+}
+
 // Paired runs DeLong's paired test on two models' scores a and b of the
 // same cases, in any order. weights may be nil (every row weighs 1). It
 // panics when the slices differ in length and returns ErrNoClass when
@@ -69,6 +99,10 @@ func Compare(set *scores.Set) (Test, error) {
 // the class weight less 1), and the covariance of the two AUCs is S10/m +
 // S01/n with m and n the class weights.
 func Paired(a, b []float64, labels []bool, weights []float64, lowerIsRiskier bool) (Test, error) {
+	return paired(a, b, labels, weights, lowerIsRiskier, false)
+}
+
+func paired(a, b []float64, labels []bool, weights []float64, lowerIsRiskier, sampling bool) (Test, error) {
 	if len(a) != len(b) || len(a) != len(labels) || (weights != nil && len(weights) != len(a)) {
 		panic(fmt.Sprintf("modelpair: Paired got %d, %d scores, %d labels and %d weights", len(a), len(b), len(labels), len(weights)))
 	}
@@ -119,12 +153,12 @@ func Paired(a, b []float64, labels []bool, weights []float64, lowerIsRiskier boo
 		t.AUC[r] = auc / m
 	}
 	t.Difference = t.AUC[0] - t.AUC[1]
-	s10 := covariance(v10, positives, weight, m)
-	s01 := covariance(v01, negatives, weight, n)
+	s10 := covariance(v10, positives, weight, m, sampling)
+	s01 := covariance(v01, negatives, weight, n, sampling)
 	for r := range 2 {
-		t.Variance[r] = s10[r][r]/m + s01[r][r]/n
+		t.Variance[r] = s10[r][r] + s01[r][r]
 	}
-	t.Covariance = s10[0][1]/m + s01[0][1]/n
+	t.Covariance = s10[0][1] + s01[0][1]
 	variance := t.Variance[0] + t.Variance[1] - 2*t.Covariance
 	t.StdError = math.Sqrt(max(variance, 0))
 	t.Z, t.P = math.NaN(), math.NaN()
@@ -168,23 +202,29 @@ func placements(own, other []int, score []float64, sign float64, weight func(int
 	return out
 }
 
-// covariance returns the weighted 2x2 covariance matrix of the two models'
-// placements over rows, divided by the class weight less 1 (NaN when that
-// is not positive). The placements' weighted mean is the AUC.
-func covariance(v [2][]float64, rows []int, weight func(int) float64, classWeight float64) [2][2]float64 {
+// covariance returns one class's part of the 2x2 covariance matrix of the
+// two AUCs: the weighted covariance of the two models' placements over
+// rows, divided by the class weight less 1 (NaN when that is not
+// positive) and by the class weight, or with sampling weights
+// moments.samplingCovariance. The placements' weighted mean is the AUC.
+func covariance(v [2][]float64, rows []int, weight func(int) float64, classWeight float64, sampling bool) [2][2]float64 {
 	var m [2][2]moments
 	for k, i := range rows {
 		w := weight(i)
 		for x := range 2 {
 			for y := range 2 {
 				m[x][y].add(w, v[x][k], v[y][k])
+				m[x][y].addSquares(w*w, v[x][k], v[y][k])
 			}
 		}
 	}
 	var s [2][2]float64
 	for x := range 2 {
 		for y := range 2 {
-			s[x][y] = m[x][y].covariance(classWeight)
+			s[x][y] = m[x][y].covariance(classWeight) / classWeight
+			if sampling {
+				s[x][y] = m[x][y].samplingCovariance()
+			}
 		}
 	}
 	return s
@@ -197,6 +237,34 @@ func covariance(v [2][]float64, rows []int, weight func(int) float64, classWeigh
 // finds its AUC.
 type moments struct {
 	weight, meanX, meanY, comoment float64
+
+	// The sums of squared weights w^2, w^2 x, w^2 y and w^2 x y, for the
+	// variance under sampling weights (samplingCovariance).
+	squares, squaresX, squaresY, squaresXY float64
+}
+
+// addSquares adds placements (x, y) of rows whose squared weights sum to
+// sq.
+func (m *moments) addSquares(sq, x, y float64) {
+	m.squares += sq
+	m.squaresX += sq * x
+	m.squaresY += sq * y
+	m.squaresXY += sq * x * y
+}
+
+// samplingCovariance is the contribution of one class to the covariance
+// of two AUCs under sampling weights (see SamplingPaired): the sum of
+// w^2 (x - mean x)(y - mean y) over the class, over its squared weight,
+// times k/(k-1) with k Kish's effective size of the class, weight^2 /
+// squares (the number of rows when every row weighs the same). NaN when k
+// is 1 or less.
+func (m *moments) samplingCovariance() float64 {
+	k := m.weight * m.weight / m.squares
+	if !(k-1 > 0) {
+		return math.NaN()
+	}
+	sum := m.squaresXY - m.meanX*m.squaresY - m.meanY*m.squaresX + m.meanX*m.meanY*m.squares
+	return sum / (m.weight * m.weight) * k / (k - 1)
 }
 
 func (m *moments) add(w, x, y float64) {

@@ -22,24 +22,36 @@ import (
 // weight less 1. Weights are frequency weights: a weight of 2 gives the
 // variance of the row written twice.
 //
+// With Sampling set the weights are sampling weights (package design)
+// and the variance is that of the weighted placements by linearisation
+// (see SamplingPaired): a weight of 10 on every row leaves it as it is,
+// where frequency weights would divide it by 10.
+//
 // The zero Single is ready to use; it must not be reused for another walk.
 type Single struct {
+	Sampling bool
+
 	tp, fp                float64 // cumulative at the last cut visited
+	tpSquares, fpSquares  float64
 	trueCases, falseCases moments
 }
 
 // Visit takes the next cut, strictest first.
 func (s *Single) Visit(p curve.Point) {
 	groupTP, groupFP := p.TP-s.tp, p.FP-s.fp
+	groupTPSquares, groupFPSquares := p.Squares[0]-s.tpSquares, p.Squares[1]-s.fpSquares
 	if groupTP > 0 && p.Negatives() > 0 {
 		v := (p.TN + groupFP/2) / p.Negatives()
 		s.trueCases.add(groupTP, v, v)
+		s.trueCases.addSquares(groupTPSquares, v, v)
 	}
 	if groupFP > 0 && p.Positives() > 0 {
 		v := (s.tp + groupTP/2) / p.Positives()
 		s.falseCases.add(groupFP, v, v)
+		s.falseCases.addSquares(groupFPSquares, v, v)
 	}
 	s.tp, s.fp = p.TP, p.FP
+	s.tpSquares, s.fpSquares = p.Squares[0], p.Squares[1]
 }
 
 // AUCEstimate is one model's ROC AUC with DeLong's variance and the normal
@@ -70,6 +82,9 @@ func (s *Single) Estimate(confidence float64) AUCEstimate {
 	// The placements' weighted mean is the AUC.
 	e.AUC = s.trueCases.meanX
 	e.Variance = s.trueCases.covariance(positives)/positives + s.falseCases.covariance(negatives)/negatives
+	if s.Sampling {
+		e.Variance = s.trueCases.samplingCovariance() + s.falseCases.samplingCovariance()
+	}
 	if math.IsNaN(e.Variance) {
 		return e
 	}
