@@ -5,6 +5,8 @@ import (
 
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
+
+	"github.com/sill-tool/sill/internal/format"
 )
 
 // stripFocusedKey handles the keys of the comparison strip.
@@ -36,6 +38,13 @@ func (m Model) stripFocusedKey(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 	case key.Matches(msg, k.Choose):
 		s.reference = s.selected
 		m.status = fmt.Sprintf("%q is the chosen cut; the others are compared with it", s.pins[s.selected].name)
+	case key.Matches(msg, k.Repin):
+		name := s.pins[s.selected].name
+		if s.repinSelected() {
+			m.unwritten = true
+			m.list.follow()
+			m.status = fmt.Sprintf("re-pinned %q at %s, the cut its rule picks under these assumptions", name, format.Score(s.curve.At(s.cursor).Score))
+		}
 	case key.Matches(msg, k.Rename):
 		m.push(renameBox(m.ctx, s.pins[s.selected].name))
 	default:
@@ -55,4 +64,14 @@ func (m Model) stripFocusedKey(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 	}
 	m.refresh()
 	return m, nil
+}
+
+// movedStatus says that n pins no longer meet their rule, and how to
+// re-pin them.
+func movedStatus(n int) string {
+	what := fmt.Sprintf("%d pins were", n)
+	if n == 1 {
+		what = "1 pin was"
+	}
+	return "assumptions changed: " + what + " pinned under earlier assumptions, marked (earlier); in the strip R re-pins to what the rule picks now"
 }

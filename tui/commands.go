@@ -29,6 +29,9 @@ type (
 		assume projection.Assumptions
 		res    *analysis.Result
 		err    error
+		// checks say whether each pin's rule still picks its cut under
+		// assume, for the pins there were when the work started.
+		checks map[pinCheck]analysis.RuleCheck
 	}
 	// loadFailedMsg says the scores could not be loaded: the explorer shows
 	// nothing more and quits.
@@ -96,12 +99,19 @@ func analysisError(set *scores.Set, err error) error {
 // findStartsCmd computes the figures under new assumptions.
 func (m Model) findStartsCmd(a projection.Assumptions) tea.Cmd {
 	res, ctx := m.s.res, m.cfg.Context
+	keys, rules, scores := m.s.pinChecks()
 	return func() tea.Msg {
 		next, err := res.Reassume(ctx, a)
 		if err != nil {
 			return startsFoundMsg{assume: a, err: analysisError(res.Set, err)}
 		}
-		return startsFoundMsg{assume: a, res: next}
+		checks := map[pinCheck]analysis.RuleCheck{}
+		if found, err := next.CheckRules(ctx, rules, scores); err == nil {
+			for i, k := range keys {
+				checks[k] = found[i]
+			}
+		}
+		return startsFoundMsg{assume: a, res: next, checks: checks}
 	}
 }
 

@@ -44,6 +44,7 @@ type KeyMap struct {
 	MoveRight key.Binding // move the selected candidate one place right
 	Rename    key.Binding // rename the selected candidate
 	Choose    key.Binding // make the selected candidate the chosen one (the reference)
+	Repin     key.Binding // move the selected candidate to the cut its rule picks under the current assumptions
 
 	// Files, forms and help
 	Assumptions key.Binding // open the assumptions form
@@ -97,6 +98,7 @@ func DefaultKeyMap() KeyMap {
 		MoveRight: key.NewBinding(key.WithKeys(">", "."), key.WithHelp(">/.", "move candidate right")),
 		Rename:    key.NewBinding(key.WithKeys("r"), key.WithHelp("r", "rename candidate")),
 		Choose:    key.NewBinding(key.WithKeys("c"), key.WithHelp("c", "choose: the others vs it")),
+		Repin:     key.NewBinding(key.WithKeys("R"), key.WithHelp("R", "re-pin to its rule's cut")),
 
 		Assumptions: key.NewBinding(key.WithKeys("a"), key.WithHelp("a", "edit assumptions")),
 		Record:      key.NewBinding(key.WithKeys("i"), key.WithHelp("i", "model and who chose")),
@@ -188,6 +190,9 @@ func (k *KeyMap) enableExplorer(s *session, stripFocused bool) {
 	for _, b := range []*key.Binding{&k.Left, &k.Right, &k.Jump, &k.Remove, &k.MoveLeft, &k.MoveRight, &k.Rename, &k.Choose} {
 		b.SetEnabled(strip)
 	}
+	// Re-pinning applies to a candidate pinned under earlier assumptions
+	// whose rule picks a cut now.
+	k.Repin.SetEnabled(strip && s.selected < len(s.pins) && s.pins[s.selected].moved && s.pins[s.selected].now >= 0)
 }
 
 // enableReview turns on the keys the review screen takes, whatever the
@@ -197,7 +202,7 @@ func (k *KeyMap) enableReview() {
 	for _, b := range []*key.Binding{&k.Left, &k.Right, &k.Choose, &k.Write, &k.Help, &k.Quit} {
 		b.SetEnabled(true)
 	}
-	for _, b := range []*key.Binding{&k.Jump, &k.Remove, &k.MoveLeft, &k.MoveRight, &k.Rename} {
+	for _, b := range []*key.Binding{&k.Jump, &k.Remove, &k.MoveLeft, &k.MoveRight, &k.Rename, &k.Repin} {
 		b.SetEnabled(false)
 	}
 }

@@ -247,6 +247,9 @@ func (m Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 			return m, nil
 		}
 		m.s.use(msg.res)
+		if moved := m.s.checkPins(msg.checks); moved > 0 {
+			m.status = movedStatus(moved)
+		}
 		m.refresh()
 		if m.writeWaiting {
 			m.writeWaiting = false

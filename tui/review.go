@@ -14,6 +14,7 @@ import (
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/format"
+	"github.com/sill-tool/sill/internal/review"
 	"github.com/sill-tool/sill/internal/sharedfile"
 )
 
@@ -170,7 +171,7 @@ func (r Review) table() compare.Table {
 	f := r.file
 	columns := make([]compare.Column, len(f.Candidates))
 	for i, c := range f.Candidates {
-		columns[i] = compare.Column{Name: c.Name, Rule: c.Rule, Cut: c.Cut}
+		columns[i] = compare.Column{Name: c.Name, Rule: c.Rule, Cut: c.Cut, RuleNow: review.RuleNow(c)}
 	}
 	return compare.New(columns, r.chosen(), compare.Options{Assumptions: f.Assumptions, BaseRateChanged: f.BaseRateChanged(), LowerIsRiskier: f.Data.LowerIsRiskier})
 }

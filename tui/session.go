@@ -1,7 +1,9 @@
 package tui
 
 import (
+	"context"
 	"fmt"
+	"math"
 	"strconv"
 
 	"github.com/sill-tool/sill/internal/analysis"
@@ -47,6 +49,97 @@ type pin struct {
 	name string
 	rule string // "" for a cut picked by hand
 	cut  int    // index into the curve
+
+	// moved says the rule no longer picks cut under the current
+	// assumptions: the pin was made under earlier ones. now is the cut
+	// the rule picks instead, -1 when no cut meets it (checkPins).
+	moved bool
+	now   int
+	// checked says the rule was checked under assumptions other than the
+	// ones it was pinned under.
+	checked bool
+}
+
+// pinCheck is the key of a pin's rule check: its rule at its cut.
+type pinCheck struct {
+	rule string
+	cut  int
+}
+
+// pinChecks lists the rules of the pins made by a rule, with their cuts'
+// scores, for analysis.Result.CheckRules.
+func (s *session) pinChecks() (keys []pinCheck, rules []cutrule.Rule, scores []float64) {
+	for _, p := range s.pins {
+		r, err := cutrule.Parse(p.rule)
+		if err != nil {
+			continue
+		}
+		keys = append(keys, pinCheck{p.rule, p.cut})
+		rules = append(rules, r)
+		scores = append(scores, s.curve.At(p.cut).Score)
+	}
+	return keys, rules, scores
+}
+
+// checkPins marks each pin whose rule no longer picks its cut under the
+// assumptions of checks (found by CheckRules for the keys); a pin with no
+// check there (made since) is checked against s.res now. It returns how
+// many pins have moved.
+func (s *session) checkPins(checks map[pinCheck]analysis.RuleCheck) int {
+	keys, rules, scores := s.pinChecks()
+	var missing []int
+	for i, k := range keys {
+		if _, ok := checks[k]; !ok {
+			missing = append(missing, i)
+		}
+	}
+	if len(missing) > 0 {
+		var r []cutrule.Rule
+		var sc []float64
+		for _, i := range missing {
+			r, sc = append(r, rules[i]), append(sc, scores[i])
+		}
+		found, err := s.res.CheckRules(context.Background(), r, sc)
+		if err == nil {
+			if checks == nil {
+				checks = map[pinCheck]analysis.RuleCheck{}
+			}
+			for j, i := range missing {
+				checks[keys[i]] = found[j]
+			}
+		}
+	}
+	moved := 0
+	for i := range s.pins {
+		p := &s.pins[i]
+		p.moved, p.now = false, p.cut
+		c, ok := checks[pinCheck{p.rule, p.cut}]
+		p.checked = ok
+		if !ok || c.Holds {
+			continue
+		}
+		p.moved, p.now = true, -1
+		if c.Now.Met {
+			p.now = c.Now.Point.Index
+		}
+		moved++
+	}
+	return moved
+}
+
+// repinSelected moves the selected pin to the cut its rule picks now; it
+// reports false when the pin has not moved or its rule meets no cut.
+func (s *session) repinSelected() bool {
+	if s.selected >= len(s.pins) {
+		return false
+	}
+	p := &s.pins[s.selected]
+	if !p.moved || p.now < 0 {
+		return false
+	}
+	p.cut, p.moved = p.now, false
+	s.cursor = p.cut
+	return true
 }
 
 // point returns the cursor's point.
@@ -83,7 +176,7 @@ func (s *session) pinCursor() (string, bool) {
 		}
 	}
 	s.pinned++
-	p := pin{cut: s.cursor}
+	p := pin{cut: s.cursor, now: s.cursor}
 	if rules := s.rulesAt(s.cursor); len(rules) > 0 {
 		p.rule = rules[0]
 		p.name = rules[0]
@@ -175,6 +268,13 @@ func (s *session) table() compare.Table {
 	columns := make([]compare.Column, len(s.pins))
 	for i, p := range s.pins {
 		columns[i] = compare.Column{Name: p.name, Rule: p.rule, Cut: s.evidenceAt(p.cut)}
+		if p.checked {
+			now := compare.RuleNow{Holds: !p.moved, Picks: math.NaN()}
+			if p.now >= 0 {
+				now.Picks = s.curve.At(p.now).Score
+			}
+			columns[i].RuleNow = &now
+		}
 	}
 	return compare.New(columns, s.reference, compare.Options{
 		Assumptions:     s.assume,

@@ -92,7 +92,7 @@ func (s Strip) Update(msg tea.Msg) (Strip, tea.Cmd) {
 // ShortHelp lists the strip's most used keys, in a few words each.
 func (s Strip) ShortHelp() []key.Binding {
 	k := s.keys
-	return []key.Binding{hint(k.Left, "←→", "select"), hint(k.Jump, "", "go to"), hint(k.Choose, "", "choose"),
+	return []key.Binding{hint(k.Left, "←→", "select"), hint(k.Repin, "", "re-pin"), hint(k.Jump, "", "go to"), hint(k.Choose, "", "choose"),
 		hint(k.Rename, "", "rename"), hint(k.Remove, "", "unpin")}
 }
 
@@ -102,7 +102,7 @@ func (s Strip) ShortHelp() []key.Binding {
 func (s Strip) FullHelp() [][]key.Binding {
 	k := s.keys
 	return [][]key.Binding{{pairedHelp("←/h →/l", "previous/next candidate"), k.Jump, k.Choose, k.Rename, k.Remove,
-		pairedHelp("< >", "move candidate left/right")}}
+		pairedHelp("< >", "move candidate left/right"), k.Repin}}
 }
 
 // View draws the strip at its size; focused draws the frame that shows it
