@@ -19,22 +19,27 @@ import (
 )
 
 // figureLines is how many content lines the figures pane draws before
-// the figures beyond the averages (see lines).
-const figureLines = 10
+// the figures beyond the averages (see lines): the two headings, measured
+// and projected, among them.
+const figureLines = 13
 
 // stabilityLines is how many lines the bootstrap's figures take beyond
 // the ranges it adds to the hit-share and wrong-alert lines.
 const stabilityLines = 2
 
 // lines is how many content lines the figures pane draws for the loaded
-// data: figureLines, one for the real shifts' queues, one for the net
-// benefit of probabilities, one for a second model and stabilityLines
-// while resampling or after.
+// data: figureLines, one for the projected wrong-alert share when the
+// production base rate differs from the validation one, one for the real
+// shifts' queues, one for the net benefit of probabilities, one for a
+// second model and stabilityLines while resampling or after.
 func (p figuresPane) lines() int {
 	s := p.s
 	n := figureLines
 	if s.curve == nil {
 		return n
+	}
+	if s.baseRateChanged() {
+		n++
 	}
 	if s.shifts() != nil && s.assume.Volume > 0 {
 		n++
@@ -148,6 +153,9 @@ func (p figuresPane) body() string {
 
 	add("%s %s %s", st.Label.Render("flag score "+sign), st.Figure.Render(format.Score(e.Score)),
 		st.Muted.Render(fmt.Sprintf("· %s flagged (%s)", format.Count(e.Flagged), format.Share(e.FlaggedShare))))
+	// Measured on the validation set: each share with its interval and,
+	// after b, the range of the resampled sets, which belongs here.
+	lines = append(lines, st.Label.Render(format.MeasuredHeading))
 	add("%s %s  %s", st.Label.Render("hit share"), st.Figure.Render(format.Share(e.Recall)),
 		st.Muted.Render(conf+" "+format.Interval(e.RecallCI)))
 	band, banded := p.band()
@@ -159,47 +167,49 @@ func (p figuresPane) body() string {
 	add("%s %s  %s", st.Label.Render("wrong-alert share"), st.Figure.Render(format.Share(e.FalseDiscoveryRate)),
 		st.Muted.Render(conf+" "+format.Interval(e.FalseDiscoveryCI)))
 	reading := Reading(e.FalseDiscoveryRate)
+	if banded {
+		reading = shortReading(reading) + " · redraws " + format.Interval(band.FalseDiscoveryRate)
+	}
+	add("  %s", st.Muted.Render(reading))
+	add("%s %s", st.Label.Render("false positive rate"), format.Share(e.FalsePositiveRate))
+
+	// Projected to production, each figure with its interval (production's
+	// base rate, volume and costs taken as given).
+	lines = append(lines, st.Label.Render(format.ProjectedHeading))
+	interval := func(head, ci, tail string) string {
+		w := width - ansi.StringWidth(head)
+		// The interval before the words when both do not fit.
+		return head + st.Muted.Render(longestFit(w, "  "+conf+" "+ci+tail, "  "+ci+tail, " "+ci+tail, " "+ci, tail))
+	}
+	lines = append(lines, interval(st.Label.Render("alert rate")+" "+format.Share(e.Projected.AlertRate), format.Interval(e.ProjectedCI.AlertRate), ""))
 	if s.baseRateChanged() {
 		// What the desk will see is the share at production's base rate.
 		production := e.Projected.FalseDiscoveryRate()
-		short := strings.NewReplacer(" alerts are wrong", " wrong", " alerts is wrong", " wrong", " alerts is right", " right").Replace(Reading(production))
-		reading = "in production " + format.Share(production) + " (" + short + ")"
-	}
-	switch {
-	case banded && s.baseRateChanged():
-		// The band is of this set's share, the figure above: it comes
-		// first, before the production figure it does not belong to.
-		reading = "redraws " + format.Interval(band.FalseDiscoveryRate) + " · " + reading
-	case banded:
-		reading = strings.Replace(reading, " alerts are wrong", " wrong", 1)
-		reading = strings.Replace(reading, " alerts is wrong", " wrong", 1)
-		reading += " · redraws " + format.Interval(band.FalseDiscoveryRate)
-	}
-	add("  %s", st.Muted.Render(reading))
-	// The alert rate is projected to production's base rate; say so where
-	// the line has room, as the strip does.
-	rates := func(fpr, alert string) string {
-		return fmt.Sprintf("%s %s %s", st.Label.Render(fpr), format.Share(e.FalsePositiveRate),
-			st.Muted.Render("· "+alert+" "+format.Share(e.Projected.AlertRate)))
-	}
-	for _, words := range [][2]string{{"false positive rate", "projected alert rate"}, {"false positive rate", "alert rate"}, {"false pos. rate", "alert rate"}} {
-		line := rates(words[0], words[1])
-		if ansi.StringWidth(line) <= width || words[0] != "false positive rate" {
-			lines = append(lines, line)
-			break
-		}
+		head := st.Label.Render("wrong-alert share") + " " + st.Figure.Render(format.Share(production))
+		lines = append(lines, interval(head, format.Interval(e.ProjectedCI.FalseDiscovery()), " ("+shortReading(Reading(production))+")"))
 	}
 	if a.Volume > 0 {
 		queue := st.Label.Render("queue per shift") + " " + st.Figure.Render(format.Queue(e.Projected.QueuePerShift))
+		against, short := "", ""
+		style := st.Muted
 		if a.Capacity > 0 {
-			against := format.Against(e.Projected.QueuePerShift, a.Capacity)
-			style := st.Muted
+			short = " (" + format.Against(e.Projected.QueuePerShift, a.Capacity) + ")"
+			against = " (" + format.Against(e.Projected.QueuePerShift, a.Capacity) + " cap " + format.Count(a.Capacity) + ")"
 			if e.Projected.QueuePerShift > a.Capacity {
 				style = st.Warning
 			}
-			queue += " " + style.Render("("+against+" cap "+format.Count(a.Capacity)+")")
 		}
-		lines = append(lines, queue)
+		ci := format.QueueInterval(e.ProjectedCI.QueuePerShift)
+		w := width - ansi.StringWidth(queue)
+		type form struct{ interval, standing string }
+		chosen := form{"", against}
+		for _, f := range []form{{"  " + conf + " " + ci, against}, {"  " + ci, against}, {" " + ci, against}, {" " + ci, short}, {"", against}} {
+			if ansi.StringWidth(f.interval+f.standing) <= w {
+				chosen = f
+				break
+			}
+		}
+		lines = append(lines, queue+st.Muted.Render(chosen.interval)+style.Render(chosen.standing))
 		if peaks, ok := s.peaksAtCut(s.cursor); ok {
 			lines = append(lines, p.peaksLine(peaks))
 		}
@@ -208,10 +218,12 @@ func (p figuresPane) body() string {
 	}
 	switch {
 	case a.Costs != nil && a.Volume > 0:
-		add("%s %s %s", st.Label.Render("cost per shift"), st.Figure.Render(format.Money(e.Projected.CostPerShift)), st.Muted.Render(costsText(a.Costs)))
+		head := st.Label.Render("cost per shift") + " " + st.Figure.Render(format.Money(e.Projected.CostPerShift))
+		lines = append(lines, interval(head, format.MoneyInterval(e.ProjectedCI.CostPerShift), " "+costsText(a.Costs)))
 	case a.Costs != nil:
-		head := st.Label.Render("cost per case") + " " + st.Figure.Render(format.Money(e.Projected.CostPerCase)) + " "
-		lines = append(lines, head+st.Muted.Render(longestFit(width-ansi.StringWidth(head), "(a volume gives it per shift)", "(per shift: a volume)")))
+		head := st.Label.Render("cost per case") + " " + st.Figure.Render(format.Money(e.Projected.CostPerCase))
+		ci := format.MoneyInterval(e.ProjectedCI.CostPerCase)
+		lines = append(lines, head+st.Muted.Render(longestFit(width-ansi.StringWidth(head), "  "+conf+" "+ci+" (a volume gives it per shift)", "  "+ci+" (per shift: a volume)", " (per shift: a volume)")))
 	default:
 		lines = append(lines, st.Muted.Render(longestFit(width, "cost per shift: needs costs (a to set them)", "cost per shift: needs costs (a)")))
 	}
@@ -413,6 +425,12 @@ func costsText(c *projection.Costs) string {
 		text += ", hit " + format.Money(c.Hit)
 	}
 	return text + ")"
+}
+
+// shortReading is Reading without "alerts" ("about 1 in 3 wrong"), for a
+// line that says more after it.
+func shortReading(reading string) string {
+	return strings.NewReplacer(" alerts are wrong", " wrong", " alerts is wrong", " wrong", " alerts is right", " right").Replace(reading)
 }
 
 // Reading puts a wrong-alert share in words, as "about 1 in 3 alerts is

@@ -424,9 +424,18 @@ type reviewLayout struct {
 	footer   rect
 }
 
-// notesLines is the content of the notes pane: the selected candidate's
-// note, the file's note and the chosen cut's rule.
+// notesLines is the content of the notes pane at the least: the selected
+// candidate's note, the file's note and the chosen cut's rule.
 const notesLines = 3
+
+// notesRecordLines is the content of the notes pane when the strip can
+// spare it: the record too (model and who chose, the ranking, the
+// sign-offs), so that the sign-off hint shows. The strip keeps at least
+// stripKeeps lines, borders included, before the notes grow.
+const (
+	notesRecordLines = 6
+	stripKeeps       = 14
+)
 
 // layoutReview places the parts in a width×height terminal: the header on
 // top, the strip with every figure it has room for (stripLines of content
@@ -438,7 +447,11 @@ func layoutReview(width, height, stripLines int, frame frameSize) reviewLayout {
 		return reviewLayout{tooSmall: true}
 	}
 	body := height - 2 - 1
-	stripH := min(body-(notesLines+frame.H), stripLines+frame.H)
+	notes := notesLines
+	if body-(notesRecordLines+frame.H) >= stripKeeps {
+		notes = notesRecordLines
+	}
+	stripH := min(body-(notes+frame.H), stripLines+frame.H)
 	return reviewLayout{
 		header: rect{0, 0, width, 2},
 		strip:  rect{0, 2, width, stripH},

@@ -152,7 +152,7 @@ func TestReviewAgainstPane(t *testing.T) {
 	r, _ = sendReview(t, r, keyPress("d"))
 	v := r.View()
 	checkSize(t, v, 100, 30)
-	for _, want := range []string{"against the cut in production", "alerts: about 108 a shift now, about 90 with the proposed cut (18 fewer)", "figure                   in production    proposed   change"} {
+	for _, want := range []string{"against the cut in production", "alerts: about 108 a shift now, about 90 with the proposed cut (18 fewer)", "figure                          in production     proposed   change", "measured on the validation set", "projected to production"} {
 		if !strings.Contains(v, want) {
 			t.Errorf("%q missing:\n%s", want, v)
 		}

@@ -172,8 +172,12 @@ func (s Strip) heading(i int, name string) string {
 }
 
 // detailOrder is the order in which detail rows give way when the strip is
-// short of lines: the share of all cases first, the capacity reading last.
-var detailOrder = []string{"share of all cases", "interval", "true cases found", "against capacity"}
+// short of lines: the share of all cases first, the capacity reading last
+// of the figures.
+// The headings that name the measured and the projected figures go last:
+// the labels below them still differ ("wrong-alert share (FDR)", measured;
+// "wrong-alert share", projected).
+var detailOrder = []string{"share of all cases", "interval", "true cases found", "against capacity", format.MeasuredHeading, format.ProjectedHeading}
 
 // rowsThatFit returns the rows of t to draw in lines lines: every figure,
 // dropping detail rows in detailOrder until they fit.
@@ -210,7 +214,9 @@ func (s Strip) grid(innerW, innerH int) (string, int) {
 	st, t := s.styles, s.table
 	labelW := 0
 	for _, r := range t.Rows {
-		labelW = max(labelW, ansi.StringWidth(r.Figure))
+		if !r.Heading { // a heading runs on over the empty cells
+			labelW = max(labelW, ansi.StringWidth(r.Figure))
+		}
 	}
 	labelW = min(labelW, 27)
 	// A figure's value is right-aligned with its difference after it; a
@@ -292,6 +298,10 @@ func (s Strip) grid(innerW, innerH int) (string, int) {
 	}
 	lines = append(lines, names, st.Muted.Render(rules))
 	for _, r := range rowsThatFit(t.Rows, innerH-2) {
+		if r.Heading {
+			lines = append(lines, st.Label.Render(fitLine(r.Figure, innerW)))
+			continue
+		}
 		label := pad(r.Figure, labelW, false)
 		if r.Detail {
 			label = st.Muted.Render(label)

@@ -3,14 +3,15 @@
 // reference candidate. It builds the cells of the explorer's comparison
 // strip and of the review screen; it does no rendering of its own.
 //
-// The figures are those of package evidence, in this order: the cut score,
-// cases flagged, hit share (recall) with its interval and "x of y" true
-// cases found, wrong-alert share (false discovery rate) with its interval,
-// false positive rate, projected alert rate, projected wrong-alert share
-// (only when the production base rate differs from the validation one),
-// queue per shift and its standing against capacity (when a volume, and a
-// capacity, are given) and cost per shift (when a volume and costs are
-// given). Which cases a cut flags follows the cut rule in the doc of
+// The figures are those of package evidence, in this order: the cut score;
+// under a heading row naming them measured on the validation set, cases
+// flagged, hit share (recall) with its interval and "x of y" true cases
+// found, wrong-alert share (false discovery rate) with its interval, false
+// positive rate; under a heading row naming them projected to production,
+// the alert rate, the wrong-alert share (only when the production base
+// rate differs from the validation one), queue per shift and its standing
+// against capacity (when a volume, and a capacity, are given) and cost per
+// shift (when a volume and costs are given), each with its interval. Which cases a cut flags follows the cut rule in the doc of
 // package scores.
 package compare
 
@@ -77,7 +78,12 @@ const (
 type Row struct {
 	Figure string // the label, e.g. "hit share (recall)"
 	Detail bool   // a sub-row of the figure above it
-	Better Better
+	// Heading marks a row that names the kind of the figures below it
+	// (format.MeasuredHeading, format.ProjectedHeading) and holds no
+	// figure: its cells are "", and it counts as a Detail, so that a
+	// renderer that draws it as a detail row draws no difference.
+	Heading bool
+	Better  Better
 
 	Cells  []string
 	Values []float64 // NaN where the figure is undefined or not a number
@@ -171,10 +177,23 @@ func New(columns []Column, reference int, opt Options) Table {
 		t.Rows = append(t.Rows, row)
 	}
 
+	// heading adds the row that names the kind of the figures below it.
+	heading := func(name string) {
+		row := Row{Figure: name, Detail: true, Heading: true}
+		for range columns {
+			row.Cells = append(row.Cells, "")
+			row.Values = append(row.Values, math.NaN())
+			row.Diffs = append(row.Diffs, "")
+			row.Deltas = append(row.Deltas, math.NaN())
+		}
+		t.Rows = append(t.Rows, row)
+	}
+
 	main("cut (flag score "+comparison+")", Neither, func(c evidence.Cut) float64 { return c.Score }, format.Score, format.ScoreDiff)
 	if moved {
 		ruleNow(&t, columns)
 	}
+	heading(format.MeasuredHeading)
 	main("cases flagged", Neither, func(c evidence.Cut) float64 { return c.Flagged }, format.Count, format.CountDiff)
 	detail("  share of all cases", func(c evidence.Cut) string { return format.Share(c.FlaggedShare) })
 	main("hit share (recall)", Higher, func(c evidence.Cut) float64 { return c.Recall }, format.Share, format.ShareDiff)
@@ -183,12 +202,16 @@ func New(columns []Column, reference int, opt Options) Table {
 	main("wrong-alert share (FDR)", Lower, func(c evidence.Cut) float64 { return c.FalseDiscoveryRate }, format.Share, format.ShareDiff)
 	detail("  "+conf, func(c evidence.Cut) string { return format.Interval(c.FalseDiscoveryCI) })
 	main("false positive rate", Lower, func(c evidence.Cut) float64 { return c.FalsePositiveRate }, format.Share, format.ShareDiff)
-	main("projected alert rate", Neither, func(c evidence.Cut) float64 { return c.Projected.AlertRate }, format.Share, format.ShareDiff)
+	heading(format.ProjectedHeading)
+	main("alert rate", Neither, func(c evidence.Cut) float64 { return c.Projected.AlertRate }, format.Share, format.ShareDiff)
+	detail("  "+conf, func(c evidence.Cut) string { return format.Interval(c.ProjectedCI.AlertRate) })
 	if opt.BaseRateChanged {
-		main("projected wrong-alert share", Lower, func(c evidence.Cut) float64 { return c.Projected.FalseDiscoveryRate() }, format.Share, format.ShareDiff)
+		main("wrong-alert share", Lower, func(c evidence.Cut) float64 { return c.Projected.FalseDiscoveryRate() }, format.Share, format.ShareDiff)
+		detail("  "+conf, func(c evidence.Cut) string { return format.Interval(c.ProjectedCI.FalseDiscovery()) })
 	}
 	if a.Volume > 0 {
 		main("queue per shift", Neither, func(c evidence.Cut) float64 { return c.Projected.QueuePerShift }, format.Queue, format.QueueDiff)
+		detail("  "+conf, func(c evidence.Cut) string { return format.QueueInterval(c.ProjectedCI.QueuePerShift) })
 		switch {
 		case opt.OwnCapacity:
 			ownCapacity(&t, columns)
@@ -199,6 +222,7 @@ func New(columns []Column, reference int, opt Options) Table {
 		}
 		if a.Costs != nil {
 			main("cost per shift", Lower, func(c evidence.Cut) float64 { return c.Projected.CostPerShift }, format.Money, format.MoneyDiff)
+			detail("  "+conf, func(c evidence.Cut) string { return format.MoneyInterval(c.ProjectedCI.CostPerShift) })
 		}
 	}
 	return t

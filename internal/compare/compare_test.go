@@ -9,6 +9,7 @@ import (
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/floatcmp"
+	"github.com/sill-tool/sill/internal/format"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
 )
@@ -90,7 +91,7 @@ func TestNewHandWorked(t *testing.T) {
 		{"true cases found", [2]string{"1 of 3", "2 of 3"}, [2]string{"", ""}, [2]float64{math.NaN(), math.NaN()}, math.NaN()},
 		{"wrong-alert share (FDR)", [2]string{"0.0%", "33.3%"}, [2]string{"", "+33.3 pt"}, [2]float64{0, 1.0 / 3}, 0.333},
 		{"false positive rate", [2]string{"0.0%", "33.3%"}, [2]string{"", "+33.3 pt"}, [2]float64{0, 1.0 / 3}, 0.333},
-		{"projected alert rate", [2]string{"16.7%", "50.0%"}, [2]string{"", "+33.3 pt"}, [2]float64{1.0 / 6, 0.5}, 0.333},
+		{"alert rate", [2]string{"16.7%", "50.0%"}, [2]string{"", "+33.3 pt"}, [2]float64{1.0 / 6, 0.5}, 0.333},
 		{"queue per shift", [2]string{"16.7", "50.0"}, [2]string{"", "+33.3"}, [2]float64{100.0 / 6, 50}, 33.3},
 		{"against capacity 40", [2]string{"23.3 under", "10.0 over"}, [2]string{"", ""}, [2]float64{math.NaN(), math.NaN()}, math.NaN()},
 		{"cost per shift", [2]string{"3333", "1833"}, [2]string{"", "-1500"}, [2]float64{10000.0 / 3, 5500.0 / 3}, -1500},
@@ -122,8 +123,35 @@ func TestNewHandWorked(t *testing.T) {
 		t.Errorf("cost better %v, want Lower", r.Better)
 	}
 	for _, r := range table.Rows {
-		if strings.Contains(r.Figure, "projected wrong-alert") {
+		if r.Figure == "wrong-alert share" {
 			t.Errorf("projected wrong-alert share shown although the base rate is the validation one")
+		}
+	}
+	// The heading rows name the kinds, and each projected figure is
+	// followed by its interval, from evidence.Cut.ProjectedCI (package
+	// projection tests the values).
+	var figures []string
+	for _, r := range table.Rows {
+		figures = append(figures, strings.TrimSpace(r.Figure))
+		if r.Heading && (!r.Detail || r.Cells[0] != "" || r.Diffs[1] != "") {
+			t.Errorf("heading %q has cells %q or differences %q", r.Figure, r.Cells, r.Diffs)
+		}
+	}
+	got := strings.Join(figures, "|")
+	want := "cut (flag score >=)|" + format.MeasuredHeading + "|cases flagged|share of all cases|hit share (recall)|95% interval|true cases found|" +
+		"wrong-alert share (FDR)|95% interval|false positive rate|" + format.ProjectedHeading + "|alert rate|95% interval|" +
+		"queue per shift|95% interval|against capacity 40|cost per shift|95% interval"
+	if got != want {
+		t.Errorf("rows\n%s\nwant\n%s", got, want)
+	}
+	for i, r := range table.Rows {
+		if r.Figure != "queue per shift" {
+			continue
+		}
+		for c := range 2 {
+			if cell, want := table.Rows[i+1].Cells[c], format.QueueInterval(columns[c].Cut.ProjectedCI.QueuePerShift); cell != want || cell == format.NA {
+				t.Errorf("queue interval column %d %q, want %q", c, cell, want)
+			}
 		}
 	}
 }
@@ -188,7 +216,7 @@ func TestNewEmptyAndBaseRate(t *testing.T) {
 	table := New([]Column{{Name: "a", Cut: evidence.Of(c.At(1), a)}}, 0, Options{Assumptions: a, BaseRateChanged: true, LowerIsRiskier: true})
 	// At p = 0.1: alert rate 2/3*0.1 + 1/3*0.9 = 0.3667, precision
 	// 0.0667/0.3667 = 0.1818, wrong-alert share 81.8% (by hand).
-	if got := row(t, table, "projected wrong-alert share").Cells[0]; got != "81.8%" {
+	if got := row(t, table, "wrong-alert share").Cells[0]; got != "81.8%" {
 		t.Errorf("projected wrong-alert share %q, want 81.8%%", got)
 	}
 	row(t, table, "cut (flag score <=)")
@@ -212,7 +240,7 @@ func ExampleNew() {
 		{Name: "strict", Cut: evidence.Of(c.At(0), a)},
 		{Name: "loose", Cut: evidence.Of(c.At(1), a)},
 	}, 0, Options{Assumptions: a})
-	r := table.Rows[3] // hit share
+	r := table.Rows[4] // hit share, after the cut, the heading and cases flagged with its share
 	fmt.Println(r.Figure, r.Cells, r.Diffs[1])
 	// Output: hit share (recall) [50.0% 100.0%] +50.0 pt
 }

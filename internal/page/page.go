@@ -65,6 +65,7 @@ type view struct {
 	Charts     []figure
 	NoCurve    string
 	Table      tableView
+	Given      string // what the projected intervals take as given (format.ProjectedGiven)
 	Words      []words
 	Workload   workloadView
 	Sections   []section
@@ -91,8 +92,9 @@ type tableView struct {
 }
 
 type rowView struct {
-	Detail bool
-	Cells  []cell
+	Detail  bool
+	Heading bool // names the kind of the rows below it, measured or projected
+	Cells   []cell
 }
 
 // cell is one table cell and its class: "chosen" for the chosen
@@ -144,6 +146,7 @@ func newView(f *decision.File, opt Options) (*view, error) {
 		Job:     job(f, chosen),
 		Facts:   append([]fact{{"model", model(f)}}, dataFacts(f)...),
 		Table:   tableOf(f),
+		Given:   format.ProjectedGiven,
 		Assume:  assumptions(f),
 		Notes:   notes(f),
 		Caution: evidence.Caution,
@@ -320,7 +323,7 @@ func render(t compare.Table, referenceWord string) tableView {
 			}
 			cells = append(cells, cell{Text: r.Cells[c]}, cell{r.Diffs[c], "diff"})
 		}
-		tv.Rows = append(tv.Rows, rowView{Detail: r.Detail, Cells: cells})
+		tv.Rows = append(tv.Rows, rowView{Detail: r.Detail, Heading: r.Heading, Cells: cells})
 	}
 	return tv
 }

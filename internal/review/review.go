@@ -8,6 +8,7 @@ import (
 	"strings"
 
 	"github.com/sill-tool/sill/internal/compare"
+	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/format"
@@ -164,6 +165,27 @@ func SignOffLines(f *decision.File) []string {
 	return out
 }
 
+// belowTable are the lines under the comparison: what the projected
+// intervals take as given, and which figure each candidate's rule picks
+// its cut on (cutrule.Rule.Basis), measured or projected.
+func belowTable(f *decision.File) []string {
+	lines := []string{format.ProjectedGiven}
+	for _, c := range f.Candidates {
+		rule, err := cutrule.Parse(c.Rule)
+		if c.Rule == "" || err != nil || rule.Kind == cutrule.Score {
+			continue
+		}
+		if basis := rule.Basis(f.BaseRateChanged()); basis != "" {
+			name := format.Printable(c.Name)
+			if c.Name != rule.String() {
+				name += " (" + rule.String() + ")"
+			}
+			lines = append(lines, name+" picks on "+basis)
+		}
+	}
+	return lines
+}
+
 // SignHint says how to sign a file that has no sign-off yet.
 const SignHint = "none yet (sill review FILE --sign NAME --role ROLE --verdict approve|revise|reject)"
 
@@ -247,6 +269,9 @@ func WriteText(w io.Writer, f *decision.File, path string) error {
 	b.WriteString("\n")
 	header, rows := grid(table(f))
 	b.WriteString(format.Grid(header, rows, false))
+	for _, line := range belowTable(f) {
+		b.WriteString(line + "\n")
+	}
 	if lines := SegmentLines(f); len(lines) > 0 {
 		b.WriteString("\ngroups\n")
 		for _, line := range lines {
@@ -296,10 +321,20 @@ func WriteMarkdown(w io.Writer, f *decision.File, path string) error {
 	}
 	b.WriteString("| " + strings.Join(align, " | ") + " |\n")
 	for _, r := range rows {
+		if r[0] == format.MeasuredHeading || r[0] == format.ProjectedHeading { // a heading row, as report's Markdown marks one
+			b.WriteString("| **" + format.Markdown(r[0]) + "** |" + strings.Repeat(" |", len(r)-1) + "\n")
+			continue
+		}
 		if strings.HasPrefix(r[0], "  ") { // a detail row, whose indent Markdown drops
 			r = append([]string{"↳ " + strings.TrimSpace(r[0])}, r[1:]...) // as report's Markdown marks a detail row
 		}
 		row(r)
+	}
+	if lines := belowTable(f); len(lines) > 0 {
+		b.WriteString("\n")
+		for _, line := range lines {
+			b.WriteString("- " + format.Markdown(line) + "\n")
+		}
 	}
 	if lines := SegmentLines(f); len(lines) > 0 {
 		b.WriteString("\n## Groups\n\n")
