@@ -25,7 +25,6 @@ import (
 	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/projection"
-	"github.com/sill-tool/sill/internal/report"
 	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/segment"
 	"github.com/sill-tool/sill/internal/sharedfile"
@@ -229,7 +228,7 @@ func (m Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 				break
 			}
 		}
-		if warnings := report.Warnings(m.s.set, m.s.curve.Summary, report.Hints{LowerIsRiskier: "--lower-is-riskier"}); len(warnings) > 0 {
+		if warnings := analysis.WarningWords(msg.res.Warnings, "--lower-is-riskier"); len(warnings) > 0 {
 			m.status = "warning: " + strings.Join(warnings, "; ")
 		}
 		m.refresh()

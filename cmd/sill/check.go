@@ -10,11 +10,11 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/design"
 	"github.com/sill-tool/sill/internal/drift"
 	"github.com/sill-tool/sill/internal/format"
-	"github.com/sill-tool/sill/internal/report"
 	"github.com/sill-tool/sill/internal/scores"
 )
 
@@ -132,7 +132,7 @@ func newCheckCmd() *cobra.Command {
 				return err
 			}
 			input.warnWeights(cmd.ErrOrStderr())
-			for _, w := range report.DroppedWarnings(set) {
+			for _, w := range analysis.DroppedWarnings(set) {
 				fmt.Fprintf(cmd.ErrOrStderr(), "sill: warning: %s: %s\n", format.Printable(args[1]), format.Printable(w))
 			}
 			res, err := drift.Check(file, set, drift.Options{Tolerance: tolerance, Labelled: set.LabelColumn() != "" && !ignoreLabels, IgnoreLabels: "--ignore-labels",

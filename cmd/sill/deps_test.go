@@ -61,18 +61,67 @@ func TestImportDirection(t *testing.T) {
 	}
 }
 
+// TestFloatcmpOnlyInTests checks that the float-comparison helper of the
+// tests stays out of the program: no package's non-test files import
+// internal/floatcmp, save internal/golden, which is test-only itself (no
+// non-test file imports it either). It asks `go list` for the imports of
+// the non-test files of every package.
+func TestFloatcmpOnlyInTests(t *testing.T) {
+	goTool, err := exec.LookPath("go")
+	if err != nil {
+		t.Skip("the go tool is not on PATH")
+	}
+	const sill = "github.com/sill-tool/sill/"
+	out, err := exec.Command(goTool, "list", "-f", "{{.ImportPath}} {{join .Imports \" \"}}", sill+"...").CombinedOutput()
+	if err != nil {
+		t.Fatalf("go list: %v\n%s", err, out)
+	}
+	packages := 0
+	for _, line := range strings.Split(strings.TrimSpace(string(out)), "\n") {
+		fields := strings.Fields(line)
+		if len(fields) == 0 {
+			continue
+		}
+		packages++
+		if fields[0] == sill+"internal/golden" {
+			continue
+		}
+		for _, imp := range fields[1:] {
+			if imp == sill+"internal/floatcmp" || imp == sill+"internal/golden" {
+				t.Errorf("%s imports %s outside its tests", fields[0], imp)
+			}
+		}
+	}
+	if packages < 10 {
+		t.Errorf("go list found %d packages; the pattern is probably wrong", packages)
+	}
+}
+
 // TestEngineNamesNoFlags checks the house rule that the engine speaks no
-// flags: no string in the engine packages below names a command-line flag
-// ("--volume"), since the explorer sets the same values with a form; cmd
-// adds the flag when it wraps their errors. (scores and warehouse are
-// being reworded by their own changes and are not listed yet.)
+// flags: no string in the non-test files of any package under internal/
+// names a command-line flag ("--volume"), since the explorer sets the same
+// values with a form; cmd adds the flag when it wraps their errors (see
+// readFlagHint). Two packages still print a command line as part of
+// their output and are left out until it comes from the caller: warehouse
+// (the query's first comment says how to read the table) and review (how
+// to sign a file with no sign-off yet).
 func TestEngineNamesNoFlags(t *testing.T) {
 	flag := regexp.MustCompile(`"[^"\n]*--[a-z][^"\n]*"`)
-	for _, dir := range []string{"analysis", "cutrule", "demo", "drift", "modelpair", "report"} {
-		files, err := filepath.Glob(filepath.Join("..", "..", "internal", dir, "*.go"))
-		if err != nil || len(files) == 0 {
-			t.Fatalf("internal/%s: %v files, %v", dir, len(files), err)
+	notYet := map[string]bool{"warehouse": true, "review": true}
+	dirs, err := os.ReadDir(filepath.Join("..", "..", "internal"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	checked := 0
+	for _, d := range dirs {
+		if !d.IsDir() || notYet[d.Name()] {
+			continue
 		}
+		files, err := filepath.Glob(filepath.Join("..", "..", "internal", d.Name(), "*.go"))
+		if err != nil {
+			t.Fatalf("internal/%s: %v", d.Name(), err)
+		}
+		checked++
 		for _, name := range files {
 			if strings.HasSuffix(name, "_test.go") {
 				continue
@@ -88,5 +137,8 @@ func TestEngineNamesNoFlags(t *testing.T) {
 				}
 			}
 		}
+	}
+	if checked < 20 {
+		t.Errorf("checked %d packages under internal/; the walk is probably wrong", checked)
 	}
 }

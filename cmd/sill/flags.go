@@ -151,6 +151,12 @@ func readFlagHint(err error) error {
 		return err // decimal commas asked for where commas part the cells
 	case errors.Is(err, scores.ErrDecimalComma):
 		return fmt.Errorf("%w; read decimal commas with --decimal-comma", err)
+	case errors.Is(err, scores.ErrBadLabel):
+		return fmt.Errorf("%w (or set --positive)", err)
+	case errors.Is(err, scores.ErrNeitherLabel):
+		return fmt.Errorf("%w (set --positive in the query)", err)
+	case errors.Is(err, scores.ErrPositiveInCounts):
+		return fmt.Errorf("%w; drop --positive", err)
 	}
 	return err
 }

@@ -95,6 +95,11 @@ func TestRunBadInput(t *testing.T) {
 			"sill: " + filepath.Join(dir, "ragged.csv") + ":3: wrong number of fields: row has 3, header has 2"},
 		{"bad label", []string{"report", path("label.csv", "score,label\n0.5,1\n0.4,maybe\n")},
 			"sill: " + filepath.Join(dir, "label.csv") + `:3: column "label": unrecognised label "maybe", expected 1/true/yes/positive or 0/false/no/negative (or set --positive)`},
+		// The engine names no flags: these hints are cmd's (readFlagHint).
+		{"counts with a label neither", []string{"report", "--counts", path("neither.csv", "score,positives,negatives,unrecognised\n0.5,1,2,3\n")},
+			"sill: " + filepath.Join(dir, "neither.csv") + `:2: column "unrecognised": invalid count: 3 case(s) with a label that is neither a true nor a false case, expected none (set --positive in the query)`},
+		{"counts with a positive label", []string{"report", "--counts", "--positive", "yes", path("counted.csv", "score,positives,negatives\n0.5,1,2\n")},
+			"sill: " + filepath.Join(dir, "counted.csv") + ": a counts table counts the labels already: a positive label does not apply; drop --positive"},
 		{"NaN score", []string{"report", path("nan.csv", "score,label\nNaN,1\n0.4,0\n")},
 			"sill: " + filepath.Join(dir, "nan.csv") + `:2: column "score": invalid score "NaN", expected a finite number`},
 		{"negative weight", []string{"report", path("weight.csv", "score,label,w\n0.5,1,1\n0.4,0,-2\n"), "--weight", "w"},

@@ -12,7 +12,6 @@ import (
 	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/page"
-	"github.com/sill-tool/sill/internal/report"
 	"github.com/sill-tool/sill/internal/review"
 	"github.com/sill-tool/sill/internal/sharedfile"
 )
@@ -69,7 +68,7 @@ func (o *reportOptions) page(ctx context.Context, res *analysis.Result, stdout, 
 	if err != nil {
 		return err
 	}
-	for _, w := range report.Warnings(res.Set, res.Summary, reportHints) {
+	for _, w := range analysis.WarningWords(res.Warnings, reportHints.LowerIsRiskier) {
 		fmt.Fprintln(stderr, "sill: warning: "+w)
 	}
 	return pageOut(ctx, o.out, stdout, stderr, func(w io.Writer) error {

@@ -110,6 +110,9 @@ type Result struct {
 	// Ranking is the uncertainty of the summary's ROC AUC and average
 	// precision at the assumptions' confidence.
 	Ranking Ranking
+	// Warnings are what a reader of any output should know about the
+	// data (warningsOf).
+	Warnings []Warning
 	// Curve is every cut, kept for random access; nil unless
 	// Options.Cursor.
 	Curve *curve.Curve
@@ -395,6 +398,7 @@ func (r *Result) assume(a projection.Assumptions, prev *Result) error {
 		r.Summary = curve.Walk(r.Set, visit)
 	}
 	r.Outcomes = finder.Outcomes()
+	r.Warnings = warningsOf(r.Set, r.Summary)
 	r.Ranking = rankingOf(&delong, r.Summary, a.Confidence)
 
 	if r.Set.SegmentOf() != nil {

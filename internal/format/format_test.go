@@ -266,3 +266,15 @@ func TestLevel(t *testing.T) {
 		}
 	}
 }
+
+// TestPlural: the noun agrees with the number (by hand).
+func TestPlural(t *testing.T) {
+	for _, c := range []struct {
+		n    int
+		want string
+	}{{0, "0 rows"}, {1, "1 row"}, {2, "2 rows"}, {6000, "6000 rows"}} {
+		if got := Plural(c.n, "row", "rows"); got != c.want {
+			t.Errorf("Plural(%d) = %q, want %q", c.n, got, c.want)
+		}
+	}
+}

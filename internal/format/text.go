@@ -1,6 +1,18 @@
 package format
 
-import "strings"
+import (
+	"strconv"
+	"strings"
+)
+
+// Plural is a whole number n, written plainly, with the noun that agrees
+// with it: "1 row", "0 rows", "6000 rows".
+func Plural(n int, one, many string) string {
+	if n == 1 {
+		return "1 " + one
+	}
+	return strconv.Itoa(n) + " " + many
+}
 
 // Grid lays out a heading and rows as text columns padded to their widest
 // cell: the first column left-aligned, the others right-aligned (they hold

@@ -74,7 +74,7 @@ type segmentTests struct {
 // segmentTestWords say how groups are tested, in the notes of every form.
 func segmentTestWords(b segment.Breakdown) string {
 	return fmt.Sprintf("gap: the group's figure less the rest of the set's, with its %s interval (Newcombe's hybrid score); adj. p: adjusted by Holm over the %s, so that with no real difference any flag at all comes in at most %s of runs",
-		format.Level(b.Confidence), plural(b.Tests, "test", "tests"), format.Level(1-b.Confidence))
+		format.Level(b.Confidence), format.Plural(b.Tests, "test", "tests"), format.Level(1-b.Confidence))
 }
 
 // baseRateNote is the note beside a wrong-alert gap: shares of wrong
@@ -140,7 +140,7 @@ func (r *Report) addSegments(res *analysis.Result, order segment.Order, shown in
 			format.Share(b.Overall.Recall), format.Interval(b.Overall.RecallCI), format.Share(b.Overall.FalseDiscoveryRate()), format.Interval(b.Overall.FalseDiscoveryCI()))}
 		notes = append(notes, segmentTestWords(b))
 		if n := b.Outliers(); n > 0 {
-			notes = append(notes, fmt.Sprintf("%s marked \"differs\": hit share or wrong-alert share differs from the rest of the set (adj. p below %s)", plural(n, "segment", "segments"), format.PValue(1-b.Confidence)))
+			notes = append(notes, fmt.Sprintf("%s marked \"differs\": hit share or wrong-alert share differs from the rest of the set (adj. p below %s)", format.Plural(n, "segment", "segments"), format.PValue(1-b.Confidence)))
 		}
 		notes = append(notes, "a wrong-alert share follows its group's base rate: groups with fewer true cases have more wrong alerts at the same cut even where the model ranks as well, so a wrong gap may come from the mix of cases")
 		if hidden > 0 {

@@ -4,14 +4,11 @@ package report
 
 import (
 	"math"
-	"strconv"
-	"strings"
 
 	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/evidence"
-	"github.com/sill-tool/sill/internal/format"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/segment"
@@ -171,7 +168,7 @@ type Hints struct {
 // figures of each cut and what res holds beyond them. It computes
 // nothing of its own.
 func New(res *analysis.Result, opt Options) *Report {
-	r := newReport(res.Set, res.Summary, res.Assume, res.Outcomes, opt.Hints)
+	r := newReport(res.Set, res.Summary, res.Warnings, res.Assume, res.Outcomes, opt.Hints)
 	r.ROCAUCCI = newInterval(res.Ranking.ROCAUC.Interval)
 	r.ROCAUCStdError = number(res.Ranking.ROCAUC.StdError)
 	r.AveragePrecisionCI = newInterval(res.Ranking.AveragePrecision)
@@ -185,9 +182,9 @@ func New(res *analysis.Result, opt Options) *Report {
 	return r
 }
 
-// newReport gathers a report of set, whose summary is sum, under a, with
-// one outcome per requested cut.
-func newReport(set *scores.Set, sum curve.Summary, a projection.Assumptions, outcomes []cutrule.Outcome, hints Hints) *Report {
+// newReport gathers a report of set, whose summary is sum and warnings
+// warnings, under a, with one outcome per requested cut.
+func newReport(set *scores.Set, sum curve.Summary, warnings []analysis.Warning, a projection.Assumptions, outcomes []cutrule.Outcome, hints Hints) *Report {
 	r := &Report{
 		Source:           set.Source(),
 		Rows:             sum.Rows,
@@ -210,7 +207,7 @@ func newReport(set *scores.Set, sum curve.Summary, a projection.Assumptions, out
 			CostHit:        null,
 			Confidence:     number(a.Confidence),
 		},
-		Warnings:      Warnings(set, sum, hints),
+		Warnings:      analysis.WarningWords(warnings, hints.LowerIsRiskier),
 		hints:         hints,
 		Caution:       evidence.Caution,
 		baseRateGiven: a.BaseRate != sum.BaseRate,
@@ -234,94 +231,6 @@ func newReport(set *scores.Set, sum curve.Summary, a projection.Assumptions, out
 		r.DroppedNoScore = &droppedNoScore{Rows: c.Total(), Positives: c.Positives, Negatives: c.Negatives, Neither: c.Neither}
 	}
 	return r
-}
-
-// outsideShare is the largest share of rows whose score lies outside
-// [0, 1] in a set that otherwise reads as probabilities: past it the
-// scores are taken to be on another scale (logits, percentages), which is
-// no surprise worth a warning.
-const outsideShare = 0.05
-
-// OutsideWarning says, for a set whose scores would read as probabilities
-// but for a few rows outside [0, 1] (at most outsideShare of the rows,
-// higher scores riskier), how many there are and on which lines, and
-// which sections are therefore left out. It returns "" for any other set.
-func OutsideWarning(set *scores.Set) string {
-	o := set.Outside()
-	if o.Rows == 0 || set.LowerIsRiskier() || float64(o.Rows) > outsideShare*float64(set.Len()) {
-		return ""
-	}
-	text := plural(o.Rows, "score lies", "scores lie") + " outside [0, 1]"
-	if len(o.Lines) > 0 {
-		lines := make([]string, len(o.Lines))
-		for i, line := range o.Lines {
-			lines[i] = strconv.Itoa(line)
-		}
-		where := "line " + lines[0]
-		if len(lines) > 1 {
-			where = "lines " + strings.Join(lines, ", ")
-		}
-		if more := o.Rows - len(o.Lines); more > 0 {
-			where += " and " + strconv.Itoa(more) + " more"
-		}
-		text += " (" + where + ")"
-	}
-	return text + ", so the scores are not read as probabilities: the Brier score, log loss, calibration and net benefit are left out"
-}
-
-// DroppedWarnings says how many rows of set were dropped and why: those
-// with no score by label (a counts table's rows with no score), the rest
-// for an invalid score. It returns nothing when none were dropped.
-func DroppedWarnings(set *scores.Set) []string {
-	var w []string
-	invalid := set.Dropped()
-	if c := set.NoScore(); c != nil {
-		text := plural(c.Total(), "row was", "rows were") + " dropped for a score that was missing or not a number (" +
-			plural(c.Positives, "true case", "true cases") + ", " + strconv.Itoa(c.Negatives) + " false"
-		if c.Neither > 0 {
-			text += ", " + strconv.Itoa(c.Neither) + " with neither label"
-		}
-		w = append(w, text+")")
-		invalid -= c.Total()
-	}
-	if invalid > 0 {
-		w = append(w, plural(invalid, "row was", "rows were")+" dropped for an invalid score")
-	}
-	return w
-}
-
-// Warnings lists what a reader of any output should know about the data:
-// dropped rows, scores that stop a set of probabilities from reading as
-// one (OutsideWarning), a class missing, and a ROC AUC that shows below 0.500 (the direction
-// probably the wrong way round, with hints.LowerIsRiskier as the way to
-// turn it).
-func Warnings(set *scores.Set, sum curve.Summary, hints Hints) []string {
-	w := DroppedWarnings(set)
-	if text := OutsideWarning(set); text != "" {
-		w = append(w, text)
-	}
-	switch {
-	case sum.Rows == 0:
-	case !(sum.Positives+sum.Negatives > 0):
-		w = append(w, "every row weighs 0: no rate or summary figure is defined")
-	case !(sum.Positives > 0):
-		w = append(w, "the validation set has no true cases: hit share, AUC and average precision are undefined")
-	case !(sum.Negatives > 0):
-		w = append(w, "the validation set has no false cases: false positive rate and AUC are undefined")
-	case format.Rounded(sum.ROCAUC, 3) < 0.5:
-		// More often than not a false case outranks a true one: most
-		// likely the direction is the wrong way round. The AUC is judged
-		// as shown, so that "0.500" is never called below 0.5.
-		flip := "; if lower scores mean likely true cases, add " + hints.LowerIsRiskier
-		if set.LowerIsRiskier() {
-			flip = "; if higher scores mean likely true cases, drop " + hints.LowerIsRiskier
-		}
-		if hints.LowerIsRiskier == "" {
-			flip = ""
-		}
-		w = append(w, "ROC AUC "+format.Number(sum.ROCAUC, 3)+" is below 0.5: the scores rank false cases above true ones more often than not"+flip)
-	}
-	return w
 }
 
 func newCut(o cutrule.Outcome, a projection.Assumptions) cut {

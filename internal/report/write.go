@@ -299,7 +299,7 @@ func (r *Report) withInterval(v number, ci *interval) string {
 func WriteText(w io.Writer, r *Report) error {
 	var b strings.Builder
 	fmt.Fprintf(&b, "sill report: %s\n\n", r.Source)
-	fmt.Fprintf(&b, "%s · %s (base rate %s)", plural(r.Rows, "row", "rows"), amount(r.Positives, "true case", "true cases"), format.Share(float64(r.BaseRate)))
+	fmt.Fprintf(&b, "%s · %s (base rate %s)", format.Plural(r.Rows, "row", "rows"), amount(r.Positives, "true case", "true cases"), format.Share(float64(r.BaseRate)))
 	if r.Weighted {
 		fmt.Fprintf(&b, " · weighted")
 	}
@@ -339,7 +339,7 @@ func WriteText(w io.Writer, r *Report) error {
 func WriteMarkdown(w io.Writer, r *Report, points Points) error {
 	var b strings.Builder
 	fmt.Fprintf(&b, "## Operating cuts: %s\n\n", format.Markdown(r.Source))
-	fmt.Fprintf(&b, "- %s, %s (base rate %s)%s\n", plural(r.Rows, "row", "rows"), amount(r.Positives, "true case", "true cases"), format.Share(float64(r.BaseRate)), map[bool]string{true: ", weighted", false: ""}[r.Weighted])
+	fmt.Fprintf(&b, "- %s, %s (base rate %s)%s\n", format.Plural(r.Rows, "row", "rows"), amount(r.Positives, "true case", "true cases"), format.Share(float64(r.BaseRate)), map[bool]string{true: ", weighted", false: ""}[r.Weighted])
 	fmt.Fprintf(&b, "- ROC AUC %s, average precision %s", r.withInterval(r.ROCAUC, r.ROCAUCCI), r.withInterval(r.AveragePrecision, r.AveragePrecisionCI))
 	if evidence.Defined(float64(r.Brier)) {
 		fmt.Fprintf(&b, ", Brier score %s, log loss %s", format.Number(float64(r.Brier), 4), format.Number(float64(r.LogLoss), 4))
@@ -427,13 +427,6 @@ func (r *Report) assumptionLine() string {
 // writeGrid writes t with columns padded to their widest cell.
 func writeGrid(b *strings.Builder, t table) {
 	b.WriteString(format.Grid(t.header, t.rows, t.wordsLast))
-}
-
-func plural(n int, one, many string) string {
-	if n == 1 {
-		return "1 " + one
-	}
-	return strconv.Itoa(n) + " " + many
 }
 
 // amount writes a (possibly weighted) count with its noun: "1 true

@@ -124,8 +124,10 @@ func checkCountsOptions(opt Options, source string) error {
 	switch {
 	case opt.LabelColumn != "" || opt.WeightColumn != "" || opt.IDColumn != "" || opt.TimeColumn != "" || opt.CompareColumn != "":
 		return &ParseError{File: source, Err: errors.New("a counts table has score, positives and negatives columns (and a segment column): label, weight, id, time and compare columns do not apply")}
-	case opt.Positive != "" || opt.NoLabels:
-		return &ParseError{File: source, Err: errors.New("a counts table counts the labels already: --positive does not apply")}
+	case opt.Positive != "":
+		return &ParseError{File: source, Err: ErrPositiveInCounts}
+	case opt.NoLabels:
+		return &ParseError{File: source, Err: errors.New("a counts table counts the labels already: it is not read without labels")}
 	case opt.Input == InputJSONL:
 		return &ParseError{File: source, Err: errors.New("a counts table is read as delimited text, not JSON Lines")}
 	}
@@ -214,7 +216,7 @@ func (t *countsTable) add(record []string, line int) error {
 		return nil
 	}
 	if other > 0 {
-		return &ParseError{File: source, Line: line, Column: header[t.unrecognisedCol], Err: fmt.Errorf("%w: %v case(s) with a label that is neither a true nor a false case, expected none (set --positive in the query)", ErrBadCount, other)}
+		return &ParseError{File: source, Line: line, Column: header[t.unrecognisedCol], Err: fmt.Errorf("%w: %v case(s) with %w, expected none", ErrBadCount, other, ErrNeitherLabel)}
 	}
 	score, err := parseScore(record[b.scoreCol], b.comma)
 	if err != nil {

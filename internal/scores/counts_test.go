@@ -207,15 +207,15 @@ func TestReadCountsErrors(t *testing.T) {
 		{"negative count", "score,positives,negatives\n0.5,1,2\n0.4,1,-1\n", scores.Options{}, scores.ErrBadCount,
 			`c.csv:3: column "negatives": invalid count "-1", expected a whole number of cases >= 0`},
 		{"unrecognised labels", "score,positives,negatives,unrecognised\n0.5,1,2,0\n0.4,1,1,3\n", scores.Options{}, scores.ErrBadCount,
-			`c.csv:3: column "unrecognised": invalid count: 3 case(s) with a label that is neither a true nor a false case, expected none (set --positive in the query)`},
+			`c.csv:3: column "unrecognised": invalid count: 3 case(s) with a label that is neither a true nor a false case, expected none`},
 		{"text score", "score,positives,negatives\nn/a,1,2\n", scores.Options{}, scores.ErrBadScore,
 			`c.csv:2: column "score": invalid score "n/a", expected a finite number`},
 		{"ragged", "score,positives,negatives\n0.5,1\n", scores.Options{}, scores.ErrRagged,
 			`c.csv:2: wrong number of fields: row has 2, header has 3`},
 		{"only header", "score,positives,negatives\n", scores.Options{}, scores.ErrNoRows,
 			`c.csv: no data rows after the header`},
-		{"label flag", "score,positives,negatives\n0.5,1,2\n", scores.Options{Positive: "yes"}, nil,
-			`c.csv: a counts table counts the labels already: --positive does not apply`},
+		{"label flag", "score,positives,negatives\n0.5,1,2\n", scores.Options{Positive: "yes"}, scores.ErrPositiveInCounts,
+			`c.csv: a counts table counts the labels already: a positive label does not apply`},
 	}
 	for _, c := range cases {
 		_, err := scores.ReadCounts(strings.NewReader(c.input), "c.csv", c.opt)

@@ -20,6 +20,13 @@ var (
 	ErrBadTime       = errors.New("invalid time")
 	ErrBlankLine     = errors.New("a line of only spaces or tabs")
 
+	// ErrNeitherLabel marks the cases of a counts table counted with a
+	// label that was neither true nor false (its unrecognised column).
+	ErrNeitherLabel = errors.New("a label that is neither a true nor a false case")
+	// ErrPositiveInCounts: a positive label was given for a counts table,
+	// whose counts are by label already.
+	ErrPositiveInCounts = errors.New("a counts table counts the labels already: a positive label does not apply")
+
 	// ErrDuplicateColumn: two columns of a header, or two keys of a JSON
 	// object, have one name, and which one to read would be a guess.
 	ErrDuplicateColumn = errors.New("duplicate column name")

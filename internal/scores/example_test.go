@@ -26,5 +26,5 @@ func ExampleRead() {
 	// AX-2 0.7 true
 	// AX-4 0.7 false
 	// AX-1 0.2 false
-	// bearings.csv:2: column "label": unrecognised label "maybe", expected 1/true/yes/positive or 0/false/no/negative (or set --positive)
+	// bearings.csv:2: column "label": unrecognised label "maybe", expected 1/true/yes/positive or 0/false/no/negative
 }

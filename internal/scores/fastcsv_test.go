@@ -303,7 +303,7 @@ func TestLoadCases(t *testing.T) {
 		{"plain", "score,label\n0.5,1\n0.2,0\n", Options{}, ""},
 		{"no newline at the end, CR", "score,label\r\n0.5,1\r\n0.2,0\r", Options{}, ""},
 		{"bad score line 3", "score,label\n0.5,1\nx,0\n", Options{}, `t.csv:3: column "score": invalid score "x", expected a finite number`},
-		{"bad label after blank lines", "score,label\n\n0.5,1\n\n0.2,maybe\n", Options{}, `t.csv:5: column "label": unrecognised label "maybe", expected 1/true/yes/positive or 0/false/no/negative (or set --positive)`},
+		{"bad label after blank lines", "score,label\n\n0.5,1\n\n0.2,maybe\n", Options{}, `t.csv:5: column "label": unrecognised label "maybe", expected 1/true/yes/positive or 0/false/no/negative`},
 		{"ragged", "score,label\n0.5,1\n0.2\n", Options{}, `t.csv:3: wrong number of fields: row has 1, header has 2`},
 		{"only header", "score,label\n", Options{}, `t.csv: no data rows after the header`},
 		{"empty", "", Options{}, `t.csv: empty input, expected a header line`},

@@ -50,7 +50,7 @@ func TestDecimalNotationOnly(t *testing.T) {
 		{"score,label\n0x1p-2,1\n", `t:2: column "score": invalid score "0x1p-2", ` + goHint},
 		{"score,label\n1_000,1\n", `t:2: column "score": invalid score "1_000", ` + goHint},
 		{"score,label\n0X1P2,1\n", `t:2: column "score": invalid score "0X1P2", ` + goHint},
-		{"score,label\n0.5,0x1p0\n", `t:2: column "label": unrecognised label "0x1p0", expected 1/true/yes/positive or 0/false/no/negative (or set --positive)`},
+		{"score,label\n0.5,0x1p0\n", `t:2: column "label": unrecognised label "0x1p0", expected 1/true/yes/positive or 0/false/no/negative`},
 		{"score,label,w\n0.5,1,1_0\n", `t:2: column "w": invalid weight "1_0", ` + goHint},
 		{"score,label\ninf,1\n", `t:2: column "score": invalid score "inf", expected a finite number`},
 		{"score,label\n-Infinity,1\n", `t:2: column "score": invalid score "-Infinity", expected a finite number`},

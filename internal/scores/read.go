@@ -614,7 +614,7 @@ func (b *builder) parseLabel(text string) (bool, error) {
 	if v, err := parseDecimal(word); err == nil && (v == 0 || v == 1) {
 		return v == 1, nil
 	}
-	return false, &valueError{sentinel: ErrBadLabel, value: text, hint: "expected 1/true/yes/positive or 0/false/no/negative (or set --positive)"}
+	return false, &valueError{sentinel: ErrBadLabel, value: text, hint: "expected 1/true/yes/positive or 0/false/no/negative"}
 }
 
 // readHeader opens a CSV reader on in, with the delimiter detected from

@@ -119,13 +119,13 @@ func TestReadErrors(t *testing.T) {
 			name:     "unknown label",
 			input:    "score,label\n0.1,maybe\n",
 			sentinel: scores.ErrBadLabel,
-			message:  `f.csv:2: column "label": unrecognised label "maybe", expected 1/true/yes/positive or 0/false/no/negative (or set --positive)`,
+			message:  `f.csv:2: column "label": unrecognised label "maybe", expected 1/true/yes/positive or 0/false/no/negative`,
 		},
 		{
 			name:     "label 2 is not a class",
 			input:    "score,label\n0.1,2\n",
 			sentinel: scores.ErrBadLabel,
-			message:  `f.csv:2: column "label": unrecognised label "2", expected 1/true/yes/positive or 0/false/no/negative (or set --positive)`,
+			message:  `f.csv:2: column "label": unrecognised label "2", expected 1/true/yes/positive or 0/false/no/negative`,
 		},
 		{
 			name:     "negative weight",
@@ -181,13 +181,13 @@ func TestReadErrors(t *testing.T) {
 			name:     "bad row after CRLF lines",
 			input:    "score,label\r\n0.1,1\r\n0.2,x\r\n",
 			sentinel: scores.ErrBadLabel,
-			message:  `f.csv:3: column "label": unrecognised label "x", expected 1/true/yes/positive or 0/false/no/negative (or set --positive)`,
+			message:  `f.csv:3: column "label": unrecognised label "x", expected 1/true/yes/positive or 0/false/no/negative`,
 		},
 		{
 			name:     "bad row after blank lines counts them",
 			input:    "score,label\n\n0.1,1\n\n0.2,x\n",
 			sentinel: scores.ErrBadLabel,
-			message:  `f.csv:5: column "label": unrecognised label "x", expected 1/true/yes/positive or 0/false/no/negative (or set --positive)`,
+			message:  `f.csv:5: column "label": unrecognised label "x", expected 1/true/yes/positive or 0/false/no/negative`,
 		},
 		{
 			name:    "unclosed quote",
@@ -216,7 +216,7 @@ func TestReadErrors(t *testing.T) {
 			name:     "jsonl unknown label",
 			input:    "{\"score\": 0.1, \"label\": \"maybe\"}\n",
 			sentinel: scores.ErrBadLabel,
-			message:  `f.csv:1: column "label": unrecognised label "maybe", expected 1/true/yes/positive or 0/false/no/negative (or set --positive)`,
+			message:  `f.csv:1: column "label": unrecognised label "maybe", expected 1/true/yes/positive or 0/false/no/negative`,
 		},
 		{
 			name:     "jsonl array value",

@@ -1,10 +1,10 @@
-package report_test
+package analysis_test
 
 import (
 	"strings"
 	"testing"
 
-	"github.com/sill-tool/sill/internal/report"
+	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/scores"
 )
 
@@ -51,7 +51,7 @@ func TestOutsideWarning(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			if got := report.OutsideWarning(set); got != c.want {
+			if got := analysis.OutsideWarning(set); got != c.want {
 				t.Errorf("%s, %s: %q\nwant %q", c.name, name, got, c.want)
 			}
 		}

@@ -1,0 +1,56 @@
+package analysis_test
+
+import (
+	"context"
+	"slices"
+	"strings"
+	"testing"
+
+	"github.com/sill-tool/sill/internal/analysis"
+	"github.com/sill-tool/sill/internal/projection"
+	"github.com/sill-tool/sill/internal/scores"
+)
+
+// TestWarnings checks the warning of each degenerate set, in the words
+// of a caller whose way to turn the direction round is a flag.
+func TestWarnings(t *testing.T) {
+	cases := []struct {
+		name    string
+		values  []float64
+		labels  []bool
+		weights []float64
+		want    []string
+	}{
+		{"both classes", []float64{0.9, 0.1}, []bool{true, false}, nil, nil},
+		{"empty", nil, nil, nil, nil},
+		{"no true case", []float64{0.9}, []bool{false}, nil, []string{"the validation set has no true cases: hit share, AUC and average precision are undefined"}},
+		{"no false case", []float64{0.9}, []bool{true}, nil, []string{"the validation set has no false cases: false positive rate and AUC are undefined"}},
+		{"no weight", []float64{0.9, 0.1}, []bool{true, false}, []float64{0, 0}, []string{"every row weighs 0: no rate or summary figure is defined"}},
+		// The true case scores below both false ones: of its 2 pairs it
+		// wins none, ROC AUC 0/2 = 0 (by hand).
+		{"upside down", []float64{0.1, 0.5, 0.9}, []bool{true, false, false}, nil, []string{"ROC AUC 0.000 is below 0.5: the scores rank false cases above true ones more often than not; if lower scores mean likely true cases, add --lower-is-riskier"}},
+		{"upside down, lower is riskier", []float64{0.9, 0.5, 0.1}, []bool{true, false, false}, nil, []string{"ROC AUC 0.000 is below 0.5: the scores rank false cases above true ones more often than not; if higher scores mean likely true cases, drop --lower-is-riskier"}},
+		// The warning agrees with the AUC as shown. One true case between
+		// two false ones, the higher weighing 0.5004 and the lower 0.4996:
+		// the true case wins 0.4996 of the weight of its pairs, AUC 0.4996,
+		// shown "0.500", so no warning; with 0.5006 and 0.4994 it shows
+		// "0.499" and is warned about (by hand).
+		{"AUC 0.4996 shows 0.500", []float64{0.9, 0.5, 0.1}, []bool{false, true, false}, []float64{0.5004, 1, 0.4996}, nil},
+		{"AUC 0.4994 shows 0.499", []float64{0.9, 0.5, 0.1}, []bool{false, true, false}, []float64{0.5006, 1, 0.4994}, []string{"ROC AUC 0.499 is below 0.5: the scores rank false cases above true ones more often than not; if lower scores mean likely true cases, add --lower-is-riskier"}},
+		// A tie between the two classes counts half: AUC 0.5, no warning.
+		{"a tie, AUC 0.5", []float64{0.5, 0.5}, []bool{true, false}, nil, nil},
+	}
+	for _, tc := range cases {
+		set, err := scores.New(tc.values, tc.labels, tc.weights, strings.Contains(tc.name, "lower is riskier"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		res, err := analysis.Run(context.Background(), set, projection.Assumptions{BaseRate: 0.1, Confidence: 0.95}, analysis.Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got := analysis.WarningWords(res.Warnings, "--lower-is-riskier"); !slices.Equal(got, tc.want) {
+			t.Errorf("%s: %q, want %q", tc.name, got, tc.want)
+		}
+	}
+}
