@@ -111,3 +111,41 @@ func TestPoissonMoments(t *testing.T) {
 		t.Error("m = 0 must give 0")
 	}
 }
+
+// TestPoissonTableIsInversion: for a whole mean below 30 the draws from
+// the table of chances are the draws of the inversion that computes each
+// chance in turn (e^-m, then each times m/x), one for one on the same
+// stream, including uniforms close enough to 1 to run past the table
+// (which keeps 24 chances).
+func TestPoissonTableIsInversion(t *testing.T) {
+	inversion := func(u, m float64) int {
+		f, x := math.Exp(-m), 0
+		for u > f && f > 0 {
+			u -= f
+			x++
+			f *= m / float64(x)
+		}
+		return x
+	}
+	rng := rand.New(rand.NewPCG(24, 30))
+	check := rand.New(rand.NewPCG(24, 30))
+	for draw := range 200000 {
+		m := float64(1 + draw%29)
+		if draw%2 == 0 {
+			m = 1 // the usual cell
+		}
+		got := poisson(rng, m)
+		if want := inversion(check.Float64(), m); got != want {
+			t.Fatalf("draw %d, mean %v: %d from the table, %d by inversion", draw, m, got, want)
+		}
+	}
+	for _, u := range []float64{1 - 1e-16, 1 - 1e-12, 0.999999999} {
+		for _, m := range []float64{1, 2, 29} {
+			// A generator whose next uniform is u is not at hand; compare
+			// the table's walk through poissonFromUniform instead.
+			if got, want := poissonFromUniform(u, m), inversion(u, m); got != want {
+				t.Errorf("u %v mean %v: %d from the table, %d by inversion", u, m, got, want)
+			}
+		}
+	}
+}

@@ -215,6 +215,7 @@ func Run(ctx context.Context, set *scores.Set, rules []cutrule.Rule, a projectio
 		go func() {
 			defer wg.Done()
 			r := newReplicator(base, opt.Design)
+			var cuts curve.Curve // refilled for each replicate
 			for {
 				b := int(next.Add(1) - 1)
 				if b >= opt.Replicates || ctx.Err() != nil {
@@ -226,7 +227,11 @@ func Run(ctx context.Context, set *scores.Set, rules []cutrule.Rule, a projectio
 					failOnce.Do(func() { failure = err })
 					return
 				}
-				curve.Walk(rep, finder.Visit)
+				// The replicate's cuts, each rule found by binary search
+				// or a scan of them (cutrule.Finder.Search): the same cut
+				// as visiting each, at a fraction of the projections.
+				cuts.Refill(rep)
+				finder.Search(&cuts)
 				for i, o := range finder.Outcomes() {
 					scoresAt[i][b], sharesAt[i][b], recallsAt[i][b], fdrsAt[i][b] = math.NaN(), math.NaN(), math.NaN(), math.NaN()
 					if o.Met {
@@ -501,14 +506,28 @@ func (r *replicator) multinomial(rng *rand.Rand, rows []int, before []float64, c
 	}
 }
 
-// expNeg holds e^-k for k below 30, the chance of no event of a Poisson
-// draw of mean k.
-var expNeg = func() (t [30]float64) {
+// poissonTerms holds, for each whole mean k below 30, the chances of 0, 1,
+// 2... events of a Poisson draw of mean k as the inversion in poisson
+// computes them (e^-k, then each times k/x), up to poissonTermsKept of them:
+// a cell of k cases then draws by table lookups, with the same result as
+// computing the terms.
+var poissonTerms = func() (t [30][poissonTermsKept]float64) {
 	for k := range t {
-		t[k] = math.Exp(-float64(k))
+		f := math.Exp(-float64(k))
+		for x := range poissonTermsKept {
+			if x > 0 {
+				f *= float64(k) / float64(x)
+			}
+			t[k][x] = f
+		}
 	}
 	return t
 }()
+
+// poissonTermsKept is how many chances poissonTerms keeps per mean: enough
+// that a draw of mean 1 (a cell of one case, the usual) almost never runs
+// past them (the chance of 24 or more events is below 1e-23).
+const poissonTermsKept = 24
 
 // poisson draws from the Poisson distribution of mean m: by inversion
 // when m is below 30, else from the normal distribution of the same mean
@@ -520,12 +539,32 @@ func poisson(rng *rand.Rand, m float64) int {
 	if m >= 30 {
 		return max(int(math.Floor(m+math.Sqrt(m)*rng.NormFloat64()+0.5)), 0)
 	}
-	f := math.Exp(-m)
-	if k := int(m); float64(k) == m {
-		f = expNeg[k]
-	}
-	u := rng.Float64()
+	return poissonFromUniform(rng.Float64(), m)
+}
+
+// poissonFromUniform is the inversion of poisson for a mean m in (0, 30)
+// and one uniform draw u: the number of events x at which the chances of
+// 0..x first pass u.
+func poissonFromUniform(u, m float64) int {
 	x := 0
+	var f float64
+	if k := int(m); float64(k) == m {
+		// A cell's whole number of cases: the chances from the table.
+		terms := &poissonTerms[k]
+		for f = terms[0]; u > f && f > 0; f = terms[x] {
+			u -= f
+			x++
+			if x == poissonTermsKept {
+				f = terms[x-1] * (m / float64(x))
+				break
+			}
+		}
+		if x < poissonTermsKept {
+			return x
+		}
+	} else {
+		f = math.Exp(-m)
+	}
 	for u > f && f > 0 {
 		u -= f
 		x++

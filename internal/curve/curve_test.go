@@ -500,3 +500,43 @@ func TestLoosestCutExact(t *testing.T) {
 		}
 	}
 }
+
+// TestRefill: a curve refilled with another set has exactly the points
+// that New gives for that set (seeded sets with ties, weights and counts
+// tables, refilled one after another into one curve, larger then smaller),
+// and a zero Summary but for the class totals.
+func TestRefill(t *testing.T) {
+	rng := rand.New(rand.NewPCG(2026, 1202))
+	var c curve.Curve
+	for trial := range 40 {
+		n := 1 + rng.IntN(300)
+		values, labels, weights := randomSet(rng, n, trial%2 == 1)
+		var set *scores.Set
+		var err error
+		if trial%3 == 2 {
+			counts := make([]float64, n)
+			for i := range counts {
+				counts[i] = float64(1 + rng.IntN(4))
+			}
+			set, err = scores.NewCounts(values, labels, counts, trial%4 == 1)
+		} else {
+			set, err = scores.New(values, labels, weights, trial%4 == 1)
+		}
+		if err != nil {
+			t.Fatal(err)
+		}
+		c.Refill(set)
+		want := curve.New(set)
+		if c.Len() != want.Len() {
+			t.Fatalf("trial %d: %d cuts, New gives %d", trial, c.Len(), want.Len())
+		}
+		for i := range want.Len() {
+			if c.At(i) != want.At(i) {
+				t.Fatalf("trial %d: cut %d %+v, New gives %+v", trial, i, c.At(i), want.At(i))
+			}
+		}
+		if c.Summary.Positives != want.Summary.Positives || c.Summary.Negatives != want.Summary.Negatives || c.Summary.Rows != 0 || c.Summary.ROCAUC != 0 {
+			t.Fatalf("trial %d: summary %+v", trial, c.Summary)
+		}
+	}
+}

@@ -37,6 +37,53 @@ func New(set *scores.Set) *Curve {
 	return c
 }
 
+// Refill makes c the curve of another ranked set, reusing c's memory,
+// without the summary (c.Summary is zeroed, but for the class totals and
+// squared weights that At needs): the cuts alone, for callers that only read points, such as
+// each resampled set of package bootstrap. The cuts are the same as New
+// would give.
+func (c *Curve) Refill(set *scores.Set) {
+	c.Set, c.Summary = set, Summary{}
+	c.end, c.tp, c.fp = c.end[:0], c.tp[:0], c.fp[:0]
+	c.squares[0], c.squares[1] = c.squares[0][:0], c.squares[1][:0]
+	weighted := set.Weighted()
+	scores, labels, n := set.Scores(), set.Labels(), set.Len()
+	var tp, fp, tpSquares, fpSquares float64
+	for start := 0; start < n; {
+		score := scores[start]
+		// Summed as Walk sums them, so that the points are the same.
+		var groupTP, groupFP, groupTPSquares, groupFPSquares float64
+		end := start
+		for ; end < n && scores[end] == score; end++ {
+			w := set.Weight(end)
+			if labels[end] {
+				groupTP += w
+				groupTPSquares += w * w
+			} else {
+				groupFP += w
+				groupFPSquares += w * w
+			}
+		}
+		tp += groupTP
+		fp += groupFP
+		c.end, c.tp, c.fp = append(c.end, end), append(c.tp, tp), append(c.fp, fp)
+		if weighted {
+			tpSquares += groupTPSquares
+			fpSquares += groupFPSquares
+			c.squares[0], c.squares[1] = append(c.squares[0], tpSquares), append(c.squares[1], fpSquares)
+		}
+		start = end
+	}
+	if !weighted {
+		c.squares = [2][]float64{}
+	}
+	c.Summary.Positives, c.Summary.Negatives = set.Totals()
+	c.Summary.PositiveSquares, c.Summary.NegativeSquares = c.Summary.Positives, c.Summary.Negatives
+	if weighted {
+		c.Summary.PositiveSquares, c.Summary.NegativeSquares = squaredWeights(set)
+	}
+}
+
 // Len returns the number of cuts, the number of distinct scores.
 func (c *Curve) Len() int { return len(c.end) }
 

@@ -33,6 +33,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"sort"
 	"strconv"
 	"strings"
 
@@ -278,38 +279,155 @@ func (f *Finder) Visit(p curve.Point) {
 			}
 		}
 	}
-	for i, r := range f.rules {
-		keep := false
-		switch r.Kind {
-		case Score:
-			keep = !f.set.Riskier(r.Value, p.Score) // p.Score is at or riskier than V
-		case Top:
-			limit := r.Value
-			if r.Percent {
-				limit = r.Value / 100 * float64(f.cases)
-			}
-			keep = float64(p.Cases) <= limit*(1+slack)
-		case Hit:
-			keep = !f.found[i] && p.Recall() >= r.Value-slack
-		case Wrong:
-			keep = fig.FalseDiscoveryRate() <= r.Value+slack
-		case Base:
-			keep = fig.AlertRate <= f.a.BaseRate*(1+slack)
-		case Queue:
-			keep = fig.QueuePerShift <= r.Value*(1+slack)
-		case Cost:
-			// Strictly less by more than the slack, so that the strictest
-			// of equal costs stays; an undefined cost never wins.
-			best := f.best[i].Projected.CostPerCase
-			keep = !math.IsNaN(fig.CostPerCase) && (!f.found[i] || fig.CostPerCase < best-slack*math.Abs(best))
-		case Queue90:
-			keep = f.counters[i].Within()
-		}
-		if keep {
-			f.found[i] = true
-			f.best[i] = Outcome{Rule: r, Met: true, Point: p, Projected: fig}
+	for i := range f.rules {
+		if f.keeps(i, p, fig) {
+			f.keep(i, p, fig)
 		}
 	}
+}
+
+// keeps reports whether rule i takes point p, whose projected figures are
+// fig, over what it holds so far: points come strictest first, and a rule
+// ends on the last point it keeps.
+func (f *Finder) keeps(i int, p curve.Point, fig projection.Figures) bool {
+	switch r := f.rules[i]; r.Kind {
+	case Score:
+		return !f.set.Riskier(r.Value, p.Score) // p.Score is at or riskier than V
+	case Top:
+		limit := r.Value
+		if r.Percent {
+			limit = r.Value / 100 * float64(f.cases)
+		}
+		return float64(p.Cases) <= limit*(1+slack)
+	case Hit:
+		return !f.found[i] && p.Recall() >= r.Value-slack
+	case Wrong:
+		return fig.FalseDiscoveryRate() <= r.Value+slack
+	case Base:
+		return fig.AlertRate <= f.a.BaseRate*(1+slack)
+	case Queue:
+		return fig.QueuePerShift <= r.Value*(1+slack)
+	case Cost:
+		// Strictly less by more than the slack, so that the strictest
+		// of equal costs stays; an undefined cost never wins.
+		best := f.best[i].Projected.CostPerCase
+		return !math.IsNaN(fig.CostPerCase) && (!f.found[i] || fig.CostPerCase < best-slack*math.Abs(best))
+	case Queue90:
+		return f.counters[i].Within()
+	}
+	return false
+}
+
+// keep records point p as rule i's cut.
+func (f *Finder) keep(i int, p curve.Point, fig projection.Figures) {
+	f.found[i] = true
+	f.best[i] = Outcome{Rule: f.rules[i], Met: true, Point: p, Projected: fig}
+}
+
+// Points gives random access to the cuts of a ranked set, strictest first
+// (a *curve.Curve is one).
+type Points interface {
+	Len() int
+	At(i int) curve.Point
+}
+
+// Search finds what visiting every point of pts in order would, for a
+// Finder that has visited nothing yet, without projecting every cut for
+// every rule. Rules that hold on the strictest cuts up to some cut and not
+// beyond (score=, top=, base, queue=: the flagged cases, the hit share
+// and the false positive rate only grow as the cut loosens, and so does
+// every figure these rules compare) and hit=R, which first holds at some
+// cut and from there on, are found by binary search; wrong=F (the
+// wrong-alert share goes up and down) is scanned from the loosest cut
+// until one holds, and cost over every cut. queue90=K needs every row in
+// its shift, so a Finder with such a rule visits every point instead.
+// Outcomes then returns the same as after visiting, reasons included.
+func (f *Finder) Search(pts Points) {
+	n := pts.Len()
+	if f.seen {
+		panic("cutrule: Search after Visit")
+	}
+	if f.counters != nil || n == 0 {
+		for k := range n {
+			f.Visit(pts.At(k))
+		}
+		return
+	}
+	first := pts.At(0)
+	f.seen, f.first, f.firstFigures = true, first, projection.Project(first, f.a)
+	at := func(k int) (curve.Point, projection.Figures) {
+		p := pts.At(k)
+		return p, projection.Project(p, f.a)
+	}
+	for i, r := range f.rules {
+		switch r.Kind {
+		case Score, Top, Base, Queue:
+			// The first cut where the rule no longer holds; the one before
+			// it is the last that does.
+			k := sort.Search(n, func(k int) bool { p, fig := at(k); return !f.keeps(i, p, fig) })
+			if k > 0 {
+				p, fig := at(k - 1)
+				f.keep(i, p, fig)
+			}
+		case Hit:
+			k := sort.Search(n, func(k int) bool { p, fig := at(k); return f.keeps(i, p, fig) })
+			if k < n {
+				p, fig := at(k)
+				f.keep(i, p, fig)
+			}
+		case Wrong:
+			if k := f.searchWrong(i, pts, first); k >= 0 {
+				p, fig := at(k)
+				f.keep(i, p, fig)
+				continue
+			}
+			// Unmet: the least wrong-alert share of any cut, for the
+			// reason, as visiting finds it.
+			for k := range n {
+				_, fig := at(k)
+				if wrong := fig.FalseDiscoveryRate(); wrong < f.leastWrong || (math.IsNaN(f.leastWrong) && !math.IsNaN(wrong)) {
+					f.leastWrong = wrong
+				}
+			}
+		default: // cost
+			for k := range n {
+				if p, fig := at(k); f.keeps(i, p, fig) {
+					f.keep(i, p, fig)
+				}
+			}
+		}
+	}
+}
+
+// searchWrong returns the loosest cut of pts at which wrong=F rule i
+// holds, or -1. It walks from the loosest cut towards the strictest; where
+// a cut fails it skips every stricter cut that must fail too. At a
+// production base rate p strictly between 0 and 1 and F below 1, the
+// projected wrong-alert share is at most F exactly when FP ≤ ratio·TP,
+// ratio = F·p·N / ((1−F)·(1−p)·P) with P and N the class weights; FP and
+// TP only grow as the cut loosens, so below a failing cut k only the cuts
+// with FP ≤ ratio·TP_k can hold, and they are the strictest ones, found by
+// binary search. The bound is widened far beyond rounding (F by 1e-9, the
+// product by a factor 1+1e-9), and every cut it leaves is judged by the
+// rule itself, so the cut found is the one a scan finds.
+func (f *Finder) searchWrong(i int, pts Points, first curve.Point) int {
+	p, wrong := f.a.BaseRate, f.rules[i].Value+1e-9
+	positives, negatives := first.Positives(), first.Negatives()
+	skip := p > 0 && p < 1 && wrong < 1 && positives > 0 && negatives > 0
+	ratio := wrong * p * negatives / ((1 - wrong) * (1 - p) * positives)
+	for k := pts.Len() - 1; k >= 0; k-- {
+		point := pts.At(k)
+		if f.keeps(i, point, projection.Project(point, f.a)) {
+			return k
+		}
+		if skip {
+			bound := ratio * point.TP * (1 + 1e-9)
+			// The last cut at or before k with FP within the bound;
+			// the ones after it fail.
+			k = sort.Search(k, func(j int) bool { return pts.At(j).FP > bound }) // then k-- steps to it
+		}
+	}
+	return -1
 }
 
 // Outcomes returns one outcome per rule, in the order given.

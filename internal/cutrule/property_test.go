@@ -70,7 +70,8 @@ func oracle(r cutrule.Rule, points []curve.Point, set *scores.Set, a projection.
 	panic("oracle: unknown kind")
 }
 
-// TestFindMatchesOracle checks Find against the brute-force oracle on
+// TestFindMatchesOracle checks Find, and a Finder's Search, against the
+// brute-force oracle on
 // seeded random sets with heavy ties, weights and both directions, at
 // random production assumptions, with rule values drawn both at random and
 // exactly at figures of the data (where ties with the rule's value occur).
@@ -138,6 +139,18 @@ func TestFindMatchesOracle(t *testing.T) {
 		outcomes, err := cutrule.Find(rules, c, a)
 		if err != nil {
 			t.Fatal(err)
+		}
+		// Search (binary search and scans over the stored cuts) gives
+		// what visiting every cut gives, reasons included.
+		finder, err := cutrule.NewFinder(rules, set, a)
+		if err != nil {
+			t.Fatal(err)
+		}
+		finder.Search(c)
+		for i, o := range finder.Outcomes() {
+			if got, want := fmt.Sprintf("%+v", o), fmt.Sprintf("%+v", outcomes[i]); got != want {
+				t.Errorf("trial %d: %v searched\n%s\nvisited\n%s", trial, rules[i], got, want)
+			}
 		}
 		for i, r := range rules {
 			want := oracle(r, points, set, a)
