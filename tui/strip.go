@@ -177,7 +177,7 @@ func (s Strip) heading(i int, name string) string {
 // The headings that name the measured and the projected figures go last:
 // the labels below them still differ ("wrong-alert share (FDR)", measured;
 // "wrong-alert share", projected).
-var detailOrder = []string{"share of all cases", "interval", "true cases found", "against capacity", format.MeasuredHeading, format.ProjectedHeading}
+var detailOrder = []string{"share of all cases", "interval", compare.RedrawsLabel, "true cases found", "against capacity", format.MeasuredHeading, format.ProjectedHeading}
 
 // rowsThatFit returns the rows of t to draw in lines lines: every figure,
 // dropping detail rows in detailOrder until they fit.

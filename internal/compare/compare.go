@@ -39,6 +39,11 @@ type Column struct {
 	// no longer be what its rule picks. nil: not checked (a cut picked by
 	// hand, a file written before the check).
 	RuleNow *RuleNow
+	// RecallRedraws, when not nil, is the range (5th to 95th percentile)
+	// of the measured hit share where the column's rule lands across the
+	// bootstrap's resampled sets: shown beside the hit share it belongs
+	// to. nil: not resampled.
+	RecallRedraws *[2]float64
 }
 
 // RuleNow is whether a column's rule picks its cut under the assumptions.
@@ -198,6 +203,7 @@ func New(columns []Column, reference int, opt Options) Table {
 	detail("  share of all cases", func(c evidence.Cut) string { return format.Share(c.FlaggedShare) })
 	main("hit share (recall)", Higher, func(c evidence.Cut) float64 { return c.Recall }, format.Share, format.ShareDiff)
 	detail("  "+conf, func(c evidence.Cut) string { return format.Interval(c.RecallCI) })
+	redraws(&t, columns)
 	detail("  true cases found", func(c evidence.Cut) string { return format.Count(c.TP) + " of " + format.Count(c.TP+c.FN) })
 	main("wrong-alert share (FDR)", Lower, func(c evidence.Cut) float64 { return c.FalseDiscoveryRate }, format.Share, format.ShareDiff)
 	detail("  "+conf, func(c evidence.Cut) string { return format.Interval(c.FalseDiscoveryCI) })
@@ -226,6 +232,32 @@ func New(columns []Column, reference int, opt Options) Table {
 		}
 	}
 	return t
+}
+
+// RedrawsLabel names the bootstrap's range of a measured share, the row
+// under the share it belongs to.
+const RedrawsLabel = "redraws 5–95%"
+
+// redraws adds the detail row of each column's recall range across the
+// resampled sets ("n/a" for a column not resampled); no row when no
+// column was resampled.
+func redraws(t *Table, columns []Column) {
+	row := Row{Figure: "  " + RedrawsLabel, Detail: true}
+	any := false
+	for _, c := range columns {
+		cell := format.NA
+		if c.RecallRedraws != nil {
+			any = true
+			cell = format.Interval(*c.RecallRedraws)
+		}
+		row.Cells = append(row.Cells, cell)
+		row.Values = append(row.Values, math.NaN())
+		row.Diffs = append(row.Diffs, "")
+		row.Deltas = append(row.Deltas, math.NaN())
+	}
+	if any {
+		t.Rows = append(t.Rows, row)
+	}
 }
 
 // ownCapacity adds the detail row of each column's queue against its own

@@ -314,3 +314,36 @@ func TestNewRuleNow(t *testing.T) {
 		}
 	}
 }
+
+// TestNewRedraws: a column's resampled range of the hit share sits under
+// the hit share's interval, "n/a" for a column not resampled; no row when
+// none was.
+func TestNewRedraws(t *testing.T) {
+	c := sixRows(t, nil)
+	a := sixAssumptions
+	redraws := [2]float64{0.25, 0.5}
+	columns := []Column{
+		{Name: "resampled", Cut: evidence.Of(c.At(0), a), RecallRedraws: &redraws},
+		{Name: "not", Cut: evidence.Of(c.At(1), a)},
+	}
+	table := New(columns, 0, Options{Assumptions: a})
+	for i, r := range table.Rows {
+		if r.Figure != "  "+RedrawsLabel {
+			continue
+		}
+		if prev := strings.TrimSpace(table.Rows[i-1].Figure); prev != "95% interval" || strings.TrimSpace(table.Rows[i-2].Figure) != "hit share (recall)" {
+			t.Errorf("redraws after %q, want after the hit share's interval", prev)
+		}
+		if r.Cells[0] != "25.0–50.0%" || r.Cells[1] != format.NA || !r.Detail {
+			t.Errorf("redraws cells %q detail %v", r.Cells, r.Detail)
+		}
+		columns[0].RecallRedraws = nil
+		for _, r := range New(columns, 0, Options{Assumptions: a}).Rows {
+			if r.Figure == "  "+RedrawsLabel {
+				t.Error("a redraws row with no column resampled")
+			}
+		}
+		return
+	}
+	t.Error("no redraws row")
+}

@@ -295,7 +295,7 @@ func notes(f *decision.File) []fact {
 func tableOf(f *decision.File) tableView {
 	var columns []compare.Column
 	for _, c := range ordered(f) {
-		columns = append(columns, compare.Column{Name: c.Name, Rule: c.Rule, Cut: c.Cut, RuleNow: review.RuleNow(c)})
+		columns = append(columns, compare.Column{Name: c.Name, Rule: c.Rule, Cut: c.Cut, RuleNow: review.RuleNow(c), RecallRedraws: review.RecallRedraws(c)})
 	}
 	t := compare.New(columns, 0, compare.Options{Assumptions: f.Assumptions, BaseRateChanged: f.BaseRateChanged(), LowerIsRiskier: f.Data.LowerIsRiskier})
 	return render(t, "chosen")

@@ -11,6 +11,7 @@ import (
 	"strconv"
 	"strings"
 
+	"github.com/sill-tool/sill/internal/compare"
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/format"
@@ -257,8 +258,8 @@ func (r *Report) basisLines() []string {
 }
 
 // redrawsLabel names the bootstrap's resampled range in the figures
-// table, beside the measured share it belongs to.
-const redrawsLabel = "redraws 5–95%"
+// table, beside the measured share it belongs to, as in every view.
+const redrawsLabel = compare.RedrawsLabel
 
 // projects reports whether the figures table has projected figures: a
 // production base rate other than the validation one, a volume or costs.

@@ -19,7 +19,7 @@ import (
 func table(f *decision.File) compare.Table {
 	var columns []compare.Column
 	for _, c := range f.Candidates {
-		column := compare.Column{Name: c.Name, Rule: c.Rule, Cut: c.Cut, RuleNow: RuleNow(c)}
+		column := compare.Column{Name: c.Name, Rule: c.Rule, Cut: c.Cut, RuleNow: RuleNow(c), RecallRedraws: RecallRedraws(c)}
 		if c.Name == f.Chosen {
 			columns = append([]compare.Column{column}, columns...)
 		} else {
@@ -41,6 +41,17 @@ func RuleNow(c decision.Candidate) *compare.RuleNow {
 		return nil
 	}
 	return &compare.RuleNow{Holds: c.RuleCheck.Holds, Picks: c.RuleCheck.Picks}
+}
+
+// RecallRedraws is the range of the measured hit share across the
+// bootstrap's resampled sets that the file records for c, for package
+// compare; nil when c was not resampled.
+func RecallRedraws(c decision.Candidate) *[2]float64 {
+	if st := c.Stability; st != nil && st.Skipped == "" {
+		r := st.Recall
+		return &r
+	}
+	return nil
 }
 
 // RulesMoved says in words which candidates were pinned under earlier
