@@ -245,9 +245,11 @@ func (p figuresPane) body() string {
 	return strings.Join(lines, "\n")
 }
 
-// peaksLine is the queue of the real shifts of the validation period at
-// the cursor's cut: the 90th percentile, the busiest shift and the share
-// of shifts over capacity.
+// peaksLine is the queue of production's shifts at the cursor's cut under
+// the shift-peak model (package shift): the 90th percentile and the share
+// of shifts over capacity, with what the p90 rests on (counting noise
+// alone, or with the real spread between shifts the set shows), beside
+// the sample's busiest real shift.
 func (p figuresPane) peaksLine(peaks shift.Peaks) string {
 	s, st := p.s, p.ctx.styles
 	width := p.width - st.Pane.GetHorizontalFrameSize()
@@ -261,13 +263,17 @@ func (p figuresPane) peaksLine(peaks shift.Peaks) string {
 		overShort = ", " + format.Number(100*peaks.OverCapacity, 0) + "% over"
 	}
 	whole := func(v float64) string { return format.Number(v, 0) }
+	basis := " (noise only)"
+	if spread := peaks.Model.Spread; spread > 0 {
+		basis = " (noise + " + whole(100*spread) + "% spread)"
+	}
 	when := " (" + s.busiest(peaks.Busiest) + ")"
 	// The longest form that fits, down to the shortest.
 	forms := [][4]string{
-		{"9 in 10 shifts ≤", format.Queue(peaks.P90), " · busiest " + format.Queue(peaks.Max) + when, overLong},
-		{"9 in 10 ≤", whole(peaks.P90), " · busiest " + whole(peaks.Max) + when, overShort},
-		{"9 in 10 shifts ≤", format.Queue(peaks.P90), " · busiest " + format.Queue(peaks.Max), overLong},
-		{"shifts: 9/10 ≤", whole(peaks.P90), ", max " + whole(peaks.Max), overShort},
+		{"9 in 10 shifts ≤", whole(peaks.P90), basis + " · sample's busiest " + format.Queue(peaks.Max) + when, overLong},
+		{"9 in 10 shifts ≤", whole(peaks.P90), basis + " · sample max " + whole(peaks.Max), overLong},
+		{"9 in 10 ≤", whole(peaks.P90), basis, overShort},
+		{"shifts: 9/10 ≤", whole(peaks.P90), "", overShort},
 	}
 	var line string
 	for _, f := range forms {

@@ -46,9 +46,15 @@ Without --cut: base, hit=0.8 and wrong=0.333, plus queue=capacity and cost
 when --capacity or costs are given, and queue90=capacity with --time.
 
 Beyond the averages: --segment COL breaks each cut down by group; --time COL
-with --shifts (and --tz) counts the queue of every real shift; --bootstrap B
-(--seed S) shows how far each cut moves when the set is drawn again; scores
-in [0,1] get a reliability table and net benefit; --score a --score b (or
+with --shifts (and --tz) gives busy shifts: 9 shifts in 10 at most, from
+production's own counting noise at the volume plus the real spread between
+shifts the set shows beyond its sampling noise (with few cases a shift it
+cannot tell real spread from noise, and says so), beside the sample's own
+counts per shift; --bootstrap B (--seed S) shows how far each cut moves when
+the set is drawn again; scores in [0,1] get a reliability table, ECE beside
+its noise level at the set's size, and net benefit at production's base rate
+(threshold probability from the costs, else the base rate); --score a
+--score b (or
 --compare FILE joined on --id) compares two models on the same cases
 (DeLong's paired AUC test).
 

@@ -150,12 +150,21 @@ func TestRun(t *testing.T) {
 	}
 
 	// Shifts: without a volume each case counts one alert. Flagged: two in
-	// shift 0, one in shift 1, none in 2 and 3. Mean 3/4; the 90th
-	// percentile by nearest rank is the ceil(3.6) = 4th of 0, 0, 1, 2;
-	// one shift of four over the capacity of 1.
+	// shift 0, one in shift 1, none in 2 and 3. The period runs from one
+	// mean gap (38/7 hours) before the first case (day 1 01:00) to as far
+	// after the last (day 2 15:00), so it covers shifts 0-2 and 8.43 of
+	// shift 3's 12 hours: 3.7024 shifts' worth, 8/3.7024 = 2.1608 cases a
+	// shift, a mean queue of 3/3.7024 = 0.8103. The sample's p90 over its
+	// three whole shifts (2, 1, 0) is 2, one of them over the capacity 1.
+	// The model: the spread cannot be told from noise in four shifts, so
+	// the queue is Binomial(2.1608, 0.375).
 	p := res.Shifts.Peaks[0]
-	if res.Shifts.Assigned.Count != 4 || res.Shifts.Scale != (shift.Scale{Positive: 1, Negative: 1}) ||
-		!floatcmp.Equal(p.Mean, 0.75) || !floatcmp.Equal(p.P90, 2) || !floatcmp.Equal(p.Max, 2) || p.Busiest != 0 || !floatcmp.Equal(p.OverCapacity, 0.25) {
+	q := shift.NewQueue(8/3.7023809523825292, 0.375, 0)
+	if res.Shifts.Assigned.Count != 4 || !floatcmp.Equal(res.Shifts.Assigned.Covered(), 3.7023809523825292) ||
+		res.Shifts.Scale.Positive != 1 || res.Shifts.Scale.Negative != 1 || !floatcmp.Equal(res.Shifts.Scale.Volume, 8/3.7023809523825292) ||
+		!floatcmp.Equal(p.Mean, 3/3.7023809523825292) || !floatcmp.Equal(p.Max, 2) || p.Busiest != 0 ||
+		!floatcmp.Equal(p.Sample.P90, 2) || !floatcmp.Equal(p.Sample.OverCapacity, 1.0/3) ||
+		p.Model.Spread != 0 || !floatcmp.Equal(p.Model.Rate, 0.375) || p.P90 != q.Quantile(0.9) || !floatcmp.Equal(p.OverCapacity, 1-q.CDF(1)) {
 		t.Errorf("shifts %+v, peaks %+v", res.Shifts, p)
 	}
 
@@ -186,9 +195,12 @@ func TestRun(t *testing.T) {
 	}
 }
 
-// TestScaleToVolume: a volume of 4 cases a shift over four shifts of 2
-// cases each makes each flagged case 2 alerts (the base rates agree), so
-// the queues at score=0.8 are 4, 2, 0, 0.
+// TestScaleToVolume: a volume of 4 cases a shift over 3.7024 covered
+// shifts of 8 cases (TestRun) makes each flagged case 4*3.7024/8 = 1.8512
+// alerts (the base rates agree); the mean queue at score=0.8 is 4 * 3/8 =
+// 1.5, the projected queue. The model's p90 is that of Binomial(4, 0.375),
+// by hand: P(<=2) = 0.1526 + 0.3662 + 0.3296 = 0.8484, P(<=3) = 0.9802,
+// so 3.
 func TestScaleToVolume(t *testing.T) {
 	a := validation
 	a.Volume = 4
@@ -196,7 +208,8 @@ func TestScaleToVolume(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if p := res.Shifts.Peaks[0]; res.Shifts.Scale != (shift.Scale{Positive: 2, Negative: 2}) || !floatcmp.Equal(p.Mean, 1.5) || !floatcmp.Equal(p.P90, 4) {
+	if p := res.Shifts.Peaks[0]; !floatcmp.Equal(res.Shifts.Scale.Positive, 4*3.7023809523825292/8) || res.Shifts.Scale.Volume != 4 ||
+		!floatcmp.Equal(p.Mean, 1.5) || !floatcmp.Equal(p.P90, 3) {
 		t.Errorf("scale %+v, peaks %+v", res.Shifts.Scale, p)
 	}
 }

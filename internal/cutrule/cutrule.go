@@ -226,6 +226,8 @@ func NewFinder(rules []Rule, set *scores.Set, a projection.Assumptions, opts ...
 	for _, o := range opts {
 		o(f)
 	}
+	var cases shift.Spread
+	casesKnown := false
 	for i, r := range rules {
 		if r.Kind != Queue90 {
 			continue
@@ -240,7 +242,10 @@ func NewFinder(rules []Rule, set *scores.Set, a projection.Assumptions, opts ...
 			f.counters = make([]*shift.Counter, len(rules))
 			f.firstP90 = make([]float64, len(rules))
 		}
-		f.counters[i] = f.shifts.NewCounter(f.scale, r.Value)
+		if !casesKnown {
+			cases, casesKnown = f.shifts.CaseSpread(set, f.scale), true
+		}
+		f.counters[i] = f.shifts.NewCounter(f.scale, cases, r.Value)
 	}
 	for _, r := range rules {
 		if r.Kind == Queue && !(a.Volume > 0) {

@@ -97,7 +97,8 @@ func New(res *analysis.Result, picks []Pick, chosen string, rec Record) (*File, 
 			c.Segments = segmentsOf(set.SegmentColumn(), b)
 		}
 		if peaks, ok := res.PeaksAt(p.Point, a.Capacity); ok {
-			c.Shifts = &Shifts{Count: peaks.Shifts, Mean: peaks.Mean, P90: peaks.P90, Max: peaks.Max, OverCapacity: peaks.OverCapacity}
+			c.Shifts = &Shifts{Count: peaks.Shifts, Mean: peaks.Mean, P90: peaks.P90, Max: peaks.Max, OverCapacity: peaks.OverCapacity,
+				SampleP90: peaks.Sample.P90, Spread: peaks.Model.Spread, Basis: peaks.Model.Basis()}
 			if peaks.Busiest >= 0 && res.Shifts != nil {
 				c.Shifts.Busiest = res.Shifts.Assigned.Start(peaks.Busiest)
 			}

@@ -151,8 +151,17 @@ type SegmentGroup struct {
 type Shifts struct {
 	Count int     // key count: shifts in the period
 	Mean  float64 // key mean: mean alerts per shift
-	P90   float64 // key p90: 9 shifts in 10 have at most this many alerts
-	Max   float64 // key max: the busiest shift's alerts
+	// P90 is the shift-peak model's (package shift): 9 production shifts
+	// in 10 have at most this many alerts (key p90).
+	P90 float64
+	Max float64 // key max: the sample's busiest real shift's alerts
+	// SampleP90 is the sample's own scaled 90th percentile (key
+	// sample_p90, optional; NaN when absent), Spread the relative spread
+	// between shifts the model took (key model_spread, optional; NaN when
+	// absent) and Basis what the p90 rests on, in words (key basis,
+	// optional).
+	SampleP90, Spread float64
+	Basis             string
 	// Busiest is the busiest shift's local start time (key busiest);
 	// zero when there were no shifts.
 	Busiest time.Time

@@ -196,7 +196,7 @@ func TestReadRejectsBrokenNewKeys(t *testing.T) {
 		{"segments tests", replaceNth(t, text, `\n      tests: \d+`, 0, "\n      tests: many"), ErrType, "candidates[0].segments.tests"},
 		{"segments tp", replaceNth(t, text, `, tp: \d+, fp:`, 0, `, tp: 99999, fp:`), ErrInvalid, "candidates[0].segments.groups[0].tp"},
 		{"shifts busiest", replaceNth(t, text, `busiest: "[^"]*"`, 0, `busiest: "monday"`), ErrInvalid, "candidates[0].shifts.busiest"},
-		{"shifts p90 above max", replaceNth(t, text, `p90: [0-9.]+`, 0, `p90: 99999`), ErrInvalid, "candidates[0].shifts.p90"},
+		{"shifts sample p90 above max", replaceNth(t, text, `sample_p90: [0-9.]+`, 0, `sample_p90: 99999`), ErrInvalid, "candidates[0].shifts.sample_p90"},
 		{"sign-off verdict", replaceNth(t, text, `verdict: approve`, 0, `verdict: maybe`), ErrVerdict, "sign_offs[0].verdict"},
 		{"sign-off at", replaceNth(t, text, `at: "2026-09-15T08:30:00Z"`, 0, `at: "tuesday"`), ErrInvalid, "sign_offs[0].at"},
 		{"sign-off name", replaceNth(t, text, `name: "Tomas Reiner"`, 0, `name: ""`), ErrInvalid, "sign_offs[0].name"},

@@ -351,7 +351,8 @@ func shiftsNode(s *Shifts) *yaml.Node {
 		busiest = quoted(s.Busiest.Format(time.RFC3339))
 	}
 	return mapping("count", num(float64(s.Count)), "mean", num(s.Mean), "p90", num(s.P90), "max", num(s.Max),
-		"busiest", busiest, "over_capacity", num(s.OverCapacity))
+		"busiest", busiest, "over_capacity", num(s.OverCapacity), "sample_p90", num(s.SampleP90), "model_spread", num(s.Spread),
+		"basis", optionalStr(s.Basis))
 }
 
 func signOffsNode(list []SignOff) *yaml.Node {

@@ -107,7 +107,8 @@ func fixture(t *testing.T) *decision.File {
 		west.FalseDiscoveryGapCI[0], west.FalseDiscoveryGapCI[1] = interval.Difference(30, 80, 40, 70, 0.95)
 		east.RecallAdjustedP, west.RecallAdjustedP = min(1, 4*recallP), min(1, 4*recallP)
 		east.FalseDiscoveryAdjustedP, west.FalseDiscoveryAdjustedP = min(1, max(4*recallP, 2*wrongP)), min(1, max(4*recallP, 2*wrongP))
-		c.Shifts = &decision.Shifts{Count: 60, Mean: 300, P90: 380, Max: 455, Busiest: time.Date(2026, 9, 14, 18, 0, 0, 0, time.UTC), OverCapacity: 0.7}
+		c.Shifts = &decision.Shifts{Count: 60, Mean: 300, P90: 380, Max: 455, Busiest: time.Date(2026, 9, 14, 18, 0, 0, 0, time.UTC), OverCapacity: 0.7, SampleP90: 410, Spread: 0.2,
+			Basis: "the p90 is production's own counting noise at 1500 cases a shift plus real differences between shifts of about 20.0% of the expected queue (one standard deviation, from the cases per shift), beyond what the set's own sampling noise makes"}
 	}
 	f.SignOffs = []decision.SignOff{
 		{Name: "Osric Vale", Role: "operations lead", Verdict: decision.Revise, Note: "try the stricter cut", At: time.Date(2026, 10, 1, 9, 0, 0, 0, time.UTC), Chosen: "top=6%", ChosenScore: 0.8},

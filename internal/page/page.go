@@ -420,12 +420,15 @@ func workload(f *decision.File) (workloadView, error) {
 		peaks = peaks || c.Shifts != nil
 	}
 	if peaks {
-		w.Header = append(w.Header, "mean of real shifts", "9 in 10 at most", "busiest shift", "its start")
+		w.Header = append(w.Header, "mean a shift", "9 in 10 shifts at most", "the sample's busiest shift", "its start")
 		if a.Capacity > 0 {
 			w.Header = append(w.Header, "shifts over capacity")
 		}
-		w.Peaks = "Real shifts: the validation period's cases placed in the crew shifts" + shiftCount(f) + " and scaled to production's volume; " +
-			"9 in 10 shifts have at most the figure shown, and the busiest is the heaviest single shift, with the time it started" + shiftZone(f) + "."
+		w.Peaks = "Real shifts: the validation period's cases placed in the crew shifts" + shiftCount(f) + " and scaled to production's volume. " +
+			"9 in 10 shifts have at most the figure shown, and the share over capacity, under the shift-peak model: production's own counting noise at its volume " +
+			"plus the real differences between shifts that the validation period shows beyond its own sampling noise. " +
+			"The sample's busiest shift is the heaviest single shift of the validation period, scaled, with the time it started" + shiftZone(f) +
+			"; with few cases a shift it is mostly the sample's counting noise." + peakBases(f)
 	} else {
 		w.Peaks = "The busiest shifts were not computed for this decision: the figures are the expected load of an average shift."
 	}
@@ -488,6 +491,17 @@ func shiftCount(f *decision.File) string {
 	return fmt.Sprintf(" (%d shifts)", count)
 }
 
+// peakBases says for each candidate what its p90 rests on.
+func peakBases(f *decision.File) string {
+	var out string
+	for _, c := range ordered(f) {
+		if c.Shifts != nil && c.Shifts.Basis != "" {
+			out += " " + c.Name + ": " + c.Shifts.Basis + "."
+		}
+	}
+	return out
+}
+
 // shiftZone names the zone of the shifts' start times.
 func shiftZone(f *decision.File) string {
 	if f.ShiftSchedule == nil || f.ShiftSchedule.Zone == "" {
@@ -511,7 +525,7 @@ func shiftCells(sh *decision.Shifts, capacity bool) []string {
 	if !sh.Busiest.IsZero() {
 		start = sh.Busiest.Format("2006-01-02 15:04")
 	}
-	cells := []string{format.Queue(sh.Mean), format.Queue(sh.P90), format.Queue(sh.Max), start}
+	cells := []string{format.Queue(sh.Mean), format.Number(sh.P90, 0), format.Queue(sh.Max), start}
 	if capacity {
 		cells = append(cells, format.Share(sh.OverCapacity))
 	}

@@ -300,11 +300,34 @@ type beyondState struct {
 }
 
 type shiftFigures struct {
+	// Mean is the mean queue per shift; P90 and OverCapacityShare are
+	// the shift-peak model's (package shift): production's counting noise
+	// plus the real spread between shifts estimated beyond the sample's.
 	Mean              number `json:"mean"`
 	P90               number `json:"p90"`
-	Max               number `json:"max"`
-	BusiestShift      string `json:"busiest_shift"` // local start, RFC 3339
 	OverCapacityShare number `json:"over_capacity_share"`
+	// Max and BusiestShift are the sample's: its longest scaled queue of a
+	// real shift and that shift's local start (RFC 3339).
+	Max          number `json:"max"`
+	BusiestShift string `json:"busiest_shift"`
+	// The sample's own scaled counts over its whole shifts.
+	SampleP90               number `json:"sample_p90"`
+	SampleOverCapacityShare number `json:"sample_over_capacity_share"`
+	SampleWholeShifts       int    `json:"sample_whole_shifts"`
+	// What the model rests on: the cases of a production shift, the set's
+	// flagged cases per shift, the relative spread of the expected queue
+	// between shifts taken (0: none), the spreads estimated from the
+	// alerts and from the cases per shift and whether each tells shifts
+	// apart from noise, the alert rate's spread, and the words.
+	Volume              number `json:"model_volume"`
+	FlaggedPerShift     number `json:"sample_flagged_per_shift"`
+	Spread              number `json:"model_spread"`
+	AlertSpread         number `json:"alert_spread"`
+	AlertSpreadDistinct bool   `json:"alert_spread_distinct"`
+	CaseSpread          number `json:"case_spread"`
+	CaseSpreadDistinct  bool   `json:"case_spread_distinct"`
+	RateSpread          number `json:"rate_spread"`
+	Basis               string `json:"basis"`
 }
 
 type shiftSchedule struct {
@@ -319,6 +342,11 @@ type shiftSchedule struct {
 	Scaled             bool    `json:"scaled"`
 	AlertsPerTrueCase  float64 `json:"alerts_per_true_case"`
 	AlertsPerFalseCase float64 `json:"alerts_per_false_case"`
+	// CoveredShifts is the covered time in shifts' worth (partial first
+	// and last shifts count by their covered share), GapShifts the empty
+	// shifts left out as a gap in the data.
+	CoveredShifts float64 `json:"covered_shifts"`
+	GapShifts     int     `json:"gap_shifts"`
 }
 
 // addShiftPeaks adds, under each met cut, the queues of the real shifts of
@@ -337,15 +365,18 @@ func (r *Report) addShiftPeaks(res *analysis.Result) {
 	r.ShiftSchedule = &shiftSchedule{
 		Schedule: assigned.Schedule.String(), TimeZone: assigned.Schedule.Location.String(), Shifts: assigned.Count,
 		Scaled: scaled, AlertsPerTrueCase: scale.Positive, AlertsPerFalseCase: scale.Negative,
+		CoveredShifts: assigned.Covered(), GapShifts: assigned.Gaps,
 	}
 	if assigned.Count > 0 {
 		r.ShiftSchedule.FirstShift = assigned.Start(0).Format(time.RFC3339)
 		r.ShiftSchedule.LastShift = assigned.Start(assigned.Count - 1).Format(time.RFC3339)
 	}
-	t := tableOf("cut", "mean", "9 in 10 shifts at most", "busiest", "busiest shift")
+	t := tableOf("cut", "mean", "9 in 10 shifts at most")
 	if capacity > 0 {
 		t.header = append(t.header, "shifts over "+format.Count(capacity))
 	}
+	t.header = append(t.header, "sample: 9 in 10", "sample: busiest", "busiest shift")
+	var bases []string
 	for i, o := range res.Outcomes {
 		if i >= len(r.Cuts) {
 			continue
@@ -356,21 +387,31 @@ func (r *Report) addShiftPeaks(res *analysis.Result) {
 			continue
 		}
 		p := res.Shifts.Peaks[i]
-		f := &shiftFigures{Mean: number(p.Mean), P90: number(p.P90), Max: number(p.Max), OverCapacityShare: number(p.OverCapacity)}
+		m := p.Model
+		f := &shiftFigures{Mean: number(p.Mean), P90: number(p.P90), Max: number(p.Max), OverCapacityShare: number(p.OverCapacity),
+			SampleP90: number(p.Sample.P90), SampleOverCapacityShare: number(p.Sample.OverCapacity), SampleWholeShifts: p.Sample.Whole,
+			Volume: number(m.Volume), FlaggedPerShift: number(m.Flagged), Spread: number(m.Spread),
+			AlertSpread: number(m.Queue.Relative), AlertSpreadDistinct: m.Queue.Distinct, CaseSpread: number(m.Cases.Relative), CaseSpreadDistinct: m.Cases.Distinct,
+			RateSpread: number(m.RateSpread), Basis: m.Basis()}
 		if p.Busiest >= 0 {
 			f.BusiestShift = assigned.Start(p.Busiest).Format(time.RFC3339)
 		}
 		r.Cuts[i].Shifts = f
 		p90, peak := f.P90, f.Max
 		r.Cuts[i].Projected.QueuePerShiftP90, r.Cuts[i].Projected.QueuePerShiftMax = &p90, &peak
-		row := []string{r.Cuts[i].Spec, format.Number(p.Mean, 1), format.Number(p.P90, 1), format.Number(p.Max, 1), busiestLabel(assigned, p.Busiest)}
+		row := []string{r.Cuts[i].Spec, format.Number(p.Mean, 1), format.Number(p.P90, 0)}
 		if capacity > 0 {
 			row = append(row, format.Share(p.OverCapacity))
 		}
+		row = append(row, format.Number(p.Sample.P90, 1), format.Number(p.Max, 1), busiestLabel(assigned, p.Busiest))
 		t.rows = append(t.rows, row)
+		bases = append(bases, r.Cuts[i].Spec+": "+m.Basis())
 	}
-	notes := []string{fmt.Sprintf("%s shifts starting %s (%s), from %s to %s", format.Count(float64(assigned.Count)), assigned.Schedule.String(),
-		assigned.Schedule.Location.String(), r.ShiftSchedule.FirstShift, r.ShiftSchedule.LastShift)}
+	notes := []string{fmt.Sprintf("%s shifts starting %s (%s), from %s to %s, covering %s shifts' worth (the first and last shift count by the time the set covers%s)",
+		format.Count(float64(assigned.Count)), assigned.Schedule.String(), assigned.Schedule.Location.String(), r.ShiftSchedule.FirstShift, r.ShiftSchedule.LastShift,
+		format.Number(assigned.Covered(), 1), gapWords(assigned.Gaps)),
+		"mean, 9 in 10 shifts and shifts over capacity are production's under the shift-peak model: its own counting noise at the volume, plus the real spread between shifts that the set shows beyond its sampling noise; the sample's columns are the set's own scaled counts per shift, mostly sampling noise when it holds few cases a shift"}
+	notes = append(notes, bases...)
 	if scaled {
 		notes = append(notes, fmt.Sprintf("scaled to %s cases per shift: the validation set is taken as an even sample of the period, so each flagged true case counts %.3g alerts and each false one %.3g",
 			format.Count(float64(r.Assumptions.Volume)), scale.Positive, scale.Negative))
@@ -561,4 +602,12 @@ func designWords(d bootstrap.Design) string {
 		return "true and false cases resampled separately, as the classes were sampled apart"
 	}
 	return "cases resampled as a random sample, so the mix of true and false cases varies"
+}
+
+// gapWords names the empty shifts left out as a gap in the data.
+func gapWords(gaps int) string {
+	if gaps == 0 {
+		return ""
+	}
+	return "; " + format.Count(float64(gaps)) + " empty shifts in a row left out as a gap in the data"
 }

@@ -123,7 +123,24 @@ func facts(f *decision.File) [][2]string {
 	if moved := RulesMoved(f); moved != "" {
 		out = append(out, [2]string{"rules", moved})
 	}
+	if line := PeaksLine(chosen.Shifts); line != "" {
+		out = append(out, [2]string{"shift peaks", line})
+	}
 	return out
+}
+
+// PeaksLine says the chosen cut's busy shifts and what the figure rests
+// on: "9 in 10 shifts at most 151 alerts (the sample's busiest real shift,
+// scaled: 252); the p90 is ..."; "" when the file records none.
+func PeaksLine(sh *decision.Shifts) string {
+	if sh == nil || !evidence.Defined(sh.P90) {
+		return ""
+	}
+	line := "9 in 10 shifts at most " + format.Number(sh.P90, 0) + " alerts (the sample's busiest real shift, scaled: " + format.Queue(sh.Max) + ")"
+	if sh.Basis != "" {
+		return line + "; " + format.Printable(sh.Basis)
+	}
+	return line + "; written before the shift-peak model: the figure is the sample's own scaled count, mostly its sampling noise when it holds few cases a shift"
 }
 
 // RankingLine is the file's ranking figures with their intervals, at the

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"time"
 
+	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/shift"
 )
@@ -17,13 +18,13 @@ func ExampleRunning() {
 	}
 	set, _ := scores.NewSet(scores.Columns{Scores: []float64{0.9, 0.8, 0.7}, Labels: []bool{true, false, false}, Times: times})
 	a, _ := shift.Assign(set, sched)
-	r := shift.NewRunning(set, a, shift.Scale{Positive: 1, Negative: 1})
+	r := shift.NewRunning(set, a, shift.ScaleFor(set, a, projection.Assumptions{BaseRate: 1.0 / 3}))
 	for _, rows := range []int{1, 3, 2} { // as a cursor moves: one case flagged, all three, two
 		p := r.At(rows, 1)
-		fmt.Printf("%d flagged: busiest %v, %v of the shifts over a capacity of 1\n", rows, p.Max, p.OverCapacity)
+		fmt.Printf("%d flagged: the sample's busiest shift %v, %v of its shifts over a capacity of 1\n", rows, p.Max, p.Sample.OverCapacity)
 	}
 	// Output:
-	// 1 flagged: busiest 1, 0 of the shifts over a capacity of 1
-	// 3 flagged: busiest 2, 0.5 of the shifts over a capacity of 1
-	// 2 flagged: busiest 2, 0.5 of the shifts over a capacity of 1
+	// 1 flagged: the sample's busiest shift 1, 0 of its shifts over a capacity of 1
+	// 3 flagged: the sample's busiest shift 2, 0.5 of its shifts over a capacity of 1
+	// 2 flagged: the sample's busiest shift 2, 0.5 of its shifts over a capacity of 1
 }

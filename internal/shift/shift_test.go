@@ -129,6 +129,50 @@ func TestShiftsAcrossMidnightAndDST(t *testing.T) {
 	}
 }
 
+// TestCover: the covered share of each shift. Shifts at 00:00 and 12:00
+// UTC; cases at 10, 14, 18, 22 and 26 hours after the first midnight: the
+// mean gap is 16/4 = 4 hours, so the period runs from 6 to 30 hours:
+// half of shift 0 (0-12), all of shift 1, half of shift 2 (24-36), two
+// shifts' worth; the set's 5 cases make 2.5 a covered shift (by hand).
+// A run of empty shifts long enough to expect 20 cases at the set's rate
+// is a gap, left out.
+func TestCover(t *testing.T) {
+	sched, _ := shift.ParseSchedule("00:00,12:00", time.UTC)
+	base := unix(t, "2026-09-01T00:00:00Z")
+	hour := int64(3600)
+	times := []int64{base + 10*hour, base + 14*hour, base + 18*hour, base + 22*hour, base + 26*hour}
+	set := timedSet(t, times, make([]bool, len(times)))
+	a, err := shift.Assign(set, sched)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(a.Cover) != 3 || !floatcmp.Equal(a.Cover[0], 0.5) || !floatcmp.Equal(a.Cover[1], 1) || !floatcmp.Equal(a.Cover[2], 0.5) ||
+		!floatcmp.Equal(a.Covered(), 2) || a.Gaps != 0 {
+		t.Errorf("cover %v, covered %v, gaps %d", a.Cover, a.Covered(), a.Gaps)
+	}
+	if s := shift.ScaleFor(set, a, projection.Assumptions{BaseRate: 0}); !floatcmp.Equal(s.Volume, 2.5) {
+		t.Errorf("own volume %v, want 2.5", s.Volume)
+	}
+	// Thirty cases 20 minutes apart in each of shifts 0 and 10 (12-hour
+	// shifts, 5 days apart): 60 cases over 11 shifts' worth, about 5.5 a
+	// shift, so the nine empty shifts between expect about 49 cases, 20
+	// or more: a gap. Shifts 0 and 10 are covered whole: one mean gap
+	// (129.7/59 = 2.2 hours) before the first case at 1 hour and after the
+	// last at 130.7 hours reaches past both ends.
+	times = nil
+	for k := range int64(30) {
+		times = append(times, base+hour+k*hour/3, base+121*hour+k*hour/3)
+	}
+	set = timedSet(t, times, make([]bool, len(times)))
+	a, err = shift.Assign(set, sched)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if a.Count != 11 || a.Gaps != 9 || a.Cover[5] != 0 || !floatcmp.Equal(a.Covered(), 2) {
+		t.Errorf("count %d gaps %d cover %v", a.Count, a.Gaps, a.Cover)
+	}
+}
+
 func TestParseSchedule(t *testing.T) {
 	s, err := shift.ParseSchedule("14:00,06:00,22:30", nil)
 	if err != nil || s.String() != "06:00,14:00,22:30" || s.Location != time.UTC {
@@ -163,8 +207,19 @@ func TestPeaksHandWorked(t *testing.T) {
 		t.Fatal(err)
 	}
 	p := a.At(set, 6, shift.ScaleFor(set, a, projection.Assumptions{BaseRate: 0.4}), 1.5)
-	if p.Shifts != 4 || !floatcmp.Equal(p.Mean, 1.5) || !floatcmp.Equal(p.Max, 3) || p.Busiest != 0 || !floatcmp.Equal(p.P90, 3) || !floatcmp.Equal(p.OverCapacity, 0.5) {
+	if p.Shifts != 4 || !floatcmp.Equal(p.Mean, 1.5) || !floatcmp.Equal(p.Max, 3) || p.Busiest != 0 ||
+		p.Sample.Whole != 4 || !floatcmp.Equal(p.Sample.P90, 3) || !floatcmp.Equal(p.Sample.OverCapacity, 0.5) {
 		t.Errorf("got %+v", p)
+	}
+	// The model: the set's own 2.5 cases a shift (10 over 4 wholly covered
+	// shifts: the period's ends, one mean gap of 46/9 hours beyond the
+	// first and last case, fall outside it) at the alert rate 1.5/2.5 =
+	// 0.6; 4 shifts cannot tell any spread from noise, so the queue is
+	// Binomial(2.5, 0.6).
+	q := shift.NewQueue(2.5, 0.6, 0)
+	if m := p.Model; !floatcmp.Equal(m.Volume, 2.5) || !floatcmp.Equal(m.Rate, 0.6) || m.Spread != 0 || m.Queue.Distinct ||
+		p.P90 != q.Quantile(0.9) || !floatcmp.Equal(p.OverCapacity, 1-q.CDF(1.5)) || !floatcmp.Equal(m.Flagged, 1.5) {
+		t.Errorf("model %+v, p90 %v over %v", m, p.P90, p.OverCapacity)
 	}
 	// With 100 cases per shift the ten rows (2.5 per shift) scale by 40:
 	// mean 60, the projected queue 100 * 6/10.
@@ -220,7 +275,8 @@ func TestScaledMeanIsProjectedQueue(t *testing.T) {
 }
 
 // TestCounterMatchesPeaks: as a cut loosens row by row, Counter.Within
-// agrees with At's 90th percentile against the limit (seeded random data).
+// agrees with At's 90th percentile (the model's) against the limit, and
+// Counter.P90 with At's (seeded random data).
 func TestCounterMatchesPeaks(t *testing.T) {
 	rng := rand.New(rand.NewPCG(9, 1))
 	n := 200
@@ -234,9 +290,10 @@ func TestCounterMatchesPeaks(t *testing.T) {
 	set := timedSet(t, times, labels)
 	sched, _ := shift.ParseSchedule("07:00,19:00", time.UTC)
 	a, _ := shift.Assign(set, sched)
-	scale := shift.Scale{Positive: 1.5, Negative: 0.5}
+	scale := shift.Scale{Positive: 1.5, Negative: 0.5, Volume: 25}
+	cases := a.CaseSpread(set, scale)
 	for _, limit := range []float64{0, 3, 7.5, 12} {
-		c := a.NewCounter(scale, limit)
+		c := a.NewCounter(scale, cases, limit)
 		for rows := 0; rows <= n; rows++ {
 			if rows > 0 {
 				c.Add(rows-1, set.Labels()[rows-1], 1)
