@@ -149,3 +149,33 @@ func TestPoissonTableIsInversion(t *testing.T) {
 		}
 	}
 }
+
+// TestOneCaseDraws: the draws of a cell of one case follow the Poisson
+// distribution of mean 1: over 1,000,000 seeded draws the share of 0, 1,
+// 2 and 3 lies within 5 standard errors of e^-1/x! (0.367879, 0.367879,
+// 0.183940, 0.061313; textbook), and the mean and variance within 0.005
+// of 1 (their standard errors are 0.001 and about 0.0017).
+func TestOneCaseDraws(t *testing.T) {
+	rng := rand.New(rand.NewPCG(1, 1))
+	var one oneCaseDraws
+	const draws = 1_000_000
+	counts := make([]float64, 14)
+	var sum, sumSquares float64
+	for range draws {
+		x := one.draw(rng)
+		counts[x]++
+		sum += float64(x)
+		sumSquares += float64(x * x)
+	}
+	for x, want := range []float64{0.367879, 0.367879, 0.183940, 0.061313} {
+		got := counts[x] / draws
+		if se := math.Sqrt(want * (1 - want) / draws); math.Abs(got-want) > 5*se {
+			t.Errorf("share of %d: %v, want %v within %v", x, got, want, 5*se)
+		}
+	}
+	mean := sum / draws
+	variance := sumSquares/draws - mean*mean
+	if math.Abs(mean-1) > 0.005 || math.Abs(variance-1) > 0.005 {
+		t.Errorf("mean %v variance %v, want 1 and 1", mean, variance)
+	}
+}

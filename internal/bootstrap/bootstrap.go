@@ -465,9 +465,15 @@ func (r *replicator) draw(seed, b uint64) *scores.Set {
 				}
 			case len(r.groups) == 1:
 				// Ordinary design: the Poisson bootstrap, each cell's
-				// count drawn apart.
+				// count drawn apart; a cell of one case (the usual one
+				// where scores are distinct) from 32 random bits.
+				var one oneCaseDraws
 				for _, i := range g.rows {
-					r.drawn[i] = float64(poisson(rng, r.set.Weight(i)))
+					if m := r.set.Weight(i); m == 1 {
+						r.drawn[i] = float64(one.draw(rng))
+					} else {
+						r.drawn[i] = float64(poisson(rng, m))
+					}
 				}
 			default:
 				r.multinomial(rng, g.rows, g.before, g.cases)
@@ -528,6 +534,46 @@ var poissonTerms = func() (t [30][poissonTermsKept]float64) {
 // that a draw of mean 1 (a cell of one case, the usual) almost never runs
 // past them (the chance of 24 or more events is below 1e-23).
 const poissonTermsKept = 24
+
+// poissonOneBelow holds, for x = 0, 1, 2..., the chance that a Poisson draw
+// of mean 1 is at most x, times 2^32 and rounded down: a uniform 32-bit
+// number below entry x and at or above entry x-1 draws x. Each chance is
+// off by less than 2^-32 (2.3e-10), far below the bootstrap's own noise;
+// the draws stop at 13 (13 or more have a chance of 1.7e-10 together).
+var poissonOneBelow = func() (t [13]uint32) {
+	f, cumulative := math.Exp(-1), 0.0
+	for x := range t {
+		if x > 0 {
+			f /= float64(x)
+		}
+		cumulative += f
+		t[x] = uint32(min(math.Floor(cumulative*(1<<32)), math.MaxUint32))
+	}
+	return t
+}()
+
+// oneCaseDraws draws Poisson counts of mean 1 (a cell of one case) from
+// half a 64-bit random number each, by inversion against
+// poissonOneBelow. The zero value is ready; it holds the unused half.
+type oneCaseDraws struct {
+	bits uint64
+	kept bool
+}
+
+func (o *oneCaseDraws) draw(rng *rand.Rand) int {
+	var u uint32
+	if o.kept {
+		u, o.kept = uint32(o.bits>>32), false
+	} else {
+		o.bits, o.kept = rng.Uint64(), true
+		u = uint32(o.bits)
+	}
+	x := 0
+	for x < len(poissonOneBelow) && u >= poissonOneBelow[x] {
+		x++
+	}
+	return x
+}
 
 // poisson draws from the Poisson distribution of mean m: by inversion
 // when m is below 30, else from the normal distribution of the same mean
