@@ -16,8 +16,8 @@ import (
 // TestReportAndExplorerAgree: from the same set, assumptions and options
 // (the demo with two models, yards, reading times and the three crew
 // shifts), the report and the explorer's session show the same figures at
-// every starting point: the cut, its counts, the segments, the shift
-// queues, the net benefit, the cost threshold and the second model's cut;
+// every starting point: the cut, its counts, the projected figures'
+// intervals, the segments, the shift queues, the net benefit, the cost threshold and the second model's cut;
 // and again after the assumptions change in the form.
 func TestReportAndExplorerAgree(t *testing.T) {
 	set := twoModels(t)
@@ -76,6 +76,12 @@ func agree(t *testing.T, m Model, opts analysis.Options) {
 				Met   bool
 				Score float64
 			} `json:"second_model"`
+			Projected struct {
+				PrecisionCI     [2]float64 `json:"precision_ci"`
+				AlertRateCI     [2]float64 `json:"alert_rate_ci"`
+				QueuePerShiftCI [2]float64 `json:"queue_per_shift_ci"`
+				CostPerShiftCI  [2]float64 `json:"cost_per_shift_ci"`
+			}
 		}
 		ROCAUCCI           [2]float64 `json:"roc_auc_ci"`
 		AveragePrecisionCI [2]float64 `json:"average_precision_ci"`
@@ -118,6 +124,14 @@ func agree(t *testing.T, m Model, opts analysis.Options) {
 		p, _ := s.peaksAtCut(o.Point.Index)
 		if !floatcmp.Equal(c.Shifts.P90, p.P90) || !floatcmp.Equal(c.Shifts.Max, p.Max) || !floatcmp.Equal(c.Shifts.Mean, p.Mean) {
 			t.Errorf("%s: report queues %+v, explorer %+v", c.Spec, c.Shifts, p)
+		}
+		// The projected figures' intervals, as the figures pane reads them.
+		iv := s.evidenceAt(o.Point.Index).ProjectedCI
+		for _, pair := range [][2][2]float64{{c.Projected.PrecisionCI, iv.Precision}, {c.Projected.AlertRateCI, iv.AlertRate},
+			{c.Projected.QueuePerShiftCI, iv.QueuePerShift}, {c.Projected.CostPerShiftCI, iv.CostPerShift}} {
+			if !floatcmp.Equal(pair[0][0], pair[1][0]) || !floatcmp.Equal(pair[0][1], pair[1][1]) || pair[0][0] >= pair[0][1] {
+				t.Errorf("%s: report's projected interval %v, explorer's %v", c.Spec, pair[0], pair[1])
+			}
 		}
 		nb, _ := s.res.NetBenefitAt(o.Point)
 		if !floatcmp.Equal(c.NetBenefit, nb) {

@@ -204,6 +204,7 @@ func WriteAgainstText(w io.Writer, c Change) error {
 	}
 	b.WriteString("\n")
 	b.WriteString(format.Grid(changeGrid(c.Table)))
+	b.WriteString(format.ProjectedGiven + "\n")
 	if len(c.PerShift) > 0 {
 		b.WriteString("\nper shift, in plain words:\n")
 		for _, s := range c.PerShift {
@@ -236,6 +237,10 @@ func WriteAgainstMarkdown(w io.Writer, c Change) error {
 		}
 		b.WriteString("| " + strings.Join(align, " | ") + " |\n")
 		for _, r := range rows {
+			if r[0] == format.MeasuredHeading || r[0] == format.ProjectedHeading { // a heading row, as the other Markdown forms mark one
+				b.WriteString("| **" + format.Markdown(r[0]) + "** |" + strings.Repeat(" |", len(r)-1) + "\n")
+				continue
+			}
 			if strings.HasPrefix(r[0], "  ") {
 				r = append([]string{"↳ " + strings.TrimSpace(r[0])}, r[1:]...)
 			}
@@ -260,6 +265,7 @@ func WriteAgainstMarkdown(w io.Writer, c Change) error {
 	b.WriteString("\n## The chosen cuts\n\n")
 	header, figures, _ := changeGrid(c.Table)
 	table(header, figures)
+	b.WriteString("\n- " + format.Markdown(format.ProjectedGiven) + "\n")
 	if len(c.PerShift) > 0 {
 		b.WriteString("\n## Per shift\n\n")
 		for _, s := range c.PerShift {
