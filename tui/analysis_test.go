@@ -93,7 +93,7 @@ func agree(t *testing.T, m Model, opts analysis.Options) {
 	if err := json.Unmarshal(buf.Bytes(), &out); err != nil {
 		t.Fatal(err)
 	}
-	if len(out.Cuts) != len(s.starts) || len(out.Cuts) != 6 {
+	if len(out.Cuts) != len(s.starts) || len(out.Cuts) != 8 {
 		t.Fatalf("report has %d cuts, the explorer %d starting points", len(out.Cuts), len(s.starts))
 	}
 	// The running tallies add and take away, the report sums afresh: equal within floatcmp.Tolerance.

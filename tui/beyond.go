@@ -170,6 +170,10 @@ func ruleWords(r cutrule.Rule) string {
 		return "the " + strconv.FormatFloat(100*r.Value, 'g', 4, 64) + "% hit-share point"
 	case cutrule.Wrong:
 		return "the " + strconv.FormatFloat(100*r.Value, 'g', 3, 64) + "% wrong-alert point"
+	case cutrule.HitBound:
+		return "the " + strconv.FormatFloat(100*r.Value, 'g', 4, 64) + "% hit-share point at " + format.Level(r.Confidence()) + " confidence"
+	case cutrule.WrongBound:
+		return "the " + strconv.FormatFloat(100*r.Value, 'g', 3, 64) + "% wrong-alert point at " + format.Level(r.Confidence()) + " confidence"
 	case cutrule.Base:
 		return "the base-rate point"
 	case cutrule.Queue:

@@ -93,6 +93,10 @@ func (p figuresPane) startKeys() []key.Binding {
 	out := []key.Binding{k.BaseRate, k.Hit, k.Wrong}
 	for _, o := range p.s.starts[min(3, len(p.s.starts)):] {
 		switch o.Rule.Kind {
+		case cutrule.HitBound:
+			out = append(out, k.HitBound)
+		case cutrule.WrongBound:
+			out = append(out, k.WrongBound)
 		case cutrule.Queue:
 			out = append(out, k.Capacity)
 		case cutrule.Cost:
@@ -369,11 +373,13 @@ func progressBar(done, total, width int) string {
 
 // startLine lists the starting points by key, marking the ones the cursor
 // is on and those no cut meets. When the names do not fit in width it
-// names only the ones the cursor is on.
+// names only the ones the cursor is on and those unmet, and when that does
+// not fit either only the ones the cursor is on (an unmet one's key is
+// muted).
 func (p figuresPane) startLine(width int) string {
 	s, st := p.s, p.ctx.styles
 	on := len(s.rulesAt(s.cursor)) > 0
-	build := func(names bool) string {
+	build := func(names, unmetNames bool) string {
 		label := "start"
 		if !on {
 			label = "start (none here)"
@@ -384,8 +390,10 @@ func (p figuresPane) startLine(width int) string {
 			switch {
 			case o.Met && o.Point.Index == s.cursor:
 				parts = append(parts, st.OnRule.Render("["+n+" "+o.Rule.String()+"]"))
-			case !o.Met:
+			case !o.Met && unmetNames:
 				parts = append(parts, st.Muted.Render(n+" "+o.Rule.String()+" unmet"))
+			case !o.Met:
+				parts = append(parts, st.Muted.Render(n))
 			case names:
 				parts = append(parts, st.Key.Render(n)+" "+o.Rule.String())
 			default:
@@ -394,9 +402,12 @@ func (p figuresPane) startLine(width int) string {
 		}
 		return strings.Join(parts, " ")
 	}
-	line := build(true)
+	line := build(true, true)
 	if ansi.StringWidth(line) > width {
-		line = build(false)
+		line = build(false, true)
+	}
+	if ansi.StringWidth(line) > width {
+		line = build(false, false)
 	}
 	// After a bootstrap, how steady the cursor's starting point is.
 	if sp, ok := s.spreadAt(s.cursor); ok && sp.Skipped == "" {

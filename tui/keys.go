@@ -20,6 +20,9 @@ type KeyMap struct {
 
 	// Starting points, in the order of cutrule.Defaults
 	BaseRate, Hit, Wrong, Capacity, LeastCost key.Binding
+	// HitBound and WrongBound are hit95= and wrong95=, the starting points
+	// with a promise, after the others.
+	HitBound, WrongBound key.Binding
 	// Peak is queue90 at the capacity, after the others, with case times.
 	Peak key.Binding
 
@@ -73,12 +76,14 @@ func DefaultKeyMap() KeyMap {
 		Top:      key.NewBinding(key.WithKeys("home", "g"), key.WithHelp("home/g", "strictest cut")),
 		Bottom:   key.NewBinding(key.WithKeys("end", "G"), key.WithHelp("end/G", "loosest cut, flag all")),
 
-		BaseRate:  key.NewBinding(key.WithKeys("1"), key.WithHelp("1", "flag as many as the base rate")),
-		Hit:       key.NewBinding(key.WithKeys("2"), key.WithHelp("2", "hit share 80%")),
-		Wrong:     key.NewBinding(key.WithKeys("3"), key.WithHelp("3", "wrong-alert share 1/3")),
-		Capacity:  key.NewBinding(key.WithKeys("4"), key.WithHelp("4", "queue at capacity")),
-		LeastCost: key.NewBinding(key.WithKeys("5"), key.WithHelp("5", "least cost")),
-		Peak:      key.NewBinding(key.WithKeys("6"), key.WithHelp("6", "9 shifts in 10 at capacity")),
+		BaseRate:   key.NewBinding(key.WithKeys("1"), key.WithHelp("1", "flag as many as the base rate")),
+		Hit:        key.NewBinding(key.WithKeys("2"), key.WithHelp("2", "hit share 80%, this set only")),
+		Wrong:      key.NewBinding(key.WithKeys("3"), key.WithHelp("3", "wrong-alert 1/3, this set only")),
+		HitBound:   key.NewBinding(key.WithKeys("4"), key.WithHelp("4", "hit share 80% or more, 95% sure")),
+		WrongBound: key.NewBinding(key.WithKeys("5"), key.WithHelp("5", "wrong-alert share 1/3 or less, 95% sure")),
+		Capacity:   key.NewBinding(key.WithKeys("4"), key.WithHelp("4", "queue at capacity")),
+		LeastCost:  key.NewBinding(key.WithKeys("5"), key.WithHelp("5", "least cost")),
+		Peak:       key.NewBinding(key.WithKeys("6"), key.WithHelp("6", "9 shifts in 10 at capacity")),
 
 		CurveView: key.NewBinding(key.WithKeys("v"), key.WithHelp("v", "next chart view")),
 		Focus:     key.NewBinding(key.WithKeys("tab"), key.WithHelp("tab", "keys to list / strip")),
@@ -155,7 +160,7 @@ func newReviewKeys(k KeyMap) reviewKeys {
 // in s.starts), the views beyond the averages when the data allows them,
 // and the strip's keys only while the strip has the keys.
 func (k *KeyMap) enableExplorer(s *session, stripFocused bool) {
-	for _, b := range []*key.Binding{&k.BaseRate, &k.Hit, &k.Wrong, &k.Capacity, &k.LeastCost, &k.Peak} {
+	for _, b := range []*key.Binding{&k.BaseRate, &k.Hit, &k.Wrong, &k.HitBound, &k.WrongBound, &k.Capacity, &k.LeastCost, &k.Peak} {
 		b.SetEnabled(false)
 	}
 	for i, o := range s.starts {
@@ -166,6 +171,14 @@ func (k *KeyMap) enableExplorer(s *session, stripFocused bool) {
 			k.Hit.SetEnabled(true)
 		case cutrule.Wrong:
 			k.Wrong.SetEnabled(true)
+		case cutrule.HitBound:
+			k.HitBound.SetEnabled(true)
+			k.HitBound.SetKeys(keyName(i))
+			k.HitBound.SetHelp(keyName(i), "hit share ≥ "+format.Share(o.Rule.Value)+", "+format.Level(o.Rule.Confidence())+" sure")
+		case cutrule.WrongBound:
+			k.WrongBound.SetEnabled(true)
+			k.WrongBound.SetKeys(keyName(i))
+			k.WrongBound.SetHelp(keyName(i), "wrong-alert ≤ "+format.Share(o.Rule.Value)+", "+format.Level(o.Rule.Confidence())+" sure")
 		case cutrule.Queue:
 			k.Capacity.SetEnabled(true)
 			k.Capacity.SetHelp(keyName(i), "queue at capacity ("+format.Count(o.Rule.Value)+")")

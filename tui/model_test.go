@@ -13,6 +13,7 @@ import (
 	"github.com/charmbracelet/x/ansi"
 
 	"github.com/sill-tool/sill/internal/compare"
+	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/floatcmp"
 	"github.com/sill-tool/sill/internal/projection"
@@ -92,17 +93,18 @@ func TestStartingPoints(t *testing.T) {
 }
 
 // TestStartingPointsNeedAssumptions: without volume and costs only the
-// first three starting points exist, and keys 4 and 5 do nothing.
+// first three starting points exist and the two promised ones after
+// them (keys 4 and 5), and keys 6 and 7 do nothing.
 func TestStartingPointsNeedAssumptions(t *testing.T) {
 	m := loaded(t, tenRows(t), func(*scores.Set) (projection.Assumptions, error) {
 		return projection.Assumptions{BaseRate: 0.3, Confidence: 0.95}, nil
 	}, filepath.Join(t.TempDir(), "cut.yaml"), 100, 30)
-	if len(m.s.starts) != 3 {
-		t.Fatalf("%d starting points, want 3", len(m.s.starts))
+	if len(m.s.starts) != 5 || m.s.starts[3].Rule.Kind != cutrule.HitBound || m.s.starts[4].Rule.Kind != cutrule.WrongBound {
+		t.Fatalf("%d starting points, want 5: base, hit, wrong, then hit95 and wrong95", len(m.s.starts))
 	}
-	m = keys(m, "G", "4", "5")
+	m = keys(m, "G", "6", "7")
 	if got := cursorScore(t, m); got != 0.1 {
-		t.Errorf("keys 4 and 5 moved the cursor to %v; want it left at the loosest cut 0.1", got)
+		t.Errorf("keys 6 and 7 moved the cursor to %v; want it left at the loosest cut 0.1", got)
 	}
 	if m.ctx.keys.Capacity.Enabled() || m.ctx.keys.LeastCost.Enabled() {
 		t.Errorf("capacity and least-cost keys enabled without their assumptions")

@@ -113,7 +113,7 @@ func TestRunBadInput(t *testing.T) {
 		{"malformed cut", []string{"report", good, "--cut", "hit=2"},
 			`sill: --cut: malformed cut spec "hit=2": "2" is more than 1, expected a share from 0 to 1 or a percentage from 0% to 100%, such as 0.05 or 5%`},
 		{"unknown cut", []string{"report", good, "--cut", "recall=0.8"},
-			`sill: --cut: malformed cut spec "recall=0.8": expected one of score=V, top=N, top=P%, hit=R, wrong=F, base, queue=K, queue90=K, cost`},
+			`sill: --cut: malformed cut spec "recall=0.8": expected one of score=V, top=N, top=P%, hit=R, hitNN=R, wrong=F, wrongNN=F, base, queue=K, queue90=K, cost (R and F shares such as 0.8 or 80%, NN a one-sided level in percent above 50 and below 100, as in hit95=0.8)`},
 		{"queue without volume", []string{"report", good, "--cut", "queue=10"},
 			"sill: cut queue=10 needs a volume per shift (--volume)"},
 		{"cost without costs", []string{"report", good, "--cut", "cost"},
@@ -237,8 +237,8 @@ func TestRunGoodInput(t *testing.T) {
 				case "csv":
 					// With --curve the curve alone: a header and one line
 					// per distinct score (7 in goodTable); without, a
-					// header and one line per cut (the 3 starting points).
-					want := 4
+					// header and one line per cut (the 5 starting points).
+					want := 6
 					if withCurve {
 						want = 8
 					}

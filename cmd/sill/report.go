@@ -41,9 +41,16 @@ Cut specs for --cut (repeatable):
   hit=R     catch at least share R         wrong=F        wrong-alert share at most F
   base      flag as many as the base rate  queue=K        at most K alerts per shift
   cost      least cost per shift           queue90=K      9 shifts in 10 at most K alerts
+  hitNN=R   recall at least R, NN% sure    wrongNN=F      wrong-alert share at most F, NN% sure
 R and F are shares, as 0.8 or 80%; every share flag takes a percentage too.
+hit=R and wrong=F meet R and F on this set only: about half the time the
+cut falls short in production. hit95=0.8 picks the strictest cut whose
+one-sided 95% lower bound (Wilson) of recall is at least 0.8, wrong95=0.333
+the deepest whose upper bound of wrong-alert share is at most 0.333: short
+in about 5 sets in 100. NN lies above 50 and below 100.
 Without --cut: base, hit=0.8 and wrong=0.333, plus queue=capacity and cost
-when --capacity or costs are given, and queue90=capacity with --time.
+when --capacity or costs are given, and queue90=capacity with --time; then
+hit95=0.8 and wrong95=0.333.
 
 Beyond the averages: --segment COL breaks each cut down by group; --time COL
 with --shifts (and --tz) gives busy shifts: 9 shifts in 10 at most, from

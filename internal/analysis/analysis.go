@@ -238,11 +238,13 @@ type Second struct {
 
 // Starts returns the starting points under a: cutrule.Defaults and, when
 // rows are placed in shifts and a capacity is given, queue90 at the
-// capacity.
+// capacity, before the promised ones (cutrule.Promised), which come last.
 func Starts(a projection.Assumptions, shifts bool) []cutrule.Rule {
 	rules := cutrule.Defaults(a)
 	if shifts && a.Capacity > 0 {
-		rules = append(rules, cutrule.Rule{Kind: cutrule.Queue90, Value: a.Capacity})
+		promised := len(cutrule.Promised())
+		plain := rules[:len(rules)-promised]
+		rules = append(append(slices.Clone(plain), cutrule.Rule{Kind: cutrule.Queue90, Value: a.Capacity}), rules[len(rules)-promised:]...)
 	}
 	return rules
 }

@@ -97,11 +97,11 @@ func TestStarts(t *testing.T) {
 	}{
 		// cutrule.Defaults, then queue90 at the capacity with shifts:
 		// the rules of issue 6, common practice, no source.
-		{"plain", validation, false, "base hit=0.8 wrong=0.333"},
-		{"shifts without capacity", validation, true, "base hit=0.8 wrong=0.333"},
-		{"capacity without shifts", projection.Assumptions{BaseRate: 0.5, Volume: 10, Capacity: 3}, false, "base hit=0.8 wrong=0.333 queue=3"},
-		{"capacity and shifts", projection.Assumptions{BaseRate: 0.5, Volume: 10, Capacity: 3}, true, "base hit=0.8 wrong=0.333 queue=3 queue90=3"},
-		{"costs", projection.Assumptions{BaseRate: 0.5, Costs: costs}, true, "base hit=0.8 wrong=0.333 cost"},
+		{"plain", validation, false, "base hit=0.8 wrong=0.333 hit95=0.8 wrong95=0.333"},
+		{"shifts without capacity", validation, true, "base hit=0.8 wrong=0.333 hit95=0.8 wrong95=0.333"},
+		{"capacity without shifts", projection.Assumptions{BaseRate: 0.5, Volume: 10, Capacity: 3}, false, "base hit=0.8 wrong=0.333 queue=3 hit95=0.8 wrong95=0.333"},
+		{"capacity and shifts", projection.Assumptions{BaseRate: 0.5, Volume: 10, Capacity: 3}, true, "base hit=0.8 wrong=0.333 queue=3 queue90=3 hit95=0.8 wrong95=0.333"},
+		{"costs", projection.Assumptions{BaseRate: 0.5, Costs: costs}, true, "base hit=0.8 wrong=0.333 cost hit95=0.8 wrong95=0.333"},
 	} {
 		var got []string
 		for _, r := range analysis.Starts(c.a, c.shifts) {
@@ -265,13 +265,13 @@ func TestReassume(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if len(moved.Rules) != 6 || !same(moved.Rules, fresh.Rules) || !same(moved.Outcomes, fresh.Outcomes) ||
+	if len(moved.Rules) != 8 || !same(moved.Rules, fresh.Rules) || !same(moved.Outcomes, fresh.Outcomes) ||
 		!same(*moved.Shifts, *fresh.Shifts) || !same(moved.Segments, fresh.Segments) ||
 		!same(*moved.Calibration.Cost, *fresh.Calibration.Cost) || !same(moved.Calibration.NetBenefit, fresh.Calibration.NetBenefit) ||
 		!same(moved.Second.Outcomes, fresh.Second.Outcomes) {
 		t.Errorf("reassumed\n%+v\nwant\n%+v", moved, fresh)
 	}
-	if first.Assume != validation || len(first.Rules) != 3 {
+	if first.Assume != validation || len(first.Rules) != 5 {
 		t.Errorf("Reassume changed its receiver: %+v %v", first.Assume, first.Rules)
 	}
 }

@@ -30,6 +30,31 @@ func (r Rule) Basis(baseRateGiven bool) string {
 		return "the " + format.Projected + " cost per shift"
 	case Queue90:
 		return "the real shifts' 9-in-10 queue, " + format.Projected + " to production's volume"
+	case HitBound:
+		return "the one-sided " + format.Level(r.Confidence()) + " lower bound of the " + format.Measured + " hit share (Wilson)"
+	case WrongBound:
+		if baseRateGiven {
+			return "the one-sided " + format.Level(r.Confidence()) + " upper bound of the " + format.Projected + " wrong-alert share"
+		}
+		return "the one-sided " + format.Level(r.Confidence()) + " upper bound of the " + format.Measured + " wrong-alert share (Wilson)"
+	}
+	return ""
+}
+
+// Promise says what r's cut promises about production, for every view to
+// show beside the rule: hit= and wrong= meet their figure on the
+// validation set only, hitNN= and wrongNN= with their level. Other rules
+// give "".
+func (r Rule) Promise() string {
+	switch r.Kind {
+	case Hit:
+		return "hit share about " + format.Share(r.Value) + " on this set only: below it about half the time in production"
+	case Wrong:
+		return "wrong-alert share about " + format.Share(r.Value) + " on this set only: above it about half the time in production"
+	case HitBound:
+		return "hit share at least " + format.Share(r.Value) + " with " + format.Level(r.Confidence()) + " confidence: below it in about " + format.Level(1-r.Confidence()) + " of validation sets"
+	case WrongBound:
+		return "wrong-alert share at most " + format.Share(r.Value) + " with " + format.Level(r.Confidence()) + " confidence: above it in about " + format.Level(1-r.Confidence()) + " of validation sets"
 	}
 	return ""
 }

@@ -17,6 +17,22 @@
 //	queue90=K  the deepest cut at which 9 shifts in 10 of the validation
 //	           period queue at most K alerts (needs case times and a shift
 //	           schedule, WithShifts; see package shift)
+//	hitNN=R    the strictest cut whose one-sided NN% lower bound of
+//	           recall is >= R (hit95=0.8): its recall is at least R with
+//	           NN% confidence
+//	wrongNN=F  the deepest cut whose one-sided NN% upper bound of the
+//	           wrong-alert share is <= F (wrong95=0.333)
+//
+// hit=R and wrong=F meet their figure on the validation set only: the
+// cut's true recall lies below R (or its true wrong-alert share above F)
+// about half the time. hitNN= and wrongNN= keep their promise in all but
+// about 100-NN% of validation sets. NN, the level in percent, lies in
+// (50, 100) and may have decimals (hit99.5=0.8). The bounds are
+// one-sided Wilson bounds (package interval, OneSided) of the validation
+// counts; wrongNN=F, like wrong=F, reads the projected wrong-alert share
+// when production's base rate differs from the validation set's, and its
+// bound is then one end of the projected precision's interval
+// (projection.PrecisionInterval, at two-sided confidence 2·NN%-1).
 //
 // R and F are shares, written as package share reads them (0.8 or 80%);
 // so is P%, which may be a fraction of a percent (top=0.5%).
@@ -38,6 +54,7 @@ import (
 	"strings"
 
 	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/interval"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/share"
@@ -57,16 +74,30 @@ const (
 	Queue
 	Cost
 	Queue90
+	HitBound   // hitNN=R
+	WrongBound // wrongNN=F
 )
 
-var kindNames = [...]string{Score: "score", Top: "top", Hit: "hit", Wrong: "wrong", Base: "base", Queue: "queue", Cost: "cost", Queue90: "queue90"}
+var kindNames = [...]string{Score: "score", Top: "top", Hit: "hit", Wrong: "wrong", Base: "base", Queue: "queue", Cost: "cost", Queue90: "queue90",
+	HitBound: "hit", WrongBound: "wrong"}
 
 // Rule is a parsed cut spec.
 type Rule struct {
 	Kind    Kind
 	Value   float64 // the number after '='; unused by base and cost
 	Percent bool    // top=P%: Value is a percentage
+	// Level is NN of hitNN= and wrongNN=, the one-sided level in percent
+	// as written (95); 0 for other rules.
+	Level float64
 }
+
+// Confidence returns the one-sided level of a hitNN= or wrongNN= rule as
+// a share (0.95), 0 for other rules.
+func (r Rule) Confidence() float64 { return r.Level / 100 }
+
+// expected lists the specs, for the error of a spec that is none of them.
+const expected = "expected one of score=V, top=N, top=P%, hit=R, hitNN=R, wrong=F, wrongNN=F, base, queue=K, queue90=K, cost " +
+	"(R and F shares such as 0.8 or 80%, NN a one-sided level in percent above 50 and below 100, as in hit95=0.8)"
 
 // Errors returned by Parse and Find. They name what is missing, not how a
 // caller sets it; the command line adds its flags.
@@ -90,15 +121,30 @@ func Parse(text string) (Rule, error) {
 		return Rule{}, fmt.Errorf("%w %q: %s", ErrMalformed, text, why)
 	}
 	kind := -1
-	for k, n := range kindNames {
+	for k, n := range kindNames[:HitBound] {
 		if n == name {
 			kind = k
 		}
 	}
-	if kind < 0 {
-		return bad("expected one of score=V, top=N, top=P%, hit=R, wrong=F, base, queue=K, queue90=K, cost")
+	level := 0.0
+	for _, b := range []struct {
+		prefix string
+		kind   Kind
+	}{{"hit", HitBound}, {"wrong", WrongBound}} {
+		digits, ok := strings.CutPrefix(name, b.prefix)
+		if kind >= 0 || !ok || digits == "" || !(digits[0] >= '0' && digits[0] <= '9') {
+			continue
+		}
+		v, err := strconv.ParseFloat(digits, 64)
+		if err != nil || !(v > 50 && v < 100) {
+			return bad(fmt.Sprintf("%q is not a level: expected %sNN with NN in percent above 50 and below 100, as in %s95", digits, b.prefix, b.prefix))
+		}
+		kind, level = int(b.kind), v
 	}
-	r := Rule{Kind: Kind(kind)}
+	if kind < 0 {
+		return bad(expected)
+	}
+	r := Rule{Kind: Kind(kind), Level: level}
 	if r.Kind == Base || r.Kind == Cost {
 		if hasValue {
 			return bad(name + " takes no value")
@@ -108,7 +154,7 @@ func Parse(text string) (Rule, error) {
 	if !hasValue || value == "" {
 		return bad(name + " needs a value after '='")
 	}
-	if r.Kind == Hit || r.Kind == Wrong || r.Kind == Top && strings.HasSuffix(value, "%") {
+	if r.Kind == Hit || r.Kind == Wrong || r.Kind == HitBound || r.Kind == WrongBound || r.Kind == Top && strings.HasSuffix(value, "%") {
 		s, err := share.Read(value)
 		if err != nil {
 			return bad(err.Error())
@@ -142,6 +188,8 @@ func (r Rule) String() string {
 	switch r.Kind {
 	case Base, Cost:
 		return name
+	case HitBound, WrongBound:
+		name += strconv.FormatFloat(r.Level, 'g', -1, 64)
 	case Top:
 		if r.Percent {
 			return name + "=" + strconv.FormatFloat(r.Value, 'g', -1, 64) + "%"
@@ -153,7 +201,8 @@ func (r Rule) String() string {
 // Defaults returns the usual starting points (rules of thumb from common
 // practice, no source): match the base rate, catch 80% of true cases,
 // accept about one wrong alert in three; then queue=capacity when a
-// capacity and a volume are given, and cost when costs are given.
+// capacity and a volume are given, and cost when costs are given; then
+// hit=0.8 and wrong=0.333 again with a 95% promise (Promised).
 func Defaults(a projection.Assumptions) []Rule {
 	rules := []Rule{{Kind: Base}, {Kind: Hit, Value: 0.8}, {Kind: Wrong, Value: 0.333}}
 	if a.Capacity > 0 && a.Volume > 0 {
@@ -162,7 +211,15 @@ func Defaults(a projection.Assumptions) []Rule {
 	if a.Costs != nil {
 		rules = append(rules, Rule{Kind: Cost})
 	}
-	return rules
+	return append(rules, Promised()...)
+}
+
+// Promised returns the starting points that keep a promise: hit95=0.8
+// and wrong95=0.333, the hit=0.8 and wrong=0.333 of Defaults at a
+// one-sided 95% level. They come last among the starting points, so
+// that the keys of the others keep their places.
+func Promised() []Rule {
+	return []Rule{{Kind: HitBound, Value: 0.8, Level: 95}, {Kind: WrongBound, Value: 0.333, Level: 95}}
 }
 
 // Outcome is the cut a rule picks. When Met is false, Point is the zero
@@ -203,6 +260,10 @@ type Finder struct {
 
 	// For queue90=K: the shifts of the set's rows, and per rule a counter
 	// of the shift queues (nil for other rules).
+	// projectedWrong says whether wrongNN= bounds the projected
+	// wrong-alert share (production's base rate differs from the set's).
+	projectedWrong bool
+
 	shifts    *shift.Assignment
 	scale     shift.Scale
 	counters  []*shift.Counter
@@ -258,7 +319,33 @@ func NewFinder(rules []Rule, set *scores.Set, a projection.Assumptions, opts ...
 	for i, r := range rules {
 		f.best[i].Rule = r
 	}
+	positives, negatives := set.Totals()
+	f.projectedWrong = a.BaseRate != positives/(positives+negatives)
 	return f, nil
+}
+
+// WrongUpperBound returns the one-sided upper bound at level (a share in
+// (0.5,1)) of the wrong-alert share at p: Wilson's on the validation
+// counts (FP of TP+FP) when baseRate is the validation set's (projected
+// false), otherwise one minus the lower end of the projected precision's
+// interval at baseRate (projection.PrecisionInterval at two-sided
+// confidence 2·level-1). NaN where nothing is flagged or the projected
+// precision is undefined.
+func WrongUpperBound(p curve.Point, baseRate, level float64, projected bool) float64 {
+	if !projected {
+		_, upper := interval.OneSided(p.FP, p.TP+p.FP, level)
+		return upper
+	}
+	lower, _ := projection.PrecisionInterval(projection.Counts{TP: p.TP, FP: p.FP, FN: p.FN, TN: p.TN}, baseRate, 2*level-1)
+	return 1 - lower
+}
+
+// HitLowerBound returns the one-sided lower bound at level (a share in
+// (0.5,1)) of the recall at p: Wilson's of TP out of the true cases. NaN
+// without true cases.
+func HitLowerBound(p curve.Point, level float64) float64 {
+	lower, _ := interval.OneSided(p.TP, p.Positives(), level)
+	return lower
 }
 
 // Visit considers the next point; points must come strictest first.
@@ -319,6 +406,10 @@ func (f *Finder) keeps(i int, p curve.Point, fig projection.Figures) bool {
 		return !math.IsNaN(fig.CostPerCase) && (!f.found[i] || fig.CostPerCase < best-slack*math.Abs(best))
 	case Queue90:
 		return f.counters[i].Within()
+	case HitBound:
+		return !f.found[i] && HitLowerBound(p, r.Confidence()) >= r.Value-slack
+	case WrongBound:
+		return WrongUpperBound(p, f.a.BaseRate, r.Confidence(), f.projectedWrong) <= r.Value+slack
 	}
 	return false
 }
@@ -344,7 +435,7 @@ type Points interface {
 // every figure these rules compare) and hit=R, which first holds at some
 // cut and from there on, are found by binary search; wrong=F (the
 // wrong-alert share goes up and down) is scanned from the loosest cut
-// until one holds, and cost over every cut. queue90=K needs every row in
+// until one holds, and cost, hitNN= and wrongNN= over every cut. queue90=K needs every row in
 // its shift, so a Finder with such a rule visits every point instead.
 // Outcomes then returns the same as after visiting, reasons included.
 func (f *Finder) Search(pts Points) {
@@ -394,7 +485,7 @@ func (f *Finder) Search(pts Points) {
 					f.leastWrong = wrong
 				}
 			}
-		default: // cost
+		default: // cost, hitNN= and wrongNN= (bounds go up and down): every cut
 			for k := range n {
 				if p, fig := at(k); f.keeps(i, p, fig) {
 					f.keep(i, p, fig)
@@ -509,6 +600,16 @@ func (f *Finder) reason(r Rule) string {
 		return fmt.Sprintf("the strictest cut already queues %.1f alerts per shift, above %v", fig.QueuePerShift, r.Value)
 	case Cost:
 		return undefined("cost")
+	case HitBound:
+		if !(p.Positives() > 0) {
+			return "the validation set has no true cases, so hit share is undefined"
+		}
+		return fmt.Sprintf("no cut's one-sided %v%% lower bound of hit share reaches %v (too few true cases to promise it)", r.Level, r.Value)
+	case WrongBound:
+		if !(p.Positives() > 0) {
+			return "the validation set has no true cases, so every alert is wrong"
+		}
+		return fmt.Sprintf("every cut's one-sided %v%% upper bound of wrong-alert share is above %v", r.Level, r.Value)
 	}
 	return "no cut meets the rule"
 }

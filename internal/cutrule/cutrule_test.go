@@ -43,6 +43,11 @@ func TestParseAccepts(t *testing.T) {
 		{"queue=90", cutrule.Rule{Kind: cutrule.Queue, Value: 90}, "queue=90"},
 		{"queue=0", cutrule.Rule{Kind: cutrule.Queue}, "queue=0"},
 		{"queue=12.5", cutrule.Rule{Kind: cutrule.Queue, Value: 12.5}, "queue=12.5"},
+		{"hit95=0.8", cutrule.Rule{Kind: cutrule.HitBound, Value: 0.8, Level: 95}, "hit95=0.8"},
+		{"HIT90 = 80%", cutrule.Rule{Kind: cutrule.HitBound, Value: 0.8, Level: 90}, "hit90=0.8"},
+		{"hit99.5=0.7", cutrule.Rule{Kind: cutrule.HitBound, Value: 0.7, Level: 99.5}, "hit99.5=0.7"},
+		{"wrong95=0.333", cutrule.Rule{Kind: cutrule.WrongBound, Value: 0.333, Level: 95}, "wrong95=0.333"},
+		{"wrong80=25%", cutrule.Rule{Kind: cutrule.WrongBound, Value: 0.25, Level: 80}, "wrong80=0.25"},
 	}
 	for _, tc := range cases {
 		got, err := cutrule.Parse(tc.text)
@@ -81,6 +86,11 @@ func TestParseRejects(t *testing.T) {
 		{"top=0%", "expected a percentage above 0% and at most 100%"},
 		{"top=%", `"%" has no number before the percent sign, expected a share from 0 to 1 or a percentage from 0% to 100%, such as 0.05 or 5%`},
 		{"queue=-1", "expected a queue size of at least 0"},
+		{"hit100=0.8", `"100" is not a level: expected hitNN with NN in percent above 50 and below 100, as in hit95`},
+		{"hit50=0.8", `"50" is not a level: expected hitNN with NN in percent above 50 and below 100, as in hit95`},
+		{"wrong9x=0.3", `"9x" is not a level: expected wrongNN with NN in percent above 50 and below 100, as in wrong95`},
+		{"hit95", "hit95 needs a value after '='"},
+		{"wrong95=1.5", `"1.5" is more than 1, expected a share from 0 to 1 or a percentage from 0% to 100%, such as 0.05 or 5%`},
 		{"base=3", "base takes no value"},
 		{"cost=1", "cost takes no value"},
 		{"hit", "hit needs a value after '='"},
@@ -88,9 +98,9 @@ func TestParseRejects(t *testing.T) {
 		{"hit=abc", `"abc" is not a number, expected a share from 0 to 1 or a percentage from 0% to 100%, such as 0.05 or 5%`},
 		{"hit=NaN", `"NaN" is not a number, expected a share from 0 to 1 or a percentage from 0% to 100%, such as 0.05 or 5%`},
 		{"score=Inf", `"Inf" is not a finite number`},
-		{"recall=0.8", "expected one of score=V, top=N, top=P%, hit=R, wrong=F, base, queue=K, queue90=K, cost"},
-		{"", "expected one of score=V, top=N, top=P%, hit=R, wrong=F, base, queue=K, queue90=K, cost"},
-		{"=0.5", "expected one of score=V, top=N, top=P%, hit=R, wrong=F, base, queue=K, queue90=K, cost"},
+		{"recall=0.8", "expected one of score=V, top=N, top=P%, hit=R, hitNN=R, wrong=F, wrongNN=F, base, queue=K, queue90=K, cost (R and F shares such as 0.8 or 80%, NN a one-sided level in percent above 50 and below 100, as in hit95=0.8)"},
+		{"", "expected one of score=V, top=N, top=P%, hit=R, hitNN=R, wrong=F, wrongNN=F, base, queue=K, queue90=K, cost (R and F shares such as 0.8 or 80%, NN a one-sided level in percent above 50 and below 100, as in hit95=0.8)"},
+		{"=0.5", "expected one of score=V, top=N, top=P%, hit=R, hitNN=R, wrong=F, wrongNN=F, base, queue=K, queue90=K, cost (R and F shares such as 0.8 or 80%, NN a one-sided level in percent above 50 and below 100, as in hit95=0.8)"},
 	}
 	for _, tc := range cases {
 		_, err := cutrule.Parse(tc.text)
@@ -460,7 +470,8 @@ func TestFindOneClassAndEmpty(t *testing.T) {
 
 // TestDefaults checks the starting points: base, hit=0.8, wrong=0.333
 // (rules of thumb from common practice, no source), then queue=capacity
-// with a capacity and a volume, then cost with costs.
+// with a capacity and a volume, then cost with costs, then hit95=0.8 and
+// wrong95=0.333 (the same with a 95% promise).
 func TestDefaults(t *testing.T) {
 	specs := func(rules []cutrule.Rule) string {
 		var s []string
@@ -473,11 +484,11 @@ func TestDefaults(t *testing.T) {
 		a    projection.Assumptions
 		want string
 	}{
-		{projection.Assumptions{}, "base hit=0.8 wrong=0.333"},
-		{projection.Assumptions{Capacity: 90}, "base hit=0.8 wrong=0.333"}, // no volume: no queue
-		{projection.Assumptions{Capacity: 90, Volume: 1500}, "base hit=0.8 wrong=0.333 queue=90"},
-		{projection.Assumptions{Costs: &projection.Costs{Miss: 1}}, "base hit=0.8 wrong=0.333 cost"},
-		{projection.Assumptions{Capacity: 90, Volume: 1500, Costs: &projection.Costs{}}, "base hit=0.8 wrong=0.333 queue=90 cost"},
+		{projection.Assumptions{}, "base hit=0.8 wrong=0.333 hit95=0.8 wrong95=0.333"},
+		{projection.Assumptions{Capacity: 90}, "base hit=0.8 wrong=0.333 hit95=0.8 wrong95=0.333"}, // no volume: no queue
+		{projection.Assumptions{Capacity: 90, Volume: 1500}, "base hit=0.8 wrong=0.333 queue=90 hit95=0.8 wrong95=0.333"},
+		{projection.Assumptions{Costs: &projection.Costs{Miss: 1}}, "base hit=0.8 wrong=0.333 cost hit95=0.8 wrong95=0.333"},
+		{projection.Assumptions{Capacity: 90, Volume: 1500, Costs: &projection.Costs{}}, "base hit=0.8 wrong=0.333 queue=90 cost hit95=0.8 wrong95=0.333"},
 	}
 	for _, tc := range cases {
 		if got := specs(cutrule.Defaults(tc.a)); got != tc.want {

@@ -126,6 +126,8 @@ func TestFindMatchesOracle(t *testing.T) {
 			{Kind: cutrule.Queue, Value: rng.Float64() * a.Volume},
 			{Kind: cutrule.Cost},
 			{Kind: cutrule.Wrong, Value: rng.Float64()},
+			{Kind: cutrule.HitBound, Value: rng.Float64(), Level: 95},
+			{Kind: cutrule.WrongBound, Value: rng.Float64(), Level: 90},
 		}
 		if r := at.Recall(); !math.IsNaN(r) {
 			rules = append(rules, cutrule.Rule{Kind: cutrule.Hit, Value: r})

@@ -75,7 +75,8 @@ type assumptions struct {
 
 type cut struct {
 	Spec               string    `json:"spec"`
-	Basis              string    `json:"basis"` // the figure the rule picks on, measured or projected (cutrule.Rule.Basis)
+	Basis              string    `json:"basis"`             // the figure the rule picks on, measured or projected (cutrule.Rule.Basis)
+	Promise            string    `json:"promise,omitempty"` // what the rule's cut promises about production (cutrule.Rule.Promise); hit=, wrong=, hitNN=, wrongNN=
 	Met                bool      `json:"met"`
 	Reason             *string   `json:"reason"`
 	Score              number    `json:"score"`
@@ -220,6 +221,7 @@ func newReport(set *scores.Set, sum curve.Summary, warnings []analysis.Warning, 
 	for _, o := range outcomes {
 		c := newCut(o, a)
 		c.Basis = o.Rule.Basis(r.baseRateGiven)
+		c.Promise = o.Rule.Promise()
 		r.Cuts = append(r.Cuts, c)
 		if o.Met {
 			r.cutsEvidence = append(r.cutsEvidence, evidence.Of(o.Point, a))

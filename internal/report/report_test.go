@@ -492,6 +492,22 @@ func TestWriteJSONValues(t *testing.T) {
 	cuts := out["cuts"].([]any)
 	wantSpecs := []string{"base", "hit=0.8", "wrong=0.333", "queue=25", "cost"}
 	wantScores := []float64{0.80, 0.50, 0.90, 0.90, 0.90}
+	// Then hit95=0.8 and wrong95=0.333, neither met on so few cases (the
+	// weight column is not read here): all 4 true cases flagged give a
+	// one-sided 95% lower bound of 1/(1+z²/4) = 0.5965 (z² 2.705543),
+	// below 0.8; the most flagged with no false case is 2 (0.95 and 0.90),
+	// whose upper bound z²/(2+z²) = 0.575 is above 0.333, and every deeper
+	// cut has a wrong alert among few.
+	if len(cuts) != 7 {
+		t.Fatalf("%d cuts, want 7", len(cuts))
+	}
+	for i, spec := range []string{"hit95=0.8", "wrong95=0.333"} {
+		c := cuts[5+i].(map[string]any)
+		if c["spec"] != spec || c["met"] != false || c["reason"] == "" {
+			t.Errorf("cut %d: %v met %v (%v), want %s unmet with a reason", 5+i, c["spec"], c["met"], c["reason"], spec)
+		}
+	}
+	cuts = cuts[:5]
 	for i, raw := range cuts {
 		c := raw.(map[string]any)
 		if c["spec"] != wantSpecs[i] || num(c, "score") != wantScores[i] {

@@ -252,7 +252,11 @@ func (r *Report) basisLines() []string {
 		if c.Basis == "" || strings.HasPrefix(c.Spec, "score=") {
 			continue
 		}
-		lines = append(lines, c.Spec+" picks on "+c.Basis)
+		line := c.Spec + " picks on " + c.Basis
+		if c.Promise != "" {
+			line += "; " + c.Promise
+		}
+		lines = append(lines, line)
 	}
 	return lines
 }

@@ -300,6 +300,12 @@ func WriteText(w io.Writer, f *decision.File, path string) error {
 	for _, line := range belowTable(f) {
 		b.WriteString(line + "\n")
 	}
+	if lines := PromiseLines(f); len(lines) > 0 {
+		b.WriteString("\nwhat each rule promises\n")
+		for _, line := range lines {
+			b.WriteString("  " + line + "\n")
+		}
+	}
 	if lines := SegmentLines(f); len(lines) > 0 {
 		b.WriteString("\ngroups\n")
 		for _, line := range lines {
@@ -360,6 +366,12 @@ func WriteMarkdown(w io.Writer, f *decision.File, path string) error {
 	}
 	if lines := belowTable(f); len(lines) > 0 {
 		b.WriteString("\n")
+		for _, line := range lines {
+			b.WriteString("- " + format.Markdown(line) + "\n")
+		}
+	}
+	if lines := PromiseLines(f); len(lines) > 0 {
+		b.WriteString("\n## What each rule promises\n\n")
 		for _, line := range lines {
 			b.WriteString("- " + format.Markdown(line) + "\n")
 		}

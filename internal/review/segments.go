@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/format"
 )
@@ -68,4 +69,21 @@ func tests(n int) string {
 		return "1 test"
 	}
 	return fmt.Sprintf("%d tests", n)
+}
+
+// PromiseLines say, for each candidate picked by a rule that makes one,
+// what the rule promises about production (cutrule.Rule.Promise): hit=
+// and wrong= meet their figure on the validation set only, hitNN= and
+// wrongNN= hold it at their level. Nil when no candidate's rule makes a
+// promise.
+func PromiseLines(f *decision.File) []string {
+	var lines []string
+	for _, c := range f.Candidates {
+		r, err := cutrule.Parse(c.Rule)
+		if c.Rule == "" || err != nil || r.Promise() == "" {
+			continue
+		}
+		lines = append(lines, fmt.Sprintf("%s (%s): %s", oneLine(c.Name), r, r.Promise()))
+	}
+	return lines
 }

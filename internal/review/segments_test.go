@@ -50,3 +50,20 @@ func TestSegmentLines(t *testing.T) {
 		t.Errorf("no breakdown: %q", got)
 	}
 }
+
+// TestPromiseLines: hit= says it holds on this set only, hit95= its
+// level; a rule without a promise, a hand-picked cut and an unreadable
+// rule say nothing.
+func TestPromiseLines(t *testing.T) {
+	f := &decision.File{Candidates: []decision.Candidate{
+		{Name: "hit=0.8", Rule: "hit=0.8"}, {Name: "safe", Rule: "hit95=0.8"}, {Name: "base", Rule: "base"},
+		{Name: "by hand"}, {Name: "odd", Rule: "hit=lots"},
+	}}
+	want := []string{
+		"hit=0.8 (hit=0.8): hit share about 80.0% on this set only: below it about half the time in production",
+		"safe (hit95=0.8): hit share at least 80.0% with 95% confidence: below it in about 5% of validation sets",
+	}
+	if got := review.PromiseLines(f); !reflect.DeepEqual(got, want) {
+		t.Errorf("got\n%q\nwant\n%q", got, want)
+	}
+}
