@@ -120,29 +120,9 @@ func Parse(text string) (Rule, error) {
 	bad := func(why string) (Rule, error) {
 		return Rule{}, fmt.Errorf("%w %q: %s", ErrMalformed, text, why)
 	}
-	kind := -1
-	for k, n := range kindNames[:HitBound] {
-		if n == name {
-			kind = k
-		}
-	}
-	level := 0.0
-	for _, b := range []struct {
-		prefix string
-		kind   Kind
-	}{{"hit", HitBound}, {"wrong", WrongBound}} {
-		digits, ok := strings.CutPrefix(name, b.prefix)
-		if kind >= 0 || !ok || digits == "" || !(digits[0] >= '0' && digits[0] <= '9') {
-			continue
-		}
-		v, err := strconv.ParseFloat(digits, 64)
-		if err != nil || !(v > 50 && v < 100) {
-			return bad(fmt.Sprintf("%q is not a level: expected %sNN with NN in percent above 50 and below 100, as in %s95", digits, b.prefix, b.prefix))
-		}
-		kind, level = int(b.kind), v
-	}
-	if kind < 0 {
-		return bad(expected)
+	kind, level, why := parseName(name)
+	if why != "" {
+		return bad(why)
 	}
 	r := Rule{Kind: Kind(kind), Level: level}
 	if r.Kind == Base || r.Kind == Cost {
@@ -180,6 +160,32 @@ func Parse(text string) (Rule, error) {
 		return bad("expected a queue size of at least 0")
 	}
 	return r, nil
+}
+
+// parseName reads the name before '=': one of kindNames, or hit or wrong
+// followed by a level in percent (hitNN, wrongNN). why says what was
+// expected when it is none of them.
+func parseName(name string) (kind int, level float64, why string) {
+	for k, n := range kindNames[:HitBound] {
+		if n == name {
+			return k, 0, ""
+		}
+	}
+	for _, b := range []struct {
+		prefix string
+		kind   Kind
+	}{{"hit", HitBound}, {"wrong", WrongBound}} {
+		digits, ok := strings.CutPrefix(name, b.prefix)
+		if !ok || digits == "" || !(digits[0] >= '0' && digits[0] <= '9') {
+			continue
+		}
+		v, err := strconv.ParseFloat(digits, 64)
+		if err != nil || !(v > 50 && v < 100) {
+			return 0, 0, fmt.Sprintf("%q is not a level: expected %sNN with NN in percent above 50 and below 100, as in %s95", digits, b.prefix, b.prefix)
+		}
+		return int(b.kind), v, ""
+	}
+	return 0, 0, expected
 }
 
 // String returns the spec in the form Parse reads.
