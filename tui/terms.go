@@ -24,7 +24,7 @@ var explorerTerms = []term{
 	{"net benefit", "true cases found minus wrong alerts weighted by the odds of the threshold probability, per case (decision-curve analysis, scores in [0,1] only)"},
 	{"flag all, none", "the net benefit of flagging every case, and of flagging none (0), beside the cut's"},
 	{"validation TP FP FN TN", "on the validation set: true cases flagged, false cases flagged, true cases missed, false cases left alone"},
-	{"start 1-6", "the starting points: base (flag as many as the base rate), hit=0.8, wrong=0.333, queue=capacity, least cost, queue90; [n] is the cursor's"},
+	{"start 1-8", "the starting points: base (flag as many as the base rate), hit=0.8, wrong=0.333 (both on this set only), queue=capacity, least cost, queue90, then hit95=0.8 and wrong95=0.333 (95% sure); [n] is the cursor's"},
 	{"redraws a–b", "after b: the range 9 resampled sets in 10 give the measured share beside it (the bootstrap); ░ on the chart"},
 	{"steady", "after b: the starting point's cut keeps its workload and hit share within a factor of 1.25 across resampled sets (fairly steady: 1.6; unsteady: more)"},
 	{"ref, pt", "in the strip, differences from the chosen candidate (ref); shares differ in percentage points"},
