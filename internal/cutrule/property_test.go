@@ -8,6 +8,7 @@ import (
 
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/interval"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
 )
@@ -66,6 +67,25 @@ func oracle(r cutrule.Rule, points []curve.Point, set *scores.Set, a projection.
 			}
 		}
 		return -1
+	case cutrule.HitBound:
+		for i, p := range points {
+			if lower, _ := interval.Wilson(p.TP, p.Positives(), 2*r.Level/100-1); lower >= r.Value-slack {
+				return i
+			}
+		}
+		return -1
+	case cutrule.WrongBound:
+		positives, negatives := set.Totals()
+		projected := a.BaseRate != positives/(positives+negatives)
+		return deepest(func(i int) bool {
+			p := points[i]
+			_, upper := interval.Wilson(p.FP, p.TP+p.FP, 2*r.Level/100-1)
+			if projected {
+				lower, _ := projection.PrecisionInterval(projection.Counts{TP: p.TP, FP: p.FP, FN: p.FN, TN: p.TN}, a.BaseRate, 2*r.Level/100-1)
+				upper = 1 - lower
+			}
+			return upper <= r.Value+slack
+		})
 	}
 	panic("oracle: unknown kind")
 }
