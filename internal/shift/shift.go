@@ -495,6 +495,11 @@ type Counter struct {
 	covered, coveredSq       float64
 	shifts                   int
 	cases                    Spread
+	// The highest alert rate within the limit at the spread last seen
+	// twice in a row (the p90 grows with the rate at a fixed spread), so
+	// that a walk over many cuts at one spread needs one search.
+	lastSpread, critical float64
+	seenSpread, known    bool
 }
 
 // slack is the relative tolerance of a queue against its limit, as in
@@ -551,7 +556,37 @@ func (c *Counter) Within() bool {
 	if mean := c.sum / c.covered; math.Floor(mean) > c.limit {
 		return false
 	}
-	return c.queue().CDF(c.limit) >= 0.9
+	q := c.queue()
+	if !c.seenSpread || q.Spread != c.lastSpread {
+		c.seenSpread, c.known, c.lastSpread = true, false, q.Spread
+		return q.CDF(c.limit) >= 0.9
+	}
+	if !c.known {
+		c.critical, c.known = criticalRate(q.Volume, q.Spread, c.limit), true
+	}
+	if math.Abs(q.Rate-c.critical) > 1e-9 {
+		return q.Rate < c.critical
+	}
+	return q.CDF(c.limit) >= 0.9
+}
+
+// criticalRate is the alert rate at which the queue of volume cases and
+// the spread given has CDF(limit) = 0.9, by bisection: below it 9 shifts
+// in 10 stay within the limit.
+func criticalRate(volume, spread, limit float64) float64 {
+	lo, hi := 0.0, 1.0
+	if NewQueue(volume, hi, spread).CDF(limit) >= 0.9 {
+		return math.Inf(1)
+	}
+	for range 60 {
+		mid := (lo + hi) / 2
+		if NewQueue(volume, mid, spread).CDF(limit) >= 0.9 {
+			lo = mid
+		} else {
+			hi = mid
+		}
+	}
+	return (lo + hi) / 2
 }
 
 // P90 returns the model's 90th-percentile queue at the rows added so far,
