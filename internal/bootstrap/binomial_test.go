@@ -150,32 +150,40 @@ func TestPoissonTableIsInversion(t *testing.T) {
 	}
 }
 
-// TestOneCaseDraws: the draws of a cell of one case follow the Poisson
-// distribution of mean 1: over 1,000,000 seeded draws the share of 0, 1,
-// 2 and 3 lies within 5 standard errors of e^-1/x! (0.367879, 0.367879,
-// 0.183940, 0.061313; textbook), and the mean and variance within 0.005
-// of 1 (their standard errors are 0.001 and about 0.0017).
-func TestOneCaseDraws(t *testing.T) {
+// TestWholeMeanDraws: the draws of a cell of m cases (m whole, below 30)
+// follow the Poisson distribution of mean m: over 400,000 seeded draws
+// each at m = 1, 2, 10 and 29 the share of each count from 0 to m+3 lies
+// within 5 standard errors of e^-m m^x/x! (textbook), and the mean and
+// variance within 5 standard errors of m (the sample variance's is about
+// √((m + 2m²)/draws), from the Poisson's fourth central moment m + 3m²).
+func TestWholeMeanDraws(t *testing.T) {
 	rng := rand.New(rand.NewPCG(1, 1))
-	var one oneCaseDraws
-	const draws = 1_000_000
-	counts := make([]float64, 14)
-	var sum, sumSquares float64
-	for range draws {
-		x := one.draw(rng)
-		counts[x]++
-		sum += float64(x)
-		sumSquares += float64(x * x)
-	}
-	for x, want := range []float64{0.367879, 0.367879, 0.183940, 0.061313} {
-		got := counts[x] / draws
-		if se := math.Sqrt(want * (1 - want) / draws); math.Abs(got-want) > 5*se {
-			t.Errorf("share of %d: %v, want %v within %v", x, got, want, 5*se)
+	var whole wholeMeanDraws
+	const draws = 400_000
+	for _, m := range []int{1, 2, 10, 29} {
+		counts := map[int]float64{}
+		var sum, sumSquares float64
+		for range draws {
+			x := whole.draw(rng, m)
+			counts[x]++
+			sum += float64(x)
+			sumSquares += float64(x * x)
 		}
-	}
-	mean := sum / draws
-	variance := sumSquares/draws - mean*mean
-	if math.Abs(mean-1) > 0.005 || math.Abs(variance-1) > 0.005 {
-		t.Errorf("mean %v variance %v, want 1 and 1", mean, variance)
+		chance := math.Exp(-float64(m))
+		for x := 0; x <= m+3; x++ {
+			if x > 0 {
+				chance *= float64(m) / float64(x)
+			}
+			got := counts[x] / draws
+			if se := math.Sqrt(chance * (1 - chance) / draws); math.Abs(got-chance) > 5*se {
+				t.Errorf("mean %d: share of %d %v, want %v within %v", m, x, got, chance, 5*se)
+			}
+		}
+		mean := sum / draws
+		variance := sumSquares/draws - mean*mean
+		fm := float64(m)
+		if math.Abs(mean-fm) > 5*math.Sqrt(fm/draws) || math.Abs(variance-fm) > 5*math.Sqrt((fm+2*fm*fm)/draws) {
+			t.Errorf("mean %d: sample mean %v variance %v", m, mean, variance)
+		}
 	}
 }

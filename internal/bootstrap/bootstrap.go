@@ -465,12 +465,12 @@ func (r *replicator) draw(seed, b uint64) *scores.Set {
 				}
 			case len(r.groups) == 1:
 				// Ordinary design: the Poisson bootstrap, each cell's
-				// count drawn apart; a cell of one case (the usual one
-				// where scores are distinct) from 32 random bits.
-				var one oneCaseDraws
+				// count drawn apart; a cell of a whole number of cases
+				// below 30 (the usual one) from 32 random bits.
+				var whole wholeMeanDraws
 				for _, i := range g.rows {
-					if m := r.set.Weight(i); m == 1 {
-						r.drawn[i] = float64(one.draw(rng))
+					if m := r.set.Weight(i); m < 30 && m == math.Trunc(m) && m > 0 {
+						r.drawn[i] = float64(whole.draw(rng, int(m)))
 					} else {
 						r.drawn[i] = float64(poisson(rng, m))
 					}
@@ -535,32 +535,41 @@ var poissonTerms = func() (t [30][poissonTermsKept]float64) {
 // past them (the chance of 24 or more events is below 1e-23).
 const poissonTermsKept = 24
 
-// poissonOneBelow holds, for x = 0, 1, 2..., the chance that a Poisson draw
-// of mean 1 is at most x, times 2^32 and rounded down: a uniform 32-bit
-// number below entry x and at or above entry x-1 draws x. Each chance is
-// off by less than 2^-32 (2.3e-10), far below the bootstrap's own noise;
-// the draws stop at 13 (13 or more have a chance of 1.7e-10 together).
-var poissonOneBelow = func() (t [13]uint32) {
-	f, cumulative := math.Exp(-1), 0.0
-	for x := range t {
-		if x > 0 {
-			f /= float64(x)
+// poissonBelow holds, for each whole mean m from 1 to 29 and x = 0, 1,
+// 2..., the chance that a Poisson draw of mean m is at most x, times 2^32
+// and rounded down: a uniform 32-bit number below entry x and at or above
+// entry x-1 draws x. Each chance is off by less than 2^-32 (2.3e-10), far
+// below the bootstrap's own noise; a table ends where the chances left
+// round to nothing (its last entry stands for that many or more, a chance
+// below 2.3e-10).
+var poissonBelow = func() (t [30][]uint32) {
+	for m := 1; m < 30; m++ {
+		f, cumulative := math.Exp(-float64(m)), 0.0
+		for x := 0; ; x++ {
+			if x > 0 {
+				f *= float64(m) / float64(x)
+			}
+			cumulative += f
+			below := min(math.Floor(cumulative*(1<<32)), math.MaxUint32)
+			t[m] = append(t[m], uint32(below))
+			if below == math.MaxUint32 {
+				break
+			}
 		}
-		cumulative += f
-		t[x] = uint32(min(math.Floor(cumulative*(1<<32)), math.MaxUint32))
 	}
 	return t
 }()
 
-// oneCaseDraws draws Poisson counts of mean 1 (a cell of one case) from
-// half a 64-bit random number each, by inversion against
-// poissonOneBelow. The zero value is ready; it holds the unused half.
-type oneCaseDraws struct {
+// wholeMeanDraws draws Poisson counts of a whole mean below 30 (a cell of
+// that many cases) from half a 64-bit random number each, by inversion
+// against poissonBelow (a binary search of its table). The zero value is
+// ready; it holds the unused half.
+type wholeMeanDraws struct {
 	bits uint64
 	kept bool
 }
 
-func (o *oneCaseDraws) draw(rng *rand.Rand) int {
+func (o *wholeMeanDraws) draw(rng *rand.Rand, m int) int {
 	var u uint32
 	if o.kept {
 		u, o.kept = uint32(o.bits>>32), false
@@ -568,11 +577,17 @@ func (o *oneCaseDraws) draw(rng *rand.Rand) int {
 		o.bits, o.kept = rng.Uint64(), true
 		u = uint32(o.bits)
 	}
-	x := 0
-	for x < len(poissonOneBelow) && u >= poissonOneBelow[x] {
-		x++
+	below := poissonBelow[m]
+	lo, hi := 0, len(below)
+	for lo < hi {
+		mid := (lo + hi) / 2
+		if u >= below[mid] {
+			lo = mid + 1
+		} else {
+			hi = mid
+		}
 	}
-	return x
+	return lo
 }
 
 // poisson draws from the Poisson distribution of mean m: by inversion
