@@ -26,7 +26,7 @@ var explorerTerms = []term{
 	{"validation TP FP FN TN", "on the validation set: true cases flagged, false cases flagged, true cases missed, false cases left alone"},
 	{"start 1-8", "the starting points: base (flag as many as the base rate), hit=0.8, wrong=0.333 (both on this set only), queue=capacity, least cost, queue90, then hit95=0.8 and wrong95=0.333 (95% sure); [n] is the cursor's"},
 	{"redraws a–b", "after b: the range 9 resampled sets in 10 give the measured share beside it (the bootstrap); ░ on the chart"},
-	{"steady", "after b: the starting point's cut keeps its workload and hit share within a factor of 1.25 across resampled sets (fairly steady: 1.6; unsteady: more)"},
+	{"steady", "after b: the starting point's cut keeps its workload and hit share within a factor of 1.25 across resampled sets (fairly steady: 1.6; unsteady: more); thresholds of this tool's own convention, no published source"},
 	{"ref, pt", "in the strip, differences from the chosen candidate (ref); shares differ in percentage points"},
 	{"◆ ◇", "the chosen candidate; a pinned one on the chart"},
 	{"ROC AUC", "how often a true case outranks a false one; 0.5 is chance; (a–b): its interval at the confidence level, from DeLong's variance"},

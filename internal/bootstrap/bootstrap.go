@@ -716,8 +716,10 @@ func (r *replicator) band(cuts []bandCut, b int, recallAt, fdrAt [][]float64) {
 // the workload), so it judges by whichever of the flagged share (the
 // workload) and the hit share moves more, as the ratio of its 95th to its
 // 5th percentile: "steady" under 1.25, "fairly steady" under 1.6, else
-// "unsteady". A rule met in under 95% of the replicates is "often unmet"
-// whatever its spread.
+// "unsteady" (thresholds of this tool's own convention, with no published
+// source: WordsConvention says so wherever the words show; the ratio
+// itself is always given). A rule met in under 95% of the replicates is
+// "often unmet" whatever its spread.
 func Describe(s Spread, replicates int) string {
 	switch {
 	case s.Skipped != "":
@@ -756,6 +758,10 @@ func Describe(s Spread, replicates int) string {
 	}
 	return fmt.Sprintf("unsteady: the %s varies by a factor of %.2f between the 5th and 95th percentile", what, ratio)
 }
+
+// WordsConvention states the thresholds of Describe's words, for every
+// view that shows them.
+const WordsConvention = "steady, fairly steady, unsteady: the larger of the workload's and the hit share's 95th-to-5th percentile ratio is below 1.25, below 1.6, or more; thresholds of this tool's own convention, with no published source, so read the ratio itself"
 
 // BandAt returns the band point nearest to cut number cut of the set's
 // curve: the band cut at the same place or, between two, the stricter

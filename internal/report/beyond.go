@@ -499,7 +499,8 @@ func (r *Report) addStability(result *analysis.Result) {
 		r.Warnings = append(r.Warnings, fmt.Sprintf("the cost threshold that calibrated probabilities imply (%s) lies outside the range where the least-cost cut lands in resampled sets (%s to %s): the scores are probably not calibrated, so do not read them as probabilities for costing",
 			format.Number(result.Calibration.Cost.Score, 3), format.Significant(s.Score[0], 4), format.Significant(s.Score[1], 4)))
 	}
-	notes := []string{fmt.Sprintf("%d resampled sets (seed %d), %s; the 5th and 95th percentiles bound a 90%% range", res.Replicates, res.Seed, designWords(res.Design))}
+	notes := []string{fmt.Sprintf("%d resampled sets (seed %d), %s; the 5th and 95th percentiles bound a 90%% range", res.Replicates, res.Seed, designWords(res.Design)),
+		bootstrap.WordsConvention}
 	r.sections = append(r.sections, section{title: "how stable each cut is (bootstrap)", table: t, notes: notes})
 }
 
