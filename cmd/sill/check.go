@@ -59,6 +59,17 @@ the verdict as a whole. --tolerance adds a practical margin on every share.
 When the validation set is smaller than the new data, the check's power
 and false alarms rest mostly on the validation set, and the output says so.
 
+Against a production baseline: when the validation set is small beside the
+batches, --baseline FIRST_BATCH judges the batches given after the decision
+file, in order, against that first production batch instead: a two-sided
+CUSUM (Page 1954) of the alert rate at the chosen cut, on the angular scale.
+Its decision interval is set by a seeded simulation that includes the
+baseline's own noise, so that on noise alone a false signal within the
+batches given comes about once in 100 runs; the output states it, and how
+soon a rise of the alert rate by a fifth would signal. A signal is drift
+(exit 1): the base rate or the model moved, which one a labelled check of
+the batch tells.
+
 Exit status:
   0  ok          the model behaves as validated, at the base rate assumed
   1  drift       the model no longer behaves as validated
@@ -75,14 +86,16 @@ func newCheckCmd() *cobra.Command {
 		output       string
 		tolerance    float64
 		ignoreLabels bool
+		baseline     string
 	)
 	cmd := &cobra.Command{
 		Use:   "check FILE.yaml NEW_SCORES",
 		Short: "Check fresh production scores against the chosen cut of a decision file",
 		Long:  checkLong,
 		Example: `  sill check cut.yaml scores-2026-09-28.csv
-  sill check cut.yaml nightly.csv.gz --format json --tolerance 0.02`,
-		Args: argsNamed("the decision file", "the new scores (either may be - for standard input)"),
+  sill check cut.yaml nightly.csv.gz --format json --tolerance 0.02
+  sill check cut.yaml --baseline week-01.csv week-02.csv week-03.csv week-04.csv`,
+		Args: checkArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if output != "text" && output != "json" {
 				return fmt.Errorf("--format %q: expected text or json", output)
@@ -119,6 +132,11 @@ func newCheckCmd() *cobra.Command {
 				kind := file.Data.WeightKind
 				input.defaultKind = &kind
 			}
+			if baseline != "" {
+				return checkBaseline(cmd, file, args[0], baseline, args[1:], output, func(path string) (*scores.Set, error) {
+					return input.load(cmd.Context(), path, cmd.InOrStdin(), nil)
+				})
+			}
 			set, err := input.load(cmd.Context(), args[1], cmd.InOrStdin(), nil)
 			if err != nil {
 				var parseErr *scores.ParseError
@@ -135,7 +153,7 @@ func newCheckCmd() *cobra.Command {
 			for _, w := range analysis.DroppedWarnings(set) {
 				fmt.Fprintf(cmd.ErrOrStderr(), "sill: warning: %s: %s\n", format.Printable(args[1]), format.Printable(w))
 			}
-			res, err := drift.Check(file, set, drift.Options{Tolerance: tolerance, Labelled: set.LabelColumn() != "" && !ignoreLabels, IgnoreLabels: "--ignore-labels",
+			res, err := drift.Check(file, set, drift.Options{Tolerance: tolerance, Labelled: set.LabelColumn() != "" && !ignoreLabels, IgnoreLabels: "--ignore-labels", Baseline: "--baseline FIRST_BATCH",
 				Sample: design.New(set, input.kind()),
 				Redo:   func(baseRate float64) string { return redoLine(file, args[0], baseRate) }})
 			if err != nil {
@@ -165,10 +183,77 @@ func newCheckCmd() *cobra.Command {
 	_ = fs.MarkHidden("segment")
 	_ = fs.MarkHidden("id")
 	fs.StringVar(&output, "format", "text", "output: text or json")
+	fs.StringVar(&baseline, "baseline", "", "a first production batch: the batches after the decision file are judged against it, in order, by a CUSUM of the alert rate (see above)")
 	fs.BoolVar(&ignoreLabels, "ignore-labels", false, "check the alert rate and scores only, even where a label column is present")
 	fs.Var(newShareFlag(&tolerance, 0, shareBounds{below1: true, expected: "a margin below 1, such as 0.02 or 2% for two percentage points"}),
 		"tolerance", "practical margin on every share, such as 0.02 or 2% for two percentage points")
 	return cmd
+}
+
+// checkArgs takes the decision file and the new scores, or with
+// --baseline the decision file and one or more batches.
+func checkArgs(cmd *cobra.Command, args []string) error {
+	if !cmd.Flags().Changed("baseline") {
+		return argsNamed("the decision file", "the new scores (either may be - for standard input)")(cmd, args)
+	}
+	if len(args) < 2 {
+		return fmt.Errorf("check --baseline takes the decision file then one or more batches to judge, in order; got %d arguments (see sill check --help)", len(args))
+	}
+	return nil
+}
+
+// checkBaseline judges batches, in order, against the baseline batch at
+// the chosen cut of file (drift.JudgeBaseline) and writes the result;
+// exit status 1 when the rule signals.
+func checkBaseline(cmd *cobra.Command, file *decision.File, filePath, baseline string, batches []string, output string, load func(string) (*scores.Set, error)) error {
+	stdin := 0
+	for _, path := range append([]string{filePath, baseline}, batches...) {
+		if path == "-" {
+			stdin++
+		}
+	}
+	if stdin > 1 {
+		return fmt.Errorf("--baseline: at most one of the decision file, the baseline and the batches may come from standard input")
+	}
+	count := func(path string) (drift.Batch, error) {
+		set, err := load(path)
+		if err != nil {
+			return drift.Batch{}, err
+		}
+		for _, w := range report.DroppedWarnings(set) {
+			fmt.Fprintf(cmd.ErrOrStderr(), "sill: warning: %s: %s\n", format.Printable(path), format.Printable(w))
+		}
+		return drift.Count(file, set, path)
+	}
+	base, err := count(baseline)
+	if err != nil {
+		return fmt.Errorf("--baseline: %w", err)
+	}
+	var judged []drift.Batch
+	for _, path := range batches {
+		b, err := count(path)
+		if err != nil {
+			return err
+		}
+		judged = append(judged, b)
+	}
+	seq, err := drift.JudgeBaseline(base, judged)
+	if err != nil {
+		return fmt.Errorf("--baseline %s: %w", baseline, err)
+	}
+	chosen, _ := file.ChosenCandidate()
+	if output == "json" {
+		err = drift.WriteBaselineJSON(cmd.OutOrStdout(), seq, chosen.Name, chosen.Cut.Score, filePath)
+	} else {
+		err = drift.WriteBaselineText(cmd.OutOrStdout(), seq, format.Printable(chosen.Name), chosen.Cut.Score, file.Data.LowerIsRiskier, filePath)
+	}
+	if err != nil {
+		return err
+	}
+	if seq.Status() == drift.StatusDrift {
+		return &exitError{code: 1}
+	}
+	return nil
 }
 
 // redoLine is the sill report line that writes the decision of file,

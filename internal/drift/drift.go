@@ -55,6 +55,11 @@ type Options struct {
 	// (the command line gives its flag), for the note that says why
 	// recall and precision were not checked; "" leaves it out.
 	IgnoreLabels string
+	// Baseline names, in the caller's words, the way to judge batches
+	// against a first production batch instead (the command line gives
+	// its flag), for the note on a small validation set; "" leaves it
+	// out.
+	Baseline string
 	// Redo, when set, gives the caller's command that writes the decision
 	// re-projected at a base rate, for the next step of an assumption.
 	Redo func(baseRate float64) string
@@ -134,6 +139,7 @@ type Result struct {
 	Redo string
 
 	ignoreLabels string // Options.IgnoreLabels, for the notes
+	baselineHint string // Options.Baseline, for the note on a small validation set
 	byCurve      bool   // the file keeps the curve the class bins come from
 }
 
@@ -247,7 +253,7 @@ func check(f *decision.File, chosen decision.Candidate, t tally, opt Options) *R
 	a := f.Assumptions
 	res := &Result{
 		Chosen: chosen.Name, Cut: chosen.Cut.Score, LowerIsRiskier: f.Data.LowerIsRiskier,
-		Rows: t.rows, Weight: t.weight, Flagged: t.flagged, Weighted: t.weighted, Labelled: opt.Labelled, Tolerance: opt.Tolerance, Confidence: a.Confidence, ignoreLabels: opt.IgnoreLabels,
+		Rows: t.rows, Weight: t.weight, Flagged: t.flagged, Weighted: t.weighted, Labelled: opt.Labelled, Tolerance: opt.Tolerance, Confidence: a.Confidence, ignoreLabels: opt.IgnoreLabels, baselineHint: opt.Baseline,
 		PSI: math.NaN(), PSINoise: math.NaN(), PSINoiseLevel: math.NaN(),
 	}
 
@@ -470,8 +476,12 @@ func (r *Result) notes() []string {
 		notes = append(notes, fmt.Sprintf("the new data are few: sampling noise alone gives a PSI of about %s, so its bands read high", format.Number(r.PSINoise, 3)))
 	}
 	if r.SmallValidation() {
-		notes = append(notes, fmt.Sprintf("the validation set (%s) is smaller than the new data (%s): the check's power and false alarms rest mostly on the validation set, so a small change may go unseen and the verdict reads the validation set's own noise as much as production's",
-			format.Count(r.ValidationWeight), format.Count(r.Weight)))
+		line := fmt.Sprintf("the validation set (%s) is smaller than the new data (%s): the check's power and false alarms rest mostly on the validation set, so a small change may go unseen and the verdict reads the validation set's own noise as much as production's",
+			format.Count(r.ValidationWeight), format.Count(r.Weight))
+		if r.baselineHint != "" {
+			line += "; to watch production over time, judge later batches against a first production batch (" + r.baselineHint + ")"
+		}
+		notes = append(notes, line)
 	}
 	return notes
 }
