@@ -220,7 +220,7 @@ func checkBaseline(cmd *cobra.Command, file *decision.File, filePath, baseline s
 		if err != nil {
 			return drift.Batch{}, err
 		}
-		for _, w := range report.DroppedWarnings(set) {
+		for _, w := range analysis.DroppedWarnings(set) {
 			fmt.Fprintf(cmd.ErrOrStderr(), "sill: warning: %s: %s\n", format.Printable(path), format.Printable(w))
 		}
 		return drift.Count(file, set, path)
