@@ -37,7 +37,7 @@ compressed; "-" reads standard input) and prints its summary and the figures
 of each cut: hit share, wrong-alert share, queue and cost per shift.
 
 Cut specs for --cut (repeatable):
-  score=V   the cut at score V            top=N, top=P%  flag at most N rows / P%
+  score=V   the cut at score V            top=N, top=P%  flag at most N cases / P%
   hit=R     catch at least share R         wrong=F        wrong-alert share at most F
   base      flag as many as the base rate  queue=K        at most K alerts per shift
   cost      least cost per shift           queue90=K      9 shifts in 10 at most K alerts

@@ -37,7 +37,9 @@
 // R and F are shares, written as package share reads them (0.8 or 80%);
 // so is P%, which may be a fraction of a percent (top=0.5%).
 //
-// score= and top= concern the ranked list and count rows, never weight.
+// score= concerns the ranked list. top= counts cases: rows, a counts
+// table's cases, or with weights the weighted cases (the sum of the
+// flagged rows' weights; top=P% of the sum of all weights).
 // The other rules use the projected production figures (package
 // projection), which equal the validation figures when the production base
 // rate is the validation one. Which cases a cut flags follows the cut rule
@@ -266,6 +268,10 @@ type Finder struct {
 
 	// For queue90=K: the shifts of the set's rows, and per rule a counter
 	// of the shift queues (nil for other rules).
+	// totalCases is what top=P% takes its share of: the weighted cases
+	// of a weighted set, else the cases (rows, or a counts table's cases).
+	totalCases float64
+
 	// projectedWrong says whether wrongNN= bounds the projected
 	// wrong-alert share (production's base rate differs from the set's).
 	projectedWrong bool
@@ -327,7 +333,21 @@ func NewFinder(rules []Rule, set *scores.Set, a projection.Assumptions, opts ...
 	}
 	positives, negatives := set.Totals()
 	f.projectedWrong = a.BaseRate != positives/(positives+negatives)
+	f.totalCases = float64(f.cases)
+	if set.Weighted() {
+		f.totalCases = positives + negatives
+	}
 	return f, nil
+}
+
+// flaggedCases is what top= counts at p: the weighted cases flagged in a
+// weighted set (frequency or sampling weights alike: the cases the set
+// stands for), else the cases flagged.
+func (f *Finder) flaggedCases(p curve.Point) float64 {
+	if f.set.Weighted() {
+		return p.TP + p.FP
+	}
+	return float64(p.Cases)
 }
 
 // WrongUpperBound returns the one-sided upper bound at level (a share in
@@ -394,9 +414,9 @@ func (f *Finder) keeps(i int, p curve.Point, fig projection.Figures) bool {
 	case Top:
 		limit := r.Value
 		if r.Percent {
-			limit = r.Value / 100 * float64(f.cases)
+			limit = r.Value / 100 * f.totalCases
 		}
-		return float64(p.Cases) <= limit*(1+slack)
+		return f.flaggedCases(p) <= limit*(1+slack)
 	case Hit:
 		return !f.found[i] && p.Recall() >= r.Value-slack
 	case Wrong:
@@ -571,6 +591,9 @@ func (f *Finder) reason(r Rule) string {
 	case Score:
 		return fmt.Sprintf("no score is at or beyond %v; the riskiest is %v", r.Value, p.Score)
 	case Top:
+		if f.set.Weighted() {
+			return fmt.Sprintf("the strictest cut already flags %v weighted cases (score %v)", p.TP+p.FP, p.Score)
+		}
 		if p.Cases == 1 {
 			return fmt.Sprintf("the strictest cut already flags 1 row (score %v)", p.Score)
 		}

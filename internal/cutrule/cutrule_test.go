@@ -264,8 +264,11 @@ func TestFindHandExample(t *testing.T) {
 	})
 }
 
-// TestFindTopCountsRows checks that top= counts validation rows, never
-// weight: the first row weighs 10 of 13, yet top=2 still flags 2 rows.
+// TestFindTopCountsRows checks that top= counts cases: with weights the
+// weighted cases (frequency weights: a weight of 10 stands for 10 cases).
+// The first row weighs 10 of 13, so top=2 and top=50% (6.5 of 13) flag
+// nothing and are unmet, top=11 flags the first two rows (weight 11) and
+// top=85% (11.05) the same; top=10 the first row alone.
 func TestFindTopCountsRows(t *testing.T) {
 	set, err := scores.New([]float64{0.9, 0.8, 0.7, 0.6}, []bool{true, false, false, true}, []float64{10, 1, 1, 1}, false)
 	if err != nil {
@@ -274,9 +277,11 @@ func TestFindTopCountsRows(t *testing.T) {
 	c := curve.New(set)
 	a := projection.Assumptions{BaseRate: 11.0 / 13, Confidence: 0.95}
 	checkOutcomes(t, c, a, []want{
-		{"top=2", 0.8, ""},
-		{"top=50%", 0.8, ""}, // 2 of 4 rows; by weight 0.9 alone would be 77%
-		{"top=25%", 0.9, ""},
+		{"top=2", unmet, "the strictest cut already flags 10 weighted cases (score 0.9)"},
+		{"top=50%", unmet, "the strictest cut already flags 10 weighted cases (score 0.9)"},
+		{"top=10", 0.9, ""},
+		{"top=11", 0.8, ""},
+		{"top=85%", 0.8, ""},
 	})
 
 	// A strictest tie group larger than N: top= flags nothing and is unmet.
@@ -454,7 +459,7 @@ func TestFindOneClassAndEmpty(t *testing.T) {
 	}
 	checkOutcomes(t, curve.New(set), projection.Assumptions{BaseRate: 0, Confidence: 0.95}, []want{
 		{"base", unmet, "the projected alert rate is undefined: no case in the validation set has any weight"},
-		{"top=1", 0.5, ""}, // top= counts rows, whatever they weigh
+		{"top=1", 0.4, ""}, // no weighted case is flagged at any cut: the deepest
 	})
 
 	empty, err := scores.New(nil, nil, nil, false)

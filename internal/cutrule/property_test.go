@@ -36,11 +36,17 @@ func oracle(r cutrule.Rule, points []curve.Point, set *scores.Set, a projection.
 	case cutrule.Score:
 		return deepest(func(i int) bool { return !set.Riskier(r.Value, points[i].Score) })
 	case cutrule.Top:
+		// Cases: rows, or with weights the weighted cases.
+		total, flagged := float64(set.Len()), func(i int) float64 { return float64(points[i].Rows) }
+		if set.Weighted() {
+			positives, negatives := set.Totals()
+			total, flagged = positives+negatives, func(i int) float64 { return points[i].TP + points[i].FP }
+		}
 		limit := r.Value
 		if r.Percent {
-			limit = r.Value / 100 * float64(set.Len())
+			limit = r.Value / 100 * total
 		}
-		return deepest(func(i int) bool { return float64(points[i].Rows) <= limit*(1+slack) })
+		return deepest(func(i int) bool { return flagged(i) <= limit*(1+slack) })
 	case cutrule.Hit:
 		for i, p := range points {
 			if p.Recall() >= r.Value-slack {
