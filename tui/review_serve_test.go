@@ -56,8 +56,7 @@ func TestReviewReadOnlySigner(t *testing.T) {
 	if cmd == nil {
 		t.Fatal("enter on the filled form signed nothing")
 	}
-	next, _ = r.Update(cmd())
-	r = next.(Review)
+	_, _ = r.Update(cmd())
 	back, err := decision.ReadFile(path)
 	if err != nil {
 		t.Fatal(err)

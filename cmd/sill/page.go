@@ -39,15 +39,6 @@ func pageOut(ctx context.Context, out string, stdout, stderr io.Writer, write fu
 	return nil
 }
 
-// readDecision reads the decision file at path, or standard input for "-".
-func readDecision(path string, stdin io.Reader) (*decision.File, sharedfile.Stamp, error) {
-	if path == "-" {
-		f, err := decision.Read(stdin, "-")
-		return f, sharedfile.Stamp{}, err
-	}
-	return decision.ReadFileStamped(path)
-}
-
 // reviewPage writes the sign-off page of file, read from path, or with
 // production (read from against) the page that sets it beside the
 // decision in production.

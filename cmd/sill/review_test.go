@@ -17,7 +17,8 @@ import (
 	"github.com/sill-tool/sill/internal/golden"
 )
 
-var update = flag.Bool("update", false, "rewrite the golden files under testdata")
+// The -update flag, which golden.Check reads by name.
+var _ = flag.Bool("update", false, "rewrite the golden files under testdata")
 
 // checkGolden compares got with testdata/<Test>/<name>.golden, rewriting
 // the file under -update.

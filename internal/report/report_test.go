@@ -43,12 +43,11 @@ const handTable = "id,score,label,w\n" +
 
 // scenario is one report as the report command builds it.
 type scenario struct {
-	name     string
-	table    string
-	opt      scores.Options
-	a        func(set *scores.Set) projection.Assumptions // nil: validation base rate, 95%
-	specs    []string                                     // nil: the starting points
-	dropNote string
+	name  string
+	table string
+	opt   scores.Options
+	a     func(set *scores.Set) projection.Assumptions // nil: validation base rate, 95%
+	specs []string                                     // nil: the starting points
 }
 
 func validation(set *scores.Set) projection.Assumptions {

@@ -275,30 +275,27 @@ type bucketColumns struct {
 // same length; from's contents are lost. It is a most-significant-digit
 // radix sort, a byte a level, that ends in insertion sorts of short runs.
 func sortInto(from, to bucketColumns, bits uint) {
-	for {
-		n := len(from.keys)
-		if n < smallBucket || bits == 0 {
-			if bits > 0 {
-				insertionSort(from)
-			}
-			from.copyTo(to)
-			return
+	n := len(from.keys)
+	if n < smallBucket || bits == 0 {
+		if bits > 0 {
+			insertionSort(from)
 		}
-		var next bool
-		if bits, next = narrow(from, bits); !next {
-			from.copyTo(to) // every key is the same
-			return
-		}
-		digitBits := min(8, bits)
-		shift := bits - digitBits
-		var offsets [257]int
-		scatter(from, to, shift, digitBits, &offsets)
-		for d := range 1 << digitBits {
-			if lo, hi := offsets[d], offsets[d+1]; hi-lo > 1 {
-				sortHere(to.slice(lo, hi), from.slice(lo, hi), shift)
-			}
-		}
+		from.copyTo(to)
 		return
+	}
+	var next bool
+	if bits, next = narrow(from, bits); !next {
+		from.copyTo(to) // every key is the same
+		return
+	}
+	digitBits := min(8, bits)
+	shift := bits - digitBits
+	var offsets [257]int
+	scatter(from, to, shift, digitBits, &offsets)
+	for d := range 1 << digitBits {
+		if lo, hi := offsets[d], offsets[d+1]; hi-lo > 1 {
+			sortHere(to.slice(lo, hi), from.slice(lo, hi), shift)
+		}
 	}
 }
 
