@@ -92,7 +92,7 @@ func (s *Server) review(w io.Writer, rec *record, args []string) error {
 	if *outFormat == "markdown" {
 		err = review.WriteMarkdown(&text, f, name)
 	} else {
-		err = review.WriteText(&text, f, name)
+		err = review.WriteText(&text, f, name, "sign --verdict approve|revise|reject [--role ROLE] [FILE]")
 	}
 	if err != nil {
 		return s.hidePath(err, i)

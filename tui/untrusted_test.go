@@ -87,7 +87,7 @@ func TestReviewShowsUntrustedTextSafely(t *testing.T) {
 	noRawControl(t, "review note box", r.View())
 
 	for name, write := range map[string]func(*strings.Builder) error{
-		"text":     func(b *strings.Builder) error { return review.WriteText(b, f, "cut"+format.Hostile+".yaml") },
+		"text":     func(b *strings.Builder) error { return review.WriteText(b, f, "cut"+format.Hostile+".yaml", "") },
 		"markdown": func(b *strings.Builder) error { return review.WriteMarkdown(b, f, "cut"+format.Hostile+".yaml") },
 	} {
 		var b strings.Builder

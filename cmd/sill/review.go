@@ -156,7 +156,7 @@ it to FILE (replacing only a page sill wrote).`,
 			if outFormat == "markdown" {
 				return review.WriteMarkdown(cmd.OutOrStdout(), file, args[0])
 			}
-			return review.WriteText(cmd.OutOrStdout(), file, args[0])
+			return review.WriteText(cmd.OutOrStdout(), file, args[0], "sill review FILE --sign NAME --role ROLE --verdict approve|revise|reject")
 		},
 	}
 	fs := cmd.Flags()

@@ -52,6 +52,10 @@ identifiers otherwise than with double quotes needs a hand edit.`,
 			if q.Dialect, err = warehouse.ParseDialect(dialect); err != nil {
 				return fmt.Errorf("--dialect %q: %w", dialect, err)
 			}
+			q.ReadBy = "sill report --counts FILE"
+			if q.Segment != "" {
+				q.ReadBy += " --segment " + shellWord(q.Segment)
+			}
 			text, err := q.SQL()
 			if err != nil {
 				return sqlFlagError(err)

@@ -214,9 +214,6 @@ func belowTable(f *decision.File) []string {
 	return lines
 }
 
-// SignHint says how to sign a file that has no sign-off yet.
-const SignHint = "none yet (sill review FILE --sign NAME --role ROLE --verdict approve|revise|reject)"
-
 func oneLine(s string) string { return strings.Join(strings.Fields(s), " ") }
 
 func shortDigest(d string) string {
@@ -283,8 +280,9 @@ func grid(t compare.Table) (header []string, rows [][]string) {
 
 // WriteText writes the side-by-side comparison of f's candidates, the
 // chosen one first, for a terminal or a plain-text sign-off. path names the
-// file in the heading.
-func WriteText(w io.Writer, f *decision.File, path string) error {
+// file in the heading; signHint, in the caller's words, says how to sign a
+// file with no sign-off yet (left out when "").
+func WriteText(w io.Writer, f *decision.File, path, signHint string) error {
 	var b strings.Builder
 	noun := "candidates"
 	if len(f.Candidates) == 1 {
@@ -321,7 +319,10 @@ func WriteText(w io.Writer, f *decision.File, path string) error {
 	b.WriteString("\nsign-offs\n")
 	lines := SignOffLines(f)
 	if len(lines) == 0 {
-		lines = []string{SignHint}
+		lines = []string{"none yet"}
+		if signHint != "" {
+			lines[0] += " (" + signHint + ")"
+		}
 	}
 	for _, line := range lines {
 		b.WriteString("  " + line + "\n")

@@ -7,7 +7,7 @@ import (
 )
 
 func ExampleQuery_SQL() {
-	q := warehouse.Query{Table: "desk.bearing_scores", Score: "p_fail", Label: "failed", Digits: 3, Positive: "yes"}
+	q := warehouse.Query{Table: "desk.bearing_scores", Score: "p_fail", Label: "failed", Digits: 3, Positive: "yes", ReadBy: "sill report --counts FILE"}
 	text, err := q.SQL()
 	if err != nil {
 		fmt.Println(err)

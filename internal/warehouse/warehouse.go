@@ -196,6 +196,11 @@ type Query struct {
 	// case or surrounding spaces; cases with any other label, NULL
 	// included, are counted as unrecognised, which ReadCounts refuses.
 	Positive string
+
+	// ReadBy is the command that reads the counts table, in the caller's
+	// words, written as the query's first comment line; "" leaves the
+	// line out.
+	ReadBy string
 }
 
 // Label words, as scores reads them; 1.0 and 0.0 are how engines write a
@@ -254,11 +259,9 @@ func (q Query) SQL() (string, error) {
 	}
 
 	var b strings.Builder
-	fmt.Fprintf(&b, "-- counts table for: sill report --counts FILE")
-	if q.Segment != "" {
-		fmt.Fprintf(&b, " --segment %s", shellWord(q.Segment))
+	if q.ReadBy != "" {
+		b.WriteString("-- counts table for: " + q.ReadBy + "\n")
 	}
-	b.WriteString("\n")
 	if q.Digits >= 0 {
 		fmt.Fprintf(&b, "-- scores rounded half up to %d digits; export the result as CSV with a header\n", q.Digits)
 	} else {
@@ -357,14 +360,4 @@ func literals(words []string) string {
 		quoted[i] = Literal(w)
 	}
 	return strings.Join(quoted, ", ")
-}
-
-// shellWord quotes a word for the comment line when it needs it.
-func shellWord(word string) string {
-	if word != "" && strings.IndexFunc(word, func(r rune) bool {
-		return !(r == '_' || r == '-' || r == '.' || r >= '0' && r <= '9' || r >= 'a' && r <= 'z' || r >= 'A' && r <= 'Z')
-	}) < 0 {
-		return word
-	}
-	return strconv.Quote(word)
 }

@@ -124,6 +124,10 @@ func TestSQLGolden(t *testing.T) {
 		"clickhouse-text-type":    {Table: "scored", Score: "p", Label: "failed", Digits: 2, Dialect: ClickHouse, TextType: "String"},
 	}
 	for name, q := range cases {
+		q.ReadBy = "sill report --counts FILE" // as cmd words it
+		if q.Segment != "" {
+			q.ReadBy += " --segment " + q.Segment
+		}
 		got, err := q.SQL()
 		if err != nil {
 			t.Fatal(err)
