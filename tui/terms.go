@@ -18,7 +18,7 @@ var explorerTerms = []term{
 	{"base", "the base rate: the share of true cases expected in production (the validation set's own unless given)"},
 	{"95% a–b", "the interval of the figure at the confidence level: Wilson's for a measured share; for a projected figure Mercaldo et al.'s logit interval (wrong-alert share) or Wilson limits combined by the MOVER (alert rate, queue, cost)"},
 	{"queue per shift", "alerts per shift at the volume (cases per shift); over or under cap: against the capacity the team works"},
-	{"shifts: 9/10 ≤ k", "in the real shifts of the validation period (--time, --shifts), 9 shifts in 10 had at most k alerts; max: the busiest; % over: shifts above capacity"},
+	{"shifts: 9/10 ≤ k", "busy shifts (--time, --shifts; also 9 in 10 ≤ k): 9 production shifts in 10 queue at most k alerts, from production's own counting noise at the volume (noise only) plus the real spread between shifts the set shows beyond its sampling noise (+ s% spread); % over: shifts above capacity; the sample's busiest: its heaviest real shift, scaled"},
 	{"queue90", "the starting point where 9 shifts in 10 have at most the capacity's alerts"},
 	{"cost per shift", "wrong alerts and misses (and hits, when given) at their costs, per shift at the volume"},
 	{"net benefit", "true cases found minus wrong alerts weighted by the odds of the threshold probability, per case (decision-curve analysis, scores in [0,1] only)"},
