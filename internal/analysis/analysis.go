@@ -67,6 +67,8 @@ type Resampling struct {
 	BandCuts   int    // cuts that carry the band of hit and wrong-alert share
 	// Design is how the set was drawn (bootstrap.Ordinary, the default: a
 	// random sample; bootstrap.WithinClass: classes sampled apart).
+	// Sampling weights constant within each class (the assumptions'
+	// Sample) always resample within classes.
 	Design bootstrap.Design
 	// Progress, when set, is called with the replicates done so far.
 	Progress func(done int)
@@ -499,7 +501,13 @@ func (r *Result) Points(visit func(curve.Point)) {
 // (package bootstrap); it does not change r. It returns ctx's error when
 // cancelled.
 func (r *Result) Resample(ctx context.Context, opt Resampling) (bootstrap.Result, error) {
-	b := bootstrap.Options{Replicates: opt.Replicates, Seed: opt.Seed, BandCuts: opt.BandCuts, Progress: opt.Progress, Design: opt.Design}
+	b := bootstrap.Options{Replicates: opt.Replicates, Seed: opt.Seed, BandCuts: opt.BandCuts, Progress: opt.Progress, Design: opt.Design,
+		Sampling: r.Assume.Sample.Sampling()}
+	// Sampling weights constant within each class: the classes were
+	// sampled apart, and each replicate keeps their sizes.
+	if r.Assume.Sample.WithinClass() {
+		b.Design = bootstrap.WithinClass
+	}
 	if r.Shifts != nil {
 		b.FinderOptions = []cutrule.Option{cutrule.WithShifts(r.Shifts.Assigned, r.Shifts.Scale)}
 	}

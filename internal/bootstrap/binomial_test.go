@@ -59,7 +59,7 @@ func TestMultinomialKeepsClassSizes(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	r := newReplicator(set, WithinClass)
+	r := newReplicator(set, WithinClass, false)
 	for _, g := range r.groups {
 		if g.cases <= MaxCaseDraws {
 			t.Fatalf("a class of %d cases does not pass MaxCaseDraws", g.cases)

@@ -26,9 +26,17 @@
 // correction, which at such means differs from it by far less than the
 // bootstrap's own noise.
 //
-// Weighted rows (frequency weights that differ within a cell) are drawn
-// row by row and carry their weights along (see the scores package doc on
-// weights), so their work grows with the rows.
+// Weights are drawn as their kind says (Options.Sampling, package
+// design). Frequency weights count cases: a row of weight 3 is three
+// cases, so the cells of a weighted set count the weights, and a set of
+// whole-number weights is resampled exactly as the same rows written out
+// (a counts table); weights that are not whole numbers draw each cell's
+// count as a Poisson draw of mean its weight (the Poisson bootstrap,
+// which needs no whole numbers). Sampling weights make the rows the units
+// drawn: rows are drawn row by row and carry their weights along, so
+// their work grows with the rows; callers pick WithinClass when the
+// weights are constant within each class (a class downsampled) and
+// Ordinary otherwise.
 //
 // Which cases a cut flags follows the cut rule in the doc of package
 // scores. Percentiles interpolate linearly between order statistics
@@ -81,6 +89,10 @@ type Options struct {
 	// Design is how the set was drawn, and so how it is drawn again:
 	// Ordinary (the zero value) or WithinClass.
 	Design Design
+
+	// Sampling says the set's weights are sampling weights (see the
+	// package doc); false reads them as frequency weights.
+	Sampling bool
 
 	// FinderOptions are passed to the cut finder of the set itself, to
 	// check the rules (queue90=K needs cutrule.WithShifts); replicates do
@@ -189,7 +201,7 @@ func Run(ctx context.Context, set *scores.Set, rules []cutrule.Rule, a projectio
 		workers = runtime.GOMAXPROCS(0)
 	}
 	workers = min(workers, opt.Replicates)
-	base, err := cellsOf(set)
+	base, poissonCells, err := cellsOf(set, opt.Sampling)
 	if err != nil {
 		return Result{}, err
 	}
@@ -214,7 +226,7 @@ func Run(ctx context.Context, set *scores.Set, rules []cutrule.Rule, a projectio
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			r := newReplicator(base, opt.Design)
+			r := newReplicator(base, opt.Design, poissonCells)
 			var cuts curve.Curve // refilled for each replicate
 			for {
 				b := int(next.Add(1) - 1)
@@ -362,6 +374,10 @@ type replicator struct {
 
 	counts []int32   // weighted rows: times each row was drawn
 	drawn  []float64 // cells: cases of each cell drawn
+
+	// poisson: set is the cells of frequency weights that are not whole
+	// numbers, each cell's cases a Poisson draw of mean its weight.
+	poisson bool
 }
 
 // group is a part of the set drawn apart: its rows and, for cells, the
@@ -372,8 +388,12 @@ type group struct {
 	cases  int
 }
 
-func newReplicator(set *scores.Set, design Design) *replicator {
-	r := &replicator{set: set}
+func newReplicator(set *scores.Set, design Design, poisson bool) *replicator {
+	r := &replicator{set: set, poisson: poisson}
+	if poisson {
+		r.drawn = make([]float64, set.Len())
+		return r
+	}
 	var positiveRows, negativeRows, all []int
 	for i, positive := range set.Labels() {
 		all = append(all, i)
@@ -403,11 +423,14 @@ func newReplicator(set *scores.Set, design Design) *replicator {
 }
 
 // cellsOf returns set's cells: a counts table with one row per distinct
-// score and label, in ranked order, counting its cases. Weighted rows
-// have no cells (nil).
-func cellsOf(set *scores.Set) (*scores.Set, error) {
-	if set.Weighted() {
-		return nil, nil
+// score and label, in ranked order, counting its cases (the summed
+// frequency weights of a weighted set). Rows of sampling weights have no
+// cells (nil). Frequency weights that do not add up to whole numbers in
+// every cell give a weighted set of the cells instead, and poisson set:
+// each cell's cases are then drawn as a Poisson count.
+func cellsOf(set *scores.Set, sampling bool) (cells *scores.Set, poisson bool, err error) {
+	if set.Weighted() && sampling {
+		return nil, false, nil
 	}
 	var sc, counts []float64
 	var labels []bool
@@ -415,10 +438,14 @@ func cellsOf(set *scores.Set) (*scores.Set, error) {
 		j := i
 		var positives, negatives float64
 		for ; j < set.Len() && set.Scores()[j] == set.Scores()[i]; j++ {
+			cases := float64(set.CasesAt(j))
+			if set.Weighted() {
+				cases = set.Weight(j)
+			}
 			if set.Labels()[j] {
-				positives += float64(set.CasesAt(j))
+				positives += cases
 			} else {
-				negatives += float64(set.CasesAt(j))
+				negatives += cases
 			}
 		}
 		for _, c := range []struct {
@@ -431,7 +458,14 @@ func cellsOf(set *scores.Set) (*scores.Set, error) {
 		}
 		i = j
 	}
-	return scores.NewCounts(sc, labels, counts, set.LowerIsRiskier())
+	for _, c := range counts {
+		if c != math.Trunc(c) {
+			cells, err = scores.NewSet(scores.Columns{Scores: sc, Labels: labels, Weights: counts, LowerIsRiskier: set.LowerIsRiskier()})
+			return cells, true, err
+		}
+	}
+	cells, err = scores.NewCounts(sc, labels, counts, set.LowerIsRiskier())
+	return cells, false, err
 }
 
 // casesBefore returns the cases of a counts table's rows before each of
@@ -455,6 +489,9 @@ func drawCase(rows []int, before []float64, c int) int {
 // many as the group holds.
 func (r *replicator) draw(seed, b uint64) *scores.Set {
 	rng := rand.New(rand.NewPCG(seed, b))
+	if r.poisson {
+		return r.drawPoisson(rng)
+	}
 	if r.set.CountsTable() {
 		clear(r.drawn)
 		for _, g := range r.groups {
@@ -490,6 +527,25 @@ func (r *replicator) draw(seed, b uint64) *scores.Set {
 	}
 	scores.Replicate(&r.rep, r.set, r.counts)
 	return &r.rep
+}
+
+// drawPoisson builds a replicate of cells of frequency weights that are
+// not whole numbers: each cell's cases a Poisson draw of mean its weight,
+// as a counts table of the cells drawn.
+func (r *replicator) drawPoisson(rng *rand.Rand) *scores.Set {
+	var sc, counts []float64
+	var labels []bool
+	for i := range r.set.Len() {
+		r.drawn[i] = float64(poisson(rng, r.set.Weight(i)))
+		if r.drawn[i] > 0 {
+			sc, labels, counts = append(sc, r.set.Scores()[i]), append(labels, r.set.Labels()[i]), append(counts, r.drawn[i])
+		}
+	}
+	rep, err := scores.NewCounts(sc, labels, counts, r.set.LowerIsRiskier())
+	if err != nil {
+		panic("bootstrap: a Poisson replicate's counts: " + err.Error()) // whole, finite and >= 0 by construction
+	}
+	return rep
 }
 
 // multinomial draws cases of one group of a counts table into r.drawn:
@@ -681,7 +737,7 @@ func (r *replicator) band(cuts []bandCut, b int, recallAt, fdrAt [][]float64) {
 	// drawnWeight is the weight that row i adds to the replicate: a row of
 	// a counts table weighs one case per case drawn.
 	drawnWeight := func(i int) float64 { return float64(r.counts[i]) * r.set.Weight(i) }
-	if r.set.CountsTable() {
+	if r.set.CountsTable() || r.poisson {
 		drawnWeight = func(i int) float64 { return r.drawn[i] }
 	}
 	var positives float64
