@@ -8,6 +8,7 @@ import (
 
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/decision"
+	"github.com/sill-tool/sill/internal/design"
 	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/floatcmp"
 	"github.com/sill-tool/sill/internal/projection"
@@ -22,8 +23,14 @@ var longSimulations = flag.Bool("drift-long", false, "run the verdict simulation
 // validation base rate.
 func quickFile(t testing.TB, set *scores.Set, base float64) *decision.File {
 	t.Helper()
+	return quickFileWith(t, set, base, nil)
+}
+
+// quickFileWith is quickFile with the weights read by sample's design.
+func quickFileWith(t testing.TB, set *scores.Set, base float64, sample *design.Sample) *decision.File {
+	t.Helper()
 	positives, negatives := set.Totals()
-	a := projection.Assumptions{BaseRate: positives / (positives + negatives), Volume: 1500, Capacity: 400, Confidence: 0.95}
+	a := projection.Assumptions{BaseRate: positives / (positives + negatives), Volume: 1500, Capacity: 400, Confidence: 0.95, Sample: sample}
 	if base > 0 {
 		a.BaseRate = base
 	}
