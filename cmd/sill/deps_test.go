@@ -13,14 +13,7 @@ import (
 // package under internal/ depends on tui/, cobra, pflag, or the terminal
 // libraries. It asks `go list -deps` (the go tool that runs the tests).
 func TestImportDirection(t *testing.T) {
-	goTool, err := exec.LookPath("go")
-	if err != nil {
-		t.Skip("the go tool is not on PATH")
-	}
-	out, err := exec.Command(goTool, "list", "-f", "{{.ImportPath}} {{join .Deps \" \"}}", "github.com/sill-tool/sill/internal/...").CombinedOutput()
-	if err != nil {
-		t.Fatalf("go list: %v\n%s", err, out)
-	}
+	deps := goList(t, "{{.ImportPath}} {{join .Deps \" \"}}", "github.com/sill-tool/sill/internal/...")
 	forbidden := []string{
 		"github.com/sill-tool/sill/tui",
 		"github.com/sill-tool/sill/cmd",
@@ -35,30 +28,46 @@ func TestImportDirection(t *testing.T) {
 	// draws in); format itself stands on the standard library alone.
 	const sill = "github.com/sill-tool/sill/"
 	noReport := map[string]bool{sill + "internal/compare": true, sill + "internal/review": true, sill + "internal/drift": true}
-	packages := 0
-	for _, line := range strings.Split(strings.TrimSpace(string(out)), "\n") {
-		fields := strings.Fields(line)
-		if len(fields) == 0 {
-			continue
-		}
-		packages++
-		for _, dep := range fields[1:] {
-			if noReport[fields[0]] && dep == sill+"internal/report" {
-				t.Errorf("%s imports %s for formatting; use internal/format", fields[0], dep)
+	for pkg, pkgDeps := range deps {
+		for _, dep := range pkgDeps {
+			if noReport[pkg] && dep == sill+"internal/report" {
+				t.Errorf("%s imports %s for formatting; use internal/format", pkg, dep)
 			}
-			if fields[0] == sill+"internal/format" && strings.HasPrefix(dep, sill) {
-				t.Errorf("%s imports %s; it stands on the standard library alone", fields[0], dep)
+			if pkg == sill+"internal/format" && strings.HasPrefix(dep, sill) {
+				t.Errorf("%s imports %s; it stands on the standard library alone", pkg, dep)
 			}
 			for _, bad := range forbidden {
 				if dep == bad || strings.HasPrefix(dep, bad+"/") {
-					t.Errorf("%s imports %s", fields[0], dep)
+					t.Errorf("%s imports %s", pkg, dep)
 				}
 			}
 		}
 	}
-	if packages < 5 {
+	if packages := len(deps); packages < 5 {
 		t.Errorf("go list found %d internal packages; the pattern is probably wrong", packages)
 	}
+}
+
+// goList runs the go tool's list with the template format, which gives a
+// package's path and then the paths it names, and returns them by package.
+// It skips the test without the go tool.
+func goList(t *testing.T, format, pattern string) map[string][]string {
+	t.Helper()
+	goTool, err := exec.LookPath("go")
+	if err != nil {
+		t.Skip("the go tool is not on PATH")
+	}
+	out, err := exec.Command(goTool, "list", "-f", format, pattern).CombinedOutput()
+	if err != nil {
+		t.Fatalf("go list: %v\n%s", err, out)
+	}
+	packages := map[string][]string{}
+	for _, line := range strings.Split(strings.TrimSpace(string(out)), "\n") {
+		if fields := strings.Fields(line); len(fields) > 0 {
+			packages[fields[0]] = fields[1:]
+		}
+	}
+	return packages
 }
 
 // TestFloatcmpOnlyInTests checks that the float-comparison helper of the
@@ -67,32 +76,19 @@ func TestImportDirection(t *testing.T) {
 // non-test file imports it either). It asks `go list` for the imports of
 // the non-test files of every package.
 func TestFloatcmpOnlyInTests(t *testing.T) {
-	goTool, err := exec.LookPath("go")
-	if err != nil {
-		t.Skip("the go tool is not on PATH")
-	}
 	const sill = "github.com/sill-tool/sill/"
-	out, err := exec.Command(goTool, "list", "-f", "{{.ImportPath}} {{join .Imports \" \"}}", sill+"...").CombinedOutput()
-	if err != nil {
-		t.Fatalf("go list: %v\n%s", err, out)
-	}
-	packages := 0
-	for _, line := range strings.Split(strings.TrimSpace(string(out)), "\n") {
-		fields := strings.Fields(line)
-		if len(fields) == 0 {
+	imports := goList(t, "{{.ImportPath}} {{join .Imports \" \"}}", sill+"...")
+	for pkg, deps := range imports {
+		if pkg == sill+"internal/golden" {
 			continue
 		}
-		packages++
-		if fields[0] == sill+"internal/golden" {
-			continue
-		}
-		for _, imp := range fields[1:] {
+		for _, imp := range deps {
 			if imp == sill+"internal/floatcmp" || imp == sill+"internal/golden" {
-				t.Errorf("%s imports %s outside its tests", fields[0], imp)
+				t.Errorf("%s imports %s outside its tests", pkg, imp)
 			}
 		}
 	}
-	if packages < 10 {
+	if packages := len(imports); packages < 10 {
 		t.Errorf("go list found %d packages; the pattern is probably wrong", packages)
 	}
 }
