@@ -129,6 +129,17 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 	if b.comma {
 		p.mark = ','
 	}
+	// Input of unknown size (gzip) is read by one goroutine, which leaves
+	// the others time to spare: they sort each block as they parse it and
+	// the sorted blocks are merged as they arrive, so that the set is
+	// ranked soon after the last block instead of sorted from scratch.
+	// Weights stay out of it, because their total is checked in input
+	// order; the columns rankInPlace does not carry likewise.
+	var merger *runMerger
+	if size < 0 && b.weightCol < 0 && b.idCol < 0 && b.timeCol < 0 && b.compareCol < 0 {
+		p.rankBlocks = true
+		merger = newRunMerger(opt.LowerIsRiskier)
+	}
 
 	blocks, readErr, stop := p.produce(in)
 	var (
@@ -166,12 +177,21 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 			default:
 			}
 			blk.scores, blk.labels, blk.weights, blk.segments, blk.ids, blk.times, blk.compare = nil, nil, nil, nil, nil, nil, nil
+		} else if merger != nil {
+			if len(blk.scores) > 0 {
+				merger.add(run{keys: blk.scores, labels: blk.labels, segments: blk.segments})
+			}
+			blk.scores, blk.labels, blk.segments = nil, nil, nil
 		} else {
 			parsed = append(parsed, blk)
 		}
 		if opt.Progress != nil {
 			opt.Progress(rows)
 		}
+	}
+	var ranked run
+	if merger != nil {
+		ranked = merger.finish()
 	}
 	if failed != nil {
 		return nil, failed
@@ -186,7 +206,11 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 		return nil, &ParseError{File: source, Err: ErrNoRows}
 	}
 
-	if rows > 0 && b.scores == nil { // with no rows the columns stay as Read leaves them
+	if merger != nil && rows > 0 { // with no rows the columns stay as Read leaves them
+		b.scores, b.labels, b.segments = ranked.keys, ranked.labels, ranked.segments
+		b.ranked = true
+	}
+	if rows > 0 && b.scores == nil {
 		b.reserve(rows)
 	}
 	for i, blk := range parsed {
@@ -196,7 +220,7 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 		b.appendBlock(blk)
 		parsed[i] = nil
 	}
-	if rows >= returnMemoryRows {
+	if rows >= returnMemoryRows && !b.ranked {
 		debug.FreeOSMemory()
 	}
 	return b.finish(hex.EncodeToString(digest.Sum(nil)))
@@ -315,6 +339,9 @@ type blockParser struct {
 	mark   byte              // the decimal mark, '.' or ','
 	fields int               // fields in the header
 	spare  chan blockColumns // parsed columns already copied into place, for reuse
+	// rankBlocks: sort each block's rows by rank as soon as it is parsed,
+	// leaving its scores as keys (see runMerger).
+	rankBlocks bool
 }
 
 // blockColumns are the columns parsed from one block.
@@ -352,6 +379,9 @@ func (p *blockParser) produce(in io.Reader) (<-chan *block, *error, chan struct{
 			defer wg.Done()
 			for blk := range work {
 				p.parse(blk)
+				if p.rankBlocks && blk.event == nil {
+					rankColumns(blk.scores, blk.labels, nil, blk.segments, p.b.opt.LowerIsRiskier, 1, true)
+				}
 				buf := blk.data[:cap(blk.data)]
 				blk.data = nil
 				close(blk.done)

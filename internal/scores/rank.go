@@ -109,18 +109,31 @@ const parallelSortRows = 1 << 16
 // so the extra memory is one more copy of the columns being sorted and no
 // index. Minus zero comes back as plus zero.
 func rankInPlace(scores []float64, labels []bool, weights []float64, segments []int32, lowerIsRiskier bool) {
+	workers := 1
+	if len(scores) >= parallelSortRows && runtime.GOMAXPROCS(0) > 1 {
+		workers = 2
+	}
+	rankColumns(scores, labels, weights, segments, lowerIsRiskier, workers, false)
+}
+
+// rankColumns is rankInPlace on the given number of goroutines (1 or 2).
+// With keepKeys the scores slice is left holding the sorted keys (the bits
+// of riskKey as float64s) instead of the scores, for merging with other
+// sorted runs (see mergeRuns).
+func rankColumns(scores []float64, labels []bool, weights []float64, segments []int32, lowerIsRiskier bool, workers int, keepKeys bool) {
 	n := len(scores)
 	if n < 2 {
+		if keepKeys {
+			encodeKeys(scores, lowerIsRiskier)
+		}
 		return
-	}
-	workers := 1
-	if n >= parallelSortRows && runtime.GOMAXPROCS(0) > 1 {
-		workers = 2
 	}
 	parts := splitRange(n, workers)
 	low, high, sorted := encodeKeys(scores, parts, lowerIsRiskier)
 	if sorted || low == high {
-		decodeKeys(scores, lowerIsRiskier)
+		if !keepKeys {
+			decodeKeys(scores, lowerIsRiskier)
+		}
 		return
 	}
 	var wg sync.WaitGroup
@@ -212,8 +225,10 @@ func rankInPlace(scores []float64, labels []bool, weights []float64, segments []
 					c.segments, scratch.segments = segs[lo:hi], segments[lo:hi]
 				}
 				sortInto(c, scratch, shift)
-				for i, k := range scratch.keys {
-					scratch.keys[i] = scoreOfKey(math.Float64bits(k), lowerIsRiskier)
+				if !keepKeys {
+					for i, k := range scratch.keys {
+						scratch.keys[i] = scoreOfKey(math.Float64bits(k), lowerIsRiskier)
+					}
 				}
 			}
 		}()
@@ -435,6 +450,13 @@ func insertionSort(c bucketColumns) {
 		if c.segments != nil {
 			c.segments[j] = segment
 		}
+	}
+}
+
+// encodeKeys turns scores into their keys, held in the same slice.
+func encodeKeys(scores []float64, lowerIsRiskier bool) {
+	for i, s := range scores {
+		scores[i] = math.Float64frombits(riskKey(s, lowerIsRiskier))
 	}
 }
 

@@ -214,6 +214,7 @@ type builder struct {
 	comma    bool        // numbers have a decimal comma (see useDecimalComma)
 	delim    rune        // the delimiter of delimited text
 	firstRow []byte      // the first data row of delimited text, for useDecimalComma
+	ranked   bool        // the columns are in rank order already (the block reader merged sorted blocks)
 }
 
 func (b *builder) readAll(in *bufio.Reader) error {
@@ -545,7 +546,9 @@ func (b *builder) finish(digest string) (*Set, error) {
 	if b.opt.Progress != nil {
 		b.opt.Progress(len(b.scores))
 	}
-	s.rank()
+	if !b.ranked {
+		s.rank()
+	}
 	return s, nil
 }
 
