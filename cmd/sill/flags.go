@@ -18,6 +18,7 @@ import (
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/share"
+	"github.com/sill-tool/sill/internal/warehouse"
 )
 
 // inputFlags are the flags that say how to read a score table.
@@ -413,17 +414,43 @@ func (f *shareFlag) String() string { return strconv.FormatFloat(*f.value, 'g', 
 // Type names the value in help: "--base-rate share".
 func (f *shareFlag) Type() string { return "share" }
 
-// shareFlagError rewords pflag's error for a share flag's value as
-// "--base-rate: "105%" is more than 100%, expected ...": the flag's name,
-// then what package share says, without pflag's "invalid argument" frame
-// around it.
-func shareFlagError(err error) error {
+// flagValueTypeError rewords pflag's error for a flag's value as one line naming
+// the flag and what it takes: for a share flag "--base-rate: "105%" is
+// more than 100%, expected ..." (what package share says, without pflag's
+// "invalid argument" frame around it); for a number or duration flag
+// "--volume "abc": expected a number of cases per shift, such as 20000",
+// as the range errors of the same flags read, instead of
+// the parse error of Go's strconv.
+func flagValueTypeError(err error) error {
 	var invalid *pflag.InvalidValueError
 	if !errors.As(err, &invalid) {
 		return err
 	}
-	if _, ok := invalid.GetFlag().Value.(*shareFlag); !ok {
-		return err
+	flag := invalid.GetFlag()
+	if _, ok := flag.Value.(*shareFlag); ok {
+		return valueFlagError("--"+flag.Name, errors.Unwrap(invalid))
 	}
-	return valueFlagError("--"+invalid.GetFlag().Name, errors.Unwrap(invalid))
+	if expected, ok := flagTakes[flag.Name]; ok {
+		return fmt.Errorf("--%s %q: expected %s", flag.Name, invalid.GetValue(), expected)
+	}
+	return err
+}
+
+// flagTakes says what each number and duration flag of every command
+// takes, in the words of flagValueTypeError; TestFlagTakesEveryNumberFlag keeps it
+// complete. A flag name means the same in every command that has it.
+var flagTakes = map[string]string{
+	"volume":           "a number of cases per shift, such as 20000",
+	"capacity":         "a number of alerts one shift can work, such as 400",
+	"cost-false-alert": "an amount per wrong alert, such as 12.5",
+	"cost-miss":        "an amount per missed true case, such as 300",
+	"cost-hit":         "an amount per caught true case, such as 20 (negative for a benefit)",
+	"bootstrap":        "a whole number of resampled sets, such as 200 (0: off)",
+	"seed":             "a whole number from 0 up, such as 1",
+	"calibration-bins": "a whole number of bins, such as 10",
+	"segments-shown":   "a whole number of segments, such as 20 (0: all)",
+	"rows":             "a whole number of rows, such as 5000",
+	"digits":           fmt.Sprintf("a whole number of decimal digits from 0 to %d, or -1 to keep the scores as they are", warehouse.MaxDigits),
+	"max-sessions":     "a whole number of connections, such as 4",
+	"idle-timeout":     "a duration such as 15m or 1h30m",
 }

@@ -33,7 +33,7 @@ Run with no arguments to explore the built-in demo data.`,
 	root.AddCommand(newManualCmd())
 	root.AddCommand(newServeCmd())
 	root.SetVersionTemplate("{{.Version}}\n")
-	root.SetFlagErrorFunc(func(_ *cobra.Command, err error) error { return shareFlagError(err) })
+	root.SetFlagErrorFunc(func(_ *cobra.Command, err error) error { return flagValueTypeError(err) })
 	return root
 }
 
