@@ -28,7 +28,7 @@ func TestExploreWithoutTerminal(t *testing.T) {
 		{[]string{"explore", path}, "sill report " + path},
 		{[]string{"explore", "-"}, "cannot read scores from standard input"},
 		{[]string{"explore"}, "explore takes one argument, FILE"},
-		{[]string{"explore", path, "--volume", "x"}, "invalid argument"},
+		{[]string{"explore", path, "--volume", "x"}, `--volume "x": expected a number of cases per shift`},
 		// The flags of the figures beyond the averages are checked before
 		// the terminal.
 		{[]string{"explore", path, "--shifts", "06:00,14:00"}, "--shifts needs --time"},
