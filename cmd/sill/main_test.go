@@ -581,3 +581,41 @@ func TestReportMarkdownCurve(t *testing.T) {
 		t.Errorf("the CSV block is still there:\n%s", got.stdout)
 	}
 }
+
+// TestReportTextCurve: --curve in text is an aligned table under its own
+// heading, one row per distinct score, before the caution (it was CSV
+// lines after it); --format csv --curve stays CSV. The rows were worked
+// out by hand from goodTable (3 true cases, 5 false): at 0.85 three cases
+// are flagged, two of them true, so recall 2/3, wrong-alert share 1/3 and
+// false positive rate 1/5.
+func TestReportTextCurve(t *testing.T) {
+	file := writeFile(t, t.TempDir(), "good.csv", []byte(goodTable))
+	got := runSill(t, "", "report", file, "--curve")
+	if got.code != 0 {
+		t.Fatalf("exit %d, stderr %q", got.code, got.stderr)
+	}
+	want := "\nevery cut, strictest first\n" +
+		"cut (flag score >=)  cases flagged  true cases found (tp)  wrong alerts (fp)  misses (fn)  false cases left (tn)  hit share (recall)  wrong-alert share (FDR)  false positive rate\n" +
+		"0.91                             1                      1                  0            2                      5               33.3%                     0.0%                 0.0%\n" +
+		"0.85                             3                      2                  1            1                      4               66.7%                    33.3%                20.0%\n" +
+		"0.6                              4                      2                  2            1                      3               66.7%                    50.0%                40.0%\n" +
+		"0.42                             5                      3                  2            0                      3              100.0%                    40.0%                40.0%\n" +
+		"0.3                              6                      3                  3            0                      2              100.0%                    50.0%                60.0%\n" +
+		"0.12                             7                      3                  4            0                      1              100.0%                    57.1%                80.0%\n" +
+		"0.05                             8                      3                  5            0                      0              100.0%                    62.5%               100.0%\n" +
+		"\ncaution: "
+	if !strings.Contains(got.stdout, want) {
+		t.Errorf("no aligned table of every cut before the caution:\n%s", got.stdout)
+	}
+	if strings.Contains(got.stdout, "score,flagged,tp") {
+		t.Errorf("the CSV lines are still there:\n%s", got.stdout)
+	}
+	plain := runSill(t, "", "report", file)
+	if before, _, _ := strings.Cut(got.stdout, "\nevery cut"); before+"\ncaution: "+strings.SplitN(got.stdout, "\ncaution: ", 2)[1] != plain.stdout {
+		t.Errorf("the report above the table differs from the report without --curve:\n%s\n---\n%s", got.stdout, plain.stdout)
+	}
+	csvCurve := runSill(t, "", "report", file, "--format", "csv", "--curve")
+	if !strings.HasPrefix(csvCurve.stdout, "score,flagged,tp,fp,fn,tn,recall,precision,false_positive_rate\n0.91,1,1,0,2,5,") {
+		t.Errorf("--format csv --curve is no longer CSV:\n%s", csvCurve.stdout)
+	}
+}

@@ -196,13 +196,8 @@ func (o *reportOptions) run(ctx context.Context, set *scores.Set, stdout, stderr
 	case "csv":
 		return report.WriteCutsCSV(stdout, r)
 	default:
-		err = report.WriteText(stdout, r)
+		return report.WriteTextCurve(stdout, r, points)
 	}
-	if err == nil && points != nil {
-		fmt.Fprintln(stdout)
-		err = report.WriteCurveCSV(stdout, points)
-	}
-	return err
 }
 
 // reportHints are the flags that change what a report shows.

@@ -39,20 +39,39 @@ func Grid(header []string, rows [][]string, wordsLast bool) string {
 	}
 	var b strings.Builder
 	for _, row := range all {
-		var l strings.Builder
-		for i, cell := range row {
-			pad := strings.Repeat(" ", widths[i]-len([]rune(cell)))
-			if i == 0 {
-				l.WriteString(cell + pad)
-			} else if wordsLast && i == len(header)-1 {
-				l.WriteString("  " + cell + pad)
-			} else {
-				l.WriteString("  " + pad + cell)
-			}
-		}
-		b.WriteString(strings.TrimRight(l.String(), " ") + "\n") // no trailing spaces after an empty last cell
+		b.WriteString(gridRow(row, widths, wordsLast))
 	}
 	return b.String()
+}
+
+// GridRow lays out one row of a grid whose column widths were measured
+// beforehand with CellWidth, exactly as Grid lays out each of its rows:
+// for a table too long to hold in memory, measured in one pass over its
+// rows and written in a second. The cells pass through Printable.
+func GridRow(cells []string, widths []int, wordsLast bool) string {
+	printable := make([]string, len(cells))
+	for i, cell := range cells {
+		printable[i] = Printable(cell)
+	}
+	return gridRow(printable, widths, wordsLast)
+}
+
+// CellWidth is the width a cell takes in a grid.
+func CellWidth(cell string) int { return len([]rune(Printable(cell))) }
+
+func gridRow(row []string, widths []int, wordsLast bool) string {
+	var l strings.Builder
+	for i, cell := range row {
+		pad := strings.Repeat(" ", max(0, widths[i]-len([]rune(cell))))
+		if i == 0 {
+			l.WriteString(cell + pad)
+		} else if wordsLast && i == len(row)-1 {
+			l.WriteString("  " + cell + pad)
+		} else {
+			l.WriteString("  " + pad + cell)
+		}
+	}
+	return strings.TrimRight(l.String(), " ") + "\n" // no trailing spaces after an empty last cell
 }
 
 // Markdown escapes the characters that Markdown tables, emphasis and

@@ -302,6 +302,12 @@ func (r *Report) withInterval(v number, ci *interval) string {
 
 // WriteText writes r as a readable report.
 func WriteText(w io.Writer, r *Report) error {
+	return WriteTextCurve(w, r, nil)
+}
+
+// WriteTextCurve is WriteText followed, when points is not nil, by a
+// table of every cut under its own heading, before the caution.
+func WriteTextCurve(w io.Writer, r *Report, points Points) error {
 	var b strings.Builder
 	fmt.Fprintf(&b, "sill report: %s\n\n", r.Source)
 	fmt.Fprintf(&b, "%s · %s (base rate %s)", format.Plural(r.Rows, "row", "rows"), amount(r.Positives, "true case", "true cases"), format.Share(float64(r.BaseRate)))
@@ -332,10 +338,14 @@ func WriteText(w io.Writer, r *Report) error {
 	for _, warning := range r.Warnings {
 		fmt.Fprintf(&b, "\nwarning: %s", warning)
 	}
+	bw := bufio.NewWriterSize(w, 1<<16)
+	bw.WriteString(format.PrintableText(singleBlankLines(strings.TrimRight(b.String(), "\n"))) + "\n") // names and values from the data are untrusted
+	if points != nil {
+		writeCurveText(bw, points, r.comparison())
+	}
 	// One blank line before the caution, whatever came last.
-	text := singleBlankLines(strings.TrimRight(b.String(), "\n")) + "\n\ncaution: " + r.Caution + "\n"
-	_, err := io.WriteString(w, format.PrintableText(text)) // names and values from the data are untrusted
-	return err
+	bw.WriteString("\ncaution: " + r.Caution + "\n")
+	return bw.Flush()
 }
 
 // WriteMarkdown writes r for pasting into a review document. When points
@@ -392,13 +402,45 @@ func WriteMarkdown(w io.Writer, r *Report, points Points) error {
 // Markdown table under its own heading, in the figures' screen forms.
 func writeCurveMarkdown(bw *bufio.Writer, points Points, comparison string) {
 	bw.WriteString("\n### Every cut\n\n")
-	bw.WriteString("| cut (flag score " + comparison + ") | cases flagged | true cases found (tp) | wrong alerts (fp) | misses (fn) | false cases left (tn) | hit share (recall) | wrong-alert share (FDR) | false positive rate |\n")
-	bw.WriteString("|" + strings.Repeat(" ---: |", 9) + "\n")
+	bw.WriteString("| " + strings.Join(curveHeader(comparison), " | ") + " |\n")
+	bw.WriteString("|" + strings.Repeat(" ---: |", len(curveHeader(comparison))) + "\n")
 	points(func(p curve.Point) {
-		cells := []string{format.Score(p.Score), format.Count(p.Flagged()), format.Count(p.TP), format.Count(p.FP), format.Count(p.FN), format.Count(p.TN),
-			format.Share(p.Recall()), format.Share(p.FalseDiscoveryRate()), format.Share(p.FalsePositiveRate())}
-		bw.WriteString("| " + strings.Join(cells, " | ") + " |\n")
+		bw.WriteString("| " + strings.Join(curveCells(p), " | ") + " |\n")
 	})
+}
+
+// writeCurveText writes every cut of points, strictest first, as a text
+// grid under its own heading, in the figures' screen forms. The columns
+// are measured in a first pass over the points and the rows written in a
+// second, so that a curve of millions of cuts is never held as text.
+func writeCurveText(bw *bufio.Writer, points Points, comparison string) {
+	header := curveHeader(comparison)
+	widths := make([]int, len(header))
+	for i, cell := range header {
+		widths[i] = format.CellWidth(cell)
+	}
+	points(func(p curve.Point) {
+		for i, cell := range curveCells(p) {
+			widths[i] = max(widths[i], format.CellWidth(cell))
+		}
+	})
+	bw.WriteString("\nevery cut, strictest first\n")
+	bw.WriteString(format.GridRow(header, widths, false))
+	points(func(p curve.Point) {
+		bw.WriteString(format.GridRow(curveCells(p), widths, false))
+	})
+}
+
+// curveHeader names the columns of the table of every cut.
+func curveHeader(comparison string) []string {
+	return []string{"cut (flag score " + comparison + ")", "cases flagged", "true cases found (tp)", "wrong alerts (fp)", "misses (fn)", "false cases left (tn)",
+		"hit share (recall)", "wrong-alert share (FDR)", "false positive rate"}
+}
+
+// curveCells are one cut's cells in the table of every cut.
+func curveCells(p curve.Point) []string {
+	return []string{format.Score(p.Score), format.Count(p.Flagged()), format.Count(p.TP), format.Count(p.FP), format.Count(p.FN), format.Count(p.TN),
+		format.Share(p.Recall()), format.Share(p.FalseDiscoveryRate()), format.Share(p.FalsePositiveRate())}
 }
 
 // singleBlankLines folds runs of blank lines into one, so that sections
