@@ -386,7 +386,7 @@ func (r *Result) findings() {
 		}
 		switch j.Name {
 		case "recall":
-			found = append(found, "recall drifted: "+moved(r.Recall, "on validation", "the model catches more true cases than validated", "the model misses more true cases than validated"))
+			found = append(found, "hit share (recall) drifted: "+moved(r.Recall, "on validation", "the model catches more true cases than validated", "the model misses more true cases than validated"))
 		case "false positive rate":
 			found = append(found, "false positive rate drifted: "+moved(r.FalsePositiveRate, "on validation", "the model flags more false cases than validated", "the model flags fewer false cases than validated"))
 		case "scores of true cases":
@@ -439,7 +439,7 @@ func (r *Result) notes() []string {
 	}
 	if r.Labelled {
 		if !r.Recall.Defined {
-			notes = append(notes, "the new data have no true cases, so recall was not checked")
+			notes = append(notes, "the new data have no true cases, so the hit share was not checked")
 		}
 		if !r.FalsePositiveRate.Defined {
 			notes = append(notes, "the new data have no false cases, so the false positive rate was not checked")
@@ -447,24 +447,24 @@ func (r *Result) notes() []string {
 		if !r.ScoresPositive.Defined || !r.ScoresNegative.Defined {
 			notes = append(notes, r.classNote())
 		}
-		if r.Precision.Defined && r.Verdict != StatusDrift {
-			shown := format.ShareDiff(r.Precision.Observed, r.Precision.Expected).Value
+		if wrong := r.Precision.Complement(); r.Precision.Defined && r.Verdict != StatusDrift {
+			shown := format.ShareDiff(wrong.Observed, wrong.Expected).Value
 			switch {
-			case shown > 0:
-				notes = append(notes, fmt.Sprintf("precision %s against %s projected: more of the alerts are true cases, which follows the base rate and is no failure", format.Share(r.Precision.Observed), format.Share(r.Precision.Expected)))
 			case shown < 0:
-				notes = append(notes, fmt.Sprintf("precision %s against %s projected: fewer of the alerts are true cases, which follows the base rate", format.Share(r.Precision.Observed), format.Share(r.Precision.Expected)))
+				notes = append(notes, fmt.Sprintf("wrong-alert share %s against %s projected: fewer of the alerts are wrong, which follows the base rate and is no failure", format.Share(wrong.Observed), format.Share(wrong.Expected)))
+			case shown > 0:
+				notes = append(notes, fmt.Sprintf("wrong-alert share %s against %s projected: more of the alerts are wrong, which follows the base rate", format.Share(wrong.Observed), format.Share(wrong.Expected)))
 			}
 		}
 		if !r.Precision.Defined {
-			notes = append(notes, "the cut flags nothing in the new data, so precision was not measured")
+			notes = append(notes, "the cut flags nothing in the new data, so the wrong-alert share was not measured")
 		}
 	} else {
 		why := "no label column"
 		if r.ignoreLabels != "" {
 			why += ", or " + r.ignoreLabels
 		}
-		line := "no labels were read from the new data (" + why + "), so recall and precision were not measured"
+		line := "no labels were read from the new data (" + why + "), so the hit share and the wrong-alert share were not measured"
 		if r.Mixture == nil {
 			line += "; the file keeps no curve (a sill-cut/1 file), so a change of base rate cannot be told from drift and the alert rate and scores of all cases judge"
 		} else {
@@ -491,7 +491,7 @@ func (r *Result) classNote() string {
 	if r.byCurve {
 		return "too few cases of a class in the new data to compare its scores (fewer than two bins expect five or more), so they were not judged"
 	}
-	return "the file keeps no curve (a sill-cut/1 file), so the scores within each class were not judged; recall and the false positive rate still were"
+	return "the file keeps no curve (a sill-cut/1 file), so the scores within each class were not judged; the hit share and the false positive rate still were"
 }
 
 // baseRateLine words the base rate seen against the one assumed.
@@ -506,8 +506,8 @@ func (r *Result) baseRateLine() string {
 // reprojectedLine gives the chosen cut's figures at the observed base rate.
 func (r *Result) reprojectedLine() string {
 	f := r.Reprojected
-	line := fmt.Sprintf("at the observed base rate the cut flags %s of cases (projected %s) with precision %s (projected %s)",
-		format.Share(f.AlertRate), format.Share(r.AlertRate.Expected), format.Share(f.Precision), format.Share(r.Precision.Expected))
+	line := fmt.Sprintf("at the observed base rate the cut flags %s of cases (projected %s) with a wrong-alert share of %s (projected %s)",
+		format.Share(f.AlertRate), format.Share(r.AlertRate.Expected), format.Share(1-f.Precision), format.Share(r.Precision.Complement().Expected))
 	if r.Volume > 0 {
 		line += fmt.Sprintf("; %s alerts per shift of %s cases (projected %s)", format.Count(f.QueuePerShift), format.Count(r.Volume), format.Count(r.Volume*r.AlertRate.Expected))
 		if r.Capacity > 0 {

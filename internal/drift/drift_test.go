@@ -241,15 +241,15 @@ func TestCheckScenarios(t *testing.T) {
 		{"the validation set itself", validation, true, StatusOK, 1e-12, -1, nil},
 		{"a fresh draw of the same process", bearingSet(t, 2, 4000, 0.07, 0), true, StatusOK, PSIModerate, -1, nil},
 		{"a fresh draw without labels", bearingSet(t, 3, 4000, 0.07, 0), false, StatusOK, PSIModerate, -1,
-			[]string{"so recall and precision were not measured", "estimated from the scores alone"}},
+			[]string{"so the hit share and the wrong-alert share were not measured", "estimated from the scores alone"}},
 		// The base rate alone moved: the model behaves as validated, and a
-		// higher precision is no failure.
+		// lower wrong-alert share (a higher precision) is no failure.
 		{"base rate tripled", bearingSet(t, 4, 4000, 0.21, 0), true, StatusAssumption, math.Inf(1), -1,
-			[]string{"the base rate is 20.9%", "higher beyond noise", "the base rate assumed is wrong", "more of the alerts are true cases", "alerts per shift"}},
+			[]string{"the base rate is 20.9%", "higher beyond noise", "the base rate assumed is wrong", "fewer of the alerts are wrong, which follows the base rate and is no failure", "alerts per shift"}},
 		{"base rate tripled, no labels", bearingSet(t, 4, 4000, 0.21, 0), false, StatusAssumption, math.Inf(1), -1,
 			[]string{"the base rate is", "the base rate assumed is wrong"}},
 		{"scores shifted up", bearingSet(t, 5, 4000, 0.07, 0.8), true, StatusDrift, math.Inf(1), PSILarge,
-			[]string{"recall drifted", "false positive rate drifted: 41.3% observed against 15.7% on validation, 25.6 points higher", "the scores of false cases moved"}},
+			[]string{"hit share (recall) drifted", "false positive rate drifted: 41.3% observed against 15.7% on validation, 25.6 points higher", "the scores of false cases moved"}},
 		{"scores shifted up, no labels", bearingSet(t, 6, 4000, 0.07, 0.8), false, StatusDrift, math.Inf(1), PSILarge,
 			[]string{"no mix of the validated true and false cases explains the new scores"}},
 	} {
@@ -501,7 +501,7 @@ func TestCheckOneClassNewData(t *testing.T) {
 	if !res.Precision.Defined || res.Precision.Observed != 0 || !res.Precision.Drift {
 		t.Errorf("precision %+v, want 0 and drift", res.Precision)
 	}
-	if !strings.Contains(strings.Join(res.Findings, "\n"), "no true cases, so recall was not checked") {
+	if !strings.Contains(strings.Join(res.Findings, "\n"), "no true cases, so the hit share was not checked") {
 		t.Errorf("findings %q", res.Findings)
 	}
 	// Weighted fresh data: a weight of 2 counts as the row twice.

@@ -28,6 +28,20 @@ type Test struct {
 	Defined    bool       // false when either share is undefined: nothing was tested
 }
 
+// Complement is the same test read as the share of the other outcome:
+// 1 - the share observed and expected, the interval turned round, the
+// difference negated; the p-value and verdict are t's. Check shows the
+// precision test as the wrong-alert share (false discovery rate), the
+// term every view uses.
+func (t Test) Complement() Test {
+	c := t
+	c.Observed, c.Expected = 1-t.Observed, 1-t.Expected
+	c.Successes = t.Trials - t.Successes
+	c.ObservedCI = [2]float64{1 - t.ObservedCI[1], 1 - t.ObservedCI[0]}
+	c.Difference = -t.Difference
+	return c
+}
+
 // Compare tests whether a share of successes out of trials differs from
 // expected by more than tolerance (an absolute margin on shares, >= 0),
 // where expected was estimated with variance expectedVariance.

@@ -238,9 +238,9 @@ func WriteText(w io.Writer, r *Result, decisionFile, scoresFile string) error {
 	rows := r.checkRows()
 	b.WriteString(format.Grid(rows[0], rows[1:], true))
 	if r.Labelled || r.Mixture != nil {
-		b.WriteString("\nThe alert rate, precision and PSI of all scores move with the base rate, so they are shown, not judged: ")
+		b.WriteString("\nThe alert rate, wrong-alert share and PSI of all scores move with the base rate, so they are shown, not judged: ")
 		if r.Labelled {
-			b.WriteString("the model is judged on recall, the false positive rate and the scores within each class")
+			b.WriteString("the model is judged on the hit share, the false positive rate and the scores within each class")
 		} else {
 			b.WriteString("the model is judged on whether the new scores are a mix of the validated true and false cases at some base rate")
 		}
@@ -293,14 +293,16 @@ func (r *Result) checkRows() [][]string {
 		return "ok"
 	}
 	rows := [][]string{{"check", "observed", "interval", "expected", "difference", "p-value", "verdict"}}
-	add := func(name, source string, t Test, measured bool) {
+	// add adds the row of a test, shown under label; name is the test's
+	// name in the family.
+	add := func(label, name, source string, t Test, measured bool) {
 		switch {
 		case !measured:
-			rows = append(rows, []string{name, "not measured", "", format.Share(t.Expected) + " " + source, "", "", "-"})
+			rows = append(rows, []string{label, "not measured", "", format.Share(t.Expected) + " " + source, "", "", "-"})
 		case !t.Defined:
-			rows = append(rows, []string{name, format.Share(t.Observed), format.Interval(t.ObservedCI), format.Share(t.Expected) + " " + source, "", "", "not tested"})
+			rows = append(rows, []string{label, format.Share(t.Observed), format.Interval(t.ObservedCI), format.Share(t.Expected) + " " + source, "", "", "not tested"})
 		default:
-			rows = append(rows, []string{name, format.Share(t.Observed), format.Interval(t.ObservedCI), format.Share(t.Expected) + " " + source,
+			rows = append(rows, []string{label, format.Share(t.Observed), format.Interval(t.ObservedCI), format.Share(t.Expected) + " " + source,
 				format.ShareDiff(t.Observed, t.Expected).Text, format.PValue(t.PValue), verdictOf(name)})
 		}
 	}
@@ -308,9 +310,9 @@ func (r *Result) checkRows() [][]string {
 		rows = append(rows, []string{"base rate", format.Share(r.BaseRateObserved), format.Interval(r.BaseRateCI), format.Share(r.BaseRate) + " assumed",
 			format.ShareDiff(r.BaseRateObserved, r.BaseRate).Text, format.PValue(judged["base rate"].PValue), verdictOf("base rate")})
 	}
-	add("recall", "validation", r.Recall, r.Labelled)
+	add("hit share (recall)", "recall", "validation", r.Recall, r.Labelled)
 	if r.Labelled {
-		add("false positive rate", "validation", r.FalsePositiveRate, true)
+		add("false positive rate", "false positive rate", "validation", r.FalsePositiveRate, true)
 	}
 	class := func(name string, t ScoreTest) {
 		if !t.Defined {
@@ -331,8 +333,8 @@ func (r *Result) checkRows() [][]string {
 			rows = append(rows, []string{"scores as a mix", "chi-square " + format.Number(m.Fit, 1), fmt.Sprintf("%d degrees", m.Freedom), "a fitting mix", "", format.PValue(m.FitP), verdictOf(name)})
 		}
 	}
-	add("alert rate", "projected", r.AlertRate, true)
-	add("precision", "projected", r.Precision, r.Labelled)
+	add("alert rate", "alert rate", "projected", r.AlertRate, true)
+	add("wrong-alert share (FDR)", "precision", "projected", r.Precision.Complement(), r.Labelled)
 	if math.IsNaN(r.PSI) {
 		rows = append(rows, []string{"score PSI", "not measured", "", "", "", "", "-"})
 	} else {

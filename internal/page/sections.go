@@ -120,7 +120,7 @@ func segments(f *decision.File) section {
 			"A wrong-alert share follows its group's base rate: a group with fewer true cases has more wrong alerts at the same cut even where the model ranks as well.",
 			firstColumn(f), format.Level(f.Assumptions.Confidence), format.PValue(1-f.Assumptions.Confidence), format.Level(1-f.Assumptions.Confidence))
 	default:
-		s.Intro = fmt.Sprintf("Each candidate broken down by %q. This file was written before groups were tested against the rest of the set: a group is listed when its hit-share or precision interval lies clear of the whole set's, which flags some group by chance alone more often as groups grow in number.", firstColumn(f))
+		s.Intro = fmt.Sprintf("Each candidate broken down by %q. This file was written before groups were tested against the rest of the set: a group is listed when its hit-share or wrong-alert-share interval lies clear of the whole set's, which flags some group by chance alone more often as groups grow in number.", firstColumn(f))
 	}
 	return s
 }
