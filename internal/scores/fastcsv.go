@@ -135,15 +135,14 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 	// ranked soon after the last block instead of sorted from scratch.
 	// Weights stay out of it, because their total is checked in input
 	// order; the columns rankInPlace does not carry likewise.
-	var merger *runMerger
+	sink := &blockSink{b: b, p: p, size: size}
 	if size < 0 && b.weightCol < 0 && b.idCol < 0 && b.timeCol < 0 && b.compareCol < 0 {
 		p.rankBlocks = true
-		merger = newRunMerger(opt.LowerIsRiskier)
+		sink.merger = newRunMerger(opt.LowerIsRiskier)
 	}
 
 	blocks, readErr, stop := p.produce(in)
 	var (
-		parsed []*block
 		rows   int
 		line   = 2 // the first data line
 		failed error
@@ -165,34 +164,12 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 		b.noteBlock(blk, line)
 		line += blk.newlines
 		rows += len(blk.scores)
-		if size > 0 && len(blk.scores) > 0 {
-			// Copy the rows into place now, while later blocks are parsed,
-			// making room at the first rows for as many as the size says.
-			if b.scores == nil {
-				b.reserve(int(float64(size)*float64(len(blk.scores))/float64(blk.size)*1.02) + 1024)
-			}
-			b.appendBlock(blk)
-			select {
-			case p.spare <- blockColumns{blk.scores[:0], blk.labels[:0], blkWeights(blk)}:
-			default:
-			}
-			blk.scores, blk.labels, blk.weights, blk.segments, blk.ids, blk.times, blk.compare = nil, nil, nil, nil, nil, nil, nil
-		} else if merger != nil {
-			if len(blk.scores) > 0 {
-				merger.add(run{keys: blk.scores, labels: blk.labels, segments: blk.segments})
-			}
-			blk.scores, blk.labels, blk.segments = nil, nil, nil
-		} else {
-			parsed = append(parsed, blk)
-		}
+		sink.take(blk)
 		if opt.Progress != nil {
 			opt.Progress(rows)
 		}
 	}
-	var ranked run
-	if merger != nil {
-		ranked = merger.finish()
-	}
+	ranked := sink.merged()
 	if failed != nil {
 		return nil, failed
 	}
@@ -205,25 +182,82 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 	if rows == 0 && b.dropped == 0 {
 		return nil, &ParseError{File: source, Err: ErrNoRows}
 	}
+	sink.fill(rows, ranked)
+	return b.finish(hex.EncodeToString(digest.Sum(nil)))
+}
 
-	if merger != nil && rows > 0 { // with no rows the columns stay as Read leaves them
+// blockSink takes each parsed block's rows as it arrives, in input order:
+// copied into place at once when the size of plain text tells how many
+// rows to make room for, handed to the merger when blocks are ranked as
+// they are read (see runMerger), or else kept until every block is in.
+type blockSink struct {
+	b      *builder
+	p      *blockParser
+	size   int64      // bytes of plain text, -1 when unknown
+	merger *runMerger // nil unless blocks are ranked as read
+	parsed []*block   // blocks kept for the end
+}
+
+func (s *blockSink) take(blk *block) {
+	b := s.b
+	switch {
+	case s.size > 0 && len(blk.scores) > 0:
+		// Copy the rows into place now, while later blocks are parsed,
+		// making room at the first rows for as many as the size says.
+		if b.scores == nil {
+			b.reserve(int(float64(s.size)*float64(len(blk.scores))/float64(blk.size)*1.02) + 1024)
+		}
+		b.appendBlock(blk)
+		select {
+		case s.p.spare <- blockColumns{blk.scores[:0], blk.labels[:0], blkWeights(blk)}:
+		default:
+		}
+		blk.scores, blk.labels, blk.weights, blk.segments, blk.ids, blk.times, blk.compare = nil, nil, nil, nil, nil, nil, nil
+	case s.merger != nil:
+		if len(blk.scores) > 0 {
+			s.merger.add(run{keys: blk.scores, labels: blk.labels, segments: blk.segments})
+		}
+		blk.scores, blk.labels, blk.segments = nil, nil, nil
+	default:
+		s.parsed = append(s.parsed, blk)
+	}
+}
+
+// merged waits for the merger, when there is one, and returns its run;
+// it must be called once the blocks stop coming, whether or not reading
+// failed, so that the merger's goroutine ends.
+func (s *blockSink) merged() run {
+	if s.merger == nil {
+		return run{}
+	}
+	return s.merger.finish()
+}
+
+// fill leaves the builder's columns holding every row read: the merged
+// run, ranked already, or the blocks kept, appended in input order.
+func (s *blockSink) fill(rows int, ranked run) {
+	b := s.b
+	if rows == 0 {
+		return // with no rows the columns stay as Read leaves them
+	}
+	if s.merger != nil {
 		b.scores, b.labels, b.segments = ranked.keys, ranked.labels, ranked.segments
 		b.ranked = true
+		return
 	}
-	if rows > 0 && b.scores == nil {
+	if b.scores == nil {
 		b.reserve(rows)
 	}
-	for i, blk := range parsed {
+	for i, blk := range s.parsed {
 		if len(blk.scores) == 0 {
 			continue
 		}
 		b.appendBlock(blk)
-		parsed[i] = nil
+		s.parsed[i] = nil
 	}
-	if rows >= returnMemoryRows && !b.ranked {
+	if rows >= returnMemoryRows {
 		debug.FreeOSMemory()
 	}
-	return b.finish(hex.EncodeToString(digest.Sum(nil)))
 }
 
 // blockHeader reads and splits the header line for loadBlocks, detecting

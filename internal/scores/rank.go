@@ -124,7 +124,7 @@ func rankColumns(scores []float64, labels []bool, weights []float64, segments []
 	n := len(scores)
 	if n < 2 {
 		if keepKeys {
-			encodeKeys(scores, lowerIsRiskier)
+			encodeKeys(scores, []int{0, n}, lowerIsRiskier)
 		}
 		return
 	}
@@ -450,13 +450,6 @@ func insertionSort(c bucketColumns) {
 		if c.segments != nil {
 			c.segments[j] = segment
 		}
-	}
-}
-
-// encodeKeys turns scores into their keys, held in the same slice.
-func encodeKeys(scores []float64, lowerIsRiskier bool) {
-	for i, s := range scores {
-		scores[i] = math.Float64frombits(riskKey(s, lowerIsRiskier))
 	}
 }
 
