@@ -118,9 +118,9 @@ func (p listPane) columns(innerW, idWidth int) listColumns {
 	c := listColumns{rank: max(len(strconv.Itoa(p.s.set.Len())), 4), score: 7, mark: 1}
 	// gutter 1, rank, space, score, space, mark, space, hit 6, spaces
 	rest := innerW - (1 + c.rank + 1 + c.score + 1 + c.mark + 1 + 6 + 1)
-	// The mark's column is headed "true" where that leaves every id whole,
-	// and "T" where the room goes to the ids (the help's second page says
-	// what it is).
+	// The mark's column is as wide as its heading, "true", where that
+	// leaves every id whole; where the room goes to the ids it is one
+	// character wide and its heading runs on over the ids' (see markHead).
 	if wide := len("true") - c.mark; p.s.set.IDs() == nil && rest >= wide || p.s.set.IDs() != nil && rest-wide-1 >= max(idWidth, 2) {
 		c.mark += wide
 		rest -= wide
@@ -148,14 +148,7 @@ func (p listPane) body(innerW int) string {
 	}
 	cols := p.columns(innerW, idWidth)
 	var b strings.Builder
-	markHead := "T"
-	if cols.mark >= len("true") {
-		markHead = "true"
-	}
-	head := " " + pad("rank", cols.rank, true) + " " + pad("score", cols.score, false) + " " + markHead
-	if cols.id > 0 {
-		head += " " + pad("id", cols.id, false)
-	}
+	head := " " + pad("rank", cols.rank, true) + " " + pad("score", cols.score, false) + " " + markHead(cols)
 	if cols.segment > 0 {
 		head += " " + pad("segment", cols.segment, false)
 	}
@@ -182,6 +175,23 @@ func (p listPane) body(innerW int) string {
 		b.WriteString("\n" + st.CutLine.Render(p.cutLine(point.Score, point.Cases, innerW)))
 	}
 	return b.String()
+}
+
+// markHead heads the mark's column "true" at every width, and the ids'
+// column "id". Where the mark's column is one character wide (the room
+// went to the ids), "true" starts over the marks and runs on over the ids,
+// and "id" follows it: "true id" over "● AX-105404".
+func markHead(cols listColumns) string {
+	if cols.mark >= len("true") {
+		if cols.id > 0 {
+			return "true " + pad("id", cols.id, false)
+		}
+		return "true"
+	}
+	if cols.id == 0 {
+		return "true"
+	}
+	return pad("true id", cols.mark+1+cols.id, false)
 }
 
 // cutLine is the line drawn under the last flagged row, width cells wide.

@@ -5,7 +5,7 @@ package tui
 // same).
 var explorerTerms = []term{
 	{"cut", "the score from which a case is flagged: flag score >= cut (<= with --lower-is-riskier); a case flagged is an alert a person works"},
-	{"true ●, false ·", "the outcome recorded for a case; the list's true column (T where the room goes to the ids) shows it"},
+	{"true ●, false ·", "the outcome recorded for a case; the list's true column shows it"},
 	{"▌ ▶ ━━ cut", "a flagged row; the rows of the cursor's tie group; the line under the last flagged row"},
 	{"hit (list)", "the hit share a cut at that row's score would have"},
 	{"measured", "measured on the validation set: counted on the cases given (cases flagged, hit share, wrong-alert share, false positive rate), with Wilson intervals and, after b, the redraws"},
