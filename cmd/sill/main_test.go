@@ -619,3 +619,16 @@ func TestReportTextCurve(t *testing.T) {
 		t.Errorf("--format csv --curve is no longer CSV:\n%s", csvCurve.stdout)
 	}
 }
+
+// TestReportCountsWithNoScores: a counts table from the warehouse query
+// whose every case had no score (a SQLite table imported with its score
+// column as text) is refused with one line, exit 2, instead of a report
+// of nothing with exit 0.
+func TestReportCountsWithNoScores(t *testing.T) {
+	file := writeFile(t, t.TempDir(), "counts.csv", []byte("score,positives,negatives,unrecognised\n,434,5566,0\n"))
+	got := runSill(t, "", "report", file, "--counts")
+	want := "sill: " + file + `: column "score": no row with a score: all 6000 cases are on rows with no score (434 true, 5566 false, 0 with neither label), where it was NULL or not a number when they were counted (a score column the engine stores as text counts as not a number), expected at least one row with a score` + "\n"
+	if got.code != 2 || got.stdout != "" || got.stderr != want {
+		t.Errorf("exit %d, stdout %q, stderr\n got %q\nwant %q", got.code, got.stdout, got.stderr, want)
+	}
+}

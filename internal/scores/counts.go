@@ -103,6 +103,13 @@ func ReadCounts(r io.Reader, source string, opt Options) (*Set, error) {
 	if len(b.scores) == 0 && b.dropped == 0 {
 		return nil, &ParseError{File: source, Err: ErrNoRows}
 	}
+	if len(b.scores) == 0 && t.sawNoScore {
+		// Every case on the warehouse query's row of no score: a report
+		// of nothing would follow (as when the score column holds text).
+		n := t.noScore
+		return nil, &ParseError{File: source, Column: header[b.scoreCol], Err: fmt.Errorf("%w: all %d cases are on rows with no score (%d true, %d false, %d with neither label), where it was NULL or not a number when they were counted (a score column the engine stores as text counts as not a number), expected at least one row with a score",
+			ErrNoScoredRows, n.Positives+n.Negatives+n.Neither, n.Positives, n.Negatives, n.Neither)}
+	}
 	if b.weights == nil {
 		b.weights = []float64{}
 	}

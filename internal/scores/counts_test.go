@@ -275,3 +275,17 @@ func TestReadCountsNoScore(t *testing.T) {
 		t.Errorf("kept rows %v %v %v, want %v %v %v", set.Scores(), set.Labels(), set.Weights(), same.Scores(), same.Labels(), same.Weights())
 	}
 }
+
+// TestReadCountsOnlyNoScore: a counts table whose every case is on a row
+// of no score (as when the warehouse's score column holds text) is
+// refused with one message instead of read as a set of nothing. Counts
+// added by hand: 434 + 0 + 2 = 436 true, 5566 + 3 = 5569 false, 1 with
+// neither label, 6006 in all.
+func TestReadCountsOnlyNoScore(t *testing.T) {
+	in := "score,positives,negatives,unrecognised\n,434,5566,0\nNULL,2,3,1\n"
+	_, err := scores.ReadCounts(strings.NewReader(in), "c.csv", scores.Options{})
+	want := `c.csv: column "score": no row with a score: all 6006 cases are on rows with no score (436 true, 5569 false, 1 with neither label), where it was NULL or not a number when they were counted (a score column the engine stores as text counts as not a number), expected at least one row with a score`
+	if err == nil || err.Error() != want || !errors.Is(err, scores.ErrNoScoredRows) {
+		t.Errorf("error %v,\nwant %s", err, want)
+	}
+}

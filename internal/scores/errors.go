@@ -9,6 +9,7 @@ import (
 var (
 	ErrEmpty         = errors.New("empty input, expected a header line")
 	ErrNoRows        = errors.New("no data rows after the header")
+	ErrNoScoredRows  = errors.New("no row with a score")
 	ErrMissingColumn = errors.New("column not found")
 	ErrRagged        = errors.New("wrong number of fields")
 	ErrBadScore      = errors.New("invalid score")
