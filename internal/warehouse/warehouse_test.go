@@ -469,20 +469,19 @@ func TestCountsQueryOnSQLite(t *testing.T) {
 	checkCounts(t, "sqlite --positive", run(query, "-csv", "-header"), cases, "TRUE")
 
 	// A score column declared TEXT holds every score as text, which the
-	// query counts apart rather than compare as text: every case is
-	// dropped, none misread.
+	// query counts apart rather than compare as text: every case is on the
+	// row of no score, none misread, and the table is refused as having
+	// no row with a score.
 	q = testQuery()
 	q.Table = "scores as text"
 	if query, err = q.SQL(); err != nil {
 		t.Fatal(err)
 	}
 	run(insertSQL(Quote(q.Table), cases, engine{"TEXT", "TEXT", sqliteText.notNumber}, ""))
-	set, err := scores.ReadCounts(bytes.NewReader(run(query, "-csv", "-header")), "sqlite-text.csv", scores.Options{SegmentColumn: yardColumn})
-	if err != nil {
-		t.Fatal(err)
-	}
-	if want := reference(t, cases, 3, "").Cases() + withoutScore(cases, "").Total(); set.Cases() != 0 || set.Dropped() != want {
-		t.Errorf("sqlite TEXT scores: %d cases read, %d dropped; want 0 read, %d dropped", set.Cases(), set.Dropped(), want)
+	_, err = scores.ReadCounts(bytes.NewReader(run(query, "-csv", "-header")), "sqlite-text.csv", scores.Options{SegmentColumn: yardColumn})
+	want := reference(t, cases, 3, "").Cases() + withoutScore(cases, "").Total()
+	if !errors.Is(err, scores.ErrNoScoredRows) || !strings.Contains(err.Error(), fmt.Sprintf("all %d cases are on rows with no score", want)) {
+		t.Errorf("sqlite TEXT scores: error %v; want no row with a score, all %d cases on rows with no score", err, want)
 	}
 }
 
