@@ -105,6 +105,10 @@ func styleText(s *text.Style, size vg.Length) {
 }
 
 // draw renders c as an inline SVG element, without the XML prolog.
+// crowdedBars is the number of bars whose names still fit side by side
+// under a bar chart of the page's width.
+const crowdedBars = 4
+
 func (c chart) draw(width, height vg.Length) (template.HTML, error) {
 	p := c.newPlot()
 	if len(c.bars) > 0 {
@@ -125,6 +129,13 @@ func (c chart) draw(width, height vg.Length) (template.HTML, error) {
 		bars.LineStyle.Width = vg.Points(0.5)
 		p.Add(bars)
 		p.NominalX(names...)
+		if len(names) > crowdedBars {
+			// Side by side the names of many candidates run into each other:
+			// they are turned to read upwards, each ending under its bar.
+			p.X.Tick.Label.Rotation = math.Pi / 6
+			p.X.Tick.Label.XAlign = draw.XRight
+			p.X.Tick.Label.YAlign = draw.YCenter
+		}
 		p.Y.Min = 0
 	}
 	if c.yFromZero {
