@@ -25,6 +25,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strings"
 
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/decision"
@@ -509,10 +510,10 @@ func (r *Result) reprojectedLine() string {
 	line := fmt.Sprintf("at the observed base rate the cut flags %s of cases (projected %s) with a wrong-alert share of %s (projected %s)",
 		format.Share(f.AlertRate), format.Share(r.AlertRate.Expected), format.Share(1-f.Precision), format.Share(r.Precision.Complement().Expected))
 	if r.Volume > 0 {
-		line += fmt.Sprintf("; %s alerts per shift of %s cases (projected %s)", format.Count(f.QueuePerShift), format.Count(r.Volume), format.Count(r.Volume*r.AlertRate.Expected))
+		line += fmt.Sprintf("; %s alerts per shift of %s cases (projected %s)", format.Queue(f.QueuePerShift), format.Count(r.Volume), format.Queue(r.Volume*r.AlertRate.Expected))
 		if r.Capacity > 0 {
 			if f.QueuePerShift > r.Capacity {
-				line += fmt.Sprintf(", over the capacity of %s by %s", format.Count(r.Capacity), format.Count(f.QueuePerShift-r.Capacity))
+				line += fmt.Sprintf(", over the capacity of %s by %s", format.Count(r.Capacity), strings.TrimPrefix(format.QueueDiff(f.QueuePerShift, r.Capacity).Text, "+"))
 			} else {
 				line += fmt.Sprintf(", within the capacity of %s", format.Count(r.Capacity))
 			}
