@@ -121,6 +121,10 @@ type Result struct {
 
 	Rules    []cutrule.Rule
 	Outcomes []cutrule.Outcome
+	// CostOptimism is how much more a cost rule's cut costs per case out
+	// of sample than on the validation set (CostOptimism); NaN without a
+	// met cost rule. Times the volume it is per shift.
+	CostOptimism float64
 
 	// Segments is the breakdown by segment at each met cut, in the order
 	// of the set's segment names (a zero Breakdown for an unmet rule); nil
@@ -402,6 +406,13 @@ func (r *Result) assume(a projection.Assumptions, prev *Result) error {
 		r.Summary = curve.Walk(r.Set, visit)
 	}
 	r.Outcomes = finder.Outcomes()
+	r.CostOptimism = math.NaN()
+	for i, o := range r.Outcomes {
+		if o.Met && r.Rules[i].Kind == cutrule.Cost {
+			r.CostOptimism = CostOptimism(r.Set, a)
+			break
+		}
+	}
 	r.Warnings = warningsOf(r.Set, r.Summary)
 	r.Ranking = rankingOf(&delong, r.Summary, a.Confidence)
 

@@ -4,11 +4,13 @@ package report
 
 import (
 	"math"
+	"strconv"
 
 	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/evidence"
+	"github.com/sill-tool/sill/internal/format"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
 	"github.com/sill-tool/sill/internal/segment"
@@ -100,6 +102,8 @@ type cut struct {
 	Shifts       *shiftFigures    `json:"queue_by_shift,omitempty"`
 	Stability    *stability       `json:"stability,omitempty"`
 	Second       *secondModelCut  `json:"second_model,omitempty"`
+
+	optimism string // the cost rule's optimism line (addCostOptimism)
 }
 
 type projected struct {
@@ -115,6 +119,12 @@ type projected struct {
 	AlertRateCI     *interval `json:"alert_rate_ci"`
 	QueuePerShiftCI *interval `json:"queue_per_shift_ci"`
 	CostPerShiftCI  *interval `json:"cost_per_shift_ci"`
+
+	// On the cost rule's cut: how much more it costs out of sample than
+	// on the validation set it was chosen on (analysis.CostOptimism), per
+	// shift with a volume, else per case.
+	CostOptimismPerShift *number `json:"cost_optimism_per_shift,omitempty"`
+	CostOptimismPerCase  *number `json:"cost_optimism_per_case,omitempty"`
 
 	// With case times (addShiftPeaks in beyond.go).
 	QueuePerShiftP90 *number `json:"queue_per_shift_p90,omitempty"`
@@ -175,6 +185,7 @@ func New(res *analysis.Result, opt Options) *Report {
 	r.AveragePrecisionCI = newInterval(res.Ranking.AveragePrecision)
 	r.addSegments(res, opt.SegmentOrder, opt.SegmentsShown)
 	r.addCalibration(res)
+	r.addCostOptimism(res)
 	r.addShiftPeaks(res)
 	if res.Stability != nil {
 		r.addStability(res)
@@ -300,4 +311,30 @@ func newInterval(ci [2]float64) *interval {
 		return nil
 	}
 	return &interval{number(ci[0]), number(ci[1])}
+}
+
+// addCostOptimism puts the optimism estimate of the least-cost figure
+// (analysis.CostOptimism) beside the cost rule's cut.
+func (r *Report) addCostOptimism(res *analysis.Result) {
+	if math.IsNaN(res.CostOptimism) {
+		return
+	}
+	for i, o := range res.Outcomes {
+		if !o.Met || o.Rule.Kind != cutrule.Cost || i >= len(r.Cuts) {
+			continue
+		}
+		c, e := &r.Cuts[i], r.cutsEvidence[i]
+		figure, base, per := res.CostOptimism, e.Projected.CostPerCase, "case"
+		if v := res.Assume.Volume; v > 0 {
+			figure, base, per = v*figure, e.Projected.CostPerShift, "shift"
+			n := number(figure)
+			c.Projected.CostOptimismPerShift = &n
+		} else {
+			n := number(figure)
+			c.Projected.CostOptimismPerCase = &n
+		}
+		c.optimism = "cost per " + per + " " + format.Money(base) + ", about " + format.Money(figure) +
+			" more out of sample (optimism estimate, Tibshirani and Tibshirani 2009: the cut chosen on all but one of " +
+			strconv.Itoa(analysis.OptimismFolds) + " seeded folds stratified by class, its cost on the fold left out less its cost where chosen, averaged over the folds)"
+	}
 }

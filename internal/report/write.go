@@ -256,6 +256,9 @@ func (r *Report) basisLines() []string {
 		if c.Promise != "" {
 			line += "; " + c.Promise
 		}
+		if c.optimism != "" {
+			line += "; " + c.optimism
+		}
 		lines = append(lines, line)
 	}
 	return lines
