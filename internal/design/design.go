@@ -128,8 +128,10 @@ func (s *Sample) String() string {
 	switch {
 	case !s.Sampling():
 		return "frequency weights"
+	case s.ClassConstant && s.PositiveWeight != s.NegativeWeight:
+		return fmt.Sprintf("sampling weights, one class downsampled: every true case weighs %g, every false case %g", s.PositiveWeight, s.NegativeWeight)
 	case s.ClassConstant:
-		return fmt.Sprintf("sampling weights constant within each class (true cases %g, false cases %g)", s.PositiveWeight, s.NegativeWeight)
+		return fmt.Sprintf("sampling weights, constant within each class: every case weighs %g", s.PositiveWeight)
 	}
 	return "sampling weights"
 }

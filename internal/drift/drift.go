@@ -81,9 +81,16 @@ type Result struct {
 	Weight         float64 // total weight of the new rows
 	Flagged        float64 // weight the cut flags
 	Weighted       bool    // the new set has a weight column
-	Labelled       bool
-	Tolerance      float64
-	Confidence     float64 // of the observed shares' intervals, from the file
+	// Weights names the new data's weights in words ("frequency weights",
+	// or sampling weights and their design, package design) and
+	// ValidationWeights the decision file's; "" where there are none.
+	Weights, ValidationWeights string
+	// WeightKind and ValidationWeightKind are the kinds' names
+	// ("frequency" or "sampling"); "" where there are no weights.
+	WeightKind, ValidationWeightKind string
+	Labelled                         bool
+	Tolerance                        float64
+	Confidence                       float64 // of the observed shares' intervals, from the file
 
 	BaseRate           float64 // the production base rate the file projects to
 	BaseRateValidation bool    // it is the validation set's own rate
@@ -256,6 +263,16 @@ func check(f *decision.File, chosen decision.Candidate, t tally, opt Options) *R
 		Chosen: chosen.Name, Cut: chosen.Cut.Score, LowerIsRiskier: f.Data.LowerIsRiskier,
 		Rows: t.rows, Weight: t.weight, Flagged: t.flagged, Weighted: t.weighted, Labelled: opt.Labelled, Tolerance: opt.Tolerance, Confidence: a.Confidence, ignoreLabels: opt.IgnoreLabels, baselineHint: opt.Baseline,
 		PSI: math.NaN(), PSINoise: math.NaN(), PSINoiseLevel: math.NaN(),
+	}
+	if t.weighted {
+		res.Weights, res.WeightKind = opt.Sample.String(), design.Frequency.String()
+		if opt.Sample.Sampling() {
+			res.WeightKind = design.Sampling.String()
+		}
+	}
+	if f.Data.WeightColumn != "" {
+		res.ValidationWeightKind = f.Data.WeightKind.String()
+		res.ValidationWeights = f.Data.WeightKind.String() + " weights"
 	}
 
 	v := chosen.Cut

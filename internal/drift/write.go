@@ -45,47 +45,52 @@ func pair(ci [2]float64) *[2]number {
 // jsonResult is the JSON form: a contract for scheduled jobs. Keys keep
 // their names and meanings; new keys may be added.
 type jsonResult struct {
-	DecisionFile       string       `json:"decision_file"`
-	Scores             string       `json:"scores"`
-	Chosen             string       `json:"chosen"`
-	Cut                number       `json:"cut"`
-	LowerIsRiskier     bool         `json:"lower_is_riskier"`
-	Rows               int          `json:"rows"`
-	Labelled           bool         `json:"labelled"`
-	Level              float64      `json:"level"`
-	BaseRate           number       `json:"projected_base_rate"`
-	Tolerance          float64      `json:"tolerance"`
-	AlertRateObserved  number       `json:"alert_rate_observed"`
-	AlertRateProjected number       `json:"alert_rate_projected"`
-	AlertRateCI        *[2]number   `json:"alert_rate_ci"`
-	AlertRatePValue    number       `json:"alert_rate_p_value"`
-	PSI                number       `json:"psi"`
-	PSIBand            *string      `json:"psi_band"`
-	PSINoise           number       `json:"psi_noise"`
-	PSINoiseLevel      number       `json:"psi_noise_p99"`
-	PSIDrift           bool         `json:"psi_drift"`
-	RecallObserved     number       `json:"recall_observed"`
-	RecallCI           *[2]number   `json:"recall_ci"`
-	RecallValidation   number       `json:"recall_validation"`
-	RecallPValue       number       `json:"recall_p_value"`
-	PrecisionObserved  number       `json:"precision_observed"`
-	PrecisionCI        *[2]number   `json:"precision_ci"`
-	PrecisionProjected number       `json:"precision_projected"`
-	PrecisionPValue    number       `json:"precision_p_value"`
-	FPRObserved        number       `json:"false_positive_rate_observed"`
-	FPRCI              *[2]number   `json:"false_positive_rate_ci"`
-	FPRValidation      number       `json:"false_positive_rate_validation"`
-	FPRPValue          number       `json:"false_positive_rate_p_value"`
-	BaseRateObserved   number       `json:"base_rate_observed"`
-	BaseRateCI         *[2]number   `json:"base_rate_ci"`
-	BaseRateMethod     string       `json:"base_rate_method"`
-	Tests              []jsonTest   `json:"tests"`
-	LevelMethod        string       `json:"level_method"`
-	Reprojected        *jsonFigures `json:"reprojected"`
-	NextStep           string       `json:"next_step"`
-	Status             string       `json:"status"`
-	Findings           []string     `json:"findings"`
-	Caution            string       `json:"caution"`
+	DecisionFile   string `json:"decision_file"`
+	Scores         string `json:"scores"`
+	Chosen         string `json:"chosen"`
+	Cut            number `json:"cut"`
+	LowerIsRiskier bool   `json:"lower_is_riskier"`
+	Rows           int    `json:"rows"`
+	// WeightKind is what the new data's weights are read as ("frequency"
+	// or "sampling"), ValidationWeightKind the decision file's; null
+	// without weights.
+	WeightKind           *string      `json:"weight_kind"`
+	ValidationWeightKind *string      `json:"validation_weight_kind"`
+	Labelled             bool         `json:"labelled"`
+	Level                float64      `json:"level"`
+	BaseRate             number       `json:"projected_base_rate"`
+	Tolerance            float64      `json:"tolerance"`
+	AlertRateObserved    number       `json:"alert_rate_observed"`
+	AlertRateProjected   number       `json:"alert_rate_projected"`
+	AlertRateCI          *[2]number   `json:"alert_rate_ci"`
+	AlertRatePValue      number       `json:"alert_rate_p_value"`
+	PSI                  number       `json:"psi"`
+	PSIBand              *string      `json:"psi_band"`
+	PSINoise             number       `json:"psi_noise"`
+	PSINoiseLevel        number       `json:"psi_noise_p99"`
+	PSIDrift             bool         `json:"psi_drift"`
+	RecallObserved       number       `json:"recall_observed"`
+	RecallCI             *[2]number   `json:"recall_ci"`
+	RecallValidation     number       `json:"recall_validation"`
+	RecallPValue         number       `json:"recall_p_value"`
+	PrecisionObserved    number       `json:"precision_observed"`
+	PrecisionCI          *[2]number   `json:"precision_ci"`
+	PrecisionProjected   number       `json:"precision_projected"`
+	PrecisionPValue      number       `json:"precision_p_value"`
+	FPRObserved          number       `json:"false_positive_rate_observed"`
+	FPRCI                *[2]number   `json:"false_positive_rate_ci"`
+	FPRValidation        number       `json:"false_positive_rate_validation"`
+	FPRPValue            number       `json:"false_positive_rate_p_value"`
+	BaseRateObserved     number       `json:"base_rate_observed"`
+	BaseRateCI           *[2]number   `json:"base_rate_ci"`
+	BaseRateMethod       string       `json:"base_rate_method"`
+	Tests                []jsonTest   `json:"tests"`
+	LevelMethod          string       `json:"level_method"`
+	Reprojected          *jsonFigures `json:"reprojected"`
+	NextStep             string       `json:"next_step"`
+	Status               string       `json:"status"`
+	Findings             []string     `json:"findings"`
+	Caution              string       `json:"caution"`
 }
 
 // jsonTest is one test of the verdict's family.
@@ -159,6 +164,12 @@ func WriteJSON(w io.Writer, r *Result, decisionFile, scoresFile string) error {
 		Tests: []jsonTest{}, LevelMethod: LevelMethod, NextStep: r.NextStep(),
 		Status: r.Status(), Findings: r.Findings, Caution: evidence.Caution,
 	}
+	if r.WeightKind != "" {
+		out.WeightKind = &r.WeightKind
+	}
+	if r.ValidationWeightKind != "" {
+		out.ValidationWeightKind = &r.ValidationWeightKind
+	}
 	for _, j := range r.Family {
 		judges := "model"
 		if !j.Model {
@@ -222,10 +233,14 @@ func WriteText(w io.Writer, r *Result, decisionFile, scoresFile string) error {
 	if r.BaseRateValidation {
 		rate = "the validation base rate"
 	}
-	fmt.Fprintf(&b, "expected     from %s (%s rows), projected at %s, %s\n", r.ValidationPath, format.Count(float64(r.ValidationRows)), rate, format.Share(r.BaseRate))
+	validation := format.Count(float64(r.ValidationRows)) + " rows"
+	if r.ValidationWeights != "" {
+		validation += ", " + r.ValidationWeights
+	}
+	fmt.Fprintf(&b, "expected     from %s (%s), projected at %s, %s\n", r.ValidationPath, validation, rate, format.Share(r.BaseRate))
 	flagged := format.Count(r.Flagged) + " of them"
 	if r.Weighted {
-		flagged = format.Count(r.Flagged) + " of weight " + format.Count(r.Weight)
+		flagged = format.Count(r.Flagged) + " of weight " + format.Count(r.Weight) + " (" + r.Weights + ")"
 	}
 	fmt.Fprintf(&b, "new data     %s rows, %s; the cut flags %s\n", format.Count(float64(r.Rows)), labels, flagged)
 	tolerance := "none"

@@ -9,6 +9,7 @@ import (
 	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/design"
 	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/format"
 	"github.com/sill-tool/sill/internal/projection"
@@ -20,13 +21,16 @@ import (
 // streamed (see WriteJSON). Its JSON form is a contract that scripts read:
 // keys keep their names and meanings, and new keys may be added.
 type Report struct {
-	Source           string  `json:"source"`
-	Rows             int     `json:"rows"`
-	DroppedRows      int     `json:"dropped_rows"`
-	Positives        float64 `json:"positives"`
-	Negatives        float64 `json:"negatives"`
-	BaseRate         number  `json:"base_rate"`
-	Weighted         bool    `json:"weighted"`
+	Source      string  `json:"source"`
+	Rows        int     `json:"rows"`
+	DroppedRows int     `json:"dropped_rows"`
+	Positives   float64 `json:"positives"`
+	Negatives   float64 `json:"negatives"`
+	BaseRate    number  `json:"base_rate"`
+	Weighted    bool    `json:"weighted"`
+	// WeightKind is what the weights are, "frequency" or "sampling"
+	// (package design); null without weights.
+	WeightKind       *string `json:"weight_kind"`
 	LowerIsRiskier   bool    `json:"lower_is_riskier"`
 	ROCAUC           number  `json:"roc_auc"`
 	AveragePrecision number  `json:"average_precision"`
@@ -59,10 +63,14 @@ type Report struct {
 	// baseRateGiven reports whether the production base rate differs from
 	// the validation one, for the text forms.
 	baseRateGiven bool
-	cutsEvidence  []evidence.Cut
-	sections      []section // added by the add methods in beyond.go
-	hints         Hints
-	beyond        beyondState
+	// weights names the weights in words for the text forms ("frequency
+	// weights", or sampling weights and whether they are constant within
+	// each class); "" without weights.
+	weights      string
+	cutsEvidence []evidence.Cut
+	sections     []section // added by the add methods in beyond.go
+	hints        Hints
+	beyond       beyondState
 }
 
 type assumptions struct {
@@ -223,6 +231,13 @@ func newReport(set *scores.Set, sum curve.Summary, warnings []analysis.Warning, 
 		hints:         hints,
 		Caution:       evidence.Caution,
 		baseRateGiven: a.BaseRate != sum.BaseRate,
+	}
+	if sum.Weighted {
+		kind := design.Frequency.String()
+		if a.Sample.Sampling() {
+			kind = design.Sampling.String()
+		}
+		r.WeightKind, r.weights = &kind, a.Sample.String()
 	}
 	if c := a.Costs; c != nil {
 		r.Assumptions.CostFalseAlert = number(c.FalseAlert)

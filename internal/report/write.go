@@ -315,7 +315,7 @@ func WriteTextCurve(w io.Writer, r *Report, points Points) error {
 	fmt.Fprintf(&b, "sill report: %s\n\n", r.Source)
 	fmt.Fprintf(&b, "%s · %s (base rate %s)", format.Plural(r.Rows, "row", "rows"), amount(r.Positives, "true case", "true cases"), format.Share(float64(r.BaseRate)))
 	if r.Weighted {
-		fmt.Fprintf(&b, " · weighted")
+		fmt.Fprintf(&b, " · %s", r.weights)
 	}
 	b.WriteString("\n")
 	fmt.Fprintf(&b, "ROC AUC %s · average precision %s", r.withInterval(r.ROCAUC, r.ROCAUCCI), r.withInterval(r.AveragePrecision, r.AveragePrecisionCI))
@@ -357,7 +357,7 @@ func WriteTextCurve(w io.Writer, r *Report, points Points) error {
 func WriteMarkdown(w io.Writer, r *Report, points Points) error {
 	var b strings.Builder
 	fmt.Fprintf(&b, "## Operating cuts: %s\n\n", format.Markdown(r.Source))
-	fmt.Fprintf(&b, "- %s, %s (base rate %s)%s\n", format.Plural(r.Rows, "row", "rows"), amount(r.Positives, "true case", "true cases"), format.Share(float64(r.BaseRate)), map[bool]string{true: ", weighted", false: ""}[r.Weighted])
+	fmt.Fprintf(&b, "- %s, %s (base rate %s)%s\n", format.Plural(r.Rows, "row", "rows"), amount(r.Positives, "true case", "true cases"), format.Share(float64(r.BaseRate)), map[bool]string{true: ", " + r.weights, false: ""}[r.Weighted])
 	fmt.Fprintf(&b, "- ROC AUC %s, average precision %s", r.withInterval(r.ROCAUC, r.ROCAUCCI), r.withInterval(r.AveragePrecision, r.AveragePrecisionCI))
 	if evidence.Defined(float64(r.Brier)) {
 		fmt.Fprintf(&b, ", Brier score %s, log loss %s", format.Number(float64(r.Brier), 4), format.Number(float64(r.LogLoss), 4))
