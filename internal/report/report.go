@@ -81,7 +81,15 @@ type assumptions struct {
 	CostHit        number `json:"cost_hit"`
 	Capacity       number `json:"capacity"`
 	Confidence     number `json:"confidence"`
+	// IntervalsTakeAsGiven names the keys above that the intervals of
+	// projected figures take as given (format.ProjectedGiven): they carry
+	// the validation set's sampling error only, not any error in these.
+	IntervalsTakeAsGiven []string `json:"intervals_take_as_given"`
 }
+
+// takenAsGiven are the assumptions' keys the projected intervals take as
+// given: production's base rate, volume and costs.
+var takenAsGiven = []string{"base_rate", "volume_per_shift", "cost_false_alert", "cost_miss", "cost_hit"}
 
 type cut struct {
 	Spec               string    `json:"spec"`
@@ -219,13 +227,14 @@ func newReport(set *scores.Set, sum curve.Summary, warnings []analysis.Warning, 
 		Brier:            number(sum.Brier),
 		LogLoss:          number(sum.LogLoss),
 		Assumptions: assumptions{
-			BaseRate:       number(a.BaseRate),
-			Volume:         given(a.Volume),
-			Capacity:       given(a.Capacity),
-			CostFalseAlert: null,
-			CostMiss:       null,
-			CostHit:        null,
-			Confidence:     number(a.Confidence),
+			BaseRate:             number(a.BaseRate),
+			Volume:               given(a.Volume),
+			Capacity:             given(a.Capacity),
+			CostFalseAlert:       null,
+			CostMiss:             null,
+			CostHit:              null,
+			Confidence:           number(a.Confidence),
+			IntervalsTakeAsGiven: takenAsGiven,
 		},
 		Warnings:      analysis.WarningWords(warnings, hints.LowerIsRiskier),
 		hints:         hints,

@@ -316,7 +316,7 @@ func checkKeys(t *testing.T, where string, obj map[string]any, contract map[stri
 // The JSON contract of issue 2: keys and the types they may take.
 var (
 	topContract = map[string]string{
-		"rows": "num", "dropped_rows": "num", "positives": "num", "negatives": "num", "base_rate": "num", "weighted": "bool",
+		"rows": "num", "dropped_rows": "num", "positives": "num", "negatives": "num", "base_rate": "num", "weighted": "bool", "weight_kind": "str|null",
 		"roc_auc": "num|null", "average_precision": "num|null", "brier": "num|null", "log_loss": "num|null",
 		"roc_auc_ci": "pair|null", "roc_auc_std_error": "num|null", "average_precision_ci": "pair|null",
 		"assumptions": "object", "cuts": "array",
@@ -324,6 +324,7 @@ var (
 	assumptionsContract = map[string]string{
 		"base_rate": "num", "volume_per_shift": "num|null", "cost_false_alert": "num|null",
 		"cost_miss": "num|null", "cost_hit": "num|null", "capacity": "num|null", "confidence": "num",
+		"intervals_take_as_given": "array",
 	}
 	cutContract = map[string]string{
 		"spec": "str", "basis": "str", "met": "bool", "reason": "str|null", "score": "num|null", "flagged": "num", "flagged_share": "num",
@@ -354,6 +355,7 @@ func TestWriteJSONContract(t *testing.T) {
 				out := decodeJSON(t, r, pts)
 				checkKeys(t, "report", out, topContract)
 				checkKeys(t, "assumptions", out["assumptions"].(map[string]any), assumptionsContract)
+				checkTakenAsGiven(t, out["assumptions"].(map[string]any))
 				for _, raw := range out["cuts"].([]any) {
 					c := raw.(map[string]any)
 					where := "cut " + c["spec"].(string)
@@ -389,6 +391,26 @@ func TestWriteJSONContract(t *testing.T) {
 				}
 			}
 		})
+	}
+}
+
+// checkTakenAsGiven checks assumptions.intervals_take_as_given: it names
+// production's base rate, volume and the three costs, each a key of the
+// assumptions themselves, as the README's Output section says.
+func checkTakenAsGiven(t *testing.T, a map[string]any) {
+	t.Helper()
+	want := []string{"base_rate", "volume_per_shift", "cost_false_alert", "cost_miss", "cost_hit"}
+	raw, _ := a["intervals_take_as_given"].([]any)
+	var got []string
+	for _, v := range raw {
+		name, _ := v.(string)
+		got = append(got, name)
+		if _, ok := a[name]; !ok {
+			t.Errorf("intervals_take_as_given names %q, no key of the assumptions", name)
+		}
+	}
+	if !slices.Equal(got, want) {
+		t.Errorf("intervals_take_as_given %v, want %v", got, want)
 	}
 }
 
