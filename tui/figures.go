@@ -223,7 +223,12 @@ func (p figuresPane) body() string {
 	switch {
 	case a.Costs != nil && a.Volume > 0:
 		head := st.Label.Render("cost per shift") + " " + st.Figure.Render(format.Money(e.Projected.CostPerShift))
-		lines = append(lines, interval(head, format.MoneyInterval(e.ProjectedCI.CostPerShift), " "+costsText(a.Costs)))
+		tail := " " + costsText(a.Costs)
+		if opt, ok := s.costOptimismAtCursor(); ok {
+			// The least-cost cut's own cost is optimistic (analysis.CostOptimism).
+			tail = " about " + format.Money(a.Volume*opt) + " more out of sample"
+		}
+		lines = append(lines, interval(head, format.MoneyInterval(e.ProjectedCI.CostPerShift), tail))
 	case a.Costs != nil:
 		head := st.Label.Render("cost per case") + " " + st.Figure.Render(format.Money(e.Projected.CostPerCase))
 		ci := format.MoneyInterval(e.ProjectedCI.CostPerCase)
@@ -496,4 +501,20 @@ func longestFit(width int, forms ...string) string {
 		}
 	}
 	return forms[len(forms)-1]
+}
+
+// costOptimismAtCursor returns the optimism per case of the least-cost
+// figure (analysis.CostOptimism) when the cursor sits on the cost rule's
+// cut.
+func (s *session) costOptimismAtCursor() (float64, bool) {
+	if s.res == nil || math.IsNaN(s.res.CostOptimism) {
+		return 0, false
+	}
+	at := s.point().Index
+	for _, o := range s.res.Outcomes {
+		if o.Met && o.Rule.Kind == cutrule.Cost && o.Point.Index == at {
+			return s.res.CostOptimism, true
+		}
+	}
+	return 0, false
 }
