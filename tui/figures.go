@@ -225,8 +225,13 @@ func (p figuresPane) body() string {
 		head := st.Label.Render("cost per shift") + " " + st.Figure.Render(format.Money(e.Projected.CostPerShift))
 		tail := " " + costsText(a.Costs)
 		if opt, ok := s.costOptimismAtCursor(); ok {
-			// The least-cost cut's own cost is optimistic (analysis.CostOptimism).
-			tail = " about " + format.Money(a.Volume*opt) + " more out of sample"
+			// The least-cost cut's own cost is optimistic
+			// (analysis.CostOptimism): say so where it fits, else keep the
+			// costs.
+			more := " about " + format.Money(a.Volume*opt) + " more out of sample"
+			if ansi.StringWidth(head+" "+format.MoneyInterval(e.ProjectedCI.CostPerShift)+more) <= width {
+				tail = more
+			}
 		}
 		lines = append(lines, interval(head, format.MoneyInterval(e.ProjectedCI.CostPerShift), tail))
 	case a.Costs != nil:
