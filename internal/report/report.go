@@ -92,14 +92,18 @@ type assumptions struct {
 var takenAsGiven = []string{"base_rate", "volume_per_shift", "cost_false_alert", "cost_miss", "cost_hit"}
 
 type cut struct {
-	Spec               string    `json:"spec"`
-	Basis              string    `json:"basis"`             // the figure the rule picks on, measured or projected (cutrule.Rule.Basis)
-	Promise            string    `json:"promise,omitempty"` // what the rule's cut promises about production (cutrule.Rule.Promise); hit=, wrong=, hitNN=, wrongNN=
-	Met                bool      `json:"met"`
-	Reason             *string   `json:"reason"`
-	Score              number    `json:"score"`
-	Flagged            float64   `json:"flagged"`
-	FlaggedShare       float64   `json:"flagged_share"`
+	Spec         string  `json:"spec"`
+	Basis        string  `json:"basis"`             // the figure the rule picks on, measured or projected (cutrule.Rule.Basis)
+	Promise      string  `json:"promise,omitempty"` // what the rule's cut promises about production (cutrule.Rule.Promise); hit=, wrong=, hitNN=, wrongNN=
+	Met          bool    `json:"met"`
+	Reason       *string `json:"reason"`
+	Score        number  `json:"score"`
+	Flagged      float64 `json:"flagged"`
+	FlaggedShare float64 `json:"flagged_share"`
+	// FlaggedShareCI is the interval of the flagged share at the
+	// assumptions' confidence (evidence.Cut.FlaggedShareCI); null when
+	// unmet.
+	FlaggedShareCI     *interval `json:"flagged_share_ci"`
 	TP                 float64   `json:"tp"`
 	FP                 float64   `json:"fp"`
 	FN                 float64   `json:"fn"`
@@ -281,7 +285,7 @@ func newCut(o cutrule.Outcome, a projection.Assumptions) cut {
 	}
 	e := evidence.Of(o.Point, a)
 	c.Score = number(e.Score)
-	c.Flagged, c.FlaggedShare = e.Flagged, e.FlaggedShare
+	c.Flagged, c.FlaggedShare, c.FlaggedShareCI = e.Flagged, e.FlaggedShare, newInterval(e.FlaggedShareCI)
 	c.TP, c.FP, c.FN, c.TN = e.TP, e.FP, e.FN, e.TN
 	c.Recall, c.RecallCI = number(e.Recall), newInterval(e.RecallCI)
 	c.Precision, c.PrecisionCI = number(e.Precision), newInterval(e.PrecisionCI)

@@ -327,7 +327,7 @@ var (
 		"intervals_take_as_given": "array",
 	}
 	cutContract = map[string]string{
-		"spec": "str", "basis": "str", "met": "bool", "reason": "str|null", "score": "num|null", "flagged": "num", "flagged_share": "num",
+		"spec": "str", "basis": "str", "met": "bool", "reason": "str|null", "score": "num|null", "flagged": "num", "flagged_share": "num", "flagged_share_ci": "pair|null",
 		"tp": "num", "fp": "num", "fn": "num", "tn": "num",
 		"recall": "num|null", "recall_ci": "pair|null", "precision": "num|null", "precision_ci": "pair|null",
 		"false_discovery_rate": "num|null", "false_positive_rate": "num|null", "projected": "object",
@@ -419,7 +419,7 @@ func checkUnmet(t *testing.T, where string, c map[string]any) {
 	if reason, _ := c["reason"].(string); reason == "" {
 		t.Errorf("%s: unmet with an empty reason", where)
 	}
-	for _, key := range []string{"score", "recall", "recall_ci", "precision", "precision_ci", "false_discovery_rate", "false_positive_rate"} {
+	for _, key := range []string{"score", "recall", "recall_ci", "precision", "precision_ci", "false_discovery_rate", "false_positive_rate", "flagged_share_ci"} {
 		if c[key] != nil {
 			t.Errorf("%s: unmet but %s = %v, want null", where, key, c[key])
 		}

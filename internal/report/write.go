@@ -207,6 +207,7 @@ func figuresTable(r *Report) table {
 	add("cases flagged", func(c cut, e evidence.Cut) string {
 		return format.Count(e.Flagged) + " (" + format.Share(e.FlaggedShare) + ")"
 	})
+	add("  "+conf+" interval of the share", func(c cut, e evidence.Cut) string { return format.Interval(e.FlaggedShareCI) })
 	add("hit share (recall)", func(c cut, e evidence.Cut) string { return format.Share(e.Recall) })
 	add("  "+conf+" interval", func(c cut, e evidence.Cut) string { return format.Interval(e.RecallCI) })
 	resampled(func(s *stability) [2]float64 { return [2]float64{float64(s.RecallP05), float64(s.RecallP95)} })
