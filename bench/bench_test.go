@@ -8,7 +8,9 @@ import (
 	"testing"
 
 	kgzip "github.com/klauspost/compress/gzip"
+	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
 )
 
@@ -165,5 +167,21 @@ func BenchmarkGzipDecompressFast(b *testing.B) {
 		if n, err := io.Copy(io.Discard, z); err != nil || n != int64(len(benchTable(b))) {
 			b.Fatal(n, err)
 		}
+	}
+}
+
+// BenchmarkCostOptimism is the least-cost figure's optimism estimate
+// (analysis.CostOptimism, 10 folds) on the table of BenchmarkSweep, to be
+// read beside it: one sweep plus the fold work per distinct score.
+func BenchmarkCostOptimism(b *testing.B) {
+	set, err := scores.Load(bytes.NewReader(benchTable(b)), "bench.csv", scores.Options{})
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.SetBytes(int64(set.Len()) * 9)
+	b.ReportAllocs()
+	a := projection.Assumptions{BaseRate: 0.08, Volume: 1000, Confidence: 0.95, Costs: &projection.Costs{FalseAlert: 1, Miss: 10}}
+	for b.Loop() {
+		analysis.CostOptimism(set, a)
 	}
 }

@@ -4,7 +4,6 @@ import (
 	"math"
 	"math/rand/v2"
 
-	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
 )
@@ -92,8 +91,25 @@ func foldOptimism(scoreList []float64, labels []bool, weight func(int) float64, 
 		allPos += pos[f]
 		allNeg += neg[f]
 	}
-	costOf := func(tp, fp, p, q float64) float64 {
-		return projection.Project(curve.Point{TP: tp, FP: fp, FN: p - tp, TN: q - fp}, a).CostPerCase
+	// Cost per case is linear in the flagged counts (projection.Project):
+	// p·H·tp/P + (1−p)·A·fp/N + p·M·(P−tp)/P, undefined when a class the
+	// base rate needs is missing.
+	base, c := a.BaseRate, *a.Costs
+	costOf := func(tp, fp, positives, negatives float64) float64 {
+		var cost float64
+		if base > 0 {
+			if !(positives > 0) {
+				return math.NaN()
+			}
+			cost += base * (c.Hit*tp + c.Miss*(positives-tp)) / positives
+		}
+		if base < 1 {
+			if !(negatives > 0) {
+				return math.NaN()
+			}
+			cost += (1 - base) * c.FalseAlert * fp / negatives
+		}
+		return cost
 	}
 	// Running flagged counts per fold; for each fold the best cut so far
 	// on the other folds, its cost there and on the fold itself.
