@@ -376,18 +376,32 @@ func (r *reader) interval(n *yaml.Node, path string) [2]float64 {
 	if isNull(n) {
 		return [2]float64{math.NaN(), math.NaN()}
 	}
+	return r.pair(n, path, r.share, intervalEnds)
+}
+
+// pairEnds names the two ends of a pair in the reader's messages.
+type pairEnds struct{ expected, first, second string }
+
+var (
+	intervalEnds = pairEnds{"[lower, upper]", "lower end", "upper end"}
+	rangeEnds    = pairEnds{"[low, high]", "low", "high"}
+)
+
+// pair reads a list of two values, each through read, the first not above
+// the second; NaNs once the file is found wrong.
+func (r *reader) pair(n *yaml.Node, path string, read func(*yaml.Node, string) float64, ends pairEnds) [2]float64 {
 	items := r.list(n, path)
 	if r.err == nil && len(items) != 2 {
-		r.fail(deref(n), path, fmt.Errorf("%w: %d values, expected [lower, upper]", ErrInvalid, len(items)))
+		r.fail(deref(n), path, fmt.Errorf("%w: %d values, expected %s", ErrInvalid, len(items), ends.expected))
 	}
 	if r.err != nil {
 		return [2]float64{math.NaN(), math.NaN()}
 	}
-	ci := [2]float64{r.share(items[0], path+"[0]"), r.share(items[1], path+"[1]")}
-	if r.err == nil && ci[0] > ci[1] {
-		r.fail(deref(n), path, fmt.Errorf("%w: lower end %v above upper end %v", ErrInvalid, ci[0], ci[1]))
+	out := [2]float64{read(items[0], path+"[0]"), read(items[1], path+"[1]")}
+	if r.err == nil && out[0] > out[1] {
+		r.fail(deref(n), path, fmt.Errorf("%w: %s %v above %s %v", ErrInvalid, ends.first, out[0], ends.second, out[1]))
 	}
-	return ci
+	return out
 }
 
 // projectedInterval reads the interval of a projected figure: null, or
@@ -399,18 +413,7 @@ func (r *reader) projectedInterval(n *yaml.Node, path string, share bool) [2]flo
 	if share {
 		return r.interval(n, path)
 	}
-	items := r.list(n, path)
-	if r.err == nil && len(items) != 2 {
-		r.fail(deref(n), path, fmt.Errorf("%w: %d values, expected [low, high]", ErrInvalid, len(items)))
-	}
-	if r.err != nil {
-		return [2]float64{math.NaN(), math.NaN()}
-	}
-	ci := [2]float64{r.number(items[0], path+"[0]", false), r.number(items[1], path+"[1]", false)}
-	if r.err == nil && ci[0] > ci[1] {
-		r.fail(deref(n), path, fmt.Errorf("%w: low %v above high %v", ErrInvalid, ci[0], ci[1]))
-	}
-	return ci
+	return r.pair(n, path, func(n *yaml.Node, path string) float64 { return r.number(n, path, false) }, rangeEnds)
 }
 
 func (r *reader) file_(doc *yaml.Node) *File {

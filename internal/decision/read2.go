@@ -130,18 +130,7 @@ func (r *reader) stability(n *yaml.Node, path string) *Stability {
 
 // range_ reads [low, high] of numbers or nulls.
 func (r *reader) range_(n *yaml.Node, path string) [2]float64 {
-	items := r.list(n, path)
-	if r.err == nil && len(items) != 2 {
-		r.fail(deref(n), path, fmt.Errorf("%w: %d values, expected [low, high]", ErrInvalid, len(items)))
-	}
-	if r.err != nil {
-		return [2]float64{math.NaN(), math.NaN()}
-	}
-	out := [2]float64{r.number(items[0], path+"[0]", true), r.number(items[1], path+"[1]", true)}
-	if r.err == nil && out[0] > out[1] {
-		r.fail(deref(n), path, fmt.Errorf("%w: low %v above high %v", ErrInvalid, out[0], out[1]))
-	}
-	return out
+	return r.pair(n, path, func(n *yaml.Node, path string) float64 { return r.number(n, path, true) }, rangeEnds)
 }
 
 func (r *reader) segments(n *yaml.Node, path string) *Segments {
@@ -199,21 +188,10 @@ func (r *reader) gap(n *yaml.Node, path string) float64 {
 // gapInterval reads [lower, upper] of differences of shares or nulls, or
 // a null interval; an absent key reads as NaNs.
 func (r *reader) gapInterval(n *yaml.Node, path string) [2]float64 {
-	if deref(n) == nil || isNull(n) {
+	if isNull(n) {
 		return [2]float64{math.NaN(), math.NaN()}
 	}
-	items := r.list(n, path)
-	if r.err == nil && len(items) != 2 {
-		r.fail(deref(n), path, fmt.Errorf("%w: %d values, expected [lower, upper]", ErrInvalid, len(items)))
-	}
-	if r.err != nil {
-		return [2]float64{math.NaN(), math.NaN()}
-	}
-	ci := [2]float64{r.gap(items[0], path+"[0]"), r.gap(items[1], path+"[1]")}
-	if r.err == nil && ci[0] > ci[1] {
-		r.fail(deref(n), path, fmt.Errorf("%w: lower end %v above upper end %v", ErrInvalid, ci[0], ci[1]))
-	}
-	return ci
+	return r.pair(n, path, r.gap, intervalEnds)
 }
 
 func (r *reader) shifts(n *yaml.Node, path string) *Shifts {
