@@ -18,6 +18,7 @@ import (
 	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/floatcmp"
 	"github.com/sill-tool/sill/internal/projection"
+	"github.com/sill-tool/sill/internal/quantile"
 	"github.com/sill-tool/sill/internal/scores"
 )
 
@@ -67,7 +68,7 @@ func TestPSINoiseLevel(t *testing.T) {
 	for _, tc := range []struct {
 		k, want, within float64
 	}{{19, 36.191, 0.1}, {9, 21.666, 0.1}, {1, 6.635, 0.3}} {
-		if got := chiSquareQuantile(0.99, tc.k); math.Abs(got-tc.want) > tc.within {
+		if got := quantile.ChiSquare(0.99, tc.k); math.Abs(got-tc.want) > tc.within {
 			t.Errorf("chi-square 0.99 quantile, %v degrees: %v, want %v within %v", tc.k, got, tc.want, tc.within)
 		}
 	}
@@ -76,13 +77,13 @@ func TestPSINoiseLevel(t *testing.T) {
 		even[i] = 300
 	}
 	// 4000 new rows expect 200 in each bin: the chi-square reading.
-	if got, want := PSINoiseLevel(even, 4000), chiSquareQuantile(0.99, 19)*(1.0/4000+1.0/6000); !floatcmp.Equal(got, want) {
+	if got, want := PSINoiseLevel(even, 4000), quantile.ChiSquare(0.99, 19)*(1.0/4000+1.0/6000); !floatcmp.Equal(got, want) {
 		t.Errorf("PSINoiseLevel %v, want %v", got, want)
 	}
 	// 50 new rows expect 2.5 a bin: drawn, and far above the chi-square
 	// reading, since empty bins count at PSIFloor; the same every time.
 	drawn := PSINoiseLevel(even, 50)
-	if !(drawn > 2*chiSquareQuantile(0.99, 19)*(1.0/50+1.0/6000)) || drawn != PSINoiseLevel(even, 50) {
+	if !(drawn > 2*quantile.ChiSquare(0.99, 19)*(1.0/50+1.0/6000)) || drawn != PSINoiseLevel(even, 50) {
 		t.Errorf("50 rows: level %v, want well above the chi-square reading and the same on a second call", drawn)
 	}
 	for _, tc := range []struct {

@@ -6,6 +6,7 @@ import (
 	"slices"
 
 	"github.com/sill-tool/sill/internal/interval"
+	"github.com/sill-tool/sill/internal/quantile"
 )
 
 // Level is the significance level of every test in this package: a check
@@ -184,7 +185,7 @@ func PSINoiseLevel(validation []float64, n float64) float64 {
 		least = math.Min(least, c/m)
 	}
 	if n*least >= minExpectedRows || n > maxDrawnRows {
-		return chiSquareQuantile(1-Level, float64(len(validation)-1)) * (1/n + 1/m)
+		return quantile.ChiSquare(1-Level, float64(len(validation)-1)) * (1/n + 1/m)
 	}
 	rows := max(1, int(math.Round(n)))
 	cumulative := make([]float64, len(validation))
@@ -221,11 +222,3 @@ const (
 	psiSeed         = 20260901
 	maxDrawnRows    = 100000
 )
-
-// chiSquareQuantile is the p quantile of chi-square with k degrees of
-// freedom by the Wilson-Hilferty approximation.
-func chiSquareQuantile(p, k float64) float64 {
-	z := math.Sqrt2 * math.Erfinv(2*p-1) // the standard normal p quantile
-	c := 1 - 2/(9*k) + z*math.Sqrt(2/(9*k))
-	return k * c * c * c
-}

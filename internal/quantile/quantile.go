@@ -1,4 +1,5 @@
-// Package quantile computes sample quantiles.
+// Package quantile computes sample quantiles, and the quantiles of
+// chi-square that the tests of drift and of shift spreads compare with.
 package quantile
 
 import (
@@ -30,4 +31,17 @@ func Linear(ascending []float64, q float64) float64 {
 		return b - (b-a)*(1-t)
 	}
 	return a + (b-a)*t
+}
+
+// ChiSquare returns the p quantile of chi-square with k degrees of freedom
+// by Wilson and Hilferty's (1931) cube-root normal approximation, within
+// about 0.1 of the printed tables at 0.99 from 9 degrees of freedom up and
+// weakest at 1 degree. It returns NaN for p outside (0, 1) or k <= 0.
+func ChiSquare(p, k float64) float64 {
+	if !(p > 0 && p < 1) || !(k > 0) {
+		return math.NaN()
+	}
+	z := math.Sqrt2 * math.Erfinv(2*p-1) // the standard normal p quantile
+	c := 1 - 2/(9*k) + z*math.Sqrt(2/(9*k))
+	return k * c * c * c
 }

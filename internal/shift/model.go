@@ -2,6 +2,8 @@ package shift
 
 import (
 	"math"
+
+	"github.com/sill-tool/sill/internal/quantile"
 )
 
 // MaxSpread caps the relative spread between shifts that the model
@@ -74,20 +76,11 @@ func spreadOf(x, qx, sumSq, e, e2 float64, k int) Spread {
 	lambda2 := sumSq / e
 	df := float64(k - 1)
 	den := m * m * (e - e2/e)
-	s := Spread{Distinct: q/lambda2 > chiSquare975(df)}
+	s := Spread{Distinct: q/lambda2 > quantile.ChiSquare(0.975, df)}
 	if den > 0 {
 		s.Relative = min(math.Sqrt(max((q-lambda2*df)/den, 0)), MaxSpread)
 	}
 	return s
-}
-
-// chiSquare975 is the 97.5th percentile of chi-square with df degrees of
-// freedom by Wilson and Hilferty's approximation (1931).
-func chiSquare975(df float64) float64 {
-	const z = 1.959963984540054
-	a := 2 / (9 * df)
-	c := 1 - a + z*math.Sqrt(a)
-	return df * c * c * c
 }
 
 // Queue is the distribution of a production shift's queue under the
