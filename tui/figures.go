@@ -147,10 +147,7 @@ func (p figuresPane) body() string {
 	a := s.assume
 	e := s.evidenceAt(s.cursor)
 	conf := strconv.FormatFloat(100*a.Confidence, 'g', -1, 64) + "%"
-	sign := ">="
-	if s.set.LowerIsRiskier() {
-		sign = "<="
-	}
+	sign := format.CutSign(s.set.LowerIsRiskier())
 	var lines []string
 	add := func(format string, args ...any) { lines = append(lines, fmt.Sprintf(format, args...)) }
 	width := p.width - st.Pane.GetHorizontalFrameSize()

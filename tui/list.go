@@ -198,10 +198,7 @@ func markHead(cols listColumns) string {
 // It counts the flagged cases; with weights it counts the ranked rows
 // above it, which the figures pane weighs.
 func (p listPane) cutLine(score float64, flagged, width int) string {
-	sign := ">="
-	if p.s.set.LowerIsRiskier() {
-		sign = "<="
-	}
+	sign := format.CutSign(p.s.set.LowerIsRiskier())
 	noun := "flagged"
 	if p.s.set.Weighted() {
 		noun = "rows flagged"

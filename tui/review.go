@@ -523,10 +523,7 @@ func (r Review) notesView(at rect) string {
 	f := r.file
 	selected := f.Candidates[r.selected]
 	chosen := f.Candidates[r.chosen()]
-	sign := ">="
-	if f.Data.LowerIsRiskier {
-		sign = "<="
-	}
+	sign := format.CutSign(f.Data.LowerIsRiskier)
 	innerW := at.W - st.Pane.GetHorizontalFrameSize()
 	// note wraps a labelled note to the pane's width.
 	note := func(label, text string) []string {

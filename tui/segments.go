@@ -147,10 +147,7 @@ func (p *segmentsPane) View() string {
 	natural := 7 + 7 + 8 + 7 + 1 + 12 + 7 + 1 + 12 + gapW + 8 + min(longest, 28) + 1
 	width := min(p.ctx.width-2, natural+st.Overlay.GetHorizontalFrameSize())
 	innerW := width - st.Overlay.GetHorizontalFrameSize()
-	sign := ">="
-	if s.set.LowerIsRiskier() {
-		sign = "<="
-	}
+	sign := format.CutSign(s.set.LowerIsRiskier())
 	title := fmt.Sprintf("segments (%s) at cut %s %s · by %s", s.set.SegmentColumn(), sign, format.Score(s.point().Score), orderName(p.order))
 
 	// Columns: the name takes what the figures leave.
@@ -277,10 +274,7 @@ func (p *segmentsPane) gapsView() string {
 	}
 	fixed := 7 + 2*(gapW+1+rangeW+pW) + 2*rateW + 8
 	nameW := max(innerW-fixed, 8)
-	sign := ">="
-	if s.set.LowerIsRiskier() {
-		sign = "<="
-	}
+	sign := format.CutSign(s.set.LowerIsRiskier())
 	title := fmt.Sprintf("segments (%s) against the rest at cut %s %s · by %s", s.set.SegmentColumn(), sign, format.Score(s.point().Score), orderName(p.order))
 	row := func(f segment.Figures) string {
 		note := ""

@@ -158,10 +158,7 @@ func (s *saveFlags) write(ctx context.Context, res *analysis.Result, stderr io.W
 		return err
 	}
 	c, _ := f.ChosenCandidate()
-	sign := ">="
-	if set.LowerIsRiskier() {
-		sign = "<="
-	}
+	sign := format.CutSign(set.LowerIsRiskier())
 	fmt.Fprintf(stderr, "sill: saved %d %s to %s; chosen %s: flag when score %s %s\n",
 		len(f.Candidates), pluralWord(len(f.Candidates), "cut", "cuts"), format.Printable(s.path), format.Printable(c.Name), sign, format.Score(c.Cut.Score))
 	return nil

@@ -141,10 +141,7 @@ func New(columns []Column, reference int, opt Options) Table {
 	}
 	a := opt.Assumptions
 	conf := strconv.FormatFloat(100*a.Confidence, 'g', -1, 64) + "% interval"
-	comparison := ">="
-	if opt.LowerIsRiskier {
-		comparison = "<="
-	}
+	comparison := format.CutSign(opt.LowerIsRiskier)
 
 	// main adds a figure with differences; value gives the number and
 	// cell formats it, diff formats a difference.

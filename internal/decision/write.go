@@ -135,7 +135,7 @@ func Marshal(f *File) ([]byte, error) {
 		"sign_offs", signOffsNode(f.SignOffs),
 		"curve", curveNode(f.Curve),
 	)
-	doc.HeadComment = "sill decision file. The chosen cut flags a case when its score is " + flagSign(d.LowerIsRiskier) +
+	doc.HeadComment = "sill decision file. The chosen cut flags a case when its score is " + format.CutSign(d.LowerIsRiskier) +
 		" the chosen candidate's score;\nthe figures are the evidence it was chosen on. Read it with: sill review FILE"
 	var buf bytes.Buffer
 	enc := yaml.NewEncoder(&buf)
@@ -157,15 +157,8 @@ func chosenScore(f *File) *yaml.Node {
 		return null()
 	}
 	n := num(c.Cut.Score)
-	n.LineComment = "the chosen candidate's score: flag when score " + flagSign(f.Data.LowerIsRiskier) + " this"
+	n.LineComment = "the chosen candidate's score: flag when score " + format.CutSign(f.Data.LowerIsRiskier) + " this"
 	return n
-}
-
-func flagSign(lowerIsRiskier bool) string {
-	if lowerIsRiskier {
-		return "<="
-	}
-	return ">="
 }
 
 func candidateNode(c Candidate, d Data) *yaml.Node {
@@ -200,7 +193,7 @@ func candidateNode(c Candidate, d Data) *yaml.Node {
 		))
 	}
 	score := num(e.Score)
-	score.LineComment = "flag when score " + flagSign(lowerIsRiskier) + " this"
+	score.LineComment = "flag when score " + format.CutSign(lowerIsRiskier) + " this"
 	n := mapping(
 		"name", quoted(c.Name),
 		"rule", optionalStr(c.Rule),

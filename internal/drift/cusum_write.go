@@ -50,10 +50,7 @@ func (s *Sequence) verdictLine() (status, next string) {
 // WriteBaselineText writes the judgement of the batches for a person.
 func WriteBaselineText(w io.Writer, s *Sequence, chosen string, cut float64, lowerIsRiskier bool, decisionFile string) error {
 	var b strings.Builder
-	sign := ">="
-	if lowerIsRiskier {
-		sign = "<="
-	}
+	sign := format.CutSign(lowerIsRiskier)
 	fmt.Fprintf(&b, "Check of %d batches against the baseline %s, with %s\n", len(s.Steps), s.Baseline.Name, decisionFile)
 	fmt.Fprintf(&b, "chosen cut   %s: flag when score %s %s\n", chosen, sign, format.Score(cut))
 	fmt.Fprintf(&b, "baseline     %s: %s cases, %s flagged (%s)\n", s.Baseline.Name, format.Count(s.Baseline.Cases), format.Count(s.Baseline.Flagged), format.Share(s.Baseline.AlertRate()))

@@ -219,10 +219,7 @@ func (r *Result) tests() int {
 // checks and the findings.
 func WriteText(w io.Writer, r *Result, decisionFile, scoresFile string) error {
 	var b strings.Builder
-	sign := ">="
-	if r.LowerIsRiskier {
-		sign = "<="
-	}
+	sign := format.CutSign(r.LowerIsRiskier)
 	labels := "no labels"
 	if r.Labelled {
 		labels = "labelled"

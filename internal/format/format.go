@@ -296,3 +296,13 @@ func ShortGapInterval(ci [2]float64) string {
 	}
 	return signed(math.Round(100*ci[0]), 0, "") + " to " + signed(math.Round(100*ci[1]), 0, "")
 }
+
+// CutSign is the comparison a case's score passes to be flagged, as every
+// view writes it: ">=" where higher scores are riskier, "<=" where lower
+// ones are (the cut rule of package scores).
+func CutSign(lowerIsRiskier bool) string {
+	if lowerIsRiskier {
+		return "<="
+	}
+	return ">="
+}

@@ -286,12 +286,7 @@ func isHeading(row []string) bool {
 	return len(row) > 1
 }
 
-func (r *Report) comparison() string {
-	if r.LowerIsRiskier {
-		return "<="
-	}
-	return ">="
-}
+func (r *Report) comparison() string { return format.CutSign(r.LowerIsRiskier) }
 
 // withInterval is a ranking figure with its interval in brackets, at the
 // level the assumptions line states ("0.896 (0.881–0.912)"), or alone when

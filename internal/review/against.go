@@ -44,10 +44,7 @@ func Against(newFile *decision.File, newPath string, old *decision.File, oldPath
 		return fmt.Sprintf("%s · %s rows · sha256 %s", format.Printable(f.Data.Path), format.Count(float64(f.Data.Rows)), shortDigest(f.Data.SHA256))
 	}
 	chosen := func(f *decision.File, cand decision.Candidate) string {
-		sign := ">="
-		if f.Data.LowerIsRiskier {
-			sign = "<="
-		}
+		sign := format.CutSign(f.Data.LowerIsRiskier)
 		return fmt.Sprintf("%s: score %s %s", format.Printable(cand.Name), sign, format.Score(cand.Cut.Score))
 	}
 	by := func(f *decision.File) string {

@@ -78,10 +78,7 @@ func RulesMoved(f *decision.File) string {
 // data, the assumptions and the chosen cut.
 func facts(f *decision.File) [][2]string {
 	d, a := f.Data, f.Assumptions
-	sign := ">="
-	if d.LowerIsRiskier {
-		sign = "<="
-	}
+	sign := format.CutSign(d.LowerIsRiskier)
 	chosen, _ := f.ChosenCandidate()
 	data := fmt.Sprintf("%s · %s rows, %s true cases · sha256 %s", d.Path, format.Count(float64(d.Rows)), format.Count(d.Positives), shortDigest(d.SHA256))
 	columns := fmt.Sprintf("score %q, label %q", d.ScoreColumn, d.LabelColumn)
