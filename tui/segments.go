@@ -194,23 +194,7 @@ func (p *segmentsPane) View() string {
 		st.ColumnHead.Render(head),
 		st.Figure.Render(row(overall)),
 	}
-	n := p.rowsInView()
-	end := min(p.offset+n, len(b.Segments))
-	for _, f := range b.Segments[p.offset:end] {
-		text := row(f)
-		if f.Outlier {
-			text = st.Warning.Render(text)
-		}
-		lines = append(lines, text)
-	}
-	keys := "↑↓ cut · o order · v gaps · s/esc closes"
-	if len(b.Segments) > n {
-		// Scrolling: keep the box's height as the groups scroll by.
-		for range n - (end - p.offset) {
-			lines = append(lines, "")
-		}
-		keys = fmt.Sprintf("%d–%d of %d · pgup/pgdn g/G scroll · ", p.offset+1, end, len(b.Segments)) + keys
-	}
+	lines, keys := p.groupRows(lines, b, row, "↑↓ cut · o order · v gaps · s/esc closes")
 	// What differs and gap mean, in the longest words that fit.
 	legend := differsLegend(b, innerW)
 	if gap {
@@ -228,6 +212,29 @@ func (p *segmentsPane) View() string {
 	// framed fits every line to the box's inner width.
 	return framed(st.Overlay, st.OverlayEdge, st.Title, title, strings.Join(lines, "\n"), width,
 		min(len(lines)+st.Overlay.GetVerticalFrameSize(), p.ctx.height-2))
+}
+
+// groupRows appends the groups in view to lines, each drawn by row and
+// those that differ in the warning style, and returns them with the keys
+// line. When the groups scroll, the box keeps its height (blank lines pad
+// the last page) and the keys lead with the groups shown.
+func (p *segmentsPane) groupRows(lines []string, b segment.Breakdown, row func(segment.Figures) string, keys string) ([]string, string) {
+	n := p.rowsInView()
+	end := min(p.offset+n, len(b.Segments))
+	for _, f := range b.Segments[p.offset:end] {
+		text := row(f)
+		if f.Outlier {
+			text = p.ctx.styles.Warning.Render(text)
+		}
+		lines = append(lines, text)
+	}
+	if len(b.Segments) > n {
+		for range n - (end - p.offset) {
+			lines = append(lines, "")
+		}
+		keys = fmt.Sprintf("%d–%d of %d · pgup/pgdn g/G scroll · ", p.offset+1, end, len(b.Segments)) + keys
+	}
+	return lines, keys
 }
 
 // differsLegend says what "differs" means, in the longest words that fit
@@ -296,22 +303,8 @@ func (p *segmentsPane) gapsView() string {
 			format.Level(b.Confidence))),
 		st.ColumnHead.Render(head),
 	}
-	n := p.rowsInView() // the base-rate line takes the overall row's place
-	end := min(p.offset+n, len(b.Segments))
-	for _, f := range b.Segments[p.offset:end] {
-		text := row(f)
-		if f.Outlier {
-			text = st.Warning.Render(text)
-		}
-		lines = append(lines, text)
-	}
-	keys := "↑↓ cut · o order · v figures · s/esc closes"
-	if len(b.Segments) > n {
-		for range n - (end - p.offset) {
-			lines = append(lines, "")
-		}
-		keys = fmt.Sprintf("%d–%d of %d · pgup/pgdn g/G scroll · ", p.offset+1, end, len(b.Segments)) + keys
-	}
+	// The base-rate line below takes the overall row's place.
+	lines, keys := p.groupRows(lines, b, row, "↑↓ cut · o order · v figures · s/esc closes")
 	legend := differsLegend(b, innerW)
 	baseRates := "base, rest: share of true cases in the group and in the rest; wrong-alert shares follow them, so a wrong gap may come from the mix of cases"
 	if ansi.StringWidth(baseRates) > innerW {
