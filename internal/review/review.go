@@ -368,18 +368,8 @@ func WriteMarkdown(w io.Writer, f *decision.File, path string) error {
 			b.WriteString("- " + format.Markdown(line) + "\n")
 		}
 	}
-	if lines := PromiseLines(f); len(lines) > 0 {
-		b.WriteString("\n## What each rule promises\n\n")
-		for _, line := range lines {
-			b.WriteString("- " + format.Markdown(line) + "\n")
-		}
-	}
-	if lines := SegmentLines(f); len(lines) > 0 {
-		b.WriteString("\n## Groups\n\n")
-		for _, line := range lines {
-			b.WriteString("- " + format.Markdown(line) + "\n")
-		}
-	}
+	markdownSection(&b, "What each rule promises", PromiseLines(f))
+	markdownSection(&b, "Groups", SegmentLines(f))
 	if notes := allNotes(f); len(notes) > 0 {
 		b.WriteString("\n## Notes\n\n")
 		for _, n := range notes {
@@ -397,4 +387,16 @@ func WriteMarkdown(w io.Writer, f *decision.File, path string) error {
 	b.WriteString("\n> **Caution.** " + format.Markdown(evidence.Caution) + "\n")
 	_, err := io.WriteString(w, format.PrintableText(b.String())) // names and notes from the file are untrusted
 	return err
+}
+
+// markdownSection writes lines as a bulleted section under heading, or
+// nothing when there are none.
+func markdownSection(b *strings.Builder, heading string, lines []string) {
+	if len(lines) == 0 {
+		return
+	}
+	b.WriteString("\n## " + heading + "\n\n")
+	for _, line := range lines {
+		b.WriteString("- " + format.Markdown(line) + "\n")
+	}
 }
