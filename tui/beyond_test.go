@@ -172,6 +172,9 @@ func TestBeyondView(t *testing.T) {
 		{name: "stability-80x24-base", set: demoTimed, width: 80, height: 24, resample: true},
 		{name: "stability-100x30-queue90", set: demoTimed, width: 100, height: 30, resample: true, after: []string{"6"}},
 		{name: "stability-100x30-all-chart", set: demoTimed, width: 100, height: 30, resample: true, after: []string{"v", "j"}},
+		// Each pin's redraws sit under its hit share, within 80 columns.
+		{name: "strip-80x24-resampled-pins", set: demoTimed, width: 80, height: 24, keys: []string{"1", "p", "2", "p"}, resample: true, after: []string{"tab"}},
+		{name: "strip-100x30-resampled-pins", set: demoTimed, width: 100, height: 30, keys: []string{"1", "p", "2", "p", "end", "p"}, resample: true, after: []string{"tab"}},
 		{name: "two-models-100x30", set: two, width: 100, height: 30},
 		{name: "two-models-100x30-roc", set: two, width: 100, height: 30, keys: []string{"v", "v"}},
 		{name: "two-models-100x30-overlay", set: two, width: 100, height: 30, keys: []string{"2", "m"}},

@@ -12,6 +12,7 @@ import (
 	"github.com/muesli/termenv"
 
 	"github.com/sill-tool/sill/internal/analysis"
+	"github.com/sill-tool/sill/internal/compare"
 	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/floatcmp"
@@ -424,5 +425,41 @@ func TestWriteQueue90(t *testing.T) {
 	}
 	if len(f.Candidates) != 1 || f.Candidates[0].Rule != "queue90=90" || f.Chosen != "queue90=90" {
 		t.Errorf("candidates %+v, chosen %q", f.Candidates, f.Chosen)
+	}
+}
+
+// TestStripRedraws: after b each pin's column carries its hit share's
+// range across the resampled sets, the band at its cut that the figures
+// pane shows for the same cut, in the row under the hit share; a pin
+// made after the run gets one too; new assumptions forget it.
+func TestStripRedraws(t *testing.T) {
+	m := demoBeyond(t, 80, 24)
+	m = keys(m, "1", "p", "2", "p")
+	if rowCells(m.strip.table.Rows, compare.RedrawsLabel) != nil {
+		t.Fatal("a redraws row before b")
+	}
+	m = resample(t, m)
+	m = keys(m, "end", "p")
+	rows := m.strip.table.Rows
+	got := rowCells(rows, compare.RedrawsLabel)
+	if len(got) != 3 {
+		t.Fatalf("redraws after b: %q", got)
+	}
+	for i, p := range m.s.pins {
+		band, _ := m.s.stability.BandAt(p.cut)
+		if want := format.Interval(band.Recall); got[i] != want {
+			t.Errorf("pin %q: redraws %q, want the band at its cut %q", p.name, got[i], want)
+		}
+	}
+	for i, r := range rows {
+		if strings.TrimSpace(r.Figure) == compare.RedrawsLabel && !strings.HasPrefix(strings.TrimSpace(rows[i-2].Figure), "hit share") {
+			t.Errorf("redraws under %q, want under the hit share and its interval", rows[i-2].Figure)
+		}
+	}
+	m = keys(m, "a", "tab", "ctrl+u")
+	m = typeText(m, "3000")
+	m = keys(m, "enter")
+	if m.s.stability != nil || rowCells(m.strip.table.Rows, compare.RedrawsLabel) != nil {
+		t.Error("redraws kept under new assumptions")
 	}
 }

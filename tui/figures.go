@@ -362,10 +362,7 @@ func (p figuresPane) stabilityLines(width int) []string {
 
 // band returns the bootstrap's band at the cursor's cut, if it has run.
 func (p figuresPane) band() (bootstrap.BandPoint, bool) {
-	if p.s.stability == nil || p.s.resampling.running {
-		return bootstrap.BandPoint{}, false
-	}
-	return p.s.stability.BandAt(p.s.cursor)
+	return p.s.bandAt(p.s.cursor)
 }
 
 // progressBar draws done of total as a bar of width cells that reads

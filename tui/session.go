@@ -7,6 +7,7 @@ import (
 	"strconv"
 
 	"github.com/sill-tool/sill/internal/analysis"
+	"github.com/sill-tool/sill/internal/bootstrap"
 	"github.com/sill-tool/sill/internal/compare"
 	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/cutrule"
@@ -142,6 +143,15 @@ func (s *session) repinSelected() bool {
 	return true
 }
 
+// bandAt returns the bootstrap's band at cut i once a run has finished
+// under the current assumptions.
+func (s *session) bandAt(i int) (bootstrap.BandPoint, bool) {
+	if s.stability == nil || s.resampling.running {
+		return bootstrap.BandPoint{}, false
+	}
+	return s.stability.BandAt(i)
+}
+
 // point returns the cursor's point.
 func (s *session) point() curve.Point { return s.curve.At(s.cursor) }
 
@@ -260,14 +270,27 @@ func (s *session) tableSignature() string {
 	if a.Costs != nil {
 		costs = fmt.Sprint(*a.Costs)
 	}
-	return fmt.Sprint(s.pins, s.reference, a.BaseRate, a.Volume, a.Capacity, a.Confidence, costs)
+	// The bootstrap's band gives each pin its redraws: a finished run
+	// counts as its run number, none as -1.
+	resampled := -1
+	if s.stability != nil && !s.resampling.running {
+		resampled = s.resampling.run
+	}
+	return fmt.Sprint(s.pins, s.reference, a.BaseRate, a.Volume, a.Capacity, a.Confidence, costs, resampled)
 }
 
-// table returns the comparison of the pinned candidates.
+// table returns the comparison of the pinned candidates; after the
+// bootstrap each carries the range of its hit share across the resampled
+// sets, the band at its cut as the figures pane shows it, which the strip
+// draws under the hit share it belongs to.
 func (s *session) table() compare.Table {
 	columns := make([]compare.Column, len(s.pins))
 	for i, p := range s.pins {
 		columns[i] = compare.Column{Name: p.name, Rule: p.rule, Cut: s.evidenceAt(p.cut)}
+		if band, ok := s.bandAt(p.cut); ok {
+			redraws := band.Recall
+			columns[i].RecallRedraws = &redraws
+		}
 		if p.checked {
 			now := compare.RuleNow{Holds: !p.moved, Picks: math.NaN()}
 			if p.now >= 0 {

@@ -110,7 +110,7 @@ func (m Model) resampleUpdate(msg tea.Msg) (tea.Model, tea.Cmd) {
 				m.status = fmt.Sprintf("resampled %d times · warning: the scores are not calibrated for costing (e)", res.Replicates)
 			}
 		}
-		m.resize()
+		m.refresh() // the pins' redraws join the strip
 	}
 	return m, nil
 }

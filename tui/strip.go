@@ -173,11 +173,13 @@ func (s Strip) heading(i int, name string) string {
 
 // detailOrder is the order in which detail rows give way when the strip is
 // short of lines: the share of all cases first, the capacity reading last
-// of the figures.
+// of the figures. The bootstrap's redraws, asked for with b, outlast the
+// count of true cases found, which the hit share and the header's count
+// of true cases already give.
 // The headings that name the measured and the projected figures go last:
 // the labels below them still differ ("wrong-alert share (FDR)", measured;
 // "wrong-alert share", projected).
-var detailOrder = []string{"share of all cases", "interval", compare.RedrawsLabel, "true cases found", "against capacity", format.MeasuredHeading, format.ProjectedHeading}
+var detailOrder = []string{"share of all cases", "interval", "true cases found", compare.RedrawsLabel, "against capacity", format.MeasuredHeading, format.ProjectedHeading}
 
 // rowsThatFit returns the rows of t to draw in lines lines: every figure,
 // dropping detail rows in detailOrder until they fit.

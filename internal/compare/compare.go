@@ -40,9 +40,11 @@ type Column struct {
 	// hand, a file written before the check).
 	RuleNow *RuleNow
 	// RecallRedraws, when not nil, is the range (5th to 95th percentile)
-	// of the measured hit share where the column's rule lands across the
-	// bootstrap's resampled sets: shown beside the hit share it belongs
-	// to. nil: not resampled.
+	// of the column's measured hit share across the bootstrap's
+	// resampled sets (a decision file records it where the rule lands;
+	// the explorer gives the band at the column's cut, as its figures
+	// pane does): shown beside the hit share it belongs to. nil: not
+	// resampled.
 	RecallRedraws *[2]float64
 }
 
