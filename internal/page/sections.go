@@ -116,7 +116,7 @@ func segments(f *decision.File) section {
 	case tested:
 		s.Intro = fmt.Sprintf("Each candidate broken down by %q, each group set against the rest of the set. A group is listed when its hit share or its wrong-alert share differs from the rest's: "+
 			"the gap (group less rest) with its %s interval (Newcombe's hybrid score), and its p-value adjusted by Holm over every group's two tests, below %s. "+
-			"With no real difference, any group at all is listed in at most %s of validation sets. "+
+			"With no real difference, any group at all is listed in about %s of validation sets. "+
 			"A wrong-alert share follows its group's base rate: a group with fewer true cases has more wrong alerts at the same cut even where the model ranks as well.",
 			firstColumn(f), format.Level(f.Assumptions.Confidence), format.PValue(1-f.Assumptions.Confidence), format.Level(1-f.Assumptions.Confidence))
 	default:

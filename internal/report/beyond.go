@@ -73,7 +73,7 @@ type segmentTests struct {
 
 // segmentTestWords say how groups are tested, in the notes of every form.
 func segmentTestWords(b segment.Breakdown) string {
-	return fmt.Sprintf("gap: the group's figure less the rest of the set's, with its %s interval (Newcombe's hybrid score); adj. p: adjusted by Holm over the %s, so that with no real difference any flag at all comes in at most %s of runs",
+	return fmt.Sprintf("gap: the group's figure less the rest of the set's, with its %s interval (Newcombe's hybrid score); adj. p: adjusted by Holm over the %s, so that with no real difference any flag at all comes in about %s of runs",
 		format.Level(b.Confidence), format.Plural(b.Tests, "test", "tests"), format.Level(1-b.Confidence))
 }
 

@@ -33,7 +33,7 @@ func SegmentLines(f *decision.File) []string {
 		}
 		if lines == nil {
 			if s.Tests > 0 {
-				lines = append(lines, fmt.Sprintf("each group of %q against the rest of the set: gap (group less rest) with its %s interval (Newcombe's hybrid score), p adjusted by Holm over the %s; a group differs below %s, and with no real difference any group at all does so in at most %s of validation sets",
+				lines = append(lines, fmt.Sprintf("each group of %q against the rest of the set: gap (group less rest) with its %s interval (Newcombe's hybrid score), p adjusted by Holm over the %s; a group differs below %s, and with no real difference any group at all does so in about %s of validation sets",
 					s.Column, format.Level(f.Assumptions.Confidence), tests(s.Tests), format.PValue(level), format.Level(level)))
 			} else {
 				lines = append(lines, fmt.Sprintf("groups of %q: this file was written before groups were tested against the rest of the set; its flag marks an interval clear of the whole set's", s.Column))

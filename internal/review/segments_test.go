@@ -33,7 +33,7 @@ func TestSegmentLines(t *testing.T) {
 		},
 	}
 	want := []string{
-		`each group of "depot" against the rest of the set: gap (group less rest) with its 95% interval (Newcombe's hybrid score), p adjusted by Holm over the 4 tests; a group differs below 0.0500, and with no real difference any group at all does so in at most 5% of validation sets`,
+		`each group of "depot" against the rest of the set: gap (group less rest) with its 95% interval (Newcombe's hybrid score), p adjusted by Holm over the 4 tests; a group differs below 0.0500, and with no real difference any group at all does so in about 5% of validation sets`,
 		"hit=0.8: east differs: hit gap -20.0 pt (-35.0 to -5.0 pt, adj. p 0.0120), wrong gap +15.0 pt (+2.0 to +27.0 pt, adj. p 0.0400); base rate 16.7% against 7.1% in the rest, and wrong-alert shares follow base rates",
 		"top=5%: none of 2 groups differs",
 	}
