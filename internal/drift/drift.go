@@ -17,8 +17,12 @@
 //
 // Which new cases the cut flags follows the cut rule in the doc of package
 // scores, in the direction the file records (data.lower_is_riskier),
-// whatever the direction the new set was read with. Weights are frequency
-// weights throughout.
+// whatever the direction the new set was read with. Weights are read as
+// their kind says (package design): the validation side's as the
+// decision file records, the new data's as Options.Sample gives
+// (frequency weights when nil). Under sampling weights each share, and
+// each class's score distribution, is tested at its effective sample
+// size.
 package drift
 
 import (
@@ -153,7 +157,8 @@ type Result struct {
 
 // Check applies the chosen cut of f to set and runs the checks of the
 // package doc. f must have passed decision's Validate (Read and New
-// ensure it). set may be in any order; its weights are frequency weights.
+// ensure it). set may be in any order; its weights are read as
+// opt.Sample says (frequency weights when nil).
 // A set of no weight gives ErrNoRows and a tolerance outside [0,1)
 // ErrTolerance. With labels but no true case in set, recall is not tested
 // (Recall.Defined is false, and a finding says so); likewise precision

@@ -176,12 +176,18 @@ func TestCompare(t *testing.T) {
 // plus shift for every case; score 1/(1+exp(-(1.3*latent-3.2))) rounded
 // to 3 decimals, so that scores tie.
 func bearings(seed uint64, n int, base, shift float64) (scoresOut []float64, labels []bool) {
+	return bearingsMoved(seed, n, base, shift, 0)
+}
+
+// bearingsMoved is bearings with the latent of true cases alone moved
+// by shiftPositives as well (the same draws for the same seed).
+func bearingsMoved(seed uint64, n int, base, shift, shiftPositives float64) (scoresOut []float64, labels []bool) {
 	rng := rand.New(rand.NewPCG(seed, 99))
 	for i := 0; i < n; i++ {
 		positive := rng.Float64() < base
 		latent := rng.NormFloat64() + shift
 		if positive {
-			latent += 1.9
+			latent += 1.9 + shiftPositives
 		}
 		s := 1 / (1 + math.Exp(-(1.3*latent - 3.2)))
 		scoresOut = append(scoresOut, math.Round(s*1000)/1000)
