@@ -133,6 +133,9 @@ type reviewKeys struct {
 	Sign     key.Binding // the sign-off form
 	Chart    key.Binding // the trade-off drawn from the stored curve
 	Against  key.Binding // what changes against the cut in production (with --against)
+	// ScrollUp and ScrollDown bring the strip's rows above or below into
+	// view when they do not all fit.
+	ScrollUp, ScrollDown key.Binding
 }
 
 // newReviewKeys returns the review screen's keys made from the explorer's
@@ -145,12 +148,14 @@ func newReviewKeys(k KeyMap) reviewKeys {
 	k.Accept.SetHelp("enter", "keep the note")
 	k.enableReview()
 	return reviewKeys{
-		KeyMap:   k,
-		Note:     key.NewBinding(key.WithKeys("n"), key.WithHelp("n", "note on this candidate")),
-		FileNote: key.NewBinding(key.WithKeys("N"), key.WithHelp("N", "note on the file")),
-		Sign:     key.NewBinding(key.WithKeys("S"), key.WithHelp("S", "sign off (written at once)")),
-		Chart:    key.NewBinding(key.WithKeys("t"), key.WithHelp("t", "the trade-off chart, candidates marked")),
-		Against:  key.NewBinding(key.WithKeys("d"), key.WithHelp("d", "what changes against the cut in production")),
+		KeyMap:     k,
+		Note:       key.NewBinding(key.WithKeys("n"), key.WithHelp("n", "note on this candidate")),
+		FileNote:   key.NewBinding(key.WithKeys("N"), key.WithHelp("N", "note on the file")),
+		Sign:       key.NewBinding(key.WithKeys("S"), key.WithHelp("S", "sign off (written at once)")),
+		Chart:      key.NewBinding(key.WithKeys("t"), key.WithHelp("t", "the trade-off chart, candidates marked")),
+		Against:    key.NewBinding(key.WithKeys("d"), key.WithHelp("d", "what changes against the cut in production")),
+		ScrollUp:   key.NewBinding(key.WithKeys("up", "k"), key.WithHelp("↑/k", "the figures above, when they do not all fit")),
+		ScrollDown: key.NewBinding(key.WithKeys("down", "j"), key.WithHelp("↓/j", "the figures below (the intervals stay in view)")),
 	}
 }
 

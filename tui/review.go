@@ -127,6 +127,7 @@ func NewReview(cfg ReviewConfig) Review {
 		r.writeCtx = context.Background()
 	}
 	r.strip = NewStrip(ctx.styles, r.keys.KeyMap)
+	r.strip.SetScrolling(true) // every figure keeps its interval: the lead has nothing else
 	r.selected = r.chosen()
 	r.against, r.againstPath = cfg.Against, cfg.AgainstPath
 	r.keys.Against.SetEnabled(r.against != nil)
@@ -263,6 +264,10 @@ func (r Review) key(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 	case key.Matches(msg, k.Right):
 		r.selected = min(r.selected+1, len(r.file.Candidates)-1)
 		r.refresh()
+	case key.Matches(msg, k.ScrollUp):
+		r.strip.Scroll(-1)
+	case key.Matches(msg, k.ScrollDown):
+		r.strip.Scroll(1)
 	case key.Matches(msg, k.Choose):
 		name := r.file.Candidates[r.selected].Name
 		if name == r.file.Chosen {
@@ -569,7 +574,11 @@ func (r Review) footer() string {
 		// typed into a note.
 		return statusBar{r.ctx}.footer(r.status, "", r.overlays[n-1].ShortHelp(), []key.Binding{hint(k.Interrupt, "", "quit")})
 	}
-	hints := append(r.strip.ShortHelp(), r.ShortHelp()...)
+	hints := r.strip.ShortHelp()
+	if r.strip.Scrollable() {
+		hints = append(hints[:1], append([]key.Binding{hint(k.ScrollDown, "↑↓", "more rows")}, hints[1:]...)...)
+	}
+	hints = append(hints, r.ShortHelp()...)
 	return statusBar{r.ctx}.footer(r.status, "", hints, []key.Binding{hint(k.Help, "", "all keys"), hint(k.Quit, "", "quit")})
 }
 
@@ -584,7 +593,7 @@ func (r Review) ShortHelp() []key.Binding {
 // FullHelp lists every key of the screen, for the help.
 func (r Review) FullHelp() [][]key.Binding {
 	k := r.keys
-	return [][]key.Binding{{k.Left, k.Right, k.Choose, k.Note, k.FileNote, k.Write, k.Sign, k.Chart, k.Against, k.Help, k.Quit}}
+	return [][]key.Binding{{k.Left, k.Right, k.ScrollUp, k.ScrollDown, k.Choose, k.Note, k.FileNote, k.Write, k.Sign, k.Chart, k.Against, k.Help, k.Quit}}
 }
 
 // helpView draws every key of the screen in a box.

@@ -12,6 +12,7 @@ import (
 	"time"
 
 	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/x/ansi"
 
 	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/cutrule"
@@ -77,6 +78,10 @@ func keyPress(s string) tea.KeyMsg {
 		return tea.KeyMsg{Type: tea.KeyRight}
 	case "left":
 		return tea.KeyMsg{Type: tea.KeyLeft}
+	case "down":
+		return tea.KeyMsg{Type: tea.KeyDown}
+	case "up":
+		return tea.KeyMsg{Type: tea.KeyUp}
 	}
 	return tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune(s)}
 }
@@ -111,6 +116,14 @@ func TestReviewView(t *testing.T) {
 		r, path := newTestReview(t, w, h)
 		name := func(state string) string { return "review-" + strconv.Itoa(w) + "x" + strconv.Itoa(h) + "-" + state }
 		checkFrame(t, name("opened"), view(r, path), w, h)
+		if w == 80 {
+			// The rows below scroll into view, each interval under its
+			// figure, the section's heading kept on top.
+			for range 10 {
+				r, _ = sendReview(t, r, keyPress("j"))
+			}
+			checkFrame(t, name("scrolled-to-the-end"), view(r, path), w, h)
+		}
 		if w != 120 {
 			continue
 		}
@@ -479,5 +492,45 @@ func TestReviewHeaderBaseRate(t *testing.T) {
 	r.file.Assumptions.BaseRate = 0.01
 	if h := r.header(120); !strings.Contains(h, "base rate 1.0% (validation 7.2%)") {
 		t.Errorf("header %q does not name the validation rate", h)
+	}
+}
+
+// TestReviewScrollsRows: at 80x24 the strip has 12 lines for the 16 rows
+// it keeps (every interval among them; only the share of all cases and the
+// true cases found give way); j and k scroll them, stopping at either end,
+// with the heading of the section in view on top; where every row fits
+// the keys do nothing and the footer offers none.
+func TestReviewScrollsRows(t *testing.T) {
+	r, _ := newTestReview(t, 80, 24)
+	if !r.strip.Scrollable() || !strings.Contains(r.footer(), "↑↓ more rows") {
+		t.Fatalf("80x24: scrollable %v, footer %q", r.strip.Scrollable(), r.footer())
+	}
+	if got := strings.Count(ansi.Strip(r.View()), "95% interval"); got != 3 {
+		t.Errorf("80x24 opened: %d interval rows in view, want 3 (hit share, wrong-alert share, alert rate)", got)
+	}
+	r, _ = sendReview(t, r, keyPress("k"))
+	if w := r.strip.window(r.strip.rowLines()); w.first != 0 {
+		t.Errorf("k at the top: first row %d", w.first)
+	}
+	for range 20 {
+		r, _ = sendReview(t, r, keyPress("down"))
+	}
+	w := r.strip.window(r.strip.rowLines())
+	if w.last != w.total || w.total != 16 || w.heading == nil || len(w.inView()) != 12 {
+		t.Errorf("scrolled down: rows %d–%d of %d, heading %v, %d lines", w.first, w.last, w.total, w.heading != nil, len(w.inView()))
+	}
+	frame := ansi.Strip(r.View())
+	if got := strings.Count(frame, "95% interval"); got != 4 || !strings.Contains(frame, "cost per shift") {
+		t.Errorf("scrolled down: %d interval rows in view, want 4 with the cost:\n%s", got, frame)
+	}
+	r, _ = sendReview(t, r, keyPress("up"))
+	if w2 := r.strip.window(r.strip.rowLines()); w2.first != w.first-1 {
+		t.Errorf("up: first row %d, want %d", w2.first, w.first-1)
+	}
+
+	big, _ := newTestReview(t, 120, 32)
+	big, _ = sendReview(t, big, keyPress("j"))
+	if big.strip.Scrollable() || strings.Contains(big.footer(), "more rows") || big.strip.window(big.strip.rowLines()).first != 0 {
+		t.Error("120x32: every row fits, yet the strip scrolls")
 	}
 }

@@ -30,6 +30,12 @@ type Strip struct {
 	width    int
 	height   int
 
+	// scrolls says the rows scroll (Scroll) when they do not all fit,
+	// instead of giving way (the review screen, where the figures are
+	// all the lead has); offset is the first row in view.
+	scrolls bool
+	offset  int
+
 	generation int         // counts SetTable calls, so the cache knows the table
 	cache      *stripCache // the last drawing, shared by copies of the strip
 }
@@ -43,8 +49,8 @@ type stripCache struct {
 
 // stripCacheKey is what a drawing of the strip depends on.
 type stripCacheKey struct {
-	generation, selected, width, height int
-	focused                             bool
+	generation, selected, width, height, offset int
+	focused                                     bool
 }
 
 // NewStrip returns an empty strip drawn with styles and driven by keys.
@@ -71,6 +77,30 @@ func (s Strip) Selected() int { return s.selected }
 
 // SetSize sets the outer size, border included.
 func (s *Strip) SetSize(width, height int) { s.width, s.height = width, height }
+
+// SetScrolling makes the rows scroll when they do not all fit: only the
+// counts in scrollDrops give way, every interval stays and Scroll brings
+// the rows below into view.
+func (s *Strip) SetScrolling(on bool) { s.scrolls = on }
+
+// Scroll moves the rows in view by step rows (negative: up), within the
+// rows there are.
+func (s *Strip) Scroll(step int) {
+	s.offset = s.window(s.rowLines()).first + step
+	s.offset = s.window(s.rowLines()).first
+}
+
+// Scrollable reports whether the strip scrolls and has rows out of view.
+func (s Strip) Scrollable() bool {
+	w := s.window(s.rowLines())
+	return s.scrolls && w.total > w.last-w.first
+}
+
+// rowLines is how many rows of the table the strip has lines for, below
+// the names and the rules.
+func (s Strip) rowLines() int {
+	return s.height - s.styles.Pane.GetVerticalFrameSize() - 2
+}
 
 // Lines returns the content lines the strip needs to show every figure:
 // the names, the rules and one line per row of the table.
@@ -108,7 +138,7 @@ func (s Strip) FullHelp() [][]key.Binding {
 // View draws the strip at its size; focused draws the frame that shows it
 // has the keys.
 func (s Strip) View(focused bool) string {
-	key := stripCacheKey{s.generation, s.selected, s.width, s.height, focused}
+	key := stripCacheKey{s.generation, s.selected, s.width, s.height, s.offset, focused}
 	if s.cache != nil && s.cache.key == key {
 		return s.cache.view
 	}
@@ -137,8 +167,15 @@ func (s Strip) draw(focused bool) string {
 		return framed(box, edge, st.Title, title, s.chips(), s.width, s.height)
 	}
 	body, shown := s.grid(innerW, innerH)
-	if shown < n {
+	w := s.window(innerH - 2)
+	rows := "rows " + strconv.Itoa(w.first+1) + "–" + strconv.Itoa(w.last) + " of " + strconv.Itoa(w.total)
+	switch scrolled := s.scrolls && w.total > w.last-w.first; {
+	case shown < n && scrolled:
+		title += " · " + strconv.Itoa(shown) + " in view ←→ · " + rows + " ↑↓"
+	case shown < n:
 		title += " · " + strconv.Itoa(shown) + " in view, ←→ for the rest"
+	case scrolled:
+		title += " · " + rows + ", ↑↓ for the rest"
 	}
 	return framed(box, edge, st.Title, title, body, s.width, s.height)
 }
@@ -181,15 +218,76 @@ func (s Strip) heading(i int, name string) string {
 // "wrong-alert share", projected).
 var detailOrder = []string{"share of all cases", "interval", "true cases found", compare.RedrawsLabel, "against capacity", format.MeasuredHeading, format.ProjectedHeading}
 
+// scrollDrops are the detail rows a scrolling strip still lets go before
+// it scrolls: counts that the figure above them and the header give.
+var scrollDrops = []string{"share of all cases", "true cases found"}
+
+// rowWindow is the part of the table's rows in view: rows[first:last] of
+// the rows kept, after the heading of their section when it is above
+// them (heading is then not nil), total rows in all.
+type rowWindow struct {
+	rows               []compare.Row
+	heading            *compare.Row
+	first, last, total int
+}
+
+// window returns the rows to draw in lines lines. A strip that does not
+// scroll drops detail rows in detailOrder until they fit; one that
+// scrolls drops only those of scrollDrops and shows lines rows from its
+// offset (clamped so that the last row is in view at the end), led by the
+// heading of their section when it has scrolled away.
+func (s Strip) window(lines int) rowWindow {
+	if !s.scrolls {
+		rows := rowsThatFit(s.table.Rows, lines, detailOrder)
+		return rowWindow{rows: rows, last: len(rows), total: len(rows)}
+	}
+	rows := rowsThatFit(s.table.Rows, lines, scrollDrops)
+	lines = max(lines, 1)
+	// heading returns the heading above row i when row i is not one.
+	heading := func(i int) *compare.Row {
+		if i == 0 || i >= len(rows) || rows[i].Heading {
+			return nil
+		}
+		for h := i - 1; h >= 0; h-- {
+			if rows[h].Heading {
+				return &rows[h]
+			}
+		}
+		return nil
+	}
+	// end returns the end of the rows in view from row i.
+	end := func(i int) int {
+		n := lines
+		if heading(i) != nil {
+			n--
+		}
+		return min(i+max(n, 1), len(rows))
+	}
+	first := min(max(s.offset, 0), max(len(rows)-1, 0))
+	for first > 0 && end(first-1) >= len(rows) {
+		first-- // no space left below the last row
+	}
+	return rowWindow{rows: rows, heading: heading(first), first: first, last: end(first), total: len(rows)}
+}
+
+// inView returns the rows of w to draw, the heading first.
+func (w rowWindow) inView() []compare.Row {
+	out := w.rows[w.first:w.last]
+	if w.heading != nil {
+		out = append([]compare.Row{*w.heading}, out...)
+	}
+	return out
+}
+
 // rowsThatFit returns the rows of t to draw in lines lines: every figure,
-// dropping detail rows in detailOrder until they fit.
-func rowsThatFit(rows []compare.Row, lines int) []compare.Row {
+// dropping detail rows in the order of drops until they fit.
+func rowsThatFit(rows []compare.Row, lines int, drops []string) []compare.Row {
 	keep := make([]bool, len(rows))
 	count := len(rows)
 	for i := range keep {
 		keep[i] = true
 	}
-	for _, what := range detailOrder {
+	for _, what := range drops {
 		for i, r := range rows {
 			if count <= lines {
 				break
@@ -299,7 +397,7 @@ func (s Strip) grid(innerW, innerH int) (string, int) {
 		rules += "  " + pad("  "+rule, colW(c)-2, false)
 	}
 	lines = append(lines, names, st.Muted.Render(rules))
-	for _, r := range rowsThatFit(t.Rows, innerH-2) {
+	for _, r := range s.window(innerH - 2).inView() {
 		if r.Heading {
 			lines = append(lines, st.Label.Render(fitLine(r.Figure, innerW)))
 			continue
