@@ -3,6 +3,7 @@ package analysis
 import (
 	"math"
 	"math/rand/v2"
+	"strconv"
 
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
@@ -14,6 +15,13 @@ const (
 	OptimismFolds = 10
 	OptimismSeed  = 16
 )
+
+// OptimismMethod says in words what CostOptimism rests on, for every view
+// that shows the estimate beside the least-cost figure.
+func OptimismMethod() string {
+	return "Tibshirani and Tibshirani 2009: the cut chosen on all but one of " + strconv.Itoa(OptimismFolds) +
+		" seeded folds stratified by class, its cost on the fold left out less its cost where chosen, averaged over the folds"
+}
 
 // CostOptimism estimates by how much the least-cost cut's cost per case on
 // the validation set understates its cost out of sample: the cost rule

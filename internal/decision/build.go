@@ -92,6 +92,8 @@ func New(res *analysis.Result, picks []Pick, chosen string, rec Record) (*File, 
 	cuts := make([]float64, 0, len(picks))
 	for i, p := range picks {
 		c := Candidate{Name: p.Name, Rule: p.Rule, Note: p.Note, Cut: evidence.Of(p.Point, a), RuleCheck: checks[i]}
+		c.Promise = PromiseOf(p.Rule)
+		c.Optimism = optimismOf(res, p.Rule, checks[i], c.Cut)
 		c.Stability = stabilityOf(res, p)
 		if b, ok := res.SegmentsAt(p.Point, a.Confidence); ok {
 			c.Segments = segmentsOf(set.SegmentColumn(), b)
@@ -151,6 +153,49 @@ func ruleChecks(res *analysis.Result, picks []Pick) ([]*RuleCheck, error) {
 		out[at[k]] = &RuleCheck{Holds: c.Holds, Picks: picked}
 	}
 	return out, nil
+}
+
+// PromiseOf is what the cut spec rule promises about production
+// (cutrule.Rule.Promise); "" for no rule, a rule that does not parse and a
+// rule that promises nothing.
+func PromiseOf(rule string) string {
+	r, err := cutrule.Parse(rule)
+	if rule == "" || err != nil {
+		return ""
+	}
+	return r.Promise()
+}
+
+// optimismOf is the optimism of the least-cost figure (analysis.CostOptimism)
+// for a candidate whose rule is the cost rule and picks its cut under
+// res.Assume (check holds); nil otherwise, or when it cannot be estimated.
+func optimismOf(res *analysis.Result, rule string, check *RuleCheck, e evidence.Cut) *CostOptimism {
+	r, err := cutrule.Parse(rule)
+	if rule == "" || err != nil || r.Kind != cutrule.Cost || check == nil || !check.Holds {
+		return nil
+	}
+	perCase := res.CostOptimism
+	if math.IsNaN(perCase) {
+		// res found no cost rule among its own rules.
+		perCase = analysis.CostOptimism(res.Set, res.Assume)
+	}
+	if math.IsNaN(perCase) {
+		return nil
+	}
+	return newCostOptimism(perCase, e, res.Assume.Volume)
+}
+
+// newCostOptimism is the optimism perCase of a candidate of figures e,
+// with the per-shift figures at volume (NaN when volume is 0).
+func newCostOptimism(perCase float64, e evidence.Cut, volume float64) *CostOptimism {
+	o := &CostOptimism{PerCase: perCase, PerShift: math.NaN(), CorrectedPerShift: math.NaN(),
+		CorrectedPerCase: e.Projected.CostPerCase + perCase,
+		Folds:            analysis.OptimismFolds, Seed: analysis.OptimismSeed, Method: analysis.OptimismMethod()}
+	if volume > 0 {
+		o.PerShift = volume * perCase
+		o.CorrectedPerShift = e.Projected.CostPerShift + o.PerShift
+	}
+	return o
 }
 
 func clock(minutes int) string {

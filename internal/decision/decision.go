@@ -25,6 +25,7 @@ import (
 	"strings"
 	"time"
 
+	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/design"
 	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/projection"
@@ -126,6 +127,34 @@ type Candidate struct {
 	// assumptions (keys rule_holds and rule_picks); nil for a cut picked
 	// by hand, a rule that does not parse, and files written before it.
 	RuleCheck *RuleCheck
+
+	// Promise is what Rule promises about production (key promise,
+	// cutrule.Rule.Promise): hit= and wrong= meet their figure on this set
+	// only, hitNN= and wrongNN= with their level. "" (null) for a cut
+	// picked by hand and a rule that promises nothing; a file written
+	// before the key gets it from the rule.
+	Promise string
+
+	// Optimism is how much the least-cost figure understates its own
+	// cost, for a candidate the cost rule picks under the file's
+	// assumptions (key cost_optimism); nil for any other candidate, when
+	// it could not be estimated, and in files written before it.
+	Optimism *CostOptimism
+}
+
+// CostOptimism is the optimism of the least-cost cut's projected cost
+// (analysis.CostOptimism): the cost rule picks the cut of least cost on
+// the cases it then reports that cost on, so the figure is too low. Every
+// figure is projected to production (at the assumptions' base rate and
+// costs); the per-shift ones are NaN (null) without a volume.
+type CostOptimism struct {
+	PerCase           float64 // key per_case: how much more per case out of sample
+	PerShift          float64 // key per_shift: PerCase times the volume
+	CorrectedPerCase  float64 // key corrected_cost_per_case: the projected cost per case plus PerCase
+	CorrectedPerShift float64 // key corrected_cost_per_shift: the projected cost per shift plus PerShift
+	Folds             int     // key folds: the folds of the estimate
+	Seed              uint64  // key seed: the seed of the fold assignment
+	Method            string  // key method: the method the estimate rests on, in words
 }
 
 // RuleCheck is whether a candidate's rule picks its cut under the file's
@@ -230,9 +259,33 @@ func (f *File) Validate() error {
 				return bad(path+".rule_holds", "false, but the rule picks the candidate's score %v; expected true", c.Cut.Score)
 			}
 		}
+		if err := c.validatePromise(path + ".promise"); err != nil {
+			return err
+		}
 	}
 	if !seen[f.Chosen] {
 		return &ParseError{Path: "chosen", Err: fmt.Errorf("%w: %q, expected one of %s", ErrUnknownChosen, f.Chosen, f.names())}
+	}
+	return nil
+}
+
+// validatePromise reports a promise on a candidate without a rule or
+// whose rule promises nothing, and no promise for a rule that makes one;
+// a rule this build does not parse may carry any promise.
+func (c Candidate) validatePromise(path string) error {
+	bad := func(format string, args ...any) error {
+		return &ParseError{Path: path, Err: fmt.Errorf("%w: "+format, append([]any{ErrInvalid}, args...)...)}
+	}
+	r, err := cutrule.Parse(c.Rule)
+	switch {
+	case c.Promise != "" && c.Rule == "":
+		return bad("a promise of a candidate without a rule, expected null")
+	case c.Rule == "" || err != nil:
+		return nil
+	case c.Promise != "" && r.Promise() == "":
+		return bad("a promise for the rule %q, which promises nothing; expected null", c.Rule)
+	case c.Promise == "" && r.Promise() != "":
+		return bad("null, but the rule %q promises %q; expected its promise", c.Rule, r.Promise())
 	}
 	return nil
 }

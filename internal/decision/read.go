@@ -699,7 +699,7 @@ func (r *reader) assumptions(n *yaml.Node) projection.Assumptions {
 func (r *reader) candidate(n *yaml.Node, path string, a projection.Assumptions, v2 bool) Candidate {
 	optional := []string{"rule", "note"}
 	if v2 {
-		optional = append(optional, "stability", "segments", "shifts", "rule_holds", "rule_picks")
+		optional = append(optional, "stability", "segments", "shifts", "rule_holds", "rule_picks", "promise", "cost_optimism")
 	}
 	m := r.fields(n, path, []string{"name", "score", "validation", "projected"}, optional)
 	c := Candidate{
@@ -798,6 +798,8 @@ func (r *reader) candidate(n *yaml.Node, path string, a projection.Assumptions, 
 	c.Segments = r.segments(m["segments"], path+".segments")
 	c.Shifts = r.shifts(m["shifts"], path+".shifts")
 	c.RuleCheck = r.ruleCheck(m["rule_holds"], m["rule_picks"], path, e.Score)
+	c.Promise = r.promise(m, path, c.Rule)
+	c.Optimism = r.optimism(m["cost_optimism"], path+".cost_optimism", c.Rule, *e, a.Volume)
 	return c
 }
 

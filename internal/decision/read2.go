@@ -4,9 +4,13 @@ import (
 	"fmt"
 	"math"
 	"strconv"
+	"strings"
 	"time"
 
 	"go.yaml.in/yaml/v3"
+
+	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/evidence"
 )
 
 // The readers of the keys sill-cut/2 added. Each returns nil for an
@@ -108,17 +112,7 @@ func (r *reader) stability(n *yaml.Node, path string) *Stability {
 		Met:        r.integer(m["met"], path+".met"),
 		Skipped:    r.optionalStr(m["skipped"], path+".skipped"),
 	}
-	if seed := deref(m["seed"]); r.err == nil {
-		var err error
-		if seed == nil || seed.Kind != yaml.ScalarNode || seed.ShortTag() != "!!int" {
-			err = fmt.Errorf("%w: expected a whole number >= 0, found %s", ErrType, describe(seed))
-		} else if s.Seed, err = strconv.ParseUint(seed.Value, 10, 64); err != nil {
-			err = fmt.Errorf("%w: %s, expected a whole number from 0 to %d", ErrInvalid, seed.Value, uint64(math.MaxUint64))
-		}
-		if err != nil {
-			r.fail(seed, path+".seed", err)
-		}
-	}
+	s.Seed = r.seed(m["seed"], path+".seed")
 	s.Score = r.range_(m["score"], path+".score")
 	s.FlaggedShare = r.interval(m["flagged_share"], path+".flagged_share")
 	s.Recall = r.interval(m["recall"], path+".recall")
@@ -126,6 +120,97 @@ func (r *reader) stability(n *yaml.Node, path string) *Stability {
 		r.fail(deref(m["met"]), path+".met", fmt.Errorf("%w: %d, expected at most replicates (%d)", ErrInvalid, s.Met, s.Replicates))
 	}
 	return s
+}
+
+// seed reads a seed: a whole number from 0 to the largest uint64.
+func (r *reader) seed(n *yaml.Node, path string) uint64 {
+	seed := deref(n)
+	if r.err != nil {
+		return 0
+	}
+	var err error
+	var v uint64
+	if seed == nil || seed.Kind != yaml.ScalarNode || seed.ShortTag() != "!!int" {
+		err = fmt.Errorf("%w: expected a whole number >= 0, found %s", ErrType, describe(seed))
+	} else if v, err = strconv.ParseUint(seed.Value, 10, 64); err != nil {
+		err = fmt.Errorf("%w: %s, expected a whole number from 0 to %d", ErrInvalid, seed.Value, uint64(math.MaxUint64))
+	}
+	if err != nil {
+		r.fail(seed, path, err)
+	}
+	return v
+}
+
+// promise reads the promise of a candidate with the cut spec rule: a
+// string or null (""). Absent, it is what the rule promises (PromiseOf).
+// File.Validate checks that it agrees with the rule.
+func (r *reader) promise(m map[string]*yaml.Node, path, rule string) string {
+	node, ok := m["promise"]
+	if !ok || r.err != nil {
+		return PromiseOf(rule)
+	}
+	return r.optionalStr(node, path+".promise")
+}
+
+// optimism reads a candidate's cost_optimism: null, or the optimism of the
+// least-cost figure of a candidate whose rule is the cost rule, with
+// corrected costs that are its projected costs plus the optimism and
+// per-shift figures that are the per-case ones times the volume (null
+// without a volume).
+func (r *reader) optimism(n *yaml.Node, path, rule string, e evidence.Cut, volume float64) *CostOptimism {
+	if isNull(n) || r.err != nil {
+		return nil
+	}
+	if parsed, err := cutrule.Parse(rule); rule == "" || (err == nil && parsed.Kind != cutrule.Cost) {
+		r.fail(deref(n), path, fmt.Errorf("%w: the least-cost figure's optimism on a candidate not picked by the cost rule, expected null", ErrInvalid))
+		return nil
+	}
+	m := r.fields(n, path, []string{"per_case", "per_shift", "corrected_cost_per_case", "corrected_cost_per_shift", "folds", "seed", "method"}, nil)
+	o := &CostOptimism{
+		PerCase:           r.number(m["per_case"], path+".per_case", false),
+		PerShift:          r.number(m["per_shift"], path+".per_shift", true),
+		CorrectedPerCase:  r.number(m["corrected_cost_per_case"], path+".corrected_cost_per_case", true),
+		CorrectedPerShift: r.number(m["corrected_cost_per_shift"], path+".corrected_cost_per_shift", true),
+		Folds:             r.integer(m["folds"], path+".folds"),
+		Seed:              r.seed(m["seed"], path+".seed"),
+		Method:            r.str(m["method"], path+".method"),
+	}
+	switch {
+	case r.err != nil:
+		return nil
+	case o.Folds < 2:
+		r.fail(deref(m["folds"]), path+".folds", fmt.Errorf("%w: %d, expected at least 2 folds", ErrInvalid, o.Folds))
+	case strings.TrimSpace(o.Method) == "":
+		r.fail(deref(m["method"]), path+".method", fmt.Errorf("%w: empty, expected the method the estimate rests on", ErrInvalid))
+	}
+	perShift, correctedPerShift := math.NaN(), math.NaN()
+	if volume > 0 {
+		perShift = volume * o.PerCase
+		correctedPerShift = e.Projected.CostPerShift + perShift
+	}
+	for _, c := range []struct {
+		key       string
+		got, want float64
+		expected  string
+	}{
+		{"corrected_cost_per_case", o.CorrectedPerCase, e.Projected.CostPerCase + o.PerCase, "the projected cost_per_case plus per_case"},
+		{"per_shift", o.PerShift, perShift, "per_case times the volume (null without one)"},
+		{"corrected_cost_per_shift", o.CorrectedPerShift, correctedPerShift, "the projected cost_per_shift plus per_shift (null without a volume)"},
+	} {
+		if r.err == nil && !sameFigure(c.got, c.want) {
+			r.fail(deref(m[c.key]), path+"."+c.key, fmt.Errorf("%w: %v, expected %s (%v)", ErrInvalid, c.got, c.expected, c.want))
+		}
+	}
+	return o
+}
+
+// sameFigure is sameCount for figures that may be undefined: both NaN, or
+// both defined and the same to within countTolerance.
+func sameFigure(a, b float64) bool {
+	if math.IsNaN(a) || math.IsNaN(b) {
+		return math.IsNaN(a) && math.IsNaN(b)
+	}
+	return sameCount(a, b)
 }
 
 // range_ reads [low, high] of numbers or nulls.

@@ -164,7 +164,7 @@ func TestReadOptionalKeysDerived(t *testing.T) {
 	valid, _ := Marshal(f)
 	text := string(valid)
 	text = regexp.MustCompile(`\n      rows: [^\n]*`).ReplaceAllString(text, "") // validation.rows, not data.rows
-	for _, key := range []string{"chosen_score", "flagged_share", "false_discovery_rate", "false_discovery_ci", "cost_per_case", "negatives", "weight_column", "note", "rule_holds", "rule_picks", "rule"} {
+	for _, key := range []string{"chosen_score", "flagged_share", "false_discovery_rate", "false_discovery_ci", "cost_per_case", "negatives", "weight_column", "note", "rule_holds", "rule_picks", "promise", "rule"} {
 		text = regexp.MustCompile(`\n *`+key+`: [^\n]*`).ReplaceAllString(text, "")
 	}
 	if strings.Contains(text, "flagged_share") || strings.Contains(text, "rule:") {

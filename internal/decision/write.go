@@ -200,6 +200,7 @@ func candidateNode(c Candidate, d Data) *yaml.Node {
 		"score", score,
 		"rule_holds", ruleHolds(c.RuleCheck),
 		"rule_picks", rulePicks(c.RuleCheck),
+		"promise", optionalStr(c.Promise),
 		"validation", validation,
 		"projected", mapping(
 			"alert_rate", num(e.Projected.AlertRate),
@@ -213,6 +214,7 @@ func candidateNode(c Candidate, d Data) *yaml.Node {
 			"cost_per_shift_ci", intervalNode(e.ProjectedCI.CostPerShift),
 			"cost_per_case_ci", intervalNode(e.ProjectedCI.CostPerCase),
 		),
+		"cost_optimism", optimismNode(c.Optimism),
 		"note", optionalStr(c.Note),
 		"stability", stabilityNode(c.Stability),
 		"segments", segmentsNode(c.Segments),
@@ -226,9 +228,29 @@ func candidateNode(c Candidate, d Data) *yaml.Node {
 			n.Content[i].LineComment = format.MeasuredHeading
 		case "projected":
 			n.Content[i].LineComment = format.ProjectedHeading + "; " + format.ProjectedGiven
+		case "cost_optimism":
+			if c.Optimism != nil {
+				n.Content[i].LineComment = format.ProjectedHeading + ": the least-cost figure understates its own cost; corrected = projected + optimism"
+			}
 		}
 	}
 	return n
+}
+
+// optimismNode writes the least-cost figure's optimism, null without one.
+func optimismNode(o *CostOptimism) *yaml.Node {
+	if o == nil {
+		return null()
+	}
+	return mapping(
+		"per_case", num(o.PerCase),
+		"per_shift", num(o.PerShift),
+		"corrected_cost_per_case", num(o.CorrectedPerCase),
+		"corrected_cost_per_shift", num(o.CorrectedPerShift),
+		"folds", num(float64(o.Folds)),
+		"seed", &yaml.Node{Kind: yaml.ScalarNode, Tag: "!!int", Value: strconv.FormatUint(o.Seed, 10)},
+		"method", quoted(o.Method),
+	)
 }
 
 // intervalNode writes an interval as [low, high], or null when it is

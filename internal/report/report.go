@@ -4,7 +4,6 @@ package report
 
 import (
 	"math"
-	"strconv"
 
 	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/curve"
@@ -362,7 +361,6 @@ func (r *Report) addCostOptimism(res *analysis.Result) {
 			c.Projected.CostOptimismPerCase = &n
 		}
 		c.optimism = "cost per " + per + " " + format.Money(base) + ", about " + format.Money(figure) +
-			" more out of sample (optimism estimate, Tibshirani and Tibshirani 2009: the cut chosen on all but one of " +
-			strconv.Itoa(analysis.OptimismFolds) + " seeded folds stratified by class, its cost on the fold left out less its cost where chosen, averaged over the folds)"
+			" more out of sample (optimism estimate, " + analysis.OptimismMethod() + ")"
 	}
 }

@@ -3,8 +3,8 @@ package review
 import (
 	"fmt"
 	"math"
+	"strconv"
 
-	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/format"
 )
@@ -71,19 +71,41 @@ func tests(n int) string {
 	return fmt.Sprintf("%d tests", n)
 }
 
-// PromiseLines say, for each candidate picked by a rule that makes one,
-// what the rule promises about production (cutrule.Rule.Promise): hit=
-// and wrong= meet their figure on the validation set only, hitNN= and
-// wrongNN= hold it at their level. Nil when no candidate's rule makes a
-// promise.
+// PromiseLines say, for each candidate whose rule makes a promise, what
+// it promises about production (decision.Candidate.Promise, as the file
+// records it): hit= and wrong= meet their figure on the validation set
+// only, hitNN= and wrongNN= hold it at their level; then, for a candidate
+// the cost rule picked, how much its least-cost figure understates its
+// cost (OptimismLine). Nil when no candidate has either.
 func PromiseLines(f *decision.File) []string {
 	var lines []string
 	for _, c := range f.Candidates {
-		r, err := cutrule.Parse(c.Rule)
-		if c.Rule == "" || err != nil || r.Promise() == "" {
-			continue
+		if c.Promise != "" {
+			lines = append(lines, fmt.Sprintf("%s (%s): %s", oneLine(c.Name), oneLine(c.Rule), oneLine(c.Promise)))
 		}
-		lines = append(lines, fmt.Sprintf("%s (%s): %s", oneLine(c.Name), r, r.Promise()))
+		if c.Optimism != nil {
+			lines = append(lines, fmt.Sprintf("%s (%s): %s", oneLine(c.Name), oneLine(c.Rule), OptimismLine(c)))
+		}
 	}
 	return lines
+}
+
+// OptimismLine says by how much a least-cost candidate's projected cost
+// understates its cost out of sample, per shift when the file has a
+// volume, else per case, with the corrected cost and what the estimate
+// rests on: "projected cost per shift 54,000 understates its own cost
+// (...): about 4,643 more out of sample, 58,643 corrected (optimism
+// estimate, ...)". "" without an optimism.
+func OptimismLine(c decision.Candidate) string {
+	o := c.Optimism
+	if o == nil {
+		return ""
+	}
+	per, cost, more, corrected := "case", c.Cut.Projected.CostPerCase, o.PerCase, o.CorrectedPerCase
+	if !math.IsNaN(o.PerShift) {
+		per, cost, more, corrected = "shift", c.Cut.Projected.CostPerShift, o.PerShift, o.CorrectedPerShift
+	}
+	return format.Projected + " cost per " + per + " " + format.Money(cost) + " understates its own cost (the cut was chosen on the same cases): about " +
+		format.Money(more) + " more out of sample, " + format.Money(corrected) + " corrected (optimism estimate, " +
+		oneLine(o.Method) + "; seed " + strconv.FormatUint(o.Seed, 10) + ")"
 }

@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"github.com/sill-tool/sill/internal/decision"
+	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/review"
 )
@@ -51,17 +52,28 @@ func TestSegmentLines(t *testing.T) {
 	}
 }
 
-// TestPromiseLines: hit= says it holds on this set only, hit95= its
-// level; a rule without a promise, a hand-picked cut and an unreadable
-// rule say nothing.
+// TestPromiseLines: the promises as the file records them (hit= on this
+// set only, hit95= at its level), and the least-cost candidate's
+// optimism per shift with a volume, per case without; a candidate without
+// a promise or optimism says nothing.
 func TestPromiseLines(t *testing.T) {
+	cost := evidence.Cut{Projected: projection.Figures{CostPerShift: 54000, CostPerCase: 36}}
 	f := &decision.File{Candidates: []decision.Candidate{
-		{Name: "hit=0.8", Rule: "hit=0.8"}, {Name: "safe", Rule: "hit95=0.8"}, {Name: "base", Rule: "base"},
-		{Name: "by hand"}, {Name: "odd", Rule: "hit=lots"},
+		{Name: "hit=0.8", Rule: "hit=0.8", Promise: "hit share about 80.0% on this set only: below it about half the time in production"},
+		{Name: "safe", Rule: "hit95=0.8", Promise: "hit share at least 80.0% with 95% confidence: below it in about 5% of validation sets"},
+		{Name: "base", Rule: "base"}, {Name: "by hand"},
+		// 36 + 3.1 = 39.1 per case; 1500 a shift: 4650 more, 58650 (format.Money: no
+		// thousands separator, whole amounts without decimals).
+		{Name: "least cost", Rule: "cost", Cut: cost, Optimism: &decision.CostOptimism{PerCase: 3.1, CorrectedPerCase: 39.1,
+			PerShift: 4650, CorrectedPerShift: 58650, Folds: 10, Seed: 16, Method: "ten folds"}},
+		{Name: "per case", Rule: "cost", Cut: cost, Optimism: &decision.CostOptimism{PerCase: 3.1, CorrectedPerCase: 39.1,
+			PerShift: math.NaN(), CorrectedPerShift: math.NaN(), Folds: 10, Seed: 16, Method: "ten folds"}},
 	}}
 	want := []string{
 		"hit=0.8 (hit=0.8): hit share about 80.0% on this set only: below it about half the time in production",
 		"safe (hit95=0.8): hit share at least 80.0% with 95% confidence: below it in about 5% of validation sets",
+		"least cost (cost): projected cost per shift 54000 understates its own cost (the cut was chosen on the same cases): about 4650 more out of sample, 58650 corrected (optimism estimate, ten folds; seed 16)",
+		"per case (cost): projected cost per case 36 understates its own cost (the cut was chosen on the same cases): about 3.10 more out of sample, 39.10 corrected (optimism estimate, ten folds; seed 16)",
 	}
 	if got := review.PromiseLines(f); !reflect.DeepEqual(got, want) {
 		t.Errorf("got\n%q\nwant\n%q", got, want)
