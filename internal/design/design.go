@@ -33,15 +33,26 @@
 //     interval below, whose variance in this design equals the
 //     delta-method variance of the mapping.
 //   - Any other sampling weights: the linearised (Taylor) variance of the
-//     weighted ratio, var(R) = sum over rows of w^2 (y - R x)^2 / X^2 for
-//     R = sum w y / sum w x (Woodruff 1971; the with-replacement form, no
-//     strata or clusters), and the Wilson interval at the effective sample
-//     size of Korn and Graubard (1998, "Confidence intervals for
-//     proportions with small expected number of positive counts estimated
-//     from survey data", Survey Methodology 24:193-201), n* = R(1-R)/var(R)
-//     with R*n* successes. With no strata or clusters their
-//     degrees-of-freedom factor is 1. Where the variance is 0 (R is 0 or
-//     1) n* is Kish's effective size of the domain, X^2 / sum w^2.
+//     weighted ratio, var(R) = n/(n-1) sum over rows of w^2 (y - R x)^2 /
+//     X^2 for R = sum w y / sum w x (Woodruff 1971), in the form for a
+//     single stage drawn with replacement, no strata or clusters, where n
+//     is the number of rows of the whole set (of weight > 0), also for a
+//     figure within one class or among the flagged cases (a domain: rows
+//     outside it count in n with a residual of 0). Then the Wilson
+//     interval at the effective sample size of Korn and Graubard (1998,
+//     "Confidence intervals for proportions with small expected number of
+//     positive counts estimated from survey data", Survey Methodology
+//     24:193-201), n* = R(1-R)/var(R) with R*n* successes. Their
+//     degrees-of-freedom adjustment (from memory) scales n* by
+//     (t[n-1]/t[df])^2, the two-sided quantiles of Student's t at the
+//     interval's level with n-1 degrees of freedom (n the rows of the
+//     domain) and with the design's degrees of freedom df; with no strata
+//     or clusters df is n-1 and the factor is exactly 1, as in R's survey
+//     package (svyciprop, method "beta", version 4.1.1, whose factor on
+//     such a design and its domains is 1 and whose n.eff the tests check).
+//     Korn and Graubard put n* into the Clopper-Pearson interval; sill
+//     takes Wilson's, as for frequency weights. Where the variance is 0 (R
+//     is 0 or 1) n* is Kish's effective size of the domain, X^2 / sum w^2.
 //
 // Every formula reads the weighted counts and the sums of squared weights
 // of the four cells of a cut (curve.Point.Squares). A nil *Sample reads as
@@ -99,6 +110,10 @@ type Sample struct {
 	// PositiveWeight and every false case NegativeWeight.
 	ClassConstant                  bool
 	PositiveWeight, NegativeWeight float64
+	// Rows is the number of rows drawn (of weight > 0), n of the
+	// linearised variance's factor n/(n-1). New sets it; a Sample made by
+	// hand with Rows below 2 has no factor.
+	Rows int
 }
 
 // New returns the design of set under kind: nil for frequency weights or
@@ -110,6 +125,11 @@ func New(set *scores.Set, kind Kind) *Sample {
 	}
 	shape := Inspect(set)
 	s := &Sample{Kind: Sampling}
+	for i := range set.Len() {
+		if set.Weight(i) > 0 {
+			s.Rows++
+		}
+	}
 	if shape.ClassConstant {
 		s.ClassConstant, s.PositiveWeight, s.NegativeWeight = true, shape.PositiveWeight, shape.NegativeWeight
 	}
@@ -297,10 +317,10 @@ func (s *Sample) Interval(f Figure, p curve.Point, confidence float64) (ci [2]fl
 			hits, wrong := rows(c[tp], s.PositiveWeight), rows(c[fp], s.NegativeWeight)
 			lo, hi := interval.Wilson(hits, hits+wrong, confidence)
 			ci = [2]float64{s.predictive(lo), s.predictive(hi)}
-			return ci, Trials(successes/total, taylor(c, p.Squares, num, den), hits+wrong)
+			return ci, Trials(successes/total, s.taylor(c, p.Squares, num, den), hits+wrong)
 		}
 	}
-	n := Trials(successes/total, taylor(c, p.Squares, num, den), kish(c, p.Squares, den))
+	n := Trials(successes/total, s.taylor(c, p.Squares, num, den), kish(c, p.Squares, den))
 	ci[0], ci[1] = interval.Wilson(successes/total*n, n, confidence)
 	return ci, n
 }
@@ -332,8 +352,9 @@ func rows(count, w float64) float64 {
 // taylor returns the linearised variance of the ratio R = (sum of the
 // num cells) / (sum of the den cells): the residual of a row is y - R x,
 // so a row in a numerator cell contributes w^2 (1-R)^2 and a row only in
-// the denominator w^2 R^2, over the squared denominator.
-func taylor(c, squares [4]float64, num, den []int) float64 {
+// the denominator w^2 R^2, over the squared denominator, times the
+// with-replacement factor n/(n-1) of the set's rows.
+func (s *Sample) taylor(c, squares [4]float64, num, den []int) float64 {
 	var successes, total, squaresIn, squaresOut float64
 	in := map[int]bool{}
 	for _, k := range num {
@@ -348,7 +369,11 @@ func taylor(c, squares [4]float64, num, den []int) float64 {
 		}
 	}
 	r := successes / total
-	return ((1-r)*(1-r)*squaresIn + r*r*squaresOut) / (total * total)
+	factor := 1.0
+	if s.Rows > 1 {
+		factor = float64(s.Rows) / float64(s.Rows-1)
+	}
+	return factor * ((1-r)*(1-r)*squaresIn + r*r*squaresOut) / (total * total)
 }
 
 // kish returns Kish's effective size of the denominator's cells,
@@ -389,7 +414,7 @@ func (s *Sample) BaseRateTrials(p curve.Point) float64 {
 	// Every case is a trial; the successes are the true cases.
 	all := [4]float64{positives, c[fp] + c[tn], 0, 0}
 	sq := [4]float64{p.Squares[tp] + p.Squares[fn], p.Squares[fp] + p.Squares[tn], 0, 0}
-	return Trials(positives/total, taylor(all, sq, []int{0}, []int{0, 1}), kish(all, sq, []int{0, 1}))
+	return Trials(positives/total, s.taylor(all, sq, []int{0}, []int{0, 1}), kish(all, sq, []int{0, 1}))
 }
 
 // Effective returns the counts of p's cells as the within-class figures
