@@ -39,7 +39,10 @@
 //
 // score= concerns the ranked list. top= counts cases: rows, a counts
 // table's cases, or with weights the weighted cases (the sum of the
-// flagged rows' weights; top=P% of the sum of all weights).
+// flagged rows' weights; top=P% of the sum of all weights). On a set
+// whose rows all weigh 0 no case counts: every rule but score= is unmet,
+// its reason saying so (top= would otherwise take the loosest cut, which
+// flags nothing of weight).
 // The other rules use the projected production figures (package
 // projection), which equal the validation figures when the production base
 // rate is the validation one. Which cases a cut flags follows the cut rule
@@ -276,6 +279,10 @@ type Finder struct {
 	// wrong-alert share (production's base rate differs from the set's).
 	projectedWrong bool
 
+	// weightless says the set has rows but every one weighs 0: no case
+	// counts, and only score= (which reads the ranked list) can be met.
+	weightless bool
+
 	shifts    *shift.Assignment
 	scale     shift.Scale
 	counters  []*shift.Counter
@@ -336,6 +343,7 @@ func NewFinder(rules []Rule, set *scores.Set, a projection.Assumptions, opts ...
 	f.totalCases = float64(f.cases)
 	if set.Weighted() {
 		f.totalCases = positives + negatives
+		f.weightless = set.Len() > 0 && !(positives+negatives > 0)
 	}
 	return f, nil
 }
@@ -408,6 +416,9 @@ func (f *Finder) Visit(p curve.Point) {
 // fig, over what it holds so far: points come strictest first, and a rule
 // ends on the last point it keeps.
 func (f *Finder) keeps(i int, p curve.Point, fig projection.Figures) bool {
+	if f.weightless && f.rules[i].Kind != Score {
+		return false
+	}
 	switch r := f.rules[i]; r.Kind {
 	case Score:
 		return !f.set.Riskier(r.Value, p.Score) // p.Score is at or riskier than V
@@ -561,7 +572,7 @@ func (f *Finder) Outcomes() []Outcome {
 			continue
 		}
 		out[i] = Outcome{Rule: r, Reason: f.reason(r)}
-		if r.Kind == Queue90 && f.seen {
+		if r.Kind == Queue90 && f.seen && !f.weightless {
 			out[i].Reason = fmt.Sprintf("at the strictest cut 9 shifts in 10 already queue up to %.1f alerts, above %v", f.firstP90[i], r.Value)
 		}
 	}
@@ -572,6 +583,9 @@ func (f *Finder) Outcomes() []Outcome {
 func (f *Finder) reason(r Rule) string {
 	if !f.seen {
 		return "the set has no rows"
+	}
+	if f.weightless && r.Kind != Score {
+		return "no case in the validation set has any weight (every row weighs 0), so no cut can meet the rule"
 	}
 	p, fig := f.first, f.firstFigures
 	pct := func(v float64) string { return strconv.FormatFloat(100*v, 'f', 1, 64) + "%" }

@@ -452,14 +452,27 @@ func TestFindOneClassAndEmpty(t *testing.T) {
 		{"hit=0.8", 0.5, ""}, // recall needs no base rate
 	})
 
-	// Every row weighs 0: nothing is defined, and the reason says so.
+	// Every row weighs 0: no case counts, so every rule but score= is
+	// unmet and the reason says so; top= does not take the loosest cut
+	// for flagging nothing of weight. score= reads the ranked list.
 	set, err = scores.New([]float64{0.5, 0.4}, []bool{true, false}, []float64{0, 0}, false)
 	if err != nil {
 		t.Fatal(err)
 	}
-	checkOutcomes(t, curve.New(set), projection.Assumptions{BaseRate: 0, Confidence: 0.95}, []want{
-		{"base", unmet, "the projected alert rate is undefined: no case in the validation set has any weight"},
-		{"top=1", 0.4, ""}, // no weighted case is flagged at any cut: the deepest
+	const weightless = "no case in the validation set has any weight (every row weighs 0), so no cut can meet the rule"
+	a = projection.Assumptions{BaseRate: 0.1, Volume: 10, Confidence: 0.95, Costs: &projection.Costs{FalseAlert: 1, Miss: 5}}
+	checkOutcomes(t, curve.New(set), a, []want{
+		{"base", unmet, weightless},
+		{"top=1", unmet, weightless},
+		{"top=5", unmet, weightless},
+		{"top=50%", unmet, weightless},
+		{"hit=0.8", unmet, weightless},
+		{"wrong=0.333", unmet, weightless},
+		{"hit95=0.8", unmet, weightless},
+		{"wrong95=0.333", unmet, weightless},
+		{"queue=1", unmet, weightless},
+		{"cost", unmet, weightless},
+		{"score=0.45", 0.5, ""},
 	})
 
 	empty, err := scores.New(nil, nil, nil, false)

@@ -32,6 +32,9 @@ func oracle(r cutrule.Rule, points []curve.Point, set *scores.Set, a projection.
 		}
 		return pick
 	}
+	if positives, negatives := set.Totals(); set.Weighted() && set.Len() > 0 && !(positives+negatives > 0) && r.Kind != cutrule.Score {
+		return -1 // every row weighs 0: no case counts, and only score= is met
+	}
 	switch r.Kind {
 	case cutrule.Score:
 		return deepest(func(i int) bool { return !set.Riskier(r.Value, points[i].Score) })
