@@ -39,11 +39,14 @@ func (m Model) stripFocusedKey(msg tea.KeyMsg) (tea.Model, tea.Cmd) {
 		s.reference = s.selected
 		m.status = fmt.Sprintf("%q is the chosen cut; the others are compared with it", s.pins[s.selected].name)
 	case key.Matches(msg, k.Repin):
-		name := s.pins[s.selected].name
-		if s.repinSelected() {
+		p := s.pins[s.selected]
+		switch heldBy, ok := s.repinSelected(); {
+		case ok:
 			m.unwritten = true
 			m.list.follow()
-			m.status = fmt.Sprintf("re-pinned %q at %s, the cut its rule picks under these assumptions", name, format.Score(s.curve.At(s.cursor).Score))
+			m.status = fmt.Sprintf("re-pinned %q at %s, the cut its rule picks under these assumptions", p.name, format.Score(s.curve.At(s.cursor).Score))
+		case heldBy != "":
+			m.status = fmt.Sprintf("not re-pinned: %s lands on %s, held by %q; x unpins one", p.rule, format.Score(s.curve.At(p.now).Score), heldBy)
 		}
 	case key.Matches(msg, k.Rename):
 		m.push(renameBox(m.ctx, s.pins[s.selected].name))

@@ -76,3 +76,40 @@ func TestPinsStayTrue(t *testing.T) {
 		t.Errorf("back at volume 100: moved %v, now at %v", p.moved, m.s.curve.At(p.now).Score)
 	}
 }
+
+// TestRepinOntoHeldCut: on tenRows queue=40 picks 0.7 at 100 cases a
+// shift and 0.9 at 200 (see TestPinsStayTrue), where the pin of
+// wrong=0.333 already sits (the volume does not move it). R refuses with one line naming the holder, moves nothing, and
+// leaves the pin marked as pinned under earlier assumptions; once the
+// holder is unpinned R re-pins.
+func TestRepinOntoHeldCut(t *testing.T) {
+	m := tenModel(t)
+	m = keys(m, "4", "p", "home", "p")
+	if got := m.Pins(); strings.Join(got, ",") != "queue=40,wrong=0.333" || m.s.curve.At(m.s.pins[1].cut).Score != 0.9 {
+		t.Fatalf("pins %q", got)
+	}
+	m = keys(m, "a", "tab", "ctrl+u")
+	m = typeText(m, "200")
+	m = keys(m, "enter", "tab", "left")
+	if p := m.s.pins[0]; !p.moved || m.s.curve.At(p.now).Score != 0.9 || m.s.selected != 0 {
+		t.Fatalf("after volume 200: moved %v, now at %v, selected %d", p.moved, m.s.curve.At(p.now).Score, m.s.selected)
+	}
+	m.unwritten = false
+	m = keys(m, "R")
+	want := `not re-pinned: queue=40 lands on 0.9, held by "wrong=0.333"; x unpins one`
+	if m.status != want {
+		t.Errorf("R onto a held cut: status %q, want %q", m.status, want)
+	}
+	if p := m.s.pins; len(p) != 2 || !p[0].moved || m.s.curve.At(p[0].cut).Score != 0.7 || m.unwritten {
+		t.Errorf("R onto a held cut changed the pins: %+v, unwritten %v", p, m.unwritten)
+	}
+	if !strings.Contains(strings.Join(m.s.table().Rules, ","), "queue=40 (earlier)") {
+		t.Errorf("rules %q", m.s.table().Rules)
+	}
+	checkSize(t, ansi.Strip(m.View()), 100, 30)
+	// Unpin the holder; R then re-pins.
+	m = keys(m, "right", "x", "R")
+	if p := m.s.pins; len(p) != 1 || p[0].moved || m.s.curve.At(p[0].cut).Score != 0.9 || !strings.HasPrefix(m.status, `re-pinned "queue=40" at 0.9`) {
+		t.Errorf("after unpinning the holder: %+v, status %q", p, m.status)
+	}
+}

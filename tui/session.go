@@ -129,18 +129,27 @@ func (s *session) checkPins(checks map[pinCheck]analysis.RuleCheck) int {
 }
 
 // repinSelected moves the selected pin to the cut its rule picks now; it
-// reports false when the pin has not moved or its rule meets no cut.
-func (s *session) repinSelected() bool {
+// reports false when the pin has not moved or its rule meets no cut. When
+// another candidate holds that cut already it moves nothing and returns
+// that candidate's name: two candidates at one cut would compare a cut
+// with itself, and which name, rule and note to keep is the user's call
+// (x unpins the moved one, or the other).
+func (s *session) repinSelected() (heldBy string, ok bool) {
 	if s.selected >= len(s.pins) {
-		return false
+		return "", false
 	}
 	p := &s.pins[s.selected]
 	if !p.moved || p.now < 0 {
-		return false
+		return "", false
+	}
+	for i, other := range s.pins {
+		if i != s.selected && other.cut == p.now {
+			return other.name, false
+		}
 	}
 	p.cut, p.moved = p.now, false
 	s.cursor = p.cut
-	return true
+	return "", true
 }
 
 // bandAt returns the bootstrap's band at cut i once a run has finished
