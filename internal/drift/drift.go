@@ -224,6 +224,9 @@ type tally struct {
 	// them (true cases, false cases, all cases).
 	byPositives, byNegatives, mixture *classBins
 	newPositives, newNegatives, mixed []float64
+	// The squared weights of the new data on the same bins, for the
+	// design-based variances of sampling weights.
+	newPositiveSquares, newNegativeSquares, mixedSquares []float64
 }
 
 // fillClasses cuts the file's curve into bins and counts the new data on
@@ -237,11 +240,15 @@ func (t *tally) fillClasses(f *decision.File, set *scores.Set, labelled bool) {
 		}
 		t.byPositives, t.byNegatives = &pos, &neg
 		t.newPositives, t.newNegatives = make([]float64, len(pos.ends)), make([]float64, len(neg.ends))
+		t.newPositiveSquares, t.newNegativeSquares = make([]float64, len(pos.ends)), make([]float64, len(neg.ends))
 		for i, s := range set.Scores() {
+			w := set.Weight(i)
 			if set.Labels()[i] {
-				t.newPositives[pos.bin(s)] += set.Weight(i)
+				t.newPositives[pos.bin(s)] += w
+				t.newPositiveSquares[pos.bin(s)] += w * w
 			} else {
-				t.newNegatives[neg.bin(s)] += set.Weight(i)
+				t.newNegatives[neg.bin(s)] += w
+				t.newNegativeSquares[neg.bin(s)] += w * w
 			}
 		}
 		return
@@ -255,9 +262,11 @@ func (t *tally) fillClasses(f *decision.File, set *scores.Set, labelled bool) {
 		return
 	}
 	t.mixture = &mix
-	t.mixed = make([]float64, len(mix.ends))
+	t.mixed, t.mixedSquares = make([]float64, len(mix.ends)), make([]float64, len(mix.ends))
 	for i, s := range set.Scores() {
-		t.mixed[mix.bin(s)] += set.Weight(i)
+		w := set.Weight(i)
+		t.mixed[mix.bin(s)] += w
+		t.mixedSquares[mix.bin(s)] += w * w
 	}
 }
 

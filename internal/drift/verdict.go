@@ -89,9 +89,17 @@ func judgeLabelled(res *Result, f *decision.File, chosen decision.Candidate, t t
 	}
 	if t.byPositives != nil {
 		// Each side's bins at its class's effective size (unchanged for
-		// frequency weights).
-		res.ScoresPositive = scoreTest(atSize(t.byPositives.positives, val.positives, valPositives), atSize(t.newPositives, fresh.positives, t.positives))
-		res.ScoresNegative = scoreTest(atSize(t.byNegatives.negatives, val.negatives, valNegatives), atSize(t.newNegatives, fresh.negatives, t.weight-t.positives))
+		// frequency weights); the new data's under sampling weights bin
+		// by bin (designHomogeneity).
+		validationPositives := atSize(t.byPositives.positives, val.positives, valPositives)
+		validationNegatives := atSize(t.byNegatives.negatives, val.negatives, valNegatives)
+		if opt.Sample.Sampling() {
+			res.ScoresPositive = scoreTestDesign(validationPositives, t.newPositives, t.newPositiveSquares)
+			res.ScoresNegative = scoreTestDesign(validationNegatives, t.newNegatives, t.newNegativeSquares)
+		} else {
+			res.ScoresPositive = scoreTest(validationPositives, t.newPositives)
+			res.ScoresNegative = scoreTest(validationNegatives, t.newNegatives)
+		}
 		family = append(family,
 			Judged{Name: "scores of true cases", PValue: res.ScoresPositive.PValue, Model: true},
 			Judged{Name: "scores of false cases", PValue: res.ScoresNegative.PValue, Model: true})
@@ -118,12 +126,18 @@ func judgeUnlabelled(res *Result, f *decision.File, t tally, opt Options) {
 	// downsampled class ten times the rows it has and alarmed in 81 of
 	// 400 no-drift runs (TestVerdictDownsampledFalseAlarmRate).
 	v, _ := f.ChosenCandidate()
-	val, fresh := validationTrials(v.Cut), t.effective(opt.Sample)
+	val := validationTrials(v.Cut)
 	if val.positives > 0 && val.negatives > 0 {
 		P, N = val.positives, val.negatives
 	}
-	n := fresh.all
-	m := FitMixture(atSize(t.mixed, fresh.all, t.weight), f1, f0, f.Assumptions.Confidence, func(p float64) float64 { return 1 + n*(p*p/P+(1-p)*(1-p)/N) })
+	// The new data's own noise: a multinomial sample of their weight
+	// (frequency weights), or under sampling weights one of Kish's
+	// effective size times the bins' mean design effect (designEffect).
+	n, effect := t.weight, 1.0
+	if opt.Sample.Sampling() {
+		effect, n = designEffect(t.mixed, t.mixedSquares)
+	}
+	m := FitMixture(atSize(t.mixed, n, t.weight), f1, f0, f.Assumptions.Confidence, func(p float64) float64 { return effect + n*(p*p/P+(1-p)*(1-p)/N) })
 	res.Mixture = &m
 	res.BaseRateObserved, res.BaseRateCI = m.BaseRate, m.CI
 	res.BaseRateMethod = "maximum likelihood of the scores as a mixture of the validated classes, profile-likelihood interval"
@@ -146,7 +160,7 @@ func judgeUnlabelled(res *Result, f *decision.File, t tally, opt Options) {
 // chi-square reading: bins that expect fewer than five new cases are
 // merged with their neighbour first.
 func scoreTest(validation, fresh []float64) ScoreTest {
-	a, b := mergeSmall(validation, fresh, 5)
+	a, b, _ := mergeSmall(validation, fresh, 5)
 	if len(a) < 2 {
 		return ScoreTest{PValue: math.NaN(), Statistic: math.NaN()}
 	}
@@ -154,31 +168,59 @@ func scoreTest(validation, fresh []float64) ScoreTest {
 	return ScoreTest{Defined: !math.IsNaN(p), Bins: len(a), Statistic: s, Freedom: k, PValue: p}
 }
 
+// scoreTestDesign is scoreTest for new data under sampling weights:
+// fresh are their weighted counts and squares their squared weights per
+// bin; bins are merged on the counts at Kish's effective size and
+// compared by designHomogeneity.
+func scoreTestDesign(validation, fresh, squares []float64) ScoreTest {
+	n := kishSize(fresh, squares)
+	a, _, merged := mergeSmall(validation, atSize(fresh, n, sum(fresh)), 5, fresh, squares)
+	if len(a) < 2 {
+		return ScoreTest{PValue: math.NaN(), Statistic: math.NaN()}
+	}
+	s, k, p := designHomogeneity(a, merged[0], merged[1])
+	return ScoreTest{Defined: !math.IsNaN(p), Bins: len(a), Statistic: s, Freedom: k, PValue: p}
+}
+
 // mergeSmall merges neighbouring bins until each expects at least least
 // cases of fresh's total under validation's shares (and holds some
 // validation weight); the last bin joins the one before it when short.
-func mergeSmall(validation, fresh []float64, least float64) (a, b []float64) {
+// Each slice of also (of validation's length) is merged alike, into
+// merged.
+func mergeSmall(validation, fresh []float64, least float64, also ...[]float64) (a, b []float64, merged [][]float64) {
 	total, freshTotal := sum(validation), sum(fresh)
 	if !(total > 0) || !(freshTotal > 0) {
-		return nil, nil
+		return nil, nil, nil
 	}
+	merged = make([][]float64, len(also))
 	var va, fa float64
+	pending := make([]float64, len(also))
 	for j := range validation {
 		va += validation[j]
 		fa += fresh[j]
+		for k, x := range also {
+			pending[k] += x[j]
+		}
 		if va/total*freshTotal >= least && va/total*total >= least {
 			a, b = append(a, va), append(b, fa)
+			for k := range also {
+				merged[k] = append(merged[k], pending[k])
+			}
 			va, fa = 0, 0
+			clear(pending)
 		}
 	}
 	if va > 0 || fa > 0 {
 		if len(a) == 0 {
-			return nil, nil
+			return nil, nil, nil
 		}
 		a[len(a)-1] += va
 		b[len(b)-1] += fa
+		for k := range also {
+			merged[k][len(a)-1] += pending[k]
+		}
 	}
-	return a, b
+	return a, b, merged
 }
 
 // decide applies Holm's procedure to res.Family and sets the status, and
