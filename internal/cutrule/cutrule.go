@@ -257,11 +257,13 @@ func Find(rules []Rule, c *curve.Curve, a projection.Assumptions) ([]Outcome, er
 // independent of the number of cuts.
 type Finder struct {
 	rules []Rule
-	set   *scores.Set
-	cases int // set.Cases(), which sums the counts of a counts table
-	a     projection.Assumptions
-	found []bool
-	best  []Outcome
+	set   *scores.Set // nil for a Finder of class totals (NewTotalsFinder)
+	// weighted and lowerIsRiskier are the set's (scores.Set.Weighted,
+	// scores.Set.LowerIsRiskier).
+	weighted, lowerIsRiskier bool
+	a                        projection.Assumptions
+	found                    []bool
+	best                     []Outcome
 
 	// The strictest point and its figures, for the reasons of unmet rules.
 	seen         bool
@@ -302,7 +304,13 @@ func WithShifts(a shift.Assignment, scale shift.Scale) Option {
 // NewFinder checks that the assumptions suit the rules and returns a
 // Finder for points of set.
 func NewFinder(rules []Rule, set *scores.Set, a projection.Assumptions, opts ...Option) (*Finder, error) {
-	f := &Finder{rules: rules, set: set, cases: set.Cases(), a: a, found: make([]bool, len(rules)), best: make([]Outcome, len(rules)), leastWrong: math.NaN()}
+	positives, negatives := set.Totals()
+	f := newFinder(rules, a, positives, negatives, float64(set.Cases()))
+	f.set, f.weighted, f.lowerIsRiskier = set, set.Weighted(), set.LowerIsRiskier()
+	if f.weighted {
+		f.totalCases = positives + negatives
+		f.weightless = set.Len() > 0 && !(positives+negatives > 0)
+	}
 	for _, o := range opts {
 		o(f)
 	}
@@ -327,32 +335,62 @@ func NewFinder(rules []Rule, set *scores.Set, a projection.Assumptions, opts ...
 		}
 		f.counters[i] = f.shifts.NewCounter(f.scale, cases, r.Value)
 	}
+	if err := f.check(); err != nil {
+		return nil, err
+	}
+	return f, nil
+}
+
+// NewTotalsFinder returns a Finder for the points of a set of unweighted
+// cases (rows or a counts table) known by its class totals alone, such as
+// a bootstrap replicate whose points are drawn as they are asked for:
+// positives true cases and negatives false cases, whole numbers, ranked
+// with lower scores riskier when lowerIsRiskier. It takes no queue90=K
+// rule (ErrNeedsShifts), and otherwise checks a as NewFinder does; it
+// finds what NewFinder's Finder finds on the set itself.
+func NewTotalsFinder(rules []Rule, positives, negatives float64, lowerIsRiskier bool, a projection.Assumptions) (*Finder, error) {
 	for _, r := range rules {
-		if r.Kind == Queue && !(a.Volume > 0) {
-			return nil, fmt.Errorf("cut %s %w", r, ErrNeedsVolume)
-		}
-		if r.Kind == Cost && a.Costs == nil {
-			return nil, fmt.Errorf("cut %s %w", r, ErrNeedsCosts)
+		if r.Kind == Queue90 {
+			return nil, fmt.Errorf("cut %s %w", r, ErrNeedsShifts)
 		}
 	}
+	f := newFinder(rules, a, positives, negatives, positives+negatives)
+	f.lowerIsRiskier = lowerIsRiskier
+	if err := f.check(); err != nil {
+		return nil, err
+	}
+	return f, nil
+}
+
+// newFinder returns a Finder of a set of the given class totals and cases.
+func newFinder(rules []Rule, a projection.Assumptions, positives, negatives, cases float64) *Finder {
+	f := &Finder{rules: rules, a: a, found: make([]bool, len(rules)), best: make([]Outcome, len(rules)), leastWrong: math.NaN()}
 	for i, r := range rules {
 		f.best[i].Rule = r
 	}
-	positives, negatives := set.Totals()
 	f.projectedWrong = a.BaseRate != positives/(positives+negatives)
-	f.totalCases = float64(f.cases)
-	if set.Weighted() {
-		f.totalCases = positives + negatives
-		f.weightless = set.Len() > 0 && !(positives+negatives > 0)
+	f.totalCases = cases
+	return f
+}
+
+// check returns the error of a rule that the assumptions do not suit.
+func (f *Finder) check() error {
+	for _, r := range f.rules {
+		if r.Kind == Queue && !(f.a.Volume > 0) {
+			return fmt.Errorf("cut %s %w", r, ErrNeedsVolume)
+		}
+		if r.Kind == Cost && f.a.Costs == nil {
+			return fmt.Errorf("cut %s %w", r, ErrNeedsCosts)
+		}
 	}
-	return f, nil
+	return nil
 }
 
 // flaggedCases is what top= counts at p: the weighted cases flagged in a
 // weighted set (frequency or sampling weights alike: the cases the set
 // stands for), else the cases flagged.
 func (f *Finder) flaggedCases(p curve.Point) float64 {
-	if f.set.Weighted() {
+	if f.weighted {
 		return p.TP + p.FP
 	}
 	return float64(p.Cases)
@@ -380,6 +418,15 @@ func WrongUpperBound(p curve.Point, baseRate, level float64, projected bool) flo
 func HitLowerBound(p curve.Point, level float64) float64 {
 	lower, _ := interval.OneSided(p.TP, p.Positives(), level)
 	return lower
+}
+
+// riskier reports whether score a ranks riskier than score b (see
+// scores.Set.Riskier).
+func (f *Finder) riskier(a, b float64) bool {
+	if f.lowerIsRiskier {
+		return a < b
+	}
+	return a > b
 }
 
 // Visit considers the next point; points must come strictest first.
@@ -421,7 +468,7 @@ func (f *Finder) keeps(i int, p curve.Point, fig projection.Figures) bool {
 	}
 	switch r := f.rules[i]; r.Kind {
 	case Score:
-		return !f.set.Riskier(r.Value, p.Score) // p.Score is at or riskier than V
+		return !f.riskier(r.Value, p.Score) // p.Score is at or riskier than V
 	case Top:
 		limit := r.Value
 		if r.Percent {
@@ -470,11 +517,14 @@ type Points interface {
 // beyond (score=, top=, base, queue=: the flagged cases, the hit share
 // and the false positive rate only grow as the cut loosens, and so does
 // every figure these rules compare) and hit=R, which first holds at some
-// cut and from there on, are found by binary search; wrong=F (the
-// wrong-alert share goes up and down) is scanned from the loosest cut
-// until one holds, and cost, hitNN= and wrongNN= over every cut. queue90=K needs every row in
-// its shift, so a Finder with such a rule visits every point instead.
-// Outcomes then returns the same as after visiting, reasons included.
+// cut and from there on, are found by binary search. wrong=F, wrongNN=F
+// (the deepest cut that holds), hitNN=R (the strictest) and cost (the
+// least) are found by branch and bound over runs of cuts: between two cuts
+// every cut has at least the FP and at most the TP of the looser one's
+// ends, which bounds its figure (see mayKeep), and a run that cannot hold
+// the answer is skipped. queue90=K needs every row in its shift, so a
+// Finder with such a rule visits every point instead. Outcomes then
+// returns the same as after visiting, reasons included.
 func (f *Finder) Search(pts Points) {
 	n := pts.Len()
 	if f.seen {
@@ -486,81 +536,206 @@ func (f *Finder) Search(pts Points) {
 		}
 		return
 	}
-	first := pts.At(0)
+	first, last := pts.At(0), pts.At(n-1)
 	f.seen, f.first, f.firstFigures = true, first, projection.Project(first, f.a)
 	at := func(k int) (curve.Point, projection.Figures) {
 		p := pts.At(k)
 		return p, projection.Project(p, f.a)
 	}
+	all := run{lo: 0, hi: n - 1, first: first, last: last}
 	for i, r := range f.rules {
+		k := -1
 		switch r.Kind {
 		case Score, Top, Base, Queue:
 			// The first cut where the rule no longer holds; the one before
 			// it is the last that does.
-			k := sort.Search(n, func(k int) bool { p, fig := at(k); return !f.keeps(i, p, fig) })
-			if k > 0 {
-				p, fig := at(k - 1)
-				f.keep(i, p, fig)
-			}
+			k = sort.Search(n, func(k int) bool { p, fig := at(k); return !f.keeps(i, p, fig) }) - 1
 		case Hit:
-			k := sort.Search(n, func(k int) bool { p, fig := at(k); return f.keeps(i, p, fig) })
-			if k < n {
-				p, fig := at(k)
-				f.keep(i, p, fig)
+			if k = sort.Search(n, func(k int) bool { p, fig := at(k); return f.keeps(i, p, fig) }); k == n {
+				k = -1
 			}
-		case Wrong:
-			if k := f.searchWrong(i, pts, first); k >= 0 {
-				p, fig := at(k)
-				f.keep(i, p, fig)
-				continue
-			}
+		case Wrong, WrongBound:
+			k = f.deepest(i, pts, all)
+		case HitBound:
+			k = f.strictest(i, pts, all)
+		case Cost:
+			f.least(i, pts, all)
+		}
+		if k >= 0 {
+			p, fig := at(k)
+			f.keep(i, p, fig)
+		}
+		if r.Kind == Wrong && k < 0 {
 			// Unmet: the least wrong-alert share of any cut, for the
 			// reason, as visiting finds it.
-			for k := range n {
-				_, fig := at(k)
-				if wrong := fig.FalseDiscoveryRate(); wrong < f.leastWrong || (math.IsNaN(f.leastWrong) && !math.IsNaN(wrong)) {
-					f.leastWrong = wrong
-				}
-			}
-		default: // cost, hitNN= and wrongNN= (bounds go up and down): every cut
-			for k := range n {
-				if p, fig := at(k); f.keeps(i, p, fig) {
-					f.keep(i, p, fig)
-				}
-			}
+			f.leastWrongOf(pts, all)
 		}
 	}
 }
 
-// searchWrong returns the loosest cut of pts at which wrong=F rule i
-// holds, or -1. It walks from the loosest cut towards the strictest; where
-// a cut fails it skips every stricter cut that must fail too. At a
-// production base rate p strictly between 0 and 1 and F below 1, the
-// projected wrong-alert share is at most F exactly when FP ≤ ratio·TP,
-// ratio = F·p·N / ((1−F)·(1−p)·P) with P and N the class weights; FP and
-// TP only grow as the cut loosens, so below a failing cut k only the cuts
-// with FP ≤ ratio·TP_k can hold, and they are the strictest ones, found by
-// binary search. The bound is widened far beyond rounding (F by 1e-9, the
-// product by a factor 1+1e-9), and every cut it leaves is judged by the
-// rule itself, so the cut found is the one a scan finds.
-func (f *Finder) searchWrong(i int, pts Points, first curve.Point) int {
-	p, wrong := f.a.BaseRate, f.rules[i].Value+1e-9
-	positives, negatives := first.Positives(), first.Negatives()
-	skip := p > 0 && p < 1 && wrong < 1 && positives > 0 && negatives > 0
-	ratio := wrong * p * negatives / ((1 - wrong) * (1 - p) * positives)
-	for k := pts.Len() - 1; k >= 0; k-- {
-		point := pts.At(k)
-		if f.keeps(i, point, projection.Project(point, f.a)) {
-			return k
+// run is the cuts lo to hi of a Points, both included, with the points
+// at its two ends.
+type run struct {
+	lo, hi      int
+	first, last curve.Point
+}
+
+// split halves a run of at least three cuts at its middle cut.
+func (r run) split(pts Points) (stricter, looser run) {
+	mid := (r.lo + r.hi) / 2
+	p := pts.At(mid)
+	return run{lo: r.lo, hi: mid, first: r.first, last: p}, run{lo: mid, hi: r.hi, first: p, last: r.last}
+}
+
+// corner returns the point with the TP of r's loosest cut and the FP of
+// its strictest: every cut of r has at least its FP and at most its TP
+// (both only grow as the cut loosens), so its projected wrong-alert share
+// is at least the corner's, its recall at most the corner's, and so are
+// their bounds (Wilson's one-sided bounds grow with the successes and
+// fall with the failures).
+func (r run) corner() curve.Point {
+	return curve.Point{TP: r.last.TP, FN: r.last.FN, FP: r.first.FP, TN: r.first.TN}
+}
+
+// boundSlack widens the bounds of mayKeep and least far beyond rounding,
+// so that a run is skipped only when no cut of it can hold; every cut
+// they leave is judged by the rule itself.
+const boundSlack = 1e-9
+
+// mayKeep reports whether some cut of r might hold for rule i, a wrong=F,
+// wrongNN=F or hitNN=R rule: false only when none can. A projected
+// wrongNN=F bound is bounded by projection.PrecisionLowerCeiling.
+func (f *Finder) mayKeep(i int, r run) bool {
+	rule, p := f.rules[i], r.corner()
+	var figure, limit float64
+	switch rule.Kind {
+	case Wrong:
+		figure, limit = projection.Project(p, f.a).FalseDiscoveryRate(), rule.Value+slack+boundSlack
+	case WrongBound:
+		figure, limit = WrongUpperBound(p, f.a.BaseRate, rule.Confidence(), false), rule.Value+slack+boundSlack
+		if f.projectedWrong {
+			// One minus the lower limit of the projected precision's
+			// interval, which is at most its ceiling over the run.
+			counts := func(p curve.Point) projection.Counts {
+				return projection.Counts{TP: p.TP, FP: p.FP, FN: p.FN, TN: p.TN}
+			}
+			figure = 1 - projection.PrecisionLowerCeiling(counts(r.first), counts(r.last), f.a.BaseRate, 2*rule.Confidence()-1)
 		}
-		if skip {
-			bound := ratio * point.TP * (1 + 1e-9)
-			// The last cut at or before k with FP within the bound;
-			// the ones after it fail.
-			k = sort.Search(k, func(j int) bool { return pts.At(j).FP > bound }) // then k-- steps to it
+	case HitBound:
+		// Holds where the bound reaches the value: compare negated.
+		figure, limit = -HitLowerBound(p, rule.Confidence()), -(rule.Value - slack - boundSlack)
+	default:
+		return true
+	}
+	return math.IsNaN(figure) || figure <= limit
+}
+
+// deepest returns the loosest cut of r at which rule i holds, or -1.
+func (f *Finder) deepest(i int, pts Points, r run) int {
+	switch {
+	case f.keeps(i, r.last, projection.Project(r.last, f.a)):
+		return r.hi
+	case r.hi == r.lo || !f.mayKeep(i, r):
+		return -1
+	case r.hi-r.lo == 1:
+		if f.keeps(i, r.first, projection.Project(r.first, f.a)) {
+			return r.lo
+		}
+		return -1
+	}
+	stricter, looser := r.split(pts)
+	if k := f.deepest(i, pts, looser); k >= 0 {
+		return k
+	}
+	return f.deepest(i, pts, stricter)
+}
+
+// strictest returns the strictest cut of r at which rule i holds, or -1.
+func (f *Finder) strictest(i int, pts Points, r run) int {
+	switch {
+	case f.keeps(i, r.first, projection.Project(r.first, f.a)):
+		return r.lo
+	case r.hi == r.lo || !f.mayKeep(i, r):
+		return -1
+	case r.hi-r.lo == 1:
+		if f.keeps(i, r.last, projection.Project(r.last, f.a)) {
+			return r.hi
+		}
+		return -1
+	}
+	stricter, looser := r.split(pts)
+	if k := f.strictest(i, pts, stricter); k >= 0 {
+		return k
+	}
+	return f.strictest(i, pts, looser)
+}
+
+// leastWrongOf lowers f.leastWrong to the least defined projected
+// wrong-alert share of a cut of r, as visiting every cut would, skipping
+// a run whose least possible share (at its corner) is no lower.
+func (f *Finder) leastWrongOf(pts Points, r run) {
+	for _, p := range [2]curve.Point{r.first, r.last} {
+		if wrong := projection.Project(p, f.a).FalseDiscoveryRate(); wrong < f.leastWrong || (math.IsNaN(f.leastWrong) && !math.IsNaN(wrong)) {
+			f.leastWrong = wrong
 		}
 	}
-	return -1
+	if r.hi-r.lo < 2 {
+		return
+	}
+	if lowest := projection.Project(r.corner(), f.a).FalseDiscoveryRate(); lowest >= f.leastWrong+boundSlack {
+		return
+	}
+	stricter, looser := r.split(pts)
+	f.leastWrongOf(pts, stricter)
+	f.leastWrongOf(pts, looser)
+}
+
+// least visits, in order, every cut of r that could take the cost rule
+// i's place (the cost of least cost so far): the ends of r, then its cuts
+// between, skipping a run whose least possible cost cannot beat the one
+// held by more than the slack. Cost is linear in TP and FP, so its least
+// over a run lies at a corner of the run's TP and FP ranges.
+func (f *Finder) least(i int, pts Points, all run) {
+	consider := func(p curve.Point) {
+		if fig := projection.Project(p, f.a); f.keeps(i, p, fig) {
+			f.keep(i, p, fig)
+		}
+	}
+	var between func(r run)
+	between = func(r run) {
+		if r.hi-r.lo < 2 || !f.mayBeatCost(i, r) {
+			return
+		}
+		stricter, looser := r.split(pts)
+		between(stricter)
+		consider(looser.first)
+		between(looser)
+	}
+	consider(all.first)
+	between(all)
+	if all.hi > all.lo {
+		consider(all.last)
+	}
+}
+
+// mayBeatCost reports whether a cut of r might take the place of the cut
+// cost rule i holds: false only when none can.
+func (f *Finder) mayBeatCost(i int, r run) bool {
+	if !f.found[i] {
+		return true
+	}
+	held := f.best[i].Projected.CostPerCase
+	lowest := math.Inf(1)
+	for _, tp := range [2]curve.Point{r.first, r.last} {
+		for _, fp := range [2]curve.Point{r.first, r.last} {
+			c := projection.Project(curve.Point{TP: tp.TP, FN: tp.FN, FP: fp.FP, TN: fp.TN}, f.a).CostPerCase
+			if math.IsNaN(c) {
+				return true
+			}
+			lowest = min(lowest, c)
+		}
+	}
+	return lowest-boundSlack*(math.Abs(lowest)+math.Abs(held)) < held-slack*math.Abs(held)
 }
 
 // Outcomes returns one outcome per rule, in the order given.
@@ -605,7 +780,7 @@ func (f *Finder) reason(r Rule) string {
 	case Score:
 		return fmt.Sprintf("no score is at or beyond %v; the riskiest is %v", r.Value, p.Score)
 	case Top:
-		if f.set.Weighted() {
+		if f.weighted {
 			return fmt.Sprintf("the strictest cut already flags %v weighted cases (score %v)", p.TP+p.FP, p.Score)
 		}
 		if p.Cases == 1 {

@@ -106,8 +106,13 @@ func oracle(r cutrule.Rule, points []curve.Point, set *scores.Set, a projection.
 // exactly at figures of the data (where ties with the rule's value occur).
 func TestFindMatchesOracle(t *testing.T) {
 	rng := rand.New(rand.NewPCG(7, 2026))
-	for trial := range 300 {
-		n := 1 + rng.IntN(40)
+	for trial := range 600 {
+		// Half the trials have many cuts, so that Search's branch and
+		// bound skips runs of them.
+		n, levels := 1+rng.IntN(40), 12
+		if trial%2 == 1 {
+			n, levels = 1+rng.IntN(400), 2+rng.IntN(300)
+		}
 		values := make([]float64, n)
 		labels := make([]bool, n)
 		var weights []float64
@@ -115,7 +120,7 @@ func TestFindMatchesOracle(t *testing.T) {
 			weights = make([]float64, n)
 		}
 		for i := range values {
-			values[i] = float64(rng.IntN(12)) / 11
+			values[i] = float64(rng.IntN(levels)) / float64(levels-1)
 			labels[i] = rng.Float64() < 0.3+0.4*values[i]
 			if weights != nil {
 				weights[i] = float64(rng.IntN(4)) / 2

@@ -139,6 +139,33 @@ func PrecisionInterval(c Counts, p, confidence float64) (lower, upper float64) {
 	return min(lower, precision), max(upper, precision)
 }
 
+// PrecisionLowerCeiling returns a number no lower than the lower limit of
+// PrecisionInterval(c, p, confidence) for every c of the same class
+// totals as stricter and looser whose TP lies between theirs and whose FP
+// lies between theirs (stricter's TP and FP at most looser's): the cuts
+// between two cuts of one ranking. A search uses it to skip such a run
+// where no lower limit can reach a value. The limit's logit,
+// log(p*r/((1-p)*f)) - z*sqrt(var), grows with TP and falls with FP in
+// its first term, and the variance's adjusted terms FN/(TP*n1) and
+// TN/(FP*n0) fall as TP and as FP grow, so the ceiling takes the first
+// term at looser's TP and stricter's FP and the variance at looser's TP
+// and FP, and is widened by a relative 1e-12 against rounding. It is NaN where p is not strictly between 0 and 1 or a class
+// has no cases, and is not a limit of any interval itself.
+func PrecisionLowerCeiling(stricter, looser Counts, p, confidence float64) float64 {
+	n1, n0 := looser.TP+looser.FN, looser.FP+looser.TN
+	if !(p > 0 && p < 1) || !(n1 > 0) || !(n0 > 0) {
+		return math.NaN()
+	}
+	z := interval.Z(confidence)
+	add := z * z / 2
+	n1, n0 = n1+2*add, n0+2*add
+	tp, fn := looser.TP+add, looser.FN+add
+	fewestFP, mostFP, tn := stricter.FP+add, looser.FP+add, looser.TN+add
+	logit := math.Log(p*tp/n1) - math.Log((1-p)*fewestFP/n0)
+	half := z * math.Sqrt(fn/(tp*n1)+tn/(mostFP*n0))
+	return expit(logit-half) * (1 + 1e-12) // above the rounding of either computation
+}
+
 // AlertRateInterval returns the interval of the projected alert rate
 // r*p + f*(1-p) at the base rate p, taken as known, from the counts c at
 // the given confidence level: LinearInterval with coefficients p and 1-p.

@@ -2,6 +2,7 @@ package projection_test
 
 import (
 	"math"
+	"math/rand/v2"
 	"testing"
 
 	"github.com/sill-tool/sill/internal/floatcmp"
@@ -210,6 +211,41 @@ func TestIntervalsHoldTheirFigures(t *testing.T) {
 					}
 				}
 			}
+		}
+	}
+}
+
+// TestPrecisionLowerCeiling: the ceiling is at least the lower limit of
+// PrecisionInterval at every TP and FP between two cuts' (every whole
+// count in the box, at random classes, cuts, base rates and levels;
+// seeded, 2000 boxes), and NaN where it is undefined.
+func TestPrecisionLowerCeiling(t *testing.T) {
+	rng := rand.New(rand.NewPCG(17, 18))
+	for trial := range 2000 {
+		n1, n0 := float64(1+rng.IntN(30)), float64(1+rng.IntN(30))
+		tpLo, fpLo := float64(rng.IntN(int(n1)+1)), float64(rng.IntN(int(n0)+1))
+		tpHi, fpHi := tpLo+float64(rng.IntN(int(n1-tpLo)+1)), fpLo+float64(rng.IntN(int(n0-fpLo)+1))
+		p := []float64{0.001, 0.05, 0.3, 0.5, 0.9, 0.999}[rng.IntN(6)]
+		confidence := []float64{0.8, 0.9, 0.95, 0.99}[rng.IntN(4)]
+		stricter := projection.Counts{TP: tpLo, FN: n1 - tpLo, FP: fpLo, TN: n0 - fpLo}
+		looser := projection.Counts{TP: tpHi, FN: n1 - tpHi, FP: fpHi, TN: n0 - fpHi}
+		ceiling := projection.PrecisionLowerCeiling(stricter, looser, p, confidence)
+		for tp := tpLo; tp <= tpHi; tp++ {
+			for fp := fpLo; fp <= fpHi; fp++ {
+				lower, _ := projection.PrecisionInterval(projection.Counts{TP: tp, FN: n1 - tp, FP: fp, TN: n0 - fp}, p, confidence)
+				if lower > ceiling {
+					t.Fatalf("trial %d: TP %v FP %v between %+v and %+v at p %v, confidence %v: lower limit %v above the ceiling %v", trial, tp, fp, stricter, looser, p, confidence, lower, ceiling)
+				}
+			}
+		}
+	}
+	one := projection.Counts{TP: 3, FN: 1}
+	for _, c := range []struct {
+		counts projection.Counts
+		p      float64
+	}{{one, 0.5}, {projection.Counts{TP: 1, FN: 1, FP: 1, TN: 1}, 0}, {projection.Counts{TP: 1, FN: 1, FP: 1, TN: 1}, 1}} {
+		if got := projection.PrecisionLowerCeiling(c.counts, c.counts, c.p, 0.9); !math.IsNaN(got) {
+			t.Errorf("%+v at p %v: ceiling %v, want NaN (a class without cases, or p at an edge)", c.counts, c.p, got)
 		}
 	}
 }
