@@ -14,37 +14,60 @@
 // Cases, not rows, are drawn, and drawing cases only counts how many of
 // each cell (one distinct score and label) were drawn: a set of rows is
 // first collapsed into its cells, a counts table of the same cases, and a
-// replicate is a counts table over the same cells. The work of a replicate
-// therefore grows with the distinct scores, not the rows, and a counts
-// table gives the very same result as the raw rows it aggregates. A group
-// of up to MaxCaseDraws cases is drawn case by case, exactly. A larger one
-// is drawn, under the ordinary design, by the Poisson bootstrap (each
-// cell's count a Poisson draw of mean its cases, so the total varies a
-// little, about its square root), and within classes as sequential binomial
-// counts of its cells (an exact multinomial draw of the same distribution): a binomial of mean below 30 by inversion,
-// exactly, and a larger one by the normal distribution with continuity
-// correction, which at such means differs from it by far less than the
-// bootstrap's own noise.
+// replicate is a count of drawn cases for each cell. A counts table gives
+// the very same result as the raw rows it aggregates.
+//
+// A replicate is drawn lazily, only where a rule or the band asks. Each
+// class's cells, in ranked order, are the leaves of an implicit binary
+// tree; a node's drawn cases split between its two halves as a binomial
+// draw whose chance is the stricter half's share of the node's cases.
+// Splitting in turn from a class's total is a multinomial draw of that
+// total over the class's cells, exactly in distribution. The totals are
+// drawn first: under the ordinary design the true cases drawn are a
+// binomial draw of all the set's cases at the set's share of true cases
+// (the rest are false), so that all the cases together are a multinomial
+// draw of the set's size over every cell, the case resampling of a random
+// sample; within classes each class keeps its size. The cases drawn at
+// or before a cut then take one path from the root per class, each split
+// drawn the first time it is needed and kept for the rest of the
+// replicate, so a replicate costs what its questions need (the cuts the
+// searches look at times the depth of the tree, the logarithm of the
+// cells), not the cells. The
+// rules search the replicate's cuts through cutrule.Finder.Search, the
+// same search and the same rules as on the set itself; a rule met where
+// no case was drawn takes the cut of the last score at which one was, as
+// on the replicate drawn in full (TestLazyMatchesDrawnInFull).
+//
+// The binomial draws are exact by inversion (one uniform draw against the
+// running sum of the probabilities) when the smaller of the mean and the
+// mean of failures is below 30, and otherwise come from the normal
+// distribution of the same mean and variance with a continuity
+// correction, which at such means differs from the binomial by far less
+// than the bootstrap's own noise. Poisson draws follow the same split.
 //
 // Weights are drawn as their kind says (Options.Sampling, package
 // design). Frequency weights count cases: a row of weight 3 is three
 // cases, so the cells of a weighted set count the weights, and a set of
 // whole-number weights is resampled exactly as the same rows written out
-// (a counts table); weights that are not whole numbers draw each cell's
-// count as a Poisson draw of mean its weight (the Poisson bootstrap,
-// which needs no whole numbers). Sampling weights make the rows the units
-// drawn: rows are drawn row by row and carry their weights along, so
-// their work grows with the rows; callers pick WithinClass when the
-// weights are constant within each class (a class downsampled) and
-// Ordinary otherwise.
+// (a counts table). Frequency weights that are not whole numbers draw by
+// the Poisson bootstrap, whatever the design: each cell's count a Poisson
+// draw of mean its weight, which needs no whole numbers, drawn as each
+// class's Poisson total split down the same tree (independent Poisson
+// counts, exactly in distribution). Sampling weights make the rows the
+// units drawn: rows are drawn row by row, eagerly, and carry their
+// weights along, so their work grows with the rows; callers pick
+// WithinClass when the weights are constant within each class (a class
+// downsampled) and Ordinary otherwise.
 //
 // Which cases a cut flags follows the cut rule in the doc of package
 // scores. Percentiles interpolate linearly between order statistics
 // (numpy's default).
 //
-// Replicate b draws from its own generator, seeded with (Seed, b), so the
-// result depends on Seed, Replicates and Design only, never on the number
-// of workers or their timing.
+// Every draw of replicate b comes from its own generator: a split from
+// one seeded by a hash of (Seed, b, class, node), rows of sampling
+// weights from one seeded with (Seed, b). So no draw depends on the order
+// in which the rules ask, and the result depends on Seed, Replicates and
+// Design only, never on the number of workers or their timing.
 package bootstrap
 
 import (
@@ -124,11 +147,6 @@ func (d Design) String() string {
 	return "ordinary"
 }
 
-// MaxCaseDraws is the most cases of one group that are drawn one by one;
-// a larger group is drawn as sequential binomial counts of its cells (see
-// the package doc).
-const MaxCaseDraws = 1 << 16
-
 // Errors of Run.
 var (
 	ErrReplicates = errors.New("bootstrap needs at least 1 replicate")
@@ -205,8 +223,11 @@ func Run(ctx context.Context, set *scores.Set, rules []cutrule.Rule, a projectio
 	if err != nil {
 		return Result{}, err
 	}
+	var tree *cellTree
 	if base == nil {
 		base = set
+	} else {
+		tree = newCellTree(base, opt.Design, poissonCells)
 	}
 	band := bandCuts(base, opt.BandCuts)
 
@@ -226,25 +247,18 @@ func Run(ctx context.Context, set *scores.Set, rules []cutrule.Rule, a projectio
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			r := newReplicator(base, opt.Design, poissonCells)
-			var cuts curve.Curve // refilled for each replicate
+			r := newDrawer(base, opt.Design, tree)
 			for {
 				b := int(next.Add(1) - 1)
 				if b >= opt.Replicates || ctx.Err() != nil {
 					return
 				}
-				rep := r.draw(opt.Seed, uint64(b))
-				finder, err := cutrule.NewFinder(rules, rep, a)
+				outcomes, err := r.outcomes(opt.Seed, uint64(b), rules, a)
 				if err != nil {
 					failOnce.Do(func() { failure = err })
 					return
 				}
-				// The replicate's cuts, each rule found by binary search
-				// or a scan of them (cutrule.Finder.Search): the same cut
-				// as visiting each, at a fraction of the projections.
-				cuts.Refill(rep)
-				finder.Search(&cuts)
-				for i, o := range finder.Outcomes() {
+				for i, o := range outcomes {
 					scoresAt[i][b], sharesAt[i][b], recallsAt[i][b], fdrsAt[i][b] = math.NaN(), math.NaN(), math.NaN(), math.NaN()
 					if o.Met {
 						scoresAt[i][b], sharesAt[i][b], recallsAt[i][b], fdrsAt[i][b] = o.Point.Score, o.Point.FlaggedShare(), o.Point.Recall(), o.Point.FalseDiscoveryRate()
@@ -354,46 +368,39 @@ func bandCuts(set *scores.Set, k int) []bandCut {
 	return out
 }
 
-// replicator draws replicates of one set, reusing its buffers.
-//
-// A set of unweighted rows or a counts table is first collapsed into its
-// cells: one row per distinct score and label holding how many cases it
-// has (a counts table of the same cases, see cellsOf). A replicate is a
-// counts table over the same cells holding how many of each cell's cases
-// were drawn, so its cost grows with the cells, not the cases. Drawing
-// cases uniformly and counting them per cell is the same distribution as
-// drawing rows, and a rule's cut, the band and every figure depend on the
-// cases at each score only.
-//
-// Weighted rows are drawn row by row (their weights differ within a
-// cell) and carry their weights along.
-type replicator struct {
-	set    *scores.Set // the cells, or the weighted rows
-	groups []group     // drawn apart: all cases, or each class
-	rep    scores.Set
-
-	counts []int32   // weighted rows: times each row was drawn
-	drawn  []float64 // cells: cases of each cell drawn
-
-	// poisson: set is the cells of frequency weights that are not whole
-	// numbers, each cell's cases a Poisson draw of mean its weight.
-	poisson bool
+// drawer draws replicates and applies the rules to them: a
+// lazyReplicate for cells, a replicator for rows of sampling weights.
+type drawer interface {
+	// outcomes draws replicate b and returns each rule's outcome on it.
+	outcomes(seed, b uint64, rules []cutrule.Rule, a projection.Assumptions) ([]cutrule.Outcome, error)
+	// band records replicate b's recall and false discovery rate at
+	// the band cuts.
+	band(cuts []bandCut, b int, recallAt, fdrAt [][]float64)
 }
 
-// group is a part of the set drawn apart: its rows and, for cells, the
-// cases of the group's rows before each of them.
-type group struct {
-	rows   []int
-	before []float64
-	cases  int
-}
-
-func newReplicator(set *scores.Set, design Design, poisson bool) *replicator {
-	r := &replicator{set: set, poisson: poisson}
-	if poisson {
-		r.drawn = make([]float64, set.Len())
-		return r
+// newDrawer returns one worker's drawer: of the cells' tree when there is
+// one, else of set's rows.
+func newDrawer(set *scores.Set, design Design, tree *cellTree) drawer {
+	if tree != nil {
+		return newLazyReplicate(tree)
 	}
+	return newReplicator(set, design)
+}
+
+// replicator draws replicates of a set of rows of sampling weights,
+// reusing its buffers: each group's rows (all of them, or each class)
+// drawn with replacement, as many as the group has, the drawn rows
+// carrying their weights along. Its work grows with the rows.
+type replicator struct {
+	set    *scores.Set
+	groups [][]int // the rows of each group drawn apart
+	rep    scores.Set
+	counts []int32     // times each row was drawn
+	cuts   curve.Curve // refilled for each replicate
+}
+
+func newReplicator(set *scores.Set, design Design) *replicator {
+	r := &replicator{set: set, counts: make([]int32, set.Len())}
 	var positiveRows, negativeRows, all []int
 	for i, positive := range set.Labels() {
 		all = append(all, i)
@@ -403,23 +410,32 @@ func newReplicator(set *scores.Set, design Design, poisson bool) *replicator {
 			negativeRows = append(negativeRows, i)
 		}
 	}
-	parts := [][]int{all}
+	r.groups = [][]int{all}
 	if design == WithinClass {
-		parts = [][]int{positiveRows, negativeRows}
-	}
-	for _, rows := range parts {
-		g := group{rows: rows}
-		if set.CountsTable() {
-			g.before, g.cases = casesBefore(set, rows)
-		}
-		r.groups = append(r.groups, g)
-	}
-	if set.CountsTable() {
-		r.drawn = make([]float64, set.Len())
-	} else {
-		r.counts = make([]int32, set.Len())
+		r.groups = [][]int{positiveRows, negativeRows}
 	}
 	return r
+}
+
+// outcomes draws replicate b, from its own generator seeded with (seed,
+// b), and returns each rule's outcome on it, found by
+// cutrule.Finder.Search over its cuts.
+func (r *replicator) outcomes(seed, b uint64, rules []cutrule.Rule, a projection.Assumptions) ([]cutrule.Outcome, error) {
+	rng := rand.New(rand.NewPCG(seed, b))
+	clear(r.counts)
+	for _, rows := range r.groups {
+		for range rows {
+			r.counts[rows[rng.IntN(len(rows))]]++
+		}
+	}
+	scores.Replicate(&r.rep, r.set, r.counts)
+	finder, err := cutrule.NewFinder(rules, &r.rep, a)
+	if err != nil {
+		return nil, err
+	}
+	r.cuts.Refill(&r.rep)
+	finder.Search(&r.cuts)
+	return finder.Outcomes(), nil
 }
 
 // cellsOf returns set's cells: a counts table with one row per distinct
@@ -468,187 +484,10 @@ func cellsOf(set *scores.Set, sampling bool) (cells *scores.Set, poisson bool, e
 	return cells, false, err
 }
 
-// casesBefore returns the cases of a counts table's rows before each of
-// rows, and their total.
-func casesBefore(set *scores.Set, rows []int) ([]float64, int) {
-	before := make([]float64, len(rows)+1)
-	for k, i := range rows {
-		before[k+1] = before[k] + set.Weight(i)
-	}
-	return before, int(before[len(rows)])
-}
-
-// drawCase returns the row of rows that holds case number c of a counts
-// table's group, counted from 0 in ranked order.
-func drawCase(rows []int, before []float64, c int) int {
-	k := sort.Search(len(rows), func(k int) bool { return before[k+1] > float64(c) })
-	return rows[k]
-}
-
-// draw builds replicate b: each group's cases drawn with replacement, as
-// many as the group holds.
-func (r *replicator) draw(seed, b uint64) *scores.Set {
-	rng := rand.New(rand.NewPCG(seed, b))
-	if r.poisson {
-		return r.drawPoisson(rng)
-	}
-	if r.set.CountsTable() {
-		clear(r.drawn)
-		for _, g := range r.groups {
-			switch {
-			case g.cases <= MaxCaseDraws:
-				for range g.cases {
-					r.drawn[drawCase(g.rows, g.before, rng.IntN(g.cases))]++
-				}
-			case len(r.groups) == 1:
-				// Ordinary design: the Poisson bootstrap, each cell's
-				// count drawn apart; a cell of a whole number of cases
-				// below 30 (the usual one) from 32 random bits.
-				var whole wholeMeanDraws
-				for _, i := range g.rows {
-					if m := r.set.Weight(i); m < 30 && m == math.Trunc(m) && m > 0 {
-						r.drawn[i] = float64(whole.draw(rng, int(m)))
-					} else {
-						r.drawn[i] = float64(poisson(rng, m))
-					}
-				}
-			default:
-				r.multinomial(rng, g.rows, g.before, g.cases)
-			}
-		}
-		scores.Replicate(&r.rep, r.set, r.drawn)
-		return &r.rep
-	}
-	clear(r.counts)
-	for _, g := range r.groups {
-		for range g.rows {
-			r.counts[g.rows[rng.IntN(len(g.rows))]]++
-		}
-	}
-	scores.Replicate(&r.rep, r.set, r.counts)
-	return &r.rep
-}
-
-// drawPoisson builds a replicate of cells of frequency weights that are
-// not whole numbers: each cell's cases a Poisson draw of mean its weight,
-// as a counts table of the cells drawn.
-func (r *replicator) drawPoisson(rng *rand.Rand) *scores.Set {
-	var sc, counts []float64
-	var labels []bool
-	for i := range r.set.Len() {
-		r.drawn[i] = float64(poisson(rng, r.set.Weight(i)))
-		if r.drawn[i] > 0 {
-			sc, labels, counts = append(sc, r.set.Scores()[i]), append(labels, r.set.Labels()[i]), append(counts, r.drawn[i])
-		}
-	}
-	rep, err := scores.NewCounts(sc, labels, counts, r.set.LowerIsRiskier())
-	if err != nil {
-		panic("bootstrap: a Poisson replicate's counts: " + err.Error()) // whole, finite and >= 0 by construction
-	}
-	return rep
-}
-
-// multinomial draws cases of one group of a counts table into r.drawn:
-// each row's share of the cases left, from the cases that the rows after
-// it hold, in turn.
-func (r *replicator) multinomial(rng *rand.Rand, rows []int, before []float64, cases int) {
-	left := cases
-	for k, i := range rows {
-		if left == 0 {
-			return
-		}
-		if k == len(rows)-1 {
-			r.drawn[i] += float64(left)
-			return
-		}
-		rest := before[len(rows)] - before[k] // cases of this row and those after it
-		x := binomial(rng, left, r.set.Weight(i)/rest)
-		r.drawn[i] += float64(x)
-		left -= x
-	}
-}
-
-// poissonTerms holds, for each whole mean k below 30, the chances of 0, 1,
-// 2... events of a Poisson draw of mean k as the inversion in poisson
-// computes them (e^-k, then each times k/x), up to poissonTermsKept of them:
-// a cell of k cases then draws by table lookups, with the same result as
-// computing the terms.
-var poissonTerms = func() (t [30][poissonTermsKept]float64) {
-	for k := range t {
-		f := math.Exp(-float64(k))
-		for x := range poissonTermsKept {
-			if x > 0 {
-				f *= float64(k) / float64(x)
-			}
-			t[k][x] = f
-		}
-	}
-	return t
-}()
-
-// poissonTermsKept is how many chances poissonTerms keeps per mean: enough
-// that a draw of mean 1 (a cell of one case, the usual) almost never runs
-// past them (the chance of 24 or more events is below 1e-23).
-const poissonTermsKept = 24
-
-// poissonBelow holds, for each whole mean m from 1 to 29 and x = 0, 1,
-// 2..., the chance that a Poisson draw of mean m is at most x, times 2^32
-// and rounded down: a uniform 32-bit number below entry x and at or above
-// entry x-1 draws x. Each chance is off by less than 2^-32 (2.3e-10), far
-// below the bootstrap's own noise; a table ends where the chances left
-// round to nothing (its last entry stands for that many or more, a chance
-// below 2.3e-10).
-var poissonBelow = func() (t [30][]uint32) {
-	for m := 1; m < 30; m++ {
-		f, cumulative := math.Exp(-float64(m)), 0.0
-		for x := 0; ; x++ {
-			if x > 0 {
-				f *= float64(m) / float64(x)
-			}
-			cumulative += f
-			below := min(math.Floor(cumulative*(1<<32)), math.MaxUint32)
-			t[m] = append(t[m], uint32(below))
-			if below == math.MaxUint32 {
-				break
-			}
-		}
-	}
-	return t
-}()
-
-// wholeMeanDraws draws Poisson counts of a whole mean below 30 (a cell of
-// that many cases) from half a 64-bit random number each, by inversion
-// against poissonBelow (a binary search of its table). The zero value is
-// ready; it holds the unused half.
-type wholeMeanDraws struct {
-	bits uint64
-	kept bool
-}
-
-func (o *wholeMeanDraws) draw(rng *rand.Rand, m int) int {
-	var u uint32
-	if o.kept {
-		u, o.kept = uint32(o.bits>>32), false
-	} else {
-		o.bits, o.kept = rng.Uint64(), true
-		u = uint32(o.bits)
-	}
-	below := poissonBelow[m]
-	lo, hi := 0, len(below)
-	for lo < hi {
-		mid := (lo + hi) / 2
-		if u >= below[mid] {
-			lo = mid + 1
-		} else {
-			hi = mid
-		}
-	}
-	return lo
-}
-
 // poisson draws from the Poisson distribution of mean m: by inversion
-// when m is below 30, else from the normal distribution of the same mean
-// and variance, rounded and kept at 0 or more.
+// (one uniform draw against the running sum of the probabilities) when m
+// is below 30, else from the normal distribution of the same mean and
+// variance, rounded and kept at 0 or more.
 func poisson(rng *rand.Rand, m float64) int {
 	if !(m > 0) {
 		return 0
@@ -656,32 +495,7 @@ func poisson(rng *rand.Rand, m float64) int {
 	if m >= 30 {
 		return max(int(math.Floor(m+math.Sqrt(m)*rng.NormFloat64()+0.5)), 0)
 	}
-	return poissonFromUniform(rng.Float64(), m)
-}
-
-// poissonFromUniform is the inversion of poisson for a mean m in (0, 30)
-// and one uniform draw u: the number of events x at which the chances of
-// 0..x first pass u.
-func poissonFromUniform(u, m float64) int {
-	x := 0
-	var f float64
-	if k := int(m); float64(k) == m {
-		// A cell's whole number of cases: the chances from the table.
-		terms := &poissonTerms[k]
-		for f = terms[0]; u > f && f > 0; f = terms[x] {
-			u -= f
-			x++
-			if x == poissonTermsKept {
-				f = terms[x-1] * (m / float64(x))
-				break
-			}
-		}
-		if x < poissonTermsKept {
-			return x
-		}
-	} else {
-		f = math.Exp(-m)
-	}
+	u, x, f := rng.Float64(), 0, math.Exp(-m)
 	for u > f && f > 0 {
 		u -= f
 		x++
@@ -692,8 +506,10 @@ func poissonFromUniform(u, m float64) int {
 
 // binomial draws from the binomial distribution of n trials of chance p:
 // by inversion (one uniform draw against the running sum of the
-// probabilities) when the mean is below 30, else from the normal distribution of the same mean and
-// variance, rounded and kept within [0, n].
+// probabilities) when the mean of the rarer outcome is below 30, else
+// from the normal distribution of the same mean and variance, rounded to
+// the nearest whole number (the continuity correction) and kept within
+// [0, n].
 func binomial(rng *rand.Rand, n int, p float64) int {
 	switch {
 	case n <= 0 || !(p > 0):
@@ -731,15 +547,7 @@ func binomial(rng *rand.Rand, n int, p float64) int {
 // band records the replicate's recall and false discovery rate at the
 // band cuts: the replicate's rows drawn from set rows before cut.rows.
 func (r *replicator) band(cuts []bandCut, b int, recallAt, fdrAt [][]float64) {
-	if len(cuts) == 0 {
-		return
-	}
-	// drawnWeight is the weight that row i adds to the replicate: a row of
-	// a counts table weighs one case per case drawn.
 	drawnWeight := func(i int) float64 { return float64(r.counts[i]) * r.set.Weight(i) }
-	if r.set.CountsTable() || r.poisson {
-		drawnWeight = func(i int) float64 { return r.drawn[i] }
-	}
 	var positives float64
 	for i, positive := range r.set.Labels() {
 		if positive {

@@ -1,0 +1,282 @@
+package bootstrap
+
+import (
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"testing"
+
+	"github.com/sill-tool/sill/internal/curve"
+	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/projection"
+	"github.com/sill-tool/sill/internal/scores"
+)
+
+// TestLazyMatchesDrawnInFull: a replicate drawn lazily picks, for every
+// rule, the cut that the eager path (every cut visited, cutrule.Find)
+// picks on the same replicate drawn in full (every cell's count, fill),
+// and gives the band the full replicate gives; drawing the cells first
+// and the rules after gives the same draws (no draw depends on the order
+// of the questions). Seeded random counts tables: 200 trials, 1 to 300
+// cells on 2 to 200 score values (ties between the classes), whole counts
+// of 1 to 3 cases or a few large ones, both directions, both designs, at
+// random production assumptions with costs; rule values at random and at
+// figures of the full replicate (where ties with the value occur).
+func TestLazyMatchesDrawnInFull(t *testing.T) {
+	rng := rand.New(rand.NewPCG(41, 2026))
+	for trial := range 200 {
+		cells := randomCells(t, rng, trial)
+		design := []Design{Ordinary, WithinClass}[trial%2]
+		tree := newCellTree(cells, design, false)
+		lazy, full := newLazyReplicate(tree), newLazyReplicate(tree)
+		a := projection.Assumptions{
+			BaseRate:   []float64{0.02, 0.3, 0.5, 0.9}[rng.IntN(4)],
+			Volume:     float64(1 + rng.IntN(500)),
+			Confidence: 0.95,
+			Costs:      &projection.Costs{FalseAlert: float64(rng.IntN(5)), Miss: float64(rng.IntN(20)), Hit: -float64(rng.IntN(3))},
+		}
+		if trial%3 == 0 {
+			positives, negatives := cells.Totals()
+			a.BaseRate = positives / (positives + negatives) // the validation rate: wrongNN= bounds Wilson's
+		}
+		for b := range uint64(5) {
+			seed := uint64(trial)
+			full.draw(seed, b)
+			drawn := make([]float64, cells.Len())
+			full.fill(drawn)
+			var rep scores.Set
+			scores.Replicate(&rep, cells, drawn)
+			c := curve.New(&rep)
+			rules := lazyRules(rng, c, a)
+			want, err := cutrule.Find(rules, c, a)
+			if err != nil {
+				t.Fatal(err)
+			}
+			got, err := lazy.outcomes(seed, b, rules, a)
+			if err != nil {
+				t.Fatal(err)
+			}
+			for i := range rules {
+				if g, w := pointOf(got[i]), pointOf(want[i]); g != w {
+					t.Errorf("trial %d replicate %d (%s, base rate %v): %v lazily %s, drawn in full %s", trial, b, design, a.BaseRate, rules[i], g, w)
+				}
+			}
+			checkBand(t, fmt.Sprintf("trial %d replicate %d", trial, b), lazy, cells, &rep)
+		}
+	}
+}
+
+// pointOf describes an outcome by what the bootstrap takes from it.
+func pointOf(o cutrule.Outcome) string {
+	if !o.Met {
+		return "unmet"
+	}
+	p := o.Point
+	return fmt.Sprintf("score %v cases %d TP %v FP %v FN %v TN %v", p.Score, p.Cases, p.TP, p.FP, p.FN, p.TN)
+}
+
+// randomCells returns a random counts table of cells (one row per score
+// and label) for TestLazyMatchesDrawnInFull.
+func randomCells(t *testing.T, rng *rand.Rand, trial int) *scores.Set {
+	t.Helper()
+	values := 2 + rng.IntN(200)
+	n := 1 + rng.IntN(300)
+	seen := map[[2]int]bool{}
+	var sc, counts []float64
+	var labels []bool
+	for range n {
+		v, positive := rng.IntN(values), rng.Float64() < 0.2+0.6*float64(trial%5)/5
+		label := 0
+		if positive {
+			label = 1
+		}
+		if seen[[2]int{v, label}] {
+			continue
+		}
+		seen[[2]int{v, label}] = true
+		count := float64(1 + rng.IntN(3))
+		if rng.IntN(20) == 0 {
+			count = float64(1 + rng.IntN(5000))
+		}
+		sc, labels, counts = append(sc, float64(v)/float64(values)), append(labels, positive), append(counts, count)
+	}
+	if !hasBoth(labels) {
+		sc, labels, counts = append(sc, 0.5, 0.5), append(labels, true, false), append(counts, 1, 1)
+	}
+	set, err := scores.NewCounts(sc, labels, counts, trial%4 == 1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	cells, _, err := cellsOf(set, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return cells
+}
+
+func hasBoth(labels []bool) bool {
+	var positive, negative bool
+	for _, l := range labels {
+		positive, negative = positive || l, negative || !l
+	}
+	return positive && negative
+}
+
+// lazyRules returns every kind of rule the bootstrap resamples, with
+// values at random and at the figures of a point of c.
+func lazyRules(rng *rand.Rand, c *curve.Curve, a projection.Assumptions) []cutrule.Rule {
+	at := c.At(rng.IntN(c.Len()))
+	fig := projection.Project(at, a)
+	rules := []cutrule.Rule{
+		{Kind: cutrule.Score, Value: rng.Float64()*1.2 - 0.1},
+		{Kind: cutrule.Score, Value: at.Score},
+		{Kind: cutrule.Top, Value: float64(1 + rng.IntN(at.Cases+1))},
+		{Kind: cutrule.Top, Value: float64(at.Cases)},
+		{Kind: cutrule.Top, Value: 1 + 99*rng.Float64(), Percent: true},
+		{Kind: cutrule.Hit, Value: rng.Float64()},
+		{Kind: cutrule.Base},
+		{Kind: cutrule.Queue, Value: rng.Float64() * a.Volume},
+		{Kind: cutrule.Cost},
+		{Kind: cutrule.Wrong, Value: rng.Float64()},
+		{Kind: cutrule.HitBound, Value: rng.Float64(), Level: 95},
+		{Kind: cutrule.WrongBound, Value: rng.Float64(), Level: 90},
+		{Kind: cutrule.HitBound, Value: 0.8, Level: 95},
+		{Kind: cutrule.WrongBound, Value: 0.333, Level: 95},
+	}
+	if r := at.Recall(); !math.IsNaN(r) {
+		rules = append(rules, cutrule.Rule{Kind: cutrule.Hit, Value: r})
+	}
+	if f := fig.FalseDiscoveryRate(); f >= 0 && f <= 1 {
+		rules = append(rules, cutrule.Rule{Kind: cutrule.Wrong, Value: f})
+	}
+	return rules
+}
+
+// checkBand compares the lazy replicate's band with the full one's at
+// every cut of the cells.
+func checkBand(t *testing.T, name string, lazy *lazyReplicate, cells, rep *scores.Set) {
+	t.Helper()
+	base := curve.New(cells)
+	var cuts []bandCut
+	for k := range base.Len() {
+		p := base.At(k)
+		cuts = append(cuts, bandCut{index: k, score: p.Score, rows: p.Rows})
+	}
+	recallAt, fdrAt := grid(len(cuts), 1), grid(len(cuts), 1)
+	lazy.band(cuts, 0, recallAt, fdrAt)
+	positives, _ := rep.Totals()
+	for j, cut := range cuts {
+		var tp, fp float64
+		for i := range rep.Len() {
+			if cells.Riskier(cut.score, rep.Scores()[i]) {
+				continue
+			}
+			if rep.Labels()[i] {
+				tp += rep.Weight(i)
+			} else {
+				fp += rep.Weight(i)
+			}
+		}
+		recall, fdr := tp/positives, fp/(tp+fp)
+		if !same(recall, recallAt[j][0]) || !same(fdr, fdrAt[j][0]) {
+			t.Errorf("%s band cut %d: lazily %v and %v, in full %v and %v", name, j, recallAt[j][0], fdrAt[j][0], recall, fdr)
+		}
+	}
+}
+
+// same reports whether a and b are equal, NaN equal to NaN.
+func same(a, b float64) bool { return a == b || (math.IsNaN(a) && math.IsNaN(b)) }
+
+// TestTreeKeepsClassSizes: within classes every replicate holds exactly
+// as many cases of each class as the table, and an ordinary replicate as
+// many cases in all, spread over the cells in about their shares.
+// Hand-built: true cases 3,000,000 at score 0.9 and 1,000,000 at 0.5;
+// false cases 2,000,000 at 0.5 and 4,000,000 at 0.1. 20 replicates each.
+func TestTreeKeepsClassSizes(t *testing.T) {
+	set, err := scores.NewCounts([]float64{0.9, 0.5, 0.5, 0.1}, []bool{true, true, false, false}, []float64{3e6, 1e6, 2e6, 4e6}, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, design := range []Design{WithinClass, Ordinary} {
+		r := newLazyReplicate(newCellTree(set, design, false))
+		drawn := make([]float64, set.Len())
+		for b := range uint64(20) {
+			r.draw(1, b)
+			r.fill(drawn)
+			var positives, all float64
+			for i, d := range drawn {
+				all += d
+				if set.Labels()[i] {
+					positives += d
+				}
+			}
+			if all != 10e6 || (design == WithinClass && positives != 4e6) {
+				t.Fatalf("%s replicate %d: %v cases, %v true, want 10e6 (and 4e6 true within classes)", design, b, all, positives)
+			}
+			for i, d := range drawn {
+				// about 10 standard errors of a share near one half among millions
+				if share, want := d/all, set.Weight(i)/10e6; math.Abs(share-want) > 0.002 {
+					t.Errorf("%s replicate %d cell %d: share %v, want about %v", design, b, i, share, want)
+				}
+			}
+		}
+	}
+}
+
+// TestCellMoments: each cell's drawn count, over replicates, has the
+// mean n·w/W and variance n·(w/W)·(1-w/W) of a multinomial draw of n
+// cases over cells of w of W cases (ordinary design, textbook formulas),
+// and a Poisson tree (weights not whole) the mean and variance w of a
+// Poisson draw. Seeded; 20 cells of 1 to 40 cases, 20000 replicates; the
+// sample mean within 5 standard errors, the variance within 10%.
+func TestCellMoments(t *testing.T) {
+	rng := rand.New(rand.NewPCG(3, 4))
+	var sc, counts []float64
+	var labels []bool
+	for i := range 20 {
+		sc, labels, counts = append(sc, float64(i)/20), append(labels, i%3 == 0), append(counts, float64(1+rng.IntN(40)))
+	}
+	for _, poissonCells := range []bool{false, true} {
+		var set *scores.Set
+		var err error
+		if poissonCells {
+			for i := range counts {
+				counts[i] += 0.5
+			}
+			set, err = scores.NewSet(scores.Columns{Scores: sc, Labels: labels, Weights: counts})
+		} else {
+			set, err = scores.NewCounts(sc, labels, counts, false)
+		}
+		if err != nil {
+			t.Fatal(err)
+		}
+		r := newLazyReplicate(newCellTree(set, Ordinary, poissonCells))
+		const replicates = 20000
+		sum, squares := make([]float64, set.Len()), make([]float64, set.Len())
+		drawn := make([]float64, set.Len())
+		for b := range uint64(replicates) {
+			r.draw(9, b)
+			r.fill(drawn)
+			for i, d := range drawn {
+				sum[i] += d
+				squares[i] += d * d
+			}
+		}
+		var all float64
+		for i := range set.Len() {
+			all += set.Weight(i)
+		}
+		for i := range set.Len() {
+			w := set.Weight(i)
+			wantMean, wantVariance := w, w*(1-w/all) // multinomial of all cases over the cells
+			if poissonCells {
+				wantVariance = w
+			}
+			mean := sum[i] / replicates
+			variance := squares[i]/replicates - mean*mean
+			if math.Abs(mean-wantMean) > 5*math.Sqrt(wantVariance/replicates) || math.Abs(variance-wantVariance) > 0.1*wantVariance {
+				t.Errorf("poisson %v cell %d of %v cases: mean %v variance %v, want %v and %v", poissonCells, i, w, mean, variance, wantMean, wantVariance)
+			}
+		}
+	}
+}
