@@ -278,3 +278,24 @@ func TestPlural(t *testing.T) {
 		}
 	}
 }
+
+// TestWrap: lines of at most the width at spaces, the indents, a word too
+// long standing alone, and empty text (worked by hand).
+func TestWrap(t *testing.T) {
+	cases := []struct {
+		text, first, rest string
+		width             int
+		want              string
+	}{
+		{"aa bb cc dd", "  ", "    ", 10, "  aa bb cc\n    dd\n"},
+		{"aa bb", "", "", 80, "aa bb\n"},
+		{"a verylongword b", "", " ", 5, "a\n verylongword\n b\n"},
+		{"  spaced   out  ", "- ", "  ", 20, "- spaced out\n"},
+		{"", "  ", "  ", 10, ""},
+	}
+	for _, c := range cases {
+		if got := Wrap(c.text, c.width, c.first, c.rest); got != c.want {
+			t.Errorf("Wrap(%q, %d) = %q, want %q", c.text, c.width, got, c.want)
+		}
+	}
+}

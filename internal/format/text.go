@@ -103,3 +103,27 @@ func MarkdownCells(cells []string) []string {
 	}
 	return out
 }
+
+// Wrap breaks text into lines of at most width runes at spaces, the
+// first line starting with first and every later one with rest (their
+// indents), each ending in a line break. A word longer than the room
+// left stands alone on its line. The text passes through Printable.
+func Wrap(text string, width int, first, rest string) string {
+	var b strings.Builder
+	line, indent := "", first
+	for _, word := range strings.Fields(Printable(text)) {
+		switch {
+		case line == "":
+			line = word
+		case len([]rune(indent+line+" "+word)) <= width:
+			line += " " + word
+		default:
+			b.WriteString(indent + line + "\n")
+			line, indent = word, rest
+		}
+	}
+	if line != "" {
+		b.WriteString(indent + line + "\n")
+	}
+	return b.String()
+}

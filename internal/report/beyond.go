@@ -27,7 +27,14 @@ type section struct {
 	title string
 	table table
 	notes []string
+	// text, when set, is the plain-text body written instead of table,
+	// and the notes are wrapped to textWidth: for sections laid out to
+	// fit a terminal of 80 columns (the segments). Markdown keeps table.
+	text string
 }
+
+// textWidth is the width the plain-text segments section fits.
+const textWidth = 80
 
 type segmentFigures struct {
 	Segment      string    `json:"segment"`
@@ -103,6 +110,7 @@ func (r *Report) addSegments(res *analysis.Result, order segment.Order, shown in
 		t := table{header: []string{"segment", "rows", "true cases", "flagged", "hit share", "interval", "wrong-alert share", "interval",
 			"hit gap", "interval", "adj. p", "wrong gap", "interval", "adj. p", "note"}, wordsLast: true}
 		hidden, hiddenOutside := 0, 0
+		var shownGroups []segment.Figures
 		for k, f := range b.Segments {
 			list = append(list, segmentFigures{
 				Segment: f.Segment, Rows: f.Rows, Positives: f.Positives, Flagged: f.Flagged,
@@ -120,6 +128,7 @@ func (r *Report) addSegments(res *analysis.Result, order segment.Order, shown in
 				}
 				continue
 			}
+			shownGroups = append(shownGroups, f)
 			mark := ""
 			if f.Outlier {
 				mark = "differs"
@@ -158,17 +167,64 @@ func (r *Report) addSegments(res *analysis.Result, order segment.Order, shown in
 			title: fmt.Sprintf("segments (%s) at %s, cut %s", set.SegmentColumn(), r.Cuts[i].Spec, format.Score(o.Point.Score)),
 			table: t,
 			notes: notes,
+			text:  segmentText(b, shownGroups),
 		})
 	}
+}
+
+// segmentText lays out the groups of b for plain text within textWidth
+// columns, where the table of every figure side by side would run past
+// it: a line naming each group (marked "differs" when flagged), a line of
+// its counts and base rates beside the rest's, then its hit share and its
+// wrong-alert share, each with its interval, its gap from the rest of the
+// set, the gap's interval and the adjusted p, aligned across groups under
+// one heading.
+func segmentText(b segment.Breakdown, groups []segment.Figures) string {
+	header := []string{"", "share", "interval", "gap", "interval", "adj. p"}
+	rows := make([][]string, 0, 2*len(groups))
+	for _, f := range groups {
+		rt, ft := f.RecallTest, f.FalseDiscoveryTest
+		rows = append(rows,
+			[]string{"  hit share", format.Share(f.Recall), format.Interval(f.RecallCI), format.Gap(rt.Gap), format.GapInterval(rt.GapCI), format.PValue(rt.AdjustedP)},
+			[]string{"  wrong-alert share", format.Share(f.FalseDiscoveryRate()), format.Interval(f.FalseDiscoveryCI()), format.Gap(ft.Gap), format.GapInterval(ft.GapCI), format.PValue(ft.AdjustedP)})
+	}
+	widths := make([]int, len(header))
+	for _, row := range append([][]string{header}, rows...) {
+		for i, cell := range row {
+			widths[i] = max(widths[i], format.CellWidth(cell))
+		}
+	}
+	var out strings.Builder
+	out.WriteString(format.GridRow(header, widths, false))
+	for k, f := range groups {
+		name := f.Segment
+		if f.Outlier {
+			name += " · differs"
+		}
+		out.WriteString(format.Printable(name) + "\n")
+		out.WriteString(format.Wrap(fmt.Sprintf("%s · %s · %s flagged · base rate %s (rest %s)", format.Plural(f.Rows, "row", "rows"),
+			amount(f.Positives, "true case", "true cases"), format.Share(f.FlaggedShare), format.Share(f.BaseRate()), format.Share(b.RestBaseRate(f))),
+			textWidth, "  ", "    "))
+		out.WriteString(format.GridRow(rows[2*k], widths, false))
+		out.WriteString(format.GridRow(rows[2*k+1], widths, false))
+	}
+	return out.String()
 }
 
 // writeSections writes the added sections as plain text.
 func (r *Report) writeSections(b *strings.Builder) {
 	for _, s := range r.sections {
 		fmt.Fprintf(b, "\n\n%s\n", s.title)
-		writeGrid(b, s.table)
+		if s.text == "" {
+			writeGrid(b, s.table)
+			for _, n := range s.notes {
+				b.WriteString("  " + n + "\n")
+			}
+			continue
+		}
+		b.WriteString(s.text)
 		for _, n := range s.notes {
-			b.WriteString("  " + n + "\n")
+			b.WriteString(format.Wrap(n, textWidth, "  ", "    "))
 		}
 	}
 }

@@ -105,11 +105,27 @@ func TestSegmentsInJSONAndText(t *testing.T) {
 	if !strings.Contains(text.String(), "segments (seg) at score=0.8, cut 0.8") {
 		t.Errorf("text lacks the segment section:\n%s", text.String())
 	}
+	// The text section fits 80 columns: each group on its own line, its
+	// counts and base rates (A: 2 true of 4, the rest 2 of 4) below, then
+	// its two figures with their gaps (A's hit share 50.0%, gap 0).
+	section := text.String()[strings.Index(text.String(), "segments (seg)"):]
+	section = section[:strings.Index(section, "\n\n")]
+	for _, want := range []string{"\nA\n  4 rows · 2 true cases · 50.0% flagged · base rate 50.0% (rest 50.0%)\n  hit share", "\nB\n"} {
+		if !strings.Contains(section, want) {
+			t.Errorf("segment section lacks %q:\n%s", want, section)
+		}
+	}
+	for _, line := range strings.Split(section, "\n") {
+		if n := len([]rune(line)); n > 80 {
+			t.Errorf("segment section line of %d columns, want at most 80: %q", n, line)
+		}
+	}
 	// Showing one segment names the other as not shown.
 	r2 := report.New(beyondResult(t, nil, "score=0.8"), report.Options{SegmentOrder: segment.ByName, SegmentsShown: 1})
 	text.Reset()
 	report.WriteText(&text, r2)
-	if !strings.Contains(text.String(), "1 more segment not shown (0 of them differ)") || strings.Contains(text.String(), "\nB ") {
+	folded := strings.Join(strings.Fields(text.String()), " ")
+	if !strings.Contains(folded, "1 more segment not shown (0 of them differ)") || !strings.Contains(text.String(), "\nA\n") || strings.Contains(text.String(), "\nB\n") {
 		t.Errorf("limited text:\n%s", text.String())
 	}
 	if segs := decode(t, r2)["cuts"].([]any)[0].(map[string]any)["segments"].([]any); len(segs) != 2 {
