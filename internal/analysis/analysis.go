@@ -489,10 +489,14 @@ func capacityOf(a projection.Assumptions) float64 {
 // NetBenefitAt returns the net benefit of flagging at p and that of
 // flagging every case, both at production's base rate and the threshold
 // probability of r.Calibration (Vickers and Elkin 2006; see
-// calibration.NetBenefit); NaN when the scores are not probabilities.
+// calibration.NetBenefit); NaN when the scores are not probabilities
+// or when no case of the set has any weight.
 func (r *Result) NetBenefitAt(p curve.Point) (cut, all float64) {
 	c := r.Calibration
-	if c == nil {
+	if positives, negatives := r.Set.Totals(); c == nil || !(positives+negatives > 0) {
+		// Without a case of weight the base rate is undefined (the 0
+		// assumed in its place must not read as flagging every case
+		// being worth 0).
 		return math.NaN(), math.NaN()
 	}
 	return calibration.NetBenefit(p, r.Assume.BaseRate, c.Threshold), calibration.NetBenefitAll(r.Assume.BaseRate, c.Threshold)

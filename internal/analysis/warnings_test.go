@@ -2,11 +2,13 @@ package analysis_test
 
 import (
 	"context"
+	"math"
 	"slices"
 	"strings"
 	"testing"
 
 	"github.com/sill-tool/sill/internal/analysis"
+	"github.com/sill-tool/sill/internal/cutrule"
 	"github.com/sill-tool/sill/internal/projection"
 	"github.com/sill-tool/sill/internal/scores"
 )
@@ -52,5 +54,43 @@ func TestWarnings(t *testing.T) {
 		if got := analysis.WarningWords(res.Warnings, "--lower-is-riskier"); !slices.Equal(got, tc.want) {
 			t.Errorf("%s: %q, want %q", tc.name, got, tc.want)
 		}
+	}
+}
+
+// TestWeightless: on a set whose rows all weigh 0 no rule but score= is
+// met (top=1 took the loosest cut, which flags nothing of weight), the
+// reason says why, nothing panics, and net benefit is undefined at the
+// cut score= picks and for flagging every case (not 0 at the base rate
+// of 0 put in place of the undefined one).
+func TestWeightless(t *testing.T) {
+	set, err := scores.New([]float64{0.9, 0.6, 0.1}, []bool{true, false, false}, []float64{0, 0, 0}, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var rules []cutrule.Rule
+	for _, spec := range []string{"top=1", "top=50%", "base", "hit=0.8", "wrong=0.333", "hit95=0.8", "score=0.5"} {
+		r, err := cutrule.Parse(spec)
+		if err != nil {
+			t.Fatal(err)
+		}
+		rules = append(rules, r)
+	}
+	res, err := analysis.Run(context.Background(), set, projection.Assumptions{BaseRate: 0, Confidence: 0.95}, analysis.Options{Rules: rules, CalibrationBins: 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, o := range res.Outcomes {
+		last := i == len(res.Outcomes)-1
+		switch {
+		case last && (!o.Met || o.Point.Score != 0.6):
+			t.Errorf("score=0.5: met %v at %v, want the cut at 0.6", o.Met, o.Point.Score)
+		case !last && (o.Met || !strings.Contains(o.Reason, "no case in the validation set has any weight")):
+			t.Errorf("%s: met %v, reason %q", o.Rule, o.Met, o.Reason)
+		}
+	}
+	if c := res.Calibration; c == nil {
+		t.Fatal("no calibration")
+	} else if nb, all := res.NetBenefitAt(res.Outcomes[len(rules)-1].Point); !math.IsNaN(nb) || !math.IsNaN(all) {
+		t.Errorf("net benefit %v, flagging every case %v, want NaN for both", nb, all)
 	}
 }
