@@ -80,8 +80,9 @@ type segmentTests struct {
 
 // segmentTestWords say how groups are tested, in the notes of every form.
 func segmentTestWords(b segment.Breakdown) string {
-	return fmt.Sprintf("gap: the group's figure less the rest of the set's, with its %s interval (Newcombe's hybrid score); adj. p: adjusted by Holm over the %s, so that with no real difference any flag at all comes in about %s of runs",
-		format.Level(b.Confidence), format.Plural(b.Tests, "test", "tests"), format.Level(1-b.Confidence))
+	return fmt.Sprintf("gap: the group's figure less the rest of the set's, with its %s interval (Newcombe's hybrid score), not adjusted: it leaves out 0 exactly when the unadjusted p is below %s; "+
+		"adj. p: adjusted by Holm over the %s, so that with no real difference any flag at all comes in about %s of runs (for cases drawn at random; less often where each group's true and false cases were counted out by design)",
+		format.Level(b.Confidence), format.PValue(1-b.Confidence), format.Plural(b.Tests, "test", "tests"), format.Level(1-b.Confidence))
 }
 
 // baseRateNote is the note beside a wrong-alert gap: shares of wrong
