@@ -54,6 +54,11 @@ func Load(r io.ReadSeeker, source string, opt Options) (*Set, error) {
 	return Read(r, source, opt)
 }
 
+// inputEnded is called by the block reader when it has read the last
+// byte of its (decompressed) input; a variable so that a benchmark can
+// time what is left after that.
+var inputEnded = func() {}
+
 // errDecline tells Load to read the input with Read instead.
 var errDecline = errors.New("scores: input left to the line reader")
 
@@ -68,6 +73,7 @@ const returnMemoryRows = 1 << 20
 // block is a run of whole lines and, once parsed, what they held.
 type block struct {
 	data []byte
+	seq  int // the block's place in the input, from 0
 	done chan struct{}
 
 	scores       []float64
@@ -86,6 +92,7 @@ type block struct {
 	outside      int              // rows whose score lies outside [0, 1]
 	outsideLines []int            // the first few of them, from 0 at the block's first line
 	event        *rowEvent        // the first error, or a reason to decline
+	starts       []int32          // where each bucket begins, once bucketed (see bucketBlock)
 }
 
 // rowEvent is something found at a line of a block; line counts from 0 at
@@ -130,15 +137,15 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 		p.mark = ','
 	}
 	// Input of unknown size (gzip) is read by one goroutine, which leaves
-	// the others time to spare: they sort each block as they parse it and
-	// the sorted blocks are merged as they arrive, so that the set is
-	// ranked soon after the last block instead of sorted from scratch.
-	// Weights stay out of it, because their total is checked in input
-	// order; the columns rankInPlace does not carry likewise.
+	// the others time to spare: they bucket each block as they parse it
+	// (see bucketBlock), so that after the last block only each bucket's
+	// own sort is left, on both cores, instead of the whole sort. Weights
+	// stay out of it, because their total is checked in input order; the
+	// columns rankInPlace does not carry likewise.
 	sink := &blockSink{b: b, p: p, size: size}
 	if size < 0 && b.weightCol < 0 && b.idCol < 0 && b.timeCol < 0 && b.compareCol < 0 {
-		p.rankBlocks = true
-		sink.merger = newRunMerger(opt.LowerIsRiskier)
+		p.digit = newBlockDigit()
+		sink.bucketed = true
 	}
 
 	blocks, readErr, stop := p.produce(in)
@@ -169,7 +176,6 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 			opt.Progress(rows)
 		}
 	}
-	ranked := sink.merged()
 	if failed != nil {
 		return nil, failed
 	}
@@ -182,20 +188,21 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 	if rows == 0 && b.dropped == 0 {
 		return nil, &ParseError{File: source, Err: ErrNoRows}
 	}
-	sink.fill(rows, ranked)
+	sink.fill(rows)
 	return b.finish(hex.EncodeToString(digest.Sum(nil)))
 }
 
 // blockSink takes each parsed block's rows as it arrives, in input order:
 // copied into place at once when the size of plain text tells how many
-// rows to make room for, handed to the merger when blocks are ranked as
-// they are read (see runMerger), or else kept until every block is in.
+// rows to make room for, kept bucketed when blocks are bucketed as they
+// are read (see bucketBlock), or else kept until every block is in.
 type blockSink struct {
-	b      *builder
-	p      *blockParser
-	size   int64      // bytes of plain text, -1 when unknown
-	merger *runMerger // nil unless blocks are ranked as read
-	parsed []*block   // blocks kept for the end
+	b        *builder
+	p        *blockParser
+	size     int64           // bytes of plain text, -1 when unknown
+	bucketed bool            // the blocks are bucketed as they are read
+	buckets  []bucketedBlock // the bucketed blocks kept for the end
+	parsed   []*block        // blocks kept for the end
 }
 
 func (s *blockSink) take(blk *block) {
@@ -213,34 +220,26 @@ func (s *blockSink) take(blk *block) {
 		default:
 		}
 		blk.scores, blk.labels, blk.weights, blk.segments, blk.ids, blk.times, blk.compare = nil, nil, nil, nil, nil, nil, nil
-	case s.merger != nil:
+	case s.bucketed:
 		if len(blk.scores) > 0 {
-			s.merger.add(run{keys: blk.scores, labels: blk.labels, segments: blk.segments})
+			s.buckets = append(s.buckets, bucketedBlock{bucketColumns{keys: blk.scores, labels: blk.labels, segments: blk.segments}, blk.starts})
 		}
-		blk.scores, blk.labels, blk.segments = nil, nil, nil
+		blk.scores, blk.labels, blk.segments, blk.starts = nil, nil, nil, nil
 	default:
 		s.parsed = append(s.parsed, blk)
 	}
 }
 
-// merged waits for the merger, when there is one, and returns its run;
-// it must be called once the blocks stop coming, whether or not reading
-// failed, so that the merger's goroutine ends.
-func (s *blockSink) merged() run {
-	if s.merger == nil {
-		return run{}
-	}
-	return s.merger.finish()
-}
-
-// fill leaves the builder's columns holding every row read: the merged
-// run, ranked already, or the blocks kept, appended in input order.
-func (s *blockSink) fill(rows int, ranked run) {
+// fill leaves the builder's columns holding every row read: the
+// bucketed blocks ranked, or the blocks kept, appended in input order.
+func (s *blockSink) fill(rows int) {
 	b := s.b
 	if rows == 0 {
 		return // with no rows the columns stay as Read leaves them
 	}
-	if s.merger != nil {
+	if s.bucketed {
+		ranked := rankBuckets(s.buckets, rows, s.p.digit, b.opt.LowerIsRiskier)
+		s.buckets = nil
 		b.scores, b.labels, b.segments = ranked.keys, ranked.labels, ranked.segments
 		b.ranked = true
 		return
@@ -373,9 +372,9 @@ type blockParser struct {
 	mark   byte              // the decimal mark, '.' or ','
 	fields int               // fields in the header
 	spare  chan blockColumns // parsed columns already copied into place, for reuse
-	// rankBlocks: sort each block's rows by rank as soon as it is parsed,
-	// leaving its scores as keys (see runMerger).
-	rankBlocks bool
+	// digit, when not nil, is what each block is bucketed on as soon as
+	// it is parsed, its scores left as keys (see bucketBlock).
+	digit *blockDigit
 }
 
 // blockColumns are the columns parsed from one block.
@@ -413,8 +412,8 @@ func (p *blockParser) produce(in io.Reader) (<-chan *block, *error, chan struct{
 			defer wg.Done()
 			for blk := range work {
 				p.parse(blk)
-				if p.rankBlocks && blk.event == nil {
-					rankColumns(blk.scores, blk.labels, nil, blk.segments, p.b.opt.LowerIsRiskier, 1, true)
+				if p.digit != nil {
+					p.bucketBlock(blk)
 				}
 				buf := blk.data[:cap(blk.data)]
 				blk.data = nil
@@ -430,6 +429,7 @@ func (p *blockParser) produce(in io.Reader) (<-chan *block, *error, chan struct{
 		defer close(ordered)
 		defer func() { close(work); wg.Wait() }()
 		var carry []byte
+		seq := 0
 		for {
 			var buf []byte
 			select {
@@ -444,6 +444,9 @@ func (p *blockParser) produce(in io.Reader) (<-chan *block, *error, chan struct{
 			m, err := fill(in, buf[n:])
 			buf = buf[:n+m]
 			end := err == io.EOF
+			if end {
+				inputEnded()
+			}
 			if err != nil && !end {
 				*readErr = err
 				return
@@ -463,7 +466,8 @@ func (p *blockParser) produce(in io.Reader) (<-chan *block, *error, chan struct{
 				carry = append(carry[:0], buf[cut+1:]...)
 			}
 			if len(data) > 0 {
-				blk := &block{data: data, done: make(chan struct{})}
+				blk := &block{data: data, seq: seq, done: make(chan struct{})}
+				seq++
 				select {
 				case ordered <- blk:
 				case <-stop:

@@ -2,12 +2,14 @@ package scores
 
 import (
 	"bytes"
+	"cmp"
 	"compress/gzip"
 	"fmt"
 	"io"
 	"math"
 	"math/rand/v2"
 	"reflect"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
@@ -408,47 +410,73 @@ func TestHeaderAcrossGzipFlush(t *testing.T) {
 	}
 }
 
-// TestGzipRankedWhileRead checks the gzip path, where each block is sorted
-// as it is parsed and the sorted blocks are merged as they arrive, against
-// Read: seeded tables with many ties across blocks (scores from a handful
-// of values, minus zero among them), with and without segments, either
-// direction, blocks small enough to make hundreds of runs, and the
-// two-goroutine merge reached at small sizes.
+// TestGzipRankedWhileRead checks the gzip path, where each block is
+// bucketed as it is parsed on a digit the first block fixes and the
+// buckets are sorted after the last block, against Read: seeded tables
+// with many ties across blocks (scores from a handful of values, minus
+// zero among them), with and without segments, either direction, blocks
+// small enough to make hundreds of them, and rows in three orders: shuffled;
+// rising and falling scores, so that the first block's range is narrow and
+// most later rows fall below or above its prefix; and with DropInvalid a
+// first block of nothing but dropped rows, which leaves the digit to the
+// keys' top bits. Half the trials rank every large bucket on its own
+// (bigBucketRows small).
 func TestGzipRankedWhileRead(t *testing.T) {
-	defer func(size, merge int) { blockSize, parallelMergeRows = size, merge }(blockSize, parallelMergeRows)
+	defer func(size, big int) { blockSize, bigBucketRows = size, big }(blockSize, bigBucketRows)
 	rng := rand.New(rand.NewPCG(14, 1))
-	values := []string{"0.5", "0.25", "-0", "0", "1", "0.125", "0.75", "1e-3", "0.3333"}
-	for trial := range 60 {
+	values := []string{"0.5", "0.25", "-0", "0", "1", "0.125", "0.75", "1e-3", "0.3333", "-2.5", "1e300"}
+	for trial := range 90 {
 		blockSize = []int{40, 300, 4096, 1 << 20}[trial%4]
-		parallelMergeRows = []int{1 << 18, 16}[trial%2]
+		bigBucketRows = []int{1 << 16, 8}[trial%2]
 		rows := []int{1, 2, 50, 2000, 20000}[rng.IntN(5)]
 		segmented := rng.IntN(2) == 0
+		order := trial % 3 // 0 shuffled, 1 rising, 2 falling
+		scores := make([]string, rows)
+		for i := range scores {
+			scores[i] = values[rng.IntN(len(values))]
+			if rng.IntN(3) == 0 {
+				scores[i] = strconv.FormatFloat(rng.Float64(), 'g', 3, 64)
+			}
+		}
+		if order > 0 {
+			slices.SortStableFunc(scores, func(a, b string) int {
+				x, _ := strconv.ParseFloat(a, 64)
+				y, _ := strconv.ParseFloat(b, 64)
+				if order == 2 {
+					x, y = y, x
+				}
+				return cmp.Compare(x, y)
+			})
+		}
+		opt := Options{LowerIsRiskier: rng.IntN(2) == 0, DropInvalid: rng.IntN(4) == 0}
 		var sb strings.Builder
 		sb.WriteString("score,label")
 		if segmented {
 			sb.WriteString(",yard")
+			opt.SegmentColumn = "yard"
 		}
 		sb.WriteString("\n")
-		for range rows {
-			score := values[rng.IntN(len(values))]
-			if rng.IntN(3) == 0 {
-				score = strconv.FormatFloat(rng.Float64(), 'g', 3, 64)
+		if opt.DropInvalid {
+			for range rng.IntN(100) {
+				if segmented {
+					sb.WriteString("none,1,north\n")
+				} else {
+					sb.WriteString("none,1\n")
+				}
 			}
+		}
+		for _, score := range scores {
 			fmt.Fprintf(&sb, "%s,%d", score, rng.IntN(2))
 			if segmented {
 				fmt.Fprintf(&sb, ",%s", []string{"north", "east", "south"}[rng.IntN(3)])
 			}
 			sb.WriteString("\n")
 		}
-		opt := Options{LowerIsRiskier: rng.IntN(2) == 0}
-		if segmented {
-			opt.SegmentColumn = "yard"
-		}
 		var z bytes.Buffer
 		w := gzip.NewWriter(&z)
 		w.Write([]byte(sb.String()))
 		w.Close()
-		name := fmt.Sprintf("trial %d (block %d, rows %d, segments %v)", trial, blockSize, rows, segmented)
+		name := fmt.Sprintf("trial %d (block %d, rows %d, order %d, segments %v, drop %v)", trial, blockSize, rows, order, segmented, opt.DropInvalid)
 		want, wantErr := Read(bytes.NewReader(z.Bytes()), "t.csv", opt)
 		got, gotErr := loadBlocks(bytes.NewReader(z.Bytes()), "t.csv", opt, -1)
 		if wantErr != nil || gotErr != nil {
@@ -461,30 +489,42 @@ func TestGzipRankedWhileRead(t *testing.T) {
 	}
 }
 
-// TestMergeRuns merges two sorted runs by hand: keys ascend, and on equal
-// keys the earlier run's rows (a) come first, here told apart by label
-// and segment. Worked out by hand.
-func TestMergeRuns(t *testing.T) {
-	defer func(merge int) { parallelMergeRows = merge }(parallelMergeRows)
-	k := func(bits ...uint64) []float64 {
-		out := make([]float64, len(bits))
-		for i, b := range bits {
-			out[i] = math.Float64frombits(b)
-		}
-		return out
+// TestBlockDigit fixes the digit from a first block's smallest and largest
+// keys and buckets keys by it, worked out by hand: keys 0x1230 and 0x2ff0
+// differ first at bit 13 (0x1230^0x2ff0 = 0x3dc0: 14 varying bits), so
+// the digit is bits 2 to 13 (shift 2) under the prefix key>>14 = 0.
+func TestBlockDigit(t *testing.T) {
+	d := newBlockDigit()
+	d.fix(0x1230, 0x2ff0, 2)
+	if d.shift != 2 || d.prefix != 0 {
+		t.Fatalf("shift %d prefix %#x, want 2 and 0", d.shift, d.prefix)
 	}
-	a := run{keys: k(1, 3, 3, 7), labels: []bool{true, true, true, true}, segments: []int32{0, 1, 2, 3}}
-	b := run{keys: k(0, 3, 7, 9), labels: []bool{false, false, false, false}, segments: []int32{10, 11, 12, 13}}
-	want := run{
-		keys:     k(0, 1, 3, 3, 3, 7, 7, 9),
-		labels:   []bool{false, true, true, true, false, true, false, false},
-		segments: []int32{10, 0, 1, 2, 11, 3, 12, 13},
+	cases := []struct {
+		key  uint64
+		want int
+	}{
+		{0x1230, 1 + 0x48c},                // 0x1230>>2 = 0x48c
+		{0x0001, 1 + 0},                    // under the same prefix, digit 0
+		{0x3fff, bucketCount},              // the largest digit, 0xfff
+		{0x4000, blockBuckets - 1},         // prefix 1: above
+		{math.MaxUint64, blockBuckets - 1}, // above
 	}
-	for _, threshold := range []int{1 << 18, 2} { // one goroutine, then the split
-		parallelMergeRows = threshold
-		got := mergeRuns(a, b, false, false)
-		if !reflect.DeepEqual(got, want) {
-			t.Errorf("merge at threshold %d: got %v %v %v, want %v %v %v", threshold, got.keys, got.labels, got.segments, want.keys, want.labels, want.segments)
+	for _, c := range cases {
+		if got := d.bucket(c.key); got != c.want {
+			t.Errorf("bucket(%#x) = %d, want %d", c.key, got, c.want)
 		}
+	}
+	// A prefix above zero puts smaller keys below.
+	d = newBlockDigit()
+	d.fix(0x5_0000, 0x5_0fff, 7) // 12 varying bits: shift 0, prefix 0x50
+	if d.shift != 0 || d.prefix != 0x50 || d.bucket(0x4_ffff) != 0 || d.bucket(0x5_0fff) != bucketCount || d.bucket(0x5_1000) != blockBuckets-1 {
+		t.Errorf("shift %d prefix %#x buckets %d %d %d, want 0, 0x50, 0, %d, %d", d.shift, d.prefix, d.bucket(0x4_ffff), d.bucket(0x5_0fff), d.bucket(0x5_1000), bucketCount, blockBuckets-1)
+	}
+	// A first block of no rows leaves the digit to the top bits: every
+	// key falls within it.
+	d = newBlockDigit()
+	d.fix(0, 0, 0)
+	if d.bucket(0) != 1 || d.bucket(math.MaxUint64) != bucketCount {
+		t.Errorf("empty first block: buckets %d and %d, want 1 and %d", d.bucket(0), d.bucket(math.MaxUint64), bucketCount)
 	}
 }

@@ -113,27 +113,19 @@ func rankInPlace(scores []float64, labels []bool, weights []float64, segments []
 	if len(scores) >= parallelSortRows && runtime.GOMAXPROCS(0) > 1 {
 		workers = 2
 	}
-	rankColumns(scores, labels, weights, segments, lowerIsRiskier, workers, false)
+	rankColumns(scores, labels, weights, segments, lowerIsRiskier, workers)
 }
 
 // rankColumns is rankInPlace on the given number of goroutines (1 or 2).
-// With keepKeys the scores slice is left holding the sorted keys (the bits
-// of riskKey as float64s) instead of the scores, for merging with other
-// sorted runs (see mergeRuns).
-func rankColumns(scores []float64, labels []bool, weights []float64, segments []int32, lowerIsRiskier bool, workers int, keepKeys bool) {
+func rankColumns(scores []float64, labels []bool, weights []float64, segments []int32, lowerIsRiskier bool, workers int) {
 	n := len(scores)
 	if n < 2 {
-		if keepKeys {
-			encodeKeys(scores, []int{0, n}, lowerIsRiskier)
-		}
 		return
 	}
 	parts := splitRange(n, workers)
 	low, high, sorted := encodeKeys(scores, parts, lowerIsRiskier)
 	if sorted || low == high {
-		if !keepKeys {
-			decodeKeys(scores, lowerIsRiskier)
-		}
+		decodeKeys(scores, lowerIsRiskier)
 		return
 	}
 	var wg sync.WaitGroup
@@ -225,10 +217,8 @@ func rankColumns(scores []float64, labels []bool, weights []float64, segments []
 					c.segments, scratch.segments = segs[lo:hi], segments[lo:hi]
 				}
 				sortInto(c, scratch, shift)
-				if !keepKeys {
-					for i, k := range scratch.keys {
-						scratch.keys[i] = scoreOfKey(math.Float64bits(k), lowerIsRiskier)
-					}
+				for i, k := range scratch.keys {
+					scratch.keys[i] = scoreOfKey(math.Float64bits(k), lowerIsRiskier)
 				}
 			}
 		}()

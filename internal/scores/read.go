@@ -214,7 +214,7 @@ type builder struct {
 	comma    bool        // numbers have a decimal comma (see useDecimalComma)
 	delim    rune        // the delimiter of delimited text
 	firstRow []byte      // the first data row of delimited text, for useDecimalComma
-	ranked   bool        // the columns are in rank order already (the block reader merged sorted blocks)
+	ranked   bool        // the columns are in rank order already (the block reader ranked bucketed blocks)
 }
 
 func (b *builder) readAll(in *bufio.Reader) error {
