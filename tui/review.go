@@ -172,7 +172,7 @@ func (r Review) table() compare.Table {
 	f := r.file
 	columns := make([]compare.Column, len(f.Candidates))
 	for i, c := range f.Candidates {
-		columns[i] = compare.Column{Name: c.Name, Rule: c.Rule, Cut: c.Cut, RuleNow: review.RuleNow(c), RecallRedraws: review.RecallRedraws(c)}
+		columns[i] = review.Column(c)
 	}
 	return compare.New(columns, r.chosen(), compare.Options{Assumptions: f.Assumptions, BaseRateChanged: f.BaseRateChanged(), LowerIsRiskier: f.Data.LowerIsRiskier})
 }

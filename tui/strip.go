@@ -212,11 +212,12 @@ func (s Strip) heading(i int, name string) string {
 // short of lines: the share of all cases first, the capacity reading last
 // of the figures. The bootstrap's redraws, asked for with b, outlast the
 // count of true cases found, which the hit share and the header's count
-// of true cases already give.
+// of true cases already give, and the least-cost cut's corrected cost,
+// which the review screen's candidate lines also give.
 // The headings that name the measured and the projected figures go last:
 // the labels below them still differ ("wrong-alert share (FDR)", measured;
 // "wrong-alert share", projected).
-var detailOrder = []string{"share of all cases", "interval", "true cases found", compare.RedrawsLabel, "against capacity", format.MeasuredHeading, format.ProjectedHeading}
+var detailOrder = []string{"share of all cases", "interval", "true cases found", strings.TrimSpace(compare.CorrectedRow), compare.RedrawsLabel, "against capacity", format.MeasuredHeading, format.ProjectedHeading}
 
 // scrollDrops are the detail rows a scrolling strip still lets go before
 // it scrolls: counts that the figure above them and the header give.

@@ -10,7 +10,7 @@ import (
 
 // candidatesTable is the page's table of candidates, the part that must
 // read the same whether the page comes from the data or from the file.
-var candidatesTable = regexp.MustCompile(`(?s)<table class="candidates">.*?</table>`)
+var candidatesTable = regexp.MustCompile(`(?s)<table class="candidates[^"]*">.*?</table>`)
 
 // TestPageFromFileAndFromData makes the sign-off page from a decision
 // file (review) and straight from the data (report) with the same cuts

@@ -46,7 +46,17 @@ type Column struct {
 	// pane does): shown beside the hit share it belongs to. nil: not
 	// resampled.
 	RecallRedraws *[2]float64
+	// CorrectedCostPerShift, when not nil, is the column's projected cost
+	// per shift corrected for the least-cost figure's optimism (the cost
+	// rule picks the cut on the cases its cost is counted on, so that cost
+	// is too low; analysis.CostOptimism): shown under the cost per shift
+	// with its difference from it. nil: no such estimate.
+	CorrectedCostPerShift *float64
 }
+
+// CorrectedRow is the label of the detail row of the least-cost cut's
+// cost per shift corrected for its optimism.
+const CorrectedRow = "  out of sample (est.)"
 
 // RuleNow is whether a column's rule picks its cut under the assumptions.
 type RuleNow struct {
@@ -228,6 +238,7 @@ func New(columns []Column, reference int, opt Options) Table {
 		if a.Costs != nil {
 			main("cost per shift", Lower, func(c evidence.Cut) float64 { return c.Projected.CostPerShift }, format.Money, format.MoneyDiff)
 			detail("  "+conf, func(c evidence.Cut) string { return format.MoneyInterval(c.ProjectedCI.CostPerShift) })
+			corrected(&t, columns)
 		}
 	}
 	return t
@@ -248,6 +259,28 @@ func redraws(t *Table, columns []Column) {
 		if c.RecallRedraws != nil {
 			any = true
 			cell = format.Interval(*c.RecallRedraws)
+		}
+		row.Cells = append(row.Cells, cell)
+		row.Values = append(row.Values, math.NaN())
+		row.Diffs = append(row.Diffs, "")
+		row.Deltas = append(row.Deltas, math.NaN())
+	}
+	if any {
+		t.Rows = append(t.Rows, row)
+	}
+}
+
+// corrected adds the detail row of each column's cost per shift
+// corrected for its optimism, with how much more it is ("55970 (+2600)");
+// "" for a column without one, and no row when no column has one.
+func corrected(t *Table, columns []Column) {
+	row := Row{Figure: CorrectedRow, Detail: true}
+	any := false
+	for _, c := range columns {
+		cell := ""
+		if v := c.CorrectedCostPerShift; v != nil {
+			any = true
+			cell = format.Money(*v) + " (" + format.MoneyDiff(*v, c.Cut.Projected.CostPerShift).Text + ")"
 		}
 		row.Cells = append(row.Cells, cell)
 		row.Values = append(row.Values, math.NaN())

@@ -347,3 +347,37 @@ func TestNewRedraws(t *testing.T) {
 	}
 	t.Error("no redraws row")
 }
+
+// TestNewCorrectedCost: the least-cost column's cost per shift corrected
+// for its optimism sits under the cost's interval, with how much more it
+// is; other columns are blank, and no column with one gives no row.
+func TestNewCorrectedCost(t *testing.T) {
+	c := sixRows(t, nil)
+	a := sixAssumptions
+	columns := []Column{{Name: "plain", Cut: evidence.Of(c.At(0), a)}, {Name: "least cost", Cut: evidence.Of(c.At(1), a)}}
+	// Cost per shift of the second column plus 2600, written by
+	// format.Money and format.MoneyDiff as the cost row writes them.
+	cost := columns[1].Cut.Projected.CostPerShift
+	corrected := cost + 2600
+	columns[1].CorrectedCostPerShift = &corrected
+	table := New(columns, 0, Options{Assumptions: a})
+	for i, r := range table.Rows {
+		if r.Figure != CorrectedRow {
+			continue
+		}
+		if strings.TrimSpace(table.Rows[i-2].Figure) != "cost per shift" {
+			t.Errorf("corrected row after %q, want after the cost per shift's interval", table.Rows[i-2].Figure)
+		}
+		if want := format.Money(corrected) + " (+2600)"; r.Cells[1] != want || r.Cells[0] != "" || !r.Detail {
+			t.Errorf("cells %q detail %v, want \"\" and %q", r.Cells, r.Detail, want)
+		}
+		columns[1].CorrectedCostPerShift = nil
+		for _, r := range New(columns, 0, Options{Assumptions: a}).Rows {
+			if r.Figure == CorrectedRow {
+				t.Error("a corrected row with no column corrected")
+			}
+		}
+		return
+	}
+	t.Errorf("no corrected row in %q", figures(table))
+}

@@ -67,6 +67,8 @@ type view struct {
 	Table      tableView
 	Given      string // what the projected intervals take as given (format.ProjectedGiven)
 	Words      []words
+	Promises   []words // what each rule promises, and the least-cost figure's optimism
+	NoPromise  string  // why Promises is empty
 	Workload   workloadView
 	Sections   []section
 	Assume     []fact
@@ -89,7 +91,16 @@ type figure struct {
 type tableView struct {
 	Header []cell
 	Rows   []rowView
+	// Unbroken keeps figures and intervals on one line ("51577–61899"):
+	// set when at most maxUnbroken candidates leave room for that on a
+	// printed page; wider tables let them wrap rather than run off it.
+	Unbroken bool
 }
+
+// maxUnbroken is the most candidates whose figures fit a printed A4 or
+// Letter page unbroken (seen in chromium's print to PDF: four fit, seven
+// run off the page).
+const maxUnbroken = 4
 
 type rowView struct {
 	Detail  bool
@@ -156,6 +167,7 @@ func newView(f *decision.File, opt Options) (*view, error) {
 	for _, c := range ordered(f) {
 		v.Words = append(v.Words, words{Name: c.Name, Chosen: c.Name == f.Chosen, Text: plainWords(c.Cut, f.Assumptions.Volume, format.Share)})
 	}
+	v.Promises, v.NoPromise = promises(f)
 	charts, missing, err := tradeOffCharts(f)
 	if err != nil {
 		return nil, err
@@ -169,6 +181,28 @@ func newView(f *decision.File, opt Options) (*view, error) {
 	v.SigningFor = signingFor(f, chosen, name)
 	v.NoSignOff = "No sign-off is recorded in this file."
 	return v, nil
+}
+
+// promises lists, chosen candidate first, what each candidate's rule
+// promises about production (decision.Candidate.Promise) and, for the
+// cost rule's candidate, how much its projected cost understates its own
+// cost (review.OptimismLine); with none, it says why.
+func promises(f *decision.File) (list []words, none string) {
+	for _, c := range ordered(f) {
+		name := c.Name
+		if c.Rule != "" && c.Rule != c.Name {
+			name += " (rule " + c.Rule + ")"
+		}
+		for _, text := range []string{c.Promise, review.OptimismLine(c)} {
+			if text != "" {
+				list = append(list, words{Name: name, Chosen: c.Name == f.Chosen, Text: text})
+			}
+		}
+	}
+	if len(list) == 0 {
+		none = "No candidate comes from a rule that promises a hit share or a wrong-alert share (hit=, wrong=, hitNN=, wrongNN=) or from the cost rule, so there is no promise to state: every figure above holds for this validation set, with the intervals shown."
+	}
+	return list, none
 }
 
 // signingFor says what a signature on paper is given for, so that a
@@ -295,14 +329,14 @@ func notes(f *decision.File) []fact {
 func tableOf(f *decision.File) tableView {
 	var columns []compare.Column
 	for _, c := range ordered(f) {
-		columns = append(columns, compare.Column{Name: c.Name, Rule: c.Rule, Cut: c.Cut, RuleNow: review.RuleNow(c), RecallRedraws: review.RecallRedraws(c)})
+		columns = append(columns, review.Column(c))
 	}
 	t := compare.New(columns, 0, compare.Options{Assumptions: f.Assumptions, BaseRateChanged: f.BaseRateChanged(), LowerIsRiskier: f.Data.LowerIsRiskier})
 	return render(t, "chosen")
 }
 
 func render(t compare.Table, referenceWord string) tableView {
-	var tv tableView
+	tv := tableView{Unbroken: len(t.Names) <= maxUnbroken}
 	tv.Header = []cell{{Text: "figure"}}
 	for c, name := range t.Names {
 		if c == t.Reference {

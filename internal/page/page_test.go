@@ -29,6 +29,10 @@ func TestWriteText(t *testing.T) {
 	if m := offPage.FindString(doc); m != "" {
 		t.Errorf("the page asks for something from elsewhere: %q", m)
 	}
+	// Three candidates keep their figures unbroken in print (maxUnbroken).
+	if !strings.Contains(doc, `<table class="candidates unbroken">`) {
+		t.Error("the table of three candidates does not keep its figures unbroken")
+	}
 	// Untrusted text is escaped: the note's markup and the name's & and <.
 	for _, raw := range []string{"<script>alert(1)", "A&B <late>", "east <dock>"} {
 		if strings.Contains(doc, raw) {

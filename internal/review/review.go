@@ -19,7 +19,7 @@ import (
 func table(f *decision.File) compare.Table {
 	var columns []compare.Column
 	for _, c := range f.Candidates {
-		column := compare.Column{Name: c.Name, Rule: c.Rule, Cut: c.Cut, RuleNow: RuleNow(c), RecallRedraws: RecallRedraws(c)}
+		column := Column(c)
 		if c.Name == f.Chosen {
 			columns = append([]compare.Column{column}, columns...)
 		} else {
@@ -31,6 +31,17 @@ func table(f *decision.File) compare.Table {
 		BaseRateChanged: f.BaseRateChanged(),
 		LowerIsRiskier:  f.Data.LowerIsRiskier,
 	})
+}
+
+// Column is c as a column of package compare, with what the file records
+// of its rule, its redraws and its corrected cost.
+func Column(c decision.Candidate) compare.Column {
+	column := compare.Column{Name: c.Name, Rule: c.Rule, Cut: c.Cut, RuleNow: RuleNow(c), RecallRedraws: RecallRedraws(c)}
+	if o := c.Optimism; o != nil && evidence.Defined(o.CorrectedPerShift) {
+		corrected := o.CorrectedPerShift
+		column.CorrectedCostPerShift = &corrected
+	}
+	return column
 }
 
 // RuleNow is what the file records of whether c's rule picks its cut
