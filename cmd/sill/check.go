@@ -260,8 +260,9 @@ func checkBaseline(cmd *cobra.Command, file *decision.File, filePath, baseline s
 // saved at path, again at the base rate baseRate: --reproject keeps every
 // candidate at its score with its name, rule and note, the chosen one, the
 // model, chosen_by, the note and the other assumptions as the file holds
-// them; the columns, segments, shift schedule and bootstrap the file was
-// made with are given again so that its figures are recomputed alike.
+// them; the columns, segments, shift schedule (with the layout the times
+// were read with) and bootstrap the file was made with are given again so
+// that its figures are recomputed alike.
 func redoLine(file *decision.File, path string, baseRate float64) string {
 	args := []string{"sill", "report", shellWord(file.Data.Path)}
 	if file.Data.ScoreColumn != "" && !isDefaultName(file.Data.ScoreColumn, scores.DefaultScoreColumns) {
@@ -287,6 +288,9 @@ func redoLine(file *decision.File, path string, baseRate float64) string {
 	}
 	if s := file.ShiftSchedule; s != nil && s.TimeColumn != "" {
 		args = append(args, "--time", shellWord(s.TimeColumn), "--shifts", shellWord(strings.Join(s.Starts, ",")), "--tz", shellWord(s.Zone))
+		if s.TimeLayout != "" {
+			args = append(args, "--time-layout", shellWord(s.TimeLayout))
+		}
 	}
 	if stability != nil {
 		args = append(args, "--bootstrap", strconv.Itoa(stability.Replicates), "--seed", strconv.FormatUint(stability.Seed, 10))

@@ -5,6 +5,7 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+	"time"
 
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/demo"
@@ -113,6 +114,69 @@ func TestCheckRedoLineKeepsTheDecision(t *testing.T) {
 	// The check now passes at the re-projected base rate.
 	if r := runSill(t, "", "check", cutPath, data); r.code != 0 {
 		t.Errorf("check after the redo: exit %d, %s", r.code, r.stdout)
+	}
+}
+
+// TestRedoLineKeepsTheTimeLayout: times written day first with dots
+// ("07.09.2026 14:56:02") need --time-layout; the decision file records
+// the layout (shift_schedule.time_layout), the line sill check offers
+// gives it again, and that line reads the data as the save did, into the
+// same shifts.
+func TestRedoLineKeepsTheTimeLayout(t *testing.T) {
+	dir := t.TempDir()
+	const layout = "02.01.2006 15:04:05"
+	var csv strings.Builder
+	for i, line := range strings.Split(strings.TrimSpace(string(demo.CSV(demo.DefaultRows, demo.DefaultSeed))), "\n") {
+		cells := strings.Split(line, ",")
+		if i > 0 {
+			when, err := time.Parse(time.RFC3339, cells[2])
+			if err != nil {
+				t.Fatalf("demo line %d: %v", i+1, err)
+			}
+			cells[2] = when.UTC().Format(layout)
+		}
+		csv.WriteString(strings.Join(cells, ",") + "\n")
+	}
+	data := writeFile(t, dir, "bearings dotted.csv", []byte(csv.String()))
+	cutPath := filepath.Join(dir, "cut.yaml")
+	save := []string{"report", data, "--cut", "base", "--cut", "hit=0.8", "--base-rate", "0.05", "--volume", "1500", "--capacity", "90",
+		"--time", "read_at", "--shifts", "06:00,14:00,22:00", "--tz", "UTC", "--time-layout", layout, "--save", cutPath}
+	if r := runSill(t, "", save...); r.code != 0 {
+		t.Fatalf("save: exit %d, %s", r.code, r.stderr)
+	}
+	before, err := decision.ReadFile(cutPath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if s := before.ShiftSchedule; s == nil || s.TimeLayout != layout {
+		t.Fatalf("shift schedule %+v, want the layout %q", s, layout)
+	}
+	check := runSill(t, "", "check", cutPath, data)
+	_, line, found := strings.Cut(check.stdout, "signed off again: ")
+	line, _, _ = strings.Cut(line, "\n")
+	if check.code != 3 || !found {
+		t.Fatalf("check: exit %d, want 3 with a line to run; %s %s", check.code, check.stderr, check.stdout)
+	}
+	if !strings.Contains(line, "--time-layout '"+layout+"'") {
+		t.Errorf("the line does not give the layout again: %s", line)
+	}
+	words := shellWords(t, line)
+	if r := runSill(t, "", words[1:]...); r.code != 0 {
+		t.Fatalf("%s: exit %d, %s", line, r.code, r.stderr)
+	}
+	after, err := decision.ReadFile(cutPath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if s := after.ShiftSchedule; s == nil || s.TimeLayout != layout {
+		t.Errorf("after the redo: shift schedule %+v, want the layout %q", s, layout)
+	}
+	for i, b := range before.Candidates {
+		a := after.Candidates[i]
+		// The queues move with the base rate; the shifts are the same.
+		if a.Shifts == nil || b.Shifts == nil || a.Shifts.Count != b.Shifts.Count {
+			t.Errorf("candidate %q: shifts %+v after, %+v before", a.Name, a.Shifts, b.Shifts)
+		}
 	}
 }
 

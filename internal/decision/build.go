@@ -110,7 +110,7 @@ func New(res *analysis.Result, picks []Pick, chosen string, rec Record) (*File, 
 	}
 	if res.Shifts != nil {
 		s := res.Shifts.Assigned.Schedule
-		f.ShiftSchedule = &ShiftSchedule{Zone: s.Location.String(), TimeColumn: set.TimeColumn()}
+		f.ShiftSchedule = &ShiftSchedule{Zone: s.Location.String(), TimeColumn: set.TimeColumn(), TimeLayout: set.TimeLayout()}
 		for _, m := range s.Starts {
 			f.ShiftSchedule.Starts = append(f.ShiftSchedule.Starts, clock(m))
 		}

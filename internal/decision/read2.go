@@ -38,8 +38,9 @@ func (r *reader) schedule(n *yaml.Node) *ShiftSchedule {
 		return nil
 	}
 	const path = "shift_schedule"
-	m := r.fields(n, path, []string{"starts", "zone"}, []string{"time_column"})
-	s := &ShiftSchedule{Zone: r.str(m["zone"], path+".zone"), TimeColumn: r.optionalStr(m["time_column"], path+".time_column")}
+	m := r.fields(n, path, []string{"starts", "zone"}, []string{"time_column", "time_layout"})
+	s := &ShiftSchedule{Zone: r.str(m["zone"], path+".zone"), TimeColumn: r.optionalStr(m["time_column"], path+".time_column"),
+		TimeLayout: r.optionalStr(m["time_layout"], path+".time_layout")}
 	for i, item := range r.list(m["starts"], path+".starts") {
 		p := fmt.Sprintf("%s.starts[%d]", path, i)
 		start := r.str(item, p)

@@ -56,6 +56,11 @@ type ShiftSchedule struct {
 	// TimeColumn is the data column the case times came from (key
 	// time_column).
 	TimeColumn string
+	// TimeLayout is the layout the case times were read with, in the
+	// form of Go's package time (key time_layout, absent when the times
+	// were in a form read without one), so that the data can be read
+	// again as it was.
+	TimeLayout string
 }
 
 // Calibration is the reliability table of scores that are probabilities

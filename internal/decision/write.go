@@ -293,7 +293,11 @@ func scheduleNode(s *ShiftSchedule) *yaml.Node {
 	for _, start := range s.Starts {
 		starts.Content = append(starts.Content, quoted(start))
 	}
-	return mapping("starts", starts, "zone", quoted(s.Zone), "time_column", optionalStr(s.TimeColumn))
+	n := mapping("starts", starts, "zone", quoted(s.Zone), "time_column", optionalStr(s.TimeColumn))
+	if s.TimeLayout != "" {
+		n.Content = append(n.Content, str("time_layout"), quoted(s.TimeLayout))
+	}
+	return n
 }
 
 func calibrationNode(c *Calibration) *yaml.Node {

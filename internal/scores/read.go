@@ -538,7 +538,7 @@ func (b *builder) finish(digest string) (*Set, error) {
 		s.idColumn = b.header[b.idCol]
 	}
 	if b.timeCol >= 0 {
-		s.timeColumn = b.header[b.timeCol]
+		s.timeColumn, s.timeLayout = b.header[b.timeCol], b.opt.TimeLayout
 	}
 	if b.compareCol >= 0 {
 		s.compareColumn = b.header[b.compareCol]

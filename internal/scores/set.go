@@ -49,6 +49,9 @@ type Set struct {
 	idColumn      string
 	timeColumn    string
 	compareColumn string
+	// timeLayout is the layout the case times were read with
+	// (Options.TimeLayout), "" for the forms read without one.
+	timeLayout string
 
 	dropped        int      // rows skipped by DropInvalid (cases for a counts table), and a counts table's cases with no score
 	droppedReasons []string // the first few reasons, for reporting
@@ -123,6 +126,11 @@ func (s *Set) IDColumn() string { return s.idColumn }
 
 // TimeColumn returns the name of the time column read; "" without one.
 func (s *Set) TimeColumn() string { return s.timeColumn }
+
+// TimeLayout returns the layout the case times were read with, in the form
+// of package time (Options.TimeLayout); "" without times or when they were
+// read in the forms read without a layout.
+func (s *Set) TimeLayout() string { return s.timeLayout }
 
 // CompareColumn returns the name of the second score column; "" without one.
 func (s *Set) CompareColumn() string { return s.compareColumn }
@@ -228,6 +236,7 @@ type Columns struct {
 	IDColumn      string
 	TimeColumn    string
 	CompareColumn string
+	TimeLayout    string // the layout Times were read with; "" for the forms read without one
 }
 
 // NewSet builds a ranked Set from c's columns, as New does from scores,
@@ -255,6 +264,7 @@ func NewSet(c Columns) (*Set, error) {
 	s.source, s.digest = c.Source, c.SHA256
 	s.scoreColumn, s.labelColumn, s.weightColumn, s.segmentColumn, s.idColumn, s.timeColumn, s.compareColumn =
 		c.ScoreColumn, c.LabelColumn, c.WeightColumn, c.SegmentColumn, c.IDColumn, c.TimeColumn, c.CompareColumn
+	s.timeLayout = c.TimeLayout
 	s.rank()
 	return s, nil
 }
@@ -272,6 +282,7 @@ func (s *Set) Columns() Columns {
 		Source:         s.source, SHA256: s.digest,
 		ScoreColumn: s.scoreColumn, LabelColumn: s.labelColumn, WeightColumn: s.weightColumn,
 		SegmentColumn: s.segmentColumn, IDColumn: s.idColumn, TimeColumn: s.timeColumn, CompareColumn: s.compareColumn,
+		TimeLayout: s.timeLayout,
 	}
 }
 
