@@ -5,6 +5,8 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"github.com/sill-tool/sill/internal/floatcmp"
 )
 
 // TestCheckBaseline: sill check --baseline judges batches in order against
@@ -70,5 +72,60 @@ func TestCheckBaseline(t *testing.T) {
 	// the single check says so and points to --baseline.
 	if r := runSill(t, "", "check", cutPath, same[0]); !strings.Contains(r.stdout, "--baseline FIRST_BATCH") {
 		t.Errorf("small validation set: no pointer to --baseline in\n%s", r.stdout)
+	}
+}
+
+// TestCheckBaselineSamplingWeights: batches whose every row weighs 10.
+// Read as frequency weights (--weight-kind frequency) each row is ten
+// cases and the alert rate rests on them all; read as sampling weights
+// each row is one case drawn, so the effective cases behind the alert
+// rate are about the rows: Korn and Graubard's size of a share whose
+// weights are all equal is the row count times (n-1)/n, the
+// with-replacement factor of package design (by hand: 500 rows give
+// 499), shown in the text's effective column and JSON effective_cases.
+func TestCheckBaselineSamplingWeights(t *testing.T) {
+	dir := t.TempDir()
+	validation := writeFile(t, dir, "validation.csv", bearingsCSV(1, 1000, 0.07, 0, true))
+	cutPath := filepath.Join(dir, "cut.yaml")
+	if r := runSill(t, "", "report", validation, "--cut", "hit=0.8", "--save", cutPath); r.code != 0 {
+		t.Fatalf("save: exit %d, %s", r.code, r.stderr)
+	}
+	weighted := func(name string, seed uint64) string {
+		lines := strings.Split(strings.TrimSpace(string(bearingsCSV(seed, 500, 0.07, 0, false))), "\n")
+		for i := range lines {
+			if i == 0 {
+				lines[i] += ",w"
+			} else {
+				lines[i] += ",10"
+			}
+		}
+		return writeFile(t, dir, name, []byte(strings.Join(lines, "\n")+"\n"))
+	}
+	baseline, batch := weighted("week-00.csv", 30), weighted("week-01.csv", 31)
+	for _, tc := range []struct {
+		kind           string
+		cases, trials  float64
+		effectiveShown bool
+	}{
+		{"frequency", 5000, 5000, false},
+		{"sampling", 5000, 499, true},
+	} {
+		r := runSill(t, "", "check", cutPath, "--weight", "w", "--weight-kind", tc.kind, "--baseline", baseline, batch, "--format", "json")
+		var out struct {
+			Baseline struct {
+				Cases     float64 `json:"cases"`
+				Effective float64 `json:"effective_cases"`
+			} `json:"baseline"`
+		}
+		if err := json.Unmarshal([]byte(r.stdout), &out); err != nil {
+			t.Fatalf("%s: exit %d, not JSON: %v\n%s%s", tc.kind, r.code, err, r.stdout, r.stderr)
+		}
+		if !floatcmp.Within(out.Baseline.Cases, tc.cases, 1e-9) || !floatcmp.Within(out.Baseline.Effective, tc.trials, 1e-9) {
+			t.Errorf("%s: cases %v, effective %v; want %v, %v", tc.kind, out.Baseline.Cases, out.Baseline.Effective, tc.cases, tc.trials)
+		}
+		text := runSill(t, "", "check", cutPath, "--weight", "w", "--weight-kind", tc.kind, "--baseline", baseline, batch).stdout
+		if strings.Contains(text, "effective") != tc.effectiveShown {
+			t.Errorf("%s: effective column shown %v, want %v\n%s", tc.kind, !tc.effectiveShown, tc.effectiveShown, text)
+		}
 	}
 }

@@ -56,13 +56,17 @@ drift.
 The tests are judged together at the 1% level by Holm's procedure: on
 sampling noise alone any finding comes about once in a hundred runs, for
 the verdict as a whole. --tolerance adds a practical margin on every share.
+Weights are read by their kind (--weight-kind, else the decision file's):
+under sampling weights every share, and the scores of each class, are
+tested at their effective sample sizes, not at the weighted counts.
 When the validation set is smaller than the new data, the check's power
 and false alarms rest mostly on the validation set, and the output says so.
 
 Against a production baseline: when the validation set is small beside the
 batches, --baseline FIRST_BATCH judges the batches given after the decision
 file, in order, against that first production batch instead: a two-sided
-CUSUM (Page 1954) of the alert rate at the chosen cut, on the angular scale.
+CUSUM (Page 1954) of the alert rate at the chosen cut, on the angular scale;
+under sampling weights each batch counts at its effective number of cases.
 Its decision interval is set by a seeded simulation that includes the
 baseline's own noise, so that on noise alone a false signal within the
 batches given comes about once in 100 runs; the output states it, and how
@@ -133,9 +137,7 @@ func newCheckCmd() *cobra.Command {
 				input.defaultKind = &kind
 			}
 			if baseline != "" {
-				return checkBaseline(cmd, file, args[0], baseline, args[1:], output, func(path string) (*scores.Set, error) {
-					return input.load(cmd.Context(), path, cmd.InOrStdin(), nil)
-				})
+				return checkBaseline(cmd, file, args[0], baseline, args[1:], output, input.kind(), batchLoader(cmd, &input))
 			}
 			set, err := input.load(cmd.Context(), args[1], cmd.InOrStdin(), nil)
 			if err != nil {
@@ -190,6 +192,22 @@ func newCheckCmd() *cobra.Command {
 	return cmd
 }
 
+// batchLoader reads the batches of check --baseline as input says,
+// warning about their weights once for them all: they share their
+// columns.
+func batchLoader(cmd *cobra.Command, input *inputFlags) func(string) (*scores.Set, error) {
+	warned := false
+	return func(path string) (*scores.Set, error) {
+		set, err := input.load(cmd.Context(), path, cmd.InOrStdin(), nil)
+		if !warned && input.weightWarning != "" {
+			input.warnWeights(cmd.ErrOrStderr())
+			warned = true
+		}
+		input.weightWarning = ""
+		return set, err
+	}
+}
+
 // checkArgs takes the decision file and the new scores, or with
 // --baseline the decision file and one or more batches.
 func checkArgs(cmd *cobra.Command, args []string) error {
@@ -204,8 +222,9 @@ func checkArgs(cmd *cobra.Command, args []string) error {
 
 // checkBaseline judges batches, in order, against the baseline batch at
 // the chosen cut of file (drift.JudgeBaseline) and writes the result;
-// exit status 1 when the rule signals.
-func checkBaseline(cmd *cobra.Command, file *decision.File, filePath, baseline string, batches []string, output string, load func(string) (*scores.Set, error)) error {
+// exit status 1 when the rule signals. kind is what the batches' weights
+// are (each batch's design follows from it, design.New).
+func checkBaseline(cmd *cobra.Command, file *decision.File, filePath, baseline string, batches []string, output string, kind design.Kind, load func(string) (*scores.Set, error)) error {
 	stdin := 0
 	for _, path := range append([]string{filePath, baseline}, batches...) {
 		if path == "-" {
@@ -223,7 +242,7 @@ func checkBaseline(cmd *cobra.Command, file *decision.File, filePath, baseline s
 		for _, w := range analysis.DroppedWarnings(set) {
 			fmt.Fprintf(cmd.ErrOrStderr(), "sill: warning: %s: %s\n", format.Printable(path), format.Printable(w))
 		}
-		return drift.Count(file, set, path)
+		return drift.Count(file, set, path, design.New(set, kind))
 	}
 	base, err := count(baseline)
 	if err != nil {

@@ -7,7 +7,9 @@ import (
 	"math/rand/v2"
 	"slices"
 
+	"github.com/sill-tool/sill/internal/curve"
 	"github.com/sill-tool/sill/internal/decision"
+	"github.com/sill-tool/sill/internal/design"
 	"github.com/sill-tool/sill/internal/scores"
 )
 
@@ -26,7 +28,12 @@ import (
 //	z_i = (A(x_i, n_i) − A(x_0, n_0)) / √(1/n_i + 1/n_0),
 //	A(x, n) = 2·asin √((x + 3/8)/(n + 3/4)),
 //
-// with x flagged of n cases (weights as frequency weights). Two sums accumulate them, S⁺_i = max(0, S⁺_{i−1} + z_i − k) for a
+// with x flagged of n cases. n is the batch's effective number of cases
+// (Batch.Trials): its weighted cases for frequency weights; under
+// sampling weights the effective size of Korn and Graubard (1998) of the
+// weighted alert rate (package design), and x the alert rate times n, so
+// that a batch of 1,000 rows weighted 10 counts as the rows it holds, not
+// as 10,000 cases. Two sums accumulate them, S⁺_i = max(0, S⁺_{i−1} + z_i − k) for a
 // rise and S⁻_i = max(0, S⁻_{i−1} − z_i − k) for a fall, with the
 // reference value k = ½ (tuned to a shift of one standard error, common
 // practice); the rule signals at the first batch where either exceeds the
@@ -70,6 +77,9 @@ type Batch struct {
 	Name    string
 	Cases   float64 // cases of weight
 	Flagged float64 // cases the chosen cut flags
+	// Trials is the effective number of cases behind the alert rate:
+	// Cases for frequency weights, less under sampling weights (Count).
+	Trials float64
 }
 
 // AlertRate is the batch's share flagged; NaN for an empty batch.
@@ -82,21 +92,37 @@ func (b Batch) AlertRate() float64 {
 
 // Count applies the chosen cut of f to set (the cut rule in the doc of
 // package scores, in the direction the file records) and returns the
-// batch's cases and flagged cases, weights read as frequency weights.
-func Count(f *decision.File, set *scores.Set, name string) (Batch, error) {
+// batch's weighted cases and flagged cases, with the effective cases
+// behind its alert rate under sample's design (nil: frequency weights,
+// the weighted cases themselves; see the package's baseline doc).
+func Count(f *decision.File, set *scores.Set, name string, sample *design.Sample) (Batch, error) {
 	chosen, ok := f.ChosenCandidate()
 	if !ok {
 		return Batch{}, fmt.Errorf("%w (%q)", ErrNoCandidate, f.Chosen)
 	}
 	b := Batch{Name: name}
+	var p curve.Point // every case read as a false one: the alert rate mixes the classes alike
 	for i, s := range set.Scores() {
 		w := set.Weight(i)
 		b.Cases += w
 		if s >= chosen.Cut.Score && !f.Data.LowerIsRiskier || s <= chosen.Cut.Score && f.Data.LowerIsRiskier {
 			b.Flagged += w
+			p.FP, p.Squares[1] = p.FP+w, p.Squares[1]+w*w
+		} else {
+			p.TN, p.Squares[3] = p.TN+w, p.Squares[3]+w*w
 		}
 	}
+	_, b.Trials = sample.Interval(design.FlaggedShare, p, 0.95) // the level does not change the trials
 	return b, nil
+}
+
+// scaled returns the batch's flagged cases and cases at its effective
+// size.
+func (b Batch) scaled() (flagged, cases float64) {
+	if b.Trials == b.Cases || !(b.Cases > 0) {
+		return b.Flagged, b.Cases
+	}
+	return b.Flagged / b.Cases * b.Trials, b.Trials
 }
 
 // BatchStep is one batch's reading in the sequence.
@@ -145,32 +171,32 @@ func (s *Sequence) Status() string {
 // (Z NaN). It returns ErrBaselineEmpty when the baseline has no weight,
 // and an error when no batch is given.
 func JudgeBaseline(baseline Batch, batches []Batch) (*Sequence, error) {
-	if !(baseline.Cases > 0) {
+	if !(baseline.Cases > 0) || !(baseline.Trials > 0) {
 		return nil, ErrBaselineEmpty
 	}
 	if len(batches) == 0 {
 		return nil, errors.New("no batch to judge against the baseline")
 	}
 	sizes := sizesOf(batches)
-	s := judge(baseline, batches, threshold(baseline.Cases, sizes, BaselineReference, BaselineLevel, BaselineReplicates, BaselineSeed))
+	s := judge(baseline, batches, threshold(baseline.Trials, sizes, BaselineReference, BaselineLevel, BaselineReplicates, BaselineSeed))
 	// Detection of a rise by Shift of the baseline's rate from the first
 	// batch on, in standard errors of each batch.
 	p0 := math.Min(baseline.AlertRate(), 1/(1+s.Shift))
 	moved := 2 * (math.Asin(math.Sqrt(p0*(1+s.Shift))) - math.Asin(math.Sqrt(p0)))
 	shifts := make([]float64, len(sizes))
 	for i, n := range sizes {
-		shifts[i] = moved / math.Sqrt(1/n+1/baseline.Cases)
+		shifts[i] = moved / math.Sqrt(1/n+1/baseline.Trials)
 	}
-	s.Detected, s.MeanDelay = detection(baseline.Cases, sizes, shifts, s.Reference, s.Threshold, s.Replicates, s.Seed+1)
+	s.Detected, s.MeanDelay = detection(baseline.Trials, sizes, shifts, s.Reference, s.Threshold, s.Replicates, s.Seed+1)
 	return s, nil
 }
 
-// sizesOf lists the cases of the batches of weight.
+// sizesOf lists the effective cases of the batches of weight.
 func sizesOf(batches []Batch) []float64 {
 	sizes := make([]float64, 0, len(batches))
 	for _, b := range batches {
-		if b.Cases > 0 {
-			sizes = append(sizes, b.Cases)
+		if b.Cases > 0 && b.Trials > 0 {
+			sizes = append(sizes, b.Trials)
 		}
 	}
 	return sizes
@@ -184,8 +210,10 @@ func judge(baseline Batch, batches []Batch, h float64) *Sequence {
 	var up, down float64
 	for _, b := range batches {
 		step := BatchStep{Batch: b, Z: math.NaN(), AfterAlarm: s.Signal >= 0}
-		if b.Cases > 0 {
-			step.Z = (angle(b.Flagged, b.Cases) - angle(baseline.Flagged, baseline.Cases)) / math.Sqrt(1/b.Cases+1/baseline.Cases)
+		if b.Cases > 0 && b.Trials > 0 {
+			x, n := b.scaled()
+			x0, n0 := baseline.scaled()
+			step.Z = (angle(x, n) - angle(x0, n0)) / math.Sqrt(1/n+1/n0)
 			up = math.Max(0, up+step.Z-s.Reference)
 			down = math.Max(0, down-step.Z-s.Reference)
 		}

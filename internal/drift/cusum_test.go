@@ -1,10 +1,12 @@
 package drift
 
 import (
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"testing"
 
+	"github.com/sill-tool/sill/internal/design"
 	"github.com/sill-tool/sill/internal/floatcmp"
 )
 
@@ -17,8 +19,8 @@ import (
 // −0.146798/√0.003 = −2.6801, S⁺ = max(0, 2.8906 − 3.1801) = 0, S⁻ =
 // 2.1801.
 func TestJudgeBaselineHandWorked(t *testing.T) {
-	base := Batch{Name: "b0", Cases: 1000, Flagged: 100}
-	batches := []Batch{{"b1", 1000, 100}, {"b2", 1000, 150}, {"b3", 500, 30}}
+	base := Batch{Name: "b0", Cases: 1000, Flagged: 100, Trials: 1000}
+	batches := []Batch{{"b1", 1000, 100, 1000}, {"b2", 1000, 150, 1000}, {"b3", 500, 30, 500}}
 	tests := []struct {
 		name   string
 		h      float64
@@ -49,7 +51,7 @@ func TestJudgeBaselineHandWorked(t *testing.T) {
 
 // draw is a batch of n Bernoulli cases flagged with probability p.
 func draw(rng *rand.Rand, n int, p float64) Batch {
-	b := Batch{Cases: float64(n)}
+	b := Batch{Cases: float64(n), Trials: float64(n)}
 	for range n {
 		if rng.Float64() < p {
 			b.Flagged++
@@ -148,5 +150,82 @@ func TestBaselineDetectsShift(t *testing.T) {
 	t.Logf("found in %.1f%% of runs at batch %.2f on average; stated %.1f%% at %.2f", 100*share, mean, 100*stated.Detected, stated.MeanDelay)
 	if share < 0.85 || math.Abs(share-stated.Detected) > 0.05 || math.Abs(mean-stated.MeanDelay) > 0.5 {
 		t.Errorf("found in %.1f%% of runs at batch %.2f, want at least 85%% and near the stated %.1f%% at %.2f", 100*share, mean, 100*stated.Detected, stated.MeanDelay)
+	}
+}
+
+// TestBaselineWeightedFalseAlarms: the baseline check's false-signal
+// chance under batches that carry sampling weights. Seeded simulation:
+// a decision from an unweighted bearings set (6,000 cases, base rate 7%,
+// the hit=0.8 cut); per run a baseline and 6 batches, each 5,000 bearings
+// cases of the same process thinned like the batches of
+// TestVerdictWeightedBatchFalseAlarmRate (false cases kept 1 in 10 and
+// weighted 10, about 815 rows; or scores below 0.05 kept 1 in 5 and
+// weighted 5, about 2,700 rows), counted by Count under the design of
+// their weights (design.New, sampling) and judged against the decision
+// interval JudgeBaseline sets on the first run (the thinned sizes vary a
+// little between runs, h with them). 600 runs a case in CI, asserted
+// 0–2.5% (the stated 1%; the binomial spread of 600 runs at 1% is 0.41
+// points); with -drift-long 6,000 runs, asserted 0.3–2.0%. Read as
+// frequency weights, the batches thinned by class must signal in over 5%
+// of runs, so the simulation tells the readings apart; thinned by score
+// the flagged cases all weigh 1 and the two readings differ less.
+//
+// Measured on 2026-12-02 (seeds from 31000), false signals under
+// sampling weights (read as frequency weights): 600 runs, thinned by
+// class 1.67% (37.00%), by score 0.67% (2.33%); 6,000 runs 0.97%
+// (37.67%) and 0.88% (3.12%).
+func TestBaselineWeightedFalseAlarms(t *testing.T) {
+	runs, low, high := 600, 0.0, 0.025
+	if *longSimulations {
+		runs, low, high = 6000, 0.003, 0.02
+	}
+	file := quickFile(t, bearingSet(t, 30999, 6000, 0.07, 0), 0)
+	for _, tc := range []struct {
+		name          string
+		byScore       bool
+		leastFrequent float64
+	}{{"false cases kept 1 in 10", false, 0.05}, {"low scores kept 1 in 5", true, 0}} {
+		t.Run(tc.name, func(t *testing.T) {
+			signals := map[design.Kind]int{}
+			h := map[design.Kind]float64{}
+			for r := range runs {
+				seed := 31000 + uint64(7*r)
+				batches := map[design.Kind][]Batch{}
+				for i := range 7 {
+					sc, labels := bearings(seed+uint64(i), 5000, 0.07, 0)
+					set := keepOneIn(t, seed+uint64(i), sc, labels, 10, false)
+					if tc.byScore {
+						set = byScore(t, seed+uint64(i), sc, labels, 0.05, 5, false)
+					}
+					for _, kind := range []design.Kind{design.Sampling, design.Frequency} {
+						b, err := Count(file, set, fmt.Sprint("batch ", i), design.New(set, kind))
+						if err != nil {
+							t.Fatal(err)
+						}
+						batches[kind] = append(batches[kind], b)
+					}
+				}
+				for kind, bs := range batches {
+					if r == 0 {
+						s, err := JudgeBaseline(bs[0], bs[1:])
+						if err != nil {
+							t.Fatal(err)
+						}
+						h[kind] = s.Threshold
+					}
+					if judge(bs[0], bs[1:], h[kind]).Signal >= 0 {
+						signals[kind]++
+					}
+				}
+			}
+			rate, frequency := float64(signals[design.Sampling])/float64(runs), float64(signals[design.Frequency])/float64(runs)
+			t.Logf("%d runs: false signals %.2f%% under sampling weights (h %.3f), %.2f%% read as frequency weights (h %.3f)", runs, 100*rate, h[design.Sampling], 100*frequency, h[design.Frequency])
+			if rate < low || rate > high {
+				t.Errorf("false signals in %.2f%% of runs under sampling weights, want %.1f–%.1f%%", 100*rate, 100*low, 100*high)
+			}
+			if frequency < tc.leastFrequent {
+				t.Errorf("the frequency reading signalled in %.2f%% of runs, want at least %.0f%% (else the simulation does not tell the readings apart)", 100*frequency, 100*tc.leastFrequent)
+			}
+		})
 	}
 }

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"slices"
 	"strings"
 
 	"github.com/sill-tool/sill/internal/evidence"
@@ -53,10 +54,14 @@ func WriteBaselineText(w io.Writer, s *Sequence, chosen string, cut float64, low
 	sign := format.CutSign(lowerIsRiskier)
 	fmt.Fprintf(&b, "Check of %d batches against the baseline %s, with %s\n", len(s.Steps), s.Baseline.Name, decisionFile)
 	fmt.Fprintf(&b, "chosen cut   %s: flag when score %s %s\n", chosen, sign, format.Score(cut))
-	fmt.Fprintf(&b, "baseline     %s: %s cases, %s flagged (%s)\n", s.Baseline.Name, format.Count(s.Baseline.Cases), format.Count(s.Baseline.Flagged), format.Share(s.Baseline.AlertRate()))
+	fmt.Fprintf(&b, "baseline     %s: %s cases, %s flagged (%s)%s\n", s.Baseline.Name, format.Count(s.Baseline.Cases), format.Count(s.Baseline.Flagged), format.Share(s.Baseline.AlertRate()), effectiveNote(s.Baseline))
 	fmt.Fprintf(&b, "rule         %s\n", s.ruleLine())
 	fmt.Fprintf(&b, "detection    %s\n\n", s.detectionLine())
 	header := []string{"batch", "cases", "flagged", "alert rate", "vs baseline", "z", "rise sum", "fall sum", "state"}
+	effective := s.sampled()
+	if effective {
+		header = slices.Insert(header, 2, "effective")
+	}
 	var rows [][]string
 	for _, st := range s.Steps {
 		state := "ok"
@@ -68,10 +73,17 @@ func WriteBaselineText(w io.Writer, s *Sequence, chosen string, cut float64, low
 		case st.AfterAlarm:
 			state = "after the signal"
 		}
-		rows = append(rows, []string{st.Name, format.Count(st.Cases), format.Count(st.Flagged), format.Share(st.AlertRate()),
-			format.ShareDiff(st.AlertRate(), s.Baseline.AlertRate()).Text, format.Number(st.Z, 2), format.Number(st.Up, 2), format.Number(st.Down, 2), state})
+		row := []string{st.Name, format.Count(st.Cases), format.Count(st.Flagged), format.Share(st.AlertRate()),
+			format.ShareDiff(st.AlertRate(), s.Baseline.AlertRate()).Text, format.Number(st.Z, 2), format.Number(st.Up, 2), format.Number(st.Down, 2), state}
+		if effective {
+			row = slices.Insert(row, 2, format.Count(st.Trials))
+		}
+		rows = append(rows, row)
 	}
 	b.WriteString(format.Grid(header, rows, true))
+	if effective {
+		b.WriteString("\nunder sampling weights each alert rate is judged at its effective number of cases (Korn and Graubard 1998), not its weighted cases\n")
+	}
 	status, next := s.verdictLine()
 	fmt.Fprintf(&b, "\nstatus: %s\nnext step: %s\n", status, next)
 	b.WriteString("\ncaution: " + evidence.Caution + "\n")
@@ -84,6 +96,7 @@ func WriteBaselineJSON(w io.Writer, s *Sequence, chosen string, cut float64, dec
 	type batchJSON struct {
 		Name      string `json:"name"`
 		Cases     number `json:"cases"`
+		Effective number `json:"effective_cases"`
 		Flagged   number `json:"flagged"`
 		AlertRate number `json:"alert_rate"`
 		Z         number `json:"z"`
@@ -113,12 +126,12 @@ func WriteBaselineJSON(w io.Writer, s *Sequence, chosen string, cut float64, dec
 		} `json:"detection"`
 		Caution string `json:"caution"`
 	}{Status: s.Status(), DecisionFile: decisionFile, Chosen: chosen, Cut: number(cut),
-		Baseline: batchJSON{Name: s.Baseline.Name, Cases: number(s.Baseline.Cases), Flagged: number(s.Baseline.Flagged), AlertRate: number(s.Baseline.AlertRate()),
+		Baseline: batchJSON{Name: s.Baseline.Name, Cases: number(s.Baseline.Cases), Effective: number(s.Baseline.Trials), Flagged: number(s.Baseline.Flagged), AlertRate: number(s.Baseline.AlertRate()),
 			Z: number(math.NaN()), Rise: number(math.NaN()), Fall: number(math.NaN())},
 		Method: "two-sided CUSUM of the alert rate on the angular scale (Page 1954); h by simulation", Reference: number(s.Reference), Threshold: number(s.Threshold),
 		Level: number(s.Level), Replicates: s.Replicates, Seed: s.Seed, Caution: evidence.Caution}
 	for _, st := range s.Steps {
-		out.Batches = append(out.Batches, batchJSON{Name: st.Name, Cases: number(st.Cases), Flagged: number(st.Flagged), AlertRate: number(st.AlertRate()),
+		out.Batches = append(out.Batches, batchJSON{Name: st.Name, Cases: number(st.Cases), Effective: number(st.Trials), Flagged: number(st.Flagged), AlertRate: number(st.AlertRate()),
 			Z: number(st.Z), Rise: number(st.Up), Fall: number(st.Down), Signalled: st.Signalled})
 	}
 	if s.Signal >= 0 {
@@ -132,4 +145,27 @@ func WriteBaselineJSON(w io.Writer, s *Sequence, chosen string, cut float64, dec
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", "  ")
 	return enc.Encode(out)
+}
+
+// sampled reports whether any batch, the baseline's included, counts
+// fewer effective cases than weighted ones (sampling weights).
+func (s *Sequence) sampled() bool {
+	if s.Baseline.Trials != s.Baseline.Cases {
+		return true
+	}
+	for _, st := range s.Steps {
+		if st.Trials != st.Cases {
+			return true
+		}
+	}
+	return false
+}
+
+// effectiveNote gives a batch's effective cases where they differ from
+// its weighted ones; "" otherwise.
+func effectiveNote(b Batch) string {
+	if b.Trials == b.Cases {
+		return ""
+	}
+	return fmt.Sprintf(", %s effective cases", format.Count(b.Trials))
 }

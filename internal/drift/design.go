@@ -10,7 +10,9 @@ import "math"
 //
 // where b_j is bin j's weighted share, W the total weight, s_j the bin's
 // sum of squared weights and S their total; for weights of 1 it is the
-// multinomial b_j (1 − b_j) / n. A single scale for the whole histogram
+// multinomial b_j (1 − b_j) / n (package design multiplies its
+// variances by n/(n−1) for n rows as well; left out here, where n runs to
+// thousands). A single scale for the whole histogram
 // (such as the effective size of the alert rate) cannot stand for weights
 // that differ between bins (cases sampled by score), where it overstated
 // the rows behind the thinned bins and alarmed on noise.
