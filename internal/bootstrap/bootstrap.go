@@ -340,30 +340,31 @@ type bandCut struct {
 	rows  int // rows flagged at the cut in the set
 }
 
-// bandCuts picks up to k cuts spread evenly over the ranked rows.
+// bandCuts picks up to k cuts spread evenly over the ranked rows: the
+// cut (tie group) holding the row of each k-th share of the cases (a
+// counts table's rows stand for several), each cut once. It walks the
+// scores once and keeps no curve.
 func bandCuts(set *scores.Set, k int) []bandCut {
-	n := set.Len()
-	if k <= 0 || n == 0 {
+	n, cases := set.Len(), set.Cases()
+	if k <= 0 || n == 0 || cases == 0 {
 		return nil
 	}
-	c := curve.New(set)
+	sc := set.Scores()
 	var out []bandCut
-	last := -1
-	// The cuts are spread over the cases (a counts table's rows stand for
-	// several).
-	cases := set.Cases()
-	if cases == 0 {
-		return nil
-	}
+	cut, end := -1, 0 // the cut whose tie group ends before row end
 	for j := 1; j <= k; j++ {
 		row := set.RowOfCase(max(int(math.Ceil(float64(j)*float64(cases)/float64(k)))-1, 0))
-		cut := c.CutOfRow(row)
-		if cut == last {
+		for end <= row {
+			start := end
+			for end < n && sc[end] == sc[start] {
+				end++
+			}
+			cut++
+		}
+		if len(out) > 0 && out[len(out)-1].index == cut {
 			continue
 		}
-		last = cut
-		p := c.At(cut)
-		out = append(out, bandCut{index: cut, score: p.Score, rows: p.Rows})
+		out = append(out, bandCut{index: cut, score: sc[end-1], rows: end})
 	}
 	return out
 }

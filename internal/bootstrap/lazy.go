@@ -45,9 +45,10 @@ func (c *classCells) cellCount() int { return len(c.before) - 1 }
 // newCellTree returns the tree of cells, a counts table or the weighted
 // cells of cellsOf, in ranked order.
 func newCellTree(cells *scores.Set, design Design, poisson bool) *cellTree {
-	t := &cellTree{cells: cells, design: design, poisson: poisson}
+	t := &cellTree{cells: cells, design: design, poisson: poisson, cutScore: make([]float64, 0, cells.Len())}
 	for c := range t.classes {
-		t.classes[c].before = []float64{0}
+		t.classes[c].before = append(make([]float64, 0, cells.Len()+1), 0)
+		t.cutCells[c] = make([]int32, 0, cells.Len())
 	}
 	sc, labels := cells.Scores(), cells.Labels()
 	for i := range cells.Len() {
@@ -212,6 +213,9 @@ func (r *lazyReplicate) At(i int) curve.Point {
 // At) with as many cases drawn as at i: the cut of the replicate drawn in
 // full (which has no cut where no case was drawn) with i's figures.
 func (r *lazyReplicate) drawnCut(p curve.Point) curve.Point {
+	if p.Index == 0 || r.casesAt(r.first+p.Index-1) < p.Cases {
+		return p // a case was drawn at p's own score
+	}
 	j := sort.Search(p.Index, func(j int) bool { return r.casesAt(r.first+j) >= p.Cases })
 	if j == p.Index {
 		return p

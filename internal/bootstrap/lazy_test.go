@@ -280,3 +280,58 @@ func TestCellMoments(t *testing.T) {
 		}
 	}
 }
+
+// TestBandCuts: bandCuts, which walks the scores, picks the cuts that
+// the set's curve gives for the same rows (bandCutsOfCurve, the earlier
+// way): seeded random sets of rows with ties, with weights and as counts
+// tables, both directions, 1 to 200 band cuts.
+func TestBandCuts(t *testing.T) {
+	rng := rand.New(rand.NewPCG(8, 9))
+	for trial := range 300 {
+		n := 1 + rng.IntN(300)
+		sc, labels, weights := make([]float64, n), make([]bool, n), make([]float64, n)
+		for i := range n {
+			sc[i], labels[i], weights[i] = float64(rng.IntN(1+rng.IntN(100))), rng.IntN(2) == 0, float64(1+rng.IntN(4))
+		}
+		var set *scores.Set
+		var err error
+		switch trial % 3 {
+		case 0:
+			set, err = scores.New(sc, labels, nil, trial%2 == 1)
+		case 1:
+			set, err = scores.New(sc, labels, weights, trial%2 == 1)
+		default:
+			set, err = scores.NewCounts(sc, labels, weights, trial%2 == 1)
+		}
+		if err != nil {
+			t.Fatal(err)
+		}
+		k := []int{1, 3, 50, 200}[rng.IntN(4)]
+		if got, want := fmt.Sprint(bandCuts(set, k)), fmt.Sprint(bandCutsOfCurve(set, k)); got != want {
+			t.Fatalf("trial %d, %d cuts: %s, the curve gives %s", trial, k, got, want)
+		}
+	}
+}
+
+// bandCutsOfCurve is bandCuts by way of the set's curve, which a test
+// holds bandCuts to.
+func bandCutsOfCurve(set *scores.Set, k int) []bandCut {
+	n := set.Len()
+	if k <= 0 || n == 0 || set.Cases() == 0 {
+		return nil
+	}
+	c := curve.New(set)
+	var out []bandCut
+	last := -1
+	for j := 1; j <= k; j++ {
+		row := set.RowOfCase(max(int(math.Ceil(float64(j)*float64(set.Cases())/float64(k)))-1, 0))
+		cut := c.CutOfRow(row)
+		if cut == last {
+			continue
+		}
+		last = cut
+		p := c.At(cut)
+		out = append(out, bandCut{index: cut, score: p.Score, rows: p.Rows})
+	}
+	return out
+}
