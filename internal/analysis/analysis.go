@@ -148,6 +148,7 @@ type Result struct {
 	opts     Options
 	segments *segment.Running // follows the cursor; with Options.Cursor
 	peaks    *shift.Running   // follows the cursor at Shifts.Scale; with Options.Cursor
+	optimism *optimismMemo    // the last CostOptimism computed, kept by Reassume
 }
 
 // Ranking is the uncertainty of the summary's ranking figures at a
@@ -332,14 +333,39 @@ func newSecond(set *scores.Set, opts Options, sampling bool) (*Second, error) {
 	return s, nil
 }
 
+// optimismMemo is CostOptimism's value under the base rate and costs it
+// was computed with: the only assumptions it depends on, so that a change
+// of volume, capacity or confidence reuses it.
+type optimismMemo struct {
+	baseRate float64
+	costs    projection.Costs
+	value    float64
+}
+
+// costOptimism is CostOptimism(r.Set, a), computed again only when the
+// base rate or the costs differ from the last computed (r.optimism, kept
+// from the result Reassume started from).
+func (r *Result) costOptimism(a projection.Assumptions) float64 {
+	if a.Costs == nil {
+		return math.NaN()
+	}
+	if m := r.optimism; m != nil && m.baseRate == a.BaseRate && m.costs == *a.Costs {
+		return m.value
+	}
+	r.optimism = &optimismMemo{baseRate: a.BaseRate, costs: *a.Costs, value: CostOptimism(r.Set, a)}
+	return r.optimism.value
+}
+
 // Reassume returns the figures of the same set under new assumptions: the
 // cuts of the rules (the starting points under a when Options.Rules is
 // nil), the shift queues at the new scale, the cost threshold and the
 // second model's cuts. What does not depend on the assumptions (the
 // curve, the shifts of the rows, the reliability table, the paired test)
-// is shared with r; a bootstrap is dropped, since it ran under the old
-// assumptions. r itself is not changed, so Reassume may run while r is
-// shown, except that their cursor tallies are shared.
+// is shared with r, and so is the least-cost figure's optimism while the
+// base rate and costs stay the same (it depends on no other assumption);
+// a bootstrap is dropped, since it ran under the old assumptions. r
+// itself is not changed, so Reassume may run while r is shown, except that
+// their cursor tallies are shared.
 func (r *Result) Reassume(ctx context.Context, a projection.Assumptions) (*Result, error) {
 	next := &Result{Set: r.Set, Curve: r.Curve, opts: r.opts, segments: r.segments}
 	if r.Shifts != nil {
@@ -407,9 +433,12 @@ func (r *Result) assume(a projection.Assumptions, prev *Result) error {
 	}
 	r.Outcomes = finder.Outcomes()
 	r.CostOptimism = math.NaN()
+	if prev != nil {
+		r.optimism = prev.optimism
+	}
 	for i, o := range r.Outcomes {
 		if o.Met && r.Rules[i].Kind == cutrule.Cost {
-			r.CostOptimism = CostOptimism(r.Set, a)
+			r.CostOptimism = r.costOptimism(a)
 			break
 		}
 	}
