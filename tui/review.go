@@ -548,6 +548,12 @@ func (r Review) notesView(at rect) string {
 	lines := append(note("note on "+selected.Name+": ", selected.Note), note("file note: ", f.Note)...)
 	lines = append(lines, r.recordLines(innerW)...)
 	innerH := at.H - st.Pane.GetVerticalFrameSize()
+	if promise := promiseLines(selected, innerW, st); len(lines)+len(promise)+len(deploy) <= innerH {
+		// Where there is room: what the selected candidate's rule
+		// promises, after its note.
+		at := len(note("note on "+selected.Name+": ", selected.Note))
+		lines = append(lines[:at], append(promise, lines[at:]...)...)
+	}
 	if len(deploy) > 1 && len(lines)+len(deploy) > innerH {
 		deploy = []string{fitStatus(deployment, innerW)}
 	}
@@ -563,6 +569,24 @@ func (r Review) notesView(at rect) string {
 	}
 	lines = append(lines, deploy...)
 	return framed(st.Pane, st.PaneEdge, st.Title, "notes", strings.Join(lines, "\n"), at.W, at.H)
+}
+
+// promiseLines are what c's rule promises about production and, for the
+// least-cost candidate, how much its projected cost understates its own
+// cost (review.PromiseLines's words), wrapped to width; nil without
+// either.
+func promiseLines(c decision.Candidate, width int, st Styles) []string {
+	var out []string
+	for _, line := range [][2]string{{"promise: ", c.Promise}, {"least cost: ", review.OptimismLine(c)}} {
+		label, text := line[0], line[1]
+		if text == "" {
+			continue
+		}
+		wrapped := wrapWords(label+format.Printable(text), width)
+		wrapped[0] = st.Label.Render(label) + strings.TrimPrefix(wrapped[0], label)
+		out = append(out, wrapped...)
+	}
+	return out
 }
 
 // footer is the status, then the keys in a few words each, the most

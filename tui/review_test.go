@@ -141,7 +141,18 @@ func TestReviewView(t *testing.T) {
 		r, _ = sendReview(t, r, keyPress("q"))
 		checkFrame(t, name("quit-unsaved"), view(r, path), w, h)
 	}
-	r, path := newTestReview(t, 50, 12)
+	// Taller: the notes pane has room for what the selected candidate's
+	// rule promises (none for queue=90, the least-cost figure's optimism
+	// for cost, "on this set only" for hit=0.8).
+	r, path := newTestReview(t, 120, 40)
+	checkFrame(t, "review-120x40-opened", view(r, path), 120, 40)
+	r, _ = sendReview(t, r, keyPress("right"))
+	checkFrame(t, "review-120x40-selected-cost", view(r, path), 120, 40)
+	for range 3 {
+		r, _ = sendReview(t, r, keyPress("left"))
+	}
+	checkFrame(t, "review-120x40-selected-hit", view(r, path), 120, 40)
+	r, path = newTestReview(t, 50, 12)
 	checkFrame(t, "review-50x12-too-small", view(r, path), 50, 12)
 }
 
