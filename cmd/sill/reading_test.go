@@ -130,7 +130,9 @@ func TestRunZonelessTimes(t *testing.T) {
 
 // TestRunOutsideScore: one score of 1.7 among the Veldmoor depot's
 // probabilities is named by its line in every output's warnings, and the
-// probability sections it removes are named.
+// probability sections it removes are named. The true case at 0.5 among
+// the false ones keeps the classes from being completely separated, which
+// would add a warning of its own.
 func TestRunOutsideScore(t *testing.T) {
 	var b strings.Builder
 	b.WriteString("crate,score,label\n")
@@ -139,7 +141,7 @@ func TestRunOutsideScore(t *testing.T) {
 		if i == 6 {
 			score = "1.7" // line 8
 		}
-		b.WriteString("VM-" + strconv.Itoa(i) + "," + score + "," + map[bool]string{true: "1", false: "0"}[i >= 26 || i == 6] + "\n")
+		b.WriteString("VM-" + strconv.Itoa(i) + "," + score + "," + map[bool]string{true: "1", false: "0"}[i >= 26 || i == 6 || i == 20] + "\n")
 	}
 	path := writeFile(t, t.TempDir(), "depot.csv", []byte(b.String()))
 	want := "1 score lies outside [0, 1] (line 8), so the scores are not read as probabilities: the Brier score, log loss, calibration and net benefit are left out"

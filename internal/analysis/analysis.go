@@ -444,6 +444,9 @@ func (r *Result) assume(a projection.Assumptions, prev *Result) error {
 	}
 	r.Warnings = warningsOf(r.Set, r.Summary)
 	r.Ranking = rankingOf(&delong, r.Summary, a.Confidence)
+	if w, ok := separatedWarning(r.Summary, r.Ranking); ok {
+		r.Warnings = append(r.Warnings, w)
+	}
 
 	if r.Set.SegmentOf() != nil {
 		r.Segments = make([]segment.Breakdown, len(r.Outcomes))

@@ -1,6 +1,7 @@
 package analysis
 
 import (
+	"math"
 	"strconv"
 	"strings"
 
@@ -71,6 +72,32 @@ func warningsOf(set *scores.Set, sum curve.Summary) []Warning {
 		w = append(w, Warning{Text: "ROC AUC " + format.Number(sum.ROCAUC, 3) + " is below 0.5: the scores rank false cases above true ones more often than not", Turn: turn})
 	}
 	return w
+}
+
+// separatedWarning says, when the classes are completely separated (ROC
+// AUC exactly 1 or 0: every true case scores above every false one, or
+// below), that the AUC's interval, which then has zero width, tells
+// nothing: DeLong's variance is the spread of each case's placement (the
+// share of the other class it outranks), and with separated classes every
+// placement is the same. How far to trust the separation then rests on
+// the number (the weight) of cases of each class. ok is false for any other summary, and when the
+// interval is undefined (no class, a confidence outside (0, 1)).
+func separatedWarning(sum curve.Summary, rank Ranking) (w Warning, ok bool) {
+	in := rank.ROCAUC.Interval
+	if !(sum.Positives > 0 && sum.Negatives > 0) || math.IsNaN(in[0]) || math.IsNaN(in[1]) || in[0] != in[1] {
+		return Warning{}, false
+	}
+	order := "every true case scores above every false one"
+	switch sum.ROCAUC {
+	case 1:
+	case 0:
+		order = "every false case scores above every true one"
+	default:
+		return Warning{}, false
+	}
+	return Warning{Text: "ROC AUC " + format.Number(sum.ROCAUC, 3) + ": its interval of zero width is not informative, the classes being completely separated (" + order +
+		"); DeLong's interval rests on how much each case's share of the other class it outranks varies, and here none varies: " +
+		"how far to trust the separation rests on the " + format.Count(sum.Positives) + " true and " + format.Count(sum.Negatives) + " false cases alone"}, true
 }
 
 // outsideShare is the largest share of rows with a score outside

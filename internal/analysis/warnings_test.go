@@ -39,6 +39,22 @@ func TestWarnings(t *testing.T) {
 		// "0.499" and is warned about (by hand).
 		{"AUC 0.4996 shows 0.500", []float64{0.9, 0.5, 0.1}, []bool{false, true, false}, []float64{0.5004, 1, 0.4996}, nil},
 		{"AUC 0.4994 shows 0.499", []float64{0.9, 0.5, 0.1}, []bool{false, true, false}, []float64{0.5006, 1, 0.4994}, []string{"ROC AUC 0.499 is below 0.5: the scores rank false cases above true ones more often than not; if lower scores mean likely true cases, add --lower-is-riskier"}},
+		// Three true cases above two false ones: every pair won, AUC 1;
+		// every placement is 1, so DeLong's variance (the spread of the
+		// placements, DeLong, DeLong and Clarke-Pearson 1988) is 0 and the
+		// interval 1–1 (by hand). With one true case and one false one the
+		// placements have no spread to estimate (n−1 = 0): the interval is
+		// undefined, not of zero width, and "both classes" above is not
+		// warned about.
+		{"separated", []float64{0.9, 0.8, 0.7, 0.3, 0.2}, []bool{true, true, true, false, false}, nil, []string{separated("every true case scores above every false one", "1.000", "3", "2")}},
+		{"separated, weighted", []float64{0.9, 0.8, 0.7, 0.3, 0.2}, []bool{true, true, true, false, false}, []float64{2, 1, 1, 0.5, 1}, []string{separated("every true case scores above every false one", "1.000", "4", "1.50")}},
+		// Upside down and separated: both warnings, the turn first.
+		{"separated upside down", []float64{0.1, 0.2, 0.7, 0.8}, []bool{true, true, false, false}, nil, []string{
+			"ROC AUC 0.000 is below 0.5: the scores rank false cases above true ones more often than not; if lower scores mean likely true cases, add --lower-is-riskier",
+			separated("every false case scores above every true one", "0.000", "2", "2")}},
+		// One false case above one true one of 3×2 pairs: AUC 5/6, an
+		// interval of some width, no warning.
+		{"nearly separated", []float64{0.9, 0.8, 0.7, 0.75, 0.2}, []bool{true, true, true, false, false}, nil, nil},
 		// A tie between the two classes counts half: AUC 0.5, no warning.
 		{"a tie, AUC 0.5", []float64{0.5, 0.5}, []bool{true, false}, nil, nil},
 	}
@@ -55,6 +71,14 @@ func TestWarnings(t *testing.T) {
 			t.Errorf("%s: %q, want %q", tc.name, got, tc.want)
 		}
 	}
+}
+
+// separated is the warning of completely separated classes, in order,
+// with the AUC and the counts as shown.
+func separated(order, auc, positives, negatives string) string {
+	return "ROC AUC " + auc + ": its interval of zero width is not informative, the classes being completely separated (" + order +
+		"); DeLong's interval rests on how much each case's share of the other class it outranks varies, and here none varies: " +
+		"how far to trust the separation rests on the " + positives + " true and " + negatives + " false cases alone"
 }
 
 // TestWeightless: on a set whose rows all weigh 0 no rule but score= is
