@@ -92,6 +92,44 @@ func TestSegmentsOverlay(t *testing.T) {
 	}
 }
 
+// TestSegmentsViews: v turns the breakdown from the figures to the gaps
+// and back where the gaps view has room for both intervals and adjusted
+// p-values (100 columns); at 80 columns, where it has not, v goes through
+// the gaps with their intervals, then with their adjusted p-values, then
+// back to the figures, and each of those frames is 80 columns wide with
+// the base rates in view.
+func TestSegmentsViews(t *testing.T) {
+	set := demoTimedSet(t)
+	for _, tc := range []struct {
+		width, height int
+		want          []string // the views after each v: figures, gaps, p (gaps with adjusted p-values)
+	}{
+		{100, 30, []string{"gaps", "figures", "gaps"}},
+		{80, 24, []string{"gaps", "p", "figures", "gaps"}},
+	} {
+		m := loadedWith(t, Config{Load: func(func(int)) (*scores.Set, error) { return set, nil }, Assume: demoAssumptions}, tc.width, tc.height)
+		m = keys(m, "s")
+		for i, want := range tc.want {
+			m = keys(m, "v")
+			got := "figures"
+			if m.segments.gaps {
+				got = "gaps"
+				if m.segments.gapsColumns(m.segments.breakdown()).pValues && !m.segments.gapsColumns(m.segments.breakdown()).intervals {
+					got = "p"
+				}
+			}
+			if got != want {
+				t.Errorf("%dx%d: after %d v, %s, want %s", tc.width, tc.height, i+1, got, want)
+			}
+			frame := ansi.Strip(m.View())
+			checkSize(t, frame, tc.width, tc.height)
+			if got != "figures" && (!strings.Contains(frame, "base") || !strings.Contains(frame, "rest") || !strings.Contains(frame, "12.0%")) {
+				t.Errorf("%dx%d %s: the base rates are not in view:\n%s", tc.width, tc.height, got, frame)
+			}
+		}
+	}
+}
+
 // TestSegmentsKeyWithoutSegments: without a segment column s does nothing
 // and the help does not list it.
 func TestSegmentsKeyWithoutSegments(t *testing.T) {

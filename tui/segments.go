@@ -29,6 +29,9 @@ type segmentsPane struct {
 	order  segment.Order
 	offset int  // first group in view
 	gaps   bool // the gaps from the rest instead of the figures
+	// pValues shows each gap's adjusted p-value instead of its interval,
+	// in a gaps view too narrow for both.
+	pValues bool
 
 	sorted *sortedGroups // shared by copies of the pane
 }
@@ -99,13 +102,27 @@ func (p *segmentsPane) Update(host *Model, m tea.KeyMsg) (bool, tea.Cmd) {
 		p.order = (p.order + 1) % 3
 		p.offset = 0
 	case key.Matches(m, k.CurveView):
-		p.gaps = !p.gaps
+		p.nextView()
 	}
 	p.offset = max(min(p.offset, groups-page), 0)
 	if s.cursor != before {
 		host.list.follow()
 	}
 	return false, nil
+}
+
+// nextView turns from the figures to the gaps and back; where the gaps
+// view has no room for both intervals and adjusted p-values, through the
+// gaps with their intervals, then with their p-values.
+func (p *segmentsPane) nextView() {
+	switch {
+	case !p.gaps:
+		p.gaps, p.pValues = true, false
+	case !p.pValues && p.gapsColumns(p.breakdown()).narrow:
+		p.pValues = true
+	default:
+		p.gaps, p.pValues = false, false
+	}
 }
 
 // ShortHelp lists the overlay's keys, the way out first: the footer drops
@@ -194,7 +211,7 @@ func (p *segmentsPane) View() string {
 		st.ColumnHead.Render(head),
 		st.Figure.Render(row(overall)),
 	}
-	lines, keys := p.groupRows(lines, b, row, "↑↓ cut · o order · v gaps · s/esc closes")
+	lines, keys := p.groupRows(lines, b, row, "↑↓ cut · o order · v gaps · s/esc closes", innerW)
 	// What differs and gap mean, in the longest words that fit.
 	legend := differsLegend(b, innerW)
 	if gap {
@@ -217,8 +234,9 @@ func (p *segmentsPane) View() string {
 // groupRows appends the groups in view to lines, each drawn by row and
 // those that differ in the warning style, and returns them with the keys
 // line. When the groups scroll, the box keeps its height (blank lines pad
-// the last page) and the keys lead with the groups shown.
-func (p *segmentsPane) groupRows(lines []string, b segment.Breakdown, row func(segment.Figures) string, keys string) ([]string, string) {
+// the last page) and the keys lead with the groups shown, the scroll keys
+// in fewer words where width has no room for them all.
+func (p *segmentsPane) groupRows(lines []string, b segment.Breakdown, row func(segment.Figures) string, keys string, width int) ([]string, string) {
 	n := p.rowsInView()
 	end := min(p.offset+n, len(b.Segments))
 	for _, f := range b.Segments[p.offset:end] {
@@ -232,7 +250,11 @@ func (p *segmentsPane) groupRows(lines []string, b segment.Breakdown, row func(s
 		for range n - (end - p.offset) {
 			lines = append(lines, "")
 		}
-		keys = fmt.Sprintf("%d–%d of %d · pgup/pgdn g/G scroll · ", p.offset+1, end, len(b.Segments)) + keys
+		shown := fmt.Sprintf("%d–%d of %d · ", p.offset+1, end, len(b.Segments))
+		if long := shown + "pgup/pgdn g/G scroll · " + keys; ansi.StringWidth(long) <= width {
+			return lines, long
+		}
+		keys = shown + "pgup/pgdn · " + keys
 	}
 	return lines, keys
 }
@@ -253,64 +275,129 @@ func differsLegend(b segment.Breakdown, width int) string {
 	return "differs: differs from the rest (adjusted p below " + level + ")"
 }
 
-// gapsView draws the overlay with each group's gaps from the rest of the
-// set: hit share's and wrong-alert share's, each with its interval
-// (Newcombe's hybrid score) and Holm-adjusted p-value, and the group's
-// base rate beside the rest's, which wrong-alert shares follow.
-func (p *segmentsPane) gapsView() string {
-	s, st := p.s, p.ctx.styles
-	b := p.breakdown()
+// gapsLayout is the gaps view's columns at the screen's width: full
+// (gaps with their unit, intervals to a tenth of a point), compact (gaps
+// without the unit, intervals in whole points) or, where not even those
+// fit beside the base rates (80 columns), narrow: each gap with either its
+// interval or its adjusted p-value (v turns from one to the other).
+type gapsLayout struct {
+	width, innerW, nameW int
+	rowsW, gapW, rangeW  int
+	intervals, pValues   bool // which of a gap's interval and adjusted p are shown
+	narrow               bool
+	gapText              func(float64) string
+	gapInterval          func([2]float64) string
+}
+
+// gapsPW and gapsRateW are the widths of an adjusted p-value's column and
+// of a base rate's.
+const gapsPW, gapsRateW = 8, 7
+
+// gapsColumns returns the gaps view's layout for breakdown b.
+func (p *segmentsPane) gapsColumns(b segment.Breakdown) gapsLayout {
+	st := p.ctx.styles
 	longest := len("segment")
 	for _, f := range b.Segments {
 		longest = max(longest, ansi.StringWidth(f.Segment))
 	}
-	// rows, hit gap, interval, adj. p, wrong gap, interval, adj. p, base
-	// rate, rest's, note.
-	// Narrower than that, gaps drop their unit (the count line gives it)
-	// and intervals read in whole points.
-	const pW, rateW = 8, 7
-	gapW, rangeW := 9, 19
-	natural := 7 + 2*(gapW+1+rangeW+pW) + 2*rateW + 8 + min(longest, 28) + 1
-	width := min(p.ctx.width-2, natural+st.Overlay.GetHorizontalFrameSize())
-	innerW := width - st.Overlay.GetHorizontalFrameSize()
-	gapText, gapInterval := format.Gap, format.GapInterval
-	if innerW < natural {
-		gapW, rangeW = 7, 11
-		gapText = func(d float64) string { return strings.TrimSuffix(format.Gap(d), " pt") }
-		gapInterval = format.ShortGapInterval
+	l := gapsLayout{rowsW: 7, gapW: 9, rangeW: 19, intervals: true, pValues: true, gapText: format.Gap, gapInterval: format.GapInterval}
+	// fixed is the width of every column but the name's.
+	fixed := func() int {
+		w := l.rowsW + 2*gapsRateW + 8
+		for range 2 {
+			w += l.gapW
+			if l.intervals {
+				w += 1 + l.rangeW
+			}
+			if l.pValues {
+				w += gapsPW
+			}
+		}
+		return w
 	}
-	fixed := 7 + 2*(gapW+1+rangeW+pW) + 2*rateW + 8
-	nameW := max(innerW-fixed, 8)
+	natural := fixed() + min(longest, 28) + 1
+	l.width = min(p.ctx.width-2, natural+st.Overlay.GetHorizontalFrameSize())
+	l.innerW = l.width - st.Overlay.GetHorizontalFrameSize()
+	if l.innerW < natural {
+		// Narrower: gaps drop their unit (the count line gives it) and
+		// intervals read in whole points.
+		l.gapW, l.rangeW = 7, 11
+		l.gapText = func(d float64) string { return strings.TrimSuffix(format.Gap(d), " pt") }
+		l.gapInterval = format.ShortGapInterval
+	}
+	if l.innerW-fixed() < 8 {
+		// Narrower still: the interval or the adjusted p, not both.
+		l.narrow, l.rowsW, l.rangeW = true, 6, 10
+		l.intervals, l.pValues = !p.pValues, p.pValues
+	}
+	l.nameW = max(l.innerW-fixed(), 8)
+	return l
+}
+
+// gapsView draws the overlay with each group's gaps from the rest of the
+// set: hit share's and wrong-alert share's, each with its interval
+// (Newcombe's hybrid score) and Holm-adjusted p-value, and the group's
+// base rate beside the rest's, which wrong-alert shares follow. Where
+// both do not fit (80 columns) each gap shows its interval, or after v its
+// adjusted p-value.
+func (p *segmentsPane) gapsView() string {
+	s, st := p.s, p.ctx.styles
+	b := p.breakdown()
+	l := p.gapsColumns(b)
 	sign := format.CutSign(s.set.LowerIsRiskier())
 	title := fmt.Sprintf("segments (%s) against the rest at cut %s %s · by %s", s.set.SegmentColumn(), sign, format.Score(s.point().Score), orderName(p.order))
+	// share draws a gap with what the layout shows beside it.
+	share := func(t segment.Test) string {
+		text := pad(l.gapText(t.Gap), l.gapW, true)
+		if l.intervals {
+			text += " " + pad(l.gapInterval(t.GapCI), l.rangeW, false)
+		}
+		if l.pValues {
+			text += pad(format.PValue(t.AdjustedP), gapsPW, true)
+		}
+		return text
+	}
 	row := func(f segment.Figures) string {
 		note := ""
 		if f.Outlier {
 			note = "differs"
 		}
-		r, w := f.RecallTest, f.FalseDiscoveryTest
-		return pad(format.Printable(f.Segment), nameW, false) + pad(strconv.Itoa(f.Rows), 7, true) +
-			pad(gapText(r.Gap), gapW, true) + " " + pad(gapInterval(r.GapCI), rangeW, false) + pad(format.PValue(r.AdjustedP), pW, true) +
-			pad(gapText(w.Gap), gapW, true) + " " + pad(gapInterval(w.GapCI), rangeW, false) + pad(format.PValue(w.AdjustedP), pW, true) +
-			pad(format.Share(f.BaseRate()), rateW, true) + pad(format.Share(b.RestBaseRate(f)), rateW, true) + " " + note
+		return pad(format.Printable(f.Segment), l.nameW, false) + pad(strconv.Itoa(f.Rows), l.rowsW, true) +
+			share(f.RecallTest) + share(f.FalseDiscoveryTest) +
+			pad(format.Share(f.BaseRate()), gapsRateW, true) + pad(format.Share(b.RestBaseRate(f)), gapsRateW, true) + " " + note
 	}
-	head := pad("segment", nameW, false) + pad("rows", 7, true) +
-		pad("hit", gapW, true) + " " + pad("interval", rangeW, false) + pad("adj. p", pW, true) +
-		pad("wrong", gapW, true) + " " + pad("interval", rangeW, false) + pad("adj. p", pW, true) +
-		pad("base", rateW, true) + pad("rest", rateW, true)
-	lines := []string{
-		st.Muted.Render(fmt.Sprintf("%d groups · %d differ · gap: group less the rest of the set, in points · %s intervals", len(b.Segments), b.Outliers(),
-			format.Level(b.Confidence))),
-		st.ColumnHead.Render(head),
+	heading := func(name string) string {
+		text := pad(name, l.gapW, true)
+		if l.intervals {
+			text += " " + pad("interval", l.rangeW, false)
+		}
+		if l.pValues {
+			text += pad("adj. p", gapsPW, true)
+		}
+		return text
 	}
+	head := pad("segment", l.nameW, false) + pad("rows", l.rowsW, true) + heading("hit") + heading("wrong") +
+		pad("base", gapsRateW, true) + pad("rest", gapsRateW, true)
+	count := fmt.Sprintf("%d groups · %d differ · gap: group less the rest of the set, in points · %s intervals", len(b.Segments), b.Outliers(),
+		format.Level(b.Confidence))
+	keys := "↑↓ cut · o order · v figures · s/esc closes"
+	switch {
+	case l.narrow && l.pValues:
+		count = fmt.Sprintf("%d groups · %d differ · gap: group less the rest, in points · adj. p: Holm's", len(b.Segments), b.Outliers())
+	case l.narrow:
+		count = fmt.Sprintf("%d groups · %d differ · gap: group less the rest, in points · %s intervals", len(b.Segments), b.Outliers(),
+			format.Level(b.Confidence))
+		keys = "↑↓ cut · o order · v adj. p · s/esc closes"
+	}
+	lines := []string{st.Muted.Render(count), st.ColumnHead.Render(head)}
 	// The base-rate line below takes the overall row's place.
-	lines, keys := p.groupRows(lines, b, row, "↑↓ cut · o order · v figures · s/esc closes")
-	legend := differsLegend(b, innerW)
+	lines, keys = p.groupRows(lines, b, row, keys, l.innerW)
+	legend := differsLegend(b, l.innerW)
 	baseRates := "base, rest: share of true cases in the group and in the rest; wrong-alert shares follow them, so a wrong gap may come from the mix of cases"
-	if ansi.StringWidth(baseRates) > innerW {
+	if ansi.StringWidth(baseRates) > l.innerW {
 		baseRates = "base, rest: true-case shares; wrong-alert shares follow them"
 	}
 	lines = append(lines, st.Muted.Render(legend), st.Muted.Render(baseRates), st.Muted.Render(keys))
-	return framed(st.Overlay, st.OverlayEdge, st.Title, title, strings.Join(lines, "\n"), width,
+	return framed(st.Overlay, st.OverlayEdge, st.Title, title, strings.Join(lines, "\n"), l.width,
 		min(len(lines)+st.Overlay.GetVerticalFrameSize(), p.ctx.height-2))
 }
