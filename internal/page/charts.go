@@ -8,6 +8,7 @@ import (
 	"math"
 	"strconv"
 	"strings"
+	"unicode/utf8"
 
 	xfont "golang.org/x/image/font"
 	"gonum.org/v1/plot"
@@ -295,14 +296,16 @@ func lineStyle(kind lineKind) draw.LineStyle {
 }
 
 // addMarks draws the candidates: the chosen one a filled square, the
-// others rings, each labelled with its name when it has a label.
+// others rings, each labelled with its name when it has a label. Every
+// glyph is drawn before any label, so that no mark covers a name, and the
+// labels are placed by placeLabels so that two candidates at nearby cuts
+// (hit=0.8 and hit95=0.8, say) do not print their names over each other.
 func addMarks(p *plot.Plot, marks []mark) error {
 	for _, m := range marks {
 		if !evidence.Defined(m.x) || !evidence.Defined(m.y) {
 			continue
 		}
-		xy := plotter.XYs{{X: m.x, Y: m.y}}
-		scatter, err := plotter.NewScatter(xy)
+		scatter, err := plotter.NewScatter(plotter.XYs{{X: m.x, Y: m.y}})
 		if err != nil {
 			return fmt.Errorf("page: mark %q: %w", m.label, err)
 		}
@@ -311,10 +314,10 @@ func addMarks(p *plot.Plot, marks []mark) error {
 			scatter.GlyphStyle = draw.GlyphStyle{Color: inkMark, Radius: vg.Points(4.2), Shape: draw.BoxGlyph{}}
 		}
 		p.Add(scatter)
-		if m.label == "" {
-			continue
-		}
-		labels, err := plotter.NewLabels(plotter.XYLabels{XYs: xy, Labels: []string{m.label}})
+	}
+	for _, pl := range placeLabels(marks) {
+		m := pl.mark
+		labels, err := plotter.NewLabels(plotter.XYLabels{XYs: plotter.XYs{{X: m.x, Y: m.y}}, Labels: []string{m.label}})
 		if err != nil {
 			return fmt.Errorf("page: label %q: %w", m.label, err)
 		}
@@ -324,11 +327,78 @@ func addMarks(p *plot.Plot, marks []mark) error {
 				labels.TextStyle[i].Font.Weight = xfont.WeightBold
 				labels.TextStyle[i].Color = inkMark
 			}
+			if pl.left {
+				labels.TextStyle[i].XAlign = draw.XRight
+			}
 		}
-		labels.Offset = vg.Point{X: vg.Points(6), Y: vg.Points(-9)}
+		labels.Offset = vg.Point{X: vg.Points(pl.dx), Y: vg.Points(pl.dy)}
 		p.Add(labels)
 	}
 	return nil
+}
+
+// placement is where a mark's label goes: its offset from the mark in
+// points and whether it ends at the mark (left) or starts after it.
+type placement struct {
+	mark   mark
+	dx, dy float64
+	left   bool
+}
+
+// The sizes placeLabels reckons with, in points: the plotting area of a
+// chart of chartWidth × chartHeight (less the axes and titles, about
+// 270 × 200 on shares from 0 to 1), the width of one character and the
+// height of a line of the labels' 8-point text. Approximate by design: a
+// label only has to clear the others.
+const (
+	labelAreaW, labelAreaH = 270.0, 200.0
+	labelCharW, labelLineH = 4.6, 10.0
+)
+
+// placeLabels places the labels of the marks with one and a defined
+// position, in order (the chosen candidate comes first on the page, so
+// its label keeps the first place): right of and below the mark, as
+// always, unless that overlaps a label placed already; then left of the
+// mark, then one line further down on either side, then one line up. A
+// label with no free place keeps the first. The marks' x and y are read
+// as shares (0 to 1) on both axes, as on the trade-off and ROC charts.
+func placeLabels(marks []mark) []placement {
+	type box struct{ x0, x1, y0, y1 float64 }
+	var placed []box
+	var out []placement
+	for _, m := range marks {
+		if m.label == "" || !evidence.Defined(m.x) || !evidence.Defined(m.y) {
+			continue
+		}
+		x, y := m.x*labelAreaW, m.y*labelAreaH
+		width := labelCharW * float64(utf8.RuneCountInString(m.label))
+		boxAt := func(pl placement) box {
+			x0 := x + pl.dx
+			if pl.left {
+				x0 -= width
+			}
+			return box{x0, x0 + width, y + pl.dy, y + pl.dy + labelLineH}
+		}
+		free := func(b box) bool {
+			for _, o := range placed {
+				if b.x0 < o.x1 && o.x0 < b.x1 && b.y0 < o.y1 && o.y0 < b.y1 {
+					return false
+				}
+			}
+			return true
+		}
+		tries := []placement{{m, 6, -9, false}, {m, -6, -9, true}, {m, 6, -19, false}, {m, -6, -19, true}, {m, 6, 3, false}, {m, -6, 3, true}}
+		chosen := tries[0]
+		for _, pl := range tries {
+			if free(boxAt(pl)) {
+				chosen = pl
+				break
+			}
+		}
+		placed = append(placed, boxAt(chosen))
+		out = append(out, chosen)
+	}
+	return out
 }
 
 // thin returns at most limit points of pts, evenly spread and always with
