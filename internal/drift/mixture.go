@@ -191,10 +191,12 @@ type Mixture struct {
 // 2(L(p^) - L(p)), divided by inflation, stays within the chi-square
 // quantile of one degree of freedom at confidence. inflation (>= 1)
 // widens it for the noise of f1 and f0, which were estimated on the
-// validation set: the caller passes 1 + n(p^2/P + (1-p)^2/N), the
-// variance of a bin's mixture share from P true and N false validation
-// cases over that of n new cases, to first order (a derivation, no
-// source). The fit statistic is Pearson's sum_j (n_j - n m_j)^2 / (n m_j)
+// validation set: the caller passes the mean over the bins of the
+// variance of a bin's share of n new cases less its mixture share (the
+// new cases' own, and p^2 f1(1-f1)/P + (1-p)^2 f0(1-f0)/N from P true and
+// N false validation cases) over the multinomial variance of n new cases
+// (mixtureInflation: Rao and Scott's first-order factor, 1981; from
+// memory). The fit statistic is Pearson's sum_j (n_j - n m_j)^2 / (n m_j)
 // at the fitted p, divided by the same factor. With no counts every
 // figure is NaN.
 func FitMixture(counts, f1, f0 []float64, confidence float64, inflation func(p float64) float64) Mixture {

@@ -137,7 +137,7 @@ func judgeUnlabelled(res *Result, f *decision.File, t tally, opt Options) {
 	if opt.Sample.Sampling() {
 		effect, n = designEffect(t.mixed, t.mixedSquares)
 	}
-	m := FitMixture(atSize(t.mixed, n, t.weight), f1, f0, f.Assumptions.Confidence, func(p float64) float64 { return effect + n*(p*p/P+(1-p)*(1-p)/N) })
+	m := FitMixture(atSize(t.mixed, n, t.weight), f1, f0, f.Assumptions.Confidence, mixtureInflation(f1, f0, P, N, n, effect))
 	res.Mixture = &m
 	res.BaseRateObserved, res.BaseRateCI = m.BaseRate, m.CI
 	res.BaseRateMethod = "maximum likelihood of the scores as a mixture of the validated classes, profile-likelihood interval"
@@ -292,4 +292,32 @@ func atSize(counts []float64, size, weight float64) []float64 {
 		return counts
 	}
 	return scaled(counts, size/weight)
+}
+
+// mixtureInflation returns the factor FitMixture divides the new data's
+// deviance by: the mean over the bins in use of the variance of a bin's
+// share of n new cases less its fitted mixture share, over the
+// multinomial variance of n cases (the first-order design effect of Rao
+// and Scott 1981, from memory). The new data's part is effect (1 for a
+// multinomial sample of n, the bins' mean design effect under sampling
+// weights); the validated shares f1 and f0, estimated from P true and N
+// false cases, add p^2 f1(1-f1)/P + (1-p)^2 f0(1-f0)/N bin by bin, so
+// that a bin of true cases is not charged the noise of the false ones.
+func mixtureInflation(f1, f0 []float64, P, N, n, effect float64) func(p float64) float64 {
+	return func(p float64) float64 {
+		var ratio float64
+		used := 0
+		for j := range f1 {
+			share := p*f1[j] + (1-p)*f0[j]
+			if !(share > 0) {
+				continue
+			}
+			used++
+			ratio += (p*p*f1[j]*(1-f1[j])/P + (1-p)*(1-p)*f0[j]*(1-f0[j])/N) / share
+		}
+		if used < 2 {
+			return effect + n*(p*p/P+(1-p)*(1-p)/N)
+		}
+		return effect + n*ratio/float64(used-1)
+	}
 }
