@@ -582,6 +582,8 @@ var glossary = []fact{
 	{"fingerprint (SHA-256)", "A digest of the validation file's bytes: the same digest means the same file."},
 	{"stability", "How far a cut's figures move when the validation set is drawn again (the bootstrap)."},
 	{"calibration", "How well scores read as probabilities match the share of true cases among cases with that score."},
+	{"promise", "What a rule's cut can be counted on in production. A rule met on the validation set alone (hit=, wrong=) misses its figure in production about half the time; hitNN= and wrongNN= meet it on a one-sided bound, so that they miss it in about (100 − NN)% of validation sets."},
+	{"optimism (least cost)", "The least-cost cut is chosen on the same cases its cost is counted on, so that cost is too low; the optimism is an estimate of how much more it costs out of sample, and the corrected cost adds it (projected to production, like the cost)."},
 }
 
 // generator is the mark every page carries in its head, by which
