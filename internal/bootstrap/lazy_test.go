@@ -19,15 +19,16 @@ import (
 // and the rules after gives the same draws (no draw depends on the order
 // of the questions). Seeded random counts tables: 200 trials, 1 to 300
 // cells on 2 to 200 score values (ties between the classes), whole counts
-// of 1 to 3 cases or a few large ones, both directions, both designs, at
+// of 1 to 3 cases or a few large ones (in one trial of five, frequency
+// weights with halves, drawn by the Poisson tree), both directions, both designs, at
 // random production assumptions with costs; rule values at random and at
 // figures of the full replicate (where ties with the value occur).
 func TestLazyMatchesDrawnInFull(t *testing.T) {
 	rng := rand.New(rand.NewPCG(41, 2026))
 	for trial := range 200 {
-		cells := randomCells(t, rng, trial)
+		cells, poissonCells := randomCells(t, rng, trial)
 		design := []Design{Ordinary, WithinClass}[trial%2]
-		tree := newCellTree(cells, design, false)
+		tree := newCellTree(cells, design, poissonCells)
 		lazy, full := newLazyReplicate(tree), newLazyReplicate(tree)
 		a := projection.Assumptions{
 			BaseRate:   []float64{0.02, 0.3, 0.5, 0.9}[rng.IntN(4)],
@@ -44,9 +45,14 @@ func TestLazyMatchesDrawnInFull(t *testing.T) {
 			full.draw(seed, b)
 			drawn := make([]float64, cells.Len())
 			full.fill(drawn)
-			var rep scores.Set
-			scores.Replicate(&rep, cells, drawn)
-			c := curve.New(&rep)
+			rep := drawnSet(t, cells, drawn)
+			c := curve.New(rep)
+			if c.Len() == 0 { // a Poisson replicate may draw nothing
+				if lazy.draw(uint64(trial), b); lazy.Len() != 0 {
+					t.Errorf("trial %d replicate %d: nothing drawn in full, %d cuts lazily", trial, b, lazy.Len())
+				}
+				continue
+			}
 			rules := lazyRules(rng, c, a)
 			want, err := cutrule.Find(rules, c, a)
 			if err != nil {
@@ -61,7 +67,7 @@ func TestLazyMatchesDrawnInFull(t *testing.T) {
 					t.Errorf("trial %d replicate %d (%s, base rate %v): %v lazily %s, drawn in full %s", trial, b, design, a.BaseRate, rules[i], g, w)
 				}
 			}
-			checkBand(t, fmt.Sprintf("trial %d replicate %d", trial, b), lazy, cells, &rep)
+			checkBand(t, fmt.Sprintf("trial %d replicate %d", trial, b), lazy, cells, rep)
 		}
 	}
 }
@@ -75,9 +81,27 @@ func pointOf(o cutrule.Outcome) string {
 	return fmt.Sprintf("score %v cases %d TP %v FP %v FN %v TN %v", p.Score, p.Cases, p.TP, p.FP, p.FN, p.TN)
 }
 
-// randomCells returns a random counts table of cells (one row per score
-// and label) for TestLazyMatchesDrawnInFull.
-func randomCells(t *testing.T, rng *rand.Rand, trial int) *scores.Set {
+// drawnSet returns the counts table of the cells' drawn cases.
+func drawnSet(t *testing.T, cells *scores.Set, drawn []float64) *scores.Set {
+	t.Helper()
+	var sc, counts []float64
+	var labels []bool
+	for i, d := range drawn {
+		if d > 0 {
+			sc, labels, counts = append(sc, cells.Scores()[i]), append(labels, cells.Labels()[i]), append(counts, d)
+		}
+	}
+	rep, err := scores.NewCounts(sc, labels, counts, cells.LowerIsRiskier())
+	if err != nil {
+		t.Fatal(err)
+	}
+	return rep
+}
+
+// randomCells returns random cells (one row per score and label) for
+// TestLazyMatchesDrawnInFull: a counts table, or in one trial of five
+// the weighted cells of frequency weights with halves (poisson).
+func randomCells(t *testing.T, rng *rand.Rand, trial int) (cells *scores.Set, poisson bool) {
 	t.Helper()
 	values := 2 + rng.IntN(200)
 	n := 1 + rng.IntN(300)
@@ -104,14 +128,23 @@ func randomCells(t *testing.T, rng *rand.Rand, trial int) *scores.Set {
 		sc, labels, counts = append(sc, 0.5, 0.5), append(labels, true, false), append(counts, 1, 1)
 	}
 	set, err := scores.NewCounts(sc, labels, counts, trial%4 == 1)
+	if trial%5 == 4 {
+		for i := range counts {
+			counts[i] += 0.5
+		}
+		set, err = scores.NewSet(scores.Columns{Scores: sc, Labels: labels, Weights: counts, LowerIsRiskier: trial%4 == 1})
+	}
 	if err != nil {
 		t.Fatal(err)
 	}
-	cells, _, err := cellsOf(set, false)
+	cells, poisson, err = cellsOf(set, false)
 	if err != nil {
 		t.Fatal(err)
 	}
-	return cells
+	if poisson != (trial%5 == 4) {
+		t.Fatalf("trial %d: cellsOf says poisson %v", trial, poisson)
+	}
+	return cells, poisson
 }
 
 func hasBoth(labels []bool) bool {
