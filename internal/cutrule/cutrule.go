@@ -690,12 +690,128 @@ func (f *Finder) leastWrongOf(pts Points, r run) {
 	f.leastWrongOf(pts, looser)
 }
 
-// least visits, in order, every cut of r that could take the cost rule
-// i's place (the cost of least cost so far): the ends of r, then its cuts
-// between, skipping a run whose least possible cost cannot beat the one
-// held by more than the slack. Cost is linear in TP and FP, so its least
-// over a run lies at a corner of the run's TP and FP ranges.
+// least finds the cut of cost rule i as visiting every cut in order
+// does: a cut takes the rule's place when its cost is below the held one
+// by more than the slack. It first finds a low cost by branch and bound
+// (lowestCost) and a limit a little above it, then the first cut at or
+// below the limit: visiting in order, that cut takes the place of any
+// before it (all above the limit) as long as it lies below the limit by
+// more than twice the slack, and from there on only cuts at or below the
+// limit can take the place. So it visits, in order, only those
+// (costsWithin). Should the first cut lie within the slack of every limit
+// tried, it visits in order every cut that could take the place
+// (leastInOrder).
 func (f *Finder) least(i int, pts Points, all run) {
+	low := f.lowestCost(pts, all, math.NaN())
+	if math.IsNaN(low) {
+		return // no cut has a defined cost
+	}
+	for step := range 10 {
+		limit := low + (1e-7*math.Abs(low)+1e-300)*math.Ldexp(1, -step)
+		first, cost := f.firstCostWithin(pts, all, limit)
+		if first >= 0 && cost < limit-2*slack*math.Abs(limit) {
+			f.costsWithin(i, pts, all, first, limit)
+			return
+		}
+	}
+	f.leastInOrder(i, pts, all)
+}
+
+// costOf returns the projected cost per case at p.
+func (f *Finder) costOf(p curve.Point) float64 { return projection.Project(p, f.a).CostPerCase }
+
+// costFloor returns the least cost any cut of r can have, NaN where a
+// corner's cost is undefined: cost is linear in TP and FP, so its least
+// over a run lies at a corner of the run's TP and FP ranges.
+func (f *Finder) costFloor(r run) float64 {
+	lowest := math.Inf(1)
+	for _, tp := range [2]curve.Point{r.first, r.last} {
+		for _, fp := range [2]curve.Point{r.first, r.last} {
+			c := f.costOf(curve.Point{TP: tp.TP, FN: tp.FN, FP: fp.FP, TN: fp.TN})
+			if math.IsNaN(c) {
+				return math.NaN()
+			}
+			lowest = min(lowest, c)
+		}
+	}
+	return lowest
+}
+
+// above reports whether floor, a cost floor widened far beyond rounding,
+// lies above limit; false when either is NaN.
+func above(floor, limit float64) bool {
+	return floor-boundSlack*(math.Abs(floor)+math.Abs(limit)) > limit
+}
+
+// lowestCost returns the least defined cost of a cut of r, or of low
+// (NaN for none) when that is lower, by branch and bound.
+func (f *Finder) lowestCost(pts Points, r run, low float64) float64 {
+	for _, p := range [2]curve.Point{r.first, r.last} {
+		if c := f.costOf(p); c < low || (math.IsNaN(low) && !math.IsNaN(c)) {
+			low = c
+		}
+	}
+	if r.hi-r.lo < 2 || above(f.costFloor(r), low) || f.costFloor(r) == low {
+		return low
+	}
+	first, second := r.split(pts)
+	if f.costFloor(second) < f.costFloor(first) {
+		first, second = second, first
+	}
+	return f.lowestCost(pts, second, f.lowestCost(pts, first, low))
+}
+
+// firstCostWithin returns the strictest cut of r whose cost is at most
+// limit and its cost, or -1.
+func (f *Finder) firstCostWithin(pts Points, r run, limit float64) (int, float64) {
+	switch c := f.costOf(r.first); {
+	case c <= limit:
+		return r.lo, c
+	case r.hi == r.lo || above(f.costFloor(r), limit):
+		return -1, math.NaN()
+	case r.hi-r.lo == 1:
+		if c := f.costOf(r.last); c <= limit {
+			return r.hi, c
+		}
+		return -1, math.NaN()
+	}
+	stricter, looser := r.split(pts)
+	if k, c := f.firstCostWithin(pts, stricter, limit); k >= 0 {
+		return k, c
+	}
+	return f.firstCostWithin(pts, looser, limit)
+}
+
+// costsWithin visits in order, for cost rule i, the cuts of all from cut
+// from on whose cost is at most limit.
+func (f *Finder) costsWithin(i int, pts Points, all run, from int, limit float64) {
+	consider := func(k int, p curve.Point) {
+		if fig := projection.Project(p, f.a); k >= from && fig.CostPerCase <= limit && f.keeps(i, p, fig) {
+			f.keep(i, p, fig)
+		}
+	}
+	var between func(r run)
+	between = func(r run) {
+		if r.hi-r.lo < 2 || r.hi <= from || above(f.costFloor(r), limit) {
+			return
+		}
+		stricter, looser := r.split(pts)
+		between(stricter)
+		consider(looser.lo, looser.first)
+		between(looser)
+	}
+	consider(all.lo, all.first)
+	between(all)
+	if all.hi > all.lo {
+		consider(all.hi, all.last)
+	}
+}
+
+// leastInOrder visits, in order, every cut of all that could take the
+// cost rule i's place (the cost of least cost so far): the ends of all,
+// then its cuts between, skipping a run whose least possible cost cannot
+// beat the one held by more than the slack.
+func (f *Finder) leastInOrder(i int, pts Points, all run) {
 	consider := func(p curve.Point) {
 		if fig := projection.Project(p, f.a); f.keeps(i, p, fig) {
 			f.keep(i, p, fig)
@@ -725,17 +841,8 @@ func (f *Finder) mayBeatCost(i int, r run) bool {
 		return true
 	}
 	held := f.best[i].Projected.CostPerCase
-	lowest := math.Inf(1)
-	for _, tp := range [2]curve.Point{r.first, r.last} {
-		for _, fp := range [2]curve.Point{r.first, r.last} {
-			c := projection.Project(curve.Point{TP: tp.TP, FN: tp.FN, FP: fp.FP, TN: fp.TN}, f.a).CostPerCase
-			if math.IsNaN(c) {
-				return true
-			}
-			lowest = min(lowest, c)
-		}
-	}
-	return lowest-boundSlack*(math.Abs(lowest)+math.Abs(held)) < held-slack*math.Abs(held)
+	floor := f.costFloor(r)
+	return math.IsNaN(floor) || floor-boundSlack*(math.Abs(floor)+math.Abs(held)) < held-slack*math.Abs(held)
 }
 
 // Outcomes returns one outcome per rule, in the order given.
