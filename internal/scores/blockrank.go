@@ -86,14 +86,22 @@ func (p *blockParser) bucketBlock(blk *block) {
 		}
 		return
 	}
-	low, high, _ := encodeKeys(blk.scores, []int{0, n}, p.b.opt.LowerIsRiskier)
-	if blk.seq == 0 {
-		d.fix(low, high, n)
-	}
-	<-d.ready
+	lowerIsRiskier := p.b.opt.LowerIsRiskier
 	starts := make([]int32, blockBuckets+1)
-	for _, k := range blk.scores {
-		starts[d.bucket(math.Float64bits(k))+1]++
+	if blk.seq == 0 {
+		low, high, _ := encodeKeys(blk.scores, []int{0, n}, lowerIsRiskier)
+		d.fix(low, high, n)
+		for _, k := range blk.scores {
+			starts[d.bucket(math.Float64bits(k))+1]++
+		}
+	} else {
+		<-d.ready
+		// Turn the scores into keys and count them in one pass.
+		for i, score := range blk.scores {
+			k := riskKey(score, lowerIsRiskier)
+			blk.scores[i] = math.Float64frombits(k)
+			starts[d.bucket(k)+1]++
+		}
 	}
 	for b := range blockBuckets {
 		starts[b+1] += starts[b]
