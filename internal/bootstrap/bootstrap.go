@@ -54,10 +54,14 @@
 // draw of mean its weight, which needs no whole numbers, drawn as each
 // class's Poisson total split down the same tree (independent Poisson
 // counts, exactly in distribution). Sampling weights make the rows the
-// units drawn: rows are drawn row by row, eagerly, and carry their
-// weights along, so their work grows with the rows; callers pick
-// WithinClass when the weights are constant within each class (a class
-// downsampled) and Ordinary otherwise.
+// units drawn, each drawn row carrying its weight. When the weights are
+// alike within each class (a class downsampled; callers then pick
+// WithinClass) the cells count rows and a replicate is drawn lazily as
+// above, each drawn row of a class weighing the class's weight. Sampling
+// weights that vary within a class keep the eager draw: rows drawn one by
+// one from their own generator, seeded with (Seed, b), every replicate
+// built and its cuts searched in full, so that work grows with the rows
+// times the replicates; callers pick Ordinary for them.
 //
 // Which cases a cut flags follows the cut rule in the doc of package
 // scores. Percentiles interpolate linearly between order statistics
@@ -65,7 +69,7 @@
 //
 // Every draw of replicate b comes from its own generator: a split from
 // one seeded by a hash of (Seed, b, class, node), rows of sampling
-// weights from one seeded with (Seed, b). So no draw depends on the order
+// weights that vary within a class from one seeded with (Seed, b). So no draw depends on the order
 // in which the rules ask, and the result depends on Seed, Replicates and
 // Design only, never on the number of workers or their timing.
 package bootstrap
@@ -228,6 +232,12 @@ func Run(ctx context.Context, set *scores.Set, rules []cutrule.Rule, a projectio
 		base = set
 	} else {
 		tree = newCellTree(base, opt.Design, poissonCells)
+		if opt.Sampling && set.Weighted() {
+			// Rows of sampling weights alike within each class: the
+			// cells count rows, each drawn row weighing its class's weight.
+			tree.classWeight, _ = classWeights(set)
+			tree.sampling = true
+		}
 	}
 	band := bandCuts(base, opt.BandCuts)
 
@@ -370,7 +380,8 @@ func bandCuts(set *scores.Set, k int) []bandCut {
 }
 
 // drawer draws replicates and applies the rules to them: a
-// lazyReplicate for cells, a replicator for rows of sampling weights.
+// lazyReplicate for cells, a replicator for rows of sampling weights that
+// vary within a class.
 type drawer interface {
 	// outcomes draws replicate b and returns each rule's outcome on it.
 	outcomes(seed, b uint64, rules []cutrule.Rule, a projection.Assumptions) ([]cutrule.Outcome, error)
@@ -388,8 +399,8 @@ func newDrawer(set *scores.Set, design Design, tree *cellTree) drawer {
 	return newReplicator(set, design)
 }
 
-// replicator draws replicates of a set of rows of sampling weights,
-// reusing its buffers: each group's rows (all of them, or each class)
+// replicator draws replicates of a set of rows of sampling weights that
+// vary within a class, reusing its buffers: each group's rows (all of them, or each class)
 // drawn with replacement, as many as the group has, the drawn rows
 // carrying their weights along. Its work grows with the rows.
 type replicator struct {
@@ -441,12 +452,15 @@ func (r *replicator) outcomes(seed, b uint64, rules []cutrule.Rule, a projection
 
 // cellsOf returns set's cells: a counts table with one row per distinct
 // score and label, in ranked order, counting its cases (the summed
-// frequency weights of a weighted set). Rows of sampling weights have no
-// cells (nil). Frequency weights that do not add up to whole numbers in
-// every cell give a weighted set of the cells instead, and poisson set:
-// each cell's cases are then drawn as a Poisson count.
+// frequency weights of a weighted set). Rows of sampling weights, the
+// units drawn, count as one case each when the weights are constant
+// within each class (classWeights), and otherwise have no cells (nil).
+// Frequency weights that do not add up to whole numbers in every cell
+// give a weighted set of the cells instead, and poisson set: each cell's
+// cases are then drawn as a Poisson count.
 func cellsOf(set *scores.Set, sampling bool) (cells *scores.Set, poisson bool, err error) {
-	if set.Weighted() && sampling {
+	countRows := set.Weighted() && sampling
+	if _, constant := classWeights(set); countRows && !constant {
 		return nil, false, nil
 	}
 	var sc, counts []float64
@@ -456,7 +470,7 @@ func cellsOf(set *scores.Set, sampling bool) (cells *scores.Set, poisson bool, e
 		var positives, negatives float64
 		for ; j < set.Len() && set.Scores()[j] == set.Scores()[i]; j++ {
 			cases := float64(set.CasesAt(j))
-			if set.Weighted() {
+			if set.Weighted() && !countRows {
 				cases = set.Weight(j)
 			}
 			if set.Labels()[j] {
@@ -483,6 +497,27 @@ func cellsOf(set *scores.Set, sampling bool) (cells *scores.Set, poisson bool, e
 	}
 	cells, err = scores.NewCounts(sc, labels, counts, set.LowerIsRiskier())
 	return cells, false, err
+}
+
+// classWeights returns the weight of every true row and of every false
+// row of a weighted set when each class's rows weigh alike, more than 0.
+func classWeights(set *scores.Set) (weights [2]float64, constant bool) {
+	if !set.Weighted() {
+		return [2]float64{1, 1}, true
+	}
+	seen := [2]bool{}
+	for i, positive := range set.Labels() {
+		c := 1
+		if positive {
+			c = 0
+		}
+		w := set.Weight(i)
+		if seen[c] && w != weights[c] || !(w > 0) {
+			return [2]float64{}, false
+		}
+		weights[c], seen[c] = w, true
+	}
+	return weights, true
 }
 
 // poisson draws from the Poisson distribution of mean m: by inversion

@@ -28,6 +28,10 @@ type cellTree struct {
 	// numbers, and each class's total is a Poisson draw of mean its
 	// weight.
 	poisson bool
+	// sampling: the cells count rows of sampling weights, each row of
+	// class c weighing classWeight[c] (1 for every other set).
+	sampling    bool
+	classWeight [2]float64
 }
 
 // classCells is one class's cells: before[j] the cases of its cells
@@ -45,7 +49,7 @@ func (c *classCells) cellCount() int { return len(c.before) - 1 }
 // newCellTree returns the tree of cells, a counts table or the weighted
 // cells of cellsOf, in ranked order.
 func newCellTree(cells *scores.Set, design Design, poisson bool) *cellTree {
-	t := &cellTree{cells: cells, design: design, poisson: poisson, cutScore: make([]float64, 0, cells.Len())}
+	t := &cellTree{cells: cells, design: design, poisson: poisson, classWeight: [2]float64{1, 1}, cutScore: make([]float64, 0, cells.Len())}
 	for c := range t.classes {
 		t.classes[c].before = append(make([]float64, 0, cells.Len()+1), 0)
 		t.cutCells[c] = make([]int32, 0, cells.Len())
@@ -203,9 +207,10 @@ func (r *lazyReplicate) Len() int { return len(r.tree.cutScore) - r.first }
 func (r *lazyReplicate) At(i int) curve.Point {
 	k := r.first + i
 	tp, fp := r.classesAt(k)
+	w := r.tree.classWeight
 	p := curve.Point{Index: i, Score: r.tree.cutScore[k], Rows: int(r.tree.cutCells[0][k] + r.tree.cutCells[1][k]), Cases: tp + fp,
-		TP: float64(tp), FP: float64(fp), FN: float64(r.total[0] - tp), TN: float64(r.total[1] - fp)}
-	p.Squares = [4]float64{p.TP, p.FP, p.FN, p.TN}
+		TP: w[0] * float64(tp), FP: w[1] * float64(fp), FN: w[0] * float64(r.total[0]-tp), TN: w[1] * float64(r.total[1]-fp)}
+	p.Squares = [4]float64{w[0] * p.TP, w[1] * p.FP, w[0] * p.FN, w[1] * p.TN}
 	return p
 }
 
@@ -267,7 +272,8 @@ func mix(z uint64) uint64 {
 // met at a cut where no case was drawn takes the cut where its cases were.
 func (r *lazyReplicate) outcomes(seed, b uint64, rules []cutrule.Rule, a projection.Assumptions) ([]cutrule.Outcome, error) {
 	r.draw(seed, b)
-	finder, err := cutrule.NewTotalsFinder(rules, float64(r.total[0]), float64(r.total[1]), r.tree.cells.LowerIsRiskier(), a)
+	w := r.tree.classWeight
+	finder, err := cutrule.NewTotalsFinder(rules, w[0]*float64(r.total[0]), w[1]*float64(r.total[1]), r.tree.cells.LowerIsRiskier(), r.tree.sampling, a)
 	if err != nil {
 		return nil, err
 	}
@@ -291,7 +297,8 @@ func (r *lazyReplicate) band(cuts []bandCut, b int, recallAt, fdrAt [][]float64)
 			recallAt[j][b] = float64(tp) / float64(r.total[0])
 		}
 		if tp+fp > 0 {
-			fdrAt[j][b] = float64(fp) / float64(tp+fp)
+			w := r.tree.classWeight
+			fdrAt[j][b] = w[1] * float64(fp) / (w[0]*float64(tp) + w[1]*float64(fp))
 		}
 	}
 }

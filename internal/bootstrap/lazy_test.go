@@ -20,15 +20,19 @@ import (
 // of the questions). Seeded random counts tables: 200 trials, 1 to 300
 // cells on 2 to 200 score values (ties between the classes), whole counts
 // of 1 to 3 cases or a few large ones (in one trial of five, frequency
-// weights with halves, drawn by the Poisson tree), both directions, both designs, at
+// weights with halves, drawn by the Poisson tree; in another, rows of
+// sampling weights alike within each class), both directions, both designs, at
 // random production assumptions with costs; rule values at random and at
 // figures of the full replicate (where ties with the value occur).
 func TestLazyMatchesDrawnInFull(t *testing.T) {
 	rng := rand.New(rand.NewPCG(41, 2026))
 	for trial := range 200 {
-		cells, poissonCells := randomCells(t, rng, trial)
+		cells, poissonCells, sampling := randomCells(t, rng, trial)
 		design := []Design{Ordinary, WithinClass}[trial%2]
 		tree := newCellTree(cells, design, poissonCells)
+		if sampling {
+			tree.sampling, tree.classWeight = true, sampledWeights
+		}
 		lazy, full := newLazyReplicate(tree), newLazyReplicate(tree)
 		a := projection.Assumptions{
 			BaseRate:   []float64{0.02, 0.3, 0.5, 0.9}[rng.IntN(4)],
@@ -46,6 +50,9 @@ func TestLazyMatchesDrawnInFull(t *testing.T) {
 			drawn := make([]float64, cells.Len())
 			full.fill(drawn)
 			rep := drawnSet(t, cells, drawn)
+			if sampling {
+				rep = drawnRows(t, cells, drawn)
+			}
 			c := curve.New(rep)
 			if c.Len() == 0 { // a Poisson replicate may draw nothing
 				if lazy.draw(uint64(trial), b); lazy.Len() != 0 {
@@ -98,10 +105,39 @@ func drawnSet(t *testing.T, cells *scores.Set, drawn []float64) *scores.Set {
 	return rep
 }
 
+// drawnRows returns the rows of sampling weights drawn: drawn[i] rows of
+// cell i, each of its class's weight in sampledWeights.
+func drawnRows(t *testing.T, cells *scores.Set, drawn []float64) *scores.Set {
+	t.Helper()
+	var sc, weights []float64
+	var labels []bool
+	for i, d := range drawn {
+		w := sampledWeights[1]
+		if cells.Labels()[i] {
+			w = sampledWeights[0]
+		}
+		for range int(d) {
+			sc, labels, weights = append(sc, cells.Scores()[i]), append(labels, cells.Labels()[i]), append(weights, w)
+		}
+	}
+	rep, err := scores.NewSet(scores.Columns{Scores: sc, Labels: labels, Weights: weights, WeightColumn: "w", LowerIsRiskier: cells.LowerIsRiskier()})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return rep
+}
+
+// sampledWeights are the class weights (true, false) of the trials of
+// sampling weights in TestLazyMatchesDrawnInFull: false cases kept 1 in
+// 8, powers of 2 so that sums of them are exact whatever their order.
+var sampledWeights = [2]float64{1, 8}
+
 // randomCells returns random cells (one row per score and label) for
-// TestLazyMatchesDrawnInFull: a counts table, or in one trial of five
-// the weighted cells of frequency weights with halves (poisson).
-func randomCells(t *testing.T, rng *rand.Rand, trial int) (cells *scores.Set, poisson bool) {
+// TestLazyMatchesDrawnInFull: a counts table; in one trial of five the
+// weighted cells of frequency weights with halves (poisson); in another
+// the rows of sampling weights alike within each class (sampledWeights,
+// the cells counting rows).
+func randomCells(t *testing.T, rng *rand.Rand, trial int) (cells *scores.Set, poisson, sampling bool) {
 	t.Helper()
 	values := 2 + rng.IntN(200)
 	n := 1 + rng.IntN(300)
@@ -134,17 +170,43 @@ func randomCells(t *testing.T, rng *rand.Rand, trial int) (cells *scores.Set, po
 		}
 		set, err = scores.NewSet(scores.Columns{Scores: sc, Labels: labels, Weights: counts, LowerIsRiskier: trial%4 == 1})
 	}
+	sampling = trial%5 == 3
+	if sampling {
+		set = sampledRows(t, sc, labels, counts, trial%4 == 1)
+	}
 	if err != nil {
 		t.Fatal(err)
 	}
-	cells, poisson, err = cellsOf(set, false)
+	cells, poisson, err = cellsOf(set, sampling)
 	if err != nil {
 		t.Fatal(err)
 	}
-	if poisson != (trial%5 == 4) {
-		t.Fatalf("trial %d: cellsOf says poisson %v", trial, poisson)
+	if poisson != (trial%5 == 4) || cells == nil {
+		t.Fatalf("trial %d: cellsOf says poisson %v, cells %v", trial, poisson, cells != nil)
 	}
-	return cells, poisson
+	return cells, poisson, sampling
+}
+
+// sampledRows writes counts[i] rows of score sc[i] and label labels[i],
+// each weighing its class's weight in sampledWeights.
+func sampledRows(t *testing.T, sc []float64, labels []bool, counts []float64, lowerIsRiskier bool) *scores.Set {
+	t.Helper()
+	var rows, weights []float64
+	var rowLabels []bool
+	for i := range sc {
+		w := sampledWeights[1]
+		if labels[i] {
+			w = sampledWeights[0]
+		}
+		for range int(counts[i]) {
+			rows, rowLabels, weights = append(rows, sc[i]), append(rowLabels, labels[i]), append(weights, w)
+		}
+	}
+	set, err := scores.NewSet(scores.Columns{Scores: rows, Labels: rowLabels, Weights: weights, WeightColumn: "w", LowerIsRiskier: lowerIsRiskier})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return set
 }
 
 func hasBoth(labels []bool) bool {

@@ -341,21 +341,22 @@ func NewFinder(rules []Rule, set *scores.Set, a projection.Assumptions, opts ...
 	return f, nil
 }
 
-// NewTotalsFinder returns a Finder for the points of a set of unweighted
-// cases (rows or a counts table) known by its class totals alone, such as
-// a bootstrap replicate whose points are drawn as they are asked for:
-// positives true cases and negatives false cases, whole numbers, ranked
-// with lower scores riskier when lowerIsRiskier. It takes no queue90=K
-// rule (ErrNeedsShifts), and otherwise checks a as NewFinder does; it
-// finds what NewFinder's Finder finds on the set itself.
-func NewTotalsFinder(rules []Rule, positives, negatives float64, lowerIsRiskier bool, a projection.Assumptions) (*Finder, error) {
+// NewTotalsFinder returns a Finder for the points of a set known by its
+// class totals alone, such as a bootstrap replicate whose points are
+// drawn as they are asked for: positives true cases and negatives false
+// cases (weighted sums when weighted, the set's scores.Set.Weighted),
+// ranked with lower scores riskier when lowerIsRiskier. It takes no
+// queue90=K rule (ErrNeedsShifts), and otherwise checks a as NewFinder
+// does; it finds what NewFinder's Finder finds on the set itself.
+func NewTotalsFinder(rules []Rule, positives, negatives float64, lowerIsRiskier, weighted bool, a projection.Assumptions) (*Finder, error) {
 	for _, r := range rules {
 		if r.Kind == Queue90 {
 			return nil, fmt.Errorf("cut %s %w", r, ErrNeedsShifts)
 		}
 	}
 	f := newFinder(rules, a, positives, negatives, positives+negatives)
-	f.lowerIsRiskier = lowerIsRiskier
+	f.lowerIsRiskier, f.weighted = lowerIsRiskier, weighted
+	f.weightless = weighted && !(positives+negatives > 0)
 	if err := f.check(); err != nil {
 		return nil, err
 	}
