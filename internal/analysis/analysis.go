@@ -525,7 +525,9 @@ func capacityOf(a projection.Assumptions) float64 {
 // or when no case of the set has any weight.
 func (r *Result) NetBenefitAt(p curve.Point) (cut, all float64) {
 	c := r.Calibration
-	if positives, negatives := r.Set.Totals(); c == nil || !(positives+negatives > 0) {
+	// The summary's totals, as the set's are (Set.Totals walks every row:
+	// too slow for each keystroke of the explorer on a large set).
+	if sum := r.Summary; c == nil || !(sum.Positives+sum.Negatives > 0) {
 		// Without a case of weight the base rate is undefined (the 0
 		// assumed in its place must not read as flagging every case
 		// being worth 0).
