@@ -118,7 +118,14 @@ func New(res *analysis.Result, picks []Pick, chosen string, rec Record) (*File, 
 	if c := res.Calibration; c != nil {
 		f.Calibration = calibrationOf(c)
 	}
-	f.Curve = thin(res, cuts)
+	var curveSquares [][2]float64
+	f.Curve, curveSquares = thin(res, cuts)
+	if f.Data.WeightColumn != "" && f.Data.WeightKind == design.Sampling {
+		f.Data.Squares = &SquaredWeights{
+			Positives: res.Summary.PositiveSquares, Negatives: res.Summary.NegativeSquares,
+			Curve: curveSquares, Histogram: f.Data.Histogram.FillSquares(set),
+		}
+	}
 	if err := f.Validate(); err != nil {
 		return nil, err
 	}
@@ -295,13 +302,14 @@ func calibrationOf(c *analysis.Calibration) *Calibration {
 // share, hit share and false-positive rate since the last kept cut reaches
 // a step. The three shares each run from 0 to 1, so their summed change
 // along the curve is at most 3 and the steps keep at most 3/step cuts.
-func thin(res *analysis.Result, keep []float64) []CurvePoint {
+// squares are the squared weights of the true and false cases each kept
+// cut flags (SquaredWeights.Curve).
+func thin(res *analysis.Result, keep []float64) (out []CurvePoint, squares [][2]float64) {
 	if len(keep) > MaxCurvePoints-2 {
 		keep = keep[:MaxCurvePoints-2]
 	}
 	step := 3 / float64(MaxCurvePoints-2-len(keep)-1)
 	positives, negatives := res.Set.Totals()
-	var out []CurvePoint
 	var last, previous curve.Point
 	have := false
 	position := func(p curve.Point) [3]float64 {
@@ -311,7 +319,7 @@ func thin(res *analysis.Result, keep []float64) []CurvePoint {
 		point := CurvePoint{Score: p.Score, TP: p.TP, FP: p.FP}
 		switch {
 		case !have, slices.Contains(keep, p.Score):
-			out = append(out, point)
+			out, squares = append(out, point), append(squares, [2]float64{p.Squares[0], p.Squares[1]})
 			last = p
 		default:
 			a, b := position(last), position(p)
@@ -322,7 +330,7 @@ func thin(res *analysis.Result, keep []float64) []CurvePoint {
 				}
 			}
 			if moved >= step {
-				out = append(out, point)
+				out, squares = append(out, point), append(squares, [2]float64{p.Squares[0], p.Squares[1]})
 				last = p
 			}
 		}
@@ -331,13 +339,15 @@ func thin(res *analysis.Result, keep []float64) []CurvePoint {
 	res.Points(visit)
 	if have && (len(out) == 0 || out[len(out)-1].Score != previous.Score) {
 		out = append(out, CurvePoint{Score: previous.Score, TP: previous.TP, FP: previous.FP})
+		squares = append(squares, [2]float64{previous.Squares[0], previous.Squares[1]})
 	}
 	if len(out) > MaxCurvePoints {
 		// Not reached by the bound above; kept so that no input can
 		// break the format's limit.
 		out = append(out[:MaxCurvePoints-1], out[len(out)-1])
+		squares = append(squares[:MaxCurvePoints-1], squares[len(squares)-1])
 	}
-	return out
+	return out, squares
 }
 
 func ratio(num, den float64) float64 {

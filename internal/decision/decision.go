@@ -96,6 +96,40 @@ type Data struct {
 	// assumptions' confidence (key ranking); nil in a file written before
 	// it was recorded.
 	Ranking *Ranking
+
+	// Squares are the validation set's sums of squared weights (key
+	// squared_weights), written for sampling weights only, so that check
+	// reads each class's score bins at their own noise (package drift);
+	// nil for frequency weights, no weight column and files written
+	// before the key.
+	Squares *SquaredWeights
+}
+
+// SquaredWeights are sums of squared weights of the validation set, beside
+// the weighted counts of Data and Curve: with them each count's variance
+// under sampling weights is known (Kish's effective size of a class is
+// Positives²/SquaredWeights.Positives). Every figure is finite and >= 0.
+type SquaredWeights struct {
+	Positives float64 // key positives: of the true cases
+	Negatives float64 // key negatives: of the false cases
+	// Curve holds, for each point of File.Curve in its order, the squared
+	// weights of the true and false cases its cut flags (key curve, one
+	// [tp, fp] a point), growing as the cut loosens and within Positives
+	// and Negatives.
+	Curve [][2]float64
+	// Histogram holds the squared weights in each bin of
+	// Data.Histogram (key score_histogram), one per count.
+	Histogram []float64
+}
+
+// Kish returns Kish's effective size (sum w)²/(sum w²) of a count of
+// weight w with squared weights squares; w itself when squares is not
+// positive.
+func Kish(w, squares float64) float64 {
+	if !(squares > 0) {
+		return w
+	}
+	return w * w / squares
 }
 
 // Ranking is the validation set's ROC AUC and average precision, each with
@@ -233,6 +267,9 @@ func (f *File) Validate() error {
 	if err := f.Data.Histogram.validate(); err != nil {
 		return err
 	}
+	if err := f.validateSquares(); err != nil {
+		return err
+	}
 	if len(f.Candidates) == 0 {
 		return bad("candidates", "expected at least one candidate")
 	}
@@ -265,6 +302,26 @@ func (f *File) Validate() error {
 	}
 	if !seen[f.Chosen] {
 		return &ParseError{Path: "chosen", Err: fmt.Errorf("%w: %q, expected one of %s", ErrUnknownChosen, f.Chosen, f.names())}
+	}
+	return nil
+}
+
+// validateSquares reports squared weights without sampling weights, or
+// whose curve or histogram does not match the file's one for one.
+func (f *File) validateSquares() error {
+	q := f.Data.Squares
+	bad := func(format string, args ...any) error {
+		return &ParseError{Path: "data.squared_weights", Err: fmt.Errorf("%w: "+format, append([]any{ErrInvalid}, args...)...)}
+	}
+	switch {
+	case q == nil:
+		return nil
+	case f.Data.WeightColumn == "" || f.Data.WeightKind != design.Sampling:
+		return bad("squared weights with no sampling weights, expected none")
+	case len(q.Curve) != len(f.Curve):
+		return bad("%d curve pairs for %d points of the curve, expected one a point", len(q.Curve), len(f.Curve))
+	case len(q.Histogram) != len(f.Data.Histogram.Counts):
+		return bad("%d histogram values for %d bins, expected one a bin", len(q.Histogram), len(f.Data.Histogram.Counts))
 	}
 	return nil
 }

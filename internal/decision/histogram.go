@@ -95,6 +95,20 @@ func (h Histogram) Fill(set *scores.Set) []float64 {
 	return counts
 }
 
+// FillSquares returns the squared weights of set's scores in each bin of
+// h (SquaredWeights.Histogram); nil when h has no bins.
+func (h Histogram) FillSquares(set *scores.Set) []float64 {
+	if len(h.Edges) < 2 {
+		return nil
+	}
+	squares := make([]float64, len(h.Edges)-1)
+	for i, s := range set.Scores() {
+		w := set.Weight(i)
+		squares[h.Bin(s)] += w * w
+	}
+	return squares
+}
+
 // validate checks the shape described in the Histogram doc.
 func (h Histogram) validate() error {
 	bad := func(path, format string, args ...any) error {

@@ -457,6 +457,7 @@ func (r *reader) file_(doc *yaml.Node) *File {
 	if v2 {
 		f.SignOffs = r.signOffs(top["sign_offs"])
 		f.Curve = r.curve(top["curve"], f.Data)
+		r.squaresOnCurve(f)
 	}
 	if r.err == nil && len(items) == 0 {
 		r.fail(deref(top["candidates"]), "candidates", fmt.Errorf("%w: an empty list, expected at least one candidate", ErrInvalid))
@@ -582,7 +583,7 @@ func (r *reader) failAt(path string, err error) {
 func (r *reader) data(n *yaml.Node) Data {
 	m := r.fields(n, "data",
 		[]string{"path", "sha256", "rows", "positives", "score_column", "label_column", "lower_is_riskier", "score_histogram"},
-		[]string{"negatives", "weight_column", "weight_kind", "ranking"})
+		[]string{"negatives", "weight_column", "weight_kind", "ranking", "squared_weights"})
 	d := Data{
 		Path:           r.str(m["path"], "data.path"),
 		SHA256:         r.str(m["sha256"], "data.sha256"),
@@ -615,6 +616,9 @@ func (r *reader) data(n *yaml.Node) Data {
 	}
 	if v, ok := m["ranking"]; ok && !isNull(v) {
 		d.Ranking = r.ranking(v)
+	}
+	if v, ok := m["squared_weights"]; ok && !isNull(v) {
+		d.Squares = r.squares(v, d)
 	}
 	return d
 }

@@ -10,6 +10,7 @@ import (
 	"go.yaml.in/yaml/v3"
 
 	"github.com/sill-tool/sill/internal/cutrule"
+	"github.com/sill-tool/sill/internal/design"
 	"github.com/sill-tool/sill/internal/evidence"
 )
 
@@ -383,4 +384,62 @@ func stricter(a, b float64, lowerIsRiskier bool) bool {
 		return a < b
 	}
 	return a > b
+}
+
+// squares reads data.squared_weights (SquaredWeights), allowed with
+// sampling weights only: every figure a count >= 0, the histogram's one
+// a bin, the curve's [tp, fp] pairs growing and within the class totals
+// (their number is checked against the curve by squaresOnCurve).
+func (r *reader) squares(n *yaml.Node, d Data) *SquaredWeights {
+	const path = "data.squared_weights"
+	if r.err == nil && (d.WeightColumn == "" || d.WeightKind != design.Sampling) {
+		r.fail(deref(n), path, fmt.Errorf("%w: squared weights with no sampling weights, expected null or no key (they are written for weight_kind sampling only)", ErrInvalid))
+	}
+	m := r.fields(n, path, []string{"positives", "negatives", "curve", "score_histogram"}, nil)
+	out := &SquaredWeights{
+		Positives: r.count(m["positives"], path+".positives"),
+		Negatives: r.count(m["negatives"], path+".negatives"),
+	}
+	out.Histogram = r.numbers(m["score_histogram"], path+".score_histogram")
+	for i, v := range out.Histogram {
+		if r.err == nil && v < 0 {
+			r.fail(deref(m["score_histogram"]).Content[i], fmt.Sprintf("%s.score_histogram[%d]", path, i), fmt.Errorf("%w: %v, expected a count >= 0", ErrInvalid, v))
+		}
+	}
+	if r.err == nil && len(out.Histogram) != len(d.Histogram.Counts) {
+		r.fail(deref(m["score_histogram"]), path+".score_histogram", fmt.Errorf("%w: %d values for %d histogram bins, expected one a bin", ErrInvalid, len(out.Histogram), len(d.Histogram.Counts)))
+	}
+	for i, item := range r.list(m["curve"], path+".curve") {
+		p := fmt.Sprintf("%s.curve[%d]", path, i)
+		values := r.list(item, p)
+		if r.err == nil && len(values) != 2 {
+			r.fail(deref(item), p, fmt.Errorf("%w: %d values, expected [tp, fp]", ErrInvalid, len(values)))
+		}
+		if r.err != nil {
+			return nil
+		}
+		pair := [2]float64{r.count(values[0], p+"[0]"), r.count(values[1], p+"[1]")}
+		switch {
+		case r.err != nil:
+		case pair[0] > out.Positives*(1+countTolerance)+countTolerance || pair[1] > out.Negatives*(1+countTolerance)+countTolerance:
+			r.fail(deref(item), p, fmt.Errorf("%w: [%v, %v], expected at most the totals [%v, %v]", ErrInvalid, pair[0], pair[1], out.Positives, out.Negatives))
+		case i > 0 && (pair[0] < out.Curve[i-1][0] || pair[1] < out.Curve[i-1][1]):
+			r.fail(deref(item), p, fmt.Errorf("%w: below the stricter cut's, expected squared weights that grow as the cut loosens", ErrInvalid))
+		}
+		out.Curve = append(out.Curve, pair)
+	}
+	if r.err != nil {
+		return nil
+	}
+	return out
+}
+
+// squaresOnCurve fails when data.squared_weights.curve does not hold one
+// pair for each point of the curve.
+func (r *reader) squaresOnCurve(f *File) {
+	s := f.Data.Squares
+	if r.err != nil || s == nil || len(s.Curve) == len(f.Curve) {
+		return
+	}
+	r.failAt("data.squared_weights.curve", fmt.Errorf("%w: %d pairs for %d points of the curve, expected one a point", ErrInvalid, len(s.Curve), len(f.Curve)))
 }

@@ -5,6 +5,7 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 	"time"
@@ -135,6 +136,12 @@ func Marshal(f *File) ([]byte, error) {
 		"sign_offs", signOffsNode(f.SignOffs),
 		"curve", curveNode(f.Curve),
 	)
+	if d.Squares != nil {
+		data := doc.Content[2*slices.Index(keysOf(doc), "data")+1]
+		key := str("squared_weights")
+		key.HeadComment = "sums of squared weights (sampling weights): of the true and false cases, in each histogram bin,\nand [tp, fp] flagged at each cut of the curve, in its order"
+		data.Content = append(data.Content, key, squaresNode(d.Squares))
+	}
 	doc.HeadComment = "sill decision file. The chosen cut flags a case when its score is " + format.CutSign(d.LowerIsRiskier) +
 		" the chosen candidate's score;\nthe figures are the evidence it was chosen on. Read it with: sill review FILE"
 	var buf bytes.Buffer
@@ -510,4 +517,30 @@ func weightKind(d Data) *yaml.Node {
 		return null()
 	}
 	return str(d.WeightKind.String())
+}
+
+// keysOf returns the keys of mapping n in order.
+func keysOf(n *yaml.Node) []string {
+	var keys []string
+	for i := 0; i+1 < len(n.Content); i += 2 {
+		keys = append(keys, n.Content[i].Value)
+	}
+	return keys
+}
+
+// squaresNode writes data.squared_weights, the curve one [tp, fp] a line.
+func squaresNode(s *SquaredWeights) *yaml.Node {
+	curve := &yaml.Node{Kind: yaml.SequenceNode}
+	if len(s.Curve) == 0 {
+		curve.Style = yaml.FlowStyle
+	}
+	for _, p := range s.Curve {
+		curve.Content = append(curve.Content, flowList(p[0], p[1]))
+	}
+	return mapping(
+		"positives", num(s.Positives),
+		"negatives", num(s.Negatives),
+		"score_histogram", flowList(s.Histogram...),
+		"curve", curve,
+	)
 }

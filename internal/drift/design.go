@@ -44,42 +44,43 @@ func kishSize(counts, squares []float64) float64 {
 	return w * w / s
 }
 
-// designHomogeneity compares validation counts (at their effective size,
-// read as a multinomial sample of that size) with the weighted counts of
-// a sample under sampling weights (fresh, with its bins' squared weights)
-// by Pearson's statistic on the shares with the first-order correction
-// of Rao and Scott (1981, "The analysis of categorical data from complex
-// sample surveys: chi-squared tests for goodness of fit and independence
-// in two-way tables", Journal of the American Statistical Association
-// 76; from memory): the statistic sum_j (a_j − b_j)² / p_j, with p_j the
-// shares pooled at the two effective sizes, is divided by its expectation
-// under no change, sum_j (var a_j + var b_j) / p_j, and multiplied by the
-// degrees of freedom (bins in use less one), so that it reads against
-// the chi-square distribution. For weights of 1 it is close to Pearson's
-// test of HomogeneityTest. The slices have one length (a panic
-// otherwise); with either side empty or fewer than two bins in use every
-// figure is NaN (freedom 0).
-func designHomogeneity(validation, fresh, freshSquares []float64) (statistic float64, freedom int, p float64) {
-	if len(validation) != len(fresh) || len(fresh) != len(freshSquares) {
+// designHomogeneity compares the weighted counts of two samples over the
+// same bins, each with its bins' squared weights (validation and
+// validationSquares, fresh and freshSquares; counts as their own squares
+// read a side as a multinomial sample of its total, as frequency weights
+// or a side already at its effective size), by Pearson's statistic on
+// the shares with the first-order correction of Rao and Scott (1981,
+// "The analysis of categorical data from complex sample surveys:
+// chi-squared tests for goodness of fit and independence in two-way
+// tables", Journal of the American Statistical Association 76; from
+// memory): the statistic sum_j (a_j − b_j)² / p_j, with p_j the shares
+// pooled at the two sides' Kish sizes, is divided by its expectation
+// under no change, sum_j (var a_j + var b_j) / p_j (binShares), and
+// multiplied by the degrees of freedom (bins in use less one), so that
+// it reads against the chi-square distribution. For weights of 1 it is
+// close to Pearson's test of HomogeneityTest. The slices have one length
+// (a panic otherwise); with either side empty or fewer than two bins in
+// use every figure is NaN (freedom 0).
+func designHomogeneity(validation, validationSquares, fresh, freshSquares []float64) (statistic float64, freedom int, p float64) {
+	if len(validation) != len(fresh) || len(fresh) != len(freshSquares) || len(validation) != len(validationSquares) {
 		panic("drift: designHomogeneity got slices of different lengths")
 	}
-	na := sum(validation)
+	a, va := binShares(validation, validationSquares)
 	b, vb := binShares(fresh, freshSquares)
-	if !(na > 0) || b == nil {
+	if a == nil || b == nil {
 		return math.NaN(), 0, math.NaN()
 	}
-	nb := kishSize(fresh, freshSquares)
+	na, nb := kishSize(validation, validationSquares), kishSize(fresh, freshSquares)
 	var gap, noise float64
 	used := 0
 	for j := range validation {
-		a := validation[j] / na
-		pooled := (na*a + nb*b[j]) / (na + nb)
+		pooled := (na*a[j] + nb*b[j]) / (na + nb)
 		if !(pooled > 0) {
 			continue
 		}
 		used++
-		gap += (a - b[j]) * (a - b[j]) / pooled
-		noise += (a*(1-a)/na + vb[j]) / pooled
+		gap += (a[j] - b[j]) * (a[j] - b[j]) / pooled
+		noise += (va[j] + vb[j]) / pooled
 	}
 	freedom = used - 1
 	if freedom < 1 || !(noise > 0) {

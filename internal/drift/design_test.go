@@ -34,7 +34,7 @@ func TestDesignHomogeneity(t *testing.T) {
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
-			s, k, p := designHomogeneity(tt.validation, tt.fresh, tt.sq)
+			s, k, p := designHomogeneity(tt.validation, tt.validation, tt.fresh, tt.sq)
 			if !floatcmp.Within(s, tt.statistic, 1e-5) || k != tt.freedom {
 				t.Errorf("statistic %v on %d, want %v on %d", s, k, tt.statistic, tt.freedom)
 			}
@@ -63,6 +63,26 @@ func TestDesignEffect(t *testing.T) {
 		effect, n := designEffect(tt.counts, tt.squares)
 		if !floatcmp.Within(effect, tt.effect, 1e-9) || !floatcmp.Within(n, tt.n, 1e-9) {
 			t.Errorf("designEffect(%v, %v) = %v, %v; want %v, %v", tt.counts, tt.squares, effect, n, tt.effect, tt.n)
+		}
+	}
+}
+
+// TestDesignHomogeneityValidationSquares: the validation side's squared
+// weights count as the new data's do; the formula is symmetric in the two
+// sides, so the weighted case of TestDesignHomogeneity with the sides
+// swapped gives its 5.3050 (by hand there), and with the validation's
+// squares equal to its counts it is the weights-of-1 case, 8.6957.
+func TestDesignHomogeneityValidationSquares(t *testing.T) {
+	for _, tt := range []struct {
+		squares   []float64
+		statistic float64
+	}{
+		{[]float64{90, 70}, 5.305040},
+		{[]float64{30, 70}, 8.695652},
+	} {
+		s, k, _ := designHomogeneity([]float64{30, 70}, tt.squares, []float64{50, 50}, []float64{50, 50})
+		if !floatcmp.Within(s, tt.statistic, 1e-5) || k != 1 {
+			t.Errorf("validation squares %v: statistic %v on %d, want %v on 1", tt.squares, s, k, tt.statistic)
 		}
 	}
 }

@@ -22,7 +22,10 @@
 // decision file records, the new data's as Options.Sample gives
 // (frequency weights when nil). Under sampling weights each share, and
 // each class's score distribution, is tested at its effective sample
-// size.
+// size; when the decision file keeps its squared weights
+// (data.squared_weights, decision.SquaredWeights) each bin of a
+// validated class's scores counts at its own variance, and the PSI's
+// validation side at Kish's effective size of its histogram.
 package drift
 
 import (
@@ -338,11 +341,18 @@ func check(f *decision.File, chosen decision.Candidate, t tally, opt Options) *R
 			validationWeight += c
 		}
 		// At the effective sizes of both sides (the weights themselves
-		// with frequency weights).
+		// with frequency weights): the validation side's is Kish's size
+		// of its histogram when the file keeps the squared weights, else
+		// the base rate's effective trials (which for downsampled false
+		// cases count them at their weight, several times the rows).
+		size := val.cases
+		if q := f.Data.Squares; q != nil && len(q.Histogram) == len(h.Counts) && sum(q.Histogram) > 0 {
+			size = kishSize(h.Counts, q.Histogram)
+		}
 		counts := h.Counts
-		if val.cases != validationWeight && validationWeight > 0 {
-			counts = scaled(h.Counts, val.cases/validationWeight)
-			validationWeight = val.cases
+		if size != validationWeight && validationWeight > 0 {
+			counts = scaled(h.Counts, size/validationWeight)
+			validationWeight = size
 		}
 		res.PSINoise = PSINoise(res.Bins, fresh.all, validationWeight)
 		res.PSINoiseLevel = PSINoiseLevel(counts, fresh.all)

@@ -17,6 +17,10 @@ type classBins struct {
 	lowerIsRiskier bool
 	positives      []float64 // validation true cases per bin
 	negatives      []float64 // validation false cases per bin
+	// The squared weights of the validation true and false cases per bin,
+	// from the file's data.squared_weights (sampling weights); nil when
+	// the file has none.
+	positiveSquares, negativeSquares []float64
 }
 
 // maxClassBins bounds the bins cut from the curve: ten bins keep ten or
@@ -39,7 +43,12 @@ func newClassBins(f *decision.File, bins int, share func(tp, fp float64) float64
 		return classBins{}, false
 	}
 	b := classBins{lowerIsRiskier: f.Data.LowerIsRiskier}
-	var tp, fp float64 // cumulative at the previous end
+	squares := f.Data.Squares
+	if squares != nil && len(squares.Curve) != len(curve) {
+		squares = nil // not reached for a file read or built by package decision
+	}
+	var tp, fp float64               // cumulative at the previous end
+	var tpSquares, fpSquares float64 // likewise
 	next := 1
 	for i, p := range curve {
 		if i < len(curve)-1 && share(p.TP, p.FP) < float64(next)*total/float64(bins) {
@@ -52,6 +61,12 @@ func newClassBins(f *decision.File, bins int, share func(tp, fp float64) float64
 		b.positives = append(b.positives, p.TP-tp)
 		b.negatives = append(b.negatives, p.FP-fp)
 		tp, fp = p.TP, p.FP
+		if squares != nil {
+			q := squares.Curve[i]
+			b.positiveSquares = append(b.positiveSquares, math.Max(0, q[0]-tpSquares))
+			b.negativeSquares = append(b.negativeSquares, math.Max(0, q[1]-fpSquares))
+			tpSquares, fpSquares = q[0], q[1]
+		}
 		for next < bins && share(p.TP, p.FP) >= float64(next)*total/float64(bins) {
 			next++
 		}
@@ -60,6 +75,10 @@ func newClassBins(f *decision.File, bins int, share func(tp, fp float64) float64
 	// the last bin.
 	b.positives[len(b.positives)-1] += math.Max(0, f.Data.Positives-tp)
 	b.negatives[len(b.negatives)-1] += math.Max(0, f.Data.Negatives-fp)
+	if squares != nil {
+		b.positiveSquares[len(b.positiveSquares)-1] += math.Max(0, squares.Positives-tpSquares)
+		b.negativeSquares[len(b.negativeSquares)-1] += math.Max(0, squares.Negatives-fpSquares)
+	}
 	return b, len(b.ends) >= 2
 }
 

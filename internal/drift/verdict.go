@@ -89,13 +89,23 @@ func judgeLabelled(res *Result, f *decision.File, chosen decision.Candidate, t t
 	}
 	if t.byPositives != nil {
 		// Each side's bins at its class's effective size (unchanged for
-		// frequency weights); the new data's under sampling weights bin
-		// by bin (designHomogeneity).
+		// frequency weights); bin by bin (designHomogeneity) for new data
+		// under sampling weights and for a file that keeps its squared
+		// weights (data.squared_weights), whose class bins then count at
+		// their own noise: one size for a class thinned by score read
+		// its thinned bins at the rows of the others and alarmed on noise.
 		validationPositives := atSize(t.byPositives.positives, val.positives, valPositives)
 		validationNegatives := atSize(t.byNegatives.negatives, val.negatives, valNegatives)
-		if opt.Sample.Sampling() {
-			res.ScoresPositive = scoreTestDesign(validationPositives, t.newPositives, t.newPositiveSquares)
-			res.ScoresNegative = scoreTestDesign(validationNegatives, t.newNegatives, t.newNegativeSquares)
+		if opt.Sample.Sampling() || t.byPositives.positiveSquares != nil {
+			freshPositiveSquares, freshNegativeSquares := t.newPositives, t.newNegatives
+			if opt.Sample.Sampling() {
+				freshPositiveSquares, freshNegativeSquares = t.newPositiveSquares, t.newNegativeSquares
+			}
+			if t.byPositives.positiveSquares != nil {
+				validationPositives, validationNegatives = t.byPositives.positives, t.byNegatives.negatives
+			}
+			res.ScoresPositive = scoreTestDesign(validationPositives, t.byPositives.positiveSquares, t.newPositives, freshPositiveSquares)
+			res.ScoresNegative = scoreTestDesign(validationNegatives, t.byNegatives.negativeSquares, t.newNegatives, freshNegativeSquares)
 		} else {
 			res.ScoresPositive = scoreTest(validationPositives, t.newPositives)
 			res.ScoresNegative = scoreTest(validationNegatives, t.newNegatives)
@@ -130,6 +140,16 @@ func judgeUnlabelled(res *Result, f *decision.File, t tally, opt Options) {
 	if val.positives > 0 && val.negatives > 0 {
 		P, N = val.positives, val.negatives
 	}
+	// A file that keeps its squared weights gives each bin's share its
+	// own variance (binShares); the class sizes are then Kish's.
+	var v1, v0 []float64
+	if b.positiveSquares != nil {
+		_, v1 = binShares(b.positives, b.positiveSquares)
+		_, v0 = binShares(b.negatives, b.negativeSquares)
+		if v1 != nil && v0 != nil {
+			P, N = kishSize(b.positives, b.positiveSquares), kishSize(b.negatives, b.negativeSquares)
+		}
+	}
 	// The new data's own noise: a multinomial sample of their weight
 	// (frequency weights), or under sampling weights one of Kish's
 	// effective size times the bins' mean design effect (designEffect).
@@ -137,7 +157,7 @@ func judgeUnlabelled(res *Result, f *decision.File, t tally, opt Options) {
 	if opt.Sample.Sampling() {
 		effect, n = designEffect(t.mixed, t.mixedSquares)
 	}
-	m := FitMixture(atSize(t.mixed, n, t.weight), f1, f0, f.Assumptions.Confidence, mixtureInflation(f1, f0, P, N, n, effect))
+	m := FitMixture(atSize(t.mixed, n, t.weight), f1, f0, f.Assumptions.Confidence, mixtureInflation(f1, f0, v1, v0, P, N, n, effect))
 	res.Mixture = &m
 	res.BaseRateObserved, res.BaseRateCI = m.BaseRate, m.CI
 	res.BaseRateMethod = "maximum likelihood of the scores as a mixture of the validated classes, profile-likelihood interval"
@@ -168,17 +188,22 @@ func scoreTest(validation, fresh []float64) ScoreTest {
 	return ScoreTest{Defined: !math.IsNaN(p), Bins: len(a), Statistic: s, Freedom: k, PValue: p}
 }
 
-// scoreTestDesign is scoreTest for new data under sampling weights:
-// fresh are their weighted counts and squares their squared weights per
-// bin; bins are merged on the counts at Kish's effective size and
-// compared by designHomogeneity.
-func scoreTestDesign(validation, fresh, squares []float64) ScoreTest {
-	n := kishSize(fresh, squares)
-	a, _, merged := mergeSmall(validation, atSize(fresh, n, sum(fresh)), 5, fresh, squares)
+// scoreTestDesign is scoreTest bin by bin: fresh are the new data's
+// weighted counts and freshSquares their squared weights per bin,
+// validation the validated class's counts with validationSquares (nil:
+// validation is at its effective size, a multinomial sample); bins are
+// merged on both sides' counts at Kish's effective size and compared by
+// designHomogeneity.
+func scoreTestDesign(validation, validationSquares, fresh, freshSquares []float64) ScoreTest {
+	if validationSquares == nil {
+		validationSquares = validation
+	}
+	na, nb := kishSize(validation, validationSquares), kishSize(fresh, freshSquares)
+	a, _, merged := mergeSmall(atSize(validation, na, sum(validation)), atSize(fresh, nb, sum(fresh)), 5, validation, validationSquares, fresh, freshSquares)
 	if len(a) < 2 {
 		return ScoreTest{PValue: math.NaN(), Statistic: math.NaN()}
 	}
-	s, k, p := designHomogeneity(a, merged[0], merged[1])
+	s, k, p := designHomogeneity(merged[0], merged[1], merged[2], merged[3])
 	return ScoreTest{Defined: !math.IsNaN(p), Bins: len(a), Statistic: s, Freedom: k, PValue: p}
 }
 
@@ -297,13 +322,21 @@ func atSize(counts []float64, size, weight float64) []float64 {
 // mixtureInflation returns the factor FitMixture divides the new data's
 // deviance by: the mean over the bins in use of the variance of a bin's
 // share of n new cases less its fitted mixture share, over the
-// multinomial variance of n cases (the first-order design effect of Rao
+// multinomial variance of n new cases (the first-order design effect of Rao
 // and Scott 1981, from memory). The new data's part is effect (1 for a
 // multinomial sample of n, the bins' mean design effect under sampling
 // weights); the validated shares f1 and f0, estimated from P true and N
-// false cases, add p^2 f1(1-f1)/P + (1-p)^2 f0(1-f0)/N bin by bin, so
-// that a bin of true cases is not charged the noise of the false ones.
-func mixtureInflation(f1, f0 []float64, P, N, n, effect float64) func(p float64) float64 {
+// false cases, add p^2 var f1 + (1-p)^2 var f0 bin by bin, so that a bin
+// of true cases is not charged the noise of the false ones. var f1 is
+// v1 (the shares' variances under sampling weights), or f1(1-f1)/P when
+// v1 is nil; likewise var f0.
+func mixtureInflation(f1, f0, v1, v0 []float64, P, N, n, effect float64) func(p float64) float64 {
+	variance := func(f, v []float64, size float64, j int) float64 {
+		if v != nil {
+			return v[j]
+		}
+		return f[j] * (1 - f[j]) / size
+	}
 	return func(p float64) float64 {
 		var ratio float64
 		used := 0
@@ -313,7 +346,7 @@ func mixtureInflation(f1, f0 []float64, P, N, n, effect float64) func(p float64)
 				continue
 			}
 			used++
-			ratio += (p*p*f1[j]*(1-f1[j])/P + (1-p)*(1-p)*f0[j]*(1-f0[j])/N) / share
+			ratio += (p*p*variance(f1, v1, P, j) + (1-p)*(1-p)*variance(f0, v0, N, j)) / share
 		}
 		if used < 2 {
 			return effect + n*(p*p/P+(1-p)*(1-p)/N)

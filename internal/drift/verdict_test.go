@@ -35,10 +35,12 @@ func quickFileWith(t testing.TB, set *scores.Set, base float64, sample *design.S
 		a.BaseRate = base
 	}
 	var points []decision.CurvePoint
+	var curveSquares [][2]float64
 	var chosen curve.Point
 	found := false
 	curve.Walk(set, func(p curve.Point) {
 		points = append(points, decision.CurvePoint{Score: p.Score, TP: p.TP, FP: p.FP})
+		curveSquares = append(curveSquares, [2]float64{p.Squares[0], p.Squares[1]})
 		if !found && p.TP >= 0.8*positives {
 			chosen, found = p, true
 		}
@@ -50,6 +52,20 @@ func quickFileWith(t testing.TB, set *scores.Set, base float64, sample *design.S
 		Format: decision.Format, Assumptions: a, Curve: points, Chosen: "hit=0.8",
 		Data:       decision.Data{Path: "validation.csv", Rows: set.Len(), Positives: positives, Negatives: negatives, LowerIsRiskier: set.LowerIsRiskier(), Histogram: decision.NewHistogram(set)},
 		Candidates: []decision.Candidate{{Name: "hit=0.8", Rule: "hit=0.8", Cut: evidence.Of(chosen, a)}},
+	}
+	if sample.Sampling() {
+		// As decision.New writes data.squared_weights for sampling weights.
+		f.Data.WeightColumn, f.Data.WeightKind = set.WeightColumn(), design.Sampling
+		q := &decision.SquaredWeights{Curve: curveSquares, Histogram: f.Data.Histogram.FillSquares(set)}
+		for i := range set.Len() {
+			w := set.Weight(i)
+			if set.Labels()[i] {
+				q.Positives += w * w
+			} else {
+				q.Negatives += w * w
+			}
+		}
+		f.Data.Squares = q
 	}
 	return f
 }

@@ -294,3 +294,60 @@ func TestVerdictWeightedBatchFalseAlarmRate(t *testing.T) {
 		})
 	}
 }
+
+// TestVerdictScoreThinnedValidationFalseAlarmRate: a decision chosen on a
+// validation set thinned by score (bearings, base rate 7%, 20,000 cases
+// before thinning, those scoring below 0.05 kept 1 in 5 and weighted 5:
+// about 7,700 rows; sampling weights), checked against unweighted
+// batches of 4,000 cases of the same process, with labels and without;
+// the hit=0.8 cut, base rate from the validation set; seeds from 39000.
+// Each file is checked as written (with data.squared_weights) and with
+// the key taken out, as a file written before it reads: its class score
+// bins then count at one size per class. 400 replicates, at most 11
+// alarms with the key (1%, as in TestVerdictFalseAlarmRate); 4,000 with
+// -drift-long, at most 80 (2%).
+//
+// Measured on 2026-12-02, alarms with data.squared_weights (without the
+// key): 400 replicates, labelled 5 (7), no labels 5 (10); 4,000 with
+// -drift-long, labelled 51, 1.28% (116, 2.90%: drift 39 against 104), no
+// labels 40, 1.00% (77, 1.93%). Without the key each class's bins are
+// read at one size, that of its share's effective trials (for the false
+// cases near their weighted total), though the thinned low bins hold a
+// fifth of that in rows; with it each bin counts at its own variance
+// (designHomogeneity, mixtureInflation). For a class downsampled as a
+// whole (TestVerdictDownsampledFalseAlarmRate) the two readings agree:
+// the same alarms with the key as before it.
+func TestVerdictScoreThinnedValidationFalseAlarmRate(t *testing.T) {
+	replicates, bound := 400, 11
+	if *longSimulations {
+		replicates, bound = 4000, 80
+	}
+	for _, labelled := range []bool{true, false} {
+		t.Run(fmt.Sprint("labelled=", labelled), func(t *testing.T) {
+			with, without := map[string]int{}, map[string]int{}
+			for i := range replicates {
+				sc, labels := bearings(39000+uint64(2*i), 20000, 0.07, 0)
+				file := quickFileDesign(t, byScore(t, 39000+uint64(2*i), sc, labels, 0.05, 5, true), true)
+				newScores, newLabels := bearings(39000+uint64(2*i+1), 4000, 0.07, 0)
+				batch, err := scores.New(newScores, newLabels, nil, false)
+				if err != nil {
+					t.Fatal(err)
+				}
+				for _, c := range []map[string]int{with, without} {
+					res, err := Check(file, batch, Options{Labelled: labelled})
+					if err != nil {
+						t.Fatal(err)
+					}
+					c[res.Status()]++
+					file.Data.Squares = nil // the second pass: a file without the key
+				}
+			}
+			alarms := replicates - with[StatusOK]
+			t.Logf("%d replicates: alarms %d (assumption %d, drift %d), %d without data.squared_weights (assumption %d, drift %d)",
+				replicates, alarms, with[StatusAssumption], with[StatusDrift], replicates-without[StatusOK], without[StatusAssumption], without[StatusDrift])
+			if alarms > bound {
+				t.Errorf("%d alarms of %d, want at most %d (about %v)", alarms, replicates, bound, Level)
+			}
+		})
+	}
+}
