@@ -2,6 +2,7 @@ package main
 
 import (
 	"encoding/json"
+	"os"
 	"strings"
 	"testing"
 )
@@ -79,6 +80,9 @@ func TestCheckNamesWeightKind(t *testing.T) {
 	cutPath := dir + "/cut.yaml"
 	if r := runSill(t, "", "report", path, "--weight", "weight", "--weight-kind", "sampling", "--cut", "top=4", "--save", cutPath); r.code != 0 {
 		t.Fatalf("save: exit %d: %s", r.code, r.stderr)
+	}
+	if saved, err := os.ReadFile(cutPath); err != nil || !strings.Contains(string(saved), "\n  squared_weights:\n") {
+		t.Errorf("the saved decision has no data.squared_weights under sampling weights (read error %v)", err)
 	}
 	for _, tc := range []struct {
 		name          string

@@ -7,6 +7,7 @@ import (
 
 	"github.com/sill-tool/sill/internal/decision"
 	"github.com/sill-tool/sill/internal/design"
+	"github.com/sill-tool/sill/internal/floatcmp"
 	"github.com/sill-tool/sill/internal/scores"
 )
 
@@ -349,5 +350,39 @@ func TestVerdictScoreThinnedValidationFalseAlarmRate(t *testing.T) {
 				t.Errorf("%d alarms of %d, want at most %d (about %v)", alarms, replicates, bound, Level)
 			}
 		})
+	}
+}
+
+// TestPSIValidationAtKishSize: against a decision from a downsampled
+// validation set (20,000 bearings cases, false cases kept 1 in 10 and
+// weighted 10, seed 41000) the PSI's validation side sits at Kish's
+// effective size of its histogram, (sum w)²/(sum w²): about 20,000² /
+// (1,400 + 18,600 × 10) = 2,130 by the generating model, where the base
+// rate's effective trials count the false cases at their weight (about
+// 12,300 here). Fewer cases make more noise, so the PSI's noise level is
+// higher with data.squared_weights than without.
+func TestPSIValidationAtKishSize(t *testing.T) {
+	file := quickFileDesign(t, downsampled(t, 41000, 20000), true)
+	batch := bearingSet(t, 41001, 4000, 0.07, 0)
+	h, q := file.Data.Histogram, file.Data.Squares
+	kish := kishSize(h.Counts, q.Histogram)
+	if kish < 1900 || kish > 2400 {
+		t.Fatalf("Kish size of the histogram %v, want about 2,130", kish)
+	}
+	res, err := Check(file, batch, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if want := PSINoiseLevel(scaled(h.Counts, kish/sum(h.Counts)), 4000); !floatcmp.Within(res.PSINoiseLevel, want, 1e-12) {
+		t.Errorf("PSI noise level %v, want %v (the validation side at Kish's size)", res.PSINoiseLevel, want)
+	}
+	file.Data.Squares = nil
+	before, err := Check(file, batch, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Logf("PSI noise level %.4f at Kish's size %.0f, %.4f without data.squared_weights", res.PSINoiseLevel, kish, before.PSINoiseLevel)
+	if !(res.PSINoiseLevel > before.PSINoiseLevel) {
+		t.Errorf("PSI noise level %v with the key, %v without; want it higher at the smaller Kish size", res.PSINoiseLevel, before.PSINoiseLevel)
 	}
 }
