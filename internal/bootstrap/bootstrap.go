@@ -32,18 +32,20 @@
 // drawn the first time it is needed and kept for the rest of the
 // replicate, so a replicate costs what its questions need (the cuts the
 // searches look at times the depth of the tree, the logarithm of the
-// cells), not the cells. The
-// rules search the replicate's cuts through cutrule.Finder.Search, the
-// same search and the same rules as on the set itself; a rule met where
-// no case was drawn takes the cut of the last score at which one was, as
-// on the replicate drawn in full (TestLazyMatchesDrawnInFull).
+// cells), not the cells. The rules search the replicate's cuts through
+// cutrule.Finder.Search, the same search and the same rules as on the set
+// itself; a rule met where no case was drawn takes the cut of the last
+// score at which one was, as on the replicate drawn in full
+// (TestLazyMatchesDrawnInFull).
 //
 // The binomial draws are exact by inversion (one uniform draw against the
 // running sum of the probabilities) when the smaller of the mean and the
 // mean of failures is below 30, and otherwise come from the normal
 // distribution of the same mean and variance with a continuity
 // correction, which at such means differs from the binomial by far less
-// than the bootstrap's own noise. Poisson draws follow the same split.
+// than the bootstrap's own noise. The Poisson totals below are drawn the
+// same way: by inversion below a mean of 30, else from the normal
+// distribution, rounded.
 //
 // Weights are drawn as their kind says (Options.Sampling, package
 // design). Frequency weights count cases: a row of weight 3 is three
@@ -67,11 +69,12 @@
 // scores. Percentiles interpolate linearly between order statistics
 // (numpy's default).
 //
-// Every draw of replicate b comes from its own generator: a split from
-// one seeded by a hash of (Seed, b, class, node), rows of sampling
-// weights that vary within a class from one seeded with (Seed, b). So no draw depends on the order
-// in which the rules ask, and the result depends on Seed, Replicates and
-// Design only, never on the number of workers or their timing.
+// Every draw of replicate b comes from its own generator: a split (and a
+// total) from a splitmix64 stream seeded by a hash of (Seed, b, class,
+// node), rows of sampling weights that vary within a class from a PCG
+// seeded with (Seed, b). So no draw depends on the order in which the
+// rules ask, and the result depends on Seed, Replicates and Design only,
+// never on the number of workers or their timing.
 package bootstrap
 
 import (
