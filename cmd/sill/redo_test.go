@@ -192,6 +192,8 @@ func TestReprojectErrors(t *testing.T) {
 		{[]string{"report", scoresPath, "--reproject", cutPath, "--cut", "base"}, "--cut and --choose go without it"},
 		{[]string{"report", other, "--reproject", cutPath}, "chosen on other data"},
 		{[]string{"report", scoresPath, "--reproject", filepath.Join(dir, "none.yaml")}, "--reproject: "},
+		// The same bytes read with other labels are other cases.
+		{[]string{"report", scoresPath, "--reproject", cutPath, "--positive", "0"}, "chosen on this data read as 434 true and 5566 false cases, read now as 5566 and 434"},
 	} {
 		if r := runSill(t, "", tc.args...); r.code != 2 || !strings.Contains(r.stderr, tc.want) {
 			t.Errorf("%q: exit %d, %q, want %q", tc.args, r.code, r.stderr, tc.want)

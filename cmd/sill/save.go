@@ -66,6 +66,13 @@ func (s *saveFlags) readReproject(set *scores.Set, cuts []string) ([]cutrule.Rul
 	if f.Data.LowerIsRiskier != set.LowerIsRiskier() {
 		return nil, fmt.Errorf("--reproject %s: chosen with lower_is_riskier: %v; give --lower-is-riskier=%v", s.reproject, f.Data.LowerIsRiskier, f.Data.LowerIsRiskier)
 	}
+	// The same bytes read another way (another --positive, --counts,
+	// --drop-invalid, --delim, --decimal-comma) are other cases: refuse
+	// rather than re-project candidates onto them.
+	if positives, negatives := set.Totals(); positives != f.Data.Positives || (f.Data.Negatives > 0 && negatives != f.Data.Negatives) {
+		return nil, fmt.Errorf("--reproject %s: chosen on this data read as %s true and %s false cases, read now as %s and %s; give the reading flags it was saved with (--positive, --counts, --drop-invalid, --delim, --decimal-comma)",
+			s.reproject, format.Count(f.Data.Positives), format.Count(f.Data.Negatives), format.Count(positives), format.Count(negatives))
+	}
 	s.from = f
 	rules := make([]cutrule.Rule, len(f.Candidates))
 	for i, c := range f.Candidates {
