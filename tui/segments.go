@@ -264,7 +264,7 @@ func (p *segmentsPane) groupRows(lines []string, b segment.Breakdown, row func(s
 func differsLegend(b segment.Breakdown, width int) string {
 	level := format.PValue(1 - b.Confidence)
 	for _, l := range []string{
-		fmt.Sprintf("differs: hit or wrong-alert share differs from the rest of the set (p adjusted by Holm over %d tests below %s; by chance alone any flag at all in at most %s of sets)",
+		fmt.Sprintf("differs: hit or wrong-alert share differs from the rest of the set (p adjusted by Holm over %d tests below %s; by chance alone any flag at all in about %s of sets)",
 			b.Tests, level, format.Level(1-b.Confidence)),
 		fmt.Sprintf("differs: hit or wrong-alert share differs from the rest (Holm-adjusted p below %s)", level),
 	} {
