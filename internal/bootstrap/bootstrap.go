@@ -112,6 +112,12 @@ type Options struct {
 	// means no band.
 	BandCuts int
 
+	// CutScores names cuts (by score, see Result.BandAtCut) whose band
+	// the run works out while it draws, for rows of sampling weights
+	// that vary within a class, whose replicates cannot be drawn again
+	// cheaply; every other run answers any cut afterwards and ignores it.
+	CutScores []float64
+
 	// Progress, when set, is called with the number of replicates done so
 	// far, from the workers but never two calls at once.
 	Progress func(done int)
@@ -196,6 +202,8 @@ type Result struct {
 	Design     Design
 	Spreads    []Spread // one per rule, in the order given
 	Band       []BandPoint
+
+	atCut *atCut // the band exactly at any cut, see BandAtCut
 }
 
 // Run resamples set opt.Replicates times and applies rules under a to each
@@ -246,7 +254,12 @@ func Run(ctx context.Context, set *scores.Set, rules []cutrule.Rule, a projectio
 
 	// [rule][replicate], NaN when unmet
 	scoresAt, sharesAt, recallsAt, fdrsAt := grid(len(rules), opt.Replicates), grid(len(rules), opt.Replicates), grid(len(rules), opt.Replicates), grid(len(rules), opt.Replicates)
+	var exact []bandCut // the eager draw's cuts of opt.CutScores
+	if tree == nil {
+		exact = cutsAt(base, opt.CutScores)
+	}
 	recallAt, fdrAt := grid(len(band), opt.Replicates), grid(len(band), opt.Replicates) // [band cut][replicate]
+	exactRecall, exactFDR := grid(len(exact), opt.Replicates), grid(len(exact), opt.Replicates)
 
 	var (
 		next     atomic.Int64
@@ -278,6 +291,9 @@ func Run(ctx context.Context, set *scores.Set, rules []cutrule.Rule, a projectio
 					}
 				}
 				r.band(band, b, recallAt, fdrAt)
+				if len(exact) > 0 {
+					r.band(exact, b, exactRecall, exactFDR)
+				}
 				if opt.Progress != nil {
 					n := int(done.Add(1))
 					progress.Lock()
@@ -312,13 +328,22 @@ func Run(ctx context.Context, set *scores.Set, rules []cutrule.Rule, a projectio
 		res.Spreads = append(res.Spreads, s)
 		i++
 	}
-	for j, cut := range band {
-		p := BandPoint{Cut: cut.index, Score: cut.score}
-		p.Recall, _ = percentiles(recallAt[j], opt.Replicates/2)
-		p.FalseDiscoveryRate, _ = percentiles(fdrAt[j], opt.Replicates/2)
-		res.Band = append(res.Band, p)
-	}
+	res.Band = bandPoints(band, recallAt, fdrAt, opt.Replicates)
+	res.atCut = newAtCut(base, tree, opt, exact, bandPoints(exact, exactRecall, exactFDR, opt.Replicates))
 	return res, nil
+}
+
+// bandPoints returns the band at each of cuts from the replicates'
+// recall and false discovery rate there ([cut][replicate]).
+func bandPoints(cuts []bandCut, recallAt, fdrAt [][]float64, replicates int) []BandPoint {
+	var out []BandPoint
+	for j, cut := range cuts {
+		p := BandPoint{Cut: cut.index, Score: cut.score}
+		p.Recall, _ = percentiles(recallAt[j], replicates/2)
+		p.FalseDiscoveryRate, _ = percentiles(fdrAt[j], replicates/2)
+		out = append(out, p)
+	}
+	return out
 }
 
 // grid returns rows slices of cols values each.

@@ -121,6 +121,14 @@ func (r *lazyReplicate) generator(c int, node uint64) *rand.Rand {
 // draw starts replicate b: it forgets the draws of the last one and
 // draws each class's total.
 func (r *lazyReplicate) draw(seed, b uint64) {
+	r.start(seed, b)
+	r.drawTotals()
+	t := r.tree
+	r.first = sort.Search(len(t.cutScore), func(k int) bool { return r.casesAt(k) > 0 })
+}
+
+// start forgets the draws of the last replicate and starts replicate b.
+func (r *lazyReplicate) start(seed, b uint64) {
 	r.seed, r.b = seed, b
 	r.gen++
 	if r.gen == 0 { // wrapped: every stamp may look current
@@ -129,6 +137,10 @@ func (r *lazyReplicate) draw(seed, b uint64) {
 		}
 		r.gen = 1
 	}
+}
+
+// drawTotals draws each class's total of the replicate begun by start.
+func (r *lazyReplicate) drawTotals() {
 	t := r.tree
 	positives, negatives := t.classes[0].cases(0, t.classes[0].cellCount()), t.classes[1].cases(0, t.classes[1].cellCount())
 	switch {
@@ -142,7 +154,6 @@ func (r *lazyReplicate) draw(seed, b uint64) {
 		r.total[0] = binomial(r.generator(0, classNode), all, positives/(positives+negatives))
 		r.total[1] = all - r.total[0]
 	}
-	r.first = sort.Search(len(t.cutScore), func(k int) bool { return r.casesAt(k) > 0 })
 }
 
 // count returns the cases drawn of class c's cells [0, j). The cells of

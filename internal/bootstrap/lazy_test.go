@@ -1,6 +1,7 @@
 package bootstrap
 
 import (
+	"context"
 	"fmt"
 	"math"
 	"math/rand/v2"
@@ -429,4 +430,110 @@ func bandCutsOfCurve(set *scores.Set, k int) []bandCut {
 		out = append(out, bandCut{index: cut, score: p.Score, rows: p.Rows})
 	}
 	return out
+}
+
+// TestBandAtCutMatchesDrawnInFull: the band Result.BandAtCut gives at
+// every cut of the set is the 5th and 95th percentile of the recall and
+// false discovery rate that the run's replicates, drawn in full (fill),
+// give at that cut, and equals the run's own band at its band cuts.
+// Seeded random counts tables of randomCells (the trials of sampling
+// weights left out: their cells are not the set), 40 trials of 25
+// replicates each, both designs.
+func TestBandAtCutMatchesDrawnInFull(t *testing.T) {
+	rng := rand.New(rand.NewPCG(43, 2026))
+	for trial := range 40 {
+		cells, poissonCells, sampling := randomCells(t, rng, trial)
+		if sampling {
+			continue
+		}
+		design := []Design{Ordinary, WithinClass}[trial%2]
+		const replicates = 25
+		res, err := Run(context.Background(), cells, nil, projection.Assumptions{BaseRate: 0.1, Volume: 100, Confidence: 0.95},
+			Options{Replicates: replicates, Seed: uint64(trial), BandCuts: 7, Design: design, Workers: 2})
+		if err != nil {
+			t.Fatal(err)
+		}
+		full := newLazyReplicate(newCellTree(cells, design, poissonCells))
+		base := curve.New(cells)
+		recall, fdr := grid(base.Len(), replicates), grid(base.Len(), replicates)
+		for b := range replicates {
+			full.draw(uint64(trial), uint64(b))
+			drawn := make([]float64, cells.Len())
+			full.fill(drawn)
+			positives := 0.0
+			for i, d := range drawn {
+				if cells.Labels()[i] {
+					positives += d
+				}
+			}
+			for k := range base.Len() {
+				var tp, fp float64
+				for i, d := range drawn {
+					switch {
+					case cells.Riskier(base.At(k).Score, cells.Scores()[i]):
+					case cells.Labels()[i]:
+						tp += d
+					default:
+						fp += d
+					}
+				}
+				recall[k][b], fdr[k][b] = rates(tp, fp, positives, [2]float64{1, 1})
+			}
+		}
+		for k := range base.Len() {
+			got, ok := res.BandAtCut(base.At(k).Score)
+			wantRecall, _ := percentiles(recall[k], replicates/2)
+			wantFDR, _ := percentiles(fdr[k], replicates/2)
+			if !ok || got.Cut != k || !same(got.Recall[0], wantRecall[0]) || !same(got.Recall[1], wantRecall[1]) ||
+				!same(got.FalseDiscoveryRate[0], wantFDR[0]) || !same(got.FalseDiscoveryRate[1], wantFDR[1]) {
+				t.Errorf("trial %d cut %d: at the cut %v (%v), drawn in full recall %v, false discovery rate %v", trial, k, got, ok, wantRecall, wantFDR)
+			}
+		}
+		for _, p := range res.Band {
+			if got, _ := res.BandAtCut(p.Score); fmt.Sprint(got) != fmt.Sprint(p) {
+				t.Errorf("trial %d: at band cut %d %v, band %v", trial, p.Cut, got, p)
+			}
+		}
+	}
+}
+
+// TestBandAtCutEager: rows of sampling weights that vary within a class
+// (the eager draw) know the band at the cuts named in Options.CutScores,
+// equal to the band at the same cut, and no other. Seeded: 400 rows of
+// normal scores, weights 1 to 3, 30 replicates.
+func TestBandAtCutEager(t *testing.T) {
+	rng := rand.New(rand.NewPCG(7, 9))
+	var sc, weights []float64
+	var labels []bool
+	for i := range 400 {
+		positive := i%4 == 0
+		s := rng.NormFloat64()
+		if positive {
+			s += 1.5
+		}
+		sc, labels, weights = append(sc, s), append(labels, positive), append(weights, float64(1+rng.IntN(3)))
+	}
+	set, err := scores.NewSet(scores.Columns{Scores: sc, Labels: labels, Weights: weights, WeightColumn: "w"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	probe, err := Run(context.Background(), set, nil, projection.Assumptions{BaseRate: 0.1, Volume: 100, Confidence: 0.95},
+		Options{Replicates: 30, Seed: 5, BandCuts: 10, Sampling: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	named := []float64{probe.Band[2].Score, probe.Band[6].Score}
+	res, err := Run(context.Background(), set, nil, projection.Assumptions{BaseRate: 0.1, Volume: 100, Confidence: 0.95},
+		Options{Replicates: 30, Seed: 5, BandCuts: 10, Sampling: true, CutScores: named})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, j := range []int{2, 6} {
+		if got, ok := res.BandAtCut(probe.Band[j].Score); !ok || fmt.Sprint(got) != fmt.Sprint(probe.Band[j]) {
+			t.Errorf("named cut %d: %v (%v), band %v", j, got, ok, probe.Band[j])
+		}
+	}
+	if got, ok := res.BandAtCut(probe.Band[4].Score); ok {
+		t.Errorf("cut not named: %v, want none", got)
+	}
 }
