@@ -467,8 +467,8 @@ func TestWriteQueue90(t *testing.T) {
 }
 
 // TestStripRedraws: after b each pin's column carries its hit share's
-// range across the resampled sets, the band at its cut that the figures
-// pane shows for the same cut, in the row under the hit share; a pin
+// range across the resampled sets exactly at its cut (BandAtCut, not the
+// nearest band cut of the chart), as the figures pane shows it, in the row under the hit share; a pin
 // made after the run gets one too; new assumptions forget it.
 func TestStripRedraws(t *testing.T) {
 	m := demoBeyond(t, 80, 24)
@@ -484,8 +484,8 @@ func TestStripRedraws(t *testing.T) {
 		t.Fatalf("redraws after b: %q", got)
 	}
 	for i, p := range m.s.pins {
-		band, _ := m.s.stability.BandAt(p.cut)
-		if want := format.Interval(band.Recall); got[i] != want {
+		band, ok := m.s.stability.BandAtCut(m.s.curve.At(p.cut).Score)
+		if want := format.Interval(band.Recall); !ok || got[i] != want {
 			t.Errorf("pin %q: redraws %q, want the band at its cut %q", p.name, got[i], want)
 		}
 	}

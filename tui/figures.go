@@ -334,7 +334,7 @@ func (p figuresPane) stabilityLines(width int) []string {
 			fmt.Sprintf("%s could land anywhere from score %s to %s on another validation set of this size", ruleWords(sp.Rule), from, to),
 			fmt.Sprintf("%s: score %s to %s on another set of this size", ruleWords(sp.Rule), from, to),
 		}
-	} else if band, ok := res.BandAt(s.cursor); ok && evidence.Defined(band.Recall[0]) && evidence.Defined(band.FalseDiscoveryRate[0]) {
+	} else if band, ok := s.bandAt(s.cursor); ok && evidence.Defined(band.Recall[0]) && evidence.Defined(band.FalseDiscoveryRate[0]) {
 		caught, wrong := format.ShortInterval(band.Recall), format.ShortInterval(band.FalseDiscoveryRate)
 		sentences = []string{
 			fmt.Sprintf("on another validation set of this size this score would catch %s of the true cases, with %s of its alerts wrong, 9 times in 10", caught, wrong),
@@ -360,7 +360,8 @@ func (p figuresPane) stabilityLines(width int) []string {
 	return out
 }
 
-// band returns the bootstrap's band at the cursor's cut, if it has run.
+// band returns the bootstrap's band exactly at the cursor's cut, if it
+// has run.
 func (p figuresPane) band() (bootstrap.BandPoint, bool) {
 	return p.s.bandAt(p.s.cursor)
 }

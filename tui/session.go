@@ -152,13 +152,16 @@ func (s *session) repinSelected() (heldBy string, ok bool) {
 	return "", true
 }
 
-// bandAt returns the bootstrap's band at cut i once a run has finished
-// under the current assumptions.
+// bandAt returns the bootstrap's band exactly at cut i (the redraws at
+// this cut, bootstrap.Result.BandAtCut, worked out once per cut) once a
+// run has finished under the current assumptions; false when the run
+// cannot say at that cut (rows of sampling weights that vary within a
+// class know only the cuts named when it started).
 func (s *session) bandAt(i int) (bootstrap.BandPoint, bool) {
-	if s.stability == nil || s.resampling.running {
+	if s.stability == nil || s.resampling.running || i < 0 || i >= s.curve.Len() {
 		return bootstrap.BandPoint{}, false
 	}
-	return s.stability.BandAt(i)
+	return s.stability.BandAtCut(s.curve.At(i).Score)
 }
 
 // point returns the cursor's point.
@@ -290,8 +293,8 @@ func (s *session) tableSignature() string {
 
 // table returns the comparison of the pinned candidates; after the
 // bootstrap each carries the range of its hit share across the resampled
-// sets, the band at its cut as the figures pane shows it, which the strip
-// draws under the hit share it belongs to.
+// sets at its own cut (the redraws at this cut, as the figures pane shows
+// them), which the strip draws under the hit share it belongs to.
 func (s *session) table() compare.Table {
 	columns := make([]compare.Column, len(s.pins))
 	for i, p := range s.pins {

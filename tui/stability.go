@@ -67,6 +67,9 @@ func (m Model) resampleKey() (tea.Model, tea.Cmd) {
 		return m, nil
 	}
 	opt.BandCuts = bandCuts
+	for _, p := range m.s.pins { // the eager draw works out the pins' redraws as it runs
+		opt.CutScores = append(opt.CutScores, m.s.curve.At(p.cut).Score)
+	}
 	ctx, cancel := context.WithCancel(m.cfg.Context)
 	r.run++
 	r.running, r.total, r.cancel = true, replicates, cancel

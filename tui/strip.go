@@ -217,7 +217,7 @@ func (s Strip) heading(i int, name string) string {
 // The headings that name the measured and the projected figures go last:
 // the labels below them still differ ("wrong-alert share (FDR)", measured;
 // "wrong-alert share", projected).
-var detailOrder = []string{"share of all cases", "interval", "true cases found", strings.TrimSpace(compare.CorrectedRow), compare.RedrawsLabel, "against capacity", format.MeasuredHeading, format.ProjectedHeading}
+var detailOrder = []string{"share of all cases", "interval", "true cases found", strings.TrimSpace(compare.CorrectedRow), compare.RedrawsLabel, compare.LandsLabel, "against capacity", format.MeasuredHeading, format.ProjectedHeading}
 
 // scrollDrops are the detail rows a scrolling strip still lets go before
 // it scrolls: counts that the figure above them and the header give.

@@ -72,6 +72,10 @@ type Resampling struct {
 	Design bootstrap.Design
 	// Progress, when set, is called with the replicates done so far.
 	Progress func(done int)
+	// CutScores names more cuts (pins, say) whose redraws at the cut the
+	// eager draw works out during the run (bootstrap.Options.CutScores);
+	// the rules' own cuts are always among them.
+	CutScores []float64
 }
 
 // Step names the part of Run that an error came from, so that each view
@@ -560,6 +564,12 @@ func (r *Result) Resample(ctx context.Context, opt Resampling) (bootstrap.Result
 	if r.Shifts != nil {
 		b.FinderOptions = []cutrule.Option{cutrule.WithShifts(r.Shifts.Assigned, r.Shifts.Scale)}
 	}
+	for _, o := range r.Outcomes { // the redraws at each rule's cut (needed by the eager draw)
+		if o.Met {
+			b.CutScores = append(b.CutScores, o.Point.Score)
+		}
+	}
+	b.CutScores = append(b.CutScores, opt.CutScores...)
 	res, err := bootstrap.Run(ctx, r.Set, r.Rules, r.Assume, b)
 	return res, stepError(StepResampling, err)
 }

@@ -41,11 +41,15 @@ type Column struct {
 	RuleNow *RuleNow
 	// RecallRedraws, when not nil, is the range (5th to 95th percentile)
 	// of the column's measured hit share across the bootstrap's
-	// resampled sets (a decision file records it where the rule lands;
-	// the explorer gives the band at the column's cut, as its figures
-	// pane does): shown beside the hit share it belongs to. nil: not
-	// resampled.
+	// resampled sets at the column's cut (RedrawsLabel): shown beside the
+	// hit share it belongs to. nil: not resampled, or not known at the
+	// cut.
 	RecallRedraws *[2]float64
+	// RecallLands, when not nil and RecallRedraws is nil, is the hit
+	// share where the column's rule lands in the resampled sets (a
+	// decision file written before it recorded the range at the cut),
+	// shown under its own label (LandsLabel).
+	RecallLands *[2]float64
 	// CorrectedCostPerShift, when not nil, is the column's projected cost
 	// per shift corrected for the least-cost figure's optimism (the cost
 	// rule picks the cut on the cases its cost is counted on, so that cost
@@ -244,21 +248,47 @@ func New(columns []Column, reference int, opt Options) Table {
 	return t
 }
 
-// RedrawsLabel names the bootstrap's range of a measured share, the row
-// under the share it belongs to.
-const RedrawsLabel = "redraws 5–95%"
+// RedrawsLabel names the bootstrap's range of a measured share at the
+// cut itself (held fixed in every resampled set), the row under the share
+// it belongs to, in every view.
+const RedrawsLabel = "redraws at this cut 5–95%"
 
-// redraws adds the detail row of each column's recall range across the
-// resampled sets ("n/a" for a column not resampled); no row when no
-// column was resampled.
+// LandsWords names a range where the rule lands: the rule re-applied to
+// each resampled set, its cut moving with it, which says how stable the
+// rule is, not how precise the share at this cut is.
+const LandsWords = "where the rule lands 5–95%"
+
+// LandsLabel names the row of the hit share where the rule lands, shown
+// under the hit share only when the range at the cut is not known.
+const LandsLabel = "hit share " + LandsWords
+
+// LandsNote explains the two ranges, for the stability section.
+const LandsNote = "where the rule lands: the rule applied again to each resampled set, the cut moving with it (a rule that fixes the hit share, hit=R, keeps it near R by construction); the redraws at this cut, under each measured share in the figures, hold the cut fixed"
+
+// redraws adds the detail row of each column's recall range at its cut
+// across the resampled sets ("n/a" for a column not resampled), and for
+// columns that know only where their rule lands, a row of that under its
+// own label; no row when no column has one.
 func redraws(t *Table, columns []Column) {
-	row := Row{Figure: "  " + RedrawsLabel, Detail: true}
+	rangeRow(t, columns, RedrawsLabel, func(c Column) *[2]float64 { return c.RecallRedraws })
+	rangeRow(t, columns, LandsLabel, func(c Column) *[2]float64 {
+		if c.RecallRedraws != nil {
+			return nil
+		}
+		return c.RecallLands
+	})
+}
+
+// rangeRow adds the detail row label of each column's range of ("n/a"
+// when nil); no row when every column's is nil.
+func rangeRow(t *Table, columns []Column, label string, of func(Column) *[2]float64) {
+	row := Row{Figure: "  " + label, Detail: true}
 	any := false
 	for _, c := range columns {
 		cell := format.NA
-		if c.RecallRedraws != nil {
+		if r := of(c); r != nil {
 			any = true
-			cell = format.Interval(*c.RecallRedraws)
+			cell = format.Interval(*r)
 		}
 		row.Cells = append(row.Cells, cell)
 		row.Values = append(row.Values, math.NaN())

@@ -9,6 +9,7 @@ import (
 	"github.com/sill-tool/sill/internal/analysis"
 	"github.com/sill-tool/sill/internal/bootstrap"
 	"github.com/sill-tool/sill/internal/calibration"
+	"github.com/sill-tool/sill/internal/compare"
 	"github.com/sill-tool/sill/internal/evidence"
 	"github.com/sill-tool/sill/internal/format"
 	"github.com/sill-tool/sill/internal/segment"
@@ -501,6 +502,27 @@ type stability struct {
 	FalseDiscoveryRateP95 number `json:"false_discovery_rate_p95"`
 	Met                   int    `json:"met_in"` // replicates in which the rule was met
 	Summary               string `json:"summary"`
+	// The hit share and wrong-alert share at the report's own cut (the
+	// set's cut, held fixed) across the replicates: the redraws of the
+	// measured shares, beside them in the figures table. The fields
+	// above are where the rule lands, the rule re-applied to each.
+	RecallAtCutP05             number `json:"recall_at_cut_p05"`
+	RecallAtCutP95             number `json:"recall_at_cut_p95"`
+	FalseDiscoveryRateAtCutP05 number `json:"false_discovery_rate_at_cut_p05"`
+	FalseDiscoveryRateAtCutP95 number `json:"false_discovery_rate_at_cut_p95"`
+}
+
+// atCut sets s's redraws at the cut of score, null where res cannot say
+// (bootstrap.Result.BandAtCut).
+func (s *stability) atCut(res bootstrap.Result, score float64, met bool) {
+	s.RecallAtCutP05, s.RecallAtCutP95, s.FalseDiscoveryRateAtCutP05, s.FalseDiscoveryRateAtCutP95 = null, null, null, null
+	if !met {
+		return
+	}
+	if p, ok := res.BandAtCut(score); ok {
+		s.RecallAtCutP05, s.RecallAtCutP95 = number(p.Recall[0]), number(p.Recall[1])
+		s.FalseDiscoveryRateAtCutP05, s.FalseDiscoveryRateAtCutP95 = number(p.FalseDiscoveryRate[0]), number(p.FalseDiscoveryRate[1])
+	}
 }
 
 type bootstrapFigures struct {
@@ -532,7 +554,7 @@ func (r *Report) addStability(result *analysis.Result) {
 			RecallP05: number(p.Recall[0]), RecallP95: number(p.Recall[1]),
 			FalseDiscoveryRateP05: number(p.FalseDiscoveryRate[0]), FalseDiscoveryRateP95: number(p.FalseDiscoveryRate[1])})
 	}
-	t := tableOf("cut", "score", "cut lands 5–95%", "measured flagged share 5–95%", "measured hit share 5–95%", "measured wrong-alert share 5–95%", "in plain words")
+	t := tableOf("cut", "score", "cut lands 5–95%", "flagged share "+compare.LandsWords, "hit share "+compare.LandsWords, "wrong-alert share "+compare.LandsWords, "in plain words")
 	t.wordsLast = true
 	for i, s := range res.Spreads {
 		if i >= len(r.Cuts) {
@@ -542,6 +564,7 @@ func (r *Report) addStability(result *analysis.Result) {
 		words := bootstrap.Describe(s, res.Replicates)
 		if s.Skipped != "" {
 			c.Stability = &stability{ScoreP05: null, ScoreP95: null, FlaggedShareP05: null, FlaggedShareP95: null, RecallP05: null, RecallP95: null, FalseDiscoveryRateP05: null, FalseDiscoveryRateP95: null, Summary: words}
+			c.Stability.atCut(res, float64(c.Score), c.Met)
 			t.rows = append(t.rows, []string{c.Spec, format.Score(float64(c.Score)), "n/a", "n/a", "n/a", "n/a", words})
 			continue
 		}
@@ -549,6 +572,7 @@ func (r *Report) addStability(result *analysis.Result) {
 			FlaggedShareP05: number(s.FlaggedShare[0]), FlaggedShareP95: number(s.FlaggedShare[1]),
 			RecallP05: number(s.Recall[0]), RecallP95: number(s.Recall[1]),
 			FalseDiscoveryRateP05: number(s.FalseDiscoveryRate[0]), FalseDiscoveryRateP95: number(s.FalseDiscoveryRate[1]), Met: s.Met, Summary: words}
+		c.Stability.atCut(res, float64(c.Score), c.Met)
 		t.rows = append(t.rows, []string{c.Spec, format.Score(float64(c.Score)), format.Significant(s.Score[0], 4) + " to " + format.Significant(s.Score[1], 4), format.Interval(s.FlaggedShare), format.Interval(s.Recall), format.Interval(s.FalseDiscoveryRate), words})
 	}
 	if c := result.CheckCost(result.Stability); c.Outside {
@@ -557,6 +581,7 @@ func (r *Report) addStability(result *analysis.Result) {
 			format.Number(result.Calibration.Cost.Score, 3), format.Significant(s.Score[0], 4), format.Significant(s.Score[1], 4)))
 	}
 	notes := []string{fmt.Sprintf("%d resampled sets (seed %d), %s; the 5th and 95th percentiles bound a 90%% range", res.Replicates, res.Seed, designWords(res.Design)),
+		compare.LandsNote,
 		bootstrap.WordsConvention}
 	r.sections = append(r.sections, section{title: "how stable each cut is (bootstrap)", table: t, notes: notes})
 }

@@ -95,6 +95,7 @@ var CutsCSVHeader = []string{
 	"queue_per_shift_low", "queue_per_shift_high",
 	"cost_per_shift_low", "cost_per_shift_high",
 	"cost_per_case_low", "cost_per_case_high",
+	"recall_at_cut_p05", "recall_at_cut_p95", "false_discovery_rate_at_cut_p05", "false_discovery_rate_at_cut_p95",
 }
 
 // WriteCutsCSV writes the figures of r's cuts as CSV: a header row
@@ -139,6 +140,13 @@ func WriteCutsCSV(w io.Writer, r *Report) error {
 			e.ProjectedCI.CostPerShift[0], e.ProjectedCI.CostPerShift[1],
 			e.ProjectedCI.CostPerCase[0], e.ProjectedCI.CostPerCase[1]} {
 			row = append(row, num(v))
+		}
+		redraws := []number{null, null, null, null}
+		if s := c.Stability; s != nil {
+			redraws = []number{s.RecallAtCutP05, s.RecallAtCutP95, s.FalseDiscoveryRateAtCutP05, s.FalseDiscoveryRateAtCutP95}
+		}
+		for _, v := range redraws {
+			row = append(row, num(float64(v)))
 		}
 		cw.Write(row)
 	}
@@ -210,12 +218,12 @@ func figuresTable(r *Report) table {
 	add("  "+conf+" interval of the share", func(c cut, e evidence.Cut) string { return format.Interval(e.FlaggedShareCI) })
 	add("hit share (recall)", func(c cut, e evidence.Cut) string { return format.Share(e.Recall) })
 	add("  "+conf+" interval", func(c cut, e evidence.Cut) string { return format.Interval(e.RecallCI) })
-	resampled(func(s *stability) [2]float64 { return [2]float64{float64(s.RecallP05), float64(s.RecallP95)} })
+	resampled(func(s *stability) [2]float64 { return [2]float64{float64(s.RecallAtCutP05), float64(s.RecallAtCutP95)} })
 	add("  true cases found", func(c cut, e evidence.Cut) string { return format.Count(e.TP) + " of " + format.Count(e.TP+e.FN) })
 	add("wrong-alert share (FDR)", func(c cut, e evidence.Cut) string { return format.Share(e.FalseDiscoveryRate) })
 	add("  "+conf+" interval", func(c cut, e evidence.Cut) string { return format.Interval(e.FalseDiscoveryCI) })
 	resampled(func(s *stability) [2]float64 {
-		return [2]float64{float64(s.FalseDiscoveryRateP05), float64(s.FalseDiscoveryRateP95)}
+		return [2]float64{float64(s.FalseDiscoveryRateAtCutP05), float64(s.FalseDiscoveryRateAtCutP95)}
 	})
 	add("false positive rate", func(c cut, e evidence.Cut) string { return format.Share(e.FalsePositiveRate) })
 	if !r.projects() {
@@ -265,8 +273,9 @@ func (r *Report) basisLines() []string {
 	return lines
 }
 
-// redrawsLabel names the bootstrap's resampled range in the figures
-// table, beside the measured share it belongs to, as in every view.
+// redrawsLabel names the bootstrap's resampled range of a measured share
+// at the cut itself, in the figures table beside the share, as in every
+// view.
 const redrawsLabel = compare.RedrawsLabel
 
 // projects reports whether the figures table has projected figures: a

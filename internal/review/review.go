@@ -36,7 +36,7 @@ func table(f *decision.File) compare.Table {
 // Column is c as a column of package compare, with what the file records
 // of its rule, its redraws and its corrected cost.
 func Column(c decision.Candidate) compare.Column {
-	column := compare.Column{Name: c.Name, Rule: c.Rule, Cut: c.Cut, RuleNow: RuleNow(c), RecallRedraws: RecallRedraws(c)}
+	column := compare.Column{Name: c.Name, Rule: c.Rule, Cut: c.Cut, RuleNow: RuleNow(c), RecallLands: RecallLands(c)}
 	if o := c.Optimism; o != nil && evidence.Defined(o.CorrectedPerShift) {
 		corrected := o.CorrectedPerShift
 		column.CorrectedCostPerShift = &corrected
@@ -54,10 +54,10 @@ func RuleNow(c decision.Candidate) *compare.RuleNow {
 	return &compare.RuleNow{Holds: c.RuleCheck.Holds, Picks: c.RuleCheck.Picks}
 }
 
-// RecallRedraws is the range of the measured hit share across the
-// bootstrap's resampled sets that the file records for c, for package
-// compare; nil when c was not resampled.
-func RecallRedraws(c decision.Candidate) *[2]float64 {
+// RecallLands is the range of the measured hit share where c's rule
+// lands in the bootstrap's resampled sets, as the file records it, for
+// package compare; nil when c was not resampled.
+func RecallLands(c decision.Candidate) *[2]float64 {
 	if st := c.Stability; st != nil && st.Skipped == "" {
 		r := st.Recall
 		return &r
