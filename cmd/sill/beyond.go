@@ -45,7 +45,7 @@ func (f *beyondFlags) register(fs *pflag.FlagSet) {
 	fs.StringVar(&f.segmentOrder, "segment-order", "size", "order of the segments under each cut: size, gap (furthest from overall first) or name")
 	fs.IntVar(&f.segmentsShown, "segments-shown", 20, "segments shown under each cut in text and Markdown (0: all; JSON lists all)")
 	fs.IntVar(&f.calibrationBins, "calibration-bins", 10, "bins of the reliability table (scores in [0,1] only)")
-	fs.IntVar(&f.replicates, "bootstrap", 0, "resample the set this many times to show how far each cut moves (0: off)")
+	fs.IntVar(&f.replicates, "bootstrap", 0, "resample the set this many times: the redraws at this cut under each measured share, and where each rule lands (0: off)")
 	fs.Uint64Var(&f.seed, "seed", 1, "seed of --bootstrap; the same seed gives the same figures")
 	f.registerShared(fs)
 }

@@ -233,8 +233,13 @@ func stabilityOf(res *analysis.Result, p Pick) *Stability {
 	if found == nil {
 		return nil
 	}
-	return &Stability{Replicates: b.Replicates, Seed: b.Seed, Met: found.Met, Score: found.Score,
-		FlaggedShare: found.FlaggedShare, Recall: found.Recall, Skipped: found.Skipped}
+	s := &Stability{Replicates: b.Replicates, Seed: b.Seed, Met: found.Met, Score: found.Score,
+		FlaggedShare: found.FlaggedShare, Recall: found.Recall, Skipped: found.Skipped,
+		RecallAtCut: [2]float64{math.NaN(), math.NaN()}, FalseDiscoveryRateAtCut: [2]float64{math.NaN(), math.NaN()}}
+	if band, ok := b.BandAtCut(p.Point.Score); ok {
+		s.RecallAtCut, s.FalseDiscoveryRateAtCut = band.Recall, band.FalseDiscoveryRate
+	}
+	return s
 }
 
 func segmentsOf(column string, b segment.Breakdown) *Segments {

@@ -108,7 +108,7 @@ func (r *reader) stability(n *yaml.Node, path string) *Stability {
 	if isNull(n) || r.err != nil {
 		return nil
 	}
-	m := r.fields(n, path, []string{"replicates", "seed", "met", "score", "flagged_share", "recall"}, []string{"skipped"})
+	m := r.fields(n, path, []string{"replicates", "seed", "met", "score", "flagged_share", "recall"}, []string{"skipped", "recall_at_cut", "false_discovery_rate_at_cut"})
 	s := &Stability{
 		Replicates: r.integer(m["replicates"], path+".replicates"),
 		Met:        r.integer(m["met"], path+".met"),
@@ -118,6 +118,8 @@ func (r *reader) stability(n *yaml.Node, path string) *Stability {
 	s.Score = r.range_(m["score"], path+".score")
 	s.FlaggedShare = r.interval(m["flagged_share"], path+".flagged_share")
 	s.Recall = r.interval(m["recall"], path+".recall")
+	s.RecallAtCut = r.interval(m["recall_at_cut"], path+".recall_at_cut")
+	s.FalseDiscoveryRateAtCut = r.interval(m["false_discovery_rate_at_cut"], path+".false_discovery_rate_at_cut")
 	if r.err == nil && s.Met > s.Replicates {
 		r.fail(deref(m["met"]), path+".met", fmt.Errorf("%w: %d, expected at most replicates (%d)", ErrInvalid, s.Met, s.Replicates))
 	}

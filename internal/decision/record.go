@@ -107,6 +107,15 @@ type Stability struct {
 	FlaggedShare [2]float64 // key flagged_share
 	Recall       [2]float64 // key recall
 	Skipped      string     // key skipped: why the rule was not resampled; "" (null) when it was
+	// RecallAtCut and FalseDiscoveryRateAtCut are the Low and High
+	// percentiles of the hit share and the wrong-alert share at the
+	// candidate's own cut (held fixed) across the replicates: the
+	// redraws at this cut, where Recall above is where the rule lands
+	// (keys recall_at_cut and false_discovery_rate_at_cut; absent in
+	// files written before them, and null where the run could not say,
+	// both read as NaN).
+	RecallAtCut             [2]float64
+	FalseDiscoveryRateAtCut [2]float64
 }
 
 // Segments is a candidate's breakdown by group (key segments).

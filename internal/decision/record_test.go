@@ -189,6 +189,9 @@ func TestReadRejectsBrokenNewKeys(t *testing.T) {
 		{"cost threshold", replaceNth(t, text, `probability: [0-9.]+`, 0, `probability: -1`), ErrInvalid, "calibration.cost_threshold.probability"},
 		{"stability seed", replaceNth(t, text, `seed: 1\n`, 0, "seed: -1\n"), ErrInvalid, "candidates[0].stability.seed"},
 		{"stability met", replaceNth(t, text, `met: 50`, 0, `met: 51`), ErrInvalid, "candidates[0].stability.met"},
+		{"stability recall at cut reversed", replaceNth(t, text, `recall_at_cut: \[[^\]]*\]`, 0, `recall_at_cut: [0.9, 0.1]`), ErrInvalid, "candidates[0].stability.recall_at_cut"},
+		{"stability wrong-alert share at cut above 1", replaceNth(t, text, `false_discovery_rate_at_cut: \[[^\]]*\]`, 0, `false_discovery_rate_at_cut: [0.2, 1.5]`), ErrInvalid, "candidates[0].stability.false_discovery_rate_at_cut[1]"},
+		{"stability recall at cut a word", replaceNth(t, text, `recall_at_cut: \[[^\]]*\]`, 0, `recall_at_cut: wide`), ErrType, "candidates[0].stability.recall_at_cut"},
 		{"segments outlier", replaceNth(t, text, `outlier: (true|false)`, 0, `outlier: maybe`), ErrType, "candidates[0].segments.groups[0].outlier"},
 		{"segments recall gap", replaceNth(t, text, `recall_gap: [-0-9.e]+`, 0, `recall_gap: 1.5`), ErrInvalid, "candidates[0].segments.groups[0].recall_gap"},
 		{"segments gap interval", replaceNth(t, text, `false_discovery_gap_ci: \[[^\]]*\]`, 0, `false_discovery_gap_ci: [0.2, -0.1]`), ErrInvalid, "candidates[0].segments.groups[0].false_discovery_gap_ci"},
@@ -481,5 +484,36 @@ func TestRuleChecks(t *testing.T) {
 	}
 	if baseNow == picks[1].Point.Score {
 		t.Fatal("base picks the same cut at 2%: the test checks nothing")
+	}
+}
+
+// TestStabilityAtCut: a file records each resampled candidate's redraws
+// at its cut, the bootstrap's band exactly at the candidate's score
+// (bootstrap.Result.BandAtCut), and reads them back; a file written
+// before the keys (both removed) reads as before, the ranges NaN.
+func TestStabilityAtCut(t *testing.T) {
+	f := demoFile(t)
+	st := f.Candidates[0].Stability
+	if st == nil || !(st.RecallAtCut[0] <= st.RecallAtCut[1]) || !(st.FalseDiscoveryRateAtCut[0] <= st.FalseDiscoveryRateAtCut[1]) {
+		t.Fatalf("candidate 0's stability %+v, want its ranges at the cut", st)
+	}
+	text, err := Marshal(f)
+	if err != nil {
+		t.Fatal(err)
+	}
+	back, err := Read(bytes.NewReader(text), "cut.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := back.Candidates[0].Stability; got.RecallAtCut != st.RecallAtCut || got.FalseDiscoveryRateAtCut != st.FalseDiscoveryRateAtCut {
+		t.Errorf("read back %v %v, wrote %v %v", got.RecallAtCut, got.FalseDiscoveryRateAtCut, st.RecallAtCut, st.FalseDiscoveryRateAtCut)
+	}
+	older := regexp.MustCompile(`\n +(recall|false_discovery_rate)_at_cut: [^\n]*`).ReplaceAllString(string(text), "")
+	old, err := Read(strings.NewReader(older), "old.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := old.Candidates[0].Stability; !math.IsNaN(got.RecallAtCut[0]) || !math.IsNaN(got.FalseDiscoveryRateAtCut[1]) || got.Recall != st.Recall {
+		t.Errorf("a file without the keys reads %+v", got)
 	}
 }

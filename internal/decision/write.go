@@ -337,7 +337,17 @@ func stabilityNode(s *Stability) *yaml.Node {
 		"flagged_share", flowList(s.FlaggedShare[:]...),
 		"recall", flowList(s.Recall[:]...),
 		"skipped", optionalStr(s.Skipped),
+		"recall_at_cut", pairOrNull(s.RecallAtCut),
+		"false_discovery_rate_at_cut", pairOrNull(s.FalseDiscoveryRateAtCut),
 	)
+}
+
+// pairOrNull is a flow list of the two values, or null when both are NaN.
+func pairOrNull(v [2]float64) *yaml.Node {
+	if math.IsNaN(v[0]) && math.IsNaN(v[1]) {
+		return null()
+	}
+	return flowList(v[:]...)
 }
 
 func segmentsNode(s *Segments) *yaml.Node {

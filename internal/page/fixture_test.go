@@ -96,7 +96,8 @@ func fixture(t *testing.T) *decision.File {
 		if c.Name != "hit=0.8" {
 			continue
 		}
-		c.Stability = &decision.Stability{Replicates: 200, Seed: 7, Met: 200, Score: [2]float64{0.46, 0.55}, FlaggedShare: [2]float64{0.13, 0.17}, Recall: [2]float64{0.8, 0.81}}
+		c.Stability = &decision.Stability{Replicates: 200, Seed: 7, Met: 200, Score: [2]float64{0.46, 0.55}, FlaggedShare: [2]float64{0.13, 0.17}, Recall: [2]float64{0.8, 0.81},
+			RecallAtCut: [2]float64{0.74, 0.86}, FalseDiscoveryRateAtCut: [2]float64{0.62, 0.7}}
 		c.Segments = &decision.Segments{Column: "depot", Groups: []decision.SegmentGroup{
 			{Name: "east <dock>", Rows: 400, Positives: 50, Negatives: 350, TP: 30, FP: 40, Recall: 0.6, RecallCI: [2]float64{0.46, 0.72}, Precision: 3.0 / 7, PrecisionCI: [2]float64{0.32, 0.55}, Outlier: true},
 			{Name: "west", Rows: 600, Positives: 50, Negatives: 550, TP: 50, FP: 30, Recall: 1, RecallCI: [2]float64{0.93, 1}, Precision: 0.625, PrecisionCI: [2]float64{0.52, 0.72}},

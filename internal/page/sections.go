@@ -44,7 +44,7 @@ func stability(f *decision.File) section {
 		}
 		if s.Intro == "" {
 			s.Intro = fmt.Sprintf("Where each rule's cut lands when the validation set is drawn again, %d times (seed %d): the spread of each figure over the draws in which the rule was met.", st.Replicates, st.Seed)
-			s.Header = []string{"candidate", "met in", "cut", format.Measured + " share flagged", format.Measured + " hit share"}
+			s.Header = []string{"candidate", "met in", "cut", "share flagged where the rule lands", "hit share where the rule lands"}
 		}
 		name := c.Name
 		if c.Name == f.Chosen {
