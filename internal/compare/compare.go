@@ -282,15 +282,23 @@ func redraws(t *Table, columns []Column) {
 // rangeRow adds the detail row label of each column's range of ("n/a"
 // when nil); no row when every column's is nil.
 func rangeRow(t *Table, columns []Column, label string, of func(Column) *[2]float64) {
-	row := Row{Figure: "  " + label, Detail: true}
+	detailRow(t, columns, "  "+label, func(c Column) (string, bool) {
+		if r := of(c); r != nil {
+			return format.Interval(*r), true
+		}
+		return format.NA, false
+	})
+}
+
+// detailRow adds a detail row named figure whose cells cell gives, with
+// whether the column has a value; no row when no column has one.
+func detailRow(t *Table, columns []Column, figure string, cell func(Column) (string, bool)) {
+	row := Row{Figure: figure, Detail: true}
 	any := false
 	for _, c := range columns {
-		cell := format.NA
-		if r := of(c); r != nil {
-			any = true
-			cell = format.Interval(*r)
-		}
-		row.Cells = append(row.Cells, cell)
+		text, has := cell(c)
+		any = any || has
+		row.Cells = append(row.Cells, text)
 		row.Values = append(row.Values, math.NaN())
 		row.Diffs = append(row.Diffs, "")
 		row.Deltas = append(row.Deltas, math.NaN())
@@ -304,22 +312,13 @@ func rangeRow(t *Table, columns []Column, label string, of func(Column) *[2]floa
 // corrected for its optimism, with how much more it is ("55970 (+2600)");
 // "" for a column without one, and no row when no column has one.
 func corrected(t *Table, columns []Column) {
-	row := Row{Figure: CorrectedRow, Detail: true}
-	any := false
-	for _, c := range columns {
-		cell := ""
-		if v := c.CorrectedCostPerShift; v != nil {
-			any = true
-			cell = format.Money(*v) + " (" + format.MoneyDiff(*v, c.Cut.Projected.CostPerShift).Text + ")"
+	detailRow(t, columns, CorrectedRow, func(c Column) (string, bool) {
+		v := c.CorrectedCostPerShift
+		if v == nil {
+			return "", false
 		}
-		row.Cells = append(row.Cells, cell)
-		row.Values = append(row.Values, math.NaN())
-		row.Diffs = append(row.Diffs, "")
-		row.Deltas = append(row.Deltas, math.NaN())
-	}
-	if any {
-		t.Rows = append(t.Rows, row)
-	}
+		return format.Money(*v) + " (" + format.MoneyDiff(*v, c.Cut.Projected.CostPerShift).Text + ")", true
+	})
 }
 
 // ownCapacity adds the detail row of each column's queue against its own
