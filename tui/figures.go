@@ -179,8 +179,9 @@ func (p figuresPane) body() string {
 	lines = append(lines, st.Label.Render(format.ProjectedHeading))
 	interval := func(head, ci, tail string) string {
 		w := width - ansi.StringWidth(head)
-		// The interval before the words when both do not fit.
-		return head + st.Muted.Render(longestFit(w, "  "+conf+" "+ci+tail, "  "+ci+tail, " "+ci+tail, " "+ci, tail))
+		// The interval, with its confidence as on every other line, before
+		// the words when both do not fit.
+		return head + st.Muted.Render(longestFit(w, "  "+conf+" "+ci+tail, " "+conf+" "+ci+tail, "  "+conf+" "+ci, " "+conf+" "+ci, " "+ci, tail))
 	}
 	lines = append(lines, interval(st.Label.Render("alert rate")+" "+format.Share(e.Projected.AlertRate), format.Interval(e.ProjectedCI.AlertRate), ""))
 	if s.baseRateChanged() {
