@@ -2,6 +2,7 @@ package report
 
 import (
 	"fmt"
+	"math"
 	"slices"
 	"strings"
 	"time"
@@ -331,8 +332,16 @@ func (r *Report) addCalibration(res *analysis.Result) {
 	if !cal.ThresholdFromCosts {
 		basis = "the base rate, as no costs are given: net benefit is then the base rate times (recall - false positive rate)"
 	}
-	notes = append(notes, "net benefit (Vickers and Elkin 2006) at production's base rate "+format.Share(res.Assume.BaseRate)+
-		" and threshold probability "+format.Number(cal.Threshold, 4)+", "+basis)
+	rate, threshold := format.Share(res.Assume.BaseRate), cal.Threshold
+	if r.baseRateUndefined {
+		// No weighted case: no base rate, and no threshold taken from it.
+		rate, cf.NetBenefitBaseRate = undefinedBaseRate, null
+		if !cal.ThresholdFromCosts {
+			threshold, cf.NetBenefitThreshold = math.NaN(), null
+		}
+	}
+	notes = append(notes, "net benefit (Vickers and Elkin 2006) at production's base rate "+rate+
+		" and threshold probability "+format.Number(threshold, 4)+", "+basis)
 	for i, o := range res.Outcomes {
 		if !o.Met || i >= len(r.Cuts) {
 			continue

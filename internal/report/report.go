@@ -62,6 +62,10 @@ type Report struct {
 	// baseRateGiven reports whether the production base rate differs from
 	// the validation one, for the text forms.
 	baseRateGiven bool
+	// baseRateUndefined reports a set with no weighted case (every row
+	// weighs 0) and no base rate given: the 0 the caller puts in place of
+	// the undefined rate is no production base rate.
+	baseRateUndefined bool
 	// weights names the weights in words for the text forms ("frequency
 	// weights", or sampling weights and whether they are constant within
 	// each class); "" without weights.
@@ -243,6 +247,10 @@ func newReport(set *scores.Set, sum curve.Summary, warnings []analysis.Warning, 
 		hints:         hints,
 		Caution:       evidence.Caution,
 		baseRateGiven: a.BaseRate != sum.BaseRate,
+	}
+	if math.IsNaN(sum.BaseRate) && a.BaseRate == 0 {
+		r.baseRateGiven, r.baseRateUndefined = false, true
+		r.Assumptions.BaseRate = null
 	}
 	if sum.Weighted {
 		kind := design.Frequency.String()

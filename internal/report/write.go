@@ -460,10 +460,17 @@ func singleBlankLines(text string) string {
 	return text
 }
 
+// undefinedBaseRate says why a set with every row weighing 0 has no base
+// rate.
+const undefinedBaseRate = "undefined (no weighted cases)"
+
 func (r *Report) assumptionLine() string {
 	a := r.Assumptions
 	parts := []string{"base rate " + format.Share(float64(a.BaseRate))}
-	if !r.baseRateGiven {
+	switch {
+	case r.baseRateUndefined:
+		parts[0] = "base rate " + undefinedBaseRate
+	case !r.baseRateGiven:
 		parts[0] += " (the validation rate)"
 	}
 	if evidence.Defined(float64(a.Volume)) {
