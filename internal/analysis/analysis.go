@@ -66,9 +66,11 @@ type Resampling struct {
 	Seed       uint64 // the same seed and Replicates give the same figures
 	BandCuts   int    // cuts that carry the band of hit and wrong-alert share
 	// Design is how the set was drawn (bootstrap.Ordinary, the default: a
-	// random sample; bootstrap.WithinClass: classes sampled apart).
-	// Sampling weights constant within each class (the assumptions'
-	// Sample) always resample within classes.
+	// random sample; bootstrap.WithinClass: class sizes fixed by design,
+	// their weighted totals the population's). Sampling weights constant
+	// within each class (a class downsampled, keep 1 in 10) stay Ordinary
+	// unless asked: the kept rows are a random sample, each carrying its
+	// class weight, and the class mix varies (package bootstrap).
 	Design bootstrap.Design
 	// Progress, when set, is called with the replicates done so far.
 	Progress func(done int)
@@ -556,11 +558,6 @@ func (r *Result) Points(visit func(curve.Point)) {
 func (r *Result) Resample(ctx context.Context, opt Resampling) (bootstrap.Result, error) {
 	b := bootstrap.Options{Replicates: opt.Replicates, Seed: opt.Seed, BandCuts: opt.BandCuts, Progress: opt.Progress, Design: opt.Design,
 		Sampling: r.Assume.Sample.Sampling()}
-	// Sampling weights constant within each class: the classes were
-	// sampled apart, and each replicate keeps their sizes.
-	if r.Assume.Sample.WithinClass() {
-		b.Design = bootstrap.WithinClass
-	}
 	if r.Shifts != nil {
 		b.FinderOptions = []cutrule.Option{cutrule.WithShifts(r.Shifts.Assigned, r.Shifts.Scale)}
 	}

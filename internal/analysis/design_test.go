@@ -11,10 +11,12 @@ import (
 	"github.com/sill-tool/sill/internal/scores"
 )
 
-// TestResamplingFollowsDesign: the bootstrap's design follows the
-// weights' kind. Sampling weights constant within each class (false
-// cases weighted 10) resample within classes; frequency weights and
-// sampling weights that vary within a class resample ordinarily.
+// TestResamplingFollowsDesign: the bootstrap resamples as a random sample
+// whatever the weights' kind, sampling weights constant within each class
+// (false cases kept 1 in 10, weighted 10) included: the kept rows are a
+// random sample and the class mix varies between such sets (see
+// bootstrap's TestSamplingWeightsCoverage). Within classes only when the
+// caller asks for it.
 func TestResamplingFollowsDesign(t *testing.T) {
 	build := func(negativeWeights ...float64) *scores.Set {
 		sc := []float64{0.9, 0.8, 0.7, 0.6, 0.5, 0.4, 0.3, 0.2}
@@ -30,16 +32,18 @@ func TestResamplingFollowsDesign(t *testing.T) {
 		name string
 		set  *scores.Set
 		kind design.Kind
+		ask  bootstrap.Design
 		want bootstrap.Design
 	}{
-		{"downsampled, sampling", build(10, 10, 10, 10, 10), design.Sampling, bootstrap.WithinClass},
-		{"downsampled, frequency", build(10, 10, 10, 10, 10), design.Frequency, bootstrap.Ordinary},
-		{"varying, sampling", build(10, 5, 10, 20, 10), design.Sampling, bootstrap.Ordinary},
+		{"downsampled, sampling", build(10, 10, 10, 10, 10), design.Sampling, bootstrap.Ordinary, bootstrap.Ordinary},
+		{"downsampled, frequency", build(10, 10, 10, 10, 10), design.Frequency, bootstrap.Ordinary, bootstrap.Ordinary},
+		{"varying, sampling", build(10, 5, 10, 20, 10), design.Sampling, bootstrap.Ordinary, bootstrap.Ordinary},
+		{"downsampled, sampling, asked within classes", build(10, 10, 10, 10, 10), design.Sampling, bootstrap.WithinClass, bootstrap.WithinClass},
 	}
 	for _, tc := range cases {
 		a := projection.Assumptions{BaseRate: 0.1, Confidence: 0.95, Sample: design.New(tc.set, tc.kind)}
 		res, err := analysis.Run(context.Background(), tc.set, a, analysis.Options{Rules: rules(t, "hit=0.5"),
-			Resampling: analysis.Resampling{Replicates: 20, Seed: 1}})
+			Resampling: analysis.Resampling{Replicates: 20, Seed: 1, Design: tc.ask}})
 		if err != nil {
 			t.Fatal(err)
 		}

@@ -7,9 +7,28 @@
 // The design (Options.Design) says how the set was drawn. Ordinary, the
 // default, is a random sample: each replicate draws as many cases as the
 // set holds from all of them, so the mix of true and false cases varies
-// as it would between samples. WithinClass is for classes sampled apart
-// by design (one class downsampled): each replicate keeps each class's
-// size and draws within it.
+// as it would between samples. WithinClass is for class sizes fixed by
+// design: each replicate keeps each class's size and draws within it.
+//
+// A set whose false cases were downsampled from a random sample (keep 1
+// in 10, weight 10: sampling weights alike within each class) is still a
+// random sample, of the thinned cases: how many true and kept false cases
+// it holds varies from set to set, and the weighted base rate, read from
+// the set, varies with it. Ordinary resamples it so, each drawn row
+// carrying its class weight; WithinClass holds the class sizes, drops
+// that noise, and its 90% band of the wrong-alert share (which moves with
+// the base rate) covers too seldom. TestSamplingWeightsCoverage measures
+// it (-coverage.long: hit=0.8; sets of 3,000 cases at a base rate of 0.1,
+// each false case kept with chance 0.1, weight 10; 2,000 sets of 200
+// replicates, PCG(2026, 21)): the wrong-alert share where the rule lands
+// was covered in 0.905 of the sets by Ordinary and 0.850 by WithinClass,
+// at the population's own cut 0.882 and 0.790; the cut (0.886, 0.884) and
+// the flagged share (0.911, 0.911) alike under both. When the class sizes
+// are fixed instead (300 true cases and 270 false, weight 10, in every
+// set: the weighted base rate is the population's), WithinClass is right
+// (wrong-alert share 0.902, at the population's cut 0.889) and Ordinary
+// too wide (0.945, 0.949). Callers pick WithinClass only when the class
+// sizes, and so the base rate the weights give, were fixed by design.
 //
 // Cases, not rows, are drawn, and drawing cases only counts how many of
 // each cell (one distinct score and label) were drawn: a set of rows is
@@ -57,8 +76,8 @@
 // class's Poisson total split down the same tree (independent Poisson
 // counts, exactly in distribution). Sampling weights make the rows the
 // units drawn, each drawn row carrying its weight. When the weights are
-// alike within each class (a class downsampled; callers then pick
-// WithinClass) the cells count rows and a replicate is drawn lazily as
+// alike within each class (a class downsampled, under either design)
+// the cells count rows and a replicate is drawn lazily as
 // above, each drawn row of a class weighing the class's weight. Sampling
 // weights that vary within a class keep the eager draw: rows drawn one by
 // one from their own generator, seeded with (Seed, b), every replicate
@@ -146,9 +165,11 @@ const (
 	// false cases varies between replicates as it would between samples.
 	Ordinary Design = iota
 	// WithinClass: the true and the false cases were sampled apart by
-	// design (say the false cases were downsampled, their rows weighted
-	// alike), so each replicate keeps each class's size and draws within
-	// it.
+	// design in sizes fixed in advance, the weighted class totals the
+	// population's, so each replicate keeps each class's size and draws
+	// within it. A class downsampled by a keep chance (keep 1 in 10) from
+	// a random sample is not such a design: its class sizes vary, and
+	// Ordinary resamples it (see the package doc).
 	WithinClass
 )
 
