@@ -120,3 +120,68 @@ func TestCheckNamesWeightKind(t *testing.T) {
 		})
 	}
 }
+
+// TestCheckWarnsWithoutSquaredWeights: a decision saved under sampling
+// weights before data.squared_weights existed (the key taken out of a
+// saved one) reads the validated classes' noise coarsely; check says so
+// with the fix in text and as a JSON warning, and says nothing of it for
+// the file as saved.
+func TestCheckWarnsWithoutSquaredWeights(t *testing.T) {
+	dir := t.TempDir()
+	path := writeFile(t, dir, "tollbrook.csv", []byte(tollbrookScans))
+	cutPath := dir + "/cut.yaml"
+	if r := runSill(t, "", "report", path, "--weight", "weight", "--weight-kind", "sampling", "--cut", "top=4", "--save", cutPath); r.code != 0 {
+		t.Fatalf("save: exit %d: %s", r.code, r.stderr)
+	}
+	saved, err := os.ReadFile(cutPath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// The key's block: its line and the deeper-indented lines under it.
+	var kept []string
+	inside := false
+	for _, line := range strings.Split(string(saved), "\n") {
+		switch {
+		case line == "  squared_weights:":
+			inside = true
+			continue
+		case inside && strings.HasPrefix(line, "    "):
+			continue
+		}
+		inside = false
+		kept = append(kept, line)
+	}
+	older := writeFile(t, dir, "older.yaml", []byte(strings.Join(kept, "\n")))
+	if strings.Contains(strings.Join(kept, "\n"), "squared_weights") || len(kept) == len(strings.Split(string(saved), "\n")) {
+		t.Fatalf("the key was not taken out:\n%s", strings.Join(kept, "\n"))
+	}
+	const fix = "save the decision again with this version"
+	for _, tc := range []struct {
+		name string
+		file string
+		want bool
+	}{{"as saved", cutPath, false}, {"saved before the key", older, true}} {
+		t.Run(tc.name, func(t *testing.T) {
+			text := runSill(t, "", "check", tc.file, path, "--weight", "weight")
+			if text.code == 2 {
+				t.Fatalf("exit 2: %s", text.stderr)
+			}
+			if got := strings.Contains(text.stdout, "\nwarning: the decision file was saved under sampling weights before the squared weights") && strings.Contains(text.stdout, fix); got != tc.want {
+				t.Errorf("text warns of the missing key: %v, want %v\n%s", got, tc.want, text.stdout)
+			}
+			res := runSill(t, "", "check", tc.file, path, "--weight", "weight", "--format", "json")
+			var out struct {
+				Warnings []string `json:"warnings"`
+			}
+			if err := json.Unmarshal([]byte(res.stdout), &out); err != nil {
+				t.Fatal(err)
+			}
+			if out.Warnings == nil {
+				t.Errorf("json warnings is null, want a list")
+			}
+			if got := len(out.Warnings) == 1 && strings.Contains(out.Warnings[0], "data.squared_weights") && strings.Contains(out.Warnings[0], fix); got != tc.want {
+				t.Errorf("json warnings %q, want the missing key's: %v", out.Warnings, tc.want)
+			}
+		})
+	}
+}

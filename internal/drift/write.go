@@ -90,7 +90,10 @@ type jsonResult struct {
 	NextStep             string       `json:"next_step"`
 	Status               string       `json:"status"`
 	Findings             []string     `json:"findings"`
-	Caution              string       `json:"caution"`
+	// Warnings say what makes the check less exact than stated, with the
+	// fix (Result.Warnings); empty when nothing does.
+	Warnings []string `json:"warnings"`
+	Caution  string   `json:"caution"`
 }
 
 // jsonTest is one test of the verdict's family.
@@ -191,6 +194,7 @@ func WriteJSON(w io.Writer, r *Result, decisionFile, scoresFile string) error {
 	if out.Findings == nil {
 		out.Findings = []string{}
 	}
+	out.Warnings = append([]string{}, r.Warnings...)
 	var encoded bytes.Buffer
 	enc := json.NewEncoder(&encoded)
 	enc.SetIndent("", "  ")
@@ -279,6 +283,9 @@ func WriteText(w io.Writer, r *Result, decisionFile, scoresFile string) error {
 		b.WriteString("  - " + f + "\n")
 	}
 	b.WriteString("next step: " + r.NextStep() + "\n")
+	for _, w := range r.Warnings {
+		b.WriteString("\nwarning: " + w + "\n")
+	}
 	b.WriteString("\ncaution: " + evidence.Caution + "\n")
 	_, err := io.WriteString(w, format.PrintableText(b.String())) // names from the files are untrusted
 	return err
