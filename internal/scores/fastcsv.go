@@ -18,7 +18,10 @@ import (
 // back to where it started, such as an open file. It returns the same Set
 // and the same errors as Read for the same bytes, only faster: it reads the
 // decompressed text in large blocks, parses the blocks on every core and
-// parses plain numbers from the bytes without allocating.
+// parses plain numbers from the bytes without allocating. Gzip input of
+// at most heldGzipBytes is read into memory whole before it is
+// decompressed, which the decoder reads faster than a stream, and hashed
+// beside the decompression.
 //
 // Load handles delimited text with every column Read takes, dropped rows
 // included. For anything else it seeks back and calls Read: JSON Lines, a
@@ -38,13 +41,25 @@ func Load(r io.ReadSeeker, source string, opt Options) (*Set, error) {
 	if _, err := r.Seek(start, io.SeekStart); err != nil {
 		return nil, &ParseError{File: source, Err: fmt.Errorf("read: %w", err)}
 	}
+	var held []byte
 	if n, _ := io.ReadFull(r, magic[:]); n == 2 && magic == [2]byte{0x1f, 0x8b} {
+		if size <= heldGzipBytes {
+			held = make([]byte, size)
+		}
 		size = -1 // gzip: the size says little about the rows
 	}
 	if _, err := r.Seek(start, io.SeekStart); err != nil {
 		return nil, &ParseError{File: source, Err: fmt.Errorf("read: %w", err)}
 	}
-	set, err := loadBlocks(r, source, opt, size)
+	if held != nil {
+		if _, err := io.ReadFull(r, held); err != nil {
+			held = nil // the file changed size: read it as a stream
+			if _, err := r.Seek(start, io.SeekStart); err != nil {
+				return nil, &ParseError{File: source, Err: fmt.Errorf("read: %w", err)}
+			}
+		}
+	}
+	set, err := loadBlocks(r, held, source, opt, size)
 	if !errors.Is(err, errDecline) {
 		return set, err
 	}
@@ -104,15 +119,19 @@ type rowEvent struct {
 	decline bool
 }
 
+// heldGzipBytes is the largest gzip input Load reads into memory whole:
+// about twenty million rows of a score and a label.
+const heldGzipBytes = 64 << 20
+
 // loadBlocks is Load without the fallback; it returns errDecline for input
-// that Read must take. size is the number of bytes of plain text to read,
-// -1 when unknown.
-func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, error) {
+// that Read must take. held, when not nil, is the whole input, and r is
+// not read. size is the number of bytes of plain text to read, -1 when
+// unknown.
+func loadBlocks(r io.Reader, held []byte, source string, opt Options, size int64) (*Set, error) {
 	if opt.Input != InputAuto && opt.Input != InputCSV {
 		return nil, errDecline
 	}
-	digest := sha256.New()
-	hashed := io.TeeReader(r, digest)
+	hashed, digest := digestInput(r, held)
 	in, err := openInput(hashed, source)
 	if err != nil {
 		return nil, errDecline
@@ -189,7 +208,25 @@ func loadBlocks(r io.Reader, source string, opt Options, size int64) (*Set, erro
 		return nil, &ParseError{File: source, Err: ErrNoRows}
 	}
 	sink.fill(rows)
-	return b.finish(hex.EncodeToString(digest.Sum(nil)))
+	return b.finish(digest())
+}
+
+// digestInput returns a reader of the input, r or else held when not nil,
+// and a function that gives the hex SHA-256 of every byte read from it,
+// to be called after the last read. held is hashed on a goroutine of its
+// own, beside the reading, and read as a *bytes.Reader, which openInput
+// gives the gzip decoder as it is; r is hashed as it is read.
+func digestInput(r io.Reader, held []byte) (io.Reader, func() string) {
+	if held != nil {
+		sum := make(chan [sha256.Size]byte, 1)
+		go func() { sum <- sha256.Sum256(held) }()
+		return bytes.NewReader(held), func() string {
+			s := <-sum
+			return hex.EncodeToString(s[:])
+		}
+	}
+	digest := sha256.New()
+	return io.TeeReader(r, digest), func() string { return hex.EncodeToString(digest.Sum(nil)) }
 }
 
 // blockSink takes each parsed block's rows as it arrives, in input order:

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"cmp"
 	"compress/gzip"
+	"errors"
 	"fmt"
 	"io"
 	"math"
@@ -273,7 +274,7 @@ func TestLoadMatchesRead(t *testing.T) {
 		}
 		name := fmt.Sprintf("trial %d (block %d, rows %d)", trial, blockSize, rows)
 		sameResult(t, name, data, opt)
-		if _, err := loadBlocks(bytes.NewReader(data), "t.csv", opt, int64(len(data))); err != errDecline {
+		if _, err := loadBlocks(bytes.NewReader(data), nil, "t.csv", opt, int64(len(data))); err != errDecline {
 			handled++
 		}
 		if trial%10 == 0 {
@@ -478,7 +479,7 @@ func TestGzipRankedWhileRead(t *testing.T) {
 		w.Close()
 		name := fmt.Sprintf("trial %d (block %d, rows %d, order %d, segments %v, drop %v)", trial, blockSize, rows, order, segmented, opt.DropInvalid)
 		want, wantErr := Read(bytes.NewReader(z.Bytes()), "t.csv", opt)
-		got, gotErr := loadBlocks(bytes.NewReader(z.Bytes()), "t.csv", opt, -1)
+		got, gotErr := loadBlocks(bytes.NewReader(z.Bytes()), nil, "t.csv", opt, -1)
 		if wantErr != nil || gotErr != nil {
 			t.Fatalf("%s: Read error %v, block reader error %v", name, wantErr, gotErr)
 		}
@@ -526,5 +527,50 @@ func TestBlockDigit(t *testing.T) {
 	d.fix(0, 0, 0)
 	if d.bucket(0) != 1 || d.bucket(math.MaxUint64) != bucketCount {
 		t.Errorf("empty first block: buckets %d and %d, want 1 and %d", d.bucket(0), d.bucket(math.MaxUint64), bucketCount)
+	}
+}
+
+// TestLoadHeldGzipMembers checks Load, which reads gzip files whole into
+// memory, against Read, which reads them as a stream, on the ends of a
+// gzip file: two members one after the other (read as one text), bytes
+// after the last member that do not begin another (an error), a lone
+// first magic byte after it (an error) and an empty member at the end.
+// Each is also read by the block reader as a stream, which must agree
+// or leave the input to Read (as it does on errors in reading).
+func TestLoadHeldGzipMembers(t *testing.T) {
+	member := func(text string) []byte {
+		var z bytes.Buffer
+		w := gzip.NewWriter(&z)
+		w.Write([]byte(text))
+		w.Close()
+		return z.Bytes()
+	}
+	two := append(member("score,label\n0.5,1\n0.25,0\n"), member("0.75,1\n0.125,0\n")...)
+	cases := []struct {
+		name    string
+		data    []byte
+		corrupt bool
+	}{
+		{"two members", two, false},
+		{"bytes after the last member", append(slices.Clone(two), "left over\n"...), true},
+		{"a magic byte after the last member", append(slices.Clone(two), 0x1f), true},
+		{"an empty member at the end", append(slices.Clone(two), member("")...), false},
+	}
+	for _, tc := range cases {
+		sameResult(t, tc.name, tc.data, Options{})
+		set, err := Load(bytes.NewReader(tc.data), "t.csv", Options{})
+		if tc.corrupt != errors.Is(err, ErrCorruptGzip) {
+			t.Errorf("%s: error %v, corrupt gzip expected %v", tc.name, err, tc.corrupt)
+		}
+		if err == nil && set.Len() != 4 {
+			t.Errorf("%s: %d rows, want the 4 of both members", tc.name, set.Len())
+		}
+		streamed, streamErr := loadBlocks(bytes.NewReader(tc.data), nil, "t.csv", Options{}, -1)
+		if streamErr != errDecline && ((err == nil) != (streamErr == nil) || (err != nil && err.Error() != streamErr.Error())) {
+			t.Errorf("%s: Load error %v, streamed %v", tc.name, err, streamErr)
+		}
+		if err == nil && !reflect.DeepEqual(set, streamed) {
+			t.Errorf("%s: sets differ\nLoad %+v\nstreamed %+v", tc.name, brief(set), brief(streamed))
+		}
 	}
 }

@@ -126,16 +126,29 @@ func Read(r io.Reader, source string, opt Options) (*Set, error) {
 // with its byte-order mark (either byte order) is decoded; UTF-16 without
 // one is ErrEncoding. Gzip data is read member by member, so that
 // bytes after the last member that are not another one are an error
-// saying so, and gzip data inside gzip data is refused.
+// saying so, and gzip data inside gzip data is refused. Gzip data held
+// whole in memory (a *bytes.Reader) is given to the decoder as it is,
+// which reads it faster than through a buffer.
 func openInput(r io.Reader, source string) (*bufio.Reader, error) {
-	buffered := bufio.NewReaderSize(r, 1<<20)
-	if isGzip(buffered) {
-		z, err := gzip.NewReader(buffered)
+	var buffered *bufio.Reader
+	var members *gzipMembers
+	if held, ok := r.(*bytes.Reader); ok && isGzipHeld(held) {
+		members = &gzipMembers{src: held, peek: func(n int) []byte { return peekHeld(held, n) }}
+	} else {
+		raw := bufio.NewReaderSize(r, 1<<20)
+		buffered = raw
+		if isGzip(raw) {
+			members = &gzipMembers{src: raw, peek: func(n int) []byte { b, _ := raw.Peek(n); return b }}
+		}
+	}
+	if members != nil {
+		z, err := gzip.NewReader(members.src)
 		if err != nil {
 			return nil, &ParseError{File: source, Err: fmt.Errorf("%w: %v", ErrCorruptGzip, err)}
 		}
 		z.Multistream(false)
-		buffered = bufio.NewReaderSize(&gzipMembers{src: buffered, z: z}, 1<<20)
+		members.z = z
+		buffered = bufio.NewReaderSize(members, 1<<20)
 		if isGzip(buffered) {
 			return nil, &ParseError{File: source, Err: fmt.Errorf("%w: the decompressed bytes begin with gzip's magic again, expected text; decompress the file once before reading it", ErrGzipTwice)}
 		}
@@ -156,7 +169,21 @@ func openInput(r io.Reader, source string) (*bufio.Reader, error) {
 // isGzip reports whether in begins with gzip's magic bytes.
 func isGzip(in *bufio.Reader) bool {
 	magic, _ := in.Peek(2)
-	return len(magic) == 2 && magic[0] == 0x1f && magic[1] == 0x8b
+	return isGzipMagic(magic)
+}
+
+// isGzipHeld reports whether the unread bytes of held begin with gzip's
+// magic bytes.
+func isGzipHeld(held *bytes.Reader) bool { return isGzipMagic(peekHeld(held, 2)) }
+
+func isGzipMagic(b []byte) bool { return len(b) == 2 && b[0] == 0x1f && b[1] == 0x8b }
+
+// peekHeld returns the next n unread bytes of held, fewer at its end,
+// without reading them.
+func peekHeld(held *bytes.Reader, n int) []byte {
+	b := make([]byte, n)
+	m, _ := held.ReadAt(b, held.Size()-int64(held.Len()))
+	return b[:m]
 }
 
 // errGzipTrailing is the error of bytes after a gzip member that do not
@@ -164,10 +191,12 @@ func isGzip(in *bufio.Reader) bool {
 var errGzipTrailing = fmt.Errorf("%w: bytes after the end of the compressed data that do not begin another gzip member, expected the file to end there", ErrCorruptGzip)
 
 // gzipMembers reads the members of a gzip file one after the other, as
-// gzip tools do, and refuses other bytes after the last.
+// gzip tools do, and refuses other bytes after the last. peek returns the
+// next n unread bytes of src (fewer at its end) without reading them.
 type gzipMembers struct {
-	src *bufio.Reader
-	z   *gzip.Reader
+	src  flate.Reader
+	peek func(n int) []byte
+	z    *gzip.Reader
 }
 
 func (g *gzipMembers) Read(p []byte) (int, error) {
@@ -175,10 +204,10 @@ func (g *gzipMembers) Read(p []byte) (int, error) {
 	if err != io.EOF {
 		return n, err
 	}
-	if _, more := g.src.Peek(1); more != nil {
+	if len(g.peek(1)) == 0 {
 		return n, io.EOF // the end of the file
 	}
-	if !isGzip(g.src) {
+	if !isGzipMagic(g.peek(2)) {
 		return n, errGzipTrailing
 	}
 	if err := g.z.Reset(g.src); err != nil {
