@@ -24,8 +24,8 @@ func Difference(s1, n1, s2, n2, confidence float64) (lower, upper float64) {
 
 // DifferenceP returns the two-sided p-value of no difference between the
 // two proportions that agrees with Difference: the largest 1 - confidence
-// at which Difference's interval still holds 0 (found by bisection on the
-// normal quantile). A p below 1 - confidence is thus the same as an
+// at which Difference's interval still holds 0 (the normal quantile found
+// to 1e-12 by Brent's method, see nearEndRoot). A p below 1 - confidence is thus the same as an
 // interval that leaves out 0. Equal proportions give 1; an undefined
 // difference gives NaN.
 func DifferenceP(s1, n1, s2, n2 float64) float64 {
@@ -45,22 +45,74 @@ func DifferenceP(s1, n1, s2, n2 float64) float64 {
 		}
 		return -upper
 	}
-	lo, hi := 0.0, 40.0
-	if nearEnd(hi) > 0 {
+	const hi = 40.0
+	atHi := nearEnd(hi)
+	if atHi > 0 {
 		return 0
 	}
-	for range 100 {
-		mid := (lo + hi) / 2
-		if nearEnd(mid) > 0 {
-			lo = mid
-		} else {
-			hi = mid
+	// At z = 0 both Wilson intervals are their points: the near end is d.
+	return math.Erfc(nearEndRoot(nearEnd, 0, hi, math.Abs(d), atHi, 1e-12) / math.Sqrt2)
+}
+
+// nearEndRoot returns a root of f in [a, b], where fa = f(a) and fb = f(b)
+// have opposite signs (or one is 0), to within tol, by Brent's method
+// (Brent 1973, "Algorithms for Minimization without Derivatives", ch. 4,
+// the zero finder known as zeroin): inverse quadratic or secant steps
+// while they stay inside the bracket and shrink it fast enough, else
+// bisection. It takes about a fifth of bisection's evaluations of f at the
+// same tolerance, and like bisection it keeps the root bracketed.
+func nearEndRoot(f func(float64) float64, a, b, fa, fb, tol float64) float64 {
+	const eps = 0x1p-52
+	c, fc := a, fa
+	d := b - a
+	e := d
+	for range 200 {
+		if math.Abs(fc) < math.Abs(fb) {
+			a, b, c = b, c, b
+			fa, fb, fc = fb, fc, fb
 		}
-		if hi-lo < 1e-12 {
-			break
+		tol1 := 2*eps*math.Abs(b) + tol/2
+		half := (c - b) / 2
+		if math.Abs(half) <= tol1 || fb == 0 {
+			return b
+		}
+		if math.Abs(e) >= tol1 && math.Abs(fa) > math.Abs(fb) {
+			var p, q float64
+			s := fb / fa
+			if a == c {
+				p, q = 2*half*s, 1-s // secant
+			} else {
+				q, r := fa/fc, fb/fc // inverse quadratic
+				p = s * (2*half*q*(q-r) - (b-a)*(r-1))
+				q = (q - 1) * (r - 1) * (s - 1)
+			}
+			if p > 0 {
+				q = -q
+			} else {
+				p = -p
+			}
+			if 2*p < min(3*half*q-math.Abs(tol1*q), math.Abs(e*q)) {
+				e, d = d, p/q
+			} else {
+				d, e = half, half
+			}
+		} else {
+			d, e = half, half
+		}
+		a, fa = b, fb
+		if math.Abs(d) > tol1 {
+			b += d
+		} else {
+			b += math.Copysign(tol1, half)
+		}
+		fb = f(b)
+		if (fb > 0) == (fc > 0) {
+			c, fc = a, fa
+			d = b - a
+			e = d
 		}
 	}
-	return math.Erfc((lo + hi) / 2 / math.Sqrt2)
+	return b
 }
 
 func differenceAtZ(s1, n1, s2, n2, z float64) (lower, upper float64) {
