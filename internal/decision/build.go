@@ -210,8 +210,11 @@ func clock(minutes int) string {
 }
 
 // stabilityOf is the bootstrap spread of the rule p came from, or of the
-// first rule met at p's cut when p was picked by hand; nil without a
-// bootstrap or such a rule.
+// first rule met at p's cut when p was picked by hand, with the redraws at
+// p's cut. A pick no resampled rule lands on (picked by hand, or by a rule
+// not among res.Rules) keeps the redraws at its cut alone, its Skipped
+// saying why; nil without a bootstrap, or when the bootstrap has no band
+// at p's cut either.
 func stabilityOf(res *analysis.Result, p Pick) *Stability {
 	b := res.Stability
 	if b == nil {
@@ -230,17 +233,25 @@ func stabilityOf(res *analysis.Result, p Pick) *Stability {
 			found = &b.Spreads[i]
 		}
 	}
-	if found == nil {
+	band, banded := b.BandAtCut(p.Point.Score)
+	if found == nil && !banded {
 		return nil
 	}
-	s := &Stability{Replicates: b.Replicates, Seed: b.Seed, Met: found.Met, Score: found.Score,
-		FlaggedShare: found.FlaggedShare, Recall: found.Recall, Skipped: found.Skipped,
-		RecallAtCut: [2]float64{math.NaN(), math.NaN()}, FalseDiscoveryRateAtCut: [2]float64{math.NaN(), math.NaN()}}
-	if band, ok := b.BandAtCut(p.Point.Score); ok {
+	nan := [2]float64{math.NaN(), math.NaN()}
+	s := &Stability{Replicates: b.Replicates, Seed: b.Seed, Score: nan, FlaggedShare: nan, Recall: nan, Skipped: SkippedByHand,
+		RecallAtCut: nan, FalseDiscoveryRateAtCut: nan}
+	if found != nil {
+		s.Met, s.Score, s.FlaggedShare, s.Recall, s.Skipped = found.Met, found.Score, found.FlaggedShare, found.Recall, found.Skipped
+	}
+	if banded {
 		s.RecallAtCut, s.FalseDiscoveryRateAtCut = band.Recall, band.FalseDiscoveryRate
 	}
 	return s
 }
+
+// SkippedByHand is Stability.Skipped of a candidate no resampled rule
+// lands on: only the redraws at its cut are recorded.
+const SkippedByHand = "picked by hand, no rule applied again to the resampled sets: only the redraws at its cut are recorded"
 
 func segmentsOf(column string, b segment.Breakdown) *Segments {
 	groups := slices.Clone(b.Segments)

@@ -9,6 +9,7 @@ import (
 	"os"
 	"path/filepath"
 	"regexp"
+	"strconv"
 	"strings"
 	"testing"
 	"time"
@@ -515,5 +516,63 @@ func TestStabilityAtCut(t *testing.T) {
 	}
 	if got := old.Candidates[0].Stability; !math.IsNaN(got.RecallAtCut[0]) || !math.IsNaN(got.FalseDiscoveryRateAtCut[1]) || got.Recall != st.Recall {
 		t.Errorf("a file without the keys reads %+v", got)
+	}
+}
+
+// TestStabilityByHand: a candidate picked by hand at a cut no resampled
+// rule lands on (a pin with no rule, and one named score=V that is not
+// among the rules) records its redraws at its cut, the bootstrap's band
+// exactly there (bootstrap.Result.BandAtCut), with where a rule lands
+// null and Skipped saying why; the file reads back the same.
+func TestStabilityByHand(t *testing.T) {
+	res, err := demoResult(50)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ruled := map[int]bool{}
+	for _, o := range res.Outcomes {
+		ruled[o.Point.Index] = true
+	}
+	var points, hand []curve.Point
+	res.Points(func(p curve.Point) { points = append(points, p) })
+	for _, p := range points[len(points)/3:] {
+		if !ruled[p.Index] && len(hand) < 2 {
+			hand = append(hand, p)
+		}
+	}
+	first := res.Outcomes[0]
+	picks := []Pick{{Name: "base", Rule: first.Rule.String(), Point: first.Point}, {Name: "pinned", Point: hand[0]},
+		{Name: "score", Rule: "score=" + strconv.FormatFloat(hand[1].Score, 'g', -1, 64), Point: hand[1]}}
+	f, err := New(res, picks, "base", Record{ToolVersion: "1.2.3"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	text, err := Marshal(f)
+	if err != nil {
+		t.Fatal(err)
+	}
+	back, err := Read(bytes.NewReader(text), "cut.yaml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, p := range hand {
+		c := back.Candidates[i+1]
+		band, ok := res.Stability.BandAtCut(p.Score)
+		if !ok {
+			t.Fatalf("%s: no band at %v", c.Name, p.Score)
+		}
+		st := c.Stability
+		if st == nil || st.Replicates != 50 || st.Seed != res.Stability.Seed || st.Skipped != SkippedByHand || st.Met != 0 {
+			t.Fatalf("%s: stability %+v, want the redraws at its cut alone", c.Name, st)
+		}
+		if st.RecallAtCut != band.Recall || st.FalseDiscoveryRateAtCut != band.FalseDiscoveryRate {
+			t.Errorf("%s: redraws %v %v, band at the cut %v %v", c.Name, st.RecallAtCut, st.FalseDiscoveryRateAtCut, band.Recall, band.FalseDiscoveryRate)
+		}
+		if !math.IsNaN(st.Score[0]) || !math.IsNaN(st.Recall[1]) || !math.IsNaN(st.FlaggedShare[0]) {
+			t.Errorf("%s: where a rule lands %v %v %v, want null", c.Name, st.Score, st.FlaggedShare, st.Recall)
+		}
+	}
+	if st := back.Candidates[0].Stability; st == nil || st.Skipped != "" || st.Met == 0 {
+		t.Errorf("%s: stability %+v, want its rule's spread", first.Rule, st)
 	}
 }
