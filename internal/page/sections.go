@@ -51,7 +51,11 @@ func stability(f *decision.File) section {
 			name += " (chosen)"
 		}
 		if st.Skipped != "" {
-			s.Rows = append(s.Rows, []string{name, "not resampled", "", "", ""})
+			status := "not resampled"
+			if st.Skipped == decision.SkippedByHand {
+				status = "no rule: the cut stays put" // its redraws at the cut are in the table above
+			}
+			s.Rows = append(s.Rows, []string{name, status, "", "", ""})
 			s.Note += name + ": " + st.Skipped + ". "
 			continue
 		}
