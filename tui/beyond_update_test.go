@@ -3,6 +3,7 @@ package tui
 import (
 	"io"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 
@@ -467,7 +468,8 @@ func TestWriteQueue90(t *testing.T) {
 }
 
 // TestStripRedraws: after b each pin's column carries its hit share's
-// range across the resampled sets exactly at its cut (BandAtCut, not the
+// and its wrong-alert share's ranges across the resampled sets exactly
+// at its cut (BandAtCut, not the
 // nearest band cut of the chart), as the figures pane shows it, in the row under the hit share; a pin
 // made after the run gets one too; new assumptions forget it.
 func TestStripRedraws(t *testing.T) {
@@ -489,9 +491,22 @@ func TestStripRedraws(t *testing.T) {
 			t.Errorf("pin %q: redraws %q, want the band at its cut %q", p.name, got[i], want)
 		}
 	}
+	// Two redraws rows: the hit share's, then the wrong-alert share's,
+	// each under its figure and interval.
+	var under []string
 	for i, r := range rows {
-		if strings.TrimSpace(r.Figure) == compare.RedrawsLabel && !strings.HasPrefix(strings.TrimSpace(rows[i-2].Figure), "hit share") {
-			t.Errorf("redraws under %q, want under the hit share and its interval", rows[i-2].Figure)
+		if strings.TrimSpace(r.Figure) == compare.RedrawsLabel {
+			under = append(under, strings.TrimSpace(rows[i-2].Figure))
+		}
+	}
+	if len(under) != 2 || !strings.HasPrefix(under[0], "hit share") || !strings.HasPrefix(under[1], "wrong-alert share") {
+		t.Errorf("redraws rows under %q, want under the hit share and under the wrong-alert share, each after its interval", under)
+	}
+	wrong := rowCells(rows[slices.IndexFunc(rows, func(r compare.Row) bool { return strings.HasPrefix(strings.TrimSpace(r.Figure), "wrong-alert share") }):], compare.RedrawsLabel)
+	for i, p := range m.s.pins {
+		band, _ := m.s.stability.BandAtCut(m.s.curve.At(p.cut).Score)
+		if want := format.Interval(band.FalseDiscoveryRate); i >= len(wrong) || wrong[i] != want {
+			t.Errorf("pin %q: wrong-alert redraws %q, want the band at its cut %q", p.name, wrong, want)
 		}
 	}
 	m = keys(m, "a", "tab", "ctrl+u")

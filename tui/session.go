@@ -300,8 +300,8 @@ func (s *session) table() compare.Table {
 	for i, p := range s.pins {
 		columns[i] = compare.Column{Name: p.name, Rule: p.rule, Cut: s.evidenceAt(p.cut)}
 		if band, ok := s.bandAt(p.cut); ok {
-			redraws := band.Recall
-			columns[i].RecallRedraws = &redraws
+			recall, wrong := band.Recall, band.FalseDiscoveryRate
+			columns[i].RecallRedraws, columns[i].WrongRedraws = &recall, &wrong
 		}
 		if p.checked {
 			now := compare.RuleNow{Holds: !p.moved, Picks: math.NaN()}

@@ -211,13 +211,37 @@ func (s Strip) heading(i int, name string) string {
 // detailOrder is the order in which detail rows give way when the strip is
 // short of lines: the share of all cases first, the capacity reading last
 // of the figures. The bootstrap's redraws, asked for with b, outlast the
-// count of true cases found, which the hit share and the header's count
+// count of true cases found, except the wrong-alert share's (wrongRedraws),
+// which gives way second, as the wrong-alert share is what the hit share
+// and its interval already bound; which the hit share and the header's count
 // of true cases already give, and the least-cost cut's corrected cost,
 // which the review screen's candidate lines also give.
 // The headings that name the measured and the projected figures go last:
 // the labels below them still differ ("wrong-alert share (FDR)", measured;
 // "wrong-alert share", projected).
-var detailOrder = []string{"share of all cases", "interval", "true cases found", strings.TrimSpace(compare.CorrectedRow), compare.RedrawsLabel, compare.LandsLabel, "against capacity", format.MeasuredHeading, format.ProjectedHeading}
+var detailOrder = []string{"share of all cases", wrongRedraws, "interval", "true cases found", strings.TrimSpace(compare.CorrectedRow), compare.RedrawsLabel, compare.LandsLabel, "against capacity", format.MeasuredHeading, format.ProjectedHeading}
+
+// wrongRedraws stands in detailOrder for the second redraws row, the
+// wrong-alert share's, which goes before the hit share's.
+const wrongRedraws = "\x00wrong-alert redraws"
+
+// matchesDrop reports whether rows[i] is a row that the entry what of a
+// drop list names: a row whose label holds what, or for wrongRedraws a
+// redraws row that follows another.
+func matchesDrop(rows []compare.Row, i int, what string) bool {
+	if what != wrongRedraws {
+		return strings.Contains(rows[i].Figure, what)
+	}
+	if strings.TrimSpace(rows[i].Figure) != compare.RedrawsLabel {
+		return false
+	}
+	for _, r := range rows[:i] {
+		if strings.TrimSpace(r.Figure) == compare.RedrawsLabel {
+			return true
+		}
+	}
+	return false
+}
 
 // scrollDrops are the detail rows a scrolling strip still lets go before
 // it scrolls: counts that the figure above them and the header give.
@@ -293,7 +317,7 @@ func rowsThatFit(rows []compare.Row, lines int, drops []string) []compare.Row {
 			if count <= lines {
 				break
 			}
-			if keep[i] && r.Detail && strings.Contains(r.Figure, what) {
+			if keep[i] && r.Detail && matchesDrop(rows, i, what) {
 				keep[i] = false
 				count--
 			}

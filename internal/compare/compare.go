@@ -50,6 +50,11 @@ type Column struct {
 	// decision file written before it recorded the range at the cut),
 	// shown under its own label (LandsLabel).
 	RecallLands *[2]float64
+	// WrongRedraws, when not nil, is the range of the column's measured
+	// wrong-alert share across the resampled sets at the column's cut
+	// (RedrawsLabel), shown beside the wrong-alert share. nil: not
+	// resampled, or not known at the cut.
+	WrongRedraws *[2]float64
 	// CorrectedCostPerShift, when not nil, is the column's projected cost
 	// per shift corrected for the least-cost figure's optimism (the cost
 	// rule picks the cut on the cases its cost is counted on, so that cost
@@ -220,6 +225,7 @@ func New(columns []Column, reference int, opt Options) Table {
 	detail("  true cases found", func(c evidence.Cut) string { return format.Count(c.TP) + " of " + format.Count(c.TP+c.FN) })
 	main("wrong-alert share (FDR)", Lower, func(c evidence.Cut) float64 { return c.FalseDiscoveryRate }, format.Share, format.ShareDiff)
 	detail("  "+conf, func(c evidence.Cut) string { return format.Interval(c.FalseDiscoveryCI) })
+	rangeRow(&t, columns, RedrawsLabel, func(c Column) *[2]float64 { return c.WrongRedraws })
 	main("false positive rate", Lower, func(c evidence.Cut) float64 { return c.FalsePositiveRate }, format.Share, format.ShareDiff)
 	heading(format.ProjectedHeading)
 	main("alert rate", Neither, func(c evidence.Cut) float64 { return c.Projected.AlertRate }, format.Share, format.ShareDiff)

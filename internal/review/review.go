@@ -36,7 +36,7 @@ func table(f *decision.File) compare.Table {
 // Column is c as a column of package compare, with what the file records
 // of its rule, its redraws and its corrected cost.
 func Column(c decision.Candidate) compare.Column {
-	column := compare.Column{Name: c.Name, Rule: c.Rule, Cut: c.Cut, RuleNow: RuleNow(c), RecallRedraws: RecallRedraws(c), RecallLands: RecallLands(c)}
+	column := compare.Column{Name: c.Name, Rule: c.Rule, Cut: c.Cut, RuleNow: RuleNow(c), RecallRedraws: RecallRedraws(c), RecallLands: RecallLands(c), WrongRedraws: WrongRedraws(c)}
 	if o := c.Optimism; o != nil && evidence.Defined(o.CorrectedPerShift) {
 		corrected := o.CorrectedPerShift
 		column.CorrectedCostPerShift = &corrected
@@ -61,6 +61,17 @@ func RuleNow(c decision.Candidate) *compare.RuleNow {
 func RecallRedraws(c decision.Candidate) *[2]float64 {
 	if st := c.Stability; st != nil && evidence.Defined(st.RecallAtCut[0]) && evidence.Defined(st.RecallAtCut[1]) {
 		r := st.RecallAtCut
+		return &r
+	}
+	return nil
+}
+
+// WrongRedraws is the range of the measured wrong-alert share at c's
+// cut across the bootstrap's resampled sets, as the file records it, for
+// package compare; nil when the file does not record it.
+func WrongRedraws(c decision.Candidate) *[2]float64 {
+	if st := c.Stability; st != nil && evidence.Defined(st.FalseDiscoveryRateAtCut[0]) && evidence.Defined(st.FalseDiscoveryRateAtCut[1]) {
+		r := st.FalseDiscoveryRateAtCut
 		return &r
 	}
 	return nil
