@@ -122,16 +122,6 @@ type SquaredWeights struct {
 	Histogram []float64
 }
 
-// Kish returns Kish's effective size (sum w)²/(sum w²) of a count of
-// weight w with squared weights squares; w itself when squares is not
-// positive.
-func Kish(w, squares float64) float64 {
-	if !(squares > 0) {
-		return w
-	}
-	return w * w / squares
-}
-
 // Ranking is the validation set's ROC AUC and average precision, each with
 // its interval at the assumptions' confidence: DeLong's normal interval
 // clipped to [0,1] and the logit interval over the true cases (see

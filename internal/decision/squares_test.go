@@ -63,7 +63,7 @@ func TestSquaredWeights(t *testing.T) {
 	if q.Positives != 11 || q.Negatives != 21 || !slices.Equal(q.Curve, want) || sum(q.Histogram) != 32 || len(q.Histogram) != len(f.Data.Histogram.Counts) {
 		t.Errorf("squared weights %+v, want positives 11, negatives 21, curve %v and histogram squares adding to 32", *q, want)
 	}
-	if got := Kish(f.Data.Positives, q.Positives); got != 25.0/11 {
+	if got := design.Kish(f.Data.Positives, q.Positives); got != 25.0/11 {
 		t.Errorf("Kish size of the true cases %v, want 25/11", got)
 	}
 	text, err := Marshal(f)

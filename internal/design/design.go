@@ -376,18 +376,24 @@ func (s *Sample) taylor(c, squares [4]float64, num, den []int) float64 {
 	return factor * ((1-r)*(1-r)*squaresIn + r*r*squaresOut) / (total * total)
 }
 
-// kish returns Kish's effective size of the denominator's cells,
-// (sum w)^2 / sum w^2.
+// kish returns Kish's effective size of the denominator's cells.
 func kish(c, squares [4]float64, den []int) float64 {
 	var total, sq float64
 	for _, k := range den {
 		total += c[k]
 		sq += squares[k]
 	}
-	if !(sq > 0) {
+	return Kish(total, sq)
+}
+
+// Kish returns Kish's effective size (sum w)^2 / (sum w^2) of cases of
+// total weight w whose squared weights add up to squares; 0 when squares
+// is not positive (no weight).
+func Kish(w, squares float64) float64 {
+	if !(squares > 0) {
 		return 0
 	}
-	return total * total / sq
+	return w * w / squares
 }
 
 // Trials returns the effective sample size of Korn and Graubard of a

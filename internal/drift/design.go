@@ -1,6 +1,10 @@
 package drift
 
-import "math"
+import (
+	"math"
+
+	"github.com/sill-tool/sill/internal/design"
+)
 
 // Sampling weights on the new data: the score tests read each bin's
 // weighted share with its linearised (Taylor) variance, the with-
@@ -35,13 +39,9 @@ func binShares(counts, squares []float64) (shares, variances []float64) {
 }
 
 // kishSize returns Kish's effective size of counts with squared weights
-// squares, (sum w)^2 / sum w^2; 0 without weight.
+// squares (design.Kish); 0 without weight.
 func kishSize(counts, squares []float64) float64 {
-	w, s := sum(counts), sum(squares)
-	if !(s > 0) {
-		return 0
-	}
-	return w * w / s
+	return design.Kish(sum(counts), sum(squares))
 }
 
 // designHomogeneity compares the weighted counts of two samples over the

@@ -21,6 +21,7 @@ import (
 	"sort"
 	"sync"
 
+	"github.com/sill-tool/sill/internal/design"
 	"github.com/sill-tool/sill/internal/scores"
 )
 
@@ -255,11 +256,11 @@ func (m *moments) addSquares(sq, x, y float64) {
 // samplingCovariance is the contribution of one class to the covariance
 // of two AUCs under sampling weights (see SamplingPaired): the sum of
 // w^2 (x - mean x)(y - mean y) over the class, over its squared weight,
-// times k/(k-1) with k Kish's effective size of the class, weight^2 /
-// squares (the number of rows when every row weighs the same). NaN when k
-// is 1 or less.
+// times k/(k-1) with k Kish's effective size of the class (design.Kish;
+// the number of rows when every row weighs the same). NaN when k is 1 or
+// less.
 func (m *moments) samplingCovariance() float64 {
-	k := m.weight * m.weight / m.squares
+	k := design.Kish(m.weight, m.squares)
 	if !(k-1 > 0) {
 		return math.NaN()
 	}
