@@ -516,3 +516,13 @@ func TestStripRedraws(t *testing.T) {
 		t.Error("redraws kept under new assumptions")
 	}
 }
+
+// TestResampledStatusFits: the line that says the bootstrap has run fits
+// one line of an 80-column screen with 200 resampled sets, so that it does
+// not wrap into the footer.
+func TestResampledStatusFits(t *testing.T) {
+	m := resample(t, demoBeyond(t, 80, 24))
+	if !strings.HasPrefix(m.status, "resampled ") || ansi.StringWidth(m.status) > 79 {
+		t.Errorf("status after b %q (%d columns), want one that starts with 'resampled ' and fits 79", m.status, ansi.StringWidth(m.status))
+	}
+}

@@ -108,7 +108,7 @@ func (m Model) resampleUpdate(msg tea.Msg) (tea.Model, tea.Cmd) {
 		default:
 			res := msg.result
 			m.s.stability = &res
-			m.status = fmt.Sprintf("resampled %d times (seed %d): the band is on the chart, the spread in the figures", res.Replicates, res.Seed)
+			m.status = fmt.Sprintf("resampled %d times (seed %d): band on the chart, redraws in the figures", res.Replicates, res.Seed)
 			if c, ok := m.s.costCheck(); ok && c.outside {
 				m.status = fmt.Sprintf("resampled %d times · warning: the scores are not calibrated for costing (e)", res.Replicates)
 			}
