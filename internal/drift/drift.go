@@ -517,9 +517,9 @@ func (r *Result) notes() []string {
 			shown := format.ShareDiff(wrong.Observed, wrong.Expected).Value
 			switch {
 			case shown < 0:
-				notes = append(notes, fmt.Sprintf("wrong-alert share %s against %s projected: fewer of the alerts are wrong, which follows the base rate and is no failure", format.Share(wrong.Observed), format.Share(wrong.Expected)))
+				notes = append(notes, fmt.Sprintf("wrong-alert share in the new data %s against %s projected: fewer of the alerts are wrong, which follows the base rate and is no failure", format.Share(wrong.Observed), format.Share(wrong.Expected)))
 			case shown > 0:
-				notes = append(notes, fmt.Sprintf("wrong-alert share %s against %s projected: more of the alerts are wrong, which follows the base rate", format.Share(wrong.Observed), format.Share(wrong.Expected)))
+				notes = append(notes, fmt.Sprintf("wrong-alert share in the new data %s against %s projected: more of the alerts are wrong, which follows the base rate", format.Share(wrong.Observed), format.Share(wrong.Expected)))
 			}
 		}
 		if !r.Precision.Defined {
@@ -572,7 +572,7 @@ func (r *Result) baseRateLine() string {
 // reprojectedLine gives the chosen cut's figures at the observed base rate.
 func (r *Result) reprojectedLine() string {
 	f := r.Reprojected
-	line := fmt.Sprintf("at the observed base rate the cut flags %s of cases (projected %s) with a wrong-alert share of %s (projected %s)",
+	line := fmt.Sprintf("re-projected at the observed base rate from the validated hit share and false positive rate, the cut flags %s of cases (projected %s) with a wrong-alert share of %s (projected %s)",
 		format.Share(f.AlertRate), format.Share(r.AlertRate.Expected), format.Share(1-f.Precision), format.Share(r.Precision.Complement().Expected))
 	if r.Volume > 0 {
 		line += fmt.Sprintf("; %s alerts per shift of %s cases (projected %s)", format.Queue(f.QueuePerShift), format.Count(r.Volume), format.Queue(r.Volume*r.AlertRate.Expected))

@@ -114,7 +114,7 @@ func TestWriteTextWords(t *testing.T) {
 	if n := strings.Count(out, "recall"); n != 1 || !strings.Contains(out, "hit share (recall)") {
 		t.Errorf("text names recall %d times, want once, as hit share (recall):\n%s", n, out)
 	}
-	if !strings.Contains(out, "wrong-alert share 25.0% against 20.0% projected: more of the alerts are wrong") {
+	if !strings.Contains(out, "wrong-alert share in the new data 25.0% against 20.0% projected: more of the alerts are wrong") {
 		t.Errorf("no finding on the wrong-alert share:\n%s", out)
 	}
 }
