@@ -46,13 +46,37 @@ var pageTemplate string
 
 var templates = template.Must(template.New("page").Parse(pageTemplate))
 
-// Write writes the sign-off page of f to w.
+// Write writes the sign-off page of f to w. Text from the file (names,
+// notes, rules, the model) is escaped for HTML by the template and then,
+// with the whole page, made printable (visible): a control character or
+// a bidirectional override in a candidate's name could otherwise hide or
+// reorder what the people signing read.
 func Write(w io.Writer, f *decision.File, opt Options) error {
 	v, err := newView(f, opt)
 	if err != nil {
 		return err
 	}
-	return templates.ExecuteTemplate(w, "page", v)
+	var page bytes.Buffer
+	if err := templates.ExecuteTemplate(&page, "page", v); err != nil {
+		return err
+	}
+	_, err = io.WriteString(w, printable(page.String()))
+	return err
+}
+
+// printable is format.Printable on every run of text between the page's
+// own line feeds and tabs, which it keeps (the page's layout holds both,
+// and in HTML they are white space).
+func printable(page string) string {
+	lines := strings.Split(page, "\n")
+	for i, line := range lines {
+		runs := strings.Split(line, "\t")
+		for j, run := range runs {
+			runs[j] = format.Printable(run)
+		}
+		lines[i] = strings.Join(runs, "\t")
+	}
+	return strings.Join(lines, "\n")
 }
 
 // view is what the template shows.

@@ -35,3 +35,32 @@ func TestStabilityByHand(t *testing.T) {
 		}
 	}
 }
+
+// TestControlsMadeVisible: a candidate's name holding a terminal escape
+// sequence and a right-to-left override reaches the page as visible
+// escapes ("\x1b", "\u202e"), not as characters that hide or reorder what
+// the people signing read; the page's own line feeds and tabs stay.
+func TestControlsMadeVisible(t *testing.T) {
+	f := fixture(t)
+	evil := "late\x1b[31m\u202eyad"
+	for i := range f.Candidates {
+		if f.Candidates[i].Name == f.Chosen {
+			f.Candidates[i].Name = evil
+		}
+	}
+	f.Chosen = evil
+	var b bytes.Buffer
+	if err := page.Write(&b, f, page.Options{Name: "parcels-cut.yaml"}); err != nil {
+		t.Fatal(err)
+	}
+	doc := b.String()
+	if strings.ContainsAny(doc, "\x1b\u202e") {
+		t.Error("the page holds the escape character or the override as they are")
+	}
+	if !strings.Contains(doc, `late\x1b[31m\u202eyad`) {
+		t.Error("the name is not shown with its controls written out")
+	}
+	if !strings.Contains(doc, "\n") || !strings.Contains(doc, "\t") {
+		t.Error("the page lost its own line feeds or tabs")
+	}
+}
